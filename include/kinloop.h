@@ -1,0 +1,535 @@
+/*
+ * kinloop.h - the one public header of kinloop, an embeddable C99 library
+ * for the position, velocity and acceleration of planar multi-loop linkages.
+ *
+ * Conventions that hold for every function below:
+ *  - Angles are in radians, measured counter-clockwise from the global x-axis
+ *    (link angles) or from a link's local x-axis (axis angles). Lengths are in
+ *    any one consistent unit chosen by the caller; rates are per the caller's
+ *    time unit.
+ *  - Ids are non-negative ints, each kind numbered from 0 in order of
+ *    creation. Link 0 is ground (KL_GROUND) and exists from the start.
+ *  - Every call that can fail returns an int status: KL_OK (0) on success, a
+ *    positive value for success with a remark, a negative KL_E* value on
+ *    failure. A failed call changes nothing: the model or solver stays exactly
+ *    as it was before the call.
+ *  - The handle that failed keeps a message naming the offending ids and
+ *    names (kl_model_error, kl_solver_error); the library never prints, exits,
+ *    aborts or uses global mutable state.
+ *  - Memory: models and solvers allocate only through the allocator given at
+ *    model creation. No call on a solver allocates after kl_solver_new.
+ *  - Threads: a finalized model is immutable and may be shared by solvers on
+ *    any number of threads; a solver or an unfinalized model is used by one
+ *    thread at a time.
+ */
+#ifndef KINLOOP_H
+#define KINLOOP_H
+
+#include <stddef.h>
+
+#ifdef __cplusplus
+extern "C" {
+#endif
+
+#if defined(KINLOOP_BUILDING) && defined(__GNUC__)
+#define KL_API __attribute__((visibility("default")))
+#else
+#define KL_API
+#endif
+
+/* ------------------------------------------------------------------------
+ * Version
+ * ------------------------------------------------------------------------ */
+
+#define KINLOOP_VERSION_MAJOR 0
+#define KINLOOP_VERSION_MINOR 1
+#define KINLOOP_VERSION_PATCH 0
+#define KINLOOP_VERSION "0.1.0"
+/** MAJOR * 10000 + MINOR * 100 + PATCH, for compile-time comparisons. */
+#define KINLOOP_VERSION_NUMBER                                                 \
+  (KINLOOP_VERSION_MAJOR * 10000 + KINLOOP_VERSION_MINOR * 100 +               \
+   KINLOOP_VERSION_PATCH)
+
+/**
+ * The library's version string, "MAJOR.MINOR.PATCH". Compare it (or
+ * kl_version_number()) with KINLOOP_VERSION to check that the header a program
+ * was compiled against matches the library it runs with.
+ * Never fails; the string is static and owned by the library.
+ */
+KL_API const char *kl_version(void);
+
+/** The library's KINLOOP_VERSION_NUMBER, the runtime twin of the macro. */
+KL_API int kl_version_number(void);
+
+/* ------------------------------------------------------------------------
+ * Status codes
+ * ------------------------------------------------------------------------ */
+
+enum kl_status {
+  KL_OK = 0,               /**< success */
+  KL_LIMIT = 1,            /**< success with a remark: a motion limit was reached */
+  KL_ENOMEM = -1,          /**< the allocator returned NULL */
+  KL_EINVAL = -2,          /**< invalid argument: NULL pointer, bad count or option */
+  KL_ENONFINITE = -3,      /**< a number is NaN or infinite */
+  KL_EID = -4,             /**< unknown or negative id */
+  KL_EKIND = -5,           /**< id of the wrong kind (e.g. a slide of a revolute joint) */
+  KL_ESTATE = -6,          /**< call not allowed in this state (e.g. builder after finalize) */
+  KL_ESELFJOINT = -7,      /**< a joint joins a link to itself */
+  KL_EDUPLICATE = -8,      /**< duplicate joint, input or name */
+  KL_EDISCONNECTED = -9,   /**< a link is not connected to ground */
+  KL_EZEROLENGTH = -10,    /**< zero-length link or zero-length slide axis */
+  KL_ELOOP = -11,          /**< a registered loop is not a simple cycle of joints */
+  KL_ELOOPSET = -12,       /**< registered loops are not independent or not a full set */
+  KL_EOVERCONSTRAINED = -13, /**< more constraints than the links can take */
+  KL_EDOF = -14,           /**< number of inputs differs from the degrees of freedom */
+  KL_EUNDETERMINED = -15,  /**< an unknown that no equation determines */
+  KL_EMAXITER = -16,       /**< position: no convergence within the iteration limit */
+  KL_ENOASSEMBLY = -17,    /**< position: the loops cannot close at these inputs */
+  KL_ESINGULAR = -18,      /**< singular Jacobian: dead point, toggle or change point */
+  KL_ESTAGE = -19,         /**< a stage called before the stage it needs succeeded */
+  KL_ESTOPPED = -20        /**< a callback asked to stop */
+};
+
+/**
+ * A short constant English text for a status, e.g. "no assembly". Unknown
+ * values give "unknown status". Never fails; the string is static.
+ */
+KL_API const char *kl_status_str(int status);
+
+/* ------------------------------------------------------------------------
+ * Building a model
+ * ------------------------------------------------------------------------ */
+
+/** Link id of ground, the fixed link whose frame is the global frame. */
+#define KL_GROUND 0
+
+/** Joint kinds, as returned by kl_joint_kind(). */
+enum kl_joint_kind {
+  KL_REVOLUTE = 0,  /**< pin: the two attachment points coincide */
+  KL_PRISMATIC = 1, /**< slider: b's point runs on a line of a; b keeps a's angle */
+  KL_SLOT = 2       /**< pin in slot: b's point runs on a line of a; b may turn */
+};
+
+/**
+ * Allocator hook, realloc-style: resize the block `ptr` of `old_size` bytes
+ * to `new_size` bytes and return it. `ptr` NULL means allocate; `new_size` 0
+ * means free `ptr` and return NULL. Return NULL when memory is exhausted
+ * (the library then fails with KL_ENOMEM and leaves everything as it was).
+ * Blocks handed out must be aligned for any C object, as malloc's are.
+ * `user` is the pointer given with the hook. A model and all its solvers call
+ * the hook; if solvers of one model run on several threads, the hook must be
+ * thread-safe.
+ */
+typedef void *(*kl_alloc_fn)(void *user, void *ptr, size_t old_size,
+                             size_t new_size);
+
+typedef struct kl_model kl_model;
+
+/**
+ * A new, empty model holding only ground (link 0, named "ground"), using
+ * malloc/realloc/free. Returns NULL when memory is exhausted. Free with
+ * kl_model_free().
+ */
+KL_API kl_model *kl_model_new(void);
+
+/**
+ * As kl_model_new(), with every allocation of the model and of its solvers
+ * made through `fn` with `user`. Returns NULL if `fn` is NULL or fails.
+ */
+KL_API kl_model *kl_model_new_with_alloc(kl_alloc_fn fn, void *user);
+
+/**
+ * Frees the model and everything it owns. NULL does nothing. Every solver
+ * made from the model must be freed first.
+ */
+KL_API void kl_model_free(kl_model *m);
+
+/**
+ * The message of the model's last failed call, naming the ids and names
+ * involved; "" if none failed yet. Owned by the model; valid until the next
+ * call on the model. A NULL model gives a fixed text.
+ */
+KL_API const char *kl_model_error(const kl_model *m);
+
+/**
+ * Adds a moving link. `name` may be NULL (the link is then called by its id
+ * alone); otherwise it is copied and must be 1 to 255 bytes without control
+ * characters and not used by another link.
+ * Returns the new link id (>= 1), or KL_EINVAL (bad name), KL_EDUPLICATE (name
+ * taken), KL_ESTATE (model finalized), KL_ENOMEM.
+ */
+KL_API int kl_add_link(kl_model *m, const char *name);
+
+/**
+ * Adds a revolute (pin) joint: point (ax, ay) in link a's frame coincides with
+ * point (bx, by) in link b's frame. Its joint coordinate is the relative angle
+ * angle(b) - angle(a).
+ * Returns the new joint id, or KL_EID (unknown link), KL_ESELFJOINT (a == b),
+ * KL_ENONFINITE, KL_EDUPLICATE (another joint of the same kind already joins
+ * the same two links), KL_ESTATE (finalized), KL_ENOMEM.
+ */
+KL_API int kl_add_revolute(kl_model *m, int a, double ax, double ay, int b,
+                           double bx, double by);
+
+/**
+ * Adds a prismatic (slider) joint: point (bx, by) of link b lies on the line
+ * of link a through (ax, ay) at `axis_angle` (radians, in a's frame), and b
+ * keeps a's orientation, so b's local points are given in a frame parallel to
+ * a's. The joint coordinate, the slide s, is the signed distance from a's
+ * point to b's point along the axis direction (cos axis_angle, sin axis_angle).
+ * Returns the new joint id or the statuses of kl_add_revolute().
+ */
+KL_API int kl_add_prismatic(kl_model *m, int a, double ax, double ay,
+                            double axis_angle, int b, double bx, double by);
+
+/**
+ * Adds a slot (pin-in-slot) joint: as kl_add_prismatic() without the rotation
+ * lock, so b may turn against a (two freedoms). Its slide is the coordinate an
+ * input prescribes; its relative angle stays free.
+ * Returns the new joint id or the statuses of kl_add_revolute().
+ */
+KL_API int kl_add_slot(kl_model *m, int a, double ax, double ay,
+                       double axis_angle, int b, double bx, double by);
+
+/**
+ * As kl_add_prismatic(), with the slide line of link a given by two of its
+ * points: the slide is measured from (ax, ay) toward (tx, ty).
+ * Returns as kl_add_prismatic(), and KL_EZEROLENGTH if the two points coincide.
+ */
+KL_API int kl_add_prismatic_through(kl_model *m, int a, double ax, double ay,
+                                    double tx, double ty, int b, double bx,
+                                    double by);
+
+/** As kl_add_prismatic_through(), for a slot joint. */
+KL_API int kl_add_slot_through(kl_model *m, int a, double ax, double ay,
+                               double tx, double ty, int b, double bx,
+                               double by);
+
+/**
+ * Adds a named point (x, y) in the frame of `link` (ground allowed): a coupler
+ * point, a tool tip. `name` follows the rules of kl_add_link() among points.
+ * Returns the new point id, or KL_EID, KL_ENONFINITE, KL_EINVAL,
+ * KL_EDUPLICATE, KL_ESTATE, KL_ENOMEM.
+ */
+KL_API int kl_add_point(kl_model *m, int link, double x, double y,
+                        const char *name);
+
+/**
+ * Makes the coordinate of `joint` an input (driver): the relative angle of a
+ * revolute joint, the slide of a prismatic or slot joint. Inputs are numbered
+ * from 0 in the order added, and that is the order of every inputs array.
+ * Returns the input's index, or KL_EID, KL_EDUPLICATE (already an input),
+ * KL_ESTATE, KL_ENOMEM.
+ */
+KL_API int kl_add_input(kl_model *m, int joint);
+
+/**
+ * Registers a loop: `njoints` (>= 2) joint ids in the order a walk around one
+ * simple cycle meets them; consecutive joints (and the last with the first)
+ * must share a link, and no link may be visited twice. If any loop is
+ * registered, the registered loops must form a full independent set
+ * (checked by kl_model_finalize); if none is, kinloop finds them itself.
+ * Returns the loop's index, or KL_EINVAL (NULL or njoints < 2), KL_EID,
+ * KL_ELOOP (not a simple cycle), KL_ESTATE, KL_ENOMEM.
+ */
+KL_API int kl_add_loop(kl_model *m, int njoints, const int *joints);
+
+/**
+ * Checks the topology and prepares the equations. After success the model is
+ * immutable: builders fail with KL_ESTATE, and solvers may be made.
+ * Checks, each with its own status and a message naming ids and names:
+ *  KL_EDISCONNECTED  a link not connected to ground through joints
+ *  KL_ELOOPSET       registered loops not independent, or not a full set
+ *  KL_EOVERCONSTRAINED  Gruebler's count below zero, or a link angle fixed
+ *                    twice over by prismatic joints and revolute inputs
+ *  KL_EDOF           number of inputs differs from the degrees of freedom
+ *  KL_EZEROLENGTH    a link whose joints all stand at one point, so that its
+ *                    angle is undetermined
+ *  KL_EUNDETERMINED  an angle or slide that no loop equation can determine
+ *  KL_ENOMEM
+ * On failure the model stays unfinalized and may be changed and finalized
+ * again. Calling it on a finalized model returns KL_OK and does nothing.
+ */
+KL_API int kl_model_finalize(kl_model *m);
+
+/** 1 if the model is finalized, 0 if not (or NULL). */
+KL_API int kl_model_is_finalized(const kl_model *m);
+
+/**
+ * Degrees of freedom by Gruebler's (Kutzbach's) count for planar linkages,
+ * 3 (links - 1) - 2 (revolute + prismatic joints) - (slot joints); KL_ESTATE
+ * before finalize, KL_EINVAL for NULL.
+ */
+KL_API int kl_model_dof(const kl_model *m);
+
+/** Number of independent loops (registered or found); KL_ESTATE before finalize. */
+KL_API int kl_model_loop_count(const kl_model *m);
+
+/**
+ * The joints of loop `loop` in walking order: writes up to `cap` ids into
+ * `joints` (may be NULL when cap is 0) and returns the loop's joint count, or
+ * KL_ESTATE (not finalized), KL_EID, KL_EINVAL.
+ */
+KL_API int kl_model_loop(const kl_model *m, int loop, int *joints, int cap);
+
+/**
+ * The model's length scale: the largest distance between two joint
+ * attachment points on one link (1 if every link is of zero size). Position
+ * tolerances are relative to it. NaN before finalize and for NULL.
+ */
+KL_API double kl_model_scale(const kl_model *m);
+
+/* Reading a model back. Getters that return an int give KL_EID for an unknown
+ * id and KL_EINVAL for NULL pointers; they never set the model's message. */
+
+KL_API int kl_model_link_count(const kl_model *m);  /**< links including ground */
+KL_API int kl_model_joint_count(const kl_model *m);
+KL_API int kl_model_point_count(const kl_model *m);
+KL_API int kl_model_input_count(const kl_model *m);
+
+/** The link's name, "ground" for link 0, NULL if unnamed or unknown. */
+KL_API const char *kl_link_name(const kl_model *m, int link);
+/** The point's name, NULL if unnamed or unknown. */
+KL_API const char *kl_point_name(const kl_model *m, int point);
+/** The id of the link named `name`, or KL_EID if there is none. */
+KL_API int kl_link_find(const kl_model *m, const char *name);
+/** The id of the point named `name`, or KL_EID if there is none. */
+KL_API int kl_point_find(const kl_model *m, const char *name);
+/** The link a point belongs to, and its local coordinates into `xy` (may be NULL). */
+KL_API int kl_point_link(const kl_model *m, int point, double xy[2]);
+/** KL_REVOLUTE, KL_PRISMATIC or KL_SLOT, or KL_EID. */
+KL_API int kl_joint_kind(const kl_model *m, int joint);
+/**
+ * The joint's links into `links` ([0] = a, [1] = b) and its attachment points
+ * into `a_xy` and `b_xy` (each may be NULL). Returns KL_OK or KL_EID.
+ */
+KL_API int kl_joint_links(const kl_model *m, int joint, int links[2],
+                          double a_xy[2], double b_xy[2]);
+/** The slide axis angle of a prismatic or slot joint in a's frame; NaN otherwise. */
+KL_API double kl_joint_axis(const kl_model *m, int joint);
+/** The joint an input drives, or KL_EID. */
+KL_API int kl_input_joint(const kl_model *m, int input);
+
+/* ------------------------------------------------------------------------
+ * Solving
+ * ------------------------------------------------------------------------ */
+
+typedef struct kl_solver kl_solver;
+
+/**
+ * Solver options. Always start from kl_options_default(), which sets `size`;
+ * fields added in later versions come after the existing ones.
+ */
+typedef struct kl_options {
+  size_t size;             /**< sizeof(kl_options), set by kl_options_default */
+  double tolerance;        /**< residual |F|inf <= tolerance * scale; default 1e-12 */
+  double step_tolerance;   /**< Newton step |dq|inf (rad, slides / scale); default 1e-10 */
+  int max_iterations;      /**< Newton iterations per position solve; default 50 */
+  int max_backtracks;      /**< line-search halvings per iteration; default 40 */
+  double max_step;         /**< largest Newton step: rad, or scale units for slides; default 1 */
+  double singular_rcond;   /**< rcond below this at the solution is singular; default 1e-8 */
+} kl_options;
+
+/** Fills `o` with the default options (and `o->size`). NULL does nothing. */
+KL_API void kl_options_default(kl_options *o);
+
+/**
+ * A new solver for a finalized model, with all the memory every later call
+ * needs, taken here from the model's allocator. Its state starts with every
+ * link angle and slide at 0 (set sketch values with kl_set_link_angle and
+ * kl_set_joint_slide before the first solve). Returns NULL if `m` is NULL, not
+ * finalized (see kl_model_is_finalized), or memory is exhausted; it never
+ * writes to the model, so many threads may make solvers from one model at
+ * once. The model must outlive the solver.
+ */
+KL_API kl_solver *kl_solver_new(const kl_model *m);
+
+/**
+ * Bytes a solver for `m` needs inside a caller-supplied block, or 0 if `m` is
+ * NULL or not finalized.
+ */
+KL_API size_t kl_solver_bytes(const kl_model *m);
+
+/**
+ * A new solver placed inside the caller's `block` of `size` bytes (at least
+ * kl_solver_bytes(m), aligned as malloc aligns), so that no heap is used at
+ * all; the block must stay valid until kl_solver_free, which then frees
+ * nothing. Returns NULL if an argument is bad or the block is too small.
+ */
+KL_API kl_solver *kl_solver_new_in(const kl_model *m, void *block, size_t size);
+
+/** Frees a solver (nothing for one made by kl_solver_new_in). NULL does nothing. */
+KL_API void kl_solver_free(kl_solver *s);
+
+/** The model the solver was made for. */
+KL_API const kl_model *kl_solver_model(const kl_solver *s);
+
+/**
+ * The message of the solver's last failed call; "" if none failed yet. Owned
+ * by the solver; valid until the next call on it.
+ */
+KL_API const char *kl_solver_error(const kl_solver *s);
+
+/**
+ * Sets the solver's options (copied). Returns KL_OK, or KL_EINVAL for NULL, a
+ * `size` that is too small, a tolerance not in (0, 1e-3], a step tolerance
+ * not in (0, 1e-2], fewer than 1 or more than 10000 iterations, backtracks
+ * not in [0, 100], a max_step not in (0, 100], or a singular_rcond not in
+ * [0, 1e-3). KL_ENONFINITE for NaN or infinite values. Never allocates.
+ */
+KL_API int kl_solver_set_options(kl_solver *s, const kl_options *o);
+
+/** Copies the solver's options into `o` (up to o->size bytes if set, else all). */
+KL_API int kl_solver_get_options(const kl_solver *s, kl_options *o);
+
+/**
+ * Sketch: sets a link's angle (radians) in the solver's state, the starting
+ * guess that chooses the assembly mode of the next position solve; whole
+ * turns do not matter. A link whose angle follows another's through a
+ * prismatic joint or a revolute input moves that other link so that this one
+ * gets `angle` at the last inputs solved (or zero inputs before any solve); a
+ * link whose angle the inputs alone set (a crank driven from ground) keeps
+ * it, as the next solve sets it exactly anyway.
+ * Invalidates the solved position. Returns KL_OK, KL_EID, KL_EKIND (ground),
+ * KL_ENONFINITE, KL_EINVAL (NULL solver).
+ */
+KL_API int kl_set_link_angle(kl_solver *s, int link, double angle);
+
+/**
+ * Sketch: sets the slide of a prismatic or slot joint in the solver's state
+ * (an input slide keeps its value: the next solve sets it exactly).
+ * Invalidates the solved position. Returns KL_OK, KL_EID, KL_EKIND (revolute
+ * joint), KL_ENONFINITE, KL_EINVAL (NULL solver).
+ */
+KL_API int kl_set_joint_slide(kl_solver *s, int joint, double slide);
+
+/**
+ * Position stage: solves the loop-closure equations at `inputs` (one per
+ * input, in input order; may be NULL when the model has none) by
+ * Newton-Raphson with LAPACK LU and a backtracking line search, starting from
+ * the solver's current state, which thereby chooses the assembly mode. The
+ * driven coordinates are set exactly before iterating.
+ * Returns KL_OK, and on failure leaves the state exactly as it was:
+ *  KL_ENONFINITE    an input is NaN or infinite
+ *  KL_ENOASSEMBLY   the loops cannot close at these inputs (the residual
+ *                   stalls at a positive minimum)
+ *  KL_EMAXITER      no convergence within max_iterations
+ *  KL_ESINGULAR     converged to a position where the Jacobian is singular
+ *                   (rcond < singular_rcond): dead point, toggle, change point
+ *  KL_EINVAL        NULL solver, or NULL inputs for a model with inputs
+ * Never allocates. kl_solver_stats() describes the attempt either way.
+ */
+KL_API int kl_solve_position(kl_solver *s, const double *inputs);
+
+/**
+ * Velocity stage: link rates, slide rates and point velocities for the
+ * `input_rates` (per input, rad or length per time unit; NULL when the model
+ * has none), at the position last solved. Uses the LU factors of the
+ * Jacobian at the converged position.
+ * Returns KL_OK, KL_ESTAGE (no position solved at the current inputs),
+ * KL_ESINGULAR (the Jacobian is singular there), KL_ENONFINITE, KL_EINVAL.
+ * On failure the state is unchanged. Never allocates.
+ */
+KL_API int kl_solve_velocity(kl_solver *s, const double *input_rates);
+
+/**
+ * Acceleration stage: link, slide and point accelerations for the
+ * `input_accels` (NULL when the model has none), at the position and rates
+ * last solved. Includes every second-order term (centripetal terms of the
+ * rotating link vectors, the Coriolis term 2 sdot omega of each slide on a
+ * rotating link). Returns KL_OK, KL_ESTAGE (no velocity solved at the current
+ * position), KL_ESINGULAR, KL_ENONFINITE, KL_EINVAL. Never allocates.
+ */
+KL_API int kl_solve_acceleration(kl_solver *s, const double *input_accels);
+
+/**
+ * Statistics of the last position solve attempt, successful or not. Fill
+ * `size` with sizeof(kl_solve_stats) first; fields past it are not written.
+ */
+typedef struct kl_solve_stats {
+  size_t size;              /**< sizeof(kl_solve_stats), set by the caller */
+  int status;               /**< what kl_solve_position returned */
+  int iterations;           /**< Newton iterations taken */
+  int residual_evaluations; /**< evaluations of the loop equations */
+  int factorizations;       /**< LU factorizations of the Jacobian */
+  int backtracks;           /**< line-search step reductions, all iterations */
+  double residual;          /**< |F|inf at the final iterate, length units */
+  double step;              /**< |dq|inf of the last Newton step */
+  double rcond;             /**< LAPACK dgecon reciprocal condition (1-norm) at the final iterate; 0 if singular */
+} kl_solve_stats;
+
+/** Copies the statistics of the last position attempt. KL_OK or KL_EINVAL. */
+KL_API int kl_solver_stats(const kl_solver *s, kl_solve_stats *st);
+
+/* ------------------------------------------------------------------------
+ * Results. They read the solver's current state: the position last solved
+ * (or the sketch set since), and the rates and accelerations last solved at
+ * that position. A rate or acceleration not solved at the current position
+ * reads as NaN (getters returning double) or KL_ESTAGE (getters returning an
+ * int); an unknown id reads as NaN or KL_EID. Getters never allocate.
+ * ------------------------------------------------------------------------ */
+
+KL_API double kl_link_angle(const kl_solver *s, int link);  /**< rad, absolute */
+KL_API double kl_link_rate(const kl_solver *s, int link);   /**< rad per time */
+KL_API double kl_link_accel(const kl_solver *s, int link);  /**< rad per time^2 */
+/** Slide of a prismatic or slot joint (length); NaN for revolute joints. */
+KL_API double kl_joint_slide(const kl_solver *s, int joint);
+KL_API double kl_joint_slide_rate(const kl_solver *s, int joint);
+KL_API double kl_joint_slide_accel(const kl_solver *s, int joint);
+/** Relative angle angle(b) - angle(a) of a joint (rad; 0 for prismatic). */
+KL_API double kl_joint_angle(const kl_solver *s, int joint);
+/** The value of input `input` at the position last solved; NaN before any. */
+KL_API double kl_input_value(const kl_solver *s, int input);
+
+/**
+ * Global position of a link's frame origin into `xy`: with kl_link_angle it
+ * places every local point of the link. KL_OK, KL_EID, KL_EINVAL.
+ */
+KL_API int kl_link_origin(const kl_solver *s, int link, double xy[2]);
+/** Global position of a point into `xy`. KL_OK, KL_EID, KL_EINVAL. */
+KL_API int kl_point_position(const kl_solver *s, int point, double xy[2]);
+/** Global velocity of a point. KL_OK, KL_EID, KL_EINVAL, KL_ESTAGE. */
+KL_API int kl_point_velocity(const kl_solver *s, int point, double xy[2]);
+/**
+ * Global acceleration of a point, its tangential and normal parts included.
+ * KL_OK, KL_EID, KL_EINVAL, KL_ESTAGE.
+ */
+KL_API int kl_point_acceleration(const kl_solver *s, int point, double xy[2]);
+
+/* ------------------------------------------------------------------------
+ * Kinematic (influence) coefficients: derivatives of the position with
+ * respect to the inputs, the velocity ratios and their rates of change.
+ * ------------------------------------------------------------------------ */
+
+/**
+ * Computes the first- and second-order kinematic coefficients at the
+ * position last solved, for every coordinate and point and every input:
+ * d q / d u_i and d^2 q / (d u_i d u_j). Uses the factors of the converged
+ * position; leaves the velocity and acceleration results untouched.
+ * Returns KL_OK, KL_ESTAGE (no position solved at the current inputs),
+ * KL_ESINGULAR, KL_EINVAL. Never allocates.
+ */
+KL_API int kl_solve_coefficients(kl_solver *s);
+
+/** d angle(link) / d u_input (rad per input unit); NaN if not computed. */
+KL_API double kl_link_angle_deriv(const kl_solver *s, int link, int input);
+/** d^2 angle(link) / (d u_i d u_j); NaN if not computed. */
+KL_API double kl_link_angle_deriv2(const kl_solver *s, int link, int input_i,
+                                   int input_j);
+/** d slide(joint) / d u_input; NaN for revolute joints or if not computed. */
+KL_API double kl_joint_slide_deriv(const kl_solver *s, int joint, int input);
+/** d^2 slide(joint) / (d u_i d u_j). */
+KL_API double kl_joint_slide_deriv2(const kl_solver *s, int joint, int input_i,
+                                    int input_j);
+/** d position(point) / d u_input into `xy`. KL_OK, KL_EID, KL_EINVAL, KL_ESTAGE. */
+KL_API int kl_point_deriv(const kl_solver *s, int point, int input,
+                          double xy[2]);
+/** d^2 position(point) / (d u_i d u_j) into `xy`. As kl_point_deriv. */
+KL_API int kl_point_deriv2(const kl_solver *s, int point, int input_i,
+                           int input_j, double xy[2]);
+
+#ifdef __cplusplus
+}
+#endif
+
+#endif /* KINLOOP_H */

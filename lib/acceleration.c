@@ -1,0 +1,59 @@
+/*
+ * acceleration.c - the acceleration stage: J qddot = -((dF/du) uddot +
+ * centripetal and Coriolis terms), with the same factors as the velocity.
+ */
+#include <math.h>
+#include <string.h>
+
+#include "velocity.h"
+
+int kl_solve_acceleration(kl_solver *s, const double *input_accels) {
+  int st;
+  if (s == NULL)
+    return KL_EINVAL;
+  if ((st = kli_check_input_values(s, input_accels, "solve acceleration",
+                                   "input acceleration")) != KL_OK ||
+      (st = kli_require_position(s, "solve acceleration")) != KL_OK)
+    return st;
+  if (!s->velocity_solved)
+    return kli_fail(s->error, KL_ESTAGE,
+                    "solve acceleration needs the velocity solved at the "
+                    "current position first");
+  kli_input_terms(s, input_accels, s->rhs);
+  kli_loops_add_second(s->model, &s->pose, s->xd, s->xd, s->rhs);
+  kli_rate_solve(s, s->rhs, input_accels, s->xdd);
+  if (s->ninputs > 0)
+    memcpy(s->udd, input_accels, (size_t)s->ninputs * sizeof(double));
+  s->acceleration_solved = 1;
+  return KL_OK;
+}
+
+static int accel_ready(const kl_solver *s) {
+  return s != NULL && s->acceleration_solved;
+}
+
+double kl_link_accel(const kl_solver *s, int link) {
+  if (!accel_ready(s) || link < 0 || link >= s->model->nlinks)
+    return NAN;
+  return s->xdd[link];
+}
+
+double kl_joint_slide_accel(const kl_solver *s, int joint) {
+  if (!accel_ready(s) || isnan(kl_joint_slide(s, joint)))
+    return NAN;
+  return s->xdd[s->model->nlinks + joint];
+}
+
+int kl_point_acceleration(const kl_solver *s, int point, double xy[2]) {
+  if (s == NULL || xy == NULL)
+    return KL_EINVAL;
+  if (point < 0 || point >= s->model->npoints)
+    return KL_EID;
+  if (!s->acceleration_solved)
+    return KL_ESTAGE;
+  /* the tangential and slide parts come with xdd, the normal and Coriolis
+   * parts with the rates */
+  kli_chain_accel(s->model, &s->model->topo.points[point], &s->pose, s->xd,
+                  s->xd, s->xdd, xy);
+  return KL_OK;
+}

@@ -1,0 +1,201 @@
+/*
+ * equations.c - vector chains evaluated at a pose: loop residuals, Jacobian
+ * values on the sparsity pattern, rates along coordinate velocities and the
+ * second-order (centripetal and Coriolis) terms.
+ */
+#include <math.h>
+#include <string.h>
+
+#include "equations.h"
+
+void kli_expand(const kl_model *m, const double *q, const double *u,
+                double *x) {
+  const kli_topology *t = &m->topo;
+  int i, j;
+  for (i = 0; i < m->nlinks; i++) {
+    int l = t->angle_order[i], parent = t->angle_parent[l];
+    if (t->angle_var[l] >= 0)
+      x[l] = q != NULL ? q[t->angle_var[l]] : 0.0;
+    else if (parent < 0)
+      x[l] = 0.0; /* ground */
+    else
+      x[l] = x[parent] + (t->angle_input[l] >= 0 && u != NULL
+                              ? t->angle_sign[l] * u[t->angle_input[l]]
+                              : 0.0);
+  }
+  for (j = 0; j < m->njoints; j++) {
+    double *slide = &x[m->nlinks + j];
+    if (t->slide_var[j] >= 0)
+      *slide = q != NULL ? q[t->slide_var[j]] : 0.0;
+    else if (t->slide_input[j] >= 0)
+      *slide = u != NULL ? u[t->slide_input[j]] : 0.0;
+    else
+      *slide = 0.0;
+  }
+}
+
+void kli_gather(const kl_model *m, const double *x, double *q) {
+  int v;
+  for (v = 0; v < m->topo.nvars; v++)
+    q[v] = x[m->topo.var_coord[v]];
+}
+
+void kli_pose_trig(const kl_model *m, kli_pose *p) {
+  int l;
+  for (l = 0; l < m->nlinks; l++) {
+    p->c[l] = cos(p->x[l]);
+    p->s[l] = sin(p->x[l]);
+  }
+}
+
+/* Unit direction of a slide term's axis at pose p. */
+static void slide_dir(const kl_model *m, const kli_term *t, const kli_pose *p,
+                      double d[2]) {
+  const double *ax = m->joints[t->joint].axis_cs;
+  double c = p->c[t->link], s = p->s[t->link];
+  d[0] = c * ax[0] - s * ax[1];
+  d[1] = s * ax[0] + c * ax[1];
+}
+
+/* R(angle) v for a link term. */
+static void rotated(const kli_term *t, const kli_pose *p, double r[2]) {
+  double c = p->c[t->link], s = p->s[t->link];
+  r[0] = c * t->v[0] - s * t->v[1];
+  r[1] = s * t->v[0] + c * t->v[1];
+}
+
+void kli_chain_value(const kl_model *m, const kli_chain *ch, const kli_pose *p,
+                     double out[2]) {
+  const kli_term *t = m->topo.terms + ch->first;
+  int k;
+  out[0] = out[1] = 0.0;
+  for (k = 0; k < ch->count; k++, t++) {
+    double r[2];
+    if (t->joint < 0) {
+      rotated(t, p, r);
+    } else {
+      double s = t->sign * p->x[m->nlinks + t->joint];
+      slide_dir(m, t, p, r);
+      r[0] *= s;
+      r[1] *= s;
+    }
+    out[0] += r[0];
+    out[1] += r[1];
+  }
+}
+
+void kli_chain_rate(const kl_model *m, const kli_chain *ch, const kli_pose *p,
+                    const double *v, double out[2]) {
+  const kli_term *t = m->topo.terms + ch->first;
+  int k;
+  out[0] = out[1] = 0.0;
+  for (k = 0; k < ch->count; k++, t++) {
+    double r[2], w = v[t->link];
+    if (t->joint < 0) {
+      rotated(t, p, r);
+      out[0] -= w * r[1];
+      out[1] += w * r[0];
+    } else {
+      int si = m->nlinks + t->joint;
+      double s = p->x[si], sd = v[si];
+      slide_dir(m, t, p, r);
+      /* d/dt (s d) = sdot d + s omega d-perp */
+      out[0] += t->sign * (sd * r[0] - s * w * r[1]);
+      out[1] += t->sign * (sd * r[1] + s * w * r[0]);
+    }
+  }
+}
+
+void kli_chain_second(const kl_model *m, const kli_chain *ch,
+                      const kli_pose *p, const double *va, const double *vb,
+                      double out[2]) {
+  const kli_term *t = m->topo.terms + ch->first;
+  int k;
+  out[0] = out[1] = 0.0;
+  for (k = 0; k < ch->count; k++, t++) {
+    double r[2], wa = va[t->link], wb = vb[t->link];
+    if (t->joint < 0) {
+      /* centripetal: -omega^2 R v */
+      rotated(t, p, r);
+      out[0] -= wa * wb * r[0];
+      out[1] -= wa * wb * r[1];
+    } else {
+      int si = m->nlinks + t->joint;
+      double s = p->x[si];
+      /* Coriolis (sdot_a omega_b + sdot_b omega_a) d-perp, and the
+       * centripetal part -s omega_a omega_b d of the slide's vector */
+      double cor = va[si] * wb + vb[si] * wa, cen = s * wa * wb;
+      slide_dir(m, t, p, r);
+      out[0] += t->sign * (-cor * r[1] - cen * r[0]);
+      out[1] += t->sign * (cor * r[0] - cen * r[1]);
+    }
+  }
+}
+
+void kli_chain_accel(const kl_model *m, const kli_chain *ch, const kli_pose *p,
+                     const double *va, const double *vb, const double *vdd,
+                     double out[2]) {
+  double second[2];
+  kli_chain_rate(m, ch, p, vdd, out);
+  kli_chain_second(m, ch, p, va, vb, second);
+  out[0] += second[0];
+  out[1] += second[1];
+}
+
+double kli_residual(const kl_model *m, const kli_pose *p, double *f) {
+  double norm = 0.0;
+  int i;
+  for (i = 0; i < m->topo.nloops; i++) {
+    kli_chain_value(m, &m->topo.loops[i], p, f + 2 * i);
+    norm = fmax(norm, fmax(fabs(f[2 * i]), fabs(f[2 * i + 1])));
+  }
+  return norm;
+}
+
+void kli_loops_rate(const kl_model *m, const kli_pose *p, const double *v,
+                    double *out) {
+  int i;
+  for (i = 0; i < m->topo.nloops; i++)
+    kli_chain_rate(m, &m->topo.loops[i], p, v, out + 2 * i);
+}
+
+void kli_loops_add_second(const kl_model *m, const kli_pose *p,
+                          const double *va, const double *vb, double *out) {
+  int i;
+  for (i = 0; i < m->topo.nloops; i++) {
+    double b[2];
+    kli_chain_second(m, &m->topo.loops[i], p, va, vb, b);
+    out[2 * i] += b[0];
+    out[2 * i + 1] += b[1];
+  }
+}
+
+void kli_jacobian_pairs(const kl_model *m, const kli_pose *p, double *pairs) {
+  const kli_topology *top = &m->topo;
+  int i, k;
+  memset(pairs, 0, (size_t)top->nnz_pairs * 2 * sizeof *pairs);
+  for (i = 0; i < top->nloops; i++) {
+    const kli_term *t = top->terms + top->loops[i].first;
+    for (k = 0; k < top->loops[i].count; k++, t++) {
+      double r[2];
+      if (t->joint < 0) {
+        if (t->nz_angle < 0)
+          continue;
+        rotated(t, p, r);
+        pairs[2 * t->nz_angle] -= r[1];
+        pairs[2 * t->nz_angle + 1] += r[0];
+      } else {
+        double s = p->x[m->nlinks + t->joint];
+        slide_dir(m, t, p, r);
+        if (t->nz_slide >= 0) {
+          pairs[2 * t->nz_slide] += t->sign * r[0];
+          pairs[2 * t->nz_slide + 1] += t->sign * r[1];
+        }
+        if (t->nz_angle >= 0) {
+          pairs[2 * t->nz_angle] -= t->sign * s * r[1];
+          pairs[2 * t->nz_angle + 1] += t->sign * s * r[0];
+        }
+      }
+    }
+  }
+}

@@ -1,0 +1,55 @@
+/*
+ * equations.h - private: the vector-loop closure equations, their Jacobian
+ * values on the sparsity pattern, and the first- and second-order terms that
+ * the rate stages and the point getters need.
+ */
+#ifndef KINLOOP_EQUATIONS_H
+#define KINLOOP_EQUATIONS_H
+
+#include "model.h"
+
+/* A configuration: coordinates x and the cosine and sine of each link angle. */
+typedef struct {
+  double *x, *c, *s;
+} kli_pose;
+
+/* x = E q + G u: every coordinate from the unknowns and the inputs. Either of
+ * q and u may be NULL for zeros, so the same map serves positions, rates and
+ * accelerations. */
+void kli_expand(const kl_model *m, const double *q, const double *u,
+                double *x);
+/* Unknowns from coordinates (the inverse of kli_expand on the unknowns). */
+void kli_gather(const kl_model *m, const double *x, double *q);
+/* Updates p->c and p->s from p->x. */
+void kli_pose_trig(const kl_model *m, kli_pose *p);
+
+/* Sum of a chain at pose p. */
+void kli_chain_value(const kl_model *m, const kli_chain *ch, const kli_pose *p,
+                     double out[2]);
+/* Derivative of a chain's sum along coordinate rates v: (dF/dx) v. */
+void kli_chain_rate(const kl_model *m, const kli_chain *ch, const kli_pose *p,
+                    const double *v, double out[2]);
+/* The symmetric second-order form B(va, vb) of a chain; B(v, v) holds the
+ * centripetal and Coriolis terms of its second time derivative. */
+void kli_chain_second(const kl_model *m, const kli_chain *ch,
+                      const kli_pose *p, const double *va, const double *vb,
+                      double out[2]);
+
+/* Second derivative of a chain's sum: (dF/dx) vdd + B(va, vb); with va = vb
+ * = xdot and vdd = xddot, the acceleration of an open chain's end point. */
+void kli_chain_accel(const kl_model *m, const kli_chain *ch, const kli_pose *p,
+                     const double *va, const double *vb, const double *vdd,
+                     double out[2]);
+
+/* The residuals of every loop, 2 per loop; returns |F|inf. */
+double kli_residual(const kl_model *m, const kli_pose *p, double *f);
+/* (dF/dx) v over every loop. */
+void kli_loops_rate(const kl_model *m, const kli_pose *p, const double *v,
+                    double *out);
+/* B(va, vb) over every loop, added to out. */
+void kli_loops_add_second(const kl_model *m, const kli_pose *p,
+                          const double *va, const double *vb, double *out);
+/* Jacobian values dF/dq at p, two per nonzero pair of the pattern. */
+void kli_jacobian_pairs(const kl_model *m, const kli_pose *p, double *pairs);
+
+#endif

@@ -1,0 +1,47 @@
+/*
+ * memory.c - allocation through the caller's hook, growth of the builders'
+ * arrays, and carving of sized-once blocks.
+ */
+#include <stdint.h>
+#include <string.h>
+
+#include "memory.h"
+
+#define KLI_ALIGN 16u
+
+void *kli_alloc(const kli_allocator *a, size_t size) {
+  return size == 0 ? NULL : a->fn(a->user, NULL, 0, size);
+}
+
+void kli_free(const kli_allocator *a, void *p, size_t size) {
+  if (p != NULL)
+    (void)a->fn(a->user, p, size, 0);
+}
+
+int kli_reserve(const kli_allocator *a, void **arr, int *cap, int need,
+                size_t elem) {
+  int new_cap;
+  void *p;
+  if (need <= *cap)
+    return KL_OK;
+  if (need > INT32_MAX / 2 || (size_t)need > SIZE_MAX / 2 / elem)
+    return KL_ENOMEM;
+  new_cap = *cap < 4 ? 4 : *cap;
+  while (new_cap < need)
+    new_cap *= 2;
+  p = a->fn(a->user, *arr, (size_t)*cap * elem, (size_t)new_cap * elem);
+  if (p == NULL)
+    return KL_ENOMEM;
+  *arr = p;
+  *cap = new_cap;
+  return KL_OK;
+}
+
+void *kli_carve(kli_carver *c, size_t count, size_t elem) {
+  size_t start = (c->used + KLI_ALIGN - 1) / KLI_ALIGN * KLI_ALIGN;
+  size_t bytes = count * elem;
+  c->used = start + bytes;
+  if (c->base == NULL || count == 0)
+    return NULL;
+  return c->base + start;
+}

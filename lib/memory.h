@@ -1,0 +1,37 @@
+/*
+ * memory.h - private: every allocation goes through the model's hook; blocks
+ * are sized once and carved into aligned arrays.
+ */
+#ifndef KINLOOP_MEMORY_H
+#define KINLOOP_MEMORY_H
+
+#include <stddef.h>
+
+#include "kinloop.h"
+
+/* The hook and its user pointer, as a model keeps them. */
+typedef struct {
+  kl_alloc_fn fn;
+  void *user;
+} kli_allocator;
+
+void *kli_alloc(const kli_allocator *a, size_t size);
+void kli_free(const kli_allocator *a, void *p, size_t size);
+/* Ensures *arr holds at least `need` elements of `elem` bytes, growing by
+ * doubling; KL_OK, or KL_ENOMEM with *arr and *cap untouched. */
+int kli_reserve(const kli_allocator *a, void **arr, int *cap, int need,
+                size_t elem);
+
+/*
+ * Carving one block into arrays: a first pass with base NULL only adds up
+ * the bytes (kli_carve returns NULL); a second pass over the allocated block
+ * hands out the same arrays in the same order, each aligned for any type.
+ */
+typedef struct {
+  unsigned char *base;
+  size_t used;
+} kli_carver;
+
+void *kli_carve(kli_carver *c, size_t count, size_t elem);
+
+#endif

@@ -1,0 +1,565 @@
+/*
+ * model.c - building a model: links, joints, points, inputs and registered
+ * loops, each checked as it is added; and reading the record back.
+ */
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "model.h"
+
+static void *default_alloc(void *user, void *ptr, size_t old_size,
+                           size_t new_size) {
+  (void)user;
+  (void)old_size;
+  if (new_size == 0) {
+    free(ptr);
+    return NULL;
+  }
+  return realloc(ptr, new_size);
+}
+
+kl_model *kl_model_new(void) {
+  return kl_model_new_with_alloc(default_alloc, NULL);
+}
+
+kl_model *kl_model_new_with_alloc(kl_alloc_fn fn, void *user) {
+  kli_allocator a;
+  kl_model *m;
+  if (fn == NULL)
+    return NULL;
+  a.fn = fn;
+  a.user = user;
+  m = kli_alloc(&a, sizeof *m);
+  if (m == NULL)
+    return NULL;
+  memset(m, 0, sizeof *m);
+  m->alloc = a;
+  if (kli_reserve(&a, (void **)&m->links, &m->cap_links, 1,
+                  sizeof *m->links) != KL_OK) {
+    kli_free(&a, m, sizeof *m);
+    return NULL;
+  }
+  m->links[0].name = NULL; /* ground's name is implied: see kl_link_name */
+  m->nlinks = 1;
+  return m;
+}
+
+static void free_name(const kl_model *m, char *name) {
+  if (name != NULL)
+    kli_free(&m->alloc, name, strlen(name) + 1);
+}
+
+void kli_topology_release(kl_model *m) {
+  kli_free(&m->alloc, m->topo.block, m->topo.block_size);
+  memset(&m->topo, 0, sizeof m->topo);
+  m->finalized = 0;
+}
+
+void kl_model_free(kl_model *m) {
+  int i;
+  kli_allocator a;
+  if (m == NULL)
+    return;
+  a = m->alloc;
+  kli_topology_release(m);
+  for (i = 0; i < m->nlinks; i++)
+    free_name(m, m->links[i].name);
+  for (i = 0; i < m->npoints; i++)
+    free_name(m, m->points[i].name);
+  kli_free(&a, m->links, (size_t)m->cap_links * sizeof *m->links);
+  kli_free(&a, m->joints, (size_t)m->cap_joints * sizeof *m->joints);
+  kli_free(&a, m->points, (size_t)m->cap_points * sizeof *m->points);
+  kli_free(&a, m->inputs, (size_t)m->cap_inputs * sizeof *m->inputs);
+  kli_free(&a, m->reg_joints, (size_t)m->cap_reg_joints * sizeof(int));
+  kli_free(&a, m->reg_start, (size_t)m->cap_reg_start * sizeof(int));
+  kli_free(&a, m, sizeof *m);
+}
+
+const char *kl_model_error(const kl_model *m) {
+  return m == NULL ? "no model (NULL pointer)" : m->error;
+}
+
+/* ---- labels used in messages ---- */
+
+const char *kli_link_label(const kl_model *m, int link, char *buf, size_t n) {
+  const char *name = kl_link_name(m, link);
+  if (name != NULL)
+    snprintf(buf, n, "link %d '%.40s'", link, name);
+  else
+    snprintf(buf, n, "link %d", link);
+  return buf;
+}
+
+const char *kli_point_label(const kl_model *m, int point, char *buf,
+                            size_t n) {
+  const char *name = kl_point_name(m, point);
+  if (name != NULL)
+    snprintf(buf, n, "point %d '%.40s'", point, name);
+  else
+    snprintf(buf, n, "point %d", point);
+  return buf;
+}
+
+const char *kli_kind_name(int kind) {
+  switch (kind) {
+  case KL_REVOLUTE: return "revolute";
+  case KL_PRISMATIC: return "prismatic";
+  default: return "slot";
+  }
+}
+
+const char *kli_joint_label(const kl_model *m, int joint, char *buf,
+                            size_t n) {
+  char la[64], lb[64];
+  const kli_joint *j = &m->joints[joint];
+  snprintf(buf, n, "joint %d (%s, %s to %s)", joint, kli_kind_name(j->kind),
+           kli_link_label(m, j->link[0], la, sizeof la),
+           kli_link_label(m, j->link[1], lb, sizeof lb));
+  return buf;
+}
+
+int kli_is_sliding(int kind) { return kind == KL_PRISMATIC || kind == KL_SLOT; }
+
+const double *kli_joint_point_on(const kl_model *m, int joint, int link) {
+  const kli_joint *j = &m->joints[joint];
+  return j->link[0] == link ? j->at[0] : j->at[1];
+}
+
+/* ---- builders ---- */
+
+static int check_open(kl_model *m, const char *what) {
+  if (m->finalized)
+    return kli_fail(m->error, KL_ESTATE,
+                    "%s: the model is finalized and can no longer change",
+                    what);
+  return KL_OK;
+}
+
+static int check_link(kl_model *m, int link, const char *what) {
+  if (link < 0 || link >= m->nlinks)
+    return kli_fail(m->error, KL_EID,
+                    "%s: link %d does not exist (links are 0 to %d)", what,
+                    link, m->nlinks - 1);
+  return KL_OK;
+}
+
+/* Checks a name against the rules and against `count` names already taken,
+ * read through `name_at`. */
+static int check_name(kl_model *m, const char *name, const char *what,
+                      const char *(*name_at)(const kl_model *, int),
+                      int count) {
+  size_t len, i;
+  int other;
+  if (name == NULL)
+    return KL_OK;
+  len = strlen(name);
+  if (len == 0 || len > KLI_NAME_MAX)
+    return kli_fail(m->error, KL_EINVAL,
+                    "%s: a name must be 1 to %d bytes long (got %lu)", what,
+                    KLI_NAME_MAX, (unsigned long)len);
+  for (i = 0; i < len; i++)
+    if ((unsigned char)name[i] < 0x20 || name[i] == 0x7f)
+      return kli_fail(m->error, KL_EINVAL,
+                      "%s: the name '%.40s' holds a control character at "
+                      "byte %lu",
+                      what, name, (unsigned long)i);
+  for (other = 0; other < count; other++) {
+    const char *taken = name_at(m, other);
+    if (taken != NULL && strcmp(taken, name) == 0)
+      return kli_fail(m->error, KL_EDUPLICATE,
+                      "%s: the name '%.40s' is already used by id %d", what,
+                      name, other);
+  }
+  return KL_OK;
+}
+
+static int copy_name(kl_model *m, const char *name, char **out,
+                     const char *what) {
+  size_t len;
+  *out = NULL;
+  if (name == NULL)
+    return KL_OK;
+  len = strlen(name) + 1;
+  *out = kli_alloc(&m->alloc, len);
+  if (*out == NULL)
+    return kli_fail(m->error, KL_ENOMEM, "%s: out of memory", what);
+  memcpy(*out, name, len);
+  return KL_OK;
+}
+
+int kl_add_link(kl_model *m, const char *name) {
+  int st;
+  char *copy;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "add link")) != KL_OK ||
+      (st = check_name(m, name, "add link", kl_link_name, m->nlinks)) != KL_OK)
+    return st;
+  if (kli_reserve(&m->alloc, (void **)&m->links, &m->cap_links, m->nlinks + 1,
+                  sizeof *m->links) != KL_OK)
+    return kli_fail(m->error, KL_ENOMEM, "add link: out of memory");
+  if ((st = copy_name(m, name, &copy, "add link")) != KL_OK)
+    return st;
+  m->links[m->nlinks].name = copy;
+  return m->nlinks++;
+}
+
+static int add_joint(kl_model *m, int kind, int a, double ax, double ay,
+                     double axis, int b, double bx, double by) {
+  char what[32], la[64], lb[64];
+  int st, j;
+  kli_joint *nj;
+  if (m == NULL)
+    return KL_EINVAL;
+  snprintf(what, sizeof what, "add %s joint", kli_kind_name(kind));
+  if ((st = check_open(m, what)) != KL_OK || (st = check_link(m, a, what)) ||
+      (st = check_link(m, b, what)))
+    return st;
+  if (a == b)
+    return kli_fail(m->error, KL_ESELFJOINT, "%s: joins %s to itself", what,
+                    kli_link_label(m, a, la, sizeof la));
+  if (!isfinite(ax) || !isfinite(ay) || !isfinite(bx) || !isfinite(by) ||
+      !isfinite(axis))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "%s between %s and %s: a coordinate or the axis angle is "
+                    "NaN or infinite",
+                    what, kli_link_label(m, a, la, sizeof la),
+                    kli_link_label(m, b, lb, sizeof lb));
+  for (j = 0; j < m->njoints; j++) {
+    const kli_joint *o = &m->joints[j];
+    if (o->kind == kind && ((o->link[0] == a && o->link[1] == b) ||
+                            (o->link[0] == b && o->link[1] == a)))
+      return kli_fail(m->error, KL_EDUPLICATE,
+                      "%s: joint %d is already a %s joint between %s and %s",
+                      what, j, kli_kind_name(kind),
+                      kli_link_label(m, a, la, sizeof la),
+                      kli_link_label(m, b, lb, sizeof lb));
+  }
+  if (kli_reserve(&m->alloc, (void **)&m->joints, &m->cap_joints,
+                  m->njoints + 1, sizeof *m->joints) != KL_OK)
+    return kli_fail(m->error, KL_ENOMEM, "%s: out of memory", what);
+  nj = &m->joints[m->njoints];
+  nj->kind = kind;
+  nj->link[0] = a;
+  nj->link[1] = b;
+  nj->at[0][0] = ax;
+  nj->at[0][1] = ay;
+  nj->at[1][0] = bx;
+  nj->at[1][1] = by;
+  nj->axis = kli_is_sliding(kind) ? axis : 0.0;
+  nj->axis_cs[0] = cos(nj->axis);
+  nj->axis_cs[1] = sin(nj->axis);
+  return m->njoints++;
+}
+
+int kl_add_revolute(kl_model *m, int a, double ax, double ay, int b, double bx,
+                    double by) {
+  return add_joint(m, KL_REVOLUTE, a, ax, ay, 0.0, b, bx, by);
+}
+
+int kl_add_prismatic(kl_model *m, int a, double ax, double ay,
+                     double axis_angle, int b, double bx, double by) {
+  return add_joint(m, KL_PRISMATIC, a, ax, ay, axis_angle, b, bx, by);
+}
+
+int kl_add_slot(kl_model *m, int a, double ax, double ay, double axis_angle,
+                int b, double bx, double by) {
+  return add_joint(m, KL_SLOT, a, ax, ay, axis_angle, b, bx, by);
+}
+
+static int add_sliding_through(kl_model *m, int kind, int a, double ax,
+                               double ay, double tx, double ty, int b,
+                               double bx, double by) {
+  char la[64];
+  if (m == NULL)
+    return KL_EINVAL;
+  if (isfinite(ax) && isfinite(ay) && isfinite(tx) && isfinite(ty) &&
+      tx == ax && ty == ay && a >= 0 && a < m->nlinks && !m->finalized)
+    return kli_fail(m->error, KL_EZEROLENGTH,
+                    "add %s joint: the two points giving the axis on %s "
+                    "coincide at (%g, %g), so the axis has zero length",
+                    kli_kind_name(kind), kli_link_label(m, a, la, sizeof la),
+                    ax, ay);
+  return add_joint(m, kind, a, ax, ay, atan2(ty - ay, tx - ax), b, bx, by);
+}
+
+int kl_add_prismatic_through(kl_model *m, int a, double ax, double ay,
+                             double tx, double ty, int b, double bx,
+                             double by) {
+  return add_sliding_through(m, KL_PRISMATIC, a, ax, ay, tx, ty, b, bx, by);
+}
+
+int kl_add_slot_through(kl_model *m, int a, double ax, double ay, double tx,
+                        double ty, int b, double bx, double by) {
+  return add_sliding_through(m, KL_SLOT, a, ax, ay, tx, ty, b, bx, by);
+}
+
+int kl_add_point(kl_model *m, int link, double x, double y, const char *name) {
+  int st;
+  char *copy;
+  char la[64];
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "add point")) != KL_OK ||
+      (st = check_link(m, link, "add point")) != KL_OK)
+    return st;
+  if (!isfinite(x) || !isfinite(y))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "add point on %s: a coordinate is NaN or infinite",
+                    kli_link_label(m, link, la, sizeof la));
+  if ((st = check_name(m, name, "add point", kl_point_name, m->npoints)) !=
+      KL_OK)
+    return st;
+  if (kli_reserve(&m->alloc, (void **)&m->points, &m->cap_points,
+                  m->npoints + 1, sizeof *m->points) != KL_OK)
+    return kli_fail(m->error, KL_ENOMEM, "add point: out of memory");
+  if ((st = copy_name(m, name, &copy, "add point")) != KL_OK)
+    return st;
+  m->points[m->npoints].link = link;
+  m->points[m->npoints].at[0] = x;
+  m->points[m->npoints].at[1] = y;
+  m->points[m->npoints].name = copy;
+  return m->npoints++;
+}
+
+static int check_joint(kl_model *m, int joint, const char *what) {
+  if (joint < 0 || joint >= m->njoints)
+    return kli_fail(m->error, KL_EID,
+                    "%s: joint %d does not exist (%d joints so far)", what,
+                    joint, m->njoints);
+  return KL_OK;
+}
+
+int kl_add_input(kl_model *m, int joint) {
+  int st, i;
+  char lj[160];
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "add input")) != KL_OK ||
+      (st = check_joint(m, joint, "add input")) != KL_OK)
+    return st;
+  for (i = 0; i < m->ninputs; i++)
+    if (m->inputs[i] == joint)
+      return kli_fail(m->error, KL_EDUPLICATE,
+                      "add input: %s is already input %d",
+                      kli_joint_label(m, joint, lj, sizeof lj), i);
+  if (kli_reserve(&m->alloc, (void **)&m->inputs, &m->cap_inputs,
+                  m->ninputs + 1, sizeof *m->inputs) != KL_OK)
+    return kli_fail(m->error, KL_ENOMEM, "add input: out of memory");
+  m->inputs[m->ninputs] = joint;
+  return m->ninputs++;
+}
+
+/*
+ * Walks a cycle of joints: with `before` the link on which the walk arrives
+ * at joints[0], each joint leads to its other link, which must be a link of
+ * the next joint. On success fills links_after (may be NULL) and returns 1.
+ */
+static int walk_cycle(const kl_model *m, int n, const int *joints, int before,
+                      int *links_after) {
+  int i, cur = before;
+  for (i = 0; i < n; i++) {
+    const kli_joint *j = &m->joints[joints[i]];
+    const kli_joint *next = &m->joints[joints[(i + 1) % n]];
+    if (j->link[0] != cur && j->link[1] != cur)
+      return 0;
+    cur = j->link[0] == cur ? j->link[1] : j->link[0];
+    if (next->link[0] != cur && next->link[1] != cur)
+      return 0;
+    if (links_after != NULL)
+      links_after[i] = cur;
+  }
+  return cur == before;
+}
+
+int kli_loop_links(const kl_model *m, int n, const int *joints,
+                   int *links_after) {
+  const kli_joint *first = &m->joints[joints[0]];
+  int side;
+  for (side = 0; side < 2; side++)
+    if (walk_cycle(m, n, joints, first->link[side], links_after))
+      return 1;
+  return 0;
+}
+
+/* Why joints[0..n) is not a simple cycle, as a status with the message set;
+ * KL_OK if it is one. `links_after` has room for n links. */
+static int check_cycle(kl_model *m, int n, const int *joints,
+                       int *links_after) {
+  int i, k;
+  char la[64];
+  if (!kli_loop_links(m, n, joints, links_after)) {
+    for (i = 0; i < n; i++) {
+      const kli_joint *a = &m->joints[joints[i]];
+      const kli_joint *b = &m->joints[joints[(i + 1) % n]];
+      if (a->link[0] != b->link[0] && a->link[0] != b->link[1] &&
+          a->link[1] != b->link[0] && a->link[1] != b->link[1])
+        return kli_fail(m->error, KL_ELOOP,
+                        "add loop: joints %d and %d (positions %d and %d) do "
+                        "not share a link, so the walk breaks there",
+                        joints[i], joints[(i + 1) % n], i, (i + 1) % n);
+    }
+    return kli_fail(m->error, KL_ELOOP,
+                    "add loop: walking joints %d .. %d from either link of "
+                    "joint %d does not come back to where it started",
+                    joints[0], joints[n - 1], joints[0]);
+  }
+  for (i = 0; i < n; i++)
+    for (k = 0; k < i; k++)
+      if (links_after[k] == links_after[i])
+        return kli_fail(m->error, KL_ELOOP,
+                        "add loop: the walk visits %s twice; a loop must be a "
+                        "simple cycle",
+                        kli_link_label(m, links_after[i], la, sizeof la));
+  return KL_OK;
+}
+
+int kl_add_loop(kl_model *m, int njoints, const int *joints) {
+  int st, i, k;
+  int *links_after;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "add loop")) != KL_OK)
+    return st;
+  if (joints == NULL || njoints < 2)
+    return kli_fail(m->error, KL_EINVAL,
+                    "add loop: a loop needs at least 2 joints (got %d%s)",
+                    njoints, joints == NULL ? ", and no array" : "");
+  for (i = 0; i < njoints; i++) {
+    if ((st = check_joint(m, joints[i], "add loop")) != KL_OK)
+      return st;
+    for (k = 0; k < i; k++)
+      if (joints[k] == joints[i])
+        return kli_fail(m->error, KL_ELOOP,
+                        "add loop: joint %d appears twice (positions %d and "
+                        "%d)",
+                        joints[i], k, i);
+  }
+  links_after = kli_alloc(&m->alloc, (size_t)njoints * sizeof(int));
+  if (links_after == NULL)
+    return kli_fail(m->error, KL_ENOMEM, "add loop: out of memory");
+  st = check_cycle(m, njoints, joints, links_after);
+  kli_free(&m->alloc, links_after, (size_t)njoints * sizeof(int));
+  if (st != KL_OK)
+    return st;
+  if (kli_reserve(&m->alloc, (void **)&m->reg_joints, &m->cap_reg_joints,
+                  m->nreg_joints + njoints, sizeof(int)) != KL_OK ||
+      kli_reserve(&m->alloc, (void **)&m->reg_start, &m->cap_reg_start,
+                  m->nreg_loops + 2, sizeof(int)) != KL_OK)
+    return kli_fail(m->error, KL_ENOMEM, "add loop: out of memory");
+  if (m->nreg_loops == 0)
+    m->reg_start[0] = 0;
+  memcpy(m->reg_joints + m->nreg_joints, joints, (size_t)njoints * sizeof(int));
+  m->nreg_joints += njoints;
+  m->reg_start[m->nreg_loops + 1] = m->nreg_joints;
+  return m->nreg_loops++;
+}
+
+/* ---- reading the record back ---- */
+
+int kl_model_link_count(const kl_model *m) {
+  return m == NULL ? KL_EINVAL : m->nlinks;
+}
+int kl_model_joint_count(const kl_model *m) {
+  return m == NULL ? KL_EINVAL : m->njoints;
+}
+int kl_model_point_count(const kl_model *m) {
+  return m == NULL ? KL_EINVAL : m->npoints;
+}
+int kl_model_input_count(const kl_model *m) {
+  return m == NULL ? KL_EINVAL : m->ninputs;
+}
+
+const char *kl_link_name(const kl_model *m, int link) {
+  if (m == NULL || link < 0 || link >= m->nlinks)
+    return NULL;
+  return link == KL_GROUND ? "ground" : m->links[link].name;
+}
+
+const char *kl_point_name(const kl_model *m, int point) {
+  if (m == NULL || point < 0 || point >= m->npoints)
+    return NULL;
+  return m->points[point].name;
+}
+
+int kl_link_find(const kl_model *m, const char *name) {
+  int i;
+  if (m == NULL || name == NULL)
+    return KL_EINVAL;
+  for (i = 0; i < m->nlinks; i++) {
+    const char *n = kl_link_name(m, i);
+    if (n != NULL && strcmp(n, name) == 0)
+      return i;
+  }
+  return KL_EID;
+}
+
+int kl_point_find(const kl_model *m, const char *name) {
+  int i;
+  if (m == NULL || name == NULL)
+    return KL_EINVAL;
+  for (i = 0; i < m->npoints; i++)
+    if (m->points[i].name != NULL && strcmp(m->points[i].name, name) == 0)
+      return i;
+  return KL_EID;
+}
+
+int kl_point_link(const kl_model *m, int point, double xy[2]) {
+  if (m == NULL)
+    return KL_EINVAL;
+  if (point < 0 || point >= m->npoints)
+    return KL_EID;
+  if (xy != NULL) {
+    xy[0] = m->points[point].at[0];
+    xy[1] = m->points[point].at[1];
+  }
+  return m->points[point].link;
+}
+
+int kl_joint_kind(const kl_model *m, int joint) {
+  if (m == NULL)
+    return KL_EINVAL;
+  if (joint < 0 || joint >= m->njoints)
+    return KL_EID;
+  return m->joints[joint].kind;
+}
+
+int kl_joint_links(const kl_model *m, int joint, int links[2], double a_xy[2],
+                   double b_xy[2]) {
+  const kli_joint *j;
+  if (m == NULL)
+    return KL_EINVAL;
+  if (joint < 0 || joint >= m->njoints)
+    return KL_EID;
+  j = &m->joints[joint];
+  if (links != NULL) {
+    links[0] = j->link[0];
+    links[1] = j->link[1];
+  }
+  if (a_xy != NULL)
+    memcpy(a_xy, j->at[0], sizeof j->at[0]);
+  if (b_xy != NULL)
+    memcpy(b_xy, j->at[1], sizeof j->at[1]);
+  return KL_OK;
+}
+
+double kl_joint_axis(const kl_model *m, int joint) {
+  if (m == NULL || joint < 0 || joint >= m->njoints ||
+      !kli_is_sliding(m->joints[joint].kind))
+    return NAN;
+  return m->joints[joint].axis;
+}
+
+int kl_input_joint(const kl_model *m, int input) {
+  if (m == NULL)
+    return KL_EINVAL;
+  if (input < 0 || input >= m->ninputs)
+    return KL_EID;
+  return m->inputs[input];
+}
+
+int kl_model_is_finalized(const kl_model *m) {
+  return m != NULL && m->finalized;
+}

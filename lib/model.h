@@ -1,0 +1,134 @@
+/*
+ * model.h - private: the model as the builders record it and as the topology
+ * module completes it at finalize. Shared by every module down the chain.
+ */
+#ifndef KINLOOP_MODEL_H
+#define KINLOOP_MODEL_H
+
+#include "kinloop.h"
+#include "memory.h"
+
+#define KLI_MESSAGE_SIZE 320
+#define KLI_NAME_MAX 255
+
+typedef struct {
+  char *name; /* owned; NULL when unnamed */
+} kli_link;
+
+typedef struct {
+  int kind;           /* enum kl_joint_kind */
+  int link[2];        /* a, b */
+  double at[2][2];    /* attachment in a's frame, in b's frame */
+  double axis;        /* slide axis angle in a's frame (sliding joints) */
+  double axis_cs[2];  /* cos, sin of axis */
+} kli_joint;
+
+typedef struct {
+  int link;
+  double at[2];
+  char *name; /* owned; NULL when unnamed */
+} kli_point;
+
+/*
+ * One term of a vector chain. A link term adds R(angle(link)) v; a slide term
+ * adds sign * s * (cos, sin)(angle(link) + axis) for the slide s of `joint`,
+ * whose guide is `link`. Loops are closed chains (their sum is the residual);
+ * points are open chains from the global origin (their sum is the position).
+ */
+typedef struct {
+  int link;      /* link whose angle turns the term */
+  int joint;     /* sliding joint for a slide term; -1 for a link term */
+  double v[2];   /* local vector of a link term */
+  double sign;   /* +1 or -1 for a slide term */
+  int nz_angle;  /* Jacobian entry pair for the angle's unknown, or -1 */
+  int nz_slide;  /* Jacobian entry pair for the slide's unknown, or -1 */
+} kli_term;
+
+typedef struct {
+  int first, count; /* range in the term array */
+} kli_chain;
+
+/* What finalize derives from the builders' record. */
+typedef struct {
+  void *block; /* one allocation holding every array below */
+  size_t block_size;
+  int nloops;
+  int *loop_joint_start;  /* nloops + 1 offsets into loop_joints */
+  int *loop_joints;       /* each loop's joints in walking order */
+  int *loop_links;        /* the link after each of those joints */
+  kli_chain *loops;       /* nloops closed chains */
+  kli_chain *points;      /* one open chain per point */
+  kli_chain *origins;     /* one open chain per link: its frame origin */
+  kli_term *terms;
+  int nterms;
+
+  /* Coordinates: x[link] is a link angle, x[nlinks + joint] a slide. */
+  int ncoords;
+  /* Unknowns q after eliminating prismatic locks and inputs. */
+  int nvars;
+  int *var_coord;        /* coordinate each unknown stands for */
+  /* How each link angle follows from q and the inputs u:
+   * angle = q[var] when angle_var >= 0; otherwise
+   * angle = angle(angle_parent) + angle_sign * u[angle_input] (input >= 0)
+   *       = angle(angle_parent)                                (input <  0)
+   * and 0 for ground. Links are listed parents first in angle_order. */
+  int *angle_var, *angle_parent, *angle_input;
+  double *angle_sign;
+  int *angle_order;
+  /* How each slide follows: q[slide_var] or u[slide_input]; -1 when neither. */
+  int *slide_var, *slide_input;
+
+  /* Jacobian pattern: nz pairs (x row, y row) of one loop and one unknown. */
+  int nnz_pairs;
+  int *nz_row;   /* first (x) row of the pair */
+  int *nz_col;
+  int dof;
+  double scale;
+} kli_topology;
+
+struct kl_model {
+  kli_allocator alloc;
+
+  kli_link *links;
+  int nlinks, cap_links;
+  kli_joint *joints;
+  int njoints, cap_joints;
+  kli_point *points;
+  int npoints, cap_points;
+  int *inputs;
+  int ninputs, cap_inputs;
+  /* Registered loops, concatenated. */
+  int *reg_joints;
+  int nreg_joints, cap_reg_joints;
+  int *reg_start; /* nreg_loops + 1 offsets */
+  int nreg_loops, cap_reg_start;
+
+  int finalized;
+  kli_topology topo;
+  char error[KLI_MESSAGE_SIZE];
+};
+
+/* Messages: formats into buf (KLI_MESSAGE_SIZE bytes) and returns status. */
+int kli_fail(char *buf, int status, const char *fmt, ...)
+#ifdef __GNUC__
+    __attribute__((format(printf, 3, 4)))
+#endif
+    ;
+/* "link 3 'rocker'" or "link 3"; likewise for joints and points. */
+const char *kli_link_label(const kl_model *m, int link, char *buf, size_t n);
+const char *kli_joint_label(const kl_model *m, int joint, char *buf, size_t n);
+const char *kli_point_label(const kl_model *m, int point, char *buf, size_t n);
+const char *kli_kind_name(int kind);
+
+/* The attachment of `joint` on `link` (one of its two links). */
+const double *kli_joint_point_on(const kl_model *m, int joint, int link);
+/* The link after each joint when walking joints[0..n) as a cycle: 1 and
+ * links_after filled (may be NULL) if the walk closes, else 0. */
+int kli_loop_links(const kl_model *m, int n, const int *joints,
+                   int *links_after);
+/* 1 for prismatic and slot joints. */
+int kli_is_sliding(int kind);
+/* Frees what finalize derived and marks the model unfinalized. */
+void kli_topology_release(kl_model *m);
+
+#endif

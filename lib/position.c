@@ -1,0 +1,331 @@
+/*
+ * position.c - the position stage: Newton-Raphson on the loop-closure
+ * equations with LU factors and a backtracking (Armijo) line search.
+ */
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "position.h"
+
+/* Sufficient decrease of 0.5 |F|^2 asked of each step (Armijo). */
+#define KLI_ARMIJO 1e-4
+/* Newton's direction is given up for a damped step when the line search
+ * would cut it below this fraction: it then points mostly off the way down. */
+#define KLI_NEWTON_ALPHA_MIN 1e-2
+/* Damping factors tried, each ten times the last, before giving up. */
+#define KLI_DAMPING_TRIES 16
+/* Iterations in a row that leave |F| above this fraction of its value
+ * before them mean the residual has stalled at a positive minimum. */
+#define KLI_STALL_RATIO 0.999
+#define KLI_STALL_ITERATIONS 4
+
+/* |v|inf with slides measured in units of the model's scale. */
+static double scaled_norm(const kl_solver *s, const double *v) {
+  const kl_model *m = s->model;
+  double norm = 0.0, inv_scale = 1.0 / m->topo.scale;
+  int i;
+  for (i = 0; i < s->n; i++) {
+    double a = fabs(v[i]);
+    if (m->topo.var_coord[i] >= m->nlinks)
+      a *= inv_scale;
+    if (!(a <= norm))
+      norm = a; /* NaN propagates */
+  }
+  return norm;
+}
+
+static double half_square(const double *f, int n) {
+  double sum = 0.0;
+  int i;
+  for (i = 0; i < n; i++)
+    sum += f[i] * f[i];
+  return 0.5 * sum;
+}
+
+static double evaluate(kl_solver *s, kli_pose *p, const double *q,
+                       const double *u, double *f) {
+  kli_expand(s->model, q, u, p->x);
+  kli_pose_trig(s->model, p);
+  s->stats.residual_evaluations++;
+  return kli_residual(s->model, p, f);
+}
+
+int kli_factor_at(kl_solver *s, const kli_pose *p) {
+  kli_jacobian_pairs(s->model, p, s->pairs);
+  kli_dense_load(&s->dense, s->pairs);
+  return kli_dense_factor(&s->dense);
+}
+
+/* The derivative of 0.5 |F|^2 along dq: F . (J dq). */
+static double slope_along(kl_solver *s, const double *f, const double *dq) {
+  double sum = 0.0;
+  int i;
+  kli_dense_apply(&s->dense, dq, s->rhs);
+  for (i = 0; i < s->n; i++)
+    sum += f[i] * s->rhs[i];
+  return sum;
+}
+
+/* The loop furthest from closing, for messages. */
+static int worst_loop(const kl_solver *s, const double *f) {
+  int i, worst = 0;
+  double big = -1.0;
+  for (i = 0; i < s->model->topo.nloops; i++) {
+    double r = fmax(fabs(f[2 * i]), fabs(f[2 * i + 1]));
+    if (r > big) {
+      big = r;
+      worst = i;
+    }
+  }
+  return worst;
+}
+
+/* "input 0 = 1.5, input 1 = -0.2" (the first few), into buf. */
+static const char *input_list(const kl_solver *s, const double *u, char *buf,
+                              size_t n) {
+  size_t used = 0;
+  int i;
+  buf[0] = '\0';
+  if (s->ninputs == 0)
+    snprintf(buf, n, "no inputs");
+  for (i = 0; i < s->ninputs && i < 4 && used < n; i++)
+    used += (size_t)snprintf(buf + used, n - used, "%sinput %d = %.10g",
+                             i > 0 ? ", " : "", i, u[i]);
+  if (s->ninputs > 4 && used < n)
+    snprintf(buf + used, n - used, ", ...");
+  return buf;
+}
+
+typedef struct {
+  kli_pose *cur, *next;
+  double *q, *q_next, *f, *f_next;
+  double fnorm;
+} newton_iterate;
+
+static void accept_trial(newton_iterate *it, double fnorm) {
+  kli_pose *p = it->cur;
+  double *t;
+  it->cur = it->next;
+  it->next = p;
+  t = it->q;
+  it->q = it->q_next;
+  it->q_next = t;
+  t = it->f;
+  it->f = it->f_next;
+  it->f_next = t;
+  it->fnorm = fnorm;
+}
+
+/* Backtracking along dq until 0.5 |F|^2 decreases enough, down to a step
+ * fraction alpha_min; 1 if a step was accepted. */
+static int line_search(kl_solver *s, newton_iterate *it, const double *dq,
+                       double slope, double alpha_min) {
+  double phi0 = half_square(it->f, s->n), alpha = 1.0;
+  int back, i;
+  for (back = 0; back <= s->opt.max_backtracks && alpha >= alpha_min;
+       back++) {
+    double fnorm, phi, next_alpha;
+    for (i = 0; i < s->n; i++)
+      it->q_next[i] = it->q[i] + alpha * dq[i];
+    fnorm = evaluate(s, it->next, it->q_next, s->u_trial, it->f_next);
+    phi = half_square(it->f_next, s->n);
+    if (isfinite(phi) && phi <= phi0 + KLI_ARMIJO * alpha * slope) {
+      accept_trial(it, fnorm);
+      return 1;
+    }
+    /* minimum of the quadratic through phi0, slope and phi(alpha) */
+    next_alpha = isfinite(phi)
+                     ? -slope * alpha * alpha / (2.0 * (phi - phi0 - slope * alpha))
+                     : 0.1 * alpha;
+    alpha = fmin(fmax(next_alpha, 0.1 * alpha), 0.5 * alpha);
+    s->stats.backtracks++;
+  }
+  return 0;
+}
+
+/* Caps dq at max_step and searches along it; 1 if a step was accepted. */
+static int step_along(kl_solver *s, newton_iterate *it, double *dq,
+                      double step, double alpha_min);
+
+/*
+ * Levenberg-Marquardt steps with growing damping, from Gauss-Newton toward
+ * short steepest-descent steps, until one decreases 0.5 |F|^2 enough.
+ * 0 when none does: the residual sits at a stationary point.
+ */
+static int damped_step(kl_solver *s, newton_iterate *it) {
+  double trace = 0.0, lambda;
+  int i, tries;
+  for (i = 0; i < s->n; i++) {
+    const double *col = s->dense.a + (size_t)i * (size_t)s->n;
+    int k;
+    for (k = 0; k < s->n; k++)
+      trace += col[k] * col[k];
+  }
+  if (!(trace > 0.0))
+    return 0;
+  lambda = 1e-6 * trace / s->n;
+  for (tries = 0; tries < KLI_DAMPING_TRIES; tries++, lambda *= 10.0) {
+    if (kli_dense_damped_step(&s->dense, it->f, lambda, s->dq) != 0)
+      continue;
+    if (step_along(s, it, s->dq, scaled_norm(s, s->dq), 1.0))
+      return 1;
+    s->stats.backtracks++;
+  }
+  return 0;
+}
+
+static int step_along(kl_solver *s, newton_iterate *it, double *dq,
+                      double step, double alpha_min) {
+  double slope;
+  int i;
+  if (step > s->opt.max_step) {
+    double shrink = s->opt.max_step / step;
+    for (i = 0; i < s->n; i++)
+      dq[i] *= shrink;
+  }
+  slope = slope_along(s, it->f, dq);
+  return slope < 0.0 && line_search(s, it, dq, slope, alpha_min);
+}
+
+static int fail_stalled(kl_solver *s, const newton_iterate *it, int iters) {
+  char in[200];
+  int loop = worst_loop(s, it->f);
+  return kli_fail(s->error, KL_ENOASSEMBLY,
+                  "solve position: the loops cannot close at %s: the residual "
+                  "stalls at %.3g (length units) after %d iterations, loop %d "
+                  "furthest from closing; the inputs are beyond a motion "
+                  "limit, or the start is too far from any assembly (try "
+                  "another sketch)",
+                  input_list(s, s->u_trial, in, sizeof in), it->fnorm, iters,
+                  loop);
+}
+
+static void commit(kl_solver *s, const kli_pose *p, double rcond) {
+  kli_pose_copy(s, &s->pose, p);
+  memcpy(s->u, s->u_trial, (size_t)s->ninputs * sizeof(double));
+  s->position_solved = 1;
+  s->inputs_known = 1;
+  s->factors_current = 1;
+  s->rcond = rcond;
+  kli_state_changed(s);
+}
+
+int kl_solve_position(kl_solver *s, const double *inputs) {
+  newton_iterate it;
+  double ftol, prev_step = HUGE_VAL, step = HUGE_VAL, before;
+  int st, iter, singular = 0, slow = 0;
+  char in[200];
+  if (s == NULL)
+    return KL_EINVAL;
+  memset(&s->stats, 0, sizeof s->stats);
+  s->stats.size = sizeof s->stats;
+  if ((st = kli_check_input_values(s, inputs, "solve position", "input")) !=
+      KL_OK) {
+    s->stats.status = st;
+    return st; /* the last attempt stands: nothing was tried */
+  }
+  if (s->ninputs > 0)
+    memcpy(s->u_trial, inputs, (size_t)s->ninputs * sizeof(double));
+  ftol = s->opt.tolerance * s->model->topo.scale;
+  it.cur = &s->trial[0];
+  it.next = &s->trial[1];
+  it.q = s->q;
+  it.q_next = s->q_next;
+  it.f = s->f;
+  it.f_next = s->f_next;
+  kli_gather(s->model, s->pose.x, it.q);
+  it.fnorm = evaluate(s, it.cur, it.q, s->u_trial, it.f);
+  s->factors_current = 0;
+  for (iter = 0;; iter++) {
+    int i;
+    singular = kli_factor_at(s, it.cur);
+    s->stats.factorizations++;
+    if (!singular) {
+      for (i = 0; i < s->n; i++)
+        s->dq[i] = -it.f[i];
+      kli_dense_solve(&s->dense, s->dq);
+      step = scaled_norm(s, s->dq);
+    }
+    if (it.fnorm <= ftol &&
+        (singular || step <= s->opt.step_tolerance ||
+         (iter > 0 && step > 0.9 * prev_step)))
+      break;
+    if (iter == s->opt.max_iterations) {
+      st = kli_fail(s->error, KL_EMAXITER,
+                    "solve position: no convergence at %s within %d "
+                    "iterations (residual %.3g, tolerance %.3g); raise "
+                    "max_iterations or start nearer the solution",
+                    input_list(s, s->u_trial, in, sizeof in), iter, it.fnorm,
+                    ftol);
+      goto failed;
+    }
+    /* Newton's step first; where the Jacobian is (nearly) singular its step
+     * is useless, and damped least-squares steps take over. */
+    before = it.fnorm;
+    if ((singular || !isfinite(step) ||
+         !step_along(s, &it, s->dq, step, KLI_NEWTON_ALPHA_MIN)) &&
+        !damped_step(s, &it)) {
+      st = fail_stalled(s, &it, iter + 1);
+      goto failed;
+    }
+    /* a positive minimum of the residual: progress dies away */
+    slow = it.fnorm > KLI_STALL_RATIO * before ? slow + 1 : 0;
+    if (slow == KLI_STALL_ITERATIONS) {
+      st = fail_stalled(s, &it, iter + 1);
+      goto failed;
+    }
+    prev_step = step;
+    s->stats.iterations = iter + 1;
+  }
+  s->stats.iterations = iter;
+  s->stats.residual = it.fnorm;
+  s->stats.step = singular ? NAN : step;
+  s->stats.rcond = kli_dense_rcond(&s->dense);
+  if (singular || s->stats.rcond < s->opt.singular_rcond) {
+    st = kli_fail(s->error, KL_ESINGULAR,
+                  "solve position: the Jacobian is singular at the solution "
+                  "for %s (rcond %.3g below %.3g): a dead point, toggle or "
+                  "change point, where the rates are not determined",
+                  input_list(s, s->u_trial, in, sizeof in), s->stats.rcond,
+                  s->opt.singular_rcond);
+    goto failed_stats;
+  }
+  commit(s, it.cur, s->stats.rcond);
+  s->last_attempt = s->stats.status = KL_OK;
+  return KL_OK;
+failed:
+  s->stats.residual = it.fnorm;
+  s->stats.step = step;
+  s->stats.rcond = singular ? 0.0 : kli_dense_rcond(&s->dense);
+failed_stats:
+  s->last_attempt = s->stats.status = st;
+  return st;
+}
+
+int kli_require_position(kl_solver *s, const char *stage) {
+  if (s->last_attempt == KL_ESINGULAR)
+    return kli_fail(s->error, KL_ESINGULAR,
+                    "%s: the Jacobian is singular at the position asked for "
+                    "last, so the rates there are not determined",
+                    stage);
+  if (s->last_attempt != KL_OK || !s->position_solved)
+    return kli_fail(s->error, KL_ESTAGE,
+                    "%s needs a position solved at the current inputs first "
+                    "(%s)",
+                    stage,
+                    s->last_attempt != KL_OK
+                        ? "the last position solve failed"
+                        : "no position solved since the last sketch change");
+  if (!s->factors_current) {
+    kli_factor_at(s, &s->pose);
+    s->rcond = kli_dense_rcond(&s->dense);
+    s->factors_current = 1;
+  }
+  if (s->rcond < s->opt.singular_rcond || s->dense.singular)
+    return kli_fail(s->error, KL_ESINGULAR,
+                    "%s: the Jacobian is singular at the current position "
+                    "(rcond %.3g)",
+                    stage, s->rcond);
+  return KL_OK;
+}

@@ -1,0 +1,339 @@
+/*
+ * solver.c - creating a solver in one sized block, its options, the sketch
+ * setters, and the getters of the committed position.
+ */
+#include <math.h>
+#include <string.h>
+
+#include "solver.h"
+
+/* Options as of version 0.1; callers' structs are at least this long. */
+#define KLI_OPTIONS_V1_SIZE sizeof(kl_options)
+
+void kl_options_default(kl_options *o) {
+  if (o == NULL)
+    return;
+  memset(o, 0, sizeof *o);
+  o->size = sizeof *o;
+  o->tolerance = 1e-12;
+  o->step_tolerance = 1e-10;
+  o->max_iterations = 50;
+  o->max_backtracks = 40;
+  o->max_step = 1.0;
+  o->singular_rcond = 1e-8;
+}
+
+static void carve_pose(kli_pose *p, kli_carver *c, int ncoords, int nlinks) {
+  p->x = kli_carve(c, (size_t)ncoords, sizeof(double));
+  p->c = kli_carve(c, (size_t)nlinks, sizeof(double));
+  p->s = kli_carve(c, (size_t)nlinks, sizeof(double));
+}
+
+/* Lays the solver out in c; returns the solver (NULL on the sizing pass). */
+static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
+  kl_solver *s = kli_carve(c, 1, sizeof(kl_solver));
+  kl_solver sizing;
+  kl_solver *t = s != NULL ? s : &sizing;
+  int n = m->topo.nvars, nc = m->topo.ncoords, nl = m->nlinks;
+  int ni = m->ninputs;
+  carve_pose(&t->pose, c, nc, nl);
+  t->xd = kli_carve(c, (size_t)nc, sizeof(double));
+  t->xdd = kli_carve(c, (size_t)nc, sizeof(double));
+  t->u = kli_carve(c, (size_t)ni, sizeof(double));
+  t->ud = kli_carve(c, (size_t)ni, sizeof(double));
+  t->udd = kli_carve(c, (size_t)ni, sizeof(double));
+  t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
+  t->coef2 = kli_carve(c, (size_t)nc * (size_t)ni * (size_t)ni, sizeof(double));
+  carve_pose(&t->trial[0], c, nc, nl);
+  carve_pose(&t->trial[1], c, nc, nl);
+  t->u_trial = kli_carve(c, (size_t)ni, sizeof(double));
+  t->u_unit = kli_carve(c, (size_t)ni, sizeof(double));
+  t->q = kli_carve(c, (size_t)n, sizeof(double));
+  t->dq = kli_carve(c, (size_t)n, sizeof(double));
+  t->q_next = kli_carve(c, (size_t)n, sizeof(double));
+  t->f = kli_carve(c, (size_t)n, sizeof(double));
+  t->f_next = kli_carve(c, (size_t)n, sizeof(double));
+  t->grad = kli_carve(c, (size_t)n, sizeof(double));
+  t->pairs = kli_carve(c, 2 * (size_t)m->topo.nnz_pairs, sizeof(double));
+  t->rhs = kli_carve(c, (size_t)n, sizeof(double));
+  t->xv = kli_carve(c, (size_t)nc, sizeof(double));
+  kli_dense_carve(&t->dense, c, n, m->topo.nnz_pairs, m->topo.nz_row,
+                  m->topo.nz_col);
+  return s;
+}
+
+size_t kl_solver_bytes(const kl_model *m) {
+  kli_carver c = {NULL, 0};
+  if (m == NULL || !m->finalized)
+    return 0;
+  carve_solver(m, &c);
+  return c.used;
+}
+
+static kl_solver *place(const kl_model *m, void *block, size_t size,
+                        int owns) {
+  kli_carver c;
+  kl_solver *s;
+  memset(block, 0, size);
+  c.base = block;
+  c.used = 0;
+  s = carve_solver(m, &c);
+  s->model = m;
+  s->block = block;
+  s->block_size = size;
+  s->owns_block = owns;
+  s->n = m->topo.nvars;
+  s->ncoords = m->topo.ncoords;
+  s->ninputs = m->ninputs;
+  kl_options_default(&s->opt);
+  kli_dense_init(&s->dense);
+  kli_expand(m, NULL, NULL, s->pose.x);
+  kli_pose_trig(m, &s->pose);
+  s->last_attempt = KL_OK;
+  s->stats.size = sizeof s->stats;
+  return s;
+}
+
+kl_solver *kl_solver_new(const kl_model *m) {
+  size_t size = kl_solver_bytes(m);
+  void *block;
+  if (size == 0)
+    return NULL;
+  block = kli_alloc(&m->alloc, size);
+  return block == NULL ? NULL : place(m, block, size, 1);
+}
+
+kl_solver *kl_solver_new_in(const kl_model *m, void *block, size_t size) {
+  size_t need = kl_solver_bytes(m);
+  if (need == 0 || block == NULL || size < need ||
+      ((size_t)block & (sizeof(double) - 1)) != 0)
+    return NULL;
+  return place(m, block, need, 0);
+}
+
+void kl_solver_free(kl_solver *s) {
+  if (s != NULL && s->owns_block)
+    kli_free(&s->model->alloc, s->block, s->block_size);
+}
+
+const kl_model *kl_solver_model(const kl_solver *s) {
+  return s == NULL ? NULL : s->model;
+}
+
+const char *kl_solver_error(const kl_solver *s) {
+  return s == NULL ? "no solver (NULL pointer)" : s->error;
+}
+
+static int out_of(double v, double lo, double hi) {
+  return !(v > lo && v <= hi);
+}
+
+int kl_solver_set_options(kl_solver *s, const kl_options *o) {
+  kl_options next;
+  if (s == NULL)
+    return KL_EINVAL;
+  if (o == NULL || o->size < KLI_OPTIONS_V1_SIZE)
+    return kli_fail(s->error, KL_EINVAL,
+                    "set options: %s; start from kl_options_default()",
+                    o == NULL ? "no options (NULL)" : "options size too small");
+  next = *o;
+  next.size = sizeof next;
+  if (!isfinite(next.tolerance) || !isfinite(next.step_tolerance) ||
+      !isfinite(next.max_step) || !isfinite(next.singular_rcond))
+    return kli_fail(s->error, KL_ENONFINITE,
+                    "set options: a tolerance, max_step or singular_rcond is "
+                    "NaN or infinite");
+  if (out_of(next.tolerance, 0.0, 1e-3))
+    return kli_fail(s->error, KL_EINVAL,
+                    "set options: tolerance %g is not in (0, 1e-3]",
+                    next.tolerance);
+  if (out_of(next.step_tolerance, 0.0, 1e-2))
+    return kli_fail(s->error, KL_EINVAL,
+                    "set options: step_tolerance %g is not in (0, 1e-2]",
+                    next.step_tolerance);
+  if (next.max_iterations < 1 || next.max_iterations > 10000)
+    return kli_fail(s->error, KL_EINVAL,
+                    "set options: max_iterations %d is not in [1, 10000]",
+                    next.max_iterations);
+  if (next.max_backtracks < 0 || next.max_backtracks > 100)
+    return kli_fail(s->error, KL_EINVAL,
+                    "set options: max_backtracks %d is not in [0, 100]",
+                    next.max_backtracks);
+  if (out_of(next.max_step, 0.0, 100.0))
+    return kli_fail(s->error, KL_EINVAL,
+                    "set options: max_step %g is not in (0, 100]",
+                    next.max_step);
+  if (next.singular_rcond < 0.0 || next.singular_rcond >= 1e-3)
+    return kli_fail(s->error, KL_EINVAL,
+                    "set options: singular_rcond %g is not in [0, 1e-3)",
+                    next.singular_rcond);
+  s->opt = next;
+  return KL_OK;
+}
+
+int kl_solver_get_options(const kl_solver *s, kl_options *o) {
+  size_t n;
+  if (s == NULL || o == NULL)
+    return KL_EINVAL;
+  n = o->size >= sizeof(o->size) && o->size < sizeof *o ? o->size : sizeof *o;
+  memcpy(o, &s->opt, n);
+  o->size = n;
+  return KL_OK;
+}
+
+int kl_solver_stats(const kl_solver *s, kl_solve_stats *st) {
+  size_t n;
+  if (s == NULL || st == NULL || st->size < sizeof(st->size))
+    return KL_EINVAL;
+  n = st->size < sizeof *st ? st->size : sizeof *st;
+  memcpy((char *)st + sizeof st->size, (const char *)&s->stats + sizeof st->size,
+         n - sizeof st->size);
+  return KL_OK;
+}
+
+void kli_pose_copy(const kl_solver *s, kli_pose *to, const kli_pose *from) {
+  memcpy(to->x, from->x, (size_t)s->ncoords * sizeof(double));
+  memcpy(to->c, from->c, (size_t)s->model->nlinks * sizeof(double));
+  memcpy(to->s, from->s, (size_t)s->model->nlinks * sizeof(double));
+}
+
+int kli_check_input_values(kl_solver *s, const double *values,
+                           const char *stage, const char *what) {
+  int i;
+  char lj[160];
+  if (s->ninputs > 0 && values == NULL)
+    return kli_fail(s->error, KL_EINVAL,
+                    "%s: the model has %d input%s but the %s array is NULL",
+                    stage, s->ninputs, s->ninputs == 1 ? "" : "s", what);
+  for (i = 0; i < s->ninputs; i++)
+    if (!isfinite(values[i]))
+      return kli_fail(s->error, KL_ENONFINITE,
+                      "%s: %s %d (%s) is NaN or infinite", stage, what, i,
+                      kli_joint_label(s->model, s->model->inputs[i], lj,
+                                      sizeof lj));
+  return KL_OK;
+}
+
+void kli_state_changed(kl_solver *s) {
+  s->velocity_solved = 0;
+  s->acceleration_solved = 0;
+  s->coefficients_solved = 0;
+}
+
+/* A sketch moves the state off the solved position. */
+static void sketch_changed(kl_solver *s) {
+  kli_expand(s->model, s->q, s->u, s->pose.x);
+  kli_pose_trig(s->model, &s->pose);
+  s->position_solved = 0;
+  s->factors_current = 0;
+  kli_state_changed(s);
+}
+
+int kl_set_link_angle(kl_solver *s, int link, double angle) {
+  const kli_topology *t;
+  int l;
+  double offset = 0.0;
+  char la[64];
+  if (s == NULL)
+    return KL_EINVAL;
+  t = &s->model->topo;
+  if (link < 0 || link >= s->model->nlinks)
+    return kli_fail(s->error, KL_EID,
+                    "set link angle: link %d does not exist (links are 0 to "
+                    "%d)",
+                    link, s->model->nlinks - 1);
+  if (link == KL_GROUND)
+    return kli_fail(s->error, KL_EKIND,
+                    "set link angle: link 0 is ground; its angle is 0 for "
+                    "good");
+  if (!isfinite(angle))
+    return kli_fail(s->error, KL_ENONFINITE,
+                    "set link angle: the angle of %s is NaN or infinite",
+                    kli_link_label(s->model, link, la, sizeof la));
+  /* climb to the group's representative, adding up the known offsets */
+  for (l = link; t->angle_parent[l] >= 0; l = t->angle_parent[l])
+    if (t->angle_input[l] >= 0)
+      offset += t->angle_sign[l] * s->u[t->angle_input[l]];
+  kli_gather(s->model, s->pose.x, s->q);
+  if (t->angle_var[l] >= 0)
+    s->q[t->angle_var[l]] = angle - offset;
+  sketch_changed(s);
+  return KL_OK;
+}
+
+int kl_set_joint_slide(kl_solver *s, int joint, double slide) {
+  const kli_topology *t;
+  char lj[160];
+  if (s == NULL)
+    return KL_EINVAL;
+  t = &s->model->topo;
+  if (joint < 0 || joint >= s->model->njoints)
+    return kli_fail(s->error, KL_EID,
+                    "set joint slide: joint %d does not exist (joints are 0 "
+                    "to %d)",
+                    joint, s->model->njoints - 1);
+  if (!kli_is_sliding(s->model->joints[joint].kind))
+    return kli_fail(s->error, KL_EKIND,
+                    "set joint slide: %s has no slide",
+                    kli_joint_label(s->model, joint, lj, sizeof lj));
+  if (!isfinite(slide))
+    return kli_fail(s->error, KL_ENONFINITE,
+                    "set joint slide: the slide of %s is NaN or infinite",
+                    kli_joint_label(s->model, joint, lj, sizeof lj));
+  kli_gather(s->model, s->pose.x, s->q);
+  if (t->slide_var[joint] >= 0)
+    s->q[t->slide_var[joint]] = slide;
+  sketch_changed(s);
+  return KL_OK;
+}
+
+/* ---- the committed position ---- */
+
+static int valid_link(const kl_solver *s, int link) {
+  return s != NULL && link >= 0 && link < s->model->nlinks;
+}
+
+static int valid_slide(const kl_solver *s, int joint) {
+  return s != NULL && joint >= 0 && joint < s->model->njoints &&
+         kli_is_sliding(s->model->joints[joint].kind);
+}
+
+double kl_link_angle(const kl_solver *s, int link) {
+  return valid_link(s, link) ? s->pose.x[link] : NAN;
+}
+
+double kl_joint_slide(const kl_solver *s, int joint) {
+  return valid_slide(s, joint) ? s->pose.x[s->model->nlinks + joint] : NAN;
+}
+
+double kl_joint_angle(const kl_solver *s, int joint) {
+  const kli_joint *j;
+  if (s == NULL || joint < 0 || joint >= s->model->njoints)
+    return NAN;
+  j = &s->model->joints[joint];
+  return s->pose.x[j->link[1]] - s->pose.x[j->link[0]];
+}
+
+double kl_input_value(const kl_solver *s, int input) {
+  if (s == NULL || input < 0 || input >= s->ninputs || !s->inputs_known)
+    return NAN;
+  return s->u[input];
+}
+
+int kl_point_position(const kl_solver *s, int point, double xy[2]) {
+  if (s == NULL || xy == NULL)
+    return KL_EINVAL;
+  if (point < 0 || point >= s->model->npoints)
+    return KL_EID;
+  kli_chain_value(s->model, &s->model->topo.points[point], &s->pose, xy);
+  return KL_OK;
+}
+
+int kl_link_origin(const kl_solver *s, int link, double xy[2]) {
+  if (s == NULL || xy == NULL)
+    return KL_EINVAL;
+  if (link < 0 || link >= s->model->nlinks)
+    return KL_EID;
+  kli_chain_value(s->model, &s->model->topo.origins[link], &s->pose, xy);
+  return KL_OK;
+}

@@ -1,0 +1,56 @@
+/*
+ * solver.h - private: a solver's state and its working memory, all carved
+ * from one block sized at creation, so that no later call allocates.
+ */
+#ifndef KINLOOP_SOLVER_H
+#define KINLOOP_SOLVER_H
+
+#include "dense.h"
+#include "equations.h"
+
+struct kl_solver {
+  const kl_model *model;
+  kl_options opt;
+  void *block; /* everything below points into it */
+  size_t block_size;
+  int owns_block;
+  int n, ncoords, ninputs;
+
+  /* The committed state: the last good position and its rates. */
+  kli_pose pose;          /* x, cos, sin */
+  double *xd, *xdd;       /* coordinate rates and accelerations */
+  double *u, *ud, *udd;   /* inputs, their rates and accelerations */
+  int position_solved;    /* pose closes the loops at u (not a sketch) */
+  int inputs_known;       /* u holds inputs of a successful solve */
+  int last_attempt;       /* status of the last position solve */
+  int velocity_solved, acceleration_solved, coefficients_solved;
+  int factors_current;    /* dense holds the factors at pose */
+  double rcond;           /* condition estimate of those factors */
+  double *coef1;          /* ncoords x ninputs: d x / d u_i */
+  double *coef2;          /* ncoords x ninputs x ninputs: d2 x / du_i du_j */
+
+  /* Working memory of the stages. */
+  kli_pose trial[2];      /* Newton's current and trial iterates */
+  double *u_trial;
+  double *u_unit;         /* a unit input vector for the coefficients */
+  double *q, *dq, *q_next;
+  double *f, *f_next, *grad;
+  double *pairs;          /* Jacobian values on the pattern */
+  double *rhs;            /* n */
+  double *xv;             /* ncoords scratch for the rate stages */
+  kli_dense dense;
+  kl_solve_stats stats;
+  char error[KLI_MESSAGE_SIZE];
+};
+
+/* Copies pose `from` into `to` (coordinates and trig). */
+void kli_pose_copy(const kl_solver *s, kli_pose *to, const kli_pose *from);
+/* KL_OK if `values` holds one finite number per input (NULL allowed when
+ * there are none); else KL_EINVAL or KL_ENONFINITE with a message naming
+ * the stage, what the values are, and the input. */
+int kli_check_input_values(kl_solver *s, const double *values,
+                           const char *stage, const char *what);
+/* Marks the committed position as changed: every rate is stale. */
+void kli_state_changed(kl_solver *s);
+
+#endif

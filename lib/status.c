@@ -1,0 +1,48 @@
+/*
+ * status.c - version, status texts and the message formatter every handle
+ * uses for its last-failure message.
+ */
+#include <stdarg.h>
+#include <stdio.h>
+
+#include "model.h"
+
+const char *kl_version(void) { return KINLOOP_VERSION; }
+
+int kl_version_number(void) { return KINLOOP_VERSION_NUMBER; }
+
+const char *kl_status_str(int status) {
+  switch (status) {
+  case KL_OK: return "ok";
+  case KL_LIMIT: return "motion limit reached";
+  case KL_ENOMEM: return "out of memory";
+  case KL_EINVAL: return "invalid argument";
+  case KL_ENONFINITE: return "number is NaN or infinite";
+  case KL_EID: return "unknown id";
+  case KL_EKIND: return "id of the wrong kind";
+  case KL_ESTATE: return "call not allowed in this state";
+  case KL_ESELFJOINT: return "joint joins a link to itself";
+  case KL_EDUPLICATE: return "duplicate";
+  case KL_EDISCONNECTED: return "link not connected to ground";
+  case KL_EZEROLENGTH: return "zero length";
+  case KL_ELOOP: return "loop is not a simple cycle";
+  case KL_ELOOPSET: return "loops are not a full independent set";
+  case KL_EOVERCONSTRAINED: return "over-constrained";
+  case KL_EDOF: return "inputs do not match the degrees of freedom";
+  case KL_EUNDETERMINED: return "coordinate not determined by any equation";
+  case KL_EMAXITER: return "no convergence within the iteration limit";
+  case KL_ENOASSEMBLY: return "no assembly: the loops cannot close";
+  case KL_ESINGULAR: return "singular Jacobian";
+  case KL_ESTAGE: return "stage called before the stage it needs";
+  case KL_ESTOPPED: return "stopped by the callback";
+  default: return "unknown status";
+  }
+}
+
+int kli_fail(char *buf, int status, const char *fmt, ...) {
+  va_list ap;
+  va_start(ap, fmt);
+  vsnprintf(buf, KLI_MESSAGE_SIZE, fmt, ap);
+  va_end(ap);
+  return status;
+}

@@ -1,0 +1,689 @@
+/*
+ * topology.c - finalize: connectivity, loops (registered or found from a
+ * spanning tree), mobility, elimination of locked angles and inputs, the
+ * vector chains of loops and points, and the Jacobian's sparsity pattern.
+ */
+#include <math.h>
+#include <string.h>
+
+#include "model.h"
+
+/* Working arrays of one finalize call, carved from one temporary block. */
+typedef struct {
+  int *adj_start, *adj_joint;       /* joints at each link (CSR) */
+  int *tree_joint, *tree_parent;    /* spanning tree from ground */
+  int *depth, *bfs;                 /* depth in the tree; visiting order */
+  int *group_of;                    /* union-find over angle relations */
+  int *group_var;                   /* unknown moving each link's angle */
+  int *col_nz;                      /* per unknown: its pair in this loop */
+  int *match_row;                   /* matching: unknown -> row */
+  int *row_match;                   /* matching: row -> unknown */
+  int *seen;
+  int *path_a, *path_b;             /* tree paths while finding loops */
+  int *loop_joints, *loop_start;    /* loops before they are final */
+  int nloops, nloop_joints, cap_loop_joints;
+  double *rank_work;
+} work;
+
+static int union_find(int *parent, int x) {
+  while (parent[x] != x) {
+    parent[x] = parent[parent[x]];
+    x = parent[x];
+  }
+  return x;
+}
+
+static int other_link(const kli_joint *j, int link) {
+  return j->link[0] == link ? j->link[1] : j->link[0];
+}
+
+static void build_adjacency(const kl_model *m, work *w) {
+  int j, l, side;
+  memset(w->adj_start, 0, (size_t)(m->nlinks + 1) * sizeof(int));
+  for (j = 0; j < m->njoints; j++)
+    for (side = 0; side < 2; side++)
+      w->adj_start[m->joints[j].link[side] + 1]++;
+  for (l = 0; l < m->nlinks; l++)
+    w->adj_start[l + 1] += w->adj_start[l];
+  for (l = 0; l < m->nlinks; l++)
+    w->seen[l] = w->adj_start[l];
+  for (j = 0; j < m->njoints; j++)
+    for (side = 0; side < 2; side++)
+      w->adj_joint[w->seen[m->joints[j].link[side]]++] = j;
+}
+
+/* Breadth-first spanning tree from ground; fails on an unreached link. */
+static int spanning_tree(kl_model *m, work *w) {
+  int head = 0, tail = 0, l, k;
+  char la[64];
+  for (l = 0; l < m->nlinks; l++) {
+    w->tree_joint[l] = -1;
+    w->tree_parent[l] = -1;
+    w->depth[l] = -1;
+  }
+  w->depth[KL_GROUND] = 0;
+  w->bfs[tail++] = KL_GROUND;
+  while (head < tail) {
+    int cur = w->bfs[head++];
+    for (k = w->adj_start[cur]; k < w->adj_start[cur + 1]; k++) {
+      int j = w->adj_joint[k], next = other_link(&m->joints[j], cur);
+      if (w->depth[next] >= 0)
+        continue;
+      w->depth[next] = w->depth[cur] + 1;
+      w->tree_joint[next] = j;
+      w->tree_parent[next] = cur;
+      w->bfs[tail++] = next;
+    }
+  }
+  for (l = 0; l < m->nlinks; l++)
+    if (w->depth[l] < 0)
+      return kli_fail(m->error, KL_EDISCONNECTED,
+                      "finalize: %s is not connected to ground through any "
+                      "chain of joints",
+                      kli_link_label(m, l, la, sizeof la));
+  return KL_OK;
+}
+
+static int push_loop_joint(kl_model *m, work *w, int joint) {
+  if (kli_reserve(&m->alloc, (void **)&w->loop_joints, &w->cap_loop_joints,
+                  w->nloop_joints + 1, sizeof(int)) != KL_OK)
+    return KL_ENOMEM;
+  w->loop_joints[w->nloop_joints++] = joint;
+  return KL_OK;
+}
+
+/* The joints from `link` up the tree to `top`, into path; returns the count. */
+static int climb(const work *w, int link, int top, int *path) {
+  int n = 0;
+  while (link != top) {
+    path[n++] = w->tree_joint[link];
+    link = w->tree_parent[link];
+  }
+  return n;
+}
+
+/* One fundamental cycle per joint outside the tree: the chord from a to b,
+ * then the tree path from b up to the common ancestor and down to a. */
+static int find_loops(kl_model *m, work *w) {
+  int j, i;
+  w->nloops = 0;
+  w->nloop_joints = 0;
+  for (j = 0; j < m->njoints; j++) {
+    int a = m->joints[j].link[0], b = m->joints[j].link[1], top_a, top_b;
+    int na, nb;
+    if (w->tree_joint[b] == j || w->tree_joint[a] == j)
+      continue;
+    for (top_a = a, top_b = b; top_a != top_b;) {
+      if (w->depth[top_a] >= w->depth[top_b])
+        top_a = w->tree_parent[top_a];
+      else
+        top_b = w->tree_parent[top_b];
+    }
+    nb = climb(w, b, top_b, w->path_b);
+    na = climb(w, a, top_a, w->path_a);
+    w->loop_start[w->nloops] = w->nloop_joints;
+    if (push_loop_joint(m, w, j) != KL_OK)
+      return KL_ENOMEM;
+    for (i = 0; i < nb; i++)
+      if (push_loop_joint(m, w, w->path_b[i]) != KL_OK)
+        return KL_ENOMEM;
+    for (i = na - 1; i >= 0; i--)
+      if (push_loop_joint(m, w, w->path_a[i]) != KL_OK)
+        return KL_ENOMEM;
+    w->nloops++;
+  }
+  w->loop_start[w->nloops] = w->nloop_joints;
+  return KL_OK;
+}
+
+/* Rank of the registered loops' signed joint-incidence rows. */
+static int loop_rank(const kl_model *m, work *w, int nloops) {
+  int rows = nloops, cols = m->njoints, r, c, rank = 0, i, k;
+  double *a = w->rank_work;
+  memset(a, 0, (size_t)rows * (size_t)cols * sizeof(double));
+  for (r = 0; r < rows; r++) {
+    int n = m->reg_start[r + 1] - m->reg_start[r];
+    const int *js = m->reg_joints + m->reg_start[r];
+    int before;
+    kli_loop_links(m, n, js, w->seen);
+    before = w->seen[n - 1];
+    for (i = 0; i < n; i++) {
+      a[r * cols + js[i]] = m->joints[js[i]].link[0] == before ? 1.0 : -1.0;
+      before = w->seen[i];
+    }
+  }
+  for (c = 0; c < cols && rank < rows; c++) {
+    int piv = -1;
+    double best = 0.5;
+    for (r = rank; r < rows; r++)
+      if (fabs(a[r * cols + c]) > best) {
+        best = fabs(a[r * cols + c]);
+        piv = r;
+      }
+    if (piv < 0)
+      continue;
+    for (k = 0; k < cols; k++) {
+      double t = a[piv * cols + k];
+      a[piv * cols + k] = a[rank * cols + k];
+      a[rank * cols + k] = t;
+    }
+    for (r = rank + 1; r < rows; r++) {
+      double f = a[r * cols + c] / a[rank * cols + c];
+      if (f != 0.0)
+        for (k = c; k < cols; k++)
+          a[r * cols + k] -= f * a[rank * cols + k];
+    }
+    rank++;
+  }
+  return rank;
+}
+
+static int registered_loops(kl_model *m, work *w, int expected) {
+  int rank;
+  if (m->nreg_loops != expected)
+    return kli_fail(m->error, KL_ELOOPSET,
+                    "finalize: %d loop%s registered, but the model has %d "
+                    "independent loops (%d joints - %d links + 1); register "
+                    "all of them or none",
+                    m->nreg_loops, m->nreg_loops == 1 ? " is" : "s are",
+                    expected, m->njoints, m->nlinks);
+  rank = loop_rank(m, w, m->nreg_loops);
+  if (rank < m->nreg_loops)
+    return kli_fail(m->error, KL_ELOOPSET,
+                    "finalize: the %d registered loops are not independent: "
+                    "only %d of them are (a loop is a combination of "
+                    "others)",
+                    m->nreg_loops, rank);
+  w->nloops = m->nreg_loops;
+  w->nloop_joints = 0;
+  return KL_OK;
+}
+
+static int mobility(kl_model *m, int *dof) {
+  int lower = 0, slots = 0, j;
+  for (j = 0; j < m->njoints; j++) {
+    if (m->joints[j].kind == KL_SLOT)
+      slots++;
+    else
+      lower++;
+  }
+  *dof = 3 * (m->nlinks - 1) - 2 * lower - slots;
+  if (*dof < 0)
+    return kli_fail(m->error, KL_EOVERCONSTRAINED,
+                    "finalize: over-constrained: Gruebler's count gives "
+                    "mobility %d (3 x %d moving links - 2 x %d revolute and "
+                    "prismatic joints - %d slot joints)",
+                    *dof, m->nlinks - 1, lower, slots);
+  if (*dof != m->ninputs)
+    return kli_fail(m->error, KL_EDOF,
+                    "finalize: the model has %d degree%s of freedom but %d "
+                    "input%s; give exactly one input per degree of freedom",
+                    *dof, *dof == 1 ? "" : "s", m->ninputs,
+                    m->ninputs == 1 ? "" : "s");
+  return KL_OK;
+}
+
+static int input_of(const kl_model *m, int joint) {
+  int i;
+  for (i = 0; i < m->ninputs; i++)
+    if (m->inputs[i] == joint)
+      return i;
+  return -1;
+}
+
+/* A joint fixes b's angle against a's: a prismatic lock or a revolute input. */
+static int relates_angles(const kl_model *m, int joint) {
+  int kind = m->joints[joint].kind;
+  return kind == KL_PRISMATIC ||
+         (kind == KL_REVOLUTE && input_of(m, joint) >= 0);
+}
+
+/*
+ * Groups links whose angles differ by known amounts and lists, for each, how
+ * its angle follows from its group's representative (ground, or the group's
+ * lowest id). Fills angle_parent/input/sign/order and group_var.
+ */
+static int angle_groups(kl_model *m, work *w, kli_topology *t) {
+  int j, l, head, tail, nvars = 0;
+  char la[64], lb[64], lj[160];
+  for (l = 0; l < m->nlinks; l++)
+    w->group_of[l] = l;
+  for (j = 0; j < m->njoints; j++) {
+    int ra, rb;
+    if (!relates_angles(m, j))
+      continue;
+    ra = union_find(w->group_of, m->joints[j].link[0]);
+    rb = union_find(w->group_of, m->joints[j].link[1]);
+    if (ra == rb)
+      return kli_fail(m->error, KL_EOVERCONSTRAINED,
+                      "finalize: over-constrained: %s fixes the angle of %s "
+                      "against %s, which other prismatic joints or revolute "
+                      "inputs already fix",
+                      kli_joint_label(m, j, lj, sizeof lj),
+                      kli_link_label(m, m->joints[j].link[1], la, sizeof la),
+                      kli_link_label(m, m->joints[j].link[0], lb, sizeof lb));
+    /* the lower id becomes the root, so ground roots its group */
+    if (ra < rb)
+      w->group_of[rb] = ra;
+    else
+      w->group_of[ra] = rb;
+  }
+  for (l = 0; l < m->nlinks; l++) {
+    t->angle_parent[l] = -1;
+    t->angle_input[l] = -1;
+    t->angle_sign[l] = 0.0;
+    t->angle_var[l] = -1;
+    w->seen[l] = 0;
+  }
+  /* breadth-first over the relating joints, from each group's root */
+  tail = 0;
+  for (l = 0; l < m->nlinks; l++) {
+    if (union_find(w->group_of, l) != l)
+      continue;
+    if (l != KL_GROUND)
+      t->angle_var[l] = nvars++;
+    w->seen[l] = 1;
+    head = tail;
+    t->angle_order[tail++] = l;
+    while (head < tail) {
+      int cur = t->angle_order[head++], k;
+      for (k = w->adj_start[cur]; k < w->adj_start[cur + 1]; k++) {
+        int jj = w->adj_joint[k];
+        int next = other_link(&m->joints[jj], cur);
+        if (!relates_angles(m, jj) || w->seen[next])
+          continue;
+        w->seen[next] = 1;
+        t->angle_parent[next] = cur;
+        t->angle_input[next] =
+            m->joints[jj].kind == KL_REVOLUTE ? input_of(m, jj) : -1;
+        t->angle_sign[next] = m->joints[jj].link[0] == cur ? 1.0 : -1.0;
+        t->angle_order[tail++] = next;
+      }
+    }
+  }
+  for (l = 0; l < m->nlinks; l++)
+    w->group_var[l] = t->angle_var[union_find(w->group_of, l)];
+  for (j = 0; j < m->njoints; j++) {
+    t->slide_var[j] = -1;
+    t->slide_input[j] = -1;
+    if (!kli_is_sliding(m->joints[j].kind))
+      continue;
+    t->slide_input[j] = input_of(m, j);
+    if (t->slide_input[j] < 0)
+      t->slide_var[j] = nvars++;
+  }
+  t->nvars = nvars;
+  return KL_OK;
+}
+
+static void fill_var_coords(const kl_model *m, kli_topology *t) {
+  int l, j;
+  for (l = 0; l < m->nlinks; l++)
+    if (t->angle_var[l] >= 0)
+      t->var_coord[t->angle_var[l]] = l;
+  for (j = 0; j < m->njoints; j++)
+    if (t->slide_var[j] >= 0)
+      t->var_coord[t->slide_var[j]] = m->nlinks + j;
+}
+
+static void push_link_term(kli_topology *t, int link, const double *from,
+                           const double *to) {
+  kli_term *term;
+  if (to[0] == from[0] && to[1] == from[1])
+    return;
+  term = &t->terms[t->nterms++];
+  term->link = link;
+  term->joint = -1;
+  term->v[0] = to[0] - from[0];
+  term->v[1] = to[1] - from[1];
+  term->sign = 0.0;
+  term->nz_angle = term->nz_slide = -1;
+}
+
+/* The slide term of crossing `joint` when arriving on link `from`. */
+static void push_crossing(const kl_model *m, kli_topology *t, int joint,
+                          int from) {
+  const kli_joint *j = &m->joints[joint];
+  kli_term *term;
+  if (!kli_is_sliding(j->kind))
+    return;
+  term = &t->terms[t->nterms++];
+  term->link = j->link[0];
+  term->joint = joint;
+  term->v[0] = term->v[1] = 0.0;
+  term->sign = from == j->link[0] ? 1.0 : -1.0;
+  term->nz_angle = term->nz_slide = -1;
+}
+
+static void build_loop_chain(const kl_model *m, kli_topology *t, int loop) {
+  int first = t->loop_joint_start[loop];
+  int n = t->loop_joint_start[loop + 1] - first, i;
+  const int *js = t->loop_joints + first, *ls = t->loop_links + first;
+  t->loops[loop].first = t->nterms;
+  for (i = 0; i < n; i++) {
+    int before = ls[(i + n - 1) % n], link = ls[i];
+    push_crossing(m, t, js[i], before);
+    push_link_term(t, link, kli_joint_point_on(m, js[i], link),
+                   kli_joint_point_on(m, js[(i + 1) % n], link));
+  }
+  t->loops[loop].count = t->nterms - t->loops[loop].first;
+}
+
+/* The chain from the global origin down the spanning tree to `at` on `link`. */
+static void build_path_chain(const kl_model *m, work *w, kli_topology *t,
+                             int link, const double *at, kli_chain *chain) {
+  static const double origin[2] = {0.0, 0.0};
+  int n = climb(w, link, KL_GROUND, w->path_a), i;
+  const double *from = origin;
+  int cur = KL_GROUND;
+  chain->first = t->nterms;
+  /* path_a lists the tree joints from `link` up; walk them downward */
+  for (i = n - 1; i >= 0; i--) {
+    int joint = w->path_a[i];
+    push_link_term(t, cur, from, kli_joint_point_on(m, joint, cur));
+    push_crossing(m, t, joint, cur);
+    cur = other_link(&m->joints[joint], cur);
+    from = kli_joint_point_on(m, joint, cur);
+  }
+  push_link_term(t, cur, from, at);
+  chain->count = t->nterms - chain->first;
+}
+
+/* Pairs of Jacobian entries, one per loop and unknown the loop touches. */
+static void build_pattern(work *w, kli_topology *t) {
+  int loop, k, v;
+  t->nnz_pairs = 0;
+  for (v = 0; v < t->nvars; v++)
+    w->col_nz[v] = -1;
+  for (loop = 0; loop < t->nloops; loop++) {
+    const kli_chain *c = &t->loops[loop];
+    for (k = c->first; k < c->first + c->count; k++) {
+      kli_term *term = &t->terms[k];
+      int cols[2], *slots[2], i;
+      cols[0] = w->group_var[term->link];
+      cols[1] = term->joint >= 0 ? t->slide_var[term->joint] : -1;
+      slots[0] = &term->nz_angle;
+      slots[1] = &term->nz_slide;
+      for (i = 0; i < 2; i++) {
+        if (cols[i] < 0)
+          continue;
+        if (w->col_nz[cols[i]] < 0) {
+          w->col_nz[cols[i]] = t->nnz_pairs;
+          t->nz_row[t->nnz_pairs] = 2 * loop;
+          t->nz_col[t->nnz_pairs] = cols[i];
+          t->nnz_pairs++;
+        }
+        *slots[i] = w->col_nz[cols[i]];
+      }
+    }
+    for (k = c->first; k < c->first + c->count; k++) {
+      const kli_term *term = &t->terms[k];
+      if (w->group_var[term->link] >= 0)
+        w->col_nz[w->group_var[term->link]] = -1;
+      if (term->joint >= 0 && t->slide_var[term->joint] >= 0)
+        w->col_nz[t->slide_var[term->joint]] = -1;
+    }
+  }
+}
+
+/* Augmenting path for unknown `col` in the bipartite graph unknown -> rows. */
+static int augment(const kli_topology *t, work *w, int col, int stamp) {
+  int p, side;
+  for (p = 0; p < t->nnz_pairs; p++) {
+    if (t->nz_col[p] != col)
+      continue;
+    for (side = 0; side < 2; side++) {
+      int row = t->nz_row[p] + side;
+      if (w->seen[row] == stamp)
+        continue;
+      w->seen[row] = stamp;
+      if (w->row_match[row] < 0 ||
+          augment(t, w, w->row_match[row], stamp)) {
+        w->row_match[row] = col;
+        w->match_row[col] = row;
+        return 1;
+      }
+    }
+  }
+  return 0;
+}
+
+/* A link with two or more joints, all at one point of it. */
+static int is_zero_length(const kl_model *m, const work *w, int link) {
+  int k, n = w->adj_start[link + 1] - w->adj_start[link];
+  const double *p0;
+  if (n < 2)
+    return 0;
+  p0 = kli_joint_point_on(m, w->adj_joint[w->adj_start[link]], link);
+  for (k = w->adj_start[link] + 1; k < w->adj_start[link + 1]; k++) {
+    const double *p = kli_joint_point_on(m, w->adj_joint[k], link);
+    if (p[0] != p0[0] || p[1] != p0[1])
+      return 0;
+  }
+  return 1;
+}
+
+/* Every unknown must be matched to its own equation row, or the Jacobian is
+ * singular whatever the geometry. */
+static int structural_check(kl_model *m, work *w, const kli_topology *t) {
+  int v, r, l;
+  char la[64], lj[160];
+  for (r = 0; r < 2 * t->nloops; r++) {
+    w->row_match[r] = -1;
+    w->seen[r] = -1;
+  }
+  for (v = 0; v < t->nvars; v++) {
+    int coord = t->var_coord[v];
+    w->match_row[v] = -1;
+    if (augment(t, w, v, v))
+      continue;
+    if (coord < m->nlinks) {
+      for (l = 0; l < m->nlinks; l++)
+        if (w->group_var[l] == v && is_zero_length(m, w, l))
+          return kli_fail(m->error, KL_EZEROLENGTH,
+                          "finalize: %s has zero length: all its joints are "
+                          "at one point of it, so its angle is undetermined",
+                          kli_link_label(m, l, la, sizeof la));
+      return kli_fail(m->error, KL_EUNDETERMINED,
+                      "finalize: the angle of %s is not determined by any "
+                      "loop equation; give it an input or close a loop "
+                      "through it",
+                      kli_link_label(m, coord, la, sizeof la));
+    }
+    return kli_fail(m->error, KL_EUNDETERMINED,
+                    "finalize: the slide of %s is not determined by any loop "
+                    "equation; make it an input or close a loop through it",
+                    kli_joint_label(m, coord - m->nlinks, lj, sizeof lj));
+  }
+  return KL_OK;
+}
+
+static double model_scale(const kl_model *m, const work *w) {
+  double scale = 0.0;
+  int l, i, k;
+  for (l = 0; l < m->nlinks; l++)
+    for (i = w->adj_start[l]; i < w->adj_start[l + 1]; i++)
+      for (k = i + 1; k < w->adj_start[l + 1]; k++) {
+        const double *p = kli_joint_point_on(m, w->adj_joint[i], l);
+        const double *q = kli_joint_point_on(m, w->adj_joint[k], l);
+        double d = hypot(p[0] - q[0], p[1] - q[1]);
+        if (d > scale)
+          scale = d;
+      }
+  return scale > 0.0 ? scale : 1.0;
+}
+
+static void *carve_work(const kl_model *m, work *w, kli_carver *c) {
+  int nl = m->nlinks, nj = m->njoints;
+  int rows = 2 * (nj + 1); /* rows of the loop equations, at most 2 (J-N+1) */
+  size_t rank = (size_t)(m->nreg_loops > 0 ? m->nreg_loops : 1) * (size_t)nj;
+  int big = nl + nj + rows + 1;
+  w->adj_start = kli_carve(c, (size_t)nl + 1, sizeof(int));
+  w->adj_joint = kli_carve(c, 2 * (size_t)nj, sizeof(int));
+  w->tree_joint = kli_carve(c, (size_t)nl, sizeof(int));
+  w->tree_parent = kli_carve(c, (size_t)nl, sizeof(int));
+  w->depth = kli_carve(c, (size_t)nl, sizeof(int));
+  w->bfs = kli_carve(c, (size_t)nl, sizeof(int));
+  w->group_of = kli_carve(c, (size_t)nl, sizeof(int));
+  w->group_var = kli_carve(c, (size_t)nl, sizeof(int));
+  w->col_nz = kli_carve(c, (size_t)big, sizeof(int));
+  w->match_row = kli_carve(c, (size_t)big, sizeof(int));
+  w->row_match = kli_carve(c, (size_t)big, sizeof(int));
+  w->seen = kli_carve(c, (size_t)big, sizeof(int));
+  w->path_a = kli_carve(c, (size_t)nl, sizeof(int));
+  w->path_b = kli_carve(c, (size_t)nl, sizeof(int));
+  w->loop_start = kli_carve(c, (size_t)nj + 2, sizeof(int));
+  w->rank_work = kli_carve(c, rank, sizeof(double));
+  return c->base;
+}
+
+/* Arrays of the topology, sized from the loops and the tree. */
+static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
+                           kli_carver *c, int nterm_bound) {
+  int nvars = m->nlinks + m->njoints; /* a bound: the count comes later */
+  int nl = m->nlinks, nj = m->njoints, nlj = w->loop_start[w->nloops];
+  t->loop_joint_start = kli_carve(c, (size_t)w->nloops + 1, sizeof(int));
+  t->loop_joints = kli_carve(c, (size_t)nlj, sizeof(int));
+  t->loop_links = kli_carve(c, (size_t)nlj, sizeof(int));
+  t->loops = kli_carve(c, (size_t)w->nloops, sizeof(kli_chain));
+  t->points = kli_carve(c, (size_t)m->npoints, sizeof(kli_chain));
+  t->origins = kli_carve(c, (size_t)nl, sizeof(kli_chain));
+  t->terms = kli_carve(c, (size_t)nterm_bound, sizeof(kli_term));
+  t->var_coord = kli_carve(c, (size_t)nvars, sizeof(int));
+  t->angle_var = kli_carve(c, (size_t)nl, sizeof(int));
+  t->angle_parent = kli_carve(c, (size_t)nl, sizeof(int));
+  t->angle_input = kli_carve(c, (size_t)nl, sizeof(int));
+  t->angle_order = kli_carve(c, (size_t)nl, sizeof(int));
+  t->angle_sign = kli_carve(c, (size_t)nl, sizeof(double));
+  t->slide_var = kli_carve(c, (size_t)nj, sizeof(int));
+  t->slide_input = kli_carve(c, (size_t)nj, sizeof(int));
+  /* a loop term touches at most two unknowns */
+  t->nz_row = kli_carve(c, (size_t)nlj * 4, sizeof(int));
+  t->nz_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));
+}
+
+/* Loop joints as found or registered, with the link after each joint. */
+static void copy_loops(const kl_model *m, const work *w, kli_topology *t) {
+  int loop;
+  t->nloops = w->nloops;
+  for (loop = 0; loop <= w->nloops; loop++)
+    t->loop_joint_start[loop] = w->loop_start[loop];
+  for (loop = 0; loop < w->nloops; loop++) {
+    int first = w->loop_start[loop], n = w->loop_start[loop + 1] - first;
+    const int *src = m->nreg_loops > 0 ? m->reg_joints + m->reg_start[loop]
+                                       : w->loop_joints + first;
+    memcpy(t->loop_joints + first, src, (size_t)n * sizeof(int));
+    kli_loop_links(m, n, t->loop_joints + first, t->loop_links + first);
+  }
+}
+
+int kl_model_finalize(kl_model *m) {
+  work w;
+  kli_carver wc = {NULL, 0}, tc = {NULL, 0};
+  kli_topology t;
+  int st, dof, expected_loops, l, p, nterm_bound;
+  if (m == NULL)
+    return KL_EINVAL;
+  if (m->finalized)
+    return KL_OK;
+  memset(&w, 0, sizeof w);
+  memset(&t, 0, sizeof t);
+  carve_work(m, &w, &wc);
+  wc.base = kli_alloc(&m->alloc, wc.used);
+  if (wc.base == NULL)
+    return kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
+  wc.used = 0;
+  carve_work(m, &w, &wc);
+
+  build_adjacency(m, &w);
+  expected_loops = m->njoints - m->nlinks + 1;
+  if ((st = spanning_tree(m, &w)) != KL_OK || (st = mobility(m, &dof)) != KL_OK)
+    goto done;
+  if (m->nreg_loops > 0) {
+    if ((st = registered_loops(m, &w, expected_loops)) != KL_OK)
+      goto done;
+    for (l = 0; l <= m->nreg_loops; l++)
+      w.loop_start[l] = m->reg_start[l];
+  } else if (find_loops(m, &w) != KL_OK) {
+    st = kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
+    goto done;
+  }
+
+  /* a chain of d tree joints has at most d + 1 link and d slide terms */
+  nterm_bound = 2 * w.loop_start[w.nloops];
+  for (l = 0; l < m->nlinks; l++)
+    nterm_bound += 2 * (w.depth[l] + 1);
+  for (p = 0; p < m->npoints; p++)
+    nterm_bound += 2 * (w.depth[m->points[p].link] + 1);
+  carve_topology(m, &w, &t, &tc, nterm_bound);
+  t.block_size = tc.used;
+  t.block = kli_alloc(&m->alloc, tc.used);
+  if (t.block == NULL) {
+    st = kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
+    goto done;
+  }
+  tc.base = t.block;
+  tc.used = 0;
+  carve_topology(m, &w, &t, &tc, nterm_bound);
+
+  if ((st = angle_groups(m, &w, &t)) != KL_OK)
+    goto done;
+  fill_var_coords(m, &t);
+  copy_loops(m, &w, &t);
+  t.nterms = 0;
+  for (l = 0; l < t.nloops; l++)
+    build_loop_chain(m, &t, l);
+  build_pattern(&w, &t);
+  for (p = 0; p < m->npoints; p++)
+    build_path_chain(m, &w, &t, m->points[p].link, m->points[p].at,
+                     &t.points[p]);
+  for (l = 0; l < m->nlinks; l++) {
+    static const double origin[2] = {0.0, 0.0};
+    build_path_chain(m, &w, &t, l, origin, &t.origins[l]);
+  }
+  if ((st = structural_check(m, &w, &t)) != KL_OK)
+    goto done;
+  t.ncoords = m->nlinks + m->njoints;
+  t.dof = dof;
+  t.scale = model_scale(m, &w);
+  m->topo = t;
+  m->finalized = 1;
+  t.block = NULL;
+  st = KL_OK;
+done:
+  kli_free(&m->alloc, t.block, t.block_size);
+  kli_free(&m->alloc, w.loop_joints, (size_t)w.cap_loop_joints * sizeof(int));
+  kli_free(&m->alloc, wc.base, wc.used);
+  return st;
+}
+
+int kl_model_dof(const kl_model *m) {
+  if (m == NULL)
+    return KL_EINVAL;
+  return m->finalized ? m->topo.dof : KL_ESTATE;
+}
+
+int kl_model_loop_count(const kl_model *m) {
+  if (m == NULL)
+    return KL_EINVAL;
+  return m->finalized ? m->topo.nloops : KL_ESTATE;
+}
+
+int kl_model_loop(const kl_model *m, int loop, int *joints, int cap) {
+  int first, n, i;
+  if (m == NULL || cap < 0 || (cap > 0 && joints == NULL))
+    return KL_EINVAL;
+  if (!m->finalized)
+    return KL_ESTATE;
+  if (loop < 0 || loop >= m->topo.nloops)
+    return KL_EID;
+  first = m->topo.loop_joint_start[loop];
+  n = m->topo.loop_joint_start[loop + 1] - first;
+  for (i = 0; i < n && i < cap; i++)
+    joints[i] = m->topo.loop_joints[first + i];
+  return n;
+}
+
+double kl_model_scale(const kl_model *m) {
+  return m != NULL && m->finalized ? m->topo.scale : NAN;
+}

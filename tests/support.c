@@ -1,0 +1,236 @@
+/*
+ * support.c - the shared test machinery: counting allocator, mechanism
+ * builders (geometry chosen for the tests), angle helpers.
+ */
+#include <math.h>
+#include <stdlib.h>
+
+#include "support.h"
+
+void *counting_alloc_fn(void *user, void *ptr, size_t old_size,
+                        size_t new_size) {
+  counting_alloc *c = user;
+  void *p;
+  if (new_size == 0) {
+    if (ptr != NULL) {
+      c->live--;
+      c->live_bytes -= old_size;
+    }
+    free(ptr);
+    return NULL;
+  }
+  c->calls++;
+  if (c->fail_at > 0 && c->calls == c->fail_at) {
+    c->failed++;
+    return NULL;
+  }
+  p = realloc(ptr, new_size);
+  if (p == NULL)
+    return NULL;
+  if (ptr == NULL)
+    c->live++;
+  c->live_bytes += new_size - old_size;
+  return p;
+}
+
+kl_model *counting_model(counting_alloc *c) {
+  return kl_model_new_with_alloc(counting_alloc_fn, c);
+}
+
+static fourbar fourbar_links(double a, double b, double c, double d) {
+  fourbar f;
+  f.m = kl_model_new();
+  f.a = a;
+  f.b = b;
+  f.c = c;
+  f.d = d;
+  f.crank = kl_add_link(f.m, "crank");
+  f.coupler = kl_add_link(f.m, "coupler");
+  f.rocker = kl_add_link(f.m, "rocker");
+  f.pivot = kl_add_revolute(f.m, KL_GROUND, 0, 0, f.crank, 0, 0);
+  f.crank_pin = kl_add_revolute(f.m, f.crank, a, 0, f.coupler, 0, 0);
+  f.rocker_pin = kl_add_revolute(f.m, f.coupler, b, 0, f.rocker, c, 0);
+  f.rocker_pivot = kl_add_revolute(f.m, f.rocker, 0, 0, KL_GROUND, d, 0);
+  f.coupler_point = kl_add_point(f.m, f.coupler, b / 2, b / 4, "coupler");
+  kl_add_input(f.m, f.pivot);
+  return f;
+}
+
+fourbar build_fourbar(double a, double b, double c, double d) {
+  fourbar f = fourbar_links(a, b, c, d);
+  kl_model_finalize(f.m);
+  return f;
+}
+
+fourbar build_fourbar_explicit(double a, double b, double c, double d) {
+  fourbar f = fourbar_links(a, b, c, d);
+  int loop[4];
+  loop[0] = f.pivot;
+  loop[1] = f.crank_pin;
+  loop[2] = f.rocker_pin;
+  loop[3] = f.rocker_pivot;
+  kl_add_loop(f.m, 4, loop);
+  kl_model_finalize(f.m);
+  return f;
+}
+
+slider_crank build_slider_crank(double r, double l, double e) {
+  slider_crank s;
+  int pivot;
+  s.m = kl_model_new();
+  s.r = r;
+  s.l = l;
+  s.e = e;
+  s.crank = kl_add_link(s.m, "crank");
+  s.rod = kl_add_link(s.m, "rod");
+  s.block = kl_add_link(s.m, "block");
+  pivot = kl_add_revolute(s.m, KL_GROUND, 0, 0, s.crank, 0, 0);
+  kl_add_revolute(s.m, s.crank, r, 0, s.rod, 0, 0);
+  kl_add_revolute(s.m, s.rod, l, 0, s.block, 0, 0);
+  s.slide_joint = kl_add_prismatic(s.m, KL_GROUND, 0, e, 0.0, s.block, 0, 0);
+  kl_add_input(s.m, pivot);
+  kl_model_finalize(s.m);
+  return s;
+}
+
+inverted_slider_crank build_inverted_slider_crank(double r, double d) {
+  inverted_slider_crank s;
+  int pivot;
+  s.m = kl_model_new();
+  s.r = r;
+  s.d = d;
+  s.crank = kl_add_link(s.m, "crank");
+  s.block = kl_add_link(s.m, "block");
+  s.guide = kl_add_link(s.m, "guide");
+  pivot = kl_add_revolute(s.m, KL_GROUND, 0, 0, s.crank, 0, 0);
+  kl_add_revolute(s.m, s.crank, r, 0, s.block, 0, 0);
+  kl_add_revolute(s.m, KL_GROUND, d, 0, s.guide, 0, 0);
+  s.slide_joint = kl_add_prismatic(s.m, s.guide, 0, 0, 0.0, s.block, 0, 0);
+  kl_add_input(s.m, pivot);
+  kl_model_finalize(s.m);
+  return s;
+}
+
+fivebar build_fivebar(double a1, double a2, double b1, double b2, double d) {
+  fivebar f;
+  int p1, p2;
+  f.m = kl_model_new();
+  f.a1 = a1;
+  f.a2 = a2;
+  f.b1 = b1;
+  f.b2 = b2;
+  f.d = d;
+  f.crank1 = kl_add_link(f.m, "left crank");
+  f.crank2 = kl_add_link(f.m, "right crank");
+  f.link1 = kl_add_link(f.m, "left arm");
+  f.link2 = kl_add_link(f.m, "right arm");
+  p1 = kl_add_revolute(f.m, KL_GROUND, 0, 0, f.crank1, 0, 0);
+  p2 = kl_add_revolute(f.m, KL_GROUND, d, 0, f.crank2, 0, 0);
+  kl_add_revolute(f.m, f.crank1, a1, 0, f.link1, 0, 0);
+  kl_add_revolute(f.m, f.crank2, a2, 0, f.link2, 0, 0);
+  kl_add_revolute(f.m, f.link1, b1, 0, f.link2, b2, 0);
+  f.tip = kl_add_point(f.m, f.link1, b1, 0, "tip");
+  kl_add_input(f.m, p1);
+  kl_add_input(f.m, p2);
+  kl_model_finalize(f.m);
+  return f;
+}
+
+static void pin(pin_linkage *p, int a, double ax, double ay, int b, double bx,
+                double by) {
+  int j = p->njoints++;
+  p->a[j] = a;
+  p->b[j] = b;
+  p->pa[j][0] = ax;
+  p->pa[j][1] = ay;
+  p->pb[j][0] = bx;
+  p->pb[j][1] = by;
+}
+
+/*
+ * Watt six-bar (the two ternary links, ground and link 3, joined directly):
+ * a crank-rocker four-bar 0-1-2-3 whose ternary rocker 3 drives a second
+ * four-bar 3-4-5 back to ground. Geometry chosen for the test.
+ */
+pin_linkage watt_sixbar(void) {
+  pin_linkage p = {0};
+  p.nlinks = 6;
+  pin(&p, 0, 0, 0, 1, 0, 0);      /* crank pivot */
+  pin(&p, 1, 30, 0, 2, 0, 0);     /* crank - coupler */
+  pin(&p, 2, 90, 0, 3, 70, 0);    /* coupler - ternary rocker */
+  pin(&p, 3, 0, 0, 0, 80, 0);     /* rocker pivot */
+  pin(&p, 3, 40, 35, 4, 0, 0);    /* rocker arm - second coupler */
+  pin(&p, 4, 85, 0, 5, 60, 0);    /* second coupler - output rocker */
+  pin(&p, 5, 0, 0, 0, 150, 20);   /* output pivot */
+  p.input_joint = 0;
+  p.sketch[1] = 0.0;
+  p.sketch[2] = 1.0;
+  p.sketch[3] = 1.9;
+  p.sketch[4] = 0.3;
+  p.sketch[5] = 1.6;
+  return p;
+}
+
+/*
+ * Stephenson six-bar (ternary links ground and coupler 2 not joined
+ * directly): a crank-rocker four-bar 0-1-2-3 whose ternary coupler 2 drives
+ * a dyad 4-5 back to ground. Geometry chosen for the test.
+ */
+pin_linkage stephenson_sixbar(void) {
+  pin_linkage p = {0};
+  p.nlinks = 6;
+  pin(&p, 0, 0, 0, 1, 0, 0);      /* crank pivot */
+  pin(&p, 1, 35, 0, 2, 0, 0);     /* crank - ternary coupler */
+  pin(&p, 2, 110, 0, 3, 75, 0);   /* coupler - rocker */
+  pin(&p, 3, 0, 0, 0, 95, 0);     /* rocker pivot */
+  pin(&p, 2, 55, 40, 4, 0, 0);    /* coupler point - dyad link */
+  pin(&p, 4, 80, 0, 5, 70, 0);    /* dyad joint */
+  pin(&p, 5, 0, 0, 0, 20, 120);   /* dyad pivot on ground */
+  p.input_joint = 0;
+  p.sketch[1] = 0.0;
+  p.sketch[2] = 0.6;
+  p.sketch[3] = 1.7;
+  p.sketch[4] = 0.2;
+  p.sketch[5] = -0.5;
+  return p;
+}
+
+kl_model *build_pin_linkage(const pin_linkage *p, int explicit_loops) {
+  kl_model *m = kl_model_new();
+  int l, j;
+  for (l = 1; l < p->nlinks; l++)
+    kl_add_link(m, NULL);
+  for (j = 0; j < p->njoints; j++)
+    kl_add_revolute(m, p->a[j], p->pa[j][0], p->pa[j][1], p->b[j],
+                    p->pb[j][0], p->pb[j][1]);
+  kl_add_input(m, p->input_joint);
+  if (explicit_loops) {
+    /* both six-bars: loop 0-1-2-3 and the loop through joints 4, 5, 6 and
+     * back through the first four-bar's joints to ground */
+    static const int first[4] = {0, 1, 2, 3};
+    kl_add_loop(m, 4, first);
+    if (p->a[4] == 3) {
+      static const int watt[4] = {3, 4, 5, 6};
+      kl_add_loop(m, 4, watt);
+    } else {
+      static const int steph[5] = {4, 5, 6, 3, 2};
+      kl_add_loop(m, 5, steph);
+    }
+  }
+  kl_model_finalize(m);
+  return m;
+}
+
+double angle_diff(double a, double b) {
+  double d = fmod(a - b, 2 * PI);
+  if (d > PI)
+    d -= 2 * PI;
+  if (d <= -PI)
+    d += 2 * PI;
+  return d;
+}
+
+double rel_diff(double a, double b, double floor) {
+  double scale = fabs(b) > floor ? fabs(b) : floor;
+  return fabs(a - b) / scale;
+}
