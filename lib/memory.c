@@ -41,7 +41,7 @@ void *kli_carve(kli_carver *c, size_t count, size_t elem) {
   size_t start = (c->used + KLI_ALIGN - 1) / KLI_ALIGN * KLI_ALIGN;
   size_t bytes = count * elem;
   c->used = start + bytes;
-  if (c->base == NULL || count == 0)
-    return NULL;
-  return c->base + start;
+  /* an empty array still gets a pointer into the block, so that copying
+   * zero elements from or to it is well defined */
+  return c->base == NULL ? NULL : c->base + start;
 }

@@ -25,7 +25,8 @@ int kli_reserve(const kli_allocator *a, void **arr, int *cap, int need,
 /*
  * Carving one block into arrays: a first pass with base NULL only adds up
  * the bytes (kli_carve returns NULL); a second pass over the allocated block
- * hands out the same arrays in the same order, each aligned for any type.
+ * hands out the same arrays in the same order, each aligned for any type
+ * (an empty array gets a valid pointer too, never NULL).
  */
 typedef struct {
   unsigned char *base;

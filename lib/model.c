@@ -275,8 +275,11 @@ static int add_sliding_through(kl_model *m, int kind, int a, double ax,
   char la[64];
   if (m == NULL)
     return KL_EINVAL;
-  if (isfinite(ax) && isfinite(ay) && isfinite(tx) && isfinite(ty) &&
-      tx == ax && ty == ay && a >= 0 && a < m->nlinks && !m->finalized)
+  /* the axis angle hides an infinite point (atan2 of infinity is finite),
+   * so the points themselves are checked */
+  if (!isfinite(tx) || !isfinite(ty))
+    return add_joint(m, kind, a, ax, ay, NAN, b, bx, by);
+  if (tx == ax && ty == ay && a >= 0 && a < m->nlinks && !m->finalized)
     return kli_fail(m->error, KL_EZEROLENGTH,
                     "add %s joint: the two points giving the axis on %s "
                     "coincide at (%g, %g), so the axis has zero length",

@@ -1,0 +1,22 @@
+#!/usr/bin/env bash
+# Runs every test three ways: a warnings-as-errors build with each suite
+# plain and under valgrind memcheck, then an AddressSanitizer +
+# UndefinedBehaviorSanitizer build.
+set -euo pipefail
+cd "$(dirname "$0")/.."
+jobs=${KINLOOP_JOBS:-2}
+
+echo "== plain build, every suite plain and under valgrind =="
+cmake -S . -B build-test -DKINLOOP_WERROR=ON -DKINLOOP_MEMCHECK=ON >/dev/null
+cmake --build build-test -j"$jobs"
+ctest --test-dir build-test --output-on-failure -j"$jobs"
+
+echo "== AddressSanitizer + UndefinedBehaviorSanitizer build =="
+cmake -S . -B build-asan -DKINLOOP_WERROR=ON -DKINLOOP_SANITIZE=ON \
+  -DCMAKE_BUILD_TYPE=Debug >/dev/null
+cmake --build build-asan -j"$jobs"
+# the install check builds an outside consumer without the sanitizer runtime
+ASAN_OPTIONS=detect_leaks=1:abort_on_error=1 \
+  ctest --test-dir build-asan --output-on-failure -j"$jobs" -E install_package
+
+echo "test-all: every suite passed"

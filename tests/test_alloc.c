@@ -1,0 +1,173 @@
+/*
+ * test_alloc.c - memory through the allocator hook: every allocation of
+ * building, finalizing and creating a solver is refused in turn; each time
+ * the call fails cleanly, changes nothing, and every block is given back.
+ */
+#include <check.h>
+#include <string.h>
+
+#include "support.h"
+
+/* Builds a six-bar with a slider, a point and named links, step by step;
+ * returns the first failing status, or KL_OK with the model finalized. */
+static int build_steps(kl_model *m) {
+  int st, crank, coupler, rocker, rod, block;
+  int j0, loop[4];
+  if ((st = crank = kl_add_link(m, "crank")) < 0 ||
+      (st = coupler = kl_add_link(m, "coupler")) < 0 ||
+      (st = rocker = kl_add_link(m, "rocker")) < 0 ||
+      (st = rod = kl_add_link(m, "rod")) < 0 ||
+      (st = block = kl_add_link(m, "block")) < 0)
+    return st;
+  if ((st = j0 = kl_add_revolute(m, 0, 0, 0, crank, 0, 0)) < 0 ||
+      (st = loop[1] = kl_add_revolute(m, crank, 60, 0, coupler, 0, 0)) < 0 ||
+      (st = loop[2] = kl_add_revolute(m, coupler, 200, 0, rocker, 150, 0)) < 0 ||
+      (st = loop[3] = kl_add_revolute(m, rocker, 0, 0, 0, 220, 0)) < 0 ||
+      (st = kl_add_revolute(m, rocker, 250, 0, rod, 0, 0)) < 0 ||
+      (st = kl_add_revolute(m, rod, 180, 0, block, 0, 0)) < 0 ||
+      (st = kl_add_prismatic(m, 0, 0, 260, 0.0, block, 0, 0)) < 0)
+    return st;
+  loop[0] = j0;
+  if ((st = kl_add_point(m, coupler, 100, 40, "tucker")) < 0 ||
+      (st = kl_add_input(m, j0)) < 0 || (st = kl_add_loop(m, 4, loop)) < 0)
+    return st;
+  return KL_OK;
+}
+
+START_TEST(every_allocation_failure_is_clean) {
+  long n;
+  int completed = 0;
+  for (n = 1; !completed && n < 1000; n++) {
+    counting_alloc c;
+    kl_model *m;
+    int st;
+    memset(&c, 0, sizeof c);
+    c.fail_at = n;
+    m = counting_model(&c);
+    if (m == NULL) {
+      ck_assert_int_eq(c.live, 0);
+      continue;
+    }
+    st = build_steps(m);
+    if (st == KL_OK) {
+      /* the second loop is found, not registered: register it too */
+      static const int second[4] = {4, 5, 6, 3};
+      st = kl_add_loop(m, 4, second);
+      st = st < 0 ? st : kl_model_finalize(m);
+    }
+    if (st == KL_OK) {
+      kl_solver *s = kl_solver_new(m);
+      if (s != NULL) {
+        double u = 0.3;
+        kl_set_link_angle(s, 2, 0.5);
+        kl_set_link_angle(s, 3, 1.8);
+        kl_set_link_angle(s, 4, 0.3);
+        ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+        completed = c.failed == 0;
+        kl_solver_free(s);
+      }
+    } else {
+      ck_assert_int_eq(st, KL_ENOMEM);
+      ck_assert_ptr_nonnull(strstr(kl_model_error(m), "out of memory"));
+    }
+    ck_assert_int_le(c.failed, 1);
+    kl_model_free(m);
+    ck_assert_msg(c.live == 0, "run %ld leaks %ld blocks", n, c.live);
+    ck_assert_uint_eq(c.live_bytes, 0);
+  }
+  ck_assert(completed);
+}
+END_TEST
+
+/* A refused allocation leaves the model as it was: the same call succeeds
+ * when memory is back, and finalize can be retried. */
+START_TEST(failed_calls_change_nothing) {
+  counting_alloc c;
+  kl_model *m;
+  long n;
+  memset(&c, 0, sizeof c);
+  m = counting_model(&c);
+  ck_assert_int_eq(build_steps(m), KL_OK);
+  {
+    static const int second[4] = {4, 5, 6, 3};
+    ck_assert_int_ge(kl_add_loop(m, 4, second), 0);
+  }
+  for (n = 1;; n++) {
+    int st;
+    c.fail_at = c.calls + n;
+    st = kl_model_finalize(m);
+    if (st == KL_OK)
+      break;
+    ck_assert_int_eq(st, KL_ENOMEM);
+    ck_assert(!kl_model_is_finalized(m));
+    ck_assert_int_eq(kl_model_link_count(m), 6);
+  }
+  ck_assert_int_eq(kl_model_loop_count(m), 2);
+  /* a solver that cannot get its block is simply not made */
+  c.fail_at = c.calls + 1;
+  ck_assert_ptr_null(kl_solver_new(m));
+  c.fail_at = 0;
+  kl_model_free(m);
+  ck_assert_int_eq(c.live, 0);
+}
+END_TEST
+
+START_TEST(builders_keep_the_model_on_failure) {
+  counting_alloc c;
+  kl_model *m;
+  int crank, i;
+  memset(&c, 0, sizeof c);
+  m = counting_model(&c);
+  crank = kl_add_link(m, "crank");
+  /* grow the joint array until a growth step is refused */
+  for (i = 0; i < 40; i++) {
+    int before = kl_model_joint_count(m), st;
+    c.fail_at = c.calls + 1;
+    st = kl_add_slot(m, 0, i, 0, 0.0, crank, 0, 0);
+    if (st == KL_ENOMEM) {
+      ck_assert_int_eq(kl_model_joint_count(m), before);
+      c.fail_at = 0;
+      ck_assert_int_eq(kl_add_slot(m, 0, i, 0, 0.0, crank, 0, 0), before);
+      break;
+    }
+    /* a slot between the same links twice is a duplicate: use new links */
+    c.fail_at = 0;
+    crank = kl_add_link(m, NULL);
+  }
+  ck_assert_int_lt(i, 40);
+  c.fail_at = c.calls + 1;
+  ck_assert_int_eq(kl_add_point(m, crank, 0, 0, "named"), KL_ENOMEM);
+  ck_assert_int_eq(kl_model_point_count(m), 0);
+  c.fail_at = 0;
+  kl_model_free(m);
+  ck_assert_int_eq(c.live, 0);
+}
+END_TEST
+
+START_TEST(allocator_hook_is_required) {
+  counting_alloc c;
+  memset(&c, 0, sizeof c);
+  ck_assert_ptr_null(kl_model_new_with_alloc(NULL, NULL));
+  c.fail_at = 1;
+  ck_assert_ptr_null(counting_model(&c));
+  ck_assert_int_eq(c.live, 0);
+}
+END_TEST
+
+int main(void) {
+  Suite *suite = suite_create("alloc");
+  TCase *tc = tcase_create("alloc");
+  SRunner *runner;
+  int failed;
+  tcase_set_timeout(tc, 120);
+  tcase_add_test(tc, every_allocation_failure_is_clean);
+  tcase_add_test(tc, failed_calls_change_nothing);
+  tcase_add_test(tc, builders_keep_the_model_on_failure);
+  tcase_add_test(tc, allocator_hook_is_required);
+  suite_add_tcase(suite, tc);
+  runner = srunner_create(suite);
+  srunner_run_all(runner, CK_NORMAL);
+  failed = srunner_ntests_failed(runner);
+  srunner_free(runner);
+  return failed == 0 ? 0 : 1;
+}
