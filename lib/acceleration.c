@@ -15,33 +15,33 @@ int kl_solve_acceleration(kl_solver *s, const double *input_accels) {
                                    "input acceleration")) != KL_OK ||
       (st = kli_require_position(s, "solve acceleration")) != KL_OK)
     return st;
-  if (!s->velocity_solved)
+  if (!s->st.velocity_solved)
     return kli_fail(s->error, KL_ESTAGE,
                     "solve acceleration needs the velocity solved at the "
                     "current position first");
   kli_input_terms(s, input_accels, s->rhs);
-  kli_loops_add_second(s->model, &s->pose, s->xd, s->xd, s->rhs);
-  kli_rate_solve(s, s->rhs, input_accels, s->xdd);
+  kli_loops_add_second(s->model, &s->st.pose, s->st.xd, s->st.xd, s->rhs);
+  kli_rate_solve(s, s->rhs, input_accels, s->st.xdd);
   if (s->ninputs > 0)
-    memcpy(s->udd, input_accels, (size_t)s->ninputs * sizeof(double));
-  s->acceleration_solved = 1;
+    memcpy(s->st.udd, input_accels, (size_t)s->ninputs * sizeof(double));
+  s->st.acceleration_solved = 1;
   return KL_OK;
 }
 
 static int accel_ready(const kl_solver *s) {
-  return s != NULL && s->acceleration_solved;
+  return s != NULL && s->st.acceleration_solved;
 }
 
 double kl_link_accel(const kl_solver *s, int link) {
   if (!accel_ready(s) || link < 0 || link >= s->model->nlinks)
     return NAN;
-  return s->xdd[link];
+  return s->st.xdd[link];
 }
 
 double kl_joint_slide_accel(const kl_solver *s, int joint) {
   if (!accel_ready(s) || isnan(kl_joint_slide(s, joint)))
     return NAN;
-  return s->xdd[s->model->nlinks + joint];
+  return s->st.xdd[s->model->nlinks + joint];
 }
 
 int kl_point_acceleration(const kl_solver *s, int point, double xy[2]) {
@@ -49,11 +49,11 @@ int kl_point_acceleration(const kl_solver *s, int point, double xy[2]) {
     return KL_EINVAL;
   if (point < 0 || point >= s->model->npoints)
     return KL_EID;
-  if (!s->acceleration_solved)
+  if (!s->st.acceleration_solved)
     return KL_ESTAGE;
   /* the tangential and slide parts come with xdd, the normal and Coriolis
    * parts with the rates */
-  kli_chain_accel(s->model, &s->model->topo.points[point], &s->pose, s->xd,
-                  s->xd, s->xdd, xy);
+  kli_chain_accel(s->model, &s->model->topo.points[point], &s->st.pose, s->st.xd,
+                  s->st.xd, s->st.xdd, xy);
   return KL_OK;
 }

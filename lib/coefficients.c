@@ -33,7 +33,7 @@ int kl_solve_coefficients(kl_solver *s) {
   for (i = 0; i < s->ninputs; i++)
     for (j = i; j < s->ninputs; j++) {
       memset(s->rhs, 0, (size_t)s->n * sizeof(double));
-      kli_loops_add_second(s->model, &s->pose, first_order(s, i),
+      kli_loops_add_second(s->model, &s->st.pose, first_order(s, i),
                            first_order(s, j), s->rhs);
       kli_rate_solve(s, s->rhs, NULL, second_order(s, i, j));
       if (j != i)
@@ -91,7 +91,7 @@ int kl_point_deriv(const kl_solver *s, int point, int input, double xy[2]) {
   int st = point_ready(s, point, input, input, xy);
   if (st != KL_OK)
     return st;
-  kli_chain_rate(s->model, &s->model->topo.points[point], &s->pose,
+  kli_chain_rate(s->model, &s->model->topo.points[point], &s->st.pose,
                  first_order(s, input), xy);
   return KL_OK;
 }
@@ -101,7 +101,7 @@ int kl_point_deriv2(const kl_solver *s, int point, int input_i, int input_j,
   int st = point_ready(s, point, input_i, input_j, xy);
   if (st != KL_OK)
     return st;
-  kli_chain_accel(s->model, &s->model->topo.points[point], &s->pose,
+  kli_chain_accel(s->model, &s->model->topo.points[point], &s->st.pose,
                   first_order(s, input_i), first_order(s, input_j),
                   second_order(s, input_i, input_j), xy);
   return KL_OK;

@@ -18,6 +18,7 @@ void kli_dense_carve(kli_dense *d, kli_carver *c, int n, int npairs,
   d->npairs = npairs;
   d->row = row;
   d->col = col;
+  d->colscale = kli_carve(c, (size_t)n, sizeof(double));
   d->a = kli_carve(c, nn, sizeof(double));
   d->lu = kli_carve(c, nn, sizeof(double));
   d->ipiv = kli_carve(c, (size_t)n, sizeof(int));
@@ -26,9 +27,9 @@ void kli_dense_carve(kli_dense *d, kli_carver *c, int n, int npairs,
   d->normal = kli_carve(c, nn, sizeof(double));
 }
 
-void kli_dense_init(kli_dense *d) {
-  if (d->n > 0)
-    memset(d->a, 0, (size_t)d->n * (size_t)d->n * sizeof(double));
+void kli_dense_init(kli_dense *d, const double *colscale) {
+  memcpy(d->colscale, colscale, (size_t)d->n * sizeof(double));
+  memset(d->a, 0, (size_t)d->n * (size_t)d->n * sizeof(double));
   d->anorm = 0.0;
   d->singular = 1;
 }
@@ -37,8 +38,9 @@ void kli_dense_load(kli_dense *d, const double *pairs) {
   int p;
   for (p = 0; p < d->npairs; p++) {
     double *at = d->a + (size_t)d->col[p] * (size_t)d->n + (size_t)d->row[p];
-    at[0] = pairs[2 * p];
-    at[1] = pairs[2 * p + 1];
+    double scale = d->colscale[d->col[p]];
+    at[0] = pairs[2 * p] * scale;
+    at[1] = pairs[2 * p + 1] * scale;
   }
 }
 
@@ -69,17 +71,21 @@ double kli_dense_rcond(kli_dense *d) {
 }
 
 void kli_dense_solve(const kli_dense *d, double *b) {
+  int i;
   if (d->n == 0)
     return;
   LAPACKE_dgetrs_work(LAPACK_COL_MAJOR, 'N', d->n, 1, d->lu, d->n, d->ipiv, b,
                       d->n);
+  for (i = 0; i < d->n; i++)
+    b[i] *= d->colscale[i];
 }
 
-int kli_dense_damped_step(kli_dense *d, const double *f, double lambda,
+int kli_dense_damped_step(kli_dense *d, const double *f, double damping,
                           double *dx) {
   int n = d->n, i, j, k;
+  double trace = 0.0, lambda;
   if (n == 0)
-    return 0;
+    return 1;
   for (j = 0; j < n; j++) {
     const double *cj = d->a + (size_t)j * (size_t)n;
     for (i = j; i < n; i++) {
@@ -89,14 +95,21 @@ int kli_dense_damped_step(kli_dense *d, const double *f, double lambda,
         sum += ci[k] * cj[k];
       d->normal[(size_t)j * (size_t)n + (size_t)i] = sum;
     }
-    d->normal[(size_t)j * (size_t)n + (size_t)j] += lambda;
+    trace += d->normal[(size_t)j * (size_t)n + (size_t)j];
   }
+  if (!(trace > 0.0))
+    return 1;
+  lambda = damping * trace / n;
+  for (j = 0; j < n; j++)
+    d->normal[(size_t)j * (size_t)n + (size_t)j] += lambda;
   kli_dense_apply_transpose(d, f, dx);
   for (i = 0; i < n; i++)
     dx[i] = -dx[i];
   if (LAPACKE_dpotrf_work(LAPACK_COL_MAJOR, 'L', n, d->normal, n) != 0)
     return 1;
   LAPACKE_dpotrs_work(LAPACK_COL_MAJOR, 'L', n, 1, d->normal, n, dx, n);
+  for (i = 0; i < n; i++)
+    dx[i] *= d->colscale[i];
   return 0;
 }
 
@@ -118,7 +131,8 @@ void kli_dense_apply(const kli_dense *d, const double *x, double *y) {
     y[k] = 0.0;
   for (i = 0; i < n; i++) {
     const double *col = d->a + (size_t)i * (size_t)n;
+    double xi = x[i] / d->colscale[i];
     for (k = 0; k < n; k++)
-      y[k] += col[k] * x[i];
+      y[k] += col[k] * xi;
   }
 }

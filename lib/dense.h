@@ -12,7 +12,11 @@ typedef struct {
   int n;             /* unknowns = equations */
   int npairs;        /* nonzero pairs: rows (r, r + 1) of column c */
   const int *row, *col;
-  double *a;         /* the assembled matrix, column-major n x n */
+  /* Column scales D: the matrix held is A D, with every column in length
+   * units (slide columns times the model's scale), so that the condition
+   * estimate does not depend on the unit of length. */
+  double *colscale;
+  double *a;         /* the assembled, scaled matrix A D, column-major n x n */
   double *lu;        /* LU factors of a */
   int *ipiv;
   double *work;      /* 4 n, for dgecon */
@@ -25,25 +29,28 @@ typedef struct {
 /* Carves the arrays for an n x n system with the given pattern. */
 void kli_dense_carve(kli_dense *d, kli_carver *c, int n, int npairs,
                      const int *row, const int *col);
-/* Zeroes the matrix once; entries off the pattern stay zero for good. */
-void kli_dense_init(kli_dense *d);
-/* Scatters the pattern's values (two per pair) into the matrix. */
+/* Zeroes the matrix once (entries off the pattern stay zero for good) and
+ * takes the column scales (n values, copied). */
+void kli_dense_init(kli_dense *d, const double *colscale);
+/* Scatters the pattern's values of A (two per pair) into A D. */
 void kli_dense_load(kli_dense *d, const double *pairs);
 /* LU-factors the loaded matrix; 0, or 1 if a pivot is exactly zero. */
 int kli_dense_factor(kli_dense *d);
-/* Reciprocal condition estimate (1-norm) of the factored matrix; 0 when
- * the factorization was singular. */
+/* Reciprocal condition estimate (1-norm) of the factored, scaled matrix;
+ * 0 when the factorization was singular. */
 double kli_dense_rcond(kli_dense *d);
-/* Solves A x = b in place with the factors. */
+/* Solves A x = b in place with the factors (of A D: x = D (A D)^-1 b). */
 void kli_dense_solve(const kli_dense *d, double *b);
 /*
- * Damped least-squares (Levenberg-Marquardt) step of the loaded matrix:
- * solves (A^T A + lambda I) dx = -A^T f. Returns 0, or 1 if the damped
- * matrix is not positive definite (lambda too small for the rounding).
+ * Damped least-squares (Levenberg-Marquardt) step in the scaled unknowns:
+ * solves ((A D)^T (A D) + lambda I) y = -(A D)^T f, with lambda `damping`
+ * times the mean diagonal of (A D)^T (A D), and returns dx = D y in `dx`.
+ * Returns 0, or 1 if the matrix is zero or the damped matrix is not
+ * positive definite (damping too small for the rounding).
  */
-int kli_dense_damped_step(kli_dense *d, const double *f, double lambda,
+int kli_dense_damped_step(kli_dense *d, const double *f, double damping,
                           double *dx);
-/* y = A^T x with the loaded matrix. */
+/* y = (A D)^T x, the scaled transpose, with the loaded matrix. */
 void kli_dense_apply_transpose(const kli_dense *d, const double *x, double *y);
 /* y = A x with the loaded matrix. */
 void kli_dense_apply(const kli_dense *d, const double *x, double *y);

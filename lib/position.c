@@ -154,24 +154,12 @@ static int step_along(kl_solver *s, newton_iterate *it, double *dq,
  * 0 when none does: the residual sits at a stationary point.
  */
 static int damped_step(kl_solver *s, newton_iterate *it) {
-  double trace = 0.0, lambda;
-  int i, tries;
-  for (i = 0; i < s->n; i++) {
-    const double *col = s->dense.a + (size_t)i * (size_t)s->n;
-    int k;
-    for (k = 0; k < s->n; k++)
-      trace += col[k] * col[k];
-  }
-  if (!(trace > 0.0))
-    return 0;
-  lambda = 1e-6 * trace / s->n;
-  for (tries = 0; tries < KLI_DAMPING_TRIES; tries++, lambda *= 10.0) {
-    if (kli_dense_damped_step(&s->dense, it->f, lambda, s->dq) != 0)
-      continue;
-    if (step_along(s, it, s->dq, scaled_norm(s, s->dq), 1.0))
+  double damping = 1e-6;
+  int tries;
+  for (tries = 0; tries < KLI_DAMPING_TRIES; tries++, damping *= 10.0)
+    if (kli_dense_damped_step(&s->dense, it->f, damping, s->dq) == 0 &&
+        step_along(s, it, s->dq, scaled_norm(s, s->dq), 1.0))
       return 1;
-    s->stats.backtracks++;
-  }
   return 0;
 }
 
@@ -202,12 +190,12 @@ static int fail_stalled(kl_solver *s, const newton_iterate *it, int iters) {
 }
 
 static void commit(kl_solver *s, const kli_pose *p, double rcond) {
-  kli_pose_copy(s, &s->pose, p);
-  memcpy(s->u, s->u_trial, (size_t)s->ninputs * sizeof(double));
-  s->position_solved = 1;
-  s->inputs_known = 1;
+  kli_pose_copy(s, &s->st.pose, p);
+  memcpy(s->st.u, s->u_trial, (size_t)s->ninputs * sizeof(double));
+  s->st.position_solved = 1;
+  s->st.inputs_known = 1;
   s->factors_current = 1;
-  s->rcond = rcond;
+  s->st.rcond = rcond;
   kli_state_changed(s);
 }
 
@@ -234,7 +222,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   it.q_next = s->q_next;
   it.f = s->f;
   it.f_next = s->f_next;
-  kli_gather(s->model, s->pose.x, it.q);
+  kli_gather(s->model, s->st.pose.x, it.q);
   it.fnorm = evaluate(s, it.cur, it.q, s->u_trial, it.f);
   s->factors_current = 0;
   for (iter = 0;; iter++) {
@@ -292,40 +280,40 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
     goto failed_stats;
   }
   commit(s, it.cur, s->stats.rcond);
-  s->last_attempt = s->stats.status = KL_OK;
+  s->st.last_attempt = s->stats.status = KL_OK;
   return KL_OK;
 failed:
   s->stats.residual = it.fnorm;
   s->stats.step = step;
   s->stats.rcond = singular ? 0.0 : kli_dense_rcond(&s->dense);
 failed_stats:
-  s->last_attempt = s->stats.status = st;
+  s->st.last_attempt = s->stats.status = st;
   return st;
 }
 
 int kli_require_position(kl_solver *s, const char *stage) {
-  if (s->last_attempt == KL_ESINGULAR)
+  if (s->st.last_attempt == KL_ESINGULAR)
     return kli_fail(s->error, KL_ESINGULAR,
                     "%s: the Jacobian is singular at the position asked for "
                     "last, so the rates there are not determined",
                     stage);
-  if (s->last_attempt != KL_OK || !s->position_solved)
+  if (s->st.last_attempt != KL_OK || !s->st.position_solved)
     return kli_fail(s->error, KL_ESTAGE,
                     "%s needs a position solved at the current inputs first "
                     "(%s)",
                     stage,
-                    s->last_attempt != KL_OK
+                    s->st.last_attempt != KL_OK
                         ? "the last position solve failed"
                         : "no position solved since the last sketch change");
   if (!s->factors_current) {
-    kli_factor_at(s, &s->pose);
-    s->rcond = kli_dense_rcond(&s->dense);
+    kli_factor_at(s, &s->st.pose);
+    s->st.rcond = kli_dense_rcond(&s->dense);
     s->factors_current = 1;
   }
-  if (s->rcond < s->opt.singular_rcond || s->dense.singular)
+  if (s->st.rcond < s->opt.singular_rcond || s->dense.singular)
     return kli_fail(s->error, KL_ESINGULAR,
                     "%s: the Jacobian is singular at the current position "
                     "(rcond %.3g)",
-                    stage, s->rcond);
+                    stage, s->st.rcond);
   return KL_OK;
 }

@@ -29,6 +29,16 @@ static void carve_pose(kli_pose *p, kli_carver *c, int ncoords, int nlinks) {
   p->s = kli_carve(c, (size_t)nlinks, sizeof(double));
 }
 
+static void carve_state(kli_state *st, kli_carver *c, int ncoords,
+                        int nlinks, int ninputs) {
+  carve_pose(&st->pose, c, ncoords, nlinks);
+  st->xd = kli_carve(c, (size_t)ncoords, sizeof(double));
+  st->xdd = kli_carve(c, (size_t)ncoords, sizeof(double));
+  st->u = kli_carve(c, (size_t)ninputs, sizeof(double));
+  st->ud = kli_carve(c, (size_t)ninputs, sizeof(double));
+  st->udd = kli_carve(c, (size_t)ninputs, sizeof(double));
+}
+
 /* Lays the solver out in c; returns the solver (NULL on the sizing pass). */
 static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   kl_solver *s = kli_carve(c, 1, sizeof(kl_solver));
@@ -36,12 +46,8 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   kl_solver *t = s != NULL ? s : &sizing;
   int n = m->topo.nvars, nc = m->topo.ncoords, nl = m->nlinks;
   int ni = m->ninputs;
-  carve_pose(&t->pose, c, nc, nl);
-  t->xd = kli_carve(c, (size_t)nc, sizeof(double));
-  t->xdd = kli_carve(c, (size_t)nc, sizeof(double));
-  t->u = kli_carve(c, (size_t)ni, sizeof(double));
-  t->ud = kli_carve(c, (size_t)ni, sizeof(double));
-  t->udd = kli_carve(c, (size_t)ni, sizeof(double));
+  carve_state(&t->st, c, nc, nl, ni);
+  carve_state(&t->saved, c, nc, nl, ni);
   t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
   t->coef2 = kli_carve(c, (size_t)nc * (size_t)ni * (size_t)ni, sizeof(double));
   carve_pose(&t->trial[0], c, nc, nl);
@@ -74,6 +80,7 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
                         int owns) {
   kli_carver c;
   kl_solver *s;
+  int i;
   memset(block, 0, size);
   c.base = block;
   c.used = 0;
@@ -86,10 +93,13 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   s->ncoords = m->topo.ncoords;
   s->ninputs = m->ninputs;
   kl_options_default(&s->opt);
-  kli_dense_init(&s->dense);
-  kli_expand(m, NULL, NULL, s->pose.x);
-  kli_pose_trig(m, &s->pose);
-  s->last_attempt = KL_OK;
+  /* slide columns of the Jacobian are unitless: scale them to lengths */
+  for (i = 0; i < s->n; i++)
+    s->rhs[i] = m->topo.var_coord[i] < m->nlinks ? 1.0 : m->topo.scale;
+  kli_dense_init(&s->dense, s->rhs);
+  kli_expand(m, NULL, NULL, s->st.pose.x);
+  kli_pose_trig(m, &s->st.pose);
+  s->st.last_attempt = KL_OK;
   s->stats.size = sizeof s->stats;
   return s;
 }
@@ -214,17 +224,40 @@ int kli_check_input_values(kl_solver *s, const double *values,
   return KL_OK;
 }
 
+void kli_state_copy(const kl_solver *s, kli_state *to, const kli_state *from) {
+  size_t nc = (size_t)s->ncoords * sizeof(double);
+  size_t ni = (size_t)s->ninputs * sizeof(double);
+  kli_pose_copy(s, &to->pose, &from->pose);
+  memcpy(to->xd, from->xd, nc);
+  memcpy(to->xdd, from->xdd, nc);
+  memcpy(to->u, from->u, ni);
+  memcpy(to->ud, from->ud, ni);
+  memcpy(to->udd, from->udd, ni);
+  to->position_solved = from->position_solved;
+  to->inputs_known = from->inputs_known;
+  to->velocity_solved = from->velocity_solved;
+  to->acceleration_solved = from->acceleration_solved;
+  to->last_attempt = from->last_attempt;
+  to->rcond = from->rcond;
+}
+
+void kli_state_restore(kl_solver *s, const kli_state *from) {
+  kli_state_copy(s, &s->st, from);
+  s->factors_current = 0;
+  s->coefficients_solved = 0;
+}
+
 void kli_state_changed(kl_solver *s) {
-  s->velocity_solved = 0;
-  s->acceleration_solved = 0;
+  s->st.velocity_solved = 0;
+  s->st.acceleration_solved = 0;
   s->coefficients_solved = 0;
 }
 
 /* A sketch moves the state off the solved position. */
 static void sketch_changed(kl_solver *s) {
-  kli_expand(s->model, s->q, s->u, s->pose.x);
-  kli_pose_trig(s->model, &s->pose);
-  s->position_solved = 0;
+  kli_expand(s->model, s->q, s->st.u, s->st.pose.x);
+  kli_pose_trig(s->model, &s->st.pose);
+  s->st.position_solved = 0;
   s->factors_current = 0;
   kli_state_changed(s);
 }
@@ -253,8 +286,8 @@ int kl_set_link_angle(kl_solver *s, int link, double angle) {
   /* climb to the group's representative, adding up the known offsets */
   for (l = link; t->angle_parent[l] >= 0; l = t->angle_parent[l])
     if (t->angle_input[l] >= 0)
-      offset += t->angle_sign[l] * s->u[t->angle_input[l]];
-  kli_gather(s->model, s->pose.x, s->q);
+      offset += t->angle_sign[l] * s->st.u[t->angle_input[l]];
+  kli_gather(s->model, s->st.pose.x, s->q);
   if (t->angle_var[l] >= 0)
     s->q[t->angle_var[l]] = angle - offset;
   sketch_changed(s);
@@ -280,7 +313,7 @@ int kl_set_joint_slide(kl_solver *s, int joint, double slide) {
     return kli_fail(s->error, KL_ENONFINITE,
                     "set joint slide: the slide of %s is NaN or infinite",
                     kli_joint_label(s->model, joint, lj, sizeof lj));
-  kli_gather(s->model, s->pose.x, s->q);
+  kli_gather(s->model, s->st.pose.x, s->q);
   if (t->slide_var[joint] >= 0)
     s->q[t->slide_var[joint]] = slide;
   sketch_changed(s);
@@ -299,11 +332,11 @@ static int valid_slide(const kl_solver *s, int joint) {
 }
 
 double kl_link_angle(const kl_solver *s, int link) {
-  return valid_link(s, link) ? s->pose.x[link] : NAN;
+  return valid_link(s, link) ? s->st.pose.x[link] : NAN;
 }
 
 double kl_joint_slide(const kl_solver *s, int joint) {
-  return valid_slide(s, joint) ? s->pose.x[s->model->nlinks + joint] : NAN;
+  return valid_slide(s, joint) ? s->st.pose.x[s->model->nlinks + joint] : NAN;
 }
 
 double kl_joint_angle(const kl_solver *s, int joint) {
@@ -311,13 +344,13 @@ double kl_joint_angle(const kl_solver *s, int joint) {
   if (s == NULL || joint < 0 || joint >= s->model->njoints)
     return NAN;
   j = &s->model->joints[joint];
-  return s->pose.x[j->link[1]] - s->pose.x[j->link[0]];
+  return s->st.pose.x[j->link[1]] - s->st.pose.x[j->link[0]];
 }
 
 double kl_input_value(const kl_solver *s, int input) {
-  if (s == NULL || input < 0 || input >= s->ninputs || !s->inputs_known)
+  if (s == NULL || input < 0 || input >= s->ninputs || !s->st.inputs_known)
     return NAN;
-  return s->u[input];
+  return s->st.u[input];
 }
 
 int kl_point_position(const kl_solver *s, int point, double xy[2]) {
@@ -325,7 +358,7 @@ int kl_point_position(const kl_solver *s, int point, double xy[2]) {
     return KL_EINVAL;
   if (point < 0 || point >= s->model->npoints)
     return KL_EID;
-  kli_chain_value(s->model, &s->model->topo.points[point], &s->pose, xy);
+  kli_chain_value(s->model, &s->model->topo.points[point], &s->st.pose, xy);
   return KL_OK;
 }
 
@@ -334,6 +367,6 @@ int kl_link_origin(const kl_solver *s, int link, double xy[2]) {
     return KL_EINVAL;
   if (link < 0 || link >= s->model->nlinks)
     return KL_EID;
-  kli_chain_value(s->model, &s->model->topo.origins[link], &s->pose, xy);
+  kli_chain_value(s->model, &s->model->topo.origins[link], &s->st.pose, xy);
   return KL_OK;
 }

@@ -8,6 +8,19 @@
 #include "dense.h"
 #include "equations.h"
 
+/* What a caller sees: a position, its rates and accelerations, and which of
+ * them are solved. */
+typedef struct {
+  kli_pose pose;          /* x, cos, sin */
+  double *xd, *xdd;       /* coordinate rates and accelerations */
+  double *u, *ud, *udd;   /* inputs, their rates and accelerations */
+  int position_solved;    /* pose closes the loops at u (not a sketch) */
+  int inputs_known;       /* u holds inputs of a successful solve */
+  int velocity_solved, acceleration_solved;
+  int last_attempt;       /* status of the last position solve */
+  double rcond;           /* condition estimate of the factors at pose */
+} kli_state;
+
 struct kl_solver {
   const kl_model *model;
   kl_options opt;
@@ -16,16 +29,10 @@ struct kl_solver {
   int owns_block;
   int n, ncoords, ninputs;
 
-  /* The committed state: the last good position and its rates. */
-  kli_pose pose;          /* x, cos, sin */
-  double *xd, *xdd;       /* coordinate rates and accelerations */
-  double *u, *ud, *udd;   /* inputs, their rates and accelerations */
-  int position_solved;    /* pose closes the loops at u (not a sketch) */
-  int inputs_known;       /* u holds inputs of a successful solve */
-  int last_attempt;       /* status of the last position solve */
-  int velocity_solved, acceleration_solved, coefficients_solved;
+  kli_state st;           /* the committed state */
+  kli_state saved;        /* a copy the sweep keeps while it explores */
+  int coefficients_solved;
   int factors_current;    /* dense holds the factors at pose */
-  double rcond;           /* condition estimate of those factors */
   double *coef1;          /* ncoords x ninputs: d x / d u_i */
   double *coef2;          /* ncoords x ninputs x ninputs: d2 x / du_i du_j */
 
@@ -45,6 +52,11 @@ struct kl_solver {
 
 /* Copies pose `from` into `to` (coordinates and trig). */
 void kli_pose_copy(const kl_solver *s, kli_pose *to, const kli_pose *from);
+/* Copies a whole state. */
+void kli_state_copy(const kl_solver *s, kli_state *to, const kli_state *from);
+/* Makes `from` the committed state; the factors and coefficients of the
+ * old one no longer apply. */
+void kli_state_restore(kl_solver *s, const kli_state *from);
 /* KL_OK if `values` holds one finite number per input (NULL allowed when
  * there are none); else KL_EINVAL or KL_ENONFINITE with a message naming
  * the stage, what the values are, and the input. */

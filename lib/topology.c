@@ -152,9 +152,11 @@ static int loop_rank(const kl_model *m, work *w, int nloops) {
       before = w->seen[i];
     }
   }
+  /* entries start at +-1 and stay moderate rationals: a pivot below 1e-9
+   * is a rounded zero */
   for (c = 0; c < cols && rank < rows; c++) {
     int piv = -1;
-    double best = 0.5;
+    double best = 1e-9;
     for (r = rank; r < rows; r++)
       if (fabs(a[r * cols + c]) > best) {
         best = fabs(a[r * cols + c]);

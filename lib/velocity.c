@@ -9,7 +9,7 @@
 
 void kli_input_terms(kl_solver *s, const double *w, double *rhs) {
   kli_expand(s->model, NULL, w, s->xv);
-  kli_loops_rate(s->model, &s->pose, s->xv, rhs);
+  kli_loops_rate(s->model, &s->st.pose, s->xv, rhs);
 }
 
 void kli_rate_solve(kl_solver *s, double *rhs, const double *w, double *out) {
@@ -29,28 +29,28 @@ int kl_solve_velocity(kl_solver *s, const double *input_rates) {
       (st = kli_require_position(s, "solve velocity")) != KL_OK)
     return st;
   kli_input_terms(s, input_rates, s->rhs);
-  kli_rate_solve(s, s->rhs, input_rates, s->xd);
+  kli_rate_solve(s, s->rhs, input_rates, s->st.xd);
   if (s->ninputs > 0)
-    memcpy(s->ud, input_rates, (size_t)s->ninputs * sizeof(double));
-  s->velocity_solved = 1;
-  s->acceleration_solved = 0;
+    memcpy(s->st.ud, input_rates, (size_t)s->ninputs * sizeof(double));
+  s->st.velocity_solved = 1;
+  s->st.acceleration_solved = 0;
   return KL_OK;
 }
 
 static int rate_ready(const kl_solver *s) {
-  return s != NULL && s->velocity_solved;
+  return s != NULL && s->st.velocity_solved;
 }
 
 double kl_link_rate(const kl_solver *s, int link) {
   if (!rate_ready(s) || link < 0 || link >= s->model->nlinks)
     return NAN;
-  return s->xd[link];
+  return s->st.xd[link];
 }
 
 double kl_joint_slide_rate(const kl_solver *s, int joint) {
   if (!rate_ready(s) || isnan(kl_joint_slide(s, joint)))
     return NAN;
-  return s->xd[s->model->nlinks + joint];
+  return s->st.xd[s->model->nlinks + joint];
 }
 
 int kl_point_velocity(const kl_solver *s, int point, double xy[2]) {
@@ -58,8 +58,8 @@ int kl_point_velocity(const kl_solver *s, int point, double xy[2]) {
     return KL_EINVAL;
   if (point < 0 || point >= s->model->npoints)
     return KL_EID;
-  if (!s->velocity_solved)
+  if (!s->st.velocity_solved)
     return KL_ESTAGE;
-  kli_chain_rate(s->model, &s->model->topo.points[point], &s->pose, s->xd, xy);
+  kli_chain_rate(s->model, &s->model->topo.points[point], &s->st.pose, s->st.xd, xy);
   return KL_OK;
 }

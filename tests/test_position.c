@@ -485,6 +485,35 @@ START_TEST(structures_without_inputs) {
 }
 END_TEST
 
+/* The same slider-crank in nanometres and in kilometres-sized units: a
+ * consistent unit of length must not change the answers or the singular
+ * test (the condition estimate is taken with slide columns in lengths). */
+START_TEST(length_unit_does_not_matter) {
+  double units[] = {1e-7, 1.0, 1e9}, rcond[3], slide[3];
+  int k;
+  for (k = 0; k < 3; k++) {
+    slider_crank sc = build_slider_crank(0.05 * units[k], 0.2 * units[k],
+                                         0.01 * units[k]);
+    kl_solver *s = kl_solver_new(sc.m);
+    kl_solve_stats st;
+    double u = 1.0;
+    st.size = sizeof st;
+    kl_set_link_angle(s, sc.rod, -0.2);
+    kl_set_joint_slide(s, sc.slide_joint, 0.22 * units[k]);
+    ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+    kl_solver_stats(s, &st);
+    rcond[k] = st.rcond;
+    slide[k] = kl_joint_slide(s, sc.slide_joint) / units[k];
+    kl_solver_free(s);
+    kl_model_free(sc.m);
+  }
+  ck_assert_double_le(fabs(rcond[0] - rcond[1]), 1e-12);
+  ck_assert_double_le(fabs(rcond[2] - rcond[1]), 1e-12);
+  ck_assert_double_le(fabs(slide[0] - slide[1]), 1e-13);
+  ck_assert_double_le(fabs(slide[2] - slide[1]), 1e-13);
+}
+END_TEST
+
 START_TEST(solver_needs_a_finalized_model) {
   kl_model *m = kl_model_new();
   kl_add_link(m, "loose");
@@ -516,6 +545,7 @@ int main(void) {
   tcase_add_test(tc, solver_in_a_callers_block);
   tcase_add_test(tc, structures_without_inputs);
   tcase_add_test(tc, solver_needs_a_finalized_model);
+  tcase_add_test(tc, length_unit_does_not_matter);
   suite_add_tcase(suite, tc);
   runner = srunner_create(suite);
   srunner_run_all(runner, CK_NORMAL);
