@@ -292,19 +292,21 @@ failed_stats:
 }
 
 int kli_require_position(kl_solver *s, const char *stage) {
+  if (!s->st.position_solved)
+    return kli_fail(s->error, KL_ESTAGE,
+                    "%s needs a solved position first (none has been "
+                    "solved, or a sketch changed the state since)",
+                    stage);
   if (s->st.last_attempt == KL_ESINGULAR)
     return kli_fail(s->error, KL_ESINGULAR,
                     "%s: the Jacobian is singular at the position asked for "
                     "last, so the rates there are not determined",
                     stage);
-  if (s->st.last_attempt != KL_OK || !s->st.position_solved)
+  if (s->st.last_attempt != KL_OK)
     return kli_fail(s->error, KL_ESTAGE,
-                    "%s needs a position solved at the current inputs first "
-                    "(%s)",
-                    stage,
-                    s->st.last_attempt != KL_OK
-                        ? "the last position solve failed"
-                        : "no position solved since the last sketch change");
+                    "%s needs a position solved at the current inputs; the "
+                    "last position solve failed",
+                    stage);
   if (!s->factors_current) {
     kli_factor_at(s, &s->st.pose);
     s->st.rcond = kli_dense_rcond(&s->dense);

@@ -37,9 +37,10 @@ kl_model *counting_model(counting_alloc *c) {
   return kl_model_new_with_alloc(counting_alloc_fn, c);
 }
 
-static fourbar fourbar_links(double a, double b, double c, double d) {
+static fourbar fourbar_links(kl_model *m, double a, double b, double c,
+                             double d) {
   fourbar f;
-  f.m = kl_model_new();
+  f.m = m;
   f.a = a;
   f.b = b;
   f.c = c;
@@ -56,14 +57,19 @@ static fourbar fourbar_links(double a, double b, double c, double d) {
   return f;
 }
 
-fourbar build_fourbar(double a, double b, double c, double d) {
-  fourbar f = fourbar_links(a, b, c, d);
+fourbar build_fourbar_in(kl_model *m, double a, double b, double c,
+                         double d) {
+  fourbar f = fourbar_links(m, a, b, c, d);
   kl_model_finalize(f.m);
   return f;
 }
 
+fourbar build_fourbar(double a, double b, double c, double d) {
+  return build_fourbar_in(kl_model_new(), a, b, c, d);
+}
+
 fourbar build_fourbar_explicit(double a, double b, double c, double d) {
-  fourbar f = fourbar_links(a, b, c, d);
+  fourbar f = fourbar_links(kl_model_new(), a, b, c, d);
   int loop[4];
   loop[0] = f.pivot;
   loop[1] = f.crank_pin;

@@ -808,6 +808,28 @@ START_TEST(stages_in_the_wrong_order) {
 }
 END_TEST
 
+/* After a singular solve, a sketch change makes the state a sketch: the
+ * rate stages then want a position, they do not report the old singular
+ * attempt. The limit is the law-of-cosines toggle of a non-Grashof
+ * four-bar, acos((a^2 + d^2 - (b + c)^2) / (2 a d)). */
+START_TEST(sketch_after_singular_wants_a_position) {
+  fourbar f = build_fourbar(70, 50, 60, 100);
+  kl_solver *s = kl_solver_new(f.m);
+  double lim = acos((70.0 * 70 + 100.0 * 100 - 110.0 * 110) / (2 * 70.0 * 100));
+  double u = lim - 0.05, w = 1.0;
+  kl_set_link_angle(s, f.coupler, -0.6);
+  kl_set_link_angle(s, f.rocker, 1.5);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_position(s, &lim), KL_ESINGULAR);
+  ck_assert_int_eq(kl_solve_velocity(s, &w), KL_ESINGULAR);
+  kl_set_link_angle(s, f.rocker, 1.4);
+  ck_assert_int_eq(kl_solve_velocity(s, &w), KL_ESTAGE);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "sketch"));
+  kl_solver_free(s);
+  kl_model_free(f.m);
+}
+END_TEST
+
 START_TEST(nonfinite_rates_change_nothing) {
   fourbar f = build_fourbar(40, 120, 80, 100);
   kl_solver *s = kl_solver_new(f.m);
@@ -847,17 +869,9 @@ END_TEST
 /* The joints of build_fourbar(40, 120, 80, 100), through a counting model
  * (support.c builds on the default allocator). */
 static kl_model *counted_fourbar(counting_alloc *c) {
-  kl_model *m = counting_model(c);
-  int crank = kl_add_link(m, "crank"), coupler = kl_add_link(m, "coupler");
-  int rocker = kl_add_link(m, "rocker");
-  int pivot = kl_add_revolute(m, KL_GROUND, 0, 0, crank, 0, 0);
-  kl_add_revolute(m, crank, 40, 0, coupler, 0, 0);
-  kl_add_revolute(m, coupler, 120, 0, rocker, 80, 0);
-  kl_add_revolute(m, rocker, 0, 0, KL_GROUND, 100, 0);
-  kl_add_point(m, coupler, 60, 30, "coupler");
-  kl_add_input(m, pivot);
-  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
-  return m;
+  fourbar f = build_fourbar_in(counting_model(c), 40, 120, 80, 100);
+  ck_assert(kl_model_is_finalized(f.m));
+  return f.m;
 }
 
 /* Calls every getter; `solved` says whether all stages are solved at the
@@ -950,6 +964,7 @@ int main(void) {
   tcase_add_loop_test(tc, one_input_coefficients_are_unit_rates, 0, 5);
   tcase_add_test(tc, fivebar_coefficients_superpose);
   tcase_add_test(tc, stages_in_the_wrong_order);
+  tcase_add_test(tc, sketch_after_singular_wants_a_position);
   tcase_add_test(tc, nonfinite_rates_change_nothing);
   tcase_add_test(tc, rate_stages_never_allocate);
   suite_add_tcase(suite, tc);
