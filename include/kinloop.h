@@ -68,6 +68,7 @@ KL_API int kl_version_number(void);
 enum kl_status {
   KL_OK = 0,               /**< success */
   KL_LIMIT = 1,            /**< success with a remark: a motion limit was reached */
+  KL_STOPPED = 2,          /**< success with a remark: a callback asked to stop */
   KL_ENOMEM = -1,          /**< the allocator returned NULL */
   KL_EINVAL = -2,          /**< invalid argument: NULL pointer, bad count or option */
   KL_ENONFINITE = -3,      /**< a number is NaN or infinite */
@@ -86,8 +87,7 @@ enum kl_status {
   KL_EMAXITER = -16,       /**< position: no convergence within the iteration limit */
   KL_ENOASSEMBLY = -17,    /**< position: the loops cannot close at these inputs */
   KL_ESINGULAR = -18,      /**< singular Jacobian: dead point, toggle or change point */
-  KL_ESTAGE = -19,         /**< a stage called before the stage it needs succeeded */
-  KL_ESTOPPED = -20        /**< a callback asked to stop */
+  KL_ESTAGE = -19          /**< a stage called before the stage it needs succeeded */
 };
 
 /**
@@ -527,6 +527,269 @@ KL_API int kl_point_deriv(const kl_solver *s, int point, int input,
 /** d^2 position(point) / (d u_i d u_j) into `xy`. As kl_point_deriv. */
 KL_API int kl_point_deriv2(const kl_solver *s, int point, int input_i,
                            int input_j, double xy[2]);
+
+/* ------------------------------------------------------------------------
+ * States and assembly modes
+ * ------------------------------------------------------------------------ */
+
+/**
+ * Copies the whole state (position, rates, accelerations, inputs) of `from`
+ * into `to`, a solver of the same model: a way to keep a position and come
+ * back to it, or to hand one assembly mode to another solver.
+ * Returns KL_OK, KL_EINVAL (NULL, or solvers of different models). Never
+ * allocates.
+ */
+KL_API int kl_solver_copy_state(kl_solver *to, const kl_solver *from);
+
+/**
+ * Finds the assembly modes (branches) at `inputs`: the distinct solutions
+ * reached by Newton from a fixed set of starts - every free link angle at
+ * each of the 8 values 0.3 + k pi/4 and every free slide at each of
+ * {-2, -1, -0.5, 0.5, 1, 2} times the model's scale, in all combinations;
+ * 4 angle and 4 slide values ({0.3 + k pi/2}, {-2, -0.5, 0.5, 2}) when that
+ * would exceed 20000 starts. Two solutions are the same when every angle
+ * agrees within 1e-6 rad (modulo 2 pi) and every slide within 1e-6 times the
+ * scale; singular solutions are left out. The i-th distinct solution is
+ * written into modes[i] (solvers of the same model, i < cap) as a solved
+ * position, angles reduced to (-pi, pi]; `s` serves as the workspace and
+ * keeps its state.
+ * Returns the number of distinct solutions found (which may exceed cap;
+ * only cap are written), or KL_EINVAL (NULL or foreign solvers, cap < 0),
+ * KL_ENONFINITE, or KL_EOVERCONSTRAINED if even the smaller set of starts
+ * exceeds 20000 (the model is too large for this search). Never allocates.
+ */
+KL_API int kl_find_assemblies(kl_solver *s, const double *inputs,
+                              kl_solver *const *modes, int cap);
+
+/* ------------------------------------------------------------------------
+ * Sweeps: tracing the motion over an input range
+ * ------------------------------------------------------------------------ */
+
+/**
+ * Called once per delivered sweep step, with the solver at that step
+ * (position, and the rates and accelerations of a unit rate and zero
+ * acceleration of the swept input, the other inputs at rest: so the rates
+ * read as first-order and the accelerations as second-order kinematic
+ * coefficients). Return 0 to go on, non-zero to stop the sweep.
+ */
+typedef int (*kl_sweep_fn)(const kl_solver *s, int step, double input,
+                           void *user);
+
+/** Outcome of a sweep. Set `size` to sizeof(kl_sweep_result) first. */
+typedef struct kl_sweep_result {
+  size_t size;        /**< sizeof(kl_sweep_result), set by the caller */
+  int status;         /**< what kl_sweep returned */
+  int steps_done;     /**< steps delivered to the callback */
+  double limit_input; /**< the located motion limit (status KL_LIMIT) or
+                           singular position (KL_ESINGULAR); NaN otherwise */
+  int substeps;       /**< continuation steps taken, sub-steps included */
+} kl_sweep_result;
+
+/**
+ * Sweeps input `input` over steps + 1 equally spaced values from `from` to
+ * `to` (steps >= 1), the other inputs held at the values last solved (0
+ * before any solve). Each step is reached by continuation from the last:
+ * a predictor from the rates, Newton as corrector, and sub-steps halved where
+ * the corrector struggles; a step is refused if it changes the sign of the
+ * Jacobian's determinant or lands far from the prediction, so the assembly
+ * mode never flips. The first step starts from the solver's current state.
+ *
+ * Returns, and writes into `result` (may be NULL):
+ *  KL_OK        every step delivered
+ *  KL_LIMIT     the motion cannot go on (a toggle or dead point of this
+ *               input): the steps before it are delivered, and the limit is
+ *               located to 1e-10 (rad, or length units for a slide input)
+ *  KL_STOPPED   the callback returned non-zero
+ *  KL_ESINGULAR the motion reaches a singular position it could pass only
+ *               on a branch chosen at random (a change point): reported with
+ *               its location, not passed through
+ *  and the errors of kl_solve_position for the first step, KL_EID for an
+ *  unknown input, KL_ENONFINITE, KL_EINVAL.
+ * Afterwards the solver holds the last delivered step (or, if none was, its
+ * state from before). Never allocates.
+ */
+KL_API int kl_sweep(kl_solver *s, int input, double from, double to,
+                    int steps, kl_sweep_fn fn, void *user,
+                    kl_sweep_result *result);
+
+/* ------------------------------------------------------------------------
+ * Design figures
+ * ------------------------------------------------------------------------ */
+
+/** Four-bar classes by the Grashof condition, relative to the input link. */
+enum kl_grashof_class {
+  KL_CRANK_ROCKER = 1,  /**< Grashof, input shortest: input turns fully, output rocks */
+  KL_ROCKER_CRANK = 2,  /**< Grashof, output shortest: output turns fully, input rocks */
+  KL_DOUBLE_CRANK = 3,  /**< Grashof, ground shortest (drag link) */
+  KL_DOUBLE_ROCKER = 4, /**< Grashof, coupler shortest */
+  KL_CHANGE_POINT = 5,  /**< s + l = p + q (within 1e-12 l): can fold into a line */
+  KL_TRIPLE_ROCKER = 6  /**< non-Grashof, s + l > p + q: no link turns fully */
+};
+
+/**
+ * The Grashof class of a four-bar from its link lengths: ground (between
+ * the two ground pivots), input (the driven link at one ground pivot),
+ * coupler, output (at the other ground pivot). With s the shortest, l the
+ * longest and p, q the others: Grashof when s + l < p + q.
+ * Returns a kl_grashof_class, KL_ENONFINITE, or KL_EINVAL (a length <= 0).
+ */
+KL_API int kl_grashof(double ground, double input, double coupler,
+                      double output);
+
+/** "crank-rocker", ... for a kl_grashof_class; "not a class" otherwise. */
+KL_API const char *kl_grashof_str(int cls);
+
+/**
+ * The Grashof class of a finalized model that is a four-bar: ground and
+ * three moving links joined in one loop by four revolute joints, its one
+ * input at a ground pivot. Returns a kl_grashof_class, KL_EKIND (not such a
+ * four-bar), KL_ESTATE (not finalized), KL_EINVAL.
+ */
+KL_API int kl_model_grashof(const kl_model *m);
+
+/** What a design figure measures. */
+enum kl_output_kind {
+  KL_OUT_LINK_ANGLE = 0,   /**< angle of link `id` (rad) */
+  KL_OUT_SLIDE = 1,        /**< slide of prismatic or slot joint `id` */
+  KL_OUT_JOINT_ANGLE = 2,  /**< relative angle of joint `id` (rad) */
+  KL_OUT_POINT_X = 3,      /**< x of point `id` */
+  KL_OUT_POINT_Y = 4,      /**< y of point `id` */
+  KL_OUT_TRANSMISSION = 5  /**< transmission angle at revolute joint `id` (rad) */
+};
+
+/**
+ * A scalar output of the mechanism. For KL_OUT_TRANSMISSION, `id` is a
+ * revolute joint between links a and b, and the angle, in [0, pi], is taken
+ * between the line on a from that joint to joint `line_a` (another joint on
+ * a) and the line on b from it to joint `line_b` (another joint on b): for a
+ * four-bar, the coupler-rocker pin with the crank pin and the rocker's
+ * ground pivot. Rule of thumb (common practice, no source): keep it within
+ * 40 to 140 degrees. `line_a` and `line_b` are ignored by other kinds.
+ */
+typedef struct kl_output {
+  int kind;   /**< enum kl_output_kind */
+  int id;
+  int line_a, line_b;
+} kl_output;
+
+/**
+ * The output's value at the current state into `value`. Returns KL_OK,
+ * KL_EID (unknown ids), KL_EKIND (wrong kind of joint or lines not on the
+ * joint's links), KL_EINVAL.
+ */
+KL_API int kl_output_value(const kl_solver *s, const kl_output *o,
+                           double *value);
+
+/**
+ * d output / d u_input at the position last solved (computes the kinematic
+ * coefficients if they are not current). Returns KL_OK, the statuses of
+ * kl_output_value, and of kl_solve_coefficients.
+ */
+KL_API int kl_output_deriv(kl_solver *s, const kl_output *o, int input,
+                           double *deriv);
+
+/** Extremes of an output over a sweep. Set `size` first. */
+typedef struct kl_range {
+  size_t size;         /**< sizeof(kl_range), set by the caller */
+  double min, max;     /**< extreme values found */
+  double input_at_min; /**< input value where the minimum occurs */
+  double input_at_max; /**< input value where the maximum occurs */
+  int sweep_status;    /**< how the sweep ended (KL_OK or KL_LIMIT) */
+  double limit_input;  /**< with KL_LIMIT: where the motion stopped */
+} kl_range;
+
+/**
+ * Extremes of output `o` while input `input` sweeps from `from` to `to` in
+ * `steps` steps (as kl_sweep): the sampled extremes are refined between
+ * their neighbouring steps by golden-section search to 1e-10 in the input,
+ * so an extreme between samples is found too. The ends of the range (or the
+ * motion limit) count as candidates. The solver is left at the end of the
+ * sweep. Returns KL_OK or KL_LIMIT (the range is what was reachable), or the
+ * statuses of kl_sweep and kl_output_value. Never allocates.
+ */
+KL_API int kl_output_range(kl_solver *s, int input, double from, double to,
+                           int steps, const kl_output *o, kl_range *range);
+
+/**
+ * Time ratio of a quick-return mechanism driven at constant speed by a
+ * crank turning in the positive sense: with the output's extremes at crank
+ * angles input_at_min and input_at_max (from kl_output_range over one full
+ * turn), the crank angle from minimum to maximum, A, in (0, 2 pi), over the
+ * angle back, 2 pi - A. Returns KL_OK, KL_EINVAL (NULL, or equal angles
+ * modulo 2 pi), KL_ENONFINITE.
+ */
+KL_API int kl_time_ratio(const kl_range *range, double *ratio);
+
+/**
+ * Mechanical advantage of an ideal (frictionless, massless) linkage: output
+ * effort over input effort, the inverse of d output / d u_input (by virtual
+ * work), into `ma`; infinite at a dead point of the output. Returns as
+ * kl_output_deriv.
+ */
+KL_API int kl_mechanical_advantage(kl_solver *s, const kl_output *o,
+                                   int input, double *ma);
+
+/** Load kinds for kl_input_effort. */
+enum kl_load_kind {
+  KL_LOAD_FORCE = 0, /**< force (fx, fy), global frame, applied at point `id` */
+  KL_LOAD_TORQUE = 1 /**< torque (counter-clockwise positive) on link `id` */
+};
+
+/** An applied load. */
+typedef struct kl_load {
+  int kind; /**< enum kl_load_kind */
+  int id;   /**< point or link */
+  double fx, fy;
+  double torque;
+} kl_load;
+
+/**
+ * Static input effort by virtual work: the torque or force each input must
+ * apply to hold the linkage in quasi-static equilibrium against the loads
+ * (frictionless, massless links), efforts[i] = -sum (F . dp/du_i +
+ * T dtheta/du_i), into `efforts` (one per input; a torque for a revolute
+ * input, a force along the slide for a sliding one). Computes the kinematic
+ * coefficients if they are not current. Returns KL_OK, KL_EID, KL_EKIND,
+ * KL_ENONFINITE, KL_EINVAL, and the statuses of kl_solve_coefficients.
+ */
+KL_API int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
+                           double *efforts);
+
+/** Which dimension a sensitivity is taken against. */
+enum kl_dimension_kind {
+  KL_DIM_JOINT_A = 0, /**< joint `id`'s attachment point on its link a */
+  KL_DIM_JOINT_B = 1, /**< joint `id`'s attachment point on its link b */
+  KL_DIM_POINT = 2    /**< point `id`'s local coordinates */
+};
+
+/** A dimension: one local coordinate (axis 0 = x, 1 = y) of a point. */
+typedef struct kl_dimension {
+  int kind; /**< enum kl_dimension_kind */
+  int id;
+  int axis;
+} kl_dimension;
+
+/**
+ * Dimensional sensitivity: d output / d dimension at the position last
+ * solved with the inputs held, from one more solve with the factored
+ * Jacobian, into `deriv`. Returns KL_OK, KL_EID, KL_EKIND, KL_EINVAL, and
+ * the statuses of the position requirement (KL_ESTAGE, KL_ESINGULAR).
+ * Never allocates.
+ */
+KL_API int kl_output_sensitivity(kl_solver *s, const kl_output *o,
+                                 const kl_dimension *dim, double *deriv);
+
+/**
+ * Tolerance stack-up of an output at the position last solved, to first
+ * order: worst case sum |d_k| t_k and root-sum-square sqrt(sum (d_k t_k)^2)
+ * over `n` dimensions with tolerances t_k >= 0 (same length unit). Either
+ * result pointer may be NULL. Returns as kl_output_sensitivity, and
+ * KL_EINVAL for a negative tolerance.
+ */
+KL_API int kl_tolerance_stack(kl_solver *s, const kl_output *o, int n,
+                              const kl_dimension *dims,
+                              const double *tolerances, double *worst,
+                              double *rss);
 
 #ifdef __cplusplus
 }

@@ -70,6 +70,20 @@ double kli_dense_rcond(kli_dense *d) {
   return rcond;
 }
 
+int kli_dense_det_sign(const kli_dense *d) {
+  int i, sign = 1;
+  if (d->singular)
+    return 0;
+  for (i = 0; i < d->n; i++) {
+    double pivot = d->lu[(size_t)i * (size_t)d->n + (size_t)i];
+    if (pivot < 0.0)
+      sign = -sign;
+    if (d->ipiv[i] != i + 1) /* LAPACK's pivots count from 1 */
+      sign = -sign;
+  }
+  return sign;
+}
+
 void kli_dense_solve(const kli_dense *d, double *b) {
   int i;
   if (d->n == 0)

@@ -39,6 +39,9 @@ int kli_dense_factor(kli_dense *d);
 /* Reciprocal condition estimate (1-norm) of the factored, scaled matrix;
  * 0 when the factorization was singular. */
 double kli_dense_rcond(kli_dense *d);
+/* Sign of the determinant of the factored matrix (+1 or -1; 0 when
+ * singular); the column scales are positive and do not change it. */
+int kli_dense_det_sign(const kli_dense *d);
 /* Solves A x = b in place with the factors (of A D: x = D (A D)^-1 b). */
 void kli_dense_solve(const kli_dense *d, double *b);
 /*

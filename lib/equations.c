@@ -142,6 +142,34 @@ void kli_chain_accel(const kl_model *m, const kli_chain *ch, const kli_pose *p,
   out[1] += second[1];
 }
 
+void kli_chain_dimension(const kl_model *m, const kli_chain *ch,
+                         const kli_pose *p, int joint, int link, int axis,
+                         double out[2]) {
+  const kli_term *t = m->topo.terms + ch->first;
+  int k;
+  out[0] = out[1] = 0.0;
+  for (k = 0; k < ch->count; k++, t++) {
+    /* R(angle) e_axis, with the sign of the end that moves */
+    double c = p->c[t->link], s = p->s[t->link], sign = 0.0;
+    if (t->joint >= 0 || t->link != link)
+      continue;
+    if (t->to_joint == joint)
+      sign += 1.0;
+    if (t->from_joint == joint && joint >= 0)
+      sign -= 1.0;
+    out[0] += sign * (axis == 0 ? c : -s);
+    out[1] += sign * (axis == 0 ? s : c);
+  }
+}
+
+void kli_loops_dimension(const kl_model *m, const kli_pose *p, int joint,
+                         int link, int axis, double *out) {
+  int i;
+  for (i = 0; i < m->topo.nloops; i++)
+    kli_chain_dimension(m, &m->topo.loops[i], p, joint, link, axis,
+                        out + 2 * i);
+}
+
 double kli_residual(const kl_model *m, const kli_pose *p, double *f) {
   double norm = 0.0;
   int i;

@@ -41,6 +41,16 @@ void kli_chain_accel(const kl_model *m, const kli_chain *ch, const kli_pose *p,
                      const double *va, const double *vb, const double *vdd,
                      double out[2]);
 
+/* Derivative of a chain's sum with respect to local coordinate `axis` (0 x,
+ * 1 y) of the attachment of `joint` on `link`, or, with joint -1, of the
+ * chain's own end point (a point's local coordinates, on `link`). */
+void kli_chain_dimension(const kl_model *m, const kli_chain *ch,
+                         const kli_pose *p, int joint, int link, int axis,
+                         double out[2]);
+/* kli_chain_dimension over every loop. */
+void kli_loops_dimension(const kl_model *m, const kli_pose *p, int joint,
+                         int link, int axis, double *out);
+
 /* The residuals of every loop, 2 per loop; returns |F|inf. */
 double kli_residual(const kl_model *m, const kli_pose *p, double *f);
 /* (dF/dx) v over every loop. */

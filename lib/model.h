@@ -38,6 +38,9 @@ typedef struct {
 typedef struct {
   int link;      /* link whose angle turns the term */
   int joint;     /* sliding joint for a slide term; -1 for a link term */
+  /* A link term runs from the attachment of from_joint on `link` to that of
+   * to_joint; -1 stands for the global origin (from) or a point (to). */
+  int from_joint, to_joint;
   double v[2];   /* local vector of a link term */
   double sign;   /* +1 or -1 for a slide term */
   int nz_angle;  /* Jacobian entry pair for the angle's unknown, or -1 */
@@ -108,7 +111,8 @@ struct kl_model {
   char error[KLI_MESSAGE_SIZE];
 };
 
-/* Messages: formats into buf (KLI_MESSAGE_SIZE bytes) and returns status. */
+/* Messages: formats into buf (KLI_MESSAGE_SIZE bytes; NULL for callers that
+ * cannot keep a message) and returns status. */
 int kli_fail(char *buf, int status, const char *fmt, ...)
 #ifdef __GNUC__
     __attribute__((format(printf, 3, 4)))

@@ -48,6 +48,9 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   int ni = m->ninputs;
   carve_state(&t->st, c, nc, nl, ni);
   carve_state(&t->saved, c, nc, nl, ni);
+  carve_state(&t->delivered, c, nc, nl, ni);
+  carve_state(&t->extreme[0], c, nc, nl, ni);
+  carve_state(&t->extreme[1], c, nc, nl, ni);
   t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
   t->coef2 = kli_carve(c, (size_t)nc * (size_t)ni * (size_t)ni, sizeof(double));
   carve_pose(&t->trial[0], c, nc, nl);
@@ -63,6 +66,11 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->pairs = kli_carve(c, 2 * (size_t)m->topo.nnz_pairs, sizeof(double));
   t->rhs = kli_carve(c, (size_t)n, sizeof(double));
   t->xv = kli_carve(c, (size_t)nc, sizeof(double));
+  t->x_pred = kli_carve(c, (size_t)nc, sizeof(double));
+  t->sweep_u = kli_carve(c, (size_t)ni, sizeof(double));
+  t->sweep_rate = kli_carve(c, (size_t)ni, sizeof(double));
+  t->sweep_zero = kli_carve(c, (size_t)ni, sizeof(double));
+  t->modes = kli_carve(c, (size_t)KLI_MAX_MODES * (size_t)n, sizeof(double));
   kli_dense_carve(&t->dense, c, n, m->topo.nnz_pairs, m->topo.nz_row,
                   m->topo.nz_col);
   return s;

@@ -21,6 +21,9 @@ typedef struct {
   double rcond;           /* condition estimate of the factors at pose */
 } kli_state;
 
+/* Distinct assembly modes kl_find_assemblies can tell apart. */
+#define KLI_MAX_MODES 64
+
 struct kl_solver {
   const kl_model *model;
   kl_options opt;
@@ -31,6 +34,8 @@ struct kl_solver {
 
   kli_state st;           /* the committed state */
   kli_state saved;        /* a copy the sweep keeps while it explores */
+  kli_state delivered;    /* the sweep's last delivered step */
+  kli_state extreme[2];   /* states at a range's sampled minimum, maximum */
   int coefficients_solved;
   int factors_current;    /* dense holds the factors at pose */
   double *coef1;          /* ncoords x ninputs: d x / d u_i */
@@ -45,6 +50,9 @@ struct kl_solver {
   double *pairs;          /* Jacobian values on the pattern */
   double *rhs;            /* n */
   double *xv;             /* ncoords scratch for the rate stages */
+  double *x_pred;         /* ncoords: the sweep's predicted position */
+  double *sweep_u, *sweep_rate, *sweep_zero; /* inputs for the sweep */
+  double *modes;          /* KLI_MAX_MODES x n: assembly modes found */
   kli_dense dense;
   kl_solve_stats stats;
   char error[KLI_MESSAGE_SIZE];

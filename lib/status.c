@@ -15,6 +15,7 @@ const char *kl_status_str(int status) {
   switch (status) {
   case KL_OK: return "ok";
   case KL_LIMIT: return "motion limit reached";
+  case KL_STOPPED: return "stopped by the callback";
   case KL_ENOMEM: return "out of memory";
   case KL_EINVAL: return "invalid argument";
   case KL_ENONFINITE: return "number is NaN or infinite";
@@ -34,13 +35,14 @@ const char *kl_status_str(int status) {
   case KL_ENOASSEMBLY: return "no assembly: the loops cannot close";
   case KL_ESINGULAR: return "singular Jacobian";
   case KL_ESTAGE: return "stage called before the stage it needs";
-  case KL_ESTOPPED: return "stopped by the callback";
   default: return "unknown status";
   }
 }
 
 int kli_fail(char *buf, int status, const char *fmt, ...) {
   va_list ap;
+  if (buf == NULL)
+    return status;
   va_start(ap, fmt);
   vsnprintf(buf, KLI_MESSAGE_SIZE, fmt, ap);
   va_end(ap);

@@ -328,14 +328,19 @@ static void fill_var_coords(const kl_model *m, kli_topology *t) {
       t->var_coord[t->slide_var[j]] = m->nlinks + j;
 }
 
-static void push_link_term(kli_topology *t, int link, const double *from,
-                           const double *to) {
-  kli_term *term;
-  if (to[0] == from[0] && to[1] == from[1])
-    return;
-  term = &t->terms[t->nterms++];
+/* Zero vectors are kept: they add nothing to the position or the Jacobian,
+ * but a dimension moving one end of them does. */
+static void push_link_term(const kl_model *m, kli_topology *t, int link,
+                           int from_joint, int to_joint, const double *end) {
+  static const double origin[2] = {0.0, 0.0};
+  const double *from =
+      from_joint < 0 ? origin : kli_joint_point_on(m, from_joint, link);
+  const double *to = to_joint < 0 ? end : kli_joint_point_on(m, to_joint, link);
+  kli_term *term = &t->terms[t->nterms++];
   term->link = link;
   term->joint = -1;
+  term->from_joint = from_joint;
+  term->to_joint = to_joint;
   term->v[0] = to[0] - from[0];
   term->v[1] = to[1] - from[1];
   term->sign = 0.0;
@@ -352,6 +357,7 @@ static void push_crossing(const kl_model *m, kli_topology *t, int joint,
   term = &t->terms[t->nterms++];
   term->link = j->link[0];
   term->joint = joint;
+  term->from_joint = term->to_joint = -1;
   term->v[0] = term->v[1] = 0.0;
   term->sign = from == j->link[0] ? 1.0 : -1.0;
   term->nz_angle = term->nz_slide = -1;
@@ -365,8 +371,7 @@ static void build_loop_chain(const kl_model *m, kli_topology *t, int loop) {
   for (i = 0; i < n; i++) {
     int before = ls[(i + n - 1) % n], link = ls[i];
     push_crossing(m, t, js[i], before);
-    push_link_term(t, link, kli_joint_point_on(m, js[i], link),
-                   kli_joint_point_on(m, js[(i + 1) % n], link));
+    push_link_term(m, t, link, js[i], js[(i + 1) % n], NULL);
   }
   t->loops[loop].count = t->nterms - t->loops[loop].first;
 }
@@ -374,20 +379,18 @@ static void build_loop_chain(const kl_model *m, kli_topology *t, int loop) {
 /* The chain from the global origin down the spanning tree to `at` on `link`. */
 static void build_path_chain(const kl_model *m, work *w, kli_topology *t,
                              int link, const double *at, kli_chain *chain) {
-  static const double origin[2] = {0.0, 0.0};
   int n = climb(w, link, KL_GROUND, w->path_a), i;
-  const double *from = origin;
-  int cur = KL_GROUND;
+  int cur = KL_GROUND, from_joint = -1;
   chain->first = t->nterms;
   /* path_a lists the tree joints from `link` up; walk them downward */
   for (i = n - 1; i >= 0; i--) {
     int joint = w->path_a[i];
-    push_link_term(t, cur, from, kli_joint_point_on(m, joint, cur));
+    push_link_term(m, t, cur, from_joint, joint, NULL);
     push_crossing(m, t, joint, cur);
     cur = other_link(&m->joints[joint], cur);
-    from = kli_joint_point_on(m, joint, cur);
+    from_joint = joint;
   }
-  push_link_term(t, cur, from, at);
+  push_link_term(m, t, cur, from_joint, -1, at);
   chain->count = t->nterms - chain->first;
 }
 
@@ -402,7 +405,10 @@ static void build_pattern(work *w, kli_topology *t) {
     for (k = c->first; k < c->first + c->count; k++) {
       kli_term *term = &t->terms[k];
       int cols[2], *slots[2], i;
-      cols[0] = w->group_var[term->link];
+      /* a zero vector does not turn with its link */
+      cols[0] = term->joint < 0 && term->v[0] == 0.0 && term->v[1] == 0.0
+                    ? -1
+                    : w->group_var[term->link];
       cols[1] = term->joint >= 0 ? t->slide_var[term->joint] : -1;
       slots[0] = &term->nz_angle;
       slots[1] = &term->nz_slide;
@@ -421,7 +427,7 @@ static void build_pattern(work *w, kli_topology *t) {
     for (k = c->first; k < c->first + c->count; k++) {
       const kli_term *term = &t->terms[k];
       if (w->group_var[term->link] >= 0)
-        w->col_nz[w->group_var[term->link]] = -1;
+        w->col_nz[w->group_var[term->link]] = -1; /* reset for the next loop */
       if (term->joint >= 0 && t->slide_var[term->joint] >= 0)
         w->col_nz[t->slide_var[term->joint]] = -1;
     }

@@ -1,0 +1,462 @@
+/*
+ * metrics.c - the design figures: Grashof class, outputs and their
+ * derivatives, extremes over a sweep, time ratio, mechanical advantage,
+ * static input effort by virtual work, dimensional sensitivity and
+ * tolerance stack-up.
+ */
+#include <math.h>
+#include <string.h>
+
+#include "outputs.h"
+#include "velocity.h"
+
+#define KLI_TWO_PI 6.28318530717958647692
+/* Refined extremes stop when the bracket is this narrow (input units). */
+#define KLI_EXTREME_BRACKET 1e-13
+/* Where a sweep stopped at a limit, the last value is taken this far
+ * inside it (the limit is located to 1e-11). */
+#define KLI_LIMIT_INSIDE 1e-10
+
+/* ---- Grashof ---- */
+
+int kl_grashof(double ground, double input, double coupler, double output) {
+  double len[4], s, l, sum = 0.0;
+  int i, shortest = 0;
+  len[0] = ground;
+  len[1] = input;
+  len[2] = coupler;
+  len[3] = output;
+  for (i = 0; i < 4; i++) {
+    if (!isfinite(len[i]))
+      return KL_ENONFINITE;
+    if (!(len[i] > 0.0))
+      return KL_EINVAL;
+    sum += len[i];
+  }
+  s = l = len[0];
+  for (i = 1; i < 4; i++) {
+    if (len[i] < s) {
+      s = len[i];
+      shortest = i;
+    }
+    if (len[i] > l)
+      l = len[i];
+  }
+  /* s + l against p + q = sum - s - l, equality within rounding of l */
+  if (fabs((s + l) - (sum - s - l)) <= 1e-12 * l)
+    return KL_CHANGE_POINT;
+  if (s + l > sum - s - l)
+    return KL_TRIPLE_ROCKER;
+  switch (shortest) {
+  case 0: return KL_DOUBLE_CRANK;
+  case 1: return KL_CRANK_ROCKER;
+  case 2: return KL_DOUBLE_ROCKER;
+  default: return KL_ROCKER_CRANK;
+  }
+}
+
+const char *kl_grashof_str(int cls) {
+  switch (cls) {
+  case KL_CRANK_ROCKER: return "crank-rocker";
+  case KL_ROCKER_CRANK: return "rocker-crank";
+  case KL_DOUBLE_CRANK: return "double-crank";
+  case KL_DOUBLE_ROCKER: return "double-rocker";
+  case KL_CHANGE_POINT: return "change point";
+  case KL_TRIPLE_ROCKER: return "triple-rocker";
+  default: return "not a class";
+  }
+}
+
+static double joint_distance(const kl_model *m, int j1, int j2, int link) {
+  const double *p = kli_joint_point_on(m, j1, link);
+  const double *q = kli_joint_point_on(m, j2, link);
+  return hypot(p[0] - q[0], p[1] - q[1]);
+}
+
+int kl_model_grashof(const kl_model *m) {
+  int j, input_joint, crank, pivots[2], np = 0;
+  double ground, crank_len = 0, coupler = 0, output = 0;
+  if (m == NULL)
+    return KL_EINVAL;
+  if (!m->finalized)
+    return KL_ESTATE;
+  if (m->nlinks != 4 || m->njoints != 4 || m->ninputs != 1 ||
+      m->topo.nloops != 1)
+    return KL_EKIND;
+  for (j = 0; j < 4; j++) {
+    if (m->joints[j].kind != KL_REVOLUTE)
+      return KL_EKIND;
+    if (m->joints[j].link[0] == KL_GROUND ||
+        m->joints[j].link[1] == KL_GROUND) {
+      if (np < 2)
+        pivots[np] = j;
+      np++;
+    }
+  }
+  input_joint = m->inputs[0];
+  if (np != 2 || (input_joint != pivots[0] && input_joint != pivots[1]))
+    return KL_EKIND;
+  ground = joint_distance(m, pivots[0], pivots[1], KL_GROUND);
+  crank = m->joints[input_joint].link[0] == KL_GROUND
+              ? m->joints[input_joint].link[1]
+              : m->joints[input_joint].link[0];
+  /* walk the loop: crank, coupler, output, each between its two joints */
+  {
+    const int *js = m->topo.loop_joints, *ls = m->topo.loop_links;
+    int i;
+    for (i = 0; i < 4; i++) {
+      int link = ls[i], a = js[i], b = js[(i + 1) % 4];
+      double len;
+      if (link == KL_GROUND)
+        continue;
+      len = joint_distance(m, a, b, link);
+      if (link == crank)
+        crank_len = len;
+      else if (a == pivots[0] || a == pivots[1] || b == pivots[0] ||
+               b == pivots[1])
+        output = len;
+      else
+        coupler = len;
+    }
+  }
+  return kl_grashof(ground, crank_len, coupler, output);
+}
+
+/* ---- outputs ---- */
+
+int kl_output_value(const kl_solver *s, const kl_output *o, double *value) {
+  int st;
+  if (s == NULL || value == NULL)
+    return KL_EINVAL;
+  if ((st = kli_output_check(s->model, o, NULL)) != KL_OK)
+    return st;
+  *value = kli_output_value(s, o);
+  return KL_OK;
+}
+
+/* The coefficients at the committed position, computed if stale. */
+static int need_coefficients(kl_solver *s) {
+  return s->coefficients_solved ? KL_OK : kl_solve_coefficients(s);
+}
+
+static int check_input(kl_solver *s, int input, const char *what) {
+  if (input < 0 || input >= s->ninputs)
+    return kli_fail(s->error, KL_EID,
+                    "%s: input %d does not exist (the model has %d)", what,
+                    input, s->ninputs);
+  return KL_OK;
+}
+
+int kl_output_deriv(kl_solver *s, const kl_output *o, int input,
+                    double *deriv) {
+  int st;
+  if (s == NULL || deriv == NULL)
+    return KL_EINVAL;
+  if ((st = kli_output_check(s->model, o, s->error)) != KL_OK ||
+      (st = check_input(s, input, "output derivative")) != KL_OK ||
+      (st = need_coefficients(s)) != KL_OK)
+    return st;
+  *deriv = kli_output_change(
+      s, o, s->coef1 + (size_t)input * (size_t)s->ncoords, NULL);
+  return KL_OK;
+}
+
+int kl_mechanical_advantage(kl_solver *s, const kl_output *o, int input,
+                            double *ma) {
+  double d;
+  int st;
+  if (ma == NULL)
+    return KL_EINVAL;
+  if ((st = kl_output_deriv(s, o, input, &d)) != KL_OK)
+    return st;
+  *ma = 1.0 / d; /* virtual work: T_out dO = T_in du */
+  return KL_OK;
+}
+
+/* ---- extremes over a sweep ---- */
+
+typedef struct {
+  kl_solver *s;
+  const kl_output *o;
+  double best[2]; /* [0] minimum, [1] maximum */
+  double at[2];   /* the inputs where they were sampled */
+  int sampled;
+  double last;    /* input of the last delivered step */
+} range_search;
+
+static int track_extremes(const kl_solver *cs, int step, double input,
+                          void *user) {
+  range_search *r = user;
+  kl_solver *s = r->s; /* the same solver, which this search owns */
+  double v = kli_output_value(cs, r->o);
+  int i;
+  for (i = 0; i < 2; i++)
+    if (!r->sampled || (i == 0 ? v < r->best[i] : v > r->best[i])) {
+      r->best[i] = v;
+      r->at[i] = input;
+      kli_state_copy(s, &s->extreme[i], &s->st);
+    }
+  r->sampled = 1;
+  r->last = input;
+  (void)step;
+  return 0;
+}
+
+/* d output / d input at `u`, solved from the state kept in `from`; 0 and
+ * *ok = 0 if u cannot be reached from there. */
+static double slope_at(kl_solver *s, int input, const kl_output *o, double u,
+                       const kli_state *from, int *ok) {
+  kli_state_restore(s, from);
+  memcpy(s->sweep_u, s->st.u, (size_t)s->ninputs * sizeof(double));
+  s->sweep_u[input] = u;
+  *ok = kl_solve_position(s, s->sweep_u) == KL_OK &&
+        kl_solve_velocity(s, s->sweep_rate) == KL_OK;
+  return *ok ? kli_output_change(s, o, s->st.xd, NULL) : 0.0;
+}
+
+/*
+ * The extreme near sampled step `step`: a zero of the slope between the
+ * neighbouring steps, by false position (Illinois), if the slope changes
+ * sign there; the sample itself otherwise. Updates *value and *at.
+ */
+static void refine_extreme(kl_solver *s, int input, const kl_output *o,
+                           int which, double lo, double hi, double *value,
+                           double *at) {
+  const kli_state *from = &s->extreme[which];
+  double u0 = *at, g0, glo, ghi, a, b, ga, gb;
+  int ok, side = 0, iter;
+  g0 = slope_at(s, input, o, u0, from, &ok);
+  if (!ok)
+    return;
+  glo = lo < u0 ? slope_at(s, input, o, lo, from, &ok) : g0;
+  if (!ok)
+    glo = g0;
+  ghi = hi > u0 ? slope_at(s, input, o, hi, from, &ok) : g0;
+  if (!ok)
+    ghi = g0;
+  if (glo * g0 < 0.0) {
+    a = lo, b = u0, ga = glo, gb = g0;
+  } else if (g0 * ghi < 0.0) {
+    a = u0, b = hi, ga = g0, gb = ghi;
+  } else {
+    return; /* no turning point between the neighbours */
+  }
+  for (iter = 0; iter < 100 && b - a > KLI_EXTREME_BRACKET; iter++) {
+    double c = (a * gb - b * ga) / (gb - ga), gc = slope_at(s, input, o, c,
+                                                            from, &ok);
+    if (!ok || !(c > a && c < b))
+      c = 0.5 * (a + b), gc = slope_at(s, input, o, c, from, &ok);
+    if (!ok)
+      return;
+    if (gc == 0.0) {
+      a = b = c;
+      break;
+    }
+    if (ga * gc < 0.0) {
+      b = c, gb = gc;
+      if (side == -1)
+        ga *= 0.5;
+      side = -1;
+    } else {
+      a = c, ga = gc;
+      if (side == 1)
+        gb *= 0.5;
+      side = 1;
+    }
+  }
+  slope_at(s, input, o, 0.5 * (a + b), from, &ok);
+  if (ok) {
+    double v = kli_output_value(s, o);
+    if (which == 0 ? v < *value : v > *value) {
+      *value = v;
+      *at = 0.5 * (a + b);
+    }
+  }
+}
+
+int kl_output_range(kl_solver *s, int input, double from, double to,
+                    int steps, const kl_output *o, kl_range *range) {
+  range_search r;
+  kl_sweep_result sw;
+  kl_range out;
+  double h, at[2];
+  int st, i;
+  if (s == NULL || range == NULL || range->size < sizeof(range->size))
+    return KL_EINVAL;
+  if ((st = kli_output_check(s->model, o, s->error)) != KL_OK)
+    return st;
+  r.s = s;
+  r.o = o;
+  r.sampled = 0;
+  r.last = from;
+  sw.size = sizeof sw;
+  st = kl_sweep(s, input, from, to, steps, track_extremes, &r, &sw);
+  if (st != KL_OK && st != KL_LIMIT)
+    return st;
+  memset(&out, 0, sizeof out);
+  out.sweep_status = st;
+  out.limit_input = sw.limit_input;
+  if (st == KL_LIMIT) {
+    /* the motion's last reachable position counts too */
+    double inside = sw.limit_input - (to > from ? 1.0 : -1.0) * KLI_LIMIT_INSIDE;
+    kl_sweep_result tail;
+    tail.size = sizeof tail;
+    kl_sweep(s, input, r.last, inside, 1, track_extremes, &r, &tail);
+  }
+  /* a turning point lies within a step of its best sample */
+  h = fabs(to - from) / steps;
+  for (i = 0; i < 2; i++) {
+    double range_lo = fmin(from, r.last), range_hi = fmax(from, r.last);
+    at[i] = r.at[i];
+    refine_extreme(s, input, o, i, fmax(at[i] - h, range_lo),
+                   fmin(at[i] + h, range_hi), &r.best[i], &at[i]);
+  }
+  kli_state_restore(s, &s->delivered);
+  out.size = range->size;
+  out.min = r.best[0];
+  out.max = r.best[1];
+  out.input_at_min = at[0];
+  out.input_at_max = at[1];
+  memcpy(range, &out, range->size < sizeof out ? range->size : sizeof out);
+  return st;
+}
+
+int kl_time_ratio(const kl_range *range, double *ratio) {
+  double a;
+  if (range == NULL || ratio == NULL)
+    return KL_EINVAL;
+  if (!isfinite(range->input_at_min) || !isfinite(range->input_at_max))
+    return KL_ENONFINITE;
+  a = fmod(range->input_at_max - range->input_at_min, KLI_TWO_PI);
+  if (a < 0.0)
+    a += KLI_TWO_PI;
+  if (!(a > 0.0) || !(a < KLI_TWO_PI))
+    return KL_EINVAL;
+  *ratio = a / (KLI_TWO_PI - a);
+  return KL_OK;
+}
+
+/* ---- input effort by virtual work ---- */
+
+int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
+                    double *efforts) {
+  const kl_model *m;
+  int st, i, k;
+  char label[64];
+  if (s == NULL || efforts == NULL || nloads < 0 ||
+      (nloads > 0 && loads == NULL))
+    return KL_EINVAL;
+  m = s->model;
+  for (k = 0; k < nloads; k++) {
+    const kl_load *l = &loads[k];
+    if (l->kind == KL_LOAD_FORCE) {
+      if (l->id < 0 || l->id >= m->npoints)
+        return kli_fail(s->error, KL_EID,
+                        "input effort: load %d acts at point %d, which does "
+                        "not exist",
+                        k, l->id);
+      if (!isfinite(l->fx) || !isfinite(l->fy))
+        return kli_fail(s->error, KL_ENONFINITE,
+                        "input effort: load %d at %s is NaN or infinite", k,
+                        kli_point_label(m, l->id, label, sizeof label));
+    } else if (l->kind == KL_LOAD_TORQUE) {
+      if (l->id < 0 || l->id >= m->nlinks)
+        return kli_fail(s->error, KL_EID,
+                        "input effort: load %d acts on link %d, which does "
+                        "not exist",
+                        k, l->id);
+      if (!isfinite(l->torque))
+        return kli_fail(s->error, KL_ENONFINITE,
+                        "input effort: the torque of load %d on %s is NaN or "
+                        "infinite",
+                        k, kli_link_label(m, l->id, label, sizeof label));
+    } else {
+      return kli_fail(s->error, KL_EKIND,
+                      "input effort: load %d has kind %d, neither force nor "
+                      "torque",
+                      k, l->kind);
+    }
+  }
+  if ((st = need_coefficients(s)) != KL_OK)
+    return st;
+  for (i = 0; i < s->ninputs; i++) {
+    const double *dx = s->coef1 + (size_t)i * (size_t)s->ncoords;
+    double work = 0.0;
+    for (k = 0; k < nloads; k++) {
+      const kl_load *l = &loads[k];
+      if (l->kind == KL_LOAD_FORCE) {
+        double dp[2];
+        kli_chain_rate(m, &m->topo.points[l->id], &s->st.pose, dx, dp);
+        work += l->fx * dp[0] + l->fy * dp[1];
+      } else {
+        work += l->torque * dx[l->id];
+      }
+    }
+    /* the input's virtual work balances the loads' */
+    efforts[i] = -work;
+  }
+  return KL_OK;
+}
+
+/* ---- dimensional sensitivity ---- */
+
+static int sensitivity(kl_solver *s, const kl_output *o,
+                       const kl_dimension *d, double *deriv) {
+  kli_dim dim;
+  int st;
+  if ((st = kli_dim_resolve(s->model, d, &dim, s->error)) != KL_OK)
+    return st;
+  /* loops: J dq = -dF/dp with the inputs held */
+  if (dim.joint >= 0)
+    kli_loops_dimension(s->model, &s->st.pose, dim.joint, dim.link, dim.axis,
+                        s->rhs);
+  else
+    memset(s->rhs, 0, (size_t)s->n * sizeof(double));
+  kli_rate_solve(s, s->rhs, NULL, s->xv);
+  *deriv = kli_output_change(s, o, s->xv, &dim);
+  return KL_OK;
+}
+
+int kl_output_sensitivity(kl_solver *s, const kl_output *o,
+                          const kl_dimension *dim, double *deriv) {
+  int st;
+  if (s == NULL || deriv == NULL)
+    return KL_EINVAL;
+  if ((st = kli_output_check(s->model, o, s->error)) != KL_OK ||
+      (st = kli_require_position(s, "sensitivity")) != KL_OK)
+    return st;
+  return sensitivity(s, o, dim, deriv);
+}
+
+int kl_tolerance_stack(kl_solver *s, const kl_output *o, int n,
+                       const kl_dimension *dims, const double *tolerances,
+                       double *worst, double *rss) {
+  double sum = 0.0, squares = 0.0;
+  int st, k;
+  if (s == NULL || n < 0 || (n > 0 && (dims == NULL || tolerances == NULL)))
+    return KL_EINVAL;
+  for (k = 0; k < n; k++) {
+    if (!isfinite(tolerances[k]))
+      return kli_fail(s->error, KL_ENONFINITE,
+                      "tolerance stack: tolerance %d is NaN or infinite", k);
+    if (tolerances[k] < 0.0)
+      return kli_fail(s->error, KL_EINVAL,
+                      "tolerance stack: tolerance %d is negative (%g)", k,
+                      tolerances[k]);
+  }
+  if ((st = kli_output_check(s->model, o, s->error)) != KL_OK ||
+      (st = kli_require_position(s, "tolerance stack")) != KL_OK)
+    return st;
+  for (k = 0; k < n; k++) {
+    double d;
+    if ((st = sensitivity(s, o, &dims[k], &d)) != KL_OK)
+      return st;
+    sum += fabs(d) * tolerances[k];
+    squares += d * tolerances[k] * d * tolerances[k];
+  }
+  if (worst != NULL)
+    *worst = sum;
+  if (rss != NULL)
+    *rss = sqrt(squares);
+  return KL_OK;
+}

@@ -1,0 +1,201 @@
+/*
+ * outputs.c - scalar outputs: checking what they name, their values at the
+ * committed pose, and their first-order changes along coordinate and
+ * dimension changes (the basis of coefficients, ranges and sensitivities).
+ */
+#include <math.h>
+#include <stdio.h>
+
+#include "outputs.h"
+
+static int joint_on(const kl_model *m, int joint, int link) {
+  return joint >= 0 && joint < m->njoints &&
+         (m->joints[joint].link[0] == link || m->joints[joint].link[1] == link);
+}
+
+
+int kli_output_check(const kl_model *m, const kl_output *o, char *buf) {
+  const kli_joint *j;
+  if (o == NULL)
+    return kli_fail(buf, KL_EINVAL, "output: none given (NULL)");
+  switch (o->kind) {
+  case KL_OUT_LINK_ANGLE:
+    if (o->id < 0 || o->id >= m->nlinks)
+      return kli_fail(buf, KL_EID, "output: link %d does not exist (%d links)",
+                 o->id, m->nlinks);
+    return KL_OK;
+  case KL_OUT_POINT_X:
+  case KL_OUT_POINT_Y:
+    if (o->id < 0 || o->id >= m->npoints)
+      return kli_fail(buf, KL_EID, "output: point %d does not exist (%d points)",
+                 o->id, m->npoints);
+    return KL_OK;
+  case KL_OUT_SLIDE:
+  case KL_OUT_JOINT_ANGLE:
+  case KL_OUT_TRANSMISSION:
+    break;
+  default:
+    return kli_fail(buf, KL_EINVAL, "output: kind %d is not an output kind",
+               o->kind);
+  }
+  if (o->id < 0 || o->id >= m->njoints)
+    return kli_fail(buf, KL_EID, "output: joint %d does not exist (%d joints)",
+               o->id, m->njoints);
+  j = &m->joints[o->id];
+  if (o->kind == KL_OUT_SLIDE && !kli_is_sliding(j->kind))
+    return kli_fail(buf, KL_EKIND, "output: joint %d is revolute and has no "
+                              "slide",
+               o->id);
+  if (o->kind != KL_OUT_TRANSMISSION)
+    return KL_OK;
+  if (j->kind != KL_REVOLUTE)
+    return kli_fail(buf, KL_EKIND, "output: a transmission angle needs a revolute "
+                              "joint; joint %d is not",
+               o->id);
+  if (o->line_a == o->id || !joint_on(m, o->line_a, j->link[0]))
+    return kli_fail(buf, KL_EKIND, "output: line_a (joint %d) is not another "
+                              "joint on link %d, joint's link a",
+               o->line_a, j->link[0]);
+  if (o->line_b == o->id || !joint_on(m, o->line_b, j->link[1]))
+    return kli_fail(buf, KL_EKIND, "output: line_b (joint %d) is not another "
+                              "joint on link %d, joint's link b",
+               o->line_b, j->link[1]);
+  return KL_OK;
+}
+
+int kli_dim_resolve(const kl_model *m, const kl_dimension *d, kli_dim *out,
+                    char *buf) {
+  if (d == NULL)
+    return kli_fail(buf, KL_EINVAL, "dimension: none given (NULL)");
+  if (d->axis != 0 && d->axis != 1)
+    return kli_fail(buf, KL_EINVAL, "dimension: axis %d is neither 0 (x) nor 1 "
+                               "(y)",
+               d->axis);
+  out->axis = d->axis;
+  if (d->kind == KL_DIM_POINT) {
+    if (d->id < 0 || d->id >= m->npoints)
+      return kli_fail(buf, KL_EID, "dimension: point %d does not exist (%d "
+                              "points)",
+                 d->id, m->npoints);
+    out->joint = -1;
+    out->point = d->id;
+    out->link = m->points[d->id].link;
+    return KL_OK;
+  }
+  if (d->kind != KL_DIM_JOINT_A && d->kind != KL_DIM_JOINT_B)
+    return kli_fail(buf, KL_EINVAL, "dimension: kind %d is not a dimension "
+                               "kind",
+               d->kind);
+  if (d->id < 0 || d->id >= m->njoints)
+    return kli_fail(buf, KL_EID, "dimension: joint %d does not exist (%d joints)",
+               d->id, m->njoints);
+  out->joint = d->id;
+  out->point = -1;
+  out->link = m->joints[d->id].link[d->kind == KL_DIM_JOINT_A ? 0 : 1];
+  return KL_OK;
+}
+
+/* The line of a transmission angle on one side: its global vector, and the
+ * local vector it comes from. */
+static void transmission_line(const kl_solver *s, int joint, int line,
+                              int link, double w[2], double local[2]) {
+  const kl_model *m = s->model;
+  const double *from = kli_joint_point_on(m, joint, link);
+  const double *to = kli_joint_point_on(m, line, link);
+  double c = s->st.pose.c[link], sn = s->st.pose.s[link];
+  local[0] = to[0] - from[0];
+  local[1] = to[1] - from[1];
+  w[0] = c * local[0] - sn * local[1];
+  w[1] = sn * local[0] + c * local[1];
+}
+
+double kli_output_value(const kl_solver *s, const kl_output *o) {
+  const kl_model *m = s->model;
+  const double *x = s->st.pose.x;
+  double xy[2], wa[2], wb[2], la[2], lb[2];
+  const kli_joint *j;
+  switch (o->kind) {
+  case KL_OUT_LINK_ANGLE:
+    return x[o->id];
+  case KL_OUT_SLIDE:
+    return x[m->nlinks + o->id];
+  case KL_OUT_JOINT_ANGLE:
+    j = &m->joints[o->id];
+    return x[j->link[1]] - x[j->link[0]];
+  case KL_OUT_POINT_X:
+  case KL_OUT_POINT_Y:
+    kli_chain_value(m, &m->topo.points[o->id], &s->st.pose, xy);
+    return xy[o->kind == KL_OUT_POINT_X ? 0 : 1];
+  default: /* KL_OUT_TRANSMISSION */
+    j = &m->joints[o->id];
+    transmission_line(s, o->id, o->line_a, j->link[0], wa, la);
+    transmission_line(s, o->id, o->line_b, j->link[1], wb, lb);
+    return atan2(fabs(wa[0] * wb[1] - wa[1] * wb[0]),
+                 wa[0] * wb[0] + wa[1] * wb[1]);
+  }
+}
+
+/* Change of a transmission line's global vector w (local vector `local` on
+ * `link`) for coordinate changes dx and a unit change of dim. */
+static void line_change(const kl_solver *s, int joint, int line, int link,
+                        const double w[2], const double *dx,
+                        const kli_dim *dim, double dw[2]) {
+  double turn = dx[link], c = s->st.pose.c[link], sn = s->st.pose.s[link];
+  double moved = 0.0;
+  dw[0] = -turn * w[1];
+  dw[1] = turn * w[0];
+  if (dim == NULL || dim->joint < 0 || dim->link != link)
+    return;
+  if (dim->joint == line)
+    moved += 1.0;
+  if (dim->joint == joint)
+    moved -= 1.0;
+  dw[0] += moved * (dim->axis == 0 ? c : -sn);
+  dw[1] += moved * (dim->axis == 0 ? sn : c);
+}
+
+double kli_output_change(const kl_solver *s, const kl_output *o,
+                         const double *dx, const kli_dim *dim) {
+  const kl_model *m = s->model;
+  const kli_joint *j;
+  double xy[2], wa[2], wb[2], la[2], lb[2], dwa[2], dwb[2], cross, dot;
+  switch (o->kind) {
+  case KL_OUT_LINK_ANGLE:
+    return dx[o->id];
+  case KL_OUT_SLIDE:
+    return dx[m->nlinks + o->id];
+  case KL_OUT_JOINT_ANGLE:
+    j = &m->joints[o->id];
+    return dx[j->link[1]] - dx[j->link[0]];
+  case KL_OUT_POINT_X:
+  case KL_OUT_POINT_Y: {
+    const kli_chain *ch = &m->topo.points[o->id];
+    double change;
+    kli_chain_rate(m, ch, &s->st.pose, dx, xy);
+    change = xy[o->kind == KL_OUT_POINT_X ? 0 : 1];
+    if (dim != NULL && (dim->joint >= 0 || dim->point == o->id)) {
+      kli_chain_dimension(m, ch, &s->st.pose, dim->joint, dim->link,
+                          dim->axis, xy);
+      change += xy[o->kind == KL_OUT_POINT_X ? 0 : 1];
+    }
+    return change;
+  }
+  default: /* KL_OUT_TRANSMISSION: mu = atan2(|wa x wb|, wa . wb) */
+    j = &m->joints[o->id];
+    transmission_line(s, o->id, o->line_a, j->link[0], wa, la);
+    transmission_line(s, o->id, o->line_b, j->link[1], wb, lb);
+    line_change(s, o->id, o->line_a, j->link[0], wa, dx, dim, dwa);
+    line_change(s, o->id, o->line_b, j->link[1], wb, dx, dim, dwb);
+    cross = wa[0] * wb[1] - wa[1] * wb[0];
+    dot = wa[0] * wb[0] + wa[1] * wb[1];
+    {
+      double dcross = dwa[0] * wb[1] - dwa[1] * wb[0] + wa[0] * dwb[1] -
+                      wa[1] * dwb[0];
+      double ddot = dwa[0] * wb[0] + dwa[1] * wb[1] + wa[0] * dwb[0] +
+                    wa[1] * dwb[1];
+      double sign = cross < 0.0 ? -1.0 : 1.0;
+      return (sign * dcross * dot - fabs(cross) * ddot) /
+             (cross * cross + dot * dot);
+    }
+  }
+}
