@@ -19,12 +19,17 @@ typedef struct {
   int motor;                              /* the crank's joint: input 0 */
   int plate_slide;                        /* the plate's prismatic joint */
   int tucker_tip, plate_nose;             /* points */
-  int rocker_pin;                         /* coupler-rocker joint */
+  int crank_pin, rocker_pin, rocker_pivot; /* the driving four-bar's pins */
+  int arm_pin, plate_pin;                 /* rocker-rod and rod-plate pins */
 } demo_mechanism;
 
 /* Builds and finalizes the demo; returns KL_OK or the failing status (the
  * model's message says why). Free d->model with kl_model_free. */
 int demo_build(demo_mechanism *d);
+/* The loads on the station while it tucks (invented, in N): the carton
+ * flap pushes back on the tucker tip and the plate drags on its rail. */
+#define DEMO_NLOADS 2
+void demo_loads(const demo_mechanism *d, kl_load loads[DEMO_NLOADS]);
 /* Sets the sketch angles that choose the demo's working assembly. */
 void demo_sketch(const demo_mechanism *d, kl_solver *s);
 
