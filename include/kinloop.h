@@ -87,7 +87,9 @@ enum kl_status {
   KL_EMAXITER = -16,       /**< position: no convergence within the iteration limit */
   KL_ENOASSEMBLY = -17,    /**< position: the loops cannot close at these inputs */
   KL_ESINGULAR = -18,      /**< singular Jacobian: dead point, toggle or change point */
-  KL_ESTAGE = -19          /**< a stage called before the stage it needs succeeded */
+  KL_ESTAGE = -19,         /**< a stage called before the stage it needs succeeded */
+  KL_ESYNTAX = -20,        /**< model file: not in the format (line and column given) */
+  KL_EIO = -21             /**< a file could not be read or written */
 };
 
 /**
@@ -279,6 +281,68 @@ KL_API int kl_model_loop(const kl_model *m, int loop, int *joints, int cap);
  */
 KL_API double kl_model_scale(const kl_model *m);
 
+/**
+ * Names joint `joint` (the builders leave joints unnamed). `name` follows the
+ * rules of kl_add_link() among joints. Returns KL_OK, KL_EID, KL_EINVAL,
+ * KL_EDUPLICATE, KL_ESTATE (finalized), KL_ENOMEM.
+ */
+KL_API int kl_set_joint_name(kl_model *m, int joint, const char *name);
+
+/** Units of length a model can record (the numbers are not converted). */
+enum kl_length_unit {
+  KL_LENGTH_UNSTATED = 0, /**< any consistent unit, not recorded */
+  KL_LENGTH_MM = 1,
+  KL_LENGTH_M = 2,
+  KL_LENGTH_IN = 3
+};
+/** Units in which a model file gives its angles (the API is in radians). */
+enum kl_angle_unit { KL_ANGLE_RAD = 0, KL_ANGLE_DEG = 1 };
+
+/**
+ * Records the units of the model's numbers, for model files and reports:
+ * lengths stay as given (in `length_unit`); angles at the API are always
+ * radians, and `angle_unit` is the unit a model file writes them in.
+ * Returns KL_OK, KL_EINVAL (unknown unit), KL_ESTATE (finalized).
+ */
+KL_API int kl_model_set_units(kl_model *m, int length_unit, int angle_unit);
+/** The recorded units into either pointer (may be NULL). KL_OK, KL_EINVAL. */
+KL_API int kl_model_units(const kl_model *m, int *length_unit,
+                          int *angle_unit);
+/** "mm", "m", "in", or "" when unstated; "deg" or "rad" for angles. */
+KL_API const char *kl_length_unit_str(int length_unit);
+KL_API const char *kl_angle_unit_str(int angle_unit);
+
+/**
+ * Records a sketch angle (radians) for a moving link in the model, so that
+ * every new solver starts from it (as if kl_set_link_angle had been called
+ * in order of link id); it chooses the assembly mode of the first solve.
+ * Returns KL_OK, KL_EID, KL_EKIND (ground), KL_ENONFINITE, KL_ESTATE.
+ */
+KL_API int kl_set_sketch_angle(kl_model *m, int link, double angle);
+/** As kl_set_sketch_angle, for the slide of a prismatic or slot joint. */
+KL_API int kl_set_sketch_slide(kl_model *m, int joint, double slide);
+/** The recorded sketch angle of a link, NaN if none (or unknown id). */
+KL_API double kl_sketch_angle(const kl_model *m, int link);
+/** The recorded sketch slide of a joint, NaN if none (or unknown id). */
+KL_API double kl_sketch_slide(const kl_model *m, int joint);
+
+/** Sweep settings a model may carry (for tools that run it). */
+typedef struct kl_sweep_settings {
+  size_t size; /**< sizeof(kl_sweep_settings), set by the caller */
+  int input;   /**< which input sweeps */
+  double from, to; /**< range: rad, or length for a sliding input */
+  int steps;   /**< steps >= 1 */
+} kl_sweep_settings;
+
+/**
+ * Records sweep settings in the model. Returns KL_OK, KL_EINVAL (NULL,
+ * size too small, steps < 1), KL_EID (no such input), KL_ENONFINITE,
+ * KL_ESTATE (finalized).
+ */
+KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);
+/** The recorded sweep settings; KL_OK, KL_EID if there are none, KL_EINVAL. */
+KL_API int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep);
+
 /* Reading a model back. Getters that return an int give KL_EID for an unknown
  * id and KL_EINVAL for NULL pointers; they never set the model's message. */
 
@@ -293,6 +357,10 @@ KL_API const char *kl_link_name(const kl_model *m, int link);
 KL_API const char *kl_point_name(const kl_model *m, int point);
 /** The id of the link named `name`, or KL_EID if there is none. */
 KL_API int kl_link_find(const kl_model *m, const char *name);
+/** The joint's name, NULL if unnamed or unknown. */
+KL_API const char *kl_joint_name(const kl_model *m, int joint);
+/** The id of the joint named `name`, or KL_EID if there is none. */
+KL_API int kl_joint_find(const kl_model *m, const char *name);
 /** The id of the point named `name`, or KL_EID if there is none. */
 KL_API int kl_point_find(const kl_model *m, const char *name);
 /** The link a point belongs to, and its local coordinates into `xy` (may be NULL). */
@@ -309,6 +377,51 @@ KL_API int kl_joint_links(const kl_model *m, int joint, int links[2],
 KL_API double kl_joint_axis(const kl_model *m, int joint);
 /** The joint an input drives, or KL_EID. */
 KL_API int kl_input_joint(const kl_model *m, int input);
+
+/* ------------------------------------------------------------------------
+ * Model files (the format is described in docs/model-format.md)
+ * ------------------------------------------------------------------------ */
+
+/** Where and why reading or writing a model file failed. */
+typedef struct kl_io_error {
+  size_t size;       /**< sizeof(kl_io_error), set by the caller */
+  int status;        /**< KL_OK, or why it failed */
+  int line, column;  /**< 1-based place of a syntax or model error; 0 if none */
+  char message[256]; /**< what was expected, and what was found */
+} kl_io_error;
+
+/**
+ * Reads a model from `length` bytes of text at `text` (any bytes: no NUL
+ * needed, none allowed) and finalizes it. Returns the new model, or NULL
+ * with `err` (may be NULL) telling why: KL_ESYNTAX with line, column and
+ * what was expected; the builders' and kl_model_finalize's statuses with
+ * the line of the statement involved; KL_EINVAL for input longer than 16
+ * MiB; KL_ENOMEM. The reader never reads past `length`, and allocates in
+ * proportion to the input.
+ */
+KL_API kl_model *kl_model_read(const char *text, size_t length,
+                               kl_io_error *err);
+/** As kl_model_read, with every allocation through `fn` and `user`. */
+KL_API kl_model *kl_model_read_with_alloc(const char *text, size_t length,
+                                          kl_alloc_fn fn, void *user,
+                                          kl_io_error *err);
+/** As kl_model_read, from the file at `path` (KL_EIO if it cannot be read). */
+KL_API kl_model *kl_model_read_file(const char *path, kl_io_error *err);
+
+/**
+ * Writes the model as model-file text into `buf` (at most `cap` bytes, NUL
+ * included; buf may be NULL when cap is 0) and the length it needs, without
+ * the NUL, into `*needed` (may be NULL): call once to size, once to write.
+ * Reading the text back gives the same model (numbers are written with 17
+ * significant digits; angles in degrees convert to within a rounding).
+ * Returns KL_OK, or KL_EINVAL (NULL model, or buf too small: nothing is
+ * cut short silently; *needed still says the length).
+ */
+KL_API int kl_model_write(const kl_model *m, char *buf, size_t cap,
+                          size_t *needed);
+/** Writes the model to the file at `path`: KL_OK, KL_EIO, KL_ENOMEM, KL_EINVAL. */
+KL_API int kl_model_write_file(const kl_model *m, const char *path,
+                               kl_io_error *err);
 
 /* ------------------------------------------------------------------------
  * Solving

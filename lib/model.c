@@ -41,7 +41,7 @@ kl_model *kl_model_new_with_alloc(kl_alloc_fn fn, void *user) {
     kli_free(&a, m, sizeof *m);
     return NULL;
   }
-  m->links[0].name = NULL; /* ground's name is implied: see kl_link_name */
+  memset(&m->links[0], 0, sizeof m->links[0]); /* ground: name implied */
   m->nlinks = 1;
   return m;
 }
@@ -68,6 +68,8 @@ void kl_model_free(kl_model *m) {
     free_name(m, m->links[i].name);
   for (i = 0; i < m->npoints; i++)
     free_name(m, m->points[i].name);
+  for (i = 0; i < m->njoints; i++)
+    free_name(m, m->joints[i].name);
   kli_free(&a, m->links, (size_t)m->cap_links * sizeof *m->links);
   kli_free(&a, m->joints, (size_t)m->cap_joints * sizeof *m->joints);
   kli_free(&a, m->points, (size_t)m->cap_points * sizeof *m->points);
@@ -112,9 +114,12 @@ const char *kli_kind_name(int kind) {
 
 const char *kli_joint_label(const kl_model *m, int joint, char *buf,
                             size_t n) {
-  char la[64], lb[64];
+  char la[64], lb[64], name[48] = "";
   const kli_joint *j = &m->joints[joint];
-  snprintf(buf, n, "joint %d (%s, %s to %s)", joint, kli_kind_name(j->kind),
+  if (j->name != NULL)
+    snprintf(name, sizeof name, " '%.40s'", j->name);
+  snprintf(buf, n, "joint %d%s (%s, %s to %s)", joint, name,
+           kli_kind_name(j->kind),
            kli_link_label(m, j->link[0], la, sizeof la),
            kli_link_label(m, j->link[1], lb, sizeof lb));
   return buf;
@@ -202,6 +207,7 @@ int kl_add_link(kl_model *m, const char *name) {
     return kli_fail(m->error, KL_ENOMEM, "add link: out of memory");
   if ((st = copy_name(m, name, &copy, "add link")) != KL_OK)
     return st;
+  memset(&m->links[m->nlinks], 0, sizeof m->links[m->nlinks]);
   m->links[m->nlinks].name = copy;
   return m->nlinks++;
 }
@@ -241,6 +247,7 @@ static int add_joint(kl_model *m, int kind, int a, double ax, double ay,
                   m->njoints + 1, sizeof *m->joints) != KL_OK)
     return kli_fail(m->error, KL_ENOMEM, "%s: out of memory", what);
   nj = &m->joints[m->njoints];
+  memset(nj, 0, sizeof *nj);
   nj->kind = kind;
   nj->link[0] = a;
   nj->link[1] = b;
@@ -460,6 +467,158 @@ int kl_add_loop(kl_model *m, int njoints, const int *joints) {
   return m->nreg_loops++;
 }
 
+int kl_set_joint_name(kl_model *m, int joint, const char *name) {
+  int st;
+  char *copy;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "name joint")) != KL_OK ||
+      (st = check_joint(m, joint, "name joint")) != KL_OK)
+    return st;
+  if (name == NULL)
+    return kli_fail(m->error, KL_EINVAL, "name joint: no name (NULL)");
+  if (m->joints[joint].name != NULL &&
+      strcmp(m->joints[joint].name, name) == 0)
+    return KL_OK;
+  if ((st = check_name(m, name, "name joint", kl_joint_name, m->njoints)) !=
+          KL_OK ||
+      (st = copy_name(m, name, &copy, "name joint")) != KL_OK)
+    return st;
+  free_name(m, m->joints[joint].name);
+  m->joints[joint].name = copy;
+  return KL_OK;
+}
+
+int kl_model_set_units(kl_model *m, int length_unit, int angle_unit) {
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set units")) != KL_OK)
+    return st;
+  if (length_unit < KL_LENGTH_UNSTATED || length_unit > KL_LENGTH_IN ||
+      (angle_unit != KL_ANGLE_RAD && angle_unit != KL_ANGLE_DEG))
+    return kli_fail(m->error, KL_EINVAL,
+                    "set units: length unit %d or angle unit %d is not one "
+                    "kinloop knows",
+                    length_unit, angle_unit);
+  m->length_unit = length_unit;
+  m->angle_unit = angle_unit;
+  return KL_OK;
+}
+
+int kl_model_units(const kl_model *m, int *length_unit, int *angle_unit) {
+  if (m == NULL)
+    return KL_EINVAL;
+  if (length_unit != NULL)
+    *length_unit = m->length_unit;
+  if (angle_unit != NULL)
+    *angle_unit = m->angle_unit;
+  return KL_OK;
+}
+
+const char *kl_length_unit_str(int length_unit) {
+  switch (length_unit) {
+  case KL_LENGTH_MM: return "mm";
+  case KL_LENGTH_M: return "m";
+  case KL_LENGTH_IN: return "in";
+  default: return "";
+  }
+}
+
+const char *kl_angle_unit_str(int angle_unit) {
+  return angle_unit == KL_ANGLE_DEG ? "deg" : "rad";
+}
+
+int kl_set_sketch_angle(kl_model *m, int link, double angle) {
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set sketch angle")) != KL_OK ||
+      (st = check_link(m, link, "set sketch angle")) != KL_OK)
+    return st;
+  if (link == KL_GROUND)
+    return kli_fail(m->error, KL_EKIND,
+                    "set sketch angle: ground's angle is 0 for good");
+  if (!isfinite(angle))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "set sketch angle: the angle of link %d is NaN or "
+                    "infinite",
+                    link);
+  m->links[link].sketch = angle;
+  m->links[link].has_sketch = 1;
+  return KL_OK;
+}
+
+int kl_set_sketch_slide(kl_model *m, int joint, double slide) {
+  int st;
+  char lj[160];
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set sketch slide")) != KL_OK ||
+      (st = check_joint(m, joint, "set sketch slide")) != KL_OK)
+    return st;
+  if (!kli_is_sliding(m->joints[joint].kind))
+    return kli_fail(m->error, KL_EKIND, "set sketch slide: %s has no slide",
+                    kli_joint_label(m, joint, lj, sizeof lj));
+  if (!isfinite(slide))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "set sketch slide: the slide of %s is NaN or infinite",
+                    kli_joint_label(m, joint, lj, sizeof lj));
+  m->joints[joint].sketch = slide;
+  m->joints[joint].has_sketch = 1;
+  return KL_OK;
+}
+
+double kl_sketch_angle(const kl_model *m, int link) {
+  if (m == NULL || link < 0 || link >= m->nlinks || !m->links[link].has_sketch)
+    return NAN;
+  return m->links[link].sketch;
+}
+
+double kl_sketch_slide(const kl_model *m, int joint) {
+  if (m == NULL || joint < 0 || joint >= m->njoints ||
+      !m->joints[joint].has_sketch)
+    return NAN;
+  return m->joints[joint].sketch;
+}
+
+int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set sweep")) != KL_OK)
+    return st;
+  if (sweep == NULL || sweep->size < sizeof *sweep || sweep->steps < 1)
+    return kli_fail(m->error, KL_EINVAL,
+                    "set sweep: %s",
+                    sweep == NULL              ? "no settings (NULL)"
+                    : sweep->size < sizeof *sweep ? "settings size too small"
+                                                 : "steps must be at least 1");
+  if (sweep->input < 0 || sweep->input >= m->ninputs)
+    return kli_fail(m->error, KL_EID,
+                    "set sweep: input %d does not exist (%d inputs so far)",
+                    sweep->input, m->ninputs);
+  if (!isfinite(sweep->from) || !isfinite(sweep->to))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "set sweep: the range is NaN or infinite");
+  m->sweep = *sweep;
+  m->sweep.size = sizeof m->sweep;
+  m->has_sweep = 1;
+  return KL_OK;
+}
+
+int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep) {
+  size_t n;
+  if (m == NULL || sweep == NULL || sweep->size < sizeof(sweep->size))
+    return KL_EINVAL;
+  if (!m->has_sweep)
+    return KL_EID;
+  n = sweep->size < sizeof *sweep ? sweep->size : sizeof *sweep;
+  memcpy((char *)sweep + sizeof sweep->size,
+         (const char *)&m->sweep + sizeof sweep->size, n - sizeof sweep->size);
+  return KL_OK;
+}
+
 /* ---- reading the record back ---- */
 
 int kl_model_link_count(const kl_model *m) {
@@ -479,6 +638,22 @@ const char *kl_link_name(const kl_model *m, int link) {
   if (m == NULL || link < 0 || link >= m->nlinks)
     return NULL;
   return link == KL_GROUND ? "ground" : m->links[link].name;
+}
+
+const char *kl_joint_name(const kl_model *m, int joint) {
+  if (m == NULL || joint < 0 || joint >= m->njoints)
+    return NULL;
+  return m->joints[joint].name;
+}
+
+int kl_joint_find(const kl_model *m, const char *name) {
+  int i;
+  if (m == NULL || name == NULL)
+    return KL_EINVAL;
+  for (i = 0; i < m->njoints; i++)
+    if (m->joints[i].name != NULL && strcmp(m->joints[i].name, name) == 0)
+      return i;
+  return KL_EID;
 }
 
 const char *kl_point_name(const kl_model *m, int point) {

@@ -12,10 +12,15 @@
 #define KLI_NAME_MAX 255
 
 typedef struct {
-  char *name; /* owned; NULL when unnamed */
+  char *name;     /* owned; NULL when unnamed */
+  double sketch;  /* starting angle for new solvers, when has_sketch */
+  int has_sketch;
 } kli_link;
 
 typedef struct {
+  char *name;         /* owned; NULL when unnamed */
+  double sketch;      /* starting slide for new solvers, when has_sketch */
+  int has_sketch;
   int kind;           /* enum kl_joint_kind */
   int link[2];        /* a, b */
   double at[2][2];    /* attachment in a's frame, in b's frame */
@@ -105,6 +110,10 @@ struct kl_model {
   int nreg_joints, cap_reg_joints;
   int *reg_start; /* nreg_loops + 1 offsets */
   int nreg_loops, cap_reg_start;
+
+  int length_unit, angle_unit;
+  kl_sweep_settings sweep;
+  int has_sweep;
 
   int finalized;
   kli_topology topo;

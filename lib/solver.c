@@ -107,6 +107,13 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   kli_dense_init(&s->dense, s->rhs);
   kli_expand(m, NULL, NULL, s->st.pose.x);
   kli_pose_trig(m, &s->st.pose);
+  /* the model's sketch, in id order, as the caller's would be */
+  for (i = 1; i < m->nlinks; i++)
+    if (m->links[i].has_sketch)
+      kl_set_link_angle(s, i, m->links[i].sketch);
+  for (i = 0; i < m->njoints; i++)
+    if (m->joints[i].has_sketch)
+      kl_set_joint_slide(s, i, m->joints[i].sketch);
   s->st.last_attempt = KL_OK;
   s->stats.size = sizeof s->stats;
   return s;
