@@ -3,11 +3,23 @@
  * arrays, and carving of sized-once blocks.
  */
 #include <stdint.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "memory.h"
 
 #define KLI_ALIGN 16u
+
+void *kli_default_alloc(void *user, void *ptr, size_t old_size,
+                        size_t new_size) {
+  (void)user;
+  (void)old_size;
+  if (new_size == 0) {
+    free(ptr);
+    return NULL;
+  }
+  return realloc(ptr, new_size);
+}
 
 void *kli_alloc(const kli_allocator *a, size_t size) {
   return size == 0 ? NULL : a->fn(a->user, NULL, 0, size);

@@ -15,6 +15,10 @@ typedef struct {
   void *user;
 } kli_allocator;
 
+/* The hook of kl_model_new: malloc, realloc and free. */
+void *kli_default_alloc(void *user, void *ptr, size_t old_size,
+                        size_t new_size);
+
 void *kli_alloc(const kli_allocator *a, size_t size);
 void kli_free(const kli_allocator *a, void *p, size_t size);
 /* Ensures *arr holds at least `need` elements of `elem` bytes, growing by

@@ -4,24 +4,12 @@
  */
 #include <math.h>
 #include <stdio.h>
-#include <stdlib.h>
 #include <string.h>
 
 #include "model.h"
 
-static void *default_alloc(void *user, void *ptr, size_t old_size,
-                           size_t new_size) {
-  (void)user;
-  (void)old_size;
-  if (new_size == 0) {
-    free(ptr);
-    return NULL;
-  }
-  return realloc(ptr, new_size);
-}
-
 kl_model *kl_model_new(void) {
-  return kl_model_new_with_alloc(default_alloc, NULL);
+  return kl_model_new_with_alloc(kli_default_alloc, NULL);
 }
 
 kl_model *kl_model_new_with_alloc(kl_alloc_fn fn, void *user) {

@@ -1,0 +1,845 @@
+/*
+ * io.c - the one module that reads and writes files: the model-file
+ * reader (any bytes in, a finalized model or a line-and-column error out)
+ * and the writer that gives the same model back as text.
+ */
+#include <errno.h>
+#include <math.h>
+#include <stdarg.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "model.h"
+
+#define KLI_MAX_INPUT (16u << 20) /* bytes a model file may have */
+#define KLI_TOKEN_MAX 255         /* bytes in a name or a number */
+#define KLI_FORMAT_VERSION 1
+#define KLI_PI 3.14159265358979323846
+
+/* ------------------------------------------------------------------------
+ * Reading
+ * ------------------------------------------------------------------------ */
+
+enum { TOKEN_END, TOKEN_WORD, TOKEN_STRING };
+
+typedef struct {
+  int kind;
+  int column;
+  size_t length;
+  char text[KLI_TOKEN_MAX + 1];
+} token;
+
+typedef struct {
+  const char *text;
+  size_t length, pos;
+  int line;
+  size_t line_start;
+  kl_model *m;
+  kl_io_error *err;
+  int angle_deg;
+  int seen_header, seen_items;
+} reader;
+
+static int fail_at(reader *r, int status, int column, const char *fmt, ...)
+#ifdef __GNUC__
+    __attribute__((format(printf, 4, 5)))
+#endif
+    ;
+
+static int fail_at(reader *r, int status, int column, const char *fmt, ...) {
+  va_list ap;
+  kl_io_error e;
+  if (r->err == NULL || r->err->size < sizeof(r->err->size))
+    return status;
+  memset(&e, 0, sizeof e);
+  e.size = r->err->size;
+  e.status = status;
+  e.line = r->line;
+  e.column = column;
+  va_start(ap, fmt);
+  vsnprintf(e.message, sizeof e.message, fmt, ap);
+  va_end(ap);
+  memcpy(r->err, &e, r->err->size < sizeof e ? r->err->size : sizeof e);
+  return status;
+}
+
+static int column_of(const reader *r, size_t pos) {
+  return (int)(pos - r->line_start) + 1;
+}
+
+/* Next token on the current line; TOKEN_END at a newline, a comment or the
+ * end of the input. */
+static int next_token(reader *r, token *t) {
+  size_t start;
+  while (r->pos < r->length &&
+         (r->text[r->pos] == ' ' || r->text[r->pos] == '\t' ||
+          r->text[r->pos] == '\r'))
+    r->pos++;
+  t->length = 0;
+  t->text[0] = '\0';
+  t->column = column_of(r, r->pos);
+  if (r->pos >= r->length || r->text[r->pos] == '\n' ||
+      r->text[r->pos] == '#') {
+    t->kind = TOKEN_END;
+    return KL_OK;
+  }
+  start = r->pos;
+  if (r->text[r->pos] == '"') {
+    r->pos++;
+    t->kind = TOKEN_STRING;
+    for (;;) {
+      char c;
+      if (r->pos >= r->length || r->text[r->pos] == '\n')
+        return fail_at(r, KL_ESYNTAX, t->column,
+                       "the quoted name starting here has no closing quote");
+      c = r->text[r->pos++];
+      if (c == '"')
+        break;
+      if (c == '\\') {
+        if (r->pos >= r->length ||
+            (r->text[r->pos] != '"' && r->text[r->pos] != '\\'))
+          return fail_at(r, KL_ESYNTAX, column_of(r, r->pos - 1),
+                         "expected \\\" or \\\\ after a backslash in a name");
+        c = r->text[r->pos++];
+      } else if ((unsigned char)c < 0x20 || c == 0x7f) {
+        return fail_at(r, KL_ESYNTAX, column_of(r, r->pos - 1),
+                       "a control character cannot stand in a name");
+      }
+      if (t->length == KLI_TOKEN_MAX)
+        return fail_at(r, KL_ESYNTAX, t->column,
+                       "a name is at most %d bytes long", KLI_TOKEN_MAX);
+      t->text[t->length++] = c;
+    }
+  } else {
+    t->kind = TOKEN_WORD;
+    while (r->pos < r->length && r->text[r->pos] != ' ' &&
+           r->text[r->pos] != '\t' && r->text[r->pos] != '\r' &&
+           r->text[r->pos] != '\n' && r->text[r->pos] != '#') {
+      unsigned char c = (unsigned char)r->text[r->pos];
+      if (c < 0x20 || c == 0x7f)
+        return fail_at(r, KL_ESYNTAX, column_of(r, r->pos),
+                       "unexpected control character (byte 0x%02x)", c);
+      if (r->pos - start == KLI_TOKEN_MAX)
+        return fail_at(r, KL_ESYNTAX, t->column,
+                       "a word is at most %d bytes long", KLI_TOKEN_MAX);
+      t->text[t->length++] = (char)c;
+      r->pos++;
+    }
+  }
+  t->text[t->length] = '\0';
+  return KL_OK;
+}
+
+/* Skips to the start of the next line. */
+static void next_line(reader *r) {
+  while (r->pos < r->length && r->text[r->pos] != '\n')
+    r->pos++;
+  if (r->pos < r->length)
+    r->pos++;
+  r->line++;
+  r->line_start = r->pos;
+}
+
+static const char *shown(const token *t) {
+  return t->kind == TOKEN_END ? "the end of the line" : t->text;
+}
+
+static int expect_end(reader *r) {
+  token t;
+  int st = next_token(r, &t);
+  if (st != KL_OK)
+    return st;
+  if (t.kind != TOKEN_END)
+    return fail_at(r, KL_ESYNTAX, t.column,
+                   "expected the end of the statement, found '%.60s'",
+                   t.text);
+  return KL_OK;
+}
+
+static int expect_keyword(reader *r, const char *word, const char *why) {
+  token t;
+  int st = next_token(r, &t);
+  if (st != KL_OK)
+    return st;
+  if (t.kind != TOKEN_WORD || strcmp(t.text, word) != 0)
+    return fail_at(r, KL_ESYNTAX, t.column,
+                   "expected '%s' %s, found '%.60s'", word, why, shown(&t));
+  return KL_OK;
+}
+
+/* A decimal number: digits, one point, an exponent; no NaN or infinity.
+ * Its column goes to *column when that is not NULL. */
+static int expect_number_at(reader *r, const char *what, double *value,
+                            int *column) {
+  token t;
+  char *end;
+  size_t i;
+  int st = next_token(r, &t);
+  if (st != KL_OK)
+    return st;
+  if (column != NULL)
+    *column = t.column;
+  for (i = 0; i < t.length && t.kind == TOKEN_WORD; i++)
+    if (strchr("0123456789+-.eE", t.text[i]) == NULL)
+      break;
+  if (t.kind != TOKEN_WORD || t.length == 0 || i < t.length)
+    return fail_at(r, KL_ESYNTAX, t.column, "expected a number (%s), found "
+                                            "'%.60s'",
+                   what, shown(&t));
+  errno = 0;
+  *value = strtod(t.text, &end);
+  if (*end != '\0')
+    return fail_at(r, KL_ESYNTAX, t.column,
+                   "expected a number (%s), found '%.60s'", what, t.text);
+  if (!isfinite(*value) || errno == ERANGE)
+    return fail_at(r, KL_ESYNTAX, t.column,
+                   "the number '%.60s' (%s) is out of range", t.text, what);
+  return KL_OK;
+}
+
+static int expect_number(reader *r, const char *what, double *value) {
+  return expect_number_at(r, what, value, NULL);
+}
+
+static int expect_count(reader *r, const char *what, int *value) {
+  double v;
+  int column, st = expect_number_at(r, what, &v, &column);
+  if (st != KL_OK)
+    return st;
+  if (v != floor(v) || v < 1 || v > 1e9)
+    return fail_at(r, KL_ESYNTAX, column,
+                   "expected a whole number from 1 (%s), found %g", what, v);
+  *value = (int)v;
+  return KL_OK;
+}
+
+static int is_identifier(const char *s) {
+  size_t i;
+  if (!((s[0] >= 'A' && s[0] <= 'Z') || (s[0] >= 'a' && s[0] <= 'z') ||
+        s[0] == '_'))
+    return 0;
+  for (i = 1; s[i] != '\0'; i++)
+    if (!((s[i] >= 'A' && s[i] <= 'Z') || (s[i] >= 'a' && s[i] <= 'z') ||
+          (s[i] >= '0' && s[i] <= '9') || s[i] == '_' || s[i] == '.' ||
+          s[i] == '-'))
+      return 0;
+  return 1;
+}
+
+/* A new item's name: an identifier, a quoted string, or '-' for none. */
+static int expect_new_name(reader *r, const char *what, token *t,
+                           const char **name) {
+  int st = next_token(r, t);
+  if (st != KL_OK)
+    return st;
+  if (t->kind == TOKEN_WORD && strcmp(t->text, "-") == 0) {
+    *name = NULL;
+    return KL_OK;
+  }
+  if (t->kind == TOKEN_STRING || (t->kind == TOKEN_WORD && is_identifier(t->text))) {
+    *name = t->text;
+    return KL_OK;
+  }
+  return fail_at(r, KL_ESYNTAX, t->column,
+                 "expected the %s's name (a word, a quoted name, or - for "
+                 "none), found '%.60s'",
+                 what, shown(t));
+}
+
+enum { REF_LINK, REF_JOINT };
+
+/* A reference to an existing link or joint: its name, or @id. */
+static int expect_ref(reader *r, int kind, const char *what, int *id) {
+  token t;
+  const char *noun = kind == REF_LINK ? "link" : "joint";
+  int count = kind == REF_LINK ? r->m->nlinks : r->m->njoints, found;
+  int st = next_token(r, &t);
+  if (st != KL_OK)
+    return st;
+  if (t.kind == TOKEN_END)
+    return fail_at(r, KL_ESYNTAX, t.column,
+                   "expected a %s (%s), found the end of the line", noun,
+                   what);
+  if (t.kind == TOKEN_WORD && t.text[0] == '@') {
+    char *end;
+    long v = strtol(t.text + 1, &end, 10);
+    if (t.text[1] == '\0' || *end != '\0' || v < 0 || v >= count)
+      return fail_at(r, KL_ESYNTAX, t.column,
+                     "'%.60s' is not the id of a %s (%s; there are %d)",
+                     t.text, noun, what, count);
+    *id = (int)v;
+    return KL_OK;
+  }
+  found = kind == REF_LINK ? kl_link_find(r->m, t.text)
+                           : kl_joint_find(r->m, t.text);
+  if (found < 0)
+    return fail_at(r, KL_ESYNTAX, t.column,
+                   "no %s is named '%.60s' (%s); %ss must be declared "
+                   "before they are used",
+                   noun, t.text, what, noun);
+  *id = found;
+  return KL_OK;
+}
+
+static double angle_in(const reader *r, double v) {
+  return r->angle_deg ? v * (KLI_PI / 180.0) : v;
+}
+
+/* A builder's failure, placed at the statement's line. */
+static int builder_failed(reader *r, int status, int column) {
+  return fail_at(r, status, column, "%s", kl_model_error(r->m));
+}
+
+static int read_units(reader *r) {
+  static const char *lengths[] = {"unstated", "mm", "m", "in"};
+  token t;
+  int st, length = -1, i;
+  if (r->seen_items)
+    return fail_at(r, KL_ESYNTAX, 1,
+                   "'units' must come before the first link, joint or point");
+  if ((st = expect_keyword(r, "length", "after 'units'")) != KL_OK ||
+      (st = next_token(r, &t)) != KL_OK)
+    return st;
+  for (i = 0; i < 4; i++)
+    if (t.kind == TOKEN_WORD && strcmp(t.text, lengths[i]) == 0)
+      length = i;
+  if (length < 0)
+    return fail_at(r, KL_ESYNTAX, t.column,
+                   "expected a length unit (mm, m, in or unstated), found "
+                   "'%.60s'",
+                   shown(&t));
+  if ((st = expect_keyword(r, "angle", "after the length unit")) != KL_OK ||
+      (st = next_token(r, &t)) != KL_OK)
+    return st;
+  if (t.kind != TOKEN_WORD ||
+      (strcmp(t.text, "deg") != 0 && strcmp(t.text, "rad") != 0))
+    return fail_at(r, KL_ESYNTAX, t.column,
+                   "expected an angle unit (deg or rad), found '%.60s'",
+                   shown(&t));
+  r->angle_deg = strcmp(t.text, "deg") == 0;
+  if ((st = expect_end(r)) != KL_OK)
+    return st;
+  st = kl_model_set_units(r->m, length,
+                          r->angle_deg ? KL_ANGLE_DEG : KL_ANGLE_RAD);
+  return st == KL_OK ? KL_OK : builder_failed(r, st, 1);
+}
+
+static int read_link(reader *r) {
+  token name_tok;
+  const char *name;
+  int st;
+  if ((st = expect_new_name(r, "link", &name_tok, &name)) != KL_OK ||
+      (st = expect_end(r)) != KL_OK)
+    return st;
+  st = kl_add_link(r->m, name);
+  return st >= 0 ? KL_OK : builder_failed(r, st, name_tok.column);
+}
+
+/* revolute NAME LINK X Y LINK X Y; prismatic and slot add 'axis ANGLE'
+ * after the first attachment. */
+static int read_joint(reader *r, int kind) {
+  token name_tok;
+  const char *name;
+  int st, a, b, joint;
+  double ax, ay, bx, by, axis = 0.0;
+  if ((st = expect_new_name(r, "joint", &name_tok, &name)) != KL_OK ||
+      (st = expect_ref(r, REF_LINK, "the joint's first link", &a)) != KL_OK ||
+      (st = expect_number(r, "x on the first link", &ax)) != KL_OK ||
+      (st = expect_number(r, "y on the first link", &ay)) != KL_OK)
+    return st;
+  if (kind != KL_REVOLUTE &&
+      ((st = expect_keyword(r, "axis", "before the slide axis angle")) !=
+           KL_OK ||
+       (st = expect_number(r, "the slide axis angle", &axis)) != KL_OK))
+    return st;
+  if ((st = expect_ref(r, REF_LINK, "the joint's second link", &b)) != KL_OK ||
+      (st = expect_number(r, "x on the second link", &bx)) != KL_OK ||
+      (st = expect_number(r, "y on the second link", &by)) != KL_OK ||
+      (st = expect_end(r)) != KL_OK)
+    return st;
+  joint = kind == KL_REVOLUTE ? kl_add_revolute(r->m, a, ax, ay, b, bx, by)
+          : kind == KL_PRISMATIC
+              ? kl_add_prismatic(r->m, a, ax, ay, angle_in(r, axis), b, bx, by)
+              : kl_add_slot(r->m, a, ax, ay, angle_in(r, axis), b, bx, by);
+  if (joint < 0)
+    return builder_failed(r, joint, name_tok.column);
+  if (name != NULL && (st = kl_set_joint_name(r->m, joint, name)) != KL_OK)
+    return builder_failed(r, st, name_tok.column);
+  return KL_OK;
+}
+
+static int read_point(reader *r) {
+  token name_tok;
+  const char *name;
+  int st, link;
+  double x, y;
+  if ((st = expect_new_name(r, "point", &name_tok, &name)) != KL_OK ||
+      (st = expect_ref(r, REF_LINK, "the point's link", &link)) != KL_OK ||
+      (st = expect_number(r, "the point's x", &x)) != KL_OK ||
+      (st = expect_number(r, "the point's y", &y)) != KL_OK ||
+      (st = expect_end(r)) != KL_OK)
+    return st;
+  st = kl_add_point(r->m, link, x, y, name);
+  return st >= 0 ? KL_OK : builder_failed(r, st, name_tok.column);
+}
+
+static int read_input(reader *r) {
+  int st, joint;
+  if ((st = expect_ref(r, REF_JOINT, "the driven joint", &joint)) != KL_OK ||
+      (st = expect_end(r)) != KL_OK)
+    return st;
+  st = kl_add_input(r->m, joint);
+  return st >= 0 ? KL_OK : builder_failed(r, st, 1);
+}
+
+static int read_loop(reader *r) {
+  int st, n = 0, cap = 0, *joints = NULL;
+  for (;;) {
+    token peek;
+    size_t save = r->pos;
+    int joint;
+    if ((st = next_token(r, &peek)) != KL_OK)
+      break;
+    if (peek.kind == TOKEN_END)
+      break;
+    r->pos = save;
+    if ((st = expect_ref(r, REF_JOINT, "a joint of the loop", &joint)) !=
+        KL_OK)
+      break;
+    if (kli_reserve(&r->m->alloc, (void **)&joints, &cap, n + 1,
+                    sizeof *joints) != KL_OK) {
+      st = fail_at(r, KL_ENOMEM, 1, "out of memory");
+      break;
+    }
+    joints[n++] = joint;
+  }
+  if (st == KL_OK) {
+    st = kl_add_loop(r->m, n, joints);
+    st = st >= 0 ? KL_OK : builder_failed(r, st, 1);
+  }
+  kli_free(&r->m->alloc, joints, (size_t)cap * sizeof *joints);
+  return st;
+}
+
+/* sketch angle LINK VALUE | sketch slide JOINT VALUE */
+static int read_sketch(reader *r) {
+  token t;
+  int st, id;
+  double v;
+  if ((st = next_token(r, &t)) != KL_OK)
+    return st;
+  if (t.kind == TOKEN_WORD && strcmp(t.text, "angle") == 0) {
+    if ((st = expect_ref(r, REF_LINK, "the sketched link", &id)) != KL_OK ||
+        (st = expect_number(r, "the sketch angle", &v)) != KL_OK ||
+        (st = expect_end(r)) != KL_OK)
+      return st;
+    st = kl_set_sketch_angle(r->m, id, angle_in(r, v));
+  } else if (t.kind == TOKEN_WORD && strcmp(t.text, "slide") == 0) {
+    if ((st = expect_ref(r, REF_JOINT, "the sketched joint", &id)) != KL_OK ||
+        (st = expect_number(r, "the sketch slide", &v)) != KL_OK ||
+        (st = expect_end(r)) != KL_OK)
+      return st;
+    st = kl_set_sketch_slide(r->m, id, v);
+  } else {
+    return fail_at(r, KL_ESYNTAX, t.column,
+                   "expected 'angle' or 'slide' after 'sketch', found "
+                   "'%.60s'",
+                   shown(&t));
+  }
+  return st == KL_OK ? KL_OK : builder_failed(r, st, t.column);
+}
+
+/* sweep JOINT from V to V steps N, JOINT being an input's joint */
+static int read_sweep(reader *r) {
+  kl_sweep_settings sw;
+  int st, joint, i;
+  if ((st = expect_ref(r, REF_JOINT, "the swept input's joint", &joint)) !=
+          KL_OK ||
+      (st = expect_keyword(r, "from", "after the swept joint")) != KL_OK ||
+      (st = expect_number(r, "the start of the sweep", &sw.from)) != KL_OK ||
+      (st = expect_keyword(r, "to", "after the start")) != KL_OK ||
+      (st = expect_number(r, "the end of the sweep", &sw.to)) != KL_OK ||
+      (st = expect_keyword(r, "steps", "after the end")) != KL_OK ||
+      (st = expect_count(r, "the number of steps", &sw.steps)) != KL_OK ||
+      (st = expect_end(r)) != KL_OK)
+    return st;
+  sw.size = sizeof sw;
+  sw.input = -1;
+  for (i = 0; i < r->m->ninputs; i++)
+    if (r->m->inputs[i] == joint)
+      sw.input = i;
+  if (sw.input < 0)
+    return fail_at(r, KL_ESYNTAX, 1,
+                   "the swept joint is not an input; declare it with "
+                   "'input' first");
+  if (r->m->joints[joint].kind == KL_REVOLUTE) {
+    sw.from = angle_in(r, sw.from);
+    sw.to = angle_in(r, sw.to);
+  }
+  st = kl_model_set_sweep(r->m, &sw);
+  return st == KL_OK ? KL_OK : builder_failed(r, st, 1);
+}
+
+static int read_header(reader *r) {
+  double version;
+  int column, st = expect_number_at(r, "the format version", &version, &column);
+  if (st != KL_OK)
+    return st;
+  if (version != KLI_FORMAT_VERSION)
+    return fail_at(r, KL_ESYNTAX, column,
+                   "this is format version %g; kinloop %s reads version %d",
+                   version, KINLOOP_VERSION, KLI_FORMAT_VERSION);
+  r->seen_header = 1;
+  return expect_end(r);
+}
+
+static int read_statement(reader *r, const token *key) {
+  const char *k = key->text;
+  if (!r->seen_header) {
+    if (key->kind == TOKEN_WORD && strcmp(k, "kinloop-model") == 0)
+      return read_header(r);
+    return fail_at(r, KL_ESYNTAX, key->column,
+                   "expected 'kinloop-model %d' as the first statement, "
+                   "found '%.60s'",
+                   KLI_FORMAT_VERSION, k);
+  }
+  if (key->kind != TOKEN_WORD)
+    return fail_at(r, KL_ESYNTAX, key->column,
+                   "expected a statement word, found a quoted name");
+  if (strcmp(k, "units") == 0)
+    return read_units(r);
+  r->seen_items = 1;
+  if (strcmp(k, "link") == 0)
+    return read_link(r);
+  if (strcmp(k, "revolute") == 0)
+    return read_joint(r, KL_REVOLUTE);
+  if (strcmp(k, "prismatic") == 0)
+    return read_joint(r, KL_PRISMATIC);
+  if (strcmp(k, "slot") == 0)
+    return read_joint(r, KL_SLOT);
+  if (strcmp(k, "point") == 0)
+    return read_point(r);
+  if (strcmp(k, "input") == 0)
+    return read_input(r);
+  if (strcmp(k, "loop") == 0)
+    return read_loop(r);
+  if (strcmp(k, "sketch") == 0)
+    return read_sketch(r);
+  if (strcmp(k, "sweep") == 0)
+    return read_sweep(r);
+  return fail_at(r, KL_ESYNTAX, key->column,
+                 "unknown statement '%.60s' (expected units, link, "
+                 "revolute, prismatic, slot, point, input, loop, sketch or "
+                 "sweep)",
+                 k);
+}
+
+static void clear_error(kl_io_error *err) {
+  if (err != NULL && err->size >= sizeof(err->size)) {
+    kl_io_error e;
+    memset(&e, 0, sizeof e);
+    e.size = err->size;
+    memcpy(err, &e, err->size < sizeof e ? err->size : sizeof e);
+  }
+}
+
+kl_model *kl_model_read_with_alloc(const char *text, size_t length,
+                                   kl_alloc_fn fn, void *user,
+                                   kl_io_error *err) {
+  reader r;
+  int st = KL_OK;
+  memset(&r, 0, sizeof r);
+  r.text = text;
+  r.length = length;
+  r.line = 1;
+  r.err = err;
+  clear_error(err);
+  if (text == NULL && length > 0) {
+    fail_at(&r, KL_EINVAL, 0, "no text (NULL) for %lu bytes",
+            (unsigned long)length);
+    return NULL;
+  }
+  if (length > KLI_MAX_INPUT) {
+    fail_at(&r, KL_EINVAL, 0, "the model text is %lu bytes; at most %u are "
+                              "read",
+            (unsigned long)length, KLI_MAX_INPUT);
+    return NULL;
+  }
+  if (length > 0 && memchr(text, '\0', length) != NULL) {
+    const char *nul = memchr(text, '\0', length);
+    size_t at = (size_t)(nul - text), i;
+    for (i = 0; i < at; i++)
+      if (text[i] == '\n') {
+        r.line++;
+        r.line_start = i + 1;
+      }
+    fail_at(&r, KL_ESYNTAX, column_of(&r, at),
+            "a NUL byte: this is not a text file");
+    return NULL;
+  }
+  r.m = kl_model_new_with_alloc(fn, user);
+  if (r.m == NULL) {
+    fail_at(&r, KL_ENOMEM, 0, "out of memory");
+    return NULL;
+  }
+  while (st == KL_OK && r.pos < r.length) {
+    token key;
+    if ((st = next_token(&r, &key)) != KL_OK)
+      break;
+    if (key.kind != TOKEN_END)
+      st = read_statement(&r, &key);
+    if (st == KL_OK)
+      next_line(&r);
+  }
+  if (st == KL_OK && !r.seen_header)
+    st = fail_at(&r, KL_ESYNTAX, 1,
+                 "empty model: expected 'kinloop-model %d'",
+                 KLI_FORMAT_VERSION);
+  if (st == KL_OK && (st = kl_model_finalize(r.m)) != KL_OK) {
+    r.line = 0;
+    fail_at(&r, st, 0, "%s", kl_model_error(r.m));
+  }
+  if (st != KL_OK) {
+    kl_model_free(r.m);
+    return NULL;
+  }
+  return r.m;
+}
+
+kl_model *kl_model_read(const char *text, size_t length, kl_io_error *err) {
+  return kl_model_read_with_alloc(text, length, kli_default_alloc, NULL, err);
+}
+
+static void io_fail(kl_io_error *err, int status, const char *fmt,
+                    const char *path, const char *why) {
+  reader r;
+  memset(&r, 0, sizeof r);
+  r.err = err;
+  fail_at(&r, status, 0, fmt, path, why);
+}
+
+kl_model *kl_model_read_file(const char *path, kl_io_error *err) {
+  kli_allocator a;
+  FILE *f;
+  char *buf = NULL;
+  int cap = 0, len = 0, failed = 0;
+  kl_model *m = NULL;
+  clear_error(err);
+  if (path == NULL) {
+    io_fail(err, KL_EINVAL, "read model: no path (NULL)%s%s", "", "");
+    return NULL;
+  }
+  f = fopen(path, "rb");
+  if (f == NULL) {
+    io_fail(err, KL_EIO, "cannot open '%.120s': %.80s", path, strerror(errno));
+    return NULL;
+  }
+  a.fn = kli_default_alloc;
+  a.user = NULL;
+  /* grow with the file, up to one byte more than the reader takes, so that
+   * a file that is too long is told apart */
+  for (;;) {
+    size_t got;
+    int want = len + 65536 > (int)KLI_MAX_INPUT + 1 ? (int)KLI_MAX_INPUT + 1
+                                                     : len + 65536;
+    if (kli_reserve(&a, (void **)&buf, &cap, want, 1) != KL_OK) {
+      io_fail(err, KL_ENOMEM, "read model '%.120s': out of memory%s", path,
+              "");
+      failed = 1;
+      break;
+    }
+    got = fread(buf + len, 1, (size_t)(want - len), f);
+    len += (int)got;
+    if (ferror(f)) {
+      io_fail(err, KL_EIO, "cannot read '%.120s': %.80s", path,
+              strerror(errno));
+      failed = 1;
+      break;
+    }
+    if (got == 0 || len > (int)KLI_MAX_INPUT)
+      break;
+  }
+  fclose(f);
+  if (!failed)
+    m = kl_model_read(buf, (size_t)len, err);
+  kli_free(&a, buf, (size_t)cap);
+  return m;
+}
+
+/* ------------------------------------------------------------------------
+ * Writing
+ * ------------------------------------------------------------------------ */
+
+typedef struct {
+  char *buf;
+  size_t cap, len;
+} sink;
+
+static void put(sink *o, const char *fmt, ...)
+#ifdef __GNUC__
+    __attribute__((format(printf, 2, 3)))
+#endif
+    ;
+
+static void put(sink *o, const char *fmt, ...) {
+  va_list ap;
+  int n;
+  char *at = o->len < o->cap ? o->buf + o->len : NULL;
+  size_t room = o->len < o->cap ? o->cap - o->len : 0;
+  va_start(ap, fmt);
+  n = vsnprintf(at, room, fmt, ap);
+  va_end(ap);
+  if (n > 0)
+    o->len += (size_t)n;
+}
+
+/* A name as the reader reads it back: a word, or a quoted string. */
+static void put_name(sink *o, const char *name) {
+  const char *c;
+  if (name == NULL) {
+    put(o, " -");
+    return;
+  }
+  if (is_identifier(name) && strcmp(name, "ground") != 0) {
+    put(o, " %s", name);
+    return;
+  }
+  put(o, " \"");
+  for (c = name; *c != '\0'; c++)
+    put(o, "%s%c", (*c == '"' || *c == '\\') ? "\\" : "", *c);
+  put(o, "\"");
+}
+
+static void put_link_ref(sink *o, const kl_model *m, int link) {
+  if (link == KL_GROUND)
+    put(o, " ground");
+  else if (m->links[link].name != NULL)
+    put_name(o, m->links[link].name);
+  else
+    put(o, " @%d", link);
+}
+
+static void put_joint_ref(sink *o, const kl_model *m, int joint) {
+  if (m->joints[joint].name != NULL)
+    put_name(o, m->joints[joint].name);
+  else
+    put(o, " @%d", joint);
+}
+
+static double angle_out(const kl_model *m, double v) {
+  return m->angle_unit == KL_ANGLE_DEG ? v * (180.0 / KLI_PI) : v;
+}
+
+static void write_model(const kl_model *m, sink *o) {
+  int i, k;
+  put(o, "kinloop-model %d\n", KLI_FORMAT_VERSION);
+  put(o, "units length %s angle %s\n",
+      m->length_unit == KL_LENGTH_UNSTATED ? "unstated"
+                                            : kl_length_unit_str(m->length_unit),
+      kl_angle_unit_str(m->angle_unit));
+  for (i = 1; i < m->nlinks; i++) {
+    put(o, "link");
+    put_name(o, m->links[i].name);
+    put(o, "\n");
+  }
+  for (i = 0; i < m->njoints; i++) {
+    const kli_joint *j = &m->joints[i];
+    put(o, "%s", kli_kind_name(j->kind));
+    put_name(o, j->name);
+    put_link_ref(o, m, j->link[0]);
+    put(o, " %.17g %.17g", j->at[0][0], j->at[0][1]);
+    if (kli_is_sliding(j->kind))
+      put(o, " axis %.17g", angle_out(m, j->axis));
+    put_link_ref(o, m, j->link[1]);
+    put(o, " %.17g %.17g\n", j->at[1][0], j->at[1][1]);
+  }
+  for (i = 0; i < m->npoints; i++) {
+    put(o, "point");
+    put_name(o, m->points[i].name);
+    put_link_ref(o, m, m->points[i].link);
+    put(o, " %.17g %.17g\n", m->points[i].at[0], m->points[i].at[1]);
+  }
+  for (i = 0; i < m->ninputs; i++) {
+    put(o, "input");
+    put_joint_ref(o, m, m->inputs[i]);
+    put(o, "\n");
+  }
+  for (i = 0; i < m->nreg_loops; i++) {
+    put(o, "loop");
+    for (k = m->reg_start[i]; k < m->reg_start[i + 1]; k++)
+      put_joint_ref(o, m, m->reg_joints[k]);
+    put(o, "\n");
+  }
+  for (i = 1; i < m->nlinks; i++)
+    if (m->links[i].has_sketch) {
+      put(o, "sketch angle");
+      put_link_ref(o, m, i);
+      put(o, " %.17g\n", angle_out(m, m->links[i].sketch));
+    }
+  for (i = 0; i < m->njoints; i++)
+    if (m->joints[i].has_sketch) {
+      put(o, "sketch slide");
+      put_joint_ref(o, m, i);
+      put(o, " %.17g\n", m->joints[i].sketch);
+    }
+  if (m->has_sweep) {
+    int joint = m->inputs[m->sweep.input];
+    int angle = m->joints[joint].kind == KL_REVOLUTE;
+    put(o, "sweep");
+    put_joint_ref(o, m, joint);
+    put(o, " from %.17g to %.17g steps %d\n",
+        angle ? angle_out(m, m->sweep.from) : m->sweep.from,
+        angle ? angle_out(m, m->sweep.to) : m->sweep.to, m->sweep.steps);
+  }
+}
+
+int kl_model_write(const kl_model *m, char *buf, size_t cap, size_t *needed) {
+  sink o;
+  if (m == NULL || (buf == NULL && cap > 0))
+    return KL_EINVAL;
+  o.buf = buf;
+  o.cap = cap;
+  o.len = 0;
+  write_model(m, &o);
+  if (needed != NULL)
+    *needed = o.len;
+  return o.len < cap ? KL_OK : KL_EINVAL;
+}
+
+int kl_model_write_file(const kl_model *m, const char *path,
+                        kl_io_error *err) {
+  size_t len;
+  char *text;
+  FILE *f;
+  int st = KL_OK;
+  clear_error(err);
+  if (m == NULL || path == NULL) {
+    io_fail(err, KL_EINVAL, "write model: no %s%s", m == NULL ? "model" : "path",
+            " (NULL)");
+    return KL_EINVAL;
+  }
+  kl_model_write(m, NULL, 0, &len);
+  text = kli_alloc(&m->alloc, len + 1);
+  if (text == NULL) {
+    io_fail(err, KL_ENOMEM, "write model '%.120s': out of memory%s", path, "");
+    return KL_ENOMEM;
+  }
+  kl_model_write(m, text, len + 1, NULL);
+  f = fopen(path, "wb");
+  if (f == NULL) {
+    io_fail(err, KL_EIO, "cannot create '%.120s': %.80s", path,
+            strerror(errno));
+    st = KL_EIO;
+  } else {
+    if (fwrite(text, 1, len, f) != len)
+      st = KL_EIO;
+    if (fclose(f) != 0)
+      st = KL_EIO;
+    if (st != KL_OK)
+      io_fail(err, KL_EIO, "cannot write '%.120s': %.80s", path,
+              strerror(errno));
+  }
+  kli_free(&m->alloc, text, len + 1);
+  return st;
+}

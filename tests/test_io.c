@@ -1,0 +1,551 @@
+/*
+ * test_io.c - model files: writing then reading gives the same model; every
+ * error names its line and column; truncated, random and oversized input
+ * never crash, hang or leak; reading survives refused allocations.
+ */
+#define _POSIX_C_SOURCE 200809L /* mkstemp, close, unlink */
+#include <check.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include "support.h"
+
+/* A model using every statement of the format: units, named and unnamed
+ * links, joints and points, every joint kind, names needing quotes,
+ * registered loops, sketches and sweep settings. Geometry chosen for the
+ * test (it is only written and read, not solved): the Watt six-bar of
+ * support.c, a rod driving a block on a slanted rail from its second
+ * coupler, and a carrier pinned to its output rocker running in a slot. */
+static kl_model *full_model(void) {
+  pin_linkage p = watt_sixbar();
+  kl_model *m = kl_model_new();
+  kl_sweep_settings sw;
+  int l, j;
+  static const int loops[4][5] = {
+      {0, 1, 2, 3}, {3, 4, 5, 6}, {7, 8, 9, 6, 5}, {10, 11, 6}};
+  static const int sizes[4] = {4, 4, 5, 3};
+  kl_model_set_units(m, KL_LENGTH_MM, KL_ANGLE_DEG);
+  for (l = 1; l < p.nlinks; l++)
+    kl_add_link(m, l == 2 ? "coupler \"B\"" : NULL);
+  kl_add_link(m, "rod");            /* 6 */
+  kl_add_link(m, "block");          /* 7 */
+  kl_add_link(m, "pin carrier #8"); /* 8 */
+  for (j = 0; j < p.njoints; j++)
+    kl_add_revolute(m, p.a[j], p.pa[j][0], p.pa[j][1], p.b[j], p.pb[j][0],
+                    p.pb[j][1]);
+  kl_set_joint_name(m, 0, "motor");
+  kl_set_joint_name(m, 4, "arm\\pin");
+  kl_add_revolute(m, 4, 40, 5, 6, 0, 0);                        /* 7 */
+  kl_add_revolute(m, 6, 120, 0, 7, 0, 0);                       /* 8 */
+  kl_add_prismatic(m, KL_GROUND, 0, -30, 0.25, 7, 0, 0);        /* 9 */
+  kl_set_joint_name(m, 9, "rail");
+  kl_add_revolute(m, 5, 30, 0, 8, 0, 0);                        /* 10 */
+  kl_add_slot_through(m, KL_GROUND, 150, 80, 190, 100, 8, 40, 0); /* 11 */
+  kl_add_point(m, 2, 45, 20, "tip");
+  kl_add_point(m, 7, 10, -3, NULL);
+  kl_add_point(m, KL_GROUND, 5, 5, "datum");
+  kl_add_input(m, 0);
+  for (l = 0; l < 4; l++)
+    kl_add_loop(m, sizes[l], loops[l]);
+  kl_set_sketch_angle(m, 2, 1.0);
+  kl_set_sketch_angle(m, 3, 1.9);
+  kl_set_sketch_slide(m, 9, 77.5);
+  sw.size = sizeof sw;
+  sw.input = 0;
+  sw.from = 0.0;
+  sw.to = 2.0;
+  sw.steps = 40;
+  kl_model_set_sweep(m, &sw);
+  return m;
+}
+
+static char *write_text(const kl_model *m, size_t *len) {
+  char *text;
+  ck_assert_int_eq(kl_model_write(m, NULL, 0, len), KL_EINVAL);
+  text = malloc(*len + 1);
+  ck_assert_int_eq(kl_model_write(m, text, *len + 1, NULL), KL_OK);
+  ck_assert_uint_eq(strlen(text), *len);
+  return text;
+}
+
+/* Two models are the same when every recorded item agrees; angles given in
+ * degrees come back within a rounding of the conversion. */
+static void assert_same_model(const kl_model *a, const kl_model *b) {
+  int i, k, la, lb, ua, ub;
+  kl_sweep_settings sa, sb;
+  ck_assert_int_eq(kl_model_link_count(a), kl_model_link_count(b));
+  ck_assert_int_eq(kl_model_joint_count(a), kl_model_joint_count(b));
+  ck_assert_int_eq(kl_model_point_count(a), kl_model_point_count(b));
+  ck_assert_int_eq(kl_model_input_count(a), kl_model_input_count(b));
+  kl_model_units(a, &la, &ua);
+  kl_model_units(b, &lb, &ub);
+  ck_assert_int_eq(la, lb);
+  ck_assert_int_eq(ua, ub);
+  for (i = 0; i < kl_model_link_count(a); i++) {
+    const char *na = kl_link_name(a, i), *nb = kl_link_name(b, i);
+    ck_assert((na == NULL) == (nb == NULL));
+    if (na != NULL)
+      ck_assert_str_eq(na, nb);
+    ck_assert(isnan(kl_sketch_angle(a, i)) == isnan(kl_sketch_angle(b, i)));
+    if (!isnan(kl_sketch_angle(a, i)))
+      ck_assert_double_le(fabs(kl_sketch_angle(a, i) - kl_sketch_angle(b, i)),
+                          1e-15);
+  }
+  for (i = 0; i < kl_model_joint_count(a); i++) {
+    int links_a[2], links_b[2];
+    double pa[2][2], pb[2][2];
+    const char *na = kl_joint_name(a, i), *nb = kl_joint_name(b, i);
+    ck_assert_int_eq(kl_joint_kind(a, i), kl_joint_kind(b, i));
+    kl_joint_links(a, i, links_a, pa[0], pa[1]);
+    kl_joint_links(b, i, links_b, pb[0], pb[1]);
+    ck_assert_int_eq(links_a[0], links_b[0]);
+    ck_assert_int_eq(links_a[1], links_b[1]);
+    for (k = 0; k < 4; k++)
+      ck_assert_double_eq(pa[k / 2][k % 2], pb[k / 2][k % 2]);
+    if (kl_joint_kind(a, i) != KL_REVOLUTE)
+      ck_assert_double_le(fabs(kl_joint_axis(a, i) - kl_joint_axis(b, i)),
+                          1e-15);
+    ck_assert((na == NULL) == (nb == NULL));
+    if (na != NULL)
+      ck_assert_str_eq(na, nb);
+    ck_assert(isnan(kl_sketch_slide(a, i)) == isnan(kl_sketch_slide(b, i)));
+  }
+  for (i = 0; i < kl_model_point_count(a); i++) {
+    double xa[2], xb[2];
+    ck_assert_int_eq(kl_point_link(a, i, xa), kl_point_link(b, i, xb));
+    ck_assert_double_eq(xa[0], xb[0]);
+    ck_assert_double_eq(xa[1], xb[1]);
+  }
+  for (i = 0; i < kl_model_input_count(a); i++)
+    ck_assert_int_eq(kl_input_joint(a, i), kl_input_joint(b, i));
+  ck_assert_int_eq(kl_model_loop_count(a), kl_model_loop_count(b));
+  for (i = 0; i < kl_model_loop_count(a); i++) {
+    int ja[16], jb[16], n = kl_model_loop(a, i, ja, 16);
+    ck_assert_int_eq(kl_model_loop(b, i, jb, 16), n);
+    for (k = 0; k < n; k++)
+      ck_assert_int_eq(ja[k], jb[k]);
+  }
+  sa.size = sb.size = sizeof sa;
+  ck_assert_int_eq(kl_model_sweep(a, &sa), kl_model_sweep(b, &sb));
+  if (kl_model_sweep(a, &sa) == KL_OK) {
+    kl_model_sweep(b, &sb);
+    ck_assert_int_eq(sa.input, sb.input);
+    ck_assert_int_eq(sa.steps, sb.steps);
+    ck_assert_double_le(fabs(sa.from - sb.from), 1e-15);
+    ck_assert_double_le(fabs(sa.to - sb.to), 1e-15);
+  }
+}
+
+START_TEST(writing_then_reading_gives_the_same_model) {
+  kl_model *m = full_model(), *back, *again;
+  kl_io_error err;
+  size_t len, len2;
+  char *text, *text2;
+  ck_assert_msg(kl_model_finalize(m) == KL_OK, "%s", kl_model_error(m));
+  text = write_text(m, &len);
+  err.size = sizeof err;
+  back = kl_model_read(text, len, &err);
+  ck_assert_msg(back != NULL, "line %d col %d: %s\n%s", err.line, err.column,
+                err.message, text);
+  ck_assert_int_eq(err.status, KL_OK);
+  assert_same_model(m, back);
+  /* the writer is canonical: the text of what was read is the same text,
+   * and reading that once more still gives the same model */
+  text2 = write_text(back, &len2);
+  again = kl_model_read(text2, len2, &err);
+  ck_assert_ptr_nonnull(again);
+  assert_same_model(back, again);
+  free(text);
+  text = write_text(again, &len);
+  ck_assert_uint_eq(len, len2);
+  ck_assert_int_eq(memcmp(text, text2, len), 0);
+  kl_model_free(m);
+  kl_model_free(back);
+  kl_model_free(again);
+  free(text);
+  free(text2);
+}
+END_TEST
+
+/* The sketch recorded in a file chooses the branch of a new solver: a
+ * four-bar sketched on its crossed branch (rocker below the ground line),
+ * written and read back, solves on that branch, as the original does. */
+START_TEST(a_read_model_solves_like_the_original) {
+  static const char *crossed =
+      "kinloop-model 1\nlink crank\nlink coupler\nlink rocker\n"
+      "revolute motor ground 0 0 crank 0 0\n"
+      "revolute a crank 40 0 coupler 0 0\n"
+      "revolute b coupler 120 0 rocker 80 0\n"
+      "revolute c rocker 0 0 ground 100 0\n"
+      "input motor\nsketch angle coupler -1.1\nsketch angle rocker -1.9\n";
+  kl_model *m = kl_model_read(crossed, strlen(crossed), NULL), *back;
+  kl_solver *s, *t;
+  double u = 0.4;
+  size_t len;
+  char *text;
+  int l;
+  ck_assert_ptr_nonnull(m);
+  ck_assert_double_eq(kl_sketch_angle(m, 2), -1.1);
+  text = write_text(m, &len);
+  back = kl_model_read(text, len, NULL);
+  ck_assert_ptr_nonnull(back);
+  s = kl_solver_new(m);
+  t = kl_solver_new(back);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_position(t, &u), KL_OK);
+  ck_assert_double_lt(sin(kl_link_angle(t, 3)), 0.0);
+  for (l = 0; l < kl_model_link_count(m); l++)
+    ck_assert_double_eq(kl_link_angle(s, l), kl_link_angle(t, l));
+  kl_solver_free(s);
+  kl_solver_free(t);
+  kl_model_free(m);
+  kl_model_free(back);
+  free(text);
+}
+END_TEST
+
+static const char *good =
+    "kinloop-model 1\n"
+    "units length mm angle deg\n"
+    "link crank\nlink coupler\nlink rocker\n"
+    "revolute motor ground 0 0 crank 0 0\n"
+    "revolute a crank 40 0 coupler 0 0\n"
+    "revolute b coupler 120 0 rocker 80 0\n"
+    "revolute c rocker 0 0 ground 100 0\n"
+    "input motor\n"
+    "sketch angle coupler 17\n"
+    "sketch angle rocker 86\n";
+
+typedef struct {
+  const char *text;
+  int status, line, column;
+  const char *says;
+} bad_case;
+
+/* Every kind of syntax error, and model errors, with where they are. */
+static const bad_case bad_cases[] = {
+    {"", KL_ESYNTAX, 1, 1, "empty model"},
+    {"# only a comment\n", KL_ESYNTAX, 2, 1, "empty model"},
+    {"link a\n", KL_ESYNTAX, 1, 1, "expected 'kinloop-model 1'"},
+    {"kinloop-model 2\n", KL_ESYNTAX, 1, 15, "format version 2"},
+    {"kinloop-model one\n", KL_ESYNTAX, 1, 15, "expected a number"},
+    {"kinloop-model 1 extra\n", KL_ESYNTAX, 1, 17, "expected the end"},
+    {"kinloop-model 1\nwidget a\n", KL_ESYNTAX, 2, 1, "unknown statement"},
+    {"kinloop-model 1\n\"link\" a\n", KL_ESYNTAX, 2, 1, "quoted name"},
+    {"kinloop-model 1\nlink 9lives\n", KL_ESYNTAX, 2, 6, "link's name"},
+    {"kinloop-model 1\nlink \"open\n", KL_ESYNTAX, 2, 6, "no closing quote"},
+    {"kinloop-model 1\nlink \"a\\qb\"\n", KL_ESYNTAX, 2, 8, "backslash"},
+    {"kinloop-model 1\nlink a\nlink a\n", KL_EDUPLICATE, 3, 6, "already used"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 zero a 0 0\n", KL_ESYNTAX,
+     3, 21, "expected a number (y on the first link)"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0\n", KL_ESYNTAX, 3,
+     26, "expected a number (y on the second link), found 'the end of the "
+         "line'"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 b 0 0\n", KL_ESYNTAX, 3,
+     23, "no link is named 'b'"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 @5 0 0\n", KL_ESYNTAX, 3,
+     23, "not the id of a link"},
+    {"kinloop-model 1\nlink a\nrevolute j a 0 0 a 1 1\n", KL_ESELFJOINT, 3,
+     10, "to itself"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 1e999 0 a 0 0\n", KL_ESYNTAX,
+     3, 19, "out of range"},
+    {"kinloop-model 1\nlink a\nrevolute j ground nan 0 a 0 0\n", KL_ESYNTAX, 3,
+     19, "expected a number"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0x10 0 a 0 0\n", KL_ESYNTAX,
+     3, 19, "expected a number"},
+    {"kinloop-model 1\nlink a\nprismatic p ground 0 0 0 a 0 0\n", KL_ESYNTAX,
+     3, 24, "expected 'axis'"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput k\n",
+     KL_ESYNTAX, 4, 7, "no joint is named 'k'"},
+    {"kinloop-model 1\nlink a\nunits length mm angle deg\n", KL_ESYNTAX, 3, 1,
+     "before the first link"},
+    {"kinloop-model 1\nunits length cubits angle deg\n", KL_ESYNTAX, 2, 14,
+     "length unit"},
+    {"kinloop-model 1\nunits length mm angle grad\n", KL_ESYNTAX, 2, 23,
+     "angle unit"},
+    {"kinloop-model 1\nlink a\nsketch speed a 1\n", KL_ESYNTAX, 3, 8,
+     "'angle' or 'slide'"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\nsweep j from 0 to 1 steps 4\n",
+     KL_ESYNTAX, 4, 1, "not an input"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\nsweep j from 0 to 1 steps 2.5\n",
+     KL_ESYNTAX, 5, 27, "whole number"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\nloop j\n",
+     KL_EINVAL, 5, 1, "at least 2 joints"},
+    {"kinloop-model 1\nlink a\nlink b\nrevolute j ground 0 0 a 0 0\n",
+     KL_EDISCONNECTED, 0, 0, "link 2 'b' is not connected"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\n", KL_EDOF, 0, 0,
+     "1 degree of freedom but 0 inputs"},
+    {"kinloop-model 1\nlink a\x01\n", KL_ESYNTAX, 2, 7, "control character"},
+    {"kinloop-model 1\nlink a\n\0link b\n", KL_ESYNTAX, 3, 1, "NUL byte"},
+};
+
+START_TEST(every_error_names_line_and_column) {
+  const bad_case *c = &bad_cases[_i];
+  size_t len = strlen(c->text);
+  kl_io_error err;
+  kl_model *m;
+  if (strstr(c->says, "NUL") != NULL)
+    len = 25; /* the literal runs on past its NUL */
+  err.size = sizeof err;
+  m = kl_model_read(c->text, len, &err);
+  ck_assert_ptr_null(m);
+  ck_assert_int_eq(err.status, c->status);
+  ck_assert_msg(err.line == c->line && err.column == c->column,
+                "case %d: at %d:%d, expected %d:%d (%s)", _i, err.line,
+                err.column, c->line, c->column, err.message);
+  ck_assert_msg(strstr(err.message, c->says) != NULL,
+                "case %d: '%s' lacks '%s'", _i, err.message, c->says);
+}
+END_TEST
+
+/* Every prefix of a good file is read without a crash; most are errors. */
+START_TEST(truncated_input_never_crashes) {
+  size_t len = strlen(good), cut;
+  int models = 0;
+  for (cut = 0; cut <= len; cut++) {
+    kl_io_error err;
+    kl_model *m;
+    err.size = sizeof err;
+    m = kl_model_read(good, cut, &err);
+    if (m != NULL) {
+      models++;
+      ck_assert_int_eq(err.status, KL_OK);
+      kl_model_free(m);
+    } else {
+      ck_assert_int_lt(err.status, 0);
+      ck_assert_int_gt(strlen(err.message), 0);
+    }
+  }
+  ck_assert_int_ge(models, 1); /* the whole file, at least */
+}
+END_TEST
+
+/* A small deterministic generator, so failures repeat. */
+static unsigned long next_random(unsigned long *state) {
+  *state = *state * 6364136223846793005UL + 1442695040888963407UL;
+  return *state >> 33;
+}
+
+/* Random bytes and random edits of a good file: never a crash, always a
+ * model or a status with a message. */
+START_TEST(random_and_mutated_input_never_crashes) {
+  unsigned long state = 12345;
+  char buf[600];
+  size_t base = strlen(good);
+  int round;
+  for (round = 0; round < 4000; round++) {
+    size_t len, k;
+    kl_io_error err;
+    kl_model *m;
+    if (round % 2 == 0) {
+      len = next_random(&state) % sizeof buf;
+      for (k = 0; k < len; k++)
+        buf[k] = (char)(next_random(&state) & 0xff);
+    } else {
+      int edits = 1 + (int)(next_random(&state) % 4), e;
+      memcpy(buf, good, base);
+      len = base;
+      for (e = 0; e < edits; e++) {
+        size_t at = next_random(&state) % len;
+        static const char pool[] = " \n\t\"#@-.0123456789eaxis\\";
+        buf[at] = (round & 4) ? pool[next_random(&state) % (sizeof pool - 1)]
+                              : (char)(next_random(&state) & 0xff);
+      }
+    }
+    err.size = sizeof err;
+    m = kl_model_read(buf, len, &err);
+    if (m != NULL)
+      kl_model_free(m);
+    else
+      ck_assert_int_lt(err.status, 0);
+  }
+}
+END_TEST
+
+START_TEST(oversized_and_odd_input) {
+  size_t big = (16u << 20) + 1;
+  char *huge = malloc(big);
+  kl_io_error err;
+  memset(huge, ' ', big);
+  err.size = sizeof err;
+  ck_assert_ptr_null(kl_model_read(huge, big, &err));
+  ck_assert_int_eq(err.status, KL_EINVAL);
+  ck_assert_ptr_nonnull(strstr(err.message, "at most"));
+  free(huge);
+  ck_assert_ptr_null(kl_model_read(NULL, 10, &err));
+  ck_assert_int_eq(err.status, KL_EINVAL);
+  /* a line of one enormous word is refused at the word's limit */
+  huge = malloc(5000);
+  memcpy(huge, "kinloop-model 1\nlink ", 21);
+  memset(huge + 21, 'w', 5000 - 21);
+  ck_assert_ptr_null(kl_model_read(huge, 5000, &err));
+  ck_assert_int_eq(err.status, KL_ESYNTAX);
+  ck_assert_ptr_nonnull(strstr(err.message, "at most 255"));
+  free(huge);
+  /* CR LF line ends and a last line without one are fine */
+  {
+    const char *crlf = "kinloop-model 1\r\nlink a\r\nrevolute j ground 0 0 a "
+                       "0 0\r\ninput j";
+    kl_model *m = kl_model_read(crlf, strlen(crlf), &err);
+    ck_assert_ptr_nonnull(m);
+    kl_model_free(m);
+  }
+}
+END_TEST
+
+START_TEST(files_on_disk) {
+  char path[] = "/tmp/kinloop-io-XXXXXX";
+  kl_io_error err;
+  kl_model *m, *back;
+  int fd = mkstemp(path);
+  ck_assert_int_ge(fd, 0);
+  close(fd);
+  m = kl_model_read(good, strlen(good), NULL);
+  ck_assert_ptr_nonnull(m);
+  err.size = sizeof err;
+  ck_assert_int_eq(kl_model_write_file(m, path, &err), KL_OK);
+  back = kl_model_read_file(path, &err);
+  ck_assert_ptr_nonnull(back);
+  assert_same_model(m, back);
+  kl_model_free(back);
+  unlink(path);
+  ck_assert_ptr_null(kl_model_read_file(path, &err));
+  ck_assert_int_eq(err.status, KL_EIO);
+  ck_assert_ptr_nonnull(strstr(err.message, "cannot open"));
+  ck_assert_int_eq(kl_model_write_file(m, "/nonexistent-dir/x.kinloop", &err),
+                   KL_EIO);
+  ck_assert_ptr_nonnull(strstr(err.message, "cannot create"));
+  kl_model_free(m);
+}
+END_TEST
+
+START_TEST(writer_says_what_it_needs) {
+  kl_model *m = kl_model_read(good, strlen(good), NULL);
+  char small[16];
+  size_t need = 0;
+  ck_assert_int_eq(kl_model_write(m, small, sizeof small, &need), KL_EINVAL);
+  ck_assert_uint_gt(need, sizeof small);
+  ck_assert_uint_eq(strlen(small), sizeof small - 1); /* NUL-terminated */
+  ck_assert_int_eq(kl_model_write(NULL, small, sizeof small, &need), KL_EINVAL);
+  ck_assert_int_eq(kl_model_write(m, NULL, 5, &need), KL_EINVAL);
+  kl_model_free(m);
+}
+END_TEST
+
+/* Every allocation of reading a file refused in turn: a clean failure each
+ * time, and every block given back. */
+START_TEST(reading_survives_refused_allocations) {
+  long n;
+  int completed = 0;
+  for (n = 1; !completed && n < 2000; n++) {
+    counting_alloc c;
+    kl_io_error err;
+    kl_model *m;
+    memset(&c, 0, sizeof c);
+    c.fail_at = n;
+    err.size = sizeof err;
+    m = kl_model_read_with_alloc(good, strlen(good), counting_alloc_fn, &c,
+                                 &err);
+    if (m != NULL) {
+      completed = c.failed == 0;
+      kl_model_free(m);
+    } else {
+      ck_assert_int_eq(err.status, KL_ENOMEM);
+    }
+    ck_assert_msg(c.live == 0, "run %ld leaks %ld blocks", n, c.live);
+  }
+  ck_assert(completed);
+}
+END_TEST
+
+/* The text of a file, NUL-terminated (NULL if unreadable). */
+static char *slurp(const char *path) {
+  FILE *f = fopen(path, "rb");
+  char *text;
+  long n;
+  if (f == NULL)
+    return NULL;
+  fseek(f, 0, SEEK_END);
+  n = ftell(f);
+  fseek(f, 0, SEEK_SET);
+  text = malloc((size_t)n + 1);
+  if (fread(text, 1, (size_t)n, f) != (size_t)n)
+    n = 0;
+  text[n] = '\0';
+  fclose(f);
+  return text;
+}
+
+static void assert_sweeps(kl_model *m) {
+  kl_solver *s = kl_solver_new(m);
+  kl_sweep_settings sw;
+  kl_sweep_result r;
+  sw.size = sizeof sw;
+  r.size = sizeof r;
+  ck_assert_int_eq(kl_model_sweep(m, &sw), KL_OK);
+  ck_assert_int_eq(kl_sweep(s, sw.input, sw.from, sw.to, sw.steps, NULL, NULL,
+                            &r),
+                   KL_OK);
+  ck_assert_int_eq(r.steps_done, sw.steps + 1);
+  kl_solver_free(s);
+}
+
+/* The format document's example and the demo's model file read, and
+ * sweep over their recorded range on the branch their sketch chooses. */
+START_TEST(documented_examples_read_and_sweep) {
+  char *doc = slurp(KINLOOP_SOURCE_DIR "/docs/model-format.md");
+  char *demo = slurp(KINLOOP_SOURCE_DIR "/examples/models/flap-tucker.kinloop");
+  const char *start, *end;
+  kl_io_error err;
+  kl_model *m;
+  ck_assert_ptr_nonnull(doc);
+  ck_assert_ptr_nonnull(demo);
+  start = strstr(doc, "```\n");
+  ck_assert_ptr_nonnull(start);
+  start += 4;
+  end = strstr(start, "```");
+  ck_assert_ptr_nonnull(end);
+  err.size = sizeof err;
+  m = kl_model_read(start, (size_t)(end - start), &err);
+  ck_assert_msg(m != NULL, "doc example: %d:%d %s", err.line, err.column,
+                err.message);
+  ck_assert_int_eq(kl_model_grashof(m), KL_CRANK_ROCKER);
+  assert_sweeps(m);
+  kl_model_free(m);
+  m = kl_model_read(demo, strlen(demo), &err);
+  ck_assert_msg(m != NULL, "demo: %d:%d %s", err.line, err.column,
+                err.message);
+  assert_sweeps(m);
+  kl_model_free(m);
+  free(doc);
+  free(demo);
+}
+END_TEST
+
+int main(void) {
+  Suite *suite = suite_create("io");
+  TCase *tc = tcase_create("io");
+  SRunner *runner;
+  int failed;
+  tcase_set_timeout(tc, 120);
+  tcase_add_test(tc, writing_then_reading_gives_the_same_model);
+  tcase_add_test(tc, a_read_model_solves_like_the_original);
+  tcase_add_loop_test(tc, every_error_names_line_and_column, 0,
+                      (int)(sizeof bad_cases / sizeof bad_cases[0]));
+  tcase_add_test(tc, truncated_input_never_crashes);
+  tcase_add_test(tc, random_and_mutated_input_never_crashes);
+  tcase_add_test(tc, oversized_and_odd_input);
+  tcase_add_test(tc, files_on_disk);
+  tcase_add_test(tc, writer_says_what_it_needs);
+  tcase_add_test(tc, reading_survives_refused_allocations);
+  tcase_add_test(tc, documented_examples_read_and_sweep);
+  suite_add_tcase(suite, tc);
+  runner = srunner_create(suite);
+  srunner_run_all(runner, CK_NORMAL);
+  failed = srunner_ntests_failed(runner);
+  srunner_free(runner);
+  return failed == 0 ? 0 : 1;
+}
