@@ -429,6 +429,14 @@ KL_API int kl_model_write_file(const kl_model *m, const char *path,
 
 typedef struct kl_solver kl_solver;
 
+/** How the linear systems of a solver are factored (kl_options.kernel). */
+enum kl_kernel {
+  KL_KERNEL_AUTO = 0,   /**< choose by size and structure (the default) */
+  KL_KERNEL_SMALL = 1,  /**< built-in LU with partial pivoting, for a few unknowns */
+  KL_KERNEL_DENSE = 2,  /**< LAPACK dgetrf / dgetrs / dgecon */
+  KL_KERNEL_BANDED = 3  /**< LAPACK dgbtrf / dgbtrs / dgbcon after a band-reducing ordering */
+};
+
 /**
  * Solver options. Always start from kl_options_default(), which sets `size`;
  * fields added in later versions come after the existing ones.
@@ -441,6 +449,10 @@ typedef struct kl_options {
   int max_backtracks;      /**< line-search halvings per iteration; default 40 */
   double max_step;         /**< largest Newton step: rad, or scale units for slides; default 1 */
   double singular_rcond;   /**< rcond below this at the solution is singular; default 1e-8 */
+  int kernel;              /**< enum kl_kernel; default KL_KERNEL_AUTO: the small kernel
+                                up to 8 unknowns, banded where the ordered band is at most a
+                                quarter of the unknowns, dense otherwise. All give the same
+                                answers to rounding. */
 } kl_options;
 
 /** Fills `o` with the default options (and `o->size`). NULL does nothing. */
@@ -488,7 +500,8 @@ KL_API const char *kl_solver_error(const kl_solver *s);
  * `size` that is too small, a tolerance not in (0, 1e-3], a step tolerance
  * not in (0, 1e-2], fewer than 1 or more than 10000 iterations, backtracks
  * not in [0, 100], a max_step not in (0, 100], or a singular_rcond not in
- * [0, 1e-3). KL_ENONFINITE for NaN or infinite values. Never allocates.
+ * [0, 1e-3), or an unknown kernel. KL_ENONFINITE for NaN or infinite
+ * values. Never allocates.
  */
 KL_API int kl_solver_set_options(kl_solver *s, const kl_options *o);
 
@@ -568,7 +581,10 @@ typedef struct kl_solve_stats {
   int backtracks;           /**< line-search step reductions, all iterations */
   double residual;          /**< |F|inf at the final iterate, length units */
   double step;              /**< |dq|inf of the last Newton step */
-  double rcond;             /**< LAPACK dgecon reciprocal condition (1-norm) at the final iterate; 0 if singular */
+  double rcond;             /**< reciprocal condition number (1-norm, slide columns scaled to
+                                 lengths) at the final iterate: exact with the small kernel,
+                                 LAPACK's dgecon / dgbcon estimate otherwise; 0 if singular */
+  int kernel;               /**< the enum kl_kernel that factored the system */
 } kl_solve_stats;
 
 /** Copies the statistics of the last position attempt. KL_OK or KL_EINVAL. */
@@ -715,7 +731,9 @@ typedef struct kl_sweep_result {
  *  KL_STOPPED   the callback returned non-zero
  *  KL_ESINGULAR the motion reaches a singular position it could pass only
  *               on a branch chosen at random (a change point): reported with
- *               its location, not passed through
+ *               its location (to 1e-9: closer to a branch crossing the sign
+ *               of the determinant that finds it is lost in rounding), not
+ *               passed through
  *  and the errors of kl_solve_position for the first step, KL_EID for an
  *  unknown input, KL_ENONFINITE, KL_EINVAL.
  * Afterwards the solver holds the last delivered step (or, if none was, its
@@ -897,7 +915,8 @@ KL_API int kl_output_sensitivity(kl_solver *s, const kl_output *o,
  * order: worst case sum |d_k| t_k and root-sum-square sqrt(sum (d_k t_k)^2)
  * over `n` dimensions with tolerances t_k >= 0 (same length unit). Either
  * result pointer may be NULL. Returns as kl_output_sensitivity, and
- * KL_EINVAL for a negative tolerance.
+ * KL_EINVAL for a negative tolerance, KL_ENONFINITE for a NaN or infinite
+ * one.
  */
 KL_API int kl_tolerance_stack(kl_solver *s, const kl_output *o, int n,
                               const kl_dimension *dims,

@@ -1,7 +1,10 @@
 /*
- * dense.c - assembly of the sparse Jacobian values into a dense column-major
- * matrix, LAPACK LU (dgetrf/dgetrs), and its condition estimate (dgecon).
+ * dense.c - assembly of the sparse Jacobian values and its factorization by
+ * the kernel that suits the system: a built-in LU for small systems, LAPACK
+ * LU (dgetrf) for general dense ones, LAPACK banded LU (dgbtrf) for long
+ * chains; solves, condition estimates and damped least-squares steps.
  */
+#include <math.h>
 #include <string.h>
 
 #include <lapacke.h>
@@ -11,92 +14,249 @@
 /* The pivot array is handed to LAPACK as it is: LP64 LAPACKE only. */
 typedef char lapack_int_is_int[sizeof(lapack_int) == sizeof(int) ? 1 : -1];
 
-void kli_dense_carve(kli_dense *d, kli_carver *c, int n, int npairs,
-                     const int *row, const int *col) {
-  size_t nn = (size_t)n * (size_t)n;
-  d->n = n;
-  d->npairs = npairs;
-  d->row = row;
-  d->col = col;
-  d->colscale = kli_carve(c, (size_t)n, sizeof(double));
+/* The band is narrow enough for the banded kernel when it is at most this
+ * fraction of the order. */
+#define KLI_BAND_FRACTION 4
+
+void kli_dense_carve(kli_dense *d, kli_carver *c, const kli_pattern *p) {
+  size_t n = (size_t)p->n, nn = n * n;
+  d->p = *p;
+  d->ldab = 2 * p->band_lower + p->band_upper + 1;
+  d->colscale = kli_carve(c, n, sizeof(double));
   d->a = kli_carve(c, nn, sizeof(double));
   d->lu = kli_carve(c, nn, sizeof(double));
-  d->ipiv = kli_carve(c, (size_t)n, sizeof(int));
-  d->work = kli_carve(c, 4 * (size_t)n, sizeof(double));
-  d->iwork = kli_carve(c, (size_t)n, sizeof(int));
+  d->ab = kli_carve(c, (size_t)d->ldab * n, sizeof(double));
+  d->ipiv = kli_carve(c, n, sizeof(int));
+  d->work = kli_carve(c, 4 * n, sizeof(double));
+  d->iwork = kli_carve(c, n, sizeof(int));
   d->normal = kli_carve(c, nn, sizeof(double));
 }
 
-void kli_dense_init(kli_dense *d, const double *colscale) {
-  memcpy(d->colscale, colscale, (size_t)d->n * sizeof(double));
-  memset(d->a, 0, (size_t)d->n * (size_t)d->n * sizeof(double));
-  d->anorm = 0.0;
+int kli_dense_choose(const kli_dense *d, int kernel) {
+  int n = d->p.n, band = d->p.band_lower + d->p.band_upper + 1;
+  if (kernel != KL_KERNEL_AUTO)
+    return kernel;
+  if (n <= KLI_SMALL_MAX)
+    return KL_KERNEL_SMALL;
+  return band * KLI_BAND_FRACTION <= n ? KL_KERNEL_BANDED : KL_KERNEL_DENSE;
+}
+
+void kli_dense_use(kli_dense *d, int kernel) {
+  d->kernel = kli_dense_choose(d, kernel);
   d->singular = 1;
 }
 
+void kli_dense_init(kli_dense *d, const double *colscale, int kernel) {
+  memcpy(d->colscale, colscale, (size_t)d->p.n * sizeof(double));
+  memset(d->a, 0, (size_t)d->p.n * (size_t)d->p.n * sizeof(double));
+  d->anorm = 0.0;
+  kli_dense_use(d, kernel);
+}
+
 void kli_dense_load(kli_dense *d, const double *pairs) {
-  int p;
-  for (p = 0; p < d->npairs; p++) {
-    double *at = d->a + (size_t)d->col[p] * (size_t)d->n + (size_t)d->row[p];
-    double scale = d->colscale[d->col[p]];
+  int p, n = d->p.n;
+  /* the 1-norm from the same pass: column sums over the pattern */
+  double *colsum = d->work;
+  for (p = 0; p < n; p++)
+    colsum[p] = 0.0;
+  for (p = 0; p < d->p.npairs; p++) {
+    int col = d->p.col[p];
+    double *at = d->a + (size_t)col * (size_t)n + (size_t)d->p.row[p];
+    double scale = d->colscale[col];
     at[0] = pairs[2 * p] * scale;
     at[1] = pairs[2 * p + 1] * scale;
+    colsum[col] += fabs(at[0]) + fabs(at[1]);
+  }
+  d->anorm = 0.0;
+  for (p = 0; p < n; p++)
+    if (colsum[p] > d->anorm)
+      d->anorm = colsum[p];
+}
+
+/* ---- the small kernel: LU with partial pivoting, as dgetrf does it ---- */
+
+static int small_factor(kli_dense *d) {
+  int n = d->p.n, i, j, k, singular = 0;
+  double *lu = d->lu;
+  memcpy(lu, d->a, (size_t)n * (size_t)n * sizeof(double));
+  for (k = 0; k < n; k++) {
+    int piv = k;
+    double best = fabs(lu[k + k * n]);
+    for (i = k + 1; i < n; i++)
+      if (fabs(lu[i + k * n]) > best) {
+        best = fabs(lu[i + k * n]);
+        piv = i;
+      }
+    d->ipiv[k] = piv + 1; /* LAPACK counts from 1 */
+    if (best == 0.0) {
+      singular = 1;
+      continue;
+    }
+    if (piv != k)
+      for (j = 0; j < n; j++) {
+        double t = lu[k + j * n];
+        lu[k + j * n] = lu[piv + j * n];
+        lu[piv + j * n] = t;
+      }
+    for (i = k + 1; i < n; i++)
+      lu[i + k * n] /= lu[k + k * n];
+    for (j = k + 1; j < n; j++) {
+      double ukj = lu[k + j * n];
+      if (ukj != 0.0)
+        for (i = k + 1; i < n; i++)
+          lu[i + j * n] -= lu[i + k * n] * ukj;
+    }
+  }
+  return singular;
+}
+
+/* Solves (A D) y = b in place with the small kernel's factors. */
+static void small_solve(const kli_dense *d, double *b) {
+  int n = d->p.n, i, k;
+  const double *lu = d->lu;
+  for (k = 0; k < n; k++) {
+    int piv = d->ipiv[k] - 1;
+    double t = b[k];
+    b[k] = b[piv];
+    b[piv] = t;
+  }
+  for (k = 0; k < n; k++)
+    for (i = k + 1; i < n; i++)
+      b[i] -= lu[i + k * n] * b[k];
+  for (k = n - 1; k >= 0; k--) {
+    b[k] /= lu[k + k * n];
+    for (i = 0; i < k; i++)
+      b[i] -= lu[i + k * n] * b[k];
+  }
+}
+
+/* The exact 1-norm of the inverse, column by column. */
+static double small_inverse_norm(kli_dense *d) {
+  int n = d->p.n, i, j;
+  double norm = 0.0, *column = d->work;
+  for (j = 0; j < n; j++) {
+    double sum = 0.0;
+    for (i = 0; i < n; i++)
+      column[i] = i == j ? 1.0 : 0.0;
+    small_solve(d, column);
+    for (i = 0; i < n; i++)
+      sum += fabs(column[i]);
+    if (sum > norm)
+      norm = sum;
+  }
+  return norm;
+}
+
+/* ---- the banded kernel: the ordered matrix in LAPACK band storage ---- */
+
+static void band_fill(kli_dense *d) {
+  int p, n = d->p.n, kl = d->p.band_lower, ku = d->p.band_upper;
+  memset(d->ab, 0, (size_t)d->ldab * (size_t)n * sizeof(double));
+  for (p = 0; p < d->p.npairs; p++) {
+    int row = d->p.row[p], col = d->p.col[p], k;
+    int j = d->p.band_col[col];
+    const double *at = d->a + (size_t)col * (size_t)n + (size_t)row;
+    for (k = 0; k < 2; k++) {
+      int i = d->p.band_row[row + k];
+      /* AB(kl + ku + 1 + i - j, j), counted from 1 */
+      d->ab[(size_t)(kl + ku + i - j) + (size_t)j * (size_t)d->ldab] = at[k];
+    }
   }
 }
 
 int kli_dense_factor(kli_dense *d) {
-  lapack_int info;
-  int n = d->n;
+  int n = d->p.n;
+  lapack_int info = 0;
   if (n == 0) {
     d->singular = 0;
     return 0;
   }
-  memcpy(d->lu, d->a, (size_t)n * (size_t)n * sizeof(double));
-  d->anorm = LAPACKE_dlange_work(LAPACK_COL_MAJOR, '1', n, n, d->a, n, NULL);
-  info = LAPACKE_dgetrf_work(LAPACK_COL_MAJOR, n, n, d->lu, n, d->ipiv);
+  switch (d->kernel) {
+  case KL_KERNEL_SMALL:
+    d->singular = small_factor(d);
+    return d->singular;
+  case KL_KERNEL_BANDED:
+    band_fill(d);
+    info = LAPACKE_dgbtrf_work(LAPACK_COL_MAJOR, n, n, d->p.band_lower,
+                               d->p.band_upper, d->ab, d->ldab, d->ipiv);
+    break;
+  default:
+    memcpy(d->lu, d->a, (size_t)n * (size_t)n * sizeof(double));
+    info = LAPACKE_dgetrf_work(LAPACK_COL_MAJOR, n, n, d->lu, n, d->ipiv);
+  }
   d->singular = info != 0;
   return d->singular;
 }
 
 double kli_dense_rcond(kli_dense *d) {
   double rcond = 0.0;
-  if (d->n == 0)
+  lapack_int info;
+  if (d->p.n == 0)
     return 1.0;
   if (d->singular || d->anorm == 0.0)
     return 0.0;
-  if (LAPACKE_dgecon_work(LAPACK_COL_MAJOR, '1', d->n, d->lu, d->n, d->anorm,
-                          &rcond, d->work, d->iwork) != 0)
-    return 0.0;
-  return rcond;
+  switch (d->kernel) {
+  case KL_KERNEL_SMALL:
+    return 1.0 / (d->anorm * small_inverse_norm(d));
+  case KL_KERNEL_BANDED:
+    info = LAPACKE_dgbcon_work(LAPACK_COL_MAJOR, '1', d->p.n, d->p.band_lower,
+                               d->p.band_upper, d->ab, d->ldab, d->ipiv,
+                               d->anorm, &rcond, d->work, d->iwork);
+    break;
+  default:
+    info = LAPACKE_dgecon_work(LAPACK_COL_MAJOR, '1', d->p.n, d->lu, d->p.n,
+                               d->anorm, &rcond, d->work, d->iwork);
+  }
+  return info == 0 ? rcond : 0.0;
 }
 
 int kli_dense_det_sign(const kli_dense *d) {
-  int i, sign = 1;
+  int i, sign = 1, n = d->p.n;
   if (d->singular)
     return 0;
-  for (i = 0; i < d->n; i++) {
-    double pivot = d->lu[(size_t)i * (size_t)d->n + (size_t)i];
+  for (i = 0; i < n; i++) {
+    double pivot = d->kernel == KL_KERNEL_BANDED
+                       ? d->ab[(size_t)(d->p.band_lower + d->p.band_upper) +
+                               (size_t)i * (size_t)d->ldab]
+                       : d->lu[(size_t)i * (size_t)n + (size_t)i];
     if (pivot < 0.0)
       sign = -sign;
-    if (d->ipiv[i] != i + 1) /* LAPACK's pivots count from 1 */
+    if (d->ipiv[i] != i + 1) /* a row interchange */
       sign = -sign;
   }
+  /* with the banded kernel this is the sign of the ordered matrix, which
+   * differs from A's by the fixed sign of the ordering: comparisons within
+   * one kernel, as the sweep makes them, are unaffected */
   return sign;
 }
 
 void kli_dense_solve(const kli_dense *d, double *b) {
-  int i;
-  if (d->n == 0)
+  int i, n = d->p.n;
+  double *tmp = d->work;
+  if (n == 0)
     return;
-  LAPACKE_dgetrs_work(LAPACK_COL_MAJOR, 'N', d->n, 1, d->lu, d->n, d->ipiv, b,
-                      d->n);
-  for (i = 0; i < d->n; i++)
+  switch (d->kernel) {
+  case KL_KERNEL_SMALL:
+    small_solve(d, b);
+    break;
+  case KL_KERNEL_BANDED:
+    for (i = 0; i < n; i++)
+      tmp[d->p.band_row[i]] = b[i];
+    LAPACKE_dgbtrs_work(LAPACK_COL_MAJOR, 'N', n, d->p.band_lower,
+                        d->p.band_upper, 1, d->ab, d->ldab, d->ipiv, tmp, n);
+    for (i = 0; i < n; i++)
+      b[i] = tmp[d->p.band_col[i]];
+    break;
+  default:
+    LAPACKE_dgetrs_work(LAPACK_COL_MAJOR, 'N', n, 1, d->lu, n, d->ipiv, b, n);
+  }
+  for (i = 0; i < n; i++)
     b[i] *= d->colscale[i];
 }
 
 int kli_dense_damped_step(kli_dense *d, const double *f, double damping,
                           double *dx) {
-  int n = d->n, i, j, k;
+  int n = d->p.n, i, j, k;
   double trace = 0.0, lambda;
   if (n == 0)
     return 1;
@@ -129,7 +289,7 @@ int kli_dense_damped_step(kli_dense *d, const double *f, double damping,
 
 void kli_dense_apply_transpose(const kli_dense *d, const double *x,
                                double *y) {
-  int i, k, n = d->n;
+  int i, k, n = d->p.n;
   for (i = 0; i < n; i++) {
     const double *col = d->a + (size_t)i * (size_t)n;
     double sum = 0.0;
@@ -140,7 +300,7 @@ void kli_dense_apply_transpose(const kli_dense *d, const double *x,
 }
 
 void kli_dense_apply(const kli_dense *d, const double *x, double *y) {
-  int i, k, n = d->n;
+  int i, k, n = d->p.n;
   for (k = 0; k < n; k++)
     y[k] = 0.0;
   for (i = 0; i < n; i++) {

@@ -1,42 +1,60 @@
 /*
  * dense.h - private: the one module that decides how the Jacobian system is
- * stored, factored and solved (LAPACK LU through LAPACKE) and the only one
- * that talks to LAPACK.
+ * stored, factored and solved, and the only one that talks to LAPACK.
  */
 #ifndef KINLOOP_DENSE_H
 #define KINLOOP_DENSE_H
 
 #include "memory.h"
 
+/* Systems this small are factored by the built-in kernel in AUTO. */
+#define KLI_SMALL_MAX 8
+
+/* The sparsity pattern as the topology gives it. */
 typedef struct {
-  int n;             /* unknowns = equations */
-  int npairs;        /* nonzero pairs: rows (r, r + 1) of column c */
+  int n;                /* unknowns = equations */
+  int npairs;           /* nonzero pairs: rows (r, r + 1) of column c */
   const int *row, *col;
+  const int *band_row, *band_col; /* a band-reducing ordering */
+  int band_lower, band_upper;
+} kli_pattern;
+
+typedef struct {
+  kli_pattern p;
+  int kernel;        /* KL_KERNEL_SMALL, _DENSE or _BANDED in use */
   /* Column scales D: the matrix held is A D, with every column in length
    * units (slide columns times the model's scale), so that the condition
    * estimate does not depend on the unit of length. */
   double *colscale;
   double *a;         /* the assembled, scaled matrix A D, column-major n x n */
-  double *lu;        /* LU factors of a */
+  double *lu;        /* small and dense kernels: LU factors of a */
+  double *ab;        /* banded kernel: LAPACK band storage, ldab x n */
+  int ldab;
   int *ipiv;
-  double *work;      /* 4 n, for dgecon */
-  int *iwork;        /* n, for dgecon */
+  double *work;      /* 4 n, for the condition estimates */
+  int *iwork;        /* n */
   double *normal;    /* n x n: A^T A + lambda I for damped steps */
-  double anorm;      /* 1-norm of a when factored */
+  double anorm;      /* 1-norm of a when loaded */
   int singular;      /* factorization met an exact zero pivot */
 } kli_dense;
 
-/* Carves the arrays for an n x n system with the given pattern. */
-void kli_dense_carve(kli_dense *d, kli_carver *c, int n, int npairs,
-                     const int *row, const int *col);
-/* Zeroes the matrix once (entries off the pattern stay zero for good) and
- * takes the column scales (n values, copied). */
-void kli_dense_init(kli_dense *d, const double *colscale);
+/* Carves the arrays for an n x n system with pattern p (kept by pointer). */
+void kli_dense_carve(kli_dense *d, kli_carver *c, const kli_pattern *p);
+/* Zeroes the matrix once (entries off the pattern stay zero for good),
+ * takes the column scales (n values, copied) and chooses the kernel. */
+void kli_dense_init(kli_dense *d, const double *colscale, int kernel);
+/* The kernel a request (an enum kl_kernel value) gives for this system:
+ * AUTO chooses small up to KLI_SMALL_MAX unknowns, banded where the
+ * ordered band is narrow, dense LAPACK LU otherwise. */
+int kli_dense_choose(const kli_dense *d, int kernel);
+/* Switches kernels; the factors must be recomputed. */
+void kli_dense_use(kli_dense *d, int kernel);
 /* Scatters the pattern's values of A (two per pair) into A D. */
 void kli_dense_load(kli_dense *d, const double *pairs);
 /* LU-factors the loaded matrix; 0, or 1 if a pivot is exactly zero. */
 int kli_dense_factor(kli_dense *d);
-/* Reciprocal condition estimate (1-norm) of the factored, scaled matrix;
+/* Reciprocal condition number (1-norm) of the factored, scaled matrix:
+ * exact for the small kernel, LAPACK's dgecon / dgbcon estimate otherwise;
  * 0 when the factorization was singular. */
 double kli_dense_rcond(kli_dense *d);
 /* Sign of the determinant of the factored matrix (+1 or -1; 0 when

@@ -42,10 +42,20 @@ void kli_gather(const kl_model *m, const double *x, double *q) {
 
 void kli_pose_trig(const kl_model *m, kli_pose *p) {
   int l;
-  for (l = 0; l < m->nlinks; l++) {
-    p->c[l] = cos(p->x[l]);
-    p->s[l] = sin(p->x[l]);
-  }
+  /* in a Newton iteration only the unknown angles move: the others keep
+   * their cosine and sine (a NaN in trig_at never compares equal) */
+  for (l = 0; l < m->nlinks; l++)
+    if (p->x[l] != p->trig_at[l]) {
+      p->c[l] = cos(p->x[l]);
+      p->s[l] = sin(p->x[l]);
+      p->trig_at[l] = p->x[l];
+    }
+}
+
+void kli_pose_forget_trig(const kl_model *m, kli_pose *p) {
+  int l;
+  for (l = 0; l < m->nlinks; l++)
+    p->trig_at[l] = NAN;
 }
 
 /* Unit direction of a slide term's axis at pose p. */

@@ -8,9 +8,10 @@
 
 #include "model.h"
 
-/* A configuration: coordinates x and the cosine and sine of each link angle. */
+/* A configuration: coordinates x and the cosine and sine of each link angle,
+ * last taken at the angles in trig_at (NaN: never). */
 typedef struct {
-  double *x, *c, *s;
+  double *x, *c, *s, *trig_at;
 } kli_pose;
 
 /* x = E q + G u: every coordinate from the unknowns and the inputs. Either of
@@ -20,8 +21,10 @@ void kli_expand(const kl_model *m, const double *q, const double *u,
                 double *x);
 /* Unknowns from coordinates (the inverse of kli_expand on the unknowns). */
 void kli_gather(const kl_model *m, const double *x, double *q);
-/* Updates p->c and p->s from p->x. */
+/* Updates p->c and p->s from p->x, for the links whose angle changed. */
 void kli_pose_trig(const kl_model *m, kli_pose *p);
+/* Marks p's trig as never taken. */
+void kli_pose_forget_trig(const kl_model *m, kli_pose *p);
 
 /* Sum of a chain at pose p. */
 void kli_chain_value(const kl_model *m, const kli_chain *ch, const kli_pose *p,

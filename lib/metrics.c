@@ -11,6 +11,8 @@
 #include "velocity.h"
 
 #define KLI_TWO_PI 6.28318530717958647692
+/* Crank angles this close (modulo a turn) are the same position. */
+#define KLI_SAME_ANGLE 1e-12
 /* Refined extremes stop when the bracket is this narrow (input units). */
 #define KLI_EXTREME_BRACKET 1e-13
 /* Where a sweep stopped at a limit, the last value is taken this far
@@ -330,7 +332,8 @@ int kl_time_ratio(const kl_range *range, double *ratio) {
   a = fmod(range->input_at_max - range->input_at_min, KLI_TWO_PI);
   if (a < 0.0)
     a += KLI_TWO_PI;
-  if (!(a > 0.0) || !(a < KLI_TWO_PI))
+  /* extremes a whole turn apart (to rounding) are no stroke at all */
+  if (!(a > KLI_SAME_ANGLE) || !(a < KLI_TWO_PI - KLI_SAME_ANGLE))
     return KL_EINVAL;
   *ratio = a / (KLI_TWO_PI - a);
   return KL_OK;

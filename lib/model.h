@@ -90,6 +90,11 @@ typedef struct {
   int nnz_pairs;
   int *nz_row;   /* first (x) row of the pair */
   int *nz_col;
+  /* A band-reducing ordering of the pattern (Cuthill-McKee over loops that
+   * share unknowns): the position of each row and each unknown, and the
+   * lower and upper bandwidths of the matrix so ordered. */
+  int *band_row, *band_col;
+  int band_lower, band_upper;
   int dof;
   double scale;
 } kli_topology;

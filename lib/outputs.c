@@ -52,6 +52,13 @@ int kli_output_check(const kl_model *m, const kl_output *o, char *buf) {
     return kli_fail(buf, KL_EKIND, "output: a transmission angle needs a revolute "
                               "joint; joint %d is not",
                o->id);
+  if (o->line_a < 0 || o->line_a >= m->njoints || o->line_b < 0 ||
+      o->line_b >= m->njoints)
+    return kli_fail(buf, KL_EID,
+                    "output: line joint %d does not exist (%d joints)",
+                    o->line_a < 0 || o->line_a >= m->njoints ? o->line_a
+                                                             : o->line_b,
+                    m->njoints);
   if (o->line_a == o->id || !joint_on(m, o->line_a, j->link[0]))
     return kli_fail(buf, KL_EKIND, "output: line_a (joint %d) is not another "
                               "joint on link %d, joint's link a",

@@ -144,9 +144,11 @@ static int line_search(kl_solver *s, newton_iterate *it, const double *dq,
   return 0;
 }
 
-/* Caps dq at max_step and searches along it; 1 if a step was accepted. */
+/* Caps dq at max_step and searches along it; 1 if a step was accepted.
+ * Newton's step solves J dq = -F, so its slope is -|F|^2 without a product
+ * with J. */
 static int step_along(kl_solver *s, newton_iterate *it, double *dq,
-                      double step, double alpha_min);
+                      double step, double alpha_min, int newton);
 
 /*
  * Levenberg-Marquardt steps with growing damping, from Gauss-Newton toward
@@ -158,21 +160,22 @@ static int damped_step(kl_solver *s, newton_iterate *it) {
   int tries;
   for (tries = 0; tries < KLI_DAMPING_TRIES; tries++, damping *= 10.0)
     if (kli_dense_damped_step(&s->dense, it->f, damping, s->dq) == 0 &&
-        step_along(s, it, s->dq, scaled_norm(s, s->dq), 1.0))
+        step_along(s, it, s->dq, scaled_norm(s, s->dq), 1.0, 0))
       return 1;
   return 0;
 }
 
 static int step_along(kl_solver *s, newton_iterate *it, double *dq,
-                      double step, double alpha_min) {
-  double slope;
+                      double step, double alpha_min, int newton) {
+  double slope, shrink = 1.0;
   int i;
   if (step > s->opt.max_step) {
-    double shrink = s->opt.max_step / step;
+    shrink = s->opt.max_step / step;
     for (i = 0; i < s->n; i++)
       dq[i] *= shrink;
   }
-  slope = slope_along(s, it->f, dq);
+  slope = newton ? -2.0 * shrink * half_square(it->f, s->n)
+                 : slope_along(s, it->f, dq);
   return slope < 0.0 && line_search(s, it, dq, slope, alpha_min);
 }
 
@@ -252,14 +255,24 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
      * is useless, and damped least-squares steps take over. */
     before = it.fnorm;
     if ((singular || !isfinite(step) ||
-         !step_along(s, &it, s->dq, step, KLI_NEWTON_ALPHA_MIN)) &&
+         !step_along(s, &it, s->dq, step, KLI_NEWTON_ALPHA_MIN, 1)) &&
         !damped_step(s, &it)) {
+      /* no step decreases the residual: within tolerance that is the
+       * rounding floor of a solution (no step was taken, so the factors
+       * are at it.cur); above it, a positive minimum */
+      if (it.fnorm <= ftol)
+        break;
       st = fail_stalled(s, &it, iter + 1);
       goto failed;
     }
-    /* a positive minimum of the residual: progress dies away */
+    /* progress that dies away: the same two cases */
     slow = it.fnorm > KLI_STALL_RATIO * before ? slow + 1 : 0;
     if (slow == KLI_STALL_ITERATIONS) {
+      if (it.fnorm <= ftol) {
+        singular = kli_factor_at(s, it.cur);
+        s->stats.factorizations++;
+        break;
+      }
       st = fail_stalled(s, &it, iter + 1);
       goto failed;
     }
@@ -270,6 +283,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   s->stats.residual = it.fnorm;
   s->stats.step = singular ? NAN : step;
   s->stats.rcond = kli_dense_rcond(&s->dense);
+  s->stats.kernel = s->dense.kernel;
   if (singular || s->stats.rcond < s->opt.singular_rcond) {
     st = kli_fail(s->error, KL_ESINGULAR,
                   "solve position: the Jacobian is singular at the solution "

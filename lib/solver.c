@@ -21,12 +21,14 @@ void kl_options_default(kl_options *o) {
   o->max_backtracks = 40;
   o->max_step = 1.0;
   o->singular_rcond = 1e-8;
+  o->kernel = KL_KERNEL_AUTO;
 }
 
 static void carve_pose(kli_pose *p, kli_carver *c, int ncoords, int nlinks) {
   p->x = kli_carve(c, (size_t)ncoords, sizeof(double));
   p->c = kli_carve(c, (size_t)nlinks, sizeof(double));
   p->s = kli_carve(c, (size_t)nlinks, sizeof(double));
+  p->trig_at = kli_carve(c, (size_t)nlinks, sizeof(double));
 }
 
 static void carve_state(kli_state *st, kli_carver *c, int ncoords,
@@ -67,12 +69,23 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->rhs = kli_carve(c, (size_t)n, sizeof(double));
   t->xv = kli_carve(c, (size_t)nc, sizeof(double));
   t->x_pred = kli_carve(c, (size_t)nc, sizeof(double));
+  t->x_previous = kli_carve(c, (size_t)nc, sizeof(double));
   t->sweep_u = kli_carve(c, (size_t)ni, sizeof(double));
   t->sweep_rate = kli_carve(c, (size_t)ni, sizeof(double));
   t->sweep_zero = kli_carve(c, (size_t)ni, sizeof(double));
   t->modes = kli_carve(c, (size_t)KLI_MAX_MODES * (size_t)n, sizeof(double));
-  kli_dense_carve(&t->dense, c, n, m->topo.nnz_pairs, m->topo.nz_row,
-                  m->topo.nz_col);
+  {
+    kli_pattern p;
+    p.n = n;
+    p.npairs = m->topo.nnz_pairs;
+    p.row = m->topo.nz_row;
+    p.col = m->topo.nz_col;
+    p.band_row = m->topo.band_row;
+    p.band_col = m->topo.band_col;
+    p.band_lower = m->topo.band_lower;
+    p.band_upper = m->topo.band_upper;
+    kli_dense_carve(&t->dense, c, &p);
+  }
   return s;
 }
 
@@ -104,7 +117,10 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   /* slide columns of the Jacobian are unitless: scale them to lengths */
   for (i = 0; i < s->n; i++)
     s->rhs[i] = m->topo.var_coord[i] < m->nlinks ? 1.0 : m->topo.scale;
-  kli_dense_init(&s->dense, s->rhs);
+  kli_dense_init(&s->dense, s->rhs, s->opt.kernel);
+  for (i = 0; i < 2; i++)
+    kli_pose_forget_trig(m, &s->trial[i]);
+  kli_pose_forget_trig(m, &s->st.pose);
   kli_expand(m, NULL, NULL, s->st.pose.x);
   kli_pose_trig(m, &s->st.pose);
   /* the model's sketch, in id order, as the caller's would be */
@@ -192,6 +208,13 @@ int kl_solver_set_options(kl_solver *s, const kl_options *o) {
     return kli_fail(s->error, KL_EINVAL,
                     "set options: singular_rcond %g is not in [0, 1e-3)",
                     next.singular_rcond);
+  if (next.kernel < KL_KERNEL_AUTO || next.kernel > KL_KERNEL_BANDED)
+    return kli_fail(s->error, KL_EINVAL,
+                    "set options: kernel %d is not a kl_kernel", next.kernel);
+  if (next.kernel != s->opt.kernel) {
+    kli_dense_use(&s->dense, next.kernel);
+    s->factors_current = 0;
+  }
   s->opt = next;
   return KL_OK;
 }
@@ -220,6 +243,7 @@ void kli_pose_copy(const kl_solver *s, kli_pose *to, const kli_pose *from) {
   memcpy(to->x, from->x, (size_t)s->ncoords * sizeof(double));
   memcpy(to->c, from->c, (size_t)s->model->nlinks * sizeof(double));
   memcpy(to->s, from->s, (size_t)s->model->nlinks * sizeof(double));
+  memcpy(to->trig_at, from->trig_at, (size_t)s->model->nlinks * sizeof(double));
 }
 
 int kli_check_input_values(kl_solver *s, const double *values,
@@ -383,5 +407,16 @@ int kl_link_origin(const kl_solver *s, int link, double xy[2]) {
   if (link < 0 || link >= s->model->nlinks)
     return KL_EID;
   kli_chain_value(s->model, &s->model->topo.origins[link], &s->st.pose, xy);
+  return KL_OK;
+}
+
+int kl_solver_copy_state(kl_solver *to, const kl_solver *from) {
+  if (to == NULL || from == NULL)
+    return KL_EINVAL;
+  if (to->model != from->model)
+    return kli_fail(to->error, KL_EINVAL,
+                    "copy state: the solvers belong to different models");
+  if (to != from)
+    kli_state_restore(to, &from->st);
   return KL_OK;
 }

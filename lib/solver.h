@@ -51,6 +51,9 @@ struct kl_solver {
   double *rhs;            /* n */
   double *xv;             /* ncoords scratch for the rate stages */
   double *x_pred;         /* ncoords: the sweep's predicted position */
+  double *x_previous;     /* ncoords: the sweep's position before the last */
+  double u_previous;      /* its input */
+  int have_previous;
   double *sweep_u, *sweep_rate, *sweep_zero; /* inputs for the sweep */
   double *modes;          /* KLI_MAX_MODES x n: assembly modes found */
   kli_dense dense;

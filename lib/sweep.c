@@ -16,8 +16,13 @@
 #define KLI_MAX_CORRECTION 0.2
 /* Sub-steps grow again only after corrections this easy. */
 #define KLI_EASY_ITERATIONS 3
+/* Below this condition estimate the predictor uses positions, not rates. */
+#define KLI_PREDICT_RCOND 1e-6
 /* The corrector's singular threshold within a sweep. */
 #define KLI_SWEEP_RCOND 1e-14
+/* How far past a bracketed stop the sweep looks for an assembly, to tell a
+ * limit (none there) from a change point (the motion goes on). */
+#define KLI_LOOK_BEYOND 1e-6
 /* Internal outcome of a sub-step: the corrector changed branch. */
 #define KLI_BRANCH_JUMP 100
 
@@ -49,14 +54,26 @@ static int substep(kl_solver *s, int input, double target, int det_sign) {
   double delta = target - s->st.u[input], moved, correction;
   int st, c;
   kli_state_copy(s, &s->saved, &s->st);
-  for (c = 0; c < s->ncoords; c++)
-    s->x_pred[c] = s->st.pose.x[c] + s->st.xd[c] * delta;
+  /* near a singular position the rates are ill-determined (the position's
+   * own error, within tolerance, is amplified by the condition number), but
+   * the positions are not: predict along the secant of the last two */
+  if (s->st.rcond < KLI_PREDICT_RCOND && s->have_previous &&
+      s->u_previous != s->st.u[input]) {
+    double ratio = delta / (s->st.u[input] - s->u_previous);
+    for (c = 0; c < s->ncoords; c++)
+      s->x_pred[c] = s->st.pose.x[c] +
+                     (s->st.pose.x[c] - s->x_previous[c]) * ratio;
+  } else {
+    for (c = 0; c < s->ncoords; c++)
+      s->x_pred[c] = s->st.pose.x[c] + s->st.xd[c] * delta;
+  }
   moved = unknown_distance(s, s->x_pred, s->st.pose.x);
   if (moved > s->opt.max_step) {
     /* near a limit the rates grow without bound: trust the slope less */
     double shrink = s->opt.max_step / moved;
     for (c = 0; c < s->ncoords; c++)
-      s->x_pred[c] = s->st.pose.x[c] + s->st.xd[c] * delta * shrink;
+      s->x_pred[c] = s->st.pose.x[c] +
+                     (s->x_pred[c] - s->st.pose.x[c]) * shrink;
     moved = s->opt.max_step;
   }
   memcpy(s->st.pose.x, s->x_pred, (size_t)s->ncoords * sizeof(double));
@@ -73,8 +90,24 @@ static int substep(kl_solver *s, int input, double target, int det_sign) {
   if (st != KL_OK) {
     kli_state_restore(s, &s->saved);
     s->sweep_u[input] = s->st.u[input];
+  } else {
+    memcpy(s->x_previous, s->saved.pose.x, (size_t)s->ncoords * sizeof(double));
+    s->u_previous = s->saved.u[input];
+    s->have_previous = 1;
   }
   return st;
+}
+
+/* Whether the loops close at input value u, on any branch, starting from
+ * the committed state; the state is kept either way. */
+static int assembles_beyond(kl_solver *s, int input, double u) {
+  int st;
+  kli_state_copy(s, &s->saved, &s->st);
+  s->sweep_u[input] = u;
+  st = kl_solve_position(s, s->sweep_u);
+  kli_state_restore(s, &s->saved);
+  s->sweep_u[input] = s->st.u[input];
+  return st == KL_OK || st == KL_ESINGULAR;
 }
 
 static void finish(kl_sweep_result *result, int status, int steps_done,
@@ -137,6 +170,7 @@ static int sweep(kl_solver *s, int input, double from, double to, int steps,
     return st;
   }
   det_sign = kli_dense_det_sign(&s->dense);
+  s->have_previous = 0;
   st = deliver(s, 0, from, fn, user);
   delivered = st == KL_OK || st == KL_STOPPED;
   full = (to - from) / steps;
@@ -144,7 +178,7 @@ static int sweep(kl_solver *s, int input, double from, double to, int steps,
   for (k = 1; k <= steps && st == KL_OK; k++) {
     /* each target from the range itself, so that no error accumulates */
     double target = k == steps ? to : from + (to - from) * ((double)k / steps);
-    int failures = 0;
+    int failures = 0, beyond;
     while (s->st.u[input] != target) {
       double cur = s->st.u[input], trial = cur + h;
       int r;
@@ -163,9 +197,12 @@ static int sweep(kl_solver *s, int input, double from, double to, int steps,
         h = 0.5 * (trial - cur);
         continue;
       }
-      /* the motion cannot go on past [cur, trial] */
+      /* the motion cannot go on past [cur, trial] on this branch: a limit
+       * if no assembly lies just beyond, a change point if one does */
+      beyond = assembles_beyond(s, input, trial + (trial - cur > 0.0 ? 1.0 : -1.0) *
+                                                     KLI_LOOK_BEYOND);
       kli_state_restore(s, &s->delivered);
-      if (r == KL_ENOASSEMBLY || r == KL_EMAXITER) {
+      if (!beyond) {
         st = KL_LIMIT;
         kli_fail(s->error, KL_LIMIT,
                  "sweep: input %d reaches a motion limit at %.12g (no "

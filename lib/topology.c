@@ -434,6 +434,100 @@ static void build_pattern(work *w, kli_topology *t) {
   }
 }
 
+/*
+ * Cuthill-McKee over the loops (two loops are neighbours when they share an
+ * unknown): each component from a loop of least degree, neighbours in order
+ * of degree. Rows follow their loop's place; each unknown takes the next
+ * column when its first loop comes. Scratch from the model's allocator.
+ */
+static int band_ordering(kl_model *m, kli_topology *t) {
+  int nl = t->nloops, nv = t->nvars, np = t->nnz_pairs;
+  int *pair_start, *col_start, *col_pairs, *degree, *loop_pos, *queue, *mark;
+  int i, p, k, head, tail, next_col = 0, placed = 0;
+  size_t bytes = (size_t)(2 * nl + 2 + 2 * nv + 1 + np + 2 * nl + nl + 1) *
+                 sizeof(int);
+  int *scratch = kli_alloc(&m->alloc, bytes);
+  if (scratch == NULL)
+    return KL_ENOMEM;
+  pair_start = scratch;            /* nl + 1: pairs of each loop, in order */
+  col_start = pair_start + nl + 1; /* nv + 1 */
+  col_pairs = col_start + nv + 1;  /* np: pairs of each unknown */
+  degree = col_pairs + np;         /* nl */
+  loop_pos = degree + nl;          /* nl */
+  queue = loop_pos + nl;           /* nl */
+  mark = queue + nl;               /* nl + nv */
+  for (i = 0; i <= nl; i++)
+    pair_start[i] = 0;
+  for (p = 0; p < np; p++)
+    pair_start[t->nz_row[p] / 2 + 1]++;
+  for (i = 0; i < nl; i++)
+    pair_start[i + 1] += pair_start[i];
+  for (i = 0; i <= nv; i++)
+    col_start[i] = 0;
+  for (p = 0; p < np; p++)
+    col_start[t->nz_col[p] + 1]++;
+  for (i = 0; i < nv; i++)
+    col_start[i + 1] += col_start[i];
+  for (i = 0; i < nv; i++)
+    mark[i] = col_start[i];
+  for (p = 0; p < np; p++)
+    col_pairs[mark[t->nz_col[p]]++] = p;
+  /* degree: pairs in other loops that share this loop's unknowns */
+  for (i = 0; i < nl; i++) {
+    degree[i] = 0;
+    for (p = pair_start[i]; p < pair_start[i + 1]; p++)
+      degree[i] += col_start[t->nz_col[p] + 1] - col_start[t->nz_col[p]] - 1;
+    loop_pos[i] = -1;
+  }
+  for (i = 0; i < nv; i++)
+    t->band_col[i] = -1;
+  head = tail = 0;
+  while (placed < nl) {
+    int start = -1;
+    for (i = 0; i < nl; i++)
+      if (loop_pos[i] < 0 && (start < 0 || degree[i] < degree[start]))
+        start = i;
+    loop_pos[start] = placed++;
+    queue[tail++] = start;
+    while (head < tail) {
+      int loop = queue[head++], first = tail;
+      for (p = pair_start[loop]; p < pair_start[loop + 1]; p++) {
+        int col = t->nz_col[p];
+        if (t->band_col[col] < 0)
+          t->band_col[col] = next_col++;
+        for (k = col_start[col]; k < col_start[col + 1]; k++) {
+          int other = t->nz_row[col_pairs[k]] / 2, j;
+          if (loop_pos[other] >= 0)
+            continue;
+          loop_pos[other] = placed++;
+          /* insert by degree among this loop's new neighbours */
+          for (j = tail++; j > first && degree[queue[j - 1]] > degree[other];
+               j--)
+            queue[j] = queue[j - 1];
+          queue[j] = other;
+        }
+      }
+      /* positions follow the queue's order */
+      for (k = first; k < tail; k++)
+        loop_pos[queue[k]] = placed - (tail - k);
+    }
+  }
+  for (i = 0; i < nl; i++) {
+    t->band_row[2 * i] = 2 * loop_pos[i];
+    t->band_row[2 * i + 1] = 2 * loop_pos[i] + 1;
+  }
+  t->band_lower = t->band_upper = 0;
+  for (p = 0; p < np; p++) {
+    int row = t->band_row[t->nz_row[p]], col = t->band_col[t->nz_col[p]];
+    if (row + 1 - col > t->band_lower)
+      t->band_lower = row + 1 - col;
+    if (col - row > t->band_upper)
+      t->band_upper = col - row;
+  }
+  kli_free(&m->alloc, scratch, bytes);
+  return KL_OK;
+}
+
 /* Augmenting path for unknown `col` in the bipartite graph unknown -> rows. */
 static int augment(const kli_topology *t, work *w, int col, int stamp) {
   int p, side;
@@ -568,6 +662,8 @@ static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
   /* a loop term touches at most two unknowns */
   t->nz_row = kli_carve(c, (size_t)nlj * 4, sizeof(int));
   t->nz_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));
+  t->band_row = kli_carve(c, (size_t)w->nloops * 2, sizeof(int));
+  t->band_col = kli_carve(c, (size_t)nvars, sizeof(int));
 }
 
 /* Loop joints as found or registered, with the link after each joint. */
@@ -651,6 +747,10 @@ int kl_model_finalize(kl_model *m) {
   }
   if ((st = structural_check(m, &w, &t)) != KL_OK)
     goto done;
+  if (band_ordering(m, &t) != KL_OK) {
+    st = kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
+    goto done;
+  }
   t.ncoords = m->nlinks + m->njoints;
   t.dof = dof;
   t.scale = model_scale(m, &w);
