@@ -75,9 +75,32 @@ void kli_dense_load(kli_dense *d, const double *pairs) {
 
 /* ---- the small kernel: LU with partial pivoting, as dgetrf does it ---- */
 
+/* The 2 x 2 case unrolled (four-bars and slider-cranks): the same partial
+ * pivoting and the same operations as the loop below. */
+static int small_factor2(kli_dense *d) {
+  const double *a = d->a;
+  double *lu = d->lu;
+  int swap = fabs(a[1]) > fabs(a[0]);
+  double p0 = swap ? a[1] : a[0], q0 = swap ? a[0] : a[1];
+  double p1 = swap ? a[3] : a[2], q1 = swap ? a[2] : a[3];
+  d->ipiv[0] = swap ? 2 : 1;
+  d->ipiv[1] = 2;
+  if (p0 == 0.0) {
+    lu[0] = p0, lu[1] = q0, lu[2] = p1, lu[3] = q1;
+    return 1;
+  }
+  lu[0] = p0;
+  lu[1] = q0 / p0;
+  lu[2] = p1;
+  lu[3] = q1 - lu[1] * p1;
+  return lu[3] == 0.0;
+}
+
 static int small_factor(kli_dense *d) {
   int n = d->p.n, i, j, k, singular = 0;
   double *lu = d->lu;
+  if (n == 2)
+    return small_factor2(d);
   memcpy(lu, d->a, (size_t)n * (size_t)n * sizeof(double));
   for (k = 0; k < n; k++) {
     int piv = k;
@@ -114,6 +137,13 @@ static int small_factor(kli_dense *d) {
 static void small_solve(const kli_dense *d, double *b) {
   int n = d->p.n, i, k;
   const double *lu = d->lu;
+  if (n == 2) {
+    double b0 = d->ipiv[0] == 2 ? b[1] : b[0];
+    double b1 = (d->ipiv[0] == 2 ? b[0] : b[1]) - lu[1] * b0;
+    b[1] = b1 / lu[3];
+    b[0] = (b0 - lu[2] * b[1]) / lu[0];
+    return;
+  }
   for (k = 0; k < n; k++) {
     int piv = d->ipiv[k] - 1;
     double t = b[k];

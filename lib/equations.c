@@ -3,35 +3,49 @@
  * values on the sparsity pattern, rates along coordinate velocities and the
  * second-order (centripetal and Coriolis) terms.
  */
+/* glibc's sincos() takes cosine and sine together, for half the work */
+#define _GNU_SOURCE
 #include <math.h>
 #include <string.h>
 
 #include "equations.h"
 
-void kli_expand(const kl_model *m, const double *q, const double *u,
-                double *x) {
+#if defined(__GLIBC__)
+#define kli_sincos(a, s, c) sincos((a), (s), (c))
+#else
+#define kli_sincos(a, s, c) (*(s) = sin(a), *(c) = cos(a))
+#endif
+
+void kli_expand_inputs(const kl_model *m, const double *u, double *base) {
   const kli_topology *t = &m->topo;
   int i, j;
   for (i = 0; i < m->nlinks; i++) {
     int l = t->angle_order[i], parent = t->angle_parent[l];
-    if (t->angle_var[l] >= 0)
-      x[l] = q != NULL ? q[t->angle_var[l]] : 0.0;
-    else if (parent < 0)
-      x[l] = 0.0; /* ground */
+    if (parent < 0)
+      base[l] = 0.0; /* ground, or a group's own unknown */
     else
-      x[l] = x[parent] + (t->angle_input[l] >= 0 && u != NULL
-                              ? t->angle_sign[l] * u[t->angle_input[l]]
-                              : 0.0);
+      base[l] = base[parent] + (t->angle_input[l] >= 0 && u != NULL
+                                    ? t->angle_sign[l] * u[t->angle_input[l]]
+                                    : 0.0);
   }
-  for (j = 0; j < m->njoints; j++) {
-    double *slide = &x[m->nlinks + j];
-    if (t->slide_var[j] >= 0)
-      *slide = q != NULL ? q[t->slide_var[j]] : 0.0;
-    else if (t->slide_input[j] >= 0)
-      *slide = u != NULL ? u[t->slide_input[j]] : 0.0;
-    else
-      *slide = 0.0;
-  }
+  for (j = 0; j < m->njoints; j++)
+    base[m->nlinks + j] = t->slide_input[j] >= 0 && u != NULL
+                              ? u[t->slide_input[j]]
+                              : 0.0;
+}
+
+void kli_add_unknowns(const kl_model *m, const double *base, const double *q,
+                      double *x) {
+  const int *var = m->topo.coord_var;
+  int c;
+  for (c = 0; c < m->topo.ncoords; c++)
+    x[c] = var[c] >= 0 && q != NULL ? base[c] + q[var[c]] : base[c];
+}
+
+void kli_expand(const kl_model *m, const double *q, const double *u,
+                double *x) {
+  kli_expand_inputs(m, u, x);
+  kli_add_unknowns(m, x, q, x);
 }
 
 void kli_gather(const kl_model *m, const double *x, double *q) {
@@ -46,8 +60,7 @@ void kli_pose_trig(const kl_model *m, kli_pose *p) {
    * their cosine and sine (a NaN in trig_at never compares equal) */
   for (l = 0; l < m->nlinks; l++)
     if (p->x[l] != p->trig_at[l]) {
-      p->c[l] = cos(p->x[l]);
-      p->s[l] = sin(p->x[l]);
+      kli_sincos(p->x[l], &p->s[l], &p->c[l]);
       p->trig_at[l] = p->x[l];
     }
 }
@@ -188,6 +201,12 @@ double kli_residual(const kl_model *m, const kli_pose *p, double *f) {
     norm = fmax(norm, fmax(fabs(f[2 * i]), fabs(f[2 * i + 1])));
   }
   return norm;
+}
+
+void kli_input_terms_at(const kl_model *m, const kli_pose *p, const double *w,
+                        double *v, double *out) {
+  kli_expand(m, NULL, w, v);
+  kli_loops_rate(m, p, v, out);
 }
 
 void kli_loops_rate(const kl_model *m, const kli_pose *p, const double *v,

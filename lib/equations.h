@@ -19,6 +19,11 @@ typedef struct {
  * accelerations. */
 void kli_expand(const kl_model *m, const double *q, const double *u,
                 double *x);
+/* The two halves of kli_expand, for callers that hold u fixed: base = G u,
+ * then x = base + E q (base and x may be the same array). */
+void kli_expand_inputs(const kl_model *m, const double *u, double *base);
+void kli_add_unknowns(const kl_model *m, const double *base, const double *q,
+                      double *x);
 /* Unknowns from coordinates (the inverse of kli_expand on the unknowns). */
 void kli_gather(const kl_model *m, const double *x, double *q);
 /* Updates p->c and p->s from p->x, for the links whose angle changed. */
@@ -56,6 +61,10 @@ void kli_loops_dimension(const kl_model *m, const kli_pose *p, int joint,
 
 /* The residuals of every loop, 2 per loop; returns |F|inf. */
 double kli_residual(const kl_model *m, const kli_pose *p, double *f);
+/* (dF/dx) G w over every loop: the loop-rate terms of input rates w (NULL
+ * for none), with v as scratch for the coordinate rates G w. */
+void kli_input_terms_at(const kl_model *m, const kli_pose *p, const double *w,
+                        double *v, double *out);
 /* (dF/dx) v over every loop. */
 void kli_loops_rate(const kl_model *m, const kli_pose *p, const double *v,
                     double *out);

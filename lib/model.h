@@ -85,6 +85,9 @@ typedef struct {
   int *angle_order;
   /* How each slide follows: q[slide_var] or u[slide_input]; -1 when neither. */
   int *slide_var, *slide_input;
+  /* The unknown that moves each coordinate one for one, or -1: x is its
+   * value from the inputs alone plus q[coord_var]. */
+  int *coord_var;
 
   /* Jacobian pattern: nz pairs (x row, y row) of one loop and one unknown. */
   int nnz_pairs;

@@ -13,6 +13,8 @@
 /* Newton's direction is given up for a damped step when the line search
  * would cut it below this fraction: it then points mostly off the way down. */
 #define KLI_NEWTON_ALPHA_MIN 1e-2
+/* The largest first-order move of a start (rad, slides in scale units). */
+#define KLI_TANGENT_MAX 0.1
 /* Damping factors tried, each ten times the last, before giving up. */
 #define KLI_DAMPING_TRIES 16
 /* Iterations in a row that leave |F| above this fraction of its value
@@ -43,9 +45,9 @@ static double half_square(const double *f, int n) {
   return 0.5 * sum;
 }
 
-static double evaluate(kl_solver *s, kli_pose *p, const double *q,
-                       const double *u, double *f) {
-  kli_expand(s->model, q, u, p->x);
+/* The residual at unknowns q, the inputs' share of x being s->x_base. */
+static double evaluate(kl_solver *s, kli_pose *p, const double *q, double *f) {
+  kli_add_unknowns(s->model, s->x_base, q, p->x);
   kli_pose_trig(s->model, p);
   s->stats.residual_evaluations++;
   return kli_residual(s->model, p, f);
@@ -65,6 +67,33 @@ static double slope_along(kl_solver *s, const double *f, const double *dq) {
   for (i = 0; i < s->n; i++)
     sum += f[i] * s->rhs[i];
   return sum;
+}
+
+/*
+ * Continuation built in: from a solved position whose factors are still at
+ * hand, the first-order change of the unknowns for the change of inputs,
+ * dq = -J^-1 (dF/du) du, moves the start along its branch. Used only when
+ * that move is small, so that it cannot carry the start to another branch.
+ */
+static void predict_from_tangent(kl_solver *s, double *q) {
+  int i, moved = 0;
+  if (!s->st.position_solved || s->st.last_attempt != KL_OK ||
+      !s->factors_current || s->dense.singular)
+    return;
+  for (i = 0; i < s->ninputs; i++) {
+    s->u_unit[i] = s->u_trial[i] - s->st.u[i];
+    moved |= s->u_unit[i] != 0.0;
+  }
+  if (!moved || s->n == 0)
+    return;
+  kli_input_terms_at(s->model, &s->st.pose, s->u_unit, s->xv, s->rhs);
+  for (i = 0; i < s->n; i++)
+    s->rhs[i] = -s->rhs[i];
+  kli_dense_solve(&s->dense, s->rhs);
+  if (scaled_norm(s, s->rhs) > KLI_TANGENT_MAX)
+    return;
+  for (i = 0; i < s->n; i++)
+    q[i] += s->rhs[i];
 }
 
 /* The loop furthest from closing, for messages. */
@@ -128,7 +157,7 @@ static int line_search(kl_solver *s, newton_iterate *it, const double *dq,
     double fnorm, phi, next_alpha;
     for (i = 0; i < s->n; i++)
       it->q_next[i] = it->q[i] + alpha * dq[i];
-    fnorm = evaluate(s, it->next, it->q_next, s->u_trial, it->f_next);
+    fnorm = evaluate(s, it->next, it->q_next, it->f_next);
     phi = half_square(it->f_next, s->n);
     if (isfinite(phi) && phi <= phi0 + KLI_ARMIJO * alpha * slope) {
       accept_trial(it, fnorm);
@@ -226,7 +255,9 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   it.f = s->f;
   it.f_next = s->f_next;
   kli_gather(s->model, s->st.pose.x, it.q);
-  it.fnorm = evaluate(s, it.cur, it.q, s->u_trial, it.f);
+  predict_from_tangent(s, it.q);
+  kli_expand_inputs(s->model, s->u_trial, s->x_base);
+  it.fnorm = evaluate(s, it.cur, it.q, it.f);
   s->factors_current = 0;
   for (iter = 0;; iter++) {
     int i;

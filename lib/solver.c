@@ -58,6 +58,7 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   carve_pose(&t->trial[0], c, nc, nl);
   carve_pose(&t->trial[1], c, nc, nl);
   t->u_trial = kli_carve(c, (size_t)ni, sizeof(double));
+  t->x_base = kli_carve(c, (size_t)nc, sizeof(double));
   t->u_unit = kli_carve(c, (size_t)ni, sizeof(double));
   t->q = kli_carve(c, (size_t)n, sizeof(double));
   t->dq = kli_carve(c, (size_t)n, sizeof(double));

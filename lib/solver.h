@@ -44,6 +44,7 @@ struct kl_solver {
   /* Working memory of the stages. */
   kli_pose trial[2];      /* Newton's current and trial iterates */
   double *u_trial;
+  double *x_base;         /* ncoords: the coordinates the inputs alone give */
   double *u_unit;         /* a unit input vector for the coefficients */
   double *q, *dq, *q_next;
   double *f, *f_next, *grad;

@@ -303,8 +303,10 @@ static int angle_groups(kl_model *m, work *w, kli_topology *t) {
       }
     }
   }
-  for (l = 0; l < m->nlinks; l++)
+  for (l = 0; l < m->nlinks; l++) {
     w->group_var[l] = t->angle_var[union_find(w->group_of, l)];
+    t->coord_var[l] = w->group_var[l];
+  }
   for (j = 0; j < m->njoints; j++) {
     t->slide_var[j] = -1;
     t->slide_input[j] = -1;
@@ -314,6 +316,8 @@ static int angle_groups(kl_model *m, work *w, kli_topology *t) {
     if (t->slide_input[j] < 0)
       t->slide_var[j] = nvars++;
   }
+  for (j = 0; j < m->njoints; j++)
+    t->coord_var[m->nlinks + j] = t->slide_var[j];
   t->nvars = nvars;
   return KL_OK;
 }
@@ -659,6 +663,7 @@ static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
   t->angle_sign = kli_carve(c, (size_t)nl, sizeof(double));
   t->slide_var = kli_carve(c, (size_t)nj, sizeof(int));
   t->slide_input = kli_carve(c, (size_t)nj, sizeof(int));
+  t->coord_var = kli_carve(c, (size_t)(nl + nj), sizeof(int));
   /* a loop term touches at most two unknowns */
   t->nz_row = kli_carve(c, (size_t)nlj * 4, sizeof(int));
   t->nz_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));

@@ -8,8 +8,7 @@
 #include "velocity.h"
 
 void kli_input_terms(kl_solver *s, const double *w, double *rhs) {
-  kli_expand(s->model, NULL, w, s->xv);
-  kli_loops_rate(s->model, &s->st.pose, s->xv, rhs);
+  kli_input_terms_at(s->model, &s->st.pose, w, s->xv, rhs);
 }
 
 void kli_rate_solve(kl_solver *s, double *rhs, const double *w, double *out) {
