@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # Runs every test three ways: a warnings-as-errors build with each suite
 # plain and under valgrind memcheck, then an AddressSanitizer +
-# UndefinedBehaviorSanitizer build.
+# UndefinedBehaviorSanitizer build; and the threads test under
+# ThreadSanitizer.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 jobs=${KINLOOP_JOBS:-2}
@@ -18,5 +19,12 @@ cmake --build build-asan -j"$jobs"
 # the install check builds an outside consumer without the sanitizer runtime
 ASAN_OPTIONS=detect_leaks=1:abort_on_error=1 \
   ctest --test-dir build-asan --output-on-failure -j"$jobs" -E install_package
+
+echo "== ThreadSanitizer: the threads test =="
+cmake -S . -B build-tsan -DKINLOOP_WERROR=ON -DKINLOOP_TSAN=ON \
+  -DKINLOOP_BUILD_BINDINGS=OFF -DKINLOOP_BUILD_EXAMPLES=OFF \
+  -DCMAKE_BUILD_TYPE=Debug >/dev/null
+cmake --build build-tsan -j"$jobs" --target test_threads
+TSAN_OPTIONS=halt_on_error=1 build-tsan/tests/test_threads
 
 echo "test-all: every suite passed"

@@ -227,6 +227,71 @@ kl_model *build_pin_linkage(const pin_linkage *p, int explicit_loops) {
   return m;
 }
 
+chain build_chain(int n) {
+  chain c;
+  int k, driver, pivot;
+  c.m = kl_model_new();
+  c.n = n;
+  c.crank = kl_add_link(c.m, "crank");
+  pivot = kl_add_revolute(c.m, KL_GROUND, 0, 0, c.crank, 0, 0);
+  kl_add_input(c.m, pivot);
+  driver = c.crank;
+  for (k = 0; k < n; k++) {
+    c.couplers[k] = kl_add_link(c.m, NULL);
+    c.rockers[k] = kl_add_link(c.m, NULL);
+    kl_add_revolute(c.m, driver, 40, 0, c.couplers[k], 0, 0);
+    kl_add_revolute(c.m, c.couplers[k], 120, 0, c.rockers[k], 80, 0);
+    kl_add_revolute(c.m, c.rockers[k], 0, 0, KL_GROUND, 100.0 * (k + 1), 0);
+    driver = c.rockers[k];
+  }
+  kl_model_finalize(c.m);
+  return c;
+}
+
+/*
+ * Freudenstein's equation in its half-angle tangent form, as given in
+ * standard machine-design texts (recalled from memory): with
+ * K1 = d/a, K2 = d/c, K3 = (a^2 - b^2 + c^2 + d^2) / (2 a c),
+ * A = cos t2 - K1 - K2 cos t2 + K3, B = -2 sin t2,
+ * C = K1 - (K2 + 1) cos t2 + K3, the rocker angle is
+ * t4 = 2 atan((-B + branch sqrt(B^2 - 4 A C)) / (2 A)).
+ * The coupler angle follows from the loop. Because the form is recalled,
+ * the function also checks that its angles close the loop (and returns 0
+ * if they do not, which the callers assert against).
+ */
+int freudenstein(const fourbar *f, double t2, int branch, double *t3,
+                 double *t4) {
+  double a = f->a, b = f->b, c = f->c, d = f->d;
+  double k1 = d / a, k2 = d / c;
+  double k3 = (a * a - b * b + c * c + d * d) / (2 * a * c);
+  double A = cos(t2) - k1 - k2 * cos(t2) + k3, B = -2 * sin(t2);
+  double C = k1 - (k2 + 1) * cos(t2) + k3, disc = B * B - 4 * A * C;
+  double ex, ey;
+  if (disc < 0)
+    return 0;
+  *t4 = 2 * atan2(-B + branch * sqrt(disc), 2 * A);
+  *t3 = atan2(c * sin(*t4) - a * sin(t2), d + c * cos(*t4) - a * cos(t2));
+  ex = a * cos(t2) + b * cos(*t3) - c * cos(*t4) - d;
+  ey = a * sin(t2) + b * sin(*t3) - c * sin(*t4);
+  return hypot(ex, ey) < 1e-10 * d;
+}
+
+void sketch_chain(const chain *c, kl_solver *s, double u) {
+  fourbar loop;
+  int k;
+  double t3, t4;
+  loop.a = 40;
+  loop.b = 120;
+  loop.c = 80;
+  loop.d = 100;
+  for (k = 0; k < c->n; k++) {
+    freudenstein(&loop, u, +1, &t3, &t4);
+    kl_set_link_angle(s, c->couplers[k], t3 + 0.05);
+    kl_set_link_angle(s, c->rockers[k], t4 - 0.05);
+    u = t4; /* the next loop's driver */
+  }
+}
+
 double angle_diff(double a, double b) {
   double d = fmod(a - b, 2 * PI);
   if (d > PI)

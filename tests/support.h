@@ -89,6 +89,28 @@ pin_linkage watt_sixbar(void);
 pin_linkage stephenson_sixbar(void);
 kl_model *build_pin_linkage(const pin_linkage *p, int explicit_loops);
 
+/* A chain of n four-bar loops (2n unknowns, a banded Jacobian): the crank
+ * (input 0) drives loop 0; the rocker of loop k, a ternary link, carries
+ * at its (a, 0) the crank pin of loop k + 1. Every loop is the crank-rocker
+ * ground d = 100, crank a = 40, coupler b = 120, rocker c = 80 between
+ * ground pivots at x = k d and (k + 1) d, so every loop assembles at any
+ * angle of its driver. couplers[k], rockers[k] are the links of loop k. */
+#define CHAIN_MAX 200
+typedef struct {
+  kl_model *m;
+  int n;
+  int crank, couplers[CHAIN_MAX], rockers[CHAIN_MAX];
+} chain;
+chain build_chain(int n);
+/* Sets sketch angles near the open branch of every loop at crank angle u. */
+void sketch_chain(const chain *c, kl_solver *s, double u);
+
+/* Freudenstein's equation (half-angle tangent form; see support.c): the
+ * coupler and rocker angles of branch +1 or -1 of four-bar f at crank angle
+ * t2; 0 if it does not assemble there. */
+int freudenstein(const fourbar *f, double t2, int branch, double *t3,
+                 double *t4);
+
 /* ---- numbers ---- */
 /* a - b reduced to (-pi, pi]. */
 double angle_diff(double a, double b);

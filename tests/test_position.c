@@ -9,32 +9,6 @@
 
 #include "support.h"
 
-/*
- * Freudenstein's equation in its half-angle tangent form, as given in
- * standard machine-design texts (recalled from memory): with
- * K1 = d/a, K2 = d/c, K3 = (a^2 - b^2 + c^2 + d^2) / (2 a c),
- * A = cos t2 - K1 - K2 cos t2 + K3, B = -2 sin t2,
- * C = K1 - (K2 + 1) cos t2 + K3, the rocker angle is
- * t4 = 2 atan((-B + branch sqrt(B^2 - 4 A C)) / (2 A)).
- * The coupler angle follows from the loop. Because the form is recalled,
- * freudenstein() also checks that its angles close the loop.
- */
-static int freudenstein(const fourbar *f, double t2, int branch, double *t3,
-                        double *t4) {
-  double a = f->a, b = f->b, c = f->c, d = f->d;
-  double k1 = d / a, k2 = d / c, k3 = (a * a - b * b + c * c + d * d) / (2 * a * c);
-  double A = cos(t2) - k1 - k2 * cos(t2) + k3, B = -2 * sin(t2);
-  double C = k1 - (k2 + 1) * cos(t2) + k3, disc = B * B - 4 * A * C;
-  double ex, ey;
-  if (disc < 0)
-    return 0;
-  *t4 = 2 * atan2(-B + branch * sqrt(disc), 2 * A);
-  *t3 = atan2(c * sin(*t4) - a * sin(t2), d + c * cos(*t4) - a * cos(t2));
-  ex = a * cos(t2) + b * cos(*t3) - c * cos(*t4) - d;
-  ey = a * sin(t2) + b * sin(*t3) - c * sin(*t4);
-  ck_assert_msg(hypot(ex, ey) < 1e-10 * d, "closed form does not close");
-  return 1;
-}
 
 static void check_fourbar_turn(fourbar *f, int branch) {
   kl_solver *s = kl_solver_new(f->m);
