@@ -14,8 +14,11 @@
  *    failure. A failed call changes nothing: the model or solver stays exactly
  *    as it was before the call.
  *  - The handle that failed keeps a message naming the offending ids and
- *    names (kl_model_error, kl_solver_error); the library never prints, exits,
- *    aborts or uses global mutable state.
+ *    names (kl_model_error, kl_solver_error), written by every failing call
+ *    that takes a non-const handle and kept until the next such failure;
+ *    calls on a const handle (getters) return their status and write no
+ *    message. The library never prints, exits, aborts or uses global
+ *    mutable state.
  *  - Memory: models and solvers allocate only through the allocator given at
  *    model creation. No call on a solver allocates after kl_solver_new.
  *  - Threads: a finalized model is immutable and may be shared by solvers on
@@ -414,8 +417,10 @@ KL_API kl_model *kl_model_read_file(const char *path, kl_io_error *err);
  * the NUL, into `*needed` (may be NULL): call once to size, once to write.
  * Reading the text back gives the same model (numbers are written with 17
  * significant digits; angles in degrees convert to within a rounding).
- * Returns KL_OK, or KL_EINVAL (NULL model, or buf too small: nothing is
- * cut short silently; *needed still says the length).
+ * Returns KL_OK (also for the sizing call with buf NULL and cap 0), or
+ * KL_EINVAL (NULL model, buf NULL with cap > 0, or buf too small: then the
+ * text is cut at cap - 1 bytes and NUL-terminated, and *needed still says
+ * the whole length).
  */
 KL_API int kl_model_write(const kl_model *m, char *buf, size_t cap,
                           size_t *needed);

@@ -804,6 +804,8 @@ int kl_model_write(const kl_model *m, char *buf, size_t cap, size_t *needed) {
   write_model(m, &o);
   if (needed != NULL)
     *needed = o.len;
+  if (buf == NULL)
+    return KL_OK; /* the sizing call */
   return o.len < cap ? KL_OK : KL_EINVAL;
 }
 

@@ -35,6 +35,8 @@ const char *kl_status_str(int status) {
   case KL_ENOASSEMBLY: return "no assembly: the loops cannot close";
   case KL_ESINGULAR: return "singular Jacobian";
   case KL_ESTAGE: return "stage called before the stage it needs";
+  case KL_ESYNTAX: return "model file syntax error";
+  case KL_EIO: return "file could not be read or written";
   default: return "unknown status";
   }
 }

@@ -9,6 +9,10 @@
 
 #include "kinloop.h"
 
+#ifdef __cplusplus
+extern "C" {
+#endif
+
 #define PI 3.14159265358979323846
 
 /* ---- allocator hook that counts, and fails the Nth call on request ---- */
@@ -116,5 +120,9 @@ int freudenstein(const fourbar *f, double t2, int branch, double *t3,
 double angle_diff(double a, double b);
 /* Relative difference |a - b| / max(|b|, floor). */
 double rel_diff(double a, double b, double floor);
+
+#ifdef __cplusplus
+}
+#endif
 
 #endif

@@ -17,9 +17,9 @@ START_TEST(version_and_status_texts) {
   int st, other;
   ck_assert_str_eq(kl_version(), KINLOOP_VERSION);
   ck_assert_int_eq(kl_version_number(), KINLOOP_VERSION_NUMBER);
-  for (st = KL_ESTAGE; st <= KL_STOPPED; st++) {
+  for (st = KL_EIO; st <= KL_STOPPED; st++) {
     ck_assert_str_ne(kl_status_str(st), "unknown status");
-    for (other = KL_ESTAGE; other < st; other++)
+    for (other = KL_EIO; other < st; other++)
       ck_assert_str_ne(kl_status_str(st), kl_status_str(other));
   }
   ck_assert_str_eq(kl_status_str(12345), "unknown status");
