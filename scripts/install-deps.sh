@@ -5,6 +5,11 @@ packages=(
   build-essential cmake pkgconf      # compiler and build
   liblapacke-dev                     # LAPACK through LAPACKE: the library's one dependency
   check libgsl-dev valgrind          # tests: Check suites, GSL reference solver, memcheck
+  clang libclang-rt-14-dev           # fuzzing with libFuzzer
+  python3-numpy python3-scipy python3-sympy python3-pytest  # Python bindings and their tests
+  octave liboctave-dev               # Octave bindings (mkoctfile) and their tests
+  libxml2-utils librsvg2-bin         # checking the SVG pictures (xmllint, rsvg-convert)
+  lcov                               # line coverage of lib/
 )
 sudo=""
 if [ "$(id -u)" -ne 0 ]; then sudo=sudo; fi

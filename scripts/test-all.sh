@@ -1,8 +1,8 @@
 #!/usr/bin/env bash
 # Runs every test three ways: a warnings-as-errors build with each suite
 # plain and under valgrind memcheck, then an AddressSanitizer +
-# UndefinedBehaviorSanitizer build; and the threads test under
-# ThreadSanitizer.
+# UndefinedBehaviorSanitizer build; the threads test under ThreadSanitizer;
+# and a short run of each fuzz target.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 jobs=${KINLOOP_JOBS:-2}
@@ -16,9 +16,11 @@ echo "== AddressSanitizer + UndefinedBehaviorSanitizer build =="
 cmake -S . -B build-asan -DKINLOOP_WERROR=ON -DKINLOOP_SANITIZE=ON \
   -DCMAKE_BUILD_TYPE=Debug >/dev/null
 cmake --build build-asan -j"$jobs"
-# the install check builds an outside consumer without the sanitizer runtime
+# the install check builds an outside consumer without the sanitizer
+# runtime, and the interpreters of the bindings are not instrumented
 ASAN_OPTIONS=detect_leaks=1:abort_on_error=1 \
-  ctest --test-dir build-asan --output-on-failure -j"$jobs" -E install_package
+  ctest --test-dir build-asan --output-on-failure -j"$jobs" \
+  -E "install_package|python|octave"
 
 echo "== ThreadSanitizer: the threads test =="
 cmake -S . -B build-tsan -DKINLOOP_WERROR=ON -DKINLOOP_TSAN=ON \
@@ -26,5 +28,8 @@ cmake -S . -B build-tsan -DKINLOOP_WERROR=ON -DKINLOOP_TSAN=ON \
   -DCMAKE_BUILD_TYPE=Debug >/dev/null
 cmake --build build-tsan -j"$jobs" --target test_threads
 TSAN_OPTIONS=halt_on_error=1 build-tsan/tests/test_threads
+
+echo "== fuzz smoke run: 60 s per target =="
+bash scripts/fuzz.sh 60
 
 echo "test-all: every suite passed"

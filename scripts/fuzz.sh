@@ -1,0 +1,30 @@
+#!/usr/bin/env bash
+# Builds the fuzz targets with clang (libFuzzer + AddressSanitizer +
+# UndefinedBehaviorSanitizer) and runs each for the given seconds (default
+# 60) from the seed corpus. A crash fails the run and leaves its input as
+# build-fuzz/crash-*; copy it to tests/fuzz/regressions/<corpus>-<name> so
+# that every build replays it. Long run: scripts/fuzz.sh 3600
+set -euo pipefail
+cd "$(dirname "$0")/.."
+seconds=${1:-60}
+CC=clang cmake -S . -B build-fuzz -DKINLOOP_FUZZ=ON -DKINLOOP_SANITIZE=ON \
+  -DKINLOOP_BUILD_BINDINGS=OFF -DKINLOOP_BUILD_EXAMPLES=OFF \
+  -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
+cmake --build build-fuzz -j2 --target fuzz_model_read fuzz_api
+for pair in model_read:model api:api; do
+  target=${pair%%:*}
+  corpus=${pair##*:}
+  work=build-fuzz/corpus-$corpus
+  mkdir -p "$work"
+  cp -n tests/fuzz/corpus/"$corpus"/* "$work"/ 2>/dev/null || true
+  echo "== fuzz_$target for $seconds s =="
+  (cd build-fuzz && ASAN_OPTIONS=detect_leaks=1 \
+     ./tests/fuzz/fuzz_"$target" -max_total_time="$seconds" -timeout=10 \
+     -rss_limit_mb=2048 -print_final_stats=1 "corpus-$corpus" 2>&1 |
+     grep -E "^(#[0-9]+.*DONE|Done|stat::number_of_executed_units|==.*ERROR|SUMMARY)" || true)
+  if ls build-fuzz/crash-* build-fuzz/leak-* build-fuzz/timeout-* >/dev/null 2>&1; then
+    echo "fuzz: fuzz_$target found a failing input (build-fuzz/crash-*)" >&2
+    exit 1
+  fi
+done
+echo "fuzz: no failures in $seconds s per target"

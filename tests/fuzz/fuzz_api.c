@@ -1,0 +1,178 @@
+/*
+ * fuzz_api.c - fuzz target for random sequences of API calls with random
+ * numbers: the bytes are a program of builder, solver and figure calls with
+ * ids in and out of range and numbers that may be NaN, infinite or huge.
+ * Nothing may crash, leak or return a status outside the known set.
+ */
+#include <math.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "kinloop.h"
+
+int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
+
+typedef struct {
+  const uint8_t *data;
+  size_t size, pos;
+} program;
+
+static unsigned byte(program *p) {
+  return p->pos < p->size ? p->data[p->pos++] : 0u;
+}
+
+/* An id near the valid range, sometimes outside it. */
+static int id(program *p, int count) {
+  return (int)(byte(p) % (unsigned)(count + 3)) - 1;
+}
+
+static double number(program *p) {
+  static const double special[] = {0.0,  1.0,   -1.0,  100.0, 1e-300,
+                                   1e300, NAN,   INFINITY, -INFINITY, 0.5};
+  unsigned kind = byte(p);
+  if (kind < 10)
+    return special[kind];
+  if (kind < 128) /* small lengths and angles */
+    return ((double)(int)byte(p) - 128.0) * 0.73 + (double)(kind & 7);
+  {
+    uint64_t bits = 0;
+    double v;
+    int k;
+    for (k = 0; k < 8; k++)
+      bits = bits << 8 | byte(p);
+    memcpy(&v, &bits, sizeof v);
+    return v;
+  }
+}
+
+static void check(int status) {
+  if (status < KL_EIO || status > KL_STOPPED)
+    abort();
+}
+
+static void build(program *p, kl_model *m) {
+  int ops = (int)(byte(p) % 24), k;
+  for (k = 0; k < ops && p->pos < p->size; k++) {
+    int nl = kl_model_link_count(m), nj = kl_model_joint_count(m);
+    int joints[6], n, i;
+    double ax = number(p), ay = number(p);
+    switch (byte(p) % 11) {
+    case 0:
+    case 1:
+      kl_add_link(m, byte(p) & 1 ? NULL : "n");
+      break;
+    case 2:
+    case 3:
+      kl_add_revolute(m, id(p, nl), ax, ay, id(p, nl), number(p), number(p));
+      break;
+    case 4:
+      kl_add_prismatic(m, id(p, nl), ax, ay, number(p), id(p, nl), number(p),
+                       number(p));
+      break;
+    case 5:
+      kl_add_slot_through(m, id(p, nl), ax, ay, number(p), number(p),
+                          id(p, nl), number(p), number(p));
+      break;
+    case 6:
+      kl_add_point(m, id(p, nl), ax, ay, NULL);
+      break;
+    case 7:
+      check(kl_add_input(m, id(p, nj)));
+      break;
+    case 8:
+      n = (int)(byte(p) % 6) + 1;
+      for (i = 0; i < n; i++)
+        joints[i] = id(p, nj);
+      check(kl_add_loop(m, n, joints));
+      break;
+    case 9:
+      check(kl_set_sketch_angle(m, id(p, nl), ax));
+      break;
+    default:
+      check(kl_set_sketch_slide(m, id(p, nj), ax));
+    }
+  }
+}
+
+static void solve(program *p, kl_model *m) {
+  kl_solver *s = kl_solver_new(m), *other;
+  int ni = kl_model_input_count(m), nl = kl_model_link_count(m);
+  int nj = kl_model_joint_count(m), np = kl_model_point_count(m);
+  int ops = (int)(byte(p) % 16), k, i;
+  double in[8], out[8];
+  if (s == NULL || ni > 8)
+    goto done;
+  other = kl_solver_new(m);
+  for (k = 0; k < ops && p->pos < p->size; k++) {
+    kl_output o;
+    kl_range r;
+    kl_sweep_result sw;
+    kl_dimension d;
+    kl_load load;
+    double v, w;
+    for (i = 0; i < ni; i++)
+      in[i] = number(p);
+    o.kind = (int)(byte(p) % 7);
+    o.id = id(p, nj);
+    o.line_a = id(p, nj);
+    o.line_b = id(p, nj);
+    switch (byte(p) % 13) {
+    case 0: check(kl_set_link_angle(s, id(p, nl), number(p))); break;
+    case 1: check(kl_set_joint_slide(s, id(p, nj), number(p))); break;
+    case 2:
+    case 3: check(kl_solve_position(s, in)); break;
+    case 4: check(kl_solve_velocity(s, in)); break;
+    case 5: check(kl_solve_acceleration(s, in)); break;
+    case 6: check(kl_solve_coefficients(s)); break;
+    case 7:
+      sw.size = sizeof sw;
+      check(kl_sweep(s, id(p, ni), number(p), number(p),
+                     (int)(byte(p) % 6), NULL, NULL, &sw));
+      break;
+    case 8:
+      r.size = sizeof r;
+      check(kl_output_range(s, id(p, ni), number(p), number(p),
+                            1 + (int)(byte(p) % 4), &o, &r));
+      break;
+    case 9:
+      check(kl_output_value(s, &o, &v));
+      check(kl_output_deriv(s, &o, id(p, ni), &w));
+      break;
+    case 10:
+      d.kind = (int)(byte(p) % 4);
+      d.id = id(p, d.kind == KL_DIM_POINT ? np : nj);
+      d.axis = (int)(byte(p) % 3);
+      check(kl_output_sensitivity(s, &o, &d, &v));
+      break;
+    case 11:
+      load.kind = (int)(byte(p) % 3);
+      load.id = id(p, load.kind == KL_LOAD_FORCE ? np : nl);
+      load.fx = number(p);
+      load.fy = number(p);
+      load.torque = number(p);
+      check(kl_input_effort(s, 1, &load, out));
+      break;
+    default:
+      check(kl_solver_copy_state(other, s));
+    }
+  }
+  kl_solver_free(other);
+done:
+  kl_solver_free(s);
+}
+
+int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size) {
+  program p;
+  kl_model *m = kl_model_new();
+  p.data = data;
+  p.size = size;
+  p.pos = 0;
+  if (m == NULL)
+    return 0;
+  build(&p, m);
+  if (kl_model_finalize(m) == KL_OK)
+    solve(&p, m);
+  kl_model_free(m);
+  return 0;
+}
