@@ -1,6 +1,7 @@
-/*
- * kinloop.h - the one public header of kinloop, an embeddable C99 library
- * for the position, velocity and acceleration of planar multi-loop linkages.
+/**
+ * @file kinloop.h
+ * @brief The one public header of kinloop, an embeddable C99 library for
+ * the position, velocity and acceleration of planar multi-loop linkages.
  *
  * Conventions that hold for every function below:
  *  - Angles are in radians, measured counter-clockwise from the global x-axis
@@ -34,6 +35,7 @@
 extern "C" {
 #endif
 
+/** Marks the library's exported symbols (the rest stay hidden). */
 #if defined(KINLOOP_BUILDING) && defined(__GNUC__)
 #define KL_API __attribute__((visibility("default")))
 #else
@@ -44,9 +46,13 @@ extern "C" {
  * Version
  * ------------------------------------------------------------------------ */
 
+/** Major version: changes when the API or ABI breaks. */
 #define KINLOOP_VERSION_MAJOR 0
+/** Minor version: new functions, nothing existing changed. */
 #define KINLOOP_VERSION_MINOR 1
+/** Patch version: fixes only. */
 #define KINLOOP_VERSION_PATCH 0
+/** The version as a string, "MAJOR.MINOR.PATCH"; the build reads it here. */
 #define KINLOOP_VERSION "0.1.0"
 /** MAJOR * 10000 + MINOR * 100 + PATCH, for compile-time comparisons. */
 #define KINLOOP_VERSION_NUMBER                                                 \
@@ -68,6 +74,8 @@ KL_API int kl_version_number(void);
  * Status codes
  * ------------------------------------------------------------------------ */
 
+/** Statuses every fallible call returns: 0 success, positive success with
+ * a remark, negative failure (see kl_status_str for the texts). */
 enum kl_status {
   KL_OK = 0,               /**< success */
   KL_LIMIT = 1,            /**< success with a remark: a motion limit was reached */
@@ -128,6 +136,7 @@ enum kl_joint_kind {
 typedef void *(*kl_alloc_fn)(void *user, void *ptr, size_t old_size,
                              size_t new_size);
 
+/** A mechanism description (opaque): built, finalized, then immutable. */
 typedef struct kl_model kl_model;
 
 /**
@@ -311,8 +320,9 @@ KL_API int kl_model_set_units(kl_model *m, int length_unit, int angle_unit);
 /** The recorded units into either pointer (may be NULL). KL_OK, KL_EINVAL. */
 KL_API int kl_model_units(const kl_model *m, int *length_unit,
                           int *angle_unit);
-/** "mm", "m", "in", or "" when unstated; "deg" or "rad" for angles. */
+/** "mm", "m", "in", or "" when unstated (static text). */
 KL_API const char *kl_length_unit_str(int length_unit);
+/** "deg" for KL_ANGLE_DEG, "rad" otherwise (static text). */
 KL_API const char *kl_angle_unit_str(int angle_unit);
 
 /**
@@ -333,7 +343,8 @@ KL_API double kl_sketch_slide(const kl_model *m, int joint);
 typedef struct kl_sweep_settings {
   size_t size; /**< sizeof(kl_sweep_settings), set by the caller */
   int input;   /**< which input sweeps */
-  double from, to; /**< range: rad, or length for a sliding input */
+  double from; /**< start: rad, or length for a sliding input */
+  double to;   /**< end, in the same unit */
   int steps;   /**< steps >= 1 */
 } kl_sweep_settings;
 
@@ -350,9 +361,9 @@ KL_API int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep);
  * id and KL_EINVAL for NULL pointers; they never set the model's message. */
 
 KL_API int kl_model_link_count(const kl_model *m);  /**< links including ground */
-KL_API int kl_model_joint_count(const kl_model *m);
-KL_API int kl_model_point_count(const kl_model *m);
-KL_API int kl_model_input_count(const kl_model *m);
+KL_API int kl_model_joint_count(const kl_model *m); /**< joints added so far */
+KL_API int kl_model_point_count(const kl_model *m); /**< points added so far */
+KL_API int kl_model_input_count(const kl_model *m); /**< inputs added so far */
 
 /** The link's name, "ground" for link 0, NULL if unnamed or unknown. */
 KL_API const char *kl_link_name(const kl_model *m, int link);
@@ -389,7 +400,9 @@ KL_API int kl_input_joint(const kl_model *m, int input);
 typedef struct kl_io_error {
   size_t size;       /**< sizeof(kl_io_error), set by the caller */
   int status;        /**< KL_OK, or why it failed */
-  int line, column;  /**< 1-based place of a syntax or model error; 0 if none */
+  int line;          /**< 1-based line of a syntax or statement error; 0 for
+                          the model as a whole or none */
+  int column;        /**< 1-based column in that line; 0 if none */
   char message[256]; /**< what was expected, and what was found */
 } kl_io_error;
 
@@ -432,6 +445,8 @@ KL_API int kl_model_write_file(const kl_model *m, const char *path,
  * Solving
  * ------------------------------------------------------------------------ */
 
+/** A solver for one finalized model (opaque): its state and all the memory
+ * its calls need. One thread at a time. */
 typedef struct kl_solver kl_solver;
 
 /** How the linear systems of a solver are factored (kl_options.kernel). */
@@ -608,7 +623,9 @@ KL_API double kl_link_rate(const kl_solver *s, int link);   /**< rad per time */
 KL_API double kl_link_accel(const kl_solver *s, int link);  /**< rad per time^2 */
 /** Slide of a prismatic or slot joint (length); NaN for revolute joints. */
 KL_API double kl_joint_slide(const kl_solver *s, int joint);
+/** Slide rate of a prismatic or slot joint (length per time). */
 KL_API double kl_joint_slide_rate(const kl_solver *s, int joint);
+/** Slide acceleration of a prismatic or slot joint (length per time^2). */
 KL_API double kl_joint_slide_accel(const kl_solver *s, int joint);
 /** Relative angle angle(b) - angle(a) of a joint (rad; 0 for prismatic). */
 KL_API double kl_joint_angle(const kl_solver *s, int joint);
@@ -804,8 +821,9 @@ enum kl_output_kind {
  */
 typedef struct kl_output {
   int kind;   /**< enum kl_output_kind */
-  int id;
-  int line_a, line_b;
+  int id;     /**< the link, joint or point the output is of */
+  int line_a; /**< transmission angle: another joint on the joint's link a */
+  int line_b; /**< transmission angle: another joint on the joint's link b */
 } kl_output;
 
 /**
@@ -827,7 +845,8 @@ KL_API int kl_output_deriv(kl_solver *s, const kl_output *o, int input,
 /** Extremes of an output over a sweep. Set `size` first. */
 typedef struct kl_range {
   size_t size;         /**< sizeof(kl_range), set by the caller */
-  double min, max;     /**< extreme values found */
+  double min;          /**< the smallest value found */
+  double max;          /**< the largest value found */
   double input_at_min; /**< input value where the minimum occurs */
   double input_at_max; /**< input value where the maximum occurs */
   int sweep_status;    /**< how the sweep ended (KL_OK or KL_LIMIT) */
@@ -873,10 +892,11 @@ enum kl_load_kind {
 
 /** An applied load. */
 typedef struct kl_load {
-  int kind; /**< enum kl_load_kind */
-  int id;   /**< point or link */
-  double fx, fy;
-  double torque;
+  int kind;      /**< enum kl_load_kind */
+  int id;        /**< point (force) or link (torque) */
+  double fx;     /**< force, global x (KL_LOAD_FORCE) */
+  double fy;     /**< force, global y (KL_LOAD_FORCE) */
+  double torque; /**< torque, counter-clockwise (KL_LOAD_TORQUE) */
 } kl_load;
 
 /**
@@ -901,8 +921,8 @@ enum kl_dimension_kind {
 /** A dimension: one local coordinate (axis 0 = x, 1 = y) of a point. */
 typedef struct kl_dimension {
   int kind; /**< enum kl_dimension_kind */
-  int id;
-  int axis;
+  int id;   /**< the joint or point */
+  int axis; /**< 0 for the local x coordinate, 1 for y */
 } kl_dimension;
 
 /**

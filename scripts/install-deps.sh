@@ -10,6 +10,7 @@ packages=(
   octave liboctave-dev               # Octave bindings (mkoctfile) and their tests
   libxml2-utils librsvg2-bin         # checking the SVG pictures (xmllint, rsvg-convert)
   lcov                               # line coverage of lib/
+  doxygen                            # the API reference
 )
 sudo=""
 if [ "$(id -u)" -ne 0 ]; then sudo=sudo; fi

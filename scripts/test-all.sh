@@ -12,6 +12,9 @@ cmake -S . -B build-test -DKINLOOP_WERROR=ON -DKINLOOP_MEMCHECK=ON >/dev/null
 cmake --build build-test -j"$jobs"
 ctest --test-dir build-test --output-on-failure -j"$jobs"
 
+echo "== API reference (Doxygen; an undocumented public item fails) =="
+cmake --build build-test --target docs
+
 echo "== AddressSanitizer + UndefinedBehaviorSanitizer build =="
 cmake -S . -B build-asan -DKINLOOP_WERROR=ON -DKINLOOP_SANITIZE=ON \
   -DCMAKE_BUILD_TYPE=Debug >/dev/null
