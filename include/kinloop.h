@@ -475,8 +475,17 @@ typedef struct kl_options {
                                 answers to rounding. */
 } kl_options;
 
-/** Fills `o` with the default options (and `o->size`). NULL does nothing. */
+/** Fills `o` with the default options (and `o->size`) as this header
+ * declares the struct. NULL does nothing. */
 KL_API void kl_options_default(kl_options *o);
+
+/**
+ * Fills at most `size` bytes of `o` with the default options and sets
+ * `o->size` to that size: for callers whose kl_options may be older (shorter)
+ * than the library's, e.g. bindings that mirror the struct. Fields the
+ * caller's struct lacks keep their defaults in kl_solver_set_options.
+ */
+KL_API void kl_options_init(kl_options *o, size_t size);
 
 /**
  * A new solver for a finalized model, with all the memory every later call
@@ -497,9 +506,10 @@ KL_API size_t kl_solver_bytes(const kl_model *m);
 
 /**
  * A new solver placed inside the caller's `block` of `size` bytes (at least
- * kl_solver_bytes(m), aligned as malloc aligns), so that no heap is used at
+ * kl_solver_bytes(m)), so that no heap is used at
  * all; the block must stay valid until kl_solver_free, which then frees
- * nothing. Returns NULL if an argument is bad or the block is too small.
+ * nothing. The block must be aligned for a double. Returns NULL if an
+ * argument is bad, the block is too small or misaligned.
  */
 KL_API kl_solver *kl_solver_new_in(const kl_model *m, void *block, size_t size);
 

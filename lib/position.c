@@ -240,6 +240,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
     return KL_EINVAL;
   memset(&s->stats, 0, sizeof s->stats);
   s->stats.size = sizeof s->stats;
+  s->stats.kernel = s->dense.kernel;
   if ((st = kli_check_input_values(s, inputs, "solve position", "input")) !=
       KL_OK) {
     s->stats.status = st;
@@ -314,7 +315,6 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   s->stats.residual = it.fnorm;
   s->stats.step = singular ? NAN : step;
   s->stats.rcond = kli_dense_rcond(&s->dense);
-  s->stats.kernel = s->dense.kernel;
   if (singular || s->stats.rcond < s->opt.singular_rcond) {
     st = kli_fail(s->error, KL_ESINGULAR,
                   "solve position: the Jacobian is singular at the solution "
@@ -328,6 +328,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   s->st.last_attempt = s->stats.status = KL_OK;
   return KL_OK;
 failed:
+  s->stats.iterations = iter + 1 > s->opt.max_iterations ? iter : iter + 1;
   s->stats.residual = it.fnorm;
   s->stats.step = step;
   s->stats.rcond = singular ? 0.0 : kli_dense_rcond(&s->dense);

@@ -7,12 +7,11 @@
 
 #include "solver.h"
 
-/* Options as of version 0.1; callers' structs are at least this long. */
-#define KLI_OPTIONS_V1_SIZE sizeof(kl_options)
+/* The first options struct ended before `kernel`: callers' structs are at
+ * least this long, and fields past a caller's size keep their defaults. */
+#define KLI_OPTIONS_V1_SIZE offsetof(kl_options, kernel)
 
-void kl_options_default(kl_options *o) {
-  if (o == NULL)
-    return;
+static void all_defaults(kl_options *o) {
   memset(o, 0, sizeof *o);
   o->size = sizeof *o;
   o->tolerance = 1e-12;
@@ -23,6 +22,19 @@ void kl_options_default(kl_options *o) {
   o->singular_rcond = 1e-8;
   o->kernel = KL_KERNEL_AUTO;
 }
+
+void kl_options_init(kl_options *o, size_t size) {
+  kl_options d;
+  if (o == NULL || size < sizeof o->size)
+    return;
+  all_defaults(&d);
+  if (size > sizeof d)
+    size = sizeof d;
+  d.size = size;
+  memcpy(o, &d, size);
+}
+
+void kl_options_default(kl_options *o) { kl_options_init(o, sizeof *o); }
 
 static void carve_pose(kli_pose *p, kli_carver *c, int ncoords, int nlinks) {
   p->x = kli_carve(c, (size_t)ncoords, sizeof(double));
@@ -148,7 +160,7 @@ kl_solver *kl_solver_new(const kl_model *m) {
 kl_solver *kl_solver_new_in(const kl_model *m, void *block, size_t size) {
   size_t need = kl_solver_bytes(m);
   if (need == 0 || block == NULL || size < need ||
-      ((size_t)block & (sizeof(double) - 1)) != 0)
+      ((size_t)block % sizeof(double)) != 0)
     return NULL;
   return place(m, block, need, 0);
 }
@@ -178,8 +190,10 @@ int kl_solver_set_options(kl_solver *s, const kl_options *o) {
     return kli_fail(s->error, KL_EINVAL,
                     "set options: %s; start from kl_options_default()",
                     o == NULL ? "no options (NULL)" : "options size too small");
-  next = *o;
-  next.size = sizeof next;
+  /* the caller's fields over the defaults, no further than its size */
+  all_defaults(&next);
+  memcpy((char *)&next + sizeof next.size, (const char *)o + sizeof o->size,
+         (o->size < sizeof next ? o->size : sizeof next) - sizeof o->size);
   if (!isfinite(next.tolerance) || !isfinite(next.step_tolerance) ||
       !isfinite(next.max_step) || !isfinite(next.singular_rcond))
     return kli_fail(s->error, KL_ENONFINITE,

@@ -149,7 +149,9 @@ static int deliver(kl_solver *s, int step, double input, kl_sweep_fn fn,
     return st;
   kli_state_copy(s, &s->delivered, &s->st);
   if (fn != NULL && fn(s, step, input, user) != 0)
-    return KL_STOPPED;
+    return kli_fail(s->error, KL_STOPPED,
+                    "sweep: the callback stopped it at step %d (input %.12g)",
+                    step, input);
   return KL_OK;
 }
 

@@ -5,6 +5,7 @@
  */
 #include <check.h>
 #include <math.h>
+#include <stddef.h>
 #include <string.h>
 
 #include "support.h"
@@ -374,6 +375,24 @@ START_TEST(options_are_checked) {
   o.size = 3;
   ck_assert_int_eq(kl_solver_set_options(s, &o), KL_EINVAL);
   ck_assert_int_eq(kl_solver_set_options(s, NULL), KL_EINVAL);
+  /* a caller built against the first options struct (before `kernel`):
+   * its struct is filled only so far, and the library takes only so far */
+  {
+    union {
+      kl_options o;
+      unsigned char bytes[sizeof(kl_options) + 8];
+    } old;
+    size_t first = offsetof(kl_options, kernel);
+    memset(old.bytes, 0xa5, sizeof old.bytes);
+    kl_options_init(&old.o, first);
+    ck_assert_uint_eq(old.o.size, first);
+    ck_assert_double_eq(old.o.tolerance, 1e-12);
+    ck_assert_int_eq(old.bytes[first], 0xa5); /* nothing written past it */
+    old.o.tolerance = 1e-10;
+    ck_assert_int_eq(kl_solver_set_options(s, &old.o), KL_OK);
+    ck_assert_int_eq(kl_solver_get_options(s, &back), KL_OK);
+    ck_assert_int_eq(back.kernel, KL_KERNEL_AUTO); /* defaulted, not 0xa5.. */
+  }
   /* the failures left the last good options in place */
   ck_assert_int_eq(kl_solver_get_options(s, &back), KL_OK);
   ck_assert_double_eq(back.tolerance, 1e-10);

@@ -1013,6 +1013,13 @@ octave_value_list cmd_options_default(const call &) {
   return one(options_struct(o));
 }
 
+/* The same defaults, filled only as far as this gateway's struct reaches. */
+octave_value_list cmd_options_init(const call &) {
+  kl_options o;
+  kl_options_init(&o, sizeof o);
+  return one(options_struct(o));
+}
+
 /* kl_solver_new gives NULL without a message: say which cause it was. */
 [[noreturn]] void solver_new_failed(const call &c, const entry &m, int id) {
   if (!kl_model_is_finalized(m.model))
@@ -1620,6 +1627,7 @@ const command commands[] = {
     {"model_write_file", 2, 2, "(model, path)", cmd_model_write_file},
     /* solving */
     {"options_default", 0, 0, "()", cmd_options_default},
+    {"options_init", 0, 0, "()", cmd_options_init},
     {"solver_new", 1, 1, "(model)", cmd_solver_new},
     {"solver_bytes", 1, 1, "(model)", cmd_solver_bytes},
     {"solver_new_in", 1, 1, "(model)", cmd_solver_new_in},
