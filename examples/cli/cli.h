@@ -1,0 +1,231 @@
+/*
+ * cli.h - what the modules of the kinloop command-line tool share: exit
+ * codes, the parsed options, the loaded model with its derived tables.
+ */
+#ifndef KINLOOP_CLI_H
+#define KINLOOP_CLI_H
+
+#include <stddef.h>
+#include <stdio.h>
+
+#include "kinloop.h"
+
+#define CLI_PI 3.14159265358979323846
+
+/* Exit codes, as documented in the usage text and docs/cli.md. */
+enum cli_exit {
+  CLI_EXIT_OK = 0,
+  CLI_EXIT_MEMORY = 1, /* out of memory, or a library call failed unexpectedly */
+  CLI_EXIT_USAGE = 2,  /* bad command line */
+  CLI_EXIT_MODEL = 3,  /* model file unreadable, not in the format, bad topology */
+  CLI_EXIT_SOLVE = 4,  /* a position asked for cannot be solved */
+  CLI_EXIT_OUTPUT = 5  /* an output file cannot be written */
+};
+
+enum cli_command {
+  CLI_CHECK,
+  CLI_SOLVE,
+  CLI_SWEEP,
+  CLI_DRAW,
+  CLI_PLOT,
+  CLI_WRITE,
+  CLI_DEMO,
+  CLI_NCOMMANDS
+};
+
+#define CLI_MAX_POSES 16
+#define CLI_MAX_SHOW 8
+
+/* The command line after parsing; numbers given per input stay text until
+ * the model (and so the number of inputs and their units) is known. */
+typedef struct {
+  int command;
+  const char *model_path; /* NULL: the built-in demo */
+  const char *output;     /* NULL or "-": standard output */
+  const char *input;      /* the input to sweep: joint name or index */
+  int have_from, have_to, have_steps;
+  double from, to; /* in the swept input's unit */
+  int steps;
+  int nat;
+  const char *at[CLI_MAX_POSES];
+  const char *rate, *accel;
+  int have_speed;
+  double speed; /* swept input's speed, its unit per second */
+  int all_digits;
+  int poses;
+  int no_paths;
+  int nshow;
+  const char *show[CLI_MAX_SHOW];
+  int order;
+  const char *dir;
+} cli_options;
+
+/* A transmission-angle site: revolute `joint` of loop `loop`, with the lines
+ * to its neighbours in the loop walk (line_a on the joint's link a, line_b
+ * on its link b), as kl_output takes them. */
+typedef struct {
+  int joint, line_a, line_b, loop;
+} cli_site;
+
+/* A joint the transmission rule names but the tool does not measure: its
+ * line on `link` has no length (the neighbouring joint stands at the same
+ * point of that link), or `link` is a crank the input turns directly, so
+ * the angle there says nothing about how well force gets through. */
+enum { CLI_NO_LINE, CLI_INPUT_CRANK };
+typedef struct {
+  int joint, loop, link, reason;
+} cli_unmeasured;
+
+/* A loop that is a four-bar with an input at one of its ground pivots. */
+typedef struct {
+  int loop, input_joint, cls;
+  int input_link, coupler_link, output_link;
+  double ground, input, coupler, output; /* link lengths */
+} cli_fourbar;
+
+typedef struct {
+  kl_model *model;
+  const char *label; /* the path given, or the demo's file name */
+  const char *text;  /* the model text as read */
+  size_t length;
+  char *owned_text;
+  int nlinks, njoints, npoints, ninputs, nloops;
+  char **link_names, **joint_names, **point_names; /* "@id" when unnamed */
+  double angle_factor;     /* model angle unit per radian */
+  const char *angle_unit;  /* "deg" or "rad" */
+  const char *length_unit; /* "mm", "m", "in", or "len" when unstated */
+  int nslides;
+  int *slides; /* the prismatic and slot joints, in id order */
+  int nsites;
+  cli_site *sites;
+  int nunmeasured;
+  cli_unmeasured *unmeasured;
+  int nfourbars;
+  cli_fourbar *fourbars;
+} cli_model;
+
+/* A sweep of one input, in library units (rad or length). */
+typedef struct {
+  int input;
+  double from, to;
+  int steps;
+} cli_range;
+
+/* ---- main.c: messages ---- */
+void cli_error(const char *fmt, ...)
+#ifdef __GNUC__
+    __attribute__((format(printf, 1, 2)))
+#endif
+    ;
+
+/* ---- model_io.c: model text in and out, output files ---- */
+extern const unsigned char cli_demo_text[];
+extern const size_t cli_demo_length;
+extern const char cli_demo_file_name[];
+/* Loads the file at `path`, or the built-in demo when NULL. Prints why it
+ * failed and returns an exit code. */
+int cli_model_load(cli_model *cm, const char *path);
+void cli_model_free(cli_model *cm);
+/* The model's leading comment block, one line per call: returns the start
+ * of line `k` (0-based) and its length, or NULL when there are no more. */
+const char *cli_model_comment(const cli_model *cm, int k, size_t *len);
+FILE *cli_open_output(const char *path);
+int cli_close_output(FILE *f, const char *path);
+int cli_cmd_write(const cli_model *cm, const cli_options *o);
+
+/* ---- loops.c: transmission-angle sites and four-bar loops ---- */
+int cli_analyse_loops(cli_model *cm);
+/* Transmission angle (rad) at a site in the solver's current state. */
+double cli_site_value(const kl_solver *s, const cli_site *site);
+
+/* ---- position.c: units, positions reached by continuation, ranges ---- */
+int cli_input_is_angle(const cli_model *cm, int input);
+double cli_input_factor(const cli_model *cm, int input); /* unit per lib unit */
+const char *cli_input_unit(const cli_model *cm, int input);
+const char *cli_input_name(const cli_model *cm, int input);
+void cli_home_inputs(const cli_model *cm, double *u);
+/* Parses "v1,v2,..." (one value per input, model units) into library units.
+ * Returns 0, or -1 after printing why. */
+int cli_parse_inputs(const cli_model *cm, const char *list, const char *what,
+                     double *u);
+/* Brings the solver to `target` by continuation from the home position (a
+ * direct solve from the sketch if home does not assemble). Returns a KL
+ * status; on failure `why` says what happened in the user's units. */
+int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
+              char *why, size_t cap);
+/* The range from the options, the model's sweep settings, or a full turn of
+ * input 0. Returns 1 with a range, 0 when there is none, or -1 after
+ * printing a usage error. */
+int cli_resolve_range(const cli_model *cm, const cli_options *o,
+                      cli_range *r);
+/* Reaches the start of the range (other inputs at --at or home). Returns an
+ * exit code after printing why it failed. */
+int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,
+                    const cli_range *r);
+/* Global position of a joint: its attachment point on link b. */
+void cli_joint_position(const kl_solver *s, const kl_model *m, int joint,
+                        double xy[2]);
+/* Global position of a point given in `link`'s frame. */
+void cli_local_to_global(const kl_solver *s, int link, const double local[2],
+                         double xy[2]);
+/* A value in the model's units for messages: "123.4 deg". */
+void cli_format_input(const cli_model *cm, int input, double value, char *buf,
+                      size_t cap);
+
+/* ---- record.c: a sweep as rows of raw library values ---- */
+enum cli_dim { CLI_DIM_INPUT, CLI_DIM_ANGLE, CLI_DIM_LENGTH, CLI_DIM_PLAIN };
+typedef struct {
+  char name[300];
+  int dim, order; /* order 0 value, 1 rate, 2 acceleration */
+} cli_column;
+int cli_column_count(const cli_model *cm);
+void cli_columns(const cli_model *cm, int input, cli_column *cols);
+int cli_col_link(const cli_model *cm, int link, int order);
+int cli_col_slide(const cli_model *cm, int slide_index, int order);
+int cli_col_point(const cli_model *cm, int point, int axis, int order);
+int cli_col_site(const cli_model *cm, int site);
+int cli_col_rcond(const cli_model *cm);
+/* Factor from raw values (rad, length, per rad or length of input) to the
+ * model's units, with rates per second at the given input speed. */
+double cli_column_factor(const cli_model *cm, int input, const cli_column *c,
+                         double speed);
+/* The column's unit: per second (per_input 0) or per input unit (1). */
+void cli_column_unit(const cli_model *cm, int input, const cli_column *c,
+                     int per_input, char *buf, size_t cap);
+typedef int (*cli_row_fn)(void *user, int step, const double *row);
+/* Sweeps `r` from the solver's state, handing each row to `fn` (non-zero
+ * stops). Returns what kl_sweep returned, or KL_ENOMEM. */
+int cli_record(kl_solver *s, const cli_model *cm, const cli_range *r,
+               cli_row_fn fn, void *user, kl_sweep_result *res);
+/* A note for a sweep that stopped early, in the user's units. */
+void cli_sweep_note(const cli_model *cm, const cli_range *r,
+                    const kl_sweep_result *res, char *buf, size_t cap);
+
+/* ---- report.c: text reports ---- */
+int cli_cmd_check(const cli_model *cm, const cli_options *o);
+int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o);
+int cli_cmd_solve(const cli_model *cm, const cli_options *o);
+
+/* ---- csv.c ---- */
+int cli_cmd_sweep(const cli_model *cm, const cli_options *o);
+
+/* ---- svg.c: shared SVG writing ---- */
+void svg_begin(FILE *f, double width, double height, const char *background);
+void svg_end(FILE *f);
+void svg_escaped(FILE *f, const char *s);
+const char *svg_colour(int k);
+#define SVG_FONT "DejaVu Sans, Verdana, sans-serif"
+#define SVG_INK "#2f2a24"
+
+/* ---- draw.c ---- */
+int cli_cmd_draw(const cli_model *cm, const cli_options *o);
+
+/* ---- plot.c ---- */
+int cli_cmd_plot(const cli_model *cm, const cli_options *o);
+/* Prints the output names `--show` accepts for this model. */
+void cli_list_outputs(FILE *f, const cli_model *cm);
+
+/* ---- demo.c ---- */
+int cli_cmd_demo(const cli_model *cm, const cli_options *o);
+
+#endif

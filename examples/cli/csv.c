@@ -1,0 +1,116 @@
+/*
+ * csv.c - the sweep command: one CSV row per step of a sweep, every
+ * quantity in the model's units, rates per second at the given speed.
+ */
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+
+typedef struct {
+  FILE *f;
+  int ncols;
+  const double *factor;
+  const char *format;
+} csv_sink;
+
+/* A CSV field, quoted when a comma, quote or line break would split it. */
+static void put_field(FILE *f, const char *text) {
+  const char *c;
+  if (strpbrk(text, ",\"\r\n") == NULL) {
+    fputs(text, f);
+    return;
+  }
+  fputc('"', f);
+  for (c = text; *c != '\0'; c++) {
+    if (*c == '"')
+      fputc('"', f);
+    fputc(*c, f);
+  }
+  fputc('"', f);
+}
+
+static int put_row(void *user, int step, const double *row) {
+  csv_sink *k = user;
+  int i;
+  (void)step;
+  for (i = 0; i < k->ncols; i++) {
+    if (i > 0)
+      fputc(',', k->f);
+    fprintf(k->f, k->format, row[i] * k->factor[i]);
+  }
+  fputc('\n', k->f);
+  return ferror(k->f) != 0; /* a full disk stops the sweep */
+}
+
+int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
+  cli_range r;
+  cli_column *cols;
+  double *factor;
+  kl_solver *s;
+  kl_sweep_result res;
+  csv_sink sink;
+  int st, i, found = cli_resolve_range(cm, o, &r);
+  if (found < 0)
+    return CLI_EXIT_USAGE;
+  if (found == 0) {
+    cli_error("nothing to sweep: %s; give --input, --from and --to",
+              cm->ninputs == 0 ? "the model has no inputs"
+                               : "the model has no sweep line and its input "
+                                 "slides");
+    return CLI_EXIT_USAGE;
+  }
+  sink.ncols = cli_column_count(cm);
+  cols = malloc((size_t)sink.ncols * sizeof *cols);
+  factor = malloc((size_t)sink.ncols * sizeof *factor);
+  s = kl_solver_new(cm->model);
+  if (cols == NULL || factor == NULL || s == NULL) {
+    cli_error("out of memory");
+    st = CLI_EXIT_MEMORY;
+    goto done;
+  }
+  cli_columns(cm, r.input, cols);
+  for (i = 0; i < sink.ncols; i++)
+    factor[i] = cli_column_factor(cm, r.input, &cols[i],
+                                  o->have_speed ? o->speed : 1.0);
+  if ((st = cli_reach_start(s, cm, o, &r)) != CLI_EXIT_OK)
+    goto done;
+  if ((sink.f = cli_open_output(o->output)) == NULL) {
+    st = CLI_EXIT_OUTPUT;
+    goto done;
+  }
+  for (i = 0; i < sink.ncols; i++) {
+    char name[400], unit[64];
+    cli_column_unit(cm, r.input, &cols[i], 0, unit, sizeof unit);
+    snprintf(name, sizeof name, "%s (%s)", cols[i].name, unit);
+    if (i > 0)
+      fputc(',', sink.f);
+    put_field(sink.f, name);
+  }
+  fputc('\n', sink.f);
+  sink.factor = factor;
+  sink.format = o->all_digits ? "%.17g" : "%.6g";
+  st = cli_record(s, cm, &r, put_row, &sink, &res);
+  i = cli_close_output(sink.f, o->output);
+  if (st == KL_ENOMEM) {
+    cli_error("out of memory");
+    st = CLI_EXIT_MEMORY;
+  } else if (i != CLI_EXIT_OK || st == KL_STOPPED) {
+    st = CLI_EXIT_OUTPUT;
+  } else if (st == KL_LIMIT || st == KL_ESINGULAR) {
+    char note[1024];
+    cli_sweep_note(cm, &r, &res, note, sizeof note);
+    cli_error("note: %s; the rows before it are written", note);
+    st = CLI_EXIT_OK;
+  } else if (st != KL_OK) {
+    cli_error("the sweep failed: %s", kl_solver_error(s));
+    st = CLI_EXIT_SOLVE;
+  } else {
+    st = CLI_EXIT_OK;
+  }
+done:
+  kl_solver_free(s);
+  free(cols);
+  free(factor);
+  return st;
+}

@@ -1,0 +1,748 @@
+/*
+ * draw.c - the draw command: an SVG picture of the mechanism at chosen
+ * positions, in model coordinates under one y-flipping transform, with the
+ * paths its points trace over the sweep.
+ */
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+
+#define CANVAS_WIDTH 860.0
+#define MAX_HEIGHT 900.0
+#define MARGIN 34.0
+#define HEADER 58.0
+#define FOOTER 46.0
+#define JOINT_PX 5.5 /* joint marker radius */
+#define BAR_PX 7.0   /* binary link width */
+#define OUTLINE_PX 3.0 /* stroke of a plate-shaped link */
+#define PAPER "#f7f4ec"
+#define GHOST_OPACITY 0.3
+
+typedef struct {
+  double *inputs;      /* library units */
+  double *link_angle;  /* per link */
+  double *link_origin; /* 2 per link */
+  double *joint_xy;    /* 2 per joint */
+  double *point_xy;    /* 2 per point */
+  double *slide;       /* per joint (NaN for revolute) */
+} pose;
+
+typedef struct {
+  int n, cap;
+  double *xy;    /* 2 per point per row */
+  double *slide; /* per sliding joint per row */
+  int npoints, nslides;
+} paths;
+
+typedef struct {
+  int n;         /* points of the outline */
+  double *local; /* 2 per point, the convex hull in the link's frame */
+} outline;
+
+typedef struct {
+  double s, tx, ty; /* screen = (tx + s x, ty - s y) */
+} view;
+
+/* ---- gathering ---- */
+
+typedef struct {
+  paths *p;
+  const cli_model *cm;
+} path_sink;
+
+static int path_row(void *user, int step, const double *row) {
+  path_sink *k = user;
+  paths *p = k->p;
+  int i;
+  (void)step;
+  if (p->n == p->cap) {
+    int cap = p->cap == 0 ? 256 : 2 * p->cap;
+    double *xy = realloc(p->xy, (size_t)cap * 2 * (size_t)(p->npoints + 1) *
+                                    sizeof *xy);
+    double *sl;
+    if (xy == NULL)
+      return 1;
+    p->xy = xy;
+    sl = realloc(p->slide,
+                 (size_t)cap * (size_t)(p->nslides + 1) * sizeof *sl);
+    if (sl == NULL)
+      return 1;
+    p->slide = sl;
+    p->cap = cap;
+  }
+  for (i = 0; i < p->npoints; i++) {
+    p->xy[2 * (p->n * p->npoints + i)] = row[cli_col_point(k->cm, i, 0, 0)];
+    p->xy[2 * (p->n * p->npoints + i) + 1] =
+        row[cli_col_point(k->cm, i, 1, 0)];
+  }
+  for (i = 0; i < p->nslides; i++)
+    p->slide[p->n * p->nslides + i] = row[cli_col_slide(k->cm, i, 0)];
+  p->n++;
+  return 0;
+}
+
+static int pose_alloc(pose *q, const cli_model *cm) {
+  size_t ni = (size_t)(cm->ninputs + 1), nl = (size_t)cm->nlinks,
+         nj = (size_t)(cm->njoints + 1), np = (size_t)(cm->npoints + 1);
+  q->inputs = malloc(ni * sizeof(double));
+  q->link_angle = malloc(nl * sizeof(double));
+  q->link_origin = malloc(2 * nl * sizeof(double));
+  q->joint_xy = malloc(2 * nj * sizeof(double));
+  q->point_xy = malloc(2 * np * sizeof(double));
+  q->slide = malloc(nj * sizeof(double));
+  return q->inputs && q->link_angle && q->link_origin && q->joint_xy &&
+         q->point_xy && q->slide;
+}
+
+static void pose_free(pose *q) {
+  free(q->inputs);
+  free(q->link_angle);
+  free(q->link_origin);
+  free(q->joint_xy);
+  free(q->point_xy);
+  free(q->slide);
+}
+
+static void pose_take(pose *q, const cli_model *cm, const kl_solver *s) {
+  int i;
+  for (i = 0; i < cm->ninputs; i++)
+    q->inputs[i] = kl_input_value(s, i);
+  for (i = 0; i < cm->nlinks; i++) {
+    q->link_angle[i] = kl_link_angle(s, i);
+    kl_link_origin(s, i, q->link_origin + 2 * i);
+  }
+  for (i = 0; i < cm->njoints; i++) {
+    cli_joint_position(s, cm->model, i, q->joint_xy + 2 * i);
+    q->slide[i] = kl_joint_slide(s, i);
+  }
+  for (i = 0; i < cm->npoints; i++)
+    kl_point_position(s, i, q->point_xy + 2 * i);
+}
+
+static void to_global(const pose *q, int link, const double local[2],
+                      double xy[2]) {
+  double c = cos(q->link_angle[link]), s = sin(q->link_angle[link]);
+  xy[0] = q->link_origin[2 * link] + c * local[0] - s * local[1];
+  xy[1] = q->link_origin[2 * link + 1] + s * local[0] + c * local[1];
+}
+
+/* ---- link outlines: convex hull of a link's joints and points ---- */
+
+static double cross(const double *o, const double *a, const double *b) {
+  return (a[0] - o[0]) * (b[1] - o[1]) - (a[1] - o[1]) * (b[0] - o[0]);
+}
+
+static int by_xy(const void *pa, const void *pb) {
+  const double *a = pa, *b = pb;
+  if (a[0] != b[0])
+    return a[0] < b[0] ? -1 : 1;
+  if (a[1] != b[1])
+    return a[1] < b[1] ? -1 : 1;
+  return 0;
+}
+
+/* Andrew's monotone chain over n points (2 doubles each) in place; returns
+ * the hull's size, its points first in `pts`, counter-clockwise. */
+static int hull(double *pts, int n, double *out) {
+  int i, k = 0, lower;
+  qsort(pts, (size_t)n, 2 * sizeof(double), by_xy);
+  for (i = 0; i < n; i++) { /* drop repeats */
+    if (k > 0 && pts[2 * i] == pts[2 * (k - 1)] &&
+        pts[2 * i + 1] == pts[2 * (k - 1) + 1])
+      continue;
+    pts[2 * k] = pts[2 * i];
+    pts[2 * k + 1] = pts[2 * i + 1];
+    k++;
+  }
+  n = k;
+  if (n <= 2) {
+    memcpy(out, pts, (size_t)n * 2 * sizeof(double));
+    return n;
+  }
+  k = 0;
+  for (i = 0; i < n; i++) {
+    while (k >= 2 && cross(out + 2 * (k - 2), out + 2 * (k - 1), pts + 2 * i) <= 0)
+      k--;
+    out[2 * k] = pts[2 * i];
+    out[2 * k + 1] = pts[2 * i + 1];
+    k++;
+  }
+  lower = k + 1;
+  for (i = n - 2; i >= 0; i--) {
+    while (k >= lower &&
+           cross(out + 2 * (k - 2), out + 2 * (k - 1), pts + 2 * i) <= 0)
+      k--;
+    out[2 * k] = pts[2 * i];
+    out[2 * k + 1] = pts[2 * i + 1];
+    k++;
+  }
+  return k - 1; /* the last repeats the first */
+}
+
+static int make_outlines(const cli_model *cm, outline *o) {
+  const kl_model *m = cm->model;
+  int cap = 2 * (cm->njoints + cm->npoints) + 2, l, j, p;
+  double *pts = malloc((size_t)cap * 2 * sizeof *pts);
+  if (pts == NULL)
+    return 0;
+  for (l = 1; l < cm->nlinks; l++) {
+    int n = 0;
+    for (j = 0; j < cm->njoints; j++) {
+      int links[2];
+      double a[2], b[2];
+      kl_joint_links(m, j, links, a, b);
+      if (links[0] == l) {
+        pts[2 * n] = a[0];
+        pts[2 * n + 1] = a[1];
+        n++;
+      }
+      if (links[1] == l) {
+        pts[2 * n] = b[0];
+        pts[2 * n + 1] = b[1];
+        n++;
+      }
+    }
+    for (p = 0; p < cm->npoints; p++) {
+      double xy[2];
+      if (kl_point_link(m, p, xy) == l) {
+        pts[2 * n] = xy[0];
+        pts[2 * n + 1] = xy[1];
+        n++;
+      }
+    }
+    o[l].local = malloc((size_t)(n + 2) * 2 * sizeof(double));
+    if (o[l].local == NULL) {
+      free(pts);
+      return 0;
+    }
+    o[l].n = n > 0 ? hull(pts, n, o[l].local) : 0;
+  }
+  free(pts);
+  return 1;
+}
+
+/* ---- bounds and the view ---- */
+
+typedef struct {
+  double x0, y0, x1, y1;
+  int empty;
+} box;
+
+static void grow(box *b, double x, double y) {
+  if (!isfinite(x) || !isfinite(y))
+    return;
+  if (b->empty) {
+    b->x0 = b->x1 = x;
+    b->y0 = b->y1 = y;
+    b->empty = 0;
+    return;
+  }
+  if (x < b->x0)
+    b->x0 = x;
+  if (x > b->x1)
+    b->x1 = x;
+  if (y < b->y0)
+    b->y0 = y;
+  if (y > b->y1)
+    b->y1 = y;
+}
+
+/* The stretch of a guide line to draw: every slide seen, plus a margin. */
+static void rail_span(const cli_model *cm, const pose *poses, int nposes,
+                      const paths *p, int slide_index, double pad,
+                      double *lo, double *hi) {
+  int joint = cm->slides[slide_index], k;
+  *lo = *hi = poses[0].slide[joint];
+  for (k = 1; k < nposes; k++) {
+    double v = poses[k].slide[joint];
+    *lo = v < *lo ? v : *lo;
+    *hi = v > *hi ? v : *hi;
+  }
+  for (k = 0; k < p->n; k++) {
+    double v = p->slide[k * p->nslides + slide_index];
+    *lo = v < *lo ? v : *lo;
+    *hi = v > *hi ? v : *hi;
+  }
+  *lo -= pad;
+  *hi += pad;
+}
+
+/* A point of joint j's guide line at slide v, global, for pose q. */
+static void rail_point(const cli_model *cm, const pose *q, int joint,
+                       double v, double xy[2]) {
+  int links[2];
+  double a[2], local[2], axis = kl_joint_axis(cm->model, joint);
+  kl_joint_links(cm->model, joint, links, a, NULL);
+  local[0] = a[0] + v * cos(axis);
+  local[1] = a[1] + v * sin(axis);
+  to_global(q, links[0], local, xy);
+}
+
+/* ---- writing ---- */
+
+static void put_xy(FILE *f, const double xy[2]) {
+  fprintf(f, "%.9g,%.9g ", xy[0], xy[1]);
+}
+
+static void draw_ground_pivot(FILE *f, const double *xy, double u) {
+  double x = xy[0], y = xy[1], h = 2.6 * u, w = 1.7 * u;
+  int k;
+  fprintf(f,
+          "<polygon points=\"%.9g,%.9g %.9g,%.9g %.9g,%.9g\" fill=\"#d9d2c3\" "
+          "stroke=\"%s\" stroke-width=\"%.9g\" stroke-linejoin=\"round\"/>\n",
+          x, y, x - w, y - h, x + w, y - h, SVG_INK, 0.25 * u);
+  fprintf(f,
+          "<line x1=\"%.9g\" y1=\"%.9g\" x2=\"%.9g\" y2=\"%.9g\" "
+          "stroke=\"%s\" stroke-width=\"%.9g\"/>\n",
+          x - 1.6 * w, y - h, x + 1.6 * w, y - h, SVG_INK, 0.3 * u);
+  for (k = 0; k < 6; k++) {
+    double hx = x - 1.6 * w + (k + 0.5) * (3.2 * w / 6);
+    fprintf(f,
+            "<line x1=\"%.9g\" y1=\"%.9g\" x2=\"%.9g\" y2=\"%.9g\" "
+            "stroke=\"%s\" stroke-width=\"%.9g\"/>\n",
+            hx, y - h, hx - 0.7 * u, y - h - 0.9 * u, SVG_INK, 0.18 * u);
+  }
+}
+
+/* Draws a guide line; a rail on ground gets hatching on the side away
+ * from `centre`, where the linkage is not. */
+static void draw_rail(FILE *f, const cli_model *cm, const pose *q, int joint,
+                      double lo, double hi, double u, int on_ground,
+                      const double centre[2]) {
+  double p0[2], p1[2], dx, dy, len, nx, ny;
+  int k, marks;
+  rail_point(cm, q, joint, lo, p0);
+  rail_point(cm, q, joint, hi, p1);
+  fprintf(f,
+          "<line x1=\"%.9g\" y1=\"%.9g\" x2=\"%.9g\" y2=\"%.9g\" stroke=\"%s\" "
+          "stroke-width=\"%.9g\" stroke-linecap=\"round\"%s/>\n",
+          p0[0], p0[1], p1[0], p1[1], SVG_INK, (on_ground ? 0.3 : 0.22) * u,
+          on_ground ? "" : " stroke-dasharray=\"1.2,0.6\"");
+  if (!on_ground)
+    return;
+  dx = p1[0] - p0[0];
+  dy = p1[1] - p0[1];
+  len = hypot(dx, dy);
+  if (len == 0)
+    return;
+  nx = dy / len;
+  ny = -dx / len;
+  if (nx * (centre[0] - p0[0]) + ny * (centre[1] - p0[1]) > 0) {
+    nx = -nx;
+    ny = -ny;
+  }
+  marks = (int)(len / (1.4 * u));
+  if (marks > 400)
+    marks = 400;
+  for (k = 0; k <= marks; k++) {
+    double t = marks ? (double)k / marks : 0.0;
+    double x = p0[0] + t * dx + nx * 1.2 * u, y = p0[1] + t * dy + ny * 1.2 * u;
+    fprintf(f,
+            "<line x1=\"%.9g\" y1=\"%.9g\" x2=\"%.9g\" y2=\"%.9g\" "
+            "stroke=\"%s\" stroke-width=\"%.9g\"/>\n",
+            x - nx * 1.2 * u, y - ny * 1.2 * u, x - 0.8 * u * dx / len,
+            y - 0.8 * u * dy / len, SVG_INK, 0.16 * u);
+  }
+}
+
+static void draw_pose(FILE *f, const cli_model *cm, const pose *q,
+                      const outline *o, const pose *poses, int nposes,
+                      const paths *p, double u, int main_pose) {
+  const kl_model *m = cm->model;
+  int l, j, k, i;
+  fprintf(f, "<g class=\"pose\" data-inputs=\"");
+  for (i = 0; i < cm->ninputs; i++)
+    fprintf(f, "%s%.17g", i ? " " : "", q->inputs[i]);
+  if (main_pose)
+    fprintf(f, "\">\n");
+  else
+    fprintf(f, "\" opacity=\"%g\">\n", GHOST_OPACITY);
+  for (k = 0; k < cm->nslides; k++) {
+    int links[2];
+    double lo, hi;
+    kl_joint_links(m, cm->slides[k], links, NULL, NULL);
+    if (links[0] == KL_GROUND)
+      continue;
+    rail_span(cm, poses, nposes, p, k, 3 * u, &lo, &hi);
+    draw_rail(f, cm, q, cm->slides[k], lo, hi, u, 0, NULL);
+  }
+  for (l = 1; l < cm->nlinks; l++) {
+    const char *colour = svg_colour(l - 1);
+    double xy[2];
+    if (o[l].n >= 3) {
+      fprintf(f, "<polygon class=\"link\" data-link=\"");
+      svg_escaped(f, cm->link_names[l]);
+      fprintf(f, "\" points=\"");
+      for (k = 0; k < o[l].n; k++) {
+        to_global(q, l, o[l].local + 2 * k, xy);
+        put_xy(f, xy);
+      }
+      fprintf(f,
+              "\" fill=\"%s\" fill-opacity=\"0.22\" stroke=\"%s\" "
+              "stroke-width=\"%.9g\" stroke-linejoin=\"round\"/>\n",
+              colour, colour, OUTLINE_PX / JOINT_PX * u);
+    } else if (o[l].n == 2) {
+      double xy2[2];
+      to_global(q, l, o[l].local, xy);
+      to_global(q, l, o[l].local + 2, xy2);
+      fprintf(f, "<line class=\"link\" data-link=\"");
+      svg_escaped(f, cm->link_names[l]);
+      fprintf(f,
+              "\" x1=\"%.9g\" y1=\"%.9g\" x2=\"%.9g\" y2=\"%.9g\" "
+              "stroke=\"%s\" stroke-width=\"%.9g\" stroke-linecap=\"round\"/>\n",
+              xy[0], xy[1], xy2[0], xy2[1], colour, BAR_PX / JOINT_PX * u);
+    }
+  }
+  /* slider blocks of prismatic joints, along their axis */
+  for (k = 0; k < cm->nslides; k++) {
+    int joint = cm->slides[k], links[2];
+    double axis, c, s, cx, cy, hl = 2.6 * u, hw = 1.6 * u;
+    if (kl_joint_kind(m, joint) != KL_PRISMATIC)
+      continue;
+    kl_joint_links(m, joint, links, NULL, NULL);
+    axis = q->link_angle[links[0]] + kl_joint_axis(m, joint);
+    c = cos(axis);
+    s = sin(axis);
+    cx = q->joint_xy[2 * joint];
+    cy = q->joint_xy[2 * joint + 1];
+    fprintf(f,
+            "<polygon class=\"block\" points=\"%.9g,%.9g %.9g,%.9g %.9g,%.9g "
+            "%.9g,%.9g\" fill=\"%s\" stroke=\"%s\" stroke-width=\"%.9g\"/>\n",
+            cx - hl * c + hw * s, cy - hl * s - hw * c, cx + hl * c + hw * s,
+            cy + hl * s - hw * c, cx + hl * c - hw * s, cy + hl * s + hw * c,
+            cx - hl * c - hw * s, cy - hl * s + hw * c,
+            svg_colour(links[1] - 1), SVG_INK, 0.25 * u);
+  }
+  for (j = 0; j < cm->njoints; j++) {
+    fprintf(f, "<circle class=\"joint\" data-joint=\"");
+    svg_escaped(f, cm->joint_names[j]);
+    fprintf(f,
+            "\" cx=\"%.17g\" cy=\"%.17g\" r=\"%.9g\" fill=\"#fffdf7\" "
+            "stroke=\"%s\" stroke-width=\"%.9g\"><title>",
+            q->joint_xy[2 * j], q->joint_xy[2 * j + 1],
+            kl_joint_kind(m, j) == KL_REVOLUTE ? u : 0.6 * u, SVG_INK,
+            0.3 * u);
+    svg_escaped(f, cm->joint_names[j]);
+    fprintf(f, "</title></circle>\n");
+  }
+  for (i = 0; i < cm->npoints; i++) {
+    fprintf(f, "<circle class=\"point\" data-point=\"");
+    svg_escaped(f, cm->point_names[i]);
+    fprintf(f,
+            "\" cx=\"%.17g\" cy=\"%.17g\" r=\"%.9g\" fill=\"%s\" "
+            "stroke=\"#fffdf7\" stroke-width=\"%.9g\"/>\n",
+            q->point_xy[2 * i], q->point_xy[2 * i + 1], 0.8 * u,
+            svg_colour(i + 4), 0.25 * u);
+  }
+  fprintf(f, "</g>\n");
+}
+
+static void screen(const view *v, const double xy[2], double *sx, double *sy) {
+  *sx = v->tx + v->s * xy[0];
+  *sy = v->ty - v->s * xy[1];
+}
+
+/* A round length near a fifth of the drawing's width, for the scale bar. */
+static double scale_bar_length(double width) {
+  double target = width / 5, step = pow(10, floor(log10(target)));
+  if (5 * step <= target)
+    return 5 * step;
+  if (2 * step <= target)
+    return 2 * step;
+  return step;
+}
+
+static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
+                      int nposes, const paths *p, const outline *o,
+                      const cli_range *r, int have_range) {
+  const kl_model *m = cm->model;
+  box b;
+  view v;
+  double width, height, draw_w, draw_h, u, bar, bx, by, centre[2];
+  int k, i, j;
+  b.empty = 1;
+  b.x0 = b.y0 = b.x1 = b.y1 = 0;
+  for (k = 0; k < nposes; k++) {
+    for (j = 0; j < cm->njoints; j++)
+      grow(&b, poses[k].joint_xy[2 * j], poses[k].joint_xy[2 * j + 1]);
+    for (i = 0; i < cm->npoints; i++)
+      grow(&b, poses[k].point_xy[2 * i], poses[k].point_xy[2 * i + 1]);
+    for (i = 1; i < cm->nlinks; i++)
+      for (j = 0; j < o[i].n; j++) {
+        double xy[2];
+        to_global(&poses[k], i, o[i].local + 2 * j, xy);
+        grow(&b, xy[0], xy[1]);
+      }
+  }
+  for (k = 0; k < p->n * p->npoints; k++)
+    grow(&b, p->xy[2 * k], p->xy[2 * k + 1]);
+  if (b.empty) {
+    b.x0 = b.y0 = -1;
+    b.x1 = b.y1 = 1;
+  }
+  if (b.x1 - b.x0 < 1e-9 * (1 + fabs(b.x0)) &&
+      b.y1 - b.y0 < 1e-9 * (1 + fabs(b.y0))) {
+    double pad = kl_model_scale(m);
+    b.x0 -= pad;
+    b.x1 += pad;
+    b.y0 -= pad;
+    b.y1 += pad;
+  }
+  /* room for ground symbols and rails below and beside the linkage */
+  {
+    double ext = fmax(b.x1 - b.x0, b.y1 - b.y0), pad = 0.08 * ext;
+    b.x0 -= pad;
+    b.x1 += pad;
+    b.y0 -= pad;
+    b.y1 += pad;
+  }
+  width = CANVAS_WIDTH;
+  draw_w = width - 2 * MARGIN;
+  v.s = draw_w / (b.x1 - b.x0);
+  draw_h = v.s * (b.y1 - b.y0);
+  if (draw_h + HEADER + FOOTER > MAX_HEIGHT) {
+    draw_h = MAX_HEIGHT - HEADER - FOOTER;
+    v.s = draw_h / (b.y1 - b.y0);
+  }
+  height = HEADER + draw_h + FOOTER;
+  v.tx = MARGIN + 0.5 * (draw_w - v.s * (b.x1 - b.x0)) - v.s * b.x0;
+  v.ty = HEADER + v.s * b.y1;
+  u = JOINT_PX / v.s; /* one joint radius, in model units */
+  centre[0] = 0.5 * (b.x0 + b.x1);
+  centre[1] = 0.5 * (b.y0 + b.y1);
+
+  svg_begin(f, width, height, PAPER);
+  fprintf(f, "<text x=\"%g\" y=\"26\" font-size=\"17\" font-weight=\"bold\" "
+             "fill=\"%s\">",
+          MARGIN, SVG_INK);
+  svg_escaped(f, cm->label);
+  fprintf(f, "</text>\n<text x=\"%g\" y=\"45\" font-size=\"12\" "
+             "fill=\"#6a6256\">",
+          MARGIN);
+  if (cm->ninputs == 1) {
+    svg_escaped(f, cli_input_name(cm, 0));
+    fprintf(f, " at");
+    for (k = 0; k < nposes; k++)
+      fprintf(f, "%s%.6g", k ? ", " : " ",
+              poses[k].inputs[0] * cli_input_factor(cm, 0));
+    fprintf(f, " %s", cli_input_unit(cm, 0));
+  } else {
+    fprintf(f, "%s", nposes > 1 ? "positions" : "position");
+    for (k = 0; k < nposes; k++) {
+      fprintf(f, "%s", k ? "; " : " ");
+      for (i = 0; i < cm->ninputs; i++) {
+        char text[320];
+        cli_format_input(cm, i, poses[k].inputs[i], text, sizeof text);
+        fprintf(f, "%s", i ? ", " : "");
+        svg_escaped(f, text);
+      }
+      if (cm->ninputs == 0)
+        fprintf(f, "the only one");
+    }
+  }
+  if (nposes > 1)
+    fprintf(f, " (the first in full colour)");
+  if (have_range && p->n > 1 && cm->npoints > 0) {
+    fprintf(f, "; paths over ");
+    svg_escaped(f, cli_input_name(cm, r->input));
+    fprintf(f, " %.6g to %.6g %s", r->from * cli_input_factor(cm, r->input),
+            r->to * cli_input_factor(cm, r->input),
+            cli_input_unit(cm, r->input));
+  }
+  fprintf(f, "</text>\n");
+
+  fprintf(f,
+          "<g class=\"model\" transform=\"matrix(%.17g 0 0 %.17g %.17g "
+          "%.17g)\">\n",
+          v.s, -v.s, v.tx, v.ty);
+  /* ground: rails and pivots, the same in every position */
+  for (k = 0; k < cm->nslides; k++) {
+    int links[2];
+    double lo, hi;
+    kl_joint_links(m, cm->slides[k], links, NULL, NULL);
+    if (links[0] != KL_GROUND)
+      continue;
+    rail_span(cm, poses, nposes, p, k, 3 * u, &lo, &hi);
+    draw_rail(f, cm, &poses[0], cm->slides[k], lo, hi, u, 1, centre);
+  }
+  for (j = 0; j < cm->njoints; j++) {
+    int links[2];
+    double a[2], bb[2];
+    kl_joint_links(m, j, links, a, bb);
+    if (kl_joint_kind(m, j) != KL_REVOLUTE)
+      continue;
+    if (links[0] == KL_GROUND)
+      draw_ground_pivot(f, a, u);
+    else if (links[1] == KL_GROUND)
+      draw_ground_pivot(f, bb, u);
+  }
+  for (i = 0; i < p->npoints && p->n > 1; i++) {
+    fprintf(f, "<polyline class=\"path\" data-point=\"");
+    svg_escaped(f, cm->point_names[i]);
+    fprintf(f, "\" fill=\"none\" stroke=\"%s\" stroke-width=\"%.9g\" "
+               "stroke-dasharray=\"%.9g,%.9g\" points=\"",
+            svg_colour(i + 4), 0.28 * u, 1.0 * u, 0.5 * u);
+    for (k = 0; k < p->n; k++)
+      put_xy(f, p->xy + 2 * (k * p->npoints + i));
+    fprintf(f, "\"/>\n");
+  }
+  for (k = nposes - 1; k >= 0; k--)
+    draw_pose(f, cm, &poses[k], o, poses, nposes, p, u, k == 0);
+  fprintf(f, "</g>\n");
+
+  /* names beside the first position, in screen coordinates */
+  for (i = 0; i < cm->npoints; i++) {
+    double sx, sy;
+    screen(&v, poses[0].point_xy + 2 * i, &sx, &sy);
+    fprintf(f,
+            "<text x=\"%.2f\" y=\"%.2f\" font-size=\"12\" font-style=\"italic\" "
+            "fill=\"%s\">",
+            sx + 8, sy - 7, svg_colour(i + 4));
+    svg_escaped(f, cm->point_names[i]);
+    fprintf(f, "</text>\n");
+  }
+  for (j = 0; j < cm->njoints; j++) {
+    double sx, sy, ox, oy;
+    int below = 0; /* joints drawn at the same spot get their names stacked */
+    screen(&v, poses[0].joint_xy + 2 * j, &sx, &sy);
+    for (i = 0; i < j; i++) {
+      screen(&v, poses[0].joint_xy + 2 * i, &ox, &oy);
+      if (fabs(ox - sx) < 2 && fabs(oy - sy) < 2)
+        below++;
+    }
+    fprintf(f,
+            "<text x=\"%.2f\" y=\"%.2f\" font-size=\"10\" fill=\"#8a8174\">",
+            sx + 7, sy + 15 + 11 * below);
+    svg_escaped(f, cm->joint_names[j]);
+    fprintf(f, "</text>\n");
+  }
+  /* footer: a scale bar and the key to the paths */
+  bar = scale_bar_length((b.x1 - b.x0));
+  bx = width - MARGIN - bar * v.s;
+  by = height - 20;
+  fprintf(f,
+          "<line x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" stroke=\"%s\" "
+          "stroke-width=\"3\"/>\n<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" "
+          "text-anchor=\"middle\" fill=\"%s\">%g %s</text>\n",
+          bx, by, bx + bar * v.s, by, SVG_INK, bx + 0.5 * bar * v.s, by - 7,
+          SVG_INK, bar, cm->length_unit);
+  if (p->n > 1)
+    for (i = 0; i < cm->npoints && i < 6; i++) {
+      double x = MARGIN + 150.0 * i;
+      fprintf(f,
+              "<line x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" "
+              "stroke=\"%s\" stroke-width=\"2\" stroke-dasharray=\"6,3\"/>\n"
+              "<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" fill=\"%s\">path "
+              "of ",
+              x, by - 4, x + 24, by - 4, svg_colour(i + 4), x + 30, by,
+              SVG_INK);
+      svg_escaped(f, cm->point_names[i]);
+      fprintf(f, "</text>\n");
+    }
+  svg_end(f);
+}
+
+int cli_cmd_draw(const cli_model *cm, const cli_options *o) {
+  cli_range r;
+  paths p;
+  path_sink sink;
+  pose poses[CLI_MAX_POSES];
+  outline *outlines = NULL;
+  kl_solver *s = NULL;
+  int found, nposes = 0, st = CLI_EXIT_OK, k, i;
+  FILE *f;
+  memset(&p, 0, sizeof p);
+  memset(poses, 0, sizeof poses);
+  found = cli_resolve_range(cm, o, &r);
+  if (found < 0)
+    return CLI_EXIT_USAGE;
+  p.npoints = cm->npoints;
+  p.nslides = cm->nslides;
+  s = kl_solver_new(cm->model);
+  outlines = calloc((size_t)cm->nlinks, sizeof *outlines);
+  if (s == NULL || outlines == NULL || !make_outlines(cm, outlines))
+    goto nomem;
+  /* the paths, which also tell how far the motion reaches */
+  if (found) {
+    cli_options start = *o;
+    kl_sweep_result res;
+    start.nat = 0;
+    if ((st = cli_reach_start(s, cm, &start, &r)) != CLI_EXIT_OK)
+      goto done;
+    sink.p = &p;
+    sink.cm = cm;
+    st = cli_record(s, cm, &r, path_row, &sink, &res);
+    if (st == KL_STOPPED || st == KL_ENOMEM)
+      goto nomem;
+    if (st == KL_LIMIT || st == KL_ESINGULAR) {
+      char note[1024];
+      cli_sweep_note(cm, &r, &res, note, sizeof note);
+      cli_error("note: %s; the paths end there", note);
+    } else if (st != KL_OK) {
+      cli_error("the sweep for the paths failed: %s", kl_solver_error(s));
+      st = CLI_EXIT_SOLVE;
+      goto done;
+    }
+    st = CLI_EXIT_OK;
+  }
+  nposes = o->nat > 0 ? o->nat : found ? (o->poses > 0 ? o->poses : 4) : 1;
+  for (k = 0; k < nposes; k++) {
+    char why[2048];
+    double *target;
+    if (!pose_alloc(&poses[k], cm))
+      goto nomem;
+    target = poses[k].inputs;
+    if (o->nat > 0) {
+      if (cli_parse_inputs(cm, o->at[k], "--at", target) != 0) {
+        st = CLI_EXIT_USAGE;
+        goto done;
+      }
+    } else {
+      cli_home_inputs(cm, target);
+      if (found && p.n > 0) {
+        /* spread over the steps the sweep reached; a closed turn would
+         * draw its first position twice */
+        int closed = cli_input_is_angle(cm, r.input) && p.n == r.steps + 1 &&
+                     fabs(fabs(r.to - r.from) - 2 * CLI_PI) < 1e-9;
+        int last = p.n - 1, at;
+        at = nposes == 1 ? 0
+             : closed    ? (int)floor((double)k * last / nposes + 0.5)
+                         : (int)floor((double)k * last / (nposes - 1) + 0.5);
+        target[r.input] = r.from + (r.to - r.from) * at / r.steps;
+      }
+    }
+    if ((i = cli_reach(s, cm, target, why, sizeof why)) != KL_OK) {
+      if (i == KL_ENOMEM)
+        goto nomem;
+      cli_error("%s", why);
+      st = CLI_EXIT_SOLVE;
+      goto done;
+    }
+    pose_take(&poses[k], cm, s);
+  }
+  if (o->no_paths)
+    p.n = 0;
+  if ((f = cli_open_output(o->output)) == NULL) {
+    st = CLI_EXIT_OUTPUT;
+    goto done;
+  }
+  write_svg(f, cm, poses, nposes, &p, outlines, &r, found);
+  st = cli_close_output(f, o->output);
+  goto done;
+nomem:
+  cli_error("out of memory");
+  st = CLI_EXIT_MEMORY;
+done:
+  for (k = 0; k < CLI_MAX_POSES; k++)
+    pose_free(&poses[k]);
+  if (outlines != NULL)
+    for (k = 0; k < cm->nlinks; k++)
+      free(outlines[k].local);
+  free(outlines);
+  free(p.xy);
+  free(p.slide);
+  kl_solver_free(s);
+  return st;
+}

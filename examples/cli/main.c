@@ -1,0 +1,497 @@
+/*
+ * main.c - the kinloop tool's command line: usage texts, option parsing,
+ * and dispatch to the command that does the work.
+ */
+#include <errno.h>
+#include <stdarg.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+
+void cli_error(const char *fmt, ...) {
+  va_list ap;
+  fputs("kinloop: ", stderr);
+  va_start(ap, fmt);
+  vfprintf(stderr, fmt, ap);
+  va_end(ap);
+  fputc('\n', stderr);
+}
+
+static const char *const command_names[CLI_NCOMMANDS] = {
+    "check", "solve", "sweep", "draw", "plot", "write", "demo"};
+
+static const char general_usage[] =
+    "kinloop %s - position, velocity and acceleration of planar linkages\n"
+    "\n"
+    "usage: kinloop                         the built-in demo: a summary, and\n"
+    "                                       files in ./kinloop-demo/\n"
+    "       kinloop COMMAND [MODEL] [OPTIONS]\n"
+    "       kinloop COMMAND --help          the options of one command\n"
+    "\n"
+    "commands:\n"
+    "  check   structure, loops, Grashof class, ranges over the sweep, warnings\n"
+    "  solve   one position: link angles, slides, points, with rates and\n"
+    "          accelerations, transmission angles, condition estimate\n"
+    "  sweep   the motion over an input range, one CSV row per step\n"
+    "  draw    SVG picture of the mechanism at chosen positions, with the paths\n"
+    "          its points trace\n"
+    "  plot    SVG plot of chosen outputs against the swept input\n"
+    "  write   the model in the library's canonical model-file text\n"
+    "  demo    the built-in demo (what kinloop does with no arguments)\n"
+    "\n"
+    "MODEL is a model file (docs/model-format.md); without one a command works on\n"
+    "the built-in demo, a carton flap-tucking station. Angles on the command line\n"
+    "are in the model's angle unit, lengths in its length unit.\n"
+    "\n"
+    "exit status:\n"
+    "  0  success\n"
+    "  1  out of memory, or an unexpected library failure\n"
+    "  2  usage error: unknown command or option, bad value\n"
+    "  3  model error: file unreadable, not in the format, bad topology\n"
+    "  4  solve failure: no assembly, singular position, or a motion limit\n"
+    "     before a position that was asked for\n"
+    "  5  an output file or folder cannot be written\n";
+
+static const char range_help[] =
+    "  --input JOINT     the input to sweep: its joint's name or its index\n"
+    "                    (0, 1, ...); default: the model's sweep line, else 0\n"
+    "  --from X          start of the range (default: the model's sweep line\n"
+    "                    if it sweeps this input, else 0)\n"
+    "  --to X            end of the range (default: the model's sweep line\n"
+    "                    if it sweeps this input, else one full turn from the\n"
+    "                    start; a sliding input then needs --to)\n"
+    "  --steps N         number of equal steps (default: the model's sweep\n"
+    "                    line if it sweeps this input, else 72)\n";
+
+static const char *const command_help[CLI_NCOMMANDS] = {
+    /* check */
+    "usage: kinloop check [MODEL] [OPTIONS]\n"
+    "\n"
+    "Reports the model's structure (links, joints, degrees of freedom, inputs,\n"
+    "loops by their joints), the Grashof class of each four-bar loop driven at a\n"
+    "ground pivot, and, over the sweep range, the motion limits, the smallest\n"
+    "condition estimate, the swing of links pivoted on ground, the stroke of\n"
+    "each slide, time ratios, and the transmission angle ranges; then warnings\n"
+    "to act on (transmission angle outside the usual 40-140 deg, a motion limit\n"
+    "or singular position inside the range, no sketch angles).\n"
+    "\n"
+    "options:\n"
+    "%s"
+    "  --at LIST         values of every input at the start, comma-separated\n"
+    "                    (the swept input's own entry is replaced by --from)\n"
+    "  -o, --output FILE write the report to FILE instead of standard output\n"
+    "\n"
+    "Warnings do not change the exit status; a start position that cannot be\n"
+    "solved exits with 4.\n",
+    /* solve */
+    "usage: kinloop solve [MODEL] [OPTIONS]\n"
+    "\n"
+    "Solves one position, reached by continuation from the model's start (its\n"
+    "sweep line's start, other inputs 0) so that the assembly mode is the one the\n"
+    "sketch chose, and prints link angles, slides, points (position, velocity,\n"
+    "acceleration), transmission angles and the condition estimate.\n"
+    "\n"
+    "options:\n"
+    "  --at LIST         input values, comma-separated, one per input\n"
+    "                    (default: the start position)\n"
+    "  --rate LIST       input rates, per second (default: 1 for each input)\n"
+    "  --accel LIST      input accelerations, per second squared (default: 0)\n"
+    "  -o, --output FILE write the table to FILE instead of standard output\n",
+    /* sweep */
+    "usage: kinloop sweep [MODEL] [OPTIONS]\n"
+    "\n"
+    "Sweeps one input over a range and writes CSV: a header row of names with\n"
+    "units, then one row per step with the input, every link's angle, rate and\n"
+    "acceleration, every slide's, every point's x and y with theirs, every\n"
+    "transmission angle, and the condition estimate. The input turns at a\n"
+    "constant speed; with the default speed 1 the rates and accelerations read\n"
+    "as first- and second-order kinematic coefficients per input unit.\n"
+    "\n"
+    "options:\n"
+    "%s"
+    "  --at LIST         values of every input at the start, comma-separated\n"
+    "                    (the swept input's own entry is replaced by --from)\n"
+    "  --speed W         the swept input's constant speed, its unit per second\n"
+    "                    (default 1): rates scale by W, accelerations by W^2\n"
+    "  --all-digits      write every number with 17 significant digits\n"
+    "                    (default 6)\n"
+    "  -o, --output FILE write the CSV to FILE instead of standard output\n"
+    "\n"
+    "A sweep that meets a motion limit or a singular position writes the rows\n"
+    "before it, says where it stopped on standard error, and exits with 0.\n",
+    /* draw */
+    "usage: kinloop draw [MODEL] [OPTIONS]\n"
+    "\n"
+    "Draws the mechanism as SVG at one or more positions (the first in full\n"
+    "colour, the others faint), ground pivots and rails hatched, with the path\n"
+    "of every point over the sweep range. Each position is reached from the\n"
+    "model's start by continuation, as kinloop solve does.\n"
+    "\n"
+    "options:\n"
+    "%s"
+    "  --at LIST         a position to draw (input values, comma-separated);\n"
+    "                    repeat for more positions, up to 16\n"
+    "  --poses N         without --at: N positions spread over the range\n"
+    "                    (default 4)\n"
+    "  --no-paths        leave out the point paths\n"
+    "  -o, --output FILE write the SVG to FILE instead of standard output\n",
+    /* plot */
+    "usage: kinloop plot [MODEL] --show OUTPUT [--show OUTPUT ...] [OPTIONS]\n"
+    "\n"
+    "Plots outputs against the swept input as SVG. OUTPUT is one of\n"
+    "  angle:LINK          a link's angle\n"
+    "  slide:JOINT         a prismatic or slot joint's slide\n"
+    "  x:POINT, y:POINT    a point's coordinate\n"
+    "  transmission:JOINT  a transmission angle (the usual 40-140 deg band is\n"
+    "                      shaded)\n"
+    "with LINK, JOINT and POINT by name (an unnamed one as @id, its id in the\n"
+    "model file). Outputs in one plot must share a unit. Without --show,\n"
+    "kinloop plot lists the outputs the model has (on standard error, exit\n"
+    "status 2).\n"
+    "\n"
+    "options:\n"
+    "%s"
+    "  --show OUTPUT     an output to plot; repeat for up to 8\n"
+    "  --order N         0 the output itself (default), 1 its first-order\n"
+    "                    kinematic coefficient d output / d input, 2 its\n"
+    "                    second-order coefficient (not for transmission)\n"
+    "  --at LIST         values of every input at the start, comma-separated\n"
+    "                    (the swept input's own entry is replaced by --from)\n"
+    "  -o, --output FILE write the SVG to FILE instead of standard output\n",
+    /* write */
+    "usage: kinloop write [MODEL] [-o FILE]\n"
+    "\n"
+    "Reads MODEL (default: the built-in demo) and writes it back in the\n"
+    "library's canonical model-file text: every number with 17 significant\n"
+    "digits, comments dropped. Reading the result gives the same model.\n"
+    "\n"
+    "options:\n"
+    "  -o, --output FILE write to FILE instead of standard output\n",
+    /* demo */
+    "usage: kinloop demo [--dir DIR]\n"
+    "       kinloop\n"
+    "\n"
+    "Prints a summary of the built-in demo, a carton flap-tucking station (the\n"
+    "check report, and the worst motor torque against the loads of the\n"
+    "flap and the rail), and writes into DIR: the model file, a CSV sweep at\n"
+    "60 rpm, a drawing and four plots.\n"
+    "\n"
+    "options:\n"
+    "  --dir DIR         the folder to write (default kinloop-demo; made if\n"
+    "                    missing)\n"};
+
+enum {
+  OPT_OUTPUT,
+  OPT_INPUT,
+  OPT_FROM,
+  OPT_TO,
+  OPT_STEPS,
+  OPT_AT,
+  OPT_RATE,
+  OPT_ACCEL,
+  OPT_SPEED,
+  OPT_ALL_DIGITS,
+  OPT_POSES,
+  OPT_NO_PATHS,
+  OPT_SHOW,
+  OPT_ORDER,
+  OPT_DIR,
+  OPT_HELP
+};
+
+#define BIT(c) (1u << (c))
+#define RANGE_CMDS (BIT(CLI_CHECK) | BIT(CLI_SWEEP) | BIT(CLI_DRAW) | BIT(CLI_PLOT))
+
+static const struct {
+  const char *name;
+  char letter;
+  int takes_value;
+  unsigned commands;
+} option_specs[] = {
+    {"output", 'o', 1, RANGE_CMDS | BIT(CLI_SOLVE) | BIT(CLI_WRITE)},
+    {"input", 0, 1, RANGE_CMDS},
+    {"from", 0, 1, RANGE_CMDS},
+    {"to", 0, 1, RANGE_CMDS},
+    {"steps", 0, 1, RANGE_CMDS},
+    {"at", 0, 1, RANGE_CMDS | BIT(CLI_SOLVE)},
+    {"rate", 0, 1, BIT(CLI_SOLVE)},
+    {"accel", 0, 1, BIT(CLI_SOLVE)},
+    {"speed", 0, 1, BIT(CLI_SWEEP)},
+    {"all-digits", 0, 0, BIT(CLI_SWEEP)},
+    {"poses", 0, 1, BIT(CLI_DRAW)},
+    {"no-paths", 0, 0, BIT(CLI_DRAW)},
+    {"show", 0, 1, BIT(CLI_PLOT)},
+    {"order", 0, 1, BIT(CLI_PLOT)},
+    {"dir", 0, 1, BIT(CLI_DEMO)},
+    {"help", 'h', 0, ~0u},
+};
+#define NOPTIONS ((int)(sizeof option_specs / sizeof option_specs[0]))
+
+static int usage_error(int command, const char *fmt, const char *arg) {
+  fputs("kinloop: ", stderr);
+  fprintf(stderr, fmt, arg);
+  if (command >= 0)
+    fprintf(stderr, "\n(kinloop %s --help lists its options)\n",
+            command_names[command]);
+  else
+    fputs("\n(kinloop --help lists the commands)\n", stderr);
+  return CLI_EXIT_USAGE;
+}
+
+static void print_command_help(int command) {
+  printf(command_help[command], range_help);
+}
+
+static int parse_number(int command, const char *option, const char *text,
+                        double *value) {
+  char *end;
+  errno = 0;
+  *value = strtod(text, &end);
+  if (end == text || *end != '\0' || errno == ERANGE ||
+      *value != *value || *value - *value != 0.0) {
+    char what[128];
+    snprintf(what, sizeof what, "--%s wants a finite number, not '%%s'",
+             option);
+    return usage_error(command, what, text);
+  }
+  return CLI_EXIT_OK;
+}
+
+static int parse_count(int command, const char *option, const char *text,
+                       int lowest, int highest, int *value) {
+  char *end;
+  long v;
+  errno = 0;
+  v = strtol(text, &end, 10);
+  if (end == text || *end != '\0' || errno == ERANGE || v < lowest ||
+      v > highest) {
+    char what[128];
+    snprintf(what, sizeof what,
+             "--%s wants a whole number from %d to %d, not '%%s'", option,
+             lowest, highest);
+    return usage_error(command, what, text);
+  }
+  *value = (int)v;
+  return CLI_EXIT_OK;
+}
+
+/* Finds the option an argument names; NULL value when it takes none. */
+static int match_option(const char *arg, const char **inline_value) {
+  int i;
+  *inline_value = NULL;
+  if (arg[0] == '-' && arg[1] != '-' && arg[1] != '\0' && arg[2] == '\0') {
+    for (i = 0; i < NOPTIONS; i++)
+      if (option_specs[i].letter == arg[1])
+        return i;
+    return -1;
+  }
+  if (strncmp(arg, "--", 2) == 0) {
+    const char *name = arg + 2, *eq = strchr(name, '=');
+    size_t n = eq != NULL ? (size_t)(eq - name) : strlen(name);
+    for (i = 0; i < NOPTIONS; i++)
+      if (strlen(option_specs[i].name) == n &&
+          strncmp(option_specs[i].name, name, n) == 0) {
+        if (eq != NULL)
+          *inline_value = eq + 1;
+        return i;
+      }
+  }
+  return -1;
+}
+
+static int store_option(cli_options *o, int which, const char *value) {
+  int c = o->command, st = CLI_EXIT_OK;
+  const char *name = option_specs[which].name;
+  switch (which) {
+  case OPT_OUTPUT:
+    o->output = value;
+    break;
+  case OPT_INPUT:
+    o->input = value;
+    break;
+  case OPT_FROM:
+    o->have_from = 1;
+    st = parse_number(c, name, value, &o->from);
+    break;
+  case OPT_TO:
+    o->have_to = 1;
+    st = parse_number(c, name, value, &o->to);
+    break;
+  case OPT_STEPS:
+    o->have_steps = 1;
+    st = parse_count(c, name, value, 1, 10000000, &o->steps);
+    break;
+  case OPT_AT:
+    if (o->nat == (c == CLI_DRAW ? CLI_MAX_POSES : 1))
+      return usage_error(c, c == CLI_DRAW ? "at most 16 positions (--at %s)"
+                                          : "--at is given once (again: %s)",
+                         value);
+    o->at[o->nat++] = value;
+    break;
+  case OPT_RATE:
+    o->rate = value;
+    break;
+  case OPT_ACCEL:
+    o->accel = value;
+    break;
+  case OPT_SPEED:
+    o->have_speed = 1;
+    st = parse_number(c, name, value, &o->speed);
+    if (st == CLI_EXIT_OK && o->speed == 0.0)
+      return usage_error(c, "--speed cannot be 0 (%s)", value);
+    break;
+  case OPT_ALL_DIGITS:
+    o->all_digits = 1;
+    break;
+  case OPT_POSES:
+    st = parse_count(c, name, value, 1, CLI_MAX_POSES, &o->poses);
+    break;
+  case OPT_NO_PATHS:
+    o->no_paths = 1;
+    break;
+  case OPT_SHOW:
+    if (o->nshow == CLI_MAX_SHOW)
+      return usage_error(c, "at most 8 outputs in one plot (--show %s)",
+                         value);
+    o->show[o->nshow++] = value;
+    break;
+  case OPT_ORDER:
+    st = parse_count(c, name, value, 0, 2, &o->order);
+    break;
+  case OPT_DIR:
+    o->dir = value;
+    break;
+  default:
+    break;
+  }
+  return st;
+}
+
+/* Parses the arguments after the command word. Returns -1 when help was
+ * printed, else an exit code. */
+static int parse_options(cli_options *o, int argc, char **argv) {
+  int i;
+  for (i = 0; i < argc; i++) {
+    const char *arg = argv[i], *value;
+    int which;
+    if (arg[0] != '-' || arg[1] == '\0') {
+      if (o->model_path != NULL)
+        return usage_error(o->command,
+                           "one model file at a time; '%s' is one too many",
+                           arg);
+      if (o->command == CLI_DEMO)
+        return usage_error(o->command,
+                           "demo takes no model file ('%s'); try kinloop "
+                           "check FILE",
+                           arg);
+      o->model_path = arg;
+      continue;
+    }
+    which = match_option(arg, &value);
+    if (which < 0)
+      return usage_error(o->command, "unknown option '%s'", arg);
+    if ((option_specs[which].commands & BIT(o->command)) == 0)
+      return usage_error(o->command, "this command takes no option '%s'",
+                         arg);
+    if (which == OPT_HELP) {
+      print_command_help(o->command);
+      return -1;
+    }
+    if (option_specs[which].takes_value) {
+      if (value == NULL) {
+        if (i + 1 == argc)
+          return usage_error(o->command, "option '%s' needs a value", arg);
+        value = argv[++i];
+      }
+    } else if (value != NULL) {
+      return usage_error(o->command, "option '%s' takes no value", arg);
+    }
+    if (store_option(o, which, value) != CLI_EXIT_OK)
+      return CLI_EXIT_USAGE;
+  }
+  if (o->command == CLI_DRAW && o->nat > 0 && o->poses > 0)
+    return usage_error(o->command, "give --at positions or --poses%s, not both",
+                       "");
+  return CLI_EXIT_OK;
+}
+
+static int run(cli_options *o) {
+  cli_model cm;
+  int st = cli_model_load(&cm, o->model_path);
+  if (st != CLI_EXIT_OK)
+    return st;
+  switch (o->command) {
+  case CLI_CHECK:
+    st = cli_cmd_check(&cm, o);
+    break;
+  case CLI_SOLVE:
+    st = cli_cmd_solve(&cm, o);
+    break;
+  case CLI_SWEEP:
+    st = cli_cmd_sweep(&cm, o);
+    break;
+  case CLI_DRAW:
+    st = cli_cmd_draw(&cm, o);
+    break;
+  case CLI_PLOT:
+    st = cli_cmd_plot(&cm, o);
+    break;
+  case CLI_WRITE:
+    st = cli_cmd_write(&cm, o);
+    break;
+  default:
+    st = cli_cmd_demo(&cm, o);
+    break;
+  }
+  cli_model_free(&cm);
+  return st;
+}
+
+int main(int argc, char **argv) {
+  cli_options o;
+  int i, st;
+  memset(&o, 0, sizeof o);
+  o.command = CLI_DEMO;
+  if (argc >= 2) {
+    const char *word = argv[1];
+    if (strcmp(word, "--help") == 0 || strcmp(word, "-h") == 0 ||
+        strcmp(word, "help") == 0) {
+      if (argc >= 3)
+        for (i = 0; i < CLI_NCOMMANDS; i++)
+          if (strcmp(argv[2], command_names[i]) == 0) {
+            print_command_help(i);
+            return CLI_EXIT_OK;
+          }
+      if (argc >= 3)
+        return usage_error(-1, "no command '%s' to explain", argv[2]);
+      printf(general_usage, kl_version());
+      return CLI_EXIT_OK;
+    }
+    if (strcmp(word, "--version") == 0) {
+      printf("kinloop %s\n", kl_version());
+      return CLI_EXIT_OK;
+    }
+    o.command = -1;
+    for (i = 0; i < CLI_NCOMMANDS; i++)
+      if (strcmp(word, command_names[i]) == 0)
+        o.command = i;
+    if (o.command < 0) {
+      if (word[0] == '-')
+        return usage_error(-1, "'%s' needs a command before it", word);
+      if (strchr(word, '.') != NULL || strchr(word, '/') != NULL)
+        return usage_error(-1,
+                           "unknown command '%s'; to look at a model file, "
+                           "try kinloop check FILE",
+                           word);
+      return usage_error(-1, "unknown command '%s'", word);
+    }
+  }
+  st = parse_options(&o, argc > 2 ? argc - 2 : 0, argv + 2);
+  if (st < 0)
+    return CLI_EXIT_OK;
+  if (st != CLI_EXIT_OK)
+    return st;
+  return run(&o);
+}

@@ -1,0 +1,249 @@
+/*
+ * model_io.c - model text in and out for the kinloop tool: reading a model
+ * file or the embedded demo, naming its items, and opening output files.
+ */
+#include <errno.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+
+#define MAX_MODEL_BYTES (16u << 20) /* what kl_model_read accepts */
+
+/* Reads a whole file; NULL after printing why. */
+static char *read_file(const char *path, size_t *length) {
+  FILE *f = fopen(path, "rb");
+  char *buf = NULL;
+  size_t cap = 0, len = 0;
+  if (f == NULL) {
+    cli_error("cannot read the model file '%s': %s", path, strerror(errno));
+    return NULL;
+  }
+  for (;;) {
+    size_t got;
+    if (len == cap) {
+      char *grown;
+      cap = cap == 0 ? 65536 : 2 * cap;
+      grown = realloc(buf, cap);
+      if (grown == NULL) {
+        cli_error("out of memory reading '%s'", path);
+        free(buf);
+        fclose(f);
+        return NULL;
+      }
+      buf = grown;
+    }
+    got = fread(buf + len, 1, cap - len, f);
+    len += got;
+    if (ferror(f)) {
+      cli_error("cannot read the model file '%s': %s", path, strerror(errno));
+      free(buf);
+      fclose(f);
+      return NULL;
+    }
+    if (got == 0 || len > MAX_MODEL_BYTES)
+      break;
+  }
+  fclose(f);
+  *length = len;
+  return buf;
+}
+
+static char *label_of(const char *name, int id) {
+  char at[24];
+  const char *text = name;
+  char *copy;
+  if (text == NULL) {
+    snprintf(at, sizeof at, "@%d", id);
+    text = at;
+  }
+  copy = malloc(strlen(text) + 1);
+  if (copy != NULL)
+    strcpy(copy, text);
+  return copy;
+}
+
+static char **labels(int n, const kl_model *m,
+                     const char *(*name)(const kl_model *, int)) {
+  char **out = calloc((size_t)(n > 0 ? n : 1), sizeof *out);
+  int i;
+  if (out == NULL)
+    return NULL;
+  for (i = 0; i < n; i++)
+    if ((out[i] = label_of(name(m, i), i)) == NULL) {
+      while (i-- > 0)
+        free(out[i]);
+      free(out);
+      return NULL;
+    }
+  return out;
+}
+
+static void free_labels(char **l, int n) {
+  int i;
+  if (l == NULL)
+    return;
+  for (i = 0; i < n; i++)
+    free(l[i]);
+  free(l);
+}
+
+static int fill_tables(cli_model *cm) {
+  kl_model *m = cm->model;
+  int length_unit, angle_unit, j;
+  cm->nlinks = kl_model_link_count(m);
+  cm->njoints = kl_model_joint_count(m);
+  cm->npoints = kl_model_point_count(m);
+  cm->ninputs = kl_model_input_count(m);
+  cm->nloops = kl_model_loop_count(m);
+  kl_model_units(m, &length_unit, &angle_unit);
+  cm->angle_factor = angle_unit == KL_ANGLE_DEG ? 180.0 / CLI_PI : 1.0;
+  cm->angle_unit = kl_angle_unit_str(angle_unit);
+  cm->length_unit = length_unit == KL_LENGTH_UNSTATED
+                        ? "len"
+                        : kl_length_unit_str(length_unit);
+  cm->link_names = labels(cm->nlinks, m, kl_link_name);
+  cm->joint_names = labels(cm->njoints, m, kl_joint_name);
+  cm->point_names = labels(cm->npoints, m, kl_point_name);
+  cm->slides = malloc((size_t)(cm->njoints > 0 ? cm->njoints : 1) *
+                      sizeof *cm->slides);
+  if (cm->link_names == NULL || cm->joint_names == NULL ||
+      cm->point_names == NULL || cm->slides == NULL)
+    return CLI_EXIT_MEMORY;
+  for (j = 0; j < cm->njoints; j++)
+    if (kl_joint_kind(m, j) != KL_REVOLUTE)
+      cm->slides[cm->nslides++] = j;
+  return cli_analyse_loops(cm);
+}
+
+int cli_model_load(cli_model *cm, const char *path) {
+  kl_io_error err;
+  int st;
+  memset(cm, 0, sizeof *cm);
+  if (path == NULL) {
+    cm->label = cli_demo_file_name;
+    cm->text = (const char *)cli_demo_text;
+    cm->length = cli_demo_length;
+  } else {
+    cm->label = path;
+    cm->owned_text = read_file(path, &cm->length);
+    if (cm->owned_text == NULL)
+      return CLI_EXIT_MODEL;
+    cm->text = cm->owned_text;
+  }
+  err.size = sizeof err;
+  cm->model = kl_model_read(cm->text, cm->length, &err);
+  if (cm->model == NULL) {
+    if (err.status == KL_ENOMEM) {
+      cli_error("out of memory reading '%s'", cm->label);
+      st = CLI_EXIT_MEMORY;
+    } else {
+      if (err.line > 0)
+        fprintf(stderr, "kinloop: %s:%d:%d: %s\n", cm->label, err.line,
+                err.column, err.message);
+      else
+        fprintf(stderr, "kinloop: %s: %s\n", cm->label, err.message);
+      st = CLI_EXIT_MODEL;
+    }
+    cli_model_free(cm);
+    return st;
+  }
+  st = fill_tables(cm);
+  if (st != CLI_EXIT_OK) {
+    cli_error("out of memory preparing '%s'", cm->label);
+    cli_model_free(cm);
+  }
+  return st;
+}
+
+void cli_model_free(cli_model *cm) {
+  free_labels(cm->link_names, cm->nlinks);
+  free_labels(cm->joint_names, cm->njoints);
+  free_labels(cm->point_names, cm->npoints);
+  free(cm->slides);
+  free(cm->sites);
+  free(cm->unmeasured);
+  free(cm->fourbars);
+  kl_model_free(cm->model);
+  free(cm->owned_text);
+  memset(cm, 0, sizeof *cm);
+}
+
+const char *cli_model_comment(const cli_model *cm, int k, size_t *len) {
+  size_t pos = 0;
+  int line = 0;
+  while (pos < cm->length) {
+    size_t end = pos, start;
+    while (end < cm->length && cm->text[end] != '\n')
+      end++;
+    start = pos;
+    while (start < end && (cm->text[start] == ' ' || cm->text[start] == '\t'))
+      start++;
+    if (start == end || cm->text[start] != '#')
+      return NULL; /* the leading block ends at the first other line */
+    start++;
+    if (start < end && cm->text[start] == ' ')
+      start++;
+    if (line == k) {
+      *len = end - start;
+      while (*len > 0 && cm->text[start + *len - 1] == '\r')
+        (*len)--;
+      return cm->text + start;
+    }
+    line++;
+    pos = end + 1;
+  }
+  return NULL;
+}
+
+FILE *cli_open_output(const char *path) {
+  FILE *f;
+  if (path == NULL || strcmp(path, "-") == 0)
+    return stdout;
+  f = fopen(path, "w");
+  if (f == NULL)
+    cli_error("cannot write '%s': %s", path, strerror(errno));
+  return f;
+}
+
+int cli_close_output(FILE *f, const char *path) {
+  int failed = ferror(f) != 0;
+  if (f == stdout) {
+    if (fflush(f) != 0)
+      failed = 1;
+  } else if (fclose(f) != 0) {
+    failed = 1;
+  }
+  if (failed) {
+    cli_error("writing '%s' failed: %s",
+              path == NULL ? "standard output" : path, strerror(errno));
+    return CLI_EXIT_OUTPUT;
+  }
+  return CLI_EXIT_OK;
+}
+
+int cli_cmd_write(const cli_model *cm, const cli_options *o) {
+  size_t needed;
+  char *text;
+  FILE *f;
+  kl_model_write(cm->model, NULL, 0, &needed);
+  text = malloc(needed + 1);
+  if (text == NULL) {
+    cli_error("out of memory writing the model");
+    return CLI_EXIT_MEMORY;
+  }
+  if (kl_model_write(cm->model, text, needed + 1, NULL) != KL_OK) {
+    cli_error("the library could not write the model");
+    free(text);
+    return CLI_EXIT_MEMORY;
+  }
+  f = cli_open_output(o->output);
+  if (f == NULL) {
+    free(text);
+    return CLI_EXIT_OUTPUT;
+  }
+  fwrite(text, 1, needed, f);
+  free(text);
+  return cli_close_output(f, o->output);
+}

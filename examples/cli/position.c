@@ -1,0 +1,298 @@
+/*
+ * position.c - inputs in the user's units, positions reached by
+ * continuation from the model's start, and the sweep range a command uses.
+ */
+#include <errno.h>
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+
+#define REACH_STEP_ANGLE (2.0 * CLI_PI / 180.0) /* continuation step, rad */
+#define REACH_STEP_SLIDE 0.02                   /* of the model's scale */
+#define DEFAULT_STEPS 72
+
+int cli_input_is_angle(const cli_model *cm, int input) {
+  return kl_joint_kind(cm->model, kl_input_joint(cm->model, input)) ==
+         KL_REVOLUTE;
+}
+
+double cli_input_factor(const cli_model *cm, int input) {
+  return cli_input_is_angle(cm, input) ? cm->angle_factor : 1.0;
+}
+
+const char *cli_input_unit(const cli_model *cm, int input) {
+  return cli_input_is_angle(cm, input) ? cm->angle_unit : cm->length_unit;
+}
+
+const char *cli_input_name(const cli_model *cm, int input) {
+  return cm->joint_names[kl_input_joint(cm->model, input)];
+}
+
+void cli_format_input(const cli_model *cm, int input, double value, char *buf,
+                      size_t cap) {
+  snprintf(buf, cap, "%s %.6g %s", cli_input_name(cm, input),
+           value * cli_input_factor(cm, input), cli_input_unit(cm, input));
+}
+
+void cli_home_inputs(const cli_model *cm, double *u) {
+  kl_sweep_settings sw;
+  int i;
+  for (i = 0; i < cm->ninputs; i++)
+    u[i] = 0.0;
+  sw.size = sizeof sw;
+  if (cm->ninputs > 0 && kl_model_sweep(cm->model, &sw) == KL_OK)
+    u[sw.input] = sw.from;
+}
+
+int cli_parse_inputs(const cli_model *cm, const char *list, const char *what,
+                     double *u) {
+  const char *p = list;
+  int i;
+  if (cm->ninputs == 0) {
+    cli_error("%s: the model has no inputs, so no values are given", what);
+    return -1;
+  }
+  for (i = 0; i < cm->ninputs; i++) {
+    char *end;
+    double v;
+    errno = 0;
+    v = strtod(p, &end);
+    if (end == p || errno == ERANGE || !isfinite(v) ||
+        (*end != ',' && *end != '\0')) {
+      cli_error("%s '%s': value %d is not a number; give %d comma-separated "
+                "number%s (in the model's units), one per input",
+                what, list, i + 1, cm->ninputs, cm->ninputs == 1 ? "" : "s");
+      return -1;
+    }
+    u[i] = v / cli_input_factor(cm, i);
+    p = end;
+    if (*p == ',')
+      p++;
+    if ((*end == '\0') != (i == cm->ninputs - 1)) {
+      cli_error("%s '%s': the model has %d input%s, so give %d value%s", what,
+                list, cm->ninputs, cm->ninputs == 1 ? "" : "s", cm->ninputs,
+                cm->ninputs == 1 ? "" : "s");
+      return -1;
+    }
+  }
+  return 0;
+}
+
+static void describe_position(const cli_model *cm, const double *u,
+                              char *buf, size_t cap) {
+  size_t len = 0;
+  int i;
+  buf[0] = '\0';
+  for (i = 0; i < cm->ninputs && len < cap; i++) {
+    char one[320];
+    cli_format_input(cm, i, u[i], one, sizeof one);
+    len += (size_t)snprintf(buf + len, cap - len, "%s%s", i ? ", " : "", one);
+  }
+  if (cm->ninputs == 0)
+    snprintf(buf, cap, "its only position");
+}
+
+/* Puts the solver back into the state a new solver starts in: the sketch. */
+static int restart_from_sketch(kl_solver *s, const kl_model *m) {
+  kl_solver *fresh = kl_solver_new(m);
+  int st;
+  if (fresh == NULL)
+    return KL_ENOMEM;
+  st = kl_solver_copy_state(s, fresh);
+  kl_solver_free(fresh);
+  return st;
+}
+
+int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
+              char *why, size_t cap) {
+  int n = cm->ninputs, i, st;
+  double *now = malloc((size_t)(n > 0 ? n : 1) * sizeof *now);
+  char where[1024];
+  why[0] = '\0';
+  if (now == NULL) {
+    snprintf(why, cap, "out of memory");
+    return KL_ENOMEM;
+  }
+  if ((st = restart_from_sketch(s, cm->model)) != KL_OK) {
+    snprintf(why, cap, "out of memory");
+    free(now);
+    return st;
+  }
+  cli_home_inputs(cm, now);
+  if (kl_solve_position(s, n > 0 ? now : NULL) != KL_OK) {
+    /* no start to continue from: the sketch alone must choose the branch */
+    if ((st = restart_from_sketch(s, cm->model)) == KL_OK)
+      st = kl_solve_position(s, n > 0 ? target : NULL);
+    if (st != KL_OK) {
+      describe_position(cm, target, where, sizeof where);
+      snprintf(why, cap, "no position at %s: %s", where, kl_solver_error(s));
+    }
+    free(now);
+    return st;
+  }
+  for (i = 0; i < n; i++) {
+    double delta = fabs(target[i] - now[i]);
+    double step = cli_input_is_angle(cm, i)
+                      ? REACH_STEP_ANGLE
+                      : REACH_STEP_SLIDE * kl_model_scale(cm->model);
+    kl_sweep_result res;
+    int steps;
+    if (delta == 0.0)
+      continue;
+    steps = delta / step > 1e6 ? 1000000 : (int)ceil(delta / step);
+    res.size = sizeof res;
+    st = kl_sweep(s, i, now[i], target[i], steps, NULL, NULL, &res);
+    if (st != KL_OK) {
+      char start[320], stop[320], goal[320];
+      cli_format_input(cm, i, now[i], start, sizeof start);
+      cli_format_input(cm, i, target[i], goal, sizeof goal);
+      cli_format_input(cm, i, res.limit_input, stop, sizeof stop);
+      if (st == KL_LIMIT)
+        snprintf(why, cap,
+                 "cannot reach %s from the start (%s): the motion stops at "
+                 "%s, a toggle or limit position",
+                 goal, start, stop);
+      else if (st == KL_ESINGULAR)
+        snprintf(why, cap,
+                 "cannot reach %s from the start (%s): the motion meets a "
+                 "singular position at %s",
+                 goal, start, stop);
+      else
+        snprintf(why, cap, "cannot reach %s from the start (%s): %s", goal,
+                 start, kl_solver_error(s));
+      free(now);
+      return st == KL_LIMIT ? KL_ENOASSEMBLY : st;
+    }
+    now[i] = target[i];
+  }
+  /* the sweep's last step is the target up to rounding; land on it exactly */
+  st = kl_solve_position(s, n > 0 ? target : NULL);
+  if (st != KL_OK) {
+    describe_position(cm, target, where, sizeof where);
+    snprintf(why, cap, "no position at %s: %s", where, kl_solver_error(s));
+  }
+  free(now);
+  return st;
+}
+
+static int find_input(const cli_model *cm, const char *text) {
+  char *end;
+  long v;
+  int i;
+  for (i = 0; i < cm->ninputs; i++)
+    if (strcmp(cli_input_name(cm, i), text) == 0)
+      return i;
+  errno = 0;
+  v = strtol(text, &end, 10);
+  if (end != text && *end == '\0' && errno == 0 && v >= 0 && v < cm->ninputs)
+    return (int)v;
+  return -1;
+}
+
+int cli_resolve_range(const cli_model *cm, const cli_options *o,
+                      cli_range *r) {
+  kl_sweep_settings sw;
+  int have_sweep, same, asked = o->input != NULL || o->have_from ||
+                                o->have_to || o->have_steps;
+  double factor;
+  if (cm->ninputs == 0) {
+    if (asked) {
+      cli_error("the model has no input to sweep (kinloop check shows its "
+                "structure)");
+      return -1;
+    }
+    return 0;
+  }
+  sw.size = sizeof sw;
+  have_sweep = kl_model_sweep(cm->model, &sw) == KL_OK;
+  if (o->input != NULL) {
+    r->input = find_input(cm, o->input);
+    if (r->input < 0) {
+      int i;
+      fprintf(stderr, "kinloop: --input %s: no input drives a joint of that "
+                      "name; the inputs are",
+              o->input);
+      for (i = 0; i < cm->ninputs; i++)
+        fprintf(stderr, "%s %d (%s)", i ? "," : "", i, cli_input_name(cm, i));
+      fputc('\n', stderr);
+      return -1;
+    }
+  } else {
+    r->input = have_sweep ? sw.input : 0;
+  }
+  same = have_sweep && sw.input == r->input;
+  factor = cli_input_factor(cm, r->input);
+  r->from = o->have_from ? o->from / factor : same ? sw.from : 0.0;
+  r->steps = o->have_steps ? o->steps : same ? sw.steps : DEFAULT_STEPS;
+  if (o->have_to) {
+    r->to = o->to / factor;
+  } else if (same) {
+    r->to = sw.to;
+  } else if (cli_input_is_angle(cm, r->input)) {
+    r->to = r->from + 2.0 * CLI_PI;
+  } else {
+    if (asked) {
+      cli_error("input %d (%s) slides and the model has no sweep line for it: "
+                "give --to",
+                r->input, cli_input_name(cm, r->input));
+      return -1;
+    }
+    return 0;
+  }
+  if (r->to == r->from) {
+    cli_error("the range starts and ends at %.6g %s: give a --to that differs",
+              r->from * factor, cli_input_unit(cm, r->input));
+    return -1;
+  }
+  return 1;
+}
+
+int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,
+                    const cli_range *r) {
+  double *u = malloc((size_t)(cm->ninputs > 0 ? cm->ninputs : 1) * sizeof *u);
+  char why[2048];
+  int st;
+  if (u == NULL) {
+    cli_error("out of memory");
+    return CLI_EXIT_MEMORY;
+  }
+  if (o->nat > 0) {
+    if (cli_parse_inputs(cm, o->at[0], "--at", u) != 0) {
+      free(u);
+      return CLI_EXIT_USAGE;
+    }
+  } else {
+    cli_home_inputs(cm, u);
+  }
+  if (r != NULL)
+    u[r->input] = r->from;
+  st = cli_reach(s, cm, u, why, sizeof why);
+  free(u);
+  if (st == KL_ENOMEM) {
+    cli_error("out of memory");
+    return CLI_EXIT_MEMORY;
+  }
+  if (st != KL_OK) {
+    cli_error("the start of the range: %s", why);
+    return CLI_EXIT_SOLVE;
+  }
+  return CLI_EXIT_OK;
+}
+
+void cli_local_to_global(const kl_solver *s, int link, const double local[2],
+                         double xy[2]) {
+  double origin[2], t = kl_link_angle(s, link), c = cos(t), sn = sin(t);
+  kl_link_origin(s, link, origin);
+  xy[0] = origin[0] + c * local[0] - sn * local[1];
+  xy[1] = origin[1] + sn * local[0] + c * local[1];
+}
+
+void cli_joint_position(const kl_solver *s, const kl_model *m, int joint,
+                        double xy[2]) {
+  int links[2];
+  double b[2];
+  kl_joint_links(m, joint, links, NULL, b);
+  cli_local_to_global(s, links[1], b, xy);
+}

@@ -1,0 +1,538 @@
+/*
+ * report.c - the text reports: check (structure, ranges over the sweep,
+ * warnings) and solve (one position with its rates and accelerations).
+ */
+#include <math.h>
+#include <stdarg.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "cli.h"
+
+#define USUAL_LOW 40.0   /* transmission angle rule of thumb, deg      */
+#define USUAL_HIGH 140.0 /* (common practice, no source)               */
+#define MAX_WARNINGS 64
+#define LABEL "  %-14s"
+
+typedef struct {
+  int count;
+  char text[MAX_WARNINGS][640];
+} warnings;
+
+static void warn(warnings *w, const char *fmt, ...)
+#ifdef __GNUC__
+    __attribute__((format(printf, 2, 3)))
+#endif
+    ;
+
+static void warn(warnings *w, const char *fmt, ...) {
+  va_list ap;
+  if (w->count == MAX_WARNINGS)
+    return;
+  va_start(ap, fmt);
+  vsnprintf(w->text[w->count++], sizeof w->text[0], fmt, ap);
+  va_end(ap);
+}
+
+static void print_names(FILE *f, char **names, int from, int to) {
+  int i;
+  for (i = from; i < to; i++)
+    fprintf(f, "%s%s", i > from ? ", " : "", names[i]);
+}
+
+static int is_input_joint(const cli_model *cm, int joint) {
+  int i;
+  for (i = 0; i < cm->ninputs; i++)
+    if (kl_input_joint(cm->model, i) == joint)
+      return 1;
+  return 0;
+}
+
+static int has_sketch(const cli_model *cm) {
+  int l, k;
+  for (l = 1; l < cm->nlinks; l++)
+    if (!isnan(kl_sketch_angle(cm->model, l)))
+      return 1;
+  for (k = 0; k < cm->nslides; k++)
+    if (!isnan(kl_sketch_slide(cm->model, cm->slides[k])))
+      return 1;
+  return 0;
+}
+
+static void print_structure(FILE *f, const cli_model *cm) {
+  const kl_model *m = cm->model;
+  int kinds[3] = {0, 0, 0}, j, i, loop, grashof;
+  const char *comment;
+  size_t len;
+  fprintf(f, "model %s\n", cm->label);
+  for (i = 0; (comment = cli_model_comment(cm, i, &len)) != NULL; i++)
+    fprintf(f, "  | %.*s\n", (int)len, comment);
+  fprintf(f, "\nstructure\n");
+  fprintf(f, LABEL "%d: ground", "links", cm->nlinks);
+  if (cm->nlinks > 1) {
+    fprintf(f, ", ");
+    print_names(f, cm->link_names, 1, cm->nlinks);
+  }
+  for (j = 0; j < cm->njoints; j++)
+    kinds[kl_joint_kind(m, j)]++;
+  fprintf(f, "\n" LABEL "%d: %d revolute, %d prismatic, %d slot\n", "joints",
+          cm->njoints, kinds[KL_REVOLUTE], kinds[KL_PRISMATIC], kinds[KL_SLOT]);
+  fprintf(f, LABEL "%d%s", "points", cm->npoints, cm->npoints ? ": " : "");
+  print_names(f, cm->point_names, 0, cm->npoints);
+  fprintf(f, "\n" LABEL "lengths in %s, angles in %s\n", "units",
+          strcmp(cm->length_unit, "len") == 0 ? "an unstated unit"
+                                              : cm->length_unit,
+          cm->angle_unit);
+  fprintf(f, LABEL "%d degree%s of freedom (Gruebler's count), %d input%s",
+          "mobility", kl_model_dof(m), kl_model_dof(m) == 1 ? "" : "s",
+          cm->ninputs, cm->ninputs == 1 ? "" : "s");
+  for (i = 0; i < cm->ninputs; i++)
+    fprintf(f, "%s%s (%s)", i ? ", " : ": ", cli_input_name(cm, i),
+            cli_input_is_angle(cm, i) ? "turning" : "sliding");
+  fputc('\n', f);
+  fprintf(f, LABEL "%d independent loop%s\n", "loops", cm->nloops,
+          cm->nloops == 1 ? "" : "s");
+  for (loop = 0; loop < cm->nloops; loop++) {
+    int walk[256], n = kl_model_loop(m, loop, walk, 256), k;
+    char label[32];
+    snprintf(label, sizeof label, "loop %d", loop + 1);
+    fprintf(f, LABEL, label);
+    for (k = 0; k < n && k < 256; k++)
+      fprintf(f, "%s%s", k ? " > " : "", cm->joint_names[walk[k]]);
+    fputc('\n', f);
+  }
+  /* a model that is one four-bar has the library classify it whole */
+  grashof = kl_model_grashof(m);
+  for (i = 0; i < cm->nfourbars; i++) {
+    const cli_fourbar *fb = &cm->fourbars[i];
+    int cls = grashof > 0 ? grashof : fb->cls;
+    fprintf(f,
+            LABEL "loop %d, driven at %s: %s (ground %.6g, input %.6g, "
+                  "coupler %.6g, output %.6g %s)\n",
+            "four-bar", fb->loop + 1, cm->joint_names[fb->input_joint],
+            cls > 0 ? kl_grashof_str(cls) : "not classified", fb->ground,
+            fb->input, fb->coupler, fb->output, cm->length_unit);
+  }
+  if (grashof > 0 && cm->nfourbars == 0)
+    fprintf(f, LABEL "%s\n", "four-bar", kl_grashof_str(grashof));
+}
+
+/* The range of one output from the start state in `base`. */
+static int measure(kl_solver *work, const kl_solver *base, const cli_range *r,
+                   const kl_output *out, kl_range *range) {
+  kl_solver_copy_state(work, base);
+  range->size = sizeof *range;
+  return kl_output_range(work, r->input, r->from, r->to, r->steps, out, range);
+}
+
+/* Tracks the smallest condition estimate of a sweep and where it occurs. */
+typedef struct {
+  int col;
+  double rcond, at;
+} rcond_sink;
+
+static int rcond_row(void *user, int step, const double *row) {
+  rcond_sink *k = user;
+  if (step == 0 || row[k->col] < k->rcond) {
+    k->rcond = row[k->col];
+    k->at = row[0];
+  }
+  return 0;
+}
+
+/* "at motor 35.2 and 222 deg": where a range has its two extremes. */
+static void at_pair(const cli_model *cm, int input, double a, double b,
+                    char *buf, size_t cap) {
+  double k = cli_input_factor(cm, input);
+  snprintf(buf, cap, "at %s %.6g and %.6g %s", cli_input_name(cm, input),
+           a * k, b * k, cli_input_unit(cm, input));
+}
+
+static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
+                         kl_solver *work, const cli_range *r,
+                         const kl_sweep_result *res, warnings *w) {
+  const kl_model *m = cm->model;
+  double k = cm->angle_factor;
+  char lo[320], hi[320], both[700];
+  int full_turn = cli_input_is_angle(cm, r->input) &&
+                  fabs(r->to - r->from - 2 * CLI_PI) < 1e-12 * 2 * CLI_PI &&
+                  res->status == KL_OK;
+  int j, i;
+  for (j = 0; j < cm->njoints; j++) {
+    int links[2], link;
+    kl_output out;
+    kl_range range;
+    double ratio;
+    kl_joint_links(m, j, links, NULL, NULL);
+    if (kl_joint_kind(m, j) != KL_REVOLUTE || is_input_joint(cm, j) ||
+        (links[0] != KL_GROUND && links[1] != KL_GROUND))
+      continue;
+    link = links[0] == KL_GROUND ? links[1] : links[0];
+    memset(&out, 0, sizeof out);
+    out.kind = KL_OUT_LINK_ANGLE;
+    out.id = link;
+    if (measure(work, base, r, &out, &range) < 0)
+      continue;
+    at_pair(cm, r->input, range.input_at_min, range.input_at_max, both,
+            sizeof both);
+    if (range.max - range.min >= 2 * CLI_PI - 1e-6) {
+      fprintf(f, LABEL "turns fully about %s\n", cm->link_names[link],
+              cm->joint_names[j]);
+      continue;
+    }
+    fprintf(f, LABEL "swings about %s from %.6g to %.6g %s, %s",
+            cm->link_names[link], cm->joint_names[j], range.min * k,
+            range.max * k, cm->angle_unit, both);
+    if (full_turn && kl_time_ratio(&range, &ratio) == KL_OK)
+      fprintf(f, "; time ratio %.4f", ratio);
+    fputc('\n', f);
+  }
+  for (i = 0; i < cm->nslides; i++) {
+    kl_output out;
+    kl_range range;
+    double ratio;
+    if (is_input_joint(cm, cm->slides[i]))
+      continue;
+    memset(&out, 0, sizeof out);
+    out.kind = KL_OUT_SLIDE;
+    out.id = cm->slides[i];
+    if (measure(work, base, r, &out, &range) < 0)
+      continue;
+    at_pair(cm, r->input, range.input_at_min, range.input_at_max, both,
+            sizeof both);
+    fprintf(f, LABEL "stroke %.6g %s, from %.6g to %.6g %s, %s",
+            cm->joint_names[cm->slides[i]], range.max - range.min,
+            cm->length_unit, range.min, range.max, cm->length_unit, both);
+    if (full_turn && kl_time_ratio(&range, &ratio) == KL_OK)
+      fprintf(f, "; time ratio %.4f", ratio);
+    fputc('\n', f);
+  }
+  for (i = 0; i < cm->nsites; i++) {
+    const cli_site *site = &cm->sites[i];
+    kl_output out;
+    kl_range range;
+    out.kind = KL_OUT_TRANSMISSION;
+    out.id = site->joint;
+    out.line_a = site->line_a;
+    out.line_b = site->line_b;
+    if (measure(work, base, r, &out, &range) < 0)
+      continue;
+    cli_format_input(cm, r->input, range.input_at_min, lo, sizeof lo);
+    cli_format_input(cm, r->input, range.input_at_max, hi, sizeof hi);
+    at_pair(cm, r->input, range.input_at_min, range.input_at_max, both,
+            sizeof both);
+    fprintf(f,
+            LABEL "transmission angle %.4g to %.4g %s, %s (lines to %s and "
+                  "%s)\n",
+            cm->joint_names[site->joint], range.min * k, range.max * k,
+            cm->angle_unit, both, cm->joint_names[site->line_a],
+            cm->joint_names[site->line_b]);
+    if (range.min * 180 / CLI_PI < USUAL_LOW)
+      warn(w,
+           "the transmission angle at %s falls to %.4g %s (at %s), below the "
+           "usual %g deg: the joint pushes weakly there; change link lengths "
+           "or keep the motion out of that part of the range",
+           cm->joint_names[site->joint], range.min * k, cm->angle_unit, lo,
+           USUAL_LOW);
+    if (range.max * 180 / CLI_PI > USUAL_HIGH)
+      warn(w,
+           "the transmission angle at %s rises to %.4g %s (at %s), above the "
+           "usual %g deg: the joint pushes weakly there; change link lengths "
+           "or keep the motion out of that part of the range",
+           cm->joint_names[site->joint], range.max * k, cm->angle_unit, hi,
+           USUAL_HIGH);
+  }
+  for (i = 0; i < cm->nunmeasured; i++) {
+    const cli_unmeasured *u = &cm->unmeasured[i];
+    if (u->reason == CLI_INPUT_CRANK)
+      fprintf(f,
+              LABEL "no transmission angle: the input turns link %s directly\n",
+              cm->joint_names[u->joint], cm->link_names[u->link]);
+    else
+      fprintf(f,
+              LABEL "no transmission angle: its neighbour in loop %d stands "
+                    "at the same point of link %s, so there is no line to "
+                    "measure\n",
+              cm->joint_names[u->joint], u->loop + 1, cm->link_names[u->link]);
+  }
+}
+
+int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o) {
+  warnings *w = calloc(1, sizeof *w);
+  kl_solver *base = kl_solver_new(cm->model), *work = kl_solver_new(cm->model);
+  cli_range r;
+  int st = CLI_EXIT_OK, found, i;
+  if (w == NULL || base == NULL || work == NULL) {
+    cli_error("out of memory");
+    st = CLI_EXIT_MEMORY;
+    goto done;
+  }
+  found = cli_resolve_range(cm, o, &r);
+  if (found < 0) {
+    st = CLI_EXIT_USAGE;
+    goto done;
+  }
+  print_structure(f, cm);
+  if (!has_sketch(cm) && cm->nlinks > 1)
+    warn(w, "no sketch angles: the assembly mode is whichever one Newton's "
+            "method reaches from zero angles; add 'sketch angle LINK VALUE' "
+            "lines to choose it");
+  if (found == 0) {
+    fprintf(f, "\nno range to check: %s\n",
+            cm->ninputs == 0 ? "the model has no inputs"
+                             : "input 0 slides and the model has no sweep "
+                               "line; give --from and --to");
+  } else {
+    char a[320], why[2048];
+    double *u = malloc((size_t)cm->ninputs * sizeof *u);
+    kl_sweep_result res;
+    rcond_sink rc;
+    if (u == NULL) {
+      cli_error("out of memory");
+      st = CLI_EXIT_MEMORY;
+      goto done;
+    }
+    if (o->nat > 0) {
+      if (cli_parse_inputs(cm, o->at[0], "--at", u) != 0) {
+        free(u);
+        st = CLI_EXIT_USAGE;
+        goto done;
+      }
+    } else {
+      cli_home_inputs(cm, u);
+    }
+    u[r.input] = r.from;
+    fprintf(f, "\nover %s %.6g to %.6g %s in %d steps\n",
+            cli_input_name(cm, r.input), r.from * cli_input_factor(cm, r.input),
+            r.to * cli_input_factor(cm, r.input), cli_input_unit(cm, r.input),
+            r.steps);
+    st = cli_reach(base, cm, u, why, sizeof why);
+    free(u);
+    if (st != KL_OK) {
+      fprintf(f, LABEL "the start position cannot be solved\n", "motion");
+      warn(w, "the start of the range: %s; check the lengths, the sketch "
+              "angles and --at",
+           why);
+      st = st == KL_ENOMEM ? CLI_EXIT_MEMORY : CLI_EXIT_SOLVE;
+    } else {
+      kl_solver_copy_state(work, base);
+      rc.col = cli_col_rcond(cm);
+      rc.rcond = 1.0;
+      rc.at = r.from;
+      st = cli_record(work, cm, &r, rcond_row, &rc, &res);
+      if (st == KL_OK) {
+        fprintf(f, LABEL "the whole range, no motion limit or singular "
+                         "position\n",
+                "motion");
+      } else if (st == KL_LIMIT || st == KL_ESINGULAR) {
+        char note[1024];
+        cli_sweep_note(cm, &r, &res, note, sizeof note);
+        fprintf(f, LABEL "%s\n", "motion", note);
+        if (st == KL_LIMIT)
+          warn(w, "%s, inside the range %.6g to %.6g %s: narrow the range "
+                  "(the model's sweep line, or --from and --to) or change "
+                  "link lengths so the input can move on",
+               note, r.from * cli_input_factor(cm, r.input),
+               r.to * cli_input_factor(cm, r.input),
+               cli_input_unit(cm, r.input));
+        else
+          warn(w, "%s: the linkage could take either branch there; keep the "
+                  "range short of it or change link lengths",
+               note);
+      } else {
+        fprintf(f, LABEL "the sweep failed: %s\n", "motion",
+                kl_solver_error(work));
+        warn(w, "the sweep failed: %s", kl_solver_error(work));
+      }
+      if (st == KL_OK || st == KL_LIMIT || st == KL_ESINGULAR) {
+        cli_range measured = r;
+        cli_format_input(cm, r.input, rc.at, a, sizeof a);
+        fprintf(f, LABEL "smallest condition estimate %.3g (at %s)\n",
+                "conditioning", rc.rcond, a);
+        if (st == KL_ESINGULAR) {
+          /* measure up to just short of the change point */
+          double span = r.to - r.from, part;
+          measured.to = res.limit_input - 1e-6 * span;
+          part = (measured.to - r.from) / span;
+          measured.steps = part * r.steps < 1 ? 1 : (int)ceil(part * r.steps);
+        }
+        if (st != KL_ESINGULAR || (measured.to - r.from) * (r.to - r.from) > 0)
+          print_ranges(f, cm, base, work, &measured, &res, w);
+      }
+      st = CLI_EXIT_OK;
+    }
+  }
+  fprintf(f, "\nwarnings%s\n", w->count ? "" : ": none");
+  for (i = 0; i < w->count; i++)
+    fprintf(f, "  - %s\n", w->text[i]);
+done:
+  kl_solver_free(base);
+  kl_solver_free(work);
+  free(w);
+  return st;
+}
+
+int cli_cmd_check(const cli_model *cm, const cli_options *o) {
+  FILE *f = cli_open_output(o->output);
+  int st, closed;
+  if (f == NULL)
+    return CLI_EXIT_OUTPUT;
+  st = cli_check_report(f, cm, o);
+  closed = cli_close_output(f, o->output);
+  return st != CLI_EXIT_OK ? st : closed;
+}
+
+/* ---- solve ---- */
+
+static int name_width(char **names, int from, int to, int least) {
+  int i, w = least;
+  for (i = from; i < to; i++)
+    if ((int)strlen(names[i]) > w)
+      w = (int)strlen(names[i]);
+  return w;
+}
+
+static void print_solution(FILE *f, const cli_model *cm, const kl_solver *s,
+                           const double *u, const double *rates,
+                           const double *accels) {
+  double k = cm->angle_factor;
+  const char *a = cm->angle_unit, *len = cm->length_unit;
+  char h1[64], h2[64], h3[64];
+  kl_solve_stats stats;
+  kl_options opts;
+  int i, w;
+  fprintf(f, "model %s\n", cm->label);
+  for (i = 0; i < cm->ninputs; i++) {
+    double fi = cli_input_factor(cm, i);
+    const char *ui = cli_input_unit(cm, i);
+    fprintf(f, "input %s at %.6g %s, rate %.6g %s/s, acceleration %.6g %s/s^2\n",
+            cli_input_name(cm, i), u[i] * fi, ui, rates[i] * fi, ui,
+            accels[i] * fi, ui);
+  }
+  w = name_width(cm->link_names, 1, cm->nlinks, 12);
+  snprintf(h1, sizeof h1, "angle (%s)", a);
+  snprintf(h2, sizeof h2, "rate (%s/s)", a);
+  snprintf(h3, sizeof h3, "accel (%s/s^2)", a);
+  fprintf(f, "\n%-*s %16s %16s %16s\n", w, "link", h1, h2, h3);
+  for (i = 1; i < cm->nlinks; i++)
+    fprintf(f, "%-*s %16.8g %16.8g %16.8g\n", w, cm->link_names[i],
+            kl_link_angle(s, i) * k, kl_link_rate(s, i) * k,
+            kl_link_accel(s, i) * k);
+  if (cm->nslides > 0) {
+    w = name_width(cm->joint_names, 0, cm->njoints, 12);
+    snprintf(h1, sizeof h1, "slide (%s)", len);
+    snprintf(h2, sizeof h2, "rate (%s/s)", len);
+    snprintf(h3, sizeof h3, "accel (%s/s^2)", len);
+    fprintf(f, "\n%-*s %16s %16s %16s\n", w, "slide", h1, h2, h3);
+    for (i = 0; i < cm->nslides; i++) {
+      int j = cm->slides[i];
+      fprintf(f, "%-*s %16.8g %16.8g %16.8g\n", w, cm->joint_names[j],
+              kl_joint_slide(s, j), kl_joint_slide_rate(s, j),
+              kl_joint_slide_accel(s, j));
+    }
+  }
+  if (cm->npoints > 0) {
+    w = name_width(cm->point_names, 0, cm->npoints, 12);
+    fprintf(f, "\n%-*s %14s %14s %14s %14s %14s %14s\n", w, "point", "x",
+            "y", "x rate", "y rate", "x accel", "y accel");
+    snprintf(h2, sizeof h2, "%s/s", len);
+    snprintf(h3, sizeof h3, "%s/s^2", len);
+    fprintf(f, "%-*s %14s %14s %14s %14s %14s %14s\n", w, "", len, len, h2,
+            h2, h3, h3);
+    for (i = 0; i < cm->npoints; i++) {
+      double p[2], v[2], acc[2];
+      kl_point_position(s, i, p);
+      kl_point_velocity(s, i, v);
+      kl_point_acceleration(s, i, acc);
+      fprintf(f, "%-*s %14.8g %14.8g %14.8g %14.8g %14.8g %14.8g\n", w,
+              cm->point_names[i], p[0], p[1], v[0], v[1], acc[0], acc[1]);
+    }
+  }
+  if (cm->nsites > 0) {
+    w = name_width(cm->joint_names, 0, cm->njoints, 12);
+    snprintf(h1, sizeof h1, "angle (%s)", a);
+    fprintf(f, "\n%-*s %16s   lines to\n", w, "transmission", h1);
+    for (i = 0; i < cm->nsites; i++) {
+      const cli_site *site = &cm->sites[i];
+      double mu = cli_site_value(s, site), deg = mu * 180 / CLI_PI;
+      fprintf(f, "%-*s %16.8g   %s, %s%s\n", w, cm->joint_names[site->joint],
+              mu * k, cm->joint_names[site->line_a],
+              cm->joint_names[site->line_b],
+              deg < USUAL_LOW || deg > USUAL_HIGH ? "  (outside the usual 40-140 deg)"
+                                                : "");
+    }
+  }
+  stats.size = sizeof stats;
+  kl_solver_stats(s, &stats);
+  kl_options_default(&opts);
+  kl_solver_get_options(s, &opts);
+  fprintf(f, "\ncondition estimate (rcond) %.4g; positions below %.3g count as "
+             "singular\n",
+          stats.rcond, opts.singular_rcond);
+}
+
+static int fill_inputs(const cli_model *cm, const char *list, const char *what,
+                       double fallback_in_model_units, double *u) {
+  int i;
+  if (list != NULL)
+    return cli_parse_inputs(cm, list, what, u);
+  for (i = 0; i < cm->ninputs; i++)
+    u[i] = fallback_in_model_units / cli_input_factor(cm, i);
+  return 0;
+}
+
+int cli_cmd_solve(const cli_model *cm, const cli_options *o) {
+  size_t n = (size_t)(cm->ninputs > 0 ? cm->ninputs : 1);
+  double *u = malloc(n * sizeof *u), *rates = malloc(n * sizeof *rates),
+         *accels = malloc(n * sizeof *accels);
+  kl_solver *s = kl_solver_new(cm->model);
+  char why[2048];
+  FILE *f;
+  int st;
+  if (u == NULL || rates == NULL || accels == NULL || s == NULL) {
+    cli_error("out of memory");
+    st = CLI_EXIT_MEMORY;
+    goto done;
+  }
+  if (o->nat > 0) {
+    if (cli_parse_inputs(cm, o->at[0], "--at", u) != 0) {
+      st = CLI_EXIT_USAGE;
+      goto done;
+    }
+  } else {
+    cli_home_inputs(cm, u);
+  }
+  if (fill_inputs(cm, o->rate, "--rate", 1.0, rates) != 0 ||
+      fill_inputs(cm, o->accel, "--accel", 0.0, accels) != 0) {
+    st = CLI_EXIT_USAGE;
+    goto done;
+  }
+  st = cli_reach(s, cm, u, why, sizeof why);
+  if (st == KL_OK && ((st = kl_solve_velocity(s, cm->ninputs ? rates : NULL)) !=
+                          KL_OK ||
+                      (st = kl_solve_acceleration(
+                           s, cm->ninputs ? accels : NULL)) != KL_OK))
+    snprintf(why, sizeof why, "%s", kl_solver_error(s));
+  if (st == KL_ENOMEM) {
+    cli_error("out of memory");
+    st = CLI_EXIT_MEMORY;
+    goto done;
+  }
+  if (st != KL_OK) {
+    cli_error("%s", why);
+    st = CLI_EXIT_SOLVE;
+    goto done;
+  }
+  if ((f = cli_open_output(o->output)) == NULL) {
+    st = CLI_EXIT_OUTPUT;
+    goto done;
+  }
+  print_solution(f, cm, s, u, rates, accels);
+  st = cli_close_output(f, o->output);
+done:
+  kl_solver_free(s);
+  free(u);
+  free(rates);
+  free(accels);
+  return st;
+}

@@ -1,0 +1,85 @@
+#!/bin/sh
+# cli_svg: every SVG the tool writes is well-formed XML (xmllint, from
+# Debian's libxml2-utils) and renders to a non-empty PNG (rsvg-convert,
+# from Debian's librsvg2-bin): the demo's files, drawings and plots of the
+# demo with every option, of a model with awkward names, and of a motion
+# that stops at a limit.
+# usage: svg.sh TOOL
+set -eu
+KINLOOP=$1
+. "$(dirname "$0")/lib.sh"
+
+expect_status 0 "$KINLOOP"
+expect_status 0 "$KINLOOP" draw -o draw-default.svg
+expect_status 0 "$KINLOOP" draw --at 10 --at 100 --at 250 -o draw-at.svg
+expect_status 0 "$KINLOOP" draw --poses 1 --no-paths -o draw-bare.svg
+expect_status 0 "$KINLOOP" draw --from 30 --to 120 --steps 9 -o draw-part.svg
+expect_status 0 "$KINLOOP" plot --show angle:coupler --show angle:rocker \
+  -o plot-two.svg
+expect_status 0 "$KINLOOP" plot --show "y:tucker tip" --order 2 -o plot-acc.svg
+expect_status 0 "$KINLOOP" plot --show transmission:rocker_pin --from 90 \
+  --to -90 -o plot-backwards.svg
+
+# names that need escaping in XML, and UTF-8 (geometry chosen for this
+# test: a crank-rocker, ground 100, crank 30, coupler 90, rocker 70)
+cat >names.kinloop <<'MODEL'
+kinloop-model 1
+units length unstated angle rad
+link "crank <1>"
+link "coupler & co"
+link "rocker \"r\""
+revolute "m'1" ground 0 0 "crank <1>" 0 0
+revolute "a&b" "crank <1>" 30 0 "coupler & co" 0 0
+revolute "<c>" "coupler & co" 90 0 "rocker \"r\"" 70 0
+revolute pivot "rocker \"r\"" 0 0 ground 100 0
+point "tip é" "coupler & co" 45 20
+input "m'1"
+sketch angle "coupler & co" 0.6
+sketch angle "rocker \"r\"" 1.6
+MODEL
+expect_status 0 "$KINLOOP" draw names.kinloop -o names-draw.svg
+expect_status 0 "$KINLOOP" plot names.kinloop --show "angle:rocker \"r\"" \
+  --show "transmission:<c>" -o names-plot.svg
+
+# a double-rocker swept past its toggle position (geometry chosen for
+# this test): the drawing and the plot end where the motion stops
+cat >stops.kinloop <<'MODEL'
+kinloop-model 1
+units length mm angle deg
+link crank
+link coupler
+link rocker
+revolute motor ground 0 0 crank 0 0
+revolute crank_pin crank 80 0 coupler 0 0
+revolute rocker_pin coupler 30 0 rocker 90 0
+revolute pivot rocker 0 0 ground 100 0
+input motor
+sketch angle coupler 0
+sketch angle rocker 100
+sweep motor from 60 to 120 steps 30
+MODEL
+expect_status 0 "$KINLOOP" draw stops.kinloop -o stops-draw.svg
+expect_text err.txt "toggle or limit position"
+expect_status 0 "$KINLOOP" plot stops.kinloop --show angle:rocker \
+  -o stops-plot.svg
+expect_text stops-plot.svg "motion stops"
+
+count=0
+for f in kinloop-demo/*.svg *.svg; do
+  count=$((count + 1))
+  xmllint --noout "$f" 2>xml.txt || {
+    fail "$f is not well-formed XML:"
+    cat xml.txt >&2
+    continue
+  }
+  rsvg-convert "$f" -o picture.png 2>render.txt || {
+    fail "$f does not render:"
+    cat render.txt >&2
+    continue
+  }
+  # a PNG starts with the bytes 0x89 'P' 'N' 'G'
+  [ -s picture.png ] && [ "$(head -c 4 picture.png | tail -c 3)" = PNG ] ||
+    fail "$f rendered to an empty or broken PNG"
+done
+[ "$count" -eq 16 ] || fail "$count SVG files checked, expected 16"
+finish
