@@ -958,6 +958,99 @@ KL_API int kl_tolerance_stack(kl_solver *s, const kl_output *o, int n,
                               const double *tolerances, double *worst,
                               double *rss);
 
+/* ------------------------------------------------------------------------
+ * Design studies: tolerance Monte Carlo and design grids (the study file is
+ * described in docs/studies.md)
+ * ------------------------------------------------------------------------ */
+
+/** A design study (opaque): a nominal model, the dimensions that vary and
+ * how, the outputs judged and their limits. Immutable once read. */
+typedef struct kl_study kl_study;
+
+/**
+ * Reads a study from `length` bytes of text. Its `model` statement names a
+ * model file, read relative to `base_dir` (NULL: the working directory).
+ * The nominal model is solved at the start of its sweep. Returns the study,
+ * or NULL with `err` (may be NULL) telling why, with line and column as for
+ * model files; KL_ENOASSEMBLY or KL_ESINGULAR if the nominal does not
+ * solve. Allocates through malloc.
+ */
+KL_API kl_study *kl_study_read(const char *text, size_t length,
+                               const char *base_dir, kl_io_error *err);
+/** As kl_study_read, from a file; its model path is relative to the file. */
+KL_API kl_study *kl_study_read_file(const char *path, kl_io_error *err);
+/** Frees a study. NULL does nothing. */
+KL_API void kl_study_free(kl_study *st);
+
+/** The number of samples: `samples` of a tolerance study, every
+ * combination of the grid values of a grid study. */
+KL_API long kl_study_sample_count(const kl_study *st);
+/** The number of outputs judged (the columns of the results). */
+KL_API int kl_study_output_count(const kl_study *st);
+/** The name of output `k`, NULL if there is none. */
+KL_API const char *kl_study_output_name(const kl_study *st, int k);
+/** The nominal model of the study (owned by the study). */
+KL_API const kl_model *kl_study_model(const kl_study *st);
+/** The number of dimensions that vary. */
+KL_API int kl_study_dimension_count(const kl_study *st);
+/** A short text naming dimension `k` ("rocker_pin b x"), NULL if none. */
+KL_API const char *kl_study_dimension_name(const kl_study *st, int k);
+
+/** Sample outcomes (sample_status of kl_study_run). */
+enum kl_sample_status {
+  KL_SAMPLE_OK = 0,         /**< every output computed */
+  KL_SAMPLE_NO_ASSEMBLY = 1 /**< the perturbed linkage does not assemble at
+                                 the sweep's start (or its sweep fails):
+                                 its outputs are NaN */
+};
+
+/**
+ * Runs samples first .. first + count - 1 on `threads` threads (0: all the
+ * cores), writing sample i's outputs into values[(i - first) * outputs + k]
+ * and its enum kl_sample_status into sample_status[i - first]; the
+ * dimensions it used into dims[(i - first) * dimensions + d] when `dims` is
+ * not NULL. Sample i's numbers depend on the seed and i alone (a
+ * counter-based random stream), never on the thread or process that ran
+ * it. Returns KL_OK, KL_EINVAL (bad range or NULL arrays), KL_ENOMEM.
+ */
+KL_API int kl_study_run(const kl_study *st, long first, long count,
+                        int threads, double *values, int *sample_status,
+                        double *dims);
+
+/** The summary of one output over the samples. */
+typedef struct kl_study_summary {
+  size_t size;          /**< sizeof(kl_study_summary), set by the caller */
+  long samples;         /**< samples summarized */
+  long assembled;       /**< samples whose linkage assembled */
+  long within_limits;   /**< samples within the output's limits (all that
+                             assembled when it has none) */
+  double nominal;       /**< the output of the nominal model */
+  double mean;          /**< over the samples that assembled */
+  double std;           /**< standard deviation (n - 1) */
+  double p01, p05, p50, p95, p99; /**< percentiles (linear interpolation) */
+  double min, max;      /**< extremes over the samples */
+  double worst;         /**< the value furthest outside its limits, or
+                             furthest from the nominal when it has none */
+  long worst_sample;    /**< the sample that gave it (-1 if none assembled) */
+  double first_order_std; /**< the standard deviation first-order
+                               sensitivities at the nominal predict (NaN
+                               where they cannot: grid studies, limits,
+                               efforts) */
+  int has_limits;       /**< whether the study gives limits */
+  double lower, upper;  /**< the limits */
+} kl_study_summary;
+
+/**
+ * Summarizes output `k` of `n` samples (values and statuses as kl_study_run
+ * wrote them for samples 0 .. n - 1, in order), into `summary`. The result
+ * depends only on the values, so runs split over threads or processes give
+ * identical summaries. Allocates a sorted copy for the percentiles.
+ * Returns KL_OK, KL_EID (no output k), KL_EINVAL, KL_ENOMEM.
+ */
+KL_API int kl_study_summarize(const kl_study *st, int k, const double *values,
+                              const int *sample_status, long n,
+                              kl_study_summary *summary);
+
 #ifdef __cplusplus
 }
 #endif

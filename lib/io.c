@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "model.h"
+#include "study.h"
 
 #define KLI_MAX_INPUT (16u << 20) /* bytes a model file may have */
 #define KLI_TOKEN_MAX 255         /* bytes in a name or a number */
@@ -247,13 +248,17 @@ static int expect_new_name(reader *r, const char *what, token *t,
                  what, shown(t));
 }
 
-enum { REF_LINK, REF_JOINT };
+enum { REF_LINK, REF_JOINT, REF_POINT };
 
-/* A reference to an existing link or joint: its name, or @id. */
+/* A reference to an existing link, joint or point: its name, or @id. */
 static int expect_ref(reader *r, int kind, const char *what, int *id) {
   token t;
-  const char *noun = kind == REF_LINK ? "link" : "joint";
-  int count = kind == REF_LINK ? r->m->nlinks : r->m->njoints, found;
+  static const char *const nouns[] = {"link", "joint", "point"};
+  const char *noun = nouns[kind];
+  int count = kind == REF_LINK    ? r->m->nlinks
+              : kind == REF_JOINT ? r->m->njoints
+                                  : r->m->npoints,
+      found;
   int st = next_token(r, &t);
   if (st != KL_OK)
     return st;
@@ -271,8 +276,9 @@ static int expect_ref(reader *r, int kind, const char *what, int *id) {
     *id = (int)v;
     return KL_OK;
   }
-  found = kind == REF_LINK ? kl_link_find(r->m, t.text)
-                           : kl_joint_find(r->m, t.text);
+  found = kind == REF_LINK    ? kl_link_find(r->m, t.text)
+          : kind == REF_JOINT ? kl_joint_find(r->m, t.text)
+                              : kl_point_find(r->m, t.text);
   if (found < 0)
     return fail_at(r, KL_ESYNTAX, t.column,
                    "no %s is named '%.60s' (%s); %ss must be declared "
@@ -450,33 +456,42 @@ static int read_sketch(reader *r) {
   return st == KL_OK ? KL_OK : builder_failed(r, st, t.column);
 }
 
-/* sweep JOINT from V to V steps N, JOINT being an input's joint */
-static int read_sweep(reader *r) {
-  kl_sweep_settings sw;
+/* JOINT from V to V steps N, JOINT being an input's joint: into *sw, the
+ * range in API units. */
+static int parse_sweep(reader *r, kl_sweep_settings *sw) {
   int st, joint, i;
   if ((st = expect_ref(r, REF_JOINT, "the swept input's joint", &joint)) !=
           KL_OK ||
       (st = expect_keyword(r, "from", "after the swept joint")) != KL_OK ||
-      (st = expect_number(r, "the start of the sweep", &sw.from)) != KL_OK ||
+      (st = expect_number(r, "the start of the sweep", &sw->from)) != KL_OK ||
       (st = expect_keyword(r, "to", "after the start")) != KL_OK ||
-      (st = expect_number(r, "the end of the sweep", &sw.to)) != KL_OK ||
+      (st = expect_number(r, "the end of the sweep", &sw->to)) != KL_OK ||
       (st = expect_keyword(r, "steps", "after the end")) != KL_OK ||
-      (st = expect_count(r, "the number of steps", &sw.steps)) != KL_OK ||
+      (st = expect_count(r, "the number of steps", &sw->steps)) != KL_OK ||
       (st = expect_end(r)) != KL_OK)
     return st;
-  sw.size = sizeof sw;
-  sw.input = -1;
+  sw->size = sizeof *sw;
+  sw->input = -1;
   for (i = 0; i < r->m->ninputs; i++)
     if (r->m->inputs[i] == joint)
-      sw.input = i;
-  if (sw.input < 0)
+      sw->input = i;
+  if (sw->input < 0)
     return fail_at(r, KL_ESYNTAX, 1,
                    "the swept joint is not an input; declare it with "
                    "'input' first");
   if (r->m->joints[joint].kind == KL_REVOLUTE) {
-    sw.from = angle_in(r, sw.from);
-    sw.to = angle_in(r, sw.to);
+    sw->from = angle_in(r, sw->from);
+    sw->to = angle_in(r, sw->to);
   }
+  return KL_OK;
+}
+
+/* sweep JOINT from V to V steps N */
+static int read_sweep(reader *r) {
+  kl_sweep_settings sw;
+  int st = parse_sweep(r, &sw);
+  if (st != KL_OK)
+    return st;
   st = kl_model_set_sweep(r->m, &sw);
   return st == KL_OK ? KL_OK : builder_failed(r, st, 1);
 }
@@ -619,52 +634,584 @@ static void io_fail(kl_io_error *err, int status, const char *fmt,
   fail_at(&r, status, 0, fmt, path, why);
 }
 
-kl_model *kl_model_read_file(const char *path, kl_io_error *err) {
+/* The bytes of a file, up to one more than the readers take (so that one
+ * too long is told apart), in a buffer of *cap bytes from the default
+ * allocator; KL_OK, or a status with err set. */
+static int read_whole_file(const char *path, char **buf, int *cap,
+                           size_t *len, kl_io_error *err) {
   kli_allocator a;
   FILE *f;
-  char *buf = NULL;
-  int cap = 0, len = 0, failed = 0;
-  kl_model *m = NULL;
-  clear_error(err);
+  int n = 0, st = KL_OK;
+  a.fn = kli_default_alloc;
+  a.user = NULL;
+  *buf = NULL;
+  *cap = 0;
   if (path == NULL) {
-    io_fail(err, KL_EINVAL, "read model: no path (NULL)%s%s", "", "");
-    return NULL;
+    io_fail(err, KL_EINVAL, "read: no path (NULL)%s%s", "", "");
+    return KL_EINVAL;
   }
   f = fopen(path, "rb");
   if (f == NULL) {
     io_fail(err, KL_EIO, "cannot open '%.120s': %.80s", path, strerror(errno));
-    return NULL;
+    return KL_EIO;
   }
-  a.fn = kli_default_alloc;
-  a.user = NULL;
-  /* grow with the file, up to one byte more than the reader takes, so that
-   * a file that is too long is told apart */
   for (;;) {
     size_t got;
-    int want = len + 65536 > (int)KLI_MAX_INPUT + 1 ? (int)KLI_MAX_INPUT + 1
-                                                     : len + 65536;
-    if (kli_reserve(&a, (void **)&buf, &cap, want, 1) != KL_OK) {
-      io_fail(err, KL_ENOMEM, "read model '%.120s': out of memory%s", path,
-              "");
-      failed = 1;
+    int want = n + 65536 > (int)KLI_MAX_INPUT + 1 ? (int)KLI_MAX_INPUT + 1
+                                                   : n + 65536;
+    if (kli_reserve(&a, (void **)buf, cap, want, 1) != KL_OK) {
+      io_fail(err, KL_ENOMEM, "read '%.120s': out of memory%s", path, "");
+      st = KL_ENOMEM;
       break;
     }
-    got = fread(buf + len, 1, (size_t)(want - len), f);
-    len += (int)got;
+    got = fread(*buf + n, 1, (size_t)(want - n), f);
+    n += (int)got;
     if (ferror(f)) {
       io_fail(err, KL_EIO, "cannot read '%.120s': %.80s", path,
               strerror(errno));
-      failed = 1;
+      st = KL_EIO;
       break;
     }
-    if (got == 0 || len > (int)KLI_MAX_INPUT)
+    if (got == 0 || n > (int)KLI_MAX_INPUT)
       break;
   }
   fclose(f);
-  if (!failed)
-    m = kl_model_read(buf, (size_t)len, err);
+  *len = (size_t)n;
+  if (st != KL_OK) {
+    kli_free(&a, *buf, (size_t)*cap);
+    *buf = NULL;
+  }
+  return st;
+}
+
+static void free_file_text(char *buf, int cap) {
+  kli_allocator a;
+  a.fn = kli_default_alloc;
+  a.user = NULL;
   kli_free(&a, buf, (size_t)cap);
+}
+
+kl_model *kl_model_read_file(const char *path, kl_io_error *err) {
+  char *buf;
+  int cap;
+  size_t len;
+  kl_model *m;
+  clear_error(err);
+  if (read_whole_file(path, &buf, &cap, &len, err) != KL_OK)
+    return NULL;
+  m = kl_model_read(buf, len, err);
+  free_file_text(buf, cap);
   return m;
+}
+
+/* ------------------------------------------------------------------------
+ * Reading a study
+ * ------------------------------------------------------------------------ */
+
+typedef struct {
+  reader r;
+  kl_study *st;
+  kli_allocator a;
+  const char *base_dir;
+  int seen_samples, seen_seed;
+} study_reader;
+
+static int study_needs_model(study_reader *sr, int column) {
+  if (sr->st->model == NULL)
+    return fail_at(&sr->r, KL_ESYNTAX, column,
+                   "'model' must come first: the study needs its model to "
+                   "name links, joints and points");
+  return KL_OK;
+}
+
+/* model PATH, relative to the study's directory */
+static int read_study_model(study_reader *sr) {
+  token t;
+  char path[1024];
+  kl_io_error inner;
+  int st;
+  if (sr->st->model != NULL)
+    return fail_at(&sr->r, KL_ESYNTAX, 1, "a study has one 'model'");
+  if ((st = next_token(&sr->r, &t)) != KL_OK)
+    return st;
+  if (t.kind == TOKEN_END)
+    return fail_at(&sr->r, KL_ESYNTAX, t.column,
+                   "expected the model file's path, found the end of the "
+                   "line");
+  if ((st = expect_end(&sr->r)) != KL_OK)
+    return st;
+  if (t.text[0] == '/' || sr->base_dir == NULL || sr->base_dir[0] == '\0')
+    snprintf(path, sizeof path, "%s", t.text);
+  else
+    snprintf(path, sizeof path, "%s/%s", sr->base_dir, t.text);
+  inner.size = sizeof inner;
+  sr->st->model = kl_model_read_file(path, &inner);
+  if (sr->st->model == NULL && inner.line > 0)
+    return fail_at(&sr->r, inner.status, t.column,
+                   "the model '%.200s', line %d, column %d: %.300s", path,
+                   inner.line, inner.column, inner.message);
+  if (sr->st->model == NULL)
+    return fail_at(&sr->r, inner.status, t.column, "the model '%.200s': %.300s",
+                   path, inner.message);
+  sr->r.m = sr->st->model;
+  sr->r.angle_deg = sr->st->model->angle_unit == KL_ANGLE_DEG;
+  if (sr->st->model->has_sweep)
+    sr->st->sweep = sr->st->model->sweep;
+  return KL_OK;
+}
+
+static int read_study_count(study_reader *sr, const char *what, long *out) {
+  double v;
+  int column, st = expect_number_at(&sr->r, what, &v, &column);
+  if (st != KL_OK)
+    return st;
+  if (v != floor(v) || v < 0 || v > 9007199254740992.0)
+    return fail_at(&sr->r, KL_ESYNTAX, column,
+                   "expected a whole number from 0 (%s), found %g", what, v);
+  *out = (long)v;
+  return expect_end(&sr->r);
+}
+
+/* joint REF a|b x|y, or point REF x|y */
+static int read_dimension(study_reader *sr, kl_dimension *d) {
+  token t;
+  int st;
+  if ((st = next_token(&sr->r, &t)) != KL_OK)
+    return st;
+  if (t.kind == TOKEN_WORD && strcmp(t.text, "joint") == 0) {
+    token side;
+    if ((st = expect_ref(&sr->r, REF_JOINT, "the joint that moves", &d->id)) !=
+            KL_OK ||
+        (st = next_token(&sr->r, &side)) != KL_OK)
+      return st;
+    if (side.kind != TOKEN_WORD ||
+        (strcmp(side.text, "a") != 0 && strcmp(side.text, "b") != 0))
+      return fail_at(&sr->r, KL_ESYNTAX, side.column,
+                     "expected the joint's side, a or b, found '%.60s'",
+                     shown(&side));
+    d->kind = side.text[0] == 'a' ? KL_DIM_JOINT_A : KL_DIM_JOINT_B;
+  } else if (t.kind == TOKEN_WORD && strcmp(t.text, "point") == 0) {
+    if ((st = expect_ref(&sr->r, REF_POINT, "the point that moves", &d->id)) !=
+        KL_OK)
+      return st;
+    d->kind = KL_DIM_POINT;
+  } else {
+    return fail_at(&sr->r, KL_ESYNTAX, t.column,
+                   "expected 'joint' or 'point' (the dimension that varies), "
+                   "found '%.60s'",
+                   shown(&t));
+  }
+  if ((st = next_token(&sr->r, &t)) != KL_OK)
+    return st;
+  if (t.kind != TOKEN_WORD ||
+      (strcmp(t.text, "x") != 0 && strcmp(t.text, "y") != 0))
+    return fail_at(&sr->r, KL_ESYNTAX, t.column,
+                   "expected the local axis, x or y, found '%.60s'", shown(&t));
+  d->axis = t.text[0] == 'x' ? 0 : 1;
+  return KL_OK;
+}
+
+static int push_vary(study_reader *sr, kli_vary **v) {
+  if (kli_reserve(&sr->a, (void **)&sr->st->vary, &sr->st->cap_vary,
+                  sr->st->nvary + 1, sizeof **v) != KL_OK)
+    return fail_at(&sr->r, KL_ENOMEM, 0, "out of memory");
+  *v = &sr->st->vary[sr->st->nvary];
+  memset(*v, 0, sizeof **v);
+  return KL_OK;
+}
+
+/* vary DIMENSION tolerance T normal|uniform */
+static int read_vary(study_reader *sr) {
+  kli_vary *v;
+  token how;
+  int st, column;
+  if ((st = study_needs_model(sr, 1)) != KL_OK || (st = push_vary(sr, &v)) ||
+      (st = read_dimension(sr, &v->dim)) != KL_OK ||
+      (st = expect_keyword(&sr->r, "tolerance", "after the dimension")) !=
+          KL_OK ||
+      (st = expect_number_at(&sr->r, "the tolerance", &v->tolerance,
+                             &column)) != KL_OK ||
+      (st = next_token(&sr->r, &how)) != KL_OK)
+    return st;
+  if (!(v->tolerance >= 0.0))
+    return fail_at(&sr->r, KL_ESYNTAX, column,
+                   "a tolerance is not negative (found %g)", v->tolerance);
+  if (how.kind == TOKEN_WORD && strcmp(how.text, "normal") == 0)
+    v->how = KLI_VARY_NORMAL;
+  else if (how.kind == TOKEN_WORD && strcmp(how.text, "uniform") == 0)
+    v->how = KLI_VARY_UNIFORM;
+  else
+    return fail_at(&sr->r, KL_ESYNTAX, how.column,
+                   "expected the distribution, normal or uniform, found "
+                   "'%.60s'",
+                   shown(&how));
+  if ((st = expect_end(&sr->r)) != KL_OK)
+    return st;
+  sr->st->nvary++;
+  return KL_OK;
+}
+
+/* grid DIMENSION from A to B steps N */
+static int read_grid(study_reader *sr) {
+  kli_vary *v;
+  int st;
+  if ((st = study_needs_model(sr, 1)) != KL_OK || (st = push_vary(sr, &v)) ||
+      (st = read_dimension(sr, &v->dim)) != KL_OK ||
+      (st = expect_keyword(&sr->r, "from", "after the dimension")) != KL_OK ||
+      (st = expect_number(&sr->r, "the first value", &v->from)) != KL_OK ||
+      (st = expect_keyword(&sr->r, "to", "after the first value")) != KL_OK ||
+      (st = expect_number(&sr->r, "the last value", &v->to)) != KL_OK ||
+      (st = expect_keyword(&sr->r, "steps", "after the last value")) !=
+          KL_OK ||
+      (st = expect_count(&sr->r, "the number of steps", &v->steps)) != KL_OK ||
+      (st = expect_end(&sr->r)) != KL_OK)
+    return st;
+  v->how = KLI_VARY_GRID;
+  sr->st->nvary++;
+  return KL_OK;
+}
+
+/* load force POINT FX FY | load torque LINK T */
+static int read_load(study_reader *sr) {
+  kl_load l;
+  token t;
+  int st;
+  memset(&l, 0, sizeof l);
+  if ((st = study_needs_model(sr, 1)) != KL_OK ||
+      (st = next_token(&sr->r, &t)) != KL_OK)
+    return st;
+  if (t.kind == TOKEN_WORD && strcmp(t.text, "force") == 0) {
+    l.kind = KL_LOAD_FORCE;
+    if ((st = expect_ref(&sr->r, REF_POINT, "the loaded point", &l.id)) ||
+        (st = expect_number(&sr->r, "the force's x", &l.fx)) != KL_OK ||
+        (st = expect_number(&sr->r, "the force's y", &l.fy)) != KL_OK)
+      return st;
+  } else if (t.kind == TOKEN_WORD && strcmp(t.text, "torque") == 0) {
+    l.kind = KL_LOAD_TORQUE;
+    if ((st = expect_ref(&sr->r, REF_LINK, "the loaded link", &l.id)) ||
+        (st = expect_number(&sr->r, "the torque", &l.torque)) != KL_OK)
+      return st;
+  } else {
+    return fail_at(&sr->r, KL_ESYNTAX, t.column,
+                   "expected 'force' or 'torque', found '%.60s'", shown(&t));
+  }
+  if ((st = expect_end(&sr->r)) != KL_OK)
+    return st;
+  if (kli_reserve(&sr->a, (void **)&sr->st->loads, &sr->st->cap_loads,
+                  sr->st->nloads + 1, sizeof l) != KL_OK)
+    return fail_at(&sr->r, KL_ENOMEM, 0, "out of memory");
+  sr->st->loads[sr->st->nloads++] = l;
+  return KL_OK;
+}
+
+/* angle LINK | slide JOINT | joint-angle JOINT | x POINT | y POINT |
+ * transmission JOINT JOINT JOINT */
+static int read_output_spec(study_reader *sr, kli_judge *j) {
+  token t;
+  int st;
+  kl_output *o = &j->what;
+  double deg = sr->r.angle_deg ? 180.0 / KLI_PI : 1.0;
+  if ((st = next_token(&sr->r, &t)) != KL_OK)
+    return st;
+  j->to_file = 1.0;
+  o->line_a = o->line_b = 0;
+  if (t.kind == TOKEN_WORD && strcmp(t.text, "angle") == 0) {
+    o->kind = KL_OUT_LINK_ANGLE;
+    j->to_file = deg;
+    return expect_ref(&sr->r, REF_LINK, "the link", &o->id);
+  }
+  if (t.kind == TOKEN_WORD && strcmp(t.text, "slide") == 0) {
+    o->kind = KL_OUT_SLIDE;
+    return expect_ref(&sr->r, REF_JOINT, "the sliding joint", &o->id);
+  }
+  if (t.kind == TOKEN_WORD && strcmp(t.text, "joint-angle") == 0) {
+    o->kind = KL_OUT_JOINT_ANGLE;
+    j->to_file = deg;
+    return expect_ref(&sr->r, REF_JOINT, "the joint", &o->id);
+  }
+  if (t.kind == TOKEN_WORD && (strcmp(t.text, "x") == 0 || strcmp(t.text, "y") == 0)) {
+    o->kind = t.text[0] == 'x' ? KL_OUT_POINT_X : KL_OUT_POINT_Y;
+    return expect_ref(&sr->r, REF_POINT, "the point", &o->id);
+  }
+  if (t.kind == TOKEN_WORD && strcmp(t.text, "transmission") == 0) {
+    o->kind = KL_OUT_TRANSMISSION;
+    j->to_file = deg;
+    if ((st = expect_ref(&sr->r, REF_JOINT, "the revolute joint", &o->id)) ||
+        (st = expect_ref(&sr->r, REF_JOINT, "the joint of link a's line",
+                         &o->line_a)) ||
+        (st = expect_ref(&sr->r, REF_JOINT, "the joint of link b's line",
+                         &o->line_b)))
+      return st;
+    return KL_OK;
+  }
+  return fail_at(&sr->r, KL_ESYNTAX, t.column,
+                 "expected what to measure (angle, slide, joint-angle, x, y "
+                 "or transmission), found '%.60s'",
+                 shown(&t));
+}
+
+/* output NAME swing|min|max SPEC | output NAME at VALUE SPEC |
+ * output NAME reach | output NAME effort */
+static int read_output(study_reader *sr) {
+  token name, how;
+  kli_judge *j;
+  int st, i;
+  if ((st = study_needs_model(sr, 1)) != KL_OK ||
+      (st = next_token(&sr->r, &name)) != KL_OK)
+    return st;
+  if (!((name.kind == TOKEN_WORD && is_identifier(name.text)) ||
+        name.kind == TOKEN_STRING) ||
+      name.length >= sizeof j->name)
+    return fail_at(&sr->r, KL_ESYNTAX, name.column,
+                   "expected the output's name (a word or a quoted name of "
+                   "at most %d bytes), found '%.60s'",
+                   (int)sizeof j->name - 1, shown(&name));
+  for (i = 0; i < sr->st->njudge; i++)
+    if (strcmp(sr->st->judge[i].name, name.text) == 0)
+      return fail_at(&sr->r, KL_ESYNTAX, name.column,
+                     "the output name '%.60s' is already used", name.text);
+  if (kli_reserve(&sr->a, (void **)&sr->st->judge, &sr->st->cap_judge,
+                  sr->st->njudge + 1, sizeof *j) != KL_OK)
+    return fail_at(&sr->r, KL_ENOMEM, 0, "out of memory");
+  j = &sr->st->judge[sr->st->njudge];
+  memset(j, 0, sizeof *j);
+  j->to_file = 1.0; /* angles set their own when the spec is read */
+  memcpy(j->name, name.text, name.length + 1);
+  if ((st = next_token(&sr->r, &how)) != KL_OK)
+    return st;
+  if (how.kind == TOKEN_WORD && strcmp(how.text, "swing") == 0)
+    j->how = KLI_JUDGE_SWING;
+  else if (how.kind == TOKEN_WORD && strcmp(how.text, "min") == 0)
+    j->how = KLI_JUDGE_MIN;
+  else if (how.kind == TOKEN_WORD && strcmp(how.text, "max") == 0)
+    j->how = KLI_JUDGE_MAX;
+  else if (how.kind == TOKEN_WORD && strcmp(how.text, "at") == 0)
+    j->how = KLI_JUDGE_AT;
+  else if (how.kind == TOKEN_WORD && strcmp(how.text, "reach") == 0)
+    j->how = KLI_JUDGE_REACH;
+  else if (how.kind == TOKEN_WORD && strcmp(how.text, "effort") == 0)
+    j->how = KLI_JUDGE_EFFORT;
+  else
+    return fail_at(&sr->r, KL_ESYNTAX, how.column,
+                   "expected how to judge (swing, min, max, at, reach or "
+                   "effort), found '%.60s'",
+                   shown(&how));
+  if (j->how == KLI_JUDGE_AT &&
+      (st = expect_number(&sr->r, "the input value", &j->at)) != KL_OK)
+    return st;
+  if (j->how != KLI_JUDGE_REACH && j->how != KLI_JUDGE_EFFORT &&
+      (st = read_output_spec(sr, j)) != KL_OK)
+    return st;
+  if ((st = expect_end(&sr->r)) != KL_OK)
+    return st;
+  sr->st->njudge++;
+  return KL_OK;
+}
+
+/* limit NAME LOWER UPPER */
+static int read_limit(study_reader *sr) {
+  token name;
+  int st, i, column;
+  double lower, upper;
+  if ((st = next_token(&sr->r, &name)) != KL_OK)
+    return st;
+  for (i = 0; i < sr->st->njudge; i++)
+    if (strcmp(sr->st->judge[i].name, name.text) == 0)
+      break;
+  if (i == sr->st->njudge)
+    return fail_at(&sr->r, KL_ESYNTAX, name.column,
+                   "no output is named '%.60s'; declare it with 'output' "
+                   "first",
+                   shown(&name));
+  if ((st = expect_number(&sr->r, "the lower limit", &lower)) != KL_OK ||
+      (st = expect_number_at(&sr->r, "the upper limit", &upper, &column)) !=
+          KL_OK ||
+      (st = expect_end(&sr->r)) != KL_OK)
+    return st;
+  if (!(upper >= lower))
+    return fail_at(&sr->r, KL_ESYNTAX, column,
+                   "the upper limit %g is below the lower %g", upper, lower);
+  sr->st->judge[i].has_limits = 1;
+  sr->st->judge[i].lower = lower;
+  sr->st->judge[i].upper = upper;
+  return KL_OK;
+}
+
+static int read_study_statement(study_reader *sr, const token *key) {
+  reader *r = &sr->r;
+  const char *k = key->text;
+  kl_sweep_settings sw;
+  int st;
+  long n;
+  if (!r->seen_header) {
+    double version;
+    int column;
+    if (key->kind != TOKEN_WORD || strcmp(k, "kinloop-study") != 0)
+      return fail_at(r, KL_ESYNTAX, key->column,
+                     "expected 'kinloop-study %d' as the first statement, "
+                     "found '%.60s'",
+                     KLI_FORMAT_VERSION, k);
+    if ((st = expect_number_at(r, "the format version", &version, &column)))
+      return st;
+    if (version != KLI_FORMAT_VERSION)
+      return fail_at(r, KL_ESYNTAX, column,
+                     "this is study version %g; kinloop %s reads version %d",
+                     version, KINLOOP_VERSION, KLI_FORMAT_VERSION);
+    r->seen_header = 1;
+    return expect_end(r);
+  }
+  if (key->kind == TOKEN_WORD && strcmp(k, "model") == 0)
+    return read_study_model(sr);
+  if (key->kind == TOKEN_WORD && strcmp(k, "seed") == 0) {
+    if ((st = read_study_count(sr, "the seed", &n)) != KL_OK)
+      return st;
+    sr->st->seed = (unsigned long long)n;
+    return KL_OK;
+  }
+  if (key->kind == TOKEN_WORD && strcmp(k, "samples") == 0) {
+    sr->seen_samples = 1;
+    return read_study_count(sr, "the number of samples", &sr->st->samples);
+  }
+  if (key->kind == TOKEN_WORD && strcmp(k, "vary") == 0)
+    return read_vary(sr);
+  if (key->kind == TOKEN_WORD && strcmp(k, "grid") == 0)
+    return read_grid(sr);
+  if (key->kind == TOKEN_WORD && strcmp(k, "load") == 0)
+    return read_load(sr);
+  if (key->kind == TOKEN_WORD && strcmp(k, "output") == 0)
+    return read_output(sr);
+  if (key->kind == TOKEN_WORD && strcmp(k, "limit") == 0)
+    return read_limit(sr);
+  if (key->kind == TOKEN_WORD && strcmp(k, "sweep") == 0) {
+    if ((st = study_needs_model(sr, key->column)) != KL_OK ||
+        (st = parse_sweep(r, &sw)) != KL_OK)
+      return st;
+    sr->st->sweep = sw;
+    return KL_OK;
+  }
+  return fail_at(r, KL_ESYNTAX, key->column,
+                 "unknown statement '%.60s' (expected model, seed, samples, "
+                 "vary, grid, load, output, limit or sweep)",
+                 k);
+}
+
+/* What the statements together must say. */
+static int check_study(study_reader *sr) {
+  kl_study *st = sr->st;
+  int i, grids = 0;
+  sr->r.line = 0;
+  if (st->model == NULL)
+    return fail_at(&sr->r, KL_ESYNTAX, 0, "the study names no model");
+  if (st->njudge == 0)
+    return fail_at(&sr->r, KL_ESYNTAX, 0, "the study judges no output");
+  if (st->sweep.size == 0)
+    return fail_at(&sr->r, KL_ESYNTAX, 0,
+                   "the study needs sweep settings (a 'sweep' statement here "
+                   "or in its model)");
+  for (i = 0; i < st->nvary; i++)
+    grids += st->vary[i].how == KLI_VARY_GRID;
+  if (grids > 0 && grids < st->nvary)
+    return fail_at(&sr->r, KL_ESYNTAX, 0,
+                   "a study is either a grid or tolerances: this one mixes "
+                   "%d grid and %d tolerance dimensions",
+                   grids, st->nvary - grids);
+  st->grid = grids > 0;
+  if (st->grid) {
+    double count = 1.0;
+    if (sr->seen_samples)
+      return fail_at(&sr->r, KL_ESYNTAX, 0,
+                     "a grid study has as many samples as grid points: "
+                     "leave 'samples' out");
+    for (i = 0; i < st->nvary; i++)
+      count *= st->vary[i].steps + 1;
+    if (count > 1e9)
+      return fail_at(&sr->r, KL_ESYNTAX, 0,
+                     "the grid has %.3g points; at most 1e9", count);
+    st->samples = (long)count;
+  } else if (!sr->seen_samples) {
+    return fail_at(&sr->r, KL_ESYNTAX, 0,
+                   "a tolerance study says how many 'samples' to draw");
+  }
+  for (i = 0; i < st->njudge; i++)
+    if (st->judge[i].how == KLI_JUDGE_EFFORT && st->nloads == 0)
+      return fail_at(&sr->r, KL_ESYNTAX, 0,
+                     "output '%.60s' judges the input effort, but the study "
+                     "gives no 'load'",
+                     st->judge[i].name);
+  return KL_OK;
+}
+
+kl_study *kl_study_read(const char *text, size_t length, const char *base_dir,
+                        kl_io_error *err) {
+  study_reader sr;
+  int st = KL_OK;
+  memset(&sr, 0, sizeof sr);
+  sr.r.text = text;
+  sr.r.length = length;
+  sr.r.line = 1;
+  sr.r.err = err;
+  sr.base_dir = base_dir;
+  sr.a.fn = kli_default_alloc;
+  sr.a.user = NULL;
+  clear_error(err);
+  if ((text == NULL && length > 0) || length > KLI_MAX_INPUT ||
+      (length > 0 && memchr(text, '\0', length) != NULL)) {
+    fail_at(&sr.r, KL_EINVAL, 0,
+            "the study text is NULL, longer than %u bytes, or holds a NUL "
+            "byte",
+            KLI_MAX_INPUT);
+    return NULL;
+  }
+  sr.st = kli_alloc(&sr.a, sizeof *sr.st);
+  if (sr.st == NULL) {
+    fail_at(&sr.r, KL_ENOMEM, 0, "out of memory");
+    return NULL;
+  }
+  memset(sr.st, 0, sizeof *sr.st);
+  while (st == KL_OK && sr.r.pos < sr.r.length) {
+    token key;
+    if ((st = next_token(&sr.r, &key)) != KL_OK)
+      break;
+    if (key.kind != TOKEN_END)
+      st = read_study_statement(&sr, &key);
+    if (st == KL_OK)
+      next_line(&sr.r);
+  }
+  if (st == KL_OK && !sr.r.seen_header)
+    st = fail_at(&sr.r, KL_ESYNTAX, 1,
+                 "empty study: expected 'kinloop-study %d'",
+                 KLI_FORMAT_VERSION);
+  if (st == KL_OK)
+    st = check_study(&sr);
+  if (st == KL_OK) {
+    char why[KLI_MESSAGE_SIZE];
+    st = kli_study_prepare(sr.st, why);
+    if (st != KL_OK)
+      fail_at(&sr.r, st, 0, "the nominal model: %s", why);
+  }
+  if (st != KL_OK) {
+    kl_study_free(sr.st);
+    return NULL;
+  }
+  return sr.st;
+}
+
+kl_study *kl_study_read_file(const char *path, kl_io_error *err) {
+  char dir[1024];
+  const char *slash;
+  kl_study *st;
+  char *text;
+  int cap;
+  size_t len;
+  clear_error(err);
+  if (read_whole_file(path, &text, &cap, &len, err) != KL_OK)
+    return NULL;
+  slash = strrchr(path, '/');
+  snprintf(dir, sizeof dir, "%.*s", slash == NULL ? 1 : (int)(slash - path),
+           slash == NULL ? "." : path);
+  st = kl_study_read(text, len, dir, err);
+  free_file_text(text, cap);
+  return st;
 }
 
 /* ------------------------------------------------------------------------

@@ -607,6 +607,73 @@ int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep) {
   return KL_OK;
 }
 
+/* Duplicates an array of `cap` elements of `elem` bytes; 1 if done. */
+static int copy_array(const kli_allocator *a, void **to, int *to_cap,
+                      const void *from, int cap, size_t elem) {
+  if (cap == 0)
+    return 1;
+  *to = kli_alloc(a, (size_t)cap * elem);
+  if (*to == NULL)
+    return 0;
+  memcpy(*to, from, (size_t)cap * elem);
+  *to_cap = cap;
+  return 1;
+}
+
+kl_model *kli_model_copy(const kl_model *src) {
+  kl_model *m = kli_alloc(&src->alloc, sizeof *m);
+  int i, ok;
+  if (m == NULL)
+    return NULL;
+  /* an empty model with src's settings; every state below is freeable */
+  memset(m, 0, sizeof *m);
+  m->alloc = src->alloc;
+  m->length_unit = src->length_unit;
+  m->angle_unit = src->angle_unit;
+  m->sweep = src->sweep;
+  m->has_sweep = src->has_sweep;
+  ok = copy_array(&m->alloc, (void **)&m->links, &m->cap_links, src->links,
+                  src->cap_links, sizeof *m->links) &&
+       copy_array(&m->alloc, (void **)&m->joints, &m->cap_joints, src->joints,
+                  src->cap_joints, sizeof *m->joints) &&
+       copy_array(&m->alloc, (void **)&m->points, &m->cap_points, src->points,
+                  src->cap_points, sizeof *m->points) &&
+       copy_array(&m->alloc, (void **)&m->inputs, &m->cap_inputs, src->inputs,
+                  src->cap_inputs, sizeof *m->inputs) &&
+       copy_array(&m->alloc, (void **)&m->reg_joints, &m->cap_reg_joints,
+                  src->reg_joints, src->cap_reg_joints, sizeof(int)) &&
+       copy_array(&m->alloc, (void **)&m->reg_start, &m->cap_reg_start,
+                  src->reg_start, src->cap_reg_start, sizeof(int));
+  if (ok) {
+    m->nlinks = src->nlinks;
+    m->njoints = src->njoints;
+    m->npoints = src->npoints;
+    m->ninputs = src->ninputs;
+    m->nreg_joints = src->nreg_joints;
+    m->nreg_loops = src->nreg_loops;
+    /* the names are src's until copied: none first, then each */
+    for (i = 0; i < m->nlinks; i++)
+      m->links[i].name = NULL;
+    for (i = 0; i < m->njoints; i++)
+      m->joints[i].name = NULL;
+    for (i = 0; i < m->npoints; i++)
+      m->points[i].name = NULL;
+    for (i = 0; ok && i < m->nlinks; i++)
+      ok = copy_name(m, src->links[i].name, &m->links[i].name, "copy") == KL_OK;
+    for (i = 0; ok && i < m->njoints; i++)
+      ok = copy_name(m, src->joints[i].name, &m->joints[i].name, "copy") ==
+           KL_OK;
+    for (i = 0; ok && i < m->npoints; i++)
+      ok = copy_name(m, src->points[i].name, &m->points[i].name, "copy") ==
+           KL_OK;
+  }
+  if (!ok) {
+    kl_model_free(m);
+    return NULL;
+  }
+  return m;
+}
+
 /* ---- reading the record back ---- */
 
 int kl_model_link_count(const kl_model *m) {

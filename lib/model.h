@@ -149,6 +149,10 @@ int kli_loop_links(const kl_model *m, int n, const int *joints,
                    int *links_after);
 /* 1 for prismatic and slot joints. */
 int kli_is_sliding(int kind);
+/* An unfinalized copy of m's record (links, joints, points, inputs,
+ * registered loops, names, units, sketch, sweep), with m's allocator;
+ * NULL when memory runs out. */
+kl_model *kli_model_copy(const kl_model *m);
 /* Frees what finalize derived and marks the model unfinalized. */
 void kli_topology_release(kl_model *m);
 

@@ -1,0 +1,67 @@
+/*
+ * study.h - private: a design study as the reader records it (io.c) and
+ * the engine runs it (study.c).
+ */
+#ifndef KINLOOP_STUDY_H
+#define KINLOOP_STUDY_H
+
+#include "outputs.h"
+
+enum { KLI_VARY_NORMAL, KLI_VARY_UNIFORM, KLI_VARY_GRID };
+
+/* One dimension that varies. */
+typedef struct {
+  kl_dimension dim;
+  kli_dim where;     /* what it moves */
+  int how;           /* KLI_VARY_* */
+  double tolerance;  /* normal: three standard deviations; uniform: the
+                        half-width of the interval */
+  double from, to;   /* grid values: steps + 1 of them from `from` to `to` */
+  int steps;
+  double nominal;    /* the model's own value */
+  char name[96];
+} kli_vary;
+
+enum {
+  KLI_JUDGE_SWING,   /* max - min of an output over the sweep */
+  KLI_JUDGE_MIN,
+  KLI_JUDGE_MAX,
+  KLI_JUDGE_AT,      /* an output at one value of the swept input */
+  KLI_JUDGE_REACH,   /* how far the swept input gets (its limit, or the end) */
+  KLI_JUDGE_EFFORT   /* the largest input effort against the loads */
+};
+
+/* One output judged. Values are in the file's units: to_file converts the
+ * API's (radians to degrees where the model's angles are degrees). */
+typedef struct {
+  char name[64];
+  int how;           /* KLI_JUDGE_* */
+  kl_output what;
+  double at;         /* KLI_JUDGE_AT: the input value, API units */
+  double to_file;
+  int has_limits;
+  double lower, upper;
+} kli_judge;
+
+struct kl_study {
+  kl_model *model;
+  kl_solver *nominal;     /* solved at the start of the sweep */
+  kl_sweep_settings sweep;
+  unsigned long long seed;
+  long samples;
+  int grid;               /* the dimensions are a grid, not tolerances */
+  kli_vary *vary;
+  int nvary, cap_vary;
+  kli_judge *judge;
+  int njudge, cap_judge;
+  kl_load *loads;
+  int nloads, cap_loads;
+  double *nominal_values; /* njudge */
+  double *first_order_std;
+};
+
+/* Solves the nominal, its outputs and the first-order estimates, once the
+ * reader has recorded the study: KL_OK, or a status with buf saying why. */
+int kli_study_prepare(kl_study *st, char *buf);
+
+#endif
