@@ -470,7 +470,7 @@ typedef struct kl_options {
   double max_step;         /**< largest Newton step: rad, or scale units for slides; default 1 */
   double singular_rcond;   /**< rcond below this at the solution is singular; default 1e-8 */
   int kernel;              /**< enum kl_kernel; default KL_KERNEL_AUTO: the small kernel
-                                up to 8 unknowns, banded where the ordered band is at most a
+                                up to 16 unknowns, banded where the ordered band is at most a
                                 quarter of the unknowns, dense otherwise. All give the same
                                 answers to rounding. */
 } kl_options;
@@ -998,10 +998,14 @@ KL_API const char *kl_study_dimension_name(const kl_study *st, int k);
 
 /** Sample outcomes (sample_status of kl_study_run). */
 enum kl_sample_status {
-  KL_SAMPLE_OK = 0,         /**< every output computed */
-  KL_SAMPLE_NO_ASSEMBLY = 1 /**< the perturbed linkage does not assemble at
-                                 the sweep's start (or its sweep fails):
-                                 its outputs are NaN */
+  KL_SAMPLE_OK = 0,          /**< every output computed over the whole sweep */
+  KL_SAMPLE_NO_ASSEMBLY = 1, /**< the perturbed linkage does not assemble at
+                                  the sweep's start (or a solve fails): its
+                                  outputs are NaN */
+  KL_SAMPLE_LIMITED = 2      /**< it assembles, but its motion stops at a
+                                  limit inside the sweep: outputs over the
+                                  reachable part, NaN for an input value
+                                  beyond it; never within limits */
 };
 
 /**
@@ -1021,9 +1025,11 @@ KL_API int kl_study_run(const kl_study *st, long first, long count,
 typedef struct kl_study_summary {
   size_t size;          /**< sizeof(kl_study_summary), set by the caller */
   long samples;         /**< samples summarized */
-  long assembled;       /**< samples whose linkage assembled */
-  long within_limits;   /**< samples within the output's limits (all that
-                             assembled when it has none) */
+  long assembled;       /**< samples whose linkage assembled (limited ones
+                             included) */
+  long within_limits;   /**< samples that moved through the whole sweep
+                             with the output within its limits (all such
+                             samples when it has none) */
   double nominal;       /**< the output of the nominal model */
   double mean;          /**< over the samples that assembled */
   double std;           /**< standard deviation (n - 1) */
@@ -1038,11 +1044,13 @@ typedef struct kl_study_summary {
                                efforts) */
   int has_limits;       /**< whether the study gives limits */
   double lower, upper;  /**< the limits */
+  long limited;         /**< samples whose motion stopped inside the sweep */
 } kl_study_summary;
 
 /**
  * Summarizes output `k` of `n` samples (values and statuses as kl_study_run
- * wrote them for samples 0 .. n - 1, in order), into `summary`. The result
+ * wrote them for samples 0 .. n - 1, in order), into `summary`: the
+ * statistics are over the samples that assembled and have a value. The result
  * depends only on the values, so runs split over threads or processes give
  * identical summaries. Allocates a sorted copy for the percentiles.
  * Returns KL_OK, KL_EID (no output k), KL_EINVAL, KL_ENOMEM.

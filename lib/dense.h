@@ -8,7 +8,7 @@
 #include "memory.h"
 
 /* Systems this small are factored by the built-in kernel in AUTO. */
-#define KLI_SMALL_MAX 8
+#define KLI_SMALL_MAX 16
 
 /* The sparsity pattern as the topology gives it. */
 typedef struct {

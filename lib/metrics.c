@@ -177,13 +177,25 @@ int kl_mechanical_advantage(kl_solver *s, const kl_output *o, int input,
 
 /* ---- extremes over a sweep ---- */
 
+/*
+ * What a range search keeps while the sweep delivers its steps. Every step
+ * gives the output's value and, from the unit-rate velocity, its slope;
+ * where the slope changes sign between two steps a turning point lies
+ * between them. The best such bracket for the minimum and for the maximum
+ * (by the larger or smaller of its two sampled values) is kept, with the
+ * state at its left end in s->extreme[i]; the ends of the range are
+ * candidates too.
+ */
 typedef struct {
   kl_solver *s;
   const kl_output *o;
-  double best[2]; /* [0] minimum, [1] maximum */
-  double at[2];   /* the inputs where they were sampled */
-  int sampled;
-  double last;    /* input of the last delivered step */
+  int steps;              /* steps delivered */
+  double direction;       /* +1 for a sweep up the input, -1 down */
+  double v, g, u;         /* the last step: value, slope, input */
+  double first_v, first_u;
+  int found[2];           /* [0] a minimum's bracket, [1] a maximum's */
+  double sampled[2];      /* its better sampled value */
+  double lo[2], hi[2];    /* its inputs */
 } range_search;
 
 static int track_extremes(const kl_solver *cs, int step, double input,
@@ -191,16 +203,33 @@ static int track_extremes(const kl_solver *cs, int step, double input,
   range_search *r = user;
   kl_solver *s = r->s; /* the same solver, which this search owns */
   double v = kli_output_value(cs, r->o);
+  /* the slope along the way the sweep goes, which may be downward */
+  double g = kli_output_change(cs, r->o, cs->st.xd, NULL) * r->direction;
   int i;
-  for (i = 0; i < 2; i++)
-    if (!r->sampled || (i == 0 ? v < r->best[i] : v > r->best[i])) {
-      r->best[i] = v;
-      r->at[i] = input;
-      kli_state_copy(s, &s->extreme[i], &s->st);
-    }
-  r->sampled = 1;
-  r->last = input;
   (void)step;
+  if (r->steps == 0) {
+    r->first_v = v;
+    r->first_u = input;
+  } else {
+    for (i = 0; i < 2; i++) {
+      /* a minimum where the slope turns from falling to rising */
+      int turns = i == 0 ? (r->g <= 0.0 && g >= 0.0) : (r->g >= 0.0 && g <= 0.0);
+      double best = i == 0 ? fmin(r->v, v) : fmax(r->v, v);
+      if (turns && (!r->found[i] || (i == 0 ? best < r->sampled[i]
+                                            : best > r->sampled[i]))) {
+        r->found[i] = 1;
+        r->sampled[i] = best;
+        r->lo[i] = r->u;
+        r->hi[i] = input;
+        kli_state_copy(s, &s->extreme[i], &s->previous);
+      }
+    }
+  }
+  kli_state_copy(s, &s->previous, &s->st);
+  r->v = v;
+  r->g = g;
+  r->u = input;
+  r->steps++;
   return 0;
 }
 
@@ -217,43 +246,29 @@ static double slope_at(kl_solver *s, int input, const kl_output *o, double u,
 }
 
 /*
- * The extreme near sampled step `step`: a zero of the slope between the
- * neighbouring steps, by false position (Illinois), if the slope changes
- * sign there; the sample itself otherwise. Updates *value and *at.
+ * The turning point in the bracket [a, b] (the slope changes sign there),
+ * by false position (Illinois) on the slope, solved from the state kept
+ * at a; its value into *value and its input into *at. 0 if a solve fails.
  */
-static void refine_extreme(kl_solver *s, int input, const kl_output *o,
-                           int which, double lo, double hi, double *value,
-                           double *at) {
+static int refine_extreme(kl_solver *s, int input, const kl_output *o,
+                          int which, double a, double b, double *value,
+                          double *at) {
   const kli_state *from = &s->extreme[which];
-  double u0 = *at, g0, glo, ghi, a, b, ga, gb;
+  double ga, gb;
   int ok, side = 0, iter;
-  g0 = slope_at(s, input, o, u0, from, &ok);
+  ga = slope_at(s, input, o, a, from, &ok);
   if (!ok)
-    return;
-  glo = lo < u0 ? slope_at(s, input, o, lo, from, &ok) : g0;
+    return 0;
+  gb = slope_at(s, input, o, b, from, &ok);
   if (!ok)
-    glo = g0;
-  ghi = hi > u0 ? slope_at(s, input, o, hi, from, &ok) : g0;
-  if (!ok)
-    ghi = g0;
-  if (glo * g0 < 0.0) {
-    a = lo, b = u0, ga = glo, gb = g0;
-  } else if (g0 * ghi < 0.0) {
-    a = u0, b = hi, ga = g0, gb = ghi;
-  } else {
-    return; /* no turning point between the neighbours */
-  }
-  for (iter = 0; iter < 100 && b - a > KLI_EXTREME_BRACKET; iter++) {
-    double c = (a * gb - b * ga) / (gb - ga), gc = slope_at(s, input, o, c,
-                                                            from, &ok);
-    if (!ok || !(c > a && c < b))
-      c = 0.5 * (a + b), gc = slope_at(s, input, o, c, from, &ok);
+    return 0;
+  for (iter = 0; iter < 100 && fabs(b - a) > KLI_EXTREME_BRACKET &&
+                 ga != 0.0 && gb != 0.0 && ga * gb < 0.0;
+       iter++) {
+    double c = (a * gb - b * ga) / (gb - ga), gc;
+    gc = slope_at(s, input, o, c, from, &ok);
     if (!ok)
-      return;
-    if (gc == 0.0) {
-      a = b = c;
-      break;
-    }
+      return 0;
     if (ga * gc < 0.0) {
       b = c, gb = gc;
       if (side == -1)
@@ -266,14 +281,11 @@ static void refine_extreme(kl_solver *s, int input, const kl_output *o,
       side = 1;
     }
   }
-  slope_at(s, input, o, 0.5 * (a + b), from, &ok);
-  if (ok) {
-    double v = kli_output_value(s, o);
-    if (which == 0 ? v < *value : v > *value) {
-      *value = v;
-      *at = 0.5 * (a + b);
-    }
-  }
+  *at = ga == 0.0 ? a : gb == 0.0 ? b : 0.5 * (a + b);
+  slope_at(s, input, o, *at, from, &ok);
+  if (ok)
+    *value = kli_output_value(s, o);
+  return ok;
 }
 
 int kl_output_range(kl_solver *s, int input, double from, double to,
@@ -281,16 +293,15 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
   range_search r;
   kl_sweep_result sw;
   kl_range out;
-  double h, at[2];
   int st, i;
   if (s == NULL || range == NULL || range->size < sizeof(range->size))
     return KL_EINVAL;
   if ((st = kli_output_check(s->model, o, s->error)) != KL_OK)
     return st;
+  memset(&r, 0, sizeof r);
   r.s = s;
   r.o = o;
-  r.sampled = 0;
-  r.last = from;
+  r.direction = to >= from ? 1.0 : -1.0;
   sw.size = sizeof sw;
   st = kl_sweep(s, input, from, to, steps, track_extremes, &r, &sw);
   if (st != KL_OK && st != KL_LIMIT)
@@ -303,22 +314,28 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
     double inside = sw.limit_input - (to > from ? 1.0 : -1.0) * KLI_LIMIT_INSIDE;
     kl_sweep_result tail;
     tail.size = sizeof tail;
-    kl_sweep(s, input, r.last, inside, 1, track_extremes, &r, &tail);
+    kl_sweep(s, input, r.u, inside, 1, track_extremes, &r, &tail);
   }
-  /* a turning point lies within a step of its best sample */
-  h = fabs(to - from) / steps;
+  kli_state_copy(s, &s->delivered, &s->st); /* where the sweep ended */
+  /* the ends of the range are candidates; then each bracketed turn */
+  out.min = out.max = r.first_v;
+  out.input_at_min = out.input_at_max = r.first_u;
+  if (r.v < out.min)
+    out.min = r.v, out.input_at_min = r.u;
+  if (r.v > out.max)
+    out.max = r.v, out.input_at_max = r.u;
   for (i = 0; i < 2; i++) {
-    double range_lo = fmin(from, r.last), range_hi = fmax(from, r.last);
-    at[i] = r.at[i];
-    refine_extreme(s, input, o, i, fmax(at[i] - h, range_lo),
-                   fmin(at[i] + h, range_hi), &r.best[i], &at[i]);
+    double value, at;
+    if (!r.found[i] ||
+        !refine_extreme(s, input, o, i, r.lo[i], r.hi[i], &value, &at))
+      continue;
+    if (i == 0 && value < out.min)
+      out.min = value, out.input_at_min = at;
+    if (i == 1 && value > out.max)
+      out.max = value, out.input_at_max = at;
   }
   kli_state_restore(s, &s->delivered);
   out.size = range->size;
-  out.min = r.best[0];
-  out.max = r.best[1];
-  out.input_at_min = at[0];
-  out.input_at_max = at[1];
   memcpy(range, &out, range->size < sizeof out ? range->size : sizeof out);
   return st;
 }

@@ -13,6 +13,10 @@
 /* Newton's direction is given up for a damped step when the line search
  * would cut it below this fraction: it then points mostly off the way down. */
 #define KLI_NEWTON_ALPHA_MIN 1e-2
+/* Stopping after a step without factoring again: the step is this small
+ * (rad, slides in scale units) and this much smaller than the one before. */
+#define KLI_QUADRATIC_STEP 1e-5
+#define KLI_QUADRATIC_RATIO 1e-2
 /* The largest first-order move of a start (rad, slides in scale units). */
 #define KLI_TANGENT_MAX 0.1
 /* Damping factors tried, each ten times the last, before giving up. */
@@ -78,7 +82,7 @@ static double slope_along(kl_solver *s, const double *f, const double *dq) {
 static void predict_from_tangent(kl_solver *s, double *q) {
   int i, moved = 0;
   if (!s->st.position_solved || s->st.last_attempt != KL_OK ||
-      !s->factors_current || s->dense.singular)
+      !s->factors_near || s->dense.singular)
     return;
   for (i = 0; i < s->ninputs; i++) {
     s->u_unit[i] = s->u_trial[i] - s->st.u[i];
@@ -221,12 +225,14 @@ static int fail_stalled(kl_solver *s, const newton_iterate *it, int iters) {
                   loop);
 }
 
-static void commit(kl_solver *s, const kli_pose *p, double rcond) {
+static void commit(kl_solver *s, const kli_pose *p, double rcond,
+                   int factored_at_solution) {
   kli_pose_copy(s, &s->st.pose, p);
   memcpy(s->st.u, s->u_trial, (size_t)s->ninputs * sizeof(double));
   s->st.position_solved = 1;
   s->st.inputs_known = 1;
-  s->factors_current = 1;
+  s->factors_current = factored_at_solution;
+  s->factors_near = 1;
   s->st.rcond = rcond;
   kli_state_changed(s);
 }
@@ -234,7 +240,8 @@ static void commit(kl_solver *s, const kli_pose *p, double rcond) {
 int kl_solve_position(kl_solver *s, const double *inputs) {
   newton_iterate it;
   double ftol, prev_step = HUGE_VAL, step = HUGE_VAL, before;
-  int st, iter, singular = 0, slow = 0;
+  int st, iter, singular = 0, slow = 0, backtracks, moved, full_newton;
+  int factored_at_solution = 1;
   char in[200];
   if (s == NULL)
     return KL_EINVAL;
@@ -259,7 +266,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   predict_from_tangent(s, it.q);
   kli_expand_inputs(s->model, s->u_trial, s->x_base);
   it.fnorm = evaluate(s, it.cur, it.q, it.f);
-  s->factors_current = 0;
+  s->factors_current = s->factors_near = 0;
   for (iter = 0;; iter++) {
     int i;
     singular = kli_factor_at(s, it.cur);
@@ -286,9 +293,12 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
     /* Newton's step first; where the Jacobian is (nearly) singular its step
      * is useless, and damped least-squares steps take over. */
     before = it.fnorm;
-    if ((singular || !isfinite(step) ||
-         !step_along(s, &it, s->dq, step, KLI_NEWTON_ALPHA_MIN, 1)) &&
-        !damped_step(s, &it)) {
+    backtracks = s->stats.backtracks;
+    moved = !singular && isfinite(step) &&
+            step_along(s, &it, s->dq, step, KLI_NEWTON_ALPHA_MIN, 1);
+    full_newton = moved && s->stats.backtracks == backtracks &&
+                  step <= s->opt.max_step;
+    if (!moved && !damped_step(s, &it)) {
       /* no step decreases the residual: within tolerance that is the
        * rounding floor of a solution (no step was taken, so the factors
        * are at it.cur); above it, a positive minimum */
@@ -308,6 +318,18 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
       st = fail_stalled(s, &it, iter + 1);
       goto failed;
     }
+    /* Quadratic convergence seen: a full Newton step, at most a hundredth
+     * of the one before, has brought the residual within tolerance, so the
+     * next would be below rounding. Stop without factoring once more: the
+     * factors one such step back serve the singular test and the next
+     * solve's predictor; the rate stages factor at the solution. (Near a
+     * singular position convergence is linear and this never holds.) */
+    if (full_newton && iter > 0 && it.fnorm <= ftol &&
+        step <= KLI_QUADRATIC_STEP && step <= KLI_QUADRATIC_RATIO * prev_step) {
+      iter++;
+      factored_at_solution = 0;
+      break;
+    }
     prev_step = step;
     s->stats.iterations = iter + 1;
   }
@@ -324,7 +346,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
                   s->opt.singular_rcond);
     goto failed_stats;
   }
-  commit(s, it.cur, s->stats.rcond);
+  commit(s, it.cur, s->stats.rcond, factored_at_solution);
   s->st.last_attempt = s->stats.status = KL_OK;
   return KL_OK;
 failed:

@@ -65,6 +65,7 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   carve_state(&t->delivered, c, nc, nl, ni);
   carve_state(&t->extreme[0], c, nc, nl, ni);
   carve_state(&t->extreme[1], c, nc, nl, ni);
+  carve_state(&t->previous, c, nc, nl, ni);
   t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
   t->coef2 = kli_carve(c, (size_t)nc * (size_t)ni * (size_t)ni, sizeof(double));
   carve_pose(&t->trial[0], c, nc, nl);
@@ -228,7 +229,7 @@ int kl_solver_set_options(kl_solver *s, const kl_options *o) {
                     "set options: kernel %d is not a kl_kernel", next.kernel);
   if (next.kernel != s->opt.kernel) {
     kli_dense_use(&s->dense, next.kernel);
-    s->factors_current = 0;
+    s->factors_current = s->factors_near = 0;
   }
   s->opt = next;
   return KL_OK;
@@ -297,7 +298,7 @@ void kli_state_copy(const kl_solver *s, kli_state *to, const kli_state *from) {
 
 void kli_state_restore(kl_solver *s, const kli_state *from) {
   kli_state_copy(s, &s->st, from);
-  s->factors_current = 0;
+  s->factors_current = s->factors_near = 0;
   s->coefficients_solved = 0;
 }
 
@@ -312,7 +313,7 @@ static void sketch_changed(kl_solver *s) {
   kli_expand(s->model, s->q, s->st.u, s->st.pose.x);
   kli_pose_trig(s->model, &s->st.pose);
   s->st.position_solved = 0;
-  s->factors_current = 0;
+  s->factors_current = s->factors_near = 0;
   kli_state_changed(s);
 }
 

@@ -35,9 +35,11 @@ struct kl_solver {
   kli_state st;           /* the committed state */
   kli_state saved;        /* a copy the sweep keeps while it explores */
   kli_state delivered;    /* the sweep's last delivered step */
-  kli_state extreme[2];   /* states at a range's sampled minimum, maximum */
+  kli_state extreme[2];   /* states at the brackets of a range's extremes */
+  kli_state previous;     /* the range search's step before the last */
   int coefficients_solved;
   int factors_current;    /* dense holds the factors at pose */
+  int factors_near;       /* ... or at most one converging step from it */
   double *coef1;          /* ncoords x ninputs: d x / d u_i */
   double *coef2;          /* ncoords x ninputs x ninputs: d2 x / du_i du_j */
 

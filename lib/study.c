@@ -114,9 +114,9 @@ static int judge_one(const kl_study *st, const kli_judge *j, kl_solver *s,
   case KLI_JUDGE_AT:
     status = kl_sweep(s, sw->input, sw->from, j->at, steps_to(st, j->at),
                       NULL, NULL, &res);
-    if (status != KL_OK)
-      return status == KL_LIMIT ? KL_ENOASSEMBLY : status;
-    *value = kli_output_value(s, &j->what);
+    if (status < 0)
+      return status;
+    *value = status == KL_LIMIT ? NAN : kli_output_value(s, &j->what);
     break;
   case KLI_JUDGE_REACH:
     status = kl_sweep(s, sw->input, sw->from, sw->to, sw->steps, NULL, NULL,
@@ -127,17 +127,19 @@ static int judge_one(const kl_study *st, const kli_judge *j, kl_solver *s,
     break;
   default: { /* KLI_JUDGE_EFFORT over the reachable part of the sweep */
     double efforts[64], worst = 0.0;
+    status = KL_OK;
     for (k = 0; k <= sw->steps; k++) {
       double u[64];
-      int i;
+      int i, e;
       for (i = 0; i < st->model->ninputs; i++)
         u[i] = kl_input_value(s, i);
       u[sw->input] = sw->from + (sw->to - sw->from) * ((double)k / sw->steps);
-      if (kl_solve_position(s, u) != KL_OK)
+      if (kl_solve_position(s, u) != KL_OK) {
+        status = KL_LIMIT;
         break;
-      status = kl_input_effort(s, st->nloads, st->loads, efforts);
-      if (status != KL_OK)
-        return status;
+      }
+      if ((e = kl_input_effort(s, st->nloads, st->loads, efforts)) != KL_OK)
+        return e;
       if (fabs(efforts[sw->input]) > fabs(worst))
         worst = efforts[sw->input];
     }
@@ -145,7 +147,8 @@ static int judge_one(const kl_study *st, const kli_judge *j, kl_solver *s,
   }
   }
   *value *= j->to_file;
-  return KL_OK;
+  /* KL_LIMIT: the value covers the part of the sweep the motion reached */
+  return status == KL_LIMIT ? KL_LIMIT : KL_OK;
 }
 
 /* Sample i (i < 0: the nominal): its outputs, status and dimensions. */
@@ -176,15 +179,20 @@ static int run_sample(const kl_study *st, long i, double *values, int *status,
   if (start_at_sweep(st, s) != KL_OK)
     goto done;
   kl_solver_copy_state(start, s);
+  *status = KL_SAMPLE_OK;
   for (k = 0; k < st->njudge; k++) {
+    int judged;
     kl_solver_copy_state(s, start);
-    if (judge_one(st, &st->judge[k], s, &values[k]) != KL_OK) {
+    judged = judge_one(st, &st->judge[k], s, &values[k]);
+    if (judged < 0) {
       for (k = 0; k < st->njudge; k++)
         values[k] = NAN;
+      *status = KL_SAMPLE_NO_ASSEMBLY;
       goto done;
     }
+    if (judged == KL_LIMIT)
+      *status = KL_SAMPLE_LIMITED;
   }
-  *status = KL_SAMPLE_OK;
 done:
   kl_solver_free(s);
   kl_solver_free(start);
@@ -373,8 +381,9 @@ int kli_study_prepare(kl_study *st, char *buf) {
       return kli_fail(buf, status, "out of memory");
     if (nominal_status != KL_SAMPLE_OK)
       return kli_fail(buf, KL_ENOASSEMBLY,
-                      "its outputs cannot be judged over the sweep (a "
-                      "'judge at' input beyond its reach?)");
+                      "it cannot move through the whole sweep, so its "
+                      "outputs cannot be judged (shorten the sweep to the "
+                      "nominal's motion)");
   }
   s = kl_solver_new(m);
   start = kl_solver_new(m);
@@ -435,11 +444,16 @@ int kl_study_summarize(const kl_study *st, int k, const double *values,
     return KL_ENOMEM;
   for (i = 0; i < n; i++) {
     double v = values[i * st->njudge + k], bad;
-    if (sample_status[i] != KL_SAMPLE_OK)
+    if (sample_status[i] == KL_SAMPLE_NO_ASSEMBLY)
+      continue;
+    out.assembled++;
+    out.limited += sample_status[i] == KL_SAMPLE_LIMITED;
+    if (isnan(v))
       continue;
     sorted[ok++] = v;
     sum += v;
-    if (!j->has_limits || (v >= j->lower && v <= j->upper))
+    if (sample_status[i] == KL_SAMPLE_OK &&
+        (!j->has_limits || (v >= j->lower && v <= j->upper)))
       out.within_limits++;
     /* with limits: how far outside them (negative: the margin inside);
      * without: how far from the nominal */
@@ -451,7 +465,6 @@ int kl_study_summarize(const kl_study *st, int k, const double *values,
       out.worst_sample = i;
     }
   }
-  out.assembled = ok;
   if (ok > 0) {
     out.mean = sum / (double)ok;
     for (i = 0; i < ok; i++)

@@ -77,7 +77,7 @@ static int substep(kl_solver *s, int input, double target, int det_sign) {
     moved = s->opt.max_step;
   }
   memcpy(s->st.pose.x, s->x_pred, (size_t)s->ncoords * sizeof(double));
-  s->factors_current = 0; /* the start is predicted already */
+  s->factors_current = s->factors_near = 0; /* the start is predicted already */
   s->sweep_u[input] = target;
   st = kl_solve_position(s, s->sweep_u);
   if (st == KL_OK) {

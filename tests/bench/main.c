@@ -1,0 +1,108 @@
+/*
+ * main.c - kinloop-bench: times kinloop against the closed form and GSL in
+ * one run and reports each performance target as met or not met.
+ */
+#define _POSIX_C_SOURCE 200809L /* clock_gettime */
+
+#include <stdlib.h>
+#include <string.h>
+
+#include <gsl/gsl_errno.h>
+
+#include "bench.h"
+
+typedef struct {
+  const char *what;
+  double measured;
+  double limit;
+  int at_most; /* 1: measured <= limit is met; 0: measured >= limit */
+  int valid;   /* the results behind the figure were right */
+  const char *unit;
+} target;
+
+static void print_target(FILE *out, const target *t) {
+  int met = t->valid &&
+            (t->at_most ? t->measured <= t->limit : t->measured >= t->limit);
+  char measured[32];
+  snprintf(measured, sizeof measured, "%.2f%s", t->measured, t->unit);
+  fprintf(out, "%-62s %10s  %s\n", t->what, measured,
+          met        ? "met"
+          : t->valid ? "not met"
+                     : "not met (results wrong)");
+}
+
+static void usage(FILE *out) {
+  fprintf(out, "usage: kinloop-bench [--quick]\n"
+               "  times kinloop against the closed form and GSL; never fails "
+               "on time\n"
+               "  --quick  one call per method and few chain steps (for "
+               "valgrind and callgrind)\n");
+}
+
+int main(int argc, char **argv) {
+  bench_plan plan = {11, 0.04, 0};
+  fourbar_figures fourbar = {0};
+  chain_figures chains = {0};
+  thread_figures threads = {0};
+  target targets[5];
+  size_t i;
+  int arg;
+  for (arg = 1; arg < argc; arg++) {
+    if (strcmp(argv[arg], "--quick") == 0) {
+      plan.quick = 1;
+      plan.samples = 1;
+    } else {
+      usage(strcmp(argv[arg], "--help") == 0 ? stdout : stderr);
+      return strcmp(argv[arg], "--help") == 0 ? EXIT_SUCCESS : EXIT_FAILURE;
+    }
+  }
+  gsl_set_error_handler_off(); /* GSL's default handler aborts */
+  machine_report(stdout, &plan);
+  bench_fourbar(stdout, &plan, &fourbar);
+  fflush(stdout);
+  bench_chain(stdout, &plan, &chains);
+  fflush(stdout);
+  bench_threads(stdout, &plan, &fourbar, &threads);
+  machine_load(stdout, "at the end");
+
+  targets[0].what = "four-bar position solve <= 2.5x the closed form";
+  targets[0].measured = fourbar.small_ratio;
+  targets[0].limit = 2.5;
+  targets[0].at_most = 1;
+  targets[0].valid = fourbar.small_valid;
+  targets[0].unit = "x";
+  targets[1].what = "four-bar position solve >= 5x faster than GSL hybridsj";
+  targets[1].measured = fourbar.hybridsj_ratio;
+  targets[1].limit = 5.0;
+  targets[1].at_most = 0;
+  targets[1].valid = fourbar.small_valid;
+  targets[1].unit = "x";
+  targets[2].what = "four-bar position+velocity+acceleration <= 4x closed form";
+  targets[2].measured = fourbar.rates_ratio;
+  targets[2].limit = 4.0;
+  targets[2].at_most = 1;
+  targets[2].valid = fourbar.rates_valid;
+  targets[2].unit = "x";
+  targets[3].what = "chain N = 100 >= 100x faster than GSL hybridsj";
+  targets[3].measured = chains.gsl_over_auto_100;
+  targets[3].limit = 100.0;
+  targets[3].at_most = 0;
+  targets[3].valid = chains.kinloop_valid;
+  targets[3].unit = "x";
+  targets[4].what = "chain cost growth N = 10 to 100 <= N^1.1 (exponent p)";
+  targets[4].measured = chains.growth_auto;
+  targets[4].limit = 1.1;
+  targets[4].at_most = 1;
+  targets[4].valid = chains.kinloop_valid;
+  targets[4].unit = "";
+  printf("\n== targets (ratios measured in this run%s) ==\n",
+         plan.quick ? "; QUICK MODE: single samples, not for reporting" : "");
+  printf("%-62s %10s  %s\n", "target", "measured", "verdict");
+  for (i = 0; i < sizeof targets / sizeof targets[0]; i++)
+    print_target(stdout, &targets[i]);
+  printf("(not targets: 2 threads / 1 thread throughput %.2fx; thread "
+         "results identical: %s)\n",
+         threads.throughput_ratio, threads.results_identical ? "yes" : "NO");
+  fourbar_done(&fourbar);
+  return EXIT_SUCCESS;
+}

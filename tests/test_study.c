@@ -1,0 +1,414 @@
+/*
+ * test_study.c - design studies: a grid against the slider-crank's closed
+ * form, the random stream's distributions, Monte Carlo against the
+ * first-order estimate, determinism over threads and split runs, counted
+ * failures, the summary's statistics, and located errors.
+ */
+#define _POSIX_C_SOURCE 200809L
+#include <check.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include "support.h"
+
+/* An offset slider-crank (geometry chosen for the test): crank 30 at the
+ * origin, rod 100, the block on a rail at height 12 in +x. */
+static const char *slider_model =
+    "kinloop-model 1\n"
+    "units length mm angle deg\n"
+    "link crank\nlink rod\nlink block\n"
+    "revolute motor ground 0 0 crank 0 0\n"
+    "revolute pin crank 30 0 rod 0 0\n"
+    "revolute wrist rod 100 0 block 0 0\n"
+    "prismatic rail ground 0 12 axis 0 block 0 0\n"
+    "point nose block 5 0\n"
+    "input motor\n"
+    "sketch angle rod -7\n"
+    "sketch slide rail 120\n"
+    "sweep motor from 0 to 360 steps 36\n";
+
+static char dir[64];
+
+static void write_file(const char *name, const char *text) {
+  char path[128];
+  FILE *f;
+  snprintf(path, sizeof path, "%s/%s", dir, name);
+  f = fopen(path, "w");
+  ck_assert_ptr_nonnull(f);
+  fputs(text, f);
+  fclose(f);
+}
+
+static void setup(void) {
+  strcpy(dir, "/tmp/kinloop-study-XXXXXX");
+  ck_assert_ptr_nonnull(mkdtemp(dir));
+  write_file("slider.kinloop", slider_model);
+}
+
+static void teardown(void) {
+  char path[128];
+  snprintf(path, sizeof path, "%s/slider.kinloop", dir);
+  unlink(path);
+  rmdir(dir);
+}
+
+static kl_study *read_study(const char *text) {
+  kl_io_error err;
+  kl_study *st;
+  err.size = sizeof err;
+  st = kl_study_read(text, strlen(text), dir, &err);
+  ck_assert_msg(st != NULL, "%d:%d %s", err.line, err.column, err.message);
+  return st;
+}
+
+typedef struct {
+  double *values, *dims;
+  int *status;
+  long n;
+} run;
+
+static run run_all(const kl_study *st, int threads) {
+  run r;
+  r.n = kl_study_sample_count(st);
+  r.values = malloc((size_t)r.n * (size_t)kl_study_output_count(st) * sizeof(double));
+  r.dims = malloc((size_t)r.n * (size_t)kl_study_dimension_count(st) *
+                  sizeof(double) + sizeof(double));
+  r.status = malloc((size_t)r.n * sizeof(int));
+  ck_assert_int_eq(kl_study_run(st, 0, r.n, threads, r.values, r.status, r.dims),
+                   KL_OK);
+  return r;
+}
+
+static void free_run(run *r) {
+  free(r->values);
+  free(r->dims);
+  free(r->status);
+}
+
+/*
+ * A grid over crank length r and rail offset e; the stroke of an offset
+ * slider-crank is sqrt((l + r)^2 - e^2) - sqrt((l - r)^2 - e^2) (the two
+ * dead centres, crank and rod in line; standard kinematics).
+ */
+START_TEST(grid_matches_the_slider_crank_closed_form) {
+  kl_study *st = read_study("kinloop-study 1\n"
+                            "model slider.kinloop\n"
+                            "grid joint pin a x from 20 to 40 steps 4\n"
+                            "grid joint rail a y from 0 to 10 steps 2\n"
+                            "output stroke swing slide rail\n");
+  run r = run_all(st, 2);
+  long i;
+  ck_assert_int_eq(r.n, 5 * 3);
+  ck_assert_int_eq(kl_study_dimension_count(st), 2);
+  ck_assert_str_eq(kl_study_dimension_name(st, 0), "pin a x");
+  for (i = 0; i < r.n; i++) {
+    double crank = r.dims[2 * i], offset = r.dims[2 * i + 1], l = 100;
+    double stroke = sqrt((l + crank) * (l + crank) - offset * offset) -
+                    sqrt((l - crank) * (l - crank) - offset * offset);
+    /* the grid's values, the first dimension fastest */
+    ck_assert_double_eq(crank, 20 + 5 * (i % 5));
+    ck_assert_double_eq(offset, 5 * (i / 5));
+    ck_assert_int_eq(r.status[i], KL_SAMPLE_OK);
+    ck_assert_double_le(fabs(r.values[i] - stroke), 1e-9);
+  }
+  free_run(&r);
+  kl_study_free(st);
+}
+END_TEST
+
+/* The random stream: uniform dimensions stay within their tolerance with
+ * variance t^2 / 3; normal ones have sd t / 3 and about 99.73 % within
+ * +-3 sd (statistics of the distributions; the tolerances below allow four
+ * standard errors at n = 4000). */
+START_TEST(the_random_stream_has_the_stated_distributions) {
+  kl_study *st = read_study("kinloop-study 1\n"
+                            "model slider.kinloop\n"
+                            "seed 7\nsamples 4000\n"
+                            "vary joint pin a x tolerance 0.3 uniform\n"
+                            "vary point nose y tolerance 0.6 normal\n"
+                            "output nose at 90 y nose\n");
+  run r = run_all(st, 0);
+  double su = 0, suu = 0, sn = 0, snn = 0, n = (double)r.n;
+  long i, inside = 0;
+  for (i = 0; i < r.n; i++) {
+    double du = r.dims[2 * i] - 30.0, dn = r.dims[2 * i + 1];
+    ck_assert_double_le(fabs(du), 0.3);
+    su += du;
+    suu += du * du;
+    sn += dn;
+    snn += dn * dn;
+    inside += fabs(dn) <= 0.6;
+  }
+  ck_assert_double_le(fabs(su / n), 4 * 0.3 / sqrt(3 * n));
+  ck_assert_double_le(fabs(suu / n / (0.09 / 3) - 1), 4 * sqrt(0.8 / n));
+  ck_assert_double_le(fabs(sn / n), 4 * 0.2 / sqrt(n));
+  ck_assert_double_le(fabs(sqrt(snn / n) / 0.2 - 1), 4 / sqrt(2 * n));
+  ck_assert_double_le(fabs(inside / n - 0.9973), 4 * sqrt(0.0027 / n));
+  free_run(&r);
+  kl_study_free(st);
+}
+END_TEST
+
+/* With small tolerances the output is nearly linear in them: the Monte
+ * Carlo standard deviation agrees with the first-order estimate from the
+ * sensitivities (within 10 %: the sampling error of a standard deviation
+ * is about 1 / sqrt(2 n), 1.6 % at n = 2000). */
+START_TEST(monte_carlo_agrees_with_first_order) {
+  kl_study *st = read_study("kinloop-study 1\n"
+                            "model slider.kinloop\n"
+                            "seed 99\nsamples 2000\n"
+                            "vary joint pin a x tolerance 0.05 normal\n"
+                            "vary joint wrist a x tolerance 0.05 normal\n"
+                            "vary joint rail a y tolerance 0.1 uniform\n"
+                            "output stroke swing slide rail\n"
+                            "output at90 at 90 slide rail\n"
+                            "output rod_max max angle rod\n");
+  run r = run_all(st, 0);
+  int k;
+  for (k = 0; k < 3; k++) {
+    kl_study_summary s;
+    s.size = sizeof s;
+    ck_assert_int_eq(kl_study_summarize(st, k, r.values, r.status, r.n, &s),
+                     KL_OK);
+    ck_assert_int_eq(s.assembled, r.n);
+    ck_assert_msg(fabs(s.std / s.first_order_std - 1) < 0.10,
+                  "%s: Monte Carlo %g, first order %g", kl_study_output_name(st, k),
+                  s.std, s.first_order_std);
+    ck_assert_double_le(fabs(s.mean - s.nominal), 4 * s.std / sqrt((double)r.n) +
+                                                     1e-3 * s.std);
+  }
+  free_run(&r);
+  kl_study_free(st);
+}
+END_TEST
+
+/* The same numbers on any number of threads, and in pieces. */
+START_TEST(results_do_not_depend_on_threads_or_splits) {
+  kl_study *st = read_study("kinloop-study 1\n"
+                            "model slider.kinloop\n"
+                            "seed 3\nsamples 60\n"
+                            "vary joint pin a x tolerance 0.5 normal\n"
+                            "vary joint rail a y tolerance 1 uniform\n"
+                            "output stroke swing slide rail\n"
+                            "output reach reach\n");
+  run one = run_all(st, 1), three = run_all(st, 3);
+  double values[60 * 2];
+  int status[60];
+  ck_assert_int_eq(memcmp(one.values, three.values, sizeof values), 0);
+  ck_assert_int_eq(memcmp(one.status, three.status, sizeof status), 0);
+  ck_assert_int_eq(kl_study_run(st, 0, 25, 2, values, status, NULL), KL_OK);
+  ck_assert_int_eq(kl_study_run(st, 25, 35, 1, values + 50, status + 25, NULL),
+                   KL_OK);
+  ck_assert_int_eq(memcmp(one.values, values, sizeof values), 0);
+  ck_assert_int_eq(kl_study_run(st, 50, 11, 1, values, status, NULL), KL_EINVAL);
+  free_run(&one);
+  free_run(&three);
+  kl_study_free(st);
+}
+END_TEST
+
+/* Tolerances large enough that some cranks cannot turn fully: the crank
+ * reaches up to 30 + 3 * 25 mm against a 100 mm rod on a 12 mm offset, and
+ * a crank longer than rod - offset = 88 mm locks before a full turn (the
+ * slider-crank's rotatability condition, common practice, no source). Those
+ * samples are counted as limited, never dropped, and never within limits;
+ * their stroke covers the part of the turn they reach. */
+START_TEST(samples_that_cannot_turn_are_counted) {
+  kl_study *st = read_study("kinloop-study 1\n"
+                            "model slider.kinloop\n"
+                            "seed 11\nsamples 300\n"
+                            "vary joint pin a x tolerance 75 normal\n"
+                            "output stroke swing slide rail\n"
+                            "output reach reach\n"
+                            "limit stroke 0 1000\n");
+  run r = run_all(st, 0);
+  kl_study_summary s;
+  long i, limited = 0, failed = 0;
+  for (i = 0; i < r.n; i++) {
+    if (r.status[i] == KL_SAMPLE_LIMITED) {
+      limited++;
+      ck_assert_double_gt(r.dims[i], 100 - 12 - 1e-6);
+      ck_assert_double_lt(r.values[2 * i + 1], 360.0); /* reach, in degrees */
+    } else if (r.status[i] == KL_SAMPLE_OK) {
+      ck_assert_double_lt(r.dims[i], 100 - 12 + 1e-6);
+      ck_assert_double_eq(r.values[2 * i + 1], 360.0);
+    } else {
+      failed++;
+      ck_assert(isnan(r.values[2 * i]));
+    }
+  }
+  s.size = sizeof s;
+  kl_study_summarize(st, 0, r.values, r.status, r.n, &s);
+  ck_assert_int_gt(limited, 0);
+  ck_assert_int_eq(s.samples, 300);
+  ck_assert_int_eq(s.limited, limited);
+  ck_assert_int_eq(s.assembled, 300 - failed);
+  ck_assert_int_eq(s.within_limits, 300 - failed - limited);
+  free_run(&r);
+  kl_study_free(st);
+}
+END_TEST
+
+static int compare(const void *a, const void *b) {
+  double x = *(const double *)a, y = *(const double *)b;
+  return x < y ? -1 : x > y;
+}
+
+/* Mean, sample standard deviation, linear-interpolation percentiles, the
+ * worst case with and without limits, recomputed independently here. */
+START_TEST(summary_statistics) {
+  kl_study *st = read_study("kinloop-study 1\n"
+                            "model slider.kinloop\n"
+                            "samples 9\n"
+                            "vary joint pin a x tolerance 1 normal\n"
+                            "output stroke swing slide rail\n"
+                            "output free swing slide rail\n"
+                            "limit stroke 59.5 60.5\n");
+  double values[12], v[6], mean, ss = 0, at, worst = -1;
+  int status[6] = {KL_SAMPLE_OK, KL_SAMPLE_OK, KL_SAMPLE_NO_ASSEMBLY,
+                   KL_SAMPLE_OK, KL_SAMPLE_OK, KL_SAMPLE_OK};
+  static const double given[6] = {60.2, 59.1, 0.0, 60.0, 61.3, 59.9};
+  kl_study_summary s, t;
+  int i, n = 0, worst_i = -1;
+  for (i = 0; i < 6; i++) {
+    values[2 * i] = values[2 * i + 1] = given[i];
+    if (status[i] == KL_SAMPLE_OK)
+      v[n++] = given[i];
+  }
+  s.size = t.size = sizeof s;
+  ck_assert_int_eq(kl_study_summarize(st, 0, values, status, 6, &s), KL_OK);
+  ck_assert_int_eq(kl_study_summarize(st, 1, values, status, 6, &t), KL_OK);
+  mean = (v[0] + v[1] + v[2] + v[3] + v[4]) / 5;
+  for (i = 0; i < 5; i++)
+    ss += (v[i] - mean) * (v[i] - mean);
+  qsort(v, 5, sizeof v[0], compare);
+  ck_assert_int_eq(s.assembled, 5);
+  ck_assert_double_le(fabs(s.mean - mean), 1e-12);
+  ck_assert_double_le(fabs(s.std - sqrt(ss / 4)), 1e-12);
+  ck_assert_double_eq(s.min, 59.1);
+  ck_assert_double_eq(s.max, 61.3);
+  at = 0.95 * 4; /* p95 between the 4th and 5th sorted values */
+  ck_assert_double_le(fabs(s.p95 - (v[3] + (at - 3) * (v[4] - v[3]))), 1e-12);
+  ck_assert_double_eq(s.p50, v[2]);
+  /* with limits: the value furthest outside them, 61.3 (0.8 above) */
+  ck_assert_double_eq(s.worst, 61.3);
+  ck_assert_int_eq(s.worst_sample, 4);
+  ck_assert_int_eq(s.within_limits, 3); /* 60.2, 60.0 and 59.9 */
+  /* without: the value furthest from the nominal stroke */
+  for (i = 0; i < 6; i++)
+    if (status[i] == KL_SAMPLE_OK &&
+        fabs(given[i] - t.nominal) > worst) {
+      worst = fabs(given[i] - t.nominal);
+      worst_i = i;
+    }
+  ck_assert_int_eq(t.worst_sample, worst_i);
+  ck_assert_int_eq(t.within_limits, 5);
+  ck_assert_int_eq(kl_study_summarize(st, 2, values, status, 6, &s), KL_EID);
+  kl_study_free(st);
+}
+END_TEST
+
+typedef struct {
+  const char *text;
+  int status, line;
+  const char *says;
+} bad_study;
+
+static const bad_study bad_studies[] = {
+    {"model slider.kinloop\n", KL_ESYNTAX, 1, "kinloop-study 1"},
+    {"kinloop-study 1\nsamples 5\n", KL_ESYNTAX, 0, "names no model"},
+    {"kinloop-study 1\nvary joint pin a x tolerance 1 normal\n", KL_ESYNTAX, 2,
+     "'model' must come first"},
+    {"kinloop-study 1\nmodel nowhere.kinloop\n", KL_EIO, 2, "cannot open"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "vary joint nobody a x tolerance 1 normal\noutput s swing slide rail\n",
+     KL_ESYNTAX, 4, "no joint is named 'nobody'"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "vary joint pin c x tolerance 1 normal\n",
+     KL_ESYNTAX, 4, "a or b"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "vary joint pin a x tolerance 1 gaussian\n",
+     KL_ESYNTAX, 4, "normal or uniform"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "vary joint pin a x tolerance -1 normal\n",
+     KL_ESYNTAX, 4, "not negative"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output s swing speed rail\n",
+     KL_ESYNTAX, 4, "what to measure"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output s swing slide rail\noutput s min slide rail\n",
+     KL_ESYNTAX, 5, "already used"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\nlimit t 0 1\n",
+     KL_ESYNTAX, 4, "no output is named 't'"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output s swing slide rail\nlimit s 2 1\n",
+     KL_ESYNTAX, 5, "below the lower"},
+    {"kinloop-study 1\nmodel slider.kinloop\n"
+     "grid joint pin a x from 20 to 40 steps 4\n"
+     "vary joint rail a y tolerance 1 normal\noutput s swing slide rail\n",
+     KL_ESYNTAX, 0, "mixes"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output e effort\n",
+     KL_ESYNTAX, 0, "no 'load'"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n", KL_ESYNTAX, 0,
+     "judges no output"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output s swing slide pin\n",
+     KL_EKIND, 0, "revolute"},
+};
+
+START_TEST(study_errors_are_located) {
+  const bad_study *b = &bad_studies[_i];
+  kl_io_error err;
+  err.size = sizeof err;
+  ck_assert_ptr_null(kl_study_read(b->text, strlen(b->text), dir, &err));
+  ck_assert_msg(err.status == b->status && err.line == b->line,
+                "case %d: status %d line %d (%s)", _i, err.status, err.line,
+                err.message);
+  ck_assert_msg(strstr(err.message, b->says) != NULL,
+                "case %d: '%s' lacks '%s'", _i, err.message, b->says);
+}
+END_TEST
+
+/* The demo study of the examples reads and its nominal is the demo's. */
+START_TEST(the_demo_study_reads) {
+  kl_io_error err;
+  kl_study *st;
+  err.size = sizeof err;
+  st = kl_study_read_file(KINLOOP_SOURCE_DIR "/examples/models/flap-tucker.study",
+                          &err);
+  ck_assert_msg(st != NULL, "%d:%d %s", err.line, err.column, err.message);
+  ck_assert_int_eq(kl_study_sample_count(st), 2000);
+  ck_assert_int_eq(kl_study_output_count(st), 4);
+  ck_assert_str_eq(kl_study_output_name(st, 0), "stroke");
+  ck_assert_int_eq(kl_model_loop_count(kl_study_model(st)), 2);
+  kl_study_free(st);
+}
+END_TEST
+
+int main(void) {
+  Suite *suite = suite_create("study");
+  TCase *tc = tcase_create("study");
+  SRunner *runner;
+  int failed;
+  tcase_set_timeout(tc, 240);
+  tcase_add_checked_fixture(tc, setup, teardown);
+  tcase_add_test(tc, grid_matches_the_slider_crank_closed_form);
+  tcase_add_test(tc, the_random_stream_has_the_stated_distributions);
+  tcase_add_test(tc, monte_carlo_agrees_with_first_order);
+  tcase_add_test(tc, results_do_not_depend_on_threads_or_splits);
+  tcase_add_test(tc, samples_that_cannot_turn_are_counted);
+  tcase_add_test(tc, summary_statistics);
+  tcase_add_loop_test(tc, study_errors_are_located, 0,
+                      (int)(sizeof bad_studies / sizeof bad_studies[0]));
+  tcase_add_test(tc, the_demo_study_reads);
+  suite_add_tcase(suite, tc);
+  runner = srunner_create(suite);
+  srunner_run_all(runner, CK_NORMAL);
+  failed = srunner_ntests_failed(runner);
+  srunner_free(runner);
+  return failed == 0 ? 0 : 1;
+}
