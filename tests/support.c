@@ -4,6 +4,7 @@
  */
 #include <math.h>
 #include <stdlib.h>
+#include <string.h>
 
 #include "support.h"
 
@@ -82,7 +83,6 @@ fourbar build_fourbar_explicit(double a, double b, double c, double d) {
 
 slider_crank build_slider_crank(double r, double l, double e) {
   slider_crank s;
-  int pivot;
   s.m = kl_model_new();
   s.r = r;
   s.l = l;
@@ -90,11 +90,13 @@ slider_crank build_slider_crank(double r, double l, double e) {
   s.crank = kl_add_link(s.m, "crank");
   s.rod = kl_add_link(s.m, "rod");
   s.block = kl_add_link(s.m, "block");
-  pivot = kl_add_revolute(s.m, KL_GROUND, 0, 0, s.crank, 0, 0);
-  kl_add_revolute(s.m, s.crank, r, 0, s.rod, 0, 0);
-  kl_add_revolute(s.m, s.rod, l, 0, s.block, 0, 0);
+  s.pivot = kl_add_revolute(s.m, KL_GROUND, 0, 0, s.crank, 0, 0);
+  s.crank_pin = kl_add_revolute(s.m, s.crank, r, 0, s.rod, 0, 0);
+  s.block_pin = kl_add_revolute(s.m, s.rod, l, 0, s.block, 0, 0);
   s.slide_joint = kl_add_prismatic(s.m, KL_GROUND, 0, e, 0.0, s.block, 0, 0);
-  kl_add_input(s.m, pivot);
+  s.rod_point = kl_add_point(s.m, s.rod, 0.4 * l, 9.0, "rod mark");
+  s.block_point = kl_add_point(s.m, s.block, 6.0, -4.0, "block face");
+  kl_add_input(s.m, s.pivot);
   kl_model_finalize(s.m);
   return s;
 }
@@ -290,6 +292,51 @@ void sketch_chain(const chain *c, kl_solver *s, double u) {
     kl_set_link_angle(s, c->rockers[k], t4 - 0.05);
     u = t4; /* the next loop's driver */
   }
+}
+
+static void snap_put(snapshot *sn, double v) {
+  if (sn->n == SNAPSHOT_MAX)
+    abort(); /* a test mechanism too large for a snapshot */
+  sn->v[sn->n++] = v;
+}
+
+snapshot snap(const kl_solver *s) {
+  const kl_model *m = kl_solver_model(s);
+  int (*const point_getter[3])(const kl_solver *, int, double *) = {
+      kl_point_position, kl_point_velocity, kl_point_acceleration};
+  int ni = kl_model_input_count(m), l, j, p, i, g;
+  snapshot sn;
+  memset(&sn, 0, sizeof sn);
+  for (l = 0; l < kl_model_link_count(m); l++) {
+    snap_put(&sn, kl_link_angle(s, l));
+    snap_put(&sn, kl_link_rate(s, l));
+    snap_put(&sn, kl_link_accel(s, l));
+    for (i = 0; i < ni; i++) {
+      snap_put(&sn, kl_link_angle_deriv(s, l, i));
+      snap_put(&sn, kl_link_angle_deriv2(s, l, i, i));
+    }
+  }
+  for (j = 0; j < kl_model_joint_count(m); j++) {
+    snap_put(&sn, kl_joint_angle(s, j));
+    snap_put(&sn, kl_joint_slide(s, j));
+    snap_put(&sn, kl_joint_slide_rate(s, j));
+    snap_put(&sn, kl_joint_slide_accel(s, j));
+  }
+  for (p = 0; p < kl_model_point_count(m); p++)
+    for (g = 0; g < 3; g++) {
+      double xy[2] = {NAN, NAN};
+      snap_put(&sn, (double)point_getter[g](s, p, xy));
+      snap_put(&sn, xy[0]);
+      snap_put(&sn, xy[1]);
+    }
+  for (i = 0; i < ni; i++)
+    snap_put(&sn, kl_input_value(s, i));
+  return sn;
+}
+
+int same_state(const snapshot *a, const snapshot *b) {
+  return a->n == b->n &&
+         memcmp(a->v, b->v, (size_t)a->n * sizeof(double)) == 0;
 }
 
 double angle_diff(double a, double b) {

@@ -48,11 +48,13 @@ fourbar build_fourbar_in(kl_model *m, double a, double b, double c, double d);
 fourbar build_fourbar_explicit(double a, double b, double c, double d);
 
 /* Offset slider-crank: crank r about (0, 0), rod l, slider block pinned to
- * the rod, sliding on ground along y = e in +x. Input 0 is the crank angle. */
+ * the rod, sliding on ground along y = e in +x. Input 0 is the crank angle.
+ * Two points: one on the rod at (0.4 l, 9), one on the block at (6, -4). */
 typedef struct {
   kl_model *m;
   int crank, rod, block;
-  int slide_joint;
+  int pivot, crank_pin, block_pin, slide_joint;
+  int rod_point, block_point;
   double r, l, e;
 } slider_crank;
 slider_crank build_slider_crank(double r, double l, double e);
@@ -114,6 +116,22 @@ void sketch_chain(const chain *c, kl_solver *s, double u);
  * t2; 0 if it does not assemble there. */
 int freudenstein(const fourbar *f, double t2, int branch, double *t3,
                  double *t4);
+
+/* ---- solver states, compared bit for bit ---- */
+#define SNAPSHOT_MAX 1024
+typedef struct {
+  double v[SNAPSHOT_MAX];
+  int n;
+} snapshot;
+/* Everything a caller can read back from a solver, in a fixed order: every
+ * link's angle, rate, acceleration and coefficients, every joint's angle
+ * and slide with its rates, every point getter's status and values, every
+ * input value. */
+snapshot snap(const kl_solver *s);
+/* 1 if two snapshots hold the same bits. */
+int same_state(const snapshot *a, const snapshot *b);
+#define assert_same_state(a, b, what)                                          \
+  ck_assert_msg(same_state((a), (b)), "%s: the solver state changed", (what))
 
 /* ---- numbers ---- */
 /* a - b reduced to (-pi, pi]. */

@@ -74,94 +74,10 @@ static kl_output transmission(const fourbar *f) {
 
 /* ---- everything a caller can read back, to compare states bit for bit ---- */
 
-#define MAX_SNAP 256
-typedef struct {
-  double v[MAX_SNAP];
-  int n;
-} snapshot;
-
-static void snap_put(snapshot *sn, double v) {
-  ck_assert_int_lt(sn->n, MAX_SNAP);
-  sn->v[sn->n++] = v;
-}
-
-static snapshot snap(const kl_solver *s) {
-  const kl_model *m = kl_solver_model(s);
-  int (*const point_getter[3])(const kl_solver *, int, double *) = {
-      kl_point_position, kl_point_velocity, kl_point_acceleration};
-  int ni = kl_model_input_count(m), l, j, p, i, g;
-  snapshot sn;
-  memset(&sn, 0, sizeof sn);
-  for (l = 0; l < kl_model_link_count(m); l++) {
-    snap_put(&sn, kl_link_angle(s, l));
-    snap_put(&sn, kl_link_rate(s, l));
-    snap_put(&sn, kl_link_accel(s, l));
-    for (i = 0; i < ni; i++) {
-      snap_put(&sn, kl_link_angle_deriv(s, l, i));
-      snap_put(&sn, kl_link_angle_deriv2(s, l, i, i));
-    }
-  }
-  for (j = 0; j < kl_model_joint_count(m); j++) {
-    snap_put(&sn, kl_joint_angle(s, j));
-    snap_put(&sn, kl_joint_slide(s, j));
-    snap_put(&sn, kl_joint_slide_rate(s, j));
-    snap_put(&sn, kl_joint_slide_accel(s, j));
-  }
-  for (p = 0; p < kl_model_point_count(m); p++)
-    for (g = 0; g < 3; g++) {
-      double xy[2] = {NAN, NAN};
-      snap_put(&sn, (double)point_getter[g](s, p, xy));
-      snap_put(&sn, xy[0]);
-      snap_put(&sn, xy[1]);
-    }
-  for (i = 0; i < ni; i++)
-    snap_put(&sn, kl_input_value(s, i));
-  return sn;
-}
-
-static void assert_same(const snapshot *a, const snapshot *b,
-                        const char *what) {
-  ck_assert_int_eq(a->n, b->n);
-  ck_assert_msg(memcmp(a->v, b->v, (size_t)a->n * sizeof(double)) == 0,
-                "%s: the solver state changed", what);
-}
 
 /* ---- mechanisms of this suite ---- */
 
-/* The offset slider-crank of support.c (crank r about (0, 0), rod l, block
- * on y = e, crank input), with two points added before finalize: one on the
- * rod and one on the block (positions chosen for this test). */
-typedef struct {
-  kl_model *m;
-  int crank, rod, block;
-  int pivot, crank_pin, block_pin, slide_joint;
-  int rod_point, block_point;
-  double r, l, e;
-} slider_with_points;
-
-static slider_with_points build_slider_with_points(double r, double l,
-                                                   double e) {
-  slider_with_points s;
-  s.m = kl_model_new();
-  s.r = r;
-  s.l = l;
-  s.e = e;
-  s.crank = kl_add_link(s.m, "crank");
-  s.rod = kl_add_link(s.m, "rod");
-  s.block = kl_add_link(s.m, "block");
-  s.pivot = kl_add_revolute(s.m, KL_GROUND, 0, 0, s.crank, 0, 0);
-  s.crank_pin = kl_add_revolute(s.m, s.crank, r, 0, s.rod, 0, 0);
-  s.block_pin = kl_add_revolute(s.m, s.rod, l, 0, s.block, 0, 0);
-  s.slide_joint = kl_add_prismatic(s.m, KL_GROUND, 0, e, 0.0, s.block, 0, 0);
-  s.rod_point = kl_add_point(s.m, s.rod, 0.4 * l, 9.0, "rod mark");
-  s.block_point = kl_add_point(s.m, s.block, 6.0, -4.0, "block face");
-  kl_add_input(s.m, s.pivot);
-  ck_assert_int_eq(kl_model_finalize(s.m), KL_OK);
-  return s;
-}
-
-/* Sketch on the branch with the block right of the crank (test_position.c). */
-static void sketch_slider(kl_solver *s, const slider_with_points *sc) {
+static void sketch_slider(kl_solver *s, const slider_crank *sc) {
   ck_assert_int_eq(kl_set_link_angle(s, sc->rod, -0.1), KL_OK);
   ck_assert_int_eq(kl_set_joint_slide(s, sc->slide_joint, 120.0), KL_OK);
 }
@@ -501,7 +417,7 @@ END_TEST
  * does no virtual work: the guide takes it.
  */
 START_TEST(slider_crank_torque_matches_statics) {
-  slider_with_points sc = build_slider_with_points(30, 100, 12);
+  slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = kl_solver_new(sc.m);
   const double force = 250.0; /* chosen for this test */
   const double angles[] = {20, 70, 100, 130, 165, 220, 250, 290, 320, 350};
@@ -594,7 +510,7 @@ END_TEST
  */
 START_TEST(mechanical_advantage_is_the_inverse_velocity_ratio) {
   fourbar f = build_fourbar(40, 120, 80, 100);
-  slider_with_points sc = build_slider_with_points(30, 100, 12);
+  slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = kl_solver_new(f.m), *ss = kl_solver_new(sc.m);
   const kl_output rocker = output(KL_OUT_LINK_ANGLE, f.rocker, 0, 0);
   const kl_output slide = output(KL_OUT_SLIDE, sc.slide_joint, 0, 0);
@@ -806,7 +722,7 @@ END_TEST
 /* The prismatic joint's attachments included: moving the ground point of
  * the slide line (JOINT_A) or the block's point on it (JOINT_B). */
 START_TEST(slider_crank_sensitivities_match_perturbed_models) {
-  slider_with_points sc = build_slider_with_points(30, 100, 12);
+  slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = kl_solver_new(sc.m);
   kl_output outs[6];
   const double angles[] = {0.7, 2.5, 4.0};
@@ -914,7 +830,7 @@ START_TEST(tolerance_stack_sums_the_sensitivities) {
     ck_assert_double_eq(got_worst, keep_w);
     ck_assert_double_eq(got_rss, keep_r);
     after = snap(s);
-    assert_same(&before, &after, "a refused tolerance stack");
+    assert_same_state(&before, &after, "a refused tolerance stack");
   }
   ck_assert_int_eq(kl_tolerance_stack(s, &mu, -1, dims, tol, &got_worst, &got_rss),
                    KL_EINVAL);
@@ -976,7 +892,7 @@ static void expect_output_refused(kl_solver *s, const bad_output *bad,
                   "%s, call %d: message '%s' does not name '%s'", label, call,
                   kl_solver_error(s), bad->names);
     after = snap(s);
-    assert_same(&before, &after, label);
+    assert_same_state(&before, &after, label);
   }
   ck_assert_double_eq(v, -5.0);
   ck_assert_double_eq(w, -6.0);
@@ -998,7 +914,7 @@ static kl_solver *solved_fourbar(const fourbar *f) {
 
 START_TEST(bad_outputs_are_refused) {
   fourbar f = build_fourbar(40, 120, 80, 100);
-  slider_with_points sc = build_slider_with_points(30, 100, 12);
+  slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = solved_fourbar(&f), *ss = kl_solver_new(sc.m);
   const bad_output bad[] = {
       {{KL_OUT_LINK_ANGLE, 9, 0, 0}, KL_EID, "link 9"},
@@ -1065,7 +981,7 @@ START_TEST(bad_outputs_are_refused) {
       ck_assert_int_eq(kl_output_deriv(s, &rocker, 0, NULL), KL_EINVAL);
     }
     after = snap(s);
-    assert_same(&before, &after, "NULL arguments");
+    assert_same_state(&before, &after, "NULL arguments");
   }
   for (k = 0; k < sizeof unknown_lines / sizeof unknown_lines[0]; k++) {
     sprintf(label, "unknown line %u", k);
@@ -1109,7 +1025,7 @@ START_TEST(bad_dimensions_are_refused) {
     ck_assert_double_eq(v, -5.0);
     ck_assert_double_eq(w, -6.0);
     after = snap(s);
-    assert_same(&before, &after, "a refused dimension");
+    assert_same_state(&before, &after, "a refused dimension");
   }
   {
     double v;
@@ -1119,7 +1035,7 @@ START_TEST(bad_dimensions_are_refused) {
     ck_assert_int_eq(kl_output_sensitivity(fresh, &mu, &bad[1].d, &v), KL_ESTAGE);
   }
   after = snap(s);
-  assert_same(&before, &after, "NULL dimensions");
+  assert_same_state(&before, &after, "NULL dimensions");
   kl_solver_free(s);
   kl_solver_free(fresh);
   kl_model_free(f.m);
@@ -1157,7 +1073,7 @@ START_TEST(bad_loads_are_refused) {
                   kl_solver_error(s), bad[k].names);
     ck_assert_double_eq(effort, -5.0);
     after = snap(s);
-    assert_same(&before, &after, "a refused load");
+    assert_same_state(&before, &after, "a refused load");
   }
   {
     kl_load good = torque_on(f.rocker, 2.0);
@@ -1169,7 +1085,7 @@ START_TEST(bad_loads_are_refused) {
     ck_assert_double_eq(effort, -5.0);
   }
   after = snap(s);
-  assert_same(&before, &after, "NULL loads");
+  assert_same_state(&before, &after, "NULL loads");
   kl_solver_free(s);
   kl_model_free(f.m);
 }

@@ -240,38 +240,6 @@ static double non_grashof_limit(const fourbar *f) {
               (2 * f->a * f->d));
 }
 
-/* Everything a caller can read back, to compare states bit for bit. */
-typedef struct {
-  double v[64];
-  int n;
-} snapshot;
-
-static snapshot snap(const kl_solver *s) {
-  snapshot sn;
-  const kl_model *m = kl_solver_model(s);
-  int l, j, p;
-  sn.n = 0;
-  for (l = 0; l < kl_model_link_count(m); l++) {
-    sn.v[sn.n++] = kl_link_angle(s, l);
-    sn.v[sn.n++] = kl_link_rate(s, l);
-    sn.v[sn.n++] = kl_link_accel(s, l);
-  }
-  for (j = 0; j < kl_model_joint_count(m); j++)
-    sn.v[sn.n++] = kl_joint_slide(s, j);
-  for (p = 0; p < kl_model_point_count(m); p++) {
-    double xy[2];
-    kl_point_position(s, p, xy);
-    sn.v[sn.n++] = xy[0];
-    sn.v[sn.n++] = xy[1];
-  }
-  sn.v[sn.n++] = kl_input_value(s, 0);
-  return sn;
-}
-
-static void assert_same(const snapshot *a, const snapshot *b) {
-  ck_assert_int_eq(a->n, b->n);
-  ck_assert_int_eq(memcmp(a->v, b->v, (size_t)a->n * sizeof(double)), 0);
-}
 
 START_TEST(beyond_a_limit_is_no_assembly_and_state_is_kept) {
   fourbar f = non_grashof();
@@ -288,7 +256,7 @@ START_TEST(beyond_a_limit_is_no_assembly_and_state_is_kept) {
     ck_assert_int_eq(kl_solve_position(s, &beyond[k]), KL_ENOASSEMBLY);
     ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "cannot close"));
     after = snap(s);
-    assert_same(&before, &after);
+    assert_same_state(&before, &after, "a failed solve");
     /* the rates of the failed inputs are not handed out */
     ck_assert_int_eq(kl_solve_velocity(s, &rate), KL_ESTAGE);
   }
@@ -315,7 +283,7 @@ START_TEST(toggle_and_change_point_are_singular) {
   ck_assert_int_eq(kl_solve_position(s, &lim), KL_ESINGULAR);
   ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "singular"));
   after = snap(s);
-  assert_same(&before, &after);
+  assert_same_state(&before, &after, "a failed solve");
   ck_assert_int_eq(kl_solve_velocity(s, &rate), KL_ESINGULAR);
   ck_assert_int_eq(kl_solve_coefficients(s), KL_ESINGULAR);
 

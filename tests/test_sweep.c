@@ -80,57 +80,6 @@ static kl_sweep_result new_result(void) {
 
 /* ---- everything a caller can read back, to compare states bit for bit ---- */
 
-#define MAX_SNAP 256
-typedef struct {
-  double v[MAX_SNAP];
-  int n;
-} snapshot;
-
-static void snap_put(snapshot *sn, double v) {
-  ck_assert_int_lt(sn->n, MAX_SNAP);
-  sn->v[sn->n++] = v;
-}
-
-static snapshot snap(const kl_solver *s) {
-  const kl_model *m = kl_solver_model(s);
-  int (*const point_getter[3])(const kl_solver *, int, double *) = {
-      kl_point_position, kl_point_velocity, kl_point_acceleration};
-  int ni = kl_model_input_count(m), l, j, p, i, g;
-  snapshot sn;
-  memset(&sn, 0, sizeof sn);
-  for (l = 0; l < kl_model_link_count(m); l++) {
-    snap_put(&sn, kl_link_angle(s, l));
-    snap_put(&sn, kl_link_rate(s, l));
-    snap_put(&sn, kl_link_accel(s, l));
-    for (i = 0; i < ni; i++) {
-      snap_put(&sn, kl_link_angle_deriv(s, l, i));
-      snap_put(&sn, kl_link_angle_deriv2(s, l, i, i));
-    }
-  }
-  for (j = 0; j < kl_model_joint_count(m); j++) {
-    snap_put(&sn, kl_joint_angle(s, j));
-    snap_put(&sn, kl_joint_slide(s, j));
-    snap_put(&sn, kl_joint_slide_rate(s, j));
-    snap_put(&sn, kl_joint_slide_accel(s, j));
-  }
-  for (p = 0; p < kl_model_point_count(m); p++)
-    for (g = 0; g < 3; g++) {
-      double xy[2] = {NAN, NAN};
-      snap_put(&sn, (double)point_getter[g](s, p, xy));
-      snap_put(&sn, xy[0]);
-      snap_put(&sn, xy[1]);
-    }
-  for (i = 0; i < ni; i++)
-    snap_put(&sn, kl_input_value(s, i));
-  return sn;
-}
-
-static void assert_same(const snapshot *a, const snapshot *b,
-                        const char *what) {
-  ck_assert_int_eq(a->n, b->n);
-  ck_assert_msg(memcmp(a->v, b->v, (size_t)a->n * sizeof(double)) == 0,
-                "%s: the solver state changed", what);
-}
 
 /* ------------------------------------------------------------------------
  * 1. Motion limits of a non-Grashof four-bar
@@ -426,7 +375,7 @@ START_TEST(fourbar_has_its_two_closed_form_modes) {
     int found[2] = {0, 0}, i, branch;
     ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 2), 2);
     after = snap(s);
-    assert_same(&before, &after, "find assemblies' workspace");
+    assert_same_state(&before, &after, "find assemblies' workspace");
     for (i = 0; i < 2; i++) {
       double t3 = kl_link_angle(modes[i], f.coupler);
       double t4 = kl_link_angle(modes[i], f.rocker), c3, c4;
@@ -547,10 +496,10 @@ START_TEST(mode_arguments_are_checked) {
   ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 2), KL_EINVAL);
   ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "modes[1]"));
   now = snap(s);
-  assert_same(&ws, &now, "workspace after a foreign mode solver");
+  assert_same_state(&ws, &now, "workspace after a foreign mode solver");
   /* checked before anything is written */
   now = snap(mine);
-  assert_same(&untouched, &now, "modes[0] beside a foreign modes[1]");
+  assert_same_state(&untouched, &now, "modes[0] beside a foreign modes[1]");
 
   /* cap below the count: only cap written, the full count returned */
   modes[0] = mine;
@@ -558,7 +507,7 @@ START_TEST(mode_arguments_are_checked) {
   ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 1), 2);
   ck_assert_double_eq(kl_input_value(mine, 0), u);
   now = snap(spare);
-  assert_same(&kept, &now, "a solver beyond cap");
+  assert_same_state(&kept, &now, "a solver beyond cap");
   ck_assert_int_eq(kl_find_assemblies(s, &u, NULL, 0), 2);
 
   /* bad arguments */
@@ -571,9 +520,9 @@ START_TEST(mode_arguments_are_checked) {
   modes[0] = NULL;
   ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 1), KL_EINVAL);
   now = snap(s);
-  assert_same(&ws, &now, "workspace after bad arguments");
+  assert_same_state(&ws, &now, "workspace after bad arguments");
   now = snap(spare);
-  assert_same(&kept, &now, "a mode solver after bad arguments");
+  assert_same_state(&kept, &now, "a mode solver after bad arguments");
 
   kl_solver_free(s);
   kl_solver_free(mine);
@@ -629,7 +578,7 @@ START_TEST(bad_sweep_arguments) {
                   "case %u: message '%s' does not name '%s'", k,
                   kl_solver_error(s), bad[k].names);
     after = snap(s);
-    assert_same(&before, &after, "a refused sweep");
+    assert_same_state(&before, &after, "a refused sweep");
   }
   ck_assert_int_eq(kl_sweep(NULL, 0, 0.0, 1.0, 10, record, &t, &r), KL_EINVAL);
 
@@ -663,15 +612,15 @@ START_TEST(copy_state_needs_the_same_model) {
   ck_assert_int_eq(kl_solver_copy_state(NULL, s), KL_EINVAL);
   ck_assert_int_eq(kl_solver_copy_state(to, NULL), KL_EINVAL);
   now = snap(foreign);
-  assert_same(&foreign_state, &now, "a refused copy's target");
+  assert_same_state(&foreign_state, &now, "a refused copy's target");
   now = snap(s);
-  assert_same(&from_state, &now, "a refused copy's source");
+  assert_same_state(&from_state, &now, "a refused copy's source");
   now = snap(to);
-  assert_same(&to_state, &now, "an untouched solver");
+  assert_same_state(&to_state, &now, "an untouched solver");
   /* within one model the whole state goes across */
   ck_assert_int_eq(kl_solver_copy_state(to, s), KL_OK);
   now = snap(to);
-  assert_same(&from_state, &now, "the copy");
+  assert_same_state(&from_state, &now, "the copy");
   kl_solver_free(s);
   kl_solver_free(to);
   kl_solver_free(foreign);
