@@ -195,6 +195,7 @@ typedef struct {
   double first_v, first_u;
   int found[2];           /* [0] a minimum's bracket, [1] a maximum's */
   double sampled[2];      /* its better sampled value */
+  double sampled_at[2];   /* and where */
   double lo[2], hi[2];    /* its inputs */
 } range_search;
 
@@ -214,11 +215,13 @@ static int track_extremes(const kl_solver *cs, int step, double input,
     for (i = 0; i < 2; i++) {
       /* a minimum where the slope turns from falling to rising */
       int turns = i == 0 ? (r->g <= 0.0 && g >= 0.0) : (r->g >= 0.0 && g <= 0.0);
-      double best = i == 0 ? fmin(r->v, v) : fmax(r->v, v);
+      int later = i == 0 ? v < r->v : v > r->v;
+      double best = later ? v : r->v;
       if (turns && (!r->found[i] || (i == 0 ? best < r->sampled[i]
                                             : best > r->sampled[i]))) {
         r->found[i] = 1;
         r->sampled[i] = best;
+        r->sampled_at[i] = later ? input : r->u;
         r->lo[i] = r->u;
         r->hi[i] = input;
         kli_state_copy(s, &s->extreme[i], &s->previous);
@@ -326,9 +329,14 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
     out.max = r.v, out.input_at_max = r.u;
   for (i = 0; i < 2; i++) {
     double value, at;
-    if (!r.found[i] ||
-        !refine_extreme(s, input, o, i, r.lo[i], r.hi[i], &value, &at))
+    if (!r.found[i])
       continue;
+    /* A turn that lands on a sample can leave both re-solved slopes of its
+     * bracket on one side (rounding), so refinement cannot go below the
+     * bracket's own samples: they are candidates too. */
+    if (!refine_extreme(s, input, o, i, r.lo[i], r.hi[i], &value, &at) ||
+        (i == 0 ? r.sampled[i] < value : r.sampled[i] > value))
+      value = r.sampled[i], at = r.sampled_at[i];
     if (i == 0 && value < out.min)
       out.min = value, out.input_at_min = at;
     if (i == 1 && value > out.max)

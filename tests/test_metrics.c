@@ -256,7 +256,7 @@ START_TEST(transmission_angle_extremes_match_the_law_of_cosines) {
                              (2 * f.b * f.c));
   kl_range r = new_range();
   mu_check c;
-  int sense;
+  int sense, steps;
   kl_set_link_angle(s, f.coupler, 0.6);
   kl_set_link_angle(s, f.rocker, 1.1);
   /* the value along a turn: the law of cosines at every step */
@@ -286,6 +286,17 @@ START_TEST(transmission_angle_extremes_match_the_law_of_cosines) {
                   "maximum at %.15g", r.input_at_max);
     /* left at the end of the sweep */
     ck_assert_double_eq(kl_input_value(s, 0), to);
+  }
+  /* an even number of steps from 0: both extremes land on samples (0 an
+   * end, pi the middle step), where the slope's sign is rounding */
+  for (steps = 2; steps <= 100; steps += 2) {
+    ck_assert_int_eq(kl_output_range(s, 0, 0.0, 2 * PI, steps, &mu, &r), KL_OK);
+    ck_assert_msg(fabs(r.max - mu_max) <= CLOSED_FORM_TOL,
+                  "%d steps: max %.15g vs %.15g", steps, r.max, mu_max);
+    ck_assert_msg(fabs(r.min - mu_min) <= CLOSED_FORM_TOL,
+                  "%d steps: min %.15g vs %.15g", steps, r.min, mu_min);
+    ck_assert_msg(fabs(angle_diff(r.input_at_max, PI)) <= 1e-7,
+                  "%d steps: maximum at %.15g", steps, r.input_at_max);
   }
   kl_solver_free(s);
   kl_model_free(f.m);
