@@ -1037,11 +1037,13 @@ typedef struct kl_study_summary {
   double min, max;      /**< extremes over the samples */
   double worst;         /**< the value furthest outside its limits, or
                              furthest from the nominal when it has none */
-  long worst_sample;    /**< the sample that gave it (-1 if none assembled) */
+  long worst_sample;    /**< the row of `values` that gave it (-1 if none
+                             assembled) */
   double first_order_std; /**< the standard deviation first-order
                                sensitivities at the nominal predict (NaN
-                               where they cannot: grid studies, limits,
-                               efforts) */
+                               where they are not estimated: grid studies,
+                               reach and effort outputs, or a nominal that
+                               cannot be solved there) */
   int has_limits;       /**< whether the study gives limits */
   double lower, upper;  /**< the limits */
   long limited;         /**< samples whose motion stopped inside the sweep */

@@ -729,7 +729,7 @@ static int read_study_model(study_reader *sr) {
   token t;
   char path[1024];
   kl_io_error inner;
-  int st;
+  int st, n;
   if (sr->st->model != NULL)
     return fail_at(&sr->r, KL_ESYNTAX, 1, "a study has one 'model'");
   if ((st = next_token(&sr->r, &t)) != KL_OK)
@@ -741,9 +741,15 @@ static int read_study_model(study_reader *sr) {
   if ((st = expect_end(&sr->r)) != KL_OK)
     return st;
   if (t.text[0] == '/' || sr->base_dir == NULL || sr->base_dir[0] == '\0')
-    snprintf(path, sizeof path, "%s", t.text);
+    n = snprintf(path, sizeof path, "%s", t.text);
   else
-    snprintf(path, sizeof path, "%s/%s", sr->base_dir, t.text);
+    n = snprintf(path, sizeof path, "%s%s%s", sr->base_dir,
+                 sr->base_dir[strlen(sr->base_dir) - 1] == '/' ? "" : "/",
+                 t.text);
+  if (n < 0 || (size_t)n >= sizeof path)
+    return fail_at(&sr->r, KL_EIO, t.column,
+                   "the model's path is longer than %d characters",
+                   (int)sizeof path - 1);
   inner.size = sizeof inner;
   sr->st->model = kl_model_read_file(path, &inner);
   if (sr->st->model == NULL && inner.line > 0)
@@ -1207,7 +1213,15 @@ kl_study *kl_study_read_file(const char *path, kl_io_error *err) {
   if (read_whole_file(path, &text, &cap, &len, err) != KL_OK)
     return NULL;
   slash = strrchr(path, '/');
-  snprintf(dir, sizeof dir, "%.*s", slash == NULL ? 1 : (int)(slash - path),
+  if (slash != NULL && (size_t)(slash - path) >= sizeof dir) {
+    free_file_text(text, cap);
+    io_fail(err, KL_EIO, "read '%.120s': %s", path,
+            "its directory is too long for a study's base directory");
+    return NULL;
+  }
+  /* the directory part, keeping the root of "/name" */
+  snprintf(dir, sizeof dir, "%.*s",
+           slash == NULL ? 1 : slash == path ? 1 : (int)(slash - path),
            slash == NULL ? "." : path);
   st = kl_study_read(text, len, dir, err);
   free_file_text(text, cap);

@@ -389,6 +389,50 @@ START_TEST(the_demo_study_reads) {
 }
 END_TEST
 
+/* The model's path is taken relative to the study's directory, however
+ * the study names it; a path too long for the reader is an error, never a
+ * cut-down path. */
+START_TEST(the_model_is_found_beside_the_study) {
+  static const char study_text[] = "kinloop-study 1\n"
+                                   "model slider.kinloop\n"
+                                   "grid joint pin a x from 20 to 40 steps 1\n"
+                                   "output stroke swing slide rail\n";
+  char path[128], with_slash[80], cwd[1024], *long_base;
+  kl_io_error err;
+  kl_study *st;
+  err.size = sizeof err;
+  write_file("nominal.study", study_text);
+  snprintf(path, sizeof path, "%s/nominal.study", dir);
+  st = kl_study_read_file(path, &err);
+  ck_assert_msg(st != NULL, "%s", err.message);
+  kl_study_free(st);
+  /* a base directory given with its trailing slash */
+  snprintf(with_slash, sizeof with_slash, "%s/", dir);
+  st = kl_study_read(study_text, strlen(study_text), with_slash, &err);
+  ck_assert_msg(st != NULL, "%s", err.message);
+  kl_study_free(st);
+  /* a bare file name: the working directory */
+  ck_assert_ptr_nonnull(getcwd(cwd, sizeof cwd));
+  ck_assert_int_eq(chdir(dir), 0);
+  st = kl_study_read_file("nominal.study", &err);
+  ck_assert_int_eq(chdir(cwd), 0);
+  ck_assert_msg(st != NULL, "%s", err.message);
+  kl_study_free(st);
+  /* a base directory of 1020 characters and the model's name: too long */
+  long_base = malloc(1021);
+  ck_assert_ptr_nonnull(long_base);
+  memset(long_base, 'a', 1020);
+  long_base[1020] = '\0';
+  ck_assert_ptr_null(kl_study_read(study_text, strlen(study_text), long_base, &err));
+  ck_assert_int_eq(err.status, KL_EIO);
+  ck_assert_int_eq(err.line, 2);
+  ck_assert_msg(strstr(err.message, "longer than") != NULL, "%s", err.message);
+  free(long_base);
+  snprintf(path, sizeof path, "%s/nominal.study", dir);
+  unlink(path);
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("study");
   TCase *tc = tcase_create("study");
@@ -405,6 +449,7 @@ int main(void) {
   tcase_add_loop_test(tc, study_errors_are_located, 0,
                       (int)(sizeof bad_studies / sizeof bad_studies[0]));
   tcase_add_test(tc, the_demo_study_reads);
+  tcase_add_test(tc, the_model_is_found_beside_the_study);
   suite_add_tcase(suite, tc);
   runner = srunner_create(suite);
   srunner_run_all(runner, CK_NORMAL);
