@@ -989,7 +989,9 @@ KL_API long kl_study_sample_count(const kl_study *st);
 KL_API int kl_study_output_count(const kl_study *st);
 /** The name of output `k`, NULL if there is none. */
 KL_API const char *kl_study_output_name(const kl_study *st, int k);
-/** The nominal model of the study (owned by the study). */
+/** The nominal model of the study (owned by the study, freed with it). Make
+ * solvers of it or copy it with kl_model_copy; never cast away `const`:
+ * kl_study_run's threads read it at the same time. */
 KL_API const kl_model *kl_study_model(const kl_study *st);
 /** The number of dimensions that vary. */
 KL_API int kl_study_dimension_count(const kl_study *st);
@@ -1033,8 +1035,13 @@ typedef struct kl_study_summary {
   double nominal;       /**< the output of the nominal model */
   double mean;          /**< over the samples that assembled */
   double std;           /**< standard deviation (n - 1) */
-  double p01, p05, p50, p95, p99; /**< percentiles (linear interpolation) */
-  double min, max;      /**< extremes over the samples */
+  double p01;           /**< 1st percentile (linear interpolation) */
+  double p05;           /**< 5th percentile */
+  double p50;           /**< the median */
+  double p95;           /**< 95th percentile */
+  double p99;           /**< 99th percentile */
+  double min;           /**< the least value over the samples */
+  double max;           /**< the greatest value over the samples */
   double worst;         /**< the value furthest outside its limits, or
                              furthest from the nominal when it has none */
   long worst_sample;    /**< the row of `values` that gave it (-1 if none
@@ -1045,7 +1052,8 @@ typedef struct kl_study_summary {
                                reach and effort outputs, or a nominal that
                                cannot be solved there) */
   int has_limits;       /**< whether the study gives limits */
-  double lower, upper;  /**< the limits */
+  double lower;         /**< the lower limit (NaN without limits) */
+  double upper;         /**< the upper limit (NaN without limits) */
   long limited;         /**< samples whose motion stopped inside the sweep */
 } kl_study_summary;
 
