@@ -1,7 +1,7 @@
 /*
  * __kinloop__.cc - the Octave gateway to kinloop: one function taking a
- * command (a kl_ name without its prefix) and its arguments; models and
- * solvers are held in a table and handed to Octave as integer ids.
+ * command (a kl_ name without its prefix) and its arguments; models,
+ * solvers and studies are held in a table and handed to Octave as ids.
  */
 #include <octave/oct.h>
 #include <octave/interpreter.h>
@@ -30,13 +30,18 @@ namespace {
  * always recognised as freed rather than taken for a newer object.
  * ------------------------------------------------------------------------ */
 
-enum class kind : unsigned char { none, model, solver };
+enum class kind : unsigned char { none, model, solver, study };
 
+/* A study's model is borrowed: its handle (made by study_model) refuses
+ * every command that would change or free it, and goes with the study. */
 struct entry {
   kind what = kind::none;
   kl_model *model = nullptr; /* the model, or the solver's model */
   kl_solver *solver = nullptr;
-  int model_id = 0;      /* solver: the id of its model */
+  kl_study *study = nullptr;
+  int model_id = 0;      /* solver: the id of its model; study: the id of
+                            its borrowed model, 0 until study_model */
+  int owner = 0;         /* model: the study it belongs to, 0 if its own */
   int live_solvers = 0;  /* model: solvers not yet freed */
   void *block = nullptr; /* solver placed in a gateway-owned block */
   bool sweeping = false; /* solver: inside kl_sweep's callback */
@@ -59,7 +64,10 @@ registry &table() {
 }
 
 const char *kind_name(kind k) {
-  return k == kind::model ? "model" : k == kind::solver ? "solver" : "handle";
+  return k == kind::model    ? "model"
+         : k == kind::solver ? "solver"
+         : k == kind::study  ? "study"
+                             : "handle";
 }
 
 /* ------------------------------------------------------------------------
@@ -193,6 +201,18 @@ public:
     return std::vector<double>(a.data(), a.data() + n);
   }
 
+  /* A sample index or count: a whole number a double holds exactly. */
+  long whole(int i, const char *what) const {
+    const octave_value &v = arg(i);
+    if (!(v.isnumeric() || v.islogical()) || v.iscomplex() || v.numel() != 1)
+      bad(std::string(what) + " must be a whole number");
+    double d = v.double_value();
+    if (!(d == std::floor(d)) || std::fabs(d) > 9007199254740992.0 ||
+        std::fabs(d) > static_cast<double>(std::numeric_limits<long>::max()))
+      bad(std::string(what) + " must be a whole number (got " + str(d) + ")");
+    return static_cast<long>(d);
+  }
+
   /* Integers: a vector of ids. */
   std::vector<int> integers(int i, const char *what) const {
     const octave_value &v = arg(i);
@@ -212,7 +232,9 @@ public:
   }
 
   entry &handle(int i, kind want, access how) const {
-    int id = integer(i, want == kind::model ? "model id" : "solver id");
+    int id = integer(i, want == kind::model    ? "model id"
+                        : want == kind::solver ? "solver id"
+                                               : "study id");
     registry &r = table();
     auto it = r.live.find(id);
     if (it == r.live.end()) {
@@ -230,6 +252,12 @@ public:
       raise("in_use", name + ": solver " + str(id) +
                           " is running a sweep; its callback may only read "
                           "from it");
+    /* the library would refuse too (the model is finalized), but write
+     * its message into a model that is the study's, not ours */
+    if (how == access::write && it->second.owner != 0)
+      raise(status_name(KL_ESTATE),
+            name + ": model " + str(id) + " belongs to study " +
+                str(it->second.owner) + " and is finalized: it cannot change");
     return it->second;
   }
 
@@ -238,6 +266,9 @@ public:
   }
   entry &solver(int i, access how = access::write) const {
     return handle(i, kind::solver, how);
+  }
+  entry &study(int i, access how = access::read) const {
+    return handle(i, kind::study, how);
   }
 
   /* An int-returning getter failed without a message of its own. */
@@ -556,8 +587,11 @@ octave_value_list cmd_model_new_with_alloc(const call &c) {
 }
 
 octave_value_list cmd_model_free(const call &c) {
-  entry &m = c.model(0);
+  entry &m = c.model(0, access::read);
   int id = c.integer(0, "model id");
+  if (m.owner != 0)
+    raise("in_use", c.name + ": model " + str(id) + " belongs to study " +
+                        str(m.owner) + "; it is freed with the study");
   if (m.live_solvers > 0)
     raise("in_use", c.name + ": model " + str(id) + " still has " +
                         str(m.live_solvers) + " solver" +
@@ -637,9 +671,12 @@ octave_value_list cmd_add_loop(const call &c) {
   return one(st);
 }
 
+/* A study's model is finalized already: as for any finalized model,
+ * there is nothing to do. */
 octave_value_list cmd_model_finalize(const call &c) {
-  entry &m = c.model(0);
-  model_status(kl_model_finalize(m.model), m);
+  entry &m = c.model(0, access::read);
+  if (m.owner == 0)
+    model_status(kl_model_finalize(m.model), m);
   return none();
 }
 
@@ -892,19 +929,20 @@ octave_value_list cmd_grashof_str(const call &c) {
 
 /* ---- model files ---- */
 
-/* A model read or the reason it was not: raised, or with two outputs
- * returned as ([], error struct). */
-octave_value_list read_result(const call &c, kl_model *m,
+/* A model or study read, or the reason it was not: raised, or with two
+ * outputs returned as ([], error struct). */
+template <typename T>
+octave_value_list read_result(const call &c, T *made, int (*adopt)(T *),
                               const kl_io_error &e) {
   octave_value_list out;
-  if (m == nullptr) {
+  if (made == nullptr) {
     if (c.nargout < 2)
       raise_status(e.status, io_message(e).c_str());
     out(0) = Matrix();
     out(1) = io_error_struct(e);
     return out;
   }
-  out(0) = adopt_model(m);
+  out(0) = adopt(made);
   out(1) = io_error_struct(e);
   return out;
 }
@@ -921,7 +959,7 @@ octave_value_list cmd_model_read(const call &c) {
   kl_io_error e;
   e.size = sizeof e;
   kl_model *m = kl_model_read(text.data(), text.size(), &e);
-  return read_result(c, m, e);
+  return read_result(c, m, adopt_model, e);
 }
 
 octave_value_list cmd_model_read_with_alloc(const call &c) {
@@ -934,7 +972,7 @@ octave_value_list cmd_model_read_with_alloc(const call &c) {
                                          counting_alloc_fn, &a, &e);
   if (m == nullptr)
     table().allocs.erase(id);
-  return read_result(c, m, e);
+  return read_result(c, m, adopt_model, e);
 }
 
 octave_value_list cmd_model_read_file(const call &c) {
@@ -944,7 +982,7 @@ octave_value_list cmd_model_read_file(const call &c) {
   kl_io_error e;
   e.size = sizeof e;
   kl_model *m = kl_model_read_file(path.c_str(), &e);
-  return read_result(c, m, e);
+  return read_result(c, m, adopt_model, e);
 }
 
 octave_value_list cmd_model_write(const call &c) {
@@ -1503,6 +1541,170 @@ octave_value_list cmd_tolerance_stack(const call &c) {
 }
 
 /* ------------------------------------------------------------------------
+ * Commands: design studies
+ * ------------------------------------------------------------------------ */
+
+int adopt_study(kl_study *st) {
+  entry e;
+  e.study = st;
+  return new_id(kind::study, e);
+}
+
+octave_value_list cmd_study_read(const call &c) {
+  std::string text = text_arg(c, 0), base_dir;
+  bool based = c.name_arg(1, "base_dir", base_dir);
+  kl_io_error e;
+  e.size = sizeof e;
+  kl_study *st = kl_study_read(text.data(), text.size(),
+                               based ? base_dir.c_str() : nullptr, &e);
+  return read_result(c, st, adopt_study, e);
+}
+
+octave_value_list cmd_study_read_file(const call &c) {
+  std::string path;
+  if (!c.name_arg(0, "path", path))
+    c.bad("path must be given");
+  kl_io_error e;
+  e.size = sizeof e;
+  kl_study *st = kl_study_read_file(path.c_str(), &e);
+  return read_result(c, st, adopt_study, e);
+}
+
+/* The study's borrowed model goes with it, which its solvers must not
+ * outlive. */
+octave_value_list cmd_study_free(const call &c) {
+  entry &st = c.study(0);
+  int id = c.integer(0, "study id");
+  auto m = table().live.find(st.model_id);
+  if (m != table().live.end()) {
+    if (m->second.live_solvers > 0)
+      raise("in_use", c.name + ": the model of study " + str(id) + " (model " +
+                          str(st.model_id) + ") still has " +
+                          str(m->second.live_solvers) + " solver" +
+                          (m->second.live_solvers == 1 ? "" : "s") +
+                          "; free them first");
+    table().live.erase(m);
+  }
+  kl_study_free(st.study);
+  table().live.erase(id);
+  return none();
+}
+
+octave_value_list cmd_study_sample_count(const call &c) {
+  return one(static_cast<double>(kl_study_sample_count(c.study(0).study)));
+}
+
+template <int (*get)(const kl_study *)>
+octave_value_list cmd_study_count(const call &c) {
+  return one(get(c.study(0).study));
+}
+
+template <const char *(*get)(const kl_study *, int)>
+octave_value_list cmd_study_name_of(const call &c) {
+  return one(name_value(get(c.study(0).study, c.integer(1, "index"))));
+}
+
+/* The study's model as a borrowed handle: one per study, made on the
+ * first call, freed with the study. */
+octave_value_list cmd_study_model(const call &c) {
+  entry &st = c.study(0);
+  if (st.model_id == 0) {
+    entry e;
+    /* writes through it are refused (entry::owner), so the const the
+     * library gives is kept */
+    e.model = const_cast<kl_model *>(kl_study_model(st.study));
+    e.owner = c.integer(0, "study id");
+    st.model_id = new_id(kind::model, e);
+  }
+  return one(st.model_id);
+}
+
+/* A row-major C array as a rows x columns matrix. */
+Matrix from_rows(const std::vector<double> &v, long rows, int columns) {
+  Matrix out(rows, columns);
+  for (long i = 0; i < rows; i++)
+    for (int k = 0; k < columns; k++)
+      out(i, k) = v[static_cast<size_t>(i) * columns + k];
+  return out;
+}
+
+octave_value_list cmd_study_run(const call &c) {
+  const kl_study *st = c.study(0).study;
+  long first = c.whole(1, "first sample"), count = c.whole(2, "count");
+  int threads = c.given(3) ? c.integer(3, "threads") : 0;
+  long total = kl_study_sample_count(st);
+  int nout = kl_study_output_count(st), ndim = kl_study_dimension_count(st);
+  bool want_dims = c.nargout >= 3;
+  /* sized for a valid range; the library judges the range itself */
+  long rows = count < 0 ? 0 : count > total ? total : count;
+  std::vector<double> values(static_cast<size_t>(rows) * nout + 1);
+  std::vector<double> dims(want_dims ? static_cast<size_t>(rows) * ndim + 1 : 0);
+  std::vector<int> status(static_cast<size_t>(rows) + 1);
+  c.quiet(kl_study_run(st, first, count, threads, values.data(), status.data(),
+                       want_dims ? dims.data() : nullptr),
+          "first " + std::to_string(first) + ", count " +
+              std::to_string(count) + "; the study has samples 0 .. " +
+              std::to_string(total - 1));
+  octave_value_list out;
+  out(0) = from_rows(values, rows, nout);
+  ColumnVector codes(rows);
+  for (long i = 0; i < rows; i++)
+    codes(i) = status[i];
+  out(1) = codes;
+  if (want_dims)
+    out(2) = from_rows(dims, rows, ndim);
+  return out;
+}
+
+octave_value_list cmd_study_summarize(const call &c) {
+  const kl_study *st = c.study(0).study;
+  int k = c.integer(1, "output");
+  int nout = kl_study_output_count(st);
+  const octave_value &v = c.arg(2);
+  if (!(v.isnumeric() || v.islogical()) || v.iscomplex() || v.ndims() != 2 ||
+      (!v.isempty() && v.columns() != nout))
+    c.bad("values must be a real matrix with one column per output (" +
+          str(nout) + "), as study_run gives");
+  Matrix values = v.matrix_value();
+  long n = v.isempty() ? 0 : values.rows();
+  std::vector<int> status = c.integers(3, "sample statuses");
+  if (static_cast<long>(status.size()) != n)
+    c.bad("sample statuses must have one element per row of values (" +
+          std::to_string(n) + "); got " + str(static_cast<int>(status.size())));
+  std::vector<double> rows(static_cast<size_t>(n) * nout + 1);
+  for (long i = 0; i < n; i++)
+    for (int j = 0; j < nout; j++)
+      rows[static_cast<size_t>(i) * nout + j] = values(i, j);
+  status.push_back(0); /* never empty: data() is not NULL */
+  kl_study_summary s;
+  s.size = sizeof s;
+  c.quiet(kl_study_summarize(st, k, rows.data(), status.data(), n, &s),
+          "output " + str(k) + " of " + str(nout));
+  octave_scalar_map out;
+  out.assign("samples", static_cast<double>(s.samples));
+  out.assign("assembled", static_cast<double>(s.assembled));
+  out.assign("within_limits", static_cast<double>(s.within_limits));
+  out.assign("limited", static_cast<double>(s.limited));
+  out.assign("nominal", s.nominal);
+  out.assign("mean", s.mean);
+  out.assign("std", s.std);
+  out.assign("p01", s.p01);
+  out.assign("p05", s.p05);
+  out.assign("p50", s.p50);
+  out.assign("p95", s.p95);
+  out.assign("p99", s.p99);
+  out.assign("min", s.min);
+  out.assign("max", s.max);
+  out.assign("worst", s.worst);
+  out.assign("worst_sample", static_cast<double>(s.worst_sample));
+  out.assign("first_order_std", s.first_order_std);
+  out.assign("has_limits", s.has_limits != 0);
+  out.assign("lower", s.lower);
+  out.assign("upper", s.upper);
+  return one(out);
+}
+
+/* ------------------------------------------------------------------------
  * Commands: the library and the gateway
  * ------------------------------------------------------------------------ */
 
@@ -1697,6 +1899,23 @@ const command commands[] = {
      cmd_output_sensitivity},
     {"tolerance_stack", 4, 4, "(solver, output, dimensions, tolerances)",
      cmd_tolerance_stack},
+    /* design studies */
+    {"study_read", 1, 2, "(text, [base_dir])", cmd_study_read},
+    {"study_read_file", 1, 1, "(path)", cmd_study_read_file},
+    {"study_free", 1, 1, "(study)", cmd_study_free},
+    {"study_sample_count", 1, 1, "(study)", cmd_study_sample_count},
+    {"study_output_count", 1, 1, "(study)",
+     cmd_study_count<kl_study_output_count>},
+    {"study_output_name", 2, 2, "(study, output)",
+     cmd_study_name_of<kl_study_output_name>},
+    {"study_model", 1, 1, "(study)", cmd_study_model},
+    {"study_dimension_count", 1, 1, "(study)",
+     cmd_study_count<kl_study_dimension_count>},
+    {"study_dimension_name", 2, 2, "(study, dimension)",
+     cmd_study_name_of<kl_study_dimension_name>},
+    {"study_run", 3, 4, "(study, first, count, [threads])", cmd_study_run},
+    {"study_summarize", 4, 4, "(study, output, values, sample_statuses)",
+     cmd_study_summarize},
 };
 
 octave_value_list cmd_commands(const call &) {

@@ -15,6 +15,10 @@ classdef Model < handle
   % kinloop:ESELFJOINT) with the library's message and changes nothing.
   % The model is freed when the last reference to it goes (a kinloop.Solver
   % keeps its model alive), or by delete(m).
+  %
+  % A study's model (kinloop.Study's model()) is borrowed: the object keeps
+  % its study alive, refuses every change (kinloop:ESTATE: it is finalized),
+  % and delete of it frees nothing; the model goes with the study.
 
   properties (SetAccess = private)
     id = [];      % the gateway's handle for this model
@@ -24,10 +28,11 @@ classdef Model < handle
   % object that released it, where private properties cannot be read.
   properties (Hidden)
     freed = false;  % set once the gateway has freed the handle
+    owner = [];     % a borrowed model: the kinloop.Study it belongs to
   end
 
   methods
-    function obj = Model(how, arg)
+    function obj = Model(how, arg, owner)
       if nargin == 0
         obj.id = __kinloop__('model_new');
       elseif ischar(how) && strcmp(how, 'count_allocations')
@@ -38,6 +43,9 @@ classdef Model < handle
         end
       elseif ischar(how) && strcmp(how, 'adopt')
         obj.id = arg;   % a model the gateway already holds (read, read_file)
+      elseif ischar(how) && strcmp(how, 'borrow') && nargin == 3 && isa(owner, 'kinloop.Study')
+        obj.id = arg;   % the model of a study (Study.model)
+        obj.owner = owner;
       else
         error('kinloop:bad_argument', ...
               'kinloop.Model: use Model() or Model(''count_allocations'' [, fail_at])');
@@ -46,11 +54,17 @@ classdef Model < handle
 
     function delete(obj)
       % Frees the model (once; later calls do nothing). Raises kinloop:in_use
-      % while solvers made from it are alive.
-      if ~obj.freed && ~isempty(obj.id)
+      % while solvers made from it are alive. A borrowed model is its
+      % study's to free: nothing happens.
+      if ~obj.freed && ~isempty(obj.id) && isempty(obj.owner)
         __kinloop__('model_free', obj.id);
         obj.freed = true;
       end
+    end
+
+    function tf = is_borrowed(obj)
+      % Whether the model belongs to a study (kinloop.Study's model()).
+      tf = ~isempty(obj.owner);
     end
 
     function msg = last_error(obj)

@@ -8,8 +8,10 @@ function problem = run_one_test(path)
     problem = sprintf('left %d handle(s) alive:%s', numel(ids), ...
                       sprintf(' %s %d', [kinds; num2cell(ids)]{:}));
   end
-  % free what a failed test left, solvers before their models
-  for want = {'solver', 'model'}
+  % free what a failed test left, solvers before their models and
+  % studies (a study's model goes with it, so the list is read again)
+  for want = {'solver', 'study', 'model'}
+    [ids, kinds] = kinloop.handles();
     for k = find(strcmp(kinds, want{1}))
       __kinloop__([want{1} '_free'], ids(k));
     end

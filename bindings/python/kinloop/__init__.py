@@ -9,6 +9,10 @@ libkinloop (include/kinloop.h).
         s = kinloop.Solver(m)
         s.solve_position(1.0)
 
+    with kinloop.Study.read_file("examples/models/flap-tucker.study") as st:
+        values, status, dims = st.run(count=200)
+        print(st.summarize("stroke", values, status).std)
+
 Angles are radians, points are (x, y) tuples, ids are ints as in C. Negative
 statuses raise KinloopError; positive ones (Status.LIMIT, Status.STOPPED)
 are returned. The C layer itself is kinloop.raw (raw.lib.kl_*).
@@ -17,13 +21,14 @@ are returned. The C layer itself is kinloop.raw (raw.lib.kl_*).
 from . import raw
 from ._core import (GROUND, AngleUnit, Dimension, DimensionKind, GrashofClass,
                     JointKind, Kernel, KinloopError, LengthUnit, Load, LoadKind,
-                    Options, Output, OutputKind, Range, SolveStats, Status,
-                    SweepResult, SweepSettings, angle_unit_str, grashof_str,
-                    length_unit_str, status_str)
+                    Options, Output, OutputKind, Range, SampleStatus, SolveStats,
+                    Status, StudyRun, StudySummary, SweepResult, SweepSettings,
+                    angle_unit_str, grashof_str, length_unit_str, status_str)
 from ._core import check_const as _check_const
 from .model import Model
 from .raw import MissingFunctionError
 from .solver import Solver
+from .study import Study
 
 __version__ = "%d.%d" % raw.WRITTEN_FOR
 library_path = raw.library_path
@@ -51,7 +56,8 @@ __all__ = [
     "GROUND", "AngleUnit", "Dimension", "DimensionKind", "GrashofClass",
     "JointKind", "Kernel", "KinloopError", "LengthUnit", "Load", "LoadKind",
     "MissingFunctionError", "Model", "Options", "Output", "OutputKind",
-    "Range", "SolveStats", "Solver", "Status", "SweepResult", "SweepSettings",
+    "Range", "SampleStatus", "SolveStats", "Solver", "Status", "Study",
+    "StudyRun", "StudySummary", "SweepResult", "SweepSettings",
     "angle_unit_str", "grashof", "grashof_str", "length_unit_str",
     "library_path", "library_version", "status_str", "version",
     "version_number",

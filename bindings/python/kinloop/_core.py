@@ -1,4 +1,4 @@
-"""What the Model and Solver wrappers share: the enums of include/kinloop.h,
+"""What the Model, Solver and Study wrappers share: the enums of include/kinloop.h,
 the exception, the small value types, and argument conversions."""
 
 import ctypes
@@ -107,6 +107,13 @@ class DimensionKind(enum.IntEnum):
     JOINT_A = 0
     JOINT_B = 1
     POINT = 2
+
+
+class SampleStatus(enum.IntEnum):
+    """enum kl_sample_status: the outcome of one sample of a study."""
+    OK = 0
+    NO_ASSEMBLY = 1
+    LIMITED = 2
 
 
 def text(value):
@@ -439,3 +446,43 @@ class SweepResult:
 
     def __len__(self):
         return self.steps_done
+
+
+class StudyRun(NamedTuple):
+    """What Study.run computed, one row per sample (first .. first + count - 1):
+    values[i, k] is output k (NaN where the sample has none: it did not
+    assemble, or its motion stopped short of the output), status[i] its
+    SampleStatus code (numpy.intc), dims[i, d] the value dimension d took."""
+    values: np.ndarray
+    status: np.ndarray
+    dims: np.ndarray
+
+
+@dataclasses.dataclass(frozen=True)
+class StudySummary:
+    """kl_study_summary: one output over the samples, in the study file's
+    units. The statistics are over the samples that assembled and have a
+    value (a LIMITED sample has none for an input beyond its reach);
+    worst_sample counts from the first row summarized (-1 if there is none);
+    lower and upper are NaN without limits, first_order_std where no estimate
+    exists."""
+    samples: int
+    assembled: int
+    within_limits: int
+    nominal: float
+    mean: float
+    std: float
+    p01: float
+    p05: float
+    p50: float
+    p95: float
+    p99: float
+    min: float
+    max: float
+    worst: float
+    worst_sample: int
+    first_order_std: float
+    has_limits: bool
+    lower: float
+    upper: float
+    limited: int

@@ -1,5 +1,6 @@
 """Model: a linkage description (links, joints, points, inputs, loops) over
-the kl_model handle, with its builders, getters and model files."""
+the kl_model handle, with its builders, getters and model files; also the
+read-only view of a model another handle owns (a study's nominal model)."""
 
 import ctypes
 import os
@@ -36,6 +37,12 @@ def _free_model(ptr, solver_finalizers, keepalive):
     lib.kl_model_free(ptr)
 
 
+def _release_view(solver_finalizers):
+    # a borrowed model is not ours to free: only the solvers made from it
+    for free_solver in list(solver_finalizers):
+        free_solver()
+
+
 def _io_error(status, err, what):
     """The error of a model-file call, from its kl_io_error."""
     return KinloopError(status, "%s: %s" % (what, text(err.message) or status_str(status)),
@@ -49,7 +56,9 @@ class Model:
     otherwise it is freed when garbage-collected, exactly once either way.
     `allocator`, if given, is a callable (ptr, old_size, new_size) -> address
     used for every allocation of the model and its solvers (see
-    allocator_hook)."""
+    allocator_hook). A Study's `model` is a borrowed Model (`borrowed` is
+    true): it keeps the study alive, refuses changes, and is never freed
+    here."""
 
     def __init__(self, allocator=None):
         if allocator is None:
@@ -68,12 +77,26 @@ class Model:
         model._adopt(ptr, hook)
         return model
 
-    def _adopt(self, ptr, hook):
+    @classmethod
+    def _borrowing(cls, ptr, owner):
+        """A view of a finalized model that `owner` holds and frees (a
+        Study): the view keeps its owner alive, never frees the model, and
+        refuses every call that would change it."""
+        model = cls.__new__(cls)
+        model._adopt(ptr, None, owner)
+        return model
+
+    def _adopt(self, ptr, hook, owner=None):
         self._ptr = ptr
         self._sweeps = 0  # sweeps of its solvers under way
         self._solver_finalizers = set()
-        self._finalizer = weakref.finalize(self, _free_model, ptr,
-                                           self._solver_finalizers, hook)
+        self._owner = owner
+        if owner is None:
+            self._finalizer = weakref.finalize(self, _free_model, ptr,
+                                               self._solver_finalizers, hook)
+        else:
+            self._finalizer = weakref.finalize(self, _release_view,
+                                               self._solver_finalizers)
 
     # ---- lifetime ----
 
@@ -83,6 +106,18 @@ class Model:
             raise ValueError("kinloop: the model is closed")
         return self._ptr
 
+    @property
+    def _changing(self):
+        """The handle for a call that changes the model (a non-const
+        kl_model * in C), refused for a borrowed model: the library would
+        answer KL_ESTATE (it is finalized) but write its message into a model
+        that is not ours, and that its owner may be using on other threads."""
+        handle = self._handle
+        if self._owner is not None:
+            raise KinloopError(Status.ESTATE, "the model belongs to a study and "
+                               "cannot change (it is finalized)")
+        return handle
+
     def _register_solver(self, finalizer):
         self._solver_finalizers.difference_update(
             [f for f in self._solver_finalizers if not f.alive])
@@ -90,7 +125,9 @@ class Model:
 
     def close(self):
         """Frees the model (kl_model_free) and first every solver made from
-        it; later calls on them raise ValueError. Closing twice does nothing."""
+        it; later calls on them raise ValueError. Closing twice does nothing.
+        For a borrowed model (Study.model) it closes the view and its solvers
+        only: the model itself goes with its owner."""
         if self._sweeps:
             raise RuntimeError("kinloop: a model cannot be closed during a sweep "
                                "of one of its solvers")
@@ -99,6 +136,11 @@ class Model:
     @property
     def closed(self):
         return not self._finalizer.alive
+
+    @property
+    def borrowed(self):
+        """Whether this is a view of a model another handle owns (Study.model)."""
+        return self._owner is not None
 
     def __enter__(self):
         return self
@@ -109,9 +151,10 @@ class Model:
     def __repr__(self):
         if self.closed:
             return "<kinloop.Model (closed)>"
-        return "<kinloop.Model: %d links, %d joints, %d points, %d inputs%s>" % (
+        return "<kinloop.Model: %d links, %d joints, %d points, %d inputs%s%s>" % (
             self.link_count, self.joint_count, self.point_count,
-            self.input_count, ", finalized" if self.is_finalized else "")
+            self.input_count, ", finalized" if self.is_finalized else "",
+            ", borrowed from a study" if self.borrowed else "")
 
     # ---- errors ----
 
@@ -129,76 +172,79 @@ class Model:
 
     def add_link(self, name=None):
         """A moving link; returns its id (>= 1)."""
-        return self._check(lib.kl_add_link(self._handle, encode_name(name)))
+        return self._check(lib.kl_add_link(self._changing, encode_name(name)))
 
     def add_revolute(self, a, a_point, b, b_point):
         """A pin: a_point in link a's frame coincides with b_point in b's."""
-        return self._check(lib.kl_add_revolute(self._handle, a, *point_arg(a_point),
+        return self._check(lib.kl_add_revolute(self._changing, a, *point_arg(a_point),
                                                b, *point_arg(b_point)))
 
     def add_prismatic(self, a, a_point, axis_angle, b, b_point):
         """A slider: b_point of b runs on a's line through a_point at
         axis_angle (rad, a's frame); b keeps a's angle."""
-        return self._check(lib.kl_add_prismatic(self._handle, a, *point_arg(a_point),
+        return self._check(lib.kl_add_prismatic(self._changing, a, *point_arg(a_point),
                                                 axis_angle, b, *point_arg(b_point)))
 
     def add_slot(self, a, a_point, axis_angle, b, b_point):
         """A pin in a slot: as add_prismatic, b may turn."""
-        return self._check(lib.kl_add_slot(self._handle, a, *point_arg(a_point),
+        return self._check(lib.kl_add_slot(self._changing, a, *point_arg(a_point),
                                            axis_angle, b, *point_arg(b_point)))
 
     def add_prismatic_through(self, a, a_point, toward, b, b_point):
         """A slider whose line on a runs from a_point toward `toward`."""
         return self._check(lib.kl_add_prismatic_through(
-            self._handle, a, *point_arg(a_point), *point_arg(toward), b,
+            self._changing, a, *point_arg(a_point), *point_arg(toward), b,
             *point_arg(b_point)))
 
     def add_slot_through(self, a, a_point, toward, b, b_point):
         """A slot whose line on a runs from a_point toward `toward`."""
         return self._check(lib.kl_add_slot_through(
-            self._handle, a, *point_arg(a_point), *point_arg(toward), b,
+            self._changing, a, *point_arg(a_point), *point_arg(toward), b,
             *point_arg(b_point)))
 
     def add_point(self, link, xy, name=None):
         """A named point at xy in the frame of `link`; returns its id."""
-        return self._check(lib.kl_add_point(self._handle, link, *point_arg(xy),
+        return self._check(lib.kl_add_point(self._changing, link, *point_arg(xy),
                                             encode_name(name)))
 
     def add_input(self, joint):
         """Makes the joint's coordinate an input; returns the input's index."""
-        return self._check(lib.kl_add_input(self._handle, joint))
+        return self._check(lib.kl_add_input(self._changing, joint))
 
     def add_loop(self, joints):
         """Registers a loop: joint ids in walking order; returns its index."""
         ids = [int(j) for j in joints]
         array = (ctypes.c_int * max(len(ids), 1))(*ids)
-        return self._check(lib.kl_add_loop(self._handle, len(ids), array))
+        return self._check(lib.kl_add_loop(self._changing, len(ids), array))
 
     def set_joint_name(self, joint, name):
-        self._check(lib.kl_set_joint_name(self._handle, joint, encode_name(name)))
+        self._check(lib.kl_set_joint_name(self._changing, joint, encode_name(name)))
 
     def set_units(self, length_unit, angle_unit):
         """Records the units (LengthUnit, AngleUnit); numbers are not converted."""
-        self._check(lib.kl_model_set_units(self._handle, int(length_unit),
+        self._check(lib.kl_model_set_units(self._changing, int(length_unit),
                                            int(angle_unit)))
 
     def set_sketch_angle(self, link, angle):
         """Sketch angle (rad) every new solver starts from."""
-        self._check(lib.kl_set_sketch_angle(self._handle, link, angle))
+        self._check(lib.kl_set_sketch_angle(self._changing, link, angle))
 
     def set_sketch_slide(self, joint, slide):
-        self._check(lib.kl_set_sketch_slide(self._handle, joint, slide))
+        self._check(lib.kl_set_sketch_slide(self._changing, joint, slide))
 
     def set_sweep(self, input, start, stop, steps):
         """Records sweep settings for tools that run the model."""
         settings = raw.kl_sweep_settings(input=input, to=stop, steps=steps)
         setattr(settings, "from", start)
-        self._check(lib.kl_model_set_sweep(self._handle, ctypes.byref(settings)))
+        self._check(lib.kl_model_set_sweep(self._changing, ctypes.byref(settings)))
 
     def finalize(self):
         """Checks the topology and prepares the equations; the model is
-        immutable afterwards."""
-        self._check(lib.kl_model_finalize(self._handle))
+        immutable afterwards. A study's model is finalized already: for it,
+        as for any finalized model, this does nothing."""
+        handle = self._handle
+        if self._owner is None:
+            self._check(lib.kl_model_finalize(handle))
 
     # ---- reading the model back ----
 

@@ -3,7 +3,8 @@ C structs and callback types as ctypes, and the prototype of every function
 in include/kinloop.h.
 
 Everything the C API offers is reachable here as ``raw.lib.kl_*``; the
-classes in ``kinloop.model`` and ``kinloop.solver`` are built on it.
+classes in ``kinloop.model``, ``kinloop.solver`` and ``kinloop.study`` are
+built on it.
 
 Library lookup, first match wins:
   1. the environment variable KINLOOP_LIBRARY: a path to libkinloop.so
@@ -107,8 +108,14 @@ class kl_solver(ctypes.Structure):
     _fields_ = []
 
 
+class kl_study(ctypes.Structure):
+    """Opaque: only pointers to it exist."""
+    _fields_ = []
+
+
 model_p = ctypes.POINTER(kl_model)
 solver_p = ctypes.POINTER(kl_solver)
+study_p = ctypes.POINTER(kl_study)
 
 #: void *(*kl_alloc_fn)(void *user, void *ptr, size_t old_size, size_t new_size)
 kl_alloc_fn = ctypes.CFUNCTYPE(ctypes.c_void_p, ctypes.c_void_p,
@@ -193,11 +200,26 @@ class kl_dimension(ctypes.Structure):
                 ("axis", ctypes.c_int)]
 
 
+class kl_study_summary(_Sized):
+    _fields_ = [("size", ctypes.c_size_t), ("samples", ctypes.c_long),
+                ("assembled", ctypes.c_long), ("within_limits", ctypes.c_long),
+                ("nominal", ctypes.c_double), ("mean", ctypes.c_double),
+                ("std", ctypes.c_double), ("p01", ctypes.c_double),
+                ("p05", ctypes.c_double), ("p50", ctypes.c_double),
+                ("p95", ctypes.c_double), ("p99", ctypes.c_double),
+                ("min", ctypes.c_double), ("max", ctypes.c_double),
+                ("worst", ctypes.c_double), ("worst_sample", ctypes.c_long),
+                ("first_order_std", ctypes.c_double),
+                ("has_limits", ctypes.c_int), ("lower", ctypes.c_double),
+                ("upper", ctypes.c_double), ("limited", ctypes.c_long)]
+
+
 # ---------------------------------------------------------------------------
 # Prototypes
 # ---------------------------------------------------------------------------
 
 _int, _dbl, _str, _size = ctypes.c_int, ctypes.c_double, ctypes.c_char_p, ctypes.c_size_t
+_long = ctypes.c_long
 _voidp = ctypes.c_void_p
 _dblp, _intp = ctypes.POINTER(ctypes.c_double), ctypes.POINTER(ctypes.c_int)
 _P = ctypes.POINTER
@@ -320,6 +342,19 @@ PROTOTYPES = {
                                      _dblp]),
     "kl_tolerance_stack": (_int, [solver_p, _P(kl_output), _int,
                                   _P(kl_dimension), _dblp, _dblp, _dblp]),
+    # design studies
+    "kl_study_read": (study_p, [_str, _size, _str, _P(kl_io_error)]),
+    "kl_study_read_file": (study_p, [_str, _P(kl_io_error)]),
+    "kl_study_free": (None, [study_p]),
+    "kl_study_sample_count": (_long, [study_p]),
+    "kl_study_output_count": (_int, [study_p]),
+    "kl_study_output_name": (_str, [study_p, _int]),
+    "kl_study_model": (model_p, [study_p]),
+    "kl_study_dimension_count": (_int, [study_p]),
+    "kl_study_dimension_name": (_str, [study_p, _int]),
+    "kl_study_run": (_int, [study_p, _long, _long, _int, _dblp, _intp, _dblp]),
+    "kl_study_summarize": (_int, [study_p, _int, _dblp, _intp, _long,
+                                  _P(kl_study_summary)]),
 }
 
 

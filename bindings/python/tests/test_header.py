@@ -28,7 +28,8 @@ def header_text():
 TEXT = header_text()
 STRUCTS = {name: getattr(raw, name) for name in (
     "kl_io_error", "kl_options", "kl_solve_stats", "kl_sweep_settings",
-    "kl_sweep_result", "kl_range", "kl_output", "kl_load", "kl_dimension")}
+    "kl_sweep_result", "kl_range", "kl_output", "kl_load", "kl_dimension",
+    "kl_study_summary")}
 ENUMS = {  # C enum -> (Python enum, prefix the Python names drop)
     "kl_status": (kl.Status, "KL_"),
     "kl_joint_kind": (kl.JointKind, "KL_"),
@@ -39,6 +40,7 @@ ENUMS = {  # C enum -> (Python enum, prefix the Python names drop)
     "kl_output_kind": (kl.OutputKind, "KL_OUT_"),
     "kl_load_kind": (kl.LoadKind, "KL_LOAD_"),
     "kl_dimension_kind": (kl.DimensionKind, "KL_DIM_"),
+    "kl_sample_status": (kl.SampleStatus, "KL_SAMPLE_"),
 }
 
 
@@ -53,8 +55,8 @@ def ctype_of(declaration):
     pointers = tokens.count("*")
     words = [t for t in tokens if t != "*"]
     base = words[0]  # any further word is the parameter's name
-    basics = {"int": ctypes.c_int, "double": ctypes.c_double, "size_t": ctypes.c_size_t,
-              "void": None}
+    basics = {"int": ctypes.c_int, "long": ctypes.c_long, "double": ctypes.c_double,
+              "size_t": ctypes.c_size_t, "void": None}
     if base in ("kl_alloc_fn", "kl_sweep_fn"):
         return getattr(raw, base)
     if base == "char" and pointers == 1:
@@ -63,8 +65,9 @@ def ctype_of(declaration):
         return ctypes.c_char_p if "const" in declaration else ctypes.c_void_p
     if base == "void":
         return ctypes.c_void_p if pointers == 1 else None
-    if base in ("kl_model", "kl_solver"):
-        handle = raw.model_p if base == "kl_model" else raw.solver_p
+    handles = {"kl_model": raw.model_p, "kl_solver": raw.solver_p, "kl_study": raw.study_p}
+    if base in handles:
+        handle = handles[base]
         return handle if pointers == 1 else ctypes.POINTER(handle)
     target = STRUCTS[base] if base in STRUCTS else basics[base]
     for _ in range(pointers):
