@@ -612,8 +612,11 @@ typedef struct kl_solve_stats {
   double residual;          /**< |F|inf at the final iterate, length units */
   double step;              /**< |dq|inf of the last Newton step */
   double rcond;             /**< reciprocal condition number (1-norm, slide columns scaled to
-                                 lengths) at the final iterate: exact with the small kernel,
-                                 LAPACK's dgecon / dgbcon estimate otherwise; 0 if singular */
+                                 lengths) at the last factored iterate: the solution, or
+                                 the iterate one quadratically converged Newton step (at
+                                 most 1e-5) before it (docs/theory.md 5.3); exact with the
+                                 small kernel, LAPACK's dgecon / dgbcon estimate otherwise;
+                                 0 if singular */
   int kernel;               /**< the enum kl_kernel that factored the system */
 } kl_solve_stats;
 
