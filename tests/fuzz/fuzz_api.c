@@ -3,6 +3,9 @@
  * numbers: the bytes are a program of builder, solver and figure calls with
  * ids in and out of range and numbers that may be NaN, infinite or huge.
  * Nothing may crash, leak or return a status outside the known set.
+ * Each number is read into a variable before the call that takes it: the
+ * order in which a call's arguments are evaluated differs between
+ * compilers, and an input found with clang must replay the same with gcc.
  */
 #include <math.h>
 #include <stdint.h>
@@ -55,8 +58,8 @@ static void build(program *p, kl_model *m) {
   int ops = (int)(byte(p) % 24), k;
   for (k = 0; k < ops && p->pos < p->size; k++) {
     int nl = kl_model_link_count(m), nj = kl_model_joint_count(m);
-    int joints[6], n, i;
-    double ax = number(p), ay = number(p);
+    int joints[6], n, i, a, b;
+    double ax = number(p), ay = number(p), bx, by, angle;
     switch (byte(p) % 11) {
     case 0:
     case 1:
@@ -64,15 +67,27 @@ static void build(program *p, kl_model *m) {
       break;
     case 2:
     case 3:
-      kl_add_revolute(m, id(p, nl), ax, ay, id(p, nl), number(p), number(p));
+      a = id(p, nl);
+      b = id(p, nl);
+      bx = number(p);
+      by = number(p);
+      kl_add_revolute(m, a, ax, ay, b, bx, by);
       break;
     case 4:
-      kl_add_prismatic(m, id(p, nl), ax, ay, number(p), id(p, nl), number(p),
-                       number(p));
+      a = id(p, nl);
+      angle = number(p);
+      b = id(p, nl);
+      bx = number(p);
+      by = number(p);
+      kl_add_prismatic(m, a, ax, ay, angle, b, bx, by);
       break;
     case 5:
-      kl_add_slot_through(m, id(p, nl), ax, ay, number(p), number(p),
-                          id(p, nl), number(p), number(p));
+      a = id(p, nl);
+      bx = number(p);
+      by = number(p);
+      b = id(p, nl);
+      angle = number(p);
+      kl_add_slot_through(m, a, ax, ay, bx, by, b, angle, number(p));
       break;
     case 6:
       kl_add_point(m, id(p, nl), ax, ay, NULL);
@@ -111,6 +126,7 @@ static void solve(program *p, kl_model *m) {
     kl_dimension d;
     kl_load load;
     double v, w;
+    int a;
     for (i = 0; i < ni; i++)
       in[i] = number(p);
     o.kind = (int)(byte(p) % 7);
@@ -118,8 +134,14 @@ static void solve(program *p, kl_model *m) {
     o.line_a = id(p, nj);
     o.line_b = id(p, nj);
     switch (byte(p) % 13) {
-    case 0: check(kl_set_link_angle(s, id(p, nl), number(p))); break;
-    case 1: check(kl_set_joint_slide(s, id(p, nj), number(p))); break;
+    case 0:
+      a = id(p, nl);
+      check(kl_set_link_angle(s, a, number(p)));
+      break;
+    case 1:
+      a = id(p, nj);
+      check(kl_set_joint_slide(s, a, number(p)));
+      break;
     case 2:
     case 3: check(kl_solve_position(s, in)); break;
     case 4: check(kl_solve_velocity(s, in)); break;
@@ -127,13 +149,17 @@ static void solve(program *p, kl_model *m) {
     case 6: check(kl_solve_coefficients(s)); break;
     case 7:
       sw.size = sizeof sw;
-      check(kl_sweep(s, id(p, ni), number(p), number(p),
-                     (int)(byte(p) % 6), NULL, NULL, &sw));
+      a = id(p, ni);
+      v = number(p);
+      w = number(p);
+      check(kl_sweep(s, a, v, w, (int)(byte(p) % 6), NULL, NULL, &sw));
       break;
     case 8:
       r.size = sizeof r;
-      check(kl_output_range(s, id(p, ni), number(p), number(p),
-                            1 + (int)(byte(p) % 4), &o, &r));
+      a = id(p, ni);
+      v = number(p);
+      w = number(p);
+      check(kl_output_range(s, a, v, w, 1 + (int)(byte(p) % 4), &o, &r));
       break;
     case 9:
       check(kl_output_value(s, &o, &v));
