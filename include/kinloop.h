@@ -769,6 +769,8 @@ typedef struct kl_sweep_result {
  *               its location (to 1e-9: closer to a branch crossing the sign
  *               of the determinant that finds it is lost in rounding), not
  *               passed through
+ *  KL_EMAXITER  a step needs more than 10000 sub-steps (a range of a great
+ *               many turns in one step): the steps before it are delivered
  *  and the errors of kl_solve_position for the first step, KL_EID for an
  *  unknown input, KL_ENONFINITE, KL_EINVAL.
  * Afterwards the solver holds the last delivered step (or, if none was, its

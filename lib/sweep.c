@@ -23,6 +23,11 @@
 /* How far past a bracketed stop the sweep looks for an assembly, to tell a
  * limit (none there) from a change point (the motion goes on). */
 #define KLI_LOOK_BEYOND 1e-6
+/* Sub-steps one step may take. A sweep's work stays bounded: a full turn
+ * needs tens, a step spanning a hundred turns a few thousand; a range far
+ * beyond that (1e100 rad) is refused at this count rather than run for
+ * ever. */
+#define KLI_MAX_SUBSTEPS 10000
 /* Internal outcome of a sub-step: the corrector changed branch. */
 #define KLI_BRANCH_JUMP 100
 
@@ -181,10 +186,19 @@ static int sweep(kl_solver *s, int input, double from, double to, int steps,
   for (k = 1; k <= steps && st == KL_OK; k++) {
     /* each target from the range itself, so that no error accumulates */
     double target = k == steps ? to : from + (to - from) * ((double)k / steps);
-    int failures = 0, beyond;
+    int failures = 0, beyond, taken = 0;
     while (s->st.u[input] != target) {
       double cur = s->st.u[input], trial = cur + h;
       int r;
+      if (taken++ == KLI_MAX_SUBSTEPS) {
+        kli_state_restore(s, &s->delivered);
+        st = kli_fail(s->error, KL_EMAXITER,
+                      "sweep: step %d of input %d (to %.12g) takes more than "
+                      "%d sub-steps; sweep it in more, shorter steps",
+                      k, input, target, KLI_MAX_SUBSTEPS);
+        finish(result, st, k, NAN, substeps);
+        return st;
+      }
       if ((h > 0.0 && trial > target) || (h < 0.0 && trial < target))
         trial = target;
       r = substep(s, input, trial, det_sign);

@@ -196,6 +196,55 @@ START_TEST(full_turn_returns_on_the_same_branch) {
 }
 END_TEST
 
+/*
+ * A sweep's work is bounded (the header's contract for kl_sweep): a hundred
+ * turns in one step still arrive, on the starting branch (Freudenstein's
+ * closed form as above); a slide swept over 1e207 length units, a linkage
+ * the API fuzzer built, is refused with KL_EMAXITER after its first step
+ * instead of running for ever, the solver left at that step.
+ */
+static const char far_slide_model[] =
+    "kinloop-model 1\n"
+    "units length unstated angle rad\n"
+    "link n\n"
+    "link -\n"
+    "slot - ground 77.27 15.76 axis 1.5707963267948966 n -3.2e-277 -3.2e-277\n"
+    "revolute - n -3.1e-277 -1.0548162982523977e+144 @2 1.5e-57 -62.62\n"
+    "prismatic - ground 65.05 -2.9e-179 axis -73.73 @2 -67.89 -39.61\n"
+    "input @0\n";
+
+START_TEST(sweep_work_is_bounded) {
+  fourbar f = build_fourbar(40, 120, 80, 100);
+  kl_solver *s = kl_solver_new(f.m);
+  kl_sweep_result r = new_result();
+  kl_io_error err;
+  kl_model *far;
+  double t3, t4;
+  sketch_branch(s, &f, 0.0, 1);
+  ck_assert_msg(kl_sweep(s, 0, 0.0, 200 * PI, 1, NULL, NULL, &r) == KL_OK, "%s",
+                kl_solver_error(s));
+  ck_assert_int_eq(r.steps_done, 2);
+  ck_assert(freudenstein(&f, 200 * PI, 1, &t3, &t4));
+  ck_assert_double_le(fabs(angle_diff(kl_link_angle(s, f.rocker), t4)), ANGLE_TOL);
+  kl_solver_free(s);
+  kl_model_free(f.m);
+
+  err.size = sizeof err;
+  far = kl_model_read(far_slide_model, strlen(far_slide_model), &err);
+  ck_assert_msg(far != NULL, "%s", err.message);
+  s = kl_solver_new(far);
+  ck_assert_int_eq(kl_sweep(s, 0, -73.11, -1.08e207, 2, NULL, NULL, &r),
+                   KL_EMAXITER);
+  ck_assert_int_eq(r.status, KL_EMAXITER);
+  ck_assert_int_eq(r.steps_done, 1);
+  ck_assert_double_eq(kl_input_value(s, 0), -73.11);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "sub-steps"));
+  ck_assert_int_eq(kl_solve_velocity(s, (const double[]){1.0}), KL_OK);
+  kl_solver_free(s);
+  kl_model_free(far);
+}
+END_TEST
+
 /* ------------------------------------------------------------------------
  * 3. The callback reads kinematic coefficients through the getters
  * ------------------------------------------------------------------------ */
@@ -812,6 +861,7 @@ int main(void) {
   tcase_set_timeout(tc, 120);
   tcase_add_test(tc, non_grashof_sweeps_stop_at_both_limits);
   tcase_add_test(tc, full_turn_returns_on_the_same_branch);
+  tcase_add_test(tc, sweep_work_is_bounded);
   tcase_add_test(tc, callback_reads_kinematic_coefficients);
   tcase_add_test(tc, callback_stops_the_sweep);
   tcase_add_test(tc, change_point_is_reported_not_passed);
