@@ -10,8 +10,8 @@ seconds=${1:-60}
 CC=clang cmake -S . -B build-fuzz -DKINLOOP_FUZZ=ON -DKINLOOP_SANITIZE=ON \
   -DKINLOOP_BUILD_BINDINGS=OFF -DKINLOOP_BUILD_EXAMPLES=OFF \
   -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
-cmake --build build-fuzz -j2 --target fuzz_model_read fuzz_api
-for pair in model_read:model api:api; do
+cmake --build build-fuzz -j2 --target fuzz_model_read fuzz_study_read fuzz_api
+for pair in model_read:model study_read:study api:api; do
   target=${pair%%:*}
   corpus=${pair##*:}
   work=build-fuzz/corpus-$corpus

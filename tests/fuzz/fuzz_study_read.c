@@ -1,0 +1,84 @@
+/*
+ * fuzz_study_read.c - fuzz target for the study-file reader: any bytes give
+ * a study or a located error; a study read answers every query about
+ * itself, runs its first samples and summarizes them.
+ *
+ * Models are read from the examples' model directory. Two kinds of input
+ * are passed over, since what they do is no error: a '/' (a model path
+ * outside that directory, such as a device that never ends) and a step or
+ * sample count above KLI_FUZZ_MAX_COUNT (a run that is merely long).
+ */
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "kinloop.h"
+
+#define KLI_FUZZ_MAX_COUNT 2000
+#define KLI_FUZZ_SAMPLES 2
+
+int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
+
+/* Whether a word of the text is followed by a number above the cap. */
+static int counts_too_large(const char *text, size_t size, const char *word) {
+  size_t w = strlen(word), i;
+  for (i = 0; i + w < size; i++) {
+    char digits[32];
+    size_t k = i + w, d = 0;
+    if (memcmp(text + i, word, w) != 0)
+      continue;
+    while (k < size && (text[k] == ' ' || text[k] == '\t'))
+      k++;
+    while (k < size && d + 1 < sizeof digits &&
+           strchr("0123456789.eE+-", text[k]) != NULL)
+      digits[d++] = text[k++];
+    digits[d] = '\0';
+    if (d > 0 && !(strtod(digits, NULL) <= KLI_FUZZ_MAX_COUNT))
+      return 1;
+  }
+  return 0;
+}
+
+int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size) {
+  const char *text = (const char *)data;
+  double values[KLI_FUZZ_SAMPLES * 64], dims[KLI_FUZZ_SAMPLES * 64];
+  int status[KLI_FUZZ_SAMPLES];
+  kl_study_summary summary;
+  kl_io_error err;
+  kl_study *st;
+  long n;
+  int k, outputs, dimensions;
+  if (memchr(data, '/', size) != NULL || counts_too_large(text, size, "steps") ||
+      counts_too_large(text, size, "samples"))
+    return 0;
+  err.size = sizeof err;
+  st = kl_study_read(text, size, KINLOOP_MODEL_DIR, &err);
+  if (st == NULL) {
+    if (err.status >= 0 || err.message[0] == '\0')
+      abort(); /* a failure always says why */
+    return 0;
+  }
+  outputs = kl_study_output_count(st);
+  dimensions = kl_study_dimension_count(st);
+  if (outputs < 1 || dimensions < 0 || kl_study_model(st) == NULL)
+    abort();
+  for (k = 0; k < outputs; k++)
+    if (kl_study_output_name(st, k) == NULL)
+      abort();
+  for (k = 0; k < dimensions; k++)
+    if (kl_study_dimension_name(st, k) == NULL)
+      abort();
+  n = kl_study_sample_count(st);
+  n = n < KLI_FUZZ_SAMPLES ? n : KLI_FUZZ_SAMPLES;
+  /* the cap on the buffers: a study with more columns is only read */
+  if (outputs <= 64 && dimensions <= 64) {
+    if (kl_study_run(st, 0, n, 1, values, status, dims) != KL_OK)
+      abort(); /* a study that reads, runs */
+    summary.size = sizeof summary;
+    for (k = 0; k < outputs; k++)
+      if (kl_study_summarize(st, k, values, status, n, &summary) != KL_OK)
+        abort();
+  }
+  kl_study_free(st);
+  return 0;
+}
