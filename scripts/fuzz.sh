@@ -3,10 +3,20 @@
 # UndefinedBehaviorSanitizer) and runs each for the given seconds (default
 # 60) from the seed corpus. A crash fails the run and leaves its input as
 # build-fuzz/crash-*; copy it to tests/fuzz/regressions/<corpus>-<name> so
-# that every build replays it. Long run: scripts/fuzz.sh 3600
+# that every build replays it. Timeouts (a call that runs for ever) and
+# memory blow-ups count as failures too. Long run: scripts/fuzz.sh 3600
 set -euo pipefail
 cd "$(dirname "$0")/.."
 seconds=${1:-60}
+shopt -s nullglob
+# a failing input of an earlier run is either a regression test by now or
+# still to be looked at: never run over it
+left=(build-fuzz/crash-* build-fuzz/leak-* build-fuzz/timeout-* build-fuzz/oom-*)
+if ((${#left[@]} > 0)); then
+  echo "fuzz: failing inputs of an earlier run remain: ${left[*]}" >&2
+  echo "fuzz: copy each to tests/fuzz/regressions/ (once fixed), then delete it" >&2
+  exit 1
+fi
 CC=clang cmake -S . -B build-fuzz -DKINLOOP_FUZZ=ON -DKINLOOP_SANITIZE=ON \
   -DKINLOOP_BUILD_BINDINGS=OFF -DKINLOOP_BUILD_EXAMPLES=OFF \
   -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
@@ -22,8 +32,9 @@ for pair in model_read:model study_read:study api:api; do
      ./tests/fuzz/fuzz_"$target" -max_total_time="$seconds" -timeout=10 \
      -rss_limit_mb=2048 -print_final_stats=1 "corpus-$corpus" 2>&1 |
      grep -E "^(#[0-9]+.*DONE|Done|stat::number_of_executed_units|==.*ERROR|SUMMARY)" || true)
-  if ls build-fuzz/crash-* build-fuzz/leak-* build-fuzz/timeout-* >/dev/null 2>&1; then
-    echo "fuzz: fuzz_$target found a failing input (build-fuzz/crash-*)" >&2
+  found=(build-fuzz/crash-* build-fuzz/leak-* build-fuzz/timeout-* build-fuzz/oom-*)
+  if ((${#found[@]} > 0)); then
+    echo "fuzz: fuzz_$target found failing inputs: ${found[*]}" >&2
     exit 1
   fi
 done
