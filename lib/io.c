@@ -559,6 +559,32 @@ static void clear_error(kl_io_error *err) {
   }
 }
 
+/* What both readers refuse before reading a statement: no text, too much,
+ * or a NUL byte (located: it is no text file). r->text and r->length are
+ * set, r->line is 1. */
+static int check_text(reader *r, const char *what) {
+  const char *nul;
+  size_t at, i;
+  if (r->text == NULL && r->length > 0)
+    return fail_at(r, KL_EINVAL, 0, "no %s text (NULL) for %lu bytes", what,
+                   (unsigned long)r->length);
+  if (r->length > KLI_MAX_INPUT)
+    return fail_at(r, KL_EINVAL, 0,
+                   "the %s text is %lu bytes; at most %u are read", what,
+                   (unsigned long)r->length, KLI_MAX_INPUT);
+  nul = r->length > 0 ? memchr(r->text, '\0', r->length) : NULL;
+  if (nul == NULL)
+    return KL_OK;
+  at = (size_t)(nul - r->text);
+  for (i = 0; i < at; i++)
+    if (r->text[i] == '\n') {
+      r->line++;
+      r->line_start = i + 1;
+    }
+  return fail_at(r, KL_ESYNTAX, column_of(r, at),
+                 "a NUL byte: this is not a text file");
+}
+
 kl_model *kl_model_read_with_alloc(const char *text, size_t length,
                                    kl_alloc_fn fn, void *user,
                                    kl_io_error *err) {
@@ -570,29 +596,8 @@ kl_model *kl_model_read_with_alloc(const char *text, size_t length,
   r.line = 1;
   r.err = err;
   clear_error(err);
-  if (text == NULL && length > 0) {
-    fail_at(&r, KL_EINVAL, 0, "no text (NULL) for %lu bytes",
-            (unsigned long)length);
+  if (check_text(&r, "model") != KL_OK)
     return NULL;
-  }
-  if (length > KLI_MAX_INPUT) {
-    fail_at(&r, KL_EINVAL, 0, "the model text is %lu bytes; at most %u are "
-                              "read",
-            (unsigned long)length, KLI_MAX_INPUT);
-    return NULL;
-  }
-  if (length > 0 && memchr(text, '\0', length) != NULL) {
-    const char *nul = memchr(text, '\0', length);
-    size_t at = (size_t)(nul - text), i;
-    for (i = 0; i < at; i++)
-      if (text[i] == '\n') {
-        r.line++;
-        r.line_start = i + 1;
-      }
-    fail_at(&r, KL_ESYNTAX, column_of(&r, at),
-            "a NUL byte: this is not a text file");
-    return NULL;
-  }
   r.m = kl_model_new_with_alloc(fn, user);
   if (r.m == NULL) {
     fail_at(&r, KL_ENOMEM, 0, "out of memory");
@@ -713,8 +718,19 @@ typedef struct {
   kl_study *st;
   kli_allocator a;
   const char *base_dir;
-  int seen_samples, seen_seed;
+  /* the lines of the statements a study gives once (0: not yet) */
+  int seed_line, samples_line, sweep_line;
 } study_reader;
+
+/* A statement a study gives at most once: its first line is kept. */
+static int given_once(study_reader *sr, int *line, const char *what) {
+  if (*line != 0)
+    return fail_at(&sr->r, KL_ESYNTAX, 1,
+                   "%s is given already, on line %d: a study gives it once",
+                   what, *line);
+  *line = sr->r.line;
+  return KL_OK;
+}
 
 static int study_needs_model(study_reader *sr, int column) {
   if (sr->st->model == NULL)
@@ -778,12 +794,13 @@ static int read_study_count(study_reader *sr, const char *what, long *out) {
   return expect_end(&sr->r);
 }
 
-/* joint REF a|b x|y, or point REF x|y */
-static int read_dimension(study_reader *sr, kl_dimension *d) {
+/* joint REF a|b x|y, or point REF x|y; its column into *column */
+static int read_dimension(study_reader *sr, kl_dimension *d, int *column) {
   token t;
   int st;
   if ((st = next_token(&sr->r, &t)) != KL_OK)
     return st;
+  *column = t.column;
   if (t.kind == TOKEN_WORD && strcmp(t.text, "joint") == 0) {
     token side;
     if ((st = expect_ref(&sr->r, REF_JOINT, "the joint that moves", &d->id)) !=
@@ -817,6 +834,23 @@ static int read_dimension(study_reader *sr, kl_dimension *d) {
   return KL_OK;
 }
 
+/* The dimension of the vary or grid statement being read, new to the study:
+ * one that varied twice would have only its later value used. */
+static int varied_once(study_reader *sr, kli_vary *v, int column) {
+  const kl_dimension *d = &v->dim;
+  int i;
+  for (i = 0; i < sr->st->nvary; i++) {
+    const kl_dimension *e = &sr->st->vary[i].dim;
+    if (e->kind == d->kind && e->id == d->id && e->axis == d->axis)
+      return fail_at(&sr->r, KL_ESYNTAX, column,
+                     "this dimension varies already, on line %d: a study "
+                     "varies each dimension once",
+                     sr->st->vary[i].line);
+  }
+  v->line = sr->r.line;
+  return KL_OK;
+}
+
 static int push_vary(study_reader *sr, kli_vary **v) {
   if (kli_reserve(&sr->a, (void **)&sr->st->vary, &sr->st->cap_vary,
                   sr->st->nvary + 1, sizeof **v) != KL_OK)
@@ -832,7 +866,8 @@ static int read_vary(study_reader *sr) {
   token how;
   int st, column;
   if ((st = study_needs_model(sr, 1)) != KL_OK || (st = push_vary(sr, &v)) ||
-      (st = read_dimension(sr, &v->dim)) != KL_OK ||
+      (st = read_dimension(sr, &v->dim, &column)) != KL_OK ||
+      (st = varied_once(sr, v, column)) != KL_OK ||
       (st = expect_keyword(&sr->r, "tolerance", "after the dimension")) !=
           KL_OK ||
       (st = expect_number_at(&sr->r, "the tolerance", &v->tolerance,
@@ -860,9 +895,10 @@ static int read_vary(study_reader *sr) {
 /* grid DIMENSION from A to B steps N */
 static int read_grid(study_reader *sr) {
   kli_vary *v;
-  int st;
+  int st, column;
   if ((st = study_needs_model(sr, 1)) != KL_OK || (st = push_vary(sr, &v)) ||
-      (st = read_dimension(sr, &v->dim)) != KL_OK ||
+      (st = read_dimension(sr, &v->dim, &column)) != KL_OK ||
+      (st = varied_once(sr, v, column)) != KL_OK ||
       (st = expect_keyword(&sr->r, "from", "after the dimension")) != KL_OK ||
       (st = expect_number(&sr->r, "the first value", &v->from)) != KL_OK ||
       (st = expect_keyword(&sr->r, "to", "after the first value")) != KL_OK ||
@@ -1029,7 +1065,9 @@ static int read_limit(study_reader *sr) {
                    "no output is named '%.60s'; declare it with 'output' "
                    "first",
                    shown(&name));
-  if ((st = expect_number(&sr->r, "the lower limit", &lower)) != KL_OK ||
+  if ((st = given_once(sr, &sr->st->judge[i].limit_line,
+                       "this output's 'limit'")) != KL_OK ||
+      (st = expect_number(&sr->r, "the lower limit", &lower)) != KL_OK ||
       (st = expect_number_at(&sr->r, "the upper limit", &upper, &column)) !=
           KL_OK ||
       (st = expect_end(&sr->r)) != KL_OK)
@@ -1069,13 +1107,15 @@ static int read_study_statement(study_reader *sr, const token *key) {
   if (key->kind == TOKEN_WORD && strcmp(k, "model") == 0)
     return read_study_model(sr);
   if (key->kind == TOKEN_WORD && strcmp(k, "seed") == 0) {
-    if ((st = read_study_count(sr, "the seed", &n)) != KL_OK)
+    if ((st = given_once(sr, &sr->seed_line, "'seed'")) != KL_OK ||
+        (st = read_study_count(sr, "the seed", &n)) != KL_OK)
       return st;
     sr->st->seed = (unsigned long long)n;
     return KL_OK;
   }
   if (key->kind == TOKEN_WORD && strcmp(k, "samples") == 0) {
-    sr->seen_samples = 1;
+    if ((st = given_once(sr, &sr->samples_line, "'samples'")) != KL_OK)
+      return st;
     return read_study_count(sr, "the number of samples", &sr->st->samples);
   }
   if (key->kind == TOKEN_WORD && strcmp(k, "vary") == 0)
@@ -1090,6 +1130,7 @@ static int read_study_statement(study_reader *sr, const token *key) {
     return read_limit(sr);
   if (key->kind == TOKEN_WORD && strcmp(k, "sweep") == 0) {
     if ((st = study_needs_model(sr, key->column)) != KL_OK ||
+        (st = given_once(sr, &sr->sweep_line, "'sweep'")) != KL_OK ||
         (st = parse_sweep(r, &sw)) != KL_OK)
       return st;
     sr->st->sweep = sw;
@@ -1124,7 +1165,7 @@ static int check_study(study_reader *sr) {
   st->grid = grids > 0;
   if (st->grid) {
     double count = 1.0;
-    if (sr->seen_samples)
+    if (sr->samples_line != 0)
       return fail_at(&sr->r, KL_ESYNTAX, 0,
                      "a grid study has as many samples as grid points: "
                      "leave 'samples' out");
@@ -1134,7 +1175,7 @@ static int check_study(study_reader *sr) {
       return fail_at(&sr->r, KL_ESYNTAX, 0,
                      "the grid has %.3g points; at most 1e9", count);
     st->samples = (long)count;
-  } else if (!sr->seen_samples) {
+  } else if (sr->samples_line == 0) {
     return fail_at(&sr->r, KL_ESYNTAX, 0,
                    "a tolerance study says how many 'samples' to draw");
   }
@@ -1160,14 +1201,8 @@ kl_study *kl_study_read(const char *text, size_t length, const char *base_dir,
   sr.a.fn = kli_default_alloc;
   sr.a.user = NULL;
   clear_error(err);
-  if ((text == NULL && length > 0) || length > KLI_MAX_INPUT ||
-      (length > 0 && memchr(text, '\0', length) != NULL)) {
-    fail_at(&sr.r, KL_EINVAL, 0,
-            "the study text is NULL, longer than %u bytes, or holds a NUL "
-            "byte",
-            KLI_MAX_INPUT);
+  if (check_text(&sr.r, "study") != KL_OK)
     return NULL;
-  }
   sr.st = kli_alloc(&sr.a, sizeof *sr.st);
   if (sr.st == NULL) {
     fail_at(&sr.r, KL_ENOMEM, 0, "out of memory");

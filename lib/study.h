@@ -19,6 +19,7 @@ typedef struct {
   double from, to;   /* grid values: steps + 1 of them from `from` to `to` */
   int steps;
   double nominal;    /* the model's own value */
+  int line;          /* of the study file, to name it in messages */
   char name[96];
 } kli_vary;
 
@@ -40,6 +41,7 @@ typedef struct {
   double at;         /* KLI_JUDGE_AT: the input value, API units */
   double to_file;
   int has_limits;
+  int limit_line;    /* of its 'limit' statement (0: none yet) */
   double lower, upper;
 } kli_judge;
 

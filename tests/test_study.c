@@ -319,6 +319,25 @@ typedef struct {
 
 static const bad_study bad_studies[] = {
     {"model slider.kinloop\n", KL_ESYNTAX, 1, "kinloop-study 1"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "vary joint pin a x tolerance 0.1 normal\n"
+     "vary joint pin a x tolerance 5 normal\n",
+     KL_ESYNTAX, 5, "varies already, on line 4"},
+    {"kinloop-study 1\nmodel slider.kinloop\n"
+     "grid point nose y from 0 to 1 steps 2\n"
+     "grid point nose y from 1 to 2 steps 2\n",
+     KL_ESYNTAX, 4, "varies already, on line 3"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output s swing slide rail\nlimit s 0 1\nlimit s 0 2\n",
+     KL_ESYNTAX, 6, "this output's 'limit' is given already, on line 5"},
+    {"kinloop-study 1\nmodel slider.kinloop\nseed 1\nseed 2\n", KL_ESYNTAX,
+     4, "'seed' is given already, on line 3"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\nsamples 50\n",
+     KL_ESYNTAX, 4, "'samples' is given already"},
+    {"kinloop-study 1\nmodel slider.kinloop\n"
+     "sweep motor from 0 to 360 steps 36\n"
+     "sweep motor from 0 to 180 steps 36\n",
+     KL_ESYNTAX, 4, "'sweep' is given already, on line 3"},
     {"kinloop-study 1\nsamples 5\n", KL_ESYNTAX, 0, "names no model"},
     {"kinloop-study 1\nvary joint pin a x tolerance 1 normal\n", KL_ESYNTAX, 2,
      "'model' must come first"},
@@ -389,6 +408,19 @@ START_TEST(the_demo_study_reads) {
 }
 END_TEST
 
+/* A NUL byte is located as the model reader locates it: no text file. */
+START_TEST(a_nul_byte_is_located) {
+  static const char text[] = "kinloop-study 1\nmodel slider.kinloop\nsam\0ples 5\n";
+  kl_io_error err;
+  err.size = sizeof err;
+  ck_assert_ptr_null(kl_study_read(text, sizeof text - 1, dir, &err));
+  ck_assert_int_eq(err.status, KL_ESYNTAX);
+  ck_assert_int_eq(err.line, 3);
+  ck_assert_int_eq(err.column, 4);
+  ck_assert_ptr_nonnull(strstr(err.message, "NUL"));
+}
+END_TEST
+
 /* The model's path is taken relative to the study's directory, however
  * the study names it; a path too long for the reader is an error, never a
  * cut-down path. */
@@ -450,6 +482,7 @@ int main(void) {
                       (int)(sizeof bad_studies / sizeof bad_studies[0]));
   tcase_add_test(tc, the_demo_study_reads);
   tcase_add_test(tc, the_model_is_found_beside_the_study);
+  tcase_add_test(tc, a_nul_byte_is_located);
   suite_add_tcase(suite, tc);
   runner = srunner_create(suite);
   srunner_run_all(runner, CK_NORMAL);
