@@ -30,6 +30,7 @@ enum cli_command {
   CLI_PLOT,
   CLI_WRITE,
   CLI_DEMO,
+  CLI_STUDY,
   CLI_NCOMMANDS
 };
 
@@ -58,6 +59,9 @@ typedef struct {
   const char *show[CLI_MAX_SHOW];
   int order;
   const char *dir;
+  int threads;        /* study: threads to run on, 0 for every core */
+  const char *csv;    /* study: where to write one row per sample */
+  const char *charts; /* study: the folder for its charts */
 } cli_options;
 
 /* A transmission-angle site: revolute `joint` of loop `loop`, with the lines
@@ -122,6 +126,9 @@ void cli_error(const char *fmt, ...)
 extern const unsigned char cli_demo_text[];
 extern const size_t cli_demo_length;
 extern const char cli_demo_file_name[];
+extern const unsigned char cli_demo_study_text[];
+extern const size_t cli_demo_study_length;
+extern const char cli_demo_study_file_name[];
 /* Loads the file at `path`, or the built-in demo when NULL. Prints why it
  * failed and returns an exit code. */
 int cli_model_load(cli_model *cm, const char *path);
@@ -131,6 +138,9 @@ void cli_model_free(cli_model *cm);
 const char *cli_model_comment(const cli_model *cm, int k, size_t *len);
 FILE *cli_open_output(const char *path);
 int cli_close_output(FILE *f, const char *path);
+/* Makes the folder `dir` unless it is one already (its parent must
+ * exist). Returns an exit code after printing why it failed. */
+int cli_make_dir(const char *dir);
 int cli_cmd_write(const cli_model *cm, const cli_options *o);
 
 /* ---- loops.c: transmission-angle sites and four-bar loops ---- */
@@ -208,6 +218,8 @@ int cli_cmd_solve(const cli_model *cm, const cli_options *o);
 
 /* ---- csv.c ---- */
 int cli_cmd_sweep(const cli_model *cm, const cli_options *o);
+/* A CSV field, quoted when a comma, quote or line break would split it. */
+void cli_csv_field(FILE *f, const char *text);
 
 /* ---- svg.c: shared SVG writing ---- */
 void svg_begin(FILE *f, double width, double height, const char *background);
@@ -216,6 +228,49 @@ void svg_escaped(FILE *f, const char *s);
 const char *svg_colour(int k);
 #define SVG_FONT "DejaVu Sans, Verdana, sans-serif"
 #define SVG_INK "#2f2a24"
+
+/* ---- chart.c: a panel in data coordinates, shared by plots and study
+ * charts ---- */
+#define CHART_WIDTH 760.0
+#define CHART_HEIGHT 470.0
+#define CHART_PAPER "#f7f4ec"
+#define CHART_PANEL "#fffdf8"
+#define CHART_ALARM "#a3312a" /* marks what stops or fails */
+typedef struct {
+  double lo, hi;   /* the data values at the two ends */
+  double from, to; /* where they are drawn, in screen units */
+} chart_axis;
+typedef struct {
+  chart_axis x, y;
+  double xstep, ystep; /* tick spacing, in data units */
+} chart;
+/* Places the panel: sets the screen ends of both axes. */
+void chart_frame(chart *c);
+/* A tick step giving about `want` intervals over `span`: 1, 2 or 5 times a
+ * power of ten, or for degrees of input a divisor of a turn. */
+double chart_tick_step(double span, int want, int degrees);
+/* Makes a range that is empty, or not finite, one that can be drawn. */
+void chart_widen(chart_axis *a);
+/* Widens the range as chart_widen does, rounds it out to whole ticks of
+ * about `want` intervals and returns the tick step. */
+double chart_round_out(chart_axis *a, int want);
+double chart_map(const chart_axis *a, double v);
+/* The document and the clip path "panel" of the panel's area. */
+void chart_begin(FILE *f, const chart *c);
+void chart_title(FILE *f, const chart *c, const char *title,
+                 const char *subtitle);
+void chart_panel(FILE *f, const chart *c);
+/* Grid lines, ticks and tick labels of both axes. */
+void chart_ticks(FILE *f, const chart *c);
+/* A dashed line across the panel at x = v, labelled at its left (or
+ * right) in text row `row` from the top (0, 1, ...). */
+void chart_mark_x(FILE *f, const chart *c, double v, const char *colour,
+                  const char *label, int label_right, int row);
+/* A dashed line across the panel at y = v, labelled above its right end. */
+void chart_mark_y(FILE *f, const chart *c, double v, const char *colour,
+                  const char *label);
+void chart_axis_titles(FILE *f, const chart *c, const char *x_title,
+                       const char *y_title);
 
 /* ---- draw.c ---- */
 int cli_cmd_draw(const cli_model *cm, const cli_options *o);
@@ -227,5 +282,27 @@ void cli_list_outputs(FILE *f, const cli_model *cm);
 
 /* ---- demo.c ---- */
 int cli_cmd_demo(const cli_model *cm, const cli_options *o);
+
+/* ---- study.c: the study command, which reads a study, not a model ---- */
+int cli_cmd_study(const cli_options *o);
+
+/* ---- study_charts.c ---- */
+/* The samples of a study run, in sample order. */
+typedef struct {
+  const kl_study *st;
+  const char *label;    /* the study file's name, for titles */
+  long n;
+  const double *values; /* n x outputs */
+  const int *status;    /* n */
+  const double *dims;   /* n x dimensions */
+} cli_study_samples;
+/* Whether sample i has a value of output k: it assembled, and (if its
+ * motion stopped) reached where the output is taken. */
+int cli_study_has_value(const cli_study_samples *s, long i, int k);
+/* Writes into `dir` a histogram of every output and its scatter plots
+ * against the two dimensions that correlate with it most, counting the
+ * files in *histograms and *scatters. Returns an exit code. */
+int cli_study_charts(const cli_study_samples *s, const char *dir,
+                     int *histograms, int *scatters);
 
 #endif

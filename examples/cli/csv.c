@@ -14,8 +14,7 @@ typedef struct {
   const char *format;
 } csv_sink;
 
-/* A CSV field, quoted when a comma, quote or line break would split it. */
-static void put_field(FILE *f, const char *text) {
+void cli_csv_field(FILE *f, const char *text) {
   const char *c;
   if (strpbrk(text, ",\"\r\n") == NULL) {
     fputs(text, f);
@@ -85,7 +84,7 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
     snprintf(name, sizeof name, "%s (%s)", cols[i].name, unit);
     if (i > 0)
       fputc(',', sink.f);
-    put_field(sink.f, name);
+    cli_csv_field(sink.f, name);
   }
   fputc('\n', sink.f);
   sink.factor = factor;

@@ -2,12 +2,8 @@
  * demo.c - the built-in demo, what kinloop does with no arguments: a
  * summary of the flap-tucking station and its files in one folder.
  */
-#define _POSIX_C_SOURCE 200809L /* mkdir, stat */
-#include <errno.h>
 #include <math.h>
 #include <string.h>
-#include <sys/stat.h>
-#include <sys/types.h>
 
 #include "cli.h"
 
@@ -82,18 +78,6 @@ static int worst_torque(const cli_model *cm, double *worst, double *at) {
   return st;
 }
 
-static int make_dir(const char *dir) {
-  struct stat info;
-  if (mkdir(dir, 0777) == 0)
-    return CLI_EXIT_OK;
-  if (errno == EEXIST && stat(dir, &info) == 0 && S_ISDIR(info.st_mode))
-    return CLI_EXIT_OK;
-  cli_error("cannot make the folder '%s': %s", dir,
-            errno == EEXIST ? "a file of that name is in the way"
-                            : strerror(errno));
-  return CLI_EXIT_OUTPUT;
-}
-
 static int write_model_text(const cli_model *cm, const char *path) {
   FILE *f = cli_open_output(path);
   if (f == NULL)
@@ -151,7 +135,7 @@ int cli_cmd_demo(const cli_model *cm, const cli_options *o) {
          "by virtual work, 1 deg steps)\n",
          worst, at * 180 / CLI_PI);
   fflush(stdout);
-  if ((st = make_dir(dir)) != CLI_EXIT_OK)
+  if ((st = cli_make_dir(dir)) != CLI_EXIT_OK)
     return st;
   for (k = 0; k < NFILES; k++) {
     cli_options fo;

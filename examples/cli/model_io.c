@@ -1,11 +1,15 @@
 /*
  * model_io.c - model text in and out for the kinloop tool: reading a model
- * file or the embedded demo, naming its items, and opening output files.
+ * file or the embedded demo, naming its items, opening output files and
+ * making output folders.
  */
+#define _POSIX_C_SOURCE 200809L /* mkdir, stat */
 #include <errno.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
+#include <sys/types.h>
 
 #include "cli.h"
 
@@ -221,6 +225,18 @@ int cli_close_output(FILE *f, const char *path) {
     return CLI_EXIT_OUTPUT;
   }
   return CLI_EXIT_OK;
+}
+
+int cli_make_dir(const char *dir) {
+  struct stat info;
+  if (mkdir(dir, 0777) == 0)
+    return CLI_EXIT_OK;
+  if (errno == EEXIST && stat(dir, &info) == 0 && S_ISDIR(info.st_mode))
+    return CLI_EXIT_OK;
+  cli_error("cannot make the folder '%s': %s", dir,
+            errno == EEXIST ? "a file of that name is in the way"
+                            : strerror(errno));
+  return CLI_EXIT_OUTPUT;
 }
 
 int cli_cmd_write(const cli_model *cm, const cli_options *o) {

@@ -8,15 +8,6 @@
 
 #include "cli.h"
 
-#define WIDTH 760.0
-#define HEIGHT 470.0
-#define LEFT 84.0
-#define RIGHT 26.0
-#define TOP 62.0
-#define BOTTOM 60.0
-#define PAPER "#f7f4ec"
-#define PANEL "#fffdf8"
-#define GRID "#e4dccd"
 #define USUAL_LOW_DEG 40.0  /* transmission angle rule of thumb      */
 #define USUAL_HIGH_DEG 140.0 /* (common practice, no source)          */
 
@@ -158,61 +149,25 @@ static int sample_row(void *user, int step, const double *row) {
   return 0;
 }
 
-/* A tick step giving about `want` intervals over `span`: 1, 2 or 5 times a
- * power of ten, or for degrees of input a divisor of a turn. */
-static double tick_step(double span, int want, int degrees) {
-  static const double turn[] = {15, 30, 45, 90, 180};
-  double raw = span / want, p = pow(10, floor(log10(raw)));
-  int i;
-  if (degrees && span >= 60)
-    for (i = 0; i < 5; i++)
-      if (span / turn[i] <= want + 2)
-        return turn[i];
-  if (raw <= p)
-    return p;
-  if (raw <= 2 * p)
-    return 2 * p;
-  if (raw <= 5 * p)
-    return 5 * p;
-  return 10 * p;
-}
-
-typedef struct {
-  double lo, hi; /* data range */
-  double x0, x1, y0, y1; /* screen */
-} axis;
-
-static double map(const axis *a, double v) {
-  return a->x0 + (v - a->lo) / (a->hi - a->lo) * (a->x1 - a->x0);
-}
-
-static void write_tick_label(FILE *f, double v, double step) {
-  /* as many decimals as the step needs, and no "-0" */
-  int decimals = step >= 1 ? 0 : (int)ceil(-log10(step) - 1e-9);
-  if (fabs(v) < 1e-9 * step)
-    v = 0.0;
-  fprintf(f, "%.*f", decimals > 10 ? 10 : decimals, v);
-}
-
 static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
                        const series *s, int ns, const samples *d,
                        const char *yunit, const kl_sweep_result *res,
                        int order) {
-  axis ax, ay;
-  double xstep, ystep, v, band_lo = 0, band_hi = 0;
+  chart c;
+  char text[600];
+  double band_lo = 0, band_hi = 0;
   int k, i, band = 0, all_sites = 1, degrees = cli_input_is_angle(cm, r->input) &&
                                 strcmp(cm->angle_unit, "deg") == 0;
   double xf = cli_input_factor(cm, r->input);
-  ax.lo = fmin(r->from, r->to) * xf;
-  ax.hi = fmax(r->from, r->to) * xf;
-  ax.x0 = LEFT;
-  ax.x1 = WIDTH - RIGHT;
-  ay.lo = INFINITY;
-  ay.hi = -INFINITY;
+  chart_frame(&c);
+  c.x.lo = fmin(r->from, r->to) * xf;
+  c.x.hi = fmax(r->from, r->to) * xf;
+  c.y.lo = INFINITY;
+  c.y.hi = -INFINITY;
   for (i = 0; i < d->n * ns; i++)
     if (isfinite(d->y[i])) {
-      ay.lo = fmin(ay.lo, d->y[i]);
-      ay.hi = fmax(ay.hi, d->y[i]);
+      c.y.lo = fmin(c.y.lo, d->y[i]);
+      c.y.hi = fmax(c.y.hi, d->y[i]);
     }
   for (k = 0; k < ns; k++) {
     band |= s[k].transmission;
@@ -221,42 +176,22 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
   if (band) {
     band_lo = USUAL_LOW_DEG * CLI_PI / 180 * cm->angle_factor;
     band_hi = USUAL_HIGH_DEG * CLI_PI / 180 * cm->angle_factor;
-    ay.lo = fmin(ay.lo, band_lo);
-    ay.hi = fmax(ay.hi, band_hi);
+    c.y.lo = fmin(c.y.lo, band_lo);
+    c.y.hi = fmax(c.y.hi, band_hi);
   }
-  if (!isfinite(ay.lo)) {
-    ay.lo = -1;
-    ay.hi = 1;
-  }
-  if (ay.hi - ay.lo <= 1e-12 * fmax(1.0, fabs(ay.hi))) {
-    double pad = fmax(1.0, fabs(ay.hi)) * 0.1;
-    ay.lo -= pad;
-    ay.hi += pad;
-  }
-  ystep = tick_step(ay.hi - ay.lo, 6, 0);
-  ay.lo = floor(ay.lo / ystep + 1e-9) * ystep;
-  ay.hi = ceil(ay.hi / ystep - 1e-9) * ystep;
-  ay.x0 = HEIGHT - BOTTOM; /* screen y runs down: lo at the bottom */
-  ay.x1 = TOP;
-  xstep = tick_step(ax.hi - ax.lo, 8, degrees);
+  c.ystep = chart_round_out(&c.y, 6);
+  c.xstep = chart_tick_step(c.x.hi - c.x.lo, 8, degrees);
 
-  svg_begin(f, WIDTH, HEIGHT, PAPER);
-  fprintf(f, "<defs><clipPath id=\"panel\"><rect x=\"%g\" y=\"%g\" "
-             "width=\"%g\" height=\"%g\"/></clipPath></defs>\n",
-          LEFT, TOP, WIDTH - LEFT - RIGHT, HEIGHT - TOP - BOTTOM);
-  fprintf(f, "<text x=\"%g\" y=\"24\" font-size=\"16\" font-weight=\"bold\" "
-             "fill=\"%s\">",
-          LEFT, SVG_INK);
-  svg_escaped(f, cm->label);
-  fprintf(f, "<tspan dx=\"12\" font-size=\"12\" font-weight=\"normal\" "
-             "fill=\"#6a6256\">%s, %d steps</tspan></text>\n",
-          order == 0   ? "against the input"
-          : order == 1 ? "first-order kinematic coefficient"
-                       : "second-order kinematic coefficient",
-          r->steps);
+  chart_begin(f, &c);
+  snprintf(text, sizeof text, "%s, %d steps",
+           order == 0   ? "against the input"
+           : order == 1 ? "first-order kinematic coefficient"
+                        : "second-order kinematic coefficient",
+           r->steps);
+  chart_title(f, &c, cm->label, text);
   /* the key, on one line above the panel */
   {
-    double x = LEFT;
+    double x = c.x.from;
     for (k = 0; k < ns; k++) {
       fprintf(f,
               "<line x1=\"%.2f\" y1=\"43\" x2=\"%.2f\" y2=\"43\" stroke=\"%s\" "
@@ -268,50 +203,18 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
       x += 40 + 6.6 * (double)strlen(s[k].label);
     }
   }
-  fprintf(f, "<rect x=\"%g\" y=\"%g\" width=\"%g\" height=\"%g\" fill=\"%s\" "
-             "stroke=\"%s\" stroke-width=\"1\"/>\n",
-          LEFT, TOP, WIDTH - LEFT - RIGHT, HEIGHT - TOP - BOTTOM, PANEL, GRID);
+  chart_panel(f, &c);
   if (band) {
-    double y1 = map(&ay, band_hi), y0 = map(&ay, band_lo);
+    double y1 = chart_map(&c.y, band_hi), y0 = chart_map(&c.y, band_lo);
     fprintf(f,
             "<rect class=\"usual-range\" x=\"%g\" y=\"%.2f\" width=\"%g\" "
             "height=\"%.2f\" fill=\"#cfe3c4\" fill-opacity=\"0.6\"/>\n"
             "<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" fill=\"#4d7040\">"
             "usual range %g-%g deg</text>\n",
-            LEFT, y1, WIDTH - LEFT - RIGHT, y0 - y1, LEFT + 6, y1 + 14,
+            c.x.from, y1, c.x.to - c.x.from, y0 - y1, c.x.from + 6, y1 + 14,
             USUAL_LOW_DEG, USUAL_HIGH_DEG);
   }
-  /* grid, ticks and their labels */
-  for (v = ceil(ax.lo / xstep - 1e-9) * xstep; v <= ax.hi + 1e-9 * xstep;
-       v += xstep) {
-    double x = map(&ax, v);
-    fprintf(f, "<line x1=\"%.2f\" y1=\"%g\" x2=\"%.2f\" y2=\"%g\" "
-               "stroke=\"%s\"/>\n",
-            x, TOP, x, HEIGHT - BOTTOM, GRID);
-    fprintf(f, "<line x1=\"%.2f\" y1=\"%g\" x2=\"%.2f\" y2=\"%g\" "
-               "stroke=\"%s\"/>\n",
-            x, HEIGHT - BOTTOM, x, HEIGHT - BOTTOM + 5, SVG_INK);
-    fprintf(f, "<text x=\"%.2f\" y=\"%g\" font-size=\"11\" "
-               "text-anchor=\"middle\" fill=\"%s\">",
-            x, HEIGHT - BOTTOM + 18, SVG_INK);
-    write_tick_label(f, v, xstep);
-    fprintf(f, "</text>\n");
-  }
-  for (v = ay.lo; v <= ay.hi + 1e-9 * ystep; v += ystep) {
-    double y = map(&ay, v);
-    int zero = fabs(v) < 1e-9 * ystep;
-    fprintf(f, "<line x1=\"%g\" y1=\"%.2f\" x2=\"%g\" y2=\"%.2f\" "
-               "stroke=\"%s\"/>\n",
-            LEFT, y, WIDTH - RIGHT, y, zero ? "#b7ab97" : GRID);
-    fprintf(f, "<line x1=\"%g\" y1=\"%.2f\" x2=\"%g\" y2=\"%.2f\" "
-               "stroke=\"%s\"/>\n",
-            LEFT - 5, y, LEFT, y, SVG_INK);
-    fprintf(f, "<text x=\"%g\" y=\"%.2f\" font-size=\"11\" "
-               "text-anchor=\"end\" fill=\"%s\">",
-            LEFT - 8, y + 4, SVG_INK);
-    write_tick_label(f, v, ystep);
-    fprintf(f, "</text>\n");
-  }
+  chart_ticks(f, &c);
   /* the curves */
   for (k = 0; k < ns; k++) {
     int open = 0;
@@ -329,7 +232,7 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
       if (!open)
         fprintf(f, "<polyline points=\"");
       open = 1;
-      fprintf(f, "%.2f,%.2f ", map(&ax, d->x[i]), map(&ay, y));
+      fprintf(f, "%.2f,%.2f ", chart_map(&c.x, d->x[i]), chart_map(&c.y, y));
     }
     if (open)
       fprintf(f, "\"/>\n");
@@ -337,34 +240,23 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
   }
   if ((res->status == KL_LIMIT || res->status == KL_ESINGULAR) &&
       isfinite(res->limit_input)) {
-    double x = map(&ax, res->limit_input * xf);
-    fprintf(f,
-            "<line x1=\"%.2f\" y1=\"%g\" x2=\"%.2f\" y2=\"%g\" stroke=\"#a3312a\" "
-            "stroke-width=\"1.5\" stroke-dasharray=\"5,4\"/>\n<text x=\"%.2f\" "
-            "y=\"%g\" font-size=\"11\" fill=\"#a3312a\" text-anchor=\"end\">%s "
-            "at %.6g</text>\n",
-            x, TOP, x, HEIGHT - BOTTOM, x - 4, TOP + 14,
-            res->status == KL_LIMIT ? "motion stops" : "singular position",
-            res->limit_input * xf);
+    snprintf(text, sizeof text, "%s at %.6g",
+             res->status == KL_LIMIT ? "motion stops" : "singular position",
+             res->limit_input * xf);
+    chart_mark_x(f, &c, res->limit_input * xf, CHART_ALARM, text, 0, 0);
   }
-  /* axis titles */
-  fprintf(f, "<text x=\"%.2f\" y=\"%g\" font-size=\"13\" "
-             "text-anchor=\"middle\" fill=\"%s\">",
-          0.5 * (LEFT + WIDTH - RIGHT), HEIGHT - 16, SVG_INK);
-  svg_escaped(f, cli_input_name(cm, r->input));
-  fprintf(f, " (%s)</text>\n", cli_input_unit(cm, r->input));
-  fprintf(f, "<text transform=\"translate(20 %.2f) rotate(-90)\" "
-             "font-size=\"13\" text-anchor=\"middle\" fill=\"%s\">",
-          0.5 * (TOP + HEIGHT - BOTTOM), SVG_INK);
-  if (ns == 1)
-    svg_escaped(f, s[0].label);
-  else if (all_sites)
-    fprintf(f, "transmission angle");
-  else
-    fprintf(f, "%s", order == 0 ? "value" : "coefficient");
-  fprintf(f, " (");
-  svg_escaped(f, yunit);
-  fprintf(f, ")</text>\n");
+  {
+    char y_title[600];
+    snprintf(text, sizeof text, "%s (%s)", cli_input_name(cm, r->input),
+             cli_input_unit(cm, r->input));
+    snprintf(y_title, sizeof y_title, "%s (%s)",
+             ns == 1      ? s[0].label
+             : all_sites  ? "transmission angle"
+             : order == 0 ? "value"
+                          : "coefficient",
+             yunit);
+    chart_axis_titles(f, &c, text, y_title);
+  }
   svg_end(f);
 }
 

@@ -39,41 +39,6 @@ typedef struct {
   double *rows; /* nwanted rows of expected CSV values */
 } reference;
 
-static int split(char *line, char **fields, int cap) {
-  int n = 0;
-  char *p = line;
-  while (n < cap) {
-    char *out;
-    fields[n++] = p;
-    if (*p == '"') { /* quoted: "" stands for a quote */
-      out = p;
-      for (p++; *p != '\0'; p++) {
-        if (*p == '"' && p[1] == '"')
-          p++;
-        else if (*p == '"')
-          break;
-        *out++ = *p;
-      }
-      if (*p == '"')
-        p++;
-      *out = '\0';
-      if (*p == ',')
-        p++;
-      else
-        break;
-      continue;
-    }
-    while (*p != ',' && *p != '\0' && *p != '\n' && *p != '\r')
-      p++;
-    if (*p != ',') {
-      *p = '\0';
-      break;
-    }
-    *p++ = '\0';
-  }
-  return n;
-}
-
 static void expect_name(char **fields, int nfields, int *col,
                         const char *name, const char *unit) {
   char want[700];
@@ -268,7 +233,7 @@ int main(int argc, char **argv) {
     return 1;
   }
   *next = '\0';
-  nfields = split(line, header, MAX_COLS);
+  nfields = check_split_csv(line, header, MAX_COLS);
   expect_name(header, nfields, &col, name,
               kl_joint_kind(m, kl_input_joint(m, sw.input)) == KL_REVOLUTE
                   ? unit_a
@@ -346,7 +311,7 @@ int main(int argc, char **argv) {
       break;
     }
     *next = '\0';
-    n = split(line, fields, MAX_COLS);
+    n = check_split_csv(line, fields, MAX_COLS);
     if (n != cols)
       check_fail("row %d has %d fields, expected %d", nrows + 2, n, cols);
     if (nrows <= steps)

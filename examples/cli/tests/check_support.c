@@ -110,3 +110,38 @@ void check_joint_xy(const kl_solver *s, const kl_model *m, int joint,
   xy[0] = origin[0] + cos(t) * b[0] - sin(t) * b[1];
   xy[1] = origin[1] + sin(t) * b[0] + cos(t) * b[1];
 }
+
+int check_split_csv(char *line, char **fields, int cap) {
+  int n = 0;
+  char *p = line;
+  while (n < cap) {
+    char *out;
+    fields[n++] = p;
+    if (*p == '"') { /* quoted: "" stands for a quote */
+      out = p;
+      for (p++; *p != '\0'; p++) {
+        if (*p == '"' && p[1] == '"')
+          p++;
+        else if (*p == '"')
+          break;
+        *out++ = *p;
+      }
+      if (*p == '"')
+        p++;
+      *out = '\0';
+      if (*p == ',')
+        p++;
+      else
+        break;
+      continue;
+    }
+    while (*p != ',' && *p != '\0' && *p != '\n' && *p != '\r')
+      p++;
+    if (*p != ',') {
+      *p = '\0';
+      break;
+    }
+    *p++ = '\0';
+  }
+  return n;
+}

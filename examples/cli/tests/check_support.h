@@ -36,4 +36,8 @@ int check_reach(kl_solver *s, const kl_model *m, const double *target);
 void check_joint_xy(const kl_solver *s, const kl_model *m, int joint,
                     double xy[2]);
 
+/* Splits one CSV line in place into at most `cap` fields (a quoted field
+ * unquoted, "" read as a quote) and returns how many it has. */
+int check_split_csv(char *line, char **fields, int cap);
+
 #endif

@@ -1,0 +1,225 @@
+/*
+ * study.c - the study command: reads a design study (or the built-in demo
+ * study), runs its samples on threads, prints the summary, writes the CSV.
+ */
+#define _POSIX_C_SOURCE 200809L /* mkdtemp, clock_gettime, isatty */
+#include <errno.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+#include <unistd.h>
+
+#include "cli.h"
+#include "study_report.h"
+
+#define SAMPLES_PER_THREAD 64  /* a chunk between progress reports */
+#define PROGRESS_AFTER_S 1.0   /* quicker studies finish before it helps */
+#define DEMO_LABEL "flap-tucker.study (built in)"
+
+static double seconds_now(void) {
+  struct timespec t;
+  clock_gettime(CLOCK_MONOTONIC, &t);
+  return (double)t.tv_sec + 1e-9 * (double)t.tv_nsec;
+}
+
+/* Writes `length` bytes into a new file at `path`: 0, or -1 after saying
+ * why. */
+static int write_text(const char *path, const unsigned char *text,
+                      size_t length) {
+  FILE *f = fopen(path, "wb");
+  if (f == NULL) {
+    cli_error("cannot write '%s': %s", path, strerror(errno));
+    return -1;
+  }
+  fwrite(text, 1, length, f);
+  return cli_close_output(f, path) == CLI_EXIT_OK ? 0 : -1;
+}
+
+/* The built-in demo study. Its `model` line names the demo model by file
+ * name, and the library reads a study's model from a folder, so both texts
+ * go into a fresh temporary folder for as long as the reading takes. */
+static kl_study *read_demo(int *exit_code) {
+  const char *tmp = getenv("TMPDIR");
+  char dir[4096], model_path[4200];
+  kl_io_error err;
+  kl_study *st = NULL;
+  if (tmp == NULL || tmp[0] == '\0')
+    tmp = "/tmp";
+  if ((size_t)snprintf(dir, sizeof dir, "%s/kinloop-study.XXXXXX", tmp) >=
+      sizeof dir) {
+    cli_error("the temporary folder name '%s' is too long", tmp);
+    *exit_code = CLI_EXIT_OUTPUT;
+    return NULL;
+  }
+  if (mkdtemp(dir) == NULL) {
+    cli_error("cannot make a temporary folder in '%s' for the demo study: %s",
+              tmp, strerror(errno));
+    *exit_code = CLI_EXIT_OUTPUT;
+    return NULL;
+  }
+  snprintf(model_path, sizeof model_path, "%s/%s", dir, cli_demo_file_name);
+  if (write_text(model_path, cli_demo_text, cli_demo_length) != 0) {
+    *exit_code = CLI_EXIT_OUTPUT;
+  } else {
+    err.size = sizeof err;
+    st = kl_study_read((const char *)cli_demo_study_text,
+                       cli_demo_study_length, dir, &err);
+    if (st == NULL)
+      *exit_code = study_read_failed("kinloop", DEMO_LABEL, &err);
+  }
+  remove(model_path);
+  rmdir(dir);
+  return st;
+}
+
+static kl_study *read_study(const char *path, int *exit_code) {
+  kl_io_error err;
+  kl_study *st;
+  if (path == NULL)
+    return read_demo(exit_code);
+  err.size = sizeof err;
+  st = kl_study_read_file(path, &err);
+  if (st == NULL)
+    *exit_code = study_read_failed("kinloop", path, &err);
+  return st;
+}
+
+/* Runs every sample in chunks, showing the progress on a terminal once the
+ * study has taken a while. Returns the wall time in *seconds and a KL
+ * status. */
+static int run_all(const kl_study *st, int threads, double *values,
+                   int *status, double *dims, double *seconds) {
+  long n = kl_study_sample_count(st), done = 0;
+  long chunk = (long)SAMPLES_PER_THREAD * threads;
+  int nout = kl_study_output_count(st), ndim = kl_study_dimension_count(st);
+  int terminal = isatty(fileno(stderr)), shown = 0, result = KL_OK;
+  double start = seconds_now();
+  while (done < n && result == KL_OK) {
+    long count = n - done < chunk ? n - done : chunk;
+    result = kl_study_run(st, done, count, threads, values + done * nout,
+                          status + done,
+                          dims == NULL ? NULL : dims + done * ndim);
+    done += count;
+    if (terminal && seconds_now() - start >= PROGRESS_AFTER_S)
+      shown = fprintf(stderr, "\rkinloop: study, %ld of %ld samples (%3.0f%%)",
+                      done, n, 100.0 * (double)done / (double)n);
+  }
+  *seconds = seconds_now() - start;
+  if (shown > 0) /* the line's width, blanked */
+    fprintf(stderr, "\r%*s\r", shown, "");
+  return result;
+}
+
+/* The CSV of every sample: index, status, dimensions, outputs; an output
+ * empty where the sample has no value of it. */
+static int write_csv(const cli_study_samples *s, const char *path) {
+  const kl_model *m = kl_study_model(s->st);
+  int nout = kl_study_output_count(s->st);
+  int ndim = kl_study_dimension_count(s->st), k, length_unit;
+  FILE *f = cli_open_output(path);
+  long i;
+  if (f == NULL)
+    return CLI_EXIT_OUTPUT;
+  kl_model_units(m, &length_unit, NULL);
+  fputs("sample,status", f);
+  for (k = 0; k < ndim; k++) {
+    char name[160];
+    snprintf(name, sizeof name, "%s (%s)", kl_study_dimension_name(s->st, k),
+             length_unit == KL_LENGTH_UNSTATED
+                 ? "len"
+                 : kl_length_unit_str(length_unit));
+    fputc(',', f);
+    cli_csv_field(f, name);
+  }
+  for (k = 0; k < nout; k++) {
+    fputc(',', f);
+    cli_csv_field(f, kl_study_output_name(s->st, k));
+  }
+  fputc('\n', f);
+  for (i = 0; i < s->n && !ferror(f); i++) {
+    fprintf(f, "%ld,%s", i,
+            s->status[i] == KL_SAMPLE_OK       ? "ok"
+            : s->status[i] == KL_SAMPLE_LIMITED ? "stopped"
+                                                : "no assembly");
+    for (k = 0; k < ndim; k++)
+      fprintf(f, ",%.17g", s->dims[i * ndim + k]);
+    for (k = 0; k < nout; k++)
+      if (cli_study_has_value(s, i, k))
+        fprintf(f, ",%.17g", s->values[i * nout + k]);
+      else
+        fputc(',', f);
+    fputc('\n', f);
+  }
+  return cli_close_output(f, path);
+}
+
+int cli_cmd_study(const cli_options *o) {
+  int exit_code = CLI_EXIT_OK, threads = study_threads(o->threads), nout, ndim;
+  int want_dims = o->csv != NULL || o->charts != NULL, histograms, scatters;
+  kl_study *st = read_study(o->model_path, &exit_code);
+  const char *label = o->model_path != NULL ? o->model_path : DEMO_LABEL;
+  double *values = NULL, *dims = NULL, seconds;
+  int *status = NULL;
+  long n;
+  size_t widest;
+  FILE *f;
+  cli_study_samples s;
+  if (st == NULL)
+    return exit_code;
+  n = kl_study_sample_count(st);
+  nout = kl_study_output_count(st);
+  ndim = kl_study_dimension_count(st);
+  widest = (size_t)(nout > ndim ? nout : ndim);
+  if ((unsigned long)n > SIZE_MAX / sizeof(double) / widest) {
+    cli_error("%s has %ld samples, too many to hold in memory", label, n);
+    exit_code = CLI_EXIT_MEMORY;
+    goto done;
+  }
+  values = malloc((size_t)(n > 0 ? n : 1) * (size_t)nout * sizeof *values);
+  status = malloc((size_t)(n > 0 ? n : 1) * sizeof *status);
+  if (want_dims)
+    dims = malloc((size_t)(n > 0 ? n : 1) * widest * sizeof *dims);
+  if (values == NULL || status == NULL || (want_dims && dims == NULL) ||
+      run_all(st, threads, values, status, dims, &seconds) != KL_OK) {
+    cli_error("out of memory running %ld samples of %s", n, label);
+    exit_code = CLI_EXIT_MEMORY;
+    goto done;
+  }
+  if ((f = cli_open_output(o->output)) == NULL) {
+    exit_code = CLI_EXIT_OUTPUT;
+    goto done;
+  }
+  if (study_report_print(f, st, label, values, status, n) != KL_OK) {
+    cli_error("out of memory summarizing %s", label);
+    cli_close_output(f, o->output);
+    exit_code = CLI_EXIT_MEMORY;
+    goto done;
+  }
+  s.st = st;
+  s.label = label;
+  s.n = n;
+  s.values = values;
+  s.status = status;
+  s.dims = dims;
+  if (o->csv != NULL && (exit_code = write_csv(&s, o->csv)) == CLI_EXIT_OK)
+    fprintf(f, "samples written to %s, one row each\n", o->csv);
+  if (exit_code == CLI_EXIT_OK && o->charts != NULL &&
+      (exit_code = cli_study_charts(&s, o->charts, &histograms, &scatters)) ==
+          CLI_EXIT_OK)
+    fprintf(f, "charts written in %s/: %d histogram%s, %d scatter plot%s\n",
+            o->charts, histograms, histograms == 1 ? "" : "s", scatters,
+            scatters == 1 ? "" : "s");
+  study_report_throughput(f, n, seconds, 1, threads);
+  {
+    int closed = cli_close_output(f, o->output);
+    if (exit_code == CLI_EXIT_OK)
+      exit_code = closed;
+  }
+done:
+  free(values);
+  free(status);
+  free(dims);
+  kl_study_free(st);
+  return exit_code;
+}
