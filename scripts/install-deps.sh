@@ -9,6 +9,7 @@ packages=(
   python3-numpy python3-scipy python3-sympy python3-pytest  # Python bindings and their tests
   octave liboctave-dev               # Octave bindings (mkoctfile) and their tests
   libxml2-utils librsvg2-bin         # checking the SVG pictures (xmllint, rsvg-convert)
+  libopenmpi-dev openmpi-bin         # kinloop-study-mpi and its tests
   lcov                               # line coverage of lib/
   doxygen                            # the API reference
 )
