@@ -76,21 +76,7 @@ expect_text err.txt "cannot read the model file 'no-such-file.kinloop'"
 # ground 100, crank 80, coupler 30, rocker 90); by the law of cosines its
 # crank reaches from acos(0.8) = 36.87 deg (coupler folded on the rocker)
 # to acos(0.125) = 82.82 deg (stretched along it).
-cat >rocker2.kinloop <<'MODEL'
-kinloop-model 1
-units length mm angle deg
-link crank
-link coupler
-link rocker
-revolute motor ground 0 0 crank 0 0
-revolute crank_pin crank 80 0 coupler 0 0
-revolute rocker_pin coupler 30 0 rocker 90 0
-revolute pivot rocker 0 0 ground 100 0
-input motor
-sketch angle coupler 0
-sketch angle rocker 100
-sweep motor from 60 to 120 steps 30
-MODEL
+fourbar_model rocker2.kinloop 80 30 90 0 100 60 120 30
 expect_status 0 "$KINLOOP" solve rocker2.kinloop --at 80
 expect_status 4 "$KINLOOP" solve rocker2.kinloop --at 90
 expect_text err.txt "the motion stops at motor 82.8"

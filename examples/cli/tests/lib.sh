@@ -1,5 +1,6 @@
 # lib.sh - what the kinloop tool's shell tests share: a scratch folder that
-# is removed afterwards, failure counting, and exit-status checks.
+# is removed afterwards, failure counting, exit-status checks, four-bar
+# model files and the check of SVG pictures.
 # Source it after setting KINLOOP to the tool's path.
 
 failures=0
@@ -30,6 +31,53 @@ expect_status() {
 # expect_text FILE TEXT: FILE must contain the fixed string TEXT.
 expect_text() {
   grep -qF -- "$2" "$1" || fail "$1 lacks '$2'"
+}
+
+# fourbar_model FILE CRANK COUPLER ROCKER COUPLER_DEG ROCKER_DEG FROM TO STEPS:
+# writes a four-bar model file, ground 100 mm from (0, 0) to (100, 0), the
+# crank driven at the origin (input joint motor; pins crank_pin, rocker_pin,
+# pivot), sketched at the two angles, swept from FROM to TO degrees.
+fourbar_model() {
+  cat >"$1" <<MODEL
+kinloop-model 1
+units length mm angle deg
+link crank
+link coupler
+link rocker
+revolute motor ground 0 0 crank 0 0
+revolute crank_pin crank $2 0 coupler 0 0
+revolute rocker_pin coupler $3 0 rocker $4 0
+revolute pivot rocker 0 0 ground 100 0
+input motor
+sketch angle coupler $5
+sketch angle rocker $6
+sweep motor from $7 to $8 steps $9
+MODEL
+}
+
+# check_svgs COUNT FILE...: every FILE is well-formed XML that rsvg-convert
+# renders to a PNG, and there are COUNT of them.
+check_svgs() {
+  want=$1
+  shift
+  count=0
+  for f in "$@"; do
+    count=$((count + 1))
+    xmllint --noout "$f" 2>xml.txt || {
+      fail "$f is not well-formed XML:"
+      cat xml.txt >&2
+      continue
+    }
+    rsvg-convert "$f" -o picture.png 2>render.txt || {
+      fail "$f does not render:"
+      cat render.txt >&2
+      continue
+    }
+    # a PNG starts with the bytes 0x89 'P' 'N' 'G'
+    [ -s picture.png ] && [ "$(head -c 4 picture.png | tail -c 3)" = PNG ] ||
+      fail "$f rendered to an empty or broken PNG"
+  done
+  [ "$count" -eq "$want" ] || fail "$count SVG files checked, expected $want"
 }
 
 finish() {

@@ -81,21 +81,7 @@ expect_text err.txt "kinloop: whole.study: a tolerance study says how many"
 
 # 4: the nominal cannot be judged (geometry chosen for this test: the
 # double-rocker of exit_codes.sh, whose crank stops at 82.82 deg)
-cat >rocker2.kinloop <<'MODEL'
-kinloop-model 1
-units length mm angle deg
-link crank
-link coupler
-link rocker
-revolute motor ground 0 0 crank 0 0
-revolute crank_pin crank 80 0 coupler 0 0
-revolute rocker_pin coupler 30 0 rocker 90 0
-revolute pivot rocker 0 0 ground 100 0
-input motor
-sketch angle coupler 0
-sketch angle rocker 100
-sweep motor from 60 to 120 steps 30
-MODEL
+fourbar_model rocker2.kinloop 80 30 90 0 100 60 120 30
 cat >late.study <<'STUDY'
 kinloop-study 1
 model rocker2.kinloop

@@ -19,21 +19,7 @@ CHECK=$2
 # |c - 80| <= 60 <= c + 80 (c <= 140), and the crank turns fully when
 # 40 + max(100, c) < c + 80 + 100 - max(100, c), that is 60 < c < 140; so
 # about 14% do not assemble and 29% stop at a limit position.
-cat >fourbar.kinloop <<'MODEL'
-kinloop-model 1
-units length mm angle deg
-link crank
-link coupler
-link rocker
-revolute motor ground 0 0 crank 0 0
-revolute crank_pin crank 40 0 coupler 0 0
-revolute rocker_pin coupler 90 0 rocker 80 0
-revolute pivot rocker 0 0 ground 100 0
-input motor
-sketch angle coupler 61
-sketch angle rocker 101
-sweep motor from 0 to 360 steps 72
-MODEL
+fourbar_model fourbar.kinloop 40 90 80 61 101 0 360 72
 cat >loose.study <<'STUDY'
 kinloop-study 1
 model fourbar.kinloop

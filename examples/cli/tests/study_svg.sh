@@ -27,21 +27,7 @@ expect_status 0 "$KINLOOP" study small.study --charts charts
 # a study where a quarter of the samples do not assemble (geometry chosen
 # for this test: a crank-rocker, ground 100, crank 40, coupler 120, rocker
 # 80, its coupler drawn from 80 to 160)
-cat >fourbar.kinloop <<'MODEL'
-kinloop-model 1
-units length mm angle deg
-link crank
-link coupler
-link rocker
-revolute motor ground 0 0 crank 0 0
-revolute crank_pin crank 40 0 coupler 0 0
-revolute rocker_pin coupler 120 0 rocker 80 0
-revolute pivot rocker 0 0 ground 100 0
-input motor
-sketch angle coupler 36
-sketch angle rocker 63
-sweep motor from 0 to 360 steps 72
-MODEL
+fourbar_model fourbar.kinloop 40 120 80 36 63 0 360 72
 cat >loose.study <<'STUDY'
 kinloop-study 1
 model fourbar.kinloop
@@ -58,22 +44,5 @@ for f in loose/*-vs-*.svg; do
   expect_text "$f" "samples without a value"
 done
 
-count=0
-for f in charts/*.svg loose/*.svg; do
-  count=$((count + 1))
-  xmllint --noout "$f" 2>xml.txt || {
-    fail "$f is not well-formed XML:"
-    cat xml.txt >&2
-    continue
-  }
-  rsvg-convert "$f" -o picture.png 2>render.txt || {
-    fail "$f does not render:"
-    cat render.txt >&2
-    continue
-  }
-  # a PNG starts with the bytes 0x89 'P' 'N' 'G'
-  [ -s picture.png ] && [ "$(head -c 4 picture.png | tail -c 3)" = PNG ] ||
-    fail "$f rendered to an empty or broken PNG"
-done
-[ "$count" -eq 13 ] || fail "$count SVG files checked, expected 13"
+check_svgs 13 charts/*.svg loose/*.svg
 finish

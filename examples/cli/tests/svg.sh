@@ -43,43 +43,12 @@ expect_status 0 "$KINLOOP" plot names.kinloop --show "angle:rocker \"r\"" \
 
 # a double-rocker swept past its toggle position (geometry chosen for
 # this test): the drawing and the plot end where the motion stops
-cat >stops.kinloop <<'MODEL'
-kinloop-model 1
-units length mm angle deg
-link crank
-link coupler
-link rocker
-revolute motor ground 0 0 crank 0 0
-revolute crank_pin crank 80 0 coupler 0 0
-revolute rocker_pin coupler 30 0 rocker 90 0
-revolute pivot rocker 0 0 ground 100 0
-input motor
-sketch angle coupler 0
-sketch angle rocker 100
-sweep motor from 60 to 120 steps 30
-MODEL
+fourbar_model stops.kinloop 80 30 90 0 100 60 120 30
 expect_status 0 "$KINLOOP" draw stops.kinloop -o stops-draw.svg
 expect_text err.txt "toggle or limit position"
 expect_status 0 "$KINLOOP" plot stops.kinloop --show angle:rocker \
   -o stops-plot.svg
 expect_text stops-plot.svg "motion stops"
 
-count=0
-for f in kinloop-demo/*.svg *.svg; do
-  count=$((count + 1))
-  xmllint --noout "$f" 2>xml.txt || {
-    fail "$f is not well-formed XML:"
-    cat xml.txt >&2
-    continue
-  }
-  rsvg-convert "$f" -o picture.png 2>render.txt || {
-    fail "$f does not render:"
-    cat render.txt >&2
-    continue
-  }
-  # a PNG starts with the bytes 0x89 'P' 'N' 'G'
-  [ -s picture.png ] && [ "$(head -c 4 picture.png | tail -c 3)" = PNG ] ||
-    fail "$f rendered to an empty or broken PNG"
-done
-[ "$count" -eq 16 ] || fail "$count SVG files checked, expected 16"
+check_svgs 16 kinloop-demo/*.svg *.svg
 finish
