@@ -6,6 +6,7 @@
 #include <check.h>
 #include <string.h>
 
+#include "suite.h"
 #include "support.h"
 
 /* Builds a six-bar with a slider, a point and named links, step by step;
@@ -157,17 +158,11 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("alloc");
   TCase *tc = tcase_create("alloc");
-  SRunner *runner;
-  int failed;
   tcase_set_timeout(tc, 120);
   tcase_add_test(tc, every_allocation_failure_is_clean);
   tcase_add_test(tc, failed_calls_change_nothing);
   tcase_add_test(tc, builders_keep_the_model_on_failure);
   tcase_add_test(tc, allocator_hook_is_required);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

@@ -9,6 +9,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "suite.h"
 #include "support.h"
 
 /* A four-bar with a named coupler point, open (not finalized). */
@@ -397,8 +398,6 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("catalogue");
   TCase *tc = tcase_create("catalogue");
-  SRunner *runner;
-  int failed;
   tcase_add_loop_test(tc, builders_refuse_bad_input_and_change_nothing, 0,
                       (int)(sizeof builder_cases / sizeof builder_cases[0]));
   tcase_add_loop_test(tc, finalize_names_what_is_wrong, 0,
@@ -408,9 +407,5 @@ int main(void) {
   tcase_add_test(tc, stages_out_of_order);
   tcase_add_test(tc, model_files_out_of_bounds);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

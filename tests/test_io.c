@@ -11,6 +11,7 @@
 #include <string.h>
 #include <unistd.h>
 
+#include "suite.h"
 #include "support.h"
 
 /* A model using every statement of the format: units, named and unnamed
@@ -528,8 +529,6 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("io");
   TCase *tc = tcase_create("io");
-  SRunner *runner;
-  int failed;
   tcase_set_timeout(tc, 120);
   tcase_add_test(tc, writing_then_reading_gives_the_same_model);
   tcase_add_test(tc, a_read_model_solves_like_the_original);
@@ -543,9 +542,5 @@ int main(void) {
   tcase_add_test(tc, reading_survives_refused_allocations);
   tcase_add_test(tc, documented_examples_read_and_sweep);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

@@ -7,6 +7,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "suite.h"
 #include "support.h"
 
 static const int kernels[3] = {KL_KERNEL_SMALL, KL_KERNEL_DENSE,
@@ -264,17 +265,11 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("kernels");
   TCase *tc = tcase_create("kernels");
-  SRunner *runner;
-  int failed;
   tcase_set_timeout(tc, 120);
   tcase_add_test(tc, one_input_mechanisms_agree_across_kernels);
   tcase_add_test(tc, fivebar_and_chains_agree_across_kernels);
   tcase_add_test(tc, rates_agree_with_closed_form_to_1e_12);
   tcase_add_test(tc, auto_chooses_by_size_and_band);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

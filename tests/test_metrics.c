@@ -8,6 +8,7 @@
 #include <stdio.h>
 #include <string.h>
 
+#include "suite.h"
 #include "support.h"
 
 #define DEG (PI / 180.0)
@@ -1105,8 +1106,6 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("metrics");
   TCase *tc = tcase_create("metrics");
-  SRunner *runner;
-  int failed;
   tcase_set_timeout(tc, 120);
   tcase_add_test(tc, grashof_classes_from_lengths);
   tcase_add_test(tc, grashof_rejects_bad_lengths);
@@ -1125,9 +1124,5 @@ int main(void) {
   tcase_add_test(tc, bad_dimensions_are_refused);
   tcase_add_test(tc, bad_loads_are_refused);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

@@ -7,6 +7,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "suite.h"
 #include "support.h"
 
 #define assert_message_has(m, text)                                            \
@@ -441,8 +442,6 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("model");
   TCase *tc = tcase_create("model");
-  SRunner *runner;
-  int failed;
   tcase_add_test(tc, version_and_status_texts);
   tcase_add_test(tc, ground_exists_from_the_start);
   tcase_add_test(tc, link_names_are_checked);
@@ -462,9 +461,5 @@ int main(void) {
   tcase_add_test(tc, builders_fail_after_finalize);
   tcase_add_test(tc, reading_the_model_back);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

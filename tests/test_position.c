@@ -8,6 +8,7 @@
 #include <stddef.h>
 #include <string.h>
 
+#include "suite.h"
 #include "support.h"
 
 
@@ -488,8 +489,6 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("position");
   TCase *tc = tcase_create("position");
-  SRunner *runner;
-  int failed;
   tcase_set_timeout(tc, 60);
   tcase_add_test(tc, fourbar_matches_freudenstein_both_branches);
   tcase_add_test(tc, explicit_and_found_loops_agree);
@@ -508,9 +507,5 @@ int main(void) {
   tcase_add_test(tc, solver_needs_a_finalized_model);
   tcase_add_test(tc, length_unit_does_not_matter);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

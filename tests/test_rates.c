@@ -7,6 +7,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "suite.h"
 #include "support.h"
 
 #define DEG (PI / 180.0)
@@ -954,8 +955,6 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("rates");
   TCase *tc = tcase_create("rates");
-  SRunner *runner;
-  int failed;
   tcase_set_timeout(tc, 120);
   tcase_add_test(tc, fourbar_rates_match_differentiated_loop);
   tcase_add_test(tc, slider_crank_rates_match_closed_form);
@@ -968,9 +967,5 @@ int main(void) {
   tcase_add_test(tc, nonfinite_rates_change_nothing);
   tcase_add_test(tc, rate_stages_never_allocate);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

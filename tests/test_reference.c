@@ -9,6 +9,7 @@
 #include <gsl/gsl_vector.h>
 #include <math.h>
 
+#include "suite.h"
 #include "support.h"
 
 #define TURN_STEPS 180 /* a full crank turn in steps of 2 degrees */
@@ -316,8 +317,6 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("reference");
   TCase *tc = tcase_create("body coordinates");
-  SRunner *runner;
-  int failed;
   /* GSL's default handler aborts; statuses are checked instead */
   gsl_set_error_handler_off();
   tcase_set_timeout(tc, 60);
@@ -328,9 +327,5 @@ int main(void) {
   tcase_add_test(tc, watt_sixbar_closes_body_equations);
   tcase_add_test(tc, stephenson_sixbar_closes_body_equations);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

@@ -12,6 +12,7 @@
 #include <string.h>
 #include <unistd.h>
 
+#include "suite.h"
 #include "support.h"
 
 /* An offset slider-crank (geometry chosen for the test): crank 30 at the
@@ -468,8 +469,6 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("study");
   TCase *tc = tcase_create("study");
-  SRunner *runner;
-  int failed;
   tcase_set_timeout(tc, 240);
   tcase_add_checked_fixture(tc, setup, teardown);
   tcase_add_test(tc, grid_matches_the_slider_crank_closed_form);
@@ -484,9 +483,5 @@ int main(void) {
   tcase_add_test(tc, the_model_is_found_beside_the_study);
   tcase_add_test(tc, a_nul_byte_is_located);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

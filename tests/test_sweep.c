@@ -7,6 +7,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "suite.h"
 #include "support.h"
 
 
@@ -856,8 +857,6 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("sweep");
   TCase *tc = tcase_create("sweep");
-  SRunner *runner;
-  int failed;
   tcase_set_timeout(tc, 120);
   tcase_add_test(tc, non_grashof_sweeps_stop_at_both_limits);
   tcase_add_test(tc, full_turn_returns_on_the_same_branch);
@@ -874,9 +873,5 @@ int main(void) {
   tcase_add_test(tc, sweeps_modes_and_figures_never_allocate);
   tcase_add_test(tc, slide_input_stops_at_the_dead_centres);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }

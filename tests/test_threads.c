@@ -8,6 +8,7 @@
 #include <pthread.h>
 #include <string.h>
 
+#include "suite.h"
 #include "support.h"
 
 #define THREADS 4
@@ -67,14 +68,8 @@ END_TEST
 int main(void) {
   Suite *suite = suite_create("threads");
   TCase *tc = tcase_create("threads");
-  SRunner *runner;
-  int failed;
   tcase_set_timeout(tc, 120);
   tcase_add_test(tc, shared_model_many_solvers);
   suite_add_tcase(suite, tc);
-  runner = srunner_create(suite);
-  srunner_run_all(runner, CK_NORMAL);
-  failed = srunner_ntests_failed(runner);
-  srunner_free(runner);
-  return failed == 0 ? 0 : 1;
+  return run_suite(suite);
 }
