@@ -1,4 +1,4 @@
-classdef Model < handle
+classdef Model < kinloop.Readable
   % kinloop.Model - a planar linkage described as links, joints, points,
   % inputs and loops, then finalized; a thin layer over the kinloop C library.
   %
@@ -308,12 +308,12 @@ classdef Model < handle
       % kinloop.Model.read(text, 'count_allocations' [, fail_at]) counts
       % the new model's allocations.
       if nargin == 1
-        [m, err] = kinloop.Model.load(nargout, 'model_read', text);
+        [m, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Model, 'model_read', text);
       elseif ischar(how) && strcmp(how, 'count_allocations')
         if nargin < 3
           fail_at = 0;
         end
-        [m, err] = kinloop.Model.load(nargout, 'model_read_with_alloc', text, fail_at);
+        [m, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Model, 'model_read_with_alloc', text, fail_at);
       else
         error('kinloop:bad_argument', ...
               'kinloop.Model.read: the second argument may only be ''count_allocations''');
@@ -322,26 +322,11 @@ classdef Model < handle
 
     function [m, err] = read_file(path)
       % As read, from the file at path (kinloop:EIO when it cannot be read).
-      [m, err] = kinloop.Model.load(nargout, 'model_read_file', path);
+      [m, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Model, 'model_read_file', path);
     end
   end
 
   methods (Static, Access = private)
-    % The gateway raises a reading error unless asked for it as a second output.
-    function [m, err] = load(nout, command, varargin)
-      err = [];
-      if nout < 2
-        id = __kinloop__(command, varargin{:});
-      else
-        [id, err] = __kinloop__(command, varargin{:});
-      end
-      if isempty(id)
-        m = [];
-      else
-        m = kinloop.Model('adopt', id);
-      end
-    end
-
     function [x, y] = xy(p, what)
       if ~isnumeric(p) || ~isreal(p) || numel(p) ~= 2
         error('kinloop:bad_argument', ...

@@ -1,4 +1,4 @@
-classdef Study < handle
+classdef Study < kinloop.Readable
   % kinloop.Study - a design study: a nominal model, the dimensions that
   % vary (tolerances drawn at random, or a grid), the outputs judged and
   % their limits; read from a study file, immutable once read.
@@ -120,31 +120,15 @@ classdef Study < handle
       % raise: st is [] and err says why (status, status_name, line,
       % column, message).
       if nargin < 2
-        [st, err] = kinloop.Study.load(nargout, 'study_read', text);
+        [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read', text);
       else
-        [st, err] = kinloop.Study.load(nargout, 'study_read', text, base_dir);
+        [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read', text, base_dir);
       end
     end
 
     function [st, err] = read_file(path)
       % As read, from the file at path (kinloop:EIO when it cannot be read).
-      [st, err] = kinloop.Study.load(nargout, 'study_read_file', path);
-    end
-  end
-
-  methods (Static, Access = private)
-    function [st, err] = load(nout, command, varargin)
-      err = [];
-      if nout < 2
-        id = __kinloop__(command, varargin{:});
-      else
-        [id, err] = __kinloop__(command, varargin{:});
-      end
-      if isempty(id)
-        st = [];
-      else
-        st = kinloop.Study('adopt', id);
-      end
+      [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read_file', path);
     end
   end
 end

@@ -141,6 +141,22 @@ def angle_unit_str(unit):
     return text(lib.kl_angle_unit_str(int(unit)))
 
 
+class Handle:
+    """What every class holding a C handle shares: `closed`, and `with`
+    blocks that close it on leaving. The class keeps a weakref.finalize as
+    _finalizer (which frees the handle once) and defines close()."""
+
+    @property
+    def closed(self):
+        return not self._finalizer.alive
+
+    def __enter__(self):
+        return self
+
+    def __exit__(self, *exc):
+        self.close()
+
+
 class KinloopError(Exception):
     """A negative kinloop status.
 

@@ -7,7 +7,7 @@ import os
 import weakref
 
 from . import raw
-from ._core import (AngleUnit, GrashofClass, JointKind, KinloopError,
+from ._core import (Handle, AngleUnit, GrashofClass, JointKind, KinloopError,
                     LengthUnit, Status, SweepSettings, check_const,
                     encode_name, point_arg, status_str, text, xy_buffer,
                     xy_pair)
@@ -49,7 +49,7 @@ def _io_error(status, err, what):
                         line=err.line or None, column=err.column or None)
 
 
-class Model:
+class Model(Handle):
     """A kinloop model (kl_model). Build it, finalize it, make Solvers.
 
     ``with Model() as m:`` frees it (and its solvers) on leaving the block;
@@ -134,19 +134,9 @@ class Model:
         self._finalizer()
 
     @property
-    def closed(self):
-        return not self._finalizer.alive
-
-    @property
     def borrowed(self):
         """Whether this is a view of a model another handle owns (Study.model)."""
         return self._owner is not None
-
-    def __enter__(self):
-        return self
-
-    def __exit__(self, *exc):
-        self.close()
 
     def __repr__(self):
         if self.closed:

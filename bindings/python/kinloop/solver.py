@@ -10,7 +10,7 @@ import weakref
 import numpy as np
 
 from . import raw
-from ._core import (JointKind, KinloopError, Options, Range, SolveStats,
+from ._core import (Handle, JointKind, KinloopError, Options, Range, SolveStats,
                     Status, SweepResult, as_kernel, as_status, check_const, text,
                     values_arg,
                     xy_buffer, xy_pair)
@@ -26,7 +26,7 @@ def _free_solver(ptr, keepalive):
     lib.kl_solver_free(ptr)
 
 
-class Solver:
+class Solver(Handle):
     """A kinloop solver (kl_solver) for a finalized Model.
 
     Options come as an Options object and/or keyword arguments
@@ -87,16 +87,6 @@ class Solver:
         if self._sweeping:
             raise RuntimeError("kinloop: a solver cannot be closed inside its own sweep")
         self._finalizer()
-
-    @property
-    def closed(self):
-        return not self._finalizer.alive
-
-    def __enter__(self):
-        return self
-
-    def __exit__(self, *exc):
-        self.close()
 
     @property
     def model(self):

@@ -10,7 +10,7 @@ import weakref
 import numpy as np
 
 from . import raw
-from ._core import (KinloopError, Status, StudyRun, StudySummary, check_const,
+from ._core import (Handle, KinloopError, Status, StudyRun, StudySummary, check_const,
                     text)
 from .model import Model, _io_error
 
@@ -33,7 +33,7 @@ def _ints(array):
     return array.ctypes.data_as(ctypes.POINTER(ctypes.c_int))
 
 
-class Study:
+class Study(Handle):
     """A kinloop design study (kl_study), immutable once read: a nominal
     model, the dimensions that vary and how, the outputs judged and their
     limits. Make one with Study.read_text or Study.read_file.
@@ -107,16 +107,6 @@ class Study:
             raise RuntimeError("kinloop: a study cannot be closed while it runs "
                                "or a solver of its model sweeps")
         self._finalizer()
-
-    @property
-    def closed(self):
-        return not self._finalizer.alive
-
-    def __enter__(self):
-        return self
-
-    def __exit__(self, *exc):
-        self.close()
 
     def __repr__(self):
         if self.closed:
