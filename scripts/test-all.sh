@@ -1,7 +1,8 @@
 #!/usr/bin/env bash
 # Runs every test three ways: a warnings-as-errors build with each suite
 # plain and under valgrind memcheck, then an AddressSanitizer +
-# UndefinedBehaviorSanitizer build; the threads test under ThreadSanitizer;
+# UndefinedBehaviorSanitizer build; the threads and study tests under
+# ThreadSanitizer;
 # and a short run of each fuzz target.
 set -euo pipefail
 cd "$(dirname "$0")/.."
@@ -25,12 +26,13 @@ ASAN_OPTIONS=detect_leaks=1:abort_on_error=1 \
   ctest --test-dir build-asan --output-on-failure -j"$jobs" \
   -E "install_package|python|octave"
 
-echo "== ThreadSanitizer: the threads test =="
+echo "== ThreadSanitizer: the threads test and the studies (run on threads) =="
 cmake -S . -B build-tsan -DKINLOOP_WERROR=ON -DKINLOOP_TSAN=ON \
   -DKINLOOP_BUILD_BINDINGS=OFF -DKINLOOP_BUILD_EXAMPLES=OFF \
   -DCMAKE_BUILD_TYPE=Debug >/dev/null
-cmake --build build-tsan -j"$jobs" --target test_threads
+cmake --build build-tsan -j"$jobs" --target test_threads test_study
 TSAN_OPTIONS=halt_on_error=1 build-tsan/tests/test_threads
+TSAN_OPTIONS=halt_on_error=1 build-tsan/tests/test_study
 
 echo "== fuzz smoke run: 60 s per target =="
 bash scripts/fuzz.sh 60
