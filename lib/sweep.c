@@ -28,6 +28,9 @@
  * beyond that (1e100 rad) is refused at this count rather than run for
  * ever. */
 #define KLI_MAX_SUBSTEPS 10000
+/* A sub-step ending this fraction of itself short of its step's target is
+ * taken to the target. */
+#define KLI_SNAP_FRACTION 1e-9
 /* Internal outcome of a sub-step: the corrector changed branch. */
 #define KLI_BRANCH_JUMP 100
 
@@ -199,7 +202,11 @@ static int sweep(kl_solver *s, int input, double from, double to, int steps,
         finish(result, st, k, NAN, substeps);
         return st;
       }
-      if ((h > 0.0 && trial > target) || (h < 0.0 && trial < target))
+      /* not past the target, nor a rounding error short of it: cur + h
+       * can fall an ulp below a target that the step was sized to reach,
+       * which would cost one more, empty, sub-step */
+      if ((h > 0.0 && trial > target) || (h < 0.0 && trial < target) ||
+          fabs(target - trial) <= KLI_SNAP_FRACTION * fabs(h))
         trial = target;
       r = substep(s, input, trial, det_sign);
       substeps++;

@@ -169,6 +169,9 @@ START_TEST(full_turn_returns_on_the_same_branch) {
       ck_assert_int_eq(r.steps_done, steps + 1);
       ck_assert_int_eq(t.calls, steps + 1);
       ck_assert(isnan(r.limit_input));
+      /* 5 degree steps of a crank-rocker are easy: one sub-step each, none
+       * spent on the rounding between a step's end and its target */
+      ck_assert_int_eq(r.substeps, steps);
       start3 = t.angle[1][0];
       start4 = t.angle[2][0];
       for (k = 0; k < t.calls; k++) {
