@@ -1,10 +1,11 @@
 #!/usr/bin/env bash
 # Line and function coverage of lib/ by every test (gcov through lcov):
-# prints the summary and the functions and lines no test reaches.
+# prints the summary and the functions and lines no test reaches. The
+# counters are updated atomically: studies count from several threads.
 set -euo pipefail
 cd "$(dirname "$0")/.."
 cmake -S . -B build-coverage -DCMAKE_BUILD_TYPE=Debug \
-  -DCMAKE_C_FLAGS="--coverage -O0" -DKINLOOP_BUILD_BINDINGS=ON >/dev/null
+  -DCMAKE_C_FLAGS="--coverage -fprofile-update=atomic -O0" -DKINLOOP_BUILD_BINDINGS=ON >/dev/null
 cmake --build build-coverage -j2 >/dev/null
 lcov --quiet --zerocounters --directory build-coverage
 ctest --test-dir build-coverage -j2 -E "install_package" >/dev/null || {
