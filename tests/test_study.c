@@ -120,6 +120,38 @@ START_TEST(grid_matches_the_slider_crank_closed_form) {
 }
 END_TEST
 
+/*
+ * A torque load and a joint-angle output, over a grid of crank lengths.
+ * Effort: a torque T on the crank itself is balanced by an input torque -T
+ * at every position (virtual work: (T_in + T) dtheta = 0), so the largest
+ * in size is -T. Joint angle at the wrist (block minus rod, the header's
+ * definition) at a crank angle of 90 degrees: the crank pin is at (0, r),
+ * the block's pin at height 12 a rod's length away, so the rod's angle is
+ * asin((12 - r) / 100) and the block's is 0 (elementary geometry).
+ */
+START_TEST(torque_loads_and_joint_angles) {
+  kl_study *st = read_study("kinloop-study 1\n"
+                            "model slider.kinloop\n"
+                            "grid joint pin a x from 20 to 40 steps 2\n"
+                            "load torque crank 5\n"
+                            "output hold effort\n"
+                            "output wrist at 90 joint-angle wrist\n");
+  run r = run_all(st, 1);
+  long i;
+  for (i = 0; i < r.n; i++) {
+    double crank = r.dims[i];
+    double wrist_deg = -asin((12 - crank) / 100) * 180 / PI;
+    ck_assert_int_eq(r.status[i], KL_SAMPLE_OK);
+    ck_assert_double_le(fabs(r.values[2 * i] + 5), 1e-9);
+    ck_assert_msg(fabs(r.values[2 * i + 1] - wrist_deg) <= 1e-9,
+                  "crank %g: wrist %.15g deg, geometry %.15g", crank,
+                  r.values[2 * i + 1], wrist_deg);
+  }
+  free_run(&r);
+  kl_study_free(st);
+}
+END_TEST
+
 /* The random stream: uniform dimensions stay within their tolerance with
  * variance t^2 / 3; normal ones have sd t / 3 and about 99.73 % within
  * +-3 sd (statistics of the distributions; the tolerances below allow four
@@ -331,6 +363,10 @@ static const bad_study bad_studies[] = {
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
      "output s swing slide rail\nlimit s 0 1\nlimit s 0 2\n",
      KL_ESYNTAX, 6, "this output's 'limit' is given already, on line 5"},
+    {"kinloop-study 1\nmodel slider.kinloop\nmodel slider.kinloop\n", KL_ESYNTAX,
+     3, "a study has one 'model'"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\nload weight nose 1\n",
+     KL_ESYNTAX, 4, "force"},
     {"kinloop-study 1\nmodel slider.kinloop\nseed 1\nseed 2\n", KL_ESYNTAX,
      4, "'seed' is given already, on line 3"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\nsamples 50\n",
@@ -472,6 +508,7 @@ int main(void) {
   tcase_set_timeout(tc, 240);
   tcase_add_checked_fixture(tc, setup, teardown);
   tcase_add_test(tc, grid_matches_the_slider_crank_closed_form);
+  tcase_add_test(tc, torque_loads_and_joint_angles);
   tcase_add_test(tc, the_random_stream_has_the_stated_distributions);
   tcase_add_test(tc, monte_carlo_agrees_with_first_order);
   tcase_add_test(tc, results_do_not_depend_on_threads_or_splits);
