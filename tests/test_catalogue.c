@@ -55,12 +55,18 @@ static const expectation builder_cases[] = {
     {"sketch angle for ground", KL_EKIND, "ground"},
     {"sketch slide for a revolute joint", KL_EKIND, "has no slide"},
     {"sweep settings for an unknown input", KL_EID, "input 4"},
+    {"sweep settings with a NaN range", KL_ENONFINITE, "NaN or infinite"},
+    {"sweep settings of no steps", KL_EINVAL, "at least 1"},
+    {"loop whose walk does not close", KL_ELOOP, "does not come back"},
     {"joint name already used", KL_EDUPLICATE, "'motor'"},
 };
 
 static int run_builder(int i, kl_model *m) {
   static const int broken[3] = {0, 2, 3};
   static const int unknown[3] = {0, 1, 17};
+  /* ground-crank then crank-coupler: each pair (the last with the first
+   * too) shares the crank, but a walk from ground ends on the coupler */
+  static const int back_and_forth[2] = {0, 1};
   kl_sweep_settings sw;
   switch (i) {
   case 0: return kl_add_revolute(m, 1, NAN, 0, 3, 1, 1);
@@ -83,12 +89,15 @@ static int run_builder(int i, kl_model *m) {
   case 17: return kl_set_sketch_angle(m, KL_GROUND, 1.0);
   case 18: return kl_set_sketch_slide(m, 1, 5.0);
   case 19:
+  case 20:
+  case 21:
     sw.size = sizeof sw;
-    sw.input = 4;
+    sw.input = i == 19 ? 4 : 0;
     sw.from = 0;
-    sw.to = 1;
-    sw.steps = 10;
+    sw.to = i == 20 ? NAN : 1;
+    sw.steps = i == 21 ? 0 : 10;
     return kl_model_set_sweep(m, &sw);
+  case 22: return kl_add_loop(m, 2, back_and_forth);
   default: return kl_set_joint_name(m, 1, "motor");
   }
 }
