@@ -152,6 +152,55 @@ START_TEST(torque_loads_and_joint_angles) {
 }
 END_TEST
 
+/*
+ * A grid over a crank-rocker's coupler: 120, and 140, where ground 100,
+ * crank 40, coupler 140, rocker 80 meet the Grashof change point (s + l =
+ * p + q: 40 + 140 = 80 + 100), all four pins in line at crank angle 0. The
+ * sweep from 10 to 370 degrees passes it, where continuation cannot choose
+ * a branch: that sample counts as not assembled, its output NaN. The other
+ * sample's rocker swing is the angle between the rocker's two dead-centre
+ * positions, crank and coupler in line (pin at a + b and b - a from the
+ * crank pivot): by the law of cosines cos psi = (c^2 + d^2 - r^2) / (2 c d)
+ * (standard kinematics).
+ */
+static const char fourbar_model[] =
+    "kinloop-model 1\n"
+    "units length mm angle deg\n"
+    "link crank\nlink coupler\nlink rocker\n"
+    "revolute motor ground 0 0 crank 0 0\n"
+    "revolute crank_pin crank 40 0 coupler 0 0\n"
+    "revolute rocker_pin coupler 120 0 rocker 80 0\n"
+    "revolute pivot rocker 0 0 ground 100 0\n"
+    "input motor\n"
+    "sketch angle coupler 36\nsketch angle rocker 63\n"
+    "sweep motor from 10 to 370 steps 36\n";
+
+START_TEST(a_change_point_sample_is_not_assembled) {
+  const double a = 40, b = 120, c = 80, d = 100;
+  const double swing = (acos((c * c + d * d - (a + b) * (a + b)) / (2 * c * d)) -
+                        acos((c * c + d * d - (b - a) * (b - a)) / (2 * c * d))) *
+                       180 / PI;
+  char path[128];
+  kl_study *st;
+  run r;
+  write_file("fourbar.kinloop", fourbar_model);
+  st = read_study("kinloop-study 1\n"
+                  "model fourbar.kinloop\n"
+                  "grid joint rocker_pin a x from 120 to 140 steps 1\n"
+                  "output swing swing angle rocker\n");
+  r = run_all(st, 1);
+  ck_assert_int_eq(r.status[0], KL_SAMPLE_OK);
+  ck_assert_msg(fabs(fabs(r.values[0]) - fabs(swing)) <= 1e-8,
+                "swing %.12g deg, law of cosines %.12g", r.values[0], swing);
+  ck_assert_int_eq(r.status[1], KL_SAMPLE_NO_ASSEMBLY);
+  ck_assert(isnan(r.values[1]));
+  free_run(&r);
+  kl_study_free(st);
+  snprintf(path, sizeof path, "%s/fourbar.kinloop", dir);
+  unlink(path);
+}
+END_TEST
+
 /* The random stream: uniform dimensions stay within their tolerance with
  * variance t^2 / 3; normal ones have sd t / 3 and about 99.73 % within
  * +-3 sd (statistics of the distributions; the tolerances below allow four
@@ -509,6 +558,7 @@ int main(void) {
   tcase_add_checked_fixture(tc, setup, teardown);
   tcase_add_test(tc, grid_matches_the_slider_crank_closed_form);
   tcase_add_test(tc, torque_loads_and_joint_angles);
+  tcase_add_test(tc, a_change_point_sample_is_not_assembled);
   tcase_add_test(tc, the_random_stream_has_the_stated_distributions);
   tcase_add_test(tc, monte_carlo_agrees_with_first_order);
   tcase_add_test(tc, results_do_not_depend_on_threads_or_splits);
