@@ -870,12 +870,14 @@ typedef struct kl_range {
 
 /**
  * Extremes of output `o` while input `input` sweeps from `from` to `to` in
- * `steps` steps (as kl_sweep): the sampled extremes are refined between
- * their neighbouring steps by golden-section search to 1e-10 in the input,
- * so an extreme between samples is found too. The ends of the range (or the
- * motion limit) count as candidates. The solver is left at the end of the
- * sweep. Returns KL_OK or KL_LIMIT (the range is what was reachable), or the
- * statuses of kl_sweep and kl_output_value. Never allocates.
+ * `steps` steps (as kl_sweep): where the output's slope (from the unit-rate
+ * velocity) changes sign between neighbouring steps, false position on the
+ * slope finds the turning point to 1e-13 in the input, so an extreme
+ * between samples is found too (docs/figures.md section 5). The samples,
+ * the ends of the range and the motion limit count as candidates as well.
+ * The solver is left at the end of the sweep. Returns KL_OK or KL_LIMIT (the
+ * range is what was reachable), or the statuses of kl_sweep and
+ * kl_output_value. Never allocates.
  */
 KL_API int kl_output_range(kl_solver *s, int input, double from, double to,
                            int steps, const kl_output *o, kl_range *range);
