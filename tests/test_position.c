@@ -340,6 +340,19 @@ START_TEST(options_are_checked) {
   kl_options_default(&o);
   o.max_step = 0;
   ck_assert_int_eq(kl_solver_set_options(s, &o), KL_EINVAL);
+  /* each range of the header's kl_solver_set_options, just outside */
+  kl_options_default(&o);
+  o.step_tolerance = 0;
+  ck_assert_int_eq(kl_solver_set_options(s, &o), KL_EINVAL);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "step_tolerance"));
+  kl_options_default(&o);
+  o.max_backtracks = 101;
+  ck_assert_int_eq(kl_solver_set_options(s, &o), KL_EINVAL);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "max_backtracks"));
+  kl_options_default(&o);
+  o.singular_rcond = 1e-3;
+  ck_assert_int_eq(kl_solver_set_options(s, &o), KL_EINVAL);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "singular_rcond"));
   kl_options_default(&o);
   o.size = 3;
   ck_assert_int_eq(kl_solver_set_options(s, &o), KL_EINVAL);

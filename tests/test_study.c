@@ -412,6 +412,21 @@ static const bad_study bad_studies[] = {
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
      "output s swing slide rail\nlimit s 0 1\nlimit s 0 2\n",
      KL_ESYNTAX, 6, "this output's 'limit' is given already, on line 5"},
+    {"", KL_ESYNTAX, 1, "empty study"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n", KL_ESYNTAX, 0,
+     "judges no output"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "vary joint pin a x tolerance 0.1 normal\n"
+     "grid joint rail a y from 0 to 1 steps 2\noutput s swing slide rail\n",
+     KL_ESYNTAX, 0, "mixes 1 grid and 1 tolerance"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "grid joint rail a y from 0 to 1 steps 2\noutput s swing slide rail\n",
+     KL_ESYNTAX, 0, "leave 'samples' out"},
+    {"kinloop-study 1\nmodel slider.kinloop\n"
+     "grid joint rail a y from 0 to 1 steps 100000\n"
+     "grid joint pin a x from 20 to 40 steps 100000\n"
+     "output s swing slide rail\n",
+     KL_ESYNTAX, 0, "at most 1e9"},
     {"kinloop-study 1\nmodel slider.kinloop\nmodel slider.kinloop\n", KL_ESYNTAX,
      3, "a study has one 'model'"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\nload weight nose 1\n",
