@@ -16,7 +16,6 @@
 #define KLI_MAX_INPUT (16u << 20) /* bytes a model file may have */
 #define KLI_TOKEN_MAX 255         /* bytes in a name or a number */
 #define KLI_FORMAT_VERSION 1
-#define KLI_PI 3.14159265358979323846
 
 /* ------------------------------------------------------------------------
  * Reading

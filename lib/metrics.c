@@ -10,7 +10,7 @@
 #include "outputs.h"
 #include "velocity.h"
 
-#define KLI_TWO_PI 6.28318530717958647692
+#define KLI_TWO_PI (2.0 * KLI_PI)
 /* Crank angles this close (modulo a turn) are the same position. */
 #define KLI_SAME_ANGLE 1e-12
 /* Refined extremes stop when the bracket is this narrow (input units). */

@@ -9,6 +9,7 @@
 #include "memory.h"
 
 #define KLI_MESSAGE_SIZE 320
+#define KLI_PI 3.14159265358979323846
 #define KLI_NAME_MAX 255
 
 typedef struct {

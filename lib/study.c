@@ -14,7 +14,6 @@
 
 #include "study.h"
 
-#define KLI_PI 3.14159265358979323846
 
 /* ---- the random stream: a value for every (seed, sample, draw) ---- */
 

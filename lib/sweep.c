@@ -275,7 +275,6 @@ int kl_sweep(kl_solver *s, int input, double from, double to, int steps,
 /* ---- assembly modes ---- */
 
 #define KLI_MODE_STARTS 20000
-#define KLI_PI 3.14159265358979323846
 #define KLI_MODE_SAME 1e-6
 
 static double wrap(double a) {
