@@ -62,8 +62,8 @@ static kl_model *build_press(int *ram_slide) {
   /* the ram runs down a vertical guide through the crank pivot */
   *ram_slide = kl_add_prismatic(m, KL_GROUND, 0, 0, -PI / 2, ram, 0, 0);
   kl_add_input(m, motor);
-  kl_set_sketch_angle(m, rod, -PI / 2 + 0.2);
-  kl_set_sketch_slide(m, *ram_slide, -100);
+  kl_model_set_sketch_angle(m, rod, -PI / 2 + 0.2);
+  kl_model_set_sketch_slide(m, *ram_slide, -100);
   if (kl_model_finalize(m) != KL_OK) {
     fprintf(stderr, "embedded-loop: %s\n", kl_model_error(m));
     kl_model_free(m);

@@ -25,6 +25,32 @@
  *  - Threads: a finalized model is immutable and may be shared by solvers on
  *    any number of threads; a solver or an unfinalized model is used by one
  *    thread at a time.
+ *
+ * Names follow one grammar (docs/CHANGELOG.md lists the renames of 0.2):
+ *  - kl_<handle>_<verb>: what acts on a whole handle or its document data:
+ *    kl_model_new, kl_model_finalize, kl_model_set_units / kl_model_units,
+ *    kl_solver_sweep, kl_solver_options, kl_study_run. A getter has no
+ *    "get": the noun alone reads (kl_model_units), kl_..._set_... writes.
+ *  - kl_model_<item>_<property>: what the model records about one link,
+ *    joint, point or input (kl_model_joint_kind, kl_model_link_name); the
+ *    model's document data (names, units, sketch, sweep settings) is read
+ *    and written only through kl_model_*.
+ *  - kl_<item>_<quantity>(solver, id): a result of the solver's state
+ *    (kl_link_angle, kl_joint_slide_rate, kl_point_velocity). Quantities
+ *    are angle, slide, rate, accel, jerk, deriv, deriv2; a vector result
+ *    fills an xy array and returns a status.
+ *  - kl_add_<item>: a builder (returns the new id); kl_solve_<stage>: a
+ *    stage of the solver (position, velocity, acceleration, ...);
+ *    kl_set_link_angle / kl_set_joint_slide set the solver's sketch.
+ *  - kl_<struct>_<verb> for the figures computed on a value struct:
+ *    kl_output_range, kl_output_sensitivity, kl_range_time_ratio.
+ *  - kl_<enum>_str: the text of an enum value (kl_status_str).
+ *  - Enum values are KL_<ENUM>_<VALUE> (KL_JOINT_REVOLUTE,
+ *    KL_GRASHOF_CRANK_ROCKER, KL_OUTPUT_SLIDE); statuses are KL_OK, the
+ *    remarks KL_LIMIT and KL_STOPPED, and the errors KL_E*.
+ * The names the architecture fixed (kl_solve_acceleration,
+ * kl_point_acceleration, kl_set_link_mass) keep their spelling; every other
+ * name says "accel".
  */
 #ifndef KINLOOP_H
 #define KINLOOP_H
@@ -49,11 +75,11 @@ extern "C" {
 /** Major version: changes when the API or ABI breaks. */
 #define KINLOOP_VERSION_MAJOR 0
 /** Minor version: new functions, nothing existing changed. */
-#define KINLOOP_VERSION_MINOR 1
+#define KINLOOP_VERSION_MINOR 2
 /** Patch version: fixes only. */
 #define KINLOOP_VERSION_PATCH 0
 /** The version as a string, "MAJOR.MINOR.PATCH"; the build reads it here. */
-#define KINLOOP_VERSION "0.1.0"
+#define KINLOOP_VERSION "0.2.0"
 /** MAJOR * 10000 + MINOR * 100 + PATCH, for compile-time comparisons. */
 #define KINLOOP_VERSION_NUMBER                                                 \
   (KINLOOP_VERSION_MAJOR * 10000 + KINLOOP_VERSION_MINOR * 100 +               \
@@ -100,7 +126,9 @@ enum kl_status {
   KL_ESINGULAR = -18,      /**< singular Jacobian: dead point, toggle or change point */
   KL_ESTAGE = -19,         /**< a stage called before the stage it needs succeeded */
   KL_ESYNTAX = -20,        /**< model file: not in the format (line and column given) */
-  KL_EIO = -21             /**< a file could not be read or written */
+  KL_EIO = -21,            /**< a file could not be read or written */
+  KL_ETRUNCATED = -22,     /**< the caller's buffer is too small: the text was cut */
+  KL_ETOOLARGE = -23       /**< the request exceeds a documented bound of the library */
 };
 
 /**
@@ -116,11 +144,11 @@ KL_API const char *kl_status_str(int status);
 /** Link id of ground, the fixed link whose frame is the global frame. */
 #define KL_GROUND 0
 
-/** Joint kinds, as returned by kl_joint_kind(). */
+/** Joint kinds, as returned by kl_model_joint_kind(). */
 enum kl_joint_kind {
-  KL_REVOLUTE = 0,  /**< pin: the two attachment points coincide */
-  KL_PRISMATIC = 1, /**< slider: b's point runs on a line of a; b keeps a's angle */
-  KL_SLOT = 2       /**< pin in slot: b's point runs on a line of a; b may turn */
+  KL_JOINT_REVOLUTE = 0,  /**< pin: the two attachment points coincide */
+  KL_JOINT_PRISMATIC = 1, /**< slider: b's point runs on a line of a; b keeps a's angle */
+  KL_JOINT_SLOT = 2       /**< pin in slot: b's point runs on a line of a; b may turn */
 };
 
 /**
@@ -298,7 +326,7 @@ KL_API double kl_model_scale(const kl_model *m);
  * rules of kl_add_link() among joints. Returns KL_OK, KL_EID, KL_EINVAL,
  * KL_EDUPLICATE, KL_ESTATE (finalized), KL_ENOMEM.
  */
-KL_API int kl_set_joint_name(kl_model *m, int joint, const char *name);
+KL_API int kl_model_set_joint_name(kl_model *m, int joint, const char *name);
 
 /** Units of length a model can record (the numbers are not converted). */
 enum kl_length_unit {
@@ -331,13 +359,13 @@ KL_API const char *kl_angle_unit_str(int angle_unit);
  * in order of link id); it chooses the assembly mode of the first solve.
  * Returns KL_OK, KL_EID, KL_EKIND (ground), KL_ENONFINITE, KL_ESTATE.
  */
-KL_API int kl_set_sketch_angle(kl_model *m, int link, double angle);
-/** As kl_set_sketch_angle, for the slide of a prismatic or slot joint. */
-KL_API int kl_set_sketch_slide(kl_model *m, int joint, double slide);
+KL_API int kl_model_set_sketch_angle(kl_model *m, int link, double angle);
+/** As kl_model_set_sketch_angle, for the slide of a prismatic or slot joint. */
+KL_API int kl_model_set_sketch_slide(kl_model *m, int joint, double slide);
 /** The recorded sketch angle of a link, NaN if none (or unknown id). */
-KL_API double kl_sketch_angle(const kl_model *m, int link);
+KL_API double kl_model_sketch_angle(const kl_model *m, int link);
 /** The recorded sketch slide of a joint, NaN if none (or unknown id). */
-KL_API double kl_sketch_slide(const kl_model *m, int joint);
+KL_API double kl_model_sketch_slide(const kl_model *m, int joint);
 
 /** Sweep settings a model may carry (for tools that run it). */
 typedef struct kl_sweep_settings {
@@ -366,31 +394,31 @@ KL_API int kl_model_point_count(const kl_model *m); /**< points added so far */
 KL_API int kl_model_input_count(const kl_model *m); /**< inputs added so far */
 
 /** The link's name, "ground" for link 0, NULL if unnamed or unknown. */
-KL_API const char *kl_link_name(const kl_model *m, int link);
+KL_API const char *kl_model_link_name(const kl_model *m, int link);
 /** The point's name, NULL if unnamed or unknown. */
-KL_API const char *kl_point_name(const kl_model *m, int point);
+KL_API const char *kl_model_point_name(const kl_model *m, int point);
 /** The id of the link named `name`, or KL_EID if there is none. */
-KL_API int kl_link_find(const kl_model *m, const char *name);
+KL_API int kl_model_find_link(const kl_model *m, const char *name);
 /** The joint's name, NULL if unnamed or unknown. */
-KL_API const char *kl_joint_name(const kl_model *m, int joint);
+KL_API const char *kl_model_joint_name(const kl_model *m, int joint);
 /** The id of the joint named `name`, or KL_EID if there is none. */
-KL_API int kl_joint_find(const kl_model *m, const char *name);
+KL_API int kl_model_find_joint(const kl_model *m, const char *name);
 /** The id of the point named `name`, or KL_EID if there is none. */
-KL_API int kl_point_find(const kl_model *m, const char *name);
+KL_API int kl_model_find_point(const kl_model *m, const char *name);
 /** The link a point belongs to, and its local coordinates into `xy` (may be NULL). */
-KL_API int kl_point_link(const kl_model *m, int point, double xy[2]);
-/** KL_REVOLUTE, KL_PRISMATIC or KL_SLOT, or KL_EID. */
-KL_API int kl_joint_kind(const kl_model *m, int joint);
+KL_API int kl_model_point_link(const kl_model *m, int point, double xy[2]);
+/** KL_JOINT_REVOLUTE, KL_JOINT_PRISMATIC or KL_JOINT_SLOT, or KL_EID. */
+KL_API int kl_model_joint_kind(const kl_model *m, int joint);
 /**
  * The joint's links into `links` ([0] = a, [1] = b) and its attachment points
  * into `a_xy` and `b_xy` (each may be NULL). Returns KL_OK or KL_EID.
  */
-KL_API int kl_joint_links(const kl_model *m, int joint, int links[2],
+KL_API int kl_model_joint_links(const kl_model *m, int joint, int links[2],
                           double a_xy[2], double b_xy[2]);
 /** The slide axis angle of a prismatic or slot joint in a's frame; NaN otherwise. */
-KL_API double kl_joint_axis(const kl_model *m, int joint);
+KL_API double kl_model_joint_axis(const kl_model *m, int joint);
 /** The joint an input drives, or KL_EID. */
-KL_API int kl_input_joint(const kl_model *m, int input);
+KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /* ------------------------------------------------------------------------
  * Model files (the format is described in docs/model-format.md)
@@ -431,9 +459,9 @@ KL_API kl_model *kl_model_read_file(const char *path, kl_io_error *err);
  * Reading the text back gives the same model (numbers are written with 17
  * significant digits; angles in degrees convert to within a rounding).
  * Returns KL_OK (also for the sizing call with buf NULL and cap 0), or
- * KL_EINVAL (NULL model, buf NULL with cap > 0, or buf too small: then the
- * text is cut at cap - 1 bytes and NUL-terminated, and *needed still says
- * the whole length).
+ * KL_EINVAL (NULL model, or buf NULL with cap > 0), or KL_ETRUNCATED (buf
+ * too small: the text is cut at cap - 1 bytes and NUL-terminated, and
+ * *needed still says the whole length).
  */
 KL_API int kl_model_write(const kl_model *m, char *buf, size_t cap,
                           size_t *needed);
@@ -453,8 +481,9 @@ typedef struct kl_solver kl_solver;
 enum kl_kernel {
   KL_KERNEL_AUTO = 0,   /**< choose by size and structure (the default) */
   KL_KERNEL_SMALL = 1,  /**< built-in LU with partial pivoting, for a few unknowns */
-  KL_KERNEL_DENSE = 2,  /**< LAPACK dgetrf / dgetrs / dgecon */
-  KL_KERNEL_BANDED = 3  /**< LAPACK dgbtrf / dgbtrs / dgbcon after a band-reducing ordering */
+  KL_KERNEL_DENSE = 2,  /**< LAPACK's dense LU */
+  KL_KERNEL_BANDED = 3  /**< LAPACK's banded LU after a band-reducing ordering
+                             (docs/theory.md says how each kernel works) */
 };
 
 /**
@@ -469,10 +498,9 @@ typedef struct kl_options {
   int max_backtracks;      /**< line-search halvings per iteration; default 40 */
   double max_step;         /**< largest Newton step: rad, or scale units for slides; default 1 */
   double singular_rcond;   /**< rcond below this at the solution is singular; default 1e-8 */
-  int kernel;              /**< enum kl_kernel; default KL_KERNEL_AUTO: the small kernel
-                                up to 16 unknowns, banded where the ordered band is at most a
-                                quarter of the unknowns, dense otherwise. All give the same
-                                answers to rounding. */
+  int kernel;              /**< enum kl_kernel; default KL_KERNEL_AUTO, which chooses by
+                                size and band (docs/theory.md). All give the same answers
+                                to rounding. */
 } kl_options;
 
 /** Fills `o` with the default options (and `o->size`) as this header
@@ -536,7 +564,7 @@ KL_API const char *kl_solver_error(const kl_solver *s);
 KL_API int kl_solver_set_options(kl_solver *s, const kl_options *o);
 
 /** Copies the solver's options into `o` (up to o->size bytes if set, else all). */
-KL_API int kl_solver_get_options(const kl_solver *s, kl_options *o);
+KL_API int kl_solver_options(const kl_solver *s, kl_options *o);
 
 /**
  * Sketch: sets a link's angle (radians) in the solver's state, the starting
@@ -612,11 +640,9 @@ typedef struct kl_solve_stats {
   double residual;          /**< |F|inf at the final iterate, length units */
   double step;              /**< |dq|inf of the last Newton step */
   double rcond;             /**< reciprocal condition number (1-norm, slide columns scaled to
-                                 lengths) at the last factored iterate: the solution, or
-                                 the iterate one quadratically converged Newton step (at
-                                 most 1e-5) before it (docs/theory.md 5.3); exact with the
-                                 small kernel, LAPACK's dgecon / dgbcon estimate otherwise;
-                                 0 if singular */
+                                 lengths) at the last factored iterate, the solution or
+                                 one quadratically converged Newton step before it (how it
+                                 is estimated: docs/theory.md); 0 if singular */
   int kernel;               /**< the enum kl_kernel that factored the system */
 } kl_solve_stats;
 
@@ -707,22 +733,19 @@ KL_API int kl_solver_copy_state(kl_solver *to, const kl_solver *from);
 
 /**
  * Finds the assembly modes (branches) at `inputs`: the distinct solutions
- * reached by Newton from a fixed set of starts - every free link angle at
- * each of the 8 values 0.3 + k pi/4 and every free slide at each of
- * {-2, -1, -0.5, 0.5, 1, 2} times the model's scale, in all combinations;
- * 4 angle and 4 slide values ({0.3 + k pi/2}, {-2, -0.5, 0.5, 2}) when that
- * would exceed 20000 starts. Two solutions are the same when every angle
- * agrees within 1e-6 rad (modulo 2 pi) and every slide within 1e-6 times the
- * scale; singular solutions are left out. The i-th distinct solution is
+ * Newton's method reaches from a fixed grid of starts over every free angle
+ * and slide (the grid: docs/figures.md section 2). Two solutions are the same when
+ * every angle agrees within 1e-6 rad (modulo 2 pi) and every slide within
+ * 1e-6 times the scale; singular solutions are left out. The i-th distinct solution is
  * written into modes[i] (solvers of the same model, i < cap) as a solved
  * position, angles reduced to (-pi, pi]; `s` serves as the workspace and
  * keeps its state.
  * Returns the number of distinct solutions found (which may exceed cap;
  * only cap are written), or KL_EINVAL (NULL or foreign solvers, cap < 0),
- * KL_ENONFINITE, or KL_EOVERCONSTRAINED if even the smaller set of starts
- * exceeds 20000 (the model is too large for this search). Never allocates.
+ * KL_ENONFINITE, or KL_ETOOLARGE if the model has too many free
+ * coordinates for the grid (more than 20000 starts). Never allocates.
  */
-KL_API int kl_find_assemblies(kl_solver *s, const double *inputs,
+KL_API int kl_solver_find_assemblies(kl_solver *s, const double *inputs,
                               kl_solver *const *modes, int cap);
 
 /* ------------------------------------------------------------------------
@@ -742,7 +765,7 @@ typedef int (*kl_sweep_fn)(const kl_solver *s, int step, double input,
 /** Outcome of a sweep. Set `size` to sizeof(kl_sweep_result) first. */
 typedef struct kl_sweep_result {
   size_t size;        /**< sizeof(kl_sweep_result), set by the caller */
-  int status;         /**< what kl_sweep returned */
+  int status;         /**< what kl_solver_sweep returned */
   int steps_done;     /**< steps delivered to the callback */
   double limit_input; /**< the located motion limit (status KL_LIMIT) or
                            singular position (KL_ESINGULAR); NaN otherwise */
@@ -776,7 +799,7 @@ typedef struct kl_sweep_result {
  * Afterwards the solver holds the last delivered step (or, if none was, its
  * state from before). Never allocates.
  */
-KL_API int kl_sweep(kl_solver *s, int input, double from, double to,
+KL_API int kl_solver_sweep(kl_solver *s, int input, double from, double to,
                     int steps, kl_sweep_fn fn, void *user,
                     kl_sweep_result *result);
 
@@ -786,12 +809,12 @@ KL_API int kl_sweep(kl_solver *s, int input, double from, double to,
 
 /** Four-bar classes by the Grashof condition, relative to the input link. */
 enum kl_grashof_class {
-  KL_CRANK_ROCKER = 1,  /**< Grashof, input shortest: input turns fully, output rocks */
-  KL_ROCKER_CRANK = 2,  /**< Grashof, output shortest: output turns fully, input rocks */
-  KL_DOUBLE_CRANK = 3,  /**< Grashof, ground shortest (drag link) */
-  KL_DOUBLE_ROCKER = 4, /**< Grashof, coupler shortest */
-  KL_CHANGE_POINT = 5,  /**< s + l = p + q (within 1e-12 l): can fold into a line */
-  KL_TRIPLE_ROCKER = 6  /**< non-Grashof, s + l > p + q: no link turns fully */
+  KL_GRASHOF_CRANK_ROCKER = 1,  /**< Grashof, input shortest: input turns fully, output rocks */
+  KL_GRASHOF_ROCKER_CRANK = 2,  /**< Grashof, output shortest: output turns fully, input rocks */
+  KL_GRASHOF_DOUBLE_CRANK = 3,  /**< Grashof, ground shortest (drag link) */
+  KL_GRASHOF_DOUBLE_ROCKER = 4, /**< Grashof, coupler shortest */
+  KL_GRASHOF_CHANGE_POINT = 5,  /**< s + l = p + q (within 1e-12 l): can fold into a line */
+  KL_GRASHOF_TRIPLE_ROCKER = 6  /**< non-Grashof, s + l > p + q: no link turns fully */
 };
 
 /**
@@ -817,16 +840,16 @@ KL_API int kl_model_grashof(const kl_model *m);
 
 /** What a design figure measures. */
 enum kl_output_kind {
-  KL_OUT_LINK_ANGLE = 0,   /**< angle of link `id` (rad) */
-  KL_OUT_SLIDE = 1,        /**< slide of prismatic or slot joint `id` */
-  KL_OUT_JOINT_ANGLE = 2,  /**< relative angle of joint `id` (rad) */
-  KL_OUT_POINT_X = 3,      /**< x of point `id` */
-  KL_OUT_POINT_Y = 4,      /**< y of point `id` */
-  KL_OUT_TRANSMISSION = 5  /**< transmission angle at revolute joint `id` (rad) */
+  KL_OUTPUT_LINK_ANGLE = 0,   /**< angle of link `id` (rad) */
+  KL_OUTPUT_SLIDE = 1,        /**< slide of prismatic or slot joint `id` */
+  KL_OUTPUT_JOINT_ANGLE = 2,  /**< relative angle of joint `id` (rad) */
+  KL_OUTPUT_POINT_X = 3,      /**< x of point `id` */
+  KL_OUTPUT_POINT_Y = 4,      /**< y of point `id` */
+  KL_OUTPUT_TRANSMISSION = 5  /**< transmission angle at revolute joint `id` (rad) */
 };
 
 /**
- * A scalar output of the mechanism. For KL_OUT_TRANSMISSION, `id` is a
+ * A scalar output of the mechanism. For KL_OUTPUT_TRANSMISSION, `id` is a
  * revolute joint between links a and b, and the angle, in [0, pi], is taken
  * between the line on a from that joint to joint `line_a` (another joint on
  * a) and the line on b from it to joint `line_b` (another joint on b): for a
@@ -870,13 +893,13 @@ typedef struct kl_range {
 
 /**
  * Extremes of output `o` while input `input` sweeps from `from` to `to` in
- * `steps` steps (as kl_sweep): where the output's slope (from the unit-rate
+ * `steps` steps (as kl_solver_sweep): where the output's slope (from the unit-rate
  * velocity) changes sign between neighbouring steps, false position on the
  * slope finds the turning point to 1e-13 in the input, so an extreme
  * between samples is found too (docs/figures.md section 5). The samples,
  * the ends of the range and the motion limit count as candidates as well.
  * The solver is left at the end of the sweep. Returns KL_OK or KL_LIMIT (the
- * range is what was reachable), or the statuses of kl_sweep and
+ * range is what was reachable), or the statuses of kl_solver_sweep and
  * kl_output_value. Never allocates.
  */
 KL_API int kl_output_range(kl_solver *s, int input, double from, double to,
@@ -890,7 +913,7 @@ KL_API int kl_output_range(kl_solver *s, int input, double from, double to,
  * angle back, 2 pi - A. Returns KL_OK, KL_EINVAL (NULL, or equal angles
  * modulo 2 pi), KL_ENONFINITE.
  */
-KL_API int kl_time_ratio(const kl_range *range, double *ratio);
+KL_API int kl_range_time_ratio(const kl_range *range, double *ratio);
 
 /**
  * Mechanical advantage of an ideal (frictionless, massless) linkage: output
@@ -898,7 +921,7 @@ KL_API int kl_time_ratio(const kl_range *range, double *ratio);
  * work), into `ma`; infinite at a dead point of the output. Returns as
  * kl_output_deriv.
  */
-KL_API int kl_mechanical_advantage(kl_solver *s, const kl_output *o,
+KL_API int kl_output_mechanical_advantage(kl_solver *s, const kl_output *o,
                                    int input, double *ma);
 
 /** Load kinds for kl_input_effort. */
@@ -930,9 +953,9 @@ KL_API int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
 
 /** Which dimension a sensitivity is taken against. */
 enum kl_dimension_kind {
-  KL_DIM_JOINT_A = 0, /**< joint `id`'s attachment point on its link a */
-  KL_DIM_JOINT_B = 1, /**< joint `id`'s attachment point on its link b */
-  KL_DIM_POINT = 2    /**< point `id`'s local coordinates */
+  KL_DIMENSION_JOINT_A = 0, /**< joint `id`'s attachment point on its link a */
+  KL_DIMENSION_JOINT_B = 1, /**< joint `id`'s attachment point on its link b */
+  KL_DIMENSION_POINT = 2    /**< point `id`'s local coordinates */
 };
 
 /** A dimension: one local coordinate (axis 0 = x, 1 = y) of a point. */
@@ -960,7 +983,7 @@ KL_API int kl_output_sensitivity(kl_solver *s, const kl_output *o,
  * KL_EINVAL for a negative tolerance, KL_ENONFINITE for a NaN or infinite
  * one.
  */
-KL_API int kl_tolerance_stack(kl_solver *s, const kl_output *o, int n,
+KL_API int kl_output_tolerance_stack(kl_solver *s, const kl_output *o, int n,
                               const kl_dimension *dims,
                               const double *tolerances, double *worst,
                               double *rss);

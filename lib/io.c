@@ -275,9 +275,9 @@ static int expect_ref(reader *r, int kind, const char *what, int *id) {
     *id = (int)v;
     return KL_OK;
   }
-  found = kind == REF_LINK    ? kl_link_find(r->m, t.text)
-          : kind == REF_JOINT ? kl_joint_find(r->m, t.text)
-                              : kl_point_find(r->m, t.text);
+  found = kind == REF_LINK    ? kl_model_find_link(r->m, t.text)
+          : kind == REF_JOINT ? kl_model_find_joint(r->m, t.text)
+                              : kl_model_find_point(r->m, t.text);
   if (found < 0)
     return fail_at(r, KL_ESYNTAX, t.column,
                    "no %s is named '%.60s' (%s); %ss must be declared "
@@ -353,7 +353,7 @@ static int read_joint(reader *r, int kind) {
       (st = expect_number(r, "x on the first link", &ax)) != KL_OK ||
       (st = expect_number(r, "y on the first link", &ay)) != KL_OK)
     return st;
-  if (kind != KL_REVOLUTE &&
+  if (kind != KL_JOINT_REVOLUTE &&
       ((st = expect_keyword(r, "axis", "before the slide axis angle")) !=
            KL_OK ||
        (st = expect_number(r, "the slide axis angle", &axis)) != KL_OK))
@@ -363,13 +363,13 @@ static int read_joint(reader *r, int kind) {
       (st = expect_number(r, "y on the second link", &by)) != KL_OK ||
       (st = expect_end(r)) != KL_OK)
     return st;
-  joint = kind == KL_REVOLUTE ? kl_add_revolute(r->m, a, ax, ay, b, bx, by)
-          : kind == KL_PRISMATIC
+  joint = kind == KL_JOINT_REVOLUTE ? kl_add_revolute(r->m, a, ax, ay, b, bx, by)
+          : kind == KL_JOINT_PRISMATIC
               ? kl_add_prismatic(r->m, a, ax, ay, angle_in(r, axis), b, bx, by)
               : kl_add_slot(r->m, a, ax, ay, angle_in(r, axis), b, bx, by);
   if (joint < 0)
     return builder_failed(r, joint, name_tok.column);
-  if (name != NULL && (st = kl_set_joint_name(r->m, joint, name)) != KL_OK)
+  if (name != NULL && (st = kl_model_set_joint_name(r->m, joint, name)) != KL_OK)
     return builder_failed(r, st, name_tok.column);
   return KL_OK;
 }
@@ -439,13 +439,13 @@ static int read_sketch(reader *r) {
         (st = expect_number(r, "the sketch angle", &v)) != KL_OK ||
         (st = expect_end(r)) != KL_OK)
       return st;
-    st = kl_set_sketch_angle(r->m, id, angle_in(r, v));
+    st = kl_model_set_sketch_angle(r->m, id, angle_in(r, v));
   } else if (t.kind == TOKEN_WORD && strcmp(t.text, "slide") == 0) {
     if ((st = expect_ref(r, REF_JOINT, "the sketched joint", &id)) != KL_OK ||
         (st = expect_number(r, "the sketch slide", &v)) != KL_OK ||
         (st = expect_end(r)) != KL_OK)
       return st;
-    st = kl_set_sketch_slide(r->m, id, v);
+    st = kl_model_set_sketch_slide(r->m, id, v);
   } else {
     return fail_at(r, KL_ESYNTAX, t.column,
                    "expected 'angle' or 'slide' after 'sketch', found "
@@ -478,7 +478,7 @@ static int parse_sweep(reader *r, kl_sweep_settings *sw) {
     return fail_at(r, KL_ESYNTAX, 1,
                    "the swept joint is not an input; declare it with "
                    "'input' first");
-  if (r->m->joints[joint].kind == KL_REVOLUTE) {
+  if (r->m->joints[joint].kind == KL_JOINT_REVOLUTE) {
     sw->from = angle_in(r, sw->from);
     sw->to = angle_in(r, sw->to);
   }
@@ -527,11 +527,11 @@ static int read_statement(reader *r, const token *key) {
   if (strcmp(k, "link") == 0)
     return read_link(r);
   if (strcmp(k, "revolute") == 0)
-    return read_joint(r, KL_REVOLUTE);
+    return read_joint(r, KL_JOINT_REVOLUTE);
   if (strcmp(k, "prismatic") == 0)
-    return read_joint(r, KL_PRISMATIC);
+    return read_joint(r, KL_JOINT_PRISMATIC);
   if (strcmp(k, "slot") == 0)
-    return read_joint(r, KL_SLOT);
+    return read_joint(r, KL_JOINT_SLOT);
   if (strcmp(k, "point") == 0)
     return read_point(r);
   if (strcmp(k, "input") == 0)
@@ -811,12 +811,12 @@ static int read_dimension(study_reader *sr, kl_dimension *d, int *column) {
       return fail_at(&sr->r, KL_ESYNTAX, side.column,
                      "expected the joint's side, a or b, found '%.60s'",
                      shown(&side));
-    d->kind = side.text[0] == 'a' ? KL_DIM_JOINT_A : KL_DIM_JOINT_B;
+    d->kind = side.text[0] == 'a' ? KL_DIMENSION_JOINT_A : KL_DIMENSION_JOINT_B;
   } else if (t.kind == TOKEN_WORD && strcmp(t.text, "point") == 0) {
     if ((st = expect_ref(&sr->r, REF_POINT, "the point that moves", &d->id)) !=
         KL_OK)
       return st;
-    d->kind = KL_DIM_POINT;
+    d->kind = KL_DIMENSION_POINT;
   } else {
     return fail_at(&sr->r, KL_ESYNTAX, t.column,
                    "expected 'joint' or 'point' (the dimension that varies), "
@@ -957,25 +957,25 @@ static int read_output_spec(study_reader *sr, kli_judge *j) {
   j->to_file = 1.0;
   o->line_a = o->line_b = 0;
   if (t.kind == TOKEN_WORD && strcmp(t.text, "angle") == 0) {
-    o->kind = KL_OUT_LINK_ANGLE;
+    o->kind = KL_OUTPUT_LINK_ANGLE;
     j->to_file = deg;
     return expect_ref(&sr->r, REF_LINK, "the link", &o->id);
   }
   if (t.kind == TOKEN_WORD && strcmp(t.text, "slide") == 0) {
-    o->kind = KL_OUT_SLIDE;
+    o->kind = KL_OUTPUT_SLIDE;
     return expect_ref(&sr->r, REF_JOINT, "the sliding joint", &o->id);
   }
   if (t.kind == TOKEN_WORD && strcmp(t.text, "joint-angle") == 0) {
-    o->kind = KL_OUT_JOINT_ANGLE;
+    o->kind = KL_OUTPUT_JOINT_ANGLE;
     j->to_file = deg;
     return expect_ref(&sr->r, REF_JOINT, "the joint", &o->id);
   }
   if (t.kind == TOKEN_WORD && (strcmp(t.text, "x") == 0 || strcmp(t.text, "y") == 0)) {
-    o->kind = t.text[0] == 'x' ? KL_OUT_POINT_X : KL_OUT_POINT_Y;
+    o->kind = t.text[0] == 'x' ? KL_OUTPUT_POINT_X : KL_OUTPUT_POINT_Y;
     return expect_ref(&sr->r, REF_POINT, "the point", &o->id);
   }
   if (t.kind == TOKEN_WORD && strcmp(t.text, "transmission") == 0) {
-    o->kind = KL_OUT_TRANSMISSION;
+    o->kind = KL_OUTPUT_TRANSMISSION;
     j->to_file = deg;
     if ((st = expect_ref(&sr->r, REF_JOINT, "the revolute joint", &o->id)) ||
         (st = expect_ref(&sr->r, REF_JOINT, "the joint of link a's line",
@@ -1380,7 +1380,7 @@ static void write_model(const kl_model *m, sink *o) {
     }
   if (m->has_sweep) {
     int joint = m->inputs[m->sweep.input];
-    int angle = m->joints[joint].kind == KL_REVOLUTE;
+    int angle = m->joints[joint].kind == KL_JOINT_REVOLUTE;
     put(o, "sweep");
     put_joint_ref(o, m, joint);
     put(o, " from %.17g to %.17g steps %d\n",
@@ -1401,7 +1401,7 @@ int kl_model_write(const kl_model *m, char *buf, size_t cap, size_t *needed) {
     *needed = o.len;
   if (buf == NULL)
     return KL_OK; /* the sizing call */
-  return o.len < cap ? KL_OK : KL_EINVAL;
+  return o.len < cap ? KL_OK : KL_ETRUNCATED;
 }
 
 int kl_model_write_file(const kl_model *m, const char *path,

@@ -46,25 +46,25 @@ int kl_grashof(double ground, double input, double coupler, double output) {
   }
   /* s + l against p + q = sum - s - l, equality within rounding of l */
   if (fabs((s + l) - (sum - s - l)) <= 1e-12 * l)
-    return KL_CHANGE_POINT;
+    return KL_GRASHOF_CHANGE_POINT;
   if (s + l > sum - s - l)
-    return KL_TRIPLE_ROCKER;
+    return KL_GRASHOF_TRIPLE_ROCKER;
   switch (shortest) {
-  case 0: return KL_DOUBLE_CRANK;
-  case 1: return KL_CRANK_ROCKER;
-  case 2: return KL_DOUBLE_ROCKER;
-  default: return KL_ROCKER_CRANK;
+  case 0: return KL_GRASHOF_DOUBLE_CRANK;
+  case 1: return KL_GRASHOF_CRANK_ROCKER;
+  case 2: return KL_GRASHOF_DOUBLE_ROCKER;
+  default: return KL_GRASHOF_ROCKER_CRANK;
   }
 }
 
 const char *kl_grashof_str(int cls) {
   switch (cls) {
-  case KL_CRANK_ROCKER: return "crank-rocker";
-  case KL_ROCKER_CRANK: return "rocker-crank";
-  case KL_DOUBLE_CRANK: return "double-crank";
-  case KL_DOUBLE_ROCKER: return "double-rocker";
-  case KL_CHANGE_POINT: return "change point";
-  case KL_TRIPLE_ROCKER: return "triple-rocker";
+  case KL_GRASHOF_CRANK_ROCKER: return "crank-rocker";
+  case KL_GRASHOF_ROCKER_CRANK: return "rocker-crank";
+  case KL_GRASHOF_DOUBLE_CRANK: return "double-crank";
+  case KL_GRASHOF_DOUBLE_ROCKER: return "double-rocker";
+  case KL_GRASHOF_CHANGE_POINT: return "change point";
+  case KL_GRASHOF_TRIPLE_ROCKER: return "triple-rocker";
   default: return "not a class";
   }
 }
@@ -86,7 +86,7 @@ int kl_model_grashof(const kl_model *m) {
       m->topo.nloops != 1)
     return KL_EKIND;
   for (j = 0; j < 4; j++) {
-    if (m->joints[j].kind != KL_REVOLUTE)
+    if (m->joints[j].kind != KL_JOINT_REVOLUTE)
       return KL_EKIND;
     if (m->joints[j].link[0] == KL_GROUND ||
         m->joints[j].link[1] == KL_GROUND) {
@@ -163,7 +163,7 @@ int kl_output_deriv(kl_solver *s, const kl_output *o, int input,
   return KL_OK;
 }
 
-int kl_mechanical_advantage(kl_solver *s, const kl_output *o, int input,
+int kl_output_mechanical_advantage(kl_solver *s, const kl_output *o, int input,
                             double *ma) {
   double d;
   int st;
@@ -306,7 +306,7 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
   r.o = o;
   r.direction = to >= from ? 1.0 : -1.0;
   sw.size = sizeof sw;
-  st = kl_sweep(s, input, from, to, steps, track_extremes, &r, &sw);
+  st = kl_solver_sweep(s, input, from, to, steps, track_extremes, &r, &sw);
   if (st != KL_OK && st != KL_LIMIT)
     return st;
   memset(&out, 0, sizeof out);
@@ -317,7 +317,7 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
     double inside = sw.limit_input - (to > from ? 1.0 : -1.0) * KLI_LIMIT_INSIDE;
     kl_sweep_result tail;
     tail.size = sizeof tail;
-    kl_sweep(s, input, r.u, inside, 1, track_extremes, &r, &tail);
+    kl_solver_sweep(s, input, r.u, inside, 1, track_extremes, &r, &tail);
   }
   kli_state_copy(s, &s->delivered, &s->st); /* where the sweep ended */
   /* the ends of the range are candidates; then each bracketed turn */
@@ -348,7 +348,7 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
   return st;
 }
 
-int kl_time_ratio(const kl_range *range, double *ratio) {
+int kl_range_time_ratio(const kl_range *range, double *ratio) {
   double a;
   if (range == NULL || ratio == NULL)
     return KL_EINVAL;
@@ -456,7 +456,7 @@ int kl_output_sensitivity(kl_solver *s, const kl_output *o,
   return sensitivity(s, o, dim, deriv);
 }
 
-int kl_tolerance_stack(kl_solver *s, const kl_output *o, int n,
+int kl_output_tolerance_stack(kl_solver *s, const kl_output *o, int n,
                        const kl_dimension *dims, const double *tolerances,
                        double *worst, double *rss) {
   double sum = 0.0, squares = 0.0;

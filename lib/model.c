@@ -74,7 +74,7 @@ const char *kl_model_error(const kl_model *m) {
 /* ---- labels used in messages ---- */
 
 const char *kli_link_label(const kl_model *m, int link, char *buf, size_t n) {
-  const char *name = kl_link_name(m, link);
+  const char *name = kl_model_link_name(m, link);
   if (name != NULL)
     snprintf(buf, n, "link %d '%.40s'", link, name);
   else
@@ -84,7 +84,7 @@ const char *kli_link_label(const kl_model *m, int link, char *buf, size_t n) {
 
 const char *kli_point_label(const kl_model *m, int point, char *buf,
                             size_t n) {
-  const char *name = kl_point_name(m, point);
+  const char *name = kl_model_point_name(m, point);
   if (name != NULL)
     snprintf(buf, n, "point %d '%.40s'", point, name);
   else
@@ -94,8 +94,8 @@ const char *kli_point_label(const kl_model *m, int point, char *buf,
 
 const char *kli_kind_name(int kind) {
   switch (kind) {
-  case KL_REVOLUTE: return "revolute";
-  case KL_PRISMATIC: return "prismatic";
+  case KL_JOINT_REVOLUTE: return "revolute";
+  case KL_JOINT_PRISMATIC: return "prismatic";
   default: return "slot";
   }
 }
@@ -113,7 +113,7 @@ const char *kli_joint_label(const kl_model *m, int joint, char *buf,
   return buf;
 }
 
-int kli_is_sliding(int kind) { return kind == KL_PRISMATIC || kind == KL_SLOT; }
+int kli_is_sliding(int kind) { return kind == KL_JOINT_PRISMATIC || kind == KL_JOINT_SLOT; }
 
 const double *kli_joint_point_on(const kl_model *m, int joint, int link) {
   const kli_joint *j = &m->joints[joint];
@@ -188,7 +188,7 @@ int kl_add_link(kl_model *m, const char *name) {
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "add link")) != KL_OK ||
-      (st = check_name(m, name, "add link", kl_link_name, m->nlinks)) != KL_OK)
+      (st = check_name(m, name, "add link", kl_model_link_name, m->nlinks)) != KL_OK)
     return st;
   if (kli_reserve(&m->alloc, (void **)&m->links, &m->cap_links, m->nlinks + 1,
                   sizeof *m->links) != KL_OK)
@@ -251,17 +251,17 @@ static int add_joint(kl_model *m, int kind, int a, double ax, double ay,
 
 int kl_add_revolute(kl_model *m, int a, double ax, double ay, int b, double bx,
                     double by) {
-  return add_joint(m, KL_REVOLUTE, a, ax, ay, 0.0, b, bx, by);
+  return add_joint(m, KL_JOINT_REVOLUTE, a, ax, ay, 0.0, b, bx, by);
 }
 
 int kl_add_prismatic(kl_model *m, int a, double ax, double ay,
                      double axis_angle, int b, double bx, double by) {
-  return add_joint(m, KL_PRISMATIC, a, ax, ay, axis_angle, b, bx, by);
+  return add_joint(m, KL_JOINT_PRISMATIC, a, ax, ay, axis_angle, b, bx, by);
 }
 
 int kl_add_slot(kl_model *m, int a, double ax, double ay, double axis_angle,
                 int b, double bx, double by) {
-  return add_joint(m, KL_SLOT, a, ax, ay, axis_angle, b, bx, by);
+  return add_joint(m, KL_JOINT_SLOT, a, ax, ay, axis_angle, b, bx, by);
 }
 
 static int add_sliding_through(kl_model *m, int kind, int a, double ax,
@@ -286,12 +286,12 @@ static int add_sliding_through(kl_model *m, int kind, int a, double ax,
 int kl_add_prismatic_through(kl_model *m, int a, double ax, double ay,
                              double tx, double ty, int b, double bx,
                              double by) {
-  return add_sliding_through(m, KL_PRISMATIC, a, ax, ay, tx, ty, b, bx, by);
+  return add_sliding_through(m, KL_JOINT_PRISMATIC, a, ax, ay, tx, ty, b, bx, by);
 }
 
 int kl_add_slot_through(kl_model *m, int a, double ax, double ay, double tx,
                         double ty, int b, double bx, double by) {
-  return add_sliding_through(m, KL_SLOT, a, ax, ay, tx, ty, b, bx, by);
+  return add_sliding_through(m, KL_JOINT_SLOT, a, ax, ay, tx, ty, b, bx, by);
 }
 
 int kl_add_point(kl_model *m, int link, double x, double y, const char *name) {
@@ -307,7 +307,7 @@ int kl_add_point(kl_model *m, int link, double x, double y, const char *name) {
     return kli_fail(m->error, KL_ENONFINITE,
                     "add point on %s: a coordinate is NaN or infinite",
                     kli_link_label(m, link, la, sizeof la));
-  if ((st = check_name(m, name, "add point", kl_point_name, m->npoints)) !=
+  if ((st = check_name(m, name, "add point", kl_model_point_name, m->npoints)) !=
       KL_OK)
     return st;
   if (kli_reserve(&m->alloc, (void **)&m->points, &m->cap_points,
@@ -455,7 +455,7 @@ int kl_add_loop(kl_model *m, int njoints, const int *joints) {
   return m->nreg_loops++;
 }
 
-int kl_set_joint_name(kl_model *m, int joint, const char *name) {
+int kl_model_set_joint_name(kl_model *m, int joint, const char *name) {
   int st;
   char *copy;
   if (m == NULL)
@@ -468,7 +468,7 @@ int kl_set_joint_name(kl_model *m, int joint, const char *name) {
   if (m->joints[joint].name != NULL &&
       strcmp(m->joints[joint].name, name) == 0)
     return KL_OK;
-  if ((st = check_name(m, name, "name joint", kl_joint_name, m->njoints)) !=
+  if ((st = check_name(m, name, "name joint", kl_model_joint_name, m->njoints)) !=
           KL_OK ||
       (st = copy_name(m, name, &copy, "name joint")) != KL_OK)
     return st;
@@ -517,7 +517,7 @@ const char *kl_angle_unit_str(int angle_unit) {
   return angle_unit == KL_ANGLE_DEG ? "deg" : "rad";
 }
 
-int kl_set_sketch_angle(kl_model *m, int link, double angle) {
+int kl_model_set_sketch_angle(kl_model *m, int link, double angle) {
   int st;
   if (m == NULL)
     return KL_EINVAL;
@@ -537,7 +537,7 @@ int kl_set_sketch_angle(kl_model *m, int link, double angle) {
   return KL_OK;
 }
 
-int kl_set_sketch_slide(kl_model *m, int joint, double slide) {
+int kl_model_set_sketch_slide(kl_model *m, int joint, double slide) {
   int st;
   char lj[160];
   if (m == NULL)
@@ -557,13 +557,13 @@ int kl_set_sketch_slide(kl_model *m, int joint, double slide) {
   return KL_OK;
 }
 
-double kl_sketch_angle(const kl_model *m, int link) {
+double kl_model_sketch_angle(const kl_model *m, int link) {
   if (m == NULL || link < 0 || link >= m->nlinks || !m->links[link].has_sketch)
     return NAN;
   return m->links[link].sketch;
 }
 
-double kl_sketch_slide(const kl_model *m, int joint) {
+double kl_model_sketch_slide(const kl_model *m, int joint) {
   if (m == NULL || joint < 0 || joint >= m->njoints ||
       !m->joints[joint].has_sketch)
     return NAN;
@@ -689,19 +689,19 @@ int kl_model_input_count(const kl_model *m) {
   return m == NULL ? KL_EINVAL : m->ninputs;
 }
 
-const char *kl_link_name(const kl_model *m, int link) {
+const char *kl_model_link_name(const kl_model *m, int link) {
   if (m == NULL || link < 0 || link >= m->nlinks)
     return NULL;
   return link == KL_GROUND ? "ground" : m->links[link].name;
 }
 
-const char *kl_joint_name(const kl_model *m, int joint) {
+const char *kl_model_joint_name(const kl_model *m, int joint) {
   if (m == NULL || joint < 0 || joint >= m->njoints)
     return NULL;
   return m->joints[joint].name;
 }
 
-int kl_joint_find(const kl_model *m, const char *name) {
+int kl_model_find_joint(const kl_model *m, const char *name) {
   int i;
   if (m == NULL || name == NULL)
     return KL_EINVAL;
@@ -711,25 +711,25 @@ int kl_joint_find(const kl_model *m, const char *name) {
   return KL_EID;
 }
 
-const char *kl_point_name(const kl_model *m, int point) {
+const char *kl_model_point_name(const kl_model *m, int point) {
   if (m == NULL || point < 0 || point >= m->npoints)
     return NULL;
   return m->points[point].name;
 }
 
-int kl_link_find(const kl_model *m, const char *name) {
+int kl_model_find_link(const kl_model *m, const char *name) {
   int i;
   if (m == NULL || name == NULL)
     return KL_EINVAL;
   for (i = 0; i < m->nlinks; i++) {
-    const char *n = kl_link_name(m, i);
+    const char *n = kl_model_link_name(m, i);
     if (n != NULL && strcmp(n, name) == 0)
       return i;
   }
   return KL_EID;
 }
 
-int kl_point_find(const kl_model *m, const char *name) {
+int kl_model_find_point(const kl_model *m, const char *name) {
   int i;
   if (m == NULL || name == NULL)
     return KL_EINVAL;
@@ -739,7 +739,7 @@ int kl_point_find(const kl_model *m, const char *name) {
   return KL_EID;
 }
 
-int kl_point_link(const kl_model *m, int point, double xy[2]) {
+int kl_model_point_link(const kl_model *m, int point, double xy[2]) {
   if (m == NULL)
     return KL_EINVAL;
   if (point < 0 || point >= m->npoints)
@@ -751,7 +751,7 @@ int kl_point_link(const kl_model *m, int point, double xy[2]) {
   return m->points[point].link;
 }
 
-int kl_joint_kind(const kl_model *m, int joint) {
+int kl_model_joint_kind(const kl_model *m, int joint) {
   if (m == NULL)
     return KL_EINVAL;
   if (joint < 0 || joint >= m->njoints)
@@ -759,7 +759,7 @@ int kl_joint_kind(const kl_model *m, int joint) {
   return m->joints[joint].kind;
 }
 
-int kl_joint_links(const kl_model *m, int joint, int links[2], double a_xy[2],
+int kl_model_joint_links(const kl_model *m, int joint, int links[2], double a_xy[2],
                    double b_xy[2]) {
   const kli_joint *j;
   if (m == NULL)
@@ -778,14 +778,14 @@ int kl_joint_links(const kl_model *m, int joint, int links[2], double a_xy[2],
   return KL_OK;
 }
 
-double kl_joint_axis(const kl_model *m, int joint) {
+double kl_model_joint_axis(const kl_model *m, int joint) {
   if (m == NULL || joint < 0 || joint >= m->njoints ||
       !kli_is_sliding(m->joints[joint].kind))
     return NAN;
   return m->joints[joint].axis;
 }
 
-int kl_input_joint(const kl_model *m, int input) {
+int kl_model_input_joint(const kl_model *m, int input) {
   if (m == NULL)
     return KL_EINVAL;
   if (input < 0 || input >= m->ninputs)

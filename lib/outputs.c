@@ -19,20 +19,20 @@ int kli_output_check(const kl_model *m, const kl_output *o, char *buf) {
   if (o == NULL)
     return kli_fail(buf, KL_EINVAL, "output: none given (NULL)");
   switch (o->kind) {
-  case KL_OUT_LINK_ANGLE:
+  case KL_OUTPUT_LINK_ANGLE:
     if (o->id < 0 || o->id >= m->nlinks)
       return kli_fail(buf, KL_EID, "output: link %d does not exist (%d links)",
                  o->id, m->nlinks);
     return KL_OK;
-  case KL_OUT_POINT_X:
-  case KL_OUT_POINT_Y:
+  case KL_OUTPUT_POINT_X:
+  case KL_OUTPUT_POINT_Y:
     if (o->id < 0 || o->id >= m->npoints)
       return kli_fail(buf, KL_EID, "output: point %d does not exist (%d points)",
                  o->id, m->npoints);
     return KL_OK;
-  case KL_OUT_SLIDE:
-  case KL_OUT_JOINT_ANGLE:
-  case KL_OUT_TRANSMISSION:
+  case KL_OUTPUT_SLIDE:
+  case KL_OUTPUT_JOINT_ANGLE:
+  case KL_OUTPUT_TRANSMISSION:
     break;
   default:
     return kli_fail(buf, KL_EINVAL, "output: kind %d is not an output kind",
@@ -42,13 +42,13 @@ int kli_output_check(const kl_model *m, const kl_output *o, char *buf) {
     return kli_fail(buf, KL_EID, "output: joint %d does not exist (%d joints)",
                o->id, m->njoints);
   j = &m->joints[o->id];
-  if (o->kind == KL_OUT_SLIDE && !kli_is_sliding(j->kind))
+  if (o->kind == KL_OUTPUT_SLIDE && !kli_is_sliding(j->kind))
     return kli_fail(buf, KL_EKIND, "output: joint %d is revolute and has no "
                               "slide",
                o->id);
-  if (o->kind != KL_OUT_TRANSMISSION)
+  if (o->kind != KL_OUTPUT_TRANSMISSION)
     return KL_OK;
-  if (j->kind != KL_REVOLUTE)
+  if (j->kind != KL_JOINT_REVOLUTE)
     return kli_fail(buf, KL_EKIND, "output: a transmission angle needs a revolute "
                               "joint; joint %d is not",
                o->id);
@@ -79,7 +79,7 @@ int kli_dim_resolve(const kl_model *m, const kl_dimension *d, kli_dim *out,
                                "(y)",
                d->axis);
   out->axis = d->axis;
-  if (d->kind == KL_DIM_POINT) {
+  if (d->kind == KL_DIMENSION_POINT) {
     if (d->id < 0 || d->id >= m->npoints)
       return kli_fail(buf, KL_EID, "dimension: point %d does not exist (%d "
                               "points)",
@@ -89,7 +89,7 @@ int kli_dim_resolve(const kl_model *m, const kl_dimension *d, kli_dim *out,
     out->link = m->points[d->id].link;
     return KL_OK;
   }
-  if (d->kind != KL_DIM_JOINT_A && d->kind != KL_DIM_JOINT_B)
+  if (d->kind != KL_DIMENSION_JOINT_A && d->kind != KL_DIMENSION_JOINT_B)
     return kli_fail(buf, KL_EINVAL, "dimension: kind %d is not a dimension "
                                "kind",
                d->kind);
@@ -98,7 +98,7 @@ int kli_dim_resolve(const kl_model *m, const kl_dimension *d, kli_dim *out,
                d->id, m->njoints);
   out->joint = d->id;
   out->point = -1;
-  out->link = m->joints[d->id].link[d->kind == KL_DIM_JOINT_A ? 0 : 1];
+  out->link = m->joints[d->id].link[d->kind == KL_DIMENSION_JOINT_A ? 0 : 1];
   return KL_OK;
 }
 
@@ -122,18 +122,18 @@ double kli_output_value(const kl_solver *s, const kl_output *o) {
   double xy[2], wa[2], wb[2], la[2], lb[2];
   const kli_joint *j;
   switch (o->kind) {
-  case KL_OUT_LINK_ANGLE:
+  case KL_OUTPUT_LINK_ANGLE:
     return x[o->id];
-  case KL_OUT_SLIDE:
+  case KL_OUTPUT_SLIDE:
     return x[m->nlinks + o->id];
-  case KL_OUT_JOINT_ANGLE:
+  case KL_OUTPUT_JOINT_ANGLE:
     j = &m->joints[o->id];
     return x[j->link[1]] - x[j->link[0]];
-  case KL_OUT_POINT_X:
-  case KL_OUT_POINT_Y:
+  case KL_OUTPUT_POINT_X:
+  case KL_OUTPUT_POINT_Y:
     kli_chain_value(m, &m->topo.points[o->id], &s->st.pose, xy);
-    return xy[o->kind == KL_OUT_POINT_X ? 0 : 1];
-  default: /* KL_OUT_TRANSMISSION */
+    return xy[o->kind == KL_OUTPUT_POINT_X ? 0 : 1];
+  default: /* KL_OUTPUT_TRANSMISSION */
     j = &m->joints[o->id];
     transmission_line(s, o->id, o->line_a, j->link[0], wa, la);
     transmission_line(s, o->id, o->line_b, j->link[1], wb, lb);
@@ -167,27 +167,27 @@ double kli_output_change(const kl_solver *s, const kl_output *o,
   const kli_joint *j;
   double xy[2], wa[2], wb[2], la[2], lb[2], dwa[2], dwb[2], cross, dot;
   switch (o->kind) {
-  case KL_OUT_LINK_ANGLE:
+  case KL_OUTPUT_LINK_ANGLE:
     return dx[o->id];
-  case KL_OUT_SLIDE:
+  case KL_OUTPUT_SLIDE:
     return dx[m->nlinks + o->id];
-  case KL_OUT_JOINT_ANGLE:
+  case KL_OUTPUT_JOINT_ANGLE:
     j = &m->joints[o->id];
     return dx[j->link[1]] - dx[j->link[0]];
-  case KL_OUT_POINT_X:
-  case KL_OUT_POINT_Y: {
+  case KL_OUTPUT_POINT_X:
+  case KL_OUTPUT_POINT_Y: {
     const kli_chain *ch = &m->topo.points[o->id];
     double change;
     kli_chain_rate(m, ch, &s->st.pose, dx, xy);
-    change = xy[o->kind == KL_OUT_POINT_X ? 0 : 1];
+    change = xy[o->kind == KL_OUTPUT_POINT_X ? 0 : 1];
     if (dim != NULL && (dim->joint >= 0 || dim->point == o->id)) {
       kli_chain_dimension(m, ch, &s->st.pose, dim->joint, dim->link,
                           dim->axis, xy);
-      change += xy[o->kind == KL_OUT_POINT_X ? 0 : 1];
+      change += xy[o->kind == KL_OUTPUT_POINT_X ? 0 : 1];
     }
     return change;
   }
-  default: /* KL_OUT_TRANSMISSION: mu = atan2(|wa x wb|, wa . wb) */
+  default: /* KL_OUTPUT_TRANSMISSION: mu = atan2(|wa x wb|, wa . wb) */
     j = &m->joints[o->id];
     transmission_line(s, o->id, o->line_a, j->link[0], wa, la);
     transmission_line(s, o->id, o->line_b, j->link[1], wb, lb);

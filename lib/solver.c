@@ -235,7 +235,7 @@ int kl_solver_set_options(kl_solver *s, const kl_options *o) {
   return KL_OK;
 }
 
-int kl_solver_get_options(const kl_solver *s, kl_options *o) {
+int kl_solver_options(const kl_solver *s, kl_options *o) {
   size_t n;
   if (s == NULL || o == NULL)
     return KL_EINVAL;

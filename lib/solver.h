@@ -21,7 +21,7 @@ typedef struct {
   double rcond;           /* condition estimate of the factors at pose */
 } kli_state;
 
-/* Distinct assembly modes kl_find_assemblies can tell apart. */
+/* Distinct assembly modes kl_solver_find_assemblies can tell apart. */
 #define KLI_MAX_MODES 64
 
 struct kl_solver {

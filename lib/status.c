@@ -37,6 +37,8 @@ const char *kl_status_str(int status) {
   case KL_ESTAGE: return "stage called before the stage it needs";
   case KL_ESYNTAX: return "model file syntax error";
   case KL_EIO: return "file could not be read or written";
+  case KL_ETRUNCATED: return "buffer too small: output cut short";
+  case KL_ETOOLARGE: return "request exceeds a bound of the library";
   default: return "unknown status";
   }
 }

@@ -61,7 +61,7 @@ static double *dimension_slot(kl_model *m, const kli_vary *v) {
   if (v->where.joint < 0)
     return &m->points[v->where.point].at[v->where.axis];
   return &m->joints[v->where.joint]
-              .at[v->dim.kind == KL_DIM_JOINT_A ? 0 : 1][v->where.axis];
+              .at[v->dim.kind == KL_DIMENSION_JOINT_A ? 0 : 1][v->where.axis];
 }
 
 /* ---- one sample ---- */
@@ -111,14 +111,14 @@ static int judge_one(const kl_study *st, const kli_judge *j, kl_solver *s,
                                        : r.max;
     break;
   case KLI_JUDGE_AT:
-    status = kl_sweep(s, sw->input, sw->from, j->at, steps_to(st, j->at),
+    status = kl_solver_sweep(s, sw->input, sw->from, j->at, steps_to(st, j->at),
                       NULL, NULL, &res);
     if (status < 0)
       return status;
     *value = status == KL_LIMIT ? NAN : kli_output_value(s, &j->what);
     break;
   case KLI_JUDGE_REACH:
-    status = kl_sweep(s, sw->input, sw->from, sw->to, sw->steps, NULL, NULL,
+    status = kl_solver_sweep(s, sw->input, sw->from, sw->to, sw->steps, NULL, NULL,
                       &res);
     if (status < 0)
       return status;
@@ -306,7 +306,7 @@ static double first_order(kl_study *st, const kli_judge *j, kl_solver *s,
     for (p = 0; p < points; p++) {
       double dp;
       kl_solver_copy_state(s, start);
-      if (kl_sweep(s, sw->input, sw->from, at[p], steps_to(st, at[p]), NULL,
+      if (kl_solver_sweep(s, sw->input, sw->from, at[p], steps_to(st, at[p]), NULL,
                    NULL, &res) != KL_OK ||
           kl_output_sensitivity(s, &j->what, &st->vary[d].dim, &dp) != KL_OK)
         return NAN;
@@ -329,7 +329,7 @@ int kli_study_prepare(kl_study *st, char *buf) {
                     "the sweep's input does not exist (or the model has "
                     "more than 64 inputs)");
   input_joint = &m->joints[m->inputs[st->sweep.input]];
-  revolute = input_joint->kind == KL_REVOLUTE;
+  revolute = input_joint->kind == KL_JOINT_REVOLUTE;
   for (k = 0; k < st->njudge; k++) {
     kli_judge *j = &st->judge[k];
     if (j->how == KLI_JUDGE_AT && revolute)
@@ -351,7 +351,7 @@ int kli_study_prepare(kl_study *st, char *buf) {
                m->joints[v->where.joint].name != NULL
                    ? m->joints[v->where.joint].name
                    : "joint",
-               v->dim.kind == KL_DIM_JOINT_A ? 'a' : 'b', axes[v->where.axis]);
+               v->dim.kind == KL_DIMENSION_JOINT_A ? 'a' : 'b', axes[v->where.axis]);
     else
       snprintf(v->name, sizeof v->name, "%.40s %c",
                m->points[v->where.point].name != NULL

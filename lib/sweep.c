@@ -252,7 +252,7 @@ static int sweep(kl_solver *s, int input, double from, double to, int steps,
   return st;
 }
 
-int kl_sweep(kl_solver *s, int input, double from, double to, int steps,
+int kl_solver_sweep(kl_solver *s, int input, double from, double to, int steps,
              kl_sweep_fn fn, void *user, kl_sweep_result *result) {
   double singular_rcond;
   int st;
@@ -306,7 +306,7 @@ static int same_mode(const kl_solver *s, const double *a, const double *b) {
   return 1;
 }
 
-int kl_find_assemblies(kl_solver *s, const double *inputs,
+int kl_solver_find_assemblies(kl_solver *s, const double *inputs,
                        kl_solver *const *modes, int cap) {
   static const double slides6[6] = {-2, -1, -0.5, 0.5, 1, 2};
   static const double slides4[4] = {-2, -0.5, 0.5, 2};
@@ -337,7 +337,7 @@ int kl_find_assemblies(kl_solver *s, const double *inputs,
   }
   starts = pow(nav, na) * pow(nsv, ns);
   if (starts > KLI_MODE_STARTS)
-    return kli_fail(s->error, KL_EOVERCONSTRAINED,
+    return kli_fail(s->error, KL_ETOOLARGE,
                     "find assemblies: %d angles and %d slides need %.0f "
                     "starts, more than the %d this search takes",
                     na, ns, starts, KLI_MODE_STARTS);

@@ -204,7 +204,7 @@ static int registered_loops(kl_model *m, work *w, int expected) {
 static int mobility(kl_model *m, int *dof) {
   int lower = 0, slots = 0, j;
   for (j = 0; j < m->njoints; j++) {
-    if (m->joints[j].kind == KL_SLOT)
+    if (m->joints[j].kind == KL_JOINT_SLOT)
       slots++;
     else
       lower++;
@@ -236,8 +236,8 @@ static int input_of(const kl_model *m, int joint) {
 /* A joint fixes b's angle against a's: a prismatic lock or a revolute input. */
 static int relates_angles(const kl_model *m, int joint) {
   int kind = m->joints[joint].kind;
-  return kind == KL_PRISMATIC ||
-         (kind == KL_REVOLUTE && input_of(m, joint) >= 0);
+  return kind == KL_JOINT_PRISMATIC ||
+         (kind == KL_JOINT_REVOLUTE && input_of(m, joint) >= 0);
 }
 
 /*
@@ -297,7 +297,7 @@ static int angle_groups(kl_model *m, work *w, kli_topology *t) {
         w->seen[next] = 1;
         t->angle_parent[next] = cur;
         t->angle_input[next] =
-            m->joints[jj].kind == KL_REVOLUTE ? input_of(m, jj) : -1;
+            m->joints[jj].kind == KL_JOINT_REVOLUTE ? input_of(m, jj) : -1;
         t->angle_sign[next] = m->joints[jj].link[0] == cur ? 1.0 : -1.0;
         t->angle_order[tail++] = next;
       }

@@ -86,8 +86,8 @@ static int run_builder(int i, kl_model *m) {
   case 14: return kl_add_loop(m, 3, unknown);
   case 15: return kl_add_input(m, 0);
   case 16: return kl_add_link(m, "bad\nname");
-  case 17: return kl_set_sketch_angle(m, KL_GROUND, 1.0);
-  case 18: return kl_set_sketch_slide(m, 1, 5.0);
+  case 17: return kl_model_set_sketch_angle(m, KL_GROUND, 1.0);
+  case 18: return kl_model_set_sketch_slide(m, 1, 5.0);
   case 19:
   case 20:
   case 21:
@@ -98,7 +98,7 @@ static int run_builder(int i, kl_model *m) {
     sw.steps = i == 21 ? 0 : 10;
     return kl_model_set_sweep(m, &sw);
   case 22: return kl_add_loop(m, 2, back_and_forth);
-  default: return kl_set_joint_name(m, 1, "motor");
+  default: return kl_model_set_joint_name(m, 1, "motor");
   }
 }
 
@@ -116,7 +116,7 @@ START_TEST(builders_refuse_bad_input_and_change_nothing) {
   kl_model *m = open_fourbar();
   char *before, *after;
   int st;
-  kl_set_joint_name(m, 0, "motor");
+  kl_model_set_joint_name(m, 0, "motor");
   before = model_text(m);
   st = run_builder(_i, m);
   after = model_text(m);
@@ -241,7 +241,7 @@ static int run_solver(int i, kl_solver *s) {
   kl_range r;
   double d, t = -1.0;
   kl_options_default(&o);
-  out.kind = KL_OUT_POINT_X;
+  out.kind = KL_OUTPUT_POINT_X;
   out.id = 8;
   out.line_a = out.line_b = 0;
   switch (i) {
@@ -263,19 +263,19 @@ static int run_solver(int i, kl_solver *s) {
   case 11:
     o.max_iterations = 0;
     return kl_solver_set_options(s, &o);
-  case 12: return kl_sweep(s, 3, 0, 1, 10, NULL, NULL, NULL);
-  case 13: return kl_sweep(s, 0, NAN, 1, 10, NULL, NULL, NULL);
-  case 14: return kl_sweep(s, 0, 0, 1, 0, NULL, NULL, NULL);
+  case 12: return kl_solver_sweep(s, 3, 0, 1, 10, NULL, NULL, NULL);
+  case 13: return kl_solver_sweep(s, 0, NAN, 1, 10, NULL, NULL, NULL);
+  case 14: return kl_solver_sweep(s, 0, 0, 1, 0, NULL, NULL, NULL);
   case 15:
     r.size = sizeof r;
     return kl_output_range(s, 0, 0, 1, 4, &out, &r);
   case 16:
-    out.kind = KL_OUT_SLIDE;
+    out.kind = KL_OUTPUT_SLIDE;
     out.id = 1;
     return kl_output_deriv(s, &out, 0, &d);
   case 17:
     out.id = 0;
-    dim.kind = KL_DIM_JOINT_A;
+    dim.kind = KL_DIMENSION_JOINT_A;
     dim.id = 1;
     dim.axis = 2;
     return kl_output_sensitivity(s, &out, &dim, &d);
@@ -287,10 +287,10 @@ static int run_solver(int i, kl_solver *s) {
     return kl_input_effort(s, 1, &load, &d);
   case 19:
     out.id = 0;
-    dim.kind = KL_DIM_JOINT_A;
+    dim.kind = KL_DIMENSION_JOINT_A;
     dim.id = 1;
     dim.axis = 0;
-    return kl_tolerance_stack(s, &out, 1, &dim, &t, &d, &d);
+    return kl_output_tolerance_stack(s, &out, 1, &dim, &t, &d, &d);
   case 20:
   case 21: {
     int st;
@@ -299,7 +299,7 @@ static int run_solver(int i, kl_solver *s) {
     other_model = other.m;
     foreign = kl_solver_new(other_model);
     st = i == 20 ? kl_solver_copy_state(s, foreign)
-                 : kl_find_assemblies(s, (double[]){1.0}, &foreign, 1);
+                 : kl_solver_find_assemblies(s, (double[]){1.0}, &foreign, 1);
     kl_solver_free(foreign);
     kl_model_free(other_model);
     return st;

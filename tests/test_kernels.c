@@ -39,7 +39,7 @@ static void record(const kl_solver *s, solution *out) {
     out->v[out->n++] = kl_link_accel(s, l);
   }
   for (j = 0; j < kl_model_joint_count(m) && out->n + 3 <= MAX_VALUES; j++)
-    if (kl_joint_kind(m, j) != KL_REVOLUTE) {
+    if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE) {
       out->v[out->n++] = kl_joint_slide(s, j);
       out->v[out->n++] = kl_joint_slide_rate(s, j);
       out->v[out->n++] = kl_joint_slide_accel(s, j);

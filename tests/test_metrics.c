@@ -69,7 +69,7 @@ static kl_range new_range(void) {
 /* The crank-rocker's transmission angle: at the coupler-rocker pin, between
  * the coupler's line to the crank pin and the rocker's line to its pivot. */
 static kl_output transmission(const fourbar *f) {
-  return output(KL_OUT_TRANSMISSION, f->rocker_pin, f->crank_pin,
+  return output(KL_OUTPUT_TRANSMISSION, f->rocker_pin, f->crank_pin,
                 f->rocker_pivot);
 }
 
@@ -119,14 +119,14 @@ START_TEST(grashof_classes_from_lengths) {
     int cls;
     const char *name;
   } cases[] = {
-      {100, 40, 120, 80, KL_CRANK_ROCKER, "crank-rocker"},   /* 160 < 180, input s */
-      {100, 80, 120, 40, KL_ROCKER_CRANK, "rocker-crank"},   /* output s */
-      {40, 100, 120, 80, KL_DOUBLE_CRANK, "double-crank"},   /* ground s */
-      {100, 80, 40, 120, KL_DOUBLE_ROCKER, "double-rocker"}, /* coupler s */
-      {100, 40, 100, 40, KL_CHANGE_POINT, "change point"},   /* 140 = 140 */
-      {80, 50, 70, 100, KL_CHANGE_POINT, "change point"},    /* 150 = 150 */
-      {100, 70, 50, 60, KL_TRIPLE_ROCKER, "triple-rocker"},  /* 150 > 130 */
-      {100, 100, 100, 100, KL_CHANGE_POINT, "change point"}, /* all equal */
+      {100, 40, 120, 80, KL_GRASHOF_CRANK_ROCKER, "crank-rocker"},   /* 160 < 180, input s */
+      {100, 80, 120, 40, KL_GRASHOF_ROCKER_CRANK, "rocker-crank"},   /* output s */
+      {40, 100, 120, 80, KL_GRASHOF_DOUBLE_CRANK, "double-crank"},   /* ground s */
+      {100, 80, 40, 120, KL_GRASHOF_DOUBLE_ROCKER, "double-rocker"}, /* coupler s */
+      {100, 40, 100, 40, KL_GRASHOF_CHANGE_POINT, "change point"},   /* 140 = 140 */
+      {80, 50, 70, 100, KL_GRASHOF_CHANGE_POINT, "change point"},    /* 150 = 150 */
+      {100, 70, 50, 60, KL_GRASHOF_TRIPLE_ROCKER, "triple-rocker"},  /* 150 > 130 */
+      {100, 100, 100, 100, KL_GRASHOF_CHANGE_POINT, "change point"}, /* all equal */
   };
   unsigned k;
   for (k = 0; k < sizeof cases / sizeof cases[0]; k++) {
@@ -136,9 +136,9 @@ START_TEST(grashof_classes_from_lengths) {
     ck_assert_str_eq(kl_grashof_str(cls), cases[k].name);
   }
   /* equality within rounding is the change point; a clear excess is not */
-  ck_assert_int_eq(kl_grashof(100 * (1 + 1e-15), 40, 100, 40), KL_CHANGE_POINT);
-  ck_assert_int_eq(kl_grashof(100 * (1 + 1e-9), 40, 100, 40), KL_TRIPLE_ROCKER);
-  ck_assert_int_eq(kl_grashof(100, 40 * (1 + 1e-9), 100, 40), KL_ROCKER_CRANK);
+  ck_assert_int_eq(kl_grashof(100 * (1 + 1e-15), 40, 100, 40), KL_GRASHOF_CHANGE_POINT);
+  ck_assert_int_eq(kl_grashof(100 * (1 + 1e-9), 40, 100, 40), KL_GRASHOF_TRIPLE_ROCKER);
+  ck_assert_int_eq(kl_grashof(100, 40 * (1 + 1e-9), 100, 40), KL_GRASHOF_ROCKER_CRANK);
   ck_assert_str_eq(kl_grashof_str(0), "not a class");
   ck_assert_str_eq(kl_grashof_str(7), "not a class");
 }
@@ -166,9 +166,9 @@ START_TEST(model_grashof_of_each_class) {
     double a, b, c, d;
     int cls;
   } cases[] = {
-      {40, 120, 80, 100, KL_CRANK_ROCKER}, {80, 120, 40, 100, KL_ROCKER_CRANK},
-      {100, 120, 80, 40, KL_DOUBLE_CRANK}, {80, 40, 120, 100, KL_DOUBLE_ROCKER},
-      {40, 100, 40, 100, KL_CHANGE_POINT}, {70, 50, 60, 100, KL_TRIPLE_ROCKER},
+      {40, 120, 80, 100, KL_GRASHOF_CRANK_ROCKER}, {80, 120, 40, 100, KL_GRASHOF_ROCKER_CRANK},
+      {100, 120, 80, 40, KL_GRASHOF_DOUBLE_CRANK}, {80, 40, 120, 100, KL_GRASHOF_DOUBLE_ROCKER},
+      {40, 100, 40, 100, KL_GRASHOF_CHANGE_POINT}, {70, 50, 60, 100, KL_GRASHOF_TRIPLE_ROCKER},
   };
   unsigned k;
   kl_model *unfinished;
@@ -264,7 +264,7 @@ START_TEST(transmission_angle_extremes_match_the_law_of_cosines) {
   memset(&c, 0, sizeof c);
   c.f = &f;
   c.o = mu;
-  ck_assert_int_eq(kl_sweep(s, 0, 0.0, 2 * PI, 72, check_mu, &c, NULL), KL_OK);
+  ck_assert_int_eq(kl_solver_sweep(s, 0, 0.0, 2 * PI, 72, check_mu, &c, NULL), KL_OK);
   ck_assert_int_eq(c.calls, 73);
   ck_assert_int_eq(c.failures, 0);
   ck_assert_msg(c.worst <= CLOSED_FORM_TOL, "worst %.3g", c.worst);
@@ -324,7 +324,7 @@ END_TEST
 START_TEST(stroke_and_time_ratio_match_the_dead_centres) {
   slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = kl_solver_new(sc.m);
-  const kl_output slide = output(KL_OUT_SLIDE, sc.slide_joint, 0, 0);
+  const kl_output slide = output(KL_OUTPUT_SLIDE, sc.slide_joint, 0, 0);
   const double r = sc.r, l = sc.l, e = sc.e;
   const double x_max = sqrt((l + r) * (l + r) - e * e);
   const double x_min = sqrt((l - r) * (l - r) - e * e);
@@ -345,24 +345,24 @@ START_TEST(stroke_and_time_ratio_match_the_dead_centres) {
                 range.input_at_max, t_max);
   ck_assert_msg(fabs(range.input_at_min - t_min) <= 1e-9, "min at %.15g vs %.15g",
                 range.input_at_min, t_min);
-  ck_assert_int_eq(kl_time_ratio(&range, &ratio), KL_OK);
+  ck_assert_int_eq(kl_range_time_ratio(&range, &ratio), KL_OK);
   ck_assert_msg(fabs(ratio - out / (2 * PI - out)) <= 1e-9,
                 "time ratio %.15g, closed form %.15g", ratio,
                 out / (2 * PI - out));
 
   /* bad ranges */
   ratio = -7.0;
-  ck_assert_int_eq(kl_time_ratio(NULL, &ratio), KL_EINVAL);
-  ck_assert_int_eq(kl_time_ratio(&range, NULL), KL_EINVAL);
+  ck_assert_int_eq(kl_range_time_ratio(NULL, &ratio), KL_EINVAL);
+  ck_assert_int_eq(kl_range_time_ratio(&range, NULL), KL_EINVAL);
   wrong = range;
   wrong.input_at_max = wrong.input_at_min;
-  ck_assert_int_eq(kl_time_ratio(&wrong, &ratio), KL_EINVAL);
+  ck_assert_int_eq(kl_range_time_ratio(&wrong, &ratio), KL_EINVAL);
   wrong.input_at_max = NAN;
-  ck_assert_int_eq(kl_time_ratio(&wrong, &ratio), KL_ENONFINITE);
+  ck_assert_int_eq(kl_range_time_ratio(&wrong, &ratio), KL_ENONFINITE);
   ck_assert_double_eq(ratio, -7.0);
   /* a whole turn apart is equal modulo 2 pi, even when the sum rounds */
   wrong.input_at_max = wrong.input_at_min + 2 * PI;
-  ck_assert_msg(kl_time_ratio(&wrong, &ratio) == KL_EINVAL,
+  ck_assert_msg(kl_range_time_ratio(&wrong, &ratio) == KL_EINVAL,
                 "extremes at %.17g and %.17g: ratio %g", wrong.input_at_min,
                 wrong.input_at_max, ratio);
   kl_solver_free(s);
@@ -385,7 +385,7 @@ END_TEST
 START_TEST(range_up_to_a_motion_limit) {
   fourbar f = build_fourbar(70, 50, 60, 100);
   kl_solver *s = kl_solver_new(f.m);
-  const kl_output rocker = output(KL_OUT_LINK_ANGLE, f.rocker, 0, 0);
+  const kl_output rocker = output(KL_OUTPUT_LINK_ANGLE, f.rocker, 0, 0);
   const double a = f.a, b = f.b, c = f.c, d = f.d;
   const double lim = acos((a * a + d * d - (b + c) * (b + c)) / (2 * a * d));
   const double t4_toggle = atan2(a * sin(lim), a * cos(lim) - d);
@@ -524,8 +524,8 @@ START_TEST(mechanical_advantage_is_the_inverse_velocity_ratio) {
   fourbar f = build_fourbar(40, 120, 80, 100);
   slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = kl_solver_new(f.m), *ss = kl_solver_new(sc.m);
-  const kl_output rocker = output(KL_OUT_LINK_ANGLE, f.rocker, 0, 0);
-  const kl_output slide = output(KL_OUT_SLIDE, sc.slide_joint, 0, 0);
+  const kl_output rocker = output(KL_OUTPUT_LINK_ANGLE, f.rocker, 0, 0);
+  const kl_output slide = output(KL_OUTPUT_SLIDE, sc.slide_joint, 0, 0);
   const double load = -35.0; /* chosen for this test */
   int k;
   kl_set_link_angle(s, f.coupler, 0.6);
@@ -542,7 +542,7 @@ START_TEST(mechanical_advantage_is_the_inverse_velocity_ratio) {
     ratio = f.a * sin(u - t3) / (f.c * sin(t4 - t3));
     ck_assert_int_eq(kl_output_deriv(s, &rocker, 0, &deriv), KL_OK);
     ck_assert_double_le(rel_diff(deriv, ratio, 1e-3), CLOSED_FORM_TOL);
-    ck_assert_int_eq(kl_mechanical_advantage(s, &rocker, 0, &ma), KL_OK);
+    ck_assert_int_eq(kl_output_mechanical_advantage(s, &rocker, 0, &ma), KL_OK);
     ck_assert_double_le(rel_diff(ma, 1.0 / ratio, 1.0), CLOSED_FORM_TOL);
     ck_assert_int_eq(kl_input_effort(s, 1, &on_rocker, &effort), KL_OK);
     ck_assert_msg(rel_diff(ma, -load / effort, 1.0) <= 1e-12,
@@ -552,7 +552,7 @@ START_TEST(mechanical_advantage_is_the_inverse_velocity_ratio) {
     ck_assert_int_eq(kl_solve_position(ss, &u), KL_OK);
     phi = kl_link_angle(ss, sc.rod);
     ratio = -sc.r * sin(u - phi) / cos(phi);
-    ck_assert_int_eq(kl_mechanical_advantage(ss, &slide, 0, &ma), KL_OK);
+    ck_assert_int_eq(kl_output_mechanical_advantage(ss, &slide, 0, &ma), KL_OK);
     ck_assert_double_le(rel_diff(ma, 1.0 / ratio, 1.0 / sc.r), CLOSED_FORM_TOL);
     ck_assert_int_eq(kl_input_effort(ss, 1, &on_block, &effort), KL_OK);
     ck_assert_msg(rel_diff(ma, -load / effort, 1.0 / sc.r) <= 1e-12,
@@ -579,34 +579,34 @@ static kl_model *rebuild_moved(const kl_model *src, const kl_dimension *dim,
   kl_model *m = kl_model_new();
   int l, j, p, i;
   for (l = 1; l < kl_model_link_count(src); l++)
-    ck_assert_int_eq(kl_add_link(m, kl_link_name(src, l)), l);
+    ck_assert_int_eq(kl_add_link(m, kl_model_link_name(src, l)), l);
   for (j = 0; j < kl_model_joint_count(src); j++) {
-    int links[2], kind = kl_joint_kind(src, j), id;
+    int links[2], kind = kl_model_joint_kind(src, j), id;
     double at[2][2];
-    ck_assert_int_eq(kl_joint_links(src, j, links, at[0], at[1]), KL_OK);
-    if (dim->kind != KL_DIM_POINT && dim->id == j)
-      at[dim->kind == KL_DIM_JOINT_A ? 0 : 1][dim->axis] += delta;
-    if (kind == KL_REVOLUTE)
+    ck_assert_int_eq(kl_model_joint_links(src, j, links, at[0], at[1]), KL_OK);
+    if (dim->kind != KL_DIMENSION_POINT && dim->id == j)
+      at[dim->kind == KL_DIMENSION_JOINT_A ? 0 : 1][dim->axis] += delta;
+    if (kind == KL_JOINT_REVOLUTE)
       id = kl_add_revolute(m, links[0], at[0][0], at[0][1], links[1], at[1][0],
                            at[1][1]);
-    else if (kind == KL_PRISMATIC)
+    else if (kind == KL_JOINT_PRISMATIC)
       id = kl_add_prismatic(m, links[0], at[0][0], at[0][1],
-                            kl_joint_axis(src, j), links[1], at[1][0], at[1][1]);
+                            kl_model_joint_axis(src, j), links[1], at[1][0], at[1][1]);
     else
-      id = kl_add_slot(m, links[0], at[0][0], at[0][1], kl_joint_axis(src, j),
+      id = kl_add_slot(m, links[0], at[0][0], at[0][1], kl_model_joint_axis(src, j),
                        links[1], at[1][0], at[1][1]);
     ck_assert_int_eq(id, j);
   }
   for (p = 0; p < kl_model_point_count(src); p++) {
     double xy[2];
-    int link = kl_point_link(src, p, xy);
-    if (dim->kind == KL_DIM_POINT && dim->id == p)
+    int link = kl_model_point_link(src, p, xy);
+    if (dim->kind == KL_DIMENSION_POINT && dim->id == p)
       xy[dim->axis] += delta;
-    ck_assert_int_eq(kl_add_point(m, link, xy[0], xy[1], kl_point_name(src, p)),
+    ck_assert_int_eq(kl_add_point(m, link, xy[0], xy[1], kl_model_point_name(src, p)),
                      p);
   }
   for (i = 0; i < kl_model_input_count(src); i++)
-    ck_assert_int_eq(kl_add_input(m, kl_input_joint(src, i)), i);
+    ck_assert_int_eq(kl_add_input(m, kl_model_input_joint(src, i)), i);
   ck_assert_int_eq(kl_model_finalize(m), KL_OK);
   return m;
 }
@@ -622,7 +622,7 @@ static kl_solver *solve_like(const kl_model *m, const kl_solver *from) {
   for (l = 1; l < kl_model_link_count(fm); l++)
     ck_assert_int_eq(kl_set_link_angle(s, l, kl_link_angle(from, l)), KL_OK);
   for (j = 0; j < kl_model_joint_count(fm); j++)
-    if (kl_joint_kind(fm, j) != KL_REVOLUTE)
+    if (kl_model_joint_kind(fm, j) != KL_JOINT_REVOLUTE)
       ck_assert_int_eq(kl_set_joint_slide(s, j, kl_joint_slide(from, j)), KL_OK);
   for (i = 0; i < kl_model_input_count(fm); i++)
     u[i] = kl_input_value(from, i);
@@ -646,8 +646,8 @@ static kl_solver *solve_like(const kl_model *m, const kl_solver *from) {
 #define DIM_TOL 1e-6
 
 static int output_is_length(const kl_output *o) {
-  return o->kind == KL_OUT_SLIDE || o->kind == KL_OUT_POINT_X ||
-         o->kind == KL_OUT_POINT_Y;
+  return o->kind == KL_OUTPUT_SLIDE || o->kind == KL_OUTPUT_POINT_X ||
+         o->kind == KL_OUTPUT_POINT_Y;
 }
 
 /* Every attachment coordinate of every joint and every point's own. */
@@ -657,7 +657,7 @@ static int all_dimensions(const kl_model *m, kl_dimension *dims, int cap) {
     for (side = 0; side < 2; side++)
       for (axis = 0; axis < 2; axis++) {
         ck_assert_int_lt(n, cap);
-        dims[n].kind = side == 0 ? KL_DIM_JOINT_A : KL_DIM_JOINT_B;
+        dims[n].kind = side == 0 ? KL_DIMENSION_JOINT_A : KL_DIMENSION_JOINT_B;
         dims[n].id = j;
         dims[n].axis = axis;
         n++;
@@ -665,7 +665,7 @@ static int all_dimensions(const kl_model *m, kl_dimension *dims, int cap) {
   for (p = 0; p < kl_model_point_count(m); p++)
     for (axis = 0; axis < 2; axis++) {
       ck_assert_int_lt(n, cap);
-      dims[n].kind = KL_DIM_POINT;
+      dims[n].kind = KL_DIMENSION_POINT;
       dims[n].id = p;
       dims[n].axis = axis;
       n++;
@@ -712,12 +712,12 @@ START_TEST(fourbar_sensitivities_match_perturbed_models) {
   kl_output outs[6];
   const double angles[] = {0.4, 2.1, 4.4};
   unsigned k;
-  outs[0] = output(KL_OUT_LINK_ANGLE, f.rocker, 0, 0);
-  outs[1] = output(KL_OUT_LINK_ANGLE, f.coupler, 0, 0);
-  outs[2] = output(KL_OUT_POINT_X, f.coupler_point, 0, 0);
-  outs[3] = output(KL_OUT_POINT_Y, f.coupler_point, 0, 0);
+  outs[0] = output(KL_OUTPUT_LINK_ANGLE, f.rocker, 0, 0);
+  outs[1] = output(KL_OUTPUT_LINK_ANGLE, f.coupler, 0, 0);
+  outs[2] = output(KL_OUTPUT_POINT_X, f.coupler_point, 0, 0);
+  outs[3] = output(KL_OUTPUT_POINT_Y, f.coupler_point, 0, 0);
   outs[4] = transmission(&f);
-  outs[5] = output(KL_OUT_JOINT_ANGLE, f.rocker_pin, 0, 0);
+  outs[5] = output(KL_OUTPUT_JOINT_ANGLE, f.rocker_pin, 0, 0);
   tighten(s);
   kl_set_link_angle(s, f.coupler, 0.6);
   kl_set_link_angle(s, f.rocker, 1.1);
@@ -739,13 +739,13 @@ START_TEST(slider_crank_sensitivities_match_perturbed_models) {
   kl_output outs[6];
   const double angles[] = {0.7, 2.5, 4.0};
   unsigned k;
-  outs[0] = output(KL_OUT_SLIDE, sc.slide_joint, 0, 0);
-  outs[1] = output(KL_OUT_LINK_ANGLE, sc.rod, 0, 0);
-  outs[2] = output(KL_OUT_POINT_X, sc.rod_point, 0, 0);
-  outs[3] = output(KL_OUT_POINT_Y, sc.rod_point, 0, 0);
-  outs[4] = output(KL_OUT_POINT_X, sc.block_point, 0, 0);
+  outs[0] = output(KL_OUTPUT_SLIDE, sc.slide_joint, 0, 0);
+  outs[1] = output(KL_OUTPUT_LINK_ANGLE, sc.rod, 0, 0);
+  outs[2] = output(KL_OUTPUT_POINT_X, sc.rod_point, 0, 0);
+  outs[3] = output(KL_OUTPUT_POINT_Y, sc.rod_point, 0, 0);
+  outs[4] = output(KL_OUTPUT_POINT_X, sc.block_point, 0, 0);
   /* the angle between crank and rod at the crank pin */
-  outs[5] = output(KL_OUT_TRANSMISSION, sc.crank_pin, sc.pivot, sc.block_pin);
+  outs[5] = output(KL_OUTPUT_TRANSMISSION, sc.crank_pin, sc.pivot, sc.block_pin);
   tighten(s);
   sketch_slider(s, &sc);
   for (k = 0; k < sizeof angles / sizeof angles[0]; k++) {
@@ -764,9 +764,9 @@ START_TEST(inverted_slider_crank_sensitivities_match_perturbed_models) {
   kl_output outs[3];
   const double angles[] = {0.5, 1.9, 3.8};
   unsigned k;
-  outs[0] = output(KL_OUT_LINK_ANGLE, is.guide, 0, 0);
-  outs[1] = output(KL_OUT_SLIDE, is.slide_joint, 0, 0);
-  outs[2] = output(KL_OUT_LINK_ANGLE, is.block, 0, 0);
+  outs[0] = output(KL_OUTPUT_LINK_ANGLE, is.guide, 0, 0);
+  outs[1] = output(KL_OUTPUT_SLIDE, is.slide_joint, 0, 0);
+  outs[2] = output(KL_OUTPUT_LINK_ANGLE, is.block, 0, 0);
   tighten(s);
   kl_set_link_angle(s, is.guide, PI - 0.2);
   kl_set_joint_slide(s, is.slide_joint, 50.0);
@@ -798,11 +798,11 @@ START_TEST(tolerance_stack_sums_the_sensitivities) {
   double bad_tol[5];
   int k;
   snapshot before, after;
-  dims[0].kind = KL_DIM_JOINT_B, dims[0].id = f.pivot, dims[0].axis = 0;
-  dims[1].kind = KL_DIM_JOINT_A, dims[1].id = f.crank_pin, dims[1].axis = 0;
-  dims[2].kind = KL_DIM_JOINT_A, dims[2].id = f.rocker_pin, dims[2].axis = 1;
-  dims[3].kind = KL_DIM_JOINT_B, dims[3].id = f.rocker_pivot, dims[3].axis = 0;
-  dims[4].kind = KL_DIM_POINT, dims[4].id = f.coupler_point, dims[4].axis = 1;
+  dims[0].kind = KL_DIMENSION_JOINT_B, dims[0].id = f.pivot, dims[0].axis = 0;
+  dims[1].kind = KL_DIMENSION_JOINT_A, dims[1].id = f.crank_pin, dims[1].axis = 0;
+  dims[2].kind = KL_DIMENSION_JOINT_A, dims[2].id = f.rocker_pin, dims[2].axis = 1;
+  dims[3].kind = KL_DIMENSION_JOINT_B, dims[3].id = f.rocker_pivot, dims[3].axis = 0;
+  dims[4].kind = KL_DIMENSION_POINT, dims[4].id = f.coupler_point, dims[4].axis = 1;
   kl_set_link_angle(s, f.coupler, 0.6);
   kl_set_link_angle(s, f.rocker, 1.1);
   ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
@@ -813,14 +813,14 @@ START_TEST(tolerance_stack_sums_the_sensitivities) {
     squares += (d * tol[k]) * (d * tol[k]);
   }
   ck_assert_double_gt(worst, 0.0);
-  ck_assert_int_eq(kl_tolerance_stack(s, &mu, 5, dims, tol, &got_worst, &got_rss),
+  ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, 5, dims, tol, &got_worst, &got_rss),
                    KL_OK);
   ck_assert_double_le(rel_diff(got_worst, worst, 0.0), 1e-14);
   ck_assert_double_le(rel_diff(got_rss, sqrt(squares), 0.0), 1e-14);
   /* either result may be left out; none at all is zero */
-  ck_assert_int_eq(kl_tolerance_stack(s, &mu, 5, dims, tol, NULL, &got_rss), KL_OK);
-  ck_assert_int_eq(kl_tolerance_stack(s, &mu, 5, dims, tol, &got_worst, NULL), KL_OK);
-  ck_assert_int_eq(kl_tolerance_stack(s, &mu, 0, NULL, NULL, &got_worst, &got_rss),
+  ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, 5, dims, tol, NULL, &got_rss), KL_OK);
+  ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, 5, dims, tol, &got_worst, NULL), KL_OK);
+  ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, 0, NULL, NULL, &got_worst, &got_rss),
                    KL_OK);
   ck_assert_double_eq(got_worst, 0.0);
   ck_assert_double_eq(got_rss, 0.0);
@@ -835,7 +835,7 @@ START_TEST(tolerance_stack_sums_the_sensitivities) {
     bad_tol[3] = bad[k];
     keep_w = got_worst = -1.0;
     keep_r = got_rss = -2.0;
-    ck_assert_int_eq(kl_tolerance_stack(s, &mu, 5, dims, bad_tol, &got_worst,
+    ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, 5, dims, bad_tol, &got_worst,
                                         &got_rss),
                      status[k]);
     ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "tolerance 3"));
@@ -844,13 +844,13 @@ START_TEST(tolerance_stack_sums_the_sensitivities) {
     after = snap(s);
     assert_same_state(&before, &after, "a refused tolerance stack");
   }
-  ck_assert_int_eq(kl_tolerance_stack(s, &mu, -1, dims, tol, &got_worst, &got_rss),
+  ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, -1, dims, tol, &got_worst, &got_rss),
                    KL_EINVAL);
-  ck_assert_int_eq(kl_tolerance_stack(s, &mu, 2, NULL, tol, &got_worst, &got_rss),
+  ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, 2, NULL, tol, &got_worst, &got_rss),
                    KL_EINVAL);
-  ck_assert_int_eq(kl_tolerance_stack(s, &mu, 2, dims, NULL, &got_worst, &got_rss),
+  ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, 2, dims, NULL, &got_worst, &got_rss),
                    KL_EINVAL);
-  ck_assert_int_eq(kl_tolerance_stack(NULL, &mu, 2, dims, tol, &got_worst, &got_rss),
+  ck_assert_int_eq(kl_output_tolerance_stack(NULL, &mu, 2, dims, tol, &got_worst, &got_rss),
                    KL_EINVAL);
   kl_solver_free(s);
   kl_model_free(f.m);
@@ -871,7 +871,7 @@ typedef struct {
  * status, the message and that the state stayed as it was. */
 static void expect_output_refused(kl_solver *s, const bad_output *bad,
                                   const char *label) {
-  kl_dimension dim = {KL_DIM_JOINT_A, 1, 0};
+  kl_dimension dim = {KL_DIMENSION_JOINT_A, 1, 0};
   const double tol = 0.01;
   double v = -5.0, w = -6.0;
   kl_range r = new_range();
@@ -886,13 +886,13 @@ static void expect_output_refused(kl_solver *s, const bad_output *bad,
       st = kl_output_deriv(s, &bad->o, 0, &v);
       break;
     case 1:
-      st = kl_mechanical_advantage(s, &bad->o, 0, &v);
+      st = kl_output_mechanical_advantage(s, &bad->o, 0, &v);
       break;
     case 2:
       st = kl_output_sensitivity(s, &bad->o, &dim, &v);
       break;
     case 3:
-      st = kl_tolerance_stack(s, &bad->o, 1, &dim, &tol, &v, &w);
+      st = kl_output_tolerance_stack(s, &bad->o, 1, &dim, &tol, &v, &w);
       break;
     default:
       st = kl_output_range(s, 0, 0.0, 1.0, 4, &bad->o, &r);
@@ -929,29 +929,29 @@ START_TEST(bad_outputs_are_refused) {
   slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = solved_fourbar(&f), *ss = kl_solver_new(sc.m);
   const bad_output bad[] = {
-      {{KL_OUT_LINK_ANGLE, 9, 0, 0}, KL_EID, "link 9"},
-      {{KL_OUT_LINK_ANGLE, -1, 0, 0}, KL_EID, "link -1"},
-      {{KL_OUT_SLIDE, 9, 0, 0}, KL_EID, "joint 9"},
-      {{KL_OUT_JOINT_ANGLE, 9, 0, 0}, KL_EID, "joint 9"},
-      {{KL_OUT_POINT_X, 3, 0, 0}, KL_EID, "point 3"},
-      {{KL_OUT_POINT_Y, -2, 0, 0}, KL_EID, "point -2"},
-      {{KL_OUT_TRANSMISSION, 9, 1, 3}, KL_EID, "joint 9"},
+      {{KL_OUTPUT_LINK_ANGLE, 9, 0, 0}, KL_EID, "link 9"},
+      {{KL_OUTPUT_LINK_ANGLE, -1, 0, 0}, KL_EID, "link -1"},
+      {{KL_OUTPUT_SLIDE, 9, 0, 0}, KL_EID, "joint 9"},
+      {{KL_OUTPUT_JOINT_ANGLE, 9, 0, 0}, KL_EID, "joint 9"},
+      {{KL_OUTPUT_POINT_X, 3, 0, 0}, KL_EID, "point 3"},
+      {{KL_OUTPUT_POINT_Y, -2, 0, 0}, KL_EID, "point -2"},
+      {{KL_OUTPUT_TRANSMISSION, 9, 1, 3}, KL_EID, "joint 9"},
       /* a slide of a revolute joint */
-      {{KL_OUT_SLIDE, 0, 0, 0}, KL_EKIND, "joint 0"},
+      {{KL_OUTPUT_SLIDE, 0, 0, 0}, KL_EKIND, "joint 0"},
       /* lines not on the joint's links: joint 3 is not on the coupler
        * (link a of joint 2), joint 1 not on the rocker (its link b) */
-      {{KL_OUT_TRANSMISSION, 2, 3, 3}, KL_EKIND, "line_a (joint 3)"},
-      {{KL_OUT_TRANSMISSION, 2, 1, 1}, KL_EKIND, "line_b (joint 1)"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 3, 3}, KL_EKIND, "line_a (joint 3)"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 1, 1}, KL_EKIND, "line_b (joint 1)"},
       /* a line from the joint to itself */
-      {{KL_OUT_TRANSMISSION, 2, 2, 3}, KL_EKIND, "line_a (joint 2)"},
-      {{KL_OUT_LINK_ANGLE + 42, 1, 0, 0}, KL_EINVAL, "kind 42"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 2, 3}, KL_EKIND, "line_a (joint 2)"},
+      {{KL_OUTPUT_LINK_ANGLE + 42, 1, 0, 0}, KL_EINVAL, "kind 42"},
   };
   /* unknown joints as the lines of a transmission angle are unknown ids
    * (kinloop.h: KL_EID for unknown ids, KL_EKIND for lines that exist but
    * are not on the joint's links) */
   const bad_output unknown_lines[] = {
-      {{KL_OUT_TRANSMISSION, 2, 9, 3}, KL_EID, "joint 9"},
-      {{KL_OUT_TRANSMISSION, 2, 1, -4}, KL_EID, "joint -4"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 9, 3}, KL_EID, "joint 9"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 1, -4}, KL_EID, "joint -4"},
   };
   unsigned k;
   char label[64];
@@ -966,7 +966,7 @@ START_TEST(bad_outputs_are_refused) {
   }
   /* a transmission angle at a prismatic joint */
   {
-    bad_output at_slider = {{KL_OUT_TRANSMISSION, 0, 0, 0}, KL_EKIND, ""};
+    bad_output at_slider = {{KL_OUTPUT_TRANSMISSION, 0, 0, 0}, KL_EKIND, ""};
     double u = 1.0;
     at_slider.o.id = sc.slide_joint;
     at_slider.o.line_a = sc.block_pin;
@@ -985,10 +985,10 @@ START_TEST(bad_outputs_are_refused) {
     ck_assert_int_eq(kl_output_sensitivity(s, NULL, NULL, &v), KL_EINVAL);
     /* an unknown input */
     {
-      kl_output rocker = output(KL_OUT_LINK_ANGLE, f.rocker, 0, 0);
+      kl_output rocker = output(KL_OUTPUT_LINK_ANGLE, f.rocker, 0, 0);
       ck_assert_int_eq(kl_output_deriv(s, &rocker, 1, &v), KL_EID);
       ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input 1"));
-      ck_assert_int_eq(kl_mechanical_advantage(s, &rocker, -1, &v), KL_EID);
+      ck_assert_int_eq(kl_output_mechanical_advantage(s, &rocker, -1, &v), KL_EID);
       ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input -1"));
       ck_assert_int_eq(kl_output_deriv(s, &rocker, 0, NULL), KL_EINVAL);
     }
@@ -1015,12 +1015,12 @@ START_TEST(bad_dimensions_are_refused) {
     int status;
     const char *names;
   } bad[] = {
-      {{KL_DIM_POINT + 5, 1, 0}, KL_EINVAL, "kind 7"},
-      {{KL_DIM_JOINT_A, 1, 2}, KL_EINVAL, "axis 2"},
-      {{KL_DIM_JOINT_B, 1, -1}, KL_EINVAL, "axis -1"},
-      {{KL_DIM_JOINT_B, 9, 0}, KL_EID, "joint 9"},
-      {{KL_DIM_JOINT_A, -1, 0}, KL_EID, "joint -1"},
-      {{KL_DIM_POINT, 4, 1}, KL_EID, "point 4"},
+      {{KL_DIMENSION_POINT + 5, 1, 0}, KL_EINVAL, "kind 7"},
+      {{KL_DIMENSION_JOINT_A, 1, 2}, KL_EINVAL, "axis 2"},
+      {{KL_DIMENSION_JOINT_B, 1, -1}, KL_EINVAL, "axis -1"},
+      {{KL_DIMENSION_JOINT_B, 9, 0}, KL_EID, "joint 9"},
+      {{KL_DIMENSION_JOINT_A, -1, 0}, KL_EID, "joint -1"},
+      {{KL_DIMENSION_POINT, 4, 1}, KL_EID, "point 4"},
   };
   const double tol = 0.02;
   unsigned k;
@@ -1031,7 +1031,7 @@ START_TEST(bad_dimensions_are_refused) {
     ck_assert_msg(strstr(kl_solver_error(s), bad[k].names) != NULL,
                   "dimension %u: message '%s' does not name '%s'", k,
                   kl_solver_error(s), bad[k].names);
-    ck_assert_int_eq(kl_tolerance_stack(s, &mu, 1, &bad[k].d, &tol, &v, &w),
+    ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, 1, &bad[k].d, &tol, &v, &w),
                      bad[k].status);
     ck_assert_ptr_nonnull(strstr(kl_solver_error(s), bad[k].names));
     ck_assert_double_eq(v, -5.0);

@@ -30,8 +30,8 @@ END_TEST
 START_TEST(ground_exists_from_the_start) {
   kl_model *m = kl_model_new();
   ck_assert_int_eq(kl_model_link_count(m), 1);
-  ck_assert_str_eq(kl_link_name(m, KL_GROUND), "ground");
-  ck_assert_int_eq(kl_link_find(m, "ground"), KL_GROUND);
+  ck_assert_str_eq(kl_model_link_name(m, KL_GROUND), "ground");
+  ck_assert_int_eq(kl_model_find_link(m, "ground"), KL_GROUND);
   ck_assert_str_eq(kl_model_error(m), "");
   kl_model_free(m);
   kl_model_free(NULL);
@@ -46,7 +46,7 @@ START_TEST(link_names_are_checked) {
   long_name[sizeof long_name - 1] = '\0';
   ck_assert_int_eq(kl_add_link(m, "crank"), 1);
   ck_assert_int_eq(kl_add_link(m, NULL), 2);
-  ck_assert_ptr_null(kl_link_name(m, 2));
+  ck_assert_ptr_null(kl_model_link_name(m, 2));
   ck_assert_int_eq(kl_add_link(m, "crank"), KL_EDUPLICATE);
   assert_message_has(m, "'crank' is already used by id 1");
   ck_assert_int_eq(kl_add_link(m, "ground"), KL_EDUPLICATE);
@@ -57,8 +57,8 @@ START_TEST(link_names_are_checked) {
   ck_assert_int_eq(kl_add_link(NULL, "x"), KL_EINVAL);
   /* failures added nothing */
   ck_assert_int_eq(kl_model_link_count(m), 3);
-  ck_assert_int_eq(kl_link_find(m, "crank"), 1);
-  ck_assert_int_eq(kl_link_find(m, "nobody"), KL_EID);
+  ck_assert_int_eq(kl_model_find_link(m, "crank"), 1);
+  ck_assert_int_eq(kl_model_find_link(m, "nobody"), KL_EID);
   kl_model_free(m);
 }
 END_TEST
@@ -108,9 +108,9 @@ START_TEST(slide_axis_through_two_points) {
   assert_message_has(m, "link 0 'ground'");
   j = kl_add_prismatic_through(m, 0, 1, 1, 4, 5, block, 0, 0);
   ck_assert_int_ge(j, 0);
-  ck_assert_double_eq_tol(kl_joint_axis(m, j), atan2(4.0, 3.0), 1e-15);
-  ck_assert_int_eq(kl_joint_kind(m, j), KL_PRISMATIC);
-  ck_assert(isnan(kl_joint_axis(m, 99)));
+  ck_assert_double_eq_tol(kl_model_joint_axis(m, j), atan2(4.0, 3.0), 1e-15);
+  ck_assert_int_eq(kl_model_joint_kind(m, j), KL_JOINT_PRISMATIC);
+  ck_assert(isnan(kl_model_joint_axis(m, 99)));
   kl_model_free(m);
 }
 END_TEST
@@ -123,19 +123,19 @@ START_TEST(points_and_inputs_are_checked) {
   ck_assert_int_eq(kl_add_point(m, 7, 0, 0, "tip"), KL_EID);
   ck_assert_int_eq(kl_add_point(m, crank, 10, 2, "tip"), 0);
   ck_assert_int_eq(kl_add_point(m, KL_GROUND, 1, 1, "tip"), KL_EDUPLICATE);
-  ck_assert_int_eq(kl_point_find(m, "tip"), 0);
-  ck_assert_int_eq(kl_point_link(m, 0, xy), crank);
+  ck_assert_int_eq(kl_model_find_point(m, "tip"), 0);
+  ck_assert_int_eq(kl_model_point_link(m, 0, xy), crank);
   ck_assert_double_eq(xy[0], 10);
   ck_assert_double_eq(xy[1], 2);
-  ck_assert_int_eq(kl_point_link(m, 1, xy), KL_EID);
-  ck_assert_str_eq(kl_point_name(m, 0), "tip");
+  ck_assert_int_eq(kl_model_point_link(m, 1, xy), KL_EID);
+  ck_assert_str_eq(kl_model_point_name(m, 0), "tip");
   ck_assert_int_eq(kl_add_input(m, 5), KL_EID);
   assert_message_has(m, "joint 5 does not exist");
   ck_assert_int_eq(kl_add_input(m, j), 0);
   ck_assert_int_eq(kl_add_input(m, j), KL_EDUPLICATE);
   assert_message_has(m, "already input 0");
-  ck_assert_int_eq(kl_input_joint(m, 0), j);
-  ck_assert_int_eq(kl_input_joint(m, 1), KL_EID);
+  ck_assert_int_eq(kl_model_input_joint(m, 0), j);
+  ck_assert_int_eq(kl_model_input_joint(m, 1), KL_EID);
   ck_assert_int_eq(kl_model_input_count(m), 1);
   kl_model_free(m);
 }
@@ -264,8 +264,8 @@ START_TEST(loops_are_found_when_none_are_registered) {
     /* consecutive joints share a link */
     for (i = 0; i < n; i++) {
       int a[2], b[2];
-      kl_joint_links(m, joints[i], a, NULL, NULL);
-      kl_joint_links(m, joints[(i + 1) % n], b, NULL, NULL);
+      kl_model_joint_links(m, joints[i], a, NULL, NULL);
+      kl_model_joint_links(m, joints[(i + 1) % n], b, NULL, NULL);
       ck_assert(a[0] == b[0] || a[0] == b[1] || a[1] == b[0] || a[1] == b[1]);
     }
   }
@@ -422,15 +422,15 @@ START_TEST(reading_the_model_back) {
   slider_crank sc = build_slider_crank(30, 100, 12);
   int links[2];
   double pa[2], pb[2];
-  ck_assert_int_eq(kl_joint_links(sc.m, sc.slide_joint, links, pa, pb), KL_OK);
+  ck_assert_int_eq(kl_model_joint_links(sc.m, sc.slide_joint, links, pa, pb), KL_OK);
   ck_assert_int_eq(links[0], KL_GROUND);
   ck_assert_int_eq(links[1], sc.block);
   ck_assert_double_eq(pa[1], 12);
-  ck_assert_double_eq(kl_joint_axis(sc.m, sc.slide_joint), 0.0);
-  ck_assert_int_eq(kl_joint_links(sc.m, 9, links, pa, pb), KL_EID);
-  ck_assert_int_eq(kl_joint_links(NULL, 0, links, pa, pb), KL_EINVAL);
-  ck_assert_int_eq(kl_joint_kind(sc.m, 0), KL_REVOLUTE);
-  ck_assert_int_eq(kl_joint_kind(sc.m, -1), KL_EID);
+  ck_assert_double_eq(kl_model_joint_axis(sc.m, sc.slide_joint), 0.0);
+  ck_assert_int_eq(kl_model_joint_links(sc.m, 9, links, pa, pb), KL_EID);
+  ck_assert_int_eq(kl_model_joint_links(NULL, 0, links, pa, pb), KL_EINVAL);
+  ck_assert_int_eq(kl_model_joint_kind(sc.m, 0), KL_JOINT_REVOLUTE);
+  ck_assert_int_eq(kl_model_joint_kind(sc.m, -1), KL_EID);
   ck_assert_double_eq(kl_model_scale(sc.m), 100);
   ck_assert(isnan(kl_model_scale(NULL)));
   ck_assert_int_eq(kl_model_link_count(NULL), KL_EINVAL);

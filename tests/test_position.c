@@ -327,7 +327,7 @@ START_TEST(options_are_checked) {
   o.tolerance = 1e-10;
   ck_assert_int_eq(kl_solver_set_options(s, &o), KL_OK);
   back.size = sizeof back;
-  ck_assert_int_eq(kl_solver_get_options(s, &back), KL_OK);
+  ck_assert_int_eq(kl_solver_options(s, &back), KL_OK);
   ck_assert_double_eq(back.tolerance, 1e-10);
   o.tolerance = NAN;
   ck_assert_int_eq(kl_solver_set_options(s, &o), KL_ENONFINITE);
@@ -372,11 +372,11 @@ START_TEST(options_are_checked) {
     ck_assert_int_eq(old.bytes[first], 0xa5); /* nothing written past it */
     old.o.tolerance = 1e-10;
     ck_assert_int_eq(kl_solver_set_options(s, &old.o), KL_OK);
-    ck_assert_int_eq(kl_solver_get_options(s, &back), KL_OK);
+    ck_assert_int_eq(kl_solver_options(s, &back), KL_OK);
     ck_assert_int_eq(back.kernel, KL_KERNEL_AUTO); /* defaulted, not 0xa5.. */
   }
   /* the failures left the last good options in place */
-  ck_assert_int_eq(kl_solver_get_options(s, &back), KL_OK);
+  ck_assert_int_eq(kl_solver_options(s, &back), KL_OK);
   ck_assert_double_eq(back.tolerance, 1e-10);
   kl_solver_free(s);
   kl_model_free(f.m);

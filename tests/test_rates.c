@@ -51,7 +51,7 @@ static readout read_stage(const kl_solver *s, enum stage st) {
   for (l = 1; l < kl_model_link_count(m); l++)
     put(&r, link_getter[st](s, l), 1.0, st == POSITION);
   for (j = 0; j < kl_model_joint_count(m); j++)
-    if (kl_joint_kind(m, j) != KL_REVOLUTE)
+    if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE)
       put(&r, slide_getter[st](s, j), scale, 0);
   for (p = 0; p < kl_model_point_count(m); p++) {
     double xy[2] = {NAN, NAN};
@@ -574,7 +574,7 @@ static readout read_coefficients(const kl_solver *s, int order, int i, int j) {
                        : kl_link_angle_deriv2(s, l, i, j),
         1.0, 0);
   for (jt = 0; jt < kl_model_joint_count(m); jt++)
-    if (kl_joint_kind(m, jt) != KL_REVOLUTE)
+    if (kl_model_joint_kind(m, jt) != KL_JOINT_REVOLUTE)
       put(&r, order == 1 ? kl_joint_slide_deriv(s, jt, i)
                          : kl_joint_slide_deriv2(s, jt, i, j),
           scale, 0);
@@ -911,7 +911,7 @@ static void call_every_getter(const kl_solver *s, int solved) {
   st.size = sizeof st;
   ck_assert_int_eq(kl_solver_stats(s, &st), KL_OK);
   o.size = sizeof o;
-  ck_assert_int_eq(kl_solver_get_options(s, &o), KL_OK);
+  ck_assert_int_eq(kl_solver_options(s, &o), KL_OK);
   ck_assert_int_eq(isfinite(kl_input_value(s, 0)) != 0, solved);
   ck_assert_ptr_nonnull(kl_solver_error(s));
 }

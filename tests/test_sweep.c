@@ -114,7 +114,7 @@ START_TEST(non_grashof_sweeps_stop_at_both_limits) {
     kl_set_link_angle(s, f.coupler, -0.2);
     kl_set_link_angle(s, f.rocker, 1.5);
     trace_links(&t, f.crank, f.coupler, f.rocker);
-    st = kl_sweep(s, 0, 0.0, to, steps, record, &t, &r);
+    st = kl_solver_sweep(s, 0, 0.0, to, steps, record, &t, &r);
     ck_assert_msg(st == KL_LIMIT, "sense %d: %s (%s)", sense,
                   kl_status_str(st), kl_solver_error(s));
     ck_assert_int_eq(r.status, KL_LIMIT);
@@ -162,7 +162,7 @@ START_TEST(full_turn_returns_on_the_same_branch) {
       int k, st;
       sketch_branch(s, &f, 0.0, branch);
       trace_links(&t, f.crank, f.coupler, f.rocker);
-      st = kl_sweep(s, 0, 0.0, sense * 2 * PI, steps, record, &t, &r);
+      st = kl_solver_sweep(s, 0, 0.0, sense * 2 * PI, steps, record, &t, &r);
       ck_assert_msg(st == KL_OK, "branch %d sense %d: %s", branch, sense,
                     kl_solver_error(s));
       ck_assert_int_eq(r.status, KL_OK);
@@ -201,7 +201,7 @@ START_TEST(full_turn_returns_on_the_same_branch) {
 END_TEST
 
 /*
- * A sweep's work is bounded (the header's contract for kl_sweep): a hundred
+ * A sweep's work is bounded (the header's contract for kl_solver_sweep): a hundred
  * turns in one step still arrive, on the starting branch (Freudenstein's
  * closed form as above); a slide swept over 1e207 length units, a linkage
  * the API fuzzer built, is refused with KL_EMAXITER after its first step
@@ -225,7 +225,7 @@ START_TEST(sweep_work_is_bounded) {
   kl_model *far;
   double t3, t4;
   sketch_branch(s, &f, 0.0, 1);
-  ck_assert_msg(kl_sweep(s, 0, 0.0, 200 * PI, 1, NULL, NULL, &r) == KL_OK, "%s",
+  ck_assert_msg(kl_solver_sweep(s, 0, 0.0, 200 * PI, 1, NULL, NULL, &r) == KL_OK, "%s",
                 kl_solver_error(s));
   ck_assert_int_eq(r.steps_done, 2);
   ck_assert(freudenstein(&f, 200 * PI, 1, &t3, &t4));
@@ -237,7 +237,7 @@ START_TEST(sweep_work_is_bounded) {
   far = kl_model_read(far_slide_model, strlen(far_slide_model), &err);
   ck_assert_msg(far != NULL, "%s", err.message);
   s = kl_solver_new(far);
-  ck_assert_int_eq(kl_sweep(s, 0, -73.11, -1.08e207, 2, NULL, NULL, &r),
+  ck_assert_int_eq(kl_solver_sweep(s, 0, -73.11, -1.08e207, 2, NULL, NULL, &r),
                    KL_EMAXITER);
   ck_assert_int_eq(r.status, KL_EMAXITER);
   ck_assert_int_eq(r.steps_done, 1);
@@ -285,7 +285,7 @@ START_TEST(callback_reads_kinematic_coefficients) {
   int k, i;
   sketch_branch(s, &f, 0.0, 1);
   trace_links(&t, f.crank, f.coupler, f.rocker);
-  ck_assert_int_eq(kl_sweep(s, 0, 0.0, 2 * PI, COEFF_STEPS, record, &t, &r),
+  ck_assert_int_eq(kl_solver_sweep(s, 0, 0.0, 2 * PI, COEFF_STEPS, record, &t, &r),
                    KL_OK);
   ck_assert_int_eq(t.calls, COEFF_STEPS + 1);
   for (k = 0; k < t.calls; k++) {
@@ -332,7 +332,7 @@ START_TEST(callback_stops_the_sweep) {
     sketch_branch(s, &f, 0.3, 1);
     trace_links(&t, f.crank, f.coupler, f.rocker);
     t.stop_at = stops[n];
-    st = kl_sweep(s, 0, 0.3, 2.3, 20, record, &t, &r);
+    st = kl_solver_sweep(s, 0, 0.3, 2.3, 20, record, &t, &r);
     ck_assert_int_eq(st, KL_STOPPED);
     ck_assert_int_eq(r.status, KL_STOPPED);
     ck_assert_int_eq(t.calls, stops[n]);
@@ -373,7 +373,7 @@ START_TEST(change_point_is_reported_not_passed) {
     kl_set_link_angle(s, f.coupler, 0.05);
     kl_set_link_angle(s, f.rocker, from - 0.05);
     trace_links(&t, f.crank, f.coupler, f.rocker);
-    st = kl_sweep(s, 0, from, to, 10, record, &t, &r);
+    st = kl_solver_sweep(s, 0, from, to, 10, record, &t, &r);
     ck_assert_msg(st == KL_ESINGULAR, "sense %d: %s (%s)", sense,
                   kl_status_str(st), kl_solver_error(s));
     ck_assert_int_eq(r.status, KL_ESINGULAR);
@@ -426,7 +426,7 @@ START_TEST(fourbar_has_its_two_closed_form_modes) {
     double u = angles[n];
     snapshot before = snap(s), after;
     int found[2] = {0, 0}, i, branch;
-    ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 2), 2);
+    ck_assert_int_eq(kl_solver_find_assemblies(s, &u, modes, 2), 2);
     after = snap(s);
     assert_same_state(&before, &after, "find assemblies' workspace");
     for (i = 0; i < 2; i++) {
@@ -466,7 +466,7 @@ START_TEST(slider_crank_has_its_two_closed_form_modes) {
     double t = -PI + (k + 0.5) * PI / 4, hgt = sc.e - sc.r * sin(t);
     double root = sqrt(sc.l * sc.l - hgt * hgt);
     int found[2] = {0, 0}, i, branch;
-    ck_assert_int_eq(kl_find_assemblies(s, &t, modes, 2), 2);
+    ck_assert_int_eq(kl_solver_find_assemblies(s, &t, modes, 2), 2);
     for (i = 0; i < 2; i++) {
       double x = kl_joint_slide(modes[i], sc.slide_joint);
       for (branch = -1; branch <= 1; branch += 2) {
@@ -498,7 +498,7 @@ START_TEST(a_mode_is_a_state_to_continue_from) {
   int i;
   modes[0] = kl_solver_new(f.m);
   modes[1] = kl_solver_new(f.m);
-  ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 2), 2);
+  ck_assert_int_eq(kl_solver_find_assemblies(s, &u, modes, 2), 2);
   for (i = 0; i < 2; i++) {
     kl_sweep_result r = new_result();
     static trace t;
@@ -512,7 +512,7 @@ START_TEST(a_mode_is_a_state_to_continue_from) {
     /* its rates are there to be solved, without another position solve */
     ck_assert_int_eq(kl_solve_velocity(modes[i], &w), KL_OK);
     trace_links(&t, f.crank, f.coupler, f.rocker);
-    ck_assert_int_eq(kl_sweep(modes[i], 0, u, u + 2 * PI, 72, record, &t, &r),
+    ck_assert_int_eq(kl_solver_sweep(modes[i], 0, u, u + 2 * PI, 72, record, &t, &r),
                      KL_OK);
     ck_assert_int_eq(t.calls, 73);
     for (k = 0; k < t.calls; k++) {
@@ -546,7 +546,7 @@ START_TEST(mode_arguments_are_checked) {
   /* a solver of another model among the modes */
   modes[0] = mine;
   modes[1] = foreign;
-  ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 2), KL_EINVAL);
+  ck_assert_int_eq(kl_solver_find_assemblies(s, &u, modes, 2), KL_EINVAL);
   ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "modes[1]"));
   now = snap(s);
   assert_same_state(&ws, &now, "workspace after a foreign mode solver");
@@ -557,21 +557,21 @@ START_TEST(mode_arguments_are_checked) {
   /* cap below the count: only cap written, the full count returned */
   modes[0] = mine;
   modes[1] = spare;
-  ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 1), 2);
+  ck_assert_int_eq(kl_solver_find_assemblies(s, &u, modes, 1), 2);
   ck_assert_double_eq(kl_input_value(mine, 0), u);
   now = snap(spare);
   assert_same_state(&kept, &now, "a solver beyond cap");
-  ck_assert_int_eq(kl_find_assemblies(s, &u, NULL, 0), 2);
+  ck_assert_int_eq(kl_solver_find_assemblies(s, &u, NULL, 0), 2);
 
   /* bad arguments */
-  ck_assert_int_eq(kl_find_assemblies(s, &u, modes, -1), KL_EINVAL);
-  ck_assert_int_eq(kl_find_assemblies(s, &u, NULL, 1), KL_EINVAL);
-  ck_assert_int_eq(kl_find_assemblies(NULL, &u, modes, 1), KL_EINVAL);
-  ck_assert_int_eq(kl_find_assemblies(s, NULL, modes, 1), KL_EINVAL);
-  ck_assert_int_eq(kl_find_assemblies(s, &bad, modes, 1), KL_ENONFINITE);
+  ck_assert_int_eq(kl_solver_find_assemblies(s, &u, modes, -1), KL_EINVAL);
+  ck_assert_int_eq(kl_solver_find_assemblies(s, &u, NULL, 1), KL_EINVAL);
+  ck_assert_int_eq(kl_solver_find_assemblies(NULL, &u, modes, 1), KL_EINVAL);
+  ck_assert_int_eq(kl_solver_find_assemblies(s, NULL, modes, 1), KL_EINVAL);
+  ck_assert_int_eq(kl_solver_find_assemblies(s, &bad, modes, 1), KL_ENONFINITE);
   ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input 0"));
   modes[0] = NULL;
-  ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 1), KL_EINVAL);
+  ck_assert_int_eq(kl_solver_find_assemblies(s, &u, modes, 1), KL_EINVAL);
   now = snap(s);
   assert_same_state(&ws, &now, "workspace after bad arguments");
   now = snap(spare);
@@ -621,7 +621,7 @@ START_TEST(bad_sweep_arguments) {
     r = new_result();
     r.steps_done = 99;
     trace_links(&t, f.crank, f.coupler, f.rocker);
-    st = kl_sweep(s, bad[k].input, bad[k].from, bad[k].to, bad[k].steps,
+    st = kl_solver_sweep(s, bad[k].input, bad[k].from, bad[k].to, bad[k].steps,
                   record, &t, &r);
     ck_assert_msg(st == bad[k].status, "case %u: %s", k, kl_status_str(st));
     ck_assert_int_eq(r.status, bad[k].status);
@@ -633,13 +633,13 @@ START_TEST(bad_sweep_arguments) {
     after = snap(s);
     assert_same_state(&before, &after, "a refused sweep");
   }
-  ck_assert_int_eq(kl_sweep(NULL, 0, 0.0, 1.0, 10, record, &t, &r), KL_EINVAL);
+  ck_assert_int_eq(kl_solver_sweep(NULL, 0, 0.0, 1.0, 10, record, &t, &r), KL_EINVAL);
 
   /* NULL result and NULL callback are accepted */
-  ck_assert_int_eq(kl_sweep(s, 0, 0.4, 1.4, 10, NULL, NULL, NULL), KL_OK);
+  ck_assert_int_eq(kl_solver_sweep(s, 0, 0.4, 1.4, 10, NULL, NULL, NULL), KL_OK);
   ck_assert_double_eq(kl_link_angle(s, f.crank), 1.4);
   trace_links(&t, f.crank, f.coupler, f.rocker);
-  ck_assert_int_eq(kl_sweep(s, 0, 1.4, 0.4, 10, record, &t, NULL), KL_OK);
+  ck_assert_int_eq(kl_solver_sweep(s, 0, 1.4, 0.4, 10, record, &t, NULL), KL_OK);
   ck_assert_int_eq(t.calls, 11);
   ck_assert_double_eq(kl_link_angle(s, f.crank), 0.4);
   kl_solver_free(s);
@@ -708,13 +708,13 @@ START_TEST(sweeps_modes_and_figures_never_allocate) {
   {
     static trace t;
     kl_sweep_result r = new_result();
-    kl_output rocker = {KL_OUT_LINK_ANGLE, 0, 0, 0};
-    kl_output trans = {KL_OUT_TRANSMISSION, 0, 0, 0};
-    kl_output wrong = {KL_OUT_SLIDE, 0, 0, 0};
+    kl_output rocker = {KL_OUTPUT_LINK_ANGLE, 0, 0, 0};
+    kl_output trans = {KL_OUTPUT_TRANSMISSION, 0, 0, 0};
+    kl_output wrong = {KL_OUTPUT_SLIDE, 0, 0, 0};
     kl_load load = {KL_LOAD_TORQUE, 0, 0.0, 0.0, 5.0};
     kl_load bad_load = {KL_LOAD_FORCE, 42, 1.0, 0.0, 0.0};
-    kl_dimension dims[2] = {{KL_DIM_JOINT_A, 0, 0}, {KL_DIM_POINT, 0, 1}};
-    kl_dimension bad_dim = {KL_DIM_JOINT_B, 0, 2};
+    kl_dimension dims[2] = {{KL_DIMENSION_JOINT_A, 0, 0}, {KL_DIMENSION_POINT, 0, 1}};
+    kl_dimension bad_dim = {KL_DIMENSION_JOINT_B, 0, 2};
     double tol[2] = {0.01, 0.02}, v, worst, rss, effort, u = 0.5;
     kl_range range;
     rocker.id = cr.rocker;
@@ -728,40 +728,40 @@ START_TEST(sweeps_modes_and_figures_never_allocate) {
     /* every way a sweep ends */
     sketch_branch(s, &cr, 0.0, 1);
     trace_links(&t, cr.crank, cr.coupler, cr.rocker);
-    ck_assert_int_eq(kl_sweep(s, 0, 0.0, 2 * PI, 72, record, &t, &r), KL_OK);
+    ck_assert_int_eq(kl_solver_sweep(s, 0, 0.0, 2 * PI, 72, record, &t, &r), KL_OK);
     t.calls = 0;
     t.stop_at = 3;
-    ck_assert_int_eq(kl_sweep(s, 0, 0.0, 1.0, 10, record, &t, &r), KL_STOPPED);
+    ck_assert_int_eq(kl_solver_sweep(s, 0, 0.0, 1.0, 10, record, &t, &r), KL_STOPPED);
     kl_set_link_angle(sn, ng.coupler, -0.2);
     kl_set_link_angle(sn, ng.rocker, 1.5);
-    ck_assert_int_eq(kl_sweep(sn, 0, 0.0, PI, 20, NULL, NULL, &r), KL_LIMIT);
+    ck_assert_int_eq(kl_solver_sweep(sn, 0, 0.0, PI, 20, NULL, NULL, &r), KL_LIMIT);
     kl_set_link_angle(sp, par.coupler, 0.05);
     kl_set_link_angle(sp, par.rocker, 0.5);
-    ck_assert_int_eq(kl_sweep(sp, 0, 0.55, -0.45, 10, NULL, NULL, &r),
+    ck_assert_int_eq(kl_solver_sweep(sp, 0, 0.55, -0.45, 10, NULL, NULL, &r),
                      KL_ESINGULAR);
-    ck_assert_int_eq(kl_sweep(s, 3, 0.0, 1.0, 10, NULL, NULL, &r), KL_EID);
+    ck_assert_int_eq(kl_solver_sweep(s, 3, 0.0, 1.0, 10, NULL, NULL, &r), KL_EID);
 
     /* modes */
-    ck_assert_int_eq(kl_find_assemblies(s, &u, modes, 2), 2);
+    ck_assert_int_eq(kl_solver_find_assemblies(s, &u, modes, 2), 2);
 
     /* design figures, their failures included */
-    ck_assert_int_eq(kl_model_grashof(cr.m), KL_CRANK_ROCKER);
+    ck_assert_int_eq(kl_model_grashof(cr.m), KL_GRASHOF_CRANK_ROCKER);
     ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
     ck_assert_int_eq(kl_output_value(s, &trans, &v), KL_OK);
     ck_assert_int_eq(kl_output_deriv(s, &rocker, 0, &v), KL_OK);
-    ck_assert_int_eq(kl_mechanical_advantage(s, &rocker, 0, &v), KL_OK);
+    ck_assert_int_eq(kl_output_mechanical_advantage(s, &rocker, 0, &v), KL_OK);
     ck_assert_int_eq(kl_input_effort(s, 1, &load, &effort), KL_OK);
     ck_assert_int_eq(kl_input_effort(s, 1, &bad_load, &effort), KL_EID);
     ck_assert_int_eq(kl_output_sensitivity(s, &trans, &dims[0], &v), KL_OK);
     ck_assert_int_eq(kl_output_sensitivity(s, &trans, &bad_dim, &v), KL_EINVAL);
     ck_assert_int_eq(kl_output_deriv(s, &wrong, 0, &v), KL_EKIND);
-    ck_assert_int_eq(kl_tolerance_stack(s, &rocker, 2, dims, tol, &worst, &rss),
+    ck_assert_int_eq(kl_output_tolerance_stack(s, &rocker, 2, dims, tol, &worst, &rss),
                      KL_OK);
     ck_assert_int_eq(kl_output_range(s, 0, 0.0, 2 * PI, 36, &trans, &range),
                      KL_OK);
     ck_assert_int_eq(kl_output_range(sn, 0, 0.0, PI, 20, &rocker, &range),
                      KL_LIMIT);
-    ck_assert_int_eq(kl_time_ratio(&range, &v), KL_OK);
+    ck_assert_int_eq(kl_range_time_ratio(&range, &v), KL_OK);
   }
   /* source: the contract in kinloop.h, "no call on a solver allocates
    * after kl_solver_new" */
@@ -832,7 +832,7 @@ START_TEST(slide_input_stops_at_the_dead_centres) {
     kl_set_link_angle(s, d.crank, 1.5);
     kl_set_link_angle(s, d.rod, -0.18);
     trace_links(&t, d.crank, d.rod, d.block);
-    st = kl_sweep(s, 0, 100.0, ends[k], 40, record, &t, &r);
+    st = kl_solver_sweep(s, 0, 100.0, ends[k], 40, record, &t, &r);
     /* source: the dead centres above; promised to 1e-10 length units, 1e-9
      * leaves the closed form's rounding a factor ten */
     ck_assert_msg(fabs(r.limit_input - limits[k]) <= 1e-9,

@@ -44,7 +44,7 @@ struct entry {
   int owner = 0;         /* model: the study it belongs to, 0 if its own */
   int live_solvers = 0;  /* model: solvers not yet freed */
   void *block = nullptr; /* solver placed in a gateway-owned block */
-  bool sweeping = false; /* solver: inside kl_sweep's callback */
+  bool sweeping = false; /* solver: inside kl_solver_sweep's callback */
 };
 
 struct registry {
@@ -102,6 +102,8 @@ const char *status_name(int status) {
   case KL_ESTAGE: return "ESTAGE";
   case KL_ESYNTAX: return "ESYNTAX";
   case KL_EIO: return "EIO";
+  case KL_ETRUNCATED: return "ETRUNCATED";
+  case KL_ETOOLARGE: return "ETOOLARGE";
   default: return "EUNKNOWN";
   }
 }
@@ -427,12 +429,12 @@ kl_output output_arg(const call &c, int i) {
     c.bad("output needs the fields kind and id");
   kl_output o;
   o.kind = code_of(c, kind, "output kind",
-                   {{"link_angle", KL_OUT_LINK_ANGLE},
-                    {"slide", KL_OUT_SLIDE},
-                    {"joint_angle", KL_OUT_JOINT_ANGLE},
-                    {"point_x", KL_OUT_POINT_X},
-                    {"point_y", KL_OUT_POINT_Y},
-                    {"transmission", KL_OUT_TRANSMISSION}});
+                   {{"link_angle", KL_OUTPUT_LINK_ANGLE},
+                    {"slide", KL_OUTPUT_SLIDE},
+                    {"joint_angle", KL_OUTPUT_JOINT_ANGLE},
+                    {"point_x", KL_OUTPUT_POINT_X},
+                    {"point_y", KL_OUTPUT_POINT_Y},
+                    {"transmission", KL_OUTPUT_TRANSMISSION}});
   o.id = field_int(c, field(m, 0, "id"), "output id", -1);
   o.line_a = field_int(c, field(m, 0, "line_a"), "output line_a", -1);
   o.line_b = field_int(c, field(m, 0, "line_b"), "output line_b", -1);
@@ -452,9 +454,9 @@ std::vector<kl_dimension> dimensions_arg(const call &c, int i) {
       c.bad("each dimension needs the fields kind, id and axis");
     kl_dimension d;
     d.kind = code_of(c, kind, "dimension kind",
-                     {{"joint_a", KL_DIM_JOINT_A},
-                      {"joint_b", KL_DIM_JOINT_B},
-                      {"point", KL_DIM_POINT}});
+                     {{"joint_a", KL_DIMENSION_JOINT_A},
+                      {"joint_b", KL_DIMENSION_JOINT_B},
+                      {"point", KL_DIMENSION_POINT}});
     d.id = field_int(c, field(m, k, "id"), "dimension id", -1);
     d.axis = code_of(c, axis, "dimension axis", {{"x", 0}, {"y", 1}});
     dims.push_back(d);
@@ -714,7 +716,7 @@ octave_value_list cmd_set_joint_name(const call &c) {
   std::string name;
   if (!c.name_arg(2, "name", name))
     c.bad("name must be given");
-  model_status(kl_set_joint_name(m.model, c.integer(1, "joint"), name.c_str()),
+  model_status(kl_model_set_joint_name(m.model, c.integer(1, "joint"), name.c_str()),
                m);
   return none();
 }
@@ -770,7 +772,7 @@ octave_value_list cmd_angle_unit_str(const call &c) {
 octave_value_list cmd_set_sketch_angle(const call &c) {
   entry &m = c.model(0);
   model_status(
-      kl_set_sketch_angle(m.model, c.integer(1, "link"), c.real(2, "angle")),
+      kl_model_set_sketch_angle(m.model, c.integer(1, "link"), c.real(2, "angle")),
       m);
   return none();
 }
@@ -778,7 +780,7 @@ octave_value_list cmd_set_sketch_angle(const call &c) {
 octave_value_list cmd_set_sketch_slide(const call &c) {
   entry &m = c.model(0);
   model_status(
-      kl_set_sketch_slide(m.model, c.integer(1, "joint"), c.real(2, "slide")),
+      kl_model_set_sketch_slide(m.model, c.integer(1, "joint"), c.real(2, "slide")),
       m);
   return none();
 }
@@ -786,13 +788,13 @@ octave_value_list cmd_set_sketch_slide(const call &c) {
 octave_value_list cmd_sketch_angle(const call &c) {
   const kl_model *m = c.model(0, access::read).model;
   return one(
-      each_id(c, 1, "links", [m](int id) { return kl_sketch_angle(m, id); }));
+      each_id(c, 1, "links", [m](int id) { return kl_model_sketch_angle(m, id); }));
 }
 
 octave_value_list cmd_sketch_slide(const call &c) {
   const kl_model *m = c.model(0, access::read).model;
   return one(
-      each_id(c, 1, "joints", [m](int id) { return kl_sketch_slide(m, id); }));
+      each_id(c, 1, "joints", [m](int id) { return kl_model_sketch_slide(m, id); }));
 }
 
 octave_value_list cmd_model_set_sweep(const call &c) {
@@ -852,7 +854,7 @@ octave_value_list cmd_find(const call &c) {
 octave_value_list cmd_point_link(const call &c) {
   int point = c.integer(1, "point");
   double xy[2];
-  int st = kl_point_link(c.model(0, access::read).model, point, xy);
+  int st = kl_model_point_link(c.model(0, access::read).model, point, xy);
   c.quiet(st, "point " + str(point));
   octave_value_list out;
   out(0) = st;
@@ -862,11 +864,11 @@ octave_value_list cmd_point_link(const call &c) {
 
 octave_value_list cmd_joint_kind(const call &c) {
   int joint = c.integer(1, "joint");
-  int st = kl_joint_kind(c.model(0, access::read).model, joint);
+  int st = kl_model_joint_kind(c.model(0, access::read).model, joint);
   c.quiet(st, "joint " + str(joint));
   octave_value_list out;
-  out(0) = st == KL_REVOLUTE    ? "revolute"
-           : st == KL_PRISMATIC ? "prismatic"
+  out(0) = st == KL_JOINT_REVOLUTE    ? "revolute"
+           : st == KL_JOINT_PRISMATIC ? "prismatic"
                                 : "slot";
   out(1) = st;
   return out;
@@ -875,7 +877,7 @@ octave_value_list cmd_joint_kind(const call &c) {
 octave_value_list cmd_joint_links(const call &c) {
   int joint = c.integer(1, "joint"), links[2];
   double a[2], b[2], ids[2];
-  int st = kl_joint_links(c.model(0, access::read).model, joint, links, a, b);
+  int st = kl_model_joint_links(c.model(0, access::read).model, joint, links, a, b);
   c.quiet(st, "joint " + str(joint));
   ids[0] = links[0];
   ids[1] = links[1];
@@ -888,12 +890,12 @@ octave_value_list cmd_joint_links(const call &c) {
 
 octave_value_list cmd_joint_axis(const call &c) {
   return one(
-      kl_joint_axis(c.model(0, access::read).model, c.integer(1, "joint")));
+      kl_model_joint_axis(c.model(0, access::read).model, c.integer(1, "joint")));
 }
 
 octave_value_list cmd_input_joint(const call &c) {
   int input = c.integer(1, "input");
-  int st = kl_input_joint(c.model(0, access::read).model, input);
+  int st = kl_model_input_joint(c.model(0, access::read).model, input);
   c.quiet(st, "input " + str(input));
   return one(st);
 }
@@ -1141,7 +1143,7 @@ octave_value_list cmd_solver_set_options(const call &c) {
                "max_backtracks", "max_step", "singular_rcond", "kernel"});
   kl_options o;
   kl_options_default(&o);
-  solver_status(kl_solver_get_options(s.solver, &o), s);
+  solver_status(kl_solver_options(s.solver, &o), s);
   o.tolerance =
       field_real(c, field(m, 0, "tolerance"), "tolerance", o.tolerance);
   o.step_tolerance = field_real(c, field(m, 0, "step_tolerance"),
@@ -1162,7 +1164,7 @@ octave_value_list cmd_solver_get_options(const call &c) {
   entry &s = c.solver(0, access::read);
   kl_options o;
   kl_options_default(&o);
-  c.quiet(kl_solver_get_options(s.solver, &o), "options");
+  c.quiet(kl_solver_options(s.solver, &o), "options");
   return one(options_struct(o));
 }
 
@@ -1291,7 +1293,7 @@ octave_value_list cmd_find_assemblies(const call &c) {
       modes.push_back(it->second.solver);
     }
   }
-  int found = kl_find_assemblies(s.solver, n > 0 ? u.data() : nullptr,
+  int found = kl_solver_find_assemblies(s.solver, n > 0 ? u.data() : nullptr,
                                  modes.empty() ? nullptr : modes.data(),
                                  static_cast<int>(modes.size()));
   solver_status(found, s);
@@ -1400,7 +1402,7 @@ extern "C" int record_step(const kl_solver *s, int step, double input,
   return r->notify(step, input);
 }
 
-/* Marks a solver as sweeping for the duration of one kl_sweep. */
+/* Marks a solver as sweeping for the duration of one kl_solver_sweep. */
 struct sweeping_guard {
   entry &e;
   explicit sweeping_guard(entry &e) : e(e) { e.sweeping = true; }
@@ -1425,7 +1427,7 @@ octave_value_list cmd_sweep(const call &c) {
   int st;
   {
     sweeping_guard guard(s);
-    st = kl_sweep(s.solver, input, from, to, steps, record_step, &rec, &res);
+    st = kl_solver_sweep(s.solver, input, from, to, steps, record_step, &rec, &res);
   }
   if (rec.failure)
     std::rethrow_exception(rec.failure);
@@ -1493,7 +1495,7 @@ octave_value_list cmd_time_ratio(const call &c) {
   r.input_at_max =
       field_real(c, field(m, 0, "input_at_max"), "input_at_max", NAN);
   double ratio = NAN;
-  c.quiet(kl_time_ratio(&r, &ratio),
+  c.quiet(kl_range_time_ratio(&r, &ratio),
           "input_at_min " + str(r.input_at_min) + ", input_at_max " +
               str(r.input_at_max) + " must be finite and differ modulo 2 pi");
   return one(ratio);
@@ -1529,7 +1531,7 @@ octave_value_list cmd_tolerance_stack(const call &c) {
   std::vector<double> tol = c.values(3, static_cast<int>(dims.size()),
                                      "tolerances (one per dimension)");
   double worst = NAN, rss = NAN;
-  solver_status(kl_tolerance_stack(s.solver, &o, static_cast<int>(dims.size()),
+  solver_status(kl_output_tolerance_stack(s.solver, &o, static_cast<int>(dims.size()),
                                    dims.empty() ? nullptr : dims.data(),
                                    tol.empty() ? nullptr : tol.data(), &worst,
                                    &rss),
@@ -1786,16 +1788,16 @@ const command commands[] = {
     {"model_loop_count", 1, 1, "(model)", cmd_model_count<kl_model_loop_count>},
     {"model_loop", 2, 2, "(model, loop)", cmd_model_loop},
     {"model_scale", 1, 1, "(model)", cmd_model_scale},
-    {"set_joint_name", 3, 3, "(model, joint, name)", cmd_set_joint_name},
+    {"model_set_joint_name", 3, 3, "(model, joint, name)", cmd_set_joint_name},
     {"model_set_units", 3, 3, "(model, length_unit, angle_unit)",
      cmd_model_set_units},
     {"model_units", 1, 1, "(model)", cmd_model_units},
     {"length_unit_str", 1, 1, "(code)", cmd_length_unit_str},
     {"angle_unit_str", 1, 1, "(code)", cmd_angle_unit_str},
-    {"set_sketch_angle", 3, 3, "(model, link, angle)", cmd_set_sketch_angle},
-    {"set_sketch_slide", 3, 3, "(model, joint, slide)", cmd_set_sketch_slide},
-    {"sketch_angle", 2, 2, "(model, links)", cmd_sketch_angle},
-    {"sketch_slide", 2, 2, "(model, joints)", cmd_sketch_slide},
+    {"model_set_sketch_angle", 3, 3, "(model, link, angle)", cmd_set_sketch_angle},
+    {"model_set_sketch_slide", 3, 3, "(model, joint, slide)", cmd_set_sketch_slide},
+    {"model_sketch_angle", 2, 2, "(model, links)", cmd_sketch_angle},
+    {"model_sketch_slide", 2, 2, "(model, joints)", cmd_sketch_slide},
     {"model_set_sweep", 2, 2, "(model, struct(input, from, to, steps))",
      cmd_model_set_sweep},
     {"model_sweep", 1, 1, "(model)", cmd_model_sweep},
@@ -1806,17 +1808,17 @@ const command commands[] = {
      cmd_model_count<kl_model_point_count>},
     {"model_input_count", 1, 1, "(model)",
      cmd_model_count<kl_model_input_count>},
-    {"link_name", 2, 2, "(model, link)", cmd_name_of<kl_link_name>},
-    {"point_name", 2, 2, "(model, point)", cmd_name_of<kl_point_name>},
-    {"joint_name", 2, 2, "(model, joint)", cmd_name_of<kl_joint_name>},
-    {"link_find", 2, 2, "(model, name)", cmd_find<kl_link_find>},
-    {"joint_find", 2, 2, "(model, name)", cmd_find<kl_joint_find>},
-    {"point_find", 2, 2, "(model, name)", cmd_find<kl_point_find>},
-    {"point_link", 2, 2, "(model, point)", cmd_point_link},
-    {"joint_kind", 2, 2, "(model, joint)", cmd_joint_kind},
-    {"joint_links", 2, 2, "(model, joint)", cmd_joint_links},
-    {"joint_axis", 2, 2, "(model, joint)", cmd_joint_axis},
-    {"input_joint", 2, 2, "(model, input)", cmd_input_joint},
+    {"model_link_name", 2, 2, "(model, link)", cmd_name_of<kl_model_link_name>},
+    {"model_point_name", 2, 2, "(model, point)", cmd_name_of<kl_model_point_name>},
+    {"model_joint_name", 2, 2, "(model, joint)", cmd_name_of<kl_model_joint_name>},
+    {"model_find_link", 2, 2, "(model, name)", cmd_find<kl_model_find_link>},
+    {"model_find_joint", 2, 2, "(model, name)", cmd_find<kl_model_find_joint>},
+    {"model_find_point", 2, 2, "(model, name)", cmd_find<kl_model_find_point>},
+    {"model_point_link", 2, 2, "(model, point)", cmd_point_link},
+    {"model_joint_kind", 2, 2, "(model, joint)", cmd_joint_kind},
+    {"model_joint_links", 2, 2, "(model, joint)", cmd_joint_links},
+    {"model_joint_axis", 2, 2, "(model, joint)", cmd_joint_axis},
+    {"model_input_joint", 2, 2, "(model, input)", cmd_input_joint},
     {"model_grashof", 1, 1, "(model)", cmd_model_grashof},
     {"grashof", 4, 4, "(ground, input, coupler, output)", cmd_grashof},
     {"grashof_str", 1, 1, "(class)", cmd_grashof_str},
@@ -1837,7 +1839,7 @@ const command commands[] = {
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
     {"solver_error", 1, 1, "(solver)", cmd_solver_error},
     {"solver_set_options", 2, 2, "(solver, options)", cmd_solver_set_options},
-    {"solver_get_options", 1, 1, "(solver)", cmd_solver_get_options},
+    {"solver_options", 1, 1, "(solver)", cmd_solver_get_options},
     {"set_link_angle", 3, 3, "(solver, link, angle)", cmd_set_link_angle},
     {"set_joint_slide", 3, 3, "(solver, joint, slide)", cmd_set_joint_slide},
     {"solve_position", 2, 2, "(solver, inputs)", cmd_stage<kl_solve_position>},
@@ -1882,22 +1884,22 @@ const command commands[] = {
      cmd_point_deriv2},
     /* states, assembly modes, sweeps */
     {"solver_copy_state", 2, 2, "(to, from)", cmd_solver_copy_state},
-    {"find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])",
+    {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])",
      cmd_find_assemblies},
-    {"sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
+    {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
     /* design figures */
     {"output_value", 2, 2, "(solver, output)", cmd_output_value},
     {"output_deriv", 3, 3, "(solver, output, input)",
      cmd_output_per_input<kl_output_deriv>},
     {"output_range", 6, 6, "(solver, input, from, to, steps, output)",
      cmd_output_range},
-    {"time_ratio", 1, 1, "(range)", cmd_time_ratio},
-    {"mechanical_advantage", 3, 3, "(solver, output, input)",
-     cmd_output_per_input<kl_mechanical_advantage>},
+    {"range_time_ratio", 1, 1, "(range)", cmd_time_ratio},
+    {"output_mechanical_advantage", 3, 3, "(solver, output, input)",
+     cmd_output_per_input<kl_output_mechanical_advantage>},
     {"input_effort", 2, 2, "(solver, loads)", cmd_input_effort},
     {"output_sensitivity", 3, 3, "(solver, output, dimension)",
      cmd_output_sensitivity},
-    {"tolerance_stack", 4, 4, "(solver, output, dimensions, tolerances)",
+    {"output_tolerance_stack", 4, 4, "(solver, output, dimensions, tolerances)",
      cmd_tolerance_stack},
     /* design studies */
     {"study_read", 1, 2, "(text, [base_dir])", cmd_study_read},

@@ -204,7 +204,7 @@ void cli_column_unit(const cli_model *cm, int input, const cli_column *c,
                      int per_input, char *buf, size_t cap);
 typedef int (*cli_row_fn)(void *user, int step, const double *row);
 /* Sweeps `r` from the solver's state, handing each row to `fn` (non-zero
- * stops). Returns what kl_sweep returned, or KL_ENOMEM. */
+ * stops). Returns what kl_solver_sweep returned, or KL_ENOMEM. */
 int cli_record(kl_solver *s, const cli_model *cm, const cli_range *r,
                cli_row_fn fn, void *user, kl_sweep_result *res);
 /* A note for a sweep that stopped early, in the user's units. */

@@ -29,8 +29,8 @@ static int worst_torque(const cli_model *cm, double *worst, double *at) {
   kl_load loads[2];
   cli_options none;
   cli_range turn;
-  int tip = find_or_fail(kl_point_find(m, "tucker tip"), "point", "tucker tip");
-  int nose = find_or_fail(kl_point_find(m, "plate nose"), "point", "plate nose");
+  int tip = find_or_fail(kl_model_find_point(m, "tucker tip"), "point", "tucker tip");
+  int nose = find_or_fail(kl_model_find_point(m, "plate nose"), "point", "plate nose");
   int k, st = CLI_EXIT_OK;
   if (s == NULL) {
     cli_error("out of memory");
@@ -63,7 +63,7 @@ static int worst_torque(const cli_model *cm, double *worst, double *at) {
     double torque;
     kl_sweep_result res;
     res.size = sizeof res;
-    if ((k > 0 && kl_sweep(s, 0, u0, u1, 1, NULL, NULL, &res) != KL_OK) ||
+    if ((k > 0 && kl_solver_sweep(s, 0, u0, u1, 1, NULL, NULL, &res) != KL_OK) ||
         kl_input_effort(s, 2, loads, &torque) != KL_OK) {
       cli_error("the torque at motor %d deg: %s", k, kl_solver_error(s));
       st = CLI_EXIT_SOLVE;

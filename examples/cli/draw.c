@@ -192,7 +192,7 @@ static int make_outlines(const cli_model *cm, outline *o) {
     for (j = 0; j < cm->njoints; j++) {
       int links[2];
       double a[2], b[2];
-      kl_joint_links(m, j, links, a, b);
+      kl_model_joint_links(m, j, links, a, b);
       if (links[0] == l) {
         pts[2 * n] = a[0];
         pts[2 * n + 1] = a[1];
@@ -206,7 +206,7 @@ static int make_outlines(const cli_model *cm, outline *o) {
     }
     for (p = 0; p < cm->npoints; p++) {
       double xy[2];
-      if (kl_point_link(m, p, xy) == l) {
+      if (kl_model_point_link(m, p, xy) == l) {
         pts[2 * n] = xy[0];
         pts[2 * n + 1] = xy[1];
         n++;
@@ -273,8 +273,8 @@ static void rail_span(const cli_model *cm, const pose *poses, int nposes,
 static void rail_point(const cli_model *cm, const pose *q, int joint,
                        double v, double xy[2]) {
   int links[2];
-  double a[2], local[2], axis = kl_joint_axis(cm->model, joint);
-  kl_joint_links(cm->model, joint, links, a, NULL);
+  double a[2], local[2], axis = kl_model_joint_axis(cm->model, joint);
+  kl_model_joint_links(cm->model, joint, links, a, NULL);
   local[0] = a[0] + v * cos(axis);
   local[1] = a[1] + v * sin(axis);
   to_global(q, links[0], local, xy);
@@ -362,7 +362,7 @@ static void draw_pose(FILE *f, const cli_model *cm, const pose *q,
   for (k = 0; k < cm->nslides; k++) {
     int links[2];
     double lo, hi;
-    kl_joint_links(m, cm->slides[k], links, NULL, NULL);
+    kl_model_joint_links(m, cm->slides[k], links, NULL, NULL);
     if (links[0] == KL_GROUND)
       continue;
     rail_span(cm, poses, nposes, p, k, 3 * u, &lo, &hi);
@@ -399,10 +399,10 @@ static void draw_pose(FILE *f, const cli_model *cm, const pose *q,
   for (k = 0; k < cm->nslides; k++) {
     int joint = cm->slides[k], links[2];
     double axis, c, s, cx, cy, hl = 2.6 * u, hw = 1.6 * u;
-    if (kl_joint_kind(m, joint) != KL_PRISMATIC)
+    if (kl_model_joint_kind(m, joint) != KL_JOINT_PRISMATIC)
       continue;
-    kl_joint_links(m, joint, links, NULL, NULL);
-    axis = q->link_angle[links[0]] + kl_joint_axis(m, joint);
+    kl_model_joint_links(m, joint, links, NULL, NULL);
+    axis = q->link_angle[links[0]] + kl_model_joint_axis(m, joint);
     c = cos(axis);
     s = sin(axis);
     cx = q->joint_xy[2 * joint];
@@ -422,7 +422,7 @@ static void draw_pose(FILE *f, const cli_model *cm, const pose *q,
             "\" cx=\"%.17g\" cy=\"%.17g\" r=\"%.9g\" fill=\"#fffdf7\" "
             "stroke=\"%s\" stroke-width=\"%.9g\"><title>",
             q->joint_xy[2 * j], q->joint_xy[2 * j + 1],
-            kl_joint_kind(m, j) == KL_REVOLUTE ? u : 0.6 * u, SVG_INK,
+            kl_model_joint_kind(m, j) == KL_JOINT_REVOLUTE ? u : 0.6 * u, SVG_INK,
             0.3 * u);
     svg_escaped(f, cm->joint_names[j]);
     fprintf(f, "</title></circle>\n");
@@ -561,7 +561,7 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   for (k = 0; k < cm->nslides; k++) {
     int links[2];
     double lo, hi;
-    kl_joint_links(m, cm->slides[k], links, NULL, NULL);
+    kl_model_joint_links(m, cm->slides[k], links, NULL, NULL);
     if (links[0] != KL_GROUND)
       continue;
     rail_span(cm, poses, nposes, p, k, 3 * u, &lo, &hi);
@@ -570,8 +570,8 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   for (j = 0; j < cm->njoints; j++) {
     int links[2];
     double a[2], bb[2];
-    kl_joint_links(m, j, links, a, bb);
-    if (kl_joint_kind(m, j) != KL_REVOLUTE)
+    kl_model_joint_links(m, j, links, a, bb);
+    if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE)
       continue;
     if (links[0] == KL_GROUND)
       draw_ground_pivot(f, a, u);

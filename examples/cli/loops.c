@@ -10,7 +10,7 @@
 static int is_input(const kl_model *m, int joint) {
   int i, n = kl_model_input_count(m);
   for (i = 0; i < n; i++)
-    if (kl_input_joint(m, i) == joint)
+    if (kl_model_input_joint(m, i) == joint)
       return 1;
   return 0;
 }
@@ -19,14 +19,14 @@ static int is_input(const kl_model *m, int joint) {
 static void attachment(const kl_model *m, int joint, int link, double xy[2]) {
   int links[2];
   double a[2], b[2];
-  kl_joint_links(m, joint, links, a, b);
+  kl_model_joint_links(m, joint, links, a, b);
   xy[0] = links[0] == link ? a[0] : b[0];
   xy[1] = links[0] == link ? a[1] : b[1];
 }
 
 static int on_link(const kl_model *m, int joint, int link) {
   int links[2];
-  kl_joint_links(m, joint, links, NULL, NULL);
+  kl_model_joint_links(m, joint, links, NULL, NULL);
   return links[0] == link || links[1] == link;
 }
 
@@ -53,9 +53,9 @@ static int already_site(const cli_model *cm, int joint) {
 static int is_input_crank(const kl_model *m, int link) {
   int i, n = kl_model_input_count(m), links[2];
   for (i = 0; i < n; i++) {
-    int joint = kl_input_joint(m, i);
-    kl_joint_links(m, joint, links, NULL, NULL);
-    if (kl_joint_kind(m, joint) == KL_REVOLUTE &&
+    int joint = kl_model_input_joint(m, i);
+    kl_model_joint_links(m, joint, links, NULL, NULL);
+    if (kl_model_joint_kind(m, joint) == KL_JOINT_REVOLUTE &&
         ((links[0] == KL_GROUND && links[1] == link) ||
          (links[1] == KL_GROUND && links[0] == link)))
       return 1;
@@ -83,8 +83,8 @@ static void add_sites(cli_model *cm, int loop, const int *walk, int n) {
   for (k = 0; k < n; k++) {
     int joint = walk[k], prev = walk[(k + n - 1) % n], next = walk[(k + 1) % n];
     int links[2], side;
-    kl_joint_links(m, joint, links, NULL, NULL);
-    if (kl_joint_kind(m, joint) != KL_REVOLUTE || links[0] == KL_GROUND ||
+    kl_model_joint_links(m, joint, links, NULL, NULL);
+    if (kl_model_joint_kind(m, joint) != KL_JOINT_REVOLUTE || links[0] == KL_GROUND ||
         links[1] == KL_GROUND || is_input(m, joint) || already_site(cm, joint))
       continue;
     /* the walk reaches `joint` from prev over one of its links and leaves
@@ -128,7 +128,7 @@ static void add_fourbar(cli_model *cm, int loop, const int *walk, int n) {
   if (n != 4)
     return;
   for (k = 0; k < 4; k++) {
-    if (kl_joint_kind(m, walk[k]) != KL_REVOLUTE)
+    if (kl_model_joint_kind(m, walk[k]) != KL_JOINT_REVOLUTE)
       return;
     /* ground sits between walk[k] and walk[k + 1] */
     if (on_link(m, walk[k], KL_GROUND) && on_link(m, walk[(k + 1) % 4], KL_GROUND))
@@ -146,16 +146,16 @@ static void add_fourbar(cli_model *cm, int loop, const int *walk, int n) {
   /* walking away from ground past the input joint reaches the coupler */
   coupler_joint_in = walk[(ground_at + (input_side == 0 ? 3 : 2)) % 4];
   coupler_joint_out = walk[(ground_at + (input_side == 0 ? 2 : 3)) % 4];
-  kl_joint_links(m, input_joint, links, NULL, NULL);
+  kl_model_joint_links(m, input_joint, links, NULL, NULL);
   input_link = links[0] == KL_GROUND ? links[1] : links[0];
-  kl_joint_links(m, output_joint, links, NULL, NULL);
+  kl_model_joint_links(m, output_joint, links, NULL, NULL);
   output_link = links[0] == KL_GROUND ? links[1] : links[0];
   fb = &cm->fourbars[cm->nfourbars++];
   fb->loop = loop;
   fb->input_joint = input_joint;
   fb->input_link = input_link;
   fb->output_link = output_link;
-  kl_joint_links(m, coupler_joint_in, links, NULL, NULL);
+  kl_model_joint_links(m, coupler_joint_in, links, NULL, NULL);
   fb->coupler_link = links[0] == input_link ? links[1] : links[0];
   fb->ground = span(m, KL_GROUND, input_joint, output_joint);
   fb->input = span(m, input_link, input_joint, coupler_joint_in);
@@ -191,7 +191,7 @@ int cli_analyse_loops(cli_model *cm) {
 double cli_site_value(const kl_solver *s, const cli_site *site) {
   kl_output o;
   double v = NAN;
-  o.kind = KL_OUT_TRANSMISSION;
+  o.kind = KL_OUTPUT_TRANSMISSION;
   o.id = site->joint;
   o.line_a = site->line_a;
   o.line_b = site->line_b;

@@ -107,16 +107,16 @@ static int fill_tables(cli_model *cm) {
   cm->length_unit = length_unit == KL_LENGTH_UNSTATED
                         ? "len"
                         : kl_length_unit_str(length_unit);
-  cm->link_names = labels(cm->nlinks, m, kl_link_name);
-  cm->joint_names = labels(cm->njoints, m, kl_joint_name);
-  cm->point_names = labels(cm->npoints, m, kl_point_name);
+  cm->link_names = labels(cm->nlinks, m, kl_model_link_name);
+  cm->joint_names = labels(cm->njoints, m, kl_model_joint_name);
+  cm->point_names = labels(cm->npoints, m, kl_model_point_name);
   cm->slides = malloc((size_t)(cm->njoints > 0 ? cm->njoints : 1) *
                       sizeof *cm->slides);
   if (cm->link_names == NULL || cm->joint_names == NULL ||
       cm->point_names == NULL || cm->slides == NULL)
     return CLI_EXIT_MEMORY;
   for (j = 0; j < cm->njoints; j++)
-    if (kl_joint_kind(m, j) != KL_REVOLUTE)
+    if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE)
       cm->slides[cm->nslides++] = j;
   return cli_analyse_loops(cm);
 }

@@ -14,8 +14,8 @@
 #define DEFAULT_STEPS 72
 
 int cli_input_is_angle(const cli_model *cm, int input) {
-  return kl_joint_kind(cm->model, kl_input_joint(cm->model, input)) ==
-         KL_REVOLUTE;
+  return kl_model_joint_kind(cm->model, kl_model_input_joint(cm->model, input)) ==
+         KL_JOINT_REVOLUTE;
 }
 
 double cli_input_factor(const cli_model *cm, int input) {
@@ -27,7 +27,7 @@ const char *cli_input_unit(const cli_model *cm, int input) {
 }
 
 const char *cli_input_name(const cli_model *cm, int input) {
-  return cm->joint_names[kl_input_joint(cm->model, input)];
+  return cm->joint_names[kl_model_input_joint(cm->model, input)];
 }
 
 void cli_format_input(const cli_model *cm, int input, double value, char *buf,
@@ -143,7 +143,7 @@ int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
       continue;
     steps = delta / step > 1e6 ? 1000000 : (int)ceil(delta / step);
     res.size = sizeof res;
-    st = kl_sweep(s, i, now[i], target[i], steps, NULL, NULL, &res);
+    st = kl_solver_sweep(s, i, now[i], target[i], steps, NULL, NULL, &res);
     if (st != KL_OK) {
       char start[320], stop[320], goal[320];
       cli_format_input(cm, i, now[i], start, sizeof start);
@@ -293,6 +293,6 @@ void cli_joint_position(const kl_solver *s, const kl_model *m, int joint,
                         double xy[2]) {
   int links[2];
   double b[2];
-  kl_joint_links(m, joint, links, NULL, b);
+  kl_model_joint_links(m, joint, links, NULL, b);
   cli_local_to_global(s, links[1], b, xy);
 }

@@ -162,7 +162,7 @@ int cli_record(kl_solver *s, const cli_model *cm, const cli_range *range,
   if (r.row == NULL)
     return KL_ENOMEM;
   res->size = sizeof *res;
-  st = kl_sweep(s, range->input, range->from, range->to, range->steps,
+  st = kl_solver_sweep(s, range->input, range->from, range->to, range->steps,
                 record_step, &r, res);
   if (r.progress)
     fputs("\r                          \r", stderr);

@@ -43,7 +43,7 @@ static void print_names(FILE *f, char **names, int from, int to) {
 static int is_input_joint(const cli_model *cm, int joint) {
   int i;
   for (i = 0; i < cm->ninputs; i++)
-    if (kl_input_joint(cm->model, i) == joint)
+    if (kl_model_input_joint(cm->model, i) == joint)
       return 1;
   return 0;
 }
@@ -51,10 +51,10 @@ static int is_input_joint(const cli_model *cm, int joint) {
 static int has_sketch(const cli_model *cm) {
   int l, k;
   for (l = 1; l < cm->nlinks; l++)
-    if (!isnan(kl_sketch_angle(cm->model, l)))
+    if (!isnan(kl_model_sketch_angle(cm->model, l)))
       return 1;
   for (k = 0; k < cm->nslides; k++)
-    if (!isnan(kl_sketch_slide(cm->model, cm->slides[k])))
+    if (!isnan(kl_model_sketch_slide(cm->model, cm->slides[k])))
       return 1;
   return 0;
 }
@@ -74,9 +74,9 @@ static void print_structure(FILE *f, const cli_model *cm) {
     print_names(f, cm->link_names, 1, cm->nlinks);
   }
   for (j = 0; j < cm->njoints; j++)
-    kinds[kl_joint_kind(m, j)]++;
+    kinds[kl_model_joint_kind(m, j)]++;
   fprintf(f, "\n" LABEL "%d: %d revolute, %d prismatic, %d slot\n", "joints",
-          cm->njoints, kinds[KL_REVOLUTE], kinds[KL_PRISMATIC], kinds[KL_SLOT]);
+          cm->njoints, kinds[KL_JOINT_REVOLUTE], kinds[KL_JOINT_PRISMATIC], kinds[KL_JOINT_SLOT]);
   fprintf(f, LABEL "%d%s", "points", cm->npoints, cm->npoints ? ": " : "");
   print_names(f, cm->point_names, 0, cm->npoints);
   fprintf(f, "\n" LABEL "lengths in %s, angles in %s\n", "units",
@@ -163,13 +163,13 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     kl_output out;
     kl_range range;
     double ratio;
-    kl_joint_links(m, j, links, NULL, NULL);
-    if (kl_joint_kind(m, j) != KL_REVOLUTE || is_input_joint(cm, j) ||
+    kl_model_joint_links(m, j, links, NULL, NULL);
+    if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE || is_input_joint(cm, j) ||
         (links[0] != KL_GROUND && links[1] != KL_GROUND))
       continue;
     link = links[0] == KL_GROUND ? links[1] : links[0];
     memset(&out, 0, sizeof out);
-    out.kind = KL_OUT_LINK_ANGLE;
+    out.kind = KL_OUTPUT_LINK_ANGLE;
     out.id = link;
     if (measure(work, base, r, &out, &range) < 0)
       continue;
@@ -183,7 +183,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     fprintf(f, LABEL "swings about %s from %.6g to %.6g %s, %s",
             cm->link_names[link], cm->joint_names[j], range.min * k,
             range.max * k, cm->angle_unit, both);
-    if (full_turn && kl_time_ratio(&range, &ratio) == KL_OK)
+    if (full_turn && kl_range_time_ratio(&range, &ratio) == KL_OK)
       fprintf(f, "; time ratio %.4f", ratio);
     fputc('\n', f);
   }
@@ -194,7 +194,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     if (is_input_joint(cm, cm->slides[i]))
       continue;
     memset(&out, 0, sizeof out);
-    out.kind = KL_OUT_SLIDE;
+    out.kind = KL_OUTPUT_SLIDE;
     out.id = cm->slides[i];
     if (measure(work, base, r, &out, &range) < 0)
       continue;
@@ -203,7 +203,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     fprintf(f, LABEL "stroke %.6g %s, from %.6g to %.6g %s, %s",
             cm->joint_names[cm->slides[i]], range.max - range.min,
             cm->length_unit, range.min, range.max, cm->length_unit, both);
-    if (full_turn && kl_time_ratio(&range, &ratio) == KL_OK)
+    if (full_turn && kl_range_time_ratio(&range, &ratio) == KL_OK)
       fprintf(f, "; time ratio %.4f", ratio);
     fputc('\n', f);
   }
@@ -211,7 +211,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     const cli_site *site = &cm->sites[i];
     kl_output out;
     kl_range range;
-    out.kind = KL_OUT_TRANSMISSION;
+    out.kind = KL_OUTPUT_TRANSMISSION;
     out.id = site->joint;
     out.line_a = site->line_a;
     out.line_b = site->line_b;
@@ -465,7 +465,7 @@ static void print_solution(FILE *f, const cli_model *cm, const kl_solver *s,
   stats.size = sizeof stats;
   kl_solver_stats(s, &stats);
   kl_options_default(&opts);
-  kl_solver_get_options(s, &opts);
+  kl_solver_options(s, &opts);
   fprintf(f, "\ncondition estimate (rcond) %.4g; positions below %.3g count as "
              "singular\n",
           stats.rcond, opts.singular_rcond);

@@ -102,10 +102,10 @@ static void build(program *p, kl_model *m) {
       check(kl_add_loop(m, n, joints));
       break;
     case 9:
-      check(kl_set_sketch_angle(m, id(p, nl), ax));
+      check(kl_model_set_sketch_angle(m, id(p, nl), ax));
       break;
     default:
-      check(kl_set_sketch_slide(m, id(p, nj), ax));
+      check(kl_model_set_sketch_slide(m, id(p, nj), ax));
     }
   }
 }
@@ -152,7 +152,7 @@ static void solve(program *p, kl_model *m) {
       a = id(p, ni);
       v = number(p);
       w = number(p);
-      check(kl_sweep(s, a, v, w, (int)(byte(p) % 6), NULL, NULL, &sw));
+      check(kl_solver_sweep(s, a, v, w, (int)(byte(p) % 6), NULL, NULL, &sw));
       break;
     case 8:
       r.size = sizeof r;
@@ -167,7 +167,7 @@ static void solve(program *p, kl_model *m) {
       break;
     case 10:
       d.kind = (int)(byte(p) % 4);
-      d.id = id(p, d.kind == KL_DIM_POINT ? np : nj);
+      d.id = id(p, d.kind == KL_DIMENSION_POINT ? np : nj);
       d.axis = (int)(byte(p) % 3);
       check(kl_output_sensitivity(s, &o, &d, &v));
       break;

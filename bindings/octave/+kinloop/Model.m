@@ -142,7 +142,7 @@ classdef Model < kinloop.Readable
     end
 
     function set_joint_name(obj, joint, name)
-      __kinloop__('set_joint_name', obj.id, joint, name);
+      __kinloop__('model_set_joint_name', obj.id, joint, name);
     end
 
     function set_units(obj, length_unit, angle_unit)
@@ -151,11 +151,11 @@ classdef Model < kinloop.Readable
     end
 
     function set_sketch_angle(obj, link, angle)
-      __kinloop__('set_sketch_angle', obj.id, link, angle);
+      __kinloop__('model_set_sketch_angle', obj.id, link, angle);
     end
 
     function set_sketch_slide(obj, joint, slide)
-      __kinloop__('set_sketch_slide', obj.id, joint, slide);
+      __kinloop__('model_set_sketch_slide', obj.id, joint, slide);
     end
 
     function set_sweep(obj, settings)
@@ -193,11 +193,11 @@ classdef Model < kinloop.Readable
     end
 
     function a = sketch_angle(obj, links)
-      a = __kinloop__('sketch_angle', obj.id, links);
+      a = __kinloop__('model_sketch_angle', obj.id, links);
     end
 
     function s = sketch_slide(obj, joints)
-      s = __kinloop__('sketch_slide', obj.id, joints);
+      s = __kinloop__('model_sketch_slide', obj.id, joints);
     end
 
     function settings = sweep_settings(obj)
@@ -222,49 +222,49 @@ classdef Model < kinloop.Readable
     end
 
     function name = link_name(obj, link)
-      name = __kinloop__('link_name', obj.id, link);
+      name = __kinloop__('model_link_name', obj.id, link);
     end
 
     function name = point_name(obj, point)
-      name = __kinloop__('point_name', obj.id, point);
+      name = __kinloop__('model_point_name', obj.id, point);
     end
 
     function name = joint_name(obj, joint)
-      name = __kinloop__('joint_name', obj.id, joint);
+      name = __kinloop__('model_joint_name', obj.id, joint);
     end
 
     function link = link_find(obj, name)
-      link = __kinloop__('link_find', obj.id, name);
+      link = __kinloop__('model_find_link', obj.id, name);
     end
 
     function joint = joint_find(obj, name)
-      joint = __kinloop__('joint_find', obj.id, name);
+      joint = __kinloop__('model_find_joint', obj.id, name);
     end
 
     function point = point_find(obj, name)
-      point = __kinloop__('point_find', obj.id, name);
+      point = __kinloop__('model_find_point', obj.id, name);
     end
 
     function [link, xy] = point_link(obj, point)
-      [link, xy] = __kinloop__('point_link', obj.id, point);
+      [link, xy] = __kinloop__('model_point_link', obj.id, point);
     end
 
     function [name, code] = joint_kind(obj, joint)
       % 'revolute', 'prismatic' or 'slot', and the library's code.
-      [name, code] = __kinloop__('joint_kind', obj.id, joint);
+      [name, code] = __kinloop__('model_joint_kind', obj.id, joint);
     end
 
     function [links, pa, pb] = joint_links(obj, joint)
       % [a b], and the attachment points on a and on b.
-      [links, pa, pb] = __kinloop__('joint_links', obj.id, joint);
+      [links, pa, pb] = __kinloop__('model_joint_links', obj.id, joint);
     end
 
     function angle = joint_axis(obj, joint)
-      angle = __kinloop__('joint_axis', obj.id, joint);
+      angle = __kinloop__('model_joint_axis', obj.id, joint);
     end
 
     function joint = input_joint(obj, input)
-      joint = __kinloop__('input_joint', obj.id, input);
+      joint = __kinloop__('model_input_joint', obj.id, input);
     end
 
     function [class_code, class_name] = grashof(obj)

@@ -71,7 +71,7 @@ classdef Solver < handle
     end
 
     function o = options(obj)
-      o = __kinloop__('solver_get_options', obj.id);
+      o = __kinloop__('solver_options', obj.id);
     end
 
     function set_link_angle(obj, link, angle)
@@ -192,10 +192,10 @@ classdef Solver < handle
       % assembly modes at inputs; the first numel(modes) are written into
       % the solvers of the cell array modes.
       if nargin < 3 || isempty(modes)
-        n = __kinloop__('find_assemblies', obj.id, inputs);
+        n = __kinloop__('solver_find_assemblies', obj.id, inputs);
       else
         ids = cellfun(@(m) m.id, modes);
-        n = __kinloop__('find_assemblies', obj.id, inputs, ids);
+        n = __kinloop__('solver_find_assemblies', obj.id, inputs, ids);
       end
     end
 
@@ -224,11 +224,11 @@ classdef Solver < handle
       % fn(solver, step, input) is called after each step; returning true
       % stops the sweep; it may read from the solver but not change it.
       if nargin < 6
-        r = __kinloop__('sweep', obj.id, input, from, to, steps);
+        r = __kinloop__('solver_sweep', obj.id, input, from, to, steps);
       elseif ~is_function_handle(fn)
         error('kinloop:bad_argument', 'sweep: fn must be a function handle fn(solver, step, input)');
       else
-        r = __kinloop__('sweep', obj.id, input, from, to, steps, ...
+        r = __kinloop__('solver_sweep', obj.id, input, from, to, steps, ...
                         @(id, step, u) fn(obj, step, u));
       end
     end
@@ -253,7 +253,7 @@ classdef Solver < handle
     end
 
     function ma = mechanical_advantage(obj, output, input)
-      ma = __kinloop__('mechanical_advantage', obj.id, output, input);
+      ma = __kinloop__('output_mechanical_advantage', obj.id, output, input);
     end
 
     function efforts = input_effort(obj, loads)
@@ -269,7 +269,7 @@ classdef Solver < handle
     end
 
     function [worst, rss] = tolerance_stack(obj, output, dimensions, tolerances)
-      [worst, rss] = __kinloop__('tolerance_stack', obj.id, output, dimensions, tolerances);
+      [worst, rss] = __kinloop__('output_tolerance_stack', obj.id, output, dimensions, tolerances);
     end
   end
 end

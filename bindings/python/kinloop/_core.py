@@ -42,6 +42,8 @@ class Status(enum.IntEnum):
     ESTAGE = -19
     ESYNTAX = -20
     EIO = -21
+    ETRUNCATED = -22
+    ETOOLARGE = -23
 
 
 class JointKind(enum.IntEnum):
@@ -419,9 +421,9 @@ class Range:
         return raw.kl_range(**dataclasses.asdict(self))
 
     def time_ratio(self):
-        """kl_time_ratio: crank angle from minimum to maximum over the angle back."""
+        """kl_range_time_ratio: crank angle from minimum to maximum over the angle back."""
         ratio = ctypes.c_double()
-        st = lib.kl_time_ratio(ctypes.byref(self.to_struct()), ctypes.byref(ratio))
+        st = lib.kl_range_time_ratio(ctypes.byref(self.to_struct()), ctypes.byref(ratio))
         check_const(st, "time_ratio(input_at_min %r, input_at_max %r)"
                     % (self.input_at_min, self.input_at_max))
         return ratio.value

@@ -208,7 +208,7 @@ class Model(Handle):
         return self._check(lib.kl_add_loop(self._changing, len(ids), array))
 
     def set_joint_name(self, joint, name):
-        self._check(lib.kl_set_joint_name(self._changing, joint, encode_name(name)))
+        self._check(lib.kl_model_set_joint_name(self._changing, joint, encode_name(name)))
 
     def set_units(self, length_unit, angle_unit):
         """Records the units (LengthUnit, AngleUnit); numbers are not converted."""
@@ -217,10 +217,10 @@ class Model(Handle):
 
     def set_sketch_angle(self, link, angle):
         """Sketch angle (rad) every new solver starts from."""
-        self._check(lib.kl_set_sketch_angle(self._changing, link, angle))
+        self._check(lib.kl_model_set_sketch_angle(self._changing, link, angle))
 
     def set_sketch_slide(self, joint, slide):
-        self._check(lib.kl_set_sketch_slide(self._changing, joint, slide))
+        self._check(lib.kl_model_set_sketch_slide(self._changing, joint, slide))
 
     def set_sweep(self, input, start, stop, steps):
         """Records sweep settings for tools that run the model."""
@@ -278,10 +278,10 @@ class Model(Handle):
 
     def sketch_angle(self, link):
         """The recorded sketch angle, NaN if none."""
-        return lib.kl_sketch_angle(self._handle, link)
+        return lib.kl_model_sketch_angle(self._handle, link)
 
     def sketch_slide(self, joint):
-        return lib.kl_sketch_slide(self._handle, joint)
+        return lib.kl_model_sketch_slide(self._handle, joint)
 
     @property
     def sweep_settings(self):
@@ -313,51 +313,51 @@ class Model(Handle):
 
     def link_name(self, link):
         """The link's name; None if unnamed or unknown."""
-        return text(lib.kl_link_name(self._handle, link))
+        return text(lib.kl_model_link_name(self._handle, link))
 
     def joint_name(self, joint):
-        return text(lib.kl_joint_name(self._handle, joint))
+        return text(lib.kl_model_joint_name(self._handle, joint))
 
     def point_name(self, point):
-        return text(lib.kl_point_name(self._handle, point))
+        return text(lib.kl_model_point_name(self._handle, point))
 
     def link_find(self, name):
         """The id of the link called `name`; KinloopError (EID) if none is."""
-        return check_const(lib.kl_link_find(self._handle, encode_name(name)),
+        return check_const(lib.kl_model_find_link(self._handle, encode_name(name)),
                            "link_find(%r)" % (name,))
 
     def joint_find(self, name):
-        return check_const(lib.kl_joint_find(self._handle, encode_name(name)),
+        return check_const(lib.kl_model_find_joint(self._handle, encode_name(name)),
                            "joint_find(%r)" % (name,))
 
     def point_find(self, name):
-        return check_const(lib.kl_point_find(self._handle, encode_name(name)),
+        return check_const(lib.kl_model_find_point(self._handle, encode_name(name)),
                            "point_find(%r)" % (name,))
 
     def point_link(self, point):
         """(link, (x, y)): the point's link and local coordinates."""
         xy = xy_buffer()
-        link = check_const(lib.kl_point_link(self._handle, point, xy),
+        link = check_const(lib.kl_model_point_link(self._handle, point, xy),
                            "point_link(%d)" % point)
         return link, xy_pair(xy)
 
     def joint_kind(self, joint):
-        return JointKind(check_const(lib.kl_joint_kind(self._handle, joint),
+        return JointKind(check_const(lib.kl_model_joint_kind(self._handle, joint),
                                      "joint_kind(%d)" % joint))
 
     def joint_links(self, joint):
         """((a, b), a_point, b_point): the joint's links and attachments."""
         links, a_xy, b_xy = (ctypes.c_int * 2)(), xy_buffer(), xy_buffer()
-        check_const(lib.kl_joint_links(self._handle, joint, links, a_xy, b_xy),
+        check_const(lib.kl_model_joint_links(self._handle, joint, links, a_xy, b_xy),
                     "joint_links(%d)" % joint)
         return (links[0], links[1]), xy_pair(a_xy), xy_pair(b_xy)
 
     def joint_axis(self, joint):
         """Slide axis angle in a's frame; NaN for revolute joints."""
-        return lib.kl_joint_axis(self._handle, joint)
+        return lib.kl_model_joint_axis(self._handle, joint)
 
     def input_joint(self, input):
-        return check_const(lib.kl_input_joint(self._handle, input),
+        return check_const(lib.kl_model_input_joint(self._handle, input),
                            "input_joint(%d)" % input)
 
     def grashof(self):

@@ -111,7 +111,7 @@ class Solver(Handle):
     @property
     def options(self):
         o = raw.kl_options()
-        check_const(lib.kl_solver_get_options(self._handle, ctypes.byref(o)),
+        check_const(lib.kl_solver_options(self._handle, ctypes.byref(o)),
                     "options")
         return Options.from_struct(o)
 
@@ -246,7 +246,7 @@ class Solver(Handle):
         while True:
             modes = [Solver(self._model, options) for _ in range(cap)]
             handles = (raw.solver_p * cap)(*(m._handle for m in modes))
-            found = self._check(lib.kl_find_assemblies(self._changing, values,
+            found = self._check(lib.kl_solver_find_assemblies(self._changing, values,
                                                        handles, cap))
             unused = modes[found:] if found <= cap else modes
             for m in unused:
@@ -323,7 +323,7 @@ class Solver(Handle):
         self._sweeping = True
         model._sweeps += 1
         try:
-            status = lib.kl_sweep(h, input, start, stop, steps, c_callback, None,
+            status = lib.kl_solver_sweep(h, input, start, stop, steps, c_callback, None,
                                   ctypes.byref(outcome))
         finally:
             self._sweeping = False
@@ -334,7 +334,7 @@ class Solver(Handle):
         result = SweepResult(
             status=as_status(status), steps_done=done, limit_input=outcome.limit_input,
             substeps=outcome.substeps,
-            # kl_sweep words a limit; KL_STOPPED leaves an older message
+            # kl_solver_sweep words a limit; KL_STOPPED leaves an older message
             message=self.error if status == Status.LIMIT or status < 0 else "",
             **{name: array[:done] for name, array in record.items()})
         self._check(status, result=result)
@@ -371,7 +371,7 @@ class Solver(Handle):
     def mechanical_advantage(self, output, input=0):
         """Output effort over input effort of the ideal linkage."""
         value = ctypes.c_double()
-        self._check(lib.kl_mechanical_advantage(
+        self._check(lib.kl_output_mechanical_advantage(
             self._changing, ctypes.byref(output.to_struct()), input,
             ctypes.byref(value)))
         return value.value
@@ -404,7 +404,7 @@ class Solver(Handle):
         dim_array = (raw.kl_dimension * max(n, 1))(*(d.to_struct() for d in dims))
         tol_array = (ctypes.c_double * max(n, 1))(*tols)
         worst, rss = ctypes.c_double(), ctypes.c_double()
-        self._check(lib.kl_tolerance_stack(self._changing,
+        self._check(lib.kl_output_tolerance_stack(self._changing,
                                            ctypes.byref(output.to_struct()), n,
                                            dim_array, tol_array,
                                            ctypes.byref(worst), ctypes.byref(rss)))

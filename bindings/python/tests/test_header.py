@@ -32,14 +32,14 @@ STRUCTS = {name: getattr(raw, name) for name in (
     "kl_study_summary")}
 ENUMS = {  # C enum -> (Python enum, prefix the Python names drop)
     "kl_status": (kl.Status, "KL_"),
-    "kl_joint_kind": (kl.JointKind, "KL_"),
+    "kl_joint_kind": (kl.JointKind, "KL_JOINT_"),
     "kl_length_unit": (kl.LengthUnit, "KL_LENGTH_"),
     "kl_angle_unit": (kl.AngleUnit, "KL_ANGLE_"),
     "kl_kernel": (kl.Kernel, "KL_KERNEL_"),
-    "kl_grashof_class": (kl.GrashofClass, "KL_"),
-    "kl_output_kind": (kl.OutputKind, "KL_OUT_"),
+    "kl_grashof_class": (kl.GrashofClass, "KL_GRASHOF_"),
+    "kl_output_kind": (kl.OutputKind, "KL_OUTPUT_"),
     "kl_load_kind": (kl.LoadKind, "KL_LOAD_"),
-    "kl_dimension_kind": (kl.DimensionKind, "KL_DIM_"),
+    "kl_dimension_kind": (kl.DimensionKind, "KL_DIMENSION_"),
     "kl_sample_status": (kl.SampleStatus, "KL_SAMPLE_"),
 }
 

@@ -89,7 +89,7 @@ static int keep_step(const kl_solver *s, int step, double input, void *user) {
     row[c++] = kl_link_accel(s, i) * w * w * k;
   }
   for (i = 0; i < nj; i++)
-    if (kl_joint_kind(m, i) != KL_REVOLUTE) {
+    if (kl_model_joint_kind(m, i) != KL_JOINT_REVOLUTE) {
       row[c++] = kl_joint_slide(s, i);
       row[c++] = kl_joint_slide_rate(s, i) * w;
       row[c++] = kl_joint_slide_accel(s, i) * w * w;
@@ -129,9 +129,9 @@ static int parse_sites(const kl_model *m, const char *text, site *sites) {
     }
     *a++ = '\0';
     *b++ = '\0';
-    sites[n].joint = kl_joint_find(m, item);
-    sites[n].line_a = kl_joint_find(m, a);
-    sites[n].line_b = kl_joint_find(m, b);
+    sites[n].joint = kl_model_find_joint(m, item);
+    sites[n].line_a = kl_model_find_joint(m, a);
+    sites[n].line_b = kl_model_find_joint(m, b);
     if (sites[n].joint < 0 || sites[n].line_a < 0 || sites[n].line_b < 0) {
       fprintf(stderr, "unknown joint in site '%s'\n", item);
       exit(2);
@@ -217,8 +217,8 @@ int main(int argc, char **argv) {
     ref.angle_k = au == KL_ANGLE_DEG ? 180 / CHECK_PI : 1.0;
   }
   {
-    int input_joint = kl_input_joint(m, sw.input);
-    int turning = kl_joint_kind(m, input_joint) == KL_REVOLUTE;
+    int input_joint = kl_model_input_joint(m, sw.input);
+    int turning = kl_model_joint_kind(m, input_joint) == KL_JOINT_REVOLUTE;
     ref.input_k = turning ? ref.angle_k : 1.0;
     /* SPEED is in the input's unit per second */
     ref.speed_rad = speed / ref.input_k;
@@ -235,7 +235,7 @@ int main(int argc, char **argv) {
   *next = '\0';
   nfields = check_split_csv(line, header, MAX_COLS);
   expect_name(header, nfields, &col, name,
-              kl_joint_kind(m, kl_input_joint(m, sw.input)) == KL_REVOLUTE
+              kl_model_joint_kind(m, kl_model_input_joint(m, sw.input)) == KL_JOINT_REVOLUTE
                   ? unit_a
                   : unit_l);
   snprintf(u_rate, sizeof u_rate, "%s/s", unit_a);
@@ -258,7 +258,7 @@ int main(int argc, char **argv) {
   }
   for (i = 0; i < nj; i++) {
     char base[400], full[500];
-    if (kl_joint_kind(m, i) == KL_REVOLUTE)
+    if (kl_model_joint_kind(m, i) == KL_JOINT_REVOLUTE)
       continue;
     check_joint_label(m, i, base, sizeof base);
     value_col[npairs] = col;
@@ -346,7 +346,7 @@ int main(int argc, char **argv) {
     home[k] = 0.0;
   home[sw.input] = sw.from;
   if (kl_solve_position(s, home) != KL_OK ||
-      kl_sweep(s, sw.input, sw.from, sw.to, steps, keep_step, &ref, NULL) !=
+      kl_solver_sweep(s, sw.input, sw.from, sw.to, steps, keep_step, &ref, NULL) !=
           KL_OK) {
     check_fail("the library's sweep failed: %s", kl_solver_error(s));
     return 1;

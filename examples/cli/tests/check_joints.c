@@ -76,14 +76,14 @@ static void check_rigid(const kl_model *m, const double *xy, const int *seen,
       for (k = i + 1; k < nj; k++) {
         int li[2], lk[2];
         double ai[2], bi[2], ak[2], bk[2], pi[2], pk[2], local, drawn;
-        kl_joint_links(m, i, li, ai, bi);
-        kl_joint_links(m, k, lk, ak, bk);
+        kl_model_joint_links(m, i, li, ai, bi);
+        kl_model_joint_links(m, k, lk, ak, bk);
         if (!seen[i] || !seen[k])
           continue;
         if (li[1] == l) {
           pi[0] = bi[0];
           pi[1] = bi[1];
-        } else if (li[0] == l && kl_joint_kind(m, i) == KL_REVOLUTE) {
+        } else if (li[0] == l && kl_model_joint_kind(m, i) == KL_JOINT_REVOLUTE) {
           pi[0] = ai[0];
           pi[1] = ai[1];
         } else {
@@ -92,7 +92,7 @@ static void check_rigid(const kl_model *m, const double *xy, const int *seen,
         if (lk[1] == l) {
           pk[0] = bk[0];
           pk[1] = bk[1];
-        } else if (lk[0] == l && kl_joint_kind(m, k) == KL_REVOLUTE) {
+        } else if (lk[0] == l && kl_model_joint_kind(m, k) == KL_JOINT_REVOLUTE) {
           pk[0] = ak[0];
           pk[1] = ak[1];
         } else {

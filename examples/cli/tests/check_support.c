@@ -63,13 +63,13 @@ static void label(const char *name, int id, char *buf, size_t cap) {
 }
 
 void check_link_label(const kl_model *m, int link, char *buf, size_t cap) {
-  label(kl_link_name(m, link), link, buf, cap);
+  label(kl_model_link_name(m, link), link, buf, cap);
 }
 void check_joint_label(const kl_model *m, int joint, char *buf, size_t cap) {
-  label(kl_joint_name(m, joint), joint, buf, cap);
+  label(kl_model_joint_name(m, joint), joint, buf, cap);
 }
 void check_point_label(const kl_model *m, int point, char *buf, size_t cap) {
-  label(kl_point_name(m, point), point, buf, cap);
+  label(kl_model_point_name(m, point), point, buf, cap);
 }
 
 int check_reach(kl_solver *s, const kl_model *m, const double *target) {
@@ -86,14 +86,14 @@ int check_reach(kl_solver *s, const kl_model *m, const double *target) {
   if ((st = kl_solve_position(s, n > 0 ? home : NULL)) != KL_OK)
     return st;
   for (i = 0; i < n; i++) {
-    int joint = kl_input_joint(m, i);
-    double step = kl_joint_kind(m, joint) == KL_REVOLUTE
+    int joint = kl_model_input_joint(m, i);
+    double step = kl_model_joint_kind(m, joint) == KL_JOINT_REVOLUTE
                       ? CHECK_PI / 180
                       : 0.01 * kl_model_scale(m);
     int steps = (int)ceil(fabs(target[i] - home[i]) / step);
     if (steps == 0)
       continue;
-    st = kl_sweep(s, i, home[i], target[i], steps, NULL, NULL, NULL);
+    st = kl_solver_sweep(s, i, home[i], target[i], steps, NULL, NULL, NULL);
     if (st != KL_OK)
       return st;
   }
@@ -104,7 +104,7 @@ void check_joint_xy(const kl_solver *s, const kl_model *m, int joint,
                     double xy[2]) {
   int links[2];
   double b[2], origin[2], t;
-  kl_joint_links(m, joint, links, NULL, b);
+  kl_model_joint_links(m, joint, links, NULL, b);
   kl_link_origin(s, links[1], origin);
   t = kl_link_angle(s, links[1]);
   xy[0] = origin[0] + cos(t) * b[0] - sin(t) * b[1];
