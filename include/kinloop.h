@@ -27,25 +27,25 @@
  *    thread at a time.
  *
  * Names follow one grammar (docs/CHANGELOG.md lists the renames of 0.2):
- *  - kl_<handle>_<verb>: what acts on a whole handle or its document data:
+ *  - kl_HANDLE_VERB: what acts on a whole handle or its document data:
  *    kl_model_new, kl_model_finalize, kl_model_set_units / kl_model_units,
  *    kl_solver_sweep, kl_solver_options, kl_study_run. A getter has no
  *    "get": the noun alone reads (kl_model_units), kl_..._set_... writes.
- *  - kl_model_<item>_<property>: what the model records about one link,
+ *  - kl_model_ITEM_PROPERTY: what the model records about one link,
  *    joint, point or input (kl_model_joint_kind, kl_model_link_name); the
  *    model's document data (names, units, sketch, sweep settings) is read
  *    and written only through kl_model_*.
- *  - kl_<item>_<quantity>(solver, id): a result of the solver's state
+ *  - kl_ITEM_QUANTITY(solver, id): a result of the solver's state
  *    (kl_link_angle, kl_joint_slide_rate, kl_point_velocity). Quantities
  *    are angle, slide, rate, accel, jerk, deriv, deriv2; a vector result
  *    fills an xy array and returns a status.
- *  - kl_add_<item>: a builder (returns the new id); kl_solve_<stage>: a
+ *  - kl_add_ITEM: a builder (returns the new id); kl_solve_STAGE: a
  *    stage of the solver (position, velocity, acceleration, ...);
  *    kl_set_link_angle / kl_set_joint_slide set the solver's sketch.
- *  - kl_<struct>_<verb> for the figures computed on a value struct:
+ *  - kl_STRUCT_VERB for the figures computed on a value struct:
  *    kl_output_range, kl_output_sensitivity, kl_range_time_ratio.
- *  - kl_<enum>_str: the text of an enum value (kl_status_str).
- *  - Enum values are KL_<ENUM>_<VALUE> (KL_JOINT_REVOLUTE,
+ *  - kl_ENUM_str: the text of an enum value (kl_status_str).
+ *  - Enum values are KL_ENUM_VALUE (KL_JOINT_REVOLUTE,
  *    KL_GRASHOF_CRANK_ROCKER, KL_OUTPUT_SLIDE); statuses are KL_OK, the
  *    remarks KL_LIMIT and KL_STOPPED, and the errors KL_E*.
  * The names the architecture fixed (kl_solve_acceleration,
