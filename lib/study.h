@@ -1,6 +1,6 @@
 /*
- * study.h - private: a design study as the reader records it (io.c) and
- * the engine runs it (study.c).
+ * study.h - private: a design study as the reader records it
+ * (study_read.c) and the engine runs it (study.c).
  */
 #ifndef KINLOOP_STUDY_H
 #define KINLOOP_STUDY_H
