@@ -181,8 +181,14 @@ KL_API kl_model *kl_model_new(void);
 KL_API kl_model *kl_model_new_with_alloc(kl_alloc_fn fn, void *user);
 
 /**
- * Frees the model and everything it owns. NULL does nothing. Every solver
- * made from the model must be freed first.
+ * Lets go of the caller's handle to the model. The model and everything it
+ * owns are freed at once if no solver or study made from it is left;
+ * otherwise when the last of them is freed (kl_solver_free, kl_study_free),
+ * so those keep working. Either way the caller must not use `m` after this
+ * call. NULL does nothing. Thread-safe against solvers of the same model
+ * being made and freed on other threads at the same time (the count of
+ * holders changes by atomic operations); the model's allocator hook is
+ * called by whichever thread lets go last.
  */
 KL_API void kl_model_free(kl_model *m);
 
@@ -520,9 +526,12 @@ KL_API void kl_options_init(kl_options *o, size_t size);
  * needs, taken here from the model's allocator. Its state starts with every
  * link angle and slide at 0 (set sketch values with kl_set_link_angle and
  * kl_set_joint_slide before the first solve). Returns NULL if `m` is NULL, not
- * finalized (see kl_model_is_finalized), or memory is exhausted; it never
- * writes to the model, so many threads may make solvers from one model at
- * once. The model must outlive the solver.
+ * finalized (see kl_model_is_finalized), or memory is exhausted.
+ * The solver (like one made by kl_solver_new_in) holds the model: the model
+ * lives until the solver is freed, even after the caller's kl_model_free,
+ * and kl_solver_model gives it back meanwhile. Holding it is the one change
+ * a solver makes to the model, an atomic count, so many threads may make
+ * and free solvers of one model at once.
  */
 KL_API kl_solver *kl_solver_new(const kl_model *m);
 

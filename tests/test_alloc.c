@@ -1,9 +1,11 @@
 /*
  * test_alloc.c - memory through the allocator hook: every allocation of
  * building, finalizing and creating a solver is refused in turn; each time
- * the call fails cleanly, changes nothing, and every block is given back.
+ * the call fails cleanly, changes nothing, and every block is given back;
+ * a model freed before its solvers gives its blocks back with the last.
  */
 #include <check.h>
+#include <math.h>
 #include <string.h>
 
 #include "suite.h"
@@ -145,6 +147,56 @@ START_TEST(builders_keep_the_model_on_failure) {
 }
 END_TEST
 
+/* The rocker angle of a solver of four-bar f at crank angle u, against
+ * Freudenstein's equation (either branch): 1 if it agrees to 1e-9 rad. */
+static int solves_as_freudenstein(kl_solver *s, const fourbar *f, double u) {
+  double t3, t4, branch_t4[2];
+  int b;
+  kl_set_link_angle(s, f->coupler, 0.5);
+  kl_set_link_angle(s, f->rocker, 1.5);
+  if (kl_solve_position(s, &u) != KL_OK)
+    return 0;
+  for (b = 0; b < 2; b++) {
+    if (!freudenstein(f, u, b == 0 ? 1 : -1, &t3, &t4))
+      return 0;
+    branch_t4[b] = t4;
+  }
+  return fabs(angle_diff(kl_link_angle(s, f->rocker), branch_t4[0])) <= 1e-9 ||
+         fabs(angle_diff(kl_link_angle(s, f->rocker), branch_t4[1])) <= 1e-9;
+}
+
+/* kl_model_free with solvers left lets go of the caller's handle alone:
+ * every block of the model stays while a solver (on the heap or in the
+ * caller's block) holds it, the solvers keep solving, and the last one to
+ * go gives the model's blocks back. */
+START_TEST(solvers_keep_a_freed_model) {
+  static double block[4096];
+  counting_alloc c;
+  kl_solver *heap, *placed;
+  fourbar f;
+  long model_blocks;
+  memset(&c, 0, sizeof c);
+  f = build_fourbar_in(counting_model(&c), 40, 120, 80, 100);
+  ck_assert(kl_model_is_finalized(f.m));
+  model_blocks = c.live;
+  ck_assert_uint_le(kl_solver_bytes(f.m), sizeof block);
+  heap = kl_solver_new(f.m);
+  placed = kl_solver_new_in(f.m, block, sizeof block);
+  ck_assert(heap != NULL && placed != NULL);
+  kl_model_free(f.m);
+  ck_assert_int_eq(c.live, model_blocks + 1); /* the heap solver's block */
+  ck_assert_ptr_eq(kl_solver_model(heap), f.m);
+  ck_assert(solves_as_freudenstein(heap, &f, 0.5));
+  kl_solver_free(heap);
+  ck_assert_int_eq(c.live, model_blocks);
+  ck_assert_int_eq(kl_model_loop_count(kl_solver_model(placed)), 1);
+  ck_assert(solves_as_freudenstein(placed, &f, 2.0));
+  kl_solver_free(placed);
+  ck_assert_int_eq(c.live, 0);
+  ck_assert_uint_eq(c.live_bytes, 0);
+}
+END_TEST
+
 START_TEST(allocator_hook_is_required) {
   counting_alloc c;
   memset(&c, 0, sizeof c);
@@ -162,6 +214,7 @@ int main(void) {
   tcase_add_test(tc, every_allocation_failure_is_clean);
   tcase_add_test(tc, failed_calls_change_nothing);
   tcase_add_test(tc, builders_keep_the_model_on_failure);
+  tcase_add_test(tc, solvers_keep_a_freed_model);
   tcase_add_test(tc, allocator_hook_is_required);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
