@@ -69,32 +69,68 @@ kl_model *kl_model_read_file(const char *path, kl_io_error *err) {
   return m;
 }
 
+/* The model file a study names, read relative to the study's folder `dir`;
+ * failures are placed at the path in the study (line, column). */
+static kl_model *read_study_model(const char *dir, const char *name, int line,
+                                  int column, kl_io_error *err) {
+  char path[1024];
+  kl_io_error inner;
+  kl_model *m;
+  int n;
+  if (name[0] == '/' || dir[0] == '\0')
+    n = snprintf(path, sizeof path, "%s", name);
+  else
+    n = snprintf(path, sizeof path, "%s%s%s", dir,
+                 dir[strlen(dir) - 1] == '/' ? "" : "/", name);
+  if (n < 0 || (size_t)n >= sizeof path) {
+    kli_io_fail(err, KL_EIO, line, column,
+                "the model's path is longer than %d characters",
+                (int)sizeof path - 1);
+    return NULL;
+  }
+  inner.size = sizeof inner;
+  m = kl_model_read_file(path, &inner);
+  if (m == NULL && inner.line > 0)
+    kli_io_fail(err, inner.status, line, column,
+                "the model '%.200s', line %d, column %d: %.300s", path,
+                inner.line, inner.column, inner.message);
+  else if (m == NULL)
+    kli_io_fail(err, inner.status, line, column, "the model '%.200s': %.300s",
+                path, inner.message);
+  return m;
+}
+
 kl_study *kl_study_read_file(const char *path, kl_io_error *err) {
-  char dir[1024];
+  char dir[1024], name[KLI_TOKEN_MAX + 1];
   const char *slash;
-  kl_study *st;
+  kl_study *st = NULL;
+  kl_model *m;
   char *text;
-  int cap;
+  int cap, line, column;
   size_t len;
   kli_io_clear(err);
   if (read_whole_file(path, &text, &cap, &len, err) != KL_OK)
     return NULL;
   slash = strrchr(path, '/');
   if (slash != NULL && (size_t)(slash - path) >= sizeof dir) {
-    kli_free(&file_alloc, text, (size_t)cap);
     kli_io_fail(err, KL_EIO, 0, 0,
                 "read '%.120s': its directory is too long for a study's "
                 "base directory",
                 path);
-    return NULL;
+  } else if (kli_study_find_model(text, len, name, sizeof name, &line, &column,
+                                  err) == KL_OK) {
+    /* the directory part, keeping the root of "/name" */
+    snprintf(dir, sizeof dir, "%.*s",
+             slash == NULL   ? 1
+             : slash == path ? 1
+                             : (int)(slash - path),
+             slash == NULL ? "." : path);
+    m = read_study_model(dir, name, line, column, err);
+    if (m != NULL) {
+      st = kl_study_read(text, len, m, err);
+      kl_model_free(m); /* the study holds it */
+    }
   }
-  /* the directory part, keeping the root of "/name" */
-  snprintf(dir, sizeof dir, "%.*s",
-           slash == NULL   ? 1
-           : slash == path ? 1
-                           : (int)(slash - path),
-           slash == NULL ? "." : path);
-  st = kl_study_read(text, len, dir, err);
   kli_free(&file_alloc, text, (size_t)cap);
   return st;
 }

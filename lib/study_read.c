@@ -1,6 +1,6 @@
 /*
- * study_read.c - the study-file reader: any bytes in, a study of the model
- * its 'model' statement names, or an error at a line and column out.
+ * study_read.c - the study-file reader: any bytes and a finalized model in,
+ * a study of that model or a located error out; opens and solves nothing.
  */
 #include <math.h>
 #include <stdio.h>
@@ -9,13 +9,20 @@
 #include "study.h"
 #include "tokens.h"
 
+/* What kli_study_find_model's pass over the text stops at. */
+#define FOUND_MODEL 100
+
 typedef struct {
   kli_reader r;
   kl_study *st;
-  kli_allocator a;
-  const char *base_dir;
+  /* Finding the model statement (kli_study_find_model): no model yet
+   * (r.m NULL), and the statement's path goes here. */
+  int finding;
+  char *found_path;
+  size_t found_cap;
+  int found_column;
   /* the lines of the statements a study gives once (0: not yet) */
-  int seed_line, samples_line, sweep_line;
+  int seed_line, samples_line, sweep_line, model_line;
 } study_reader;
 
 /* A statement a study gives at most once: its first line is kept. */
@@ -28,8 +35,10 @@ static int given_once(study_reader *sr, int *line, const char *what) {
   return KL_OK;
 }
 
+/* Only while the model is still to be found, on the way to its statement:
+ * kl_study_read_file opens the model the statement names. */
 static int study_needs_model(study_reader *sr, int column) {
-  if (sr->st->model == NULL)
+  if (sr->r.m == NULL)
     return kli_read_fail(
         &sr->r, KL_ESYNTAX, column,
         "'model' must come first: the study needs its model to "
@@ -37,13 +46,12 @@ static int study_needs_model(study_reader *sr, int column) {
   return KL_OK;
 }
 
-/* model PATH, relative to the study's directory */
+/* model PATH: recorded (a file's path, relative to the study's folder; the
+ * reader opens nothing) */
 static int read_study_model(study_reader *sr) {
   kli_token t;
-  char path[1024];
-  kl_io_error inner;
-  int st, n;
-  if (sr->st->model != NULL)
+  int st;
+  if (sr->model_line != 0)
     return kli_read_fail(&sr->r, KL_ESYNTAX, 1, "a study has one 'model'");
   if ((st = kli_next_token(&sr->r, &t)) != KL_OK)
     return st;
@@ -53,29 +61,16 @@ static int read_study_model(study_reader *sr) {
                          "line");
   if ((st = kli_expect_end(&sr->r)) != KL_OK)
     return st;
-  if (t.text[0] == '/' || sr->base_dir == NULL || sr->base_dir[0] == '\0')
-    n = snprintf(path, sizeof path, "%s", t.text);
-  else
-    n = snprintf(path, sizeof path, "%s%s%s", sr->base_dir,
-                 sr->base_dir[strlen(sr->base_dir) - 1] == '/' ? "" : "/",
-                 t.text);
-  if (n < 0 || (size_t)n >= sizeof path)
-    return kli_read_fail(&sr->r, KL_EIO, t.column,
-                         "the model's path is longer than %d characters",
-                         (int)sizeof path - 1);
-  inner.size = sizeof inner;
-  sr->st->model = kl_model_read_file(path, &inner);
-  if (sr->st->model == NULL && inner.line > 0)
-    return kli_read_fail(&sr->r, inner.status, t.column,
-                         "the model '%.200s', line %d, column %d: %.300s", path,
-                         inner.line, inner.column, inner.message);
-  if (sr->st->model == NULL)
-    return kli_read_fail(&sr->r, inner.status, t.column,
-                         "the model '%.200s': %.300s", path, inner.message);
-  sr->r.m = sr->st->model;
-  sr->r.angle_deg = sr->st->model->angle_unit == KL_ANGLE_DEG;
-  if (sr->st->model->has_sweep)
-    sr->st->sweep = sr->st->model->sweep;
+  sr->model_line = sr->r.line;
+  if (sr->finding) {
+    snprintf(sr->found_path, sr->found_cap, "%s", t.text);
+    sr->found_column = t.column;
+    return FOUND_MODEL;
+  }
+  sr->st->model_path = kli_alloc(&sr->st->model->alloc, t.length + 1);
+  if (sr->st->model_path == NULL)
+    return kli_read_fail(&sr->r, KL_ENOMEM, 0, "out of memory");
+  memcpy(sr->st->model_path, t.text, t.length + 1);
   return KL_OK;
 }
 
@@ -152,8 +147,8 @@ static int varied_once(study_reader *sr, kli_vary *v, int column) {
 }
 
 static int push_vary(study_reader *sr, kli_vary **v) {
-  if (kli_reserve(&sr->a, (void **)&sr->st->vary, &sr->st->cap_vary,
-                  sr->st->nvary + 1, sizeof **v) != KL_OK)
+  if (kli_reserve(&sr->st->model->alloc, (void **)&sr->st->vary,
+                  &sr->st->cap_vary, sr->st->nvary + 1, sizeof **v) != KL_OK)
     return kli_read_fail(&sr->r, KL_ENOMEM, 0, "out of memory");
   *v = &sr->st->vary[sr->st->nvary];
   memset(*v, 0, sizeof **v);
@@ -245,8 +240,8 @@ static int read_load(study_reader *sr) {
   }
   if ((st = kli_expect_end(&sr->r)) != KL_OK)
     return st;
-  if (kli_reserve(&sr->a, (void **)&sr->st->loads, &sr->st->cap_loads,
-                  sr->st->nloads + 1, sizeof l) != KL_OK)
+  if (kli_reserve(&sr->st->model->alloc, (void **)&sr->st->loads,
+                  &sr->st->cap_loads, sr->st->nloads + 1, sizeof l) != KL_OK)
     return kli_read_fail(&sr->r, KL_ENOMEM, 0, "out of memory");
   sr->st->loads[sr->st->nloads++] = l;
   return KL_OK;
@@ -323,8 +318,8 @@ static int read_output(study_reader *sr) {
       return kli_read_fail(&sr->r, KL_ESYNTAX, name.column,
                            "the output name '%.60s' is already used",
                            name.text);
-  if (kli_reserve(&sr->a, (void **)&sr->st->judge, &sr->st->cap_judge,
-                  sr->st->njudge + 1, sizeof *j) != KL_OK)
+  if (kli_reserve(&sr->st->model->alloc, (void **)&sr->st->judge,
+                  &sr->st->cap_judge, sr->st->njudge + 1, sizeof *j) != KL_OK)
     return kli_read_fail(&sr->r, KL_ENOMEM, 0, "out of memory");
   j = &sr->st->judge[sr->st->njudge];
   memset(j, 0, sizeof *j);
@@ -462,8 +457,6 @@ static int check_study(study_reader *sr) {
   kl_study *st = sr->st;
   int i, grids = 0;
   sr->r.line = 0;
-  if (st->model == NULL)
-    return kli_read_fail(&sr->r, KL_ESYNTAX, 0, "the study names no model");
   if (st->njudge == 0)
     return kli_read_fail(&sr->r, KL_ESYNTAX, 0, "the study judges no output");
   if (st->sweep.size == 0)
@@ -506,41 +499,84 @@ static int check_study(study_reader *sr) {
   return KL_OK;
 }
 
-kl_study *kl_study_read(const char *text, size_t length, const char *base_dir,
+/* Every statement, then the header's presence: KL_OK, FOUND_MODEL, or a
+ * status with the error located. */
+static int read_statements(study_reader *sr) {
+  int st = KL_OK;
+  while (st == KL_OK && sr->r.pos < sr->r.length) {
+    kli_token key;
+    if ((st = kli_next_token(&sr->r, &key)) != KL_OK)
+      break;
+    if (key.kind != KLI_TOKEN_END)
+      st = read_study_statement(sr, &key);
+    if (st == KL_OK)
+      kli_next_line(&sr->r);
+  }
+  if (st == KL_OK && !sr->r.seen_header)
+    st = kli_read_fail(&sr->r, KL_ESYNTAX, 1,
+                       "empty study: expected 'kinloop-study %d'",
+                       KLI_FORMAT_VERSION);
+  return st;
+}
+
+int kli_study_find_model(const char *text, size_t length, char *path,
+                         size_t cap, int *line, int *column, kl_io_error *err) {
+  study_reader sr;
+  kl_study none; /* what the statements before 'model' record */
+  int st;
+  memset(&sr, 0, sizeof sr);
+  memset(&none, 0, sizeof none);
+  kli_reader_start(&sr.r, text, length, err);
+  sr.st = &none;
+  sr.finding = 1;
+  sr.found_path = path;
+  sr.found_cap = cap;
+  if ((st = kli_check_text(&sr.r, "study")) != KL_OK)
+    return st;
+  st = read_statements(&sr);
+  if (st == FOUND_MODEL) {
+    *line = sr.model_line;
+    *column = sr.found_column;
+    return KL_OK;
+  }
+  if (st == KL_OK) {
+    sr.r.line = 0;
+    st = kli_read_fail(&sr.r, KL_ESYNTAX, 0, "the study names no model");
+  }
+  return st;
+}
+
+kl_study *kl_study_read(const char *text, size_t length, const kl_model *model,
                         kl_io_error *err) {
   study_reader sr;
-  int st = KL_OK;
+  int st;
   memset(&sr, 0, sizeof sr);
   kli_reader_start(&sr.r, text, length, err);
-  sr.base_dir = base_dir;
-  sr.a.fn = kli_default_alloc;
-  sr.a.user = NULL;
+  if (model == NULL || !model->finalized) {
+    kli_io_fail(err, model == NULL ? KL_EINVAL : KL_ESTATE, 0, 0,
+                "read study: %s",
+                model == NULL ? "no model (NULL)"
+                              : "the model is not finalized; a study "
+                                "is read against a finalized model");
+    return NULL;
+  }
   if (kli_check_text(&sr.r, "study") != KL_OK)
     return NULL;
-  sr.st = kli_alloc(&sr.a, sizeof *sr.st);
+  sr.st = kli_study_new(model);
   if (sr.st == NULL) {
     kli_read_fail(&sr.r, KL_ENOMEM, 0, "out of memory");
     return NULL;
   }
-  memset(sr.st, 0, sizeof *sr.st);
-  while (st == KL_OK && sr.r.pos < sr.r.length) {
-    kli_token key;
-    if ((st = kli_next_token(&sr.r, &key)) != KL_OK)
-      break;
-    if (key.kind != KLI_TOKEN_END)
-      st = read_study_statement(&sr, &key);
-    if (st == KL_OK)
-      kli_next_line(&sr.r);
-  }
-  if (st == KL_OK && !sr.r.seen_header)
-    st = kli_read_fail(&sr.r, KL_ESYNTAX, 1,
-                       "empty study: expected 'kinloop-study %d'",
-                       KLI_FORMAT_VERSION);
+  sr.r.m = model;
+  sr.r.angle_deg = model->angle_unit == KL_ANGLE_DEG;
+  if (model->has_sweep)
+    sr.st->sweep = model->sweep;
+  st = read_statements(&sr);
   if (st == KL_OK)
     st = check_study(&sr);
   if (st == KL_OK) {
     char why[KLI_MESSAGE_SIZE];
-    st = kli_study_prepare(sr.st, why);
+    st = kli_study_resolve(sr.st, why);
     if (st != KL_OK)
       kli_read_fail(&sr.r, st, 0, "the nominal model: %s", why);
   }
