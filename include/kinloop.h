@@ -1032,11 +1032,13 @@ KL_API kl_study *kl_study_read(const char *text, size_t length,
  * the study as kl_study_read against that model. Needs the `model`
  * statement before any statement that names links, joints or points. Like
  * kl_study_read it solves nothing. Returns the study, or NULL with `err`
- * (may be NULL): kl_study_read's statuses; KL_EIO if a file cannot be
- * read, with the `model` statement's line and column for the model file;
- * the model file's own errors at that place, with the model file's line and
- * column in the message. Allocates through malloc (the model read from the
- * file has the default allocator).
+ * (may be NULL): kl_study_read's statuses; KL_ESYNTAX (line 0) if the study
+ * names no model; KL_EIO if a file cannot be read, or the model's path
+ * joined to the folder is longer than 1023 bytes, with the `model`
+ * statement's line and column for the model file; the model file's own
+ * errors at that place, with the model file's line and column in the
+ * message. Allocates through malloc (the model read from the file has the
+ * default allocator; the study uses it as kl_study_read says).
  */
 KL_API kl_study *kl_study_read_file(const char *path, kl_io_error *err);
 /**
@@ -1056,7 +1058,8 @@ KL_API int kl_study_prepare(kl_study *st);
 /**
  * The message of the study's last failed call, naming what failed ("the
  * nominal model: ..."); "" if none failed yet. Owned by the study; valid
- * until the next call on it. A NULL study gives a fixed text.
+ * until the next call on it. A NULL study gives a fixed text. Allocates
+ * nothing.
  */
 KL_API const char *kl_study_error(const kl_study *st);
 /** Frees a study and lets go of its model (freed with it if the caller
@@ -1076,7 +1079,8 @@ KL_API const char *kl_study_output_name(const kl_study *st, int k);
  * away `const`: kl_study_run's threads read it at the same time. */
 KL_API const kl_model *kl_study_model(const kl_study *st);
 /** The path the text's `model` statement gives, as written (owned by the
- * study), or NULL if the text has none or `st` is NULL. */
+ * study, valid until kl_study_free), or NULL if the text has none or `st`
+ * is NULL. Allocates nothing. */
 KL_API const char *kl_study_model_path(const kl_study *st);
 /** The number of dimensions that vary. */
 KL_API int kl_study_dimension_count(const kl_study *st);
