@@ -181,8 +181,14 @@ KL_API kl_model *kl_model_new(void);
 KL_API kl_model *kl_model_new_with_alloc(kl_alloc_fn fn, void *user);
 
 /**
- * Frees the model and everything it owns. NULL does nothing. Every solver
- * made from the model must be freed first.
+ * Lets go of the caller's handle to the model. The model and everything it
+ * owns are freed at once if no solver or study made from it is left;
+ * otherwise when the last of them is freed (kl_solver_free, kl_study_free),
+ * so those keep working. Either way the caller must not use `m` after this
+ * call. NULL does nothing. Thread-safe against solvers of the same model
+ * being made and freed on other threads at the same time (the count of
+ * holders changes by atomic operations); the model's allocator hook is
+ * called by whichever thread lets go last.
  */
 KL_API void kl_model_free(kl_model *m);
 
@@ -520,9 +526,12 @@ KL_API void kl_options_init(kl_options *o, size_t size);
  * needs, taken here from the model's allocator. Its state starts with every
  * link angle and slide at 0 (set sketch values with kl_set_link_angle and
  * kl_set_joint_slide before the first solve). Returns NULL if `m` is NULL, not
- * finalized (see kl_model_is_finalized), or memory is exhausted; it never
- * writes to the model, so many threads may make solvers from one model at
- * once. The model must outlive the solver.
+ * finalized (see kl_model_is_finalized), or memory is exhausted.
+ * The solver (like one made by kl_solver_new_in) holds the model: the model
+ * lives until the solver is freed, even after the caller's kl_model_free,
+ * and kl_solver_model gives it back meanwhile. Holding it is the one change
+ * a solver makes to the model, an atomic count, so many threads may make
+ * and free solvers of one model at once.
  */
 KL_API kl_solver *kl_solver_new(const kl_model *m);
 
@@ -994,22 +1003,67 @@ KL_API int kl_output_tolerance_stack(kl_solver *s, const kl_output *o, int n,
  * ------------------------------------------------------------------------ */
 
 /** A design study (opaque): a nominal model, the dimensions that vary and
- * how, the outputs judged and their limits. Immutable once read. */
+ * how, the outputs judged and their limits. Read, then prepared (the
+ * nominal solved) once; after that its calls only read it, so
+ * kl_study_run's threads and the getters may share it. */
 typedef struct kl_study kl_study;
 
 /**
- * Reads a study from `length` bytes of text. Its `model` statement names a
- * model file, read relative to `base_dir` (NULL: the working directory).
- * The nominal model is solved at the start of its sweep. Returns the study,
- * or NULL with `err` (may be NULL) telling why, with line and column as for
- * model files; KL_ENOASSEMBLY or KL_ESINGULAR if the nominal does not
- * solve. Allocates through malloc.
+ * Reads a study from `length` bytes of text (any bytes: no NUL needed, none
+ * allowed) against `model`, a finalized model whose links, joints and
+ * points the text names. The text's `model PATH` statement, if any, is
+ * recorded (kl_study_model_path) but not opened: this call touches no
+ * file and solves nothing (kl_study_prepare solves the nominal). The
+ * study holds the model (as a solver does, see kl_model_free), so the
+ * caller may free its handle at once. Every allocation of the study, here
+ * and in later calls, goes through the model's allocator.
+ * Returns the study, or NULL with `err` (may be NULL) telling why:
+ * KL_ESYNTAX with line and column as for model files; KL_EID, KL_EKIND or
+ * KL_EINVAL (line 0) for an output or dimension the model does not have
+ * in that kind; KL_EINVAL for a NULL model or text longer than 16 MiB;
+ * KL_ESTATE for a model not finalized; KL_ENOMEM. Allocates in proportion
+ * to the text. Thread-safe against other calls on the same model.
  */
 KL_API kl_study *kl_study_read(const char *text, size_t length,
-                               const char *base_dir, kl_io_error *err);
-/** As kl_study_read, from a file; its model path is relative to the file. */
+                               const kl_model *model, kl_io_error *err);
+/**
+ * Reads the study file at `path` and the model file its `model` statement
+ * names (relative to the study file's folder unless absolute), then reads
+ * the study as kl_study_read against that model. Needs the `model`
+ * statement before any statement that names links, joints or points. Like
+ * kl_study_read it solves nothing. Returns the study, or NULL with `err`
+ * (may be NULL): kl_study_read's statuses; KL_ESYNTAX (line 0) if the study
+ * names no model; KL_EIO if a file cannot be read, or the model's path
+ * joined to the folder is longer than 1023 bytes, with the `model`
+ * statement's line and column for the model file; the model file's own
+ * errors at that place, with the model file's line and column in the
+ * message. Allocates through malloc (the model read from the file has the
+ * default allocator; the study uses it as kl_study_read says).
+ */
 KL_API kl_study *kl_study_read_file(const char *path, kl_io_error *err);
-/** Frees a study. NULL does nothing. */
+/**
+ * Solves the nominal design at the start of the study's sweep, its
+ * judged outputs, and their first-order estimates (kl_study_summary's
+ * nominal and first_order_std). kl_study_run and kl_study_summarize need
+ * it. A second call after success does nothing and returns KL_OK.
+ * Returns KL_OK, or KL_EINVAL (NULL study), KL_ENOMEM, the position
+ * stage's status if the nominal does not solve at the sweep's start
+ * (KL_ENOASSEMBLY, KL_ESINGULAR, KL_EMAXITER), or KL_ENOASSEMBLY if its
+ * motion stops inside the sweep; each failure writes kl_study_error and
+ * leaves the study as it was (a later call may succeed). Allocates three
+ * solvers and two arrays of the outputs through the model's allocator.
+ * Call it before the study is shared between threads.
+ */
+KL_API int kl_study_prepare(kl_study *st);
+/**
+ * The message of the study's last failed call, naming what failed ("the
+ * nominal model: ..."); "" if none failed yet. Owned by the study; valid
+ * until the next call on it. A NULL study gives a fixed text. Allocates
+ * nothing.
+ */
+KL_API const char *kl_study_error(const kl_study *st);
+/** Frees a study and lets go of its model (freed with it if the caller
+ * freed its handle already). NULL does nothing. */
 KL_API void kl_study_free(kl_study *st);
 
 /** The number of samples: `samples` of a tolerance study, every
@@ -1019,10 +1073,15 @@ KL_API long kl_study_sample_count(const kl_study *st);
 KL_API int kl_study_output_count(const kl_study *st);
 /** The name of output `k`, NULL if there is none. */
 KL_API const char *kl_study_output_name(const kl_study *st, int k);
-/** The nominal model of the study (owned by the study, freed with it). Make
- * solvers of it or copy it with kl_model_copy; never cast away `const`:
- * kl_study_run's threads read it at the same time. */
+/** The nominal model: the one the study was read against, held by the
+ * study, so valid until kl_study_free even if the caller freed its own
+ * handle. Make solvers of it or copy it with kl_model_copy; never cast
+ * away `const`: kl_study_run's threads read it at the same time. */
 KL_API const kl_model *kl_study_model(const kl_study *st);
+/** The path the text's `model` statement gives, as written (owned by the
+ * study, valid until kl_study_free), or NULL if the text has none or `st`
+ * is NULL. Allocates nothing. */
+KL_API const char *kl_study_model_path(const kl_study *st);
 /** The number of dimensions that vary. */
 KL_API int kl_study_dimension_count(const kl_study *st);
 /** A short text naming dimension `k` ("rocker_pin b x"), NULL if none. */
@@ -1047,7 +1106,10 @@ enum kl_sample_status {
  * dimensions it used into dims[(i - first) * dimensions + d] when `dims` is
  * not NULL. Sample i's numbers depend on the seed and i alone (a
  * counter-based random stream), never on the thread or process that ran
- * it. Returns KL_OK, KL_EINVAL (bad range or NULL arrays), KL_ENOMEM.
+ * it. Each sample works on its own copy of the model, made through the
+ * model's allocator on the thread that runs it (a hook must then be
+ * thread-safe). Returns KL_OK, KL_ESTAGE (not prepared: kl_study_prepare),
+ * KL_EINVAL (NULL study, bad range or NULL arrays), KL_ENOMEM.
  */
 KL_API int kl_study_run(const kl_study *st, long first, long count,
                         int threads, double *values, int *sample_status,
@@ -1092,8 +1154,10 @@ typedef struct kl_study_summary {
  * wrote them for samples 0 .. n - 1, in order), into `summary`: the
  * statistics are over the samples that assembled and have a value. The result
  * depends only on the values, so runs split over threads or processes give
- * identical summaries. Allocates a sorted copy for the percentiles.
- * Returns KL_OK, KL_EID (no output k), KL_EINVAL, KL_ENOMEM.
+ * identical summaries. Allocates a sorted copy for the percentiles through
+ * the model's allocator. Returns KL_OK, KL_EID (no output k), KL_ESTAGE
+ * (not prepared: the nominal is part of the summary), KL_EINVAL,
+ * KL_ENOMEM.
  */
 KL_API int kl_study_summarize(const kl_study *st, int k, const double *values,
                               const int *sample_status, long n,

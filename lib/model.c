@@ -24,6 +24,7 @@ kl_model *kl_model_new_with_alloc(kl_alloc_fn fn, void *user) {
     return NULL;
   memset(m, 0, sizeof *m);
   m->alloc = a;
+  m->refs = 1;
   if (kli_reserve(&a, (void **)&m->links, &m->cap_links, 1,
                   sizeof *m->links) != KL_OK) {
     kli_free(&a, m, sizeof *m);
@@ -45,12 +46,9 @@ void kli_topology_release(kl_model *m) {
   m->finalized = 0;
 }
 
-void kl_model_free(kl_model *m) {
+static void destroy(kl_model *m) {
   int i;
-  kli_allocator a;
-  if (m == NULL)
-    return;
-  a = m->alloc;
+  kli_allocator a = m->alloc;
   kli_topology_release(m);
   for (i = 0; i < m->nlinks; i++)
     free_name(m, m->links[i].name);
@@ -65,6 +63,29 @@ void kl_model_free(kl_model *m) {
   kli_free(&a, m->reg_joints, (size_t)m->cap_reg_joints * sizeof(int));
   kli_free(&a, m->reg_start, (size_t)m->cap_reg_start * sizeof(int));
   kli_free(&a, m, sizeof *m);
+}
+
+#if !defined(__GNUC__)
+#error "the model's reference count needs the GCC or clang __atomic builtins"
+#endif
+
+/* The count is the one field of a finalized model that changes: solvers
+ * of one model are made and freed on many threads at once, so it changes
+ * by atomic operations alone. The last holder to let go frees the model:
+ * acquire-release ordering makes every holder's use of the model happen
+ * before that. */
+void kli_model_retain(const kl_model *m) {
+  __atomic_add_fetch(&((kl_model *)m)->refs, 1, __ATOMIC_RELAXED);
+}
+
+void kli_model_release(const kl_model *m) {
+  if (__atomic_sub_fetch(&((kl_model *)m)->refs, 1, __ATOMIC_ACQ_REL) == 0)
+    destroy((kl_model *)m);
+}
+
+void kl_model_free(kl_model *m) {
+  if (m != NULL)
+    kli_model_release(m);
 }
 
 const char *kl_model_error(const kl_model *m) {
@@ -628,6 +649,7 @@ kl_model *kli_model_copy(const kl_model *src) {
   /* an empty model with src's settings; every state below is freeable */
   memset(m, 0, sizeof *m);
   m->alloc = src->alloc;
+  m->refs = 1;
   m->length_unit = src->length_unit;
   m->angle_unit = src->angle_unit;
   m->sweep = src->sweep;

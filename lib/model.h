@@ -105,6 +105,10 @@ typedef struct {
 
 struct kl_model {
   kli_allocator alloc;
+  /* Holders of the model: the caller's handle, each solver and each study
+   * made from it (kli_model_retain / kli_model_release). The one field of
+   * a finalized model that changes, and only by atomic operations. */
+  int refs;
 
   kli_link *links;
   int nlinks, cap_links;
@@ -154,6 +158,10 @@ int kli_is_sliding(int kind);
  * registered loops, names, units, sketch, sweep), with m's allocator;
  * NULL when memory runs out. */
 kl_model *kli_model_copy(const kl_model *m);
+/* A solver or study made from m holds it: m is freed when the last holder
+ * (the caller's handle included) lets go. Thread-safe. */
+void kli_model_retain(const kl_model *m);
+void kli_model_release(const kl_model *m);
 /* Frees what finalize derived and marks the model unfinalized. */
 void kli_topology_release(kl_model *m);
 

@@ -146,6 +146,7 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
       kl_set_joint_slide(s, i, m->joints[i].sketch);
   s->st.last_attempt = KL_OK;
   s->stats.size = sizeof s->stats;
+  kli_model_retain(m);
   return s;
 }
 
@@ -167,8 +168,13 @@ kl_solver *kl_solver_new_in(const kl_model *m, void *block, size_t size) {
 }
 
 void kl_solver_free(kl_solver *s) {
-  if (s != NULL && s->owns_block)
-    kli_free(&s->model->alloc, s->block, s->block_size);
+  const kl_model *m;
+  if (s == NULL)
+    return;
+  m = s->model;
+  if (s->owns_block)
+    kli_free(&m->alloc, s->block, s->block_size);
+  kli_model_release(m);
 }
 
 const kl_model *kl_solver_model(const kl_solver *s) {

@@ -167,8 +167,11 @@ static int run_sample(const kl_study *st, long i, double *values, int *status,
     if (dims != NULL)
       dims[d] = v;
   }
-  if (kl_model_finalize(m) != KL_OK)
-    goto done; /* a perturbation can make a link zero-length, say */
+  if ((d = kl_model_finalize(m)) != KL_OK) {
+    if (d == KL_ENOMEM)
+      result = KL_ENOMEM;
+    goto done; /* else a perturbation made a link zero-length, say */
+  }
   s = kl_solver_new(m);
   start = kl_solver_new(m);
   if (s == NULL || start == NULL) {
@@ -229,9 +232,12 @@ int kl_study_run(const kl_study *st, long first, long count, int threads,
   work shares[64];
   pthread_t ids[64];
   int t, started = 0, result = KL_OK;
-  if (st == NULL || first < 0 || count < 0 ||
-      first + count > st->samples || (count > 0 && (values == NULL ||
-                                                    sample_status == NULL)))
+  if (st == NULL)
+    return KL_EINVAL;
+  if (!st->prepared)
+    return KL_ESTAGE;
+  if (first < 0 || count < 0 || first + count > st->samples ||
+      (count > 0 && (values == NULL || sample_status == NULL)))
     return KL_EINVAL;
   if (threads <= 0)
     threads = (int)sysconf(_SC_NPROCESSORS_ONLN);
@@ -318,18 +324,15 @@ static double first_order(kl_study *st, const kli_judge *j, kl_solver *s,
   return sqrt(sum) * fabs(j->to_file);
 }
 
-int kli_study_prepare(kl_study *st, char *buf) {
-  kl_model *m = st->model;
-  const kli_joint *input_joint;
-  kl_solver *s, *start;
+int kli_study_resolve(kl_study *st, char *buf) {
+  const kl_model *m = st->model;
   int k, d, status, revolute;
   double deg = m->angle_unit == KL_ANGLE_DEG ? KLI_PI / 180.0 : 1.0;
   if (st->sweep.input < 0 || st->sweep.input >= m->ninputs || m->ninputs > 64)
     return kli_fail(buf, KL_EINVAL,
                     "the sweep's input does not exist (or the model has "
                     "more than 64 inputs)");
-  input_joint = &m->joints[m->inputs[st->sweep.input]];
-  revolute = input_joint->kind == KL_JOINT_REVOLUTE;
+  revolute = m->joints[m->inputs[st->sweep.input]].kind == KL_JOINT_REVOLUTE;
   for (k = 0; k < st->njudge; k++) {
     kli_judge *j = &st->judge[k];
     if (j->how == KLI_JUDGE_AT && revolute)
@@ -345,13 +348,14 @@ int kli_study_prepare(kl_study *st, char *buf) {
     static const char *const axes = "xy";
     if ((status = kli_dim_resolve(m, &v->dim, &v->where, buf)) != KL_OK)
       return status;
-    v->nominal = *dimension_slot(m, v);
+    v->nominal = *dimension_slot((kl_model *)m, v); /* read, not written */
     if (v->where.joint >= 0)
       snprintf(v->name, sizeof v->name, "%.40s %c %c",
                m->joints[v->where.joint].name != NULL
                    ? m->joints[v->where.joint].name
                    : "joint",
-               v->dim.kind == KL_DIMENSION_JOINT_A ? 'a' : 'b', axes[v->where.axis]);
+               v->dim.kind == KL_DIMENSION_JOINT_A ? 'a' : 'b',
+               axes[v->where.axis]);
     else
       snprintf(v->name, sizeof v->name, "%.40s %c",
                m->points[v->where.point].name != NULL
@@ -359,44 +363,68 @@ int kli_study_prepare(kl_study *st, char *buf) {
                    : "point",
                axes[v->where.axis]);
   }
+  return KL_OK;
+}
+
+int kl_study_prepare(kl_study *st) {
+  const kl_model *m;
+  const kli_allocator *a;
+  kl_solver *s, *start;
+  double *values, *spread, u[64];
+  size_t bytes;
+  int k, i, status, nominal_status;
+  if (st == NULL)
+    return KL_EINVAL;
+  if (st->prepared)
+    return KL_OK;
+  m = st->model;
+  a = &m->alloc;
+  bytes = (size_t)st->njudge * sizeof(double);
   st->nominal = kl_solver_new(m);
-  st->nominal_values = calloc((size_t)st->njudge, sizeof(double));
-  st->first_order_std = calloc((size_t)st->njudge, sizeof(double));
-  if (st->nominal == NULL || st->nominal_values == NULL ||
-      st->first_order_std == NULL)
-    return kli_fail(buf, KL_ENOMEM, "out of memory");
-  {
-    double u[64];
-    int i;
-    for (i = 0; i < m->ninputs; i++)
-      u[i] = i == st->sweep.input ? st->sweep.from : 0.0;
-    if ((status = kl_solve_position(st->nominal, u)) != KL_OK)
-      return kli_fail(buf, status, "%s", kl_solver_error(st->nominal));
-  }
-  {
-    int nominal_status;
-    if ((status = run_sample(st, -1, st->nominal_values, &nominal_status,
-                             NULL)) != KL_OK)
-      return kli_fail(buf, status, "out of memory");
-    if (nominal_status != KL_SAMPLE_OK)
-      return kli_fail(buf, KL_ENOASSEMBLY,
-                      "it cannot move through the whole sweep, so its "
-                      "outputs cannot be judged (shorten the sweep to the "
-                      "nominal's motion)");
-  }
   s = kl_solver_new(m);
   start = kl_solver_new(m);
-  if (s == NULL || start == NULL) {
-    kl_solver_free(s);
-    kl_solver_free(start);
-    return kli_fail(buf, KL_ENOMEM, "out of memory");
+  values = kli_alloc(a, bytes);
+  spread = kli_alloc(a, bytes);
+  if (st->nominal == NULL || s == NULL || start == NULL || values == NULL ||
+      spread == NULL) {
+    status = kli_fail(st->error, KL_ENOMEM, "the nominal model: out of memory");
+    goto done;
+  }
+  for (i = 0; i < m->ninputs; i++)
+    u[i] = i == st->sweep.input ? st->sweep.from : 0.0;
+  if ((status = kl_solve_position(st->nominal, u)) != KL_OK) {
+    kli_fail(st->error, status, "the nominal model: %s",
+             kl_solver_error(st->nominal));
+    goto done;
+  }
+  if ((status = run_sample(st, -1, values, &nominal_status, NULL)) != KL_OK) {
+    kli_fail(st->error, status, "the nominal model: out of memory");
+    goto done;
+  }
+  if (nominal_status != KL_SAMPLE_OK) {
+    status = kli_fail(st->error, KL_ENOASSEMBLY,
+                      "the nominal model: it cannot move through the whole "
+                      "sweep, so its outputs cannot be judged (shorten the "
+                      "sweep to the nominal's motion)");
+    goto done;
   }
   kl_solver_copy_state(start, st->nominal);
   for (k = 0; k < st->njudge; k++)
-    st->first_order_std[k] = first_order(st, &st->judge[k], s, start);
+    spread[k] = first_order(st, &st->judge[k], s, start);
+  st->nominal_values = values;
+  st->first_order_std = spread;
+  values = spread = NULL;
+  st->prepared = 1;
+done:
+  if (!st->prepared) {
+    kl_solver_free(st->nominal);
+    st->nominal = NULL;
+  }
   kl_solver_free(s);
   kl_solver_free(start);
-  return KL_OK;
+  kli_free(a, values, bytes);
+  kli_free(a, spread, bytes);
+  return status;
 }
 
 /* ---- summaries ---- */
@@ -423,11 +451,14 @@ int kl_study_summarize(const kl_study *st, int k, const double *values,
   const kli_judge *j;
   double *sorted, sum = 0.0, squares = 0.0, badness = -HUGE_VAL;
   long i, ok = 0;
+  size_t bytes;
   if (st == NULL || summary == NULL || summary->size < sizeof summary->size ||
       n < 0 || (n > 0 && (values == NULL || sample_status == NULL)))
     return KL_EINVAL;
   if (k < 0 || k >= st->njudge)
     return KL_EID;
+  if (!st->prepared)
+    return KL_ESTAGE;
   j = &st->judge[k];
   memset(&out, 0, sizeof out);
   out.size = summary->size;
@@ -438,7 +469,8 @@ int kl_study_summarize(const kl_study *st, int k, const double *values,
   out.lower = j->has_limits ? j->lower : NAN;
   out.upper = j->has_limits ? j->upper : NAN;
   out.worst_sample = -1;
-  sorted = malloc((size_t)(n > 0 ? n : 1) * sizeof *sorted);
+  bytes = (size_t)(n > 0 ? n : 1) * sizeof *sorted;
+  sorted = kli_alloc(&st->model->alloc, bytes);
   if (sorted == NULL)
     return KL_ENOMEM;
   for (i = 0; i < n; i++) {
@@ -481,7 +513,7 @@ int kl_study_summarize(const kl_study *st, int k, const double *values,
     out.mean = out.std = out.min = out.max = out.worst = NAN;
     out.p01 = out.p05 = out.p50 = out.p95 = out.p99 = NAN;
   }
-  free(sorted);
+  kli_free(&st->model->alloc, sorted, bytes);
   memcpy(summary, &out,
          summary->size < sizeof out ? summary->size : sizeof out);
   return KL_OK;
@@ -489,20 +521,43 @@ int kl_study_summarize(const kl_study *st, int k, const double *values,
 
 /* ---- the study itself ---- */
 
+kl_study *kli_study_new(const kl_model *m) {
+  kl_study *st = kli_alloc(&m->alloc, sizeof *st);
+  if (st == NULL)
+    return NULL;
+  memset(st, 0, sizeof *st);
+  st->model = m;
+  kli_model_retain(m);
+  return st;
+}
+
 void kl_study_free(kl_study *st) {
-  kli_allocator a;
+  const kl_model *m;
+  const kli_allocator *a;
+  size_t bytes;
   if (st == NULL)
     return;
-  a.fn = kli_default_alloc;
-  a.user = NULL;
+  m = st->model;
+  a = &m->alloc;
+  bytes = (size_t)st->njudge * sizeof(double);
   kl_solver_free(st->nominal);
-  kl_model_free(st->model);
-  kli_free(&a, st->vary, (size_t)st->cap_vary * sizeof *st->vary);
-  kli_free(&a, st->judge, (size_t)st->cap_judge * sizeof *st->judge);
-  kli_free(&a, st->loads, (size_t)st->cap_loads * sizeof *st->loads);
-  free(st->nominal_values);
-  free(st->first_order_std);
-  kli_free(&a, st, sizeof *st);
+  kli_free(a, st->vary, (size_t)st->cap_vary * sizeof *st->vary);
+  kli_free(a, st->judge, (size_t)st->cap_judge * sizeof *st->judge);
+  kli_free(a, st->loads, (size_t)st->cap_loads * sizeof *st->loads);
+  kli_free(a, st->nominal_values, bytes);
+  kli_free(a, st->first_order_std, bytes);
+  if (st->model_path != NULL)
+    kli_free(a, st->model_path, strlen(st->model_path) + 1);
+  kli_free(a, st, sizeof *st);
+  kli_model_release(m); /* last: its allocator freed the rest */
+}
+
+const char *kl_study_error(const kl_study *st) {
+  return st == NULL ? "no study (NULL pointer)" : st->error;
+}
+
+const char *kl_study_model_path(const kl_study *st) {
+  return st == NULL ? NULL : st->model_path;
 }
 
 long kl_study_sample_count(const kl_study *st) {

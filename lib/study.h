@@ -1,6 +1,6 @@
 /*
- * study.h - private: a design study as the reader records it (io.c) and
- * the engine runs it (study.c).
+ * study.h - private: a design study as the reader records it
+ * (study_read.c) and the engine runs it (study.c).
  */
 #ifndef KINLOOP_STUDY_H
 #define KINLOOP_STUDY_H
@@ -46,8 +46,10 @@ typedef struct {
 } kli_judge;
 
 struct kl_study {
-  kl_model *model;
-  kl_solver *nominal;     /* solved at the start of the sweep */
+  const kl_model *model;  /* held (kli_model_retain) until kl_study_free */
+  char *model_path;       /* the text's 'model' statement; NULL if none */
+  kl_solver *nominal;     /* prepared: solved at the start of the sweep */
+  int prepared;           /* kl_study_prepare succeeded */
   kl_sweep_settings sweep;
   unsigned long long seed;
   long samples;
@@ -58,12 +60,28 @@ struct kl_study {
   int njudge, cap_judge;
   kl_load *loads;
   int nloads, cap_loads;
-  double *nominal_values; /* njudge */
+  double *nominal_values; /* prepared: njudge of them */
   double *first_order_std;
+  char error[KLI_MESSAGE_SIZE];
 };
 
-/* Solves the nominal, its outputs and the first-order estimates, once the
- * reader has recorded the study: KL_OK, or a status with buf saying why. */
-int kli_study_prepare(kl_study *st, char *buf);
+/* A new empty study of the finalized model m, holding m; every later
+ * allocation of the study goes through m's allocator. NULL when memory
+ * runs out. */
+kl_study *kli_study_new(const kl_model *m);
+/* Once the reader has recorded the study: checks the judged outputs and
+ * the varied dimensions against the model, takes the dimensions' nominal
+ * values and names, and turns the file's input values into API units.
+ * KL_OK, or a status with buf saying why. Solves nothing. */
+int kli_study_resolve(kl_study *st, char *buf);
+
+/* The study reader's first pass, for the file module: the path of the
+ * text's 'model' statement (into path, cap bytes; a path has at most 255)
+ * and its line and column, reading the statements before it as
+ * kl_study_read does. KL_OK, or a status with err set as kl_study_read
+ * sets it. */
+int kli_study_find_model(const char *text, size_t length, char *path,
+                         size_t cap, int *line, int *column,
+                         kl_io_error *err);
 
 #endif

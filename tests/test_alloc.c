@@ -1,9 +1,12 @@
 /*
  * test_alloc.c - memory through the allocator hook: every allocation of
  * building, finalizing and creating a solver is refused in turn; each time
- * the call fails cleanly, changes nothing, and every block is given back.
+ * the call fails cleanly, changes nothing, and every block is given back;
+ * a model freed before its solvers gives its blocks back with the last;
+ * a study's every allocation goes through its model's hook, likewise.
  */
 #include <check.h>
+#include <math.h>
 #include <string.h>
 
 #include "suite.h"
@@ -145,6 +148,164 @@ START_TEST(builders_keep_the_model_on_failure) {
 }
 END_TEST
 
+/* An offset slider-crank and a tolerance study of it (geometry and numbers
+ * chosen for this test): every kind of output, so that each allocation a
+ * study makes is reached. */
+static const char slider_text[] =
+    "kinloop-model 1\n"
+    "units length mm angle deg\n"
+    "link crank\nlink rod\nlink block\n"
+    "revolute motor ground 0 0 crank 0 0\n"
+    "revolute pin crank 30 0 rod 0 0\n"
+    "revolute wrist rod 100 0 block 0 0\n"
+    "prismatic rail ground 0 12 axis 0 block 0 0\n"
+    "point nose block 5 0\n"
+    "input motor\n"
+    "sketch angle rod -7\n"
+    "sketch slide rail 120\n"
+    "sweep motor from 0 to 360 steps 12\n";
+static const char study_text[] = "kinloop-study 1\n"
+                                 "model slider.kinloop\n"
+                                 "seed 3\nsamples 3\n"
+                                 "vary joint pin a x tolerance 0.1 normal\n"
+                                 "vary point nose y tolerance 0.2 uniform\n"
+                                 "output stroke swing slide rail\n"
+                                 "output nose at 90 y nose\n"
+                                 "output reach reach\n"
+                                 "output hold effort\n"
+                                 "load torque crank 5\n"
+                                 "limit stroke 50 70\n";
+#define STUDY_OUTPUTS 4
+#define STUDY_SAMPLES 3
+
+/* Reads, prepares, runs and summarizes the study with the counting hook
+ * refusing allocation c->fail_at: KL_OK with the values, or the first
+ * failure's status (every call's failure checked to be KL_ENOMEM and
+ * clean). A refused allocation in preparing is retried with memory back,
+ * which must then succeed: the failed call changed nothing. */
+static int study_steps(counting_alloc *c, double *values) {
+  kl_io_error err;
+  kl_model *m;
+  kl_study *st;
+  int status[STUDY_SAMPLES], k, result;
+  err.size = sizeof err;
+  m = kl_model_read_with_alloc(slider_text, sizeof slider_text - 1,
+                               counting_alloc_fn, c, &err);
+  if (m == NULL) {
+    ck_assert_int_eq(err.status, KL_ENOMEM);
+    return KL_ENOMEM;
+  }
+  st = kl_study_read(study_text, sizeof study_text - 1, m, &err);
+  kl_model_free(m); /* the study holds it */
+  if (st == NULL) {
+    ck_assert_int_eq(err.status, KL_ENOMEM);
+    ck_assert_ptr_nonnull(strstr(err.message, "out of memory"));
+    return KL_ENOMEM;
+  }
+  result = kl_study_prepare(st);
+  if (result == KL_ENOMEM) {
+    ck_assert_ptr_nonnull(strstr(kl_study_error(st), "out of memory"));
+    c->fail_at = 0;
+    ck_assert_int_eq(kl_study_prepare(st), KL_OK);
+  } else {
+    ck_assert_int_eq(result, KL_OK);
+    result = kl_study_run(st, 0, STUDY_SAMPLES, 1, values, status, NULL);
+    if (result == KL_OK)
+      for (k = 0; k < STUDY_SAMPLES; k++)
+        ck_assert_int_eq(status[k], KL_SAMPLE_OK);
+    for (k = 0; k < STUDY_OUTPUTS && result == KL_OK; k++) {
+      kl_study_summary summary;
+      summary.size = sizeof summary;
+      result = kl_study_summarize(st, k, values, status, STUDY_SAMPLES,
+                                  &summary);
+    }
+    ck_assert(result == KL_OK || result == KL_ENOMEM);
+  }
+  kl_study_free(st);
+  return result;
+}
+
+/* Every allocation of reading a study (against a model read with the hook),
+ * preparing, running and summarizing it is refused in turn: each time the
+ * call fails with KL_ENOMEM (a sample whose copy could not be made is no
+ * sample "not assembled"), and every block is given back. */
+START_TEST(every_study_allocation_failure_is_clean) {
+  double reference[STUDY_SAMPLES * STUDY_OUTPUTS];
+  counting_alloc c;
+  long n;
+  int completed = 0;
+  memset(&c, 0, sizeof c);
+  ck_assert_int_eq(study_steps(&c, reference), KL_OK);
+  ck_assert_int_eq(c.live, 0);
+  ck_assert_int_gt(c.calls, 30);
+  for (n = 1; !completed && n < 10000; n++) {
+    double values[STUDY_SAMPLES * STUDY_OUTPUTS];
+    int result;
+    memset(&c, 0, sizeof c);
+    c.fail_at = n;
+    result = study_steps(&c, values);
+    ck_assert_int_le(c.failed, 1);
+    ck_assert_msg(c.live == 0, "run %ld leaks %ld blocks", n, c.live);
+    ck_assert_uint_eq(c.live_bytes, 0);
+    if (result == KL_OK && c.failed == 0) {
+      completed = 1;
+      ck_assert_int_eq(memcmp(values, reference, sizeof values), 0);
+    }
+  }
+  ck_assert(completed);
+}
+END_TEST
+
+/* The rocker angle of a solver of four-bar f at crank angle u, against
+ * Freudenstein's equation (either branch): 1 if it agrees to 1e-9 rad. */
+static int solves_as_freudenstein(kl_solver *s, const fourbar *f, double u) {
+  double t3, t4, branch_t4[2];
+  int b;
+  kl_set_link_angle(s, f->coupler, 0.5);
+  kl_set_link_angle(s, f->rocker, 1.5);
+  if (kl_solve_position(s, &u) != KL_OK)
+    return 0;
+  for (b = 0; b < 2; b++) {
+    if (!freudenstein(f, u, b == 0 ? 1 : -1, &t3, &t4))
+      return 0;
+    branch_t4[b] = t4;
+  }
+  return fabs(angle_diff(kl_link_angle(s, f->rocker), branch_t4[0])) <= 1e-9 ||
+         fabs(angle_diff(kl_link_angle(s, f->rocker), branch_t4[1])) <= 1e-9;
+}
+
+/* kl_model_free with solvers left lets go of the caller's handle alone:
+ * every block of the model stays while a solver (on the heap or in the
+ * caller's block) holds it, the solvers keep solving, and the last one to
+ * go gives the model's blocks back. */
+START_TEST(solvers_keep_a_freed_model) {
+  static double block[4096];
+  counting_alloc c;
+  kl_solver *heap, *placed;
+  fourbar f;
+  long model_blocks;
+  memset(&c, 0, sizeof c);
+  f = build_fourbar_in(counting_model(&c), 40, 120, 80, 100);
+  ck_assert(kl_model_is_finalized(f.m));
+  model_blocks = c.live;
+  ck_assert_uint_le(kl_solver_bytes(f.m), sizeof block);
+  heap = kl_solver_new(f.m);
+  placed = kl_solver_new_in(f.m, block, sizeof block);
+  ck_assert(heap != NULL && placed != NULL);
+  kl_model_free(f.m);
+  ck_assert_int_eq(c.live, model_blocks + 1); /* the heap solver's block */
+  ck_assert_ptr_eq(kl_solver_model(heap), f.m);
+  ck_assert(solves_as_freudenstein(heap, &f, 0.5));
+  kl_solver_free(heap);
+  ck_assert_int_eq(c.live, model_blocks);
+  ck_assert_int_eq(kl_model_loop_count(kl_solver_model(placed)), 1);
+  ck_assert(solves_as_freudenstein(placed, &f, 2.0));
+  kl_solver_free(placed);
+  ck_assert_int_eq(c.live, 0);
+  ck_assert_uint_eq(c.live_bytes, 0);
+}
+END_TEST
+
 START_TEST(allocator_hook_is_required) {
   counting_alloc c;
   memset(&c, 0, sizeof c);
@@ -162,6 +323,8 @@ int main(void) {
   tcase_add_test(tc, every_allocation_failure_is_clean);
   tcase_add_test(tc, failed_calls_change_nothing);
   tcase_add_test(tc, builders_keep_the_model_on_failure);
+  tcase_add_test(tc, solvers_keep_a_freed_model);
+  tcase_add_test(tc, every_study_allocation_failure_is_clean);
   tcase_add_test(tc, allocator_hook_is_required);
   suite_add_tcase(suite, tc);
   return run_suite(suite);

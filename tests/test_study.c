@@ -2,7 +2,8 @@
  * test_study.c - design studies: a grid against the slider-crank's closed
  * form, the random stream's distributions, Monte Carlo against the
  * first-order estimate, determinism over threads and split runs, counted
- * failures, the summary's statistics, and located errors.
+ * failures, the summary's statistics, located errors, reading apart from
+ * preparing, and a study that holds its model.
  */
 #define _POSIX_C_SOURCE 200809L
 #include <check.h>
@@ -10,6 +11,7 @@
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 #include "suite.h"
@@ -32,6 +34,7 @@ static const char *slider_model =
     "sweep motor from 0 to 360 steps 36\n";
 
 static char dir[64];
+static kl_model *slider; /* slider_model, read in setup */
 
 static void write_file(const char *name, const char *text) {
   char path[128];
@@ -43,26 +46,49 @@ static void write_file(const char *name, const char *text) {
   fclose(f);
 }
 
+static void remove_file(const char *name) {
+  char path[128];
+  snprintf(path, sizeof path, "%s/%s", dir, name);
+  unlink(path);
+}
+
+static kl_model *read_model(const char *text) {
+  kl_io_error err;
+  kl_model *m;
+  err.size = sizeof err;
+  m = kl_model_read(text, strlen(text), &err);
+  ck_assert_msg(m != NULL, "%d:%d %s", err.line, err.column, err.message);
+  return m;
+}
+
 static void setup(void) {
   strcpy(dir, "/tmp/kinloop-study-XXXXXX");
   ck_assert_ptr_nonnull(mkdtemp(dir));
   write_file("slider.kinloop", slider_model);
+  slider = read_model(slider_model);
 }
 
 static void teardown(void) {
-  char path[128];
-  snprintf(path, sizeof path, "%s/slider.kinloop", dir);
-  unlink(path);
+  kl_model_free(slider);
+  remove_file("slider.kinloop");
   rmdir(dir);
 }
 
-static kl_study *read_study(const char *text) {
+/* A study of model m, read and prepared. */
+static kl_study *read_study_of(const char *text, const kl_model *m) {
   kl_io_error err;
   kl_study *st;
+  int status;
   err.size = sizeof err;
-  st = kl_study_read(text, strlen(text), dir, &err);
+  st = kl_study_read(text, strlen(text), m, &err);
   ck_assert_msg(st != NULL, "%d:%d %s", err.line, err.column, err.message);
+  status = kl_study_prepare(st);
+  ck_assert_msg(status == KL_OK, "prepare: %s", kl_study_error(st));
   return st;
+}
+
+static kl_study *read_study(const char *text) {
+  return read_study_of(text, slider);
 }
 
 typedef struct {
@@ -180,14 +206,15 @@ START_TEST(a_change_point_sample_is_not_assembled) {
   const double swing = (acos((c * c + d * d - (a + b) * (a + b)) / (2 * c * d)) -
                         acos((c * c + d * d - (b - a) * (b - a)) / (2 * c * d))) *
                        180 / PI;
-  char path[128];
+  kl_model *m = read_model(fourbar_model);
   kl_study *st;
   run r;
-  write_file("fourbar.kinloop", fourbar_model);
-  st = read_study("kinloop-study 1\n"
-                  "model fourbar.kinloop\n"
-                  "grid joint rocker_pin a x from 120 to 140 steps 1\n"
-                  "output swing swing angle rocker\n");
+  st = read_study_of("kinloop-study 1\n"
+                     "model fourbar.kinloop\n"
+                     "grid joint rocker_pin a x from 120 to 140 steps 1\n"
+                     "output swing swing angle rocker\n",
+                     m);
+  kl_model_free(m); /* the study holds it */
   r = run_all(st, 1);
   ck_assert_int_eq(r.status[0], KL_SAMPLE_OK);
   ck_assert_msg(fabs(fabs(r.values[0]) - fabs(swing)) <= 1e-8,
@@ -196,8 +223,6 @@ START_TEST(a_change_point_sample_is_not_assembled) {
   ck_assert(isnan(r.values[1]));
   free_run(&r);
   kl_study_free(st);
-  snprintf(path, sizeof path, "%s/fourbar.kinloop", dir);
-  unlink(path);
 }
 END_TEST
 
@@ -429,6 +454,7 @@ static const bad_study bad_studies[] = {
      KL_ESYNTAX, 0, "at most 1e9"},
     {"kinloop-study 1\nmodel slider.kinloop\nmodel slider.kinloop\n", KL_ESYNTAX,
      3, "a study has one 'model'"},
+    {"kinloop-study 1\nmodel\n", KL_ESYNTAX, 2, "expected the model file's path"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\nload weight nose 1\n",
      KL_ESYNTAX, 4, "force"},
     {"kinloop-study 1\nmodel slider.kinloop\nseed 1\nseed 2\n", KL_ESYNTAX,
@@ -439,10 +465,6 @@ static const bad_study bad_studies[] = {
      "sweep motor from 0 to 360 steps 36\n"
      "sweep motor from 0 to 180 steps 36\n",
      KL_ESYNTAX, 4, "'sweep' is given already, on line 3"},
-    {"kinloop-study 1\nsamples 5\n", KL_ESYNTAX, 0, "names no model"},
-    {"kinloop-study 1\nvary joint pin a x tolerance 1 normal\n", KL_ESYNTAX, 2,
-     "'model' must come first"},
-    {"kinloop-study 1\nmodel nowhere.kinloop\n", KL_EIO, 2, "cannot open"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
      "vary joint nobody a x tolerance 1 normal\noutput s swing slide rail\n",
      KL_ESYNTAX, 4, "no joint is named 'nobody'"},
@@ -480,20 +502,65 @@ static const bad_study bad_studies[] = {
      KL_EKIND, 0, "revolute"},
 };
 
+static void assert_error(const kl_io_error *err, const bad_study *b, int i) {
+  ck_assert_msg(err->status == b->status && err->line == b->line,
+                "case %d: status %d line %d (%s)", i, err->status, err->line,
+                err->message);
+  ck_assert_msg(strstr(err->message, b->says) != NULL,
+                "case %d: '%s' lacks '%s'", i, err->message, b->says);
+}
+
 START_TEST(study_errors_are_located) {
   const bad_study *b = &bad_studies[_i];
   kl_io_error err;
   err.size = sizeof err;
-  ck_assert_ptr_null(kl_study_read(b->text, strlen(b->text), dir, &err));
-  ck_assert_msg(err.status == b->status && err.line == b->line,
-                "case %d: status %d line %d (%s)", _i, err.status, err.line,
-                err.message);
-  ck_assert_msg(strstr(err.message, b->says) != NULL,
-                "case %d: '%s' lacks '%s'", _i, err.message, b->says);
+  ck_assert_ptr_null(kl_study_read(b->text, strlen(b->text), slider, &err));
+  assert_error(&err, b, _i);
 }
 END_TEST
 
-/* The demo study of the examples reads and its nominal is the demo's. */
+/* What a study file adds: its model must be found, named before it is
+ * needed, and read; the statements before the 'model' line are read as
+ * kl_study_read reads them, those after it by kl_study_read itself. */
+static const bad_study bad_study_files[] = {
+    {"kinloop-study 1\nsamples 5\n", KL_ESYNTAX, 0, "names no model"},
+    {"kinloop-study 1\nvary joint pin a x tolerance 1 normal\n"
+     "model slider.kinloop\n",
+     KL_ESYNTAX, 2, "'model' must come first"},
+    {"kinloop-study 1\nmodel nowhere.kinloop\n", KL_EIO, 2,
+     "cannot open '"},
+    {"kinloop-study 1\nmodel broken.kinloop\n", KL_ESYNTAX, 2,
+     "broken.kinloop', line 3, column 33: expected a number"},
+    {"kinloop-study 1\nseed 1\nseed 2\nmodel slider.kinloop\n", KL_ESYNTAX,
+     3, "'seed' is given already, on line 2"},
+    {"", KL_ESYNTAX, 1, "empty study"},
+    {"kinloop-model 1\nmodel slider.kinloop\n", KL_ESYNTAX, 1,
+     "kinloop-study 1"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output s swing speed rail\n",
+     KL_ESYNTAX, 4, "what to measure"},
+};
+
+START_TEST(study_file_errors_are_located) {
+  const bad_study *b = &bad_study_files[_i];
+  char path[128];
+  kl_io_error err;
+  err.size = sizeof err;
+  write_file("broken.kinloop", "kinloop-model 1\nlink crank\n"
+                               "revolute motor ground 0 0 crank zero 0\n");
+  write_file("bad.study", b->text);
+  snprintf(path, sizeof path, "%s/bad.study", dir);
+  ck_assert_ptr_null(kl_study_read_file(path, &err));
+  assert_error(&err, b, _i);
+  if (b->status == KL_EIO) /* at the path in the 'model' statement */
+    ck_assert_int_eq(err.column, 7);
+  remove_file("bad.study");
+  remove_file("broken.kinloop");
+}
+END_TEST
+
+/* The demo study of the examples reads, its nominal is the demo's, and it
+ * prepares. */
 START_TEST(the_demo_study_reads) {
   kl_io_error err;
   kl_study *st;
@@ -505,6 +572,8 @@ START_TEST(the_demo_study_reads) {
   ck_assert_int_eq(kl_study_output_count(st), 4);
   ck_assert_str_eq(kl_study_output_name(st, 0), "stroke");
   ck_assert_int_eq(kl_model_loop_count(kl_study_model(st)), 2);
+  ck_assert_str_eq(kl_study_model_path(st), "flap-tucker.kinloop");
+  ck_assert_msg(kl_study_prepare(st) == KL_OK, "%s", kl_study_error(st));
   kl_study_free(st);
 }
 END_TEST
@@ -514,7 +583,7 @@ START_TEST(a_nul_byte_is_located) {
   static const char text[] = "kinloop-study 1\nmodel slider.kinloop\nsam\0ples 5\n";
   kl_io_error err;
   err.size = sizeof err;
-  ck_assert_ptr_null(kl_study_read(text, sizeof text - 1, dir, &err));
+  ck_assert_ptr_null(kl_study_read(text, sizeof text - 1, slider, &err));
   ck_assert_int_eq(err.status, KL_ESYNTAX);
   ck_assert_int_eq(err.line, 3);
   ck_assert_int_eq(err.column, 4);
@@ -523,26 +592,25 @@ START_TEST(a_nul_byte_is_located) {
 END_TEST
 
 /* The model's path is taken relative to the study's directory, however
- * the study names it; a path too long for the reader is an error, never a
- * cut-down path. */
+ * the study is named; a path too long for the reader is an error at the
+ * path, never a cut-down path. */
 START_TEST(the_model_is_found_beside_the_study) {
   static const char study_text[] = "kinloop-study 1\n"
                                    "model slider.kinloop\n"
                                    "grid joint pin a x from 20 to 40 steps 1\n"
                                    "output stroke swing slide rail\n";
-  char path[128], with_slash[80], cwd[1024], *long_base;
+  char path[1200], deep[1100], cwd[1024], long_model[240];
   kl_io_error err;
   kl_study *st;
+  int level;
+  FILE *f;
   err.size = sizeof err;
   write_file("nominal.study", study_text);
   snprintf(path, sizeof path, "%s/nominal.study", dir);
   st = kl_study_read_file(path, &err);
   ck_assert_msg(st != NULL, "%s", err.message);
-  kl_study_free(st);
-  /* a base directory given with its trailing slash */
-  snprintf(with_slash, sizeof with_slash, "%s/", dir);
-  st = kl_study_read(study_text, strlen(study_text), with_slash, &err);
-  ck_assert_msg(st != NULL, "%s", err.message);
+  ck_assert_str_eq(kl_study_model_path(st), "slider.kinloop");
+  ck_assert_int_eq(kl_model_link_count(kl_study_model(st)), 4);
   kl_study_free(st);
   /* a bare file name: the working directory */
   ck_assert_ptr_nonnull(getcwd(cwd, sizeof cwd));
@@ -551,18 +619,167 @@ START_TEST(the_model_is_found_beside_the_study) {
   ck_assert_int_eq(chdir(cwd), 0);
   ck_assert_msg(st != NULL, "%s", err.message);
   kl_study_free(st);
-  /* a base directory of 1020 characters and the model's name: too long */
-  long_base = malloc(1021);
-  ck_assert_ptr_nonnull(long_base);
-  memset(long_base, 'a', 1020);
-  long_base[1020] = '\0';
-  ck_assert_ptr_null(kl_study_read(study_text, strlen(study_text), long_base, &err));
+  remove_file("nominal.study");
+  /* a study four folders of 220 characters deep whose model's name has
+   * 230: the joined path is longer than the reader's 1023 */
+  snprintf(deep, sizeof deep, "%s", dir);
+  for (level = 0; level < 4; level++) {
+    size_t n = strlen(deep);
+    deep[n] = '/';
+    memset(deep + n + 1, 'd', 220);
+    deep[n + 221] = '\0';
+    ck_assert_int_eq(mkdir(deep, 0700), 0);
+  }
+  memset(long_model, 'm', 230);
+  long_model[230] = '\0';
+  snprintf(path, sizeof path, "%s/long.study", deep);
+  f = fopen(path, "w");
+  ck_assert_ptr_nonnull(f);
+  fprintf(f, "kinloop-study 1\nmodel %s\noutput s swing slide rail\n",
+          long_model);
+  fclose(f);
+  ck_assert_ptr_null(kl_study_read_file(path, &err));
   ck_assert_int_eq(err.status, KL_EIO);
   ck_assert_int_eq(err.line, 2);
+  ck_assert_int_eq(err.column, 7);
   ck_assert_msg(strstr(err.message, "longer than") != NULL, "%s", err.message);
-  free(long_base);
-  snprintf(path, sizeof path, "%s/nominal.study", dir);
   unlink(path);
+  for (level = 0; level < 4; level++) {
+    ck_assert_int_eq(rmdir(deep), 0);
+    *strrchr(deep, '/') = '\0';
+  }
+}
+END_TEST
+
+/* The 'model' statement is recorded as written, never opened: a study
+ * text without one reads too, and one naming a file that does not exist
+ * reads against the model given. */
+START_TEST(the_model_statement_is_recorded_not_opened) {
+  static const char *const texts[3] = {
+      "kinloop-study 1\nsamples 3\n"
+      "vary joint pin a x tolerance 0.1 normal\n"
+      "output stroke swing slide rail\n",
+      "kinloop-study 1\nmodel \"no such folder/slider.kinloop\"\nsamples 3\n"
+      "vary joint pin a x tolerance 0.1 normal\n"
+      "output stroke swing slide rail\n",
+      /* statements before 'model' name the model's items: allowed here,
+       * since the model is given */
+      "kinloop-study 1\nsamples 3\n"
+      "vary joint pin a x tolerance 0.1 normal\n"
+      "output stroke swing slide rail\nmodel slider.kinloop\n"};
+  static const char *const recorded[3] = {NULL, "no such folder/slider.kinloop",
+                                          "slider.kinloop"};
+  int i;
+  for (i = 0; i < 3; i++) {
+    kl_study *st = read_study(texts[i]);
+    if (recorded[i] == NULL)
+      ck_assert_ptr_null(kl_study_model_path(st));
+    else
+      ck_assert_str_eq(kl_study_model_path(st), recorded[i]);
+    ck_assert_ptr_eq(kl_study_model(st), slider);
+    kl_study_free(st);
+  }
+  ck_assert_ptr_null(kl_study_model_path(NULL));
+}
+END_TEST
+
+/* A slider-crank whose crank (95) is longer than rod - offset (100 - 12)
+ * cannot turn fully (the rotatability condition above), so its nominal
+ * cannot be judged over a full turn. Reading it solves nothing and
+ * succeeds; preparing fails, says why and changes nothing; runs and
+ * summaries wait for a prepared study. */
+START_TEST(reading_solves_nothing_and_preparing_says_why) {
+  static const char text[] = "kinloop-study 1\nsamples 4\n"
+                             "vary joint pin a x tolerance 0.1 normal\n"
+                             "output stroke swing slide rail\n";
+  char long_crank[512];
+  const char *pin = strstr(slider_model, "crank 30 0 rod");
+  double values[4];
+  int status[4];
+  kl_study_summary summary;
+  kl_io_error err;
+  kl_model *m;
+  kl_study *st;
+  ck_assert_ptr_nonnull(pin);
+  snprintf(long_crank, sizeof long_crank, "%.*scrank 95 0 rod%s",
+           (int)(pin - slider_model), slider_model,
+           pin + strlen("crank 30 0 rod"));
+  m = read_model(long_crank);
+  err.size = sizeof err;
+  st = kl_study_read(text, strlen(text), m, &err);
+  kl_model_free(m);
+  ck_assert_msg(st != NULL, "%s", err.message);
+  ck_assert_str_eq(kl_study_error(st), "");
+  summary.size = sizeof summary;
+  ck_assert_int_eq(kl_study_run(st, 0, 4, 1, values, status, NULL), KL_ESTAGE);
+  ck_assert_int_eq(kl_study_summarize(st, 0, values, status, 0, &summary),
+                   KL_ESTAGE);
+  ck_assert_int_eq(kl_study_prepare(st), KL_ENOASSEMBLY);
+  ck_assert_msg(strstr(kl_study_error(st), "the nominal model: it cannot "
+                                           "move through the whole sweep"),
+                "%s", kl_study_error(st));
+  ck_assert_int_eq(kl_study_run(st, 0, 4, 1, values, status, NULL), KL_ESTAGE);
+  ck_assert_int_eq(kl_study_prepare(st), KL_ENOASSEMBLY); /* the same again */
+  kl_study_free(st);
+  /* the same study of the standard slider-crank prepares, once */
+  st = read_study(text);
+  ck_assert_int_eq(kl_study_prepare(st), KL_OK);
+  ck_assert_int_eq(kl_study_run(st, 0, 4, 1, values, status, NULL), KL_OK);
+  kl_study_free(st);
+}
+END_TEST
+
+/* The study holds its model: the caller's handle may go at once, and the
+ * study gives the numbers of one whose model's handle stays. */
+START_TEST(a_study_outlives_its_models_handle) {
+  static const char text[] = "kinloop-study 1\nseed 5\nsamples 20\n"
+                             "vary joint pin a x tolerance 0.5 normal\n"
+                             "output stroke swing slide rail\n"
+                             "output rod_max max angle rod\n";
+  kl_model *m = read_model(slider_model);
+  kl_study *kept = read_study(text), *alone;
+  run a, b;
+  int k;
+  alone = read_study_of(text, m);
+  kl_model_free(m);
+  ck_assert_int_eq(kl_model_link_count(kl_study_model(alone)), 4);
+  a = run_all(kept, 2);
+  b = run_all(alone, 2);
+  ck_assert_int_eq(memcmp(a.values, b.values, 40 * sizeof(double)), 0);
+  for (k = 0; k < 2; k++) {
+    kl_study_summary sa, sb;
+    sa.size = sb.size = sizeof sa;
+    ck_assert_int_eq(kl_study_summarize(kept, k, a.values, a.status, a.n, &sa),
+                     KL_OK);
+    ck_assert_int_eq(kl_study_summarize(alone, k, b.values, b.status, b.n, &sb),
+                     KL_OK);
+    ck_assert_double_eq(sa.nominal, sb.nominal);
+    ck_assert_double_eq(sa.first_order_std, sb.first_order_std);
+  }
+  free_run(&a);
+  free_run(&b);
+  kl_study_free(alone);
+  kl_study_free(kept);
+}
+END_TEST
+
+/* Arguments the reader refuses, and the getters' answers for no study. */
+START_TEST(bad_arguments) {
+  static const char text[] = "kinloop-study 1\nsamples 1\n"
+                             "output stroke swing slide rail\n";
+  kl_model *open = kl_model_new();
+  kl_io_error err;
+  err.size = sizeof err;
+  ck_assert_ptr_null(kl_study_read(text, strlen(text), NULL, &err));
+  ck_assert_int_eq(err.status, KL_EINVAL);
+  ck_assert_ptr_null(kl_study_read(text, strlen(text), open, &err));
+  ck_assert_int_eq(err.status, KL_ESTATE);
+  ck_assert_ptr_nonnull(strstr(err.message, "not finalized"));
+  ck_assert_int_eq(kl_study_prepare(NULL), KL_EINVAL);
+  ck_assert_ptr_nonnull(strstr(kl_study_error(NULL), "NULL"));
+  ck_assert_int_eq(kl_study_run(NULL, 0, 0, 1, NULL, NULL, NULL), KL_EINVAL);
+  kl_study_free(NULL);
+  kl_model_free(open);
 }
 END_TEST
 
@@ -582,7 +799,13 @@ int main(void) {
   tcase_add_loop_test(tc, study_errors_are_located, 0,
                       (int)(sizeof bad_studies / sizeof bad_studies[0]));
   tcase_add_test(tc, the_demo_study_reads);
+  tcase_add_loop_test(tc, study_file_errors_are_located, 0,
+                      (int)(sizeof bad_study_files / sizeof bad_study_files[0]));
   tcase_add_test(tc, the_model_is_found_beside_the_study);
+  tcase_add_test(tc, the_model_statement_is_recorded_not_opened);
+  tcase_add_test(tc, reading_solves_nothing_and_preparing_says_why);
+  tcase_add_test(tc, a_study_outlives_its_models_handle);
+  tcase_add_test(tc, bad_arguments);
   tcase_add_test(tc, a_nul_byte_is_located);
   suite_add_tcase(suite, tc);
   return run_suite(suite);

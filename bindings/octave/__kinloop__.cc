@@ -1552,14 +1552,31 @@ int adopt_study(kl_study *st) {
   return new_id(kind::study, e);
 }
 
+/* The library's study holds the model it is read against, whatever then
+ * becomes of the model's handle here. */
 octave_value_list cmd_study_read(const call &c) {
-  std::string text = text_arg(c, 0), base_dir;
-  bool based = c.name_arg(1, "base_dir", base_dir);
+  std::string text = text_arg(c, 0);
+  entry &m = c.model(1, access::read);
   kl_io_error e;
   e.size = sizeof e;
-  kl_study *st = kl_study_read(text.data(), text.size(),
-                               based ? base_dir.c_str() : nullptr, &e);
+  kl_study *st = kl_study_read(text.data(), text.size(), m.model, &e);
   return read_result(c, st, adopt_study, e);
+}
+
+octave_value_list cmd_study_prepare(const call &c) {
+  entry &st = c.study(0);
+  int status = kl_study_prepare(st.study);
+  if (status < 0)
+    raise_status(status, kl_study_error(st.study));
+  return none();
+}
+
+octave_value_list cmd_study_error(const call &c) {
+  return one(std::string(kl_study_error(c.study(0).study)));
+}
+
+octave_value_list cmd_study_model_path(const call &c) {
+  return one(name_value(kl_study_model_path(c.study(0).study)));
 }
 
 octave_value_list cmd_study_read_file(const call &c) {
@@ -1902,8 +1919,11 @@ const command commands[] = {
     {"output_tolerance_stack", 4, 4, "(solver, output, dimensions, tolerances)",
      cmd_tolerance_stack},
     /* design studies */
-    {"study_read", 1, 2, "(text, [base_dir])", cmd_study_read},
+    {"study_read", 2, 2, "(text, model)", cmd_study_read},
     {"study_read_file", 1, 1, "(path)", cmd_study_read_file},
+    {"study_prepare", 1, 1, "(study)", cmd_study_prepare},
+    {"study_error", 1, 1, "(study)", cmd_study_error},
+    {"study_model_path", 1, 1, "(study)", cmd_study_model_path},
     {"study_free", 1, 1, "(study)", cmd_study_free},
     {"study_sample_count", 1, 1, "(study)", cmd_study_sample_count},
     {"study_output_count", 1, 1, "(study)",

@@ -2,8 +2,7 @@
  * study.c - the study command: reads a design study (or the built-in demo
  * study), runs its samples on threads, prints the summary, writes the CSV.
  */
-#define _POSIX_C_SOURCE 200809L /* mkdtemp, clock_gettime, isatty */
-#include <errno.h>
+#define _POSIX_C_SOURCE 200809L /* clock_gettime, isatty */
 #include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
@@ -23,65 +22,43 @@ static double seconds_now(void) {
   return (double)t.tv_sec + 1e-9 * (double)t.tv_nsec;
 }
 
-/* Writes `length` bytes into a new file at `path`: 0, or -1 after saying
- * why. */
-static int write_text(const char *path, const unsigned char *text,
-                      size_t length) {
-  FILE *f = fopen(path, "wb");
-  if (f == NULL) {
-    cli_error("cannot write '%s': %s", path, strerror(errno));
-    return -1;
-  }
-  fwrite(text, 1, length, f);
-  return cli_close_output(f, path) == CLI_EXIT_OK ? 0 : -1;
-}
-
-/* The built-in demo study. Its `model` line names the demo model by file
- * name, and the library reads a study's model from a folder, so both texts
- * go into a fresh temporary folder for as long as the reading takes. */
+/* The built-in demo study, read against the built-in demo model (which
+ * its `model` line names). */
 static kl_study *read_demo(int *exit_code) {
-  const char *tmp = getenv("TMPDIR");
-  char dir[4096], model_path[4200];
   kl_io_error err;
+  kl_model *m;
   kl_study *st = NULL;
-  if (tmp == NULL || tmp[0] == '\0')
-    tmp = "/tmp";
-  if ((size_t)snprintf(dir, sizeof dir, "%s/kinloop-study.XXXXXX", tmp) >=
-      sizeof dir) {
-    cli_error("the temporary folder name '%s' is too long", tmp);
-    *exit_code = CLI_EXIT_OUTPUT;
-    return NULL;
-  }
-  if (mkdtemp(dir) == NULL) {
-    cli_error("cannot make a temporary folder in '%s' for the demo study: %s",
-              tmp, strerror(errno));
-    *exit_code = CLI_EXIT_OUTPUT;
-    return NULL;
-  }
-  snprintf(model_path, sizeof model_path, "%s/%s", dir, cli_demo_file_name);
-  if (write_text(model_path, cli_demo_text, cli_demo_length) != 0) {
-    *exit_code = CLI_EXIT_OUTPUT;
-  } else {
-    err.size = sizeof err;
+  err.size = sizeof err;
+  m = kl_model_read((const char *)cli_demo_text, cli_demo_length, &err);
+  if (m != NULL)
     st = kl_study_read((const char *)cli_demo_study_text,
-                       cli_demo_study_length, dir, &err);
-    if (st == NULL)
-      *exit_code = study_read_failed("kinloop", DEMO_LABEL, &err);
-  }
-  remove(model_path);
-  rmdir(dir);
+                       cli_demo_study_length, m, &err);
+  if (st == NULL)
+    *exit_code = study_read_failed("kinloop", DEMO_LABEL, &err);
+  kl_model_free(m); /* the study holds it */
   return st;
 }
 
+/* The study, read and prepared (its nominal solved); NULL after saying
+ * why, with the exit code in *exit_code. */
 static kl_study *read_study(const char *path, int *exit_code) {
   kl_io_error err;
   kl_study *st;
-  if (path == NULL)
-    return read_demo(exit_code);
-  err.size = sizeof err;
-  st = kl_study_read_file(path, &err);
-  if (st == NULL)
-    *exit_code = study_read_failed("kinloop", path, &err);
+  int status;
+  if (path == NULL) {
+    st = read_demo(exit_code);
+  } else {
+    err.size = sizeof err;
+    st = kl_study_read_file(path, &err);
+    if (st == NULL)
+      *exit_code = study_read_failed("kinloop", path, &err);
+  }
+  if (st != NULL && (status = kl_study_prepare(st)) != KL_OK) {
+    *exit_code = study_prepare_failed(
+        "kinloop", path != NULL ? path : DEMO_LABEL, st, status);
+    kl_study_free(st);
+    st = NULL;
+  }
   return st;
 }
 

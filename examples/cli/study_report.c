@@ -25,8 +25,18 @@ int study_read_failed(const char *program, const char *label,
   return study_read_exit_code(err);
 }
 
+int study_prepare_failed(const char *program, const char *label,
+                         const kl_study *st, int status) {
+  fprintf(stderr, "%s: %s: %s\n", program, label, kl_study_error(st));
+  return study_exit_code(status);
+}
+
 int study_read_exit_code(const kl_io_error *err) {
-  switch (err->status) {
+  return study_exit_code(err->status);
+}
+
+int study_exit_code(int status) {
+  switch (status) {
   case KL_ENOMEM:
     return CLI_EXIT_MEMORY;
   case KL_ENOASSEMBLY:

@@ -21,6 +21,14 @@ int study_read_failed(const char *program, const char *label,
                       const kl_io_error *err);
 /* The exit code study_read_failed returns, without the message. */
 int study_read_exit_code(const kl_io_error *err);
+/* Prints why kl_study_prepare failed with `status` ("PROGRAM: LABEL:
+ * message") and returns the tool's exit code for it, as
+ * study_read_failed. */
+int study_prepare_failed(const char *program, const char *label,
+                         const kl_study *st, int status);
+/* The tool's exit code for a study's failure status: 1 out of memory, 4
+ * a nominal that does not solve, 3 anything else. */
+int study_exit_code(int status);
 
 /* Prints the summary of samples 0 .. n - 1 (values and statuses as
  * kl_study_run wrote them, in sample order) into f: the study's outline,

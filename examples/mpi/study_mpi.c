@@ -205,15 +205,23 @@ int main(int argc, char **argv) {
     return CLI_EXIT_OK;
   }
   if (code == CLI_EXIT_OK) {
-    int own, root;
+    int own, root, status = KL_OK;
     err.size = sizeof err;
     st = kl_study_read_file(o.path, &err);
-    own = root = st == NULL ? study_read_exit_code(&err) : CLI_EXIT_OK;
+    if (st != NULL)
+      status = kl_study_prepare(st); /* every rank's runs need the nominal */
+    own = root = st == NULL        ? study_read_exit_code(&err)
+                 : status != KL_OK ? study_exit_code(status)
+                                   : CLI_EXIT_OK;
     MPI_Bcast(&root, 1, MPI_INT, 0, MPI_COMM_WORLD);
     /* one message: rank 0's, or those of ranks that failed where it did
      * not */
-    if (own != CLI_EXIT_OK && (rank == 0 || root == CLI_EXIT_OK))
-      study_read_failed(PROGRAM, o.path, &err);
+    if (own != CLI_EXIT_OK && (rank == 0 || root == CLI_EXIT_OK)) {
+      if (st == NULL)
+        study_read_failed(PROGRAM, o.path, &err);
+      else
+        study_prepare_failed(PROGRAM, o.path, st, status);
+    }
     code = agree(own);
   }
   if (code == CLI_EXIT_OK)

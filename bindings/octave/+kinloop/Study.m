@@ -1,12 +1,15 @@
 classdef Study < kinloop.Readable
   % kinloop.Study - a design study: a nominal model, the dimensions that
   % vary (tolerances drawn at random, or a grid), the outputs judged and
-  % their limits; read from a study file, immutable once read.
+  % their limits; read from a study file, then prepared once.
   %
-  %   st = kinloop.Study.read(text [, base_dir])   its 'model' file is read
-  %                                                relative to base_dir (default:
-  %                                                the working directory)
-  %   st = kinloop.Study.read_file(path)           relative to the study file
+  %   st = kinloop.Study.read(text, model)   read against a kinloop.Model
+  %                                          (finalized); its 'model' line,
+  %                                          if any, is only recorded
+  %   st = kinloop.Study.read_file(path)     the model its 'model' line names,
+  %                                          relative to the study file
+  %   st.prepare()                           solves the nominal: run and
+  %                                          summarize need it
   %
   % Samples are numbered from 0, as in C. [values, status, dims] = st.run()
   % gives one row per sample: values(i, k + 1) is output k (NaN where the
@@ -35,7 +38,7 @@ classdef Study < kinloop.Readable
         obj.id = id;   % a study the gateway already holds
       else
         error('kinloop:bad_argument', ...
-              'kinloop.Study: use kinloop.Study.read(text [, base_dir]) or read_file(path)');
+              'kinloop.Study: use kinloop.Study.read(text, model) or read_file(path)');
       end
     end
 
@@ -45,6 +48,23 @@ classdef Study < kinloop.Readable
         __kinloop__('study_free', obj.id);
         obj.freed = true;
       end
+    end
+
+    function prepare(obj)
+      % Solves the nominal design at the start of the sweep, its outputs and
+      % their first-order estimates (kl_study_prepare); raises kinloop:ENOASSEMBLY
+      % and the like, with the reason, when the nominal cannot be judged.
+      __kinloop__('study_prepare', obj.id);
+    end
+
+    function msg = last_error(obj)
+      % The library's message for the study's last failed call.
+      msg = __kinloop__('study_error', obj.id);
+    end
+
+    function path = model_path(obj)
+      % The path the study's 'model' line gives, as written; [] if none.
+      path = __kinloop__('study_model_path', obj.id);
     end
 
     function n = sample_count(obj)
@@ -114,16 +134,13 @@ classdef Study < kinloop.Readable
   end
 
   methods (Static)
-    function [st, err] = read(text, base_dir)
-      % st = kinloop.Study.read(text [, base_dir]): raises kinloop:ESYNTAX
-      % etc. with 'line L, column C: ...'; with two outputs it does not
-      % raise: st is [] and err says why (status, status_name, line,
-      % column, message).
-      if nargin < 2
-        [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read', text);
-      else
-        [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read', text, base_dir);
-      end
+    function [st, err] = read(text, model)
+      % st = kinloop.Study.read(text, model): the study holds the model, which
+      % may then be freed here. Raises kinloop:ESYNTAX etc. with 'line L,
+      % column C: ...'; with two outputs it does not raise: st is [] and err
+      % says why (status, status_name, line, column, message).
+      [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read', ...
+                                                 text, model.id);
     end
 
     function [st, err] = read_file(path)

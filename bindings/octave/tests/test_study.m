@@ -11,6 +11,8 @@ demo = fullfile(models, 'flap-tucker.study');
 
 % ---- the demo study, as its file says ----
 st = kinloop.Study.read_file(demo);
+assert(strcmp(st.model_path(), 'flap-tucker.kinloop'));
+st.prepare();
 assert(st.sample_count() == 2000);
 assert(isequal(st.outputs(), {'stroke', 'mu_min', 'tip_low', 'torque'}));
 names = st.dimensions();
@@ -130,9 +132,11 @@ expect_error(@() st.summarize(0, values, status(1:99)), 'kinloop:bad_argument');
 % crank lengthened until the linkage no longer turns through the sweep);
 % include/kinloop.h: they assembled, have outputs over the reachable part
 % (NaN beyond it) and are never within limits
+demo_model = kinloop.Model.read_file(fullfile(models, 'flap-tucker.kinloop'));
 longer = kinloop.Study.read(sprintf(['kinloop-study 1\nmodel flap-tucker.kinloop\n' ...
   'grid joint crank_pin a x from 60 to 140 steps 4\noutput stroke swing slide rail\n' ...
-  'output tip_low at 270 y "tucker tip"\nlimit stroke 0 1000\n']), models);
+  'output tip_low at 270 y "tucker tip"\nlimit stroke 0 1000\n']), demo_model);
+longer.prepare();
 [lv, ls] = longer.run();
 assert(any(ls == 2) && all(ls ~= 1) && any(isnan(lv(ls == 2, 2))));
 for k = 0:1
@@ -163,29 +167,52 @@ end
 % ---- errors in study files ----
 bad = sprintf(['kinloop-study 1\nmodel flap-tucker.kinloop\nsamples 10\n' ...
                'vary joint crank_pin a z tolerance 0.05 normal\n']);
-err = expect_error(@() kinloop.Study.read(bad, models), 'kinloop:ESYNTAX');
+err = expect_error(@() kinloop.Study.read(bad, demo_model), 'kinloop:ESYNTAX');
 column = numel('vary joint crank_pin a ') + 1;
 where = sprintf('line 4, column %d: ', column);
 assert(strncmp(err.message, where, numel(where)), 'message: %s', err.message);
 assert(~isempty(strfind(err.message, '''z''')));
-[none, why] = kinloop.Study.read(bad, models);
+[none, why] = kinloop.Study.read(bad, demo_model);
 assert(isempty(none) && strcmp(why.status_name, 'ESYNTAX') && why.line == 4 && why.column == column);
-% without base_dir the model is looked for in the working directory; the
-% error names the study's line and column of the path
-previous = pwd();
+% a study file's model is looked for beside it; the error names the
+% study's line and column of the path
+lone = [tempname(), '.study'];
+f = fopen(lone, 'w');
+fprintf(f, 'kinloop-study 1\nmodel flap-tucker.kinloop\n');
+fclose(f);
 unwind_protect
-  cd(tempdir());
-  [none, why] = kinloop.Study.read(sprintf('kinloop-study 1\nmodel flap-tucker.kinloop\n'));
+  [none, why] = kinloop.Study.read_file(lone);
 unwind_protect_cleanup
-  cd(previous);
+  delete(lone);
 end_unwind_protect
 assert(isempty(none) && strcmp(why.status_name, 'EIO') && why.line == 2 && why.column == 7);
 % found once every statement is read: no line
-[none, why] = kinloop.Study.read(sprintf('kinloop-study 1\nmodel flap-tucker.kinloop\nsamples 3\n'), models);
+[none, why] = kinloop.Study.read(sprintf('kinloop-study 1\nmodel flap-tucker.kinloop\nsamples 3\n'), demo_model);
 assert(isempty(none) && why.line == 0 && ~isempty(strfind(why.message, 'output')));
 err = expect_error(@() kinloop.Study.read_file(fullfile(tempdir(), 'no-such.study')), 'kinloop:EIO');
 assert(~isempty(strfind(err.message, 'no-such.study')));
 expect_error(@() kinloop.Study(), 'kinloop:bad_argument');
+
+% ---- reading solves nothing; prepare says why a nominal cannot be judged ----
+% the demo's crank made so long (geometry chosen for this test) that crank +
+% ground exceed coupler + rocker, 140 + 220 > 200 + 150: the loop cannot
+% close with the crank at 180 degrees, inside the sweep
+long_crank = kinloop.Model.read(strrep(demo_model.write(), 'crank 60 0', 'crank 140 0'));
+stuck = kinloop.Study.read(sprintf(['kinloop-study 1\nsamples 5\n' ...
+                                    'output stroke swing slide rail\n']), long_crank);
+assert(isempty(stuck.model_path()) && isempty(stuck.last_error()));
+expect_error(@() stuck.run(0, 1), 'kinloop:ESTAGE');
+err = expect_error(@() stuck.prepare(), 'kinloop:ENOASSEMBLY');
+assert(~isempty(strfind(err.message, 'the nominal model')) && ...
+       strcmp(err.message, stuck.last_error()), 'message: %s', err.message);
+clear stuck
+% the study holds the model it is read against: the model's handle may go
+kept = kinloop.Study.read(sprintf(['kinloop-study 1\nsamples 3\n' ...
+  'vary joint crank_pin a x tolerance 0.05 normal\noutput stroke swing slide rail\n']), long_crank);
+delete(long_crank);
+clear long_crank
+expect_error(@() kept.prepare(), 'kinloop:ENOASSEMBLY');  % its model, still there
+clear kept
 
 % ---- handles: the borrowed model can neither change nor be freed ----
 model_id = m.id;

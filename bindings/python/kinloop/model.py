@@ -88,6 +88,7 @@ class Model(Handle):
 
     def _adopt(self, ptr, hook, owner=None):
         self._ptr = ptr
+        self._hook = hook  # a Study read against the model keeps it too
         self._sweeps = 0  # sweeps of its solvers under way
         self._solver_finalizers = set()
         self._owner = owner

@@ -343,9 +343,12 @@ PROTOTYPES = {
     "kl_output_tolerance_stack": (_int, [solver_p, _P(kl_output), _int,
                                   _P(kl_dimension), _dblp, _dblp, _dblp]),
     # design studies
-    "kl_study_read": (study_p, [_str, _size, _str, _P(kl_io_error)]),
+    "kl_study_read": (study_p, [_str, _size, model_p, _P(kl_io_error)]),
     "kl_study_read_file": (study_p, [_str, _P(kl_io_error)]),
+    "kl_study_prepare": (_int, [study_p]),
+    "kl_study_error": (_str, [study_p]),
     "kl_study_free": (None, [study_p]),
+    "kl_study_model_path": (_str, [study_p]),
     "kl_study_sample_count": (_long, [study_p]),
     "kl_study_output_count": (_int, [study_p]),
     "kl_study_output_name": (_str, [study_p, _int]),

@@ -17,9 +17,11 @@ from .model import Model, _io_error
 lib = raw.lib
 
 
-def _free_study(ptr, view_finalizers):
+def _free_study(ptr, view_finalizers, hook):
     # the view of the study's model, and every solver made from it, before
-    # the model itself goes with the study
+    # the model itself goes with the study; `hook`, the model's allocator
+    # (if the caller gave one), is kept alive until here, since the study
+    # may be the model's last holder
     for close_view in list(view_finalizers):
         close_view()
     lib.kl_study_free(ptr)
@@ -34,9 +36,10 @@ def _ints(array):
 
 
 class Study(Handle):
-    """A kinloop design study (kl_study), immutable once read: a nominal
-    model, the dimensions that vary and how, the outputs judged and their
-    limits. Make one with Study.read_text or Study.read_file.
+    """A kinloop design study (kl_study): a nominal model, the dimensions
+    that vary and how, the outputs judged and their limits. Make one with
+    Study.read_text or Study.read_file, then prepare() it once (the nominal
+    solved) before run and summarize.
 
     ``with Study.read_file(path) as st:`` frees it (kl_study_free) on
     leaving the block; otherwise it is freed when garbage-collected, exactly
@@ -44,41 +47,42 @@ class Study(Handle):
     alive, and closing it never frees the study's model."""
 
     def __init__(self, *args, **kwargs):
-        raise TypeError("kinloop.Study: use Study.read_text(text, base_dir) or "
+        raise TypeError("kinloop.Study: use Study.read_text(text, model) or "
                         "Study.read_file(path)")
 
     @classmethod
-    def _adopting(cls, ptr):
+    def _adopting(cls, ptr, hook=None):
         study = cls.__new__(cls)
         study._ptr = ptr
         study._runs = 0  # runs under way (on other Python threads)
         study._view = None  # a weak reference to the model view handed out
         study._view_finalizers = set()
         study._finalizer = weakref.finalize(study, _free_study, ptr,
-                                            study._view_finalizers)
+                                            study._view_finalizers, hook)
         return study
 
     # ---- reading ----
 
     @classmethod
-    def read_text(cls, source, base_dir=None):
-        """A study from study-file text (str, or bytes as they are). Its
-        `model` statement is read relative to `base_dir` (None: the working
-        directory). Errors raise KinloopError with line and column where the
-        text has them; a nominal model that does not solve raises its status
-        (ENOASSEMBLY, ESINGULAR)."""
+    def read_text(cls, source, model):
+        """A study from study-file text (str, or bytes as they are), read
+        against `model`, a finalized Model whose links, joints and points it
+        names (kl_study_read). The text's `model` statement, if any, is only
+        recorded (model_path). The study holds the model: closing `model`
+        afterwards is safe. Errors raise KinloopError with line and column
+        where the text has them. Solves nothing: see prepare."""
         data = source.encode("utf-8") if isinstance(source, str) else bytes(source)
         err = raw.kl_io_error()
-        where = None if base_dir is None else os.fsencode(base_dir)
-        ptr = lib.kl_study_read(data, len(data), where, ctypes.byref(err))
+        ptr = lib.kl_study_read(data, len(data), model._handle, ctypes.byref(err))
         if not ptr:
             raise _io_error(err.status or Status.ENOMEM, err, "read_text")
-        return cls._adopting(ptr)
+        return cls._adopting(ptr, model._hook)
 
     @classmethod
     def read_file(cls, path):
-        """A study from the study file at `path`; its model path is relative
-        to the file."""
+        """A study from the study file at `path` and the model file its
+        `model` statement names, relative to the study file
+        (kl_study_read_file). Solves nothing: see prepare."""
         err = raw.kl_io_error()
         ptr = lib.kl_study_read_file(os.fsencode(path), ctypes.byref(err))
         if not ptr:
@@ -114,7 +118,33 @@ class Study(Handle):
         return "<kinloop.Study: %d samples, %d outputs, %d dimensions>" % (
             self.sample_count, len(self.outputs), len(self.dimensions))
 
+    # ---- preparing ----
+
+    @property
+    def error(self):
+        """kl_study_error: the message of the study's last failed call."""
+        return text(lib.kl_study_error(self._handle))
+
+    def prepare(self):
+        """kl_study_prepare: solves the nominal design at the start of the
+        sweep, its outputs and their first-order estimates, which run and
+        summarize need (they raise ESTAGE before). A second call does
+        nothing. A nominal that cannot be judged raises KinloopError with its
+        status (ENOASSEMBLY, ESINGULAR) and the study's message; the study
+        stays as it was. Returns the study."""
+        h = self._handle
+        status = lib.kl_study_prepare(h)
+        if status < 0:
+            raise KinloopError(status, self.error)
+        return self
+
     # ---- what the study holds ----
+
+    @property
+    def model_path(self):
+        """kl_study_model_path: the path the text's `model` statement gives,
+        as written, or None if it has none."""
+        return text(lib.kl_study_model_path(self._handle))
 
     @property
     def sample_count(self):

@@ -21,6 +21,7 @@ import numpy as np
 import pytest
 
 import kinloop as kl
+from mechanisms import CountingAllocator
 
 MODELS = os.path.normpath(os.path.join(os.path.dirname(__file__), os.pardir, os.pardir,
                                        os.pardir, "examples", "models"))
@@ -33,7 +34,11 @@ if not os.path.exists(DEMO):
 @pytest.fixture(scope="module")
 def demo():
     with kl.Study.read_file(DEMO) as st:
-        yield st
+        yield st.prepare()
+
+
+def demo_model():
+    return kl.Model.read_file(DEMO_MODEL)
 
 
 @pytest.fixture(scope="module")
@@ -249,7 +254,7 @@ def test_grid_samples_every_combination_and_matches_an_edited_model():
     # geometry chosen for this test: the demo's crank and pivot moved by up
     # to a millimetre; each grid point is checked against the model file
     # edited by hand to the same numbers and swept by a Solver
-    with kl.Study.read_text(GRID, base_dir=MODELS) as st:
+    with kl.Study.read_text(GRID, demo_model()).prepare() as st:
         assert st.sample_count == 3 * 2
         values, status, dims = st.run()
         assert (status == kl.SampleStatus.OK).all()
@@ -287,7 +292,7 @@ def test_samples_stopped_at_a_limit_are_summarized_as_the_header_says():
     # linkage no longer turns through the whole sweep. include/kinloop.h:
     # a LIMITED sample assembled, has its outputs over the reachable part
     # (NaN for an input value beyond it), and is never within limits
-    with kl.Study.read_text(LONGER_CRANKS, base_dir=MODELS) as st:
+    with kl.Study.read_text(LONGER_CRANKS, demo_model()).prepare() as st:
         values, status, _ = st.run()
         limited = status == kl.SampleStatus.LIMITED
         assert limited.any() and (status != kl.SampleStatus.NO_ASSEMBLY).all()
@@ -305,9 +310,9 @@ def test_samples_stopped_at_a_limit_are_summarized_as_the_header_says():
 
 # ---- errors in study files ----
 
-def study_error(text, base_dir=MODELS):
+def study_error(text, model=None):
     with pytest.raises(kl.KinloopError) as info:
-        kl.Study.read_text(text, base_dir=base_dir)
+        kl.Study.read_text(text, model or demo_model())
     return info.value
 
 
@@ -322,9 +327,6 @@ def test_syntax_errors_carry_line_and_column():
     assert e.status == kl.Status.ESYNTAX and e.line == 4 and "crank_pn" in e.message
     e = study_error("kinloop-model 1\n")
     assert e.status == kl.Status.ESYNTAX and (e.line, e.column) == (1, 1)
-    # statements that need the model before it is named
-    e = study_error("kinloop-study 1\nsamples 10\noutput stroke swing slide rail\n")
-    assert e.status == kl.Status.ESYNTAX and e.line == 3
 
 
 def test_whole_study_errors_have_no_line():
@@ -333,10 +335,12 @@ def test_whole_study_errors_have_no_line():
     assert e.status == kl.Status.ESYNTAX and e.line is None and "output" in e.message
 
 
-def test_model_file_errors(tmp_path, monkeypatch):
-    # without base_dir the model is looked for in the working directory
-    monkeypatch.chdir(tmp_path)
-    e = study_error("kinloop-study 1\nmodel flap-tucker.kinloop\n", base_dir=None)
+def test_model_file_errors(tmp_path):
+    # a study file's model is looked for beside it
+    (tmp_path / "lone.study").write_text("kinloop-study 1\nmodel flap-tucker.kinloop\n")
+    with pytest.raises(kl.KinloopError) as info:
+        kl.Study.read_file(tmp_path / "lone.study")
+    e = info.value
     assert e.status == kl.Status.EIO and (e.line, e.column) == (2, 7)
     assert "flap-tucker.kinloop" in e.message
     # a model with an error of its own: the study's line, the model's place
@@ -347,22 +351,58 @@ def test_model_file_errors(tmp_path, monkeypatch):
     e = info.value
     assert e.status == kl.Status.ESYNTAX and (e.line, e.column) == (2, 7)
     assert "line 3, column 1" in e.message
+    # a file's statements that need the model before it is named
+    (tmp_path / "late.study").write_text("kinloop-study 1\nsamples 10\n"
+                                         "output stroke swing slide rail\n"
+                                         "model flap-tucker.kinloop\n")
+    with pytest.raises(kl.KinloopError) as info:
+        kl.Study.read_file(tmp_path / "late.study")
+    assert info.value.status == kl.Status.ESYNTAX and info.value.line == 3
     with pytest.raises(kl.KinloopError) as info:
         kl.Study.read_file(tmp_path / "no-such.study")
     assert info.value.status == kl.Status.EIO and "no-such.study" in info.value.message
 
 
-def test_nominal_that_cannot_move_through_the_sweep(tmp_path):
+def test_nominal_that_cannot_move_through_the_sweep():
     # the demo's crank made so long (geometry chosen for this test) that
     # crank + ground exceed coupler + rocker, 140 + 220 > 200 + 150: the
-    # loop cannot close with the crank at 180 degrees, inside the sweep
+    # loop cannot close with the crank at 180 degrees, inside the sweep.
+    # Reading solves nothing; prepare says why, and run waits for it.
     with open(DEMO_MODEL, encoding="utf-8") as f:
         text = f.read().replace("crank 60 0", "crank 140 0")
-    (tmp_path / "long-crank.kinloop").write_text(text)
-    e = study_error("kinloop-study 1\nmodel long-crank.kinloop\nsamples 5\n"
-                    "output stroke swing slide rail\n", base_dir=tmp_path)
+    st = kl.Study.read_text("kinloop-study 1\nmodel long-crank.kinloop\nsamples 5\n"
+                            "output stroke swing slide rail\n", kl.Model.read_text(text))
+    assert st.model_path == "long-crank.kinloop" and st.error == ""
+    with pytest.raises(kl.KinloopError) as info:
+        st.run()
+    assert info.value.status == kl.Status.ESTAGE
+    with pytest.raises(kl.KinloopError) as info:
+        st.prepare()
+    e = info.value
     assert e.status == kl.Status.ENOASSEMBLY
-    assert e.line is None and "nominal" in e.message
+    assert e.line is None and "nominal" in e.message and e.message == st.error
+    st.close()
+
+
+def test_a_study_holds_the_model_it_is_read_against():
+    # the model, read with a counting allocator hook, closed before the
+    # study is prepared and run: the study still has it, and every block
+    # comes back only when the study goes (include/kinloop.h, kl_study_read)
+    alloc = CountingAllocator()
+    with open(DEMO_MODEL, encoding="utf-8") as f:
+        m = kl.Model.read_text(f.read(), allocator=alloc)
+    st = kl.Study.read_text(GRID, m)
+    assert st.model_path == "flap-tucker.kinloop"
+    m.close()
+    del m
+    gc.collect()
+    assert alloc.live  # the study's, and its model's
+    values, status, _ = st.prepare().run()
+    with kl.Study.read_text(GRID, demo_model()).prepare() as again:
+        assert values.tobytes() == again.run()[0].tobytes()
+    assert st.model.link_count == kl.Model.read_file(DEMO_MODEL).link_count
+    st.close()
+    assert alloc.live == {} and alloc.foreign == 0
 
 
 # ---- lifetimes: the study, and its borrowed model ----
@@ -473,7 +513,7 @@ def test_closing_the_study_closes_its_view_and_solvers(counted_frees):
 
 
 def test_a_study_cannot_be_closed_while_it_runs():
-    st = kl.Study.read_file(DEMO)
+    st = kl.Study.read_file(DEMO).prepare()
     done = []
     worker = threading.Thread(target=lambda: done.append(st.run(0, 400, threads=1)))
     worker.start()

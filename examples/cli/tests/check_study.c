@@ -135,6 +135,10 @@ static void run_study(const char *path, run *r) {
             err.message);
     exit(2);
   }
+  if (kl_study_prepare(r->st) != KL_OK) {
+    fprintf(stderr, "%s: %s\n", path, kl_study_error(r->st));
+    exit(2);
+  }
   r->n = n = kl_study_sample_count(r->st);
   r->nout = kl_study_output_count(r->st);
   r->ndim = kl_study_dimension_count(r->st);

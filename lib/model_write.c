@@ -1,0 +1,147 @@
+/*
+ * model_write.c - the model-file writer: a model as the text that the model
+ * reader reads back to the same model.
+ */
+#include <stdarg.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "tokens.h"
+
+typedef struct {
+  char *buf;
+  size_t cap, len;
+} sink;
+
+static void put(sink *o, const char *fmt, ...)
+#ifdef __GNUC__
+    __attribute__((format(printf, 2, 3)))
+#endif
+    ;
+
+static void put(sink *o, const char *fmt, ...) {
+  va_list ap;
+  int n;
+  char *at = o->len < o->cap ? o->buf + o->len : NULL;
+  size_t room = o->len < o->cap ? o->cap - o->len : 0;
+  va_start(ap, fmt);
+  n = vsnprintf(at, room, fmt, ap);
+  va_end(ap);
+  if (n > 0)
+    o->len += (size_t)n;
+}
+
+/* A name as the reader reads it back: a word, or a quoted string. */
+static void put_name(sink *o, const char *name) {
+  const char *c;
+  if (name == NULL) {
+    put(o, " -");
+    return;
+  }
+  if (kli_is_identifier(name) && strcmp(name, "ground") != 0) {
+    put(o, " %s", name);
+    return;
+  }
+  put(o, " \"");
+  for (c = name; *c != '\0'; c++)
+    put(o, "%s%c", (*c == '"' || *c == '\\') ? "\\" : "", *c);
+  put(o, "\"");
+}
+
+static void put_link_ref(sink *o, const kl_model *m, int link) {
+  if (link == KL_GROUND)
+    put(o, " ground");
+  else if (m->links[link].name != NULL)
+    put_name(o, m->links[link].name);
+  else
+    put(o, " @%d", link);
+}
+
+static void put_joint_ref(sink *o, const kl_model *m, int joint) {
+  if (m->joints[joint].name != NULL)
+    put_name(o, m->joints[joint].name);
+  else
+    put(o, " @%d", joint);
+}
+
+static double angle_out(const kl_model *m, double v) {
+  return m->angle_unit == KL_ANGLE_DEG ? v * (180.0 / KLI_PI) : v;
+}
+
+static void write_model(const kl_model *m, sink *o) {
+  int i, k;
+  put(o, "kinloop-model %d\n", KLI_FORMAT_VERSION);
+  put(o, "units length %s angle %s\n",
+      m->length_unit == KL_LENGTH_UNSTATED ? "unstated"
+                                           : kl_length_unit_str(m->length_unit),
+      kl_angle_unit_str(m->angle_unit));
+  for (i = 1; i < m->nlinks; i++) {
+    put(o, "link");
+    put_name(o, m->links[i].name);
+    put(o, "\n");
+  }
+  for (i = 0; i < m->njoints; i++) {
+    const kli_joint *j = &m->joints[i];
+    put(o, "%s", kli_kind_name(j->kind));
+    put_name(o, j->name);
+    put_link_ref(o, m, j->link[0]);
+    put(o, " %.17g %.17g", j->at[0][0], j->at[0][1]);
+    if (kli_is_sliding(j->kind))
+      put(o, " axis %.17g", angle_out(m, j->axis));
+    put_link_ref(o, m, j->link[1]);
+    put(o, " %.17g %.17g\n", j->at[1][0], j->at[1][1]);
+  }
+  for (i = 0; i < m->npoints; i++) {
+    put(o, "point");
+    put_name(o, m->points[i].name);
+    put_link_ref(o, m, m->points[i].link);
+    put(o, " %.17g %.17g\n", m->points[i].at[0], m->points[i].at[1]);
+  }
+  for (i = 0; i < m->ninputs; i++) {
+    put(o, "input");
+    put_joint_ref(o, m, m->inputs[i]);
+    put(o, "\n");
+  }
+  for (i = 0; i < m->nreg_loops; i++) {
+    put(o, "loop");
+    for (k = m->reg_start[i]; k < m->reg_start[i + 1]; k++)
+      put_joint_ref(o, m, m->reg_joints[k]);
+    put(o, "\n");
+  }
+  for (i = 1; i < m->nlinks; i++)
+    if (m->links[i].has_sketch) {
+      put(o, "sketch angle");
+      put_link_ref(o, m, i);
+      put(o, " %.17g\n", angle_out(m, m->links[i].sketch));
+    }
+  for (i = 0; i < m->njoints; i++)
+    if (m->joints[i].has_sketch) {
+      put(o, "sketch slide");
+      put_joint_ref(o, m, i);
+      put(o, " %.17g\n", m->joints[i].sketch);
+    }
+  if (m->has_sweep) {
+    int joint = m->inputs[m->sweep.input];
+    int angle = m->joints[joint].kind == KL_JOINT_REVOLUTE;
+    put(o, "sweep");
+    put_joint_ref(o, m, joint);
+    put(o, " from %.17g to %.17g steps %d\n",
+        angle ? angle_out(m, m->sweep.from) : m->sweep.from,
+        angle ? angle_out(m, m->sweep.to) : m->sweep.to, m->sweep.steps);
+  }
+}
+
+int kl_model_write(const kl_model *m, char *buf, size_t cap, size_t *needed) {
+  sink o;
+  if (m == NULL || (buf == NULL && cap > 0))
+    return KL_EINVAL;
+  o.buf = buf;
+  o.cap = cap;
+  o.len = 0;
+  write_model(m, &o);
+  if (needed != NULL)
+    *needed = o.len;
+  if (buf == NULL)
+    return KL_OK; /* the sizing call */
+  return o.len < cap ? KL_OK : KL_ETRUNCATED;
+}
