@@ -501,6 +501,11 @@ typedef struct kl_options {
   int kernel;              /**< enum kl_kernel; default KL_KERNEL_AUTO, which chooses by
                                 size and band (docs/theory.md). All give the same answers
                                 to rounding. */
+  int pass_change_points;  /**< sweeps at a change point (where two branches cross):
+                                0 stop there and report it (KL_ESINGULAR, the default);
+                                1 go on through it on the branch that continues with
+                                the same tangent, counting each passage
+                                (kl_sweep_result.passages) */
 } kl_options;
 
 /** Fills `o` with the default options (and `o->size`) as this header
@@ -770,6 +775,10 @@ typedef struct kl_sweep_result {
   double limit_input; /**< the located motion limit (status KL_LIMIT) or
                            singular position (KL_ESINGULAR); NaN otherwise */
   int substeps;       /**< continuation steps taken, sub-steps included */
+  int passages;       /**< change points passed through (option
+                           pass_change_points); 0 otherwise */
+  double passage_input; /**< where the last one was passed, located to
+                             1e-9 (rad, or length units); NaN if none */
 } kl_sweep_result;
 
 /**
@@ -787,11 +796,16 @@ typedef struct kl_sweep_result {
  *               input): the steps before it are delivered, and the limit is
  *               located to 1e-10 (rad, or length units for a slide input)
  *  KL_STOPPED   the callback returned non-zero
- *  KL_ESINGULAR the motion reaches a singular position it could pass only
- *               on a branch chosen at random (a change point): reported with
- *               its location (to 1e-9: closer to a branch crossing the sign
- *               of the determinant that finds it is lost in rounding), not
- *               passed through
+ *  KL_ESINGULAR the motion reaches a change point, where two branches
+ *               cross, and the option pass_change_points is 0: reported
+ *               with its location (to 1e-9), not passed through; or a
+ *               singular position where no branch goes on with the same
+ *               tangent (located only to the sub-step that stopped there).
+ *               With pass_change_points 1 a change point is passed on the
+ *               branch that continues with the same tangent (docs/figures.md
+ *               section 1), counted in `result` and by kl_solver_passages;
+ *               a step that falls within a sample's span of the point is
+ *               delivered from the branch's samples on both sides.
  *  KL_EMAXITER  a step needs more than 10000 sub-steps (a range of a great
  *               many turns in one step): the steps before it are delivered
  *  and the errors of kl_solve_position for the first step, KL_EID for an
@@ -802,6 +816,15 @@ typedef struct kl_sweep_result {
 KL_API int kl_solver_sweep(kl_solver *s, int input, double from, double to,
                     int steps, kl_sweep_fn fn, void *user,
                     kl_sweep_result *result);
+
+/**
+ * The change points the sweep under way (or the last one) has passed with
+ * the option pass_change_points, and where it passed the last one into
+ * `last_input` (may be NULL; NaN if none). Readable inside the sweep's
+ * callback, so that each passage can be reported as it happens. Returns the
+ * count, or KL_EINVAL for NULL. Never allocates.
+ */
+KL_API int kl_solver_passages(const kl_solver *s, double *last_input);
 
 /* ------------------------------------------------------------------------
  * Design figures

@@ -37,6 +37,12 @@ struct kl_solver {
   kli_state delivered;    /* the sweep's last delivered step */
   kli_state extreme[2];   /* states at the brackets of a range's extremes */
   kli_state previous;     /* the range search's step before the last */
+  kli_state crossing[4];  /* samples around a change point: two on the
+                             approach, two beyond it, on one branch */
+  double singular_rcond;  /* the singular test in effect: the option's, or
+                             the sweep's lower one while it runs */
+  int passages;           /* change points the sweep under way has passed */
+  double last_passage;    /* where it passed the last one (NaN: none) */
   int coefficients_solved;
   int factors_current;    /* dense holds the factors at pose */
   int factors_near;       /* ... or at most one converging step from it */
