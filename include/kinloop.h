@@ -837,14 +837,18 @@ enum kl_grashof_class {
   KL_GRASHOF_DOUBLE_CRANK = 3,  /**< Grashof, ground shortest (drag link) */
   KL_GRASHOF_DOUBLE_ROCKER = 4, /**< Grashof, coupler shortest */
   KL_GRASHOF_CHANGE_POINT = 5,  /**< s + l = p + q (within 1e-12 l): can fold into a line */
-  KL_GRASHOF_TRIPLE_ROCKER = 6  /**< non-Grashof, s + l > p + q: no link turns fully */
+  KL_GRASHOF_TRIPLE_ROCKER = 6, /**< non-Grashof, s + l > p + q: no link turns fully */
+  KL_GRASHOF_NO_ASSEMBLY = 7    /**< l >= s + p + q (within 1e-12 l): the loop
+                                     cannot close, or closes only stretched in
+                                     one line and cannot move */
 };
 
 /**
  * The Grashof class of a four-bar from its link lengths: ground (between
  * the two ground pivots), input (the driven link at one ground pivot),
  * coupler, output (at the other ground pivot). With s the shortest, l the
- * longest and p, q the others: Grashof when s + l < p + q.
+ * longest and p, q the others: Grashof when s + l < p + q; no assembly at
+ * all when l >= s + p + q.
  * Returns a kl_grashof_class, KL_ENONFINITE, or KL_EINVAL (a length <= 0).
  */
 KL_API int kl_grashof(double ground, double input, double coupler,

@@ -44,6 +44,10 @@ int kl_grashof(double ground, double input, double coupler, double output) {
     if (len[i] > l)
       l = len[i];
   }
+  /* a loop closes only if its longest side is shorter than the other
+   * three together (stretched in line, it closes but cannot move) */
+  if (l >= (sum - l) - 1e-12 * l)
+    return KL_GRASHOF_NO_ASSEMBLY;
   /* s + l against p + q = sum - s - l, equality within rounding of l */
   if (fabs((s + l) - (sum - s - l)) <= 1e-12 * l)
     return KL_GRASHOF_CHANGE_POINT;
@@ -65,6 +69,7 @@ const char *kl_grashof_str(int cls) {
   case KL_GRASHOF_DOUBLE_ROCKER: return "double-rocker";
   case KL_GRASHOF_CHANGE_POINT: return "change point";
   case KL_GRASHOF_TRIPLE_ROCKER: return "triple-rocker";
+  case KL_GRASHOF_NO_ASSEMBLY: return "no assembly";
   default: return "not a class";
   }
 }

@@ -569,6 +569,35 @@ static int is_zero_length(const kl_model *m, const work *w, int link) {
   return 1;
 }
 
+/* A moving link joined only by revolute joints that all stand at one point
+ * of it carries nothing from one joint to the next: a crank whose pins
+ * coincide drives nothing, whatever its input does. (A slider block's pin
+ * on its slide point is no such link: its prismatic or slot joint carries
+ * the motion.) */
+static int pinned_at_one_point(kl_model *m, const work *w) {
+  int l, k;
+  char la[64];
+  for (l = 1; l < m->nlinks; l++) {
+    const double *at;
+    if (!is_zero_length(m, w, l))
+      continue;
+    for (k = w->adj_start[l]; k < w->adj_start[l + 1]; k++)
+      if (m->joints[w->adj_joint[k]].kind != KL_JOINT_REVOLUTE)
+        break;
+    if (k < w->adj_start[l + 1])
+      continue;
+    at = kli_joint_point_on(m, w->adj_joint[w->adj_start[l]], l);
+    return kli_fail(m->error, KL_EZEROLENGTH,
+                    "finalize: %s has zero length: its %d revolute joints "
+                    "all stand at (%g, %g) of it, so it carries no motion "
+                    "from one to the next; give the joints their distinct "
+                    "attachment points",
+                    kli_link_label(m, l, la, sizeof la),
+                    w->adj_start[l + 1] - w->adj_start[l], at[0], at[1]);
+  }
+  return KL_OK;
+}
+
 /* Every unknown must be matched to its own equation row, or the Jacobian is
  * singular whatever the geometry. */
 static int structural_check(kl_model *m, work *w, const kli_topology *t) {
@@ -750,7 +779,8 @@ int kl_model_finalize(kl_model *m) {
     static const double origin[2] = {0.0, 0.0};
     build_path_chain(m, &w, &t, l, origin, &t.origins[l]);
   }
-  if ((st = structural_check(m, &w, &t)) != KL_OK)
+  if ((st = pinned_at_one_point(m, &w)) != KL_OK ||
+      (st = structural_check(m, &w, &t)) != KL_OK)
     goto done;
   if (band_ordering(m, &t) != KL_OK) {
     st = kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");

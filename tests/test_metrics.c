@@ -110,7 +110,9 @@ static kl_model *build_sixbar_with_point(const pin_linkage *p) {
  * link turn fully against all others; then the shortest link's place names
  * the class (input: crank-rocker, output: rocker-crank, ground: double-crank,
  * coupler: double-rocker). s + l = p + q is the change point case, s + l >
- * p + q non-Grashof (triple-rocker). Lengths chosen for this test; the
+ * p + q non-Grashof (triple-rocker). A longest link at least as long as the
+ * other three together cannot close the loop at all (the polygon
+ * inequality: elementary geometry). Lengths chosen for this test; the
  * arguments are (ground, input, coupler, output).
  */
 START_TEST(grashof_classes_from_lengths) {
@@ -127,6 +129,10 @@ START_TEST(grashof_classes_from_lengths) {
       {80, 50, 70, 100, KL_GRASHOF_CHANGE_POINT, "change point"},    /* 150 = 150 */
       {100, 70, 50, 60, KL_GRASHOF_TRIPLE_ROCKER, "triple-rocker"},  /* 150 > 130 */
       {100, 100, 100, 100, KL_GRASHOF_CHANGE_POINT, "change point"}, /* all equal */
+      {300, 40, 120, 80, KL_GRASHOF_NO_ASSEMBLY, "no assembly"},     /* 300 > 240 */
+      {100, 250, 40, 60, KL_GRASHOF_NO_ASSEMBLY, "no assembly"},     /* 250 > 200 */
+      {240, 40, 120, 80, KL_GRASHOF_NO_ASSEMBLY, "no assembly"},     /* 240 = 240: in line */
+      {239, 40, 120, 80, KL_GRASHOF_TRIPLE_ROCKER, "triple-rocker"}, /* 279 > 160 */
   };
   unsigned k;
   for (k = 0; k < sizeof cases / sizeof cases[0]; k++) {
@@ -140,7 +146,7 @@ START_TEST(grashof_classes_from_lengths) {
   ck_assert_int_eq(kl_grashof(100 * (1 + 1e-9), 40, 100, 40), KL_GRASHOF_TRIPLE_ROCKER);
   ck_assert_int_eq(kl_grashof(100, 40 * (1 + 1e-9), 100, 40), KL_GRASHOF_ROCKER_CRANK);
   ck_assert_str_eq(kl_grashof_str(0), "not a class");
-  ck_assert_str_eq(kl_grashof_str(7), "not a class");
+  ck_assert_str_eq(kl_grashof_str(8), "not a class");
 }
 END_TEST
 

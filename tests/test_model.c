@@ -356,6 +356,34 @@ START_TEST(zero_length_links) {
   ck_assert_int_eq(kl_model_finalize(m), KL_EZEROLENGTH);
   assert_message_has(m, "link 2 'stub' has zero length");
   kl_model_free(m);
+
+  /* a driven crank whose two pins coincide: its angle is known (the
+   * input), but it carries no motion; refused rather than a "stroke 0" */
+  m = kl_model_new();
+  a = kl_add_link(m, "crank");
+  b = kl_add_link(m, "rod");
+  c = kl_add_link(m, "block");
+  j0 = kl_add_revolute(m, 0, 0, 0, a, 0, 0);
+  kl_add_revolute(m, a, 0, 0, b, 0, 0); /* the crank pin on the pivot */
+  kl_add_revolute(m, b, 120, 0, c, 0, 0);
+  kl_add_prismatic(m, 0, 0, 0, 0.0, c, 0, 0);
+  kl_add_input(m, j0);
+  ck_assert_int_eq(kl_model_finalize(m), KL_EZEROLENGTH);
+  assert_message_has(m, "link 1 'crank' has zero length");
+  kl_model_free(m);
+
+  /* a slider block pinned on its slide point is a whole link */
+  m = kl_model_new();
+  a = kl_add_link(m, "crank");
+  b = kl_add_link(m, "rod");
+  c = kl_add_link(m, "block");
+  j0 = kl_add_revolute(m, 0, 0, 0, a, 0, 0);
+  kl_add_revolute(m, a, 40, 0, b, 0, 0);
+  kl_add_revolute(m, b, 120, 0, c, 0, 0);
+  kl_add_prismatic(m, 0, 0, 0, 0.0, c, 0, 0);
+  kl_add_input(m, j0);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  kl_model_free(m);
 }
 END_TEST
 
