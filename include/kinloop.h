@@ -271,8 +271,11 @@ KL_API int kl_add_input(kl_model *m, int joint);
  * must share a link, and no link may be visited twice. If any loop is
  * registered, the registered loops must form a full independent set
  * (checked by kl_model_finalize); if none is, kinloop finds them itself.
+ * A model registers at most 1024 loops (their independence check grows with
+ * the square of their number); kinloop finds any number itself.
  * Returns the loop's index, or KL_EINVAL (NULL or njoints < 2), KL_EID,
- * KL_ELOOP (not a simple cycle), KL_ESTATE, KL_ENOMEM.
+ * KL_ELOOP (not a simple cycle), KL_ETOOLARGE (a 1025th loop), KL_ESTATE,
+ * KL_ENOMEM. Takes time linear in njoints and the model's size.
  */
 KL_API int kl_add_loop(kl_model *m, int njoints, const int *joints);
 
@@ -288,6 +291,10 @@ KL_API int kl_add_loop(kl_model *m, int njoints, const int *joints);
  *  KL_EZEROLENGTH    a link whose joints all stand at one point, so that its
  *                    angle is undetermined
  *  KL_EUNDETERMINED  an angle or slide that no loop equation can determine
+ *  KL_ETOOLARGE      the loops and the paths from ground to every link and
+ *                    point would need more than 64 terms per item of the
+ *                    model plus 2^22 (a model thousands of links deep):
+ *                    refused rather than given memory quadratic in its size
  *  KL_ENOMEM
  * On failure the model stays unfinalized and may be changed and finalized
  * again. Calling it on a finalized model returns KL_OK and does nothing.
