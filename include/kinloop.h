@@ -818,7 +818,9 @@ typedef struct kl_sweep_result {
  *  and the errors of kl_solve_position for the first step, KL_EID for an
  *  unknown input, KL_ENONFINITE, KL_EINVAL.
  * Afterwards the solver holds the last delivered step (or, if none was, its
- * state from before). Never allocates.
+ * state from before): a sweep that fails part-way is the one call that
+ * leaves the solver changed, at the last good step it delivered, so that
+ * the motion can go on from there (docs/guarantees.md). Never allocates.
  */
 KL_API int kl_solver_sweep(kl_solver *s, int input, double from, double to,
                     int steps, kl_sweep_fn fn, void *user,
@@ -932,7 +934,8 @@ typedef struct kl_range {
  * slope finds the turning point to 1e-13 in the input, so an extreme
  * between samples is found too (docs/figures.md section 5). The samples,
  * the ends of the range and the motion limit count as candidates as well.
- * The solver is left at the end of the sweep. Returns KL_OK or KL_LIMIT (the
+ * On success the solver is left at the end of the sweep; a failure leaves it
+ * exactly as it was (coefficients included). Returns KL_OK or KL_LIMIT (the
  * range is what was reachable), or the statuses of kl_solver_sweep and
  * kl_output_value. Never allocates.
  */

@@ -311,9 +311,12 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
   r.o = o;
   r.direction = to >= from ? 1.0 : -1.0;
   sw.size = sizeof sw;
+  kli_keep_entry(s);
   st = kl_solver_sweep(s, input, from, to, steps, track_extremes, &r, &sw);
-  if (st != KL_OK && st != KL_LIMIT)
+  if (st != KL_OK && st != KL_LIMIT) {
+    kli_back_to_entry(s);
     return st;
+  }
   memset(&out, 0, sizeof out);
   out.sweep_status = st;
   out.limit_input = sw.limit_input;

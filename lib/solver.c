@@ -67,6 +67,7 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   carve_state(&t->extreme[0], c, nc, nl, ni);
   carve_state(&t->extreme[1], c, nc, nl, ni);
   carve_state(&t->previous, c, nc, nl, ni);
+  carve_state(&t->entry, c, nc, nl, ni);
   for (i = 0; i < 4; i++)
     carve_state(&t->crossing[i], c, nc, nl, ni);
   t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
@@ -311,6 +312,18 @@ void kli_state_restore(kl_solver *s, const kli_state *from) {
   kli_state_copy(s, &s->st, from);
   s->factors_current = s->factors_near = 0;
   s->coefficients_solved = 0;
+}
+
+void kli_keep_entry(kl_solver *s) {
+  kli_state_copy(s, &s->entry, &s->st);
+  s->entry_coefficients = s->coefficients_solved;
+}
+
+void kli_back_to_entry(kl_solver *s) {
+  /* the coefficients live apart from the states, and nothing that sweeps
+   * writes them: only their flag goes with the state */
+  kli_state_restore(s, &s->entry);
+  s->coefficients_solved = s->entry_coefficients;
 }
 
 void kli_state_changed(kl_solver *s) {

@@ -434,6 +434,37 @@ END_TEST
  * the textbook T = F r sin(t + psi) / cos psi. A force across the slide
  * does no virtual work: the guide takes it.
  */
+/* A range that fails inside (here at a parallelogram's change point, a
+ * four-bar chosen for this test) leaves the solver exactly as it was: its
+ * position, the rates solved at rate 7, and the coefficients. */
+START_TEST(failed_range_changes_nothing) {
+  fourbar f = build_fourbar(40, 100, 40, 100);
+  kl_solver *s = kl_solver_new(f.m);
+  kl_output o;
+  kl_range r;
+  snapshot before, after;
+  double u = 0.5, w = 7.0, a = 0.0;
+  memset(&o, 0, sizeof o);
+  o.kind = KL_OUTPUT_LINK_ANGLE;
+  o.id = f.rocker;
+  r.size = sizeof r;
+  kl_set_link_angle(s, f.coupler, 0.02);
+  kl_set_link_angle(s, f.rocker, 0.48);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
+  ck_assert_int_eq(kl_solve_acceleration(s, &a), KL_OK);
+  ck_assert_int_eq(kl_solve_coefficients(s), KL_OK);
+  before = snap(s);
+  ck_assert_int_eq(kl_output_range(s, 0, 0.3, -0.3, 6, &o, &r),
+                   KL_ESINGULAR);
+  after = snap(s);
+  assert_same_state(&before, &after, "kl_output_range at a change point");
+  ck_assert_double_eq(kl_link_rate(s, f.crank), 7.0);
+  kl_solver_free(s);
+  kl_model_free(f.m);
+}
+END_TEST
+
 START_TEST(slider_crank_torque_matches_statics) {
   slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = kl_solver_new(sc.m);
@@ -1119,6 +1150,7 @@ int main(void) {
   tcase_add_test(tc, transmission_angle_extremes_match_the_law_of_cosines);
   tcase_add_test(tc, stroke_and_time_ratio_match_the_dead_centres);
   tcase_add_test(tc, range_up_to_a_motion_limit);
+  tcase_add_test(tc, failed_range_changes_nothing);
   tcase_add_test(tc, slider_crank_torque_matches_statics);
   tcase_add_loop_test(tc, sixbar_effort_matches_the_energy_balance, 0, 2);
   tcase_add_test(tc, mechanical_advantage_is_the_inverse_velocity_ratio);
