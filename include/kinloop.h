@@ -277,8 +277,11 @@ KL_API int kl_add_input(kl_model *m, int joint);
  * must share a link, and no link may be visited twice. If any loop is
  * registered, the registered loops must form a full independent set
  * (checked by kl_model_finalize); if none is, kinloop finds them itself.
+ * A model registers at most 1024 loops (their independence check grows with
+ * the square of their number); kinloop finds any number itself.
  * Returns the loop's index, or KL_EINVAL (NULL or njoints < 2), KL_EID,
- * KL_ELOOP (not a simple cycle), KL_ESTATE, KL_ENOMEM.
+ * KL_ELOOP (not a simple cycle), KL_ETOOLARGE (a 1025th loop), KL_ESTATE,
+ * KL_ENOMEM. Takes time linear in njoints and the model's size.
  */
 KL_API int kl_add_loop(kl_model *m, int njoints, const int *joints);
 
@@ -294,6 +297,10 @@ KL_API int kl_add_loop(kl_model *m, int njoints, const int *joints);
  *  KL_EZEROLENGTH    a link whose joints all stand at one point, so that its
  *                    angle is undetermined
  *  KL_EUNDETERMINED  an angle or slide that no loop equation can determine
+ *  KL_ETOOLARGE      the loops and the paths from ground to every link and
+ *                    point would need more than 64 terms per item of the
+ *                    model plus 2^22 (a model thousands of links deep):
+ *                    refused rather than given memory quadratic in its size
  *  KL_ENOMEM
  * On failure the model stays unfinalized and may be changed and finalized
  * again. Calling it on a finalized model returns KL_OK and does nothing.
@@ -507,6 +514,11 @@ typedef struct kl_options {
   int kernel;              /**< enum kl_kernel; default KL_KERNEL_AUTO, which chooses by
                                 size and band (docs/theory.md). All give the same answers
                                 to rounding. */
+  int pass_change_points;  /**< sweeps at a change point (where two branches cross):
+                                0 stop there and report it (KL_ESINGULAR, the default);
+                                1 go on through it on the branch that continues with
+                                the same tangent, counting each passage
+                                (kl_sweep_result.passages) */
 } kl_options;
 
 /** Fills `o` with the default options (and `o->size`) as this header
@@ -779,6 +791,10 @@ typedef struct kl_sweep_result {
   double limit_input; /**< the located motion limit (status KL_LIMIT) or
                            singular position (KL_ESINGULAR); NaN otherwise */
   int substeps;       /**< continuation steps taken, sub-steps included */
+  int passages;       /**< change points passed through (option
+                           pass_change_points); 0 otherwise */
+  double passage_input; /**< where the last one was passed, located to
+                             1e-9 (rad, or length units); NaN if none */
 } kl_sweep_result;
 
 /**
@@ -796,21 +812,37 @@ typedef struct kl_sweep_result {
  *               input): the steps before it are delivered, and the limit is
  *               located to 1e-10 (rad, or length units for a slide input)
  *  KL_STOPPED   the callback returned non-zero
- *  KL_ESINGULAR the motion reaches a singular position it could pass only
- *               on a branch chosen at random (a change point): reported with
- *               its location (to 1e-9: closer to a branch crossing the sign
- *               of the determinant that finds it is lost in rounding), not
- *               passed through
+ *  KL_ESINGULAR the motion reaches a change point, where two branches
+ *               cross, and the option pass_change_points is 0: reported
+ *               with its location (to 1e-9), not passed through; or a
+ *               singular position where no branch goes on with the same
+ *               tangent (located only to the sub-step that stopped there).
+ *               With pass_change_points 1 a change point is passed on the
+ *               branch that continues with the same tangent (docs/figures.md
+ *               section 1), counted in `result` and by kl_solver_passages;
+ *               a step that falls within a sample's span of the point is
+ *               delivered from the branch's samples on both sides.
  *  KL_EMAXITER  a step needs more than 10000 sub-steps (a range of a great
  *               many turns in one step): the steps before it are delivered
  *  and the errors of kl_solve_position for the first step, KL_EID for an
  *  unknown input, KL_ENONFINITE, KL_EINVAL.
  * Afterwards the solver holds the last delivered step (or, if none was, its
- * state from before). Never allocates.
+ * state from before): a sweep that fails part-way is the one call that
+ * leaves the solver changed, at the last good step it delivered, so that
+ * the motion can go on from there (docs/guarantees.md). Never allocates.
  */
 KL_API int kl_solver_sweep(kl_solver *s, int input, double from, double to,
                     int steps, kl_sweep_fn fn, void *user,
                     kl_sweep_result *result);
+
+/**
+ * The change points the sweep under way (or the last one) has passed with
+ * the option pass_change_points, and where it passed the last one into
+ * `last_input` (may be NULL; NaN if none). Readable inside the sweep's
+ * callback, so that each passage can be reported as it happens. Returns the
+ * count, or KL_EINVAL for NULL. Never allocates.
+ */
+KL_API int kl_solver_passages(const kl_solver *s, double *last_input);
 
 /* ------------------------------------------------------------------------
  * Design figures
@@ -823,14 +855,18 @@ enum kl_grashof_class {
   KL_GRASHOF_DOUBLE_CRANK = 3,  /**< Grashof, ground shortest (drag link) */
   KL_GRASHOF_DOUBLE_ROCKER = 4, /**< Grashof, coupler shortest */
   KL_GRASHOF_CHANGE_POINT = 5,  /**< s + l = p + q (within 1e-12 l): can fold into a line */
-  KL_GRASHOF_TRIPLE_ROCKER = 6  /**< non-Grashof, s + l > p + q: no link turns fully */
+  KL_GRASHOF_TRIPLE_ROCKER = 6, /**< non-Grashof, s + l > p + q: no link turns fully */
+  KL_GRASHOF_NO_ASSEMBLY = 7    /**< l >= s + p + q (within 1e-12 l): the loop
+                                     cannot close, or closes only stretched in
+                                     one line and cannot move */
 };
 
 /**
  * The Grashof class of a four-bar from its link lengths: ground (between
  * the two ground pivots), input (the driven link at one ground pivot),
  * coupler, output (at the other ground pivot). With s the shortest, l the
- * longest and p, q the others: Grashof when s + l < p + q.
+ * longest and p, q the others: Grashof when s + l < p + q; no assembly at
+ * all when l >= s + p + q.
  * Returns a kl_grashof_class, KL_ENONFINITE, or KL_EINVAL (a length <= 0).
  */
 KL_API int kl_grashof(double ground, double input, double coupler,
@@ -907,7 +943,8 @@ typedef struct kl_range {
  * slope finds the turning point to 1e-13 in the input, so an extreme
  * between samples is found too (docs/figures.md section 5). The samples,
  * the ends of the range and the motion limit count as candidates as well.
- * The solver is left at the end of the sweep. Returns KL_OK or KL_LIMIT (the
+ * On success the solver is left at the end of the sweep; a failure leaves it
+ * exactly as it was (coefficients included). Returns KL_OK or KL_LIMIT (the
  * range is what was reachable), or the statuses of kl_solver_sweep and
  * kl_output_value. Never allocates.
  */

@@ -240,25 +240,47 @@ double kli_dense_rcond(kli_dense *d) {
   return info == 0 ? rcond : 0.0;
 }
 
-int kli_dense_det_sign(const kli_dense *d) {
+/* The i-th pivot of the factors, whichever kernel made them. */
+static double pivot_at(const kli_dense *d, int i) {
+  return d->kernel == KL_KERNEL_BANDED
+             ? d->ab[(size_t)(d->p.band_lower + d->p.band_upper) +
+                     (size_t)i * (size_t)d->ldab]
+             : d->lu[(size_t)i * (size_t)d->p.n + (size_t)i];
+}
+
+/* The determinant's sign, and its log |det| when `log_abs` is not NULL
+ * (the sweep asks for the sign at every step: no logarithms there). */
+static int determinant(const kli_dense *d, double *log_abs) {
   int i, sign = 1, n = d->p.n;
-  if (d->singular)
+  if (d->singular) {
+    if (log_abs != NULL)
+      *log_abs = -HUGE_VAL;
     return 0;
+  }
+  if (log_abs != NULL)
+    *log_abs = 0.0;
   for (i = 0; i < n; i++) {
-    double pivot = d->kernel == KL_KERNEL_BANDED
-                       ? d->ab[(size_t)(d->p.band_lower + d->p.band_upper) +
-                               (size_t)i * (size_t)d->ldab]
-                       : d->lu[(size_t)i * (size_t)n + (size_t)i];
+    double pivot = pivot_at(d, i);
     if (pivot < 0.0)
       sign = -sign;
     if (d->ipiv[i] != i + 1) /* a row interchange */
       sign = -sign;
+    if (log_abs != NULL)
+      *log_abs += log(fabs(pivot));
   }
-  /* with the banded kernel this is the sign of the ordered matrix, which
-   * differs from A's by the fixed sign of the ordering: comparisons within
-   * one kernel, as the sweep makes them, are unaffected */
+  /* with the banded kernel this is the determinant of the ordered matrix,
+   * which differs from A's by the fixed sign of the ordering: comparisons
+   * within one kernel, as the sweep makes them, are unaffected */
   return sign;
 }
+
+double kli_dense_log_det(const kli_dense *d, int *sign) {
+  double log_abs;
+  *sign = determinant(d, &log_abs);
+  return log_abs;
+}
+
+int kli_dense_det_sign(const kli_dense *d) { return determinant(d, NULL); }
 
 void kli_dense_solve(const kli_dense *d, double *b) {
   int i, n = d->p.n;

@@ -60,6 +60,10 @@ double kli_dense_rcond(kli_dense *d);
 /* Sign of the determinant of the factored matrix (+1 or -1; 0 when
  * singular); the column scales are positive and do not change it. */
 int kli_dense_det_sign(const kli_dense *d);
+/* log |det| of the factored (scaled) matrix and its sign into *sign (0 and
+ * -HUGE_VAL when singular): a smooth function of the position, whose
+ * zeros along a branch are its singular positions. */
+double kli_dense_log_det(const kli_dense *d, int *sign);
 /* Solves A x = b in place with the factors (of A D: x = D (A D)^-1 b). */
 void kli_dense_solve(const kli_dense *d, double *b);
 /*

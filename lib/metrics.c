@@ -44,6 +44,10 @@ int kl_grashof(double ground, double input, double coupler, double output) {
     if (len[i] > l)
       l = len[i];
   }
+  /* a loop closes only if its longest side is shorter than the other
+   * three together (stretched in line, it closes but cannot move) */
+  if (l >= (sum - l) - 1e-12 * l)
+    return KL_GRASHOF_NO_ASSEMBLY;
   /* s + l against p + q = sum - s - l, equality within rounding of l */
   if (fabs((s + l) - (sum - s - l)) <= 1e-12 * l)
     return KL_GRASHOF_CHANGE_POINT;
@@ -65,6 +69,7 @@ const char *kl_grashof_str(int cls) {
   case KL_GRASHOF_DOUBLE_ROCKER: return "double-rocker";
   case KL_GRASHOF_CHANGE_POINT: return "change point";
   case KL_GRASHOF_TRIPLE_ROCKER: return "triple-rocker";
+  case KL_GRASHOF_NO_ASSEMBLY: return "no assembly";
   default: return "not a class";
   }
 }
@@ -306,9 +311,12 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
   r.o = o;
   r.direction = to >= from ? 1.0 : -1.0;
   sw.size = sizeof sw;
+  kli_keep_entry(s);
   st = kl_solver_sweep(s, input, from, to, steps, track_extremes, &r, &sw);
-  if (st != KL_OK && st != KL_LIMIT)
+  if (st != KL_OK && st != KL_LIMIT) {
+    kli_back_to_entry(s);
     return st;
+  }
   memset(&out, 0, sizeof out);
   out.sweep_status = st;
   out.limit_input = sw.limit_input;

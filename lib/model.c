@@ -2,6 +2,7 @@
  * model.c - building a model: links, joints, points, inputs and registered
  * loops, each checked as it is added; and reading the record back.
  */
+#include <limits.h>
 #include <math.h>
 #include <stdio.h>
 #include <string.h>
@@ -32,6 +33,11 @@ kl_model *kl_model_new_with_alloc(kl_alloc_fn fn, void *user) {
   }
   memset(&m->links[0], 0, sizeof m->links[0]); /* ground: name implied */
   m->nlinks = 1;
+  if (kli_lookup_grow(&a, &m->link_names) != KL_OK) {
+    kl_model_free(m);
+    return NULL;
+  }
+  kli_lookup_add(&m->link_names, kli_hash_text("ground"), KL_GROUND);
   return m;
 }
 
@@ -62,6 +68,10 @@ static void destroy(kl_model *m) {
   kli_free(&a, m->inputs, (size_t)m->cap_inputs * sizeof *m->inputs);
   kli_free(&a, m->reg_joints, (size_t)m->cap_reg_joints * sizeof(int));
   kli_free(&a, m->reg_start, (size_t)m->cap_reg_start * sizeof(int));
+  kli_lookup_free(&a, &m->link_names);
+  kli_lookup_free(&a, &m->joint_names);
+  kli_lookup_free(&a, &m->point_names);
+  kli_lookup_free(&a, &m->joint_pairs);
   kli_free(&a, m, sizeof *m);
 }
 
@@ -159,11 +169,33 @@ static int check_link(kl_model *m, int link, const char *what) {
   return KL_OK;
 }
 
-/* Checks a name against the rules and against `count` names already taken,
- * read through `name_at`. */
+/* A kind of named item: its table and how to read an id's name. */
+typedef struct {
+  const kl_model *m;
+  const char *(*name_at)(const kl_model *, int);
+} name_kind;
+
+static int same_name(const void *owner, int id, const void *key) {
+  const name_kind *k = owner;
+  const char *name = k->name_at(k->m, id);
+  return name != NULL && strcmp(name, key) == 0;
+}
+
+/* The id of the item of this kind named `name`, or -1. */
+static int find_name(const kl_model *m, const kli_lookup *table,
+                     const char *(*name_at)(const kl_model *, int),
+                     const char *name) {
+  name_kind k;
+  k.m = m;
+  k.name_at = name_at;
+  return kli_lookup_find(table, kli_hash_text(name), same_name, &k, name);
+}
+
+/* Checks a name against the rules and against the names already taken in
+ * `table` (read through `name_at`), and makes room to add it there. */
 static int check_name(kl_model *m, const char *name, const char *what,
-                      const char *(*name_at)(const kl_model *, int),
-                      int count) {
+                      kli_lookup *table,
+                      const char *(*name_at)(const kl_model *, int)) {
   size_t len, i;
   int other;
   if (name == NULL)
@@ -179,14 +211,19 @@ static int check_name(kl_model *m, const char *name, const char *what,
                       "%s: the name '%.40s' holds a control character at "
                       "byte %lu",
                       what, name, (unsigned long)i);
-  for (other = 0; other < count; other++) {
-    const char *taken = name_at(m, other);
-    if (taken != NULL && strcmp(taken, name) == 0)
-      return kli_fail(m->error, KL_EDUPLICATE,
-                      "%s: the name '%.40s' is already used by id %d", what,
-                      name, other);
-  }
+  if ((other = find_name(m, table, name_at, name)) >= 0)
+    return kli_fail(m->error, KL_EDUPLICATE,
+                    "%s: the name '%.40s' is already used by id %d", what,
+                    name, other);
+  if (kli_lookup_grow(&m->alloc, table) != KL_OK)
+    return kli_fail(m->error, KL_ENOMEM, "%s: out of memory", what);
   return KL_OK;
+}
+
+/* Records a new item's name (room made by check_name). */
+static void index_name(kli_lookup *table, const char *name, int id) {
+  if (name != NULL)
+    kli_lookup_add(table, kli_hash_text(name), id);
 }
 
 static int copy_name(kl_model *m, const char *name, char **out,
@@ -209,7 +246,8 @@ int kl_add_link(kl_model *m, const char *name) {
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "add link")) != KL_OK ||
-      (st = check_name(m, name, "add link", kl_model_link_name, m->nlinks)) != KL_OK)
+      (st = check_name(m, name, "add link", &m->link_names,
+                       kl_model_link_name)) != KL_OK)
     return st;
   if (kli_reserve(&m->alloc, (void **)&m->links, &m->cap_links, m->nlinks + 1,
                   sizeof *m->links) != KL_OK)
@@ -218,13 +256,24 @@ int kl_add_link(kl_model *m, const char *name) {
     return st;
   memset(&m->links[m->nlinks], 0, sizeof m->links[m->nlinks]);
   m->links[m->nlinks].name = copy;
+  index_name(&m->link_names, copy, m->nlinks);
   return m->nlinks++;
+}
+
+/* Whether joint id joins the pair (kind, lower link, higher link). */
+static int same_pair(const void *owner, int id, const void *key) {
+  const kli_joint *j = &((const kl_model *)owner)->joints[id];
+  const int *pair = key;
+  int lo = j->link[0] < j->link[1] ? j->link[0] : j->link[1];
+  int hi = j->link[0] < j->link[1] ? j->link[1] : j->link[0];
+  return j->kind == pair[0] && lo == pair[1] && hi == pair[2];
 }
 
 static int add_joint(kl_model *m, int kind, int a, double ax, double ay,
                      double axis, int b, double bx, double by) {
   char what[32], la[64], lb[64];
-  int st, j;
+  int st, j, pair[3];
+  unsigned pair_hash;
   kli_joint *nj;
   if (m == NULL)
     return KL_EINVAL;
@@ -242,17 +291,19 @@ static int add_joint(kl_model *m, int kind, int a, double ax, double ay,
                     "NaN or infinite",
                     what, kli_link_label(m, a, la, sizeof la),
                     kli_link_label(m, b, lb, sizeof lb));
-  for (j = 0; j < m->njoints; j++) {
-    const kli_joint *o = &m->joints[j];
-    if (o->kind == kind && ((o->link[0] == a && o->link[1] == b) ||
-                            (o->link[0] == b && o->link[1] == a)))
-      return kli_fail(m->error, KL_EDUPLICATE,
-                      "%s: joint %d is already a %s joint between %s and %s",
-                      what, j, kli_kind_name(kind),
-                      kli_link_label(m, a, la, sizeof la),
-                      kli_link_label(m, b, lb, sizeof lb));
-  }
-  if (kli_reserve(&m->alloc, (void **)&m->joints, &m->cap_joints,
+  pair[0] = kind;
+  pair[1] = a < b ? a : b;
+  pair[2] = a < b ? b : a;
+  pair_hash = kli_hash_ints(pair[0], pair[1], pair[2]);
+  if ((j = kli_lookup_find(&m->joint_pairs, pair_hash, same_pair, m, pair)) >=
+      0)
+    return kli_fail(m->error, KL_EDUPLICATE,
+                    "%s: joint %d is already a %s joint between %s and %s",
+                    what, j, kli_kind_name(kind),
+                    kli_link_label(m, a, la, sizeof la),
+                    kli_link_label(m, b, lb, sizeof lb));
+  if (kli_lookup_grow(&m->alloc, &m->joint_pairs) != KL_OK ||
+      kli_reserve(&m->alloc, (void **)&m->joints, &m->cap_joints,
                   m->njoints + 1, sizeof *m->joints) != KL_OK)
     return kli_fail(m->error, KL_ENOMEM, "%s: out of memory", what);
   nj = &m->joints[m->njoints];
@@ -267,6 +318,8 @@ static int add_joint(kl_model *m, int kind, int a, double ax, double ay,
   nj->axis = kli_is_sliding(kind) ? axis : 0.0;
   nj->axis_cs[0] = cos(nj->axis);
   nj->axis_cs[1] = sin(nj->axis);
+  nj->input = -1;
+  kli_lookup_add(&m->joint_pairs, pair_hash, m->njoints);
   return m->njoints++;
 }
 
@@ -328,8 +381,8 @@ int kl_add_point(kl_model *m, int link, double x, double y, const char *name) {
     return kli_fail(m->error, KL_ENONFINITE,
                     "add point on %s: a coordinate is NaN or infinite",
                     kli_link_label(m, link, la, sizeof la));
-  if ((st = check_name(m, name, "add point", kl_model_point_name, m->npoints)) !=
-      KL_OK)
+  if ((st = check_name(m, name, "add point", &m->point_names,
+                       kl_model_point_name)) != KL_OK)
     return st;
   if (kli_reserve(&m->alloc, (void **)&m->points, &m->cap_points,
                   m->npoints + 1, sizeof *m->points) != KL_OK)
@@ -340,6 +393,7 @@ int kl_add_point(kl_model *m, int link, double x, double y, const char *name) {
   m->points[m->npoints].at[0] = x;
   m->points[m->npoints].at[1] = y;
   m->points[m->npoints].name = copy;
+  index_name(&m->point_names, copy, m->npoints);
   return m->npoints++;
 }
 
@@ -352,22 +406,23 @@ static int check_joint(kl_model *m, int joint, const char *what) {
 }
 
 int kl_add_input(kl_model *m, int joint) {
-  int st, i;
+  int st;
   char lj[160];
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "add input")) != KL_OK ||
       (st = check_joint(m, joint, "add input")) != KL_OK)
     return st;
-  for (i = 0; i < m->ninputs; i++)
-    if (m->inputs[i] == joint)
-      return kli_fail(m->error, KL_EDUPLICATE,
-                      "add input: %s is already input %d",
-                      kli_joint_label(m, joint, lj, sizeof lj), i);
+  if (m->joints[joint].input >= 0)
+    return kli_fail(m->error, KL_EDUPLICATE,
+                    "add input: %s is already input %d",
+                    kli_joint_label(m, joint, lj, sizeof lj),
+                    m->joints[joint].input);
   if (kli_reserve(&m->alloc, (void **)&m->inputs, &m->cap_inputs,
                   m->ninputs + 1, sizeof *m->inputs) != KL_OK)
     return kli_fail(m->error, KL_ENOMEM, "add input: out of memory");
   m->inputs[m->ninputs] = joint;
+  m->joints[joint].input = m->ninputs;
   return m->ninputs++;
 }
 
@@ -404,10 +459,11 @@ int kli_loop_links(const kl_model *m, int n, const int *joints,
 }
 
 /* Why joints[0..n) is not a simple cycle, as a status with the message set;
- * KL_OK if it is one. `links_after` has room for n links. */
+ * KL_OK if it is one. `links_after` has room for n links, `seen` for one
+ * mark per link, all 0. */
 static int check_cycle(kl_model *m, int n, const int *joints,
-                       int *links_after) {
-  int i, k;
+                       int *links_after, unsigned char *seen) {
+  int i;
   char la[64];
   if (!kli_loop_links(m, n, joints, links_after)) {
     for (i = 0; i < n; i++) {
@@ -425,19 +481,22 @@ static int check_cycle(kl_model *m, int n, const int *joints,
                     "joint %d does not come back to where it started",
                     joints[0], joints[n - 1], joints[0]);
   }
-  for (i = 0; i < n; i++)
-    for (k = 0; k < i; k++)
-      if (links_after[k] == links_after[i])
-        return kli_fail(m->error, KL_ELOOP,
-                        "add loop: the walk visits %s twice; a loop must be a "
-                        "simple cycle",
-                        kli_link_label(m, links_after[i], la, sizeof la));
+  for (i = 0; i < n; i++) {
+    if (seen[links_after[i]])
+      return kli_fail(m->error, KL_ELOOP,
+                      "add loop: the walk visits %s twice; a loop must be a "
+                      "simple cycle",
+                      kli_link_label(m, links_after[i], la, sizeof la));
+    seen[links_after[i]] = 1;
+  }
   return KL_OK;
 }
 
 int kl_add_loop(kl_model *m, int njoints, const int *joints) {
-  int st, i, k;
+  int st, i;
   int *links_after;
+  unsigned char *seen_joint, *seen_link;
+  size_t bytes;
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "add loop")) != KL_OK)
@@ -446,21 +505,42 @@ int kl_add_loop(kl_model *m, int njoints, const int *joints) {
     return kli_fail(m->error, KL_EINVAL,
                     "add loop: a loop needs at least 2 joints (got %d%s)",
                     njoints, joints == NULL ? ", and no array" : "");
-  for (i = 0; i < njoints; i++) {
+  if (m->nreg_loops == KLI_MAX_REGISTERED_LOOPS)
+    return kli_fail(m->error, KL_ETOOLARGE,
+                    "add loop: %d loops are registered already, the most a "
+                    "model registers; leave the loops out and kinloop finds "
+                    "them itself",
+                    KLI_MAX_REGISTERED_LOOPS);
+  if (njoints > INT_MAX - m->nreg_joints)
+    return kli_fail(m->error, KL_ETOOLARGE,
+                    "add loop: %d joints on top of the %d registered "
+                    "already are more than a model holds",
+                    njoints, m->nreg_joints);
+  for (i = 0; i < njoints; i++)
     if ((st = check_joint(m, joints[i], "add loop")) != KL_OK)
       return st;
-    for (k = 0; k < i; k++)
-      if (joints[k] == joints[i])
-        return kli_fail(m->error, KL_ELOOP,
-                        "add loop: joint %d appears twice (positions %d and "
-                        "%d)",
-                        joints[i], k, i);
-  }
-  links_after = kli_alloc(&m->alloc, (size_t)njoints * sizeof(int));
+  /* a loop visits each of its joints and links once: marks, not pairs */
+  bytes = (size_t)njoints * sizeof(int) + (size_t)m->njoints + (size_t)m->nlinks;
+  links_after = kli_alloc(&m->alloc, bytes);
   if (links_after == NULL)
     return kli_fail(m->error, KL_ENOMEM, "add loop: out of memory");
-  st = check_cycle(m, njoints, joints, links_after);
-  kli_free(&m->alloc, links_after, (size_t)njoints * sizeof(int));
+  seen_joint = (unsigned char *)(links_after + njoints);
+  seen_link = seen_joint + m->njoints;
+  memset(seen_joint, 0, (size_t)m->njoints + (size_t)m->nlinks);
+  for (i = 0; i < njoints && st == KL_OK; i++) {
+    if (seen_joint[joints[i]]) {
+      int k = 0;
+      while (joints[k] != joints[i])
+        k++;
+      st = kli_fail(m->error, KL_ELOOP,
+                    "add loop: joint %d appears twice (positions %d and %d)",
+                    joints[i], k, i);
+    }
+    seen_joint[joints[i]] = 1;
+  }
+  if (st == KL_OK)
+    st = check_cycle(m, njoints, joints, links_after, seen_link);
+  kli_free(&m->alloc, links_after, bytes);
   if (st != KL_OK)
     return st;
   if (kli_reserve(&m->alloc, (void **)&m->reg_joints, &m->cap_reg_joints,
@@ -489,11 +569,22 @@ int kl_model_set_joint_name(kl_model *m, int joint, const char *name) {
   if (m->joints[joint].name != NULL &&
       strcmp(m->joints[joint].name, name) == 0)
     return KL_OK;
-  if ((st = check_name(m, name, "name joint", kl_model_joint_name, m->njoints)) !=
-          KL_OK ||
+  if ((st = check_name(m, name, "name joint", &m->joint_names,
+                       kl_model_joint_name)) != KL_OK ||
       (st = copy_name(m, name, &copy, "name joint")) != KL_OK)
     return st;
-  free_name(m, m->joints[joint].name);
+  if (m->joints[joint].name == NULL) {
+    index_name(&m->joint_names, copy, joint);
+  } else {
+    int j;
+    /* a rename (rare): the table is rebuilt, in the memory it has */
+    free_name(m, m->joints[joint].name);
+    m->joints[joint].name = NULL;
+    kli_lookup_clear(&m->joint_names);
+    for (j = 0; j < m->njoints; j++)
+      index_name(&m->joint_names, m->joints[j].name, j);
+    index_name(&m->joint_names, copy, joint);
+  }
   m->joints[joint].name = copy;
   return KL_OK;
 }
@@ -689,6 +780,13 @@ kl_model *kli_model_copy(const kl_model *src) {
       ok = copy_name(m, src->points[i].name, &m->points[i].name, "copy") ==
            KL_OK;
   }
+  ok = ok &&
+       kli_lookup_copy(&m->alloc, &m->link_names, &src->link_names) == KL_OK &&
+       kli_lookup_copy(&m->alloc, &m->joint_names, &src->joint_names) ==
+           KL_OK &&
+       kli_lookup_copy(&m->alloc, &m->point_names, &src->point_names) ==
+           KL_OK &&
+       kli_lookup_copy(&m->alloc, &m->joint_pairs, &src->joint_pairs) == KL_OK;
   if (!ok) {
     kl_model_free(m);
     return NULL;
@@ -724,13 +822,11 @@ const char *kl_model_joint_name(const kl_model *m, int joint) {
 }
 
 int kl_model_find_joint(const kl_model *m, const char *name) {
-  int i;
+  int id;
   if (m == NULL || name == NULL)
     return KL_EINVAL;
-  for (i = 0; i < m->njoints; i++)
-    if (m->joints[i].name != NULL && strcmp(m->joints[i].name, name) == 0)
-      return i;
-  return KL_EID;
+  id = find_name(m, &m->joint_names, kl_model_joint_name, name);
+  return id >= 0 ? id : KL_EID;
 }
 
 const char *kl_model_point_name(const kl_model *m, int point) {
@@ -740,25 +836,19 @@ const char *kl_model_point_name(const kl_model *m, int point) {
 }
 
 int kl_model_find_link(const kl_model *m, const char *name) {
-  int i;
+  int id;
   if (m == NULL || name == NULL)
     return KL_EINVAL;
-  for (i = 0; i < m->nlinks; i++) {
-    const char *n = kl_model_link_name(m, i);
-    if (n != NULL && strcmp(n, name) == 0)
-      return i;
-  }
-  return KL_EID;
+  id = find_name(m, &m->link_names, kl_model_link_name, name);
+  return id >= 0 ? id : KL_EID;
 }
 
 int kl_model_find_point(const kl_model *m, const char *name) {
-  int i;
+  int id;
   if (m == NULL || name == NULL)
     return KL_EINVAL;
-  for (i = 0; i < m->npoints; i++)
-    if (m->points[i].name != NULL && strcmp(m->points[i].name, name) == 0)
-      return i;
-  return KL_EID;
+  id = find_name(m, &m->point_names, kl_model_point_name, name);
+  return id >= 0 ? id : KL_EID;
 }
 
 int kl_model_point_link(const kl_model *m, int point, double xy[2]) {

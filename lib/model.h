@@ -6,11 +6,19 @@
 #define KINLOOP_MODEL_H
 
 #include "kinloop.h"
+#include "lookup.h"
 #include "memory.h"
 
 #define KLI_MESSAGE_SIZE 320
 #define KLI_PI 3.14159265358979323846
 #define KLI_NAME_MAX 255
+/* Loops a model may register (kl_add_loop); their independence check is
+ * quadratic in this count. Models with more have kinloop find them. */
+#define KLI_MAX_REGISTERED_LOOPS 1024
+/* Terms of loop and tree chains finalize builds at most: per item of the
+ * model, plus a floor (kl_model_finalize's KL_ETOOLARGE). */
+#define KLI_TERMS_PER_ITEM 64L
+#define KLI_TERMS_FLOOR (1L << 22)
 
 typedef struct {
   char *name;     /* owned; NULL when unnamed */
@@ -27,6 +35,7 @@ typedef struct {
   double at[2][2];    /* attachment in a's frame, in b's frame */
   double axis;        /* slide axis angle in a's frame (sliding joints) */
   double axis_cs[2];  /* cos, sin of axis */
+  int input;          /* the input that drives it (its index), or -1 */
 } kli_joint;
 
 typedef struct {
@@ -123,6 +132,11 @@ struct kl_model {
   int nreg_joints, cap_reg_joints;
   int *reg_start; /* nreg_loops + 1 offsets */
   int nreg_loops, cap_reg_start;
+
+  /* Names of links (ground's "ground" included), joints and points, and the
+   * joints by (kind, lower link, higher link): constant-time lookups, so
+   * that building a model of n items takes time linear in n. */
+  kli_lookup link_names, joint_names, point_names, joint_pairs;
 
   int length_unit, angle_unit;
   kl_sweep_settings sweep;

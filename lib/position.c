@@ -21,6 +21,9 @@
 #define KLI_TANGENT_MAX 0.1
 /* Damping factors tried, each ten times the last, before giving up. */
 #define KLI_DAMPING_TRIES 16
+/* Newton steps at most that polish a solved position down to the
+ * rounding floor. */
+#define KLI_POLISH_ITERATIONS 4
 /* Iterations in a row that leave |F| above this fraction of its value
  * before them mean the residual has stalled at a positive minimum. */
 #define KLI_STALL_RATIO 0.999
@@ -337,13 +340,13 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   s->stats.residual = it.fnorm;
   s->stats.step = singular ? NAN : step;
   s->stats.rcond = kli_dense_rcond(&s->dense);
-  if (singular || s->stats.rcond < s->opt.singular_rcond) {
+  if (singular || s->stats.rcond < s->singular_rcond) {
     st = kli_fail(s->error, KL_ESINGULAR,
                   "solve position: the Jacobian is singular at the solution "
                   "for %s (rcond %.3g below %.3g): a dead point, toggle or "
                   "change point, where the rates are not determined",
                   input_list(s, s->u_trial, in, sizeof in), s->stats.rcond,
-                  s->opt.singular_rcond);
+                  s->singular_rcond);
     goto failed_stats;
   }
   commit(s, it.cur, s->stats.rcond, factored_at_solution);
@@ -357,6 +360,39 @@ failed:
 failed_stats:
   s->st.last_attempt = s->stats.status = st;
   return st;
+}
+
+int kli_polish_position(kl_solver *s) {
+  kli_pose *cur = &s->trial[0], *next = &s->trial[1];
+  double fnorm;
+  int iter, i;
+  if (!s->st.position_solved || s->st.last_attempt != KL_OK)
+    return 0;
+  kli_pose_copy(s, cur, &s->st.pose);
+  kli_gather(s->model, cur->x, s->q);
+  kli_expand_inputs(s->model, s->st.u, s->x_base);
+  fnorm = evaluate(s, cur, s->q, s->f);
+  for (iter = 0; iter < KLI_POLISH_ITERATIONS; iter++) {
+    double next_norm;
+    if (kli_factor_at(s, cur))
+      break;
+    for (i = 0; i < s->n; i++)
+      s->dq[i] = -s->f[i];
+    kli_dense_solve(&s->dense, s->dq);
+    for (i = 0; i < s->n; i++)
+      s->q_next[i] = s->q[i] + s->dq[i];
+    next_norm = evaluate(s, next, s->q_next, s->f_next);
+    if (!(next_norm < fnorm))
+      break; /* the rounding floor */
+    memcpy(s->q, s->q_next, (size_t)s->n * sizeof(double));
+    memcpy(s->f, s->f_next, (size_t)s->n * sizeof(double));
+    fnorm = next_norm;
+    kli_pose_copy(s, cur, next);
+  }
+  kli_pose_copy(s, &s->st.pose, cur);
+  s->factors_current = s->factors_near = 0;
+  kli_state_changed(s);
+  return iter;
 }
 
 int kli_require_position(kl_solver *s, const char *stage) {
@@ -380,7 +416,7 @@ int kli_require_position(kl_solver *s, const char *stage) {
     s->st.rcond = kli_dense_rcond(&s->dense);
     s->factors_current = 1;
   }
-  if (s->st.rcond < s->opt.singular_rcond || s->dense.singular)
+  if (s->st.rcond < s->singular_rcond || s->dense.singular)
     return kli_fail(s->error, KL_ESINGULAR,
                     "%s: the Jacobian is singular at the current position "
                     "(rcond %.3g)",

@@ -14,5 +14,10 @@ int kli_factor_at(kl_solver *s, const kli_pose *p);
  * status (KL_ESTAGE, KL_ESINGULAR) with the message naming `stage`.
  */
 int kli_require_position(kl_solver *s, const char *stage);
+/* Takes the committed position down to the rounding floor with plain Newton
+ * steps (a few at most, each kept only if it lowers |F|), for positions so
+ * near a singular one that the tolerance leaves them ill-determined. The
+ * rates and accelerations become stale. Returns the steps kept. */
+int kli_polish_position(kl_solver *s);
 
 #endif

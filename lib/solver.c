@@ -21,6 +21,7 @@ static void all_defaults(kl_options *o) {
   o->max_step = 1.0;
   o->singular_rcond = 1e-8;
   o->kernel = KL_KERNEL_AUTO;
+  o->pass_change_points = 0;
 }
 
 void kl_options_init(kl_options *o, size_t size) {
@@ -59,13 +60,16 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   kl_solver sizing;
   kl_solver *t = s != NULL ? s : &sizing;
   int n = m->topo.nvars, nc = m->topo.ncoords, nl = m->nlinks;
-  int ni = m->ninputs;
+  int ni = m->ninputs, i;
   carve_state(&t->st, c, nc, nl, ni);
   carve_state(&t->saved, c, nc, nl, ni);
   carve_state(&t->delivered, c, nc, nl, ni);
   carve_state(&t->extreme[0], c, nc, nl, ni);
   carve_state(&t->extreme[1], c, nc, nl, ni);
   carve_state(&t->previous, c, nc, nl, ni);
+  carve_state(&t->entry, c, nc, nl, ni);
+  for (i = 0; i < 4; i++)
+    carve_state(&t->crossing[i], c, nc, nl, ni);
   t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
   t->coef2 = kli_carve(c, (size_t)nc * (size_t)ni * (size_t)ni, sizeof(double));
   carve_pose(&t->trial[0], c, nc, nl);
@@ -128,6 +132,8 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   s->ncoords = m->topo.ncoords;
   s->ninputs = m->ninputs;
   kl_options_default(&s->opt);
+  s->singular_rcond = s->opt.singular_rcond;
+  s->last_passage = NAN;
   /* slide columns of the Jacobian are unitless: scale them to lengths */
   for (i = 0; i < s->n; i++)
     s->rhs[i] = m->topo.var_coord[i] < m->nlinks ? 1.0 : m->topo.scale;
@@ -233,11 +239,17 @@ int kl_solver_set_options(kl_solver *s, const kl_options *o) {
   if (next.kernel < KL_KERNEL_AUTO || next.kernel > KL_KERNEL_BANDED)
     return kli_fail(s->error, KL_EINVAL,
                     "set options: kernel %d is not a kl_kernel", next.kernel);
+  if (next.pass_change_points != 0 && next.pass_change_points != 1)
+    return kli_fail(s->error, KL_EINVAL,
+                    "set options: pass_change_points %d is neither 0 (stop "
+                    "at a change point) nor 1 (go on through it)",
+                    next.pass_change_points);
   if (next.kernel != s->opt.kernel) {
     kli_dense_use(&s->dense, next.kernel);
     s->factors_current = s->factors_near = 0;
   }
   s->opt = next;
+  s->singular_rcond = next.singular_rcond;
   return KL_OK;
 }
 
@@ -306,6 +318,18 @@ void kli_state_restore(kl_solver *s, const kli_state *from) {
   kli_state_copy(s, &s->st, from);
   s->factors_current = s->factors_near = 0;
   s->coefficients_solved = 0;
+}
+
+void kli_keep_entry(kl_solver *s) {
+  kli_state_copy(s, &s->entry, &s->st);
+  s->entry_coefficients = s->coefficients_solved;
+}
+
+void kli_back_to_entry(kl_solver *s) {
+  /* the coefficients live apart from the states, and nothing that sweeps
+   * writes them: only their flag goes with the state */
+  kli_state_restore(s, &s->entry);
+  s->coefficients_solved = s->entry_coefficients;
 }
 
 void kli_state_changed(kl_solver *s) {

@@ -102,6 +102,26 @@ static int climb(const work *w, int link, int top, int *path) {
   return n;
 }
 
+/* The most terms of loop and tree chains finalize builds for a model: in
+ * proportion to its items, with room for any practical linkage (a few
+ * thousand links deep in its tree). A model past it (a hostile file's
+ * thousands of long loops) is refused rather than allowed to take
+ * memory quadratic in its size. */
+static long term_budget(const kl_model *m) {
+  return KLI_TERMS_PER_ITEM *
+             ((long)m->nlinks + (long)m->njoints + (long)m->npoints) +
+         KLI_TERMS_FLOOR;
+}
+
+static int too_large(kl_model *m, long terms) {
+  return kli_fail(m->error, KL_ETOOLARGE,
+                  "finalize: the loops and the paths from ground to every "
+                  "link and point need more than %ld terms (%ld and counting "
+                  "for %d links, %d joints, %d points): the model is too "
+                  "large or too deep for kinloop",
+                  term_budget(m), terms, m->nlinks, m->njoints, m->npoints);
+}
+
 /* One fundamental cycle per joint outside the tree: the chord from a to b,
  * then the tree path from b up to the common ancestor and down to a. */
 static int find_loops(kl_model *m, work *w) {
@@ -121,25 +141,37 @@ static int find_loops(kl_model *m, work *w) {
     }
     nb = climb(w, b, top_b, w->path_b);
     na = climb(w, a, top_a, w->path_a);
+    if (2L * ((long)w->nloop_joints + na + nb + 1) > term_budget(m))
+      return too_large(m, 2L * ((long)w->nloop_joints + na + nb + 1));
     w->loop_start[w->nloops] = w->nloop_joints;
     if (push_loop_joint(m, w, j) != KL_OK)
-      return KL_ENOMEM;
+      return kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
     for (i = 0; i < nb; i++)
       if (push_loop_joint(m, w, w->path_b[i]) != KL_OK)
-        return KL_ENOMEM;
+        return kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
     for (i = na - 1; i >= 0; i--)
       if (push_loop_joint(m, w, w->path_a[i]) != KL_OK)
-        return KL_ENOMEM;
+        return kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
     w->nloops++;
   }
   w->loop_start[w->nloops] = w->nloop_joints;
   return KL_OK;
 }
 
-/* Rank of the registered loops' signed joint-incidence rows. */
+/* Rank of the registered loops' signed joint-incidence rows. A cycle is
+ * fixed by its signed use of the chords (the joints outside the spanning
+ * tree: each fundamental cycle holds one), so the rank over the chord
+ * columns alone is the rank: a nloops x nloops matrix, whatever the
+ * number of joints. */
 static int loop_rank(const kl_model *m, work *w, int nloops) {
-  int rows = nloops, cols = m->njoints, r, c, rank = 0, i, k;
+  int rows = nloops, cols = nloops, r, c, rank = 0, i, k, j, chord = 0;
   double *a = w->rank_work;
+  int *column = w->match_row; /* chord joint -> column, -1 for tree joints */
+  for (j = 0; j < m->njoints; j++) {
+    int a0 = m->joints[j].link[0], b0 = m->joints[j].link[1];
+    column[j] = w->tree_joint[a0] == j || w->tree_joint[b0] == j ? -1
+                                                                 : chord++;
+  }
   memset(a, 0, (size_t)rows * (size_t)cols * sizeof(double));
   for (r = 0; r < rows; r++) {
     int n = m->reg_start[r + 1] - m->reg_start[r];
@@ -148,7 +180,9 @@ static int loop_rank(const kl_model *m, work *w, int nloops) {
     kli_loop_links(m, n, js, w->seen);
     before = w->seen[n - 1];
     for (i = 0; i < n; i++) {
-      a[r * cols + js[i]] = m->joints[js[i]].link[0] == before ? 1.0 : -1.0;
+      if (column[js[i]] >= 0)
+        a[r * cols + column[js[i]]] =
+            m->joints[js[i]].link[0] == before ? 1.0 : -1.0;
       before = w->seen[i];
     }
   }
@@ -226,11 +260,7 @@ static int mobility(kl_model *m, int *dof) {
 }
 
 static int input_of(const kl_model *m, int joint) {
-  int i;
-  for (i = 0; i < m->ninputs; i++)
-    if (m->inputs[i] == joint)
-      return i;
-  return -1;
+  return m->joints[joint].input;
 }
 
 /* A joint fixes b's angle against a's: a prismatic lock or a revolute input. */
@@ -569,6 +599,35 @@ static int is_zero_length(const kl_model *m, const work *w, int link) {
   return 1;
 }
 
+/* A moving link joined only by revolute joints that all stand at one point
+ * of it carries nothing from one joint to the next: a crank whose pins
+ * coincide drives nothing, whatever its input does. (A slider block's pin
+ * on its slide point is no such link: its prismatic or slot joint carries
+ * the motion.) */
+static int pinned_at_one_point(kl_model *m, const work *w) {
+  int l, k;
+  char la[64];
+  for (l = 1; l < m->nlinks; l++) {
+    const double *at;
+    if (!is_zero_length(m, w, l))
+      continue;
+    for (k = w->adj_start[l]; k < w->adj_start[l + 1]; k++)
+      if (m->joints[w->adj_joint[k]].kind != KL_JOINT_REVOLUTE)
+        break;
+    if (k < w->adj_start[l + 1])
+      continue;
+    at = kli_joint_point_on(m, w->adj_joint[w->adj_start[l]], l);
+    return kli_fail(m->error, KL_EZEROLENGTH,
+                    "finalize: %s has zero length: its %d revolute joints "
+                    "all stand at (%g, %g) of it, so it carries no motion "
+                    "from one to the next; give the joints their distinct "
+                    "attachment points",
+                    kli_link_label(m, l, la, sizeof la),
+                    w->adj_start[l + 1] - w->adj_start[l], at[0], at[1]);
+  }
+  return KL_OK;
+}
+
 /* Every unknown must be matched to its own equation row, or the Jacobian is
  * singular whatever the geometry. */
 static int structural_check(kl_model *m, work *w, const kli_topology *t) {
@@ -622,7 +681,8 @@ static double model_scale(const kl_model *m, const work *w) {
 static void *carve_work(const kl_model *m, work *w, kli_carver *c) {
   int nl = m->nlinks, nj = m->njoints;
   int rows = 2 * (nj + 1); /* rows of the loop equations, at most 2 (J-N+1) */
-  size_t rank = (size_t)(m->nreg_loops > 0 ? m->nreg_loops : 1) * (size_t)nj;
+  size_t rank = (size_t)(m->nreg_loops > 0 ? m->nreg_loops : 1) *
+                (size_t)(m->nreg_loops > 0 ? m->nreg_loops : 1);
   int big = nl + nj + rows + 1;
   w->adj_start = kli_carve(c, (size_t)nl + 1, sizeof(int));
   w->adj_joint = kli_carve(c, 2 * (size_t)nj, sizeof(int));
@@ -691,6 +751,7 @@ int kl_model_finalize(kl_model *m) {
   kli_carver wc = {NULL, 0}, tc = {NULL, 0};
   kli_topology t;
   int st, dof, expected_loops, l, p, nterm_bound;
+  long terms;
   if (m == NULL)
     return KL_EINVAL;
   if (m->finalized)
@@ -713,17 +774,21 @@ int kl_model_finalize(kl_model *m) {
       goto done;
     for (l = 0; l <= m->nreg_loops; l++)
       w.loop_start[l] = m->reg_start[l];
-  } else if (find_loops(m, &w) != KL_OK) {
-    st = kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
+  } else if ((st = find_loops(m, &w)) != KL_OK) {
     goto done;
   }
 
   /* a chain of d tree joints has at most d + 1 link and d slide terms */
-  nterm_bound = 2 * w.loop_start[w.nloops];
+  terms = 2L * w.loop_start[w.nloops];
   for (l = 0; l < m->nlinks; l++)
-    nterm_bound += 2 * (w.depth[l] + 1);
+    terms += 2L * (w.depth[l] + 1);
   for (p = 0; p < m->npoints; p++)
-    nterm_bound += 2 * (w.depth[m->points[p].link] + 1);
+    terms += 2L * (w.depth[m->points[p].link] + 1);
+  if (terms > term_budget(m)) {
+    st = too_large(m, terms);
+    goto done;
+  }
+  nterm_bound = (int)terms;
   carve_topology(m, &w, &t, &tc, nterm_bound);
   t.block_size = tc.used;
   t.block = kli_alloc(&m->alloc, tc.used);
@@ -750,7 +815,8 @@ int kl_model_finalize(kl_model *m) {
     static const double origin[2] = {0.0, 0.0};
     build_path_chain(m, &w, &t, l, origin, &t.origins[l]);
   }
-  if ((st = structural_check(m, &w, &t)) != KL_OK)
+  if ((st = pinned_at_one_point(m, &w)) != KL_OK ||
+      (st = structural_check(m, &w, &t)) != KL_OK)
     goto done;
   if (band_ordering(m, &t) != KL_OK) {
     st = kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");

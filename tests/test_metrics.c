@@ -110,7 +110,9 @@ static kl_model *build_sixbar_with_point(const pin_linkage *p) {
  * link turn fully against all others; then the shortest link's place names
  * the class (input: crank-rocker, output: rocker-crank, ground: double-crank,
  * coupler: double-rocker). s + l = p + q is the change point case, s + l >
- * p + q non-Grashof (triple-rocker). Lengths chosen for this test; the
+ * p + q non-Grashof (triple-rocker). A longest link at least as long as the
+ * other three together cannot close the loop at all (the polygon
+ * inequality: elementary geometry). Lengths chosen for this test; the
  * arguments are (ground, input, coupler, output).
  */
 START_TEST(grashof_classes_from_lengths) {
@@ -127,6 +129,10 @@ START_TEST(grashof_classes_from_lengths) {
       {80, 50, 70, 100, KL_GRASHOF_CHANGE_POINT, "change point"},    /* 150 = 150 */
       {100, 70, 50, 60, KL_GRASHOF_TRIPLE_ROCKER, "triple-rocker"},  /* 150 > 130 */
       {100, 100, 100, 100, KL_GRASHOF_CHANGE_POINT, "change point"}, /* all equal */
+      {300, 40, 120, 80, KL_GRASHOF_NO_ASSEMBLY, "no assembly"},     /* 300 > 240 */
+      {100, 250, 40, 60, KL_GRASHOF_NO_ASSEMBLY, "no assembly"},     /* 250 > 200 */
+      {240, 40, 120, 80, KL_GRASHOF_NO_ASSEMBLY, "no assembly"},     /* 240 = 240: in line */
+      {239, 40, 120, 80, KL_GRASHOF_TRIPLE_ROCKER, "triple-rocker"}, /* 279 > 160 */
   };
   unsigned k;
   for (k = 0; k < sizeof cases / sizeof cases[0]; k++) {
@@ -140,7 +146,7 @@ START_TEST(grashof_classes_from_lengths) {
   ck_assert_int_eq(kl_grashof(100 * (1 + 1e-9), 40, 100, 40), KL_GRASHOF_TRIPLE_ROCKER);
   ck_assert_int_eq(kl_grashof(100, 40 * (1 + 1e-9), 100, 40), KL_GRASHOF_ROCKER_CRANK);
   ck_assert_str_eq(kl_grashof_str(0), "not a class");
-  ck_assert_str_eq(kl_grashof_str(7), "not a class");
+  ck_assert_str_eq(kl_grashof_str(8), "not a class");
 }
 END_TEST
 
@@ -428,6 +434,37 @@ END_TEST
  * the textbook T = F r sin(t + psi) / cos psi. A force across the slide
  * does no virtual work: the guide takes it.
  */
+/* A range that fails inside (here at a parallelogram's change point, a
+ * four-bar chosen for this test) leaves the solver exactly as it was: its
+ * position, the rates solved at rate 7, and the coefficients. */
+START_TEST(failed_range_changes_nothing) {
+  fourbar f = build_fourbar(40, 100, 40, 100);
+  kl_solver *s = kl_solver_new(f.m);
+  kl_output o;
+  kl_range r;
+  snapshot before, after;
+  double u = 0.5, w = 7.0, a = 0.0;
+  memset(&o, 0, sizeof o);
+  o.kind = KL_OUTPUT_LINK_ANGLE;
+  o.id = f.rocker;
+  r.size = sizeof r;
+  kl_set_link_angle(s, f.coupler, 0.02);
+  kl_set_link_angle(s, f.rocker, 0.48);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
+  ck_assert_int_eq(kl_solve_acceleration(s, &a), KL_OK);
+  ck_assert_int_eq(kl_solve_coefficients(s), KL_OK);
+  before = snap(s);
+  ck_assert_int_eq(kl_output_range(s, 0, 0.3, -0.3, 6, &o, &r),
+                   KL_ESINGULAR);
+  after = snap(s);
+  assert_same_state(&before, &after, "kl_output_range at a change point");
+  ck_assert_double_eq(kl_link_rate(s, f.crank), 7.0);
+  kl_solver_free(s);
+  kl_model_free(f.m);
+}
+END_TEST
+
 START_TEST(slider_crank_torque_matches_statics) {
   slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = kl_solver_new(sc.m);
@@ -1113,6 +1150,7 @@ int main(void) {
   tcase_add_test(tc, transmission_angle_extremes_match_the_law_of_cosines);
   tcase_add_test(tc, stroke_and_time_ratio_match_the_dead_centres);
   tcase_add_test(tc, range_up_to_a_motion_limit);
+  tcase_add_test(tc, failed_range_changes_nothing);
   tcase_add_test(tc, slider_crank_torque_matches_statics);
   tcase_add_loop_test(tc, sixbar_effort_matches_the_energy_balance, 0, 2);
   tcase_add_test(tc, mechanical_advantage_is_the_inverse_velocity_ratio);

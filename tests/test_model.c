@@ -5,6 +5,7 @@
  */
 #include <check.h>
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 #include "suite.h"
@@ -356,6 +357,34 @@ START_TEST(zero_length_links) {
   ck_assert_int_eq(kl_model_finalize(m), KL_EZEROLENGTH);
   assert_message_has(m, "link 2 'stub' has zero length");
   kl_model_free(m);
+
+  /* a driven crank whose two pins coincide: its angle is known (the
+   * input), but it carries no motion; refused rather than a "stroke 0" */
+  m = kl_model_new();
+  a = kl_add_link(m, "crank");
+  b = kl_add_link(m, "rod");
+  c = kl_add_link(m, "block");
+  j0 = kl_add_revolute(m, 0, 0, 0, a, 0, 0);
+  kl_add_revolute(m, a, 0, 0, b, 0, 0); /* the crank pin on the pivot */
+  kl_add_revolute(m, b, 120, 0, c, 0, 0);
+  kl_add_prismatic(m, 0, 0, 0, 0.0, c, 0, 0);
+  kl_add_input(m, j0);
+  ck_assert_int_eq(kl_model_finalize(m), KL_EZEROLENGTH);
+  assert_message_has(m, "link 1 'crank' has zero length");
+  kl_model_free(m);
+
+  /* a slider block pinned on its slide point is a whole link */
+  m = kl_model_new();
+  a = kl_add_link(m, "crank");
+  b = kl_add_link(m, "rod");
+  c = kl_add_link(m, "block");
+  j0 = kl_add_revolute(m, 0, 0, 0, a, 0, 0);
+  kl_add_revolute(m, a, 40, 0, b, 0, 0);
+  kl_add_revolute(m, b, 120, 0, c, 0, 0);
+  kl_add_prismatic(m, 0, 0, 0, 0.0, c, 0, 0);
+  kl_add_input(m, j0);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  kl_model_free(m);
 }
 END_TEST
 
@@ -393,6 +422,82 @@ START_TEST(undetermined_coordinates) {
   ck_assert_int_eq(kl_model_finalize(m), KL_EUNDETERMINED);
   assert_message_has(m, "slide of joint 4 (prismatic, link 0 'ground' to "
                         "link 4 'carriage')");
+  kl_model_free(m);
+}
+END_TEST
+
+/* Names are found by table, not by search: thousands of items of each
+ * kind, renamed joints, and the names a rename frees. */
+START_TEST(names_found_among_many) {
+  kl_model *m = kl_model_new();
+  char name[32];
+  int k, j;
+  for (k = 1; k <= 3000; k++) {
+    snprintf(name, sizeof name, "link %d", k);
+    ck_assert_int_eq(kl_add_link(m, name), k);
+  }
+  for (k = 1; k < 3000; k++) {
+    j = kl_add_revolute(m, k, 10, 0, k + 1, 0, 0);
+    snprintf(name, sizeof name, "pin %d", k);
+    ck_assert_int_eq(kl_model_set_joint_name(m, j, name), KL_OK);
+    snprintf(name, sizeof name, "tip %d", k);
+    ck_assert_int_eq(kl_add_point(m, k, 5, 1, name), k - 1);
+  }
+  for (k = 1; k <= 3000; k += 7) {
+    snprintf(name, sizeof name, "link %d", k);
+    ck_assert_int_eq(kl_model_find_link(m, name), k);
+  }
+  ck_assert_int_eq(kl_model_find_joint(m, "pin 1234"), 1233);
+  ck_assert_int_eq(kl_model_find_point(m, "tip 2999"), 2998);
+  /* a rename frees the old name and takes the new one */
+  ck_assert_int_eq(kl_model_set_joint_name(m, 1233, "middle pin"), KL_OK);
+  ck_assert_int_eq(kl_model_find_joint(m, "pin 1234"), KL_EID);
+  ck_assert_int_eq(kl_model_find_joint(m, "middle pin"), 1233);
+  ck_assert_int_eq(kl_model_find_joint(m, "pin 1235"), 1234);
+  ck_assert_int_eq(kl_model_set_joint_name(m, 1234, "middle pin"),
+                   KL_EDUPLICATE);
+  ck_assert_int_eq(kl_model_set_joint_name(m, 1, "pin 1234"), KL_OK);
+  ck_assert_int_eq(kl_model_find_joint(m, "pin 1234"), 1);
+  /* a second joint of the same kind between the same links, either way */
+  ck_assert_int_eq(kl_add_revolute(m, 1501, 0, 0, 1500, 3, 0),
+                   KL_EDUPLICATE);
+  assert_message_has(m, "joint 1499 is already a revolute joint");
+  ck_assert_int_ne(kl_add_slot(m, 1500, 0, 0, 0.0, 1501, 0, 0),
+                   KL_EDUPLICATE);
+  ck_assert_int_eq(kl_add_input(m, 0), 0);
+  ck_assert_int_eq(kl_add_input(m, 0), KL_EDUPLICATE);
+  assert_message_has(m, "is already input 0");
+  kl_model_free(m);
+}
+END_TEST
+
+/* Size limits, each its own status: registered loops past 1024, and a
+ * model whose tree is so deep that its chains would take memory quadratic
+ * in its size (3000 links in one open chain, each joint an input: the
+ * paths from ground hold 3000^2 / 2 terms). */
+START_TEST(size_limits) {
+  kl_model *m = kl_model_new();
+  int crank = kl_add_link(m, "crank"), coupler = kl_add_link(m, "coupler"),
+      rocker = kl_add_link(m, "rocker"), k, walk[4];
+  walk[0] = kl_add_revolute(m, 0, 0, 0, crank, 0, 0);
+  walk[1] = kl_add_revolute(m, crank, 40, 0, coupler, 0, 0);
+  walk[2] = kl_add_revolute(m, coupler, 120, 0, rocker, 80, 0);
+  walk[3] = kl_add_revolute(m, rocker, 0, 0, 0, 100, 0);
+  for (k = 0; k < 1024; k++)
+    ck_assert_int_eq(kl_add_loop(m, 4, walk), k);
+  ck_assert_int_eq(kl_add_loop(m, 4, walk), KL_ETOOLARGE);
+  assert_message_has(m, "1024 loops are registered already");
+  kl_model_free(m);
+
+  m = kl_model_new();
+  for (k = 1; k <= 3000; k++) {
+    int link = kl_add_link(m, NULL);
+    int joint = kl_add_revolute(m, link - 1, 10, 0, link, 0, 0);
+    ck_assert_int_eq(kl_add_input(m, joint), k - 1);
+  }
+  ck_assert_int_eq(kl_model_finalize(m), KL_ETOOLARGE);
+  assert_message_has(m, "too large or too deep");
+  ck_assert_int_eq(kl_model_is_finalized(m), 0);
   kl_model_free(m);
 }
 END_TEST
@@ -458,6 +563,8 @@ int main(void) {
   tcase_add_test(tc, over_constrained_models);
   tcase_add_test(tc, zero_length_links);
   tcase_add_test(tc, undetermined_coordinates);
+  tcase_add_test(tc, names_found_among_many);
+  tcase_add_test(tc, size_limits);
   tcase_add_test(tc, builders_fail_after_finalize);
   tcase_add_test(tc, reading_the_model_back);
   suite_add_tcase(suite, tc);
