@@ -833,8 +833,9 @@ KL_API const char *kl_grashof_str(int cls);
 /**
  * The Grashof class of a finalized model that is a four-bar: ground and
  * three moving links joined in one loop by four revolute joints, its one
- * input at a ground pivot. Returns a kl_grashof_class, KL_EKIND (not such a
- * four-bar), KL_ESTATE (not finalized), KL_EINVAL.
+ * input at a ground pivot; the same as kl_model_loop_fourbar's for that
+ * loop. Returns a kl_grashof_class, KL_EKIND (not such a four-bar),
+ * KL_ESTATE (not finalized), KL_EINVAL (NULL, or a link length of 0).
  */
 KL_API int kl_model_grashof(const kl_model *m);
 
@@ -987,6 +988,88 @@ KL_API int kl_output_tolerance_stack(kl_solver *s, const kl_output *o, int n,
                               const kl_dimension *dims,
                               const double *tolerances, double *worst,
                               double *rss);
+
+/* ------------------------------------------------------------------------
+ * What a designer reads from the loops: four-bar loops and
+ * transmission-angle sites
+ * ------------------------------------------------------------------------ */
+
+/** A loop that is a four-bar, as kl_model_loop_fourbar reads it. */
+typedef struct kl_fourbar {
+  size_t size;           /**< sizeof(kl_fourbar), set by the caller */
+  int loop;              /**< the loop */
+  int input;             /**< the input that drives it */
+  int input_joint;       /**< the ground pivot that input drives */
+  int output_joint;      /**< the other ground pivot */
+  int input_link;        /**< the link the input turns */
+  int coupler_link;      /**< the link opposite ground */
+  int output_link;       /**< the link pivoted at output_joint */
+  double ground_length;  /**< between the two ground pivots */
+  double input_length;   /**< between the input link's two joints */
+  double coupler_length; /**< between the coupler's two joints */
+  double output_length;  /**< between the output link's two joints */
+  int grashof;           /**< kl_grashof of the four lengths: a
+                              kl_grashof_class, or KL_EINVAL if one is 0 */
+} kl_fourbar;
+
+/**
+ * Reads loop `loop` of a finalized model as a four-bar: a loop of four
+ * revolute joints, ground one of its links, and an input at one of the two
+ * ground pivots (at both: the first in the loop's walk). The lengths are
+ * between the loop's joints on each link (other joints a link may carry do
+ * not count), the class is Grashof's on them, relative to the input link.
+ * Fills `fourbar` up to fourbar->size bytes. Returns KL_OK, KL_EKIND (the
+ * loop is not such a four-bar), KL_EID (no such loop), KL_ESTATE (not
+ * finalized), KL_EINVAL (NULL, or size too small). Never allocates.
+ */
+KL_API int kl_model_loop_fourbar(const kl_model *m, int loop,
+                                 kl_fourbar *fourbar);
+
+/**
+ * The model's transmission-angle sites, chosen once at finalize: walking
+ * the loops in order, each revolute joint on neither ground nor an input
+ * is a site where a loop first meets it, with the lines to its two
+ * neighbours in that loop's walk (line_a the one on the joint's link a), so
+ * that for a four-bar the site is the coupler-output pin, with lines to the
+ * input pin and the output's ground pivot. A joint on a link that a
+ * revolute input turns from ground, or with a line of no length, is no site
+ * (kl_model_transmission_skips says which and why). Writes up to `cap`
+ * outputs of kind KL_OUTPUT_TRANSMISSION into `sites` (may be NULL when cap
+ * is 0), for kl_output_value and kl_output_range, and returns how many
+ * sites there are (which may exceed cap), or KL_ESTATE (not finalized),
+ * KL_EINVAL. Never allocates.
+ */
+KL_API int kl_model_transmissions(const kl_model *m, kl_output *sites,
+                                  int cap);
+
+/** Why the transmission-angle rule gives a joint no site. */
+enum kl_transmission_skip_reason {
+  KL_TRANSMISSION_SKIP_INPUT_CRANK = 1, /**< `link` is turned from ground by a
+                                             revolute input, so the angle
+                                             says nothing of how force gets
+                                             through */
+  KL_TRANSMISSION_SKIP_NO_LINE = 2      /**< on `link`, the neighbour in the
+                                             loop stands at the joint's own
+                                             point (within 1e-12 of the
+                                             scale): no line to measure */
+};
+
+/** A joint the transmission-angle rule meets but does not measure. */
+typedef struct kl_transmission_skip {
+  int joint;  /**< the revolute joint */
+  int loop;   /**< the loop whose walk met it first */
+  int link;   /**< the joint's link the reason concerns */
+  int reason; /**< enum kl_transmission_skip_reason */
+} kl_transmission_skip;
+
+/**
+ * The joints the rule of kl_model_transmissions meets and passes over, in
+ * the order met: writes up to `cap` of them into `skips` (may be NULL when
+ * cap is 0) and returns how many there are, or KL_ESTATE, KL_EINVAL. Never
+ * allocates.
+ */
+KL_API int kl_model_transmission_skips(const kl_model *m,
+                                       kl_transmission_skip *skips, int cap);
 
 /* ------------------------------------------------------------------------
  * Design studies: tolerance Monte Carlo and design grids (the study file is

@@ -1,8 +1,7 @@
 /*
- * metrics.c - the design figures: Grashof class, outputs and their
- * derivatives, extremes over a sweep, time ratio, mechanical advantage,
- * static input effort by virtual work, dimensional sensitivity and
- * tolerance stack-up.
+ * metrics.c - the design figures: outputs and their derivatives, extremes
+ * over a sweep, time ratio, mechanical advantage, static input effort by
+ * virtual work, dimensional sensitivity and tolerance stack-up.
  */
 #include <math.h>
 #include <string.h>
@@ -18,111 +17,6 @@
 /* Where a sweep stopped at a limit, the last value is taken this far
  * inside it (the limit is located to 1e-11). */
 #define KLI_LIMIT_INSIDE 1e-10
-
-/* ---- Grashof ---- */
-
-int kl_grashof(double ground, double input, double coupler, double output) {
-  double len[4], s, l, sum = 0.0;
-  int i, shortest = 0;
-  len[0] = ground;
-  len[1] = input;
-  len[2] = coupler;
-  len[3] = output;
-  for (i = 0; i < 4; i++) {
-    if (!isfinite(len[i]))
-      return KL_ENONFINITE;
-    if (!(len[i] > 0.0))
-      return KL_EINVAL;
-    sum += len[i];
-  }
-  s = l = len[0];
-  for (i = 1; i < 4; i++) {
-    if (len[i] < s) {
-      s = len[i];
-      shortest = i;
-    }
-    if (len[i] > l)
-      l = len[i];
-  }
-  /* s + l against p + q = sum - s - l, equality within rounding of l */
-  if (fabs((s + l) - (sum - s - l)) <= 1e-12 * l)
-    return KL_GRASHOF_CHANGE_POINT;
-  if (s + l > sum - s - l)
-    return KL_GRASHOF_TRIPLE_ROCKER;
-  switch (shortest) {
-  case 0: return KL_GRASHOF_DOUBLE_CRANK;
-  case 1: return KL_GRASHOF_CRANK_ROCKER;
-  case 2: return KL_GRASHOF_DOUBLE_ROCKER;
-  default: return KL_GRASHOF_ROCKER_CRANK;
-  }
-}
-
-const char *kl_grashof_str(int cls) {
-  switch (cls) {
-  case KL_GRASHOF_CRANK_ROCKER: return "crank-rocker";
-  case KL_GRASHOF_ROCKER_CRANK: return "rocker-crank";
-  case KL_GRASHOF_DOUBLE_CRANK: return "double-crank";
-  case KL_GRASHOF_DOUBLE_ROCKER: return "double-rocker";
-  case KL_GRASHOF_CHANGE_POINT: return "change point";
-  case KL_GRASHOF_TRIPLE_ROCKER: return "triple-rocker";
-  default: return "not a class";
-  }
-}
-
-static double joint_distance(const kl_model *m, int j1, int j2, int link) {
-  const double *p = kli_joint_point_on(m, j1, link);
-  const double *q = kli_joint_point_on(m, j2, link);
-  return hypot(p[0] - q[0], p[1] - q[1]);
-}
-
-int kl_model_grashof(const kl_model *m) {
-  int j, input_joint, crank, pivots[2], np = 0;
-  double ground, crank_len = 0, coupler = 0, output = 0;
-  if (m == NULL)
-    return KL_EINVAL;
-  if (!m->finalized)
-    return KL_ESTATE;
-  if (m->nlinks != 4 || m->njoints != 4 || m->ninputs != 1 ||
-      m->topo.nloops != 1)
-    return KL_EKIND;
-  for (j = 0; j < 4; j++) {
-    if (m->joints[j].kind != KL_JOINT_REVOLUTE)
-      return KL_EKIND;
-    if (m->joints[j].link[0] == KL_GROUND ||
-        m->joints[j].link[1] == KL_GROUND) {
-      if (np < 2)
-        pivots[np] = j;
-      np++;
-    }
-  }
-  input_joint = m->inputs[0];
-  if (np != 2 || (input_joint != pivots[0] && input_joint != pivots[1]))
-    return KL_EKIND;
-  ground = joint_distance(m, pivots[0], pivots[1], KL_GROUND);
-  crank = m->joints[input_joint].link[0] == KL_GROUND
-              ? m->joints[input_joint].link[1]
-              : m->joints[input_joint].link[0];
-  /* walk the loop: crank, coupler, output, each between its two joints */
-  {
-    const int *js = m->topo.loop_joints, *ls = m->topo.loop_links;
-    int i;
-    for (i = 0; i < 4; i++) {
-      int link = ls[i], a = js[i], b = js[(i + 1) % 4];
-      double len;
-      if (link == KL_GROUND)
-        continue;
-      len = joint_distance(m, a, b, link);
-      if (link == crank)
-        crank_len = len;
-      else if (a == pivots[0] || a == pivots[1] || b == pivots[0] ||
-               b == pivots[1])
-        output = len;
-      else
-        coupler = len;
-    }
-  }
-  return kl_grashof(ground, crank_len, coupler, output);
-}
 
 /* ---- outputs ---- */
 

@@ -101,6 +101,12 @@ typedef struct {
   int band_lower, band_upper;
   int dof;
   double scale;
+  /* The transmission-angle sites and the joints the rule passes over
+   * (loops.c), in the order the loops meet them; at most one per joint. */
+  kl_output *sites;
+  int nsites;
+  kl_transmission_skip *skips;
+  int nskips;
 } kli_topology;
 
 struct kl_model {
@@ -156,5 +162,9 @@ int kli_is_sliding(int kind);
 kl_model *kli_model_copy(const kl_model *m);
 /* Frees what finalize derived and marks the model unfinalized. */
 void kli_topology_release(kl_model *m);
+/* Fills t->sites and t->skips (room for one per joint) from t's loops and
+ * scale, with `scratch` room for links + joints ints (loops.c). */
+void kli_find_transmissions(const kl_model *m, kli_topology *t,
+                            int *scratch);
 
 #endif

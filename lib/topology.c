@@ -1,7 +1,8 @@
 /*
  * topology.c - finalize: connectivity, loops (registered or found from a
  * spanning tree), mobility, elimination of locked angles and inputs, the
- * vector chains of loops and points, and the Jacobian's sparsity pattern.
+ * vector chains of loops and points, the Jacobian's sparsity pattern, and
+ * the transmission-angle sites (their rule is in loops.c).
  */
 #include <math.h>
 #include <string.h>
@@ -23,6 +24,7 @@ typedef struct {
   int *loop_joints, *loop_start;    /* loops before they are final */
   int nloops, nloop_joints, cap_loop_joints;
   double *rank_work;
+  int *marks;                       /* links + joints: the transmission rule's */
 } work;
 
 static int union_find(int *parent, int x) {
@@ -640,6 +642,7 @@ static void *carve_work(const kl_model *m, work *w, kli_carver *c) {
   w->path_b = kli_carve(c, (size_t)nl, sizeof(int));
   w->loop_start = kli_carve(c, (size_t)nj + 2, sizeof(int));
   w->rank_work = kli_carve(c, rank, sizeof(double));
+  w->marks = kli_carve(c, (size_t)(nl + nj), sizeof(int));
   return c->base;
 }
 
@@ -669,6 +672,8 @@ static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
   t->nz_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));
   t->band_row = kli_carve(c, (size_t)w->nloops * 2, sizeof(int));
   t->band_col = kli_carve(c, (size_t)nvars, sizeof(int));
+  t->sites = kli_carve(c, (size_t)nj, sizeof(kl_output));
+  t->skips = kli_carve(c, (size_t)nj, sizeof(kl_transmission_skip));
 }
 
 /* Loop joints as found or registered, with the link after each joint. */
@@ -759,6 +764,7 @@ int kl_model_finalize(kl_model *m) {
   t.ncoords = m->nlinks + m->njoints;
   t.dof = dof;
   t.scale = model_scale(m, &w);
+  kli_find_transmissions(m, &t, w.marks);
   m->topo = t;
   m->finalized = 1;
   t.block = NULL;
