@@ -990,8 +990,8 @@ KL_API int kl_output_tolerance_stack(kl_solver *s, const kl_output *o, int n,
                               double *rss);
 
 /* ------------------------------------------------------------------------
- * What a designer reads from the loops: four-bar loops and
- * transmission-angle sites
+ * What a designer reads from the loops: four-bar loops, transmission-angle
+ * sites, and the input effort over a sweep
  * ------------------------------------------------------------------------ */
 
 /** A loop that is a four-bar, as kl_model_loop_fourbar reads it. */
@@ -1070,6 +1070,25 @@ typedef struct kl_transmission_skip {
  */
 KL_API int kl_model_transmission_skips(const kl_model *m,
                                        kl_transmission_skip *skips, int cap);
+
+/**
+ * Extremes of the static input effort (kl_input_effort) of input
+ * `effort_input` against the loads, while input `input` sweeps from `from`
+ * to `to` in `steps` steps as kl_solver_sweep does (with its branch guard),
+ * taken at the delivered steps. Fills `range` (set its size first): min and
+ * max with the swept input's values where they occur, the sweep's status and
+ * where the motion stopped. Returns KL_OK, or KL_LIMIT (the extremes of the
+ * part the motion reached) with the solver at the last delivered step as
+ * kl_output_range leaves it; on failure the state is left as it was:
+ * KL_EID (unknown input, effort input, or a load's point or link),
+ * KL_EKIND (a load of no known kind), KL_ENONFINITE, KL_EINVAL, and the
+ * errors of kl_solver_sweep (KL_ESINGULAR at a change point, the first
+ * step's position errors) and of kl_solve_coefficients. Never allocates.
+ */
+KL_API int kl_input_effort_range(kl_solver *s, int input, double from,
+                                 double to, int steps, int nloads,
+                                 const kl_load *loads, int effort_input,
+                                 kl_range *range);
 
 /* ------------------------------------------------------------------------
  * Design studies: tolerance Monte Carlo and design grids (the study file is

@@ -260,15 +260,10 @@ int kl_range_time_ratio(const kl_range *range, double *ratio) {
 
 /* ---- input effort by virtual work ---- */
 
-int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
-                    double *efforts) {
-  const kl_model *m;
-  int st, i, k;
+static int check_loads(kl_solver *s, int nloads, const kl_load *loads) {
+  const kl_model *m = s->model;
   char label[64];
-  if (s == NULL || efforts == NULL || nloads < 0 ||
-      (nloads > 0 && loads == NULL))
-    return KL_EINVAL;
-  m = s->model;
+  int k;
   for (k = 0; k < nloads; k++) {
     const kl_load *l = &loads[k];
     if (l->kind == KL_LOAD_FORCE) {
@@ -299,25 +294,115 @@ int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
                       k, l->kind);
     }
   }
-  if ((st = need_coefficients(s)) != KL_OK)
-    return st;
-  for (i = 0; i < s->ninputs; i++) {
-    const double *dx = s->coef1 + (size_t)i * (size_t)s->ncoords;
-    double work = 0.0;
-    for (k = 0; k < nloads; k++) {
-      const kl_load *l = &loads[k];
-      if (l->kind == KL_LOAD_FORCE) {
-        double dp[2];
-        kli_chain_rate(m, &m->topo.points[l->id], &s->st.pose, dx, dp);
-        work += l->fx * dp[0] + l->fy * dp[1];
-      } else {
-        work += l->torque * dx[l->id];
-      }
-    }
-    /* the input's virtual work balances the loads' */
-    efforts[i] = -work;
-  }
   return KL_OK;
+}
+
+/* The effort of the input whose first-order coefficients are dx: the
+ * input's virtual work balances the loads'. */
+static double effort_along(const kl_solver *s, const double *dx, int nloads,
+                           const kl_load *loads) {
+  const kl_model *m = s->model;
+  double work = 0.0;
+  int k;
+  for (k = 0; k < nloads; k++) {
+    const kl_load *l = &loads[k];
+    if (l->kind == KL_LOAD_FORCE) {
+      double dp[2];
+      kli_chain_rate(m, &m->topo.points[l->id], &s->st.pose, dx, dp);
+      work += l->fx * dp[0] + l->fy * dp[1];
+    } else {
+      work += l->torque * dx[l->id];
+    }
+  }
+  return -work;
+}
+
+int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
+                    double *efforts) {
+  int st, i;
+  if (s == NULL || efforts == NULL || nloads < 0 ||
+      (nloads > 0 && loads == NULL))
+    return KL_EINVAL;
+  if ((st = check_loads(s, nloads, loads)) != KL_OK ||
+      (st = need_coefficients(s)) != KL_OK)
+    return st;
+  for (i = 0; i < s->ninputs; i++)
+    efforts[i] = effort_along(s, s->coef1 + (size_t)i * (size_t)s->ncoords,
+                              nloads, loads);
+  return KL_OK;
+}
+
+/* What an effort range keeps while the sweep delivers its steps. */
+typedef struct {
+  kl_solver *s;
+  int input, effort_input, nloads, steps;
+  const kl_load *loads;
+  double min, max, at_min, at_max;
+} effort_search;
+
+static int track_effort(const kl_solver *cs, int step, double input,
+                        void *user) {
+  effort_search *e = user;
+  kl_solver *s = e->s; /* the same solver, which this search owns */
+  const double *dx = s->st.xd;
+  double effort;
+  (void)cs;
+  (void)step;
+  /* the sweep's unit-rate velocity is the swept input's first-order
+   * coefficient; another input's is one more solve with the same factors,
+   * kept out of the coefficient arrays so that a failure can restore them */
+  if (e->effort_input != e->input) {
+    memset(s->u_unit, 0, (size_t)s->ninputs * sizeof(double));
+    s->u_unit[e->effort_input] = 1.0;
+    kli_input_terms(s, s->u_unit, s->rhs);
+    kli_rate_solve(s, s->rhs, s->u_unit, s->xv);
+    dx = s->xv;
+  }
+  effort = effort_along(s, dx, e->nloads, e->loads);
+  if (e->steps == 0 || effort < e->min)
+    e->min = effort, e->at_min = input;
+  if (e->steps == 0 || effort > e->max)
+    e->max = effort, e->at_max = input;
+  e->steps++;
+  return 0;
+}
+
+int kl_input_effort_range(kl_solver *s, int input, double from, double to,
+                          int steps, int nloads, const kl_load *loads,
+                          int effort_input, kl_range *range) {
+  effort_search e;
+  kl_sweep_result sw;
+  kl_range out;
+  int st;
+  if (s == NULL || range == NULL || range->size < sizeof(range->size) ||
+      nloads < 0 || (nloads > 0 && loads == NULL))
+    return KL_EINVAL;
+  if ((st = check_input(s, effort_input, "input effort range")) != KL_OK ||
+      (st = check_loads(s, nloads, loads)) != KL_OK)
+    return st;
+  memset(&e, 0, sizeof e);
+  e.s = s;
+  e.input = input;
+  e.effort_input = effort_input;
+  e.nloads = nloads;
+  e.loads = loads;
+  sw.size = sizeof sw;
+  kli_state_keep(s);
+  st = kl_solver_sweep(s, input, from, to, steps, track_effort, &e, &sw);
+  if (st != KL_OK && st != KL_LIMIT) {
+    kli_state_back(s);
+    return st;
+  }
+  memset(&out, 0, sizeof out);
+  out.min = e.min;
+  out.max = e.max;
+  out.input_at_min = e.at_min;
+  out.input_at_max = e.at_max;
+  out.sweep_status = st;
+  out.limit_input = sw.limit_input;
+  out.size = range->size;
+  memcpy(range, &out, range->size < sizeof out ? range->size : sizeof out);
+  return st;
 }
 
 /* ---- dimensional sensitivity ---- */

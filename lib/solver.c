@@ -66,6 +66,7 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   carve_state(&t->extreme[0], c, nc, nl, ni);
   carve_state(&t->extreme[1], c, nc, nl, ni);
   carve_state(&t->previous, c, nc, nl, ni);
+  carve_state(&t->kept, c, nc, nl, ni);
   t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
   t->coef2 = kli_carve(c, (size_t)nc * (size_t)ni * (size_t)ni, sizeof(double));
   carve_pose(&t->trial[0], c, nc, nl);
@@ -306,6 +307,18 @@ void kli_state_changed(kl_solver *s) {
   s->st.velocity_solved = 0;
   s->st.acceleration_solved = 0;
   s->coefficients_solved = 0;
+}
+
+void kli_state_keep(kl_solver *s) {
+  kli_state_copy(s, &s->kept, &s->st);
+  s->kept_coefficients = s->coefficients_solved;
+}
+
+void kli_state_back(kl_solver *s) {
+  kli_state_restore(s, &s->kept);
+  /* the coefficient arrays were left alone: they still hold the kept
+   * position's */
+  s->coefficients_solved = s->kept_coefficients;
 }
 
 /* A sketch moves the state off the solved position. */

@@ -37,6 +37,9 @@ struct kl_solver {
   kli_state delivered;    /* the sweep's last delivered step */
   kli_state extreme[2];   /* states at the brackets of a range's extremes */
   kli_state previous;     /* the range search's step before the last */
+  kli_state kept;         /* what a call of several solves returns to when
+                             it fails (kli_state_keep) */
+  int kept_coefficients;  /* and whether its coefficients were solved */
   int coefficients_solved;
   int factors_current;    /* dense holds the factors at pose */
   int factors_near;       /* ... or at most one converging step from it */
@@ -78,5 +81,10 @@ int kli_check_input_values(kl_solver *s, const double *values,
                            const char *stage, const char *what);
 /* Marks the committed position as changed: every rate is stale. */
 void kli_state_changed(kl_solver *s);
+/* Keeps the committed state, so that a call of several solves that fails
+ * can leave the solver as it found it with kli_state_back. Between the
+ * two, nothing may write the coefficients. */
+void kli_state_keep(kl_solver *s);
+void kli_state_back(kl_solver *s);
 
 #endif
