@@ -421,6 +421,19 @@ KL_API double kl_model_joint_axis(const kl_model *m, int joint);
 KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /* ------------------------------------------------------------------------
+ * The model's start position
+ * ------------------------------------------------------------------------ */
+
+/**
+ * The model's start position into `inputs` (one per input): the start of
+ * its sweep settings for the input they sweep, 0 for the others (all 0
+ * without sweep settings). kl_solver_reach starts there. Returns KL_OK, or
+ * KL_EINVAL (NULL model, or NULL inputs for a model with inputs). Works
+ * before and after finalize; never allocates.
+ */
+KL_API int kl_model_start_inputs(const kl_model *m, double *inputs);
+
+/* ------------------------------------------------------------------------
  * Model files (the format is described in docs/model-format.md)
  * ------------------------------------------------------------------------ */
 
@@ -802,6 +815,87 @@ typedef struct kl_sweep_result {
 KL_API int kl_solver_sweep(kl_solver *s, int input, double from, double to,
                     int steps, kl_sweep_fn fn, void *user,
                     kl_sweep_result *result);
+
+/* ------------------------------------------------------------------------
+ * Going to a position; frames of links and joints
+ * ------------------------------------------------------------------------ */
+
+/**
+ * Puts the solver back in the state kl_solver_new gave it: the model's
+ * sketch (as kl_model_set_sketch_angle and kl_model_set_sketch_slide
+ * recorded it), no position, rates or coefficients solved, no inputs
+ * known, the statistics cleared. The options and the last message stay.
+ * Returns KL_OK, or KL_EINVAL for NULL. Never allocates.
+ */
+KL_API int kl_solver_reset(kl_solver *s);
+
+/** Outcome of kl_solver_reach. Set `size` to sizeof(kl_reach_result) first. */
+typedef struct kl_reach_result {
+  size_t size;        /**< sizeof(kl_reach_result), set by the caller */
+  int status;         /**< what kl_solver_reach returned */
+  int input;          /**< the input whose move stopped, or -1 when none
+                           did (the target reached, or no position to
+                           move from) */
+  double from;        /**< where that input's move began (NaN if none) */
+  double limit_input; /**< where it stopped: the motion limit or singular
+                           position the sweep located (NaN otherwise) */
+  int substeps;       /**< continuation steps of every move, sub-steps
+                           included */
+} kl_reach_result;
+
+/**
+ * Brings the solver to the target `inputs` (one per input; NULL when the
+ * model has none) by continuation, so that the assembly mode stays the one
+ * it starts in: from the position last solved, or, when none is (a new or
+ * reset solver, or one whose sketch changed since), from a position solved
+ * from the solver's sketch at the model's start inputs
+ * (kl_model_start_inputs); when even that does not solve, the target is
+ * solved directly from the sketch. Each input moves in turn, in input
+ * order, the others held, swept as kl_solver_sweep does (branch guard
+ * included) in steps of at most 2 degrees of a turning input or 0.02 of the
+ * model's scale of a sliding one; then the position is solved at the target
+ * itself, and no rates are solved there.
+ * Fills `result` (may be NULL). Returns KL_OK, or on failure leaves the
+ * state exactly as it was and returns:
+ *  KL_ENOASSEMBLY  a move stops at a motion limit (a toggle or dead point
+ *                  of that input; result->input, from and limit_input say
+ *                  where), or no position solves at the start nor directly
+ *                  at the target
+ *  KL_ESINGULAR    a move meets a singular position (a change point) it
+ *                  cannot pass without choosing a branch at random
+ *                  (result as above), or the target itself is singular
+ *  KL_EMAXITER, KL_ENONFINITE, KL_EINVAL: as kl_solver_sweep and
+ *                  kl_solve_position.
+ * The message names the input and where its move stopped. Never
+ * allocates. kl_solver_reset followed by kl_solver_reach goes to the
+ * target from the model's start, whatever the solver did before.
+ */
+KL_API int kl_solver_reach(kl_solver *s, const double *inputs,
+                           kl_reach_result *result);
+
+/**
+ * Global position of the point `local` of link `link`'s frame (local and
+ * xy may be the same array), at the solver's current state. KL_OK, KL_EID,
+ * KL_EINVAL.
+ */
+KL_API int kl_link_to_global(const kl_solver *s, int link,
+                             const double local[2], double xy[2]);
+
+/**
+ * Global position of a joint: its attachment point on its link b (for a
+ * revolute joint at a solved position, the same as on a; for a sliding
+ * joint, the point that runs on the line). KL_OK, KL_EID, KL_EINVAL.
+ */
+KL_API int kl_joint_position(const kl_solver *s, int joint, double xy[2]);
+
+/** Global velocity of a link's frame origin (kl_link_origin). KL_OK,
+ * KL_EID, KL_EINVAL, KL_ESTAGE. */
+KL_API int kl_link_origin_velocity(const kl_solver *s, int link,
+                                   double xy[2]);
+
+/** Global acceleration of a link's frame origin. KL_OK, KL_EID,
+ * KL_EINVAL, KL_ESTAGE. */
+KL_API int kl_link_origin_accel(const kl_solver *s, int link, double xy[2]);
 
 /* ------------------------------------------------------------------------
  * Design figures

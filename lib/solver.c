@@ -1,6 +1,6 @@
 /*
- * solver.c - creating a solver in one sized block, its options, the sketch
- * setters, and the getters of the committed position.
+ * solver.c - creating (and resetting) a solver in one sized block, its
+ * options, the sketch setters, the getters of the committed position.
  */
 #include <math.h>
 #include <string.h>
@@ -112,6 +112,38 @@ size_t kl_solver_bytes(const kl_model *m) {
   return c.used;
 }
 
+/* The state a new solver starts in: the model's sketch, in id order as
+ * the caller's would be, and nothing solved. */
+static void start_state(kl_solver *s) {
+  const kl_model *m = s->model;
+  size_t nc = (size_t)s->ncoords * sizeof(double);
+  size_t ni = (size_t)s->ninputs * sizeof(double);
+  int i;
+  memset(s->st.xd, 0, nc);
+  memset(s->st.xdd, 0, nc);
+  memset(s->st.u, 0, ni);
+  memset(s->st.ud, 0, ni);
+  memset(s->st.udd, 0, ni);
+  s->st.position_solved = s->st.inputs_known = 0;
+  s->st.velocity_solved = s->st.acceleration_solved = 0;
+  s->st.rcond = 0.0;
+  s->coefficients_solved = 0;
+  s->factors_current = s->factors_near = 0;
+  s->have_previous = 0;
+  kli_pose_forget_trig(m, &s->st.pose);
+  kli_expand(m, NULL, NULL, s->st.pose.x);
+  kli_pose_trig(m, &s->st.pose);
+  for (i = 1; i < m->nlinks; i++)
+    if (m->links[i].has_sketch)
+      kl_set_link_angle(s, i, m->links[i].sketch);
+  for (i = 0; i < m->njoints; i++)
+    if (m->joints[i].has_sketch)
+      kl_set_joint_slide(s, i, m->joints[i].sketch);
+  s->st.last_attempt = KL_OK;
+  memset(&s->stats, 0, sizeof s->stats);
+  s->stats.size = sizeof s->stats;
+}
+
 static kl_solver *place(const kl_model *m, void *block, size_t size,
                         int owns) {
   kli_carver c;
@@ -135,18 +167,7 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   kli_dense_init(&s->dense, s->rhs, s->opt.kernel);
   for (i = 0; i < 2; i++)
     kli_pose_forget_trig(m, &s->trial[i]);
-  kli_pose_forget_trig(m, &s->st.pose);
-  kli_expand(m, NULL, NULL, s->st.pose.x);
-  kli_pose_trig(m, &s->st.pose);
-  /* the model's sketch, in id order, as the caller's would be */
-  for (i = 1; i < m->nlinks; i++)
-    if (m->links[i].has_sketch)
-      kl_set_link_angle(s, i, m->links[i].sketch);
-  for (i = 0; i < m->njoints; i++)
-    if (m->joints[i].has_sketch)
-      kl_set_joint_slide(s, i, m->joints[i].sketch);
-  s->st.last_attempt = KL_OK;
-  s->stats.size = sizeof s->stats;
+  start_state(s);
   return s;
 }
 
@@ -170,6 +191,13 @@ kl_solver *kl_solver_new_in(const kl_model *m, void *block, size_t size) {
 void kl_solver_free(kl_solver *s) {
   if (s != NULL && s->owns_block)
     kli_free(&s->model->alloc, s->block, s->block_size);
+}
+
+int kl_solver_reset(kl_solver *s) {
+  if (s == NULL)
+    return KL_EINVAL;
+  start_state(s);
+  return KL_OK;
 }
 
 const kl_model *kl_solver_model(const kl_solver *s) {
@@ -437,6 +465,34 @@ int kl_link_origin(const kl_solver *s, int link, double xy[2]) {
     return KL_EID;
   kli_chain_value(s->model, &s->model->topo.origins[link], &s->st.pose, xy);
   return KL_OK;
+}
+
+int kl_link_to_global(const kl_solver *s, int link, const double local[2],
+                      double xy[2]) {
+  double origin[2], x, y, c, sn;
+  if (s == NULL || local == NULL || xy == NULL)
+    return KL_EINVAL;
+  if (link < 0 || link >= s->model->nlinks)
+    return KL_EID;
+  x = local[0]; /* local and xy may be the same array */
+  y = local[1];
+  kli_chain_value(s->model, &s->model->topo.origins[link], &s->st.pose,
+                  origin);
+  c = s->st.pose.c[link];
+  sn = s->st.pose.s[link];
+  xy[0] = origin[0] + c * x - sn * y;
+  xy[1] = origin[1] + sn * x + c * y;
+  return KL_OK;
+}
+
+int kl_joint_position(const kl_solver *s, int joint, double xy[2]) {
+  const kli_joint *j;
+  if (s == NULL || xy == NULL)
+    return KL_EINVAL;
+  if (joint < 0 || joint >= s->model->njoints)
+    return KL_EID;
+  j = &s->model->joints[joint];
+  return kl_link_to_global(s, j->link[1], j->at[1], xy);
 }
 
 int kl_solver_copy_state(kl_solver *to, const kl_solver *from) {
