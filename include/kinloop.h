@@ -421,7 +421,7 @@ KL_API double kl_model_joint_axis(const kl_model *m, int joint);
 KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /* ------------------------------------------------------------------------
- * The model's start position
+ * The model's start position, and the layout of a row of every quantity
  * ------------------------------------------------------------------------ */
 
 /**
@@ -432,6 +432,65 @@ KL_API int kl_model_input_joint(const kl_model *m, int input);
  * before and after finalize; never allocates.
  */
 KL_API int kl_model_start_inputs(const kl_model *m, double *inputs);
+
+/**
+ * The quantities of a row (kl_solver_row), in the order a row holds them:
+ * one block per quantity, and in each block one value per item: per input
+ * in input order, per link by id (ground, link 0, included), per joint by
+ * id, per point by id, per transmission site in the order of
+ * kl_model_transmissions, or one value for the whole state. The values are
+ * those of the single getters named below, NaN where they give NaN or a
+ * status other than KL_OK (a stage not solved, a slide of a revolute
+ * joint). Later versions add quantities after the last; find a block with
+ * kl_model_row_offset, never by counting by hand.
+ */
+enum kl_quantity {
+  KL_QUANTITY_INPUT_VALUE = 0,        /**< kl_input_value */
+  KL_QUANTITY_INPUT_RATE = 1,         /**< the rates kl_solve_velocity was
+                                           given at this position */
+  KL_QUANTITY_INPUT_ACCEL = 2,        /**< the accelerations
+                                           kl_solve_acceleration was given */
+  KL_QUANTITY_LINK_ANGLE = 3,         /**< kl_link_angle */
+  KL_QUANTITY_LINK_RATE = 4,          /**< kl_link_rate */
+  KL_QUANTITY_LINK_ACCEL = 5,         /**< kl_link_accel */
+  KL_QUANTITY_JOINT_ANGLE = 6,        /**< kl_joint_angle */
+  KL_QUANTITY_JOINT_SLIDE = 7,        /**< kl_joint_slide */
+  KL_QUANTITY_JOINT_SLIDE_RATE = 8,   /**< kl_joint_slide_rate */
+  KL_QUANTITY_JOINT_SLIDE_ACCEL = 9,  /**< kl_joint_slide_accel */
+  KL_QUANTITY_POINT_X = 10,           /**< x of kl_point_position */
+  KL_QUANTITY_POINT_Y = 11,           /**< y of kl_point_position */
+  KL_QUANTITY_POINT_VX = 12,          /**< x of kl_point_velocity */
+  KL_QUANTITY_POINT_VY = 13,          /**< y of kl_point_velocity */
+  KL_QUANTITY_POINT_AX = 14,          /**< x of kl_point_acceleration */
+  KL_QUANTITY_POINT_AY = 15,          /**< y of kl_point_acceleration */
+  KL_QUANTITY_TRANSMISSION = 16,      /**< kl_output_value of each site */
+  KL_QUANTITY_RCOND = 17              /**< one value: the condition
+                                           estimate of the Jacobian at the
+                                           position solved (as in
+                                           kl_solve_stats), NaN if none */
+};
+
+/**
+ * "input_value", "link_angle", ... "rcond": a quantity's name, its enum
+ * value's in lower case without the prefix (usable as a field name), or
+ * NULL for a number that is no quantity. Static text.
+ */
+KL_API const char *kl_quantity_str(int quantity);
+
+/**
+ * The number of values in a row of the finalized model: the sum of every
+ * quantity's block. Returns it, or KL_ESTATE (not finalized), KL_EINVAL.
+ */
+KL_API int kl_model_row_size(const kl_model *m);
+
+/**
+ * Where quantity `quantity`'s block starts in a row, with its number of
+ * values into `*count` (may be NULL). Returns the offset (>= 0), or KL_EID
+ * for a number that is no quantity (the quantities are numbered from 0
+ * without gaps, so the first KL_EID marks the end), KL_ESTATE (not
+ * finalized), KL_EINVAL.
+ */
+KL_API int kl_model_row_offset(const kl_model *m, int quantity, int *count);
 
 /* ------------------------------------------------------------------------
  * Model files (the format is described in docs/model-format.md)
@@ -817,7 +876,7 @@ KL_API int kl_solver_sweep(kl_solver *s, int input, double from, double to,
                     kl_sweep_result *result);
 
 /* ------------------------------------------------------------------------
- * Going to a position; frames of links and joints
+ * Going to a position; frames of links and joints; rows of every quantity
  * ------------------------------------------------------------------------ */
 
 /**
@@ -896,6 +955,28 @@ KL_API int kl_link_origin_velocity(const kl_solver *s, int link,
 /** Global acceleration of a link's frame origin. KL_OK, KL_EID,
  * KL_EINVAL, KL_ESTAGE. */
 KL_API int kl_link_origin_accel(const kl_solver *s, int link, double xy[2]);
+
+/**
+ * Every quantity of the solver's current state into `row`, laid out as
+ * enum kl_quantity says (kl_model_row_size values): one call instead of a
+ * getter per value, for recorders, files and bindings. Returns KL_OK or
+ * KL_EINVAL (NULL). Never allocates.
+ */
+KL_API int kl_solver_row(const kl_solver *s, double *row);
+
+/**
+ * kl_solver_sweep without a callback: the row of every delivered step
+ * (kl_solver_row at that step, with its unit-rate velocity and
+ * acceleration) into rows[k * kl_model_row_size(m) ...] for step k, so that
+ * a sweep is read at C speed. `rows` has room for steps + 1 rows; when
+ * steps >= 1, the rows of steps not delivered (after a limit or a failure)
+ * are NaN. Returns, and writes into `result` (may be NULL), what
+ * kl_solver_sweep does (never KL_STOPPED), and KL_EINVAL for NULL rows.
+ * Never allocates.
+ */
+KL_API int kl_solver_sweep_rows(kl_solver *s, int input, double from,
+                                double to, int steps, double *rows,
+                                kl_sweep_result *result);
 
 /* ------------------------------------------------------------------------
  * Design figures
