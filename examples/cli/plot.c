@@ -8,11 +8,10 @@
 
 #include "cli.h"
 
-#define USUAL_LOW_DEG 40.0  /* transmission angle rule of thumb      */
-#define USUAL_HIGH_DEG 140.0 /* (common practice, no source)          */
 
 typedef struct {
-  int column;
+  int column; /* of the sweep command's CSV, for the name and unit */
+  int at;     /* its place in a row */
   int transmission;
   char label[400]; /* what the legend and the axis call it */
 } series;
@@ -23,6 +22,7 @@ typedef struct {
   const series *s;
   const double *factor;
   double xfactor;
+  int x_at; /* the swept input's place in a row */
 } samples;
 
 static int find_label(char **names, int from, int n, const char *text) {
@@ -42,7 +42,7 @@ void cli_list_outputs(FILE *f, const cli_model *cm) {
   for (i = 0; i < cm->npoints; i++)
     fprintf(f, "  x:%s\n  y:%s\n", cm->point_names[i], cm->point_names[i]);
   for (i = 0; i < cm->nsites; i++)
-    fprintf(f, "  transmission:%s\n", cm->joint_names[cm->sites[i].joint]);
+    fprintf(f, "  transmission:%s\n", cm->joint_names[cm->sites[i].id]);
 }
 
 /* Reads one --show OUTPUT. Returns 0, or -1 after printing why. */
@@ -79,7 +79,7 @@ static int parse_series(const cli_model *cm, const char *spec, int order,
     out->column = cli_col_point(cm, id, kind[0] == 'y', order);
   } else if (strcmp(kind, "transmission") == 0) {
     for (k = 0; k < cm->nsites; k++)
-      if (strcmp(cm->joint_names[cm->sites[k].joint], name) == 0)
+      if (strcmp(cm->joint_names[cm->sites[k].id], name) == 0)
         break;
     if (k == cm->nsites)
       goto unknown;
@@ -103,6 +103,7 @@ static int parse_series(const cli_model *cm, const char *spec, int order,
     return -1;
   }
   cli_columns(cm, input, cols);
+  out->at = cols[out->column].at;
   {
     const cli_column *c = &cols[out->column];
     char base[300];
@@ -142,9 +143,9 @@ static int sample_row(void *user, int step, const double *row) {
     d->y = y;
     d->cap = cap;
   }
-  d->x[d->n] = row[0] * d->xfactor;
+  d->x[d->n] = row[d->x_at] * d->xfactor;
   for (k = 0; k < d->nseries; k++)
-    d->y[d->n * d->nseries + k] = row[d->s[k].column] * d->factor[k];
+    d->y[d->n * d->nseries + k] = row[d->s[k].at] * d->factor[k];
   d->n++;
   return 0;
 }
@@ -174,8 +175,8 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
     all_sites &= s[k].transmission;
   }
   if (band) {
-    band_lo = USUAL_LOW_DEG * CLI_PI / 180 * cm->angle_factor;
-    band_hi = USUAL_HIGH_DEG * CLI_PI / 180 * cm->angle_factor;
+    band_lo = CLI_USUAL_LOW_DEG * CLI_PI / 180 * cm->angle_factor;
+    band_hi = CLI_USUAL_HIGH_DEG * CLI_PI / 180 * cm->angle_factor;
     c.y.lo = fmin(c.y.lo, band_lo);
     c.y.hi = fmax(c.y.hi, band_hi);
   }
@@ -212,7 +213,7 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
             "<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" fill=\"#4d7040\">"
             "usual range %g-%g deg</text>\n",
             c.x.from, y1, c.x.to - c.x.from, y0 - y1, c.x.from + 6, y1 + 14,
-            USUAL_LOW_DEG, USUAL_HIGH_DEG);
+            CLI_USUAL_LOW_DEG, CLI_USUAL_HIGH_DEG);
   }
   chart_ticks(f, &c);
   /* the curves */
@@ -323,6 +324,7 @@ int cli_cmd_plot(const cli_model *cm, const cli_options *o) {
   d.s = s;
   d.factor = factor;
   d.xfactor = cli_input_factor(cm, r.input);
+  d.x_at = cli_row_at(cm, KL_QUANTITY_INPUT_VALUE, r.input);
   st = cli_record(sv, cm, &r, sample_row, &d, &res);
   if (st == KL_STOPPED || st == KL_ENOMEM)
     goto nomem;

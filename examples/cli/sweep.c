@@ -1,5 +1,5 @@
 /*
- * csv.c - the sweep command: one CSV row per step of a sweep, every
+ * sweep.c - the sweep command: one CSV row per step of a sweep, every
  * quantity in the model's units, rates per second at the given speed.
  */
 #include <stdlib.h>
@@ -10,6 +10,7 @@
 typedef struct {
   FILE *f;
   int ncols;
+  const cli_column *cols;
   const double *factor;
   const char *format;
 } csv_sink;
@@ -36,7 +37,7 @@ static int put_row(void *user, int step, const double *row) {
   for (i = 0; i < k->ncols; i++) {
     if (i > 0)
       fputc(',', k->f);
-    fprintf(k->f, k->format, row[i] * k->factor[i]);
+    fprintf(k->f, k->format, row[k->cols[i].at] * k->factor[i]);
   }
   fputc('\n', k->f);
   return ferror(k->f) != 0; /* a full disk stops the sweep */
@@ -87,6 +88,7 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
     cli_csv_field(sink.f, name);
   }
   fputc('\n', sink.f);
+  sink.cols = cols;
   sink.factor = factor;
   sink.format = o->all_digits ? "%.17g" : "%.6g";
   st = cli_record(s, cm, &r, put_row, &sink, &res);
