@@ -208,19 +208,33 @@ void cli_csv_field(FILE *f, const char *text);
 /* ---- write.c ---- */
 int cli_cmd_write(const cli_model *cm, const cli_options *o);
 
-/* ---- svg.c: shared SVG writing ---- */
+/* ---- svg.c: what the drawing, the plots and the study charts share ---- */
+#define SVG_FONT "DejaVu Sans, Verdana, sans-serif"
+#define SVG_INK "#2f2a24"   /* lines and text */
+#define SVG_MUTED "#6a6256" /* subtitles, secondary text */
+#define SVG_PAPER "#f7f4ec" /* the page */
 void svg_begin(FILE *f, double width, double height, const char *background);
 void svg_end(FILE *f);
 void svg_escaped(FILE *f, const char *s);
 const char *svg_colour(int k);
-#define SVG_FONT "DejaVu Sans, Verdana, sans-serif"
-#define SVG_INK "#2f2a24"
+/* A text element at (x, y): its start tag, with `attrs` (NULL for none)
+ * added, for a caller that writes the content and "</text>"; or all of it
+ * with `text` escaped. */
+void svg_text_open(FILE *f, double x, double y, double size,
+                   const char *colour, const char *attrs);
+void svg_text(FILE *f, double x, double y, double size, const char *colour,
+              const char *attrs, const char *text);
+/* A key entry: a short line (dashed with `dash`, NULL for solid) and its
+ * text, the text's baseline at y. */
+void svg_key(FILE *f, double x, double y, const char *colour,
+             const char *dash, const char *text);
+/* 1, 2 or 5 times a power of ten: the least not below v (up), or the
+ * greatest not above it. For ticks and scale bars. */
+double svg_round_125(double v, int up);
 
-/* ---- chart.c: a panel in data coordinates, shared by plots and study
- * charts ---- */
+/* The panel of a plot or chart, in data coordinates. */
 #define CHART_WIDTH 760.0
 #define CHART_HEIGHT 470.0
-#define CHART_PAPER "#f7f4ec"
 #define CHART_PANEL "#fffdf8"
 #define CHART_ALARM "#a3312a" /* marks what stops or fails */
 typedef struct {

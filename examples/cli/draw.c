@@ -17,8 +17,8 @@
 #define JOINT_PX 5.5 /* joint marker radius */
 #define BAR_PX 7.0   /* binary link width */
 #define OUTLINE_PX 3.0 /* stroke of a plate-shaped link */
-#define PAPER "#f7f4ec"
 #define GHOST_OPACITY 0.3
+#define JOINT_NAME_COLOUR "#8a8174"
 
 /* A position as drawn, every place global (from the library's frames). */
 typedef struct {
@@ -450,16 +450,6 @@ static void screen(const view *v, const double xy[2], double *sx, double *sy) {
   *sy = v->ty - v->s * xy[1];
 }
 
-/* A round length near a fifth of the drawing's width, for the scale bar. */
-static double scale_bar_length(double width) {
-  double target = width / 5, step = pow(10, floor(log10(target)));
-  if (5 * step <= target)
-    return 5 * step;
-  if (2 * step <= target)
-    return 2 * step;
-  return step;
-}
-
 static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
                       int nposes, const paths *p, const outline *o,
                       const cli_range *r, int have_range) {
@@ -467,6 +457,7 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   box b;
   view v;
   double width, height, draw_w, draw_h, u, bar, bx, by, centre[2];
+  char text[320];
   int k, i, j;
   b.empty = 1;
   b.x0 = b.y0 = b.x1 = b.y1 = 0;
@@ -518,14 +509,9 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   centre[0] = 0.5 * (b.x0 + b.x1);
   centre[1] = 0.5 * (b.y0 + b.y1);
 
-  svg_begin(f, width, height, PAPER);
-  fprintf(f, "<text x=\"%g\" y=\"26\" font-size=\"17\" font-weight=\"bold\" "
-             "fill=\"%s\">",
-          MARGIN, SVG_INK);
-  svg_escaped(f, cm->label);
-  fprintf(f, "</text>\n<text x=\"%g\" y=\"45\" font-size=\"12\" "
-             "fill=\"#6a6256\">",
-          MARGIN);
+  svg_begin(f, width, height, SVG_PAPER);
+  svg_text(f, MARGIN, 26, 17, SVG_INK, "font-weight=\"bold\"", cm->label);
+  svg_text_open(f, MARGIN, 45, 12, SVG_MUTED, NULL);
   if (cm->ninputs == 1) {
     svg_escaped(f, cli_input_name(cm, 0));
     fprintf(f, " at");
@@ -538,7 +524,6 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
     for (k = 0; k < nposes; k++) {
       fprintf(f, "%s", k ? "; " : " ");
       for (i = 0; i < cm->ninputs; i++) {
-        char text[320];
         cli_format_input(cm, i, poses[k].inputs[i], text, sizeof text);
         fprintf(f, "%s", i ? ", " : "");
         svg_escaped(f, text);
@@ -601,12 +586,8 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   for (i = 0; i < cm->npoints; i++) {
     double sx, sy;
     screen(&v, poses[0].point_xy + 2 * i, &sx, &sy);
-    fprintf(f,
-            "<text x=\"%.2f\" y=\"%.2f\" font-size=\"12\" font-style=\"italic\" "
-            "fill=\"%s\">",
-            sx + 8, sy - 7, svg_colour(i + 4));
-    svg_escaped(f, cm->point_names[i]);
-    fprintf(f, "</text>\n");
+    svg_text(f, sx + 8, sy - 7, 12, svg_colour(i + 4), "font-style=\"italic\"",
+             cm->point_names[i]);
   }
   for (j = 0; j < cm->njoints; j++) {
     double sx, sy, ox, oy;
@@ -617,34 +598,24 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
       if (fabs(ox - sx) < 2 && fabs(oy - sy) < 2)
         below++;
     }
-    fprintf(f,
-            "<text x=\"%.2f\" y=\"%.2f\" font-size=\"10\" fill=\"#8a8174\">",
-            sx + 7, sy + 15 + 11 * below);
-    svg_escaped(f, cm->joint_names[j]);
-    fprintf(f, "</text>\n");
+    svg_text(f, sx + 7, sy + 15 + 11 * below, 10, JOINT_NAME_COLOUR, NULL,
+             cm->joint_names[j]);
   }
   /* footer: a scale bar and the key to the paths */
-  bar = scale_bar_length((b.x1 - b.x0));
+  bar = svg_round_125((b.x1 - b.x0) / 5, 0);
   bx = width - MARGIN - bar * v.s;
   by = height - 20;
   fprintf(f,
           "<line x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" stroke=\"%s\" "
-          "stroke-width=\"3\"/>\n<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" "
-          "text-anchor=\"middle\" fill=\"%s\">%g %s</text>\n",
-          bx, by, bx + bar * v.s, by, SVG_INK, bx + 0.5 * bar * v.s, by - 7,
-          SVG_INK, bar, cm->length_unit);
+          "stroke-width=\"3\"/>\n",
+          bx, by, bx + bar * v.s, by, SVG_INK);
+  snprintf(text, sizeof text, "%g %s", bar, cm->length_unit);
+  svg_text(f, bx + 0.5 * bar * v.s, by - 7, 11, SVG_INK,
+           "text-anchor=\"middle\"", text);
   if (p->n > 1)
     for (i = 0; i < cm->npoints && i < 6; i++) {
-      double x = MARGIN + 150.0 * i;
-      fprintf(f,
-              "<line x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" "
-              "stroke=\"%s\" stroke-width=\"2\" stroke-dasharray=\"6,3\"/>\n"
-              "<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" fill=\"%s\">path "
-              "of ",
-              x, by - 4, x + 24, by - 4, svg_colour(i + 4), x + 30, by,
-              SVG_INK);
-      svg_escaped(f, cm->point_names[i]);
-      fprintf(f, "</text>\n");
+      snprintf(text, sizeof text, "path of %s", cm->point_names[i]);
+      svg_key(f, MARGIN + 150.0 * i, by, svg_colour(i + 4), "6,3", text);
     }
   svg_end(f);
 }

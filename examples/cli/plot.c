@@ -194,13 +194,7 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
   {
     double x = c.x.from;
     for (k = 0; k < ns; k++) {
-      fprintf(f,
-              "<line x1=\"%.2f\" y1=\"43\" x2=\"%.2f\" y2=\"43\" stroke=\"%s\" "
-              "stroke-width=\"2.5\"/><text x=\"%.2f\" y=\"47\" "
-              "font-size=\"12\" fill=\"%s\">",
-              x, x + 22, svg_colour(k), x + 27, SVG_INK);
-      svg_escaped(f, s[k].label);
-      fprintf(f, "</text>\n");
+      svg_key(f, x, 47, svg_colour(k), NULL, s[k].label);
       x += 40 + 6.6 * (double)strlen(s[k].label);
     }
   }
@@ -209,11 +203,11 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
     double y1 = chart_map(&c.y, band_hi), y0 = chart_map(&c.y, band_lo);
     fprintf(f,
             "<rect class=\"usual-range\" x=\"%g\" y=\"%.2f\" width=\"%g\" "
-            "height=\"%.2f\" fill=\"#cfe3c4\" fill-opacity=\"0.6\"/>\n"
-            "<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" fill=\"#4d7040\">"
-            "usual range %g-%g deg</text>\n",
-            c.x.from, y1, c.x.to - c.x.from, y0 - y1, c.x.from + 6, y1 + 14,
-            CLI_USUAL_LOW_DEG, CLI_USUAL_HIGH_DEG);
+            "height=\"%.2f\" fill=\"#cfe3c4\" fill-opacity=\"0.6\"/>\n",
+            c.x.from, y1, c.x.to - c.x.from, y0 - y1);
+    snprintf(text, sizeof text, "usual range %g-%g deg", CLI_USUAL_LOW_DEG,
+             CLI_USUAL_HIGH_DEG);
+    svg_text(f, c.x.from + 6, y1 + 14, 11, "#4d7040", NULL, text);
   }
   chart_ticks(f, &c);
   /* the curves */
