@@ -3,7 +3,6 @@
  * with their Grashof class, and the joints where transmission angles count.
  */
 #include <math.h>
-#include <string.h>
 
 #include "model.h"
 
@@ -68,14 +67,6 @@ static double span(const kl_model *m, int link, int j1, int j2) {
   return hypot(p[0] - q[0], p[1] - q[1]);
 }
 
-static int input_of(const kl_model *m, int joint) {
-  int i;
-  for (i = 0; i < m->ninputs; i++)
-    if (m->inputs[i] == joint)
-      return i;
-  return -1;
-}
-
 /* ---- four-bar loops ---- */
 
 /*
@@ -101,8 +92,8 @@ static int loop_fourbar(const kl_model *m, int loop, kl_fourbar *fb) {
   if (g < 0)
     return KL_EKIND;
   /* side 0: the input drives joints[g], side 1: joints[g + 1] */
-  side = input_of(m, joints[g]) >= 0 ? 0
-         : input_of(m, joints[(g + 1) % 4]) >= 0 ? 1
+  side = kli_input_of(m, joints[g]) >= 0 ? 0
+         : kli_input_of(m, joints[(g + 1) % 4]) >= 0 ? 1
                                                  : -1;
   if (side < 0)
     return KL_EKIND;
@@ -114,7 +105,7 @@ static int loop_fourbar(const kl_model *m, int loop, kl_fourbar *fb) {
     l[k] = side == 0 ? links[(at + 3) % 4] : links[at];
   }
   fb->loop = loop;
-  fb->input = input_of(m, j[0]);
+  fb->input = kli_input_of(m, j[0]);
   fb->input_joint = j[0];
   fb->output_joint = j[3];
   fb->input_link = l[0];
@@ -131,7 +122,6 @@ static int loop_fourbar(const kl_model *m, int loop, kl_fourbar *fb) {
 
 int kl_model_loop_fourbar(const kl_model *m, int loop, kl_fourbar *fourbar) {
   kl_fourbar fb;
-  size_t n;
   int st;
   if (m == NULL || fourbar == NULL || fourbar->size < sizeof(fourbar->size))
     return KL_EINVAL;
@@ -141,9 +131,7 @@ int kl_model_loop_fourbar(const kl_model *m, int loop, kl_fourbar *fourbar) {
     return KL_EID;
   if ((st = loop_fourbar(m, loop, &fb)) != KL_OK)
     return st;
-  n = fourbar->size < sizeof fb ? fourbar->size : sizeof fb;
-  fb.size = n;
-  memcpy(fourbar, &fb, n);
+  kli_copy_sized(fourbar, &fb, sizeof fb);
   return KL_OK;
 }
 

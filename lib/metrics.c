@@ -237,8 +237,7 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
       out.max = value, out.input_at_max = at;
   }
   kli_state_restore(s, &s->delivered);
-  out.size = range->size;
-  memcpy(range, &out, range->size < sizeof out ? range->size : sizeof out);
+  kli_copy_sized(range, &out, sizeof out);
   return st;
 }
 
@@ -400,8 +399,7 @@ int kl_input_effort_range(kl_solver *s, int input, double from, double to,
   out.input_at_max = e.at_max;
   out.sweep_status = st;
   out.limit_input = sw.limit_input;
-  out.size = range->size;
-  memcpy(range, &out, range->size < sizeof out ? range->size : sizeof out);
+  kli_copy_sized(range, &out, sizeof out);
   return st;
 }
 

@@ -156,6 +156,8 @@ int kli_loop_links(const kl_model *m, int n, const int *joints,
                    int *links_after);
 /* 1 for prismatic and slot joints. */
 int kli_is_sliding(int kind);
+/* The input that drives `joint`, or -1. */
+int kli_input_of(const kl_model *m, int joint);
 /* An unfinalized copy of m's record (links, joints, points, inputs,
  * registered loops, names, units, sketch, sweep), with m's allocator;
  * NULL when memory runs out. */

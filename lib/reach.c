@@ -30,17 +30,14 @@ int kl_model_start_inputs(const kl_model *m, double *inputs) {
 static void finish(kl_reach_result *result, int status, int input,
                    double from, double limit, int substeps) {
   kl_reach_result r;
-  size_t n;
   if (result == NULL || result->size < sizeof(result->size))
     return;
-  r.size = result->size;
   r.status = status;
   r.input = input;
   r.from = from;
   r.limit_input = limit;
   r.substeps = substeps;
-  n = result->size < sizeof r ? result->size : sizeof r;
-  memcpy(result, &r, n);
+  kli_copy_sized(result, &r, sizeof r);
 }
 
 /* Moves input i from its value now to `target`, the others held. */
@@ -56,17 +53,13 @@ static int move(kl_solver *s, int i, double target, kl_sweep_result *sw) {
   int st;
   sw->size = sizeof *sw;
   st = kl_solver_sweep(s, i, from, target, steps, NULL, NULL, sw);
-  if (st == KL_LIMIT)
-    return kli_fail(s->error, KL_ENOASSEMBLY,
-                    "reach: input %d (%s) stops at a motion limit at %.12g "
-                    "on its way from %.12g to %.12g",
+  if (st == KL_LIMIT || st == KL_ESINGULAR)
+    return kli_fail(s->error, st == KL_LIMIT ? KL_ENOASSEMBLY : KL_ESINGULAR,
+                    "reach: input %d (%s) %s at %.12g on its way from %.12g "
+                    "to %.12g",
                     i, kli_joint_label(m, m->inputs[i], lj, sizeof lj),
-                    sw->limit_input, from, target);
-  if (st == KL_ESINGULAR)
-    return kli_fail(s->error, KL_ESINGULAR,
-                    "reach: input %d (%s) meets a singular position at "
-                    "%.12g on its way from %.12g to %.12g",
-                    i, kli_joint_label(m, m->inputs[i], lj, sizeof lj),
+                    st == KL_LIMIT ? "stops at a motion limit"
+                                   : "meets a singular position",
                     sw->limit_input, from, target);
   return st; /* the sweep's own message stands */
 }

@@ -3,7 +3,6 @@
  * a model's rows, a state read into a row, a sweep read into rows.
  */
 #include <math.h>
-#include <string.h>
 
 #include "outputs.h"
 
@@ -140,7 +139,7 @@ int kl_solver_sweep_rows(kl_solver *s, int input, double from, double to,
                          int steps, double *rows, kl_sweep_result *result) {
   kl_sweep_result sw;
   row_sink sink;
-  size_t k, n;
+  size_t k;
   int st;
   if (s == NULL || rows == NULL)
     return KL_EINVAL;
@@ -152,10 +151,7 @@ int kl_solver_sweep_rows(kl_solver *s, int input, double from, double to,
     for (k = (size_t)sw.steps_done * sink.size;
          k < ((size_t)steps + 1) * sink.size; k++)
       rows[k] = NAN;
-  if (result != NULL && result->size >= sizeof(result->size)) {
-    n = result->size < sizeof sw ? result->size : sizeof sw;
-    sw.size = result->size;
-    memcpy(result, &sw, n);
-  }
+  if (result != NULL && result->size >= sizeof(result->size))
+    kli_copy_sized(result, &sw, sizeof sw);
   return st;
 }

@@ -275,12 +275,9 @@ int kl_solver_options(const kl_solver *s, kl_options *o) {
 }
 
 int kl_solver_stats(const kl_solver *s, kl_solve_stats *st) {
-  size_t n;
   if (s == NULL || st == NULL || st->size < sizeof(st->size))
     return KL_EINVAL;
-  n = st->size < sizeof *st ? st->size : sizeof *st;
-  memcpy((char *)st + sizeof st->size, (const char *)&s->stats + sizeof st->size,
-         n - sizeof st->size);
+  kli_copy_sized(st, &s->stats, sizeof s->stats);
   return KL_OK;
 }
 

@@ -227,19 +227,11 @@ static int mobility(kl_model *m, int *dof) {
   return KL_OK;
 }
 
-static int input_of(const kl_model *m, int joint) {
-  int i;
-  for (i = 0; i < m->ninputs; i++)
-    if (m->inputs[i] == joint)
-      return i;
-  return -1;
-}
-
 /* A joint fixes b's angle against a's: a prismatic lock or a revolute input. */
 static int relates_angles(const kl_model *m, int joint) {
   int kind = m->joints[joint].kind;
   return kind == KL_JOINT_PRISMATIC ||
-         (kind == KL_JOINT_REVOLUTE && input_of(m, joint) >= 0);
+         (kind == KL_JOINT_REVOLUTE && kli_input_of(m, joint) >= 0);
 }
 
 /*
@@ -299,7 +291,7 @@ static int angle_groups(kl_model *m, work *w, kli_topology *t) {
         w->seen[next] = 1;
         t->angle_parent[next] = cur;
         t->angle_input[next] =
-            m->joints[jj].kind == KL_JOINT_REVOLUTE ? input_of(m, jj) : -1;
+            m->joints[jj].kind == KL_JOINT_REVOLUTE ? kli_input_of(m, jj) : -1;
         t->angle_sign[next] = m->joints[jj].link[0] == cur ? 1.0 : -1.0;
         t->angle_order[tail++] = next;
       }
@@ -314,7 +306,7 @@ static int angle_groups(kl_model *m, work *w, kli_topology *t) {
     t->slide_input[j] = -1;
     if (!kli_is_sliding(m->joints[j].kind))
       continue;
-    t->slide_input[j] = input_of(m, j);
+    t->slide_input[j] = kli_input_of(m, j);
     if (t->slide_input[j] < 0)
       t->slide_var[j] = nvars++;
   }

@@ -149,6 +149,10 @@ int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
  * printing a usage error. */
 int cli_resolve_range(const cli_model *cm, const cli_options *o,
                       cli_range *r);
+/* As cli_resolve_range for a command that needs a range: an exit code,
+ * after saying "NOTHING: why" when there is none. */
+int cli_require_range(const cli_model *cm, const cli_options *o,
+                      cli_range *r, const char *nothing);
 /* Reaches the start of the range (other inputs at --at or the start).
  * Returns an exit code after printing why it failed. */
 int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,

@@ -196,6 +196,21 @@ int cli_resolve_range(const cli_model *cm, const cli_options *o,
   return 1;
 }
 
+int cli_require_range(const cli_model *cm, const cli_options *o,
+                      cli_range *r, const char *nothing) {
+  int found = cli_resolve_range(cm, o, r);
+  if (found < 0)
+    return CLI_EXIT_USAGE;
+  if (found == 0) {
+    cli_error("%s: %s; give --input, --from and --to", nothing,
+              cm->ninputs == 0 ? "the model has no inputs"
+                               : "the model has no sweep line and its input "
+                                 "slides");
+    return CLI_EXIT_USAGE;
+  }
+  return CLI_EXIT_OK;
+}
+
 int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,
                     const cli_range *r) {
   double *u = malloc((size_t)(cm->ninputs > 0 ? cm->ninputs : 1) * sizeof *u);

@@ -264,7 +264,7 @@ int cli_cmd_plot(const cli_model *cm, const cli_options *o) {
   kl_solver *sv = NULL;
   kl_sweep_result res;
   char unit[64] = "";
-  int found, k, st;
+  int k, st;
   FILE *f;
   memset(&d, 0, sizeof d);
   if (o->nshow == 0) {
@@ -273,16 +273,9 @@ int cli_cmd_plot(const cli_model *cm, const cli_options *o) {
     cli_list_outputs(stderr, cm);
     return CLI_EXIT_USAGE;
   }
-  found = cli_resolve_range(cm, o, &r);
-  if (found < 0)
-    return CLI_EXIT_USAGE;
-  if (found == 0) {
-    cli_error("nothing to plot against: %s; give --input, --from and --to",
-              cm->ninputs == 0 ? "the model has no inputs"
-                               : "the model has no sweep line and its input "
-                                 "slides");
-    return CLI_EXIT_USAGE;
-  }
+  if ((st = cli_require_range(cm, o, &r, "nothing to plot against")) !=
+      CLI_EXIT_OK)
+    return st;
   cols = malloc((size_t)cli_column_count(cm) * sizeof *cols);
   if (cols == NULL)
     goto nomem;

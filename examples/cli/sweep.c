@@ -50,16 +50,9 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
   kl_solver *s;
   kl_sweep_result res;
   csv_sink sink;
-  int st, i, found = cli_resolve_range(cm, o, &r);
-  if (found < 0)
-    return CLI_EXIT_USAGE;
-  if (found == 0) {
-    cli_error("nothing to sweep: %s; give --input, --from and --to",
-              cm->ninputs == 0 ? "the model has no inputs"
-                               : "the model has no sweep line and its input "
-                                 "slides");
-    return CLI_EXIT_USAGE;
-  }
+  int st, i;
+  if ((st = cli_require_range(cm, o, &r, "nothing to sweep")) != CLI_EXIT_OK)
+    return st;
   sink.ncols = cli_column_count(cm);
   cols = malloc((size_t)sink.ncols * sizeof *cols);
   factor = malloc((size_t)sink.ncols * sizeof *factor);
