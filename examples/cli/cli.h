@@ -195,6 +195,11 @@ int cli_record(kl_solver *s, const cli_model *cm, const cli_range *r,
 /* A note for a sweep that stopped early, in the user's units. */
 void cli_sweep_note(const cli_model *cm, const cli_range *r,
                     const kl_sweep_result *res, char *buf, size_t cap);
+/* Tells how a sweep (`what`) that returned `status` ended: "note: ...;
+ * THEN" for one that stopped early (exit 0), its failure (exit 4). */
+int cli_sweep_told(const cli_model *cm, const kl_solver *s,
+                   const cli_range *r, const kl_sweep_result *res, int status,
+                   const char *what, const char *then);
 
 /* ---- check.c ---- */
 int cli_cmd_check(const cli_model *cm, const cli_options *o);

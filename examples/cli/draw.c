@@ -653,16 +653,9 @@ int cli_cmd_draw(const cli_model *cm, const cli_options *o) {
     st = cli_record(s, cm, &r, path_row, &sink, &res);
     if (st == KL_STOPPED || st == KL_ENOMEM)
       goto nomem;
-    if (st == KL_LIMIT || st == KL_ESINGULAR) {
-      char note[1024];
-      cli_sweep_note(cm, &r, &res, note, sizeof note);
-      cli_error("note: %s; the paths end there", note);
-    } else if (st != KL_OK) {
-      cli_error("the sweep for the paths failed: %s", kl_solver_error(s));
-      st = CLI_EXIT_SOLVE;
+    if ((st = cli_sweep_told(cm, s, &r, &res, st, "the sweep for the paths",
+                             "the paths end there")) != CLI_EXIT_OK)
       goto done;
-    }
-    st = CLI_EXIT_OK;
   }
   nposes = o->nat > 0 ? o->nat : found ? (o->poses > 0 ? o->poses : 4) : 1;
   for (k = 0; k < nposes; k++) {

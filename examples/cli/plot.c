@@ -315,15 +315,9 @@ int cli_cmd_plot(const cli_model *cm, const cli_options *o) {
   st = cli_record(sv, cm, &r, sample_row, &d, &res);
   if (st == KL_STOPPED || st == KL_ENOMEM)
     goto nomem;
-  if (st == KL_LIMIT || st == KL_ESINGULAR) {
-    char note[1024];
-    cli_sweep_note(cm, &r, &res, note, sizeof note);
-    cli_error("note: %s; the curves end there", note);
-  } else if (st != KL_OK) {
-    cli_error("the sweep failed: %s", kl_solver_error(sv));
-    st = CLI_EXIT_SOLVE;
+  if ((st = cli_sweep_told(cm, sv, &r, &res, st, "the sweep",
+                           "the curves end there")) != CLI_EXIT_OK)
     goto done;
-  }
   if ((f = cli_open_output(o->output)) == NULL) {
     st = CLI_EXIT_OUTPUT;
     goto done;

@@ -159,6 +159,22 @@ int cli_record(kl_solver *s, const cli_model *cm, const cli_range *range,
   return st;
 }
 
+int cli_sweep_told(const cli_model *cm, const kl_solver *s,
+                   const cli_range *r, const kl_sweep_result *res, int status,
+                   const char *what, const char *then) {
+  char note[1024];
+  if (status == KL_LIMIT || status == KL_ESINGULAR) {
+    cli_sweep_note(cm, r, res, note, sizeof note);
+    cli_error("note: %s; %s", note, then);
+    return CLI_EXIT_OK;
+  }
+  if (status != KL_OK) {
+    cli_error("%s failed: %s", what, kl_solver_error(s));
+    return CLI_EXIT_SOLVE;
+  }
+  return CLI_EXIT_OK;
+}
+
 void cli_sweep_note(const cli_model *cm, const cli_range *r,
                     const kl_sweep_result *res, char *buf, size_t cap) {
   char at[320];

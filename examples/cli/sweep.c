@@ -91,16 +91,9 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
     st = CLI_EXIT_MEMORY;
   } else if (i != CLI_EXIT_OK || st == KL_STOPPED) {
     st = CLI_EXIT_OUTPUT;
-  } else if (st == KL_LIMIT || st == KL_ESINGULAR) {
-    char note[1024];
-    cli_sweep_note(cm, &r, &res, note, sizeof note);
-    cli_error("note: %s; the rows before it are written", note);
-    st = CLI_EXIT_OK;
-  } else if (st != KL_OK) {
-    cli_error("the sweep failed: %s", kl_solver_error(s));
-    st = CLI_EXIT_SOLVE;
   } else {
-    st = CLI_EXIT_OK;
+    st = cli_sweep_told(cm, s, &r, &res, st, "the sweep",
+                        "the rows before it are written");
   }
 done:
   kl_solver_free(s);
