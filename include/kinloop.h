@@ -464,10 +464,11 @@ enum kl_quantity {
   KL_QUANTITY_POINT_AX = 14,          /**< x of kl_point_acceleration */
   KL_QUANTITY_POINT_AY = 15,          /**< y of kl_point_acceleration */
   KL_QUANTITY_TRANSMISSION = 16,      /**< kl_output_value of each site */
-  KL_QUANTITY_RCOND = 17              /**< one value: the condition
-                                           estimate of the Jacobian at the
-                                           position solved (as in
-                                           kl_solve_stats), NaN if none */
+  KL_QUANTITY_RCOND = 17              /**< one value: the reciprocal
+                                           condition number of the Jacobian
+                                           at the position solved, estimated
+                                           as kl_solve_stats' rcond is; NaN
+                                           if none is solved */
 };
 
 /**
@@ -1257,8 +1258,8 @@ KL_API int kl_model_transmission_skips(const kl_model *m,
  * kl_output_range leaves it; on failure the state is left as it was:
  * KL_EID (unknown input, effort input, or a load's point or link),
  * KL_EKIND (a load of no known kind), KL_ENONFINITE, KL_EINVAL, and the
- * errors of kl_solver_sweep (KL_ESINGULAR at a change point, the first
- * step's position errors) and of kl_solve_coefficients. Never allocates.
+ * errors of kl_solver_sweep (a change point on the way, the first step's
+ * position errors). Never allocates.
  */
 KL_API int kl_input_effort_range(kl_solver *s, int input, double from,
                                  double to, int steps, int nloads,
