@@ -434,6 +434,79 @@ KL_API double kl_model_joint_axis(const kl_model *m, int joint);
 KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /* ------------------------------------------------------------------------
+ * The model's start position, and the layout of a row of every quantity
+ * ------------------------------------------------------------------------ */
+
+/**
+ * The model's start position into `inputs` (one per input): the start of
+ * its sweep settings for the input they sweep, 0 for the others (all 0
+ * without sweep settings). kl_solver_reach starts there. Returns KL_OK, or
+ * KL_EINVAL (NULL model, or NULL inputs for a model with inputs). Works
+ * before and after finalize; never allocates.
+ */
+KL_API int kl_model_start_inputs(const kl_model *m, double *inputs);
+
+/**
+ * The quantities of a row (kl_solver_row), in the order a row holds them:
+ * one block per quantity, and in each block one value per item: per input
+ * in input order, per link by id (ground, link 0, included), per joint by
+ * id, per point by id, per transmission site in the order of
+ * kl_model_transmissions, or one value for the whole state. The values are
+ * those of the single getters named below, NaN where they give NaN or a
+ * status other than KL_OK (a stage not solved, a slide of a revolute
+ * joint). Later versions add quantities after the last; find a block with
+ * kl_model_row_offset, never by counting by hand.
+ */
+enum kl_quantity {
+  KL_QUANTITY_INPUT_VALUE = 0,        /**< kl_input_value */
+  KL_QUANTITY_INPUT_RATE = 1,         /**< the rates kl_solve_velocity was
+                                           given at this position */
+  KL_QUANTITY_INPUT_ACCEL = 2,        /**< the accelerations
+                                           kl_solve_acceleration was given */
+  KL_QUANTITY_LINK_ANGLE = 3,         /**< kl_link_angle */
+  KL_QUANTITY_LINK_RATE = 4,          /**< kl_link_rate */
+  KL_QUANTITY_LINK_ACCEL = 5,         /**< kl_link_accel */
+  KL_QUANTITY_JOINT_ANGLE = 6,        /**< kl_joint_angle */
+  KL_QUANTITY_JOINT_SLIDE = 7,        /**< kl_joint_slide */
+  KL_QUANTITY_JOINT_SLIDE_RATE = 8,   /**< kl_joint_slide_rate */
+  KL_QUANTITY_JOINT_SLIDE_ACCEL = 9,  /**< kl_joint_slide_accel */
+  KL_QUANTITY_POINT_X = 10,           /**< x of kl_point_position */
+  KL_QUANTITY_POINT_Y = 11,           /**< y of kl_point_position */
+  KL_QUANTITY_POINT_VX = 12,          /**< x of kl_point_velocity */
+  KL_QUANTITY_POINT_VY = 13,          /**< y of kl_point_velocity */
+  KL_QUANTITY_POINT_AX = 14,          /**< x of kl_point_acceleration */
+  KL_QUANTITY_POINT_AY = 15,          /**< y of kl_point_acceleration */
+  KL_QUANTITY_TRANSMISSION = 16,      /**< kl_output_value of each site */
+  KL_QUANTITY_RCOND = 17              /**< one value: the reciprocal
+                                           condition number of the Jacobian
+                                           at the position solved, estimated
+                                           as kl_solve_stats' rcond is; NaN
+                                           if none is solved */
+};
+
+/**
+ * "input_value", "link_angle", ... "rcond": a quantity's name, its enum
+ * value's in lower case without the prefix (usable as a field name), or
+ * NULL for a number that is no quantity. Static text.
+ */
+KL_API const char *kl_quantity_str(int quantity);
+
+/**
+ * The number of values in a row of the finalized model: the sum of every
+ * quantity's block. Returns it, or KL_ESTATE (not finalized), KL_EINVAL.
+ */
+KL_API int kl_model_row_size(const kl_model *m);
+
+/**
+ * Where quantity `quantity`'s block starts in a row, with its number of
+ * values into `*count` (may be NULL). Returns the offset (>= 0), or KL_EID
+ * for a number that is no quantity (the quantities are numbered from 0
+ * without gaps, so the first KL_EID marks the end), KL_ESTATE (not
+ * finalized), KL_EINVAL.
+ */
+KL_API int kl_model_row_offset(const kl_model *m, int quantity, int *count);
+
+/* ------------------------------------------------------------------------
  * Model files (the format is described in docs/model-format.md)
  * ------------------------------------------------------------------------ */
 
@@ -845,6 +918,109 @@ KL_API int kl_solver_sweep(kl_solver *s, int input, double from, double to,
 KL_API int kl_solver_passages(const kl_solver *s, double *last_input);
 
 /* ------------------------------------------------------------------------
+ * Going to a position; frames of links and joints; rows of every quantity
+ * ------------------------------------------------------------------------ */
+
+/**
+ * Puts the solver back in the state kl_solver_new gave it: the model's
+ * sketch (as kl_model_set_sketch_angle and kl_model_set_sketch_slide
+ * recorded it), no position, rates or coefficients solved, no inputs
+ * known, the statistics cleared. The options and the last message stay.
+ * Returns KL_OK, or KL_EINVAL for NULL. Never allocates.
+ */
+KL_API int kl_solver_reset(kl_solver *s);
+
+/** Outcome of kl_solver_reach. Set `size` to sizeof(kl_reach_result) first. */
+typedef struct kl_reach_result {
+  size_t size;        /**< sizeof(kl_reach_result), set by the caller */
+  int status;         /**< what kl_solver_reach returned */
+  int input;          /**< the input whose move stopped, or -1 when none
+                           did (the target reached, or no position to
+                           move from) */
+  double from;        /**< where that input's move began (NaN if none) */
+  double limit_input; /**< where it stopped: the motion limit or singular
+                           position the sweep located (NaN otherwise) */
+  int substeps;       /**< continuation steps of every move, sub-steps
+                           included */
+} kl_reach_result;
+
+/**
+ * Brings the solver to the target `inputs` (one per input; NULL when the
+ * model has none) by continuation, so that the assembly mode stays the one
+ * it starts in: from the position last solved, or, when none is (a new or
+ * reset solver, or one whose sketch changed since), from a position solved
+ * from the solver's sketch at the model's start inputs
+ * (kl_model_start_inputs); when even that does not solve, the target is
+ * solved directly from the sketch. Each input moves in turn, in input
+ * order, the others held, swept as kl_solver_sweep does (branch guard
+ * included) in steps of at most 2 degrees of a turning input or 0.02 of the
+ * model's scale of a sliding one; then the position is solved at the target
+ * itself, and no rates are solved there.
+ * Fills `result` (may be NULL). Returns KL_OK, or on failure leaves the
+ * state exactly as it was and returns:
+ *  KL_ENOASSEMBLY  a move stops at a motion limit (a toggle or dead point
+ *                  of that input; result->input, from and limit_input say
+ *                  where), or no position solves at the start nor directly
+ *                  at the target
+ *  KL_ESINGULAR    a move meets a singular position (a change point) it
+ *                  cannot pass without choosing a branch at random
+ *                  (result as above), or the target itself is singular
+ *  KL_EMAXITER, KL_ENONFINITE, KL_EINVAL: as kl_solver_sweep and
+ *                  kl_solve_position.
+ * The message names the input and where its move stopped. Never
+ * allocates. kl_solver_reset followed by kl_solver_reach goes to the
+ * target from the model's start, whatever the solver did before.
+ */
+KL_API int kl_solver_reach(kl_solver *s, const double *inputs,
+                           kl_reach_result *result);
+
+/**
+ * Global position of the point `local` of link `link`'s frame (local and
+ * xy may be the same array), at the solver's current state. KL_OK, KL_EID,
+ * KL_EINVAL.
+ */
+KL_API int kl_link_to_global(const kl_solver *s, int link,
+                             const double local[2], double xy[2]);
+
+/**
+ * Global position of a joint: its attachment point on its link b (for a
+ * revolute joint at a solved position, the same as on a; for a sliding
+ * joint, the point that runs on the line). KL_OK, KL_EID, KL_EINVAL.
+ */
+KL_API int kl_joint_position(const kl_solver *s, int joint, double xy[2]);
+
+/** Global velocity of a link's frame origin (kl_link_origin). KL_OK,
+ * KL_EID, KL_EINVAL, KL_ESTAGE. */
+KL_API int kl_link_origin_velocity(const kl_solver *s, int link,
+                                   double xy[2]);
+
+/** Global acceleration of a link's frame origin. KL_OK, KL_EID,
+ * KL_EINVAL, KL_ESTAGE. */
+KL_API int kl_link_origin_accel(const kl_solver *s, int link, double xy[2]);
+
+/**
+ * Every quantity of the solver's current state into `row`, laid out as
+ * enum kl_quantity says (kl_model_row_size values): one call instead of a
+ * getter per value, for recorders, files and bindings. Returns KL_OK or
+ * KL_EINVAL (NULL). Never allocates.
+ */
+KL_API int kl_solver_row(const kl_solver *s, double *row);
+
+/**
+ * kl_solver_sweep without a callback: the row of every delivered step
+ * (kl_solver_row at that step, with its unit-rate velocity and
+ * acceleration) into rows[k * kl_model_row_size(m) ...] for step k, so that
+ * a sweep is read at C speed. `rows` has room for steps + 1 rows; when
+ * steps >= 1, the rows of steps not delivered (after a limit or a failure)
+ * are NaN. Returns, and writes into `result` (may be NULL), what
+ * kl_solver_sweep does (never KL_STOPPED), and KL_EINVAL for NULL rows.
+ * Never allocates.
+ */
+KL_API int kl_solver_sweep_rows(kl_solver *s, int input, double from,
+                                double to, int steps, double *rows,
+                                kl_sweep_result *result);
+
+/* ------------------------------------------------------------------------
  * Design figures
  * ------------------------------------------------------------------------ */
 
@@ -878,8 +1054,9 @@ KL_API const char *kl_grashof_str(int cls);
 /**
  * The Grashof class of a finalized model that is a four-bar: ground and
  * three moving links joined in one loop by four revolute joints, its one
- * input at a ground pivot. Returns a kl_grashof_class, KL_EKIND (not such a
- * four-bar), KL_ESTATE (not finalized), KL_EINVAL.
+ * input at a ground pivot; the same as kl_model_loop_fourbar's for that
+ * loop. Returns a kl_grashof_class, KL_EKIND (not such a four-bar),
+ * KL_ESTATE (not finalized), KL_EINVAL (NULL, or a link length of 0).
  */
 KL_API int kl_model_grashof(const kl_model *m);
 
@@ -1033,6 +1210,107 @@ KL_API int kl_output_tolerance_stack(kl_solver *s, const kl_output *o, int n,
                               const kl_dimension *dims,
                               const double *tolerances, double *worst,
                               double *rss);
+
+/* ------------------------------------------------------------------------
+ * What a designer reads from the loops: four-bar loops, transmission-angle
+ * sites, and the input effort over a sweep
+ * ------------------------------------------------------------------------ */
+
+/** A loop that is a four-bar, as kl_model_loop_fourbar reads it. */
+typedef struct kl_fourbar {
+  size_t size;           /**< sizeof(kl_fourbar), set by the caller */
+  int loop;              /**< the loop */
+  int input;             /**< the input that drives it */
+  int input_joint;       /**< the ground pivot that input drives */
+  int output_joint;      /**< the other ground pivot */
+  int input_link;        /**< the link the input turns */
+  int coupler_link;      /**< the link opposite ground */
+  int output_link;       /**< the link pivoted at output_joint */
+  double ground_length;  /**< between the two ground pivots */
+  double input_length;   /**< between the input link's two joints */
+  double coupler_length; /**< between the coupler's two joints */
+  double output_length;  /**< between the output link's two joints */
+  int grashof;           /**< kl_grashof of the four lengths: a
+                              kl_grashof_class, or KL_EINVAL if one is 0 */
+} kl_fourbar;
+
+/**
+ * Reads loop `loop` of a finalized model as a four-bar: a loop of four
+ * revolute joints, ground one of its links, and an input at one of the two
+ * ground pivots (at both: the first in the loop's walk). The lengths are
+ * between the loop's joints on each link (other joints a link may carry do
+ * not count), the class is Grashof's on them, relative to the input link.
+ * Fills `fourbar` up to fourbar->size bytes. Returns KL_OK, KL_EKIND (the
+ * loop is not such a four-bar), KL_EID (no such loop), KL_ESTATE (not
+ * finalized), KL_EINVAL (NULL, or size too small). Never allocates.
+ */
+KL_API int kl_model_loop_fourbar(const kl_model *m, int loop,
+                                 kl_fourbar *fourbar);
+
+/**
+ * The model's transmission-angle sites, chosen once at finalize: walking
+ * the loops in order, each revolute joint on neither ground nor an input
+ * is a site where a loop first meets it, with the lines to its two
+ * neighbours in that loop's walk (line_a the one on the joint's link a), so
+ * that for a four-bar the site is the coupler-output pin, with lines to the
+ * input pin and the output's ground pivot. A joint on a link that a
+ * revolute input turns from ground, or with a line of no length, is no site
+ * (kl_model_transmission_skips says which and why). Writes up to `cap`
+ * outputs of kind KL_OUTPUT_TRANSMISSION into `sites` (may be NULL when cap
+ * is 0), for kl_output_value and kl_output_range, and returns how many
+ * sites there are (which may exceed cap), or KL_ESTATE (not finalized),
+ * KL_EINVAL. Never allocates.
+ */
+KL_API int kl_model_transmissions(const kl_model *m, kl_output *sites,
+                                  int cap);
+
+/** Why the transmission-angle rule gives a joint no site. */
+enum kl_transmission_skip_reason {
+  KL_TRANSMISSION_SKIP_INPUT_CRANK = 1, /**< `link` is turned from ground by a
+                                             revolute input, so the angle
+                                             says nothing of how force gets
+                                             through */
+  KL_TRANSMISSION_SKIP_NO_LINE = 2      /**< on `link`, the neighbour in the
+                                             loop stands at the joint's own
+                                             point (within 1e-12 of the
+                                             scale): no line to measure */
+};
+
+/** A joint the transmission-angle rule meets but does not measure. */
+typedef struct kl_transmission_skip {
+  int joint;  /**< the revolute joint */
+  int loop;   /**< the loop whose walk met it first */
+  int link;   /**< the joint's link the reason concerns */
+  int reason; /**< enum kl_transmission_skip_reason */
+} kl_transmission_skip;
+
+/**
+ * The joints the rule of kl_model_transmissions meets and passes over, in
+ * the order met: writes up to `cap` of them into `skips` (may be NULL when
+ * cap is 0) and returns how many there are, or KL_ESTATE, KL_EINVAL. Never
+ * allocates.
+ */
+KL_API int kl_model_transmission_skips(const kl_model *m,
+                                       kl_transmission_skip *skips, int cap);
+
+/**
+ * Extremes of the static input effort (kl_input_effort) of input
+ * `effort_input` against the loads, while input `input` sweeps from `from`
+ * to `to` in `steps` steps as kl_solver_sweep does (with its branch guard),
+ * taken at the delivered steps. Fills `range` (set its size first): min and
+ * max with the swept input's values where they occur, the sweep's status and
+ * where the motion stopped. Returns KL_OK, or KL_LIMIT (the extremes of the
+ * part the motion reached) with the solver at the last delivered step as
+ * kl_output_range leaves it; on failure the state is left as it was:
+ * KL_EID (unknown input, effort input, or a load's point or link),
+ * KL_EKIND (a load of no known kind), KL_ENONFINITE, KL_EINVAL, and the
+ * errors of kl_solver_sweep (a change point on the way, the first step's
+ * position errors). Never allocates.
+ */
+KL_API int kl_input_effort_range(kl_solver *s, int input, double from,
+                                 double to, int steps, int nloads,
+                                 const kl_load *loads, int effort_input,
+                                 kl_range *range);
 
 /* ------------------------------------------------------------------------
  * Design studies: tolerance Monte Carlo and design grids (the study file is

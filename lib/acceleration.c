@@ -57,3 +57,15 @@ int kl_point_acceleration(const kl_solver *s, int point, double xy[2]) {
                   s->st.xd, s->st.xdd, xy);
   return KL_OK;
 }
+
+int kl_link_origin_accel(const kl_solver *s, int link, double xy[2]) {
+  if (s == NULL || xy == NULL)
+    return KL_EINVAL;
+  if (link < 0 || link >= s->model->nlinks)
+    return KL_EID;
+  if (!s->st.acceleration_solved)
+    return KL_ESTAGE;
+  kli_chain_accel(s->model, &s->model->topo.origins[link], &s->st.pose,
+                  s->st.xd, s->st.xd, s->st.xdd, xy);
+  return KL_OK;
+}

@@ -57,3 +57,11 @@ void *kli_carve(kli_carver *c, size_t count, size_t elem) {
    * zero elements from or to it is well defined */
   return c->base == NULL ? NULL : c->base + start;
 }
+
+void kli_copy_sized(void *to, const void *from, size_t full) {
+  size_t have, n;
+  memcpy(&have, to, sizeof have);
+  n = have < full ? have : full;
+  memcpy((char *)to + sizeof have, (const char *)from + sizeof have,
+         n - sizeof have);
+}

@@ -39,4 +39,13 @@ typedef struct {
 
 void *kli_carve(kli_carver *c, size_t count, size_t elem);
 
+/*
+ * Copies a struct of the public header whose first field is its size_t
+ * `size` (`full` bytes as this library knows it) into the caller's copy,
+ * which may come from an older, shorter header: the fields after `size`,
+ * no further than the caller's size (at least a size_t, checked by the
+ * caller), which stays as the caller set it.
+ */
+void kli_copy_sized(void *to, const void *from, size_t full);
+
 #endif

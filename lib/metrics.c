@@ -1,8 +1,7 @@
 /*
- * metrics.c - the design figures: Grashof class, outputs and their
- * derivatives, extremes over a sweep, time ratio, mechanical advantage,
- * static input effort by virtual work, dimensional sensitivity and
- * tolerance stack-up.
+ * metrics.c - the design figures: outputs and their derivatives, extremes
+ * over a sweep, time ratio, mechanical advantage, static input effort by
+ * virtual work, dimensional sensitivity and tolerance stack-up.
  */
 #include <math.h>
 #include <string.h>
@@ -18,116 +17,6 @@
 /* Where a sweep stopped at a limit, the last value is taken this far
  * inside it (the limit is located to 1e-11). */
 #define KLI_LIMIT_INSIDE 1e-10
-
-/* ---- Grashof ---- */
-
-int kl_grashof(double ground, double input, double coupler, double output) {
-  double len[4], s, l, sum = 0.0;
-  int i, shortest = 0;
-  len[0] = ground;
-  len[1] = input;
-  len[2] = coupler;
-  len[3] = output;
-  for (i = 0; i < 4; i++) {
-    if (!isfinite(len[i]))
-      return KL_ENONFINITE;
-    if (!(len[i] > 0.0))
-      return KL_EINVAL;
-    sum += len[i];
-  }
-  s = l = len[0];
-  for (i = 1; i < 4; i++) {
-    if (len[i] < s) {
-      s = len[i];
-      shortest = i;
-    }
-    if (len[i] > l)
-      l = len[i];
-  }
-  /* a loop closes only if its longest side is shorter than the other
-   * three together (stretched in line, it closes but cannot move) */
-  if (l >= (sum - l) - 1e-12 * l)
-    return KL_GRASHOF_NO_ASSEMBLY;
-  /* s + l against p + q = sum - s - l, equality within rounding of l */
-  if (fabs((s + l) - (sum - s - l)) <= 1e-12 * l)
-    return KL_GRASHOF_CHANGE_POINT;
-  if (s + l > sum - s - l)
-    return KL_GRASHOF_TRIPLE_ROCKER;
-  switch (shortest) {
-  case 0: return KL_GRASHOF_DOUBLE_CRANK;
-  case 1: return KL_GRASHOF_CRANK_ROCKER;
-  case 2: return KL_GRASHOF_DOUBLE_ROCKER;
-  default: return KL_GRASHOF_ROCKER_CRANK;
-  }
-}
-
-const char *kl_grashof_str(int cls) {
-  switch (cls) {
-  case KL_GRASHOF_CRANK_ROCKER: return "crank-rocker";
-  case KL_GRASHOF_ROCKER_CRANK: return "rocker-crank";
-  case KL_GRASHOF_DOUBLE_CRANK: return "double-crank";
-  case KL_GRASHOF_DOUBLE_ROCKER: return "double-rocker";
-  case KL_GRASHOF_CHANGE_POINT: return "change point";
-  case KL_GRASHOF_TRIPLE_ROCKER: return "triple-rocker";
-  case KL_GRASHOF_NO_ASSEMBLY: return "no assembly";
-  default: return "not a class";
-  }
-}
-
-static double joint_distance(const kl_model *m, int j1, int j2, int link) {
-  const double *p = kli_joint_point_on(m, j1, link);
-  const double *q = kli_joint_point_on(m, j2, link);
-  return hypot(p[0] - q[0], p[1] - q[1]);
-}
-
-int kl_model_grashof(const kl_model *m) {
-  int j, input_joint, crank, pivots[2], np = 0;
-  double ground, crank_len = 0, coupler = 0, output = 0;
-  if (m == NULL)
-    return KL_EINVAL;
-  if (!m->finalized)
-    return KL_ESTATE;
-  if (m->nlinks != 4 || m->njoints != 4 || m->ninputs != 1 ||
-      m->topo.nloops != 1)
-    return KL_EKIND;
-  for (j = 0; j < 4; j++) {
-    if (m->joints[j].kind != KL_JOINT_REVOLUTE)
-      return KL_EKIND;
-    if (m->joints[j].link[0] == KL_GROUND ||
-        m->joints[j].link[1] == KL_GROUND) {
-      if (np < 2)
-        pivots[np] = j;
-      np++;
-    }
-  }
-  input_joint = m->inputs[0];
-  if (np != 2 || (input_joint != pivots[0] && input_joint != pivots[1]))
-    return KL_EKIND;
-  ground = joint_distance(m, pivots[0], pivots[1], KL_GROUND);
-  crank = m->joints[input_joint].link[0] == KL_GROUND
-              ? m->joints[input_joint].link[1]
-              : m->joints[input_joint].link[0];
-  /* walk the loop: crank, coupler, output, each between its two joints */
-  {
-    const int *js = m->topo.loop_joints, *ls = m->topo.loop_links;
-    int i;
-    for (i = 0; i < 4; i++) {
-      int link = ls[i], a = js[i], b = js[(i + 1) % 4];
-      double len;
-      if (link == KL_GROUND)
-        continue;
-      len = joint_distance(m, a, b, link);
-      if (link == crank)
-        crank_len = len;
-      else if (a == pivots[0] || a == pivots[1] || b == pivots[0] ||
-               b == pivots[1])
-        output = len;
-      else
-        coupler = len;
-    }
-  }
-  return kl_grashof(ground, crank_len, coupler, output);
-}
 
 /* ---- outputs ---- */
 
@@ -311,10 +200,10 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
   r.o = o;
   r.direction = to >= from ? 1.0 : -1.0;
   sw.size = sizeof sw;
-  kli_keep_entry(s);
+  kli_state_keep(s);
   st = kl_solver_sweep(s, input, from, to, steps, track_extremes, &r, &sw);
   if (st != KL_OK && st != KL_LIMIT) {
-    kli_back_to_entry(s);
+    kli_state_back(s);
     return st;
   }
   memset(&out, 0, sizeof out);
@@ -351,8 +240,7 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
       out.max = value, out.input_at_max = at;
   }
   kli_state_restore(s, &s->delivered);
-  out.size = range->size;
-  memcpy(range, &out, range->size < sizeof out ? range->size : sizeof out);
+  kli_copy_sized(range, &out, sizeof out);
   return st;
 }
 
@@ -374,15 +262,10 @@ int kl_range_time_ratio(const kl_range *range, double *ratio) {
 
 /* ---- input effort by virtual work ---- */
 
-int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
-                    double *efforts) {
-  const kl_model *m;
-  int st, i, k;
+static int check_loads(kl_solver *s, int nloads, const kl_load *loads) {
+  const kl_model *m = s->model;
   char label[64];
-  if (s == NULL || efforts == NULL || nloads < 0 ||
-      (nloads > 0 && loads == NULL))
-    return KL_EINVAL;
-  m = s->model;
+  int k;
   for (k = 0; k < nloads; k++) {
     const kl_load *l = &loads[k];
     if (l->kind == KL_LOAD_FORCE) {
@@ -413,25 +296,114 @@ int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
                       k, l->kind);
     }
   }
-  if ((st = need_coefficients(s)) != KL_OK)
-    return st;
-  for (i = 0; i < s->ninputs; i++) {
-    const double *dx = s->coef1 + (size_t)i * (size_t)s->ncoords;
-    double work = 0.0;
-    for (k = 0; k < nloads; k++) {
-      const kl_load *l = &loads[k];
-      if (l->kind == KL_LOAD_FORCE) {
-        double dp[2];
-        kli_chain_rate(m, &m->topo.points[l->id], &s->st.pose, dx, dp);
-        work += l->fx * dp[0] + l->fy * dp[1];
-      } else {
-        work += l->torque * dx[l->id];
-      }
-    }
-    /* the input's virtual work balances the loads' */
-    efforts[i] = -work;
-  }
   return KL_OK;
+}
+
+/* The effort of the input whose first-order coefficients are dx: the
+ * input's virtual work balances the loads'. */
+static double effort_along(const kl_solver *s, const double *dx, int nloads,
+                           const kl_load *loads) {
+  const kl_model *m = s->model;
+  double work = 0.0;
+  int k;
+  for (k = 0; k < nloads; k++) {
+    const kl_load *l = &loads[k];
+    if (l->kind == KL_LOAD_FORCE) {
+      double dp[2];
+      kli_chain_rate(m, &m->topo.points[l->id], &s->st.pose, dx, dp);
+      work += l->fx * dp[0] + l->fy * dp[1];
+    } else {
+      work += l->torque * dx[l->id];
+    }
+  }
+  return -work;
+}
+
+int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
+                    double *efforts) {
+  int st, i;
+  if (s == NULL || efforts == NULL || nloads < 0 ||
+      (nloads > 0 && loads == NULL))
+    return KL_EINVAL;
+  if ((st = check_loads(s, nloads, loads)) != KL_OK ||
+      (st = need_coefficients(s)) != KL_OK)
+    return st;
+  for (i = 0; i < s->ninputs; i++)
+    efforts[i] = effort_along(s, s->coef1 + (size_t)i * (size_t)s->ncoords,
+                              nloads, loads);
+  return KL_OK;
+}
+
+/* What an effort range keeps while the sweep delivers its steps. */
+typedef struct {
+  kl_solver *s;
+  int input, effort_input, nloads, steps;
+  const kl_load *loads;
+  double min, max, at_min, at_max;
+} effort_search;
+
+static int track_effort(const kl_solver *cs, int step, double input,
+                        void *user) {
+  effort_search *e = user;
+  kl_solver *s = e->s; /* the same solver, which this search owns */
+  const double *dx = s->st.xd;
+  double effort;
+  (void)cs;
+  (void)step;
+  /* the sweep's unit-rate velocity is the swept input's first-order
+   * coefficient; another input's is one more solve with the same factors,
+   * kept out of the coefficient arrays so that a failure can restore them */
+  if (e->effort_input != e->input) {
+    memset(s->u_unit, 0, (size_t)s->ninputs * sizeof(double));
+    s->u_unit[e->effort_input] = 1.0;
+    kli_input_terms(s, s->u_unit, s->rhs);
+    kli_rate_solve(s, s->rhs, s->u_unit, s->xv);
+    dx = s->xv;
+  }
+  effort = effort_along(s, dx, e->nloads, e->loads);
+  if (e->steps == 0 || effort < e->min)
+    e->min = effort, e->at_min = input;
+  if (e->steps == 0 || effort > e->max)
+    e->max = effort, e->at_max = input;
+  e->steps++;
+  return 0;
+}
+
+int kl_input_effort_range(kl_solver *s, int input, double from, double to,
+                          int steps, int nloads, const kl_load *loads,
+                          int effort_input, kl_range *range) {
+  effort_search e;
+  kl_sweep_result sw;
+  kl_range out;
+  int st;
+  if (s == NULL || range == NULL || range->size < sizeof(range->size) ||
+      nloads < 0 || (nloads > 0 && loads == NULL))
+    return KL_EINVAL;
+  if ((st = check_input(s, effort_input, "input effort range")) != KL_OK ||
+      (st = check_loads(s, nloads, loads)) != KL_OK)
+    return st;
+  memset(&e, 0, sizeof e);
+  e.s = s;
+  e.input = input;
+  e.effort_input = effort_input;
+  e.nloads = nloads;
+  e.loads = loads;
+  sw.size = sizeof sw;
+  kli_state_keep(s);
+  st = kl_solver_sweep(s, input, from, to, steps, track_effort, &e, &sw);
+  if (st != KL_OK && st != KL_LIMIT) {
+    kli_state_back(s);
+    return st;
+  }
+  memset(&out, 0, sizeof out);
+  out.min = e.min;
+  out.max = e.max;
+  out.input_at_min = e.at_min;
+  out.input_at_max = e.at_max;
+  out.sweep_status = st;
+  out.limit_input = sw.limit_input;
+  kli_copy_sized(range, &out, sizeof out);
+  return st;
 }
 
 /* ---- dimensional sensitivity ---- */

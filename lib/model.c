@@ -146,6 +146,10 @@ const char *kli_joint_label(const kl_model *m, int joint, char *buf,
 
 int kli_is_sliding(int kind) { return kind == KL_JOINT_PRISMATIC || kind == KL_JOINT_SLOT; }
 
+int kli_input_of(const kl_model *m, int joint) {
+  return m->joints[joint].input;
+}
+
 const double *kli_joint_point_on(const kl_model *m, int joint, int link) {
   const kli_joint *j = &m->joints[joint];
   return j->link[0] == link ? j->at[0] : j->at[1];
@@ -406,18 +410,17 @@ static int check_joint(kl_model *m, int joint, const char *what) {
 }
 
 int kl_add_input(kl_model *m, int joint) {
-  int st;
+  int st, i;
   char lj[160];
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "add input")) != KL_OK ||
       (st = check_joint(m, joint, "add input")) != KL_OK)
     return st;
-  if (m->joints[joint].input >= 0)
+  if ((i = kli_input_of(m, joint)) >= 0)
     return kli_fail(m->error, KL_EDUPLICATE,
                     "add input: %s is already input %d",
-                    kli_joint_label(m, joint, lj, sizeof lj),
-                    m->joints[joint].input);
+                    kli_joint_label(m, joint, lj, sizeof lj), i);
   if (kli_reserve(&m->alloc, (void **)&m->inputs, &m->cap_inputs,
                   m->ninputs + 1, sizeof *m->inputs) != KL_OK)
     return kli_fail(m->error, KL_ENOMEM, "add input: out of memory");
@@ -708,14 +711,11 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
 }
 
 int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep) {
-  size_t n;
   if (m == NULL || sweep == NULL || sweep->size < sizeof(sweep->size))
     return KL_EINVAL;
   if (!m->has_sweep)
     return KL_EID;
-  n = sweep->size < sizeof *sweep ? sweep->size : sizeof *sweep;
-  memcpy((char *)sweep + sizeof sweep->size,
-         (const char *)&m->sweep + sizeof sweep->size, n - sizeof sweep->size);
+  kli_copy_sized(sweep, &m->sweep, sizeof m->sweep);
   return KL_OK;
 }
 

@@ -110,6 +110,12 @@ typedef struct {
   int band_lower, band_upper;
   int dof;
   double scale;
+  /* The transmission-angle sites and the joints the rule passes over
+   * (loops.c), in the order the loops meet them; at most one per joint. */
+  kl_output *sites;
+  int nsites;
+  kl_transmission_skip *skips;
+  int nskips;
 } kli_topology;
 
 struct kl_model {
@@ -168,6 +174,8 @@ int kli_loop_links(const kl_model *m, int n, const int *joints,
                    int *links_after);
 /* 1 for prismatic and slot joints. */
 int kli_is_sliding(int kind);
+/* The input that drives `joint`, or -1. */
+int kli_input_of(const kl_model *m, int joint);
 /* An unfinalized copy of m's record (links, joints, points, inputs,
  * registered loops, names, units, sketch, sweep), with m's allocator;
  * NULL when memory runs out. */
@@ -178,5 +186,9 @@ void kli_model_retain(const kl_model *m);
 void kli_model_release(const kl_model *m);
 /* Frees what finalize derived and marks the model unfinalized. */
 void kli_topology_release(kl_model *m);
+/* Fills t->sites and t->skips (room for one per joint) from t's loops and
+ * scale, with `scratch` room for links + joints ints (loops.c). */
+void kli_find_transmissions(const kl_model *m, kli_topology *t,
+                            int *scratch);
 
 #endif

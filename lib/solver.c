@@ -1,6 +1,6 @@
 /*
- * solver.c - creating a solver in one sized block, its options, the sketch
- * setters, and the getters of the committed position.
+ * solver.c - creating (and resetting) a solver in one sized block, its
+ * options, the sketch setters, the getters of the committed position.
  */
 #include <math.h>
 #include <string.h>
@@ -67,7 +67,7 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   carve_state(&t->extreme[0], c, nc, nl, ni);
   carve_state(&t->extreme[1], c, nc, nl, ni);
   carve_state(&t->previous, c, nc, nl, ni);
-  carve_state(&t->entry, c, nc, nl, ni);
+  carve_state(&t->kept, c, nc, nl, ni);
   for (i = 0; i < 4; i++)
     carve_state(&t->crossing[i], c, nc, nl, ni);
   t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
@@ -115,6 +115,38 @@ size_t kl_solver_bytes(const kl_model *m) {
   return c.used;
 }
 
+/* The state a new solver starts in: the model's sketch, in id order as
+ * the caller's would be, and nothing solved. */
+static void start_state(kl_solver *s) {
+  const kl_model *m = s->model;
+  size_t nc = (size_t)s->ncoords * sizeof(double);
+  size_t ni = (size_t)s->ninputs * sizeof(double);
+  int i;
+  memset(s->st.xd, 0, nc);
+  memset(s->st.xdd, 0, nc);
+  memset(s->st.u, 0, ni);
+  memset(s->st.ud, 0, ni);
+  memset(s->st.udd, 0, ni);
+  s->st.position_solved = s->st.inputs_known = 0;
+  s->st.velocity_solved = s->st.acceleration_solved = 0;
+  s->st.rcond = 0.0;
+  s->coefficients_solved = 0;
+  s->factors_current = s->factors_near = 0;
+  s->have_previous = 0;
+  kli_pose_forget_trig(m, &s->st.pose);
+  kli_expand(m, NULL, NULL, s->st.pose.x);
+  kli_pose_trig(m, &s->st.pose);
+  for (i = 1; i < m->nlinks; i++)
+    if (m->links[i].has_sketch)
+      kl_set_link_angle(s, i, m->links[i].sketch);
+  for (i = 0; i < m->njoints; i++)
+    if (m->joints[i].has_sketch)
+      kl_set_joint_slide(s, i, m->joints[i].sketch);
+  s->st.last_attempt = KL_OK;
+  memset(&s->stats, 0, sizeof s->stats);
+  s->stats.size = sizeof s->stats;
+}
+
 static kl_solver *place(const kl_model *m, void *block, size_t size,
                         int owns) {
   kli_carver c;
@@ -140,18 +172,7 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   kli_dense_init(&s->dense, s->rhs, s->opt.kernel);
   for (i = 0; i < 2; i++)
     kli_pose_forget_trig(m, &s->trial[i]);
-  kli_pose_forget_trig(m, &s->st.pose);
-  kli_expand(m, NULL, NULL, s->st.pose.x);
-  kli_pose_trig(m, &s->st.pose);
-  /* the model's sketch, in id order, as the caller's would be */
-  for (i = 1; i < m->nlinks; i++)
-    if (m->links[i].has_sketch)
-      kl_set_link_angle(s, i, m->links[i].sketch);
-  for (i = 0; i < m->njoints; i++)
-    if (m->joints[i].has_sketch)
-      kl_set_joint_slide(s, i, m->joints[i].sketch);
-  s->st.last_attempt = KL_OK;
-  s->stats.size = sizeof s->stats;
+  start_state(s);
   kli_model_retain(m);
   return s;
 }
@@ -181,6 +202,13 @@ void kl_solver_free(kl_solver *s) {
   if (s->owns_block)
     kli_free(&m->alloc, s->block, s->block_size);
   kli_model_release(m);
+}
+
+int kl_solver_reset(kl_solver *s) {
+  if (s == NULL)
+    return KL_EINVAL;
+  start_state(s);
+  return KL_OK;
 }
 
 const kl_model *kl_solver_model(const kl_solver *s) {
@@ -264,12 +292,9 @@ int kl_solver_options(const kl_solver *s, kl_options *o) {
 }
 
 int kl_solver_stats(const kl_solver *s, kl_solve_stats *st) {
-  size_t n;
   if (s == NULL || st == NULL || st->size < sizeof(st->size))
     return KL_EINVAL;
-  n = st->size < sizeof *st ? st->size : sizeof *st;
-  memcpy((char *)st + sizeof st->size, (const char *)&s->stats + sizeof st->size,
-         n - sizeof st->size);
+  kli_copy_sized(st, &s->stats, sizeof s->stats);
   return KL_OK;
 }
 
@@ -320,22 +345,22 @@ void kli_state_restore(kl_solver *s, const kli_state *from) {
   s->coefficients_solved = 0;
 }
 
-void kli_keep_entry(kl_solver *s) {
-  kli_state_copy(s, &s->entry, &s->st);
-  s->entry_coefficients = s->coefficients_solved;
-}
-
-void kli_back_to_entry(kl_solver *s) {
-  /* the coefficients live apart from the states, and nothing that sweeps
-   * writes them: only their flag goes with the state */
-  kli_state_restore(s, &s->entry);
-  s->coefficients_solved = s->entry_coefficients;
-}
-
 void kli_state_changed(kl_solver *s) {
   s->st.velocity_solved = 0;
   s->st.acceleration_solved = 0;
   s->coefficients_solved = 0;
+}
+
+void kli_state_keep(kl_solver *s) {
+  kli_state_copy(s, &s->kept, &s->st);
+  s->kept_coefficients = s->coefficients_solved;
+}
+
+void kli_state_back(kl_solver *s) {
+  kli_state_restore(s, &s->kept);
+  /* the coefficient arrays were left alone: they still hold the kept
+   * position's */
+  s->coefficients_solved = s->kept_coefficients;
 }
 
 /* A sketch moves the state off the solved position. */
@@ -454,6 +479,34 @@ int kl_link_origin(const kl_solver *s, int link, double xy[2]) {
     return KL_EID;
   kli_chain_value(s->model, &s->model->topo.origins[link], &s->st.pose, xy);
   return KL_OK;
+}
+
+int kl_link_to_global(const kl_solver *s, int link, const double local[2],
+                      double xy[2]) {
+  double origin[2], x, y, c, sn;
+  if (s == NULL || local == NULL || xy == NULL)
+    return KL_EINVAL;
+  if (link < 0 || link >= s->model->nlinks)
+    return KL_EID;
+  x = local[0]; /* local and xy may be the same array */
+  y = local[1];
+  kli_chain_value(s->model, &s->model->topo.origins[link], &s->st.pose,
+                  origin);
+  c = s->st.pose.c[link];
+  sn = s->st.pose.s[link];
+  xy[0] = origin[0] + c * x - sn * y;
+  xy[1] = origin[1] + sn * x + c * y;
+  return KL_OK;
+}
+
+int kl_joint_position(const kl_solver *s, int joint, double xy[2]) {
+  const kli_joint *j;
+  if (s == NULL || xy == NULL)
+    return KL_EINVAL;
+  if (joint < 0 || joint >= s->model->njoints)
+    return KL_EID;
+  j = &s->model->joints[joint];
+  return kl_link_to_global(s, j->link[1], j->at[1], xy);
 }
 
 int kl_solver_copy_state(kl_solver *to, const kl_solver *from) {

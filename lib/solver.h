@@ -37,9 +37,9 @@ struct kl_solver {
   kli_state delivered;    /* the sweep's last delivered step */
   kli_state extreme[2];   /* states at the brackets of a range's extremes */
   kli_state previous;     /* the range search's step before the last */
-  kli_state entry;        /* the caller's state on entering a call that
-                             sweeps inside, put back if it fails */
-  int entry_coefficients; /* whether its coefficients were solved */
+  kli_state kept;         /* what a call of several solves returns to when
+                             it fails (kli_state_keep) */
+  int kept_coefficients;  /* and whether its coefficients were solved */
   kli_state crossing[4];  /* samples around a change point: two on the
                              approach, two beyond it, on one branch */
   double singular_rcond;  /* the singular test in effect: the option's, or
@@ -87,10 +87,10 @@ int kli_check_input_values(kl_solver *s, const double *values,
                            const char *stage, const char *what);
 /* Marks the committed position as changed: every rate is stale. */
 void kli_state_changed(kl_solver *s);
-/* A call that moves the solver inside (a sweep of its own) keeps the
- * caller's state on entry, and puts it back exactly, coefficients
- * included, if it fails: a failed call changes nothing. */
-void kli_keep_entry(kl_solver *s);
-void kli_back_to_entry(kl_solver *s);
+/* Keeps the committed state, so that a call of several solves that fails
+ * can leave the solver as it found it with kli_state_back. Between the
+ * two, nothing may write the coefficients. */
+void kli_state_keep(kl_solver *s);
+void kli_state_back(kl_solver *s);
 
 #endif

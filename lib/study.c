@@ -95,7 +95,7 @@ static int judge_one(const kl_study *st, const kli_judge *j, kl_solver *s,
   const kl_sweep_settings *sw = &st->sweep;
   kl_range r;
   kl_sweep_result res;
-  int status, k;
+  int status;
   r.size = sizeof r;
   res.size = sizeof res;
   switch (j->how) {
@@ -124,26 +124,12 @@ static int judge_one(const kl_study *st, const kli_judge *j, kl_solver *s,
       return status;
     *value = status == KL_LIMIT ? res.limit_input : sw->to;
     break;
-  default: { /* KLI_JUDGE_EFFORT over the reachable part of the sweep */
-    double efforts[64], worst = 0.0;
-    status = KL_OK;
-    for (k = 0; k <= sw->steps; k++) {
-      double u[64];
-      int i, e;
-      for (i = 0; i < st->model->ninputs; i++)
-        u[i] = kl_input_value(s, i);
-      u[sw->input] = sw->from + (sw->to - sw->from) * ((double)k / sw->steps);
-      if (kl_solve_position(s, u) != KL_OK) {
-        status = KL_LIMIT;
-        break;
-      }
-      if ((e = kl_input_effort(s, st->nloads, st->loads, efforts)) != KL_OK)
-        return e;
-      if (fabs(efforts[sw->input]) > fabs(worst))
-        worst = efforts[sw->input];
-    }
-    *value = worst;
-  }
+  default: /* KLI_JUDGE_EFFORT: the worst over the reachable part */
+    status = kl_input_effort_range(s, sw->input, sw->from, sw->to, sw->steps,
+                                   st->nloads, st->loads, sw->input, &r);
+    if (status < 0)
+      return status;
+    *value = fabs(r.max) >= fabs(r.min) ? r.max : r.min;
   }
   *value *= j->to_file;
   /* KL_LIMIT: the value covers the part of the sweep the motion reached */

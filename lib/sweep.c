@@ -389,18 +389,15 @@ static void interpolate_crossing(kl_solver *s, int input, double target) {
 static void finish(const kl_solver *s, kl_sweep_result *result, int status,
                    int steps_done, double limit, int substeps) {
   kl_sweep_result r;
-  size_t n;
   if (result == NULL || result->size < sizeof(result->size))
     return;
-  r.size = result->size;
   r.status = status;
   r.steps_done = steps_done;
   r.limit_input = limit;
   r.substeps = substeps;
   r.passages = s->passages;
   r.passage_input = s->last_passage;
-  n = result->size < sizeof r ? result->size : sizeof r;
-  memcpy(result, &r, n);
+  kli_copy_sized(result, &r, sizeof r);
 }
 
 static int check_sweep(kl_solver *s, int input, double from, double to,

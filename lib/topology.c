@@ -1,7 +1,8 @@
 /*
  * topology.c - finalize: connectivity, loops (registered or found from a
  * spanning tree), mobility, elimination of locked angles and inputs, the
- * vector chains of loops and points, and the Jacobian's sparsity pattern.
+ * vector chains of loops and points, the Jacobian's sparsity pattern, and
+ * the transmission-angle sites (their rule is in loops.c).
  */
 #include <math.h>
 #include <string.h>
@@ -23,6 +24,7 @@ typedef struct {
   int *loop_joints, *loop_start;    /* loops before they are final */
   int nloops, nloop_joints, cap_loop_joints;
   double *rank_work;
+  int *marks;                       /* links + joints: the transmission rule's */
 } work;
 
 static int union_find(int *parent, int x) {
@@ -259,15 +261,11 @@ static int mobility(kl_model *m, int *dof) {
   return KL_OK;
 }
 
-static int input_of(const kl_model *m, int joint) {
-  return m->joints[joint].input;
-}
-
 /* A joint fixes b's angle against a's: a prismatic lock or a revolute input. */
 static int relates_angles(const kl_model *m, int joint) {
   int kind = m->joints[joint].kind;
   return kind == KL_JOINT_PRISMATIC ||
-         (kind == KL_JOINT_REVOLUTE && input_of(m, joint) >= 0);
+         (kind == KL_JOINT_REVOLUTE && kli_input_of(m, joint) >= 0);
 }
 
 /*
@@ -327,7 +325,7 @@ static int angle_groups(kl_model *m, work *w, kli_topology *t) {
         w->seen[next] = 1;
         t->angle_parent[next] = cur;
         t->angle_input[next] =
-            m->joints[jj].kind == KL_JOINT_REVOLUTE ? input_of(m, jj) : -1;
+            m->joints[jj].kind == KL_JOINT_REVOLUTE ? kli_input_of(m, jj) : -1;
         t->angle_sign[next] = m->joints[jj].link[0] == cur ? 1.0 : -1.0;
         t->angle_order[tail++] = next;
       }
@@ -342,7 +340,7 @@ static int angle_groups(kl_model *m, work *w, kli_topology *t) {
     t->slide_input[j] = -1;
     if (!kli_is_sliding(m->joints[j].kind))
       continue;
-    t->slide_input[j] = input_of(m, j);
+    t->slide_input[j] = kli_input_of(m, j);
     if (t->slide_input[j] < 0)
       t->slide_var[j] = nvars++;
   }
@@ -700,6 +698,7 @@ static void *carve_work(const kl_model *m, work *w, kli_carver *c) {
   w->path_b = kli_carve(c, (size_t)nl, sizeof(int));
   w->loop_start = kli_carve(c, (size_t)nj + 2, sizeof(int));
   w->rank_work = kli_carve(c, rank, sizeof(double));
+  w->marks = kli_carve(c, (size_t)(nl + nj), sizeof(int));
   return c->base;
 }
 
@@ -729,6 +728,8 @@ static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
   t->nz_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));
   t->band_row = kli_carve(c, (size_t)w->nloops * 2, sizeof(int));
   t->band_col = kli_carve(c, (size_t)nvars, sizeof(int));
+  t->sites = kli_carve(c, (size_t)nj, sizeof(kl_output));
+  t->skips = kli_carve(c, (size_t)nj, sizeof(kl_transmission_skip));
 }
 
 /* Loop joints as found or registered, with the link after each joint. */
@@ -825,6 +826,7 @@ int kl_model_finalize(kl_model *m) {
   t.ncoords = m->nlinks + m->njoints;
   t.dof = dof;
   t.scale = model_scale(m, &w);
+  kli_find_transmissions(m, &t, w.marks);
   m->topo = t;
   m->finalized = 1;
   t.block = NULL;

@@ -62,3 +62,15 @@ int kl_point_velocity(const kl_solver *s, int point, double xy[2]) {
   kli_chain_rate(s->model, &s->model->topo.points[point], &s->st.pose, s->st.xd, xy);
   return KL_OK;
 }
+
+int kl_link_origin_velocity(const kl_solver *s, int link, double xy[2]) {
+  if (s == NULL || xy == NULL)
+    return KL_EINVAL;
+  if (link < 0 || link >= s->model->nlinks)
+    return KL_EID;
+  if (!s->st.velocity_solved)
+    return KL_ESTAGE;
+  kli_chain_rate(s->model, &s->model->topo.origins[link], &s->st.pose,
+                 s->st.xd, xy);
+  return KL_OK;
+}

@@ -3,7 +3,8 @@
  * building, finalizing and creating a solver is refused in turn; each time
  * the call fails cleanly, changes nothing, and every block is given back;
  * a model freed before its solvers gives its blocks back with the last;
- * a study's every allocation goes through its model's hook, likewise.
+ * a study's every allocation goes through its model's hook, likewise;
+ * and the calls made after kl_solver_new allocate nothing.
  */
 #include <check.h>
 #include <math.h>
@@ -316,6 +317,87 @@ START_TEST(allocator_hook_is_required) {
 }
 END_TEST
 
+/* Source: the contract in kinloop.h, "no call on a solver allocates after
+ * kl_solver_new"; the model's readers allocate nothing either. Each call
+ * below runs its success and its failure paths (messages included). */
+START_TEST(calls_after_solver_new_never_allocate) {
+  counting_alloc c;
+  kl_model *m;
+  kl_solver *s;
+  static const int second[4] = {4, 5, 6, 3};
+  double u = 0.3, far = 1e100, bad = NAN, xy[2], local[2] = {10, 5};
+  double start[1], *rows;
+  kl_reach_result reach;
+  kl_range range;
+  kl_fourbar fb;
+  kl_output sites[8];
+  kl_transmission_skip skips[8];
+  kl_load load;
+  long calls, live;
+  int size;
+  memset(&c, 0, sizeof c);
+  m = counting_model(&c);
+  ck_assert_int_eq(build_steps(m), KL_OK);
+  ck_assert_int_ge(kl_add_loop(m, 4, second), 0);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  s = kl_solver_new(m);
+  ck_assert_ptr_nonnull(s);
+  size = kl_model_row_size(m);
+  /* the caller's rows, before counting starts: 13 steps */
+  rows = counting_alloc_fn(&c, NULL, 0, (size_t)(13 * size) * sizeof *rows);
+  calls = c.calls;
+  live = c.live;
+  kl_set_link_angle(s, 2, 0.5);
+  kl_set_link_angle(s, 3, 1.8);
+  kl_set_link_angle(s, 4, 0.3);
+  reach.size = sizeof reach;
+  ck_assert_int_eq(kl_solver_reach(s, &u, &reach), KL_OK);
+  ck_assert_int_eq(kl_solver_reach(s, &bad, &reach), KL_ENONFINITE);
+  ck_assert_int_lt(kl_solver_reach(s, &far, &reach), 0);
+  ck_assert_int_eq(kl_solver_reset(s), KL_OK);
+  kl_set_link_angle(s, 2, 0.5);
+  kl_set_link_angle(s, 3, 1.8);
+  kl_set_link_angle(s, 4, 0.3);
+  ck_assert_int_eq(kl_solver_reach(s, &u, &reach), KL_OK);
+  ck_assert_int_eq(kl_link_to_global(s, 2, local, xy), KL_OK);
+  ck_assert_int_eq(kl_joint_position(s, 6, xy), KL_OK);
+  ck_assert_int_eq(kl_joint_position(s, 60, xy), KL_EID);
+  ck_assert_int_eq(kl_link_origin_velocity(s, 2, xy), KL_ESTAGE);
+  ck_assert_int_eq(kl_solve_velocity(s, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_acceleration(s, &u), KL_OK);
+  ck_assert_int_eq(kl_link_origin_velocity(s, 2, xy), KL_OK);
+  ck_assert_int_eq(kl_link_origin_accel(s, 2, xy), KL_OK);
+  ck_assert_int_eq(kl_solver_row(s, rows), KL_OK);
+  ck_assert_int_eq(kl_solver_sweep_rows(s, 0, u, u + 1.2, 12, rows, NULL),
+                   KL_OK);
+  memset(&load, 0, sizeof load);
+  load.kind = KL_LOAD_FORCE;
+  load.fy = -10;
+  range.size = sizeof range;
+  ck_assert_int_eq(kl_input_effort_range(s, 0, u, u + 1.2, 12, 1, &load, 0,
+                                         &range),
+                   KL_OK);
+  load.id = 9;
+  ck_assert_int_eq(kl_input_effort_range(s, 0, u, u + 1.2, 12, 1, &load, 0,
+                                         &range),
+                   KL_EID);
+  ck_assert_int_eq(kl_model_start_inputs(m, start), KL_OK);
+  fb.size = sizeof fb;
+  ck_assert_int_eq(kl_model_loop_fourbar(m, 0, &fb), KL_OK);
+  ck_assert_int_eq(kl_model_loop_fourbar(m, 1, &fb), KL_EKIND);
+  ck_assert_int_ge(kl_model_transmissions(m, sites, 8), 1);
+  ck_assert_int_ge(kl_model_transmission_skips(m, skips, 8), 1);
+  ck_assert_int_eq(kl_model_row_offset(m, KL_QUANTITY_RCOND, NULL), size - 1);
+  ck_assert_ptr_nonnull(kl_quantity_str(KL_QUANTITY_RCOND));
+  ck_assert_int_eq(c.calls, calls);
+  ck_assert_int_eq(c.live, live);
+  counting_alloc_fn(&c, rows, (size_t)(13 * size) * sizeof *rows, 0);
+  kl_solver_free(s);
+  kl_model_free(m);
+  ck_assert_int_eq(c.live, 0);
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("alloc");
   TCase *tc = tcase_create("alloc");
@@ -326,6 +408,7 @@ int main(void) {
   tcase_add_test(tc, solvers_keep_a_freed_model);
   tcase_add_test(tc, every_study_allocation_failure_is_clean);
   tcase_add_test(tc, allocator_hook_is_required);
+  tcase_add_test(tc, calls_after_solver_new_never_allocate);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }

@@ -495,6 +495,169 @@ START_TEST(slider_crank_torque_matches_statics) {
 END_TEST
 
 /*
+ * The extremes of that torque over a turn, at the sweep's steps, against
+ * the closed form at the same crank angles: the rod angle from the loop's
+ * y component, r sin t + l sin phi = e, on the branch with the block ahead
+ * of the crank (cos phi > 0), which the sketch chooses.
+ */
+START_TEST(slider_crank_torque_range_matches_statics) {
+  slider_crank sc = build_slider_crank(30, 100, 12);
+  kl_solver *s = kl_solver_new(sc.m);
+  const double force = 250.0; /* chosen for this test */
+  const int steps = 72;
+  kl_load along = force_at(sc.block_point, force, 0.0);
+  kl_range r = new_range();
+  double lo = HUGE_VAL, hi = -HUGE_VAL, at_lo = NAN, at_hi = NAN, u;
+  int k;
+  sketch_slider(s, &sc);
+  for (k = 0; k <= steps; k++) {
+    double t = 2 * PI * k / steps;
+    double phi = asin((sc.e - sc.r * sin(t)) / sc.l);
+    double want = force * sc.r * sin(t - phi) / cos(phi);
+    if (want < lo)
+      lo = want, at_lo = t;
+    if (want > hi)
+      hi = want, at_hi = t;
+  }
+  ck_assert_int_eq(kl_input_effort_range(s, 0, 0.0, 2 * PI, steps, 1, &along,
+                                         0, &r),
+                   KL_OK);
+  ck_assert_int_eq(r.sweep_status, KL_OK);
+  ck_assert(isnan(r.limit_input));
+  ck_assert_msg(fabs(r.min - lo) <= CLOSED_FORM_TOL * force * sc.r,
+                "min %.15g, closed form %.15g", r.min, lo);
+  ck_assert_msg(fabs(r.max - hi) <= CLOSED_FORM_TOL * force * sc.r,
+                "max %.15g, closed form %.15g", r.max, hi);
+  ck_assert_double_le(fabs(r.input_at_min - at_lo), 1e-12);
+  ck_assert_double_le(fabs(r.input_at_max - at_hi), 1e-12);
+  /* the solver is left at the end of the sweep */
+  u = kl_input_value(s, 0);
+  ck_assert_double_eq(u, 2 * PI);
+  kl_solver_free(s);
+  kl_model_free(sc.m);
+}
+END_TEST
+
+/*
+ * Another input's effort while one input sweeps: the two-input five-bar
+ * holding a force at its tip, the right crank's torque while the left one
+ * turns. The reference is kl_input_effort (checked against statics above)
+ * after each step of a one-step-at-a-time sweep, the same positions.
+ */
+START_TEST(fivebar_other_input_effort_range) {
+  fivebar f = build_fivebar(40, 40, 90, 90, 60);
+  kl_solver *s = kl_solver_new(f.m), *ref = kl_solver_new(f.m);
+  kl_load tip = force_at(f.tip, 3.0, -20.0);
+  const int steps = 20;
+  const double from = 80 * DEG, to = 120 * DEG;
+  double u[2] = {from, 95 * DEG}, lo = HUGE_VAL, hi = -HUGE_VAL;
+  double at_lo = NAN, at_hi = NAN;
+  kl_range r = new_range();
+  int k;
+  kl_set_link_angle(s, f.crank1, from);
+  kl_set_link_angle(s, f.crank2, u[1]);
+  kl_set_link_angle(s, f.link1, 30 * DEG);
+  kl_set_link_angle(s, f.link2, 150 * DEG);
+  ck_assert_int_eq(kl_solve_position(s, u), KL_OK);
+  kl_solver_copy_state(ref, s);
+  for (k = 0; k <= steps; k++) {
+    double e[2], at = from + (to - from) * ((double)k / steps);
+    double was = from + (to - from) * ((double)(k - 1) / steps);
+    ck_assert_int_eq(k == 0 ? kl_solve_position(ref, u)
+                            : kl_solver_sweep(ref, 0, was, at, 1, NULL, NULL,
+                                              NULL),
+                     KL_OK);
+    ck_assert_int_eq(kl_input_effort(ref, 1, &tip, e), KL_OK);
+    if (e[1] < lo)
+      lo = e[1], at_lo = at;
+    if (e[1] > hi)
+      hi = e[1], at_hi = at;
+  }
+  ck_assert_int_eq(
+      kl_input_effort_range(s, 0, from, to, steps, 1, &tip, 1, &r), KL_OK);
+  ck_assert_msg(rel_diff(r.min, lo, 1.0) <= 1e-12, "min %.17g, steps %.17g",
+                r.min, lo);
+  ck_assert_msg(rel_diff(r.max, hi, 1.0) <= 1e-12, "max %.17g, steps %.17g",
+                r.max, hi);
+  ck_assert_double_le(fabs(r.input_at_min - at_lo), 1e-12);
+  ck_assert_double_le(fabs(r.input_at_max - at_hi), 1e-12);
+  ck_assert(lo < hi); /* the torque does change over the range */
+  kl_solver_free(s);
+  kl_solver_free(ref);
+  kl_model_free(f.m);
+}
+END_TEST
+
+/*
+ * A sweep that meets a motion limit (the non-Grashof four-bar of section
+ * 4, its limit by elementary geometry) gives the extremes of the part
+ * reached, KL_LIMIT and where it stopped; a change point (ground 100,
+ * crank 40, coupler 140, rocker 80: s + l = p + q, all four pins in line
+ * at crank angle 0) fails, and the failure leaves the state as it was,
+ * coefficients included.
+ */
+START_TEST(effort_range_at_limits_and_failures) {
+  fourbar f = build_fourbar(70, 50, 60, 100), cp = build_fourbar(40, 140, 80, 100);
+  kl_solver *s = kl_solver_new(f.m), *c = kl_solver_new(cp.m);
+  const double lim = acos((f.a * f.a + f.d * f.d - (f.b + f.c) * (f.b + f.c)) /
+                          (2 * f.a * f.d));
+  kl_load hold = torque_on(f.rocker, 4.0), bad = torque_on(9, 1.0);
+  kl_range r = new_range();
+  double t3, t4, start = 10 * DEG;
+  snapshot before, after;
+  int st;
+  kl_set_link_angle(s, f.coupler, -0.2);
+  kl_set_link_angle(s, f.rocker, 1.5);
+  ck_assert_int_eq(kl_input_effort_range(s, 0, 0.0, PI, 40, 1, &hold, 0, &r),
+                   KL_LIMIT);
+  ck_assert_int_eq(r.sweep_status, KL_LIMIT);
+  ck_assert_msg(fabs(r.limit_input - lim) <= 1e-9, "limit %.15g vs %.15g",
+                r.limit_input, lim);
+  ck_assert_double_le(r.input_at_min, lim);
+  ck_assert_double_le(r.input_at_max, lim);
+  ck_assert_double_lt(r.min, r.max);
+  ck_assert_double_lt(kl_input_value(s, 0), lim);
+  /* the change point */
+  ck_assert(freudenstein(&cp, start, +1, &t3, &t4));
+  kl_set_link_angle(c, cp.coupler, t3);
+  kl_set_link_angle(c, cp.rocker, t4);
+  ck_assert_int_eq(kl_solve_position(c, &start), KL_OK);
+  ck_assert_int_eq(kl_solve_coefficients(c), KL_OK);
+  before = snap(c);
+  r = new_range();
+  r.min = -1.0;
+  /* how the sweep fails there depends on the side it comes from (a
+   * singular position, or sub-steps that run out): the failure is what
+   * this checks */
+  st = kl_input_effort_range(c, 0, start, start + 2 * PI, 36, 1, &hold, 0, &r);
+  ck_assert_msg(st == KL_ESINGULAR || st == KL_EMAXITER, "status %d", st);
+  after = snap(c);
+  assert_same_state(&before, &after, "a change point on the way");
+  ck_assert_double_eq(r.min, -1.0); /* not written */
+  /* refused before sweeping */
+  ck_assert_int_eq(kl_input_effort_range(c, 0, 0, 1, 4, 1, &hold, 1, &r),
+                   KL_EID);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(c), "input 1"));
+  ck_assert_int_eq(kl_input_effort_range(c, 0, 0, 1, 4, 1, &bad, 0, &r),
+                   KL_EID);
+  ck_assert_int_eq(kl_input_effort_range(c, 3, 0, 1, 4, 1, &hold, 0, &r),
+                   KL_EID);
+  ck_assert_int_eq(kl_input_effort_range(c, 0, 0, 1, 0, 1, &hold, 0, &r),
+                   KL_EINVAL);
+  ck_assert_int_eq(kl_input_effort_range(c, 0, 0, 1, 4, 1, NULL, 0, &r),
+                   KL_EINVAL);
+  ck_assert_int_eq(kl_input_effort_range(c, 0, 0, 1, 4, 1, &hold, 0, NULL),
+                   KL_EINVAL);
+  after = snap(c);
+  assert_same_state(&before, &after, "refused arguments");
+  kl_solver_free(s);
+  kl_solver_free(c);
+  kl_model_free(f.m);
+  kl_model_free(cp.m);
+}
+END_TEST
+
+/*
  * Common practice, no source: the energy balance by central differences.
  * With the crank at u +- h, the loads' work -(F . (p(u+h) - p(u-h)) +
  * T (theta(u+h) - theta(u-h))) / (2h) approximates the holding torque with
@@ -1152,6 +1315,9 @@ int main(void) {
   tcase_add_test(tc, range_up_to_a_motion_limit);
   tcase_add_test(tc, failed_range_changes_nothing);
   tcase_add_test(tc, slider_crank_torque_matches_statics);
+  tcase_add_test(tc, slider_crank_torque_range_matches_statics);
+  tcase_add_test(tc, fivebar_other_input_effort_range);
+  tcase_add_test(tc, effort_range_at_limits_and_failures);
   tcase_add_loop_test(tc, sixbar_effort_matches_the_energy_balance, 0, 2);
   tcase_add_test(tc, mechanical_advantage_is_the_inverse_velocity_ratio);
   tcase_add_test(tc, fourbar_sensitivities_match_perturbed_models);

@@ -929,6 +929,100 @@ octave_value_list cmd_grashof_str(const call &c) {
   return one(std::string(kl_grashof_str(c.integer(0, "class"))));
 }
 
+octave_value_list cmd_model_loop_fourbar(const call &c) {
+  int loop = c.integer(1, "loop");
+  kl_fourbar fb;
+  std::memset(&fb, 0, sizeof fb);
+  fb.size = sizeof fb;
+  c.quiet(kl_model_loop_fourbar(c.model(0, access::read).model, loop, &fb),
+          "loop " + str(loop) + " must be a four-bar driven at a ground pivot");
+  octave_scalar_map st;
+  st.assign("loop", fb.loop);
+  st.assign("input", fb.input);
+  st.assign("input_joint", fb.input_joint);
+  st.assign("output_joint", fb.output_joint);
+  st.assign("input_link", fb.input_link);
+  st.assign("coupler_link", fb.coupler_link);
+  st.assign("output_link", fb.output_link);
+  st.assign("ground_length", fb.ground_length);
+  st.assign("input_length", fb.input_length);
+  st.assign("coupler_length", fb.coupler_length);
+  st.assign("output_length", fb.output_length);
+  st.assign("grashof", fb.grashof);
+  st.assign("grashof_name", std::string(kl_grashof_str(fb.grashof)));
+  return one(st);
+}
+
+/* The sites as output structs (kind, id, line_a, line_b), for output_value
+ * and output_range. */
+octave_value_list cmd_model_transmissions(const call &c) {
+  const kl_model *m = c.model(0, access::read).model;
+  int n = kl_model_transmissions(m, nullptr, 0);
+  c.quiet(n, "the model must be finalized");
+  std::vector<kl_output> sites(n > 0 ? n : 1);
+  kl_model_transmissions(m, sites.data(), n);
+  octave_map out(dim_vector(1, n));
+  Cell kinds(1, n), ids(1, n), as(1, n), bs(1, n);
+  for (int k = 0; k < n; k++) {
+    kinds(k) = std::string("transmission");
+    ids(k) = sites[k].id;
+    as(k) = sites[k].line_a;
+    bs(k) = sites[k].line_b;
+  }
+  out.setfield("kind", kinds);
+  out.setfield("id", ids);
+  out.setfield("line_a", as);
+  out.setfield("line_b", bs);
+  return one(out);
+}
+
+octave_value_list cmd_model_transmission_skips(const call &c) {
+  const kl_model *m = c.model(0, access::read).model;
+  int n = kl_model_transmission_skips(m, nullptr, 0);
+  c.quiet(n, "the model must be finalized");
+  std::vector<kl_transmission_skip> skips(n > 0 ? n : 1);
+  kl_model_transmission_skips(m, skips.data(), n);
+  octave_map out(dim_vector(1, n));
+  Cell joints(1, n), loops(1, n), links(1, n), reasons(1, n);
+  for (int k = 0; k < n; k++) {
+    joints(k) = skips[k].joint;
+    loops(k) = skips[k].loop;
+    links(k) = skips[k].link;
+    reasons(k) = std::string(skips[k].reason == KL_TRANSMISSION_SKIP_INPUT_CRANK
+                                 ? "input_crank"
+                                 : "no_line");
+  }
+  out.setfield("joint", joints);
+  out.setfield("loop", loops);
+  out.setfield("link", links);
+  out.setfield("reason", reasons);
+  return one(out);
+}
+
+octave_value_list cmd_model_start_inputs(const call &c) {
+  const kl_model *m = c.model(0, access::read).model;
+  int n = kl_model_input_count(m);
+  std::vector<double> u(n > 0 ? n : 1);
+  c.quiet(kl_model_start_inputs(m, u.data()), "start inputs");
+  return one(row(u.data(), n));
+}
+
+octave_value_list cmd_quantity_str(const call &c) {
+  const char *name = kl_quantity_str(c.integer(0, "quantity"));
+  return one(name != nullptr ? octave_value(std::string(name)) : Matrix());
+}
+
+octave_value_list cmd_model_row_offset(const call &c) {
+  int q = c.integer(1, "quantity"), count = 0;
+  int offset =
+      kl_model_row_offset(c.model(0, access::read).model, q, &count);
+  c.quiet(offset, "quantity " + str(q));
+  octave_value_list out;
+  out(0) = offset;
+  out(1) = count;
+  return out;
+}
+
 /* ---- model files ---- */
 
 /* A model or study read, or the reason it was not: raised, or with two
@@ -1447,6 +1541,75 @@ octave_value_list cmd_sweep(const call &c) {
   return one(out);
 }
 
+/* ---- going to a position, frames, rows ---- */
+
+octave_value_list cmd_solver_reset(const call &c) {
+  entry &s = c.solver(0);
+  solver_status(kl_solver_reset(s.solver), s);
+  return none();
+}
+
+octave_value_list cmd_solver_reach(const call &c) {
+  entry &s = c.solver(0);
+  int n = kl_model_input_count(s.model);
+  std::vector<double> u = c.values(1, n, "inputs");
+  kl_reach_result r;
+  r.size = sizeof r;
+  solver_status(kl_solver_reach(s.solver, n > 0 ? u.data() : nullptr, &r), s);
+  return one(r.substeps);
+}
+
+octave_value_list cmd_link_to_global(const call &c) {
+  const kl_solver *s = c.solver(0, access::read).solver;
+  int link = c.integer(1, "link");
+  std::vector<double> local = c.values(2, 2, "local point [x y]");
+  double xy[2];
+  c.quiet(kl_link_to_global(s, link, local.data(), xy), "link " + str(link));
+  return one(row(xy, 2));
+}
+
+octave_value_list cmd_solver_row(const call &c) {
+  entry &s = c.solver(0, access::read);
+  int n = kl_model_row_size(s.model);
+  std::vector<double> v(n > 0 ? n : 1);
+  c.quiet(kl_solver_row(s.solver, v.data()), "row");
+  return one(row(v.data(), n));
+}
+
+/* One row per step, the rows after a stop NaN; and the outcome. */
+octave_value_list cmd_solver_sweep_rows(const call &c) {
+  entry &s = c.solver(0);
+  int input = c.integer(1, "input");
+  double from = c.real(2, "from"), to = c.real(3, "to");
+  int steps = c.integer(4, "steps");
+  int n = kl_model_row_size(s.model);
+  if (steps < 1 || steps > 100000000)
+    c.bad("steps must be from 1 to 1e8");
+  std::vector<double> rows((static_cast<size_t>(steps) + 1) * n);
+  kl_sweep_result res;
+  res.size = sizeof res;
+  int st = kl_solver_sweep_rows(s.solver, input, from, to, steps, rows.data(),
+                                &res);
+  if (st < 0 && res.steps_done == 0)
+    solver_status(st, s);
+  Matrix out(steps + 1, n);
+  for (int k = 0; k <= steps; k++)
+    for (int q = 0; q < n; q++)
+      out(k, q) = rows[static_cast<size_t>(k) * n + q];
+  octave_scalar_map result;
+  result.assign("status", st);
+  result.assign("status_name", status_name(st));
+  result.assign("message", st == KL_OK ? std::string()
+                                       : std::string(kl_solver_error(s.solver)));
+  result.assign("limit_input", res.limit_input);
+  result.assign("steps_done", res.steps_done);
+  result.assign("substeps", res.substeps);
+  octave_value_list outs;
+  outs(0) = out;
+  outs(1) = result;
+  return outs;
+}
+
 /* ---- design figures ---- */
 
 octave_value_list cmd_output_value(const call &c) {
@@ -1511,6 +1674,24 @@ octave_value_list cmd_input_effort(const call &c) {
                                 efforts.data()),
                 s);
   return one(row(efforts.data(), n));
+}
+
+octave_value_list cmd_input_effort_range(const call &c) {
+  entry &s = c.solver(0);
+  int input = c.integer(1, "input");
+  double from = c.real(2, "from"), to = c.real(3, "to");
+  int steps = c.integer(4, "steps");
+  std::vector<kl_load> loads = loads_arg(c, 5);
+  int effort_input = c.integer(6, "effort input");
+  kl_range r;
+  std::memset(&r, 0, sizeof r);
+  r.size = sizeof r;
+  solver_status(kl_input_effort_range(s.solver, input, from, to, steps,
+                                      static_cast<int>(loads.size()),
+                                      loads.empty() ? nullptr : loads.data(),
+                                      effort_input, &r),
+                s);
+  return one(range_struct(r));
 }
 
 octave_value_list cmd_output_sensitivity(const call &c) {
@@ -1837,6 +2018,14 @@ const command commands[] = {
     {"model_joint_axis", 2, 2, "(model, joint)", cmd_joint_axis},
     {"model_input_joint", 2, 2, "(model, input)", cmd_input_joint},
     {"model_grashof", 1, 1, "(model)", cmd_model_grashof},
+    {"model_loop_fourbar", 2, 2, "(model, loop)", cmd_model_loop_fourbar},
+    {"model_transmissions", 1, 1, "(model)", cmd_model_transmissions},
+    {"model_transmission_skips", 1, 1, "(model)",
+     cmd_model_transmission_skips},
+    {"model_start_inputs", 1, 1, "(model)", cmd_model_start_inputs},
+    {"quantity_str", 1, 1, "(quantity)", cmd_quantity_str},
+    {"model_row_size", 1, 1, "(model)", cmd_model_count<kl_model_row_size>},
+    {"model_row_offset", 2, 2, "(model, quantity)", cmd_model_row_offset},
     {"grashof", 4, 4, "(ground, input, coupler, output)", cmd_grashof},
     {"grashof_str", 1, 1, "(class)", cmd_grashof_str},
     /* model files */
@@ -1904,6 +2093,18 @@ const command commands[] = {
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])",
      cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
+    {"solver_reset", 1, 1, "(solver)", cmd_solver_reset},
+    {"solver_reach", 2, 2, "(solver, inputs)", cmd_solver_reach},
+    {"link_to_global", 3, 3, "(solver, link, [x y])", cmd_link_to_global},
+    {"joint_position", 2, 2, "(solver, joints)",
+     cmd_solver_points<kl_joint_position>},
+    {"link_origin_velocity", 2, 2, "(solver, links)",
+     cmd_solver_points<kl_link_origin_velocity>},
+    {"link_origin_accel", 2, 2, "(solver, links)",
+     cmd_solver_points<kl_link_origin_accel>},
+    {"solver_row", 1, 1, "(solver)", cmd_solver_row},
+    {"solver_sweep_rows", 5, 5, "(solver, input, from, to, steps)",
+     cmd_solver_sweep_rows},
     /* design figures */
     {"output_value", 2, 2, "(solver, output)", cmd_output_value},
     {"output_deriv", 3, 3, "(solver, output, input)",
@@ -1914,6 +2115,9 @@ const command commands[] = {
     {"output_mechanical_advantage", 3, 3, "(solver, output, input)",
      cmd_output_per_input<kl_output_mechanical_advantage>},
     {"input_effort", 2, 2, "(solver, loads)", cmd_input_effort},
+    {"input_effort_range", 7, 7,
+     "(solver, input, from, to, steps, loads, effort_input)",
+     cmd_input_effort_range},
     {"output_sensitivity", 3, 3, "(solver, output, dimension)",
      cmd_output_sensitivity},
     {"output_tolerance_stack", 4, 4, "(solver, output, dimensions, tolerances)",

@@ -11,6 +11,10 @@
 #include "kinloop.h"
 
 #define CLI_PI 3.14159265358979323846
+/* The transmission angle's usual range, deg (rule of thumb: common
+ * practice, no source). */
+#define CLI_USUAL_LOW_DEG 40.0
+#define CLI_USUAL_HIGH_DEG 140.0
 
 /* Exit codes, as documented in the usage text and docs/cli.md. */
 enum cli_exit {
@@ -64,29 +68,6 @@ typedef struct {
   const char *charts; /* study: the folder for its charts */
 } cli_options;
 
-/* A transmission-angle site: revolute `joint` of loop `loop`, with the lines
- * to its neighbours in the loop walk (line_a on the joint's link a, line_b
- * on its link b), as kl_output takes them. */
-typedef struct {
-  int joint, line_a, line_b, loop;
-} cli_site;
-
-/* A joint the transmission rule names but the tool does not measure: its
- * line on `link` has no length (the neighbouring joint stands at the same
- * point of that link), or `link` is a crank the input turns directly, so
- * the angle there says nothing about how well force gets through. */
-enum { CLI_NO_LINE, CLI_INPUT_CRANK };
-typedef struct {
-  int joint, loop, link, reason;
-} cli_unmeasured;
-
-/* A loop that is a four-bar with an input at one of its ground pivots. */
-typedef struct {
-  int loop, input_joint, cls;
-  int input_link, coupler_link, output_link;
-  double ground, input, coupler, output; /* link lengths */
-} cli_fourbar;
-
 typedef struct {
   kl_model *model;
   const char *label; /* the path given, or the demo's file name */
@@ -100,12 +81,16 @@ typedef struct {
   const char *length_unit; /* "mm", "m", "in", or "len" when unstated */
   int nslides;
   int *slides; /* the prismatic and slot joints, in id order */
+  /* what the library reads from the loops */
   int nsites;
-  cli_site *sites;
-  int nunmeasured;
-  cli_unmeasured *unmeasured;
+  kl_output *sites; /* transmission-angle sites */
+  int nskips;
+  kl_transmission_skip *skips;
   int nfourbars;
-  cli_fourbar *fourbars;
+  kl_fourbar *fourbars;
+  /* where each quantity's block starts in a row (kl_solver_row) */
+  int row_size;
+  int row_offset[KL_QUANTITY_RCOND + 1];
 } cli_model;
 
 /* A sweep of one input, in library units (rad or length). */
@@ -141,26 +126,22 @@ int cli_close_output(FILE *f, const char *path);
 /* Makes the folder `dir` unless it is one already (its parent must
  * exist). Returns an exit code after printing why it failed. */
 int cli_make_dir(const char *dir);
-int cli_cmd_write(const cli_model *cm, const cli_options *o);
 
-/* ---- loops.c: transmission-angle sites and four-bar loops ---- */
-int cli_analyse_loops(cli_model *cm);
-/* Transmission angle (rad) at a site in the solver's current state. */
-double cli_site_value(const kl_solver *s, const cli_site *site);
-
-/* ---- position.c: units, positions reached by continuation, ranges ---- */
+/* ---- inputs.c: inputs in the user's units, ranges, going to positions ---- */
 int cli_input_is_angle(const cli_model *cm, int input);
 double cli_input_factor(const cli_model *cm, int input); /* unit per lib unit */
 const char *cli_input_unit(const cli_model *cm, int input);
 const char *cli_input_name(const cli_model *cm, int input);
-void cli_home_inputs(const cli_model *cm, double *u);
 /* Parses "v1,v2,..." (one value per input, model units) into library units.
  * Returns 0, or -1 after printing why. */
 int cli_parse_inputs(const cli_model *cm, const char *list, const char *what,
                      double *u);
-/* Brings the solver to `target` by continuation from the home position (a
- * direct solve from the sketch if home does not assemble). Returns a KL
- * status; on failure `why` says what happened in the user's units. */
+/* The inputs of --at, or the model's start when it is not given. Returns
+ * 0, or -1 after printing why. */
+int cli_start_or_at(const cli_model *cm, const cli_options *o, double *u);
+/* Brings the solver to `target` from the model's start (kl_solver_reset,
+ * kl_solver_reach). Returns a KL status; on failure `why` says what
+ * happened in the user's units. */
 int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
               char *why, size_t cap);
 /* The range from the options, the model's sweep settings, or a full turn of
@@ -168,33 +149,36 @@ int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
  * printing a usage error. */
 int cli_resolve_range(const cli_model *cm, const cli_options *o,
                       cli_range *r);
-/* Reaches the start of the range (other inputs at --at or home). Returns an
- * exit code after printing why it failed. */
+/* As cli_resolve_range for a command that needs a range: an exit code,
+ * after saying "NOTHING: why" when there is none. */
+int cli_require_range(const cli_model *cm, const cli_options *o,
+                      cli_range *r, const char *nothing);
+/* Reaches the start of the range (other inputs at --at or the start).
+ * Returns an exit code after printing why it failed. */
 int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,
                     const cli_range *r);
-/* Global position of a joint: its attachment point on link b. */
-void cli_joint_position(const kl_solver *s, const kl_model *m, int joint,
-                        double xy[2]);
-/* Global position of a point given in `link`'s frame. */
-void cli_local_to_global(const kl_solver *s, int link, const double local[2],
-                         double xy[2]);
 /* A value in the model's units for messages: "123.4 deg". */
 void cli_format_input(const cli_model *cm, int input, double value, char *buf,
                       size_t cap);
 
-/* ---- record.c: a sweep as rows of raw library values ---- */
+/* ---- record.c: a sweep's rows streamed, and the columns shown of them ---- */
+/* Where item `item` of a quantity sits in a row. */
+int cli_row_at(const cli_model *cm, int quantity, int item);
 enum cli_dim { CLI_DIM_INPUT, CLI_DIM_ANGLE, CLI_DIM_LENGTH, CLI_DIM_PLAIN };
 typedef struct {
   char name[300];
   int dim, order; /* order 0 value, 1 rate, 2 acceleration */
+  int at;         /* the value's place in a row */
 } cli_column;
+/* The columns of the sweep command's CSV, in order: the swept input, each
+ * moving link's angle, rate and acceleration, each slide's, each point's x
+ * and y with theirs, each transmission angle, the condition estimate. */
 int cli_column_count(const cli_model *cm);
 void cli_columns(const cli_model *cm, int input, cli_column *cols);
 int cli_col_link(const cli_model *cm, int link, int order);
 int cli_col_slide(const cli_model *cm, int slide_index, int order);
 int cli_col_point(const cli_model *cm, int point, int axis, int order);
 int cli_col_site(const cli_model *cm, int site);
-int cli_col_rcond(const cli_model *cm);
 /* Factor from raw values (rad, length, per rad or length of input) to the
  * model's units, with rates per second at the given input speed. */
 double cli_column_factor(const cli_model *cm, int input, const cli_column *c,
@@ -203,37 +187,63 @@ double cli_column_factor(const cli_model *cm, int input, const cli_column *c,
 void cli_column_unit(const cli_model *cm, int input, const cli_column *c,
                      int per_input, char *buf, size_t cap);
 typedef int (*cli_row_fn)(void *user, int step, const double *row);
-/* Sweeps `r` from the solver's state, handing each row to `fn` (non-zero
- * stops). Returns what kl_solver_sweep returned, or KL_ENOMEM. */
+/* Sweeps `r` from the solver's state, handing each step's row
+ * (kl_solver_row) to `fn` (non-zero stops). Returns what kl_solver_sweep
+ * returned, or KL_ENOMEM. */
 int cli_record(kl_solver *s, const cli_model *cm, const cli_range *r,
                cli_row_fn fn, void *user, kl_sweep_result *res);
 /* A note for a sweep that stopped early, in the user's units. */
 void cli_sweep_note(const cli_model *cm, const cli_range *r,
                     const kl_sweep_result *res, char *buf, size_t cap);
+/* Tells how a sweep (`what`) that returned `status` ended: "note: ...;
+ * THEN" for one that stopped early (exit 0), its failure (exit 4). */
+int cli_sweep_told(const cli_model *cm, const kl_solver *s,
+                   const cli_range *r, const kl_sweep_result *res, int status,
+                   const char *what, const char *then);
 
-/* ---- report.c: text reports ---- */
+/* ---- check.c ---- */
 int cli_cmd_check(const cli_model *cm, const cli_options *o);
+/* The check report into f: what the check command and the demo print. */
 int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o);
+
+/* ---- solve.c ---- */
 int cli_cmd_solve(const cli_model *cm, const cli_options *o);
 
-/* ---- csv.c ---- */
+/* ---- sweep.c ---- */
 int cli_cmd_sweep(const cli_model *cm, const cli_options *o);
 /* A CSV field, quoted when a comma, quote or line break would split it. */
 void cli_csv_field(FILE *f, const char *text);
 
-/* ---- svg.c: shared SVG writing ---- */
+/* ---- write.c ---- */
+int cli_cmd_write(const cli_model *cm, const cli_options *o);
+
+/* ---- svg.c: what the drawing, the plots and the study charts share ---- */
+#define SVG_FONT "DejaVu Sans, Verdana, sans-serif"
+#define SVG_INK "#2f2a24"   /* lines and text */
+#define SVG_MUTED "#6a6256" /* subtitles, secondary text */
+#define SVG_PAPER "#f7f4ec" /* the page */
 void svg_begin(FILE *f, double width, double height, const char *background);
 void svg_end(FILE *f);
 void svg_escaped(FILE *f, const char *s);
 const char *svg_colour(int k);
-#define SVG_FONT "DejaVu Sans, Verdana, sans-serif"
-#define SVG_INK "#2f2a24"
+/* A text element at (x, y): its start tag, with `attrs` (NULL for none)
+ * added, for a caller that writes the content and "</text>"; or all of it
+ * with `text` escaped. */
+void svg_text_open(FILE *f, double x, double y, double size,
+                   const char *colour, const char *attrs);
+void svg_text(FILE *f, double x, double y, double size, const char *colour,
+              const char *attrs, const char *text);
+/* A key entry: a short line (dashed with `dash`, NULL for solid) and its
+ * text, the text's baseline at y. */
+void svg_key(FILE *f, double x, double y, const char *colour,
+             const char *dash, const char *text);
+/* 1, 2 or 5 times a power of ten: the least not below v (up), or the
+ * greatest not above it. For ticks and scale bars. */
+double svg_round_125(double v, int up);
 
-/* ---- chart.c: a panel in data coordinates, shared by plots and study
- * charts ---- */
+/* The panel of a plot or chart, in data coordinates. */
 #define CHART_WIDTH 760.0
 #define CHART_HEIGHT 470.0
-#define CHART_PAPER "#f7f4ec"
 #define CHART_PANEL "#fffdf8"
 #define CHART_ALARM "#a3312a" /* marks what stops or fails */
 typedef struct {

@@ -27,11 +27,12 @@ static int worst_torque(const cli_model *cm, double *worst, double *at) {
   kl_model *m = cm->model;
   kl_solver *s = kl_solver_new(m);
   kl_load loads[2];
+  kl_range r;
   cli_options none;
   cli_range turn;
   int tip = find_or_fail(kl_model_find_point(m, "tucker tip"), "point", "tucker tip");
   int nose = find_or_fail(kl_model_find_point(m, "plate nose"), "point", "plate nose");
-  int k, st = CLI_EXIT_OK;
+  int st = CLI_EXIT_OK;
   if (s == NULL) {
     cli_error("out of memory");
     return CLI_EXIT_MEMORY;
@@ -56,23 +57,17 @@ static int worst_torque(const cli_model *cm, double *worst, double *at) {
     kl_solver_free(s);
     return st;
   }
-  *worst = 0.0;
-  *at = 0.0;
-  for (k = 0; k <= TORQUE_STEPS; k++) {
-    double u0 = turn.to * (k - 1) / TORQUE_STEPS, u1 = turn.to * k / TORQUE_STEPS;
-    double torque;
-    kl_sweep_result res;
-    res.size = sizeof res;
-    if ((k > 0 && kl_solver_sweep(s, 0, u0, u1, 1, NULL, NULL, &res) != KL_OK) ||
-        kl_input_effort(s, 2, loads, &torque) != KL_OK) {
-      cli_error("the torque at motor %d deg: %s", k, kl_solver_error(s));
-      st = CLI_EXIT_SOLVE;
-      break;
-    }
-    if (fabs(torque) > fabs(*worst)) {
-      *worst = torque;
-      *at = u1;
-    }
+  r.size = sizeof r;
+  if (kl_input_effort_range(s, 0, turn.from, turn.to, turn.steps, 2, loads, 0,
+                            &r) != KL_OK) {
+    cli_error("the torque over a motor turn: %s", kl_solver_error(s));
+    st = CLI_EXIT_SOLVE;
+  } else if (fabs(r.max) >= fabs(r.min)) {
+    *worst = r.max;
+    *at = r.input_at_max;
+  } else {
+    *worst = r.min;
+    *at = r.input_at_min;
   }
   kl_solver_free(s);
   return st;

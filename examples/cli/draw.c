@@ -17,16 +17,18 @@
 #define JOINT_PX 5.5 /* joint marker radius */
 #define BAR_PX 7.0   /* binary link width */
 #define OUTLINE_PX 3.0 /* stroke of a plate-shaped link */
-#define PAPER "#f7f4ec"
 #define GHOST_OPACITY 0.3
+#define JOINT_NAME_COLOUR "#8a8174"
 
+/* A position as drawn, every place global (from the library's frames). */
 typedef struct {
-  double *inputs;      /* library units */
-  double *link_angle;  /* per link */
-  double *link_origin; /* 2 per link */
-  double *joint_xy;    /* 2 per joint */
-  double *point_xy;    /* 2 per point */
-  double *slide;       /* per joint (NaN for revolute) */
+  double *inputs;     /* library units */
+  double *joint_xy;   /* 2 per joint */
+  double *point_xy;   /* 2 per point */
+  double *slide;      /* per joint (NaN for revolute) */
+  double *outline_xy; /* 2 per outline point of every link, in turn */
+  double *rail;       /* 4 per sliding joint: where its slide is 0 on link
+                         a, and the unit direction its slide grows in */
 } pose;
 
 typedef struct {
@@ -38,6 +40,7 @@ typedef struct {
 
 typedef struct {
   int n;         /* points of the outline */
+  int first;     /* where they start in a pose's outline_xy */
   double *local; /* 2 per point, the convex hull in the link's frame */
 } outline;
 
@@ -73,59 +76,69 @@ static int path_row(void *user, int step, const double *row) {
     p->cap = cap;
   }
   for (i = 0; i < p->npoints; i++) {
-    p->xy[2 * (p->n * p->npoints + i)] = row[cli_col_point(k->cm, i, 0, 0)];
+    p->xy[2 * (p->n * p->npoints + i)] =
+        row[cli_row_at(k->cm, KL_QUANTITY_POINT_X, i)];
     p->xy[2 * (p->n * p->npoints + i) + 1] =
-        row[cli_col_point(k->cm, i, 1, 0)];
+        row[cli_row_at(k->cm, KL_QUANTITY_POINT_Y, i)];
   }
   for (i = 0; i < p->nslides; i++)
-    p->slide[p->n * p->nslides + i] = row[cli_col_slide(k->cm, i, 0)];
+    p->slide[p->n * p->nslides + i] =
+        row[cli_row_at(k->cm, KL_QUANTITY_JOINT_SLIDE, k->cm->slides[i])];
   p->n++;
   return 0;
 }
 
-static int pose_alloc(pose *q, const cli_model *cm) {
-  size_t ni = (size_t)(cm->ninputs + 1), nl = (size_t)cm->nlinks,
-         nj = (size_t)(cm->njoints + 1), np = (size_t)(cm->npoints + 1);
+static int pose_alloc(pose *q, const cli_model *cm, int outline_points) {
+  size_t ni = (size_t)(cm->ninputs + 1), nj = (size_t)(cm->njoints + 1),
+         np = (size_t)(cm->npoints + 1), no = (size_t)(outline_points + 1),
+         ns = (size_t)(cm->nslides + 1);
   q->inputs = malloc(ni * sizeof(double));
-  q->link_angle = malloc(nl * sizeof(double));
-  q->link_origin = malloc(2 * nl * sizeof(double));
   q->joint_xy = malloc(2 * nj * sizeof(double));
   q->point_xy = malloc(2 * np * sizeof(double));
   q->slide = malloc(nj * sizeof(double));
-  return q->inputs && q->link_angle && q->link_origin && q->joint_xy &&
-         q->point_xy && q->slide;
+  q->outline_xy = malloc(2 * no * sizeof(double));
+  q->rail = malloc(4 * ns * sizeof(double));
+  return q->inputs && q->joint_xy && q->point_xy && q->slide &&
+         q->outline_xy && q->rail;
 }
 
 static void pose_free(pose *q) {
   free(q->inputs);
-  free(q->link_angle);
-  free(q->link_origin);
   free(q->joint_xy);
   free(q->point_xy);
   free(q->slide);
+  free(q->outline_xy);
+  free(q->rail);
 }
 
-static void pose_take(pose *q, const cli_model *cm, const kl_solver *s) {
-  int i;
+static void pose_take(pose *q, const cli_model *cm, const outline *o,
+                      const kl_solver *s) {
+  const kl_model *m = cm->model;
+  int i, k;
   for (i = 0; i < cm->ninputs; i++)
     q->inputs[i] = kl_input_value(s, i);
-  for (i = 0; i < cm->nlinks; i++) {
-    q->link_angle[i] = kl_link_angle(s, i);
-    kl_link_origin(s, i, q->link_origin + 2 * i);
-  }
   for (i = 0; i < cm->njoints; i++) {
-    cli_joint_position(s, cm->model, i, q->joint_xy + 2 * i);
+    kl_joint_position(s, i, q->joint_xy + 2 * i);
     q->slide[i] = kl_joint_slide(s, i);
   }
   for (i = 0; i < cm->npoints; i++)
     kl_point_position(s, i, q->point_xy + 2 * i);
-}
-
-static void to_global(const pose *q, int link, const double local[2],
-                      double xy[2]) {
-  double c = cos(q->link_angle[link]), s = sin(q->link_angle[link]);
-  xy[0] = q->link_origin[2 * link] + c * local[0] - s * local[1];
-  xy[1] = q->link_origin[2 * link + 1] + s * local[0] + c * local[1];
+  for (i = 1; i < cm->nlinks; i++)
+    for (k = 0; k < o[i].n; k++)
+      kl_link_to_global(s, i, o[i].local + 2 * k,
+                        q->outline_xy + 2 * (o[i].first + k));
+  for (k = 0; k < cm->nslides; k++) {
+    int joint = cm->slides[k], links[2];
+    double a[2], along[2], axis = kl_model_joint_axis(m, joint);
+    double *rail = q->rail + 4 * k;
+    kl_model_joint_links(m, joint, links, a, NULL);
+    along[0] = a[0] + cos(axis);
+    along[1] = a[1] + sin(axis);
+    kl_link_to_global(s, links[0], a, rail);
+    kl_link_to_global(s, links[0], along, rail + 2);
+    rail[2] -= rail[0];
+    rail[3] -= rail[1];
+  }
 }
 
 /* ---- link outlines: convex hull of a link's joints and points ---- */
@@ -181,12 +194,14 @@ static int hull(double *pts, int n, double *out) {
   return k - 1; /* the last repeats the first */
 }
 
+/* The outline of every moving link; returns their total number of points,
+ * or -1 when memory runs out. */
 static int make_outlines(const cli_model *cm, outline *o) {
   const kl_model *m = cm->model;
-  int cap = 2 * (cm->njoints + cm->npoints) + 2, l, j, p;
+  int cap = 2 * (cm->njoints + cm->npoints) + 2, l, j, p, total = 0;
   double *pts = malloc((size_t)cap * 2 * sizeof *pts);
   if (pts == NULL)
-    return 0;
+    return -1;
   for (l = 1; l < cm->nlinks; l++) {
     int n = 0;
     for (j = 0; j < cm->njoints; j++) {
@@ -215,12 +230,14 @@ static int make_outlines(const cli_model *cm, outline *o) {
     o[l].local = malloc((size_t)(n + 2) * 2 * sizeof(double));
     if (o[l].local == NULL) {
       free(pts);
-      return 0;
+      return -1;
     }
     o[l].n = n > 0 ? hull(pts, n, o[l].local) : 0;
+    o[l].first = total;
+    total += o[l].n;
   }
   free(pts);
-  return 1;
+  return total;
 }
 
 /* ---- bounds and the view ---- */
@@ -269,15 +286,11 @@ static void rail_span(const cli_model *cm, const pose *poses, int nposes,
   *hi += pad;
 }
 
-/* A point of joint j's guide line at slide v, global, for pose q. */
-static void rail_point(const cli_model *cm, const pose *q, int joint,
-                       double v, double xy[2]) {
-  int links[2];
-  double a[2], local[2], axis = kl_model_joint_axis(cm->model, joint);
-  kl_model_joint_links(cm->model, joint, links, a, NULL);
-  local[0] = a[0] + v * cos(axis);
-  local[1] = a[1] + v * sin(axis);
-  to_global(q, links[0], local, xy);
+/* The point of sliding joint k's guide line at slide v, for pose q. */
+static void rail_point(const pose *q, int k, double v, double xy[2]) {
+  const double *rail = q->rail + 4 * k;
+  xy[0] = rail[0] + v * rail[2];
+  xy[1] = rail[1] + v * rail[3];
 }
 
 /* ---- writing ---- */
@@ -308,13 +321,13 @@ static void draw_ground_pivot(FILE *f, const double *xy, double u) {
 
 /* Draws a guide line; a rail on ground gets hatching on the side away
  * from `centre`, where the linkage is not. */
-static void draw_rail(FILE *f, const cli_model *cm, const pose *q, int joint,
-                      double lo, double hi, double u, int on_ground,
+static void draw_rail(FILE *f, const pose *q, int slide_index, double lo,
+                      double hi, double u, int on_ground,
                       const double centre[2]) {
   double p0[2], p1[2], dx, dy, len, nx, ny;
   int k, marks;
-  rail_point(cm, q, joint, lo, p0);
-  rail_point(cm, q, joint, hi, p1);
+  rail_point(q, slide_index, lo, p0);
+  rail_point(q, slide_index, hi, p1);
   fprintf(f,
           "<line x1=\"%.9g\" y1=\"%.9g\" x2=\"%.9g\" y2=\"%.9g\" stroke=\"%s\" "
           "stroke-width=\"%.9g\" stroke-linecap=\"round\"%s/>\n",
@@ -366,45 +379,38 @@ static void draw_pose(FILE *f, const cli_model *cm, const pose *q,
     if (links[0] == KL_GROUND)
       continue;
     rail_span(cm, poses, nposes, p, k, 3 * u, &lo, &hi);
-    draw_rail(f, cm, q, cm->slides[k], lo, hi, u, 0, NULL);
+    draw_rail(f, q, k, lo, hi, u, 0, NULL);
   }
   for (l = 1; l < cm->nlinks; l++) {
     const char *colour = svg_colour(l - 1);
-    double xy[2];
     if (o[l].n >= 3) {
       fprintf(f, "<polygon class=\"link\" data-link=\"");
       svg_escaped(f, cm->link_names[l]);
       fprintf(f, "\" points=\"");
-      for (k = 0; k < o[l].n; k++) {
-        to_global(q, l, o[l].local + 2 * k, xy);
-        put_xy(f, xy);
-      }
+      for (k = 0; k < o[l].n; k++)
+        put_xy(f, q->outline_xy + 2 * (o[l].first + k));
       fprintf(f,
               "\" fill=\"%s\" fill-opacity=\"0.22\" stroke=\"%s\" "
               "stroke-width=\"%.9g\" stroke-linejoin=\"round\"/>\n",
               colour, colour, OUTLINE_PX / JOINT_PX * u);
     } else if (o[l].n == 2) {
-      double xy2[2];
-      to_global(q, l, o[l].local, xy);
-      to_global(q, l, o[l].local + 2, xy2);
+      const double *xy = q->outline_xy + 2 * o[l].first;
       fprintf(f, "<line class=\"link\" data-link=\"");
       svg_escaped(f, cm->link_names[l]);
       fprintf(f,
               "\" x1=\"%.9g\" y1=\"%.9g\" x2=\"%.9g\" y2=\"%.9g\" "
               "stroke=\"%s\" stroke-width=\"%.9g\" stroke-linecap=\"round\"/>\n",
-              xy[0], xy[1], xy2[0], xy2[1], colour, BAR_PX / JOINT_PX * u);
+              xy[0], xy[1], xy[2], xy[3], colour, BAR_PX / JOINT_PX * u);
     }
   }
   /* slider blocks of prismatic joints, along their axis */
   for (k = 0; k < cm->nslides; k++) {
     int joint = cm->slides[k], links[2];
-    double axis, c, s, cx, cy, hl = 2.6 * u, hw = 1.6 * u;
+    double c = q->rail[4 * k + 2], s = q->rail[4 * k + 3], cx, cy;
+    double hl = 2.6 * u, hw = 1.6 * u;
     if (kl_model_joint_kind(m, joint) != KL_JOINT_PRISMATIC)
       continue;
     kl_model_joint_links(m, joint, links, NULL, NULL);
-    axis = q->link_angle[links[0]] + kl_model_joint_axis(m, joint);
-    c = cos(axis);
-    s = sin(axis);
     cx = q->joint_xy[2 * joint];
     cy = q->joint_xy[2 * joint + 1];
     fprintf(f,
@@ -444,16 +450,6 @@ static void screen(const view *v, const double xy[2], double *sx, double *sy) {
   *sy = v->ty - v->s * xy[1];
 }
 
-/* A round length near a fifth of the drawing's width, for the scale bar. */
-static double scale_bar_length(double width) {
-  double target = width / 5, step = pow(10, floor(log10(target)));
-  if (5 * step <= target)
-    return 5 * step;
-  if (2 * step <= target)
-    return 2 * step;
-  return step;
-}
-
 static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
                       int nposes, const paths *p, const outline *o,
                       const cli_range *r, int have_range) {
@@ -461,6 +457,7 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   box b;
   view v;
   double width, height, draw_w, draw_h, u, bar, bx, by, centre[2];
+  char text[320];
   int k, i, j;
   b.empty = 1;
   b.x0 = b.y0 = b.x1 = b.y1 = 0;
@@ -471,8 +468,7 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
       grow(&b, poses[k].point_xy[2 * i], poses[k].point_xy[2 * i + 1]);
     for (i = 1; i < cm->nlinks; i++)
       for (j = 0; j < o[i].n; j++) {
-        double xy[2];
-        to_global(&poses[k], i, o[i].local + 2 * j, xy);
+        const double *xy = poses[k].outline_xy + 2 * (o[i].first + j);
         grow(&b, xy[0], xy[1]);
       }
   }
@@ -513,14 +509,9 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   centre[0] = 0.5 * (b.x0 + b.x1);
   centre[1] = 0.5 * (b.y0 + b.y1);
 
-  svg_begin(f, width, height, PAPER);
-  fprintf(f, "<text x=\"%g\" y=\"26\" font-size=\"17\" font-weight=\"bold\" "
-             "fill=\"%s\">",
-          MARGIN, SVG_INK);
-  svg_escaped(f, cm->label);
-  fprintf(f, "</text>\n<text x=\"%g\" y=\"45\" font-size=\"12\" "
-             "fill=\"#6a6256\">",
-          MARGIN);
+  svg_begin(f, width, height, SVG_PAPER);
+  svg_text(f, MARGIN, 26, 17, SVG_INK, "font-weight=\"bold\"", cm->label);
+  svg_text_open(f, MARGIN, 45, 12, SVG_MUTED, NULL);
   if (cm->ninputs == 1) {
     svg_escaped(f, cli_input_name(cm, 0));
     fprintf(f, " at");
@@ -533,7 +524,6 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
     for (k = 0; k < nposes; k++) {
       fprintf(f, "%s", k ? "; " : " ");
       for (i = 0; i < cm->ninputs; i++) {
-        char text[320];
         cli_format_input(cm, i, poses[k].inputs[i], text, sizeof text);
         fprintf(f, "%s", i ? ", " : "");
         svg_escaped(f, text);
@@ -565,7 +555,7 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
     if (links[0] != KL_GROUND)
       continue;
     rail_span(cm, poses, nposes, p, k, 3 * u, &lo, &hi);
-    draw_rail(f, cm, &poses[0], cm->slides[k], lo, hi, u, 1, centre);
+    draw_rail(f, &poses[0], k, lo, hi, u, 1, centre);
   }
   for (j = 0; j < cm->njoints; j++) {
     int links[2];
@@ -596,12 +586,8 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   for (i = 0; i < cm->npoints; i++) {
     double sx, sy;
     screen(&v, poses[0].point_xy + 2 * i, &sx, &sy);
-    fprintf(f,
-            "<text x=\"%.2f\" y=\"%.2f\" font-size=\"12\" font-style=\"italic\" "
-            "fill=\"%s\">",
-            sx + 8, sy - 7, svg_colour(i + 4));
-    svg_escaped(f, cm->point_names[i]);
-    fprintf(f, "</text>\n");
+    svg_text(f, sx + 8, sy - 7, 12, svg_colour(i + 4), "font-style=\"italic\"",
+             cm->point_names[i]);
   }
   for (j = 0; j < cm->njoints; j++) {
     double sx, sy, ox, oy;
@@ -612,34 +598,24 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
       if (fabs(ox - sx) < 2 && fabs(oy - sy) < 2)
         below++;
     }
-    fprintf(f,
-            "<text x=\"%.2f\" y=\"%.2f\" font-size=\"10\" fill=\"#8a8174\">",
-            sx + 7, sy + 15 + 11 * below);
-    svg_escaped(f, cm->joint_names[j]);
-    fprintf(f, "</text>\n");
+    svg_text(f, sx + 7, sy + 15 + 11 * below, 10, JOINT_NAME_COLOUR, NULL,
+             cm->joint_names[j]);
   }
   /* footer: a scale bar and the key to the paths */
-  bar = scale_bar_length((b.x1 - b.x0));
+  bar = svg_round_125((b.x1 - b.x0) / 5, 0);
   bx = width - MARGIN - bar * v.s;
   by = height - 20;
   fprintf(f,
           "<line x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" stroke=\"%s\" "
-          "stroke-width=\"3\"/>\n<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" "
-          "text-anchor=\"middle\" fill=\"%s\">%g %s</text>\n",
-          bx, by, bx + bar * v.s, by, SVG_INK, bx + 0.5 * bar * v.s, by - 7,
-          SVG_INK, bar, cm->length_unit);
+          "stroke-width=\"3\"/>\n",
+          bx, by, bx + bar * v.s, by, SVG_INK);
+  snprintf(text, sizeof text, "%g %s", bar, cm->length_unit);
+  svg_text(f, bx + 0.5 * bar * v.s, by - 7, 11, SVG_INK,
+           "text-anchor=\"middle\"", text);
   if (p->n > 1)
     for (i = 0; i < cm->npoints && i < 6; i++) {
-      double x = MARGIN + 150.0 * i;
-      fprintf(f,
-              "<line x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\" "
-              "stroke=\"%s\" stroke-width=\"2\" stroke-dasharray=\"6,3\"/>\n"
-              "<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" fill=\"%s\">path "
-              "of ",
-              x, by - 4, x + 24, by - 4, svg_colour(i + 4), x + 30, by,
-              SVG_INK);
-      svg_escaped(f, cm->point_names[i]);
-      fprintf(f, "</text>\n");
+      snprintf(text, sizeof text, "path of %s", cm->point_names[i]);
+      svg_key(f, MARGIN + 150.0 * i, by, svg_colour(i + 4), "6,3", text);
     }
   svg_end(f);
 }
@@ -651,7 +627,7 @@ int cli_cmd_draw(const cli_model *cm, const cli_options *o) {
   pose poses[CLI_MAX_POSES];
   outline *outlines = NULL;
   kl_solver *s = NULL;
-  int found, nposes = 0, st = CLI_EXIT_OK, k, i;
+  int found, nposes = 0, st = CLI_EXIT_OK, k, i, outline_points = -1;
   FILE *f;
   memset(&p, 0, sizeof p);
   memset(poses, 0, sizeof poses);
@@ -662,7 +638,8 @@ int cli_cmd_draw(const cli_model *cm, const cli_options *o) {
   p.nslides = cm->nslides;
   s = kl_solver_new(cm->model);
   outlines = calloc((size_t)cm->nlinks, sizeof *outlines);
-  if (s == NULL || outlines == NULL || !make_outlines(cm, outlines))
+  if (s == NULL || outlines == NULL ||
+      (outline_points = make_outlines(cm, outlines)) < 0)
     goto nomem;
   /* the paths, which also tell how far the motion reaches */
   if (found) {
@@ -676,22 +653,15 @@ int cli_cmd_draw(const cli_model *cm, const cli_options *o) {
     st = cli_record(s, cm, &r, path_row, &sink, &res);
     if (st == KL_STOPPED || st == KL_ENOMEM)
       goto nomem;
-    if (st == KL_LIMIT || st == KL_ESINGULAR) {
-      char note[1024];
-      cli_sweep_note(cm, &r, &res, note, sizeof note);
-      cli_error("note: %s; the paths end there", note);
-    } else if (st != KL_OK) {
-      cli_error("the sweep for the paths failed: %s", kl_solver_error(s));
-      st = CLI_EXIT_SOLVE;
+    if ((st = cli_sweep_told(cm, s, &r, &res, st, "the sweep for the paths",
+                             "the paths end there")) != CLI_EXIT_OK)
       goto done;
-    }
-    st = CLI_EXIT_OK;
   }
   nposes = o->nat > 0 ? o->nat : found ? (o->poses > 0 ? o->poses : 4) : 1;
   for (k = 0; k < nposes; k++) {
     char why[2048];
     double *target;
-    if (!pose_alloc(&poses[k], cm))
+    if (!pose_alloc(&poses[k], cm, outline_points))
       goto nomem;
     target = poses[k].inputs;
     if (o->nat > 0) {
@@ -700,7 +670,7 @@ int cli_cmd_draw(const cli_model *cm, const cli_options *o) {
         goto done;
       }
     } else {
-      cli_home_inputs(cm, target);
+      kl_model_start_inputs(cm->model, target);
       if (found && p.n > 0) {
         /* spread over the steps the sweep reached; a closed turn would
          * draw its first position twice */
@@ -714,13 +684,11 @@ int cli_cmd_draw(const cli_model *cm, const cli_options *o) {
       }
     }
     if ((i = cli_reach(s, cm, target, why, sizeof why)) != KL_OK) {
-      if (i == KL_ENOMEM)
-        goto nomem;
       cli_error("%s", why);
       st = CLI_EXIT_SOLVE;
       goto done;
     }
-    pose_take(&poses[k], cm, s);
+    pose_take(&poses[k], cm, outlines, s);
   }
   if (o->no_paths)
     p.n = 0;

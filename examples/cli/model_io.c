@@ -1,7 +1,7 @@
 /*
- * model_io.c - model text in and out for the kinloop tool: reading a model
- * file or the embedded demo, naming its items, opening output files and
- * making output folders.
+ * model_io.c - the model a command works on: read from a file or the
+ * embedded demo, its items named, its loops read through the library; and
+ * the output files and folders commands write.
  */
 #define _POSIX_C_SOURCE 200809L /* mkdir, stat */
 #include <errno.h>
@@ -93,6 +93,35 @@ static void free_labels(char **l, int n) {
   free(l);
 }
 
+/* What the library reads from the loops: the transmission-angle sites
+ * and the joints passed over, the four-bar loops; and the row layout. */
+static int read_loops(cli_model *cm) {
+  const kl_model *m = cm->model;
+  int loop, q;
+  cm->nsites = kl_model_transmissions(m, NULL, 0);
+  cm->nskips = kl_model_transmission_skips(m, NULL, 0);
+  cm->sites = malloc((size_t)(cm->nsites > 0 ? cm->nsites : 1) *
+                     sizeof *cm->sites);
+  cm->skips = malloc((size_t)(cm->nskips > 0 ? cm->nskips : 1) *
+                     sizeof *cm->skips);
+  cm->fourbars = malloc((size_t)(cm->nloops > 0 ? cm->nloops : 1) *
+                        sizeof *cm->fourbars);
+  if (cm->sites == NULL || cm->skips == NULL || cm->fourbars == NULL)
+    return CLI_EXIT_MEMORY;
+  kl_model_transmissions(m, cm->sites, cm->nsites);
+  kl_model_transmission_skips(m, cm->skips, cm->nskips);
+  for (loop = 0; loop < cm->nloops; loop++) {
+    kl_fourbar *fb = &cm->fourbars[cm->nfourbars];
+    fb->size = sizeof *fb;
+    if (kl_model_loop_fourbar(m, loop, fb) == KL_OK)
+      cm->nfourbars++;
+  }
+  cm->row_size = kl_model_row_size(m);
+  for (q = 0; q <= KL_QUANTITY_RCOND; q++)
+    cm->row_offset[q] = kl_model_row_offset(m, q, NULL);
+  return CLI_EXIT_OK;
+}
+
 static int fill_tables(cli_model *cm) {
   kl_model *m = cm->model;
   int length_unit, angle_unit, j;
@@ -118,7 +147,7 @@ static int fill_tables(cli_model *cm) {
   for (j = 0; j < cm->njoints; j++)
     if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE)
       cm->slides[cm->nslides++] = j;
-  return cli_analyse_loops(cm);
+  return read_loops(cm);
 }
 
 int cli_model_load(cli_model *cm, const char *path) {
@@ -167,7 +196,7 @@ void cli_model_free(cli_model *cm) {
   free_labels(cm->point_names, cm->npoints);
   free(cm->slides);
   free(cm->sites);
-  free(cm->unmeasured);
+  free(cm->skips);
   free(cm->fourbars);
   kl_model_free(cm->model);
   free(cm->owned_text);
@@ -237,29 +266,4 @@ int cli_make_dir(const char *dir) {
             errno == EEXIST ? "a file of that name is in the way"
                             : strerror(errno));
   return CLI_EXIT_OUTPUT;
-}
-
-int cli_cmd_write(const cli_model *cm, const cli_options *o) {
-  size_t needed;
-  char *text;
-  FILE *f;
-  kl_model_write(cm->model, NULL, 0, &needed);
-  text = malloc(needed + 1);
-  if (text == NULL) {
-    cli_error("out of memory writing the model");
-    return CLI_EXIT_MEMORY;
-  }
-  if (kl_model_write(cm->model, text, needed + 1, NULL) != KL_OK) {
-    cli_error("the library could not write the model");
-    free(text);
-    return CLI_EXIT_MEMORY;
-  }
-  f = cli_open_output(o->output);
-  if (f == NULL) {
-    free(text);
-    return CLI_EXIT_OUTPUT;
-  }
-  fwrite(text, 1, needed, f);
-  free(text);
-  return cli_close_output(f, o->output);
 }

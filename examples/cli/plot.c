@@ -8,11 +8,10 @@
 
 #include "cli.h"
 
-#define USUAL_LOW_DEG 40.0  /* transmission angle rule of thumb      */
-#define USUAL_HIGH_DEG 140.0 /* (common practice, no source)          */
 
 typedef struct {
-  int column;
+  int column; /* of the sweep command's CSV, for the name and unit */
+  int at;     /* its place in a row */
   int transmission;
   char label[400]; /* what the legend and the axis call it */
 } series;
@@ -23,6 +22,7 @@ typedef struct {
   const series *s;
   const double *factor;
   double xfactor;
+  int x_at; /* the swept input's place in a row */
 } samples;
 
 static int find_label(char **names, int from, int n, const char *text) {
@@ -42,7 +42,7 @@ void cli_list_outputs(FILE *f, const cli_model *cm) {
   for (i = 0; i < cm->npoints; i++)
     fprintf(f, "  x:%s\n  y:%s\n", cm->point_names[i], cm->point_names[i]);
   for (i = 0; i < cm->nsites; i++)
-    fprintf(f, "  transmission:%s\n", cm->joint_names[cm->sites[i].joint]);
+    fprintf(f, "  transmission:%s\n", cm->joint_names[cm->sites[i].id]);
 }
 
 /* Reads one --show OUTPUT. Returns 0, or -1 after printing why. */
@@ -79,7 +79,7 @@ static int parse_series(const cli_model *cm, const char *spec, int order,
     out->column = cli_col_point(cm, id, kind[0] == 'y', order);
   } else if (strcmp(kind, "transmission") == 0) {
     for (k = 0; k < cm->nsites; k++)
-      if (strcmp(cm->joint_names[cm->sites[k].joint], name) == 0)
+      if (strcmp(cm->joint_names[cm->sites[k].id], name) == 0)
         break;
     if (k == cm->nsites)
       goto unknown;
@@ -103,6 +103,7 @@ static int parse_series(const cli_model *cm, const char *spec, int order,
     return -1;
   }
   cli_columns(cm, input, cols);
+  out->at = cols[out->column].at;
   {
     const cli_column *c = &cols[out->column];
     char base[300];
@@ -142,9 +143,9 @@ static int sample_row(void *user, int step, const double *row) {
     d->y = y;
     d->cap = cap;
   }
-  d->x[d->n] = row[0] * d->xfactor;
+  d->x[d->n] = row[d->x_at] * d->xfactor;
   for (k = 0; k < d->nseries; k++)
-    d->y[d->n * d->nseries + k] = row[d->s[k].column] * d->factor[k];
+    d->y[d->n * d->nseries + k] = row[d->s[k].at] * d->factor[k];
   d->n++;
   return 0;
 }
@@ -174,8 +175,8 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
     all_sites &= s[k].transmission;
   }
   if (band) {
-    band_lo = USUAL_LOW_DEG * CLI_PI / 180 * cm->angle_factor;
-    band_hi = USUAL_HIGH_DEG * CLI_PI / 180 * cm->angle_factor;
+    band_lo = CLI_USUAL_LOW_DEG * CLI_PI / 180 * cm->angle_factor;
+    band_hi = CLI_USUAL_HIGH_DEG * CLI_PI / 180 * cm->angle_factor;
     c.y.lo = fmin(c.y.lo, band_lo);
     c.y.hi = fmax(c.y.hi, band_hi);
   }
@@ -193,13 +194,7 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
   {
     double x = c.x.from;
     for (k = 0; k < ns; k++) {
-      fprintf(f,
-              "<line x1=\"%.2f\" y1=\"43\" x2=\"%.2f\" y2=\"43\" stroke=\"%s\" "
-              "stroke-width=\"2.5\"/><text x=\"%.2f\" y=\"47\" "
-              "font-size=\"12\" fill=\"%s\">",
-              x, x + 22, svg_colour(k), x + 27, SVG_INK);
-      svg_escaped(f, s[k].label);
-      fprintf(f, "</text>\n");
+      svg_key(f, x, 47, svg_colour(k), NULL, s[k].label);
       x += 40 + 6.6 * (double)strlen(s[k].label);
     }
   }
@@ -208,11 +203,11 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
     double y1 = chart_map(&c.y, band_hi), y0 = chart_map(&c.y, band_lo);
     fprintf(f,
             "<rect class=\"usual-range\" x=\"%g\" y=\"%.2f\" width=\"%g\" "
-            "height=\"%.2f\" fill=\"#cfe3c4\" fill-opacity=\"0.6\"/>\n"
-            "<text x=\"%.2f\" y=\"%.2f\" font-size=\"11\" fill=\"#4d7040\">"
-            "usual range %g-%g deg</text>\n",
-            c.x.from, y1, c.x.to - c.x.from, y0 - y1, c.x.from + 6, y1 + 14,
-            USUAL_LOW_DEG, USUAL_HIGH_DEG);
+            "height=\"%.2f\" fill=\"#cfe3c4\" fill-opacity=\"0.6\"/>\n",
+            c.x.from, y1, c.x.to - c.x.from, y0 - y1);
+    snprintf(text, sizeof text, "usual range %g-%g deg", CLI_USUAL_LOW_DEG,
+             CLI_USUAL_HIGH_DEG);
+    svg_text(f, c.x.from + 6, y1 + 14, 11, "#4d7040", NULL, text);
   }
   chart_ticks(f, &c);
   /* the curves */
@@ -269,7 +264,7 @@ int cli_cmd_plot(const cli_model *cm, const cli_options *o) {
   kl_solver *sv = NULL;
   kl_sweep_result res;
   char unit[64] = "";
-  int found, k, st;
+  int k, st;
   FILE *f;
   memset(&d, 0, sizeof d);
   if (o->nshow == 0) {
@@ -278,16 +273,9 @@ int cli_cmd_plot(const cli_model *cm, const cli_options *o) {
     cli_list_outputs(stderr, cm);
     return CLI_EXIT_USAGE;
   }
-  found = cli_resolve_range(cm, o, &r);
-  if (found < 0)
-    return CLI_EXIT_USAGE;
-  if (found == 0) {
-    cli_error("nothing to plot against: %s; give --input, --from and --to",
-              cm->ninputs == 0 ? "the model has no inputs"
-                               : "the model has no sweep line and its input "
-                                 "slides");
-    return CLI_EXIT_USAGE;
-  }
+  if ((st = cli_require_range(cm, o, &r, "nothing to plot against")) !=
+      CLI_EXIT_OK)
+    return st;
   cols = malloc((size_t)cli_column_count(cm) * sizeof *cols);
   if (cols == NULL)
     goto nomem;
@@ -323,18 +311,13 @@ int cli_cmd_plot(const cli_model *cm, const cli_options *o) {
   d.s = s;
   d.factor = factor;
   d.xfactor = cli_input_factor(cm, r.input);
+  d.x_at = cli_row_at(cm, KL_QUANTITY_INPUT_VALUE, r.input);
   st = cli_record(sv, cm, &r, sample_row, &d, &res);
   if (st == KL_STOPPED || st == KL_ENOMEM)
     goto nomem;
-  if (st == KL_LIMIT || st == KL_ESINGULAR) {
-    char note[1024];
-    cli_sweep_note(cm, &r, &res, note, sizeof note);
-    cli_error("note: %s; the curves end there", note);
-  } else if (st != KL_OK) {
-    cli_error("the sweep failed: %s", kl_solver_error(sv));
-    st = CLI_EXIT_SOLVE;
+  if ((st = cli_sweep_told(cm, sv, &r, &res, st, "the sweep",
+                           "the curves end there")) != CLI_EXIT_OK)
     goto done;
-  }
   if ((f = cli_open_output(o->output)) == NULL) {
     st = CLI_EXIT_OUTPUT;
     goto done;

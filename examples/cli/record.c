@@ -1,7 +1,6 @@
 /*
- * record.c - a sweep as rows of raw library values (one column per angle,
- * slide, point coordinate, rate, acceleration, transmission angle), and
- * the units those columns are shown in.
+ * record.c - a sweep streamed as the library's rows (kl_solver_row), and
+ * the columns the tool shows of them: names, places in a row, units.
  */
 #define _POSIX_C_SOURCE 200809L /* isatty, fileno */
 #include <stdio.h>
@@ -12,6 +11,12 @@
 
 #define PROGRESS_MIN_STEPS 2000 /* shorter sweeps finish before it helps */
 
+int cli_row_at(const cli_model *cm, int quantity, int item) {
+  return cm->row_offset[quantity] + item;
+}
+
+/* The CSV's column numbers: the input, then per moving link, per slide and
+ * per point the value, rate and acceleration, the sites, rcond. */
 static int link_base(void) { return 1; }
 static int slide_base(const cli_model *cm) {
   return link_base() + 3 * (cm->nlinks - 1);
@@ -36,40 +41,49 @@ int cli_col_point(const cli_model *cm, int point, int axis, int order) {
 int cli_col_site(const cli_model *cm, int site) {
   return site_base(cm) + site;
 }
-int cli_col_rcond(const cli_model *cm) { return site_base(cm) + cm->nsites; }
-int cli_column_count(const cli_model *cm) { return cli_col_rcond(cm) + 1; }
+static int col_rcond(const cli_model *cm) { return site_base(cm) + cm->nsites; }
+int cli_column_count(const cli_model *cm) { return col_rcond(cm) + 1; }
 
-static void set(cli_column *c, int dim, int order, const char *name,
+static void set(cli_column *c, int dim, int order, int at, const char *name,
                 const char *what) {
   static const char *const suffix[3] = {"", " rate", " accel"};
   c->dim = dim;
   c->order = order;
+  c->at = at;
   snprintf(c->name, sizeof c->name, "%s%s%s%s", name, what[0] ? " " : "",
            what, suffix[order]);
 }
 
 void cli_columns(const cli_model *cm, int input, cli_column *cols) {
   int l, k, p, order;
-  set(&cols[0], CLI_DIM_INPUT, 0, cli_input_name(cm, input), "");
+  set(&cols[0], CLI_DIM_INPUT, 0,
+      cli_row_at(cm, KL_QUANTITY_INPUT_VALUE, input),
+      cli_input_name(cm, input), "");
   for (l = 1; l < cm->nlinks; l++)
     for (order = 0; order < 3; order++)
       set(&cols[cli_col_link(cm, l, order)], CLI_DIM_ANGLE, order,
+          cli_row_at(cm, KL_QUANTITY_LINK_ANGLE + order, l),
           cm->link_names[l], "angle");
   for (k = 0; k < cm->nslides; k++)
     for (order = 0; order < 3; order++)
       set(&cols[cli_col_slide(cm, k, order)], CLI_DIM_LENGTH, order,
+          cli_row_at(cm, KL_QUANTITY_JOINT_SLIDE + order, cm->slides[k]),
           cm->joint_names[cm->slides[k]], "slide");
   for (p = 0; p < cm->npoints; p++)
     for (order = 0; order < 3; order++) {
       set(&cols[cli_col_point(cm, p, 0, order)], CLI_DIM_LENGTH, order,
+          cli_row_at(cm, KL_QUANTITY_POINT_X + 2 * order, p),
           cm->point_names[p], "x");
       set(&cols[cli_col_point(cm, p, 1, order)], CLI_DIM_LENGTH, order,
+          cli_row_at(cm, KL_QUANTITY_POINT_Y + 2 * order, p),
           cm->point_names[p], "y");
     }
   for (k = 0; k < cm->nsites; k++)
     set(&cols[cli_col_site(cm, k)], CLI_DIM_ANGLE, 0,
-        cm->joint_names[cm->sites[k].joint], "transmission angle");
-  set(&cols[cli_col_rcond(cm)], CLI_DIM_PLAIN, 0, "condition estimate", "");
+        cli_row_at(cm, KL_QUANTITY_TRANSMISSION, k),
+        cm->joint_names[cm->sites[k].id], "transmission angle");
+  set(&cols[col_rcond(cm)], CLI_DIM_PLAIN, 0,
+      cli_row_at(cm, KL_QUANTITY_RCOND, 0), "condition estimate", "");
 }
 
 static double dim_factor(const cli_model *cm, int input, int dim) {
@@ -103,7 +117,6 @@ void cli_column_unit(const cli_model *cm, int input, const cli_column *c,
 }
 
 typedef struct {
-  const cli_model *cm;
   cli_row_fn fn;
   void *user;
   double *row;
@@ -113,31 +126,8 @@ typedef struct {
 static int record_step(const kl_solver *s, int step, double input,
                        void *user) {
   recorder *r = user;
-  const cli_model *cm = r->cm;
-  kl_solve_stats stats;
-  double *row = r->row;
-  int l, k, p;
-  row[0] = input;
-  for (l = 1; l < cm->nlinks; l++) {
-    row[cli_col_link(cm, l, 0)] = kl_link_angle(s, l);
-    row[cli_col_link(cm, l, 1)] = kl_link_rate(s, l);
-    row[cli_col_link(cm, l, 2)] = kl_link_accel(s, l);
-  }
-  for (k = 0; k < cm->nslides; k++) {
-    row[cli_col_slide(cm, k, 0)] = kl_joint_slide(s, cm->slides[k]);
-    row[cli_col_slide(cm, k, 1)] = kl_joint_slide_rate(s, cm->slides[k]);
-    row[cli_col_slide(cm, k, 2)] = kl_joint_slide_accel(s, cm->slides[k]);
-  }
-  for (p = 0; p < cm->npoints; p++) {
-    kl_point_position(s, p, row + cli_col_point(cm, p, 0, 0));
-    kl_point_velocity(s, p, row + cli_col_point(cm, p, 0, 1));
-    kl_point_acceleration(s, p, row + cli_col_point(cm, p, 0, 2));
-  }
-  for (k = 0; k < cm->nsites; k++)
-    row[cli_col_site(cm, k)] = cli_site_value(s, &cm->sites[k]);
-  stats.size = sizeof stats;
-  kl_solver_stats(s, &stats);
-  row[cli_col_rcond(cm)] = stats.rcond;
+  (void)input;
+  kl_solver_row(s, r->row);
   if (r->progress) {
     int percent = (int)(100.0 * step / r->steps);
     if (percent != r->shown) {
@@ -145,29 +135,44 @@ static int record_step(const kl_solver *s, int step, double input,
       r->shown = percent;
     }
   }
-  return r->fn(r->user, step, row);
+  return r->fn(r->user, step, r->row);
 }
 
 int cli_record(kl_solver *s, const cli_model *cm, const cli_range *range,
                cli_row_fn fn, void *user, kl_sweep_result *res) {
   recorder r;
   int st;
-  r.cm = cm;
   r.fn = fn;
   r.user = user;
   r.steps = range->steps;
   r.shown = -1;
   r.progress = range->steps >= PROGRESS_MIN_STEPS && isatty(fileno(stderr));
-  r.row = malloc((size_t)cli_column_count(cm) * sizeof *r.row);
+  r.row = malloc((size_t)cm->row_size * sizeof *r.row);
   if (r.row == NULL)
     return KL_ENOMEM;
   res->size = sizeof *res;
   st = kl_solver_sweep(s, range->input, range->from, range->to, range->steps,
-                record_step, &r, res);
+                       record_step, &r, res);
   if (r.progress)
     fputs("\r                          \r", stderr);
   free(r.row);
   return st;
+}
+
+int cli_sweep_told(const cli_model *cm, const kl_solver *s,
+                   const cli_range *r, const kl_sweep_result *res, int status,
+                   const char *what, const char *then) {
+  char note[1024];
+  if (status == KL_LIMIT || status == KL_ESINGULAR) {
+    cli_sweep_note(cm, r, res, note, sizeof note);
+    cli_error("note: %s; %s", note, then);
+    return CLI_EXIT_OK;
+  }
+  if (status != KL_OK) {
+    cli_error("%s failed: %s", what, kl_solver_error(s));
+    return CLI_EXIT_SOLVE;
+  }
+  return CLI_EXIT_OK;
 }
 
 void cli_sweep_note(const cli_model *cm, const cli_range *r,

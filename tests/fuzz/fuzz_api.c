@@ -1,6 +1,7 @@
 /*
  * fuzz_api.c - fuzz target for random sequences of API calls with random
- * numbers: the bytes are a program of builder, solver and figure calls with
+ * numbers: the bytes are a program of builder, solver and figure calls (then
+ * of reach, frame, row and loop-reading calls) with
  * ids in and out of range and numbers that may be NaN, infinite or huge.
  * Nothing may crash, leak or return a status outside the known set.
  * Each number is read into a variable before the call that takes it: the
@@ -53,6 +54,9 @@ static void check(int status) {
   if (status < KL_EIO || status > KL_STOPPED)
     abort();
 }
+
+/* A count or an offset, or a status when negative. */
+static void check_count(int n) { check(n < 0 ? n : KL_OK); }
 
 static void build(program *p, kl_model *m) {
   int ops = (int)(byte(p) % 24), k;
@@ -108,6 +112,86 @@ static void build(program *p, kl_model *m) {
       check(kl_model_set_sketch_slide(m, id(p, nj), ax));
     }
   }
+}
+
+/* The calls added after the first corpus: a program of their own after
+ * the first one's, so that saved inputs keep their meaning. */
+static void more_calls(program *p, kl_model *m, kl_solver *s) {
+  int ni = kl_model_input_count(m), nl = kl_model_link_count(m);
+  int nj = kl_model_joint_count(m), np = kl_model_point_count(m);
+  int size = kl_model_row_size(m), ops = (int)(byte(p) % 16), k, i;
+  double in[8], *rows = malloc((size_t)(6 * size) * sizeof *rows);
+  if (rows == NULL || size < 1 || ni > 8) {
+    free(rows);
+    return;
+  }
+  for (k = 0; k < ops && p->pos < p->size; k++) {
+    kl_reach_result rr;
+    kl_sweep_result sw;
+    kl_range r;
+    kl_fourbar fb;
+    kl_output sites[4];
+    kl_transmission_skip skips[4];
+    kl_load load;
+    double xy[2], v, w;
+    int a, b, c;
+    for (i = 0; i < ni; i++)
+      in[i] = number(p);
+    switch (byte(p) % 9) {
+    case 0: check(kl_solver_reset(s)); break;
+    case 1:
+      rr.size = sizeof rr;
+      check(kl_solver_reach(s, in, &rr));
+      break;
+    case 2:
+      a = id(p, nl);
+      xy[0] = number(p);
+      xy[1] = number(p);
+      check(kl_link_to_global(s, a, xy, xy));
+      check(kl_joint_position(s, id(p, nj), xy));
+      break;
+    case 3:
+      a = id(p, nl);
+      check(kl_link_origin_velocity(s, a, xy));
+      check(kl_link_origin_accel(s, a, xy));
+      break;
+    case 4: check(kl_solver_row(s, rows)); break;
+    case 5:
+      sw.size = sizeof sw;
+      a = id(p, ni);
+      v = number(p);
+      w = number(p);
+      check(kl_solver_sweep_rows(s, a, v, w, (int)(byte(p) % 6), rows, &sw));
+      break;
+    case 6:
+      r.size = sizeof r;
+      load.kind = (int)(byte(p) % 3);
+      load.id = id(p, load.kind == KL_LOAD_FORCE ? np : nl);
+      load.fx = number(p);
+      load.fy = number(p);
+      load.torque = number(p);
+      a = id(p, ni);
+      b = id(p, ni);
+      v = number(p);
+      w = number(p);
+      c = 1 + (int)(byte(p) % 4);
+      check(kl_input_effort_range(s, a, v, w, c, 1, &load, b, &r));
+      break;
+    case 7:
+      fb.size = sizeof fb;
+      check(kl_model_loop_fourbar(m, id(p, kl_model_loop_count(m)), &fb));
+      check_count(kl_model_transmissions(m, sites, 4));
+      check_count(kl_model_transmission_skips(m, skips, 4));
+      break;
+    default:
+      check(kl_model_start_inputs(m, in));
+      a = (int)(byte(p) % 21) - 1;
+      check_count(kl_model_row_offset(m, a, &b));
+      if (a >= 0 && a < 18 && kl_quantity_str(a) == NULL)
+        abort();
+    }
+  }
+  free(rows);
 }
 
 static void solve(program *p, kl_model *m) {
@@ -183,6 +267,7 @@ static void solve(program *p, kl_model *m) {
       check(kl_solver_copy_state(other, s));
     }
   }
+  more_calls(p, m, s);
   kl_solver_free(other);
 done:
   kl_solver_free(s);

@@ -272,6 +272,37 @@ classdef Model < kinloop.Readable
       [class_code, class_name] = __kinloop__('model_grashof', obj.id);
     end
 
+    function fb = loop_fourbar(obj, loop)
+      % Loop `loop` read as a four-bar driven at a ground pivot: its links,
+      % joints, four lengths and Grashof class (kinloop:EKIND if it is not).
+      fb = __kinloop__('model_loop_fourbar', obj.id, loop);
+    end
+
+    function sites = transmissions(obj)
+      % The transmission-angle sites, as output structs.
+      sites = __kinloop__('model_transmissions', obj.id);
+    end
+
+    function skips = transmission_skips(obj)
+      % The joints the transmission rule passes over (joint, loop, link, reason).
+      skips = __kinloop__('model_transmission_skips', obj.id);
+    end
+
+    function u = start_inputs(obj)
+      % The model's start position: the sweep's start, 0 for other inputs.
+      u = __kinloop__('model_start_inputs', obj.id);
+    end
+
+    function n = row_size(obj)
+      % Values in a row of every quantity (kinloop.Solver.row).
+      n = __kinloop__('model_row_size', obj.id);
+    end
+
+    function [offset, count] = row_offset(obj, quantity)
+      % Where quantity's block starts in a row (0-based) and its length.
+      [offset, count] = __kinloop__('model_row_offset', obj.id, quantity);
+    end
+
     function n = solver_bytes(obj)
       n = __kinloop__('solver_bytes', obj.id);
     end

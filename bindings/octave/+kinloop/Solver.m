@@ -238,6 +238,43 @@ classdef Solver < handle
     % with K one of 'link_angle', 'slide', 'joint_angle', 'point_x',
     % 'point_y', 'transmission'.
 
+    function reset(obj)
+      % Back to the state of a new solver: the model's sketch, nothing solved.
+      __kinloop__('solver_reset', obj.id);
+    end
+
+    function substeps = reach(obj, inputs)
+      % Goes to the inputs by continuation from the position last solved
+      % (or the model's start); raises with where the motion stopped.
+      substeps = __kinloop__('solver_reach', obj.id, inputs);
+    end
+
+    function xy = link_to_global(obj, link, local)
+      xy = __kinloop__('link_to_global', obj.id, link, local);
+    end
+
+    function xy = joint_position(obj, joints)
+      xy = __kinloop__('joint_position', obj.id, joints);
+    end
+
+    function xy = link_origin_velocity(obj, links)
+      xy = __kinloop__('link_origin_velocity', obj.id, links);
+    end
+
+    function xy = link_origin_accel(obj, links)
+      xy = __kinloop__('link_origin_accel', obj.id, links);
+    end
+
+    function v = row(obj)
+      % Every quantity of the state in one row (kinloop.Model.row_offset).
+      v = __kinloop__('solver_row', obj.id);
+    end
+
+    function [rows, result] = sweep_rows(obj, input, from, to, steps)
+      % A sweep without a callback: one row per step.
+      [rows, result] = __kinloop__('solver_sweep_rows', obj.id, input, from, to, steps);
+    end
+
     function v = output_value(obj, output)
       v = __kinloop__('output_value', obj.id, output);
     end
@@ -260,6 +297,11 @@ classdef Solver < handle
       % loads: struct array, kind 'force' (id = point, fx, fy) or 'torque'
       % (id = link, torque); one effort per input.
       efforts = __kinloop__('input_effort', obj.id, loads);
+    end
+
+    function r = input_effort_range(obj, input, from, to, steps, loads, effort_input)
+      % Extremes of input effort_input's static effort while input sweeps.
+      r = __kinloop__('input_effort_range', obj.id, input, from, to, steps, loads, effort_input);
     end
 
     function d = output_sensitivity(obj, output, dimension)

@@ -21,9 +21,10 @@ are returned. The C layer itself is kinloop.raw (raw.lib.kl_*).
 from . import raw
 from ._core import (GROUND, AngleUnit, Dimension, DimensionKind, GrashofClass,
                     JointKind, Kernel, KinloopError, LengthUnit, Load, LoadKind,
-                    Options, Output, OutputKind, Range, SampleStatus, SolveStats,
-                    Status, StudyRun, StudySummary, SweepResult, SweepSettings,
-                    angle_unit_str, grashof_str, length_unit_str, status_str)
+                    Options, Output, OutputKind, Quantity, Range, SampleStatus,
+                    SolveStats, Status, StudyRun, StudySummary, SweepResult,
+                    SweepSettings, TransmissionSkipReason, angle_unit_str,
+                    grashof_str, length_unit_str, status_str)
 from ._core import check_const as _check_const
 from .model import Model
 from .raw import MissingFunctionError
@@ -56,8 +57,9 @@ __all__ = [
     "GROUND", "AngleUnit", "Dimension", "DimensionKind", "GrashofClass",
     "JointKind", "Kernel", "KinloopError", "LengthUnit", "Load", "LoadKind",
     "MissingFunctionError", "Model", "Options", "Output", "OutputKind",
-    "Range", "SampleStatus", "SolveStats", "Solver", "Status", "Study",
-    "StudyRun", "StudySummary", "SweepResult", "SweepSettings",
+    "Quantity", "Range", "SampleStatus", "SolveStats", "Solver", "Status",
+    "Study", "StudyRun", "StudySummary", "SweepResult", "SweepSettings",
+    "TransmissionSkipReason",
     "angle_unit_str", "grashof", "grashof_str", "length_unit_str",
     "library_path", "library_version", "status_str", "version",
     "version_number",

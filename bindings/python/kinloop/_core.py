@@ -118,6 +118,35 @@ class SampleStatus(enum.IntEnum):
     LIMITED = 2
 
 
+class Quantity(enum.IntEnum):
+    """enum kl_quantity: the blocks of a row (kl_solver_row)."""
+    INPUT_VALUE = 0
+    INPUT_RATE = 1
+    INPUT_ACCEL = 2
+    LINK_ANGLE = 3
+    LINK_RATE = 4
+    LINK_ACCEL = 5
+    JOINT_ANGLE = 6
+    JOINT_SLIDE = 7
+    JOINT_SLIDE_RATE = 8
+    JOINT_SLIDE_ACCEL = 9
+    POINT_X = 10
+    POINT_Y = 11
+    POINT_VX = 12
+    POINT_VY = 13
+    POINT_AX = 14
+    POINT_AY = 15
+    TRANSMISSION = 16
+    RCOND = 17
+
+
+class TransmissionSkipReason(enum.IntEnum):
+    """enum kl_transmission_skip_reason: why a joint has no
+    transmission-angle site."""
+    INPUT_CRANK = 1
+    NO_LINE = 2
+
+
 def text(value):
     """A C string result as str (None stays None)."""
     return None if value is None else value.decode("utf-8", "replace")

@@ -184,6 +184,12 @@ class kl_range(_Sized):
                 ("limit_input", ctypes.c_double)]
 
 
+class kl_reach_result(_Sized):
+    _fields_ = [("size", ctypes.c_size_t), ("status", ctypes.c_int),
+                ("input", ctypes.c_int), ("from", ctypes.c_double),
+                ("limit_input", ctypes.c_double), ("substeps", ctypes.c_int)]
+
+
 class kl_output(ctypes.Structure):
     _fields_ = [("kind", ctypes.c_int), ("id", ctypes.c_int),
                 ("line_a", ctypes.c_int), ("line_b", ctypes.c_int)]
@@ -198,6 +204,22 @@ class kl_load(ctypes.Structure):
 class kl_dimension(ctypes.Structure):
     _fields_ = [("kind", ctypes.c_int), ("id", ctypes.c_int),
                 ("axis", ctypes.c_int)]
+
+
+class kl_fourbar(_Sized):
+    _fields_ = [("size", ctypes.c_size_t), ("loop", ctypes.c_int),
+                ("input", ctypes.c_int), ("input_joint", ctypes.c_int),
+                ("output_joint", ctypes.c_int), ("input_link", ctypes.c_int),
+                ("coupler_link", ctypes.c_int), ("output_link", ctypes.c_int),
+                ("ground_length", ctypes.c_double),
+                ("input_length", ctypes.c_double),
+                ("coupler_length", ctypes.c_double),
+                ("output_length", ctypes.c_double), ("grashof", ctypes.c_int)]
+
+
+class kl_transmission_skip(ctypes.Structure):
+    _fields_ = [("joint", ctypes.c_int), ("loop", ctypes.c_int),
+                ("link", ctypes.c_int), ("reason", ctypes.c_int)]
 
 
 class kl_study_summary(_Sized):
@@ -277,6 +299,11 @@ PROTOTYPES = {
     "kl_model_joint_links": (_int, [model_p, _int, _intp, _dblp, _dblp]),
     "kl_model_joint_axis": (_dbl, [model_p, _int]),
     "kl_model_input_joint": (_int, [model_p, _int]),
+    # the start position, the layout of a row
+    "kl_model_start_inputs": (_int, [model_p, _dblp]),
+    "kl_quantity_str": (_str, [_int]),
+    "kl_model_row_size": (_int, [model_p]),
+    "kl_model_row_offset": (_int, [model_p, _int, _intp]),
     # model files
     "kl_model_read": (model_p, [_str, _size, _P(kl_io_error)]),
     "kl_model_read_with_alloc": (model_p, [_str, _size, kl_alloc_fn, _voidp,
@@ -327,6 +354,16 @@ PROTOTYPES = {
     "kl_solver_find_assemblies": (_int, [solver_p, _dblp, _P(solver_p), _int]),
     "kl_solver_sweep": (_int, [solver_p, _int, _dbl, _dbl, _int, kl_sweep_fn, _voidp,
                         _P(kl_sweep_result)]),
+    # going to a position, frames, rows
+    "kl_solver_reset": (_int, [solver_p]),
+    "kl_solver_reach": (_int, [solver_p, _dblp, _P(kl_reach_result)]),
+    "kl_link_to_global": (_int, [solver_p, _int, _dblp, _dblp]),
+    "kl_joint_position": (_int, [solver_p, _int, _dblp]),
+    "kl_link_origin_velocity": (_int, [solver_p, _int, _dblp]),
+    "kl_link_origin_accel": (_int, [solver_p, _int, _dblp]),
+    "kl_solver_row": (_int, [solver_p, _dblp]),
+    "kl_solver_sweep_rows": (_int, [solver_p, _int, _dbl, _dbl, _int, _dblp,
+                                    _P(kl_sweep_result)]),
     # design figures
     "kl_grashof": (_int, [_dbl, _dbl, _dbl, _dbl]),
     "kl_grashof_str": (_str, [_int]),
@@ -342,6 +379,13 @@ PROTOTYPES = {
                                      _dblp]),
     "kl_output_tolerance_stack": (_int, [solver_p, _P(kl_output), _int,
                                   _P(kl_dimension), _dblp, _dblp, _dblp]),
+    # four-bar loops, transmission sites, effort over a sweep
+    "kl_model_loop_fourbar": (_int, [model_p, _int, _P(kl_fourbar)]),
+    "kl_model_transmissions": (_int, [model_p, _P(kl_output), _int]),
+    "kl_model_transmission_skips": (_int, [model_p, _P(kl_transmission_skip),
+                                           _int]),
+    "kl_input_effort_range": (_int, [solver_p, _int, _dbl, _dbl, _int, _int,
+                                     _P(kl_load), _int, _P(kl_range)]),
     # design studies
     "kl_study_read": (study_p, [_str, _size, model_p, _P(kl_io_error)]),
     "kl_study_read_file": (study_p, [_str, _P(kl_io_error)]),

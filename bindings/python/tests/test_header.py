@@ -28,8 +28,8 @@ def header_text():
 TEXT = header_text()
 STRUCTS = {name: getattr(raw, name) for name in (
     "kl_io_error", "kl_options", "kl_solve_stats", "kl_sweep_settings",
-    "kl_sweep_result", "kl_range", "kl_output", "kl_load", "kl_dimension",
-    "kl_study_summary")}
+    "kl_sweep_result", "kl_reach_result", "kl_range", "kl_output", "kl_load",
+    "kl_dimension", "kl_fourbar", "kl_transmission_skip", "kl_study_summary")}
 ENUMS = {  # C enum -> (Python enum, prefix the Python names drop)
     "kl_status": (kl.Status, "KL_"),
     "kl_joint_kind": (kl.JointKind, "KL_JOINT_"),
@@ -41,6 +41,8 @@ ENUMS = {  # C enum -> (Python enum, prefix the Python names drop)
     "kl_load_kind": (kl.LoadKind, "KL_LOAD_"),
     "kl_dimension_kind": (kl.DimensionKind, "KL_DIMENSION_"),
     "kl_sample_status": (kl.SampleStatus, "KL_SAMPLE_"),
+    "kl_quantity": (kl.Quantity, "KL_QUANTITY_"),
+    "kl_transmission_skip_reason": (kl.TransmissionSkipReason, "KL_TRANSMISSION_SKIP_"),
 }
 
 

@@ -1,6 +1,6 @@
 /*
- * report.c - the text reports: check (structure, ranges over the sweep,
- * warnings) and solve (one position with its rates and accelerations).
+ * check.c - the check command: the model's structure, its ranges over the
+ * sweep, and warnings to act on.
  */
 #include <math.h>
 #include <stdarg.h>
@@ -9,8 +9,6 @@
 
 #include "cli.h"
 
-#define USUAL_LOW 40.0   /* transmission angle rule of thumb, deg      */
-#define USUAL_HIGH 140.0 /* (common practice, no source)               */
 #define MAX_WARNINGS 64
 #define LABEL "  %-14s"
 
@@ -61,7 +59,7 @@ static int has_sketch(const cli_model *cm) {
 
 static void print_structure(FILE *f, const cli_model *cm) {
   const kl_model *m = cm->model;
-  int kinds[3] = {0, 0, 0}, j, i, loop, grashof;
+  int kinds[3] = {0, 0, 0}, j, i, loop;
   const char *comment;
   size_t len;
   fprintf(f, "model %s\n", cm->label);
@@ -101,20 +99,16 @@ static void print_structure(FILE *f, const cli_model *cm) {
       fprintf(f, "%s%s", k ? " > " : "", cm->joint_names[walk[k]]);
     fputc('\n', f);
   }
-  /* a model that is one four-bar has the library classify it whole */
-  grashof = kl_model_grashof(m);
   for (i = 0; i < cm->nfourbars; i++) {
-    const cli_fourbar *fb = &cm->fourbars[i];
-    int cls = grashof > 0 ? grashof : fb->cls;
+    const kl_fourbar *fb = &cm->fourbars[i];
     fprintf(f,
             LABEL "loop %d, driven at %s: %s (ground %.6g, input %.6g, "
                   "coupler %.6g, output %.6g %s)\n",
             "four-bar", fb->loop + 1, cm->joint_names[fb->input_joint],
-            cls > 0 ? kl_grashof_str(cls) : "not classified", fb->ground,
-            fb->input, fb->coupler, fb->output, cm->length_unit);
+            fb->grashof > 0 ? kl_grashof_str(fb->grashof) : "not classified",
+            fb->ground_length, fb->input_length, fb->coupler_length,
+            fb->output_length, cm->length_unit);
   }
-  if (grashof > 0 && cm->nfourbars == 0)
-    fprintf(f, LABEL "%s\n", "four-bar", kl_grashof_str(grashof));
 }
 
 /* The range of one output from the start state in `base`. */
@@ -127,7 +121,7 @@ static int measure(kl_solver *work, const kl_solver *base, const cli_range *r,
 
 /* Tracks the smallest condition estimate of a sweep and where it occurs. */
 typedef struct {
-  int col;
+  int col, input_at; /* places in a row */
   double rcond, at;
 } rcond_sink;
 
@@ -135,7 +129,7 @@ static int rcond_row(void *user, int step, const double *row) {
   rcond_sink *k = user;
   if (step == 0 || row[k->col] < k->rcond) {
     k->rcond = row[k->col];
-    k->at = row[0];
+    k->at = row[k->input_at];
   }
   return 0;
 }
@@ -208,14 +202,9 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     fputc('\n', f);
   }
   for (i = 0; i < cm->nsites; i++) {
-    const cli_site *site = &cm->sites[i];
-    kl_output out;
+    const kl_output *site = &cm->sites[i];
     kl_range range;
-    out.kind = KL_OUTPUT_TRANSMISSION;
-    out.id = site->joint;
-    out.line_a = site->line_a;
-    out.line_b = site->line_b;
-    if (measure(work, base, r, &out, &range) < 0)
+    if (measure(work, base, r, site, &range) < 0)
       continue;
     cli_format_input(cm, r->input, range.input_at_min, lo, sizeof lo);
     cli_format_input(cm, r->input, range.input_at_max, hi, sizeof hi);
@@ -224,27 +213,27 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     fprintf(f,
             LABEL "transmission angle %.4g to %.4g %s, %s (lines to %s and "
                   "%s)\n",
-            cm->joint_names[site->joint], range.min * k, range.max * k,
+            cm->joint_names[site->id], range.min * k, range.max * k,
             cm->angle_unit, both, cm->joint_names[site->line_a],
             cm->joint_names[site->line_b]);
-    if (range.min * 180 / CLI_PI < USUAL_LOW)
+    if (range.min * 180 / CLI_PI < CLI_USUAL_LOW_DEG)
       warn(w,
            "the transmission angle at %s falls to %.4g %s (at %s), below the "
            "usual %g deg: the joint pushes weakly there; change link lengths "
            "or keep the motion out of that part of the range",
-           cm->joint_names[site->joint], range.min * k, cm->angle_unit, lo,
-           USUAL_LOW);
-    if (range.max * 180 / CLI_PI > USUAL_HIGH)
+           cm->joint_names[site->id], range.min * k, cm->angle_unit, lo,
+           CLI_USUAL_LOW_DEG);
+    if (range.max * 180 / CLI_PI > CLI_USUAL_HIGH_DEG)
       warn(w,
            "the transmission angle at %s rises to %.4g %s (at %s), above the "
            "usual %g deg: the joint pushes weakly there; change link lengths "
            "or keep the motion out of that part of the range",
-           cm->joint_names[site->joint], range.max * k, cm->angle_unit, hi,
-           USUAL_HIGH);
+           cm->joint_names[site->id], range.max * k, cm->angle_unit, hi,
+           CLI_USUAL_HIGH_DEG);
   }
-  for (i = 0; i < cm->nunmeasured; i++) {
-    const cli_unmeasured *u = &cm->unmeasured[i];
-    if (u->reason == CLI_INPUT_CRANK)
+  for (i = 0; i < cm->nskips; i++) {
+    const kl_transmission_skip *u = &cm->skips[i];
+    if (u->reason == KL_TRANSMISSION_SKIP_INPUT_CRANK)
       fprintf(f,
               LABEL "no transmission angle: the input turns link %s directly\n",
               cm->joint_names[u->joint], cm->link_names[u->link]);
@@ -292,14 +281,10 @@ int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o) {
       st = CLI_EXIT_MEMORY;
       goto done;
     }
-    if (o->nat > 0) {
-      if (cli_parse_inputs(cm, o->at[0], "--at", u) != 0) {
-        free(u);
-        st = CLI_EXIT_USAGE;
-        goto done;
-      }
-    } else {
-      cli_home_inputs(cm, u);
+    if (cli_start_or_at(cm, o, u) != 0) {
+      free(u);
+      st = CLI_EXIT_USAGE;
+      goto done;
     }
     u[r.input] = r.from;
     fprintf(f, "\nover %s %.6g to %.6g %s in %d steps\n",
@@ -313,10 +298,11 @@ int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o) {
       warn(w, "the start of the range: %s; check the lengths, the sketch "
               "angles and --at",
            why);
-      st = st == KL_ENOMEM ? CLI_EXIT_MEMORY : CLI_EXIT_SOLVE;
+      st = CLI_EXIT_SOLVE;
     } else {
       kl_solver_copy_state(work, base);
-      rc.col = cli_col_rcond(cm);
+      rc.col = cli_row_at(cm, KL_QUANTITY_RCOND, 0);
+      rc.input_at = cli_row_at(cm, KL_QUANTITY_INPUT_VALUE, r.input);
       rc.rcond = 1.0;
       rc.at = r.from;
       st = cli_record(work, cm, &r, rcond_row, &rc, &res);
@@ -380,159 +366,4 @@ int cli_cmd_check(const cli_model *cm, const cli_options *o) {
   st = cli_check_report(f, cm, o);
   closed = cli_close_output(f, o->output);
   return st != CLI_EXIT_OK ? st : closed;
-}
-
-/* ---- solve ---- */
-
-static int name_width(char **names, int from, int to, int least) {
-  int i, w = least;
-  for (i = from; i < to; i++)
-    if ((int)strlen(names[i]) > w)
-      w = (int)strlen(names[i]);
-  return w;
-}
-
-static void print_solution(FILE *f, const cli_model *cm, const kl_solver *s,
-                           const double *u, const double *rates,
-                           const double *accels) {
-  double k = cm->angle_factor;
-  const char *a = cm->angle_unit, *len = cm->length_unit;
-  char h1[64], h2[64], h3[64];
-  kl_solve_stats stats;
-  kl_options opts;
-  int i, w;
-  fprintf(f, "model %s\n", cm->label);
-  for (i = 0; i < cm->ninputs; i++) {
-    double fi = cli_input_factor(cm, i);
-    const char *ui = cli_input_unit(cm, i);
-    fprintf(f, "input %s at %.6g %s, rate %.6g %s/s, acceleration %.6g %s/s^2\n",
-            cli_input_name(cm, i), u[i] * fi, ui, rates[i] * fi, ui,
-            accels[i] * fi, ui);
-  }
-  w = name_width(cm->link_names, 1, cm->nlinks, 12);
-  snprintf(h1, sizeof h1, "angle (%s)", a);
-  snprintf(h2, sizeof h2, "rate (%s/s)", a);
-  snprintf(h3, sizeof h3, "accel (%s/s^2)", a);
-  fprintf(f, "\n%-*s %16s %16s %16s\n", w, "link", h1, h2, h3);
-  for (i = 1; i < cm->nlinks; i++)
-    fprintf(f, "%-*s %16.8g %16.8g %16.8g\n", w, cm->link_names[i],
-            kl_link_angle(s, i) * k, kl_link_rate(s, i) * k,
-            kl_link_accel(s, i) * k);
-  if (cm->nslides > 0) {
-    w = name_width(cm->joint_names, 0, cm->njoints, 12);
-    snprintf(h1, sizeof h1, "slide (%s)", len);
-    snprintf(h2, sizeof h2, "rate (%s/s)", len);
-    snprintf(h3, sizeof h3, "accel (%s/s^2)", len);
-    fprintf(f, "\n%-*s %16s %16s %16s\n", w, "slide", h1, h2, h3);
-    for (i = 0; i < cm->nslides; i++) {
-      int j = cm->slides[i];
-      fprintf(f, "%-*s %16.8g %16.8g %16.8g\n", w, cm->joint_names[j],
-              kl_joint_slide(s, j), kl_joint_slide_rate(s, j),
-              kl_joint_slide_accel(s, j));
-    }
-  }
-  if (cm->npoints > 0) {
-    w = name_width(cm->point_names, 0, cm->npoints, 12);
-    fprintf(f, "\n%-*s %14s %14s %14s %14s %14s %14s\n", w, "point", "x",
-            "y", "x rate", "y rate", "x accel", "y accel");
-    snprintf(h2, sizeof h2, "%s/s", len);
-    snprintf(h3, sizeof h3, "%s/s^2", len);
-    fprintf(f, "%-*s %14s %14s %14s %14s %14s %14s\n", w, "", len, len, h2,
-            h2, h3, h3);
-    for (i = 0; i < cm->npoints; i++) {
-      double p[2], v[2], acc[2];
-      kl_point_position(s, i, p);
-      kl_point_velocity(s, i, v);
-      kl_point_acceleration(s, i, acc);
-      fprintf(f, "%-*s %14.8g %14.8g %14.8g %14.8g %14.8g %14.8g\n", w,
-              cm->point_names[i], p[0], p[1], v[0], v[1], acc[0], acc[1]);
-    }
-  }
-  if (cm->nsites > 0) {
-    w = name_width(cm->joint_names, 0, cm->njoints, 12);
-    snprintf(h1, sizeof h1, "angle (%s)", a);
-    fprintf(f, "\n%-*s %16s   lines to\n", w, "transmission", h1);
-    for (i = 0; i < cm->nsites; i++) {
-      const cli_site *site = &cm->sites[i];
-      double mu = cli_site_value(s, site), deg = mu * 180 / CLI_PI;
-      fprintf(f, "%-*s %16.8g   %s, %s%s\n", w, cm->joint_names[site->joint],
-              mu * k, cm->joint_names[site->line_a],
-              cm->joint_names[site->line_b],
-              deg < USUAL_LOW || deg > USUAL_HIGH ? "  (outside the usual 40-140 deg)"
-                                                : "");
-    }
-  }
-  stats.size = sizeof stats;
-  kl_solver_stats(s, &stats);
-  kl_options_default(&opts);
-  kl_solver_options(s, &opts);
-  fprintf(f, "\ncondition estimate (rcond) %.4g; positions below %.3g count as "
-             "singular\n",
-          stats.rcond, opts.singular_rcond);
-}
-
-static int fill_inputs(const cli_model *cm, const char *list, const char *what,
-                       double fallback_in_model_units, double *u) {
-  int i;
-  if (list != NULL)
-    return cli_parse_inputs(cm, list, what, u);
-  for (i = 0; i < cm->ninputs; i++)
-    u[i] = fallback_in_model_units / cli_input_factor(cm, i);
-  return 0;
-}
-
-int cli_cmd_solve(const cli_model *cm, const cli_options *o) {
-  size_t n = (size_t)(cm->ninputs > 0 ? cm->ninputs : 1);
-  double *u = malloc(n * sizeof *u), *rates = malloc(n * sizeof *rates),
-         *accels = malloc(n * sizeof *accels);
-  kl_solver *s = kl_solver_new(cm->model);
-  char why[2048];
-  FILE *f;
-  int st;
-  if (u == NULL || rates == NULL || accels == NULL || s == NULL) {
-    cli_error("out of memory");
-    st = CLI_EXIT_MEMORY;
-    goto done;
-  }
-  if (o->nat > 0) {
-    if (cli_parse_inputs(cm, o->at[0], "--at", u) != 0) {
-      st = CLI_EXIT_USAGE;
-      goto done;
-    }
-  } else {
-    cli_home_inputs(cm, u);
-  }
-  if (fill_inputs(cm, o->rate, "--rate", 1.0, rates) != 0 ||
-      fill_inputs(cm, o->accel, "--accel", 0.0, accels) != 0) {
-    st = CLI_EXIT_USAGE;
-    goto done;
-  }
-  st = cli_reach(s, cm, u, why, sizeof why);
-  if (st == KL_OK && ((st = kl_solve_velocity(s, cm->ninputs ? rates : NULL)) !=
-                          KL_OK ||
-                      (st = kl_solve_acceleration(
-                           s, cm->ninputs ? accels : NULL)) != KL_OK))
-    snprintf(why, sizeof why, "%s", kl_solver_error(s));
-  if (st == KL_ENOMEM) {
-    cli_error("out of memory");
-    st = CLI_EXIT_MEMORY;
-    goto done;
-  }
-  if (st != KL_OK) {
-    cli_error("%s", why);
-    st = CLI_EXIT_SOLVE;
-    goto done;
-  }
-  if ((f = cli_open_output(o->output)) == NULL) {
-    st = CLI_EXIT_OUTPUT;
-    goto done;
-  }
-  print_solution(f, cm, s, u, rates, accels);
-  st = cli_close_output(f, o->output);
-done:
-  kl_solver_free(s);
-  free(u);
-  free(rates);
-  free(accels);
-  return st;
 }

@@ -1,6 +1,6 @@
 /*
- * position.c - inputs in the user's units, positions reached by
- * continuation from the model's start, and the sweep range a command uses.
+ * inputs.c - inputs in the user's units, the sweep range a command uses,
+ * and positions reached by the library's continuation, told in those units.
  */
 #include <errno.h>
 #include <math.h>
@@ -9,8 +9,6 @@
 
 #include "cli.h"
 
-#define REACH_STEP_ANGLE (2.0 * CLI_PI / 180.0) /* continuation step, rad */
-#define REACH_STEP_SLIDE 0.02                   /* of the model's scale */
 #define DEFAULT_STEPS 72
 
 int cli_input_is_angle(const cli_model *cm, int input) {
@@ -34,16 +32,6 @@ void cli_format_input(const cli_model *cm, int input, double value, char *buf,
                       size_t cap) {
   snprintf(buf, cap, "%s %.6g %s", cli_input_name(cm, input),
            value * cli_input_factor(cm, input), cli_input_unit(cm, input));
-}
-
-void cli_home_inputs(const cli_model *cm, double *u) {
-  kl_sweep_settings sw;
-  int i;
-  for (i = 0; i < cm->ninputs; i++)
-    u[i] = 0.0;
-  sw.size = sizeof sw;
-  if (cm->ninputs > 0 && kl_model_sweep(cm->model, &sw) == KL_OK)
-    u[sw.input] = sw.from;
 }
 
 int cli_parse_inputs(const cli_model *cm, const char *list, const char *what,
@@ -94,86 +82,45 @@ static void describe_position(const cli_model *cm, const double *u,
     snprintf(buf, cap, "its only position");
 }
 
-/* Puts the solver back into the state a new solver starts in: the sketch. */
-static int restart_from_sketch(kl_solver *s, const kl_model *m) {
-  kl_solver *fresh = kl_solver_new(m);
-  int st;
-  if (fresh == NULL)
-    return KL_ENOMEM;
-  st = kl_solver_copy_state(s, fresh);
-  kl_solver_free(fresh);
-  return st;
+int cli_start_or_at(const cli_model *cm, const cli_options *o, double *u) {
+  if (o->nat > 0)
+    return cli_parse_inputs(cm, o->at[0], "--at", u);
+  kl_model_start_inputs(cm->model, u);
+  return 0;
 }
 
 int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
               char *why, size_t cap) {
-  int n = cm->ninputs, i, st;
-  double *now = malloc((size_t)(n > 0 ? n : 1) * sizeof *now);
-  char where[1024];
+  kl_reach_result r;
+  char where[1024], start[320], stop[320], goal[320];
+  int st;
   why[0] = '\0';
-  if (now == NULL) {
-    snprintf(why, cap, "out of memory");
-    return KL_ENOMEM;
-  }
-  if ((st = restart_from_sketch(s, cm->model)) != KL_OK) {
-    snprintf(why, cap, "out of memory");
-    free(now);
+  kl_solver_reset(s);
+  r.size = sizeof r;
+  st = kl_solver_reach(s, cm->ninputs > 0 ? target : NULL, &r);
+  if (st == KL_OK)
     return st;
-  }
-  cli_home_inputs(cm, now);
-  if (kl_solve_position(s, n > 0 ? now : NULL) != KL_OK) {
-    /* no start to continue from: the sketch alone must choose the branch */
-    if ((st = restart_from_sketch(s, cm->model)) == KL_OK)
-      st = kl_solve_position(s, n > 0 ? target : NULL);
-    if (st != KL_OK) {
-      describe_position(cm, target, where, sizeof where);
-      snprintf(why, cap, "no position at %s: %s", where, kl_solver_error(s));
-    }
-    free(now);
-    return st;
-  }
-  for (i = 0; i < n; i++) {
-    double delta = fabs(target[i] - now[i]);
-    double step = cli_input_is_angle(cm, i)
-                      ? REACH_STEP_ANGLE
-                      : REACH_STEP_SLIDE * kl_model_scale(cm->model);
-    kl_sweep_result res;
-    int steps;
-    if (delta == 0.0)
-      continue;
-    steps = delta / step > 1e6 ? 1000000 : (int)ceil(delta / step);
-    res.size = sizeof res;
-    st = kl_solver_sweep(s, i, now[i], target[i], steps, NULL, NULL, &res);
-    if (st != KL_OK) {
-      char start[320], stop[320], goal[320];
-      cli_format_input(cm, i, now[i], start, sizeof start);
-      cli_format_input(cm, i, target[i], goal, sizeof goal);
-      cli_format_input(cm, i, res.limit_input, stop, sizeof stop);
-      if (st == KL_LIMIT)
-        snprintf(why, cap,
-                 "cannot reach %s from the start (%s): the motion stops at "
-                 "%s, a toggle or limit position",
-                 goal, start, stop);
-      else if (st == KL_ESINGULAR)
-        snprintf(why, cap,
-                 "cannot reach %s from the start (%s): the motion meets a "
-                 "singular position at %s",
-                 goal, start, stop);
-      else
-        snprintf(why, cap, "cannot reach %s from the start (%s): %s", goal,
-                 start, kl_solver_error(s));
-      free(now);
-      return st == KL_LIMIT ? KL_ENOASSEMBLY : st;
-    }
-    now[i] = target[i];
-  }
-  /* the sweep's last step is the target up to rounding; land on it exactly */
-  st = kl_solve_position(s, n > 0 ? target : NULL);
-  if (st != KL_OK) {
+  if (r.input < 0) {
     describe_position(cm, target, where, sizeof where);
     snprintf(why, cap, "no position at %s: %s", where, kl_solver_error(s));
+    return st;
   }
-  free(now);
+  cli_format_input(cm, r.input, r.from, start, sizeof start);
+  cli_format_input(cm, r.input, target[r.input], goal, sizeof goal);
+  cli_format_input(cm, r.input, r.limit_input, stop, sizeof stop);
+  if (isnan(r.limit_input))
+    snprintf(why, cap, "cannot reach %s from the start (%s): %s", goal, start,
+             kl_solver_error(s));
+  else if (st == KL_ESINGULAR)
+    snprintf(why, cap,
+             "cannot reach %s from the start (%s): the motion meets a "
+             "singular position at %s",
+             goal, start, stop);
+  else
+    snprintf(why, cap,
+             "cannot reach %s from the start (%s): the motion stops at %s, "
+             "a toggle or limit position",
+             goal, start, stop);
   return st;
 }
 
@@ -249,6 +196,21 @@ int cli_resolve_range(const cli_model *cm, const cli_options *o,
   return 1;
 }
 
+int cli_require_range(const cli_model *cm, const cli_options *o,
+                      cli_range *r, const char *nothing) {
+  int found = cli_resolve_range(cm, o, r);
+  if (found < 0)
+    return CLI_EXIT_USAGE;
+  if (found == 0) {
+    cli_error("%s: %s; give --input, --from and --to", nothing,
+              cm->ninputs == 0 ? "the model has no inputs"
+                               : "the model has no sweep line and its input "
+                                 "slides");
+    return CLI_EXIT_USAGE;
+  }
+  return CLI_EXIT_OK;
+}
+
 int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,
                     const cli_range *r) {
   double *u = malloc((size_t)(cm->ninputs > 0 ? cm->ninputs : 1) * sizeof *u);
@@ -258,41 +220,17 @@ int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,
     cli_error("out of memory");
     return CLI_EXIT_MEMORY;
   }
-  if (o->nat > 0) {
-    if (cli_parse_inputs(cm, o->at[0], "--at", u) != 0) {
-      free(u);
-      return CLI_EXIT_USAGE;
-    }
-  } else {
-    cli_home_inputs(cm, u);
+  if (cli_start_or_at(cm, o, u) != 0) {
+    free(u);
+    return CLI_EXIT_USAGE;
   }
   if (r != NULL)
     u[r->input] = r->from;
   st = cli_reach(s, cm, u, why, sizeof why);
   free(u);
-  if (st == KL_ENOMEM) {
-    cli_error("out of memory");
-    return CLI_EXIT_MEMORY;
-  }
   if (st != KL_OK) {
     cli_error("the start of the range: %s", why);
     return CLI_EXIT_SOLVE;
   }
   return CLI_EXIT_OK;
-}
-
-void cli_local_to_global(const kl_solver *s, int link, const double local[2],
-                         double xy[2]) {
-  double origin[2], t = kl_link_angle(s, link), c = cos(t), sn = sin(t);
-  kl_link_origin(s, link, origin);
-  xy[0] = origin[0] + c * local[0] - sn * local[1];
-  xy[1] = origin[1] + sn * local[0] + c * local[1];
-}
-
-void cli_joint_position(const kl_solver *s, const kl_model *m, int joint,
-                        double xy[2]) {
-  int links[2];
-  double b[2];
-  kl_model_joint_links(m, joint, links, NULL, b);
-  cli_local_to_global(s, links[1], b, xy);
 }

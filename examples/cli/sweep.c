@@ -1,5 +1,5 @@
 /*
- * csv.c - the sweep command: one CSV row per step of a sweep, every
+ * sweep.c - the sweep command: one CSV row per step of a sweep, every
  * quantity in the model's units, rates per second at the given speed.
  */
 #include <stdlib.h>
@@ -10,6 +10,7 @@
 typedef struct {
   FILE *f;
   int ncols;
+  const cli_column *cols;
   const double *factor;
   const char *format;
 } csv_sink;
@@ -36,7 +37,7 @@ static int put_row(void *user, int step, const double *row) {
   for (i = 0; i < k->ncols; i++) {
     if (i > 0)
       fputc(',', k->f);
-    fprintf(k->f, k->format, row[i] * k->factor[i]);
+    fprintf(k->f, k->format, row[k->cols[i].at] * k->factor[i]);
   }
   fputc('\n', k->f);
   return ferror(k->f) != 0; /* a full disk stops the sweep */
@@ -49,16 +50,9 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
   kl_solver *s;
   kl_sweep_result res;
   csv_sink sink;
-  int st, i, found = cli_resolve_range(cm, o, &r);
-  if (found < 0)
-    return CLI_EXIT_USAGE;
-  if (found == 0) {
-    cli_error("nothing to sweep: %s; give --input, --from and --to",
-              cm->ninputs == 0 ? "the model has no inputs"
-                               : "the model has no sweep line and its input "
-                                 "slides");
-    return CLI_EXIT_USAGE;
-  }
+  int st, i;
+  if ((st = cli_require_range(cm, o, &r, "nothing to sweep")) != CLI_EXIT_OK)
+    return st;
   sink.ncols = cli_column_count(cm);
   cols = malloc((size_t)sink.ncols * sizeof *cols);
   factor = malloc((size_t)sink.ncols * sizeof *factor);
@@ -87,6 +81,7 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
     cli_csv_field(sink.f, name);
   }
   fputc('\n', sink.f);
+  sink.cols = cols;
   sink.factor = factor;
   sink.format = o->all_digits ? "%.17g" : "%.6g";
   st = cli_record(s, cm, &r, put_row, &sink, &res);
@@ -96,16 +91,9 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
     st = CLI_EXIT_MEMORY;
   } else if (i != CLI_EXIT_OK || st == KL_STOPPED) {
     st = CLI_EXIT_OUTPUT;
-  } else if (st == KL_LIMIT || st == KL_ESINGULAR) {
-    char note[1024];
-    cli_sweep_note(cm, &r, &res, note, sizeof note);
-    cli_error("note: %s; the rows before it are written", note);
-    st = CLI_EXIT_OK;
-  } else if (st != KL_OK) {
-    cli_error("the sweep failed: %s", kl_solver_error(s));
-    st = CLI_EXIT_SOLVE;
   } else {
-    st = CLI_EXIT_OK;
+    st = cli_sweep_told(cm, s, &r, &res, st, "the sweep",
+                        "the rows before it are written");
   }
 done:
   kl_solver_free(s);

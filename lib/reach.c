@@ -1,0 +1,110 @@
+/*
+ * reach.c - bringing a solver to target inputs by continuation, from the
+ * position last solved or from the model's start position.
+ */
+#include <math.h>
+#include <string.h>
+
+#include "solver.h"
+
+/* The longest continuation step of a move: 2 degrees of a turning input,
+ * 2 % of the model's scale of a sliding one (what the kinloop tool has
+ * always used: short enough for the sweep's predictor on any linkage it
+ * checks, few enough to cost little). */
+#define KLI_REACH_ANGLE_STEP (2.0 * KLI_PI / 180.0)
+#define KLI_REACH_SLIDE_STEP 0.02
+/* Steps one move may take; beyond, each step grows longer instead. */
+#define KLI_REACH_MAX_STEPS 1000000
+
+int kl_model_start_inputs(const kl_model *m, double *inputs) {
+  int i;
+  if (m == NULL || (m->ninputs > 0 && inputs == NULL))
+    return KL_EINVAL;
+  for (i = 0; i < m->ninputs; i++)
+    inputs[i] = 0.0;
+  if (m->has_sweep)
+    inputs[m->sweep.input] = m->sweep.from;
+  return KL_OK;
+}
+
+static void finish(kl_reach_result *result, int status, int input,
+                   double from, double limit, int substeps) {
+  kl_reach_result r;
+  if (result == NULL || result->size < sizeof(result->size))
+    return;
+  r.status = status;
+  r.input = input;
+  r.from = from;
+  r.limit_input = limit;
+  r.substeps = substeps;
+  kli_copy_sized(result, &r, sizeof r);
+}
+
+/* Moves input i from its value now to `target`, the others held. */
+static int move(kl_solver *s, int i, double target, kl_sweep_result *sw) {
+  const kl_model *m = s->model;
+  double from = s->st.u[i], delta = fabs(target - from);
+  double step = m->joints[m->inputs[i]].kind == KL_JOINT_REVOLUTE
+                    ? KLI_REACH_ANGLE_STEP
+                    : KLI_REACH_SLIDE_STEP * m->topo.scale;
+  int steps = delta / step > KLI_REACH_MAX_STEPS ? KLI_REACH_MAX_STEPS
+                                                  : (int)ceil(delta / step);
+  char lj[160];
+  int st;
+  sw->size = sizeof *sw;
+  st = kl_solver_sweep(s, i, from, target, steps, NULL, NULL, sw);
+  if (st == KL_LIMIT || st == KL_ESINGULAR)
+    return kli_fail(s->error, st == KL_LIMIT ? KL_ENOASSEMBLY : KL_ESINGULAR,
+                    "reach: input %d (%s) %s at %.12g on its way from %.12g "
+                    "to %.12g",
+                    i, kli_joint_label(m, m->inputs[i], lj, sizeof lj),
+                    st == KL_LIMIT ? "stops at a motion limit"
+                                   : "meets a singular position",
+                    sw->limit_input, from, target);
+  return st; /* the sweep's own message stands */
+}
+
+int kl_solver_reach(kl_solver *s, const double *inputs,
+                    kl_reach_result *result) {
+  int st, i, substeps = 0;
+  if (s == NULL)
+    return KL_EINVAL;
+  if ((st = kli_check_input_values(s, inputs, "reach", "target")) != KL_OK) {
+    finish(result, st, -1, NAN, NAN, 0);
+    return st;
+  }
+  kli_state_keep(s);
+  if (!s->st.position_solved) {
+    /* nothing solved to go on from: the model's start, from the sketch */
+    kl_model_start_inputs(s->model, s->sweep_u);
+    if (kl_solve_position(s, s->sweep_u) != KL_OK) {
+      /* no start either: the sketch alone must choose the branch */
+      kli_state_back(s);
+      st = kl_solve_position(s, inputs);
+      if (st != KL_OK)
+        kli_state_back(s);
+      finish(result, st, -1, NAN, NAN, 0);
+      return st;
+    }
+  }
+  for (i = 0; i < s->ninputs; i++) {
+    double from = s->st.u[i];
+    kl_sweep_result sw;
+    if (inputs[i] == from)
+      continue;
+    st = move(s, i, inputs[i], &sw);
+    substeps += sw.substeps;
+    if (st != KL_OK) {
+      kli_state_back(s);
+      finish(result, st, i, from, sw.limit_input, substeps);
+      return st;
+    }
+  }
+  /* a move ends on its target, with the sweep's unit rates: solve the
+   * position alone there, as after any position solve */
+  st = kl_solve_position(s, inputs);
+  if (st != KL_OK)
+    kli_state_back(s);
+  finish(result, st, -1, NAN, NAN, substeps);
+  return st;
+}

@@ -1,0 +1,318 @@
+/*
+ * test_loops.c - what the model's loops say to a designer: four-bar loops
+ * with their link lengths and Grashof class, and the joints where the
+ * transmission angle is measured, against the Grashof condition and the
+ * four-bar's law-of-cosines transmission angle.
+ */
+#include <check.h>
+#include <math.h>
+#include <string.h>
+
+#include "suite.h"
+#include "support.h"
+
+#define DEG (PI / 180.0)
+
+/* Agreement of a transmission angle with its closed form: one position
+ * solve to 1e-12 of the scale on well-conditioned four-bars (the value
+ * is an atan2 of the converged link directions). */
+#define CLOSED_FORM_TOL 1e-9
+
+static kl_fourbar new_fourbar(void) {
+  kl_fourbar fb;
+  memset(&fb, 0xff, sizeof fb);
+  fb.size = sizeof fb;
+  return fb;
+}
+
+/* A four-bar with its input at the second ground pivot of its walk: the
+ * model file lists the rocker's pivot first, and the input drives the other
+ * pivot (geometry chosen for the test: ground 100, crank 40, coupler 120,
+ * rocker 80, a crank-rocker by Grashof's condition). */
+static kl_model *fourbar_driven_second(int *crank, int *rocker,
+                                       int *coupler) {
+  kl_model *m = kl_model_new();
+  int loop[4], motor;
+  *crank = kl_add_link(m, "crank");
+  *coupler = kl_add_link(m, "coupler");
+  *rocker = kl_add_link(m, "rocker");
+  loop[0] = kl_add_revolute(m, *rocker, 0, 0, KL_GROUND, 100, 0);
+  loop[1] = motor = kl_add_revolute(m, KL_GROUND, 0, 0, *crank, 0, 0);
+  loop[2] = kl_add_revolute(m, *crank, 40, 0, *coupler, 0, 0);
+  loop[3] = kl_add_revolute(m, *coupler, 120, 0, *rocker, 80, 0);
+  kl_add_input(m, motor);
+  kl_add_loop(m, 4, loop);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  return m;
+}
+
+START_TEST(fourbar_loop_reads_links_lengths_and_class) {
+  fourbar f = build_fourbar(40, 120, 80, 100);
+  kl_fourbar fb = new_fourbar();
+  ck_assert_int_eq(kl_model_loop_fourbar(f.m, 0, &fb), KL_OK);
+  ck_assert_uint_eq(fb.size, sizeof fb);
+  ck_assert_int_eq(fb.loop, 0);
+  ck_assert_int_eq(fb.input, 0);
+  ck_assert_int_eq(fb.input_joint, f.pivot);
+  ck_assert_int_eq(fb.output_joint, f.rocker_pivot);
+  ck_assert_int_eq(fb.input_link, f.crank);
+  ck_assert_int_eq(fb.coupler_link, f.coupler);
+  ck_assert_int_eq(fb.output_link, f.rocker);
+  /* the lengths the builder gave, exactly: each is the distance of two
+   * points on one axis */
+  ck_assert_double_eq(fb.ground_length, f.d);
+  ck_assert_double_eq(fb.input_length, f.a);
+  ck_assert_double_eq(fb.coupler_length, f.b);
+  ck_assert_double_eq(fb.output_length, f.c);
+  /* Grashof's condition: s + l = 40 + 120 < p + q = 80 + 100, the input
+   * link shortest: a crank-rocker */
+  ck_assert_int_eq(fb.grashof, KL_GRASHOF_CRANK_ROCKER);
+  ck_assert_int_eq(kl_model_grashof(f.m), fb.grashof);
+  kl_model_free(f.m);
+}
+END_TEST
+
+START_TEST(fourbar_loop_driven_at_either_pivot) {
+  int crank, rocker, coupler;
+  kl_model *m = fourbar_driven_second(&crank, &rocker, &coupler);
+  kl_fourbar fb = new_fourbar();
+  ck_assert_int_eq(kl_model_loop_fourbar(m, 0, &fb), KL_OK);
+  ck_assert_int_eq(fb.input_link, crank);
+  ck_assert_int_eq(fb.coupler_link, coupler);
+  ck_assert_int_eq(fb.output_link, rocker);
+  ck_assert_int_eq(fb.input_joint, 1);
+  ck_assert_int_eq(fb.output_joint, 0);
+  ck_assert_double_eq(fb.ground_length, 100);
+  ck_assert_double_eq(fb.input_length, 40);
+  ck_assert_double_eq(fb.coupler_length, 120);
+  ck_assert_double_eq(fb.output_length, 80);
+  ck_assert_int_eq(fb.grashof, KL_GRASHOF_CRANK_ROCKER);
+  ck_assert_int_eq(kl_model_grashof(m), KL_GRASHOF_CRANK_ROCKER);
+  kl_model_free(m);
+}
+END_TEST
+
+/* The classes of Grashof's condition (s + l against p + q, and which link
+ * is shortest), each from a four-bar built with those lengths (geometry
+ * chosen for the test). */
+START_TEST(fourbar_loop_classes_follow_grashof) {
+  static const struct {
+    double a, b, c, d;
+    int cls;
+  } cases[] = {
+      {40, 120, 80, 100, KL_GRASHOF_CRANK_ROCKER},   /* crank shortest */
+      {100, 80, 120, 40, KL_GRASHOF_DOUBLE_CRANK},   /* ground shortest */
+      {80, 40, 100, 120, KL_GRASHOF_DOUBLE_ROCKER},  /* coupler shortest */
+      {100, 120, 40, 80, KL_GRASHOF_ROCKER_CRANK},   /* rocker shortest */
+      {70, 50, 60, 100, KL_GRASHOF_TRIPLE_ROCKER},   /* 50 + 100 > 70 + 60 */
+      {40, 100, 40, 100, KL_GRASHOF_CHANGE_POINT},   /* 40 + 100 = 40 + 100 */
+  };
+  unsigned k;
+  for (k = 0; k < sizeof cases / sizeof cases[0]; k++) {
+    fourbar f = build_fourbar(cases[k].a, cases[k].b, cases[k].c, cases[k].d);
+    kl_fourbar fb = new_fourbar();
+    ck_assert_int_eq(kl_model_loop_fourbar(f.m, 0, &fb), KL_OK);
+    ck_assert_msg(fb.grashof == cases[k].cls, "case %u: class %d", k,
+                  fb.grashof);
+    ck_assert_int_eq(kl_model_grashof(f.m), cases[k].cls);
+    kl_model_free(f.m);
+  }
+}
+END_TEST
+
+START_TEST(fourbar_loop_in_a_larger_model) {
+  /* the chain's first loop is a four-bar driven at ground; the others are
+   * driven through the rocker before them, not by an input */
+  chain c = build_chain(3);
+  kl_fourbar fb = new_fourbar();
+  int loop, fourbars = 0;
+  for (loop = 0; loop < kl_model_loop_count(c.m); loop++) {
+    int st = kl_model_loop_fourbar(c.m, loop, &fb);
+    ck_assert(st == KL_OK || st == KL_EKIND);
+    if (st != KL_OK)
+      continue;
+    fourbars++;
+    ck_assert_int_eq(fb.input_link, c.crank);
+    ck_assert_int_eq(fb.coupler_link, c.couplers[0]);
+    ck_assert_int_eq(fb.output_link, c.rockers[0]);
+    ck_assert_int_eq(fb.grashof, KL_GRASHOF_CRANK_ROCKER);
+  }
+  ck_assert_int_eq(fourbars, 1);
+  /* a whole model of several loops is no four-bar */
+  ck_assert_int_eq(kl_model_grashof(c.m), KL_EKIND);
+  kl_model_free(c.m);
+}
+END_TEST
+
+START_TEST(fourbar_loop_refuses_what_it_cannot_read) {
+  slider_crank sc = build_slider_crank(40, 120, 10);
+  fourbar f = build_fourbar(40, 120, 80, 100);
+  kl_model *open = kl_model_new();
+  kl_fourbar fb = new_fourbar();
+  struct {
+    size_t size;
+    int loop;
+  } small;
+  /* a loop with a prismatic joint */
+  ck_assert_int_eq(kl_model_loop_fourbar(sc.m, 0, &fb), KL_EKIND);
+  ck_assert_int_eq(kl_model_loop_fourbar(f.m, 1, &fb), KL_EID);
+  ck_assert_int_eq(kl_model_loop_fourbar(f.m, -1, &fb), KL_EID);
+  ck_assert_int_eq(kl_model_loop_fourbar(open, 0, &fb), KL_ESTATE);
+  ck_assert_int_eq(kl_model_loop_fourbar(NULL, 0, &fb), KL_EINVAL);
+  ck_assert_int_eq(kl_model_loop_fourbar(f.m, 0, NULL), KL_EINVAL);
+  fb.size = 0;
+  ck_assert_int_eq(kl_model_loop_fourbar(f.m, 0, &fb), KL_EINVAL);
+  /* an older, shorter struct is filled no further than its size */
+  memset(&small, 0xff, sizeof small);
+  small.size = offsetof(kl_fourbar, input);
+  ck_assert_int_eq(kl_model_loop_fourbar(f.m, 0, (kl_fourbar *)&small),
+                   KL_OK);
+  ck_assert_int_eq(small.loop, 0);
+  kl_model_free(sc.m);
+  kl_model_free(f.m);
+  kl_model_free(open);
+}
+END_TEST
+
+/* Norton, Design of Machinery, the transmission angle of a four-bar from
+ * the law of cosines on the diagonal from the crank pin to the rocker's
+ * pivot: cos mu = (b^2 + c^2 - a^2 - d^2 + 2 a d cos theta2) / (2 b c). */
+static double law_of_cosines_mu(const fourbar *f, double t2) {
+  return acos((f->b * f->b + f->c * f->c - f->a * f->a - f->d * f->d +
+               2 * f->a * f->d * cos(t2)) /
+              (2 * f->b * f->c));
+}
+
+START_TEST(fourbar_site_is_the_coupler_rocker_pin) {
+  fourbar f = build_fourbar(40, 120, 80, 100);
+  kl_solver *s = kl_solver_new(f.m);
+  kl_output site[2];
+  kl_transmission_skip skipped[2];
+  int k;
+  ck_assert_int_eq(kl_model_transmissions(f.m, site, 2), 1);
+  ck_assert_int_eq(site[0].kind, KL_OUTPUT_TRANSMISSION);
+  ck_assert_int_eq(site[0].id, f.rocker_pin);
+  ck_assert_int_eq(site[0].line_a, f.crank_pin);   /* on the coupler */
+  ck_assert_int_eq(site[0].line_b, f.rocker_pivot); /* on the rocker */
+  ck_assert_int_eq(kl_model_transmission_skips(f.m, skipped, 2), 1);
+  ck_assert_int_eq(skipped[0].joint, f.crank_pin);
+  ck_assert_int_eq(skipped[0].loop, 0);
+  ck_assert_int_eq(skipped[0].link, f.crank);
+  ck_assert_int_eq(skipped[0].reason, KL_TRANSMISSION_SKIP_INPUT_CRANK);
+  kl_set_link_angle(s, f.coupler, 0.6);
+  kl_set_link_angle(s, f.rocker, 1.1);
+  for (k = 0; k <= 36; k++) {
+    double u = k * 10 * DEG, mu;
+    ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+    ck_assert_int_eq(kl_output_value(s, &site[0], &mu), KL_OK);
+    ck_assert_msg(fabs(mu - law_of_cosines_mu(&f, u)) < CLOSED_FORM_TOL,
+                  "crank %d deg: %.15g, closed form %.15g", 10 * k, mu,
+                  law_of_cosines_mu(&f, u));
+  }
+  kl_solver_free(s);
+  kl_model_free(f.m);
+}
+END_TEST
+
+START_TEST(slider_crank_has_no_site) {
+  /* the crank pin is on the crank the input turns; the block pin's line on
+   * the block runs to the slide joint, which the builder puts at the same
+   * point of the block */
+  slider_crank sc = build_slider_crank(40, 120, 10);
+  kl_transmission_skip skipped[4];
+  int k;
+  ck_assert_int_eq(kl_model_transmissions(sc.m, NULL, 0), 0);
+  ck_assert_int_eq(kl_model_transmission_skips(sc.m, skipped, 4), 2);
+  ck_assert_int_eq(skipped[0].joint + skipped[1].joint,
+                   sc.crank_pin + sc.block_pin);
+  for (k = 0; k < 2; k++) {
+    if (skipped[k].joint == sc.crank_pin) {
+      ck_assert_int_eq(skipped[k].reason, KL_TRANSMISSION_SKIP_INPUT_CRANK);
+      ck_assert_int_eq(skipped[k].link, sc.crank);
+    } else {
+      ck_assert_int_eq(skipped[k].reason, KL_TRANSMISSION_SKIP_NO_LINE);
+      ck_assert_int_eq(skipped[k].link, sc.block);
+    }
+  }
+  kl_model_free(sc.m);
+}
+END_TEST
+
+/* Every revolute joint off ground and not an input is met exactly once,
+ * as a site or as a skip, and every site is an output the library takes. */
+static void check_cover(kl_model *m) {
+  kl_output sites[MAX_JOINTS];
+  kl_transmission_skip skips[MAX_JOINTS];
+  int seen[MAX_JOINTS] = {0};
+  int ns = kl_model_transmissions(m, sites, MAX_JOINTS);
+  int nk = kl_model_transmission_skips(m, skips, MAX_JOINTS), j, i, k;
+  kl_solver *s = kl_solver_new(m);
+  ck_assert_int_ge(ns, 1);
+  ck_assert_int_le(ns + nk, kl_model_joint_count(m));
+  for (k = 0; k < ns; k++) {
+    double v;
+    seen[sites[k].id]++;
+    ck_assert_int_eq(kl_output_value(s, &sites[k], &v), KL_OK);
+  }
+  for (k = 0; k < nk; k++)
+    seen[skips[k].joint]++;
+  for (j = 0; j < kl_model_joint_count(m); j++) {
+    int links[2], input = 0;
+    kl_model_joint_links(m, j, links, NULL, NULL);
+    for (i = 0; i < kl_model_input_count(m); i++)
+      input |= kl_model_input_joint(m, i) == j;
+    ck_assert_int_eq(seen[j], kl_model_joint_kind(m, j) == KL_JOINT_REVOLUTE &&
+                                  links[0] != KL_GROUND &&
+                                  links[1] != KL_GROUND && !input);
+  }
+  kl_solver_free(s);
+}
+
+START_TEST(six_bars_cover_each_joint_once) {
+  pin_linkage watt = watt_sixbar(), stephenson = stephenson_sixbar();
+  kl_model *mw = build_pin_linkage(&watt, 0);
+  kl_model *ms = build_pin_linkage(&stephenson, 1);
+  check_cover(mw);
+  check_cover(ms);
+  kl_model_free(mw);
+  kl_model_free(ms);
+}
+END_TEST
+
+START_TEST(sites_refuse_what_they_cannot_give) {
+  fourbar f = build_fourbar(40, 120, 80, 100);
+  kl_model *open = kl_model_new();
+  kl_output sentinel[2];
+  kl_transmission_skip skip_sentinel[1];
+  memset(sentinel, 0x5a, sizeof sentinel);
+  /* cap 0 counts without writing */
+  ck_assert_int_eq(kl_model_transmissions(f.m, sentinel, 0), 1);
+  ck_assert_int_eq(sentinel[0].id, 0x5a5a5a5a);
+  ck_assert_int_eq(kl_model_transmissions(f.m, NULL, 1), KL_EINVAL);
+  ck_assert_int_eq(kl_model_transmissions(f.m, sentinel, -1), KL_EINVAL);
+  ck_assert_int_eq(kl_model_transmissions(NULL, sentinel, 1), KL_EINVAL);
+  ck_assert_int_eq(kl_model_transmissions(open, sentinel, 1), KL_ESTATE);
+  ck_assert_int_eq(kl_model_transmission_skips(f.m, NULL, 1), KL_EINVAL);
+  ck_assert_int_eq(kl_model_transmission_skips(open, skip_sentinel, 1),
+                   KL_ESTATE);
+  ck_assert_int_eq(kl_model_transmission_skips(f.m, NULL, 0), 1);
+  kl_model_free(f.m);
+  kl_model_free(open);
+}
+END_TEST
+
+int main(void) {
+  Suite *suite = suite_create("loops");
+  TCase *tc = tcase_create("loops");
+  tcase_add_test(tc, fourbar_loop_reads_links_lengths_and_class);
+  tcase_add_test(tc, fourbar_loop_driven_at_either_pivot);
+  tcase_add_test(tc, fourbar_loop_classes_follow_grashof);
+  tcase_add_test(tc, fourbar_loop_in_a_larger_model);
+  tcase_add_test(tc, fourbar_loop_refuses_what_it_cannot_read);
+  tcase_add_test(tc, fourbar_site_is_the_coupler_rocker_pin);
+  tcase_add_test(tc, slider_crank_has_no_site);
+  tcase_add_test(tc, six_bars_cover_each_joint_once);
+  tcase_add_test(tc, sites_refuse_what_they_cannot_give);
+  suite_add_tcase(suite, tc);
+  return run_suite(suite);
+}
