@@ -1,0 +1,1005 @@
+#!/usr/bin/env python3
+"""Generates the mechanical part of kinloop's Python and Octave bindings
+from include/kinloop.h, at build time (standard library only).
+
+    generate.py python HEADER OUT_DIR   writes OUT_DIR/_header.py, _api.py
+    generate.py octave HEADER OUT_DIR   writes OUT_DIR/kinloop_gateway.inc and
+                                        OUT_DIR/+kinloop/*Methods.m and the
+                                        package functions of plain calls
+    generate.py layout HEADER OUT.c     writes the layout probe (a C program)
+    generate.py list HEADER             prints how each function is bound
+
+The header is the one source: its KL_API prototypes, enums, structs, handle
+and callback typedefs, version macros and doc comments. A function is
+"plain", and gets a generated method, when its parameters are a handle
+(first only), scalars (int, long, size_t, double), strings (const char *),
+fixed arrays it fills (double xy[2]), and sized structs (first field
+size_t size) read or filled whole; its result a scalar, a string or void.
+Everything else (caller arrays, callbacks, new handles, buffers with sizes)
+is left to the hand-written part of each binding. DEVELOPERS.md says more.
+"""
+
+import keyword
+import os
+import re
+import sys
+
+SCALARS = ("int", "long", "size_t", "double")
+HANDLES = ("model", "solver", "study")
+
+
+# ---------------------------------------------------------------------------
+# Reading the header
+# ---------------------------------------------------------------------------
+
+def clean_doc(raw):
+    """The text of a doc comment without its markers and leading stars."""
+    lines = []
+    for line in raw.splitlines():
+        line = line.strip()
+        line = re.sub(r"^\*+\s?", "", line) if not line.startswith("*/") else ""
+        lines.append(line)
+    text = "\n".join(lines).strip()
+    return re.sub(r"\n{3,}", "\n\n", text)
+
+
+class Header:
+    """What bindings need to know of include/kinloop.h."""
+
+    def __init__(self, text):
+        self.text = text
+        self.version = tuple(int(re.search(r"#define KINLOOP_VERSION_%s (\d+)" % p,
+                                           text).group(1))
+                             for p in ("MAJOR", "MINOR", "PATCH"))
+        self.ground = int(re.search(r"#define KL_GROUND (\d+)", text).group(1))
+        self.handles = re.findall(r"typedef struct (kl_\w+) \1;", text)
+        self.enums = self._enums()
+        self.structs = self._structs()
+        self.callbacks = self._callbacks()
+        self.functions = self._functions()
+
+    def doc_before(self, start):
+        """The /** */ comment that ends right before `start`, or ""."""
+        head = self.text[:start].rstrip()
+        if not head.endswith("*/"):
+            return ""
+        open_at = head.rfind("/**")
+        if open_at < 0 or "*/" in head[open_at:-2]:
+            return ""
+        return clean_doc(head[open_at + 3:-2])
+
+    def _enums(self):
+        enums = []
+        for m in re.finditer(r"^enum (kl_\w+)\s*\{(.*?)\};", self.text, re.S | re.M):
+            name, body = m.groups()
+            values, nxt = [], 0
+            for item in re.finditer(r"(KL_\w+)(?:\s*=\s*(-?\d+))?\s*,?[ \t]*"
+                                    r"(?:/\*\*<(.*?)\*/)?", body, re.S):
+                const, value, doc = item.groups()
+                nxt = int(value) if value is not None else nxt
+                values.append((const, nxt, clean_doc(doc or "")))
+                nxt += 1
+            prefix = os.path.commonprefix([v[0] for v in values])
+            prefix = prefix[:prefix.rfind("_") + 1] if len(values) > 1 else "KL_"
+            enums.append(Enum(name, self.doc_before(m.start()), prefix, values))
+        return enums
+
+    def _structs(self):
+        structs = []
+        for m in re.finditer(r"^typedef struct (kl_\w+)\s*\{(.*?)\}\s*\1;", self.text,
+                             re.S | re.M):
+            name, body = m.groups()
+            fields = []
+            for f in re.finditer(r"([\w ]+?)\s+(\w+)(?:\[(\d+)\])?;[ \t]*"
+                                 r"(?:/\*\*<(.*?)\*/)?", body, re.S):
+                ctype, fname, length, doc = f.groups()
+                fields.append(Field(" ".join(ctype.split()), fname,
+                                    int(length) if length else None,
+                                    clean_doc(doc or "")))
+            structs.append(Struct(name, self.doc_before(m.start()), fields))
+        return structs
+
+    def _callbacks(self):
+        return {m.group(2): (m.group(1).strip(), split_params(m.group(3)))
+                for m in re.finditer(r"typedef\s+([^;()]*?)\(\s*\*\s*(kl_\w+)\s*\)"
+                                     r"\s*\(([^)]*)\)\s*;", self.text)}
+
+    def _functions(self):
+        functions = []
+        for m in re.finditer(r"^KL_API\s+([^;(#]*?)\b(kl_\w+)\s*\(([^)]*)\)\s*;"
+                             r"(?:[ \t]*/\*\*<(.*?)\*/)?", self.text, re.S | re.M):
+            result, name, params, trailing = m.groups()
+            doc = clean_doc(trailing) if trailing else self.doc_before(m.start())
+            functions.append(Function(name, " ".join(result.split()),
+                                      [Param.parse(p) for p in split_params(params)],
+                                      doc))
+        return functions
+
+    def struct(self, name):
+        return next((s for s in self.structs if s.name == name), None)
+
+    def enum(self, name):
+        return next((e for e in self.enums if e.name == name), None)
+
+    def function(self, name):
+        return next((f for f in self.functions if f.name == name), None)
+
+
+def split_params(params):
+    params = " ".join(params.split())
+    return [] if params in ("", "void") else [p.strip() for p in params.split(",")]
+
+
+class Enum:
+    def __init__(self, name, doc, prefix, values):
+        self.name, self.doc, self.prefix, self.values = name, doc, prefix, values
+        self.short = name[3:]  # without kl_
+        self.python = camel(self.short)
+
+    def member(self, const):
+        return const[len(self.prefix):]
+
+    def octave_name(self, const):
+        """Statuses keep the header's spelling (they are error ids); other
+        values are lower case, as Octave code writes them."""
+        member = self.member(const)
+        return member if self.name == "kl_status" else member.lower()
+
+
+class Field:
+    def __init__(self, ctype, name, length, doc):
+        self.ctype, self.name, self.length, self.doc = ctype, name, length, doc
+
+
+class Struct:
+    def __init__(self, name, doc, fields):
+        self.name, self.doc, self.fields = name, doc, fields
+        self.sized = bool(fields) and fields[0].name == "size" and fields[0].ctype == "size_t"
+        self.reports_error = any(f.name == "message" for f in fields)
+
+    def value_fields(self):
+        return self.fields[1:] if self.sized else self.fields
+
+
+def camel(name):
+    return "".join(part.capitalize() for part in name.split("_"))
+
+
+class Param:
+    """One C parameter: base type, constness of what it points to, pointer
+    depth, fixed array length, and name."""
+
+    def __init__(self, decl, base, const, pointers, length, name):
+        self.decl, self.base, self.const = decl, base, const
+        self.pointers, self.length, self.name = pointers, length, name
+
+    @classmethod
+    def parse(cls, decl):
+        d = decl.replace("*", " * ")
+        length = re.search(r"\[(\d+)\]\s*$", d)
+        d = re.sub(r"\[\d+\]\s*$", "", d)
+        tokens = d.split()
+        const = tokens[0] == "const"
+        words = [t for t in tokens if t not in ("const", "*")]
+        base = words[0]
+        name = words[1] if len(words) > 1 else ""
+        return cls(decl, base, const, tokens.count("*"),
+                   int(length.group(1)) if length else None, name)
+
+
+class Function:
+    def __init__(self, name, result, params, doc):
+        self.name, self.result, self.params, self.doc = name, result, params, doc
+
+
+# ---------------------------------------------------------------------------
+# Classifying: what each parameter is to a binding, and which functions are
+# plain
+# ---------------------------------------------------------------------------
+
+class Arg:
+    """A parameter as the bindings see it. kind is one of handle, scalar,
+    string, point (two doubles named <p>x, <p>y), out_array, struct_in,
+    struct_out."""
+
+    def __init__(self, kind, name, params, ctype=None, length=None, enum=None,
+                 struct=None, const=False, optional=False):
+        self.kind, self.name, self.params = kind, name, params
+        self.ctype, self.length, self.enum, self.struct = ctype, length, enum, struct
+        self.const, self.optional = const, optional
+
+    @property
+    def is_input(self):
+        return self.kind not in ("out_array", "struct_out", "handle")
+
+
+class Binding:
+    """How one function is bound: plain (generated) or not, and if plain,
+    its handle, its arguments, and what its result means."""
+
+    def __init__(self, header, f):
+        self.f = f
+        self.name = f.name
+        self.plain, self.why = True, ""
+        self.args = []
+        self.handle = None
+        self.handle_const = False
+        self._classify(header)
+        if self.plain:
+            self._result(header)
+
+    def refuse(self, why):
+        if self.plain:
+            self.plain, self.why = False, why
+
+    def _classify(self, header):
+        f = self.f
+        if f.name.endswith("_free"):
+            self.refuse("frees a handle")
+        if f.result not in ("void", "int", "long", "size_t", "double", "const char *"):
+            self.refuse("returns %s" % f.result)
+        params = list(f.params)
+        if any(p.base == "size_t" and not p.pointers for p in params) and \
+                any(p.pointers and p.base[3:] not in HANDLES for p in params):
+            self.refuse("a size_t sizes the memory of a pointer argument")
+        k = 0
+        while k < len(params):
+            p = params[k]
+            nxt = params[k + 1] if k + 1 < len(params) else None
+            handle = p.base.startswith("kl_") and p.base[3:] in HANDLES
+            struct = header.struct(p.base)
+            if handle and p.pointers == 1 and k == 0:
+                self.handle, self.handle_const = p.base[3:], p.const
+                self.args.append(Arg("handle", p.name, [p], const=p.const))
+            elif p.base == "double" and not p.pointers and p.length is None and \
+                    p.name.endswith("x") and nxt is not None and nxt.base == "double" and \
+                    not nxt.pointers and nxt.length is None and \
+                    nxt.name == p.name[:-1] + "y":
+                stem = p.name[:-1]
+                self.args.append(Arg("point", stem + "_xy" if stem else "xy", [p, nxt]))
+                k += 1
+            elif p.base in SCALARS and not p.pointers and p.length is None:
+                self.args.append(Arg("scalar", p.name, [p], ctype=p.base,
+                                     enum=header.enum("kl_" + p.name)
+                                     if p.base == "int" else None))
+            elif p.base == "char" and p.const and p.pointers == 1:
+                self.args.append(Arg("string", p.name, [p]))
+            elif p.base in ("int", "double") and not p.const and p.length and \
+                    not p.pointers:
+                self.args.append(Arg("out_array", p.name, [p], ctype=p.base,
+                                     length=p.length))
+            elif struct is not None and struct.sized and p.pointers == 1 and \
+                    not struct.reports_error:
+                self.args.append(Arg("struct_in" if p.const else "struct_out", p.name,
+                                     [p], struct=struct))
+            else:
+                self.refuse("parameter %r is not a scalar, string, fixed array or "
+                            "sized struct" % p.decl)
+                self.args.append(Arg("other", p.name, [p]))
+            k += 1
+        # a builder's trailing name may be left out (NULL: an unnamed item)
+        if f.name.startswith("kl_add_") and self.args and \
+                self.args[-1].kind == "string" and self.args[-1].name == "name":
+            self.args[-1].optional = True
+
+    def _result(self, header):
+        f = self.f
+        # a function that fills a struct returns whether it did
+        self.status = f.result == "int" and (
+            returns_status(header, f) or any(a.kind == "struct_out" for a in self.args))
+        self.enum = None
+        self.boolean = f.result == "int" and "_is_" in f.name
+        if f.result == "int" and not self.status and not self.boolean:
+            for e in header.enums:
+                if e.name == "kl_status":
+                    continue
+                if re.search(r"\b%s\b" % e.name, f.doc) or \
+                        any(re.search(r"\b%s\b" % v[0], f.doc) for v in e.values):
+                    self.enum = e
+                    break
+
+    @property
+    def outputs(self):
+        return [a for a in self.args if a.kind in ("out_array", "struct_out")]
+
+    @property
+    def inputs(self):
+        return [a for a in self.args if a.is_input]
+
+    @property
+    def value_result(self):
+        """Whether the C result is handed to the caller (a status is not)."""
+        return self.f.result != "void" and not self.status
+
+    @property
+    def method(self):
+        """The method's (or package function's) name: the C name without
+        kl_ and without its handle's prefix."""
+        name = self.name[3:]
+        if self.handle and name.startswith(self.handle + "_"):
+            name = name[len(self.handle) + 1:]
+        return name
+
+    @property
+    def command(self):
+        """The Octave gateway command: the C name without kl_."""
+        return self.name[3:]
+
+    @property
+    def is_property(self):
+        """A getter of a const handle that takes nothing else (Python)."""
+        return self.handle is not None and self.handle_const and not self.inputs and \
+            (self.value_result or self.outputs)
+
+    @property
+    def vectorized(self):
+        """Octave: a double getter over ids takes a vector of them."""
+        ins = self.inputs
+        return (self.f.result == "double" and self.handle_const and ins and
+                ins[0].kind == "scalar" and ins[0].ctype == "int" and not self.outputs)
+
+
+def is_path(name):
+    """A string parameter named path or ..._dir is a file system path."""
+    return name == "path" or name.endswith("_dir")
+
+
+def returns_status(header, f, seen=()):
+    """A function returns a status when its doc names KL_OK, or when it
+    returns 'as' another function that does."""
+    if "KL_OK" in f.doc:
+        return True
+    m = re.search(r"\b[Aa]s (kl_\w+)", f.doc)
+    if m and m.group(1) not in seen:
+        other = header.function(m.group(1))
+        return other is not None and other.result == "int" and \
+            returns_status(header, other, seen + (f.name,))
+    return False
+
+
+def enum_texts(header, bs):
+    """(enum, binding) of each kl_..._str text function: the enum its one
+    parameter is named after, or that its doc names."""
+    found = []
+    for b in bs:
+        ins = b.inputs
+        if not (b.plain and b.handle is None and b.name.endswith("_str") and
+                b.f.result == "const char *" and len(ins) == 1 and ins[0].kind == "scalar"):
+            continue
+        e = ins[0].enum or next((e for e in header.enums
+                                 if re.search(r"\b%s\b" % e.name, b.f.doc)), None)
+        if e is not None:
+            found.append((e, b))
+    return found
+
+
+def bindings(header):
+    return [Binding(header, f) for f in header.functions]
+
+
+# ---------------------------------------------------------------------------
+# Python
+# ---------------------------------------------------------------------------
+
+GENERATED = "Generated by bindings/generate.py from include/kinloop.h: do not edit."
+
+
+def py_name(name):
+    """A C name as Python spells it: keywords take a trailing underscore."""
+    return name + "_" if keyword.iskeyword(name) else name
+
+
+def py_ctype(header, base, pointers, const, length=None):
+    """The ctypes expression for a C type."""
+    basics = {"int": "ctypes.c_int", "long": "ctypes.c_long", "double": "ctypes.c_double",
+              "size_t": "ctypes.c_size_t"}
+    if base in header.callbacks:
+        return base
+    if base == "char" and pointers == 1:
+        return "ctypes.c_char_p" if const else "ctypes.c_void_p"
+    if base == "void":
+        return "ctypes.c_void_p" if pointers == 1 else "None"
+    if base.startswith("kl_") and base[3:] in HANDLES:
+        target, pointers = base[3:] + "_p", pointers - 1
+    elif header.struct(base):
+        target = base
+    else:
+        target = basics[base]
+    if length is not None:
+        pointers += 1
+    for _ in range(pointers):
+        target = "ctypes.POINTER(%s)" % target
+    return target
+
+
+def py_result_ctype(header, result):
+    r = result.replace("*", " * ")
+    const = r.split()[0] == "const"
+    words = [w for w in r.split() if w not in ("const", "*")]
+    return py_ctype(header, words[0], r.count("*"), const)
+
+
+def py_docstring(text, indent):
+    text = text.replace("\\", "\\\\").replace('"""', '\\"\\"\\"')
+    lines = text.splitlines() or [""]
+    pad = " " * indent
+    body = ("\n".join(pad + l if l else "" for l in lines[1:]))
+    if len(lines) == 1:
+        return '%s"""%s"""' % (pad, lines[0])
+    return '%s"""%s\n%s\n%s"""' % (pad, lines[0], body, pad)
+
+
+def python_header(header):
+    out = ['"""The declarations of include/kinloop.h for ctypes: version, enums,',
+           'opaque handles, callback types, structs, and every prototype.', "",
+           GENERATED + '"""', "", "import ctypes", "import enum", "",
+           "#: KINLOOP_VERSION_MAJOR, _MINOR, _PATCH of the header",
+           "VERSION = %r" % (header.version,),
+           "#: KL_GROUND: the link id of ground", "GROUND = %d" % header.ground, ""]
+    for e in header.enums:
+        out += ["", "class %s(enum.IntEnum):" % e.python,
+                py_docstring("enum %s: %s" % (e.name, e.doc), 4)]
+        for const, value, doc in e.values:
+            out.append("    %s = %d%s" % (e.member(const), value,
+                                          "  # " + " ".join(doc.split()) if doc else ""))
+        out.append("")
+    for h in header.handles:
+        out += ["", "class %s(ctypes.Structure):" % h,
+                '    """Opaque: only pointers to it exist."""', "    _fields_ = []", "",
+                "", "%s_p = ctypes.POINTER(%s)" % (h[3:], h), ""]
+    for name, (result, params) in header.callbacks.items():
+        types = [py_result_ctype(header, result)]
+        for p in map(Param.parse, params):
+            types.append(py_ctype(header, p.base, p.pointers, p.const, p.length))
+        out += ["#: %s" % name, "%s = ctypes.CFUNCTYPE(%s)" % (name, ", ".join(types)), ""]
+    out += ["", "class Sized(ctypes.Structure):",
+            '    """A struct whose first field, size, is set to its sizeof when made."""',
+            "", "    def __init__(self, *args, **fields):",
+            "        super().__init__(*args, **fields)",
+            "        self.size = ctypes.sizeof(self)", ""]
+    for s in header.structs:
+        out += ["", "class %s(%s):" % (s.name, "Sized" if s.sized else "ctypes.Structure"),
+                py_docstring(s.doc, 4), "    _fields_ = ["]
+        for fl in s.fields:
+            if fl.length is not None:
+                base = "ctypes.c_char" if fl.ctype == "char" else \
+                    py_ctype(header, fl.ctype, 0, False)
+                t = "%s * %d" % (base, fl.length)
+            else:
+                t = py_ctype(header, fl.ctype, 0, False)
+            out.append("        (%r, %s),  # %s" % (fl.name, t, " ".join(fl.doc.split())[:60]))
+        out += ["    ]", ""]
+    out += ["", "#: every KL_API function: name -> (restype, argtypes), in the header's order",
+            "PROTOTYPES = {"]
+    for f in header.functions:
+        args = [py_ctype(header, p.base, p.pointers, p.const, p.length) for p in f.params]
+        out.append("    %r: (%s, [%s])," % (f.name, py_result_ctype(header, f.result),
+                                           ", ".join(args)))
+    out += ["}", ""]
+    return "\n".join(out)
+
+
+PY_CONVERT = {"int": "to_int", "long": "to_long", "size_t": "to_size", "double": "to_double"}
+
+
+def py_checked_call(b):
+    """A function applying the argument rule to every value the caller gives
+    before it reaches C; pointers the bindings made pass unchanged."""
+    f = b.f
+    names = [py_name(p.name) for p in f.params]
+    conversions = []
+    for p, n in zip(f.params, names):
+        if p.base in SCALARS and not p.pointers and p.length is None:
+            conversions.append("%s(%s, F, %r)" % (PY_CONVERT[p.base], n, p.name))
+        elif p.base == "char" and p.const and p.pointers == 1:
+            rule = "to_path" if is_path(p.name) else "to_string"
+            conversions.append("%s(%s, F, %r)" % (rule, n, p.name))
+        elif p.const and p.pointers == 1 and p.base.startswith("kl_") and \
+                p.base[3:] not in HANDLES:
+            conversions.append("struct_in(%s, H.%s, F, %r)" % (n, p.base, p.name))
+        else:
+            conversions.append(n)
+    if conversions == names:
+        return ["%s = lib.%s" % (f.name, f.name), ""]
+    return ["def %s(%s):" % (f.name, ", ".join(names)),
+            "    F = %r" % f.name,
+            "    return lib.%s(%s)" % (f.name, ", ".join(conversions)), "", ""]
+
+
+def py_method(b):
+    """The generated method (or package function) of a plain function."""
+    params, pre, call = [], [], []
+    for a in b.args:
+        if a.kind == "handle":
+            call.append("self._handle" if a.const else "self._changing")
+        elif a.kind == "point":
+            n = py_name(a.name)
+            params.append(n)
+            xs = [py_name(p.name) for p in a.params]
+            pre.append("%s = to_point(%s, %r, %r)" % (", ".join(xs), n, b.name, a.name))
+            call += xs
+        elif a.kind == "out_array":
+            ctype = "ctypes.c_%s" % a.ctype
+            pre.append("%s = (%s * %d)()" % (py_name(a.name), ctype, a.length))
+            call.append(py_name(a.name))
+        elif a.kind == "struct_out":
+            pre.append("%s = H.%s()" % (py_name(a.name), a.struct.name))
+            call.append("ctypes.byref(%s)" % py_name(a.name))
+        else:
+            n = py_name(a.name)
+            params.append(n + "=None" if a.optional else n)
+            call.append(n)
+    expr = "%s(%s)" % (b.name, ", ".join(call))
+    if b.f.result in ("int", "long"):
+        if b.handle is None or b.handle_const:
+            shown = [py_name(a.name) for a in b.inputs]
+            expr = "check_const(%s, %r%s)" % (expr, b.method, "".join(", " + s for s in shown))
+        else:
+            expr = "self._check(%s)" % expr
+        if b.enum is not None:
+            expr = "as_enum(H.%s, %s)" % (b.enum.python, expr)
+        elif b.boolean:
+            expr = "bool(%s)" % expr
+    elif b.f.result == "const char *":
+        expr = "text(%s)" % expr
+    results = []
+    if b.value_result:
+        results.append("result")
+    for a in b.outputs:
+        results.append("tuple(%s)" % py_name(a.name) if a.kind == "out_array"
+                       else "value_of(%s)" % py_name(a.name))
+    body = pre[:]
+    if not results:
+        body.append(("return Status(%s)" if b.status else "%s") % expr)
+    elif results == ["result"]:
+        body.append("return " + expr)
+    else:
+        body.append(("result = %s" if b.value_result else "%s") % expr)
+        body.append("return " + (results[0] if len(results) == 1 else
+                                 "(%s)" % ", ".join(results)))
+    lines = []
+    indent = 4 if b.handle else 0
+    pad = " " * indent
+    if b.is_property:
+        lines.append(pad + "@property")
+    lines.append(pad + "def %s(%s):" % (b.method, ", ".join(
+        (["self"] if b.handle else []) + params)))
+    lines.append(py_docstring("%s\n\n(%s)" % (b.f.doc, b.name), indent + 4))
+    lines += [pad + "    " + l for l in body]
+    lines.append("")
+    return lines
+
+
+def python_api(header):
+    bs = bindings(header)
+    out = ['"""Every function of include/kinloop.h with the argument rule applied to',
+           "what the caller gives (kinloop._args), and the methods and functions of",
+           "the plain ones, which kinloop.Model, Solver and Study inherit.", "",
+           GENERATED + '"""', "", "import ctypes", "",
+           "from . import _header as H",
+           "from ._args import (struct_in, to_double, to_int, to_long, to_path, to_point,",
+           "                    to_size, to_string)",
+           "from ._core import as_enum, check_const, text, value_of",
+           "from ._header import Status",
+           "from .raw import lib", "", "",
+           "# ---- checked calls: one per KL_API function ----", ""]
+    for b in bs:
+        out += py_checked_call(b)
+    out += ["", "# ---- plain functions without a handle ----", ""]
+    for b in bs:
+        if b.plain and b.handle is None:
+            out += py_method(b) + [""]
+    texts = enum_texts(header, bs)
+    if texts:
+        out += ["", "# ---- str() of an enum value is its kl_<enum>_str text ----", ""]
+        for e, b in texts:
+            out.append("H.%s.__str__ = lambda self: %s(self)" % (e.python, b.method))
+        out.append("")
+    for h in HANDLES:
+        members = [b for b in bs if b.plain and b.handle == h]
+        out += ["", "class %sMethods:" % camel(h),
+                '    """The plain functions of kl_%s as methods (generated): kinloop.%s'
+                % (h, camel(h)),
+                "    inherits them and supplies _handle, _changing and _check."
+                '"""', "", "    __slots__ = ()", ""]
+        for b in members:
+            out += py_method(b)
+    out += ["", "#: how each KL_API function is bound: the generated method, or None",
+            "#: where the hand-written code binds it", "GENERATED = {"]
+    for b in bs:
+        where = None
+        if b.plain:
+            where = ("%sMethods.%s" % (camel(b.handle), b.method)) if b.handle else b.method
+        out.append("    %r: %r," % (b.name, where))
+    out += ["}", ""]
+    return "\n".join(out)
+
+
+# ---------------------------------------------------------------------------
+# Octave
+# ---------------------------------------------------------------------------
+
+def first_sentence(doc):
+    text = " ".join(doc.split())
+    end = re.search(r"\.(\s|$)", text)
+    return text[:end.start() + 1] if end else text
+
+
+def cpp_string(text):
+    return '"%s"' % text.replace("\\", "\\\\").replace('"', '\\"')
+
+
+def cpp_comment(text, indent=""):
+    lines = [l.replace("*/", "* /") for l in text.splitlines()]
+    return [indent + "/* " + lines[0]] + [indent + " * " + l if l else indent + " *"
+                                          for l in lines[1:]] + [indent + " */"]
+
+
+def octave_enum_tables(header):
+    out = ["/* ---- enums: each value's name (as Octave code gives and gets it) ---- */", ""]
+    for e in header.enums:
+        out.append("const named_code %s_names[] = {" % e.name)
+        for const, _, _ in e.values:
+            out.append("    {%s, %s}," % (cpp_string(e.octave_name(const)), const))
+        out += ["    {nullptr, 0}};", ""]
+    status = header.enum("kl_status")
+    out += ["/* A status's name, as in the error identifiers kinloop:<name>. */",
+            "const char *status_name(int status) {", "  switch (status) {"]
+    for const, _, _ in status.values:
+        out.append("  case %s: return %s;" % (const, cpp_string(status.octave_name(const))))
+    out += ["  default: return \"EUNKNOWN\";", "  }", "}", ""]
+    return out
+
+
+def field_enum(header, s, fl):
+    """The enum an int field holds: named after it (status, kernel), named
+    in its doc (enum kl_output_kind), or whose values its doc names."""
+    if fl.ctype != "int" or fl.length is not None:
+        return None
+    for e in header.enums:
+        if fl.name == e.short or re.search(r"\benum %s\b" % e.name, fl.doc):
+            return e
+    for e in header.enums:
+        if any(re.search(r"\b%s\b" % v[0], fl.doc) for v in e.values):
+            return e
+    return None
+
+
+def is_flag(fl):
+    """An int field that says yes or no (has_limits)."""
+    return fl.ctype == "int" and re.match(r"(has|is)_", fl.name) is not None
+
+
+def octave_structs(header):
+    out = ["/* ---- structs: C to Octave and back, field by field ---- */", ""]
+    for s in header.structs:
+        fields = s.value_fields()
+        out.append("octave_scalar_map to_octave(const %s &s) {" % s.name)
+        out.append("  octave_scalar_map m;")
+        for fl in fields:
+            e = field_enum(header, s, fl)
+            if e is not None:
+                value = "code_name(%s_names, s.%s)" % (e.name, fl.name)
+            elif is_flag(fl):
+                value = "s.%s != 0" % fl.name
+            elif fl.length is not None:
+                value = "std::string(s.%s)" % fl.name
+            elif fl.ctype in ("long", "size_t"):
+                value = "static_cast<double>(s.%s)" % fl.name
+            else:
+                value = "s.%s" % fl.name
+            out.append("  m.assign(%s, %s);" % (cpp_string(fl.name), value))
+        out += ["  return m;", "}", ""]
+        out.append("/* Fields of element k of `v` into `s`: every field when `all` is set,")
+        out.append(" * else those given; an unknown field is refused. */")
+        out.append("void from_octave(const call &c, const octave_map &v, octave_idx_type k,")
+        out.append("                 const std::string &what, %s &s, bool all) {" % s.name)
+        out.append("  c.only_fields(v, what, {%s}, all);" %
+                   ", ".join(cpp_string(fl.name) for fl in fields))
+        for fl in fields:
+            e = field_enum(header, s, fl)
+            arg = "v.contents(%s)(k), what + \".%s\"" % (cpp_string(fl.name), fl.name)
+            if e is not None:
+                conv = "c.code(%s, %s_names)" % (arg, e.name)
+            elif fl.length is not None:
+                conv = None
+            elif fl.ctype == "double":
+                conv = "c.real(%s)" % arg
+            else:
+                conv = "c.whole<%s>(%s)" % (fl.ctype, arg)
+            if conv is None:
+                out.append("  if (v.isfield(%s))" % cpp_string(fl.name))
+                out.append("    c.text_into(%s, s.%s, sizeof s.%s);" % (arg, fl.name,
+                                                                        fl.name))
+            else:
+                out.append("  if (v.isfield(%s))" % cpp_string(fl.name))
+                out.append("    s.%s = %s;" % (fl.name, conv))
+        out += ["}", ""]
+    return out
+
+
+def octave_wrapper(header, b):
+    """The gateway command of a plain function."""
+    lines = cpp_comment("%s: %s" % (b.name, first_sentence(b.f.doc)))
+    signature = len(lines)
+    lines.append("octave_value_list gen_%s(const call &c) {" % b.command)
+    call_args, i, vector_arg = [], 0, None
+    handle_expr = None
+    for a in b.args:
+        if a.kind == "handle":
+            access = "access::read" if a.const else "access::write"
+            lines.append("  entry &h = c.%s(0, %s);" % (b.handle, access))
+            handle_expr = "h.%s" % b.handle
+            call_args.append(handle_expr)
+            i = 1
+        elif a.kind == "point":
+            xs = [p.name for p in a.params]
+            lines.append("  double %s, %s;" % tuple(xs))
+            lines.append("  c.point(c.arg(%d), %s, %s, %s);" % (i, cpp_string(a.name), *xs))
+            call_args += xs
+            i += 1
+        elif a.kind == "scalar":
+            if b.vectorized and vector_arg is None:
+                vector_arg = (i, a.name)
+                call_args.append(a.name)
+            elif a.enum is not None:
+                lines.append("  int %s = c.code(c.arg(%d), %s, %s_names);" % (
+                    a.name, i, cpp_string(a.name), a.enum.name))
+                call_args.append(a.name)
+            elif a.ctype == "double":
+                lines.append("  double %s = c.real(c.arg(%d), %s);" % (a.name, i,
+                                                                     cpp_string(a.name)))
+                call_args.append(a.name)
+            else:
+                lines.append("  %s %s = c.whole<%s>(c.arg(%d), %s);" % (
+                    a.ctype, a.name, a.ctype, i, cpp_string(a.name)))
+                call_args.append(a.name)
+            i += 1
+        elif a.kind == "string":
+            if a.optional:
+                lines.append("  std::string %s_text;" % a.name)
+                lines.append("  const char *%s = c.optional_text(%d, %s, %s_text);" % (
+                    a.name, i, cpp_string(a.name), a.name))
+            else:
+                lines.append("  std::string %s_text = c.text(c.arg(%d), %s);" % (
+                    a.name, i, cpp_string(a.name)))
+                lines.append("  const char *%s = %s_text.c_str();" % (a.name, a.name))
+            call_args.append(a.name)
+            i += 1
+        elif a.kind == "struct_in":
+            lines.append("  %s %s;" % (a.struct.name, a.name))
+            lines.append("  std::memset(&%s, 0, sizeof %s);" % (a.name, a.name))
+            lines.append("  %s.size = sizeof %s;" % (a.name, a.name))
+            lines.append("  from_octave(c, c.one_struct(%d, %s), 0, %s, %s, true);" % (
+                i, cpp_string(a.name), cpp_string(a.name), a.name))
+            call_args.append("&" + a.name)
+            i += 1
+        elif a.kind == "struct_out":
+            lines.append("  %s %s;" % (a.struct.name, a.name))
+            lines.append("  std::memset(&%s, 0, sizeof %s);" % (a.name, a.name))
+            lines.append("  %s.size = sizeof %s;" % (a.name, a.name))
+            call_args.append("&" + a.name)
+        elif a.kind == "out_array":
+            lines.append("  %s %s[%d];" % (a.ctype, a.name, a.length))
+            call_args.append(a.name)
+    call = "%s(%s)" % (b.name, ", ".join(call_args))
+    if vector_arg is not None:
+        pos, name = vector_arg
+        lines.append("  return one(c.each_id(%d, %s, [&](int %s) { return %s; }));" % (
+            pos, cpp_string(name), name, call))
+        lines += ["}", ""]
+        return lines, i
+    if b.f.result == "void":
+        lines.append("  %s;" % call)
+    else:
+        lines.append("  %s r = %s;" % (b.f.result, call))
+    if b.f.result in ("int", "long"):
+        if b.handle and not b.handle_const:
+            error = "kl_%s_error" % b.handle
+            if header.function(error):
+                lines.append("  c.check(r, %s(%s));" % (error, handle_expr))
+            else:
+                lines.append("  c.check(r);")
+        else:
+            lines.append("  c.check(r);")
+    outs = []
+    if b.value_result:
+        if b.enum is not None:
+            outs.append("code_name(%s_names, r)" % b.enum.name)
+        elif b.boolean:
+            outs.append("octave_value(r != 0)")
+        elif b.f.result == "const char *":
+            outs.append("text_value(r)")
+        elif b.f.result in ("long", "size_t"):
+            outs.append("octave_value(static_cast<double>(r))")
+        else:
+            outs.append("octave_value(r)")
+    for a in b.outputs:
+        outs.append("row(%s, %d)" % (a.name, a.length) if a.kind == "out_array"
+                    else "octave_value(to_octave(%s))" % a.name)
+    if b.f.result == "void" or b.status:
+        if b.f.result != "void" and not outs:
+            lines.append("  (void)r;")
+    if not outs:
+        lines.append("  return none();")
+    else:
+        lines.append("  octave_value_list out;")
+        for k, o in enumerate(outs):
+            lines.append("  out(%d) = %s;" % (k, o))
+        lines.append("  return out;")
+    lines += ["}", ""]
+    if not any(re.search(r"\bc\b[.,)]", l) for l in lines[signature + 1:]):
+        lines[signature] = lines[signature].replace("const call &c", "const call &")
+    return lines, i
+
+
+def octave_introspection(header):
+    """Two commands telling what the gateway knows of the header, for the
+    drift test: each enum's names and codes, each struct's fields."""
+    out = ["/* enums(): per enum, its values' names and codes as the gateway knows them. */",
+           "octave_value_list gen_enums(const call &) {", "  octave_scalar_map out;"]
+    for e in header.enums:
+        out.append("  out.assign(%s, enum_table(%s_names));" % (cpp_string(e.name), e.name))
+    out += ["  return one(out);", "}", "",
+            "/* structs(): per struct, the fields the converters read and write. */",
+            "octave_value_list gen_structs(const call &) {", "  octave_scalar_map out;"]
+    for s in header.structs:
+        fields = s.value_fields()
+        out.append("  {")
+        out.append("    Cell fields(1, %d);" % len(fields))
+        for k, fl in enumerate(fields):
+            out.append("    fields(%d) = %s;" % (k, cpp_string(fl.name)))
+        out.append("    out.assign(%s, fields);" % cpp_string(s.name))
+        out.append("  }")
+    out += ["  return one(out);", "}", ""]
+    return out
+
+
+def octave_usage(b):
+    parts = [b.handle] if b.handle else []
+    parts += ["[%s]" % a.name if a.optional else a.name for a in b.inputs]
+    return "(%s)" % ", ".join(parts)
+
+
+def octave_gateway(header):
+    bs = bindings(header)
+    out = ["/*", " * kinloop_gateway.inc - the generated part of the Octave gateway,",
+           " * included by __kinloop__.cc. " + GENERATED, " */", ""]
+    out += octave_enum_tables(header)
+    out += octave_structs(header)
+    out += ["/* ---- the plain functions: one command each ---- */", ""]
+    table = []
+    for b in bs:
+        if not b.plain:
+            continue
+        lines, count = octave_wrapper(header, b)
+        out += lines
+        optional = sum(1 for a in b.inputs if a.optional)
+        table.append("    {%s, %d, %d, %s, gen_%s}," % (
+            cpp_string(b.command), count - optional, count,
+            cpp_string(octave_usage(b)), b.command))
+    out += octave_introspection(header)
+    table += ['    {"enums", 0, 0, "()", gen_enums},', '    {"structs", 0, 0, "()", gen_structs},']
+    out += ["/* The generated commands, in the header's order. */",
+            "const command generated_commands[] = {"] + table + [
+            "    {nullptr, 0, 0, nullptr, nullptr}};", ""]
+    return "\n".join(out)
+
+
+def octave_method(b, obj=True):
+    """An Octave method (or package function) calling the gateway."""
+    ins = b.inputs
+    fixed = [a.name for a in ins if not a.optional]
+    params = (["obj"] if obj else []) + fixed + (["varargin"] if any(a.optional for a in ins)
+                                                  else [])
+    forward = (["obj.id"] if obj else []) + fixed + \
+        (["varargin{:}"] if any(a.optional for a in ins) else [])
+    outputs = (["value"] if b.value_result else []) + [a.name for a in b.outputs]
+    usage = "%s%s(%s)" % ("[%s] = " % ", ".join(outputs) if len(outputs) > 1 else
+                          "%s = " % outputs[0] if outputs else "",
+                          b.method, ", ".join(["[%s]" % a.name if a.optional else a.name
+                                               for a in ins]))
+    doc = b.f.doc.splitlines()
+    head = "function %s%s(%s)" % ("varargout = " if outputs else "", b.method,
+                                  ", ".join(params))
+    lines = [head, "  %% %s: %s" % (usage, b.name)]
+    lines += ["  %% " + l if l else "  %" for l in doc]
+    if b.vectorized:
+        lines.append("  %% (%s may be a vector of ids: one value each, same shape)" %
+                     ins[0].name)
+    call = "__kinloop__(%s)" % ", ".join([repr(b.command)] + forward)
+    if outputs:
+        lines.append("  [varargout{1:max(nargout, 1)}] = %s;" % call)
+    else:
+        lines.append("  %s;" % call)
+    lines.append("end")
+    return lines
+
+
+def octave_classes(header, out_dir):
+    bs = bindings(header)
+    package = os.path.join(out_dir, "+kinloop")
+    os.makedirs(package, exist_ok=True)
+    written = set()
+    for h in HANDLES:
+        name = "%sMethods" % camel(h)
+        lines = ["classdef %s < handle" % name,
+                 "  %% kinloop.%s - the methods of kinloop.%s for the plain functions" %
+                 (name, camel(h)),
+                 "  %% of kl_%s, one each, calling the gateway command of the same" % h,
+                 "  % name. " + GENERATED, "  methods"]
+        for b in bs:
+            if b.plain and b.handle == h:
+                lines += ["    " + l for l in octave_method(b)] + [""]
+        lines += ["  end", "end", ""]
+        write(os.path.join(package, name + ".m"), "\n".join(lines))
+        written.add(name + ".m")
+    for b in bs:
+        if b.plain and b.handle is None:
+            lines = octave_method(b, obj=False)
+            lines.insert(1, "  % " + GENERATED)
+            write(os.path.join(package, b.method + ".m"), "\n".join(lines) + "\n")
+            written.add(b.method + ".m")
+    return written
+
+
+# ---------------------------------------------------------------------------
+# The layout probe: a C program printing what the compiler made of the header
+# ---------------------------------------------------------------------------
+
+def layout_probe(header):
+    out = ["/*", " * kinloop_layout.c - prints the size and the field offsets of every",
+           " * public struct of include/kinloop.h, and the value of every enum constant,",
+           " * as this compiler lays them out: what the bindings' drift tests compare",
+           " * with. " + GENERATED, " */", "#include <stddef.h>", "#include <stdio.h>", "",
+           '#include "kinloop.h"', "",
+           "#define FIELD(s, f) \\",
+           '  printf("field %s %s %lu %lu\\n", #s, #f, (unsigned long)offsetof(s, f), \\',
+           "         (unsigned long)sizeof(((s *)0)->f))", "", "int main(void) {"]
+    for s in header.structs:
+        out.append('  printf("struct %s %%lu\\n", (unsigned long)sizeof(%s));' % (s.name, s.name))
+        for fl in s.fields:
+            out.append("  FIELD(%s, %s);" % (s.name, fl.name))
+    for e in header.enums:
+        for const, _, _ in e.values:
+            out.append('  printf("enum %s %s %%d\\n", (int)%s);' % (e.name, const, const))
+    out += ["  return 0;", "}", ""]
+    return "\n".join(out)
+
+
+# ---------------------------------------------------------------------------
+
+def write(path, text):
+    tmp = path + ".tmp"
+    with open(tmp, "w", encoding="utf-8") as f:
+        f.write(text)
+    os.replace(tmp, path)
+
+
+def main(argv):
+    if len(argv) < 3 or argv[1] not in ("python", "octave", "layout", "list") or \
+            (argv[1] != "list" and len(argv) != 4):
+        sys.exit(__doc__)
+    with open(argv[2], encoding="utf-8") as f:
+        header = Header(f.read())
+    if argv[1] == "list":
+        for b in bindings(header):
+            print("%-34s %s" % (b.name, ("plain -> %s.%s" % (camel(b.handle), b.method)
+                                         if b.handle else "plain -> %s" % b.method)
+                                if b.plain else "hand: " + b.why))
+        return
+    if argv[1] == "layout":
+        write(argv[3], layout_probe(header))
+        return
+    out_dir = argv[3]
+    os.makedirs(out_dir, exist_ok=True)
+    if argv[1] == "python":
+        write(os.path.join(out_dir, "_header.py"), python_header(header))
+        write(os.path.join(out_dir, "_api.py"), python_api(header))
+    else:
+        write(os.path.join(out_dir, "kinloop_gateway.inc"), octave_gateway(header))
+        octave_classes(header, out_dir)
+
+
+if __name__ == "__main__":
+    main(sys.argv)
