@@ -29,7 +29,7 @@ def test_sweep_arrays_match_closed_forms():
     assert r.input == pytest.approx(np.linspace(0, 2 * math.pi, steps + 1), abs=1e-15)
     n = steps + 1
     assert r.link_angle.shape == r.link_accel.shape == (n, 4)  # ground included
-    assert r.slide.shape == (n, 4) and np.isnan(r.slide).all()  # all revolute
+    assert r.joint_slide.shape == (n, 4) and np.isnan(r.joint_slide).all()  # all revolute
     assert r.point_x.shape == r.point_ay.shape == (n, 1)
     assert (r.link_angle[:, kl.GROUND] == 0).all()
     assert (r.link_rate[:, f.crank] == 1).all()  # unit rate of the swept input
@@ -75,16 +75,16 @@ def test_sweep_of_a_slider_records_its_slide():
     joints = sc.model.joint_count
     for j in range(joints):
         sliding = sc.model.joint_kind(j) != kl.JointKind.REVOLUTE
-        assert np.isnan(r.slide[:, j]).all() != sliding
+        assert np.isnan(r.joint_slide[:, j]).all() != sliding
     for k, t in enumerate(r.input):
         # offset slider-crank closed form; its slide rate by a central
         # difference (h = 1e-6: truncation ~1e-10, rounding ~1e-8), to 1e-6
         x, _ = slider_crank_closed_form(sc, t)
-        assert r.slide[k, sc.slide] == pytest.approx(x, abs=1e-8)
+        assert r.joint_slide[k, sc.slide] == pytest.approx(x, abs=1e-8)
         h = 1e-6
         dx = (slider_crank_closed_form(sc, t + h)[0] -
               slider_crank_closed_form(sc, t - h)[0]) / (2 * h)
-        assert r.slide_rate[k, sc.slide] == pytest.approx(dx, abs=1e-6)
+        assert r.joint_slide_rate[k, sc.slide] == pytest.approx(dx, abs=1e-6)
 
 
 def non_grashof_fourbar():
@@ -94,7 +94,7 @@ def non_grashof_fourbar():
 
 def test_non_grashof_sweep_stops_at_the_law_of_cosines_limit():
     f = non_grashof_fourbar()
-    assert f.model.grashof() == kl.GrashofClass.TRIPLE_ROCKER
+    assert f.model.grashof == kl.GrashofClass.TRIPLE_ROCKER
     # the crank reaches at most acos((a^2 + d^2 - (b + c)^2) / (2 a d)), where
     # coupler and rocker lie in line (law of cosines)
     limit = math.acos((f.a ** 2 + f.d ** 2 - (f.b + f.c) ** 2) / (2 * f.a * f.d))
@@ -124,7 +124,7 @@ def test_change_point_raises_with_the_steps_delivered():
     # a parallelogram four-bar (a = c, b = d) folds into a line at crank
     # angle pi: Grashof's change point (s + l = p + q)
     f = build_fourbar(40, 100, 40, 100)
-    assert f.model.grashof() == kl.GrashofClass.CHANGE_POINT
+    assert f.model.grashof == kl.GrashofClass.CHANGE_POINT
     s = kl.Solver(f.model)
     s.set_link_angle(f.coupler, 0.05)
     s.set_link_angle(f.rocker, 0.6)
