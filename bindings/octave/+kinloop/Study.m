@@ -1,4 +1,4 @@
-classdef Study < kinloop.Readable
+classdef Study < kinloop.StudyMethods
   % kinloop.Study - a design study: a nominal model, the dimensions that
   % vary (tolerances drawn at random, or a grid), the outputs judged and
   % their limits; read from a study file, immutable once read.
@@ -34,7 +34,7 @@ classdef Study < kinloop.Readable
       if nargin == 2 && ischar(how) && strcmp(how, 'adopt')
         obj.id = id;   % a study the gateway already holds
       else
-        error('kinloop:bad_argument', ...
+        error('kinloop:EINVAL', ...
               'kinloop.Study: use kinloop.Study.read(text [, base_dir]) or read_file(path)');
       end
     end
@@ -47,30 +47,22 @@ classdef Study < kinloop.Readable
       end
     end
 
-    function n = sample_count(obj)
-      % The samples of a tolerance study, or every grid point of a grid study.
-      n = __kinloop__('study_sample_count', obj.id);
-    end
-
     function names = outputs(obj)
       % The outputs' names, a cell row in column order.
-      n = __kinloop__('study_output_count', obj.id);
-      names = arrayfun(@(k) __kinloop__('study_output_name', obj.id, k), 0:n - 1, ...
-                       'UniformOutput', false);
+      names = arrayfun(@(k) obj.output_name(k), 0:obj.output_count() - 1, 'UniformOutput', false);
     end
 
     function names = dimensions(obj)
       % Short texts naming the dimensions that vary ('rocker_pin b x'), a
       % cell row in column order.
-      n = __kinloop__('study_dimension_count', obj.id);
-      names = arrayfun(@(k) __kinloop__('study_dimension_name', obj.id, k), 0:n - 1, ...
+      names = arrayfun(@(k) obj.dimension_name(k), 0:obj.dimension_count() - 1, ...
                        'UniformOutput', false);
     end
 
     function m = model(obj)
       % The nominal model as a borrowed kinloop.Model: solvers can be made
       % from it; it keeps the study alive and cannot change or be freed.
-      m = kinloop.Model('borrow', __kinloop__('study_model', obj.id), obj);
+      m = kinloop.Model('adopt', __kinloop__('study_model', obj.id), obj);
     end
 
     function [values, status, dims] = run(obj, first, count, threads)
@@ -96,10 +88,7 @@ classdef Study < kinloop.Readable
     function s = summarize(obj, output, values, status)
       % summarize(output, values, status): output by name or by index (from
       % 0) over the rows of values and status as run gives them, read as
-      % samples 0 .. n - 1. A struct: samples, assembled, within_limits,
-      % limited, nominal, mean, std (n - 1), p01, p05, p50, p95, p99 (linear
-      % interpolation), min, max, worst, worst_sample (from 0; -1 if none),
-      % first_order_std, has_limits, lower, upper.
+      % samples 0 .. n - 1: a struct of the fields of kl_study_summary.
       if ischar(output)
         k = find(strcmp(obj.outputs(), output)) - 1;
         if isempty(k)
@@ -117,18 +106,16 @@ classdef Study < kinloop.Readable
     function [st, err] = read(text, base_dir)
       % st = kinloop.Study.read(text [, base_dir]): raises kinloop:ESYNTAX
       % etc. with 'line L, column C: ...'; with two outputs it does not
-      % raise: st is [] and err says why (status, status_name, line,
-      % column, message).
+      % raise: st is [] and err says why (status, line, column, message).
       if nargin < 2
-        [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read', text);
-      else
-        [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read', text, base_dir);
+        base_dir = [];
       end
+      [st, err] = kinloop.Model.adopt_read(nargout, @kinloop.Study, 'study_read', text, base_dir);
     end
 
     function [st, err] = read_file(path)
       % As read, from the file at path (kinloop:EIO when it cannot be read).
-      [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read_file', path);
+      [st, err] = kinloop.Model.adopt_read(nargout, @kinloop.Study, 'study_read_file', path);
     end
   end
 end

@@ -40,11 +40,11 @@ assert(std(dims(:, 1)) >= 0.7 * sigma && std(dims(:, 1)) <= 1.3 * sigma);
 
 % the nominal stroke ('swing slide rail' over the model's sweep, motor 0 to
 % 360 degrees in 72 steps) is the swing a Solver of the borrowed model finds
-w = m.sweep_settings();
+w = m.sweep();
 s = kinloop.Solver(m);
 s.solve_position(w.from);
 r = s.output_range(w.input, w.from, w.to, w.steps, ...
-                   struct('kind', 'slide', 'id', m.joint_find('rail')));
+                   struct('kind', 'slide', 'id', m.find_joint('rail')));
 stroke = st.summarize('stroke', values, status);
 assert(abs((r.max - r.min) - stroke.nominal) <= 1e-9, '%.17g vs %.17g', ...
        r.max - r.min, stroke.nominal);
@@ -66,7 +66,7 @@ assert(isequal(size(vt), [10 4]) && numel(st_tail) == 10);
 err = expect_error(@() st.run(0, 2001), 'kinloop:EINVAL');
 assert(~isempty(strfind(err.message, 'samples 0 .. 1999')), 'message: %s', err.message);
 expect_error(@() st.run(-1, 5), 'kinloop:EINVAL');
-expect_error(@() st.run(0, 1.5), 'kinloop:bad_argument');
+expect_error(@() st.run(0, 1.5), 'kinloop:EINVAL');
 [none, no_status] = st.run(2000);
 assert(isequal(size(none), [0 4]) && isempty(no_status));
 
@@ -123,8 +123,8 @@ sm = st.summarize('mu_min', blanked(1, :), marked(1));
 assert(sm.assembled == 0 && sm.worst_sample == -1 && isnan(sm.mean));
 expect_error(@() st.summarize('strok', values, status), 'kinloop:EID');
 expect_error(@() st.summarize(4, values, status), 'kinloop:EID');
-expect_error(@() st.summarize(0, values(:, 1:3), status), 'kinloop:bad_argument');
-expect_error(@() st.summarize(0, values, status(1:99)), 'kinloop:bad_argument');
+expect_error(@() st.summarize(0, values(:, 1:3), status), 'kinloop:EINVAL');
+expect_error(@() st.summarize(0, values, status(1:99)), 'kinloop:EINVAL');
 
 % samples stopped at a limit (geometry chosen for this test: the demo's
 % crank lengthened until the linkage no longer turns through the sweep);
@@ -169,7 +169,7 @@ where = sprintf('line 4, column %d: ', column);
 assert(strncmp(err.message, where, numel(where)), 'message: %s', err.message);
 assert(~isempty(strfind(err.message, '''z''')));
 [none, why] = kinloop.Study.read(bad, models);
-assert(isempty(none) && strcmp(why.status_name, 'ESYNTAX') && why.line == 4 && why.column == column);
+assert(isempty(none) && strcmp(why.status, 'ESYNTAX') && why.line == 4 && why.column == column);
 % without base_dir the model is looked for in the working directory; the
 % error names the study's line and column of the path
 previous = pwd();
@@ -179,13 +179,13 @@ unwind_protect
 unwind_protect_cleanup
   cd(previous);
 end_unwind_protect
-assert(isempty(none) && strcmp(why.status_name, 'EIO') && why.line == 2 && why.column == 7);
+assert(isempty(none) && strcmp(why.status, 'EIO') && why.line == 2 && why.column == 7);
 % found once every statement is read: no line
 [none, why] = kinloop.Study.read(sprintf('kinloop-study 1\nmodel flap-tucker.kinloop\nsamples 3\n'), models);
 assert(isempty(none) && why.line == 0 && ~isempty(strfind(why.message, 'output')));
 err = expect_error(@() kinloop.Study.read_file(fullfile(tempdir(), 'no-such.study')), 'kinloop:EIO');
 assert(~isempty(strfind(err.message, 'no-such.study')));
-expect_error(@() kinloop.Study(), 'kinloop:bad_argument');
+expect_error(@() kinloop.Study(), 'kinloop:EINVAL');
 
 % ---- handles: the borrowed model can neither change nor be freed ----
 model_id = m.id;
