@@ -10,13 +10,15 @@ from include/kinloop.h, at build time (standard library only).
     generate.py list HEADER             prints how each function is bound
 
 The header is the one source: its KL_API prototypes, enums, structs, handle
-and callback typedefs, version macros and doc comments. A function is
-"plain", and gets a generated method, when its parameters are a handle
-(first only), scalars (int, long, size_t, double), strings (const char *),
-fixed arrays it fills (double xy[2]), and sized structs (first field
-size_t size) read or filled whole; its result a scalar, a string or void.
-Everything else (caller arrays, callbacks, new handles, buffers with sizes)
-is left to the hand-written part of each binding. DEVELOPERS.md says more.
+and callback typedefs, version macros and doc comments, with one table here
+(POINTERS) for the pointer parameters whose meaning its C types cannot
+carry. A function is "plain", and gets a generated method, when its
+parameters are a handle (first only), scalars (int, long, size_t, double),
+strings (const char *), fixed arrays it fills (double xy[2]), sized structs
+(first field size_t size) read or filled whole, and pointers POINTERS
+explains; its result a scalar, a string or void. Everything else (callbacks,
+new handles, buffers with sizes, arrays of arrays) is left to the
+hand-written part of each binding. DEVELOPERS.md says more.
 """
 
 import keyword
@@ -193,37 +195,102 @@ class Function:
 
 
 # ---------------------------------------------------------------------------
+# Pointers the C type cannot explain
+# ---------------------------------------------------------------------------
+
+# What the pointer parameters of these functions are, where the C type
+# alone cannot say (a double * may be one value or an array): "out", one
+# value the function fills; "one", one struct it reads; the name of the int
+# parameter that counts an array; "inputs", one value per input of the
+# model. The header documents the same in words. Handles, fixed arrays
+# (double xy[2]) and sized structs need no entry; a function with any
+# other pointer is bound by hand. generate.py stops if an entry names a
+# function or parameter the header does not declare.
+POINTERS = {
+    "kl_add_loop": {"joints": "njoints"},
+    "kl_model_units": {"length_unit": "out", "angle_unit": "out"},
+    "kl_solve_position": {"inputs": "inputs"},
+    "kl_solve_velocity": {"input_rates": "inputs"},
+    "kl_solve_acceleration": {"input_accels": "inputs"},
+    "kl_output_value": {"o": "one", "value": "out"},
+    "kl_output_deriv": {"o": "one", "deriv": "out"},
+    "kl_output_range": {"o": "one"},
+    "kl_range_time_ratio": {"ratio": "out"},
+    "kl_output_mechanical_advantage": {"o": "one", "ma": "out"},
+    "kl_input_effort": {"loads": "nloads", "efforts": "inputs"},
+    "kl_output_sensitivity": {"o": "one", "dim": "one", "deriv": "out"},
+    "kl_output_tolerance_stack": {"o": "one", "dims": "n", "tolerances": "n",
+                                  "worst": "out", "rss": "out"},
+}
+
+
+def check_pointers(header):
+    for name, roles in POINTERS.items():
+        f = header.function(name)
+        if f is None:
+            sys.exit("generate.py: POINTERS names %s, which include/kinloop.h does not "
+                     "declare" % name)
+        params = {p.name: p for p in f.params}
+        for param, role in roles.items():
+            if param not in params or not params[param].pointers:
+                sys.exit("generate.py: POINTERS names %s's pointer parameter %r, which "
+                         "include/kinloop.h does not declare" % (name, param))
+            if role not in ("out", "one", "inputs") and \
+                    (role not in params or params[role].base != "int" or params[role].pointers):
+                sys.exit("generate.py: POINTERS counts %s's %r by %r, which is not an int "
+                         "parameter of it" % (name, param, role))
+
+
+# ---------------------------------------------------------------------------
 # Classifying: what each parameter is to a binding, and which functions are
 # plain
 # ---------------------------------------------------------------------------
 
 class Arg:
-    """A parameter as the bindings see it. kind is one of handle, scalar,
-    string, point (two doubles named <p>x, <p>y), out_array, struct_in,
-    struct_out."""
+    """A parameter as the bindings see it. kind is one of
+      handle       the model, solver or study (first parameter)
+      handle_in    another handle the function reads (a solver to copy from)
+      scalar       int, long, size_t, double (an enum where an int is named
+                   after one: length_unit)
+      point        two doubles named <p>x, <p>y, given as one pair
+      string       const char *
+      count        an int that counts an array: the array's length
+      array_in     const T * of `count` elements (ints, doubles or structs)
+      inputs_in    const double *, one per input of the model
+      struct_in    one struct read (a sized one, or "one" in POINTERS)
+      out_value    one int or double the function fills
+      out_array    a fixed array the function fills (double xy[2])
+      inputs_out   double *, one per input, filled
+      struct_out   one sized struct filled"""
 
     def __init__(self, kind, name, params, ctype=None, length=None, enum=None,
-                 struct=None, const=False, optional=False):
+                 struct=None, const=False, optional=False, count=None):
         self.kind, self.name, self.params = kind, name, params
         self.ctype, self.length, self.enum, self.struct = ctype, length, enum, struct
-        self.const, self.optional = const, optional
+        self.const, self.optional, self.count = const, optional, count
 
     @property
     def is_input(self):
-        return self.kind not in ("out_array", "struct_out", "handle")
+        return self.kind in ("scalar", "point", "string", "array_in", "inputs_in",
+                             "struct_in", "handle_in")
+
+    @property
+    def is_output(self):
+        return self.kind in ("out_value", "out_array", "inputs_out", "struct_out")
 
 
 class Binding:
     """How one function is bound: plain (generated) or not, and if plain,
-    its handle, its arguments, and what its result means."""
+    its handle (or value struct), its arguments, and what its result means."""
 
     def __init__(self, header, f):
         self.f = f
         self.name = f.name
         self.plain, self.why = True, ""
         self.args = []
-        self.handle = None
+        self.handle = None       # model, solver or study
         self.handle_const = False
+        self.owner = None        # the value struct a kl_<struct>_<verb> belongs to
         self._classify(header)
         if self.plain:
             self._result(header)
@@ -234,6 +301,7 @@ class Binding:
 
     def _classify(self, header):
         f = self.f
+        roles = POINTERS.get(f.name, {})
         if f.name.endswith("_free"):
             self.refuse("frees a handle")
         if f.result not in ("void", "int", "long", "size_t", "double", "const char *"):
@@ -242,15 +310,22 @@ class Binding:
         if any(p.base == "size_t" and not p.pointers for p in params) and \
                 any(p.pointers and p.base[3:] not in HANDLES for p in params):
             self.refuse("a size_t sizes the memory of a pointer argument")
+        counts = {role for role in roles.values() if role not in ("out", "one", "inputs")}
         k = 0
         while k < len(params):
             p = params[k]
             nxt = params[k + 1] if k + 1 < len(params) else None
-            handle = p.base.startswith("kl_") and p.base[3:] in HANDLES
             struct = header.struct(p.base)
-            if handle and p.pointers == 1 and k == 0:
+            role = roles.get(p.name)
+            if p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
+                    and k == 0:
                 self.handle, self.handle_const = p.base[3:], p.const
                 self.args.append(Arg("handle", p.name, [p], const=p.const))
+            elif p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
+                    and p.const:
+                self.args.append(Arg("handle_in", p.name, [p], ctype=p.base[3:]))
+            elif p.name in counts and p.base == "int" and not p.pointers:
+                self.args.append(Arg("count", p.name, [p]))
             elif p.base == "double" and not p.pointers and p.length is None and \
                     p.name.endswith("x") and nxt is not None and nxt.base == "double" and \
                     not nxt.pointers and nxt.length is None and \
@@ -268,25 +343,40 @@ class Binding:
                     not p.pointers:
                 self.args.append(Arg("out_array", p.name, [p], ctype=p.base,
                                      length=p.length))
-            elif struct is not None and struct.sized and p.pointers == 1 and \
-                    not struct.reports_error:
+            elif role == "out" and p.base in ("int", "double") and not p.const and \
+                    p.pointers == 1:
+                self.args.append(Arg("out_value", p.name, [p], ctype=p.base,
+                                     enum=header.enum("kl_" + p.name)
+                                     if p.base == "int" else None))
+            elif role == "inputs" and p.base == "double" and p.pointers == 1:
+                self.args.append(Arg("inputs_in" if p.const else "inputs_out", p.name, [p]))
+            elif role in counts and p.const and p.pointers == 1 and \
+                    (p.base in ("int", "double") or struct is not None):
+                self.args.append(Arg("array_in", p.name, [p], ctype=p.base, struct=struct,
+                                     count=role))
+            elif struct is not None and p.pointers == 1 and not struct.reports_error and \
+                    (struct.sized or (role == "one" and p.const)):
+                if k == 0 and p.const:
+                    self.owner = struct
                 self.args.append(Arg("struct_in" if p.const else "struct_out", p.name,
                                      [p], struct=struct))
             else:
-                self.refuse("parameter %r is not a scalar, string, fixed array or "
-                            "sized struct" % p.decl)
+                self.refuse("parameter %r is not a scalar, string, fixed array or sized "
+                            "struct, and POINTERS does not say what it is" % p.decl)
                 self.args.append(Arg("other", p.name, [p]))
             k += 1
         # a builder's trailing name may be left out (NULL: an unnamed item)
         if f.name.startswith("kl_add_") and self.args and \
                 self.args[-1].kind == "string" and self.args[-1].name == "name":
             self.args[-1].optional = True
+        if self.handle is None and any(a.kind.startswith("inputs_") for a in self.args):
+            self.refuse("an inputs array needs a solver to count the inputs")
 
     def _result(self, header):
         f = self.f
-        # a function that fills a struct returns whether it did
-        self.status = f.result == "int" and (
-            returns_status(header, f) or any(a.kind == "struct_out" for a in self.args))
+        # a function that fills a value or a struct returns whether it did
+        self.status = f.result == "int" and (returns_status(header, f) or any(
+            a.kind in ("struct_out", "out_value", "inputs_out") for a in self.args))
         self.enum = None
         self.boolean = f.result == "int" and "_is_" in f.name
         if f.result == "int" and not self.status and not self.boolean:
@@ -300,11 +390,14 @@ class Binding:
 
     @property
     def outputs(self):
-        return [a for a in self.args if a.kind in ("out_array", "struct_out")]
+        return [a for a in self.args if a.is_output]
 
     @property
     def inputs(self):
-        return [a for a in self.args if a.is_input]
+        """What the caller gives: the arguments after the handle or the
+        value struct the function belongs to."""
+        ins = [a for a in self.args if a.is_input]
+        return ins[1:] if self.owner is not None else ins
 
     @property
     def value_result(self):
@@ -314,10 +407,11 @@ class Binding:
     @property
     def method(self):
         """The method's (or package function's) name: the C name without
-        kl_ and without its handle's prefix."""
+        kl_ and without the prefix of its handle or value struct."""
         name = self.name[3:]
-        if self.handle and name.startswith(self.handle + "_"):
-            name = name[len(self.handle) + 1:]
+        prefix = self.handle or (self.owner.name[3:] if self.owner else None)
+        if prefix and name.startswith(prefix + "_"):
+            name = name[len(prefix) + 1:]
         return name
 
     @property
@@ -371,6 +465,25 @@ def enum_texts(header, bs):
         if e is not None:
             found.append((e, b))
     return found
+
+
+def field_enum(header, fl):
+    """The enum an int field holds: named after it (status, kernel), named
+    in its doc (enum kl_output_kind), or whose values its doc names."""
+    if fl.ctype != "int" or fl.length is not None:
+        return None
+    for e in header.enums:
+        if fl.name == e.short or re.search(r"\benum %s\b" % e.name, fl.doc):
+            return e
+    for e in header.enums:
+        if any(re.search(r"\b%s\b" % v[0], fl.doc) for v in e.values):
+            return e
+    return None
+
+
+def is_flag(fl):
+    """An int field that says yes or no (has_limits)."""
+    return fl.ctype == "int" and re.match(r"(has|is)_", fl.name) is not None
 
 
 def bindings(header):
@@ -469,6 +582,8 @@ def python_header(header):
                 t = py_ctype(header, fl.ctype, 0, False)
             out.append("        (%r, %s),  # %s" % (fl.name, t, " ".join(fl.doc.split())[:60]))
         out += ["    ]", ""]
+    out += ["", "#: what the kinloop package exports from here",
+            "__all__ = %r" % (["GROUND"] + [e.python for e in header.enums],)]
     out += ["", "#: every KL_API function: name -> (restype, argtypes), in the header's order",
             "PROTOTYPES = {"]
     for f in header.functions:
@@ -480,6 +595,7 @@ def python_header(header):
 
 
 PY_CONVERT = {"int": "to_int", "long": "to_long", "size_t": "to_size", "double": "to_double"}
+PY_CTYPES = {"int": "ctypes.c_int", "double": "ctypes.c_double"}
 
 
 def py_checked_call(b):
@@ -508,32 +624,63 @@ def py_checked_call(b):
 
 def py_method(b):
     """The generated method (or package function) of a plain function."""
-    params, pre, call = [], [], []
+    params, pre, call, results = [], [], [], []
+    counts = {}
+    f = b.name
     for a in b.args:
+        n = py_name(a.name)
         if a.kind == "handle":
             call.append("self._handle" if a.const else "self._changing")
+        elif a.kind == "struct_in" and b.owner is not None and not call:
+            call.append("self")
+        elif a.kind == "handle_in":
+            params.append(n)
+            call.append("%s._handle" % n)
         elif a.kind == "point":
-            n = py_name(a.name)
             params.append(n)
             xs = [py_name(p.name) for p in a.params]
-            pre.append("%s = to_point(%s, %r, %r)" % (", ".join(xs), n, b.name, a.name))
+            pre.append("%s = to_point(%s, %r, %r)" % (", ".join(xs), n, f, a.name))
             call += xs
+        elif a.kind == "count":
+            call.append(n)
+        elif a.kind == "array_in":
+            params.append(n)
+            ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
+            pre.append("%s, %s_n = array_of(%s, %s, %r, %r)" % (n, n, n, ctype, f, a.name))
+            counts.setdefault(a.count, []).append(a.name)
+            call.append(n)
+        elif a.kind == "inputs_in":
+            params.append(n + "=None")
+            pre.append("%s = self._inputs(%s, %r, %r)" % (n, n, f, a.name))
+            call.append(n)
+        elif a.kind == "inputs_out":
+            pre.append("%s = (ctypes.c_double * max(self._input_count, 1))()" % n)
+            call.append(n)
+            results.append("np.array(%s[:self._input_count])" % n)
+        elif a.kind == "out_value":
+            pre.append("%s = %s()" % (n, PY_CTYPES[a.ctype]))
+            call.append("ctypes.byref(%s)" % n)
+            results.append("as_enum(H.%s, %s.value)" % (a.enum.python, n) if a.enum
+                           else "%s.value" % n)
         elif a.kind == "out_array":
-            ctype = "ctypes.c_%s" % a.ctype
-            pre.append("%s = (%s * %d)()" % (py_name(a.name), ctype, a.length))
-            call.append(py_name(a.name))
+            pre.append("%s = (%s * %d)()" % (n, PY_CTYPES[a.ctype], a.length))
+            call.append(n)
+            results.append("tuple(%s)" % n)
         elif a.kind == "struct_out":
-            pre.append("%s = H.%s()" % (py_name(a.name), a.struct.name))
-            call.append("ctypes.byref(%s)" % py_name(a.name))
+            pre.append("%s = H.%s()" % (n, a.struct.name))
+            call.append("ctypes.byref(%s)" % n)
+            results.append("value_of(%s)" % n)
         else:
-            n = py_name(a.name)
             params.append(n + "=None" if a.optional else n)
             call.append(n)
-    expr = "%s(%s)" % (b.name, ", ".join(call))
+    for count, arrays in counts.items():
+        pre.append("%s = same_count(%r, %r, %s)" % (
+            py_name(count), f, count, ", ".join("(%r, %s_n)" % (a, py_name(a)) for a in arrays)))
+    expr = "%s(%s)" % (f, ", ".join(call))
     if b.f.result in ("int", "long"):
         if b.handle is None or b.handle_const:
-            shown = [py_name(a.name) for a in b.inputs]
-            expr = "check_const(%s, %r%s)" % (expr, b.method, "".join(", " + s for s in shown))
+            shown = "".join(", " + py_name(a.name) for a in b.inputs)
+            expr = "check_const(%s, %r%s)" % (expr, b.method, shown)
         else:
             expr = "self._check(%s)" % expr
         if b.enum is not None:
@@ -542,12 +689,8 @@ def py_method(b):
             expr = "bool(%s)" % expr
     elif b.f.result == "const char *":
         expr = "text(%s)" % expr
-    results = []
     if b.value_result:
-        results.append("result")
-    for a in b.outputs:
-        results.append("tuple(%s)" % py_name(a.name) if a.kind == "out_array"
-                       else "value_of(%s)" % py_name(a.name))
+        results.insert(0, "result")
     body = pre[:]
     if not results:
         body.append(("return Status(%s)" if b.status else "%s") % expr)
@@ -557,37 +700,81 @@ def py_method(b):
         body.append(("result = %s" if b.value_result else "%s") % expr)
         body.append("return " + (results[0] if len(results) == 1 else
                                  "(%s)" % ", ".join(results)))
-    lines = []
-    indent = 4 if b.handle else 0
-    pad = " " * indent
-    if b.is_property:
-        lines.append(pad + "@property")
-    lines.append(pad + "def %s(%s):" % (b.method, ", ".join(
-        (["self"] if b.handle else []) + params)))
-    lines.append(py_docstring("%s\n\n(%s)" % (b.f.doc, b.name), indent + 4))
+    method = b.handle is not None or b.owner is not None
+    pad = " " * (4 if method else 0)
+    lines = [pad + "@property"] if b.is_property else []
+    lines.append(pad + "def %s(%s):" % (b.method, ", ".join((["self"] if method else []) +
+                                                             params)))
+    lines.append(py_docstring("%s\n\n(%s)" % (b.f.doc, b.name), len(pad) + 4))
     lines += [pad + "    " + l for l in body]
     lines.append("")
     return lines
 
 
+def py_default(header, s, fl, defaults):
+    """A field's default: from the struct's kl_<struct>_default function
+    when it has one, else zero as C's initializers give it."""
+    e = field_enum(header, fl)
+    if defaults:
+        value = "%s.%s" % (defaults, fl.name)
+        return "as_enum(H.%s, %s)" % (e.python, value) if e else value
+    if e is not None:
+        zero = next((v for v in e.values if v[1] == 0), None)
+        return "H.%s.%s" % (e.python, e.member(zero[0])) if zero else "0"
+    if fl.length is not None:
+        return '""'
+    return {"double": "0.0"}.get(fl.ctype, "False" if is_flag(fl) else "0")
+
+
+def py_value_type(header, s, bs):
+    """The frozen dataclass a struct reads as, with the methods of its
+    kl_<struct>_<verb> functions; registered for kinloop._core.value_of."""
+    name = camel(s.name[3:])
+    default_fn = header.function("kl_%s_default" % s.name[3:])
+    defaults = None
+    out = []
+    if default_fn is not None and [p.base for p in default_fn.params] == [s.name]:
+        defaults = "_%s_DEFAULTS" % s.name[3:].upper()
+        out += ["%s = H.%s()" % (defaults, s.name),
+                "lib.%s(ctypes.byref(%s))" % (default_fn.name, defaults), "", ""]
+    out += ["@dataclasses.dataclass(frozen=True)", "class %s:" % name,
+            py_docstring("%s\n\n(%s)" % (s.doc, s.name), 4)]
+    for fl in s.value_fields():
+        e = field_enum(header, fl)
+        kind = ("H." + e.python) if e else "str" if fl.length is not None else \
+            "bool" if is_flag(fl) else {"double": "float"}.get(fl.ctype, "int")
+        out.append("    %s: %s = %s" % (py_name(fl.name), kind,
+                                        py_default(header, s, fl, defaults)))
+    out.append("")
+    for b in bs:
+        if b.plain and b.owner is s:
+            out += py_method(b)
+    out += ["", "VALUE_TYPES[H.%s] = %s" % (s.name, name), "", ""]
+    return out
+
+
 def python_api(header):
     bs = bindings(header)
     out = ['"""Every function of include/kinloop.h with the argument rule applied to',
-           "what the caller gives (kinloop._args), and the methods and functions of",
-           "the plain ones, which kinloop.Model, Solver and Study inherit.", "",
-           GENERATED + '"""', "", "import ctypes", "",
+           "what the caller gives (kinloop._args), the structs as value types, and",
+           "the methods and functions of the plain functions, which kinloop.Model,",
+           "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
+           "import dataclasses", "", "import numpy as np", "",
            "from . import _header as H",
-           "from ._args import (struct_in, to_double, to_int, to_long, to_path, to_point,",
-           "                    to_size, to_string)",
-           "from ._core import as_enum, check_const, text, value_of",
+           "from ._args import (array_of, same_count, struct_in, to_double, to_int, to_long,",
+           "                    to_path, to_point, to_size, to_string)",
+           "from ._core import VALUE_TYPES, as_enum, check_const, text, value_of",
            "from ._header import Status",
            "from .raw import lib", "", "",
            "# ---- checked calls: one per KL_API function ----", ""]
     for b in bs:
         out += py_checked_call(b)
-    out += ["", "# ---- plain functions without a handle ----", ""]
+    out += ["", "# ---- the structs as values ----", ""]
+    for s in header.structs:
+        out += py_value_type(header, s, bs)
+    out += ["# ---- plain functions without a handle ----", ""]
     for b in bs:
-        if b.plain and b.handle is None:
+        if b.plain and b.handle is None and b.owner is None:
             out += py_method(b) + [""]
     texts = enum_texts(header, bs)
     if texts:
@@ -596,20 +783,26 @@ def python_api(header):
             out.append("H.%s.__str__ = lambda self: %s(self)" % (e.python, b.method))
         out.append("")
     for h in HANDLES:
-        members = [b for b in bs if b.plain and b.handle == h]
         out += ["", "class %sMethods:" % camel(h),
                 '    """The plain functions of kl_%s as methods (generated): kinloop.%s'
                 % (h, camel(h)),
-                "    inherits them and supplies _handle, _changing and _check."
-                '"""', "", "    __slots__ = ()", ""]
-        for b in members:
-            out += py_method(b)
+                "    inherits them and supplies _handle, _changing and _check (and a",
+                '    solver _inputs and _input_count)."""', "", "    __slots__ = ()", ""]
+        for b in bs:
+            if b.plain and b.handle == h:
+                out += py_method(b)
+    exported = [camel(s.name[3:]) for s in header.structs] + \
+        [b.method for b in bs if b.plain and b.handle is None and b.owner is None]
+    out += ["", "#: what the kinloop package exports from here: value types, functions",
+            "__all__ = %r" % (exported,)]
     out += ["", "#: how each KL_API function is bound: the generated method, or None",
             "#: where the hand-written code binds it", "GENERATED = {"]
     for b in bs:
         where = None
         if b.plain:
-            where = ("%sMethods.%s" % (camel(b.handle), b.method)) if b.handle else b.method
+            owner = ("%sMethods." % camel(b.handle) if b.handle else
+                     "%s." % camel(b.owner.name[3:]) if b.owner else "")
+            where = owner + b.method
         out.append("    %r: %r," % (b.name, where))
     out += ["}", ""]
     return "\n".join(out)
@@ -651,25 +844,6 @@ def octave_enum_tables(header):
     return out
 
 
-def field_enum(header, s, fl):
-    """The enum an int field holds: named after it (status, kernel), named
-    in its doc (enum kl_output_kind), or whose values its doc names."""
-    if fl.ctype != "int" or fl.length is not None:
-        return None
-    for e in header.enums:
-        if fl.name == e.short or re.search(r"\benum %s\b" % e.name, fl.doc):
-            return e
-    for e in header.enums:
-        if any(re.search(r"\b%s\b" % v[0], fl.doc) for v in e.values):
-            return e
-    return None
-
-
-def is_flag(fl):
-    """An int field that says yes or no (has_limits)."""
-    return fl.ctype == "int" and re.match(r"(has|is)_", fl.name) is not None
-
-
 def octave_structs(header):
     out = ["/* ---- structs: C to Octave and back, field by field ---- */", ""]
     for s in header.structs:
@@ -677,7 +851,7 @@ def octave_structs(header):
         out.append("octave_scalar_map to_octave(const %s &s) {" % s.name)
         out.append("  octave_scalar_map m;")
         for fl in fields:
-            e = field_enum(header, s, fl)
+            e = field_enum(header, fl)
             if e is not None:
                 value = "code_name(%s_names, s.%s)" % (e.name, fl.name)
             elif is_flag(fl):
@@ -697,7 +871,7 @@ def octave_structs(header):
         out.append("  c.only_fields(v, what, {%s}, all);" %
                    ", ".join(cpp_string(fl.name) for fl in fields))
         for fl in fields:
-            e = field_enum(header, s, fl)
+            e = field_enum(header, fl)
             arg = "v.contents(%s)(k), what + \".%s\"" % (cpp_string(fl.name), fl.name)
             if e is not None:
                 conv = "c.code(%s, %s_names)" % (arg, e.name)
@@ -719,114 +893,127 @@ def octave_structs(header):
 
 
 def octave_wrapper(header, b):
-    """The gateway command of a plain function."""
+    """The gateway command of a plain function, and how many arguments it
+    takes after the command name."""
     lines = cpp_comment("%s: %s" % (b.name, first_sentence(b.f.doc)))
     signature = len(lines)
     lines.append("octave_value_list gen_%s(const call &c) {" % b.command)
-    call_args, i, vector_arg = [], 0, None
-    handle_expr = None
+    call_args, outs, counts, i, vector_arg = [], [], {}, 0, None
     for a in b.args:
+        n, what = a.name, cpp_string(a.name)
         if a.kind == "handle":
-            access = "access::read" if a.const else "access::write"
-            lines.append("  entry &h = c.%s(0, %s);" % (b.handle, access))
-            handle_expr = "h.%s" % b.handle
-            call_args.append(handle_expr)
-            i = 1
+            lines.append("  entry &h = c.%s(0, %s);" % (
+                b.handle, "access::read" if a.const else "access::write"))
+            call_args.append("h.%s" % b.handle)
+        elif a.kind == "count":
+            call_args.append(n)
+            continue
+        elif a.kind == "handle_in":
+            lines.append("  const kl_%s *%s = c.%s(%d, access::read).%s;" % (
+                a.ctype, n, a.ctype, i, a.ctype))
+            call_args.append(n)
         elif a.kind == "point":
             xs = [p.name for p in a.params]
             lines.append("  double %s, %s;" % tuple(xs))
-            lines.append("  c.point(c.arg(%d), %s, %s, %s);" % (i, cpp_string(a.name), *xs))
+            lines.append("  c.point(c.arg(%d), %s, %s, %s);" % (i, what, *xs))
             call_args += xs
-            i += 1
+        elif a.kind == "scalar" and b.vectorized and vector_arg is None:
+            vector_arg = (i, n)
+            call_args.append(n)
         elif a.kind == "scalar":
-            if b.vectorized and vector_arg is None:
-                vector_arg = (i, a.name)
-                call_args.append(a.name)
-            elif a.enum is not None:
-                lines.append("  int %s = c.code(c.arg(%d), %s, %s_names);" % (
-                    a.name, i, cpp_string(a.name), a.enum.name))
-                call_args.append(a.name)
-            elif a.ctype == "double":
-                lines.append("  double %s = c.real(c.arg(%d), %s);" % (a.name, i,
-                                                                     cpp_string(a.name)))
-                call_args.append(a.name)
-            else:
-                lines.append("  %s %s = c.whole<%s>(c.arg(%d), %s);" % (
-                    a.ctype, a.name, a.ctype, i, cpp_string(a.name)))
-                call_args.append(a.name)
-            i += 1
+            conv = ("c.code(c.arg(%d), %s, %s_names)" % (i, what, a.enum.name) if a.enum else
+                    "c.real(c.arg(%d), %s)" % (i, what) if a.ctype == "double" else
+                    "c.whole<%s>(c.arg(%d), %s)" % (a.ctype, i, what))
+            lines.append("  %s %s = %s;" % ("int" if a.enum else a.ctype, n, conv))
+            call_args.append(n)
+        elif a.kind == "string" and a.optional:
+            lines.append("  std::string %s_text;" % n)
+            lines.append("  const char *%s = c.optional_text(%d, %s, %s_text);" % (n, i, what, n))
+            call_args.append(n)
         elif a.kind == "string":
-            if a.optional:
-                lines.append("  std::string %s_text;" % a.name)
-                lines.append("  const char *%s = c.optional_text(%d, %s, %s_text);" % (
-                    a.name, i, cpp_string(a.name), a.name))
+            lines.append("  std::string %s = c.text(c.arg(%d), %s);" % (n, i, what))
+            call_args.append("%s.c_str()" % n)
+        elif a.kind == "array_in":
+            if a.struct is not None:
+                lines.append("  octave_map %s_map = c.struct_list(%d, %s);" % (n, i, what))
+                lines.append("  std::vector<%s> %s(%s_map.numel(), %s());" % (
+                    a.struct.name, n, n, a.struct.name))
+                lines.append("  for (octave_idx_type k = 0; k < %s_map.numel(); k++)" % n)
+                lines.append("    from_octave(c, %s_map, k, %s, %s[k], false);" % (n, what, n))
+            elif a.ctype == "double":
+                lines.append("  std::vector<double> %s = c.reals(c.arg(%d), %s);" % (n, i, what))
             else:
-                lines.append("  std::string %s_text = c.text(c.arg(%d), %s);" % (
-                    a.name, i, cpp_string(a.name)))
-                lines.append("  const char *%s = %s_text.c_str();" % (a.name, a.name))
-            call_args.append(a.name)
-            i += 1
+                lines.append("  std::vector<int> %s = c.wholes<int>(c.arg(%d), %s);" % (
+                    n, i, what))
+            counts.setdefault(a.count, []).append(n)
+            call_args.append("%s.empty() ? nullptr : %s.data()" % (n, n))
+        elif a.kind == "inputs_in":
+            lines.append("  int %s_n = kl_model_input_count(h.model);" % n)
+            lines.append("  std::vector<double> %s = c.values(%d, %s_n, %s);" % (n, i, n, what))
+            call_args.append("%s_n > 0 ? %s.data() : nullptr" % (n, n))
+        elif a.kind == "inputs_out":
+            lines.append("  int %s_n = kl_model_input_count(h.model);" % n)
+            lines.append("  std::vector<double> %s(%s_n > 0 ? %s_n : 1);" % (n, n, n))
+            call_args.append("%s.data()" % n)
+            outs.append("row(%s.data(), %s_n)" % (n, n))
         elif a.kind == "struct_in":
-            lines.append("  %s %s;" % (a.struct.name, a.name))
-            lines.append("  std::memset(&%s, 0, sizeof %s);" % (a.name, a.name))
-            lines.append("  %s.size = sizeof %s;" % (a.name, a.name))
-            lines.append("  from_octave(c, c.one_struct(%d, %s), 0, %s, %s, true);" % (
-                i, cpp_string(a.name), cpp_string(a.name), a.name))
-            call_args.append("&" + a.name)
-            i += 1
+            lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
+            if a.struct.sized:
+                lines.append("  %s.size = sizeof %s;" % (n, n))
+            lines.append("  from_octave(c, c.one_struct(%d, %s), 0, %s, %s, %s);" % (
+                i, what, what, n, "true" if a.struct.sized else "false"))
+            call_args.append("&" + n)
         elif a.kind == "struct_out":
-            lines.append("  %s %s;" % (a.struct.name, a.name))
-            lines.append("  std::memset(&%s, 0, sizeof %s);" % (a.name, a.name))
-            lines.append("  %s.size = sizeof %s;" % (a.name, a.name))
-            call_args.append("&" + a.name)
+            lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
+            lines.append("  %s.size = sizeof %s;" % (n, n))
+            call_args.append("&" + n)
+            outs.append("octave_value(to_octave(%s))" % n)
+        elif a.kind == "out_value":
+            lines.append("  %s %s = %s;" % (a.ctype, n, "NAN" if a.ctype == "double" else "0"))
+            call_args.append("&" + n)
+            outs.append("code_name(%s_names, %s)" % (a.enum.name, n) if a.enum
+                        else "octave_value(%s)" % n)
         elif a.kind == "out_array":
-            lines.append("  %s %s[%d];" % (a.ctype, a.name, a.length))
-            call_args.append(a.name)
+            lines.append("  %s %s[%d];" % (a.ctype, n, a.length))
+            call_args.append(n)
+            outs.append("row(%s, %d)" % (n, a.length))
+        if a.is_input or a.kind == "handle":
+            i += 1
+    for count, arrays in counts.items():
+        for other in arrays[1:]:
+            lines.append("  if (%s.size() != %s.size())" % (other, arrays[0]))
+            lines.append("    c.bad(%s, \"must have as many elements as %s\");" % (
+                cpp_string(other), arrays[0]))
+        lines.append("  int %s = c.count(%s.size(), %s);" % (count, arrays[0],
+                                                            cpp_string(arrays[0])))
     call = "%s(%s)" % (b.name, ", ".join(call_args))
     if vector_arg is not None:
         pos, name = vector_arg
         lines.append("  return one(c.each_id(%d, %s, [&](int %s) { return %s; }));" % (
             pos, cpp_string(name), name, call))
-        lines += ["}", ""]
-        return lines, i
-    if b.f.result == "void":
-        lines.append("  %s;" % call)
     else:
-        lines.append("  %s r = %s;" % (b.f.result, call))
-    if b.f.result in ("int", "long"):
-        if b.handle and not b.handle_const:
+        if b.f.result == "void":
+            lines.append("  %s;" % call)
+        else:
+            lines.append("  %s r = %s;" % (b.f.result, call))
+        if b.f.result in ("int", "long"):
             error = "kl_%s_error" % b.handle
-            if header.function(error):
-                lines.append("  c.check(r, %s(%s));" % (error, handle_expr))
+            if b.handle and not b.handle_const and header.function(error):
+                lines.append("  c.check(r, %s(h.%s));" % (error, b.handle))
             else:
                 lines.append("  c.check(r);")
+        if b.value_result:
+            outs.insert(0, "code_name(%s_names, r)" % b.enum.name if b.enum else
+                        "octave_value(r != 0)" if b.boolean else
+                        "text_value(r)" if b.f.result == "const char *" else
+                        "octave_value(static_cast<double>(r))"
+                        if b.f.result in ("long", "size_t") else "octave_value(r)")
+        if not outs:
+            lines.append("  return none();")
         else:
-            lines.append("  c.check(r);")
-    outs = []
-    if b.value_result:
-        if b.enum is not None:
-            outs.append("code_name(%s_names, r)" % b.enum.name)
-        elif b.boolean:
-            outs.append("octave_value(r != 0)")
-        elif b.f.result == "const char *":
-            outs.append("text_value(r)")
-        elif b.f.result in ("long", "size_t"):
-            outs.append("octave_value(static_cast<double>(r))")
-        else:
-            outs.append("octave_value(r)")
-    for a in b.outputs:
-        outs.append("row(%s, %d)" % (a.name, a.length) if a.kind == "out_array"
-                    else "octave_value(to_octave(%s))" % a.name)
-    if b.f.result == "void" or b.status:
-        if b.f.result != "void" and not outs:
-            lines.append("  (void)r;")
-    if not outs:
-        lines.append("  return none();")
-    else:
-        lines.append("  octave_value_list out;")
-        for k, o in enumerate(outs):
-            lines.append("  out(%d) = %s;" % (k, o))
-        lines.append("  return out;")
+            lines.append("  octave_value_list out;")
+            lines += ["  out(%d) = %s;" % (k, o) for k, o in enumerate(outs)]
+            lines.append("  return out;")
     lines += ["}", ""]
     if not any(re.search(r"\bc\b[.,)]", l) for l in lines[signature + 1:]):
         lines[signature] = lines[signature].replace("const call &c", "const call &")
@@ -857,7 +1044,7 @@ def octave_introspection(header):
 
 def octave_usage(b):
     parts = [b.handle] if b.handle else []
-    parts += ["[%s]" % a.name if a.optional else a.name for a in b.inputs]
+    parts += ["[%s]" % a.name if a.optional else a.name for a in octave_inputs(b)]
     return "(%s)" % ", ".join(parts)
 
 
@@ -874,7 +1061,7 @@ def octave_gateway(header):
             continue
         lines, count = octave_wrapper(header, b)
         out += lines
-        optional = sum(1 for a in b.inputs if a.optional)
+        optional = sum(1 for a in octave_inputs(b) if a.optional)
         table.append("    {%s, %d, %d, %s, gen_%s}," % (
             cpp_string(b.command), count - optional, count,
             cpp_string(octave_usage(b)), b.command))
@@ -886,21 +1073,29 @@ def octave_gateway(header):
     return "\n".join(out)
 
 
+def octave_inputs(b):
+    """What Octave code gives: every input after the handle (a value struct
+    a function belongs to is an argument like any other)."""
+    return [a for a in b.args if a.is_input]
+
+
 def octave_method(b, obj=True):
     """An Octave method (or package function) calling the gateway."""
-    ins = b.inputs
+    ins = octave_inputs(b)
+    name = b.method if obj else b.command
     fixed = [a.name for a in ins if not a.optional]
     params = (["obj"] if obj else []) + fixed + (["varargin"] if any(a.optional for a in ins)
                                                   else [])
-    forward = (["obj.id"] if obj else []) + fixed + \
+    forward = (["obj.id"] if obj else []) + \
+        [a.name + ".id" if a.kind == "handle_in" else a.name for a in ins if not a.optional] + \
         (["varargin{:}"] if any(a.optional for a in ins) else [])
     outputs = (["value"] if b.value_result else []) + [a.name for a in b.outputs]
     usage = "%s%s(%s)" % ("[%s] = " % ", ".join(outputs) if len(outputs) > 1 else
                           "%s = " % outputs[0] if outputs else "",
-                          b.method, ", ".join(["[%s]" % a.name if a.optional else a.name
-                                               for a in ins]))
+                          name, ", ".join(["[%s]" % a.name if a.optional else a.name
+                                             for a in ins]))
     doc = b.f.doc.splitlines()
-    head = "function %s%s(%s)" % ("varargout = " if outputs else "", b.method,
+    head = "function %s%s(%s)" % ("varargout = " if outputs else "", name,
                                   ", ".join(params))
     lines = [head, "  %% %s: %s" % (usage, b.name)]
     lines += ["  %% " + l if l else "  %" for l in doc]
@@ -920,7 +1115,6 @@ def octave_classes(header, out_dir):
     bs = bindings(header)
     package = os.path.join(out_dir, "+kinloop")
     os.makedirs(package, exist_ok=True)
-    written = set()
     for h in HANDLES:
         name = "%sMethods" % camel(h)
         lines = ["classdef %s < handle" % name,
@@ -933,14 +1127,11 @@ def octave_classes(header, out_dir):
                 lines += ["    " + l for l in octave_method(b)] + [""]
         lines += ["  end", "end", ""]
         write(os.path.join(package, name + ".m"), "\n".join(lines))
-        written.add(name + ".m")
     for b in bs:
         if b.plain and b.handle is None:
             lines = octave_method(b, obj=False)
             lines.insert(1, "  % " + GENERATED)
-            write(os.path.join(package, b.method + ".m"), "\n".join(lines) + "\n")
-            written.add(b.method + ".m")
-    return written
+            write(os.path.join(package, b.command + ".m"), "\n".join(lines) + "\n")
 
 
 # ---------------------------------------------------------------------------
@@ -982,11 +1173,13 @@ def main(argv):
         sys.exit(__doc__)
     with open(argv[2], encoding="utf-8") as f:
         header = Header(f.read())
+    check_pointers(header)
     if argv[1] == "list":
         for b in bindings(header):
-            print("%-34s %s" % (b.name, ("plain -> %s.%s" % (camel(b.handle), b.method)
-                                         if b.handle else "plain -> %s" % b.method)
-                                if b.plain else "hand: " + b.why))
+            home = camel(b.handle) + "." if b.handle else \
+                camel(b.owner.name[3:]) + "." if b.owner else ""
+            print("%-34s %s" % (b.name, "plain -> " + home + b.method if b.plain
+                                else "hand: " + b.why))
         return
     if argv[1] == "layout":
         write(argv[3], layout_probe(header))

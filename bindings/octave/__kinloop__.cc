@@ -177,6 +177,16 @@ octave_map call::structs(int i, const std::string &what) const {
   return arg(i).map_value();
 }
 
+octave_map call::struct_list(int i, const std::string &what) const {
+  return arg(i).isempty() && !arg(i).isstruct() ? octave_map() : structs(i, what);
+}
+
+int call::count(size_t n, const std::string &what) const {
+  if (n > static_cast<size_t>(std::numeric_limits<int>::max()))
+    bad(what, "has more elements than a C int counts");
+  return static_cast<int>(n);
+}
+
 octave_map call::one_struct(int i, const std::string &what) const {
   octave_map m = structs(i, what);
   if (m.numel() != 1)
@@ -303,15 +313,6 @@ octave_value_list cmd_model_free(const call &c) {
   return none();
 }
 
-octave_value_list cmd_add_loop(const call &c) {
-  entry &m = c.model(0);
-  std::vector<int> joints = c.wholes<int>(c.arg(1), "joints");
-  int st = kl_add_loop(m.model, static_cast<int>(joints.size()),
-                       joints.empty() ? nullptr : joints.data());
-  c.check(st, kl_model_error(m.model));
-  return one(st);
-}
-
 octave_value_list cmd_model_loop(const call &c) {
   const kl_model *m = c.model(0, access::read).model;
   int loop = c.whole<int>(c.arg(1), "loop");
@@ -320,15 +321,6 @@ octave_value_list cmd_model_loop(const call &c) {
   std::vector<int> joints(n > 0 ? n : 1);
   kl_model_loop(m, loop, joints.data(), n);
   return one(row(joints.data(), n));
-}
-
-octave_value_list cmd_model_units(const call &c) {
-  int length = 0, angle = 0;
-  c.check(kl_model_units(c.model(0, access::read).model, &length, &angle));
-  octave_value_list out;
-  out(0) = code_name(kl_length_unit_names, length);
-  out(1) = code_name(kl_angle_unit_names, angle);
-  return out;
 }
 
 /* A model or study read, or the reason it was not: raised, or with two
@@ -438,22 +430,6 @@ octave_value_list cmd_solver_free(const call &c) {
 
 octave_value_list cmd_solver_model(const call &c) {
   return one(c.solver(0, access::read).model_id);
-}
-
-template <int (*stage)(kl_solver *, const double *)>
-octave_value_list cmd_stage(const call &c) {
-  entry &s = c.solver(0);
-  int n = kl_model_input_count(s.model);
-  std::vector<double> u = c.values(1, n, "inputs");
-  c.check(stage(s.solver, n > 0 ? u.data() : nullptr), kl_solver_error(s.solver));
-  return none();
-}
-
-octave_value_list cmd_solver_copy_state(const call &c) {
-  entry &to = c.solver(0);
-  entry &from = c.solver(1, access::read);
-  c.check(kl_solver_copy_state(to.solver, from.solver), kl_solver_error(to.solver));
-  return none();
 }
 
 octave_value_list cmd_find_assemblies(const call &c) {
@@ -611,122 +587,6 @@ octave_value_list cmd_sweep(const call &c) {
 }
 
 /* ------------------------------------------------------------------------
- * Design figures: outputs, loads and dimensions are structs of the C names
- * ------------------------------------------------------------------------ */
-
-/* A struct argument as its C struct: element k, every field given except
- * those `defaults` already holds (which may be left out). */
-template <typename T>
-T struct_arg(const call &c, const octave_map &m, octave_idx_type k, const char *what,
-             T defaults, std::initializer_list<const char *> required) {
-  for (const char *f : required)
-    if (!m.isfield(f))
-      c.bad(what, std::string("needs the field '") + f + "'");
-  from_octave(c, m, k, what, defaults, false);
-  return defaults;
-}
-
-kl_output output_arg(const call &c, int i) {
-  return struct_arg(c, c.one_struct(i, "output"), 0, "output", kl_output{0, 0, -1, -1},
-                    {"kind", "id"});
-}
-
-std::vector<kl_dimension> dimensions_arg(const call &c, int i) {
-  std::vector<kl_dimension> dims;
-  if (c.arg(i).isempty() && !c.arg(i).isstruct())
-    return dims;
-  octave_map m = c.structs(i, "dimension");
-  for (octave_idx_type k = 0; k < m.numel(); k++)
-    dims.push_back(struct_arg(c, m, k, "dimension", kl_dimension(), {"kind", "id", "axis"}));
-  return dims;
-}
-
-octave_value_list cmd_output_value(const call &c) {
-  const kl_solver *s = c.solver(0, access::read).solver;
-  kl_output o = output_arg(c, 1);
-  double v = NAN;
-  c.check(kl_output_value(s, &o, &v));
-  return one(v);
-}
-
-template <int (*get)(kl_solver *, const kl_output *, int, double *)>
-octave_value_list cmd_output_per_input(const call &c) {
-  entry &s = c.solver(0);
-  kl_output o = output_arg(c, 1);
-  double v = NAN;
-  c.check(get(s.solver, &o, c.whole<int>(c.arg(2), "input"), &v), kl_solver_error(s.solver));
-  return one(v);
-}
-
-octave_value_list cmd_output_range(const call &c) {
-  entry &s = c.solver(0);
-  int input = c.whole<int>(c.arg(1), "input");
-  double from = c.real(c.arg(2), "from"), to = c.real(c.arg(3), "to");
-  int steps = c.whole<int>(c.arg(4), "steps");
-  kl_output o = output_arg(c, 5);
-  kl_range r = kl_range();
-  r.size = sizeof r;
-  c.check(kl_output_range(s.solver, input, from, to, steps, &o, &r), kl_solver_error(s.solver));
-  return one(to_octave(r));
-}
-
-octave_value_list cmd_range_time_ratio(const call &c) {
-  kl_range r = kl_range();
-  r.size = sizeof r;
-  r = struct_arg(c, c.one_struct(0, "range"), 0, "range", r,
-                 {"input_at_min", "input_at_max"});
-  double ratio = NAN;
-  c.check(kl_range_time_ratio(&r, &ratio));
-  return one(ratio);
-}
-
-octave_value_list cmd_input_effort(const call &c) {
-  entry &s = c.solver(0);
-  std::vector<kl_load> loads;
-  if (!(c.arg(1).isempty() && !c.arg(1).isstruct())) {
-    octave_map m = c.structs(1, "load");
-    for (octave_idx_type k = 0; k < m.numel(); k++)
-      loads.push_back(struct_arg(c, m, k, "load", kl_load(), {"kind", "id"}));
-  }
-  int n = kl_model_input_count(s.model);
-  std::vector<double> efforts(n > 0 ? n : 1);
-  c.check(kl_input_effort(s.solver, static_cast<int>(loads.size()),
-                          loads.empty() ? nullptr : loads.data(), efforts.data()),
-          kl_solver_error(s.solver));
-  return one(row(efforts.data(), n));
-}
-
-octave_value_list cmd_output_sensitivity(const call &c) {
-  entry &s = c.solver(0);
-  kl_output o = output_arg(c, 1);
-  std::vector<kl_dimension> dims = dimensions_arg(c, 2);
-  if (dims.size() != 1)
-    c.bad("dimension", "must be one struct");
-  double d = NAN;
-  c.check(kl_output_sensitivity(s.solver, &o, &dims[0], &d), kl_solver_error(s.solver));
-  return one(d);
-}
-
-octave_value_list cmd_tolerance_stack(const call &c) {
-  entry &s = c.solver(0);
-  kl_output o = output_arg(c, 1);
-  std::vector<kl_dimension> dims = dimensions_arg(c, 2);
-  std::vector<double> tol = c.reals(c.arg(3), "tolerances");
-  if (tol.size() != dims.size())
-    c.bad("tolerances", "must hold one value per dimension (" + std::to_string(dims.size()) +
-                            "); got " + std::to_string(tol.size()));
-  double worst = NAN, rss = NAN;
-  c.check(kl_output_tolerance_stack(s.solver, &o, static_cast<int>(dims.size()),
-                                    dims.empty() ? nullptr : dims.data(),
-                                    tol.empty() ? nullptr : tol.data(), &worst, &rss),
-          kl_solver_error(s.solver));
-  octave_value_list out;
-  out(0) = worst;
-  out(1) = rss;
-  return out;
-}
-
-/* ------------------------------------------------------------------------
  * Design studies
  * ------------------------------------------------------------------------ */
 
@@ -878,9 +738,7 @@ const command hand_commands[] = {
     {"status_name", 1, 1, "(status)", cmd_status_name},
     {"model_new", 0, 0, "()", cmd_model_new},
     {"model_free", 1, 1, "(model)", cmd_model_free},
-    {"add_loop", 2, 2, "(model, joints)", cmd_add_loop},
     {"model_loop", 2, 2, "(model, loop)", cmd_model_loop},
-    {"model_units", 1, 1, "(model)", cmd_model_units},
     {"model_read", 1, 1, "(text)", cmd_model_read},
     {"model_read_file", 1, 1, "(path)", cmd_model_read_file},
     {"model_write", 1, 1, "(model)", cmd_model_write},
@@ -889,22 +747,8 @@ const command hand_commands[] = {
     {"solver_new_in", 1, 1, "(model)", cmd_solver_new<true>},
     {"solver_free", 1, 1, "(solver)", cmd_solver_free},
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
-    {"solve_position", 2, 2, "(solver, inputs)", cmd_stage<kl_solve_position>},
-    {"solve_velocity", 2, 2, "(solver, input_rates)", cmd_stage<kl_solve_velocity>},
-    {"solve_acceleration", 2, 2, "(solver, input_accels)", cmd_stage<kl_solve_acceleration>},
-    {"solver_copy_state", 2, 2, "(to, from)", cmd_solver_copy_state},
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
-    {"output_value", 2, 2, "(solver, output)", cmd_output_value},
-    {"output_deriv", 3, 3, "(solver, output, input)", cmd_output_per_input<kl_output_deriv>},
-    {"output_range", 6, 6, "(solver, input, from, to, steps, output)", cmd_output_range},
-    {"range_time_ratio", 1, 1, "(range)", cmd_range_time_ratio},
-    {"output_mechanical_advantage", 3, 3, "(solver, output, input)",
-     cmd_output_per_input<kl_output_mechanical_advantage>},
-    {"input_effort", 2, 2, "(solver, loads)", cmd_input_effort},
-    {"output_sensitivity", 3, 3, "(solver, output, dimension)", cmd_output_sensitivity},
-    {"output_tolerance_stack", 4, 4, "(solver, output, dimensions, tolerances)",
-     cmd_tolerance_stack},
     {"study_read", 1, 2, "(text, [base_dir])", cmd_study_read},
     {"study_read_file", 1, 1, "(path)", cmd_study_read_file},
     {"study_free", 1, 1, "(study)", cmd_study_free},

@@ -117,6 +117,10 @@ public:
   }
   octave_map one_struct(int i, const std::string &what) const;
   octave_map structs(int i, const std::string &what) const;
+  /* A struct array, or none for []. */
+  octave_map struct_list(int i, const std::string &what) const;
+  /* The length of an array as the C int that counts it. */
+  int count(size_t n, const std::string &what) const;
   void only_fields(const octave_map &m, const std::string &what,
                    std::initializer_list<const char *> fields, bool all) const;
   void text_into(const octave_value &v, const std::string &what, char *out,

@@ -70,19 +70,9 @@ classdef Model < kinloop.ModelMethods
       tf = ~isempty(obj.owner);
     end
 
-    function loop = add_loop(obj, joints)
-      % add_loop(joints): registers a loop, joint ids in walking order.
-      loop = __kinloop__('add_loop', obj.id, joints);
-    end
-
     function joints = loop(obj, index)
       % The joint ids of loop `index` in walking order.
       joints = __kinloop__('model_loop', obj.id, index);
-    end
-
-    function [length_unit, angle_unit] = units(obj)
-      % The recorded units as names ('unstated', 'mm', 'm', 'in'; 'rad', 'deg').
-      [length_unit, angle_unit] = __kinloop__('model_units', obj.id);
     end
 
     function text = write(obj)

@@ -74,26 +74,7 @@ classdef Solver < kinloop.SolverMethods
       __kinloop__('solver_set_options', obj.id, o);
     end
 
-    % ---- stages: one value per input ----
-
-    function solve_position(obj, inputs)
-      __kinloop__('solve_position', obj.id, inputs);
-    end
-
-    function solve_velocity(obj, input_rates)
-      __kinloop__('solve_velocity', obj.id, input_rates);
-    end
-
-    function solve_acceleration(obj, input_accels)
-      __kinloop__('solve_acceleration', obj.id, input_accels);
-    end
-
-    % ---- states and assembly modes ----
-
-    function copy_state(obj, from)
-      % Takes over the whole state of `from`, another solver of the same model.
-      __kinloop__('solver_copy_state', obj.id, from.id);
-    end
+    % ---- assembly modes and sweeps ----
 
     function n = find_assemblies(obj, inputs, modes)
       % n = find_assemblies(inputs [, modes]): the number of distinct
@@ -137,44 +118,19 @@ classdef Solver < kinloop.SolverMethods
       end
     end
 
-    % ---- design figures ----
-    % An output is struct('kind', K, 'id', id [, 'line_a', j, 'line_b', k])
-    % with K one of 'link_angle', 'slide', 'joint_angle', 'point_x',
-    % 'point_y', 'transmission'.
+    % ---- design figures: a dimension's axis may be 'x' or 'y' ----
 
-    function v = output_value(obj, output)
-      v = __kinloop__('output_value', obj.id, output);
+    function d = output_sensitivity(obj, o, dim)
+      % d output / d dimension (kl_output_sensitivity); dim: struct('kind',
+      % 'joint_a' | 'joint_b' | 'point', 'id', id, 'axis', 'x' | 'y' or 0 | 1).
+      d = output_sensitivity@kinloop.SolverMethods(obj, o, kinloop.Solver.axes(dim));
     end
 
-    function d = output_deriv(obj, output, input)
-      d = __kinloop__('output_deriv', obj.id, output, input);
-    end
-
-    function r = output_range(obj, input, from, to, steps, output)
-      % Extremes of an output over a sweep: the fields of kl_range (min,
-      % max, input_at_min, input_at_max, sweep_status, limit_input).
-      r = __kinloop__('output_range', obj.id, input, from, to, steps, output);
-    end
-
-    function ma = output_mechanical_advantage(obj, output, input)
-      ma = __kinloop__('output_mechanical_advantage', obj.id, output, input);
-    end
-
-    function efforts = input_effort(obj, loads)
-      % loads: struct array, kind 'force' (id = point, fx, fy) or 'torque'
-      % (id = link, torque); one effort per input.
-      efforts = __kinloop__('input_effort', obj.id, loads);
-    end
-
-    function d = output_sensitivity(obj, output, dimension)
-      % dimension: struct('kind', 'joint_a' | 'joint_b' | 'point', 'id', id,
-      % 'axis', 'x' | 'y' (or 0 | 1)).
-      d = __kinloop__('output_sensitivity', obj.id, output, kinloop.Solver.axes(dimension));
-    end
-
-    function [worst, rss] = output_tolerance_stack(obj, output, dimensions, tolerances)
-      [worst, rss] = __kinloop__('output_tolerance_stack', obj.id, output, ...
-                                 kinloop.Solver.axes(dimensions), tolerances);
+    function [worst, rss] = output_tolerance_stack(obj, o, dims, tolerances)
+      % Worst case and root-sum-square stack-up (kl_output_tolerance_stack)
+      % over the dimensions dims (axes as for output_sensitivity).
+      [worst, rss] = output_tolerance_stack@kinloop.SolverMethods(obj, o, ...
+                                                                 kinloop.Solver.axes(dims), tolerances);
     end
   end
 

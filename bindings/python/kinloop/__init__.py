@@ -20,28 +20,20 @@ are returned. Every value given reaches C exactly or is refused
 kinloop.raw (raw.lib.kl_*).
 """
 
-from . import raw
-from ._api import (angle_unit_str, grashof, grashof_str, length_unit_str, options_default,
-                   status_str, version, version_number)
+from . import _api, _header, raw
+from ._api import *  # noqa: F401,F403  (value types and package functions, generated)
 from ._core import KinloopError
-from ._header import (GROUND, AngleUnit, DimensionKind, GrashofClass, JointKind, Kernel,
-                      LengthUnit, LoadKind, OutputKind, SampleStatus, Status)
+from ._header import *  # noqa: F401,F403  (the enums and GROUND, generated)
 from .model import Model
 from .raw import MissingFunctionError
 from .solver import Solver
 from .study import Study
-from .values import (Dimension, Load, Options, Output, Range, SolveStats, StudyRun,
-                     StudySummary, SweepResult, SweepSettings)
+from .values import Dimension, Load, Output, StudyRun, SweepResult
 
 __version__ = "%d.%d.%d" % raw.VERSION
 library_path = raw.library_path
 library_version = raw.library_version
 
-__all__ = [
-    "GROUND", "AngleUnit", "Dimension", "DimensionKind", "GrashofClass", "JointKind",
-    "Kernel", "KinloopError", "LengthUnit", "Load", "LoadKind", "MissingFunctionError",
-    "Model", "Options", "Output", "OutputKind", "Range", "SampleStatus", "SolveStats",
-    "Solver", "Status", "Study", "StudyRun", "StudySummary", "SweepResult", "SweepSettings",
-    "angle_unit_str", "grashof", "grashof_str", "length_unit_str", "library_path",
-    "library_version", "options_default", "status_str", "version", "version_number",
-]
+__all__ = sorted(set(_api.__all__ + _header.__all__ + [
+    "Dimension", "KinloopError", "Load", "MissingFunctionError", "Model", "Output", "Solver",
+    "Study", "StudyRun", "SweepResult", "library_path", "library_version"]))

@@ -146,6 +146,24 @@ def to_struct(value, ctype, function, argument):
     return c
 
 
+def array_of(values, ctype, function, argument):
+    """A C array of the values (ints, doubles or structs, each under the
+    rule; None for none) and how many there are."""
+    rule = _FIELD_RULES.get(ctype) or (lambda v, f, a: to_struct(v, ctype, f, a))
+    items = [] if values is None else list(values)
+    converted = [rule(v, function, "%s[%d]" % (argument, k)) for k, v in enumerate(items)]
+    return (ctype * max(len(items), 1))(*converted), len(items)
+
+
+def same_count(function, count, *arrays):
+    """The length of arrays (name, length) that one int `count` gives C."""
+    lengths = {n for _, n in arrays}
+    if len(lengths) > 1:
+        refuse(function, " and ".join(a for a, _ in arrays), "must have as many elements "
+               "each; got %s" % ", ".join("%d" % n for _, n in arrays))
+    return to_int(lengths.pop(), function, count)
+
+
 def struct_in(value, ctype, function, argument):
     """A `const kl_x *` argument: NULL for None, a reference to a struct
     made by to_struct, or a pointer or array the bindings made, as it is."""

@@ -1,16 +1,14 @@
 """Model: a linkage description over the kl_model handle. The plain
 builders and getters are generated (kinloop._api.ModelMethods); this adds
-what needs more than a scalar: lifetime and allocators, loops, units and
-model files, and the read-only view of a model another handle owns (a
-study's nominal model)."""
+lifetime and allocators, the loops' joint lists, model files, and the
+read-only view of a model another handle owns (a study's nominal model)."""
 
 import ctypes
 import weakref
 
 from . import _api, raw
-from ._args import to_int
 from ._core import Handle, KinloopError, check_const, text
-from ._header import AngleUnit, LengthUnit, Status
+from ._header import Status
 
 
 def allocator_hook(allocator):
@@ -152,13 +150,7 @@ class Model(_api.ModelMethods, Handle):
             self.input_count, ", finalized" if self.is_finalized else "",
             ", borrowed from a study" if self.borrowed else "")
 
-    # ---- what takes or gives arrays ----
-
-    def add_loop(self, joints):
-        """Registers a loop: joint ids in walking order; returns its index."""
-        ids = [to_int(j, "kl_add_loop", "joints[%d]" % k) for k, j in enumerate(joints)]
-        array = (ctypes.c_int * max(len(ids), 1))(*ids)
-        return self._check(_api.kl_add_loop(self._changing, len(ids), array))
+    # ---- the joints of a loop ----
 
     def loop(self, loop):
         """The joint ids of loop `loop` in walking order."""
@@ -171,14 +163,6 @@ class Model(_api.ModelMethods, Handle):
     @property
     def loops(self):
         return [self.loop(k) for k in range(self.loop_count)]
-
-    @property
-    def units(self):
-        """(LengthUnit, AngleUnit) as recorded."""
-        length, angle = ctypes.c_int(), ctypes.c_int()
-        check_const(_api.kl_model_units(self._handle, ctypes.byref(length),
-                                        ctypes.byref(angle)), "units")
-        return LengthUnit(length.value), AngleUnit(angle.value)
 
     # ---- model files ----
 

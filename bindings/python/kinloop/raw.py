@@ -19,9 +19,12 @@ import ctypes
 import ctypes.util
 import os
 
-from ._header import *  # noqa: F401,F403  (the structs and types, as raw.kl_*)
+from . import _header
 from ._header import PROTOTYPES, VERSION
 from ._location import LIBRARY
+
+# every declaration of the header: raw.kl_options, raw.solver_p, raw.kl_sweep_fn, ...
+globals().update({k: v for k, v in vars(_header).items() if not k.startswith("_")})
 
 #: The library version (major, minor) these bindings were generated for.
 WRITTEN_FOR = VERSION[:2]

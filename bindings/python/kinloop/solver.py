@@ -1,9 +1,9 @@
 """Solver: position, velocity, acceleration and kinematic coefficients of a
-finalized Model over the kl_solver handle. The plain getters, setters and
-stages are generated (kinloop._api.SolverMethods); this adds lifetime,
-options by keyword, the stages' input arrays, state copies, assembly modes,
-sweeps (recorder and callback), and the figures of outputs, loads and
-dimensions."""
+finalized Model over the kl_solver handle. The plain functions are
+generated (kinloop._api.SolverMethods: getters, setters, stages, design
+figures); this adds lifetime, options by keyword, the count of input
+arrays, copies, assembly modes, and sweeps with their recorder and
+callback."""
 
 import ctypes
 import dataclasses
@@ -13,8 +13,8 @@ import weakref
 import numpy as np
 
 from . import _api, raw
-from ._args import refuse, to_double, to_int, to_struct
-from ._core import Handle, KinloopError, as_enum, check_const, value_of
+from ._args import array_of, refuse, to_int
+from ._core import Handle, KinloopError, as_enum
 from ._header import Status
 from .values import SweepResult
 
@@ -102,40 +102,24 @@ class Solver(_api.SolverMethods, Handle):
         replacing fields by name."""
         super().set_options(dataclasses.replace(options or self.options, **values))
 
-    # ---- stages: one value per input ----
+    # ---- what the generated methods of arrays per input ask of a solver ----
 
-    def _inputs(self, values, function):
+    @property
+    def _input_count(self):
+        return self._model.input_count
+
+    def _inputs(self, values, function, argument):
         """One double per input as a C array (None for a model without
-        inputs): the C functions take no count, so the bindings check it."""
-        count = self._model.input_count
+        inputs; a number stands for one): the C functions take no count,
+        so the bindings check it."""
+        count = self._input_count
         given = [] if values is None else list(np.asarray(values, dtype=object).ravel())
         if len(given) != count:
-            refuse(function, "inputs", "must hold one value per input (%d); got %d"
+            refuse(function, argument, "must hold one value per input (%d); got %d"
                    % (count, len(given)))
-        if count == 0:
-            return None
-        return (ctypes.c_double * count)(*(to_double(v, function, "inputs[%d]" % k)
-                                           for k, v in enumerate(given)))
-
-    def _stage(self, stage, values):
-        return Status(self._check(getattr(_api, stage)(
-            self._changing, self._inputs(values, stage))))
-
-    def solve_position(self, inputs=None):
-        """Solves the loops at `inputs` (one per input, or a number for one)."""
-        return self._stage("kl_solve_position", inputs)
-
-    def solve_velocity(self, rates=None):
-        return self._stage("kl_solve_velocity", rates)
-
-    def solve_acceleration(self, accels=None):
-        return self._stage("kl_solve_acceleration", accels)
+        return array_of(given, ctypes.c_double, function, argument)[0] if count else None
 
     # ---- states and assembly modes ----
-
-    def copy_state(self, source):
-        """Copies the whole state of `source`, a solver of the same model."""
-        self._check(_api.kl_solver_copy_state(self._changing, source._handle))
 
     def copy(self):
         """A new solver of the same model with this one's options and state."""
@@ -146,7 +130,7 @@ class Solver(_api.SolverMethods, Handle):
     def find_assemblies(self, inputs=None):
         """The assembly modes at `inputs`: a list of new Solvers, each at a
         solved position (with this solver's options); this one keeps its state."""
-        values = self._inputs(inputs, "kl_solver_find_assemblies")
+        values = self._inputs(inputs, "kl_solver_find_assemblies", "inputs")
         options, cap = self.options, 8
         while True:
             modes = [Solver(self._model, options) for _ in range(cap)]
@@ -220,64 +204,3 @@ class Solver(_api.SolverMethods, Handle):
             **{name: array[:done] for name, array in record.items()})
         self._check(status, result=result)
         return result
-
-    # ---- design figures: outputs, loads and dimensions are kinloop.values ----
-
-    def _into_double(self, function, *args):
-        value = ctypes.c_double()
-        self._check(getattr(_api, function)(self._changing, *args, ctypes.byref(value)))
-        return value.value
-
-    def output_value(self, output):
-        """The Output's value at the current state."""
-        value = ctypes.c_double()
-        check_const(_api.kl_output_value(self._handle, output, ctypes.byref(value)),
-                    "output_value", output)
-        return value.value
-
-    def output_deriv(self, output, input):
-        """d output / d u_input at the position last solved."""
-        return self._into_double("kl_output_deriv", output, input)
-
-    def output_mechanical_advantage(self, output, input):
-        """Output effort over input effort of the ideal linkage."""
-        return self._into_double("kl_output_mechanical_advantage", output, input)
-
-    def output_sensitivity(self, output, dimension):
-        """d output / d dimension (a Dimension) with the inputs held."""
-        return self._into_double("kl_output_sensitivity", output, dimension)
-
-    def output_range(self, input, from_, to, steps, output):
-        """Range: the output's extremes while input `input` sweeps; its
-        sweep_status is OK or LIMIT."""
-        r = raw.kl_range()
-        self._check(_api.kl_output_range(self._changing, input, from_, to, steps, output,
-                                         ctypes.byref(r)))
-        return value_of(r)
-
-    def input_effort(self, loads):
-        """The effort each input must apply against `loads` (Load objects),
-        by virtual work: a numpy array, one value per input."""
-        loads = [to_struct(l, raw.kl_load, "kl_input_effort", "loads[%d]" % k)
-                 for k, l in enumerate(loads)]
-        array = (raw.kl_load * max(len(loads), 1))(*loads)
-        n = self._model.input_count
-        efforts = (ctypes.c_double * max(n, 1))()
-        self._check(_api.kl_input_effort(self._changing, len(loads), array, efforts))
-        return np.array(efforts[:n])
-
-    def output_tolerance_stack(self, output, dimensions, tolerances):
-        """(worst case, root-sum-square) first-order stack-up of the output."""
-        f = "kl_output_tolerance_stack"
-        dims = [to_struct(d, raw.kl_dimension, f, "dims[%d]" % k)
-                for k, d in enumerate(dimensions)]
-        tols = [to_double(t, f, "tolerances[%d]" % k) for k, t in enumerate(tolerances)]
-        if len(tols) != len(dims):
-            refuse(f, "tolerances", "must hold one value per dimension (%d); got %d"
-                   % (len(dims), len(tols)))
-        n = len(dims)
-        worst, rss = ctypes.c_double(), ctypes.c_double()
-        self._check(_api.kl_output_tolerance_stack(
-            self._changing, output, n, (raw.kl_dimension * max(n, 1))(*dims),
-            (ctypes.c_double * max(n, 1))(*tols), ctypes.byref(worst), ctypes.byref(rss)))
-        return worst.value, rss.value

@@ -1,71 +1,24 @@
-"""The value types of the bindings: the C structs as dataclasses (read from
-C by kinloop._core.value_of, written by kinloop._args.to_struct under the
-argument rule), with the constructors and figures that make them handy, and
-what sweeps and studies return."""
+"""The value types: one frozen dataclass per struct of the header, generated
+(kinloop._api: its fields, the library's defaults where it has a defaults
+function, its kl_<struct>_<verb> methods), and what the bindings add to
+them: constructors of outputs, loads and dimensions, and what sweeps and
+studies return."""
 
-import ctypes
 import dataclasses
 from typing import NamedTuple
 
 import numpy as np
 
 from . import _api, raw
-from ._core import VALUE_TYPES, check_const, status_text
-from ._header import DimensionKind, Kernel, LoadKind, OutputKind, Status
+from ._core import VALUE_TYPES, status_text
+from ._header import DimensionKind, LoadKind, OutputKind
+
+Options, SolveStats, SweepSettings = _api.Options, _api.SolveStats, _api.SweepSettings
+Range, StudySummary = _api.Range, _api.StudySummary
 
 
-def _defaults():
-    o = raw.kl_options()
-    # as far as this mirror of the struct reaches, whatever the library's
-    raw.lib.kl_options_init(ctypes.byref(o), ctypes.sizeof(o))
-    return o
-
-
-_DEFAULTS = _defaults()
-
-
-@dataclasses.dataclass
-class Options:
-    """kl_options; the defaults are the library's (kl_options_init)."""
-    tolerance: float = _DEFAULTS.tolerance
-    step_tolerance: float = _DEFAULTS.step_tolerance
-    max_iterations: int = _DEFAULTS.max_iterations
-    max_backtracks: int = _DEFAULTS.max_backtracks
-    max_step: float = _DEFAULTS.max_step
-    singular_rcond: float = _DEFAULTS.singular_rcond
-    kernel: Kernel = Kernel(_DEFAULTS.kernel)
-
-
-@dataclasses.dataclass(frozen=True)
-class SolveStats:
-    """kl_solve_stats: the last position solve attempt."""
-    status: Status
-    iterations: int
-    residual_evaluations: int
-    factorizations: int
-    backtracks: int
-    residual: float
-    step: float
-    rcond: float
-    kernel: Kernel
-
-
-@dataclasses.dataclass(frozen=True)
-class SweepSettings:
-    """kl_sweep_settings (C's `from` is from_, as Python spells keywords)."""
-    input: int
-    from_: float
-    to: float
-    steps: int
-
-
-@dataclasses.dataclass(frozen=True)
-class Output:
+class Output(_api.Output):
     """kl_output: a scalar output; build it with the class methods."""
-    kind: OutputKind
-    id: int
-    line_a: int = -1
-    line_b: int = -1
 
     @classmethod
     def link_angle(cls, link):
@@ -94,14 +47,8 @@ class Output:
         return cls(OutputKind.TRANSMISSION, joint, line_a, line_b)
 
 
-@dataclasses.dataclass(frozen=True)
-class Load:
+class Load(_api.Load):
     """kl_load: a force at a point or a torque on a link."""
-    kind: LoadKind
-    id: int
-    fx: float = 0.0
-    fy: float = 0.0
-    torque: float = 0.0
 
     @classmethod
     def force_at(cls, point, force):
@@ -114,12 +61,9 @@ class Load:
 
 
 @dataclasses.dataclass(frozen=True)
-class Dimension:
+class Dimension(_api.Dimension):
     """kl_dimension: one local coordinate (axis 0 or "x", 1 or "y") of a
     joint's attachment point on its link a or b, or of a point."""
-    kind: DimensionKind
-    id: int
-    axis: int
 
     def __post_init__(self):
         if self.axis in ("x", "y"):
@@ -138,64 +82,14 @@ class Dimension:
         return cls(DimensionKind.POINT, point, axis)
 
 
-@dataclasses.dataclass(frozen=True)
-class Range:
-    """kl_range: extremes of an output over a sweep."""
-    min: float
-    max: float
-    input_at_min: float
-    input_at_max: float
-    sweep_status: Status
-    limit_input: float
-
-    def time_ratio(self):
-        """kl_range_time_ratio: crank angle from minimum to maximum over the angle back."""
-        ratio = ctypes.c_double()
-        check_const(_api.kl_range_time_ratio(self, ctypes.byref(ratio)), "time_ratio", self)
-        return ratio.value
+VALUE_TYPES.update({raw.kl_output: Output, raw.kl_load: Load, raw.kl_dimension: Dimension})
 
 
-@dataclasses.dataclass(frozen=True)
-class StudySummary:
-    """kl_study_summary: one output over the samples, in the study file's
-    units. The statistics are over the samples that assembled and have a
-    value (a LIMITED sample has none for an input beyond its reach);
-    worst_sample counts from the first row summarized (-1 if there is none);
-    lower and upper are NaN without limits, first_order_std where no estimate
-    exists."""
-    samples: int
-    assembled: int
-    within_limits: int
-    nominal: float
-    mean: float
-    std: float
-    p01: float
-    p05: float
-    p50: float
-    p95: float
-    p99: float
-    min: float
-    max: float
-    worst: float
-    worst_sample: int
-    first_order_std: float
-    has_limits: bool
-    lower: float
-    upper: float
-    limited: int
-
-
-VALUE_TYPES.update({raw.kl_options: Options, raw.kl_solve_stats: SolveStats,
-                    raw.kl_sweep_settings: SweepSettings, raw.kl_output: Output,
-                    raw.kl_load: Load, raw.kl_dimension: Dimension, raw.kl_range: Range,
-                    raw.kl_study_summary: StudySummary})
-
-
-@dataclasses.dataclass
-class SweepResult:
-    """What Solver.sweep recorded, one row per delivered step, with the
-    fields of kl_sweep_result and a `message` (the solver's, for a limit or
-    a failure; "" otherwise).
+@dataclasses.dataclass(frozen=True, eq=False, kw_only=True)
+class SweepResult(_api.SweepResult):
+    """What Solver.sweep recorded: the fields of kl_sweep_result, one row per
+    delivered step, and a `message` (the solver's, for a limit or a
+    failure; "" otherwise).
 
     Columns are ids, and each array is named after the C getter that filled
     it: link_angle[:, link], joint_angle[:, joint], joint_slide[:, joint]
@@ -204,10 +98,6 @@ class SweepResult:
     acceleration of the swept input, so they read as the first- and
     second-order kinematic coefficients (d/du and d^2/du^2 of the swept
     input u)."""
-    status: Status
-    steps_done: int
-    limit_input: float
-    substeps: int
     message: str
     input: np.ndarray
     link_angle: np.ndarray

@@ -40,7 +40,6 @@ ELSEWHERE = {
     "kl_model_read_with_alloc": (kl.Model, "read_text"),  # read_text(allocator=...)
     "kl_model_read_file": (kl.Model, "read_file"),
     "kl_model_write": (kl.Model, "to_text"),
-    "kl_options_init": (kl, "values"),  # the defaults of kl.Options
     "kl_solver_new": (kl.Solver, "__init__"),
     "kl_solver_new_in": (kl.Solver, "__init__"),  # Solver(..., in_place=True)
     "kl_solver_free": (kl.Solver, "close"),
@@ -75,9 +74,19 @@ def test_the_header_declares_what_the_prototypes_hold():
     assert raw.missing == [], "the library lacks functions the header declares"
 
 
+# Not bound, and why: kl_options_init serves a struct mirror older than the
+# library; the bindings' structs are generated from the header the library
+# was built with (the import checks the version), so kl_options_default,
+# which Options' defaults come from, serves them.
+NOT_BOUND = {"kl_options_init"}
+
+
 @pytest.mark.parametrize("name,params", DECLARED, ids=[n for n, _ in DECLARED])
 def test_every_function_is_bound(name, params):
     generated = _api.GENERATED[name]
+    if name in NOT_BOUND:
+        assert generated is None and not re.search(r"\b%s\b" % name, source_of(kl.Options))
+        return
     if name in ELSEWHERE:
         home, attribute = ELSEWHERE[name]
     else:
