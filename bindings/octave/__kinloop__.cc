@@ -2,10 +2,13 @@
  * __kinloop__.cc - the Octave gateway to kinloop: one function taking a
  * command (a kl_ name without its prefix) and its arguments. The plain
  * functions' commands are generated (kinloop_gateway.inc); this file holds
- * the handle table, the argument rule, and the commands that add value:
- * lifetimes, arrays, model and study files, sweeps, figures and studies.
+ * the handle table, the argument rule, and the commands the generator
+ * leaves to hand code: lifetimes, model and study files, assembly modes,
+ * sweeps and study runs.
  */
 #include "gateway.h"
+
+#include <strings.h>
 
 #include <cstdlib>
 #include <cstring>
@@ -289,7 +292,7 @@ static octave_value text_value(const char *text) {
 namespace {
 
 /* ------------------------------------------------------------------------
- * Models: lifetime, loops, units, model files
+ * Models: lifetime, loops, model files
  * ------------------------------------------------------------------------ */
 
 octave_value_list cmd_model_new(const call &) {
@@ -385,7 +388,7 @@ octave_value_list cmd_model_write_file(const call &c) {
 }
 
 /* ------------------------------------------------------------------------
- * Solvers: lifetime, options, stages, states, assembly modes
+ * Solvers: lifetime, assembly modes
  * ------------------------------------------------------------------------ */
 
 /* kl_solver_new gives NULL without a message: say which cause it was. */
