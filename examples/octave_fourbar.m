@@ -9,8 +9,7 @@
 
 here = fileparts(mfilename('fullpath'));
 repo = fileparts(here);
-addpath(fullfile(repo, 'build', 'bindings', 'octave'));  % __kinloop__.oct
-addpath(fullfile(repo, 'bindings', 'octave'));           % +kinloop
+addpath(fullfile(repo, 'build', 'bindings', 'octave'));  % __kinloop__.oct and +kinloop
 if exist('__kinloop__') ~= 3
   error('octave_fourbar: no __kinloop__.oct in build/bindings/octave; build first: cmake -S . -B build && cmake --build build');
 end
@@ -30,7 +29,7 @@ m.add_input(motor);
 m.set_sketch_angle(coupler, 1.0);   % the open assembly, rocker leaning back
 m.set_sketch_angle(rocker, 2.0);
 m.finalize();
-[~, class_name] = m.grashof();
+class_name = m.grashof();
 printf('kinloop %s: %d links, %d joints, %d loop, %s\n', kinloop.version(), ...
        m.link_count(), m.joint_count(), m.loop_count(), class_name);
 
@@ -38,7 +37,7 @@ printf('kinloop %s: %d links, %d joints, %d loop, %s\n', kinloop.version(), ...
 s = kinloop.Solver(m);
 r = s.sweep(0, 0, 2 * pi, 72);
 blade = r.link_angle(:, rocker + 1) * 180 / pi;
-printf('sweep: %s, %d steps\n', r.status_name, r.steps_done);
+printf('sweep: %s, %d steps\n', r.status, r.steps_done);
 printf('blade swing: %.2f to %.2f deg (%.2f deg)\n', min(blade), max(blade), ...
        max(blade) - min(blade));
 % rates at a unit crank rate: the blade's velocity ratio
@@ -54,7 +53,7 @@ printf('transmission angle: %.2f deg (crank %.1f deg) to %.2f deg (crank %.1f de
        range.min * 180 / pi, range.input_at_min * 180 / pi, ...
        range.max * 180 / pi, range.input_at_max * 180 / pi);
 rocker_range = s.output_range(0, 0, 2 * pi, 72, struct('kind', 'link_angle', 'id', rocker));
-printf('time ratio of the blade''s swing: %.3f\n', kinloop.time_ratio(rocker_range));
+printf('time ratio of the blade''s swing: %.3f\n', kinloop.range_time_ratio(rocker_range));
 
 % ---- the coupler tip's path
 x = r.point_x(:, tip + 1);

@@ -1,11 +1,13 @@
 """The README's crank-rocker four-bar from Python: one position and velocity,
-then a full turn of the crank. Run: /usr/bin/python3 examples/python_fourbar.py"""
+then a full turn of the crank. Run: /usr/bin/python3 examples/python_fourbar.py
+after building into build/ (it uses the package the build assembled there;
+an installed kinloop needs only the import)."""
 import math
 import os
 import sys
 
 sys.path.insert(0, os.path.join(os.path.dirname(os.path.abspath(__file__)), os.pardir,
-                                "bindings", "python"))
+                                "build", "bindings", "python"))
 import kinloop as kl  # noqa: E402  (found through the line above)
 
 with kl.Model() as m:

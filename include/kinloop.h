@@ -910,12 +910,14 @@ KL_API int kl_solver_sweep(kl_solver *s, int input, double from, double to,
 
 /**
  * The change points the sweep under way (or the last one) has passed with
- * the option pass_change_points, and where it passed the last one into
- * `last_input` (may be NULL; NaN if none). Readable inside the sweep's
- * callback, so that each passage can be reported as it happens. Returns the
- * count, or KL_EINVAL for NULL. Never allocates.
+ * the option pass_change_points into `count`, and where it passed the last
+ * one into `last_input` (NaN if none); either pointer may be NULL.
+ * Readable inside the sweep's callback, so that each passage can be
+ * reported as it happens. Returns KL_OK, or KL_EINVAL for a NULL solver.
+ * Never allocates.
  */
-KL_API int kl_solver_passages(const kl_solver *s, double *last_input);
+KL_API int kl_solver_passages(const kl_solver *s, int *count,
+                              double *last_input);
 
 /* ------------------------------------------------------------------------
  * Going to a position; frames of links and joints; rows of every quantity
@@ -1054,8 +1056,8 @@ KL_API const char *kl_grashof_str(int cls);
 /**
  * The Grashof class of a finalized model that is a four-bar: ground and
  * three moving links joined in one loop by four revolute joints, its one
- * input at a ground pivot; the same as kl_model_loop_fourbar's for that
- * loop. Returns a kl_grashof_class, KL_EKIND (not such a four-bar),
+ * input at a ground pivot (kl_model_loop_fourbar reads the same class for
+ * that loop). Returns a kl_grashof_class, KL_EKIND (not such a four-bar),
  * KL_ESTATE (not finalized), KL_EINVAL (NULL, or a link length of 0).
  */
 KL_API int kl_model_grashof(const kl_model *m);

@@ -558,10 +558,12 @@ int kl_solver_sweep(kl_solver *s, int input, double from, double to, int steps,
   return st;
 }
 
-int kl_solver_passages(const kl_solver *s, double *last_input) {
+int kl_solver_passages(const kl_solver *s, int *count, double *last_input) {
   if (s == NULL)
     return KL_EINVAL;
+  if (count != NULL)
+    *count = s->passages;
   if (last_input != NULL)
     *last_input = s->last_passage;
-  return s->passages;
+  return KL_OK;
 }

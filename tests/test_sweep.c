@@ -495,7 +495,8 @@ static int check_passage_step(const kl_solver *s, int step, double u,
   passage_check *c = user;
   const fourbar *f = c->f;
   double t3, t4, last;
-  int passages = kl_solver_passages(s, &last);
+  int passages = -1;
+  kl_solver_passages(s, &passages, &last);
   (void)step;
   c->calls++;
   if (passages != c->last_passages && c->passages_seen < 8)

@@ -1,15 +1,12 @@
-classdef Study < kinloop.Readable
+classdef Study < kinloop.StudyMethods
   % kinloop.Study - a design study: a nominal model, the dimensions that
   % vary (tolerances drawn at random, or a grid), the outputs judged and
-  % their limits; read from a study file, then prepared once.
+  % their limits; read from a study file, immutable once read.
   %
-  %   st = kinloop.Study.read(text, model)   read against a kinloop.Model
-  %                                          (finalized); its 'model' line,
-  %                                          if any, is only recorded
-  %   st = kinloop.Study.read_file(path)     the model its 'model' line names,
-  %                                          relative to the study file
-  %   st.prepare()                           solves the nominal: run and
-  %                                          summarize need it
+  %   st = kinloop.Study.read(text [, base_dir])   its 'model' file is read
+  %                                                relative to base_dir (default:
+  %                                                the working directory)
+  %   st = kinloop.Study.read_file(path)           relative to the study file
   %
   % Samples are numbered from 0, as in C. [values, status, dims] = st.run()
   % gives one row per sample: values(i, k + 1) is output k (NaN where the
@@ -37,8 +34,8 @@ classdef Study < kinloop.Readable
       if nargin == 2 && ischar(how) && strcmp(how, 'adopt')
         obj.id = id;   % a study the gateway already holds
       else
-        error('kinloop:bad_argument', ...
-              'kinloop.Study: use kinloop.Study.read(text, model) or read_file(path)');
+        error('kinloop:EINVAL', ...
+              'kinloop.Study: use kinloop.Study.read(text [, base_dir]) or read_file(path)');
       end
     end
 
@@ -50,47 +47,22 @@ classdef Study < kinloop.Readable
       end
     end
 
-    function prepare(obj)
-      % Solves the nominal design at the start of the sweep, its outputs and
-      % their first-order estimates (kl_study_prepare); raises kinloop:ENOASSEMBLY
-      % and the like, with the reason, when the nominal cannot be judged.
-      __kinloop__('study_prepare', obj.id);
-    end
-
-    function msg = last_error(obj)
-      % The library's message for the study's last failed call.
-      msg = __kinloop__('study_error', obj.id);
-    end
-
-    function path = model_path(obj)
-      % The path the study's 'model' line gives, as written; [] if none.
-      path = __kinloop__('study_model_path', obj.id);
-    end
-
-    function n = sample_count(obj)
-      % The samples of a tolerance study, or every grid point of a grid study.
-      n = __kinloop__('study_sample_count', obj.id);
-    end
-
     function names = outputs(obj)
       % The outputs' names, a cell row in column order.
-      n = __kinloop__('study_output_count', obj.id);
-      names = arrayfun(@(k) __kinloop__('study_output_name', obj.id, k), 0:n - 1, ...
-                       'UniformOutput', false);
+      names = arrayfun(@(k) obj.output_name(k), 0:obj.output_count() - 1, 'UniformOutput', false);
     end
 
     function names = dimensions(obj)
       % Short texts naming the dimensions that vary ('rocker_pin b x'), a
       % cell row in column order.
-      n = __kinloop__('study_dimension_count', obj.id);
-      names = arrayfun(@(k) __kinloop__('study_dimension_name', obj.id, k), 0:n - 1, ...
+      names = arrayfun(@(k) obj.dimension_name(k), 0:obj.dimension_count() - 1, ...
                        'UniformOutput', false);
     end
 
     function m = model(obj)
       % The nominal model as a borrowed kinloop.Model: solvers can be made
       % from it; it keeps the study alive and cannot change or be freed.
-      m = kinloop.Model('borrow', __kinloop__('study_model', obj.id), obj);
+      m = kinloop.Model('adopt', __kinloop__('study_model', obj.id), obj);
     end
 
     function [values, status, dims] = run(obj, first, count, threads)
@@ -116,10 +88,7 @@ classdef Study < kinloop.Readable
     function s = summarize(obj, output, values, status)
       % summarize(output, values, status): output by name or by index (from
       % 0) over the rows of values and status as run gives them, read as
-      % samples 0 .. n - 1. A struct: samples, assembled, within_limits,
-      % limited, nominal, mean, std (n - 1), p01, p05, p50, p95, p99 (linear
-      % interpolation), min, max, worst, worst_sample (from 0; -1 if none),
-      % first_order_std, has_limits, lower, upper.
+      % samples 0 .. n - 1: a struct of the fields of kl_study_summary.
       if ischar(output)
         k = find(strcmp(obj.outputs(), output)) - 1;
         if isempty(k)
@@ -135,17 +104,21 @@ classdef Study < kinloop.Readable
 
   methods (Static)
     function [st, err] = read(text, model)
-      % st = kinloop.Study.read(text, model): the study holds the model, which
-      % may then be freed here. Raises kinloop:ESYNTAX etc. with 'line L,
-      % column C: ...'; with two outputs it does not raise: st is [] and err
-      % says why (status, status_name, line, column, message).
-      [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read', ...
-                                                 text, model.id);
+      % st = kinloop.Study.read(text, model): the study text read against a
+      % finalized kinloop.Model whose items it names; it holds the model (the
+      % caller's may go). Solves nothing: call st.prepare() before run.
+      % Raises kinloop:ESYNTAX etc. with 'line L, column C: ...'; with two
+      % outputs it does not raise: st is [] and err says why (status, line,
+      % column, message).
+      if ~isa(model, 'kinloop.Model')
+        error('kinloop:EINVAL', 'kinloop.Study.read: the second argument must be a kinloop.Model');
+      end
+      [st, err] = kinloop.Model.adopt_read(nargout, @kinloop.Study, 'study_read', text, model.id);
     end
 
     function [st, err] = read_file(path)
       % As read, from the file at path (kinloop:EIO when it cannot be read).
-      [st, err] = kinloop.Readable.read_adopting(nargout, @kinloop.Study, 'study_read_file', path);
+      [st, err] = kinloop.Model.adopt_read(nargout, @kinloop.Study, 'study_read_file', path);
     end
   end
 end

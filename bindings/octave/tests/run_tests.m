@@ -2,11 +2,11 @@
 % workspace of its own, and exits nonzero if any check fails or a test
 % leaves models or solvers behind.
 %   octave-cli --no-gui --norc --quiet run_tests.m OCT_DIR M_DIR
-% OCT_DIR holds __kinloop__.oct, M_DIR the +kinloop package.
+% OCT_DIR holds the test gateway __kinloop__.oct, M_DIR the +kinloop package.
 args = argv();
 if numel(args) >= 2
-  addpath(args{1});
   addpath(args{2});
+  addpath(args{1});   % the test gateway first, before the shipped one
 end
 addpath(fileparts(mfilename('fullpath')));
 scripts = dir(fullfile(fileparts(mfilename('fullpath')), 'test_*.m'));

@@ -22,13 +22,13 @@ mu_max = acos((f.b^2 + f.c^2 - (f.d + f.a)^2) / (2 * f.b * f.c));
 assert(abs(range.min - mu_min) <= 1e-9 && abs(range.max - mu_max) <= 1e-9, ...
        'range [%.12g %.12g], law of cosines [%.12g %.12g]', range.min, range.max, mu_min, mu_max);
 assert(abs(angle_diff(range.input_at_min, 0)) <= 1e-6 && abs(range.input_at_max - pi) <= 1e-6);
-assert(strcmp(range.sweep_status_name, 'OK'));
+assert(strcmp(range.sweep_status, 'OK'));
 % the time ratio of a crank-rocker from the rocker's extremes (quick-return
 % definition, docs/figures.md section 6): here only its consistency,
 % A / (2 pi - A) with A the crank angle from minimum to maximum
 rock = s.output_range(0, 0, 2 * pi, 72, struct('kind', 'link_angle', 'id', f.rocker));
 A = mod(rock.input_at_max - rock.input_at_min, 2 * pi);
-assert(abs(kinloop.time_ratio(rock) - A / (2 * pi - A)) <= 1e-12);
+assert(abs(kinloop.range_time_ratio(rock) - A / (2 * pi - A)) <= 1e-12);
 % the rocker's extreme positions are its toggles with the crank, where
 % crank and coupler line up: |O2 - rocker pin| = b + a or b - a, and the
 % rocker stands acos((c^2 + d^2 - L^2) / (2 c d)) from the line to O2 (law
@@ -66,7 +66,7 @@ assert(norm(p0 - (ahead - behind) / 2e-6) <= 1e-6 * f.b);
 % the rocker's mechanical advantage is the inverse velocity ratio
 % (virtual work, docs/figures.md section 7)
 rocker_angle = struct('kind', 'link_angle', 'id', f.rocker);
-assert(abs(s.mechanical_advantage(rocker_angle, 0) - 1 / w(2)) <= 1e-10 * abs(1 / w(2)));
+assert(abs(s.output_mechanical_advantage(rocker_angle, 0) - 1 / w(2)) <= 1e-10 * abs(1 / w(2)));
 assert(abs(s.output_deriv(rocker_angle, 0) - w(2)) <= 1e-10 * max(1, abs(w(2))));
 % a torque T on the rocker is held by a crank torque -T w4/w2 (virtual
 % work: Q = -T d t4 / d t2, docs/figures.md section 7)
@@ -89,6 +89,6 @@ assert(abs(sens - fd) <= 1e-7 * max(1, abs(fd)), 'sensitivity %.12g, difference 
 % worst case sum |d_k| t_k, root-sum-square sqrt(sum (d_k t_k)^2)
 dims = [dim, struct('kind', 'joint_a', 'id', f.crank_pin, 'axis', 'x')];
 d2 = s.output_sensitivity(rocker_angle, dims(2));
-[worst, rss] = s.tolerance_stack(rocker_angle, dims, [0.05 0.02]);
+[worst, rss] = s.output_tolerance_stack(rocker_angle, dims, [0.05 0.02]);
 assert(abs(worst - (abs(sens) * 0.05 + abs(d2) * 0.02)) <= 1e-14);
 assert(abs(rss - hypot(sens * 0.05, d2 * 0.02)) <= 1e-14);

@@ -19,8 +19,7 @@ for through = [false true]
   end
   m.add_input(pivot);
   m.finalize();
-  [kind, code] = m.joint_kind(slide);
-  assert(strcmp(kind, 'prismatic') && code == 1 && m.joint_axis(slide) == 0);
+  assert(strcmp(m.joint_kind(slide), 'prismatic') && m.joint_axis(slide) == 0);
   s = kinloop.Solver(m);
   s.set_link_angle(rod, -0.1);
   s.set_joint_slide(slide, 100);

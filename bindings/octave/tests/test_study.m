@@ -42,11 +42,11 @@ assert(std(dims(:, 1)) >= 0.7 * sigma && std(dims(:, 1)) <= 1.3 * sigma);
 
 % the nominal stroke ('swing slide rail' over the model's sweep, motor 0 to
 % 360 degrees in 72 steps) is the swing a Solver of the borrowed model finds
-w = m.sweep_settings();
+w = m.sweep();
 s = kinloop.Solver(m);
 s.solve_position(w.from);
 r = s.output_range(w.input, w.from, w.to, w.steps, ...
-                   struct('kind', 'slide', 'id', m.joint_find('rail')));
+                   struct('kind', 'slide', 'id', m.find_joint('rail')));
 stroke = st.summarize('stroke', values, status);
 assert(abs((r.max - r.min) - stroke.nominal) <= 1e-9, '%.17g vs %.17g', ...
        r.max - r.min, stroke.nominal);
@@ -68,7 +68,7 @@ assert(isequal(size(vt), [10 4]) && numel(st_tail) == 10);
 err = expect_error(@() st.run(0, 2001), 'kinloop:EINVAL');
 assert(~isempty(strfind(err.message, 'samples 0 .. 1999')), 'message: %s', err.message);
 expect_error(@() st.run(-1, 5), 'kinloop:EINVAL');
-expect_error(@() st.run(0, 1.5), 'kinloop:bad_argument');
+expect_error(@() st.run(0, 1.5), 'kinloop:EINVAL');
 [none, no_status] = st.run(2000);
 assert(isequal(size(none), [0 4]) && isempty(no_status));
 
@@ -125,8 +125,8 @@ sm = st.summarize('mu_min', blanked(1, :), marked(1));
 assert(sm.assembled == 0 && sm.worst_sample == -1 && isnan(sm.mean));
 expect_error(@() st.summarize('strok', values, status), 'kinloop:EID');
 expect_error(@() st.summarize(4, values, status), 'kinloop:EID');
-expect_error(@() st.summarize(0, values(:, 1:3), status), 'kinloop:bad_argument');
-expect_error(@() st.summarize(0, values, status(1:99)), 'kinloop:bad_argument');
+expect_error(@() st.summarize(0, values(:, 1:3), status), 'kinloop:EINVAL');
+expect_error(@() st.summarize(0, values, status(1:99)), 'kinloop:EINVAL');
 
 % samples stopped at a limit (geometry chosen for this test: the demo's
 % crank lengthened until the linkage no longer turns through the sweep);
@@ -173,7 +173,7 @@ where = sprintf('line 4, column %d: ', column);
 assert(strncmp(err.message, where, numel(where)), 'message: %s', err.message);
 assert(~isempty(strfind(err.message, '''z''')));
 [none, why] = kinloop.Study.read(bad, demo_model);
-assert(isempty(none) && strcmp(why.status_name, 'ESYNTAX') && why.line == 4 && why.column == column);
+assert(isempty(none) && strcmp(why.status, 'ESYNTAX') && why.line == 4 && why.column == column);
 % a study file's model is looked for beside it; the error names the
 % study's line and column of the path
 lone = [tempname(), '.study'];
@@ -185,13 +185,13 @@ unwind_protect
 unwind_protect_cleanup
   delete(lone);
 end_unwind_protect
-assert(isempty(none) && strcmp(why.status_name, 'EIO') && why.line == 2 && why.column == 7);
+assert(isempty(none) && strcmp(why.status, 'EIO') && why.line == 2 && why.column == 7);
 % found once every statement is read: no line
 [none, why] = kinloop.Study.read(sprintf('kinloop-study 1\nmodel flap-tucker.kinloop\nsamples 3\n'), demo_model);
 assert(isempty(none) && why.line == 0 && ~isempty(strfind(why.message, 'output')));
 err = expect_error(@() kinloop.Study.read_file(fullfile(tempdir(), 'no-such.study')), 'kinloop:EIO');
 assert(~isempty(strfind(err.message, 'no-such.study')));
-expect_error(@() kinloop.Study(), 'kinloop:bad_argument');
+expect_error(@() kinloop.Study(), 'kinloop:EINVAL');
 
 % ---- reading solves nothing; prepare says why a nominal cannot be judged ----
 % the demo's crank made so long (geometry chosen for this test) that crank +
@@ -200,11 +200,11 @@ expect_error(@() kinloop.Study(), 'kinloop:bad_argument');
 long_crank = kinloop.Model.read(strrep(demo_model.write(), 'crank 60 0', 'crank 140 0'));
 stuck = kinloop.Study.read(sprintf(['kinloop-study 1\nsamples 5\n' ...
                                     'output stroke swing slide rail\n']), long_crank);
-assert(isempty(stuck.model_path()) && isempty(stuck.last_error()));
+assert(isempty(stuck.model_path()) && isempty(stuck.error()));
 expect_error(@() stuck.run(0, 1), 'kinloop:ESTAGE');
 err = expect_error(@() stuck.prepare(), 'kinloop:ENOASSEMBLY');
 assert(~isempty(strfind(err.message, 'the nominal model')) && ...
-       strcmp(err.message, stuck.last_error()), 'message: %s', err.message);
+       strcmp(err.message, stuck.error()), 'message: %s', err.message);
 clear stuck
 % the study holds the model it is read against: the model's handle may go
 kept = kinloop.Study.read(sprintf(['kinloop-study 1\nsamples 3\n' ...

@@ -15,52 +15,25 @@ libkinloop (include/kinloop.h).
 
 Angles are radians, points are (x, y) tuples, ids are ints as in C. Negative
 statuses raise KinloopError; positive ones (Status.LIMIT, Status.STOPPED)
-are returned. The C layer itself is kinloop.raw (raw.lib.kl_*).
+are returned. Every value given reaches C exactly or is refused
+(KinloopError, Status.EINVAL): see kinloop._args. The C layer itself is
+kinloop.raw (raw.lib.kl_*).
 """
 
-from . import raw
-from ._core import (GROUND, AngleUnit, Dimension, DimensionKind, GrashofClass,
-                    JointKind, Kernel, KinloopError, LengthUnit, Load, LoadKind,
-                    Options, Output, OutputKind, Quantity, Range, SampleStatus,
-                    SolveStats, Status, StudyRun, StudySummary, SweepResult,
-                    SweepSettings, TransmissionSkipReason, angle_unit_str,
-                    grashof_str, length_unit_str, status_str)
-from ._core import check_const as _check_const
+from . import _api, _header, raw
+from ._api import *  # noqa: F401,F403  (value types and package functions, generated)
+from ._core import KinloopError
+from ._header import *  # noqa: F401,F403  (the enums and GROUND, generated)
 from .model import Model
 from .raw import MissingFunctionError
 from .solver import Solver
 from .study import Study
+from .values import Dimension, Load, Output, StudyRun, SweepResult
 
-__version__ = "%d.%d" % raw.WRITTEN_FOR
+__version__ = "%d.%d.%d" % raw.VERSION
 library_path = raw.library_path
 library_version = raw.library_version
 
-
-def version():
-    """kl_version: the loaded library's "MAJOR.MINOR.PATCH"."""
-    return raw.lib.kl_version().decode("ascii")
-
-
-def version_number():
-    """kl_version_number: MAJOR * 10000 + MINOR * 100 + PATCH."""
-    return raw.lib.kl_version_number()
-
-
-def grashof(ground, input, coupler, output):
-    """kl_grashof: the GrashofClass of a four-bar from its link lengths."""
-    return GrashofClass(_check_const(raw.lib.kl_grashof(ground, input, coupler, output),
-                                    "grashof(%r, %r, %r, %r)"
-                                    % (ground, input, coupler, output)))
-
-
-__all__ = [
-    "GROUND", "AngleUnit", "Dimension", "DimensionKind", "GrashofClass",
-    "JointKind", "Kernel", "KinloopError", "LengthUnit", "Load", "LoadKind",
-    "MissingFunctionError", "Model", "Options", "Output", "OutputKind",
-    "Quantity", "Range", "SampleStatus", "SolveStats", "Solver", "Status",
-    "Study", "StudyRun", "StudySummary", "SweepResult", "SweepSettings",
-    "TransmissionSkipReason",
-    "angle_unit_str", "grashof", "grashof_str", "length_unit_str",
-    "library_path", "library_version", "status_str", "version",
-    "version_number",
-]
+__all__ = sorted(set(_api.__all__ + _header.__all__ + [
+    "Dimension", "KinloopError", "Load", "MissingFunctionError", "Model", "Output", "Solver",
+    "Study", "StudyRun", "SweepResult", "library_path", "library_version"]))

@@ -1,6 +1,10 @@
-"""The binding tests import kinloop from bindings/python, never installed."""
-import os
+"""The binding tests import kinloop as the build assembled it (CTest puts
+build/bindings/python on PYTHONPATH), never from the source tree."""
 import sys
 
-sys.dont_write_bytecode = True  # keep the source tree clean
-sys.path.insert(0, os.path.normpath(os.path.join(os.path.dirname(__file__), os.pardir)))
+sys.dont_write_bytecode = True  # keep the build tree clean
+try:
+    import kinloop  # noqa: F401
+except ImportError as e:
+    raise ImportError("the tests need the package the build assembles: run them through "
+                      "ctest, or with PYTHONPATH=build/bindings/python (%s)" % e) from None

@@ -123,7 +123,7 @@ def test_calls_without_a_message_get_one_from_the_bindings():
     s = kl.Solver(f.model)
     e = raises_status(kl.Status.EID, s.point_position, 7)
     assert "point_position(7)" in e.message
-    raises_status(kl.Status.EID, f.model.link_find, "no such link")
+    raises_status(kl.Status.EID, f.model.find_link, "no such link")
     raises_status(kl.Status.EID, f.model.joint_links, 99)
     raises_status(kl.Status.EINVAL, kl.grashof, 100, 40, 120, -80)
     raises_status(kl.Status.ENONFINITE, kl.grashof, 100, math.nan, 120, 80)

@@ -109,7 +109,7 @@ def test_in_place_solver_takes_nothing_from_the_allocator():
     with kl.Model(allocator=alloc) as m:
         f, heap = solved_fourbar(m)
         calls = alloc.calls
-        assert kl.Solver.bytes_needed(m) > 0
+        assert m.solver_bytes > 0
         placed = kl.Solver(m, in_place=True)
         assert alloc.calls == calls
         sketch_branch(placed, f, 1.0, +1)

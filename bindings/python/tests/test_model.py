@@ -16,7 +16,7 @@ def test_what_is_built_reads_back():
     m = sc.model
     assert (m.link_count, m.joint_count, m.point_count, m.input_count) == (4, 4, 0, 1)
     assert [m.link_name(l) for l in range(4)] == ["ground", "crank", "rod", "block"]
-    assert m.link_find("rod") == sc.rod and m.link_name(99) is None
+    assert m.find_link("rod") == sc.rod and m.link_name(99) is None
     assert [m.joint_kind(j) for j in range(4)] == [kl.JointKind.REVOLUTE] * 3 + [
         kl.JointKind.PRISMATIC]
     assert m.joint_links(1) == ((sc.crank, sc.rod), (30.0, 0.0), (0.0, 0.0))
@@ -39,10 +39,10 @@ def test_points_joint_names_and_finding():
     unnamed = m.add_point(kl.GROUND, (1.0, 2.0))
     assert m.point_link(tip) == (f.rocker, (80.0, 15.0))
     assert m.point_name(tip) == "rocker tip" and m.point_name(unnamed) is None
-    assert m.point_find("coupler point") == f.point
+    assert m.find_point("coupler point") == f.point
     m.set_joint_name(f.pivot, "motor")
     assert m.joint_name(f.pivot) == "motor" and m.joint_name(f.crank_pin) is None
-    assert m.joint_find("motor") == f.pivot
+    assert m.find_joint("motor") == f.pivot
     with pytest.raises(kl.KinloopError) as info:
         m.set_joint_name(f.crank_pin, "motor")
     assert info.value.status == kl.Status.EDUPLICATE
@@ -55,7 +55,9 @@ def test_units_sketch_and_sweep_settings_are_recorded():
     f = build_fourbar(40, 120, 80, 100, finalize=False)
     m = f.model
     assert m.units == (kl.LengthUnit.UNSTATED, kl.AngleUnit.RAD)
-    assert m.sweep_settings is None
+    with pytest.raises(kl.KinloopError) as info:  # none recorded yet
+        m.sweep
+    assert info.value.status == kl.Status.EID
     m.set_units(kl.LengthUnit.MM, kl.AngleUnit.DEG)
     assert m.units == (kl.LengthUnit.MM, kl.AngleUnit.DEG)
     assert kl.length_unit_str(kl.LengthUnit.MM) == "mm"
@@ -64,10 +66,10 @@ def test_units_sketch_and_sweep_settings_are_recorded():
     with pytest.raises(kl.KinloopError) as info:
         m.set_units(7, kl.AngleUnit.RAD)
     assert info.value.status == kl.Status.EINVAL
-    m.set_sweep(0, 0.0, 2 * math.pi, 36)
-    assert m.sweep_settings == kl.SweepSettings(0, 0.0, 2 * math.pi, 36)
+    m.set_sweep(kl.SweepSettings(0, 0.0, 2 * math.pi, 36))
+    assert m.sweep == kl.SweepSettings(0, 0.0, 2 * math.pi, 36)
     with pytest.raises(kl.KinloopError) as info:
-        m.set_sweep(1, 0.0, 1.0, 10)
+        m.set_sweep(kl.SweepSettings(1, 0.0, 1.0, 10))
     assert info.value.status == kl.Status.EID
     # a sketch recorded in the model starts every new solver on its branch
     for branch in (+1, -1):

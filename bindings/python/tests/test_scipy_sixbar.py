@@ -141,7 +141,7 @@ def test_sixbar_sweep_agrees_with_scipy_body_coordinates():
         assert np.abs(residuals(z, u)).max() < 1e-11
         for link in range(1, 6):
             assert abs(angle_diff(r.link_angle[k, link], body(z, link)[1])) <= 1e-9
-        assert r.slide[k, SLIDE_JOINT] == pytest.approx(body(z, BLOCK)[0][0], abs=1e-9)
+        assert r.joint_slide[k, SLIDE_JOINT] == pytest.approx(body(z, BLOCK)[0][0], abs=1e-9)
         for point, (link, p) in enumerate(POINTS):
             origin, phi = body(z, link)
             expected = origin + rot(phi) @ p

@@ -82,9 +82,9 @@ def test_demo_run_shapes_and_dimensions(demo, demo_run):
     rail = dims[:, demo.dimensions.index("rail a y")]
     assert ((rail >= 260 - 0.2) & (rail <= 260 + 0.2)).all()
     assert rail.std(ddof=1) > 0.2 / math.sqrt(3) / 2  # spread over the band
-    nominal = {"crank_pin a x": m.joint_links(m.joint_find("crank_pin"))[1][0],
-               "pivot b x": m.joint_links(m.joint_find("pivot"))[2][0],
-               "tucker tip x": m.point_link(m.point_find("tucker tip"))[1][0]}
+    nominal = {"crank_pin a x": m.joint_links(m.find_joint("crank_pin"))[1][0],
+               "pivot b x": m.joint_links(m.find_joint("pivot"))[2][0],
+               "tucker tip x": m.point_link(m.find_point("tucker tip"))[1][0]}
     assert nominal == {"crank_pin a x": 60.0, "pivot b x": 220.0, "tucker tip x": 100.0}
     for name, centre in nominal.items():
         column = dims[:, demo.dimensions.index(name)]
@@ -98,11 +98,11 @@ def test_nominal_stroke_is_the_swing_a_solver_of_the_view_finds(demo):
     # sweep (motor 0 to 360 degrees in 72 steps): the same figure from a
     # Solver made on the borrowed model, through Solver.output_range
     m = demo.model
-    sweep = m.sweep_settings
+    sweep = m.sweep
     s = kl.Solver(m)
-    s.solve_position(sweep.start)
-    r = s.output_range(sweep.input, sweep.start, sweep.stop, sweep.steps,
-                       kl.Output.slide(m.joint_find("rail")))
+    s.solve_position(sweep.from_)
+    r = s.output_range(sweep.input, sweep.from_, sweep.to, sweep.steps,
+                       kl.Output.slide(m.find_joint("rail")))
     nominal = demo.summarize("stroke", *demo.run(0, 1)[:2]).nominal
     assert r.max - r.min == pytest.approx(nominal, abs=1e-9)
     # the file's claim: "is the plate's stroke still 213 +- 1.5 mm"
@@ -269,11 +269,11 @@ def test_grid_samples_every_combination_and_matches_an_edited_model():
             "ground 220 0", "ground %r 0" % pivot_x)
         assert edited.count("%r" % crank_x) >= 1
         m = kl.Model.read_text(edited)
-        sweep = m.sweep_settings
+        sweep = m.sweep
         s = kl.Solver(m)
-        s.solve_position(sweep.start)
-        r = s.output_range(sweep.input, sweep.start, sweep.stop, sweep.steps,
-                           kl.Output.slide(m.joint_find("rail")))
+        s.solve_position(sweep.from_)
+        r = s.output_range(sweep.input, sweep.from_, sweep.to, sweep.steps,
+                           kl.Output.slide(m.find_joint("rail")))
         assert r.max - r.min == pytest.approx(stroke, abs=1e-9)
 
 

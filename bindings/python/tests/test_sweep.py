@@ -29,7 +29,7 @@ def test_sweep_arrays_match_closed_forms():
     assert r.input == pytest.approx(np.linspace(0, 2 * math.pi, steps + 1), abs=1e-15)
     n = steps + 1
     assert r.link_angle.shape == r.link_accel.shape == (n, 4)  # ground included
-    assert r.slide.shape == (n, 4) and np.isnan(r.slide).all()  # all revolute
+    assert r.joint_slide.shape == (n, 4) and np.isnan(r.joint_slide).all()  # all revolute
     assert r.point_x.shape == r.point_ay.shape == (n, 1)
     assert (r.link_angle[:, kl.GROUND] == 0).all()
     assert (r.link_rate[:, f.crank] == 1).all()  # unit rate of the swept input
@@ -75,16 +75,16 @@ def test_sweep_of_a_slider_records_its_slide():
     joints = sc.model.joint_count
     for j in range(joints):
         sliding = sc.model.joint_kind(j) != kl.JointKind.REVOLUTE
-        assert np.isnan(r.slide[:, j]).all() != sliding
+        assert np.isnan(r.joint_slide[:, j]).all() != sliding
     for k, t in enumerate(r.input):
         # offset slider-crank closed form; its slide rate by a central
         # difference (h = 1e-6: truncation ~1e-10, rounding ~1e-8), to 1e-6
         x, _ = slider_crank_closed_form(sc, t)
-        assert r.slide[k, sc.slide] == pytest.approx(x, abs=1e-8)
+        assert r.joint_slide[k, sc.slide] == pytest.approx(x, abs=1e-8)
         h = 1e-6
         dx = (slider_crank_closed_form(sc, t + h)[0] -
               slider_crank_closed_form(sc, t - h)[0]) / (2 * h)
-        assert r.slide_rate[k, sc.slide] == pytest.approx(dx, abs=1e-6)
+        assert r.joint_slide_rate[k, sc.slide] == pytest.approx(dx, abs=1e-6)
 
 
 def non_grashof_fourbar():
@@ -94,7 +94,7 @@ def non_grashof_fourbar():
 
 def test_non_grashof_sweep_stops_at_the_law_of_cosines_limit():
     f = non_grashof_fourbar()
-    assert f.model.grashof() == kl.GrashofClass.TRIPLE_ROCKER
+    assert f.model.grashof == kl.GrashofClass.TRIPLE_ROCKER
     # the crank reaches at most acos((a^2 + d^2 - (b + c)^2) / (2 a d)), where
     # coupler and rocker lie in line (law of cosines)
     limit = math.acos((f.a ** 2 + f.d ** 2 - (f.b + f.c) ** 2) / (2 * f.a * f.d))
@@ -124,7 +124,7 @@ def test_change_point_raises_with_the_steps_delivered():
     # a parallelogram four-bar (a = c, b = d) folds into a line at crank
     # angle pi: Grashof's change point (s + l = p + q)
     f = build_fourbar(40, 100, 40, 100)
-    assert f.model.grashof() == kl.GrashofClass.CHANGE_POINT
+    assert f.model.grashof == kl.GrashofClass.CHANGE_POINT
     s = kl.Solver(f.model)
     s.set_link_angle(f.coupler, 0.05)
     s.set_link_angle(f.rocker, 0.6)
@@ -192,3 +192,51 @@ def test_callback_may_not_change_the_solver():
         with pytest.raises(RuntimeError):
             s.sweep(0, 0.0, 1.0, 4, callback=lambda solver, step, u: close())
     assert s.sweep(0, 0.0, 1.0, 4).status == kl.Status.OK
+
+
+def test_rows_are_the_same_with_and_without_a_callback():
+    """Without a callback the library records the rows (kl_solver_sweep_rows);
+    with one, the bindings read kl_solver_row at each step: the same numbers,
+    bit for bit, every quantity of the row included."""
+    f = build_fourbar(40, 120, 80, 100)  # crank-rocker, chosen for this test
+    s = kl.Solver(f.model)
+    sketch_branch(s, f, 0.0, +1)
+    start = s.copy()
+    fast = s.sweep(0, 0.0, 2 * math.pi, 24)
+    s.copy_state(start)
+    seen = []
+    slow = s.sweep(0, 0.0, 2 * math.pi, 24, callback=lambda sv, k, u: seen.append(sv.row()))
+    assert np.array_equal(fast.rows, slow.rows, equal_nan=True)
+    assert np.array_equal(np.array(seen), slow.rows, equal_nan=True)
+    layout = f.model.row_layout
+    assert list(layout) == [kl.quantity_str(q) for q in range(len(layout))]
+    assert layout["link_angle"][1] == 4 and layout["rcond"][1] == 1
+    sites = f.model.transmissions
+    assert fast.transmission.shape == (25, len(sites)) and len(sites) == 1
+    assert (fast.rcond[:, 0] > 1e-3).all()
+    assert (fast.input_rate[:, 0] == 1).all() and fast.input == pytest.approx(fast.input_value[:, 0])
+
+
+def test_a_parallelogram_passes_its_change_points_on_request():
+    """With pass_change_points the sweep goes through the parallelogram's
+    change points on the parallel branch: the rocker follows the crank (the
+    parallelogram's closed form, common practice, no source); each passage
+    counted and located (at pi and 2 pi here)."""
+    f = build_fourbar(40, 100, 40, 100)  # parallelogram, chosen for this test
+    s = kl.Solver(f.model, pass_change_points=1)
+    s.set_link_angle(f.coupler, 0.02)
+    s.set_link_angle(f.rocker, 0.48)
+    passages = []
+    r = s.sweep(0, 0.5, 0.5 + 2 * math.pi, 40,
+                callback=lambda sv, k, u: passages.append(sv.passages))
+    assert r.status == kl.Status.OK and r.passages == 2
+    assert r.passage_input == pytest.approx(2 * math.pi, abs=1e-9)
+    assert passages[-1][0] == 2 and passages[0][0] == 0
+    assert np.abs(wrapped(r.link_angle[:, f.rocker] - r.input)).max() < 1e-9
+    s.set_options(pass_change_points=0)
+    s.set_link_angle(f.coupler, 0.02)
+    s.set_link_angle(f.rocker, 0.48)
+    with pytest.raises(kl.KinloopError) as stop:
+        s.sweep(0, 0.5, 0.5 + 2 * math.pi, 40)
+    assert stop.value.status == kl.Status.ESINGULAR
+    assert stop.value.result.limit_input == pytest.approx(math.pi, abs=1e-9)

@@ -80,11 +80,11 @@ def test_fourbar_coefficients_match_sympy():
         at = (u, s.link_angle(f.coupler), s.link_angle(f.rocker))
         for link, first_fn, second_fn in ((f.coupler, d1[0], d2[0]),
                                           (f.rocker, d1[1], d2[1])):
-            assert s.link_angle_deriv(link) == pytest.approx(first_fn(*at), abs=1e-10)
-            assert s.link_angle_deriv2(link) == pytest.approx(second_fn(*at), abs=1e-10)
-        assert s.point_deriv(f.point) == pytest.approx((p1[0](*at), p1[1](*at)), abs=1e-10)
-        assert s.point_deriv2(f.point) == pytest.approx((p2[0](*at), p2[1](*at)), abs=1e-10)
-        assert s.output_deriv(kl.Output.link_angle(f.rocker)) == pytest.approx(
+            assert s.link_angle_deriv(link, 0) == pytest.approx(first_fn(*at), abs=1e-10)
+            assert s.link_angle_deriv2(link, 0, 0) == pytest.approx(second_fn(*at), abs=1e-10)
+        assert s.point_deriv(f.point, 0) == pytest.approx((p1[0](*at), p1[1](*at)), abs=1e-10)
+        assert s.point_deriv2(f.point, 0, 0) == pytest.approx((p2[0](*at), p2[1](*at)), abs=1e-10)
+        assert s.output_deriv(kl.Output.link_angle(f.rocker), 0) == pytest.approx(
             d1[1](*at), abs=1e-10)
         # the stages by the chain rule: omega = q' w2, alpha = q'' w2^2 + q' alpha2
         s.solve_velocity(w2)
@@ -115,5 +115,5 @@ def test_slider_crank_slide_coefficients_match_sympy():
         s.solve_position(u)
         s.solve_coefficients()
         at = (u, s.link_angle(sc.rod), s.joint_slide(sc.slide))
-        assert s.joint_slide_deriv(sc.slide) == pytest.approx(dx1(*at), abs=1e-10)
-        assert s.joint_slide_deriv2(sc.slide) == pytest.approx(dx2(*at), abs=1e-10)
+        assert s.joint_slide_deriv(sc.slide, 0) == pytest.approx(dx1(*at), abs=1e-10)
+        assert s.joint_slide_deriv2(sc.slide, 0, 0) == pytest.approx(dx2(*at), abs=1e-10)

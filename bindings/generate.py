@@ -1,0 +1,1214 @@
+#!/usr/bin/env python3
+"""Generates the mechanical part of kinloop's Python and Octave bindings
+from include/kinloop.h, at build time (standard library only).
+
+    generate.py python HEADER OUT_DIR   writes OUT_DIR/_header.py, _api.py
+    generate.py octave HEADER OUT_DIR   writes OUT_DIR/kinloop_gateway.inc and
+                                        OUT_DIR/+kinloop/*Methods.m and the
+                                        package functions of plain calls
+    generate.py layout HEADER OUT.c     writes the layout probe (a C program)
+    generate.py list HEADER             prints how each function is bound
+
+The header is the one source: its KL_API prototypes, enums, structs, handle
+and callback typedefs, version macros and doc comments, with one table here
+(POINTERS) for the pointer parameters whose meaning its C types cannot
+carry. A function is "plain", and gets a generated method, when its
+parameters are a handle (first only), scalars (int, long, size_t, double),
+strings (const char *), fixed arrays it fills (double xy[2]), sized structs
+(first field size_t size) read or filled whole, and pointers POINTERS
+explains; its result a scalar, a string or void. Everything else (callbacks,
+new handles, buffers with sizes, arrays of arrays) is left to the
+hand-written part of each binding. DEVELOPERS.md says more.
+"""
+
+import keyword
+import os
+import re
+import sys
+
+SCALARS = ("int", "long", "size_t", "double")
+HANDLES = ("model", "solver", "study")
+
+
+# ---------------------------------------------------------------------------
+# Reading the header
+# ---------------------------------------------------------------------------
+
+def clean_doc(raw):
+    """The text of a doc comment without its markers and leading stars."""
+    lines = []
+    for line in raw.splitlines():
+        line = line.strip()
+        line = re.sub(r"^\*+\s?", "", line) if not line.startswith("*/") else ""
+        lines.append(line)
+    text = "\n".join(lines).strip()
+    return re.sub(r"\n{3,}", "\n\n", text)
+
+
+class Header:
+    """What bindings need to know of include/kinloop.h."""
+
+    def __init__(self, text):
+        self.text = text
+        self.version = tuple(int(re.search(r"#define KINLOOP_VERSION_%s (\d+)" % p,
+                                           text).group(1))
+                             for p in ("MAJOR", "MINOR", "PATCH"))
+        self.ground = int(re.search(r"#define KL_GROUND (\d+)", text).group(1))
+        self.handles = re.findall(r"typedef struct (kl_\w+) \1;", text)
+        self.enums = self._enums()
+        self.structs = self._structs()
+        self.callbacks = self._callbacks()
+        self.functions = self._functions()
+
+    def doc_before(self, start):
+        """The /** */ comment that ends right before `start`, or ""."""
+        head = self.text[:start].rstrip()
+        if not head.endswith("*/"):
+            return ""
+        open_at = head.rfind("/**")
+        if open_at < 0 or "*/" in head[open_at:-2]:
+            return ""
+        return clean_doc(head[open_at + 3:-2])
+
+    def _enums(self):
+        enums = []
+        for m in re.finditer(r"^enum (kl_\w+)\s*\{(.*?)\};", self.text, re.S | re.M):
+            name, body = m.groups()
+            values, nxt = [], 0
+            for item in re.finditer(r"(KL_\w+)(?:\s*=\s*(-?\d+))?\s*,?[ \t]*"
+                                    r"(?:/\*\*<(.*?)\*/)?", body, re.S):
+                const, value, doc = item.groups()
+                nxt = int(value) if value is not None else nxt
+                values.append((const, nxt, clean_doc(doc or "")))
+                nxt += 1
+            prefix = os.path.commonprefix([v[0] for v in values])
+            prefix = prefix[:prefix.rfind("_") + 1] if len(values) > 1 else "KL_"
+            enums.append(Enum(name, self.doc_before(m.start()), prefix, values))
+        return enums
+
+    def _structs(self):
+        structs = []
+        for m in re.finditer(r"^typedef struct (kl_\w+)\s*\{(.*?)\}\s*\1;", self.text,
+                             re.S | re.M):
+            name, body = m.groups()
+            fields = []
+            for f in re.finditer(r"([\w ]+?)\s+(\w+)(?:\[(\d+)\])?;[ \t]*"
+                                 r"(?:/\*\*<(.*?)\*/)?", body, re.S):
+                ctype, fname, length, doc = f.groups()
+                fields.append(Field(" ".join(ctype.split()), fname,
+                                    int(length) if length else None,
+                                    clean_doc(doc or "")))
+            structs.append(Struct(name, self.doc_before(m.start()), fields))
+        return structs
+
+    def _callbacks(self):
+        return {m.group(2): (m.group(1).strip(), split_params(m.group(3)))
+                for m in re.finditer(r"typedef\s+([^;()]*?)\(\s*\*\s*(kl_\w+)\s*\)"
+                                     r"\s*\(([^)]*)\)\s*;", self.text)}
+
+    def _functions(self):
+        functions = []
+        for m in re.finditer(r"^KL_API\s+([^;(#]*?)\b(kl_\w+)\s*\(([^)]*)\)\s*;"
+                             r"(?:[ \t]*/\*\*<(.*?)\*/)?", self.text, re.S | re.M):
+            result, name, params, trailing = m.groups()
+            doc = clean_doc(trailing) if trailing else self.doc_before(m.start())
+            functions.append(Function(name, " ".join(result.split()),
+                                      [Param.parse(p) for p in split_params(params)],
+                                      doc))
+        return functions
+
+    def struct(self, name):
+        return next((s for s in self.structs if s.name == name), None)
+
+    def enum(self, name):
+        return next((e for e in self.enums if e.name == name), None)
+
+    def function(self, name):
+        return next((f for f in self.functions if f.name == name), None)
+
+
+def split_params(params):
+    params = " ".join(params.split())
+    return [] if params in ("", "void") else [p.strip() for p in params.split(",")]
+
+
+class Enum:
+    def __init__(self, name, doc, prefix, values):
+        self.name, self.doc, self.prefix, self.values = name, doc, prefix, values
+        self.short = name[3:]  # without kl_
+        self.python = camel(self.short)
+
+    def member(self, const):
+        return const[len(self.prefix):]
+
+    def octave_name(self, const):
+        """Statuses keep the header's spelling (they are error ids); other
+        values are lower case, as Octave code writes them."""
+        member = self.member(const)
+        return member if self.name == "kl_status" else member.lower()
+
+
+class Field:
+    def __init__(self, ctype, name, length, doc):
+        self.ctype, self.name, self.length, self.doc = ctype, name, length, doc
+
+
+class Struct:
+    def __init__(self, name, doc, fields):
+        self.name, self.doc, self.fields = name, doc, fields
+        self.sized = bool(fields) and fields[0].name == "size" and fields[0].ctype == "size_t"
+        self.reports_error = any(f.name == "message" for f in fields)
+
+    def value_fields(self):
+        return self.fields[1:] if self.sized else self.fields
+
+
+def camel(name):
+    return "".join(part.capitalize() for part in name.split("_"))
+
+
+class Param:
+    """One C parameter: base type, constness of what it points to, pointer
+    depth, fixed array length, and name."""
+
+    def __init__(self, decl, base, const, pointers, length, name):
+        self.decl, self.base, self.const = decl, base, const
+        self.pointers, self.length, self.name = pointers, length, name
+
+    @classmethod
+    def parse(cls, decl):
+        d = decl.replace("*", " * ")
+        length = re.search(r"\[(\d+)\]\s*$", d)
+        d = re.sub(r"\[\d+\]\s*$", "", d)
+        tokens = d.split()
+        const = tokens[0] == "const"
+        words = [t for t in tokens if t not in ("const", "*")]
+        base = words[0]
+        name = words[1] if len(words) > 1 else ""
+        return cls(decl, base, const, tokens.count("*"),
+                   int(length.group(1)) if length else None, name)
+
+
+class Function:
+    def __init__(self, name, result, params, doc):
+        self.name, self.result, self.params, self.doc = name, result, params, doc
+
+
+# ---------------------------------------------------------------------------
+# Pointers the C type cannot explain
+# ---------------------------------------------------------------------------
+
+# What the pointer parameters of these functions are, where the C type
+# alone cannot say (a double * may be one value or an array): "out", one
+# value the function fills; "one", one struct it reads; the name of the int
+# parameter that counts an array; "inputs", one value per input of the
+# model. The header documents the same in words. Handles, fixed arrays
+# (double xy[2]) and sized structs need no entry; a function with any
+# other pointer is bound by hand. generate.py stops if an entry names a
+# function or parameter the header does not declare.
+POINTERS = {
+    "kl_add_loop": {"joints": "njoints"},
+    "kl_model_units": {"length_unit": "out", "angle_unit": "out"},
+    "kl_solve_position": {"inputs": "inputs"},
+    "kl_solve_velocity": {"input_rates": "inputs"},
+    "kl_solve_acceleration": {"input_accels": "inputs"},
+    "kl_output_value": {"o": "one", "value": "out"},
+    "kl_output_deriv": {"o": "one", "deriv": "out"},
+    "kl_output_range": {"o": "one"},
+    "kl_range_time_ratio": {"ratio": "out"},
+    "kl_output_mechanical_advantage": {"o": "one", "ma": "out"},
+    "kl_input_effort": {"loads": "nloads", "efforts": "inputs"},
+    "kl_output_sensitivity": {"o": "one", "dim": "one", "deriv": "out"},
+    "kl_model_start_inputs": {"inputs": "inputs"},
+    "kl_model_row_offset": {"count": "out"},
+    "kl_solver_passages": {"count": "out", "last_input": "out"},
+    "kl_solver_reach": {"inputs": "inputs"},
+    "kl_input_effort_range": {"loads": "nloads"},
+    "kl_output_tolerance_stack": {"o": "one", "dims": "n", "tolerances": "n",
+                                  "worst": "out", "rss": "out"},
+}
+
+
+def check_pointers(header):
+    for name, roles in POINTERS.items():
+        f = header.function(name)
+        if f is None:
+            sys.exit("generate.py: POINTERS names %s, which include/kinloop.h does not "
+                     "declare" % name)
+        params = {p.name: p for p in f.params}
+        for param, role in roles.items():
+            if param not in params or not params[param].pointers:
+                sys.exit("generate.py: POINTERS names %s's pointer parameter %r, which "
+                         "include/kinloop.h does not declare" % (name, param))
+            if role not in ("out", "one", "inputs") and \
+                    (role not in params or params[role].base != "int" or params[role].pointers):
+                sys.exit("generate.py: POINTERS counts %s's %r by %r, which is not an int "
+                         "parameter of it" % (name, param, role))
+
+
+# ---------------------------------------------------------------------------
+# Classifying: what each parameter is to a binding, and which functions are
+# plain
+# ---------------------------------------------------------------------------
+
+class Arg:
+    """A parameter as the bindings see it. kind is one of
+      handle       the model, solver or study (first parameter)
+      handle_in    another handle the function reads (a solver to copy from)
+      scalar       int, long, size_t, double (an enum where an int is named
+                   after one: length_unit)
+      point        two doubles named <p>x, <p>y, given as one pair
+      point_array  const double p[2], given as one pair
+      string       const char *
+      count        an int that counts an array: the array's length
+      array_in     const T * of `count` elements (ints, doubles or structs)
+      inputs_in    const double *, one per input of the model
+      struct_in    one struct read (a sized one, or "one" in POINTERS)
+      out_value    one int or double the function fills
+      out_array    a fixed array the function fills (double xy[2])
+      inputs_out   double *, one per input, filled
+      struct_out   one sized struct filled"""
+
+    def __init__(self, kind, name, params, ctype=None, length=None, enum=None,
+                 struct=None, const=False, optional=False, count=None):
+        self.kind, self.name, self.params = kind, name, params
+        self.ctype, self.length, self.enum, self.struct = ctype, length, enum, struct
+        self.const, self.optional, self.count = const, optional, count
+
+    @property
+    def is_input(self):
+        return self.kind in ("scalar", "point", "point_array", "string", "array_in",
+                             "inputs_in", "struct_in", "handle_in")
+
+    @property
+    def is_output(self):
+        return self.kind in ("out_value", "out_array", "inputs_out", "struct_out")
+
+
+class Binding:
+    """How one function is bound: plain (generated) or not, and if plain,
+    its handle (or value struct), its arguments, and what its result means."""
+
+    def __init__(self, header, f):
+        self.f = f
+        self.name = f.name
+        self.plain, self.why = True, ""
+        self.args = []
+        self.handle = None       # model, solver or study
+        self.handle_const = False
+        self.owner = None        # the value struct a kl_<struct>_<verb> belongs to
+        self._classify(header)
+        if self.plain:
+            self._result(header)
+
+    def refuse(self, why):
+        if self.plain:
+            self.plain, self.why = False, why
+
+    def _classify(self, header):
+        f = self.f
+        roles = POINTERS.get(f.name, {})
+        if f.name.endswith("_free"):
+            self.refuse("frees a handle")
+        if f.result not in ("void", "int", "long", "size_t", "double", "const char *"):
+            self.refuse("returns %s" % f.result)
+        params = list(f.params)
+        if any(p.base == "size_t" and not p.pointers for p in params) and \
+                any(p.pointers and p.base[3:] not in HANDLES for p in params):
+            self.refuse("a size_t sizes the memory of a pointer argument")
+        counts = {role for role in roles.values() if role not in ("out", "one", "inputs")}
+        k = 0
+        while k < len(params):
+            p = params[k]
+            nxt = params[k + 1] if k + 1 < len(params) else None
+            struct = header.struct(p.base)
+            role = roles.get(p.name)
+            if p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
+                    and k == 0:
+                self.handle, self.handle_const = p.base[3:], p.const
+                self.args.append(Arg("handle", p.name, [p], const=p.const))
+            elif p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
+                    and p.const:
+                self.args.append(Arg("handle_in", p.name, [p], ctype=p.base[3:]))
+            elif p.name in counts and p.base == "int" and not p.pointers:
+                self.args.append(Arg("count", p.name, [p]))
+            elif p.base == "double" and not p.pointers and p.length is None and \
+                    p.name.endswith("x") and nxt is not None and nxt.base == "double" and \
+                    not nxt.pointers and nxt.length is None and \
+                    nxt.name == p.name[:-1] + "y":
+                stem = p.name[:-1]
+                self.args.append(Arg("point", stem + "_xy" if stem else "xy", [p, nxt]))
+                k += 1
+            elif p.base in SCALARS and not p.pointers and p.length is None:
+                self.args.append(Arg("scalar", p.name, [p], ctype=p.base,
+                                     enum=header.enum("kl_" + p.name)
+                                     if p.base == "int" else None))
+            elif p.base == "char" and p.const and p.pointers == 1:
+                self.args.append(Arg("string", p.name, [p]))
+            elif p.base == "double" and p.const and p.length == 2 and not p.pointers:
+                self.args.append(Arg("point_array", p.name, [p]))
+            elif p.base in ("int", "double") and not p.const and p.length and \
+                    not p.pointers:
+                self.args.append(Arg("out_array", p.name, [p], ctype=p.base,
+                                     length=p.length))
+            elif role == "out" and p.base in ("int", "double") and not p.const and \
+                    p.pointers == 1:
+                self.args.append(Arg("out_value", p.name, [p], ctype=p.base,
+                                     enum=header.enum("kl_" + p.name)
+                                     if p.base == "int" else None))
+            elif role == "inputs" and p.base == "double" and p.pointers == 1:
+                self.args.append(Arg("inputs_in" if p.const else "inputs_out", p.name, [p]))
+            elif role in counts and p.const and p.pointers == 1 and \
+                    (p.base in ("int", "double") or struct is not None):
+                self.args.append(Arg("array_in", p.name, [p], ctype=p.base, struct=struct,
+                                     count=role))
+            elif struct is not None and p.pointers == 1 and not struct.reports_error and \
+                    (struct.sized or (role == "one" and p.const)):
+                if k == 0 and p.const:
+                    self.owner = struct
+                self.args.append(Arg("struct_in" if p.const else "struct_out", p.name,
+                                     [p], struct=struct))
+            else:
+                self.refuse("parameter %r is not a scalar, string, fixed array or sized "
+                            "struct, and POINTERS does not say what it is" % p.decl)
+                self.args.append(Arg("other", p.name, [p]))
+            k += 1
+        # a builder's trailing name may be left out (NULL: an unnamed item)
+        if f.name.startswith("kl_add_") and self.args and \
+                self.args[-1].kind == "string" and self.args[-1].name == "name":
+            self.args[-1].optional = True
+        if self.handle is None and any(a.kind.startswith("inputs_") for a in self.args):
+            self.refuse("an inputs array needs a model or solver to count the inputs")
+
+    def _result(self, header):
+        f = self.f
+        # a function that fills a value or a struct returns whether it did
+        self.status = f.result == "int" and (returns_status(header, f) or any(
+            a.kind in ("struct_out", "out_value", "inputs_out") for a in self.args))
+        self.enum = None
+        self.boolean = f.result == "int" and "_is_" in f.name
+        if f.result == "int" and not self.status and not self.boolean:
+            for e in header.enums:
+                if e.name == "kl_status":
+                    continue
+                if re.search(r"\b%s\b" % e.name, f.doc) or \
+                        any(re.search(r"\b%s\b" % v[0], f.doc) for v in e.values):
+                    self.enum = e
+                    break
+
+    @property
+    def outputs(self):
+        return [a for a in self.args if a.is_output]
+
+    @property
+    def inputs(self):
+        """What the caller gives: the arguments after the handle or the
+        value struct the function belongs to."""
+        ins = [a for a in self.args if a.is_input]
+        return ins[1:] if self.owner is not None else ins
+
+    @property
+    def value_result(self):
+        """Whether the C result is handed to the caller (a status is not)."""
+        return self.f.result != "void" and not self.status
+
+    @property
+    def method(self):
+        """The method's (or package function's) name: the C name without
+        kl_ and without the prefix of its handle or value struct."""
+        name = self.name[3:]
+        prefix = self.handle or (self.owner.name[3:] if self.owner else None)
+        if prefix and name.startswith(prefix + "_"):
+            name = name[len(prefix) + 1:]
+        return name
+
+    @property
+    def command(self):
+        """The Octave gateway command: the C name without kl_."""
+        return self.name[3:]
+
+    @property
+    def is_property(self):
+        """A getter of a const handle that takes nothing else (Python)."""
+        return self.handle is not None and self.handle_const and not self.inputs and \
+            (self.value_result or self.outputs)
+
+    @property
+    def vectorized(self):
+        """Octave: a double getter over ids takes a vector of them."""
+        ins = self.inputs
+        return (self.f.result == "double" and self.handle_const and ins and
+                ins[0].kind == "scalar" and ins[0].ctype == "int" and not self.outputs)
+
+
+def is_path(name):
+    """A string parameter named path or ..._dir is a file system path."""
+    return name == "path" or name.endswith("_dir")
+
+
+def returns_status(header, f, seen=()):
+    """A function returns a status when its doc names KL_OK, or when it
+    returns 'as' another function that does."""
+    if "KL_OK" in f.doc:
+        return True
+    m = re.search(r"\b[Aa]s (kl_\w+)", f.doc)
+    if m and m.group(1) not in seen:
+        other = header.function(m.group(1))
+        return other is not None and other.result == "int" and \
+            returns_status(header, other, seen + (f.name,))
+    return False
+
+
+def enum_texts(header, bs):
+    """(enum, binding) of each kl_..._str text function: the enum its one
+    parameter is named after, or that its doc names."""
+    found = []
+    for b in bs:
+        ins = b.inputs
+        if not (b.plain and b.handle is None and b.name.endswith("_str") and
+                b.f.result == "const char *" and len(ins) == 1 and ins[0].kind == "scalar"):
+            continue
+        e = ins[0].enum or next((e for e in header.enums
+                                 if re.search(r"\b%s\b" % e.name, b.f.doc)), None)
+        if e is not None:
+            found.append((e, b))
+    return found
+
+
+def field_enum(header, fl):
+    """The enum an int field holds: named after it (status, kernel), named
+    in its doc (enum kl_output_kind), or whose values its doc names."""
+    if fl.ctype != "int" or fl.length is not None:
+        return None
+    for e in header.enums:
+        if fl.name == e.short or re.search(r"\benum %s\b" % e.name, fl.doc):
+            return e
+    for e in header.enums:
+        if any(re.search(r"\b%s\b" % v[0], fl.doc) for v in e.values):
+            return e
+    return None
+
+
+def is_flag(fl):
+    """An int field that says yes or no (has_limits)."""
+    return fl.ctype == "int" and re.match(r"(has|is)_", fl.name) is not None
+
+
+def bindings(header):
+    return [Binding(header, f) for f in header.functions]
+
+
+# ---------------------------------------------------------------------------
+# Python
+# ---------------------------------------------------------------------------
+
+GENERATED = "Generated by bindings/generate.py from include/kinloop.h: do not edit."
+
+
+def py_name(name):
+    """A C name as Python spells it: keywords take a trailing underscore."""
+    return name + "_" if keyword.iskeyword(name) else name
+
+
+def py_ctype(header, base, pointers, const, length=None):
+    """The ctypes expression for a C type."""
+    basics = {"int": "ctypes.c_int", "long": "ctypes.c_long", "double": "ctypes.c_double",
+              "size_t": "ctypes.c_size_t"}
+    if base in header.callbacks:
+        return base
+    if base == "char" and pointers == 1:
+        return "ctypes.c_char_p" if const else "ctypes.c_void_p"
+    if base == "void":
+        return "ctypes.c_void_p" if pointers == 1 else "None"
+    if base.startswith("kl_") and base[3:] in HANDLES:
+        target, pointers = base[3:] + "_p", pointers - 1
+    elif header.struct(base):
+        target = base
+    else:
+        target = basics[base]
+    if length is not None:
+        pointers += 1
+    for _ in range(pointers):
+        target = "ctypes.POINTER(%s)" % target
+    return target
+
+
+def py_result_ctype(header, result):
+    r = result.replace("*", " * ")
+    const = r.split()[0] == "const"
+    words = [w for w in r.split() if w not in ("const", "*")]
+    return py_ctype(header, words[0], r.count("*"), const)
+
+
+def py_docstring(text, indent):
+    text = text.replace("\\", "\\\\").replace('"""', '\\"\\"\\"')
+    lines = text.splitlines() or [""]
+    pad = " " * indent
+    body = ("\n".join(pad + l if l else "" for l in lines[1:]))
+    if len(lines) == 1:
+        return '%s"""%s"""' % (pad, lines[0])
+    return '%s"""%s\n%s\n%s"""' % (pad, lines[0], body, pad)
+
+
+def python_header(header):
+    out = ['"""The declarations of include/kinloop.h for ctypes: version, enums,',
+           'opaque handles, callback types, structs, and every prototype.', "",
+           GENERATED + '"""', "", "import ctypes", "import enum", "",
+           "#: KINLOOP_VERSION_MAJOR, _MINOR, _PATCH of the header",
+           "VERSION = %r" % (header.version,),
+           "#: KL_GROUND: the link id of ground", "GROUND = %d" % header.ground, ""]
+    for e in header.enums:
+        out += ["", "class %s(enum.IntEnum):" % e.python,
+                py_docstring("enum %s: %s" % (e.name, e.doc), 4)]
+        for const, value, doc in e.values:
+            out.append("    %s = %d%s" % (e.member(const), value,
+                                          "  # " + " ".join(doc.split()) if doc else ""))
+        out.append("")
+    for h in header.handles:
+        out += ["", "class %s(ctypes.Structure):" % h,
+                '    """Opaque: only pointers to it exist."""', "    _fields_ = []", "",
+                "", "%s_p = ctypes.POINTER(%s)" % (h[3:], h), ""]
+    for name, (result, params) in header.callbacks.items():
+        types = [py_result_ctype(header, result)]
+        for p in map(Param.parse, params):
+            types.append(py_ctype(header, p.base, p.pointers, p.const, p.length))
+        out += ["#: %s" % name, "%s = ctypes.CFUNCTYPE(%s)" % (name, ", ".join(types)), ""]
+    out += ["", "class Sized(ctypes.Structure):",
+            '    """A struct whose first field, size, is set to its sizeof when made."""',
+            "", "    def __init__(self, *args, **fields):",
+            "        super().__init__(*args, **fields)",
+            "        self.size = ctypes.sizeof(self)", ""]
+    for s in header.structs:
+        out += ["", "class %s(%s):" % (s.name, "Sized" if s.sized else "ctypes.Structure"),
+                py_docstring(s.doc, 4), "    _fields_ = ["]
+        for fl in s.fields:
+            if fl.length is not None:
+                base = "ctypes.c_char" if fl.ctype == "char" else \
+                    py_ctype(header, fl.ctype, 0, False)
+                t = "%s * %d" % (base, fl.length)
+            else:
+                t = py_ctype(header, fl.ctype, 0, False)
+            out.append("        (%r, %s),  # %s" % (fl.name, t, " ".join(fl.doc.split())[:60]))
+        out += ["    ]", ""]
+    out += ["", "#: what the kinloop package exports from here",
+            "__all__ = %r" % (["GROUND"] + [e.python for e in header.enums],)]
+    out += ["", "#: every KL_API function: name -> (restype, argtypes), in the header's order",
+            "PROTOTYPES = {"]
+    for f in header.functions:
+        args = [py_ctype(header, p.base, p.pointers, p.const, p.length) for p in f.params]
+        out.append("    %r: (%s, [%s])," % (f.name, py_result_ctype(header, f.result),
+                                           ", ".join(args)))
+    out += ["}", ""]
+    return "\n".join(out)
+
+
+PY_CONVERT = {"int": "to_int", "long": "to_long", "size_t": "to_size", "double": "to_double"}
+PY_CTYPES = {"int": "ctypes.c_int", "double": "ctypes.c_double"}
+
+
+def py_checked_call(b):
+    """A function applying the argument rule to every value the caller gives
+    before it reaches C; pointers the bindings made pass unchanged."""
+    f = b.f
+    names = [py_name(p.name) for p in f.params]
+    conversions = []
+    for p, n in zip(f.params, names):
+        if p.base in SCALARS and not p.pointers and p.length is None:
+            conversions.append("%s(%s, F, %r)" % (PY_CONVERT[p.base], n, p.name))
+        elif p.base == "char" and p.const and p.pointers == 1:
+            rule = "to_path" if is_path(p.name) else "to_string"
+            conversions.append("%s(%s, F, %r)" % (rule, n, p.name))
+        elif p.const and p.pointers == 1 and p.base.startswith("kl_") and \
+                p.base[3:] not in HANDLES:
+            conversions.append("struct_in(%s, H.%s, F, %r)" % (n, p.base, p.name))
+        else:
+            conversions.append(n)
+    if conversions == names:
+        return ["%s = lib.%s" % (f.name, f.name), ""]
+    return ["def %s(%s):" % (f.name, ", ".join(names)),
+            "    F = %r" % f.name,
+            "    return lib.%s(%s)" % (f.name, ", ".join(conversions)), "", ""]
+
+
+def py_method(b):
+    """The generated method (or package function) of a plain function."""
+    params, pre, call, results = [], [], [], []
+    counts = {}
+    f = b.name
+    for a in b.args:
+        n = py_name(a.name)
+        if a.kind == "handle":
+            call.append("self._handle" if a.const else "self._changing")
+        elif a.kind == "struct_in" and b.owner is not None and not call:
+            call.append("self")
+        elif a.kind == "handle_in":
+            params.append(n)
+            call.append("%s._handle" % n)
+        elif a.kind == "point":
+            params.append(n)
+            xs = [py_name(p.name) for p in a.params]
+            pre.append("%s = to_point(%s, %r, %r)" % (", ".join(xs), n, f, a.name))
+            call += xs
+        elif a.kind == "point_array":
+            params.append(n)
+            pre.append("%s = (ctypes.c_double * 2)(*to_point(%s, %r, %r))" % (n, n, f, a.name))
+            call.append(n)
+        elif a.kind == "count":
+            call.append(n)
+        elif a.kind == "array_in":
+            params.append(n)
+            ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
+            pre.append("%s, %s_n = array_of(%s, %s, %r, %r)" % (n, n, n, ctype, f, a.name))
+            counts.setdefault(a.count, []).append(a.name)
+            call.append(n)
+        elif a.kind == "inputs_in":
+            params.append(n + "=None")
+            pre.append("%s = self._inputs(%s, %r, %r)" % (n, n, f, a.name))
+            call.append(n)
+        elif a.kind == "inputs_out":
+            pre.append("%s = (ctypes.c_double * max(self._input_count, 1))()" % n)
+            call.append(n)
+            results.append("np.array(%s[:self._input_count])" % n)
+        elif a.kind == "out_value":
+            pre.append("%s = %s()" % (n, PY_CTYPES[a.ctype]))
+            call.append("ctypes.byref(%s)" % n)
+            results.append("as_enum(H.%s, %s.value)" % (a.enum.python, n) if a.enum
+                           else "%s.value" % n)
+        elif a.kind == "out_array":
+            pre.append("%s = (%s * %d)()" % (n, PY_CTYPES[a.ctype], a.length))
+            call.append(n)
+            results.append("tuple(%s)" % n)
+        elif a.kind == "struct_out":
+            pre.append("%s = H.%s()" % (n, a.struct.name))
+            call.append("ctypes.byref(%s)" % n)
+            results.append("value_of(%s)" % n)
+        else:
+            params.append(n + "=None" if a.optional else n)
+            call.append(n)
+    for count, arrays in counts.items():
+        pre.append("%s = same_count(%r, %r, %s)" % (
+            py_name(count), f, count, ", ".join("(%r, %s_n)" % (a, py_name(a)) for a in arrays)))
+    expr = "%s(%s)" % (f, ", ".join(call))
+    if b.f.result in ("int", "long"):
+        if b.handle is None or b.handle_const:
+            shown = "".join(", " + py_name(a.name) for a in b.inputs)
+            expr = "check_const(%s, %r%s)" % (expr, b.method, shown)
+        else:
+            expr = "self._check(%s)" % expr
+        if b.enum is not None:
+            expr = "as_enum(H.%s, %s)" % (b.enum.python, expr)
+        elif b.boolean:
+            expr = "bool(%s)" % expr
+    elif b.f.result == "const char *":
+        expr = "text(%s)" % expr
+    if b.value_result:
+        results.insert(0, "result")
+    body = pre[:]
+    if not results:
+        body.append(("return Status(%s)" if b.status else "%s") % expr)
+    elif results == ["result"]:
+        body.append("return " + expr)
+    else:
+        body.append(("result = %s" if b.value_result else "%s") % expr)
+        body.append("return " + (results[0] if len(results) == 1 else
+                                 "(%s)" % ", ".join(results)))
+    method = b.handle is not None or b.owner is not None
+    pad = " " * (4 if method else 0)
+    lines = [pad + "@property"] if b.is_property else []
+    lines.append(pad + "def %s(%s):" % (b.method, ", ".join((["self"] if method else []) +
+                                                             params)))
+    lines.append(py_docstring("%s\n\n(%s)" % (b.f.doc, b.name), len(pad) + 4))
+    lines += [pad + "    " + l for l in body]
+    lines.append("")
+    return lines
+
+
+def py_default(header, s, fl, defaults):
+    """A field's default: from the struct's kl_<struct>_default function
+    when it has one, else zero as C's initializers give it."""
+    e = field_enum(header, fl)
+    if defaults:
+        value = "%s.%s" % (defaults, fl.name)
+        return "as_enum(H.%s, %s)" % (e.python, value) if e else value
+    if e is not None:
+        zero = next((v for v in e.values if v[1] == 0), None)
+        return "H.%s.%s" % (e.python, e.member(zero[0])) if zero else "0"
+    if fl.length is not None:
+        return '""'
+    return {"double": "0.0"}.get(fl.ctype, "False" if is_flag(fl) else "0")
+
+
+def py_value_type(header, s, bs):
+    """The frozen dataclass a struct reads as, with the methods of its
+    kl_<struct>_<verb> functions; registered for kinloop._core.value_of."""
+    name = camel(s.name[3:])
+    default_fn = header.function("kl_%s_default" % s.name[3:])
+    defaults = None
+    out = []
+    if default_fn is not None and [p.base for p in default_fn.params] == [s.name]:
+        defaults = "_%s_DEFAULTS" % s.name[3:].upper()
+        out += ["%s = H.%s()" % (defaults, s.name),
+                "lib.%s(ctypes.byref(%s))" % (default_fn.name, defaults), "", ""]
+    out += ["@dataclasses.dataclass(frozen=True)", "class %s:" % name,
+            py_docstring("%s\n\n(%s)" % (s.doc, s.name), 4)]
+    for fl in s.value_fields():
+        e = field_enum(header, fl)
+        kind = ("H." + e.python) if e else "str" if fl.length is not None else \
+            "bool" if is_flag(fl) else {"double": "float"}.get(fl.ctype, "int")
+        out.append("    %s: %s = %s" % (py_name(fl.name), kind,
+                                        py_default(header, s, fl, defaults)))
+    out.append("")
+    for b in bs:
+        if b.plain and b.owner is s:
+            out += py_method(b)
+    out += ["", "VALUE_TYPES[H.%s] = %s" % (s.name, name), "", ""]
+    return out
+
+
+def python_api(header):
+    bs = bindings(header)
+    out = ['"""Every function of include/kinloop.h with the argument rule applied to',
+           "what the caller gives (kinloop._args), the structs as value types, and",
+           "the methods and functions of the plain functions, which kinloop.Model,",
+           "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
+           "import dataclasses", "", "import numpy as np", "",
+           "from . import _header as H",
+           "from ._args import (array_of, same_count, struct_in, to_double, to_int, to_long,",
+           "                    to_path, to_point, to_size, to_string)",
+           "from ._core import VALUE_TYPES, as_enum, check_const, text, value_of",
+           "from ._header import Status",
+           "from .raw import lib", "", "",
+           "# ---- checked calls: one per KL_API function ----", ""]
+    for b in bs:
+        out += py_checked_call(b)
+    out += ["", "# ---- the structs as values ----", ""]
+    for s in header.structs:
+        out += py_value_type(header, s, bs)
+    out += ["# ---- plain functions without a handle ----", ""]
+    for b in bs:
+        if b.plain and b.handle is None and b.owner is None:
+            out += py_method(b) + [""]
+    texts = enum_texts(header, bs)
+    if texts:
+        out += ["", "# ---- str() of an enum value is its kl_<enum>_str text ----", ""]
+        for e, b in texts:
+            out.append("H.%s.__str__ = lambda self: %s(self)" % (e.python, b.method))
+        out.append("")
+    for h in HANDLES:
+        out += ["", "class %sMethods:" % camel(h),
+                '    """The plain functions of kl_%s as methods (generated): kinloop.%s'
+                % (h, camel(h)),
+                "    inherits them and supplies _handle, _changing and _check (and a",
+                '    solver _inputs and _input_count)."""', "", "    __slots__ = ()", ""]
+        for b in bs:
+            if b.plain and b.handle == h:
+                out += py_method(b)
+    exported = [camel(s.name[3:]) for s in header.structs] + \
+        [b.method for b in bs if b.plain and b.handle is None and b.owner is None]
+    out += ["", "#: what the kinloop package exports from here: value types, functions",
+            "__all__ = %r" % (exported,)]
+    out += ["", "#: how each KL_API function is bound: the generated method, or None",
+            "#: where the hand-written code binds it", "GENERATED = {"]
+    for b in bs:
+        where = None
+        if b.plain:
+            owner = ("%sMethods." % camel(b.handle) if b.handle else
+                     "%s." % camel(b.owner.name[3:]) if b.owner else "")
+            where = owner + b.method
+        out.append("    %r: %r," % (b.name, where))
+    out += ["}", ""]
+    return "\n".join(out)
+
+
+# ---------------------------------------------------------------------------
+# Octave
+# ---------------------------------------------------------------------------
+
+def first_sentence(doc):
+    text = " ".join(doc.split())
+    end = re.search(r"\.(\s|$)", text)
+    return text[:end.start() + 1] if end else text
+
+
+def cpp_string(text):
+    return '"%s"' % text.replace("\\", "\\\\").replace('"', '\\"')
+
+
+def cpp_comment(text, indent=""):
+    lines = [l.replace("*/", "* /") for l in text.splitlines()]
+    return [indent + "/* " + lines[0]] + [indent + " * " + l if l else indent + " *"
+                                          for l in lines[1:]] + [indent + " */"]
+
+
+def octave_enum_tables(header):
+    out = ["/* ---- enums: each value's name (as Octave code gives and gets it) ---- */", ""]
+    for e in header.enums:
+        out.append("const named_code %s_names[] = {" % e.name)
+        for const, _, _ in e.values:
+            out.append("    {%s, %s}," % (cpp_string(e.octave_name(const)), const))
+        out += ["    {nullptr, 0}};", ""]
+    status = header.enum("kl_status")
+    out += ["/* A status's name, as in the error identifiers kinloop:<name>. */",
+            "const char *status_name(int status) {", "  switch (status) {"]
+    for const, _, _ in status.values:
+        out.append("  case %s: return %s;" % (const, cpp_string(status.octave_name(const))))
+    out += ["  default: return \"EUNKNOWN\";", "  }", "}", ""]
+    return out
+
+
+def octave_structs(header):
+    out = ["/* ---- structs: C to Octave and back, field by field ---- */", ""]
+    for s in header.structs:
+        fields = s.value_fields()
+        out.append("octave_scalar_map to_octave(const %s &s) {" % s.name)
+        out.append("  octave_scalar_map m;")
+        for fl in fields:
+            e = field_enum(header, fl)
+            if e is not None:
+                value = "code_name(%s_names, s.%s)" % (e.name, fl.name)
+            elif is_flag(fl):
+                value = "s.%s != 0" % fl.name
+            elif fl.length is not None:
+                value = "std::string(s.%s)" % fl.name
+            elif fl.ctype in ("long", "size_t"):
+                value = "static_cast<double>(s.%s)" % fl.name
+            else:
+                value = "s.%s" % fl.name
+            out.append("  m.assign(%s, %s);" % (cpp_string(fl.name), value))
+        out += ["  return m;", "}", ""]
+        out.append("/* Fields of element k of `v` into `s`: every field when `all` is set,")
+        out.append(" * else those given; an unknown field is refused. */")
+        out.append("void from_octave(const call &c, const octave_map &v, octave_idx_type k,")
+        out.append("                 const std::string &what, %s &s, bool all) {" % s.name)
+        out.append("  c.only_fields(v, what, {%s}, all);" %
+                   ", ".join(cpp_string(fl.name) for fl in fields))
+        for fl in fields:
+            e = field_enum(header, fl)
+            arg = "v.contents(%s)(k), what + \".%s\"" % (cpp_string(fl.name), fl.name)
+            if e is not None:
+                conv = "c.code(%s, %s_names)" % (arg, e.name)
+            elif fl.length is not None:
+                conv = None
+            elif fl.ctype == "double":
+                conv = "c.real(%s)" % arg
+            else:
+                conv = "c.whole<%s>(%s)" % (fl.ctype, arg)
+            if conv is None:
+                out.append("  if (v.isfield(%s))" % cpp_string(fl.name))
+                out.append("    c.text_into(%s, s.%s, sizeof s.%s);" % (arg, fl.name,
+                                                                        fl.name))
+            else:
+                out.append("  if (v.isfield(%s))" % cpp_string(fl.name))
+                out.append("    s.%s = %s;" % (fl.name, conv))
+        out += ["}", ""]
+    return out
+
+
+def octave_wrapper(header, b):
+    """The gateway command of a plain function, and how many arguments it
+    takes after the command name."""
+    lines = cpp_comment("%s: %s" % (b.name, first_sentence(b.f.doc)))
+    signature = len(lines)
+    lines.append("octave_value_list gen_%s(const call &c) {" % b.command)
+    call_args, outs, counts, i, vector_arg = [], [], {}, 0, None
+    for a in b.args:
+        n, what = a.name, cpp_string(a.name)
+        if a.kind == "handle":
+            lines.append("  entry &h = c.%s(0, %s);" % (
+                b.handle, "access::read" if a.const else "access::write"))
+            call_args.append("h.%s" % b.handle)
+        elif a.kind == "count":
+            call_args.append(n)
+            continue
+        elif a.kind == "handle_in":
+            lines.append("  const kl_%s *%s = c.%s(%d, access::read).%s;" % (
+                a.ctype, n, a.ctype, i, a.ctype))
+            call_args.append(n)
+        elif a.kind == "point":
+            xs = [p.name for p in a.params]
+            lines.append("  double %s, %s;" % tuple(xs))
+            lines.append("  c.point(c.arg(%d), %s, %s, %s);" % (i, what, *xs))
+            call_args += xs
+        elif a.kind == "point_array":
+            lines.append("  double %s[2];" % n)
+            lines.append("  c.point(c.arg(%d), %s, %s[0], %s[1]);" % (i, what, n, n))
+            call_args.append(n)
+        elif a.kind == "scalar" and b.vectorized and vector_arg is None:
+            vector_arg = (i, n)
+            call_args.append(n)
+        elif a.kind == "scalar":
+            conv = ("c.code(c.arg(%d), %s, %s_names)" % (i, what, a.enum.name) if a.enum else
+                    "c.real(c.arg(%d), %s)" % (i, what) if a.ctype == "double" else
+                    "c.whole<%s>(c.arg(%d), %s)" % (a.ctype, i, what))
+            lines.append("  %s %s = %s;" % ("int" if a.enum else a.ctype, n, conv))
+            call_args.append(n)
+        elif a.kind == "string" and a.optional:
+            lines.append("  std::string %s_text;" % n)
+            lines.append("  const char *%s = c.optional_text(%d, %s, %s_text);" % (n, i, what, n))
+            call_args.append(n)
+        elif a.kind == "string":
+            lines.append("  std::string %s = c.text(c.arg(%d), %s);" % (n, i, what))
+            call_args.append("%s.c_str()" % n)
+        elif a.kind == "array_in":
+            if a.struct is not None:
+                lines.append("  octave_map %s_map = c.struct_list(%d, %s);" % (n, i, what))
+                lines.append("  std::vector<%s> %s(%s_map.numel(), %s());" % (
+                    a.struct.name, n, n, a.struct.name))
+                lines.append("  for (octave_idx_type k = 0; k < %s_map.numel(); k++)" % n)
+                lines.append("    from_octave(c, %s_map, k, %s, %s[k], false);" % (n, what, n))
+            elif a.ctype == "double":
+                lines.append("  std::vector<double> %s = c.reals(c.arg(%d), %s);" % (n, i, what))
+            else:
+                lines.append("  std::vector<int> %s = c.wholes<int>(c.arg(%d), %s);" % (
+                    n, i, what))
+            counts.setdefault(a.count, []).append(n)
+            call_args.append("%s.empty() ? nullptr : %s.data()" % (n, n))
+        elif a.kind == "inputs_in":
+            lines.append("  int %s_n = kl_model_input_count(h.model);" % n)
+            lines.append("  std::vector<double> %s = c.values(%d, %s_n, %s);" % (n, i, n, what))
+            call_args.append("%s_n > 0 ? %s.data() : nullptr" % (n, n))
+        elif a.kind == "inputs_out":
+            lines.append("  int %s_n = kl_model_input_count(h.model);" % n)
+            lines.append("  std::vector<double> %s(%s_n > 0 ? %s_n : 1);" % (n, n, n))
+            call_args.append("%s.data()" % n)
+            outs.append("row(%s.data(), %s_n)" % (n, n))
+        elif a.kind == "struct_in":
+            lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
+            if a.struct.sized:
+                lines.append("  %s.size = sizeof %s;" % (n, n))
+            lines.append("  from_octave(c, c.one_struct(%d, %s), 0, %s, %s, %s);" % (
+                i, what, what, n, "true" if a.struct.sized else "false"))
+            call_args.append("&" + n)
+        elif a.kind == "struct_out":
+            lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
+            lines.append("  %s.size = sizeof %s;" % (n, n))
+            call_args.append("&" + n)
+            outs.append("octave_value(to_octave(%s))" % n)
+        elif a.kind == "out_value":
+            lines.append("  %s %s = %s;" % (a.ctype, n, "NAN" if a.ctype == "double" else "0"))
+            call_args.append("&" + n)
+            outs.append("code_name(%s_names, %s)" % (a.enum.name, n) if a.enum
+                        else "octave_value(%s)" % n)
+        elif a.kind == "out_array":
+            lines.append("  %s %s[%d];" % (a.ctype, n, a.length))
+            call_args.append(n)
+            outs.append("row(%s, %d)" % (n, a.length))
+        if a.is_input or a.kind == "handle":
+            i += 1
+    for count, arrays in counts.items():
+        for other in arrays[1:]:
+            lines.append("  if (%s.size() != %s.size())" % (other, arrays[0]))
+            lines.append("    c.bad(%s, \"must have as many elements as %s\");" % (
+                cpp_string(other), arrays[0]))
+        lines.append("  int %s = c.count(%s.size(), %s);" % (count, arrays[0],
+                                                            cpp_string(arrays[0])))
+    call = "%s(%s)" % (b.name, ", ".join(call_args))
+    if vector_arg is not None:
+        pos, name = vector_arg
+        lines.append("  return one(c.each_id(%d, %s, [&](int %s) { return %s; }));" % (
+            pos, cpp_string(name), name, call))
+    else:
+        if b.f.result == "void":
+            lines.append("  %s;" % call)
+        else:
+            lines.append("  %s r = %s;" % (b.f.result, call))
+        if b.f.result in ("int", "long"):
+            error = "kl_%s_error" % b.handle
+            if b.handle and not b.handle_const and header.function(error):
+                lines.append("  c.check(r, %s(h.%s));" % (error, b.handle))
+            else:
+                lines.append("  c.check(r);")
+        if b.value_result:
+            outs.insert(0, "code_name(%s_names, r)" % b.enum.name if b.enum else
+                        "octave_value(r != 0)" if b.boolean else
+                        "text_value(r)" if b.f.result == "const char *" else
+                        "octave_value(static_cast<double>(r))"
+                        if b.f.result in ("long", "size_t") else "octave_value(r)")
+        if not outs:
+            lines.append("  return none();")
+        else:
+            lines.append("  octave_value_list out;")
+            lines += ["  out(%d) = %s;" % (k, o) for k, o in enumerate(outs)]
+            lines.append("  return out;")
+    lines += ["}", ""]
+    if not any(re.search(r"\bc\b[.,)]", l) for l in lines[signature + 1:]):
+        lines[signature] = lines[signature].replace("const call &c", "const call &")
+    return lines, i
+
+
+def octave_introspection(header):
+    """Two commands telling what the gateway knows of the header, for the
+    drift test: each enum's names and codes, each struct's fields."""
+    out = ["/* enums(): per enum, its values' names and codes as the gateway knows them. */",
+           "octave_value_list gen_enums(const call &) {", "  octave_scalar_map out;"]
+    for e in header.enums:
+        out.append("  out.assign(%s, enum_table(%s_names));" % (cpp_string(e.name), e.name))
+    out += ["  return one(out);", "}", "",
+            "/* structs(): per struct, the fields the converters read and write. */",
+            "octave_value_list gen_structs(const call &) {", "  octave_scalar_map out;"]
+    for s in header.structs:
+        fields = s.value_fields()
+        out.append("  {")
+        out.append("    Cell fields(1, %d);" % len(fields))
+        for k, fl in enumerate(fields):
+            out.append("    fields(%d) = %s;" % (k, cpp_string(fl.name)))
+        out.append("    out.assign(%s, fields);" % cpp_string(s.name))
+        out.append("  }")
+    out += ["  return one(out);", "}", ""]
+    return out
+
+
+def octave_usage(b):
+    parts = [b.handle] if b.handle else []
+    parts += ["[%s]" % a.name if a.optional else a.name for a in octave_inputs(b)]
+    return "(%s)" % ", ".join(parts)
+
+
+def octave_gateway(header):
+    bs = bindings(header)
+    out = ["/*", " * kinloop_gateway.inc - the generated part of the Octave gateway,",
+           " * included by __kinloop__.cc. " + GENERATED, " */", ""]
+    out += octave_enum_tables(header)
+    out += octave_structs(header)
+    out += ["/* ---- the plain functions: one command each ---- */", ""]
+    table = []
+    for b in bs:
+        if not b.plain:
+            continue
+        lines, count = octave_wrapper(header, b)
+        out += lines
+        optional = sum(1 for a in octave_inputs(b) if a.optional)
+        table.append("    {%s, %d, %d, %s, gen_%s}," % (
+            cpp_string(b.command), count - optional, count,
+            cpp_string(octave_usage(b)), b.command))
+    out += octave_introspection(header)
+    table += ['    {"enums", 0, 0, "()", gen_enums},', '    {"structs", 0, 0, "()", gen_structs},']
+    out += ["/* The generated commands, in the header's order. */",
+            "const command generated_commands[] = {"] + table + [
+            "    {nullptr, 0, 0, nullptr, nullptr}};", ""]
+    return "\n".join(out)
+
+
+def octave_inputs(b):
+    """What Octave code gives: every input after the handle (a value struct
+    a function belongs to is an argument like any other)."""
+    return [a for a in b.args if a.is_input]
+
+
+def octave_method(b, obj=True):
+    """An Octave method (or package function) calling the gateway."""
+    ins = octave_inputs(b)
+    name = b.method if obj else b.command
+    fixed = [a.name for a in ins if not a.optional]
+    params = (["obj"] if obj else []) + fixed + (["varargin"] if any(a.optional for a in ins)
+                                                  else [])
+    forward = (["obj.id"] if obj else []) + \
+        [a.name + ".id" if a.kind == "handle_in" else a.name for a in ins if not a.optional] + \
+        (["varargin{:}"] if any(a.optional for a in ins) else [])
+    outputs = (["value"] if b.value_result else []) + [a.name for a in b.outputs]
+    usage = "%s%s(%s)" % ("[%s] = " % ", ".join(outputs) if len(outputs) > 1 else
+                          "%s = " % outputs[0] if outputs else "",
+                          name, ", ".join(["[%s]" % a.name if a.optional else a.name
+                                             for a in ins]))
+    doc = b.f.doc.splitlines()
+    head = "function %s%s(%s)" % ("varargout = " if outputs else "", name,
+                                  ", ".join(params))
+    lines = [head, "  %% %s: %s" % (usage, b.name)]
+    lines += ["  %% " + l if l else "  %" for l in doc]
+    if b.vectorized:
+        lines.append("  %% (%s may be a vector of ids: one value each, same shape)" %
+                     ins[0].name)
+    call = "__kinloop__(%s)" % ", ".join([repr(b.command)] + forward)
+    if outputs:
+        lines.append("  [varargout{1:max(nargout, 1)}] = %s;" % call)
+    else:
+        lines.append("  %s;" % call)
+    lines.append("end")
+    return lines
+
+
+def octave_classes(header, out_dir):
+    bs = bindings(header)
+    package = os.path.join(out_dir, "+kinloop")
+    os.makedirs(package, exist_ok=True)
+    for h in HANDLES:
+        name = "%sMethods" % camel(h)
+        lines = ["classdef %s < handle" % name,
+                 "  %% kinloop.%s - the methods of kinloop.%s for the plain functions" %
+                 (name, camel(h)),
+                 "  %% of kl_%s, one each, calling the gateway command of the same" % h,
+                 "  % name. " + GENERATED, "  methods"]
+        for b in bs:
+            if b.plain and b.handle == h:
+                lines += ["    " + l for l in octave_method(b)] + [""]
+        lines += ["  end", "end", ""]
+        write(os.path.join(package, name + ".m"), "\n".join(lines))
+    for b in bs:
+        if b.plain and b.handle is None:
+            lines = octave_method(b, obj=False)
+            lines.insert(1, "  % " + GENERATED)
+            write(os.path.join(package, b.command + ".m"), "\n".join(lines) + "\n")
+
+
+# ---------------------------------------------------------------------------
+# The layout probe: a C program printing what the compiler made of the header
+# ---------------------------------------------------------------------------
+
+def layout_probe(header):
+    out = ["/*", " * kinloop_layout.c - prints the size and the field offsets of every",
+           " * public struct of include/kinloop.h, and the value of every enum constant,",
+           " * as this compiler lays them out: what the bindings' drift tests compare",
+           " * with. " + GENERATED, " */", "#include <stddef.h>", "#include <stdio.h>", "",
+           '#include "kinloop.h"', "",
+           "#define FIELD(s, f) \\",
+           '  printf("field %s %s %lu %lu\\n", #s, #f, (unsigned long)offsetof(s, f), \\',
+           "         (unsigned long)sizeof(((s *)0)->f))", "", "int main(void) {"]
+    for s in header.structs:
+        out.append('  printf("struct %s %%lu\\n", (unsigned long)sizeof(%s));' % (s.name, s.name))
+        for fl in s.fields:
+            out.append("  FIELD(%s, %s);" % (s.name, fl.name))
+    for e in header.enums:
+        for const, _, _ in e.values:
+            out.append('  printf("enum %s %s %%d\\n", (int)%s);' % (e.name, const, const))
+    out += ["  return 0;", "}", ""]
+    return "\n".join(out)
+
+
+# ---------------------------------------------------------------------------
+
+def write(path, text):
+    tmp = path + ".tmp"
+    with open(tmp, "w", encoding="utf-8") as f:
+        f.write(text)
+    os.replace(tmp, path)
+
+
+def main(argv):
+    if len(argv) < 3 or argv[1] not in ("python", "octave", "layout", "list") or \
+            (argv[1] != "list" and len(argv) != 4):
+        sys.exit(__doc__)
+    with open(argv[2], encoding="utf-8") as f:
+        header = Header(f.read())
+    check_pointers(header)
+    if argv[1] == "list":
+        for b in bindings(header):
+            home = camel(b.handle) + "." if b.handle else \
+                camel(b.owner.name[3:]) + "." if b.owner else ""
+            print("%-34s %s" % (b.name, "plain -> " + home + b.method if b.plain
+                                else "hand: " + b.why))
+        return
+    if argv[1] == "layout":
+        write(argv[3], layout_probe(header))
+        return
+    out_dir = argv[3]
+    os.makedirs(out_dir, exist_ok=True)
+    if argv[1] == "python":
+        write(os.path.join(out_dir, "_header.py"), python_header(header))
+        write(os.path.join(out_dir, "_api.py"), python_api(header))
+    else:
+        write(os.path.join(out_dir, "kinloop_gateway.inc"), octave_gateway(header))
+        octave_classes(header, out_dir)
+
+
+if __name__ == "__main__":
+    main(sys.argv)

@@ -1,5 +1,0 @@
-function ratio = time_ratio(range)
-  % kinloop.time_ratio(range): forward over return time of a quick-return
-  % mechanism, from the extremes Solver.output_range found over one turn.
-  ratio = __kinloop__('range_time_ratio', range);
-end

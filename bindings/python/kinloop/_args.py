@@ -1,0 +1,173 @@
+"""The argument rule: what a caller gives reaches C exactly, or is refused.
+
+Every integer is checked against its C type's range (int, long, size_t) and
+must be whole (3.0 is 3; 3.5 and 2**32 + 3 are refused, never wrapped);
+every double must be a real number a C double holds exactly (NaN and
+infinities pass: the library has statuses for them); every string must be
+encodable and hold no NUL (which would end it early in C). A refusal raises
+KinloopError with Status.EINVAL naming the function and the argument. The
+generated calls (kinloop._api) apply it to every value; the Octave gateway
+applies the same rule."""
+
+import ctypes
+import keyword
+import math
+import numbers
+import operator
+import os
+
+from ._core import KinloopError
+from ._header import Sized, Status
+
+
+def _range(ctype, signed):
+    bits = 8 * ctypes.sizeof(ctype)
+    return (-(1 << (bits - 1)), (1 << (bits - 1)) - 1) if signed else (0, (1 << bits) - 1)
+
+
+_RANGES = {"int": _range(ctypes.c_int, True), "long": _range(ctypes.c_long, True),
+           "size_t": _range(ctypes.c_size_t, False)}
+
+
+def refuse(function, argument, why):
+    raise KinloopError(Status.EINVAL, "%s: %s %s" % (function, argument, why))
+
+
+def _integer(value, ctype, function, argument):
+    if isinstance(value, numbers.Integral):
+        n = operator.index(value)
+    elif isinstance(value, numbers.Real):
+        if not (math.isfinite(value) and value == math.floor(value)):
+            refuse(function, argument, "must be a whole number; got %r" % (value,))
+        n = int(value)
+    else:
+        refuse(function, argument, "must be an integer; got %s" % type(value).__name__)
+    low, high = _RANGES[ctype]
+    if not low <= n <= high:
+        refuse(function, argument, "must be within the range of a C %s, %d to %d; got %d"
+               % (ctype, low, high, n))
+    return n
+
+
+def to_int(value, function, argument):
+    return _integer(value, "int", function, argument)
+
+
+def to_long(value, function, argument):
+    return _integer(value, "long", function, argument)
+
+
+def to_size(value, function, argument):
+    return _integer(value, "size_t", function, argument)
+
+
+def to_double(value, function, argument):
+    if not isinstance(value, numbers.Real):
+        refuse(function, argument, "must be a real number; got %s" % type(value).__name__)
+    try:
+        x = float(value)
+    except OverflowError:
+        x = None
+    if x is None or not (x == value or math.isnan(x)):
+        refuse(function, argument, "is not a number a C double holds exactly: %r" % (value,))
+    return x
+
+
+def _no_nul(data, function, argument):
+    if b"\0" in data:
+        refuse(function, argument, "contains a NUL character (at byte %d), which would "
+               "end it there in C" % data.index(b"\0"))
+    return data
+
+
+def to_string(value, function, argument):
+    """A str as UTF-8, or bytes as they are; None stays NULL."""
+    if value is None:
+        return None
+    if isinstance(value, str):
+        try:
+            return _no_nul(value.encode("utf-8"), function, argument)
+        except UnicodeEncodeError as e:
+            refuse(function, argument, "cannot be encoded as UTF-8: %s" % e.reason)
+    if isinstance(value, (bytes, bytearray)):
+        return _no_nul(bytes(value), function, argument)
+    refuse(function, argument, "must be a str or bytes; got %s" % type(value).__name__)
+
+
+def to_path(value, function, argument):
+    """A file system path (str, bytes or os.PathLike) as the OS encodes it."""
+    if value is None:
+        return None
+    try:
+        return _no_nul(os.fsencode(value), function, argument)
+    except (TypeError, UnicodeEncodeError) as e:
+        refuse(function, argument, "is not a file system path: %s" % e)
+
+
+def to_point(value, function, argument):
+    """A point: a sequence of two real numbers (x, y)."""
+    try:
+        x, y = value
+    except (TypeError, ValueError):
+        refuse(function, argument, "must be a point (x, y) of two numbers; got %r" % (value,))
+    return (to_double(x, function, argument + "[0]"),
+            to_double(y, function, argument + "[1]"))
+
+
+_FIELD_RULES = {ctypes.c_int: to_int, ctypes.c_long: to_long, ctypes.c_size_t: to_size,
+                ctypes.c_double: to_double}
+
+
+def to_struct(value, ctype, function, argument):
+    """A C struct from a value with its fields as attributes (a dataclass of
+    kinloop, or any object), each field under the rule; a struct of the
+    type itself passes as it is. A field named as a Python keyword is read
+    with a trailing underscore (from_)."""
+    if isinstance(value, ctype):
+        return value
+    c = ctype()
+    for name, ftype in ctype._fields_:
+        if name == "size" and issubclass(ctype, Sized):
+            continue  # set to the struct's size on creation
+        attr = name + "_" if keyword.iskeyword(name) else name
+        try:
+            given = getattr(value, attr)
+        except AttributeError:
+            refuse(function, argument, "has no field %s (a %s needs %s)" % (
+                attr, ctype.__name__, ", ".join(n for n, _ in ctype._fields_ if n != "size")))
+        where = "%s.%s" % (argument, attr)
+        if ftype in _FIELD_RULES:
+            setattr(c, name, _FIELD_RULES[ftype](given, function, where))
+        else:  # a char array
+            data = to_string(given, function, where)
+            if len(data) >= ctypes.sizeof(ftype):
+                refuse(function, where, "is longer than %d bytes" % (ctypes.sizeof(ftype) - 1))
+            setattr(c, name, data)
+    return c
+
+
+def array_of(values, ctype, function, argument):
+    """A C array of the values (ints, doubles or structs, each under the
+    rule; None for none) and how many there are."""
+    rule = _FIELD_RULES.get(ctype) or (lambda v, f, a: to_struct(v, ctype, f, a))
+    items = [] if values is None else list(values)
+    converted = [rule(v, function, "%s[%d]" % (argument, k)) for k, v in enumerate(items)]
+    return (ctype * max(len(items), 1))(*converted), len(items)
+
+
+def same_count(function, count, *arrays):
+    """The length of arrays (name, length) that one int `count` gives C."""
+    lengths = {n for _, n in arrays}
+    if len(lengths) > 1:
+        refuse(function, " and ".join(a for a, _ in arrays), "must have as many elements "
+               "each; got %s" % ", ".join("%d" % n for _, n in arrays))
+    return to_int(lengths.pop(), function, count)
+
+
+def struct_in(value, ctype, function, argument):
+    """A `const kl_x *` argument: NULL for None, a reference to a struct
+    made by to_struct, or a pointer or array the bindings made, as it is."""
+    if value is None or isinstance(value, (ctypes._Pointer, ctypes.Array,
+                                           type(ctypes.byref(ctypes.c_int())))):
+        return value
+    return ctypes.byref(to_struct(value, ctype, function, argument))

@@ -1,0 +1,134 @@
+"""The value types: one frozen dataclass per struct of the header, generated
+(kinloop._api: its fields, the library's defaults where it has a defaults
+function, its kl_<struct>_<verb> methods), and what the bindings add to
+them: constructors of outputs, loads and dimensions, and what sweeps and
+studies return."""
+
+import dataclasses
+from typing import NamedTuple
+
+import numpy as np
+
+from . import _api, raw
+from ._core import VALUE_TYPES, status_text
+from ._header import DimensionKind, LoadKind, OutputKind
+
+Options, SolveStats, SweepSettings = _api.Options, _api.SolveStats, _api.SweepSettings
+Range, StudySummary = _api.Range, _api.StudySummary
+
+
+class Output(_api.Output):
+    """kl_output: a scalar output; build it with the class methods."""
+
+    @classmethod
+    def link_angle(cls, link):
+        return cls(OutputKind.LINK_ANGLE, link)
+
+    @classmethod
+    def slide(cls, joint):
+        return cls(OutputKind.SLIDE, joint)
+
+    @classmethod
+    def joint_angle(cls, joint):
+        return cls(OutputKind.JOINT_ANGLE, joint)
+
+    @classmethod
+    def point_x(cls, point):
+        return cls(OutputKind.POINT_X, point)
+
+    @classmethod
+    def point_y(cls, point):
+        return cls(OutputKind.POINT_Y, point)
+
+    @classmethod
+    def transmission(cls, joint, line_a, line_b):
+        """Angle at revolute `joint` between the line on its link a to joint
+        `line_a` and the line on its link b to joint `line_b`."""
+        return cls(OutputKind.TRANSMISSION, joint, line_a, line_b)
+
+
+class Load(_api.Load):
+    """kl_load: a force at a point or a torque on a link."""
+
+    @classmethod
+    def force_at(cls, point, force):
+        fx, fy = force
+        return cls(LoadKind.FORCE, point, fx=fx, fy=fy)
+
+    @classmethod
+    def torque_on(cls, link, torque):
+        return cls(LoadKind.TORQUE, link, torque=torque)
+
+
+@dataclasses.dataclass(frozen=True)
+class Dimension(_api.Dimension):
+    """kl_dimension: one local coordinate (axis 0 or "x", 1 or "y") of a
+    joint's attachment point on its link a or b, or of a point."""
+
+    def __post_init__(self):
+        if self.axis in ("x", "y"):
+            object.__setattr__(self, "axis", "xy".index(self.axis))
+
+    @classmethod
+    def joint_a(cls, joint, axis):
+        return cls(DimensionKind.JOINT_A, joint, axis)
+
+    @classmethod
+    def joint_b(cls, joint, axis):
+        return cls(DimensionKind.JOINT_B, joint, axis)
+
+    @classmethod
+    def point(cls, point, axis):
+        return cls(DimensionKind.POINT, point, axis)
+
+
+VALUE_TYPES.update({raw.kl_output: Output, raw.kl_load: Load, raw.kl_dimension: Dimension})
+
+
+@dataclasses.dataclass(frozen=True, eq=False, kw_only=True)
+class SweepResult(_api.SweepResult):
+    """What Solver.sweep recorded: the fields of kl_sweep_result, a `message`
+    (the solver's, for a limit or a failure; "" otherwise), and one row per
+    delivered step of the library's row (kl_solver_row): `rows` whole, and
+    each quantity as an attribute named by kl_quantity_str with a column per
+    item: link_angle[:, link], joint_angle[:, joint], joint_slide[:, joint]
+    (NaN for revolute joints), point_x[:, point], transmission[:, site],
+    rcond[:, 0], ... `input` is the swept input's value at each step. The
+    rates and accelerations are those the C sweep delivers: a unit rate and
+    zero acceleration of the swept input, so they read as the first- and
+    second-order kinematic coefficients (d/du and d^2/du^2 of the swept
+    input u)."""
+    message: str
+    rows: np.ndarray
+    layout: dict  # quantity name -> (first column, columns)
+    input_index: int
+
+    def __getattr__(self, name):
+        layout = object.__getattribute__(self, "layout")
+        if name not in layout:
+            raise AttributeError("SweepResult has no quantity %r (it has %s)"
+                                 % (name, ", ".join(layout)))
+        first, count = layout[name]
+        return self.rows[:, first:first + count]
+
+    @property
+    def input(self):
+        """The swept input's value at each step."""
+        return self.input_value[:, self.input_index]
+
+    @property
+    def status_name(self):
+        return status_text(self.status)
+
+    def __len__(self):
+        return self.steps_done
+
+
+class StudyRun(NamedTuple):
+    """What Study.run computed, one row per sample (first .. first + count - 1):
+    values[i, k] is output k (NaN where the sample has none: it did not
+    assemble, or its motion stopped short of the output), status[i] its
+    SampleStatus code (numpy.intc), dims[i, d] the value dimension d took."""
+    values: np.ndarray
+    status: np.ndarray
+    dims: np.ndarray
