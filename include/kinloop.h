@@ -128,7 +128,10 @@ enum kl_status {
   KL_ESYNTAX = -20,        /**< model file: not in the format (line and column given) */
   KL_EIO = -21,            /**< a file could not be read or written */
   KL_ETRUNCATED = -22,     /**< the caller's buffer is too small: the text was cut */
-  KL_ETOOLARGE = -23       /**< the request exceeds a documented bound of the library */
+  KL_ETOOLARGE = -23,      /**< the request exceeds a documented bound of the library */
+  KL_EINDETERMINATE = -24  /**< forces: the structure is statically indeterminate
+                                (redundant constraints), so the joint forces are
+                                not determined by equilibrium alone */
 };
 
 /**
@@ -285,9 +288,11 @@ KL_API int kl_add_loop(kl_model *m, int njoints, const int *joints);
  * Checks, each with its own status and a message naming ids and names:
  *  KL_EDISCONNECTED  a link not connected to ground through joints
  *  KL_ELOOPSET       registered loops not independent, or not a full set
- *  KL_EOVERCONSTRAINED  Gruebler's count below zero, or a link angle fixed
- *                    twice over by prismatic joints and revolute inputs
+ *  KL_EOVERCONSTRAINED  Gruebler's count plus the declared redundancy
+ *                    (kl_model_set_redundancy) below zero, or a link angle
+ *                    fixed twice over by prismatic joints and revolute inputs
  *  KL_EDOF           number of inputs differs from the degrees of freedom
+ *                    (Gruebler's count plus the declared redundancy)
  *  KL_EZEROLENGTH    a link whose joints all stand at one point, so that its
  *                    angle is undetermined
  *  KL_EUNDETERMINED  an angle or slide that no loop equation can determine
@@ -305,9 +310,11 @@ KL_API int kl_model_finalize(kl_model *m);
 KL_API int kl_model_is_finalized(const kl_model *m);
 
 /**
- * Degrees of freedom by Gruebler's (Kutzbach's) count for planar linkages,
- * 3 (links - 1) - 2 (revolute + prismatic joints) - (slot joints); KL_ESTATE
- * before finalize, KL_EINVAL for NULL.
+ * Degrees of freedom: Gruebler's (Kutzbach's) count for planar linkages,
+ * 3 (links - 1) - 2 (revolute + prismatic joints) - (slot joints), plus the
+ * redundant constraints the model declares (kl_model_set_redundancy; 0
+ * unless declared), which a finalized model's number of inputs equals;
+ * KL_ESTATE before finalize, KL_EINVAL for NULL.
  */
 KL_API int kl_model_dof(const kl_model *m);
 
@@ -391,6 +398,59 @@ typedef struct kl_sweep_settings {
 KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);
 /** The recorded sweep settings; KL_OK, KL_EID if there are none, KL_EINVAL. */
 KL_API int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep);
+
+/* Mass properties, gravity and redundancy: model document data for the
+ * force stage, set before finalize and readable at any time. Units: any one
+ * consistent system; forces come out in mass x length / time^2 (kg, m, s
+ * give N; kg, mm, s give mN, since 1 kg mm / s^2 = 1e-3 N), moments in that
+ * force times the length unit. */
+
+/**
+ * Sets the mass properties of a moving link: `mass` (>= 0), the centre of
+ * mass (cx, cy) in the link's frame, and the moment of inertia about the
+ * centre of mass (`inertia` >= 0, mass x length^2). A link never given them
+ * is massless (mass 0, centre (0, 0), inertia 0); a later call replaces
+ * the earlier one. Returns KL_OK, KL_EINVAL (NULL model, or a negative mass
+ * or inertia), KL_ENONFINITE (a NaN or infinite number), KL_EID (unknown
+ * link), KL_EKIND (ground: it does not move), KL_ESTATE (finalized). On
+ * failure the model is unchanged. Never allocates.
+ */
+KL_API int kl_set_link_mass(kl_model *m, int link, double mass, double cx,
+                            double cy, double inertia);
+/**
+ * The mass properties of a link into `mass`, `cxy` (the centre of mass in
+ * the link's frame) and `inertia` (about the centre of mass); each pointer
+ * may be NULL. Ground and links never given them read as massless.
+ * Returns KL_OK, KL_EID, KL_EINVAL (NULL model).
+ */
+KL_API int kl_model_link_mass(const kl_model *m, int link, double *mass,
+                              double cxy[2], double *inertia);
+/**
+ * Sets gravity, the acceleration (gx, gy) of free fall in the global frame
+ * (length / time^2; (0, -9.81) for metres and seconds with y up, (0, -9810)
+ * for millimetres); (0, 0), the default, leaves it out. Returns KL_OK,
+ * KL_ENONFINITE, KL_ESTATE (finalized), KL_EINVAL (NULL).
+ */
+KL_API int kl_model_set_gravity(kl_model *m, double gx, double gy);
+/** The model's gravity into `gxy`. KL_OK, KL_EINVAL (NULL). */
+KL_API int kl_model_gravity(const kl_model *m, double gxy[2]);
+/**
+ * Declares that the model is over-constrained by design: `redundant` (>= 0)
+ * of its constraints repeat what the others already impose, given its
+ * special proportions (a parallelogram with a third parallel crank, a link
+ * doubled for strength). Gruebler's count then understates the mobility by
+ * that number, and kl_model_finalize expects inputs = Gruebler's count +
+ * `redundant`. The loop equations have `redundant` more rows than
+ * unknowns; the position stage solves the rest and checks that those rows
+ * close too (KL_ENOASSEMBLY naming the loop when the proportions are not
+ * the special ones), and the force stage reports KL_EINDETERMINATE: the
+ * joint forces of such a structure depend on its elasticity, not on
+ * equilibrium alone. Default 0. Returns KL_OK, KL_EINVAL (negative, or
+ * NULL), KL_ESTATE (finalized).
+ */
+KL_API int kl_model_set_redundancy(kl_model *m, int redundant);
+/** The declared number of redundant constraints, or KL_EINVAL for NULL. */
+KL_API int kl_model_redundancy(const kl_model *m);
 
 /* Reading a model back. Getters that return an int give KL_EID for an unknown
  * id and KL_EINVAL for NULL pointers; they never set the model's message. */
@@ -699,6 +759,89 @@ KL_API int kl_point_velocity(const kl_solver *s, int point, double xy[2]);
 KL_API int kl_point_acceleration(const kl_solver *s, int point, double xy[2]);
 
 /* ------------------------------------------------------------------------
+ * The force stage: inverse dynamics (kinetostatics) at a solved state
+ * (docs/theory.md section 8 gives the equations and the sign rules).
+ * Links are ideal: rigid, joints without friction or clearance.
+ * ------------------------------------------------------------------------ */
+
+/** Load kinds for kl_solve_forces and kl_input_effort. */
+enum kl_load_kind {
+  KL_LOAD_FORCE = 0, /**< force (fx, fy), global frame, applied at point `id` */
+  KL_LOAD_TORQUE = 1 /**< torque (counter-clockwise positive) on link `id` */
+};
+
+/** An applied load. A load on ground (a point of ground, or a torque on
+ * link 0) acts on the frame directly and changes no force of the stage. */
+typedef struct kl_load {
+  int kind;      /**< enum kl_load_kind */
+  int id;        /**< point (force) or link (torque) */
+  double fx;     /**< force, global x (KL_LOAD_FORCE) */
+  double fy;     /**< force, global y (KL_LOAD_FORCE) */
+  double torque; /**< torque, counter-clockwise (KL_LOAD_TORQUE) */
+} kl_load;
+
+/**
+ * Force stage: the joint forces and input efforts that move the linkage
+ * through the position, velocity and acceleration last solved, against the
+ * loads, gravity (kl_model_set_gravity) and the links' inertia
+ * (kl_set_link_mass), by Newton-Euler equations for every moving link with
+ * the joint reactions as unknowns (d'Alembert). `efforts[i]` (may be NULL)
+ * receives what input i's actuator applies: for a revolute input a torque
+ * on its joint's link b, reacting on link a, counter-clockwise positive;
+ * for a prismatic or slot input a force on link b along the slide axis
+ * (positive toward increasing slide), reacting on link a. `loads` (may be
+ * NULL when `nloads` is 0) act at the state solved. The results stay
+ * readable (kl_joint_force, kl_joint_moment, kl_ground_force) until the
+ * state changes: a position, velocity or acceleration solve, a sketch.
+ * For statics, solve velocity and acceleration with zero rates first.
+ * Calls at one position reuse the factors of the force system: several
+ * load cases, or other speeds at that position, cost a solve each.
+ * Returns KL_OK, and on failure leaves the state exactly as it was:
+ *  KL_EINDETERMINATE  the model declares redundant constraints
+ *                   (kl_model_set_redundancy): the forces are not determined
+ *  KL_EINVAL        NULL solver, nloads < 0, or NULL loads with nloads > 0
+ *  KL_EID, KL_EKIND, KL_ENONFINITE  a load names no point or link, has an
+ *                   unknown kind, or holds a NaN or infinite number
+ *  KL_ESTAGE        no acceleration solved at the current position and rates
+ *  KL_ESINGULAR     the position is singular (dead point, toggle, change
+ *                   point): the force system is singular exactly where the
+ *                   loop Jacobian is, and the forces there are not determined
+ * Never allocates.
+ */
+KL_API int kl_solve_forces(kl_solver *s, int nloads, const kl_load *loads,
+                           double *efforts);
+
+/**
+ * The whole force that link a exerts on link b through `joint` (global
+ * frame, force units), from the last successful kl_solve_forces at the
+ * current state: the constraint force, plus an input's actuator force along
+ * its slide. Link b exerts the opposite force on link a. For a revolute
+ * joint it acts at the pin; for a prismatic or slot joint at link b's
+ * attachment point, across the slide (plus, for an input, along it).
+ * Returns KL_OK, KL_EID, KL_EINVAL (NULL), KL_ESTAGE (no forces solved at
+ * the current state).
+ */
+KL_API int kl_joint_force(const kl_solver *s, int joint, double fxy[2]);
+
+/**
+ * The moment about link b's attachment point that link a exerts on link b
+ * through `joint` (counter-clockwise positive): a prismatic joint's
+ * constraint moment (what keeps b from turning against a); a revolute
+ * input's actuator torque; 0 for other revolute and for slot joints. NaN
+ * for an unknown joint or when no forces are solved at the current state.
+ */
+KL_API double kl_joint_moment(const kl_solver *s, int joint);
+
+/**
+ * What the moving links exert on ground through all its joints (the frame's
+ * load, its shaking force and moment): fxy_m[0], fxy_m[1] the force, global
+ * frame, and fxy_m[2] its moment about the global origin, counter-clockwise
+ * positive. Loads applied to ground itself are not in it. Returns KL_OK,
+ * KL_EINVAL (NULL), KL_ESTAGE (no forces solved at the current state).
+ */
+KL_API int kl_ground_force(const kl_solver *s, double fxy_m[3]);
+
+/* ------------------------------------------------------------------------
  * Kinematic (influence) coefficients: derivatives of the position with
  * respect to the inputs, the velocity ratios and their rates of change.
  * ------------------------------------------------------------------------ */
@@ -960,21 +1103,6 @@ KL_API int kl_range_time_ratio(const kl_range *range, double *ratio);
  */
 KL_API int kl_output_mechanical_advantage(kl_solver *s, const kl_output *o,
                                    int input, double *ma);
-
-/** Load kinds for kl_input_effort. */
-enum kl_load_kind {
-  KL_LOAD_FORCE = 0, /**< force (fx, fy), global frame, applied at point `id` */
-  KL_LOAD_TORQUE = 1 /**< torque (counter-clockwise positive) on link `id` */
-};
-
-/** An applied load. */
-typedef struct kl_load {
-  int kind;      /**< enum kl_load_kind */
-  int id;        /**< point (force) or link (torque) */
-  double fx;     /**< force, global x (KL_LOAD_FORCE) */
-  double fy;     /**< force, global y (KL_LOAD_FORCE) */
-  double torque; /**< torque, counter-clockwise (KL_LOAD_TORQUE) */
-} kl_load;
 
 /**
  * Static input effort by virtual work: the torque or force each input must

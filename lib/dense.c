@@ -29,7 +29,7 @@ void kli_dense_carve(kli_dense *d, kli_carver *c, const kli_pattern *p) {
   d->ipiv = kli_carve(c, n, sizeof(int));
   d->work = kli_carve(c, 4 * n, sizeof(double));
   d->iwork = kli_carve(c, n, sizeof(int));
-  d->normal = kli_carve(c, nn, sizeof(double));
+  d->normal = p->damped ? kli_carve(c, nn, sizeof(double)) : NULL;
 }
 
 int kli_dense_choose(const kli_dense *d, int kernel) {
@@ -66,6 +66,14 @@ void kli_dense_load(kli_dense *d, const double *pairs) {
     at[0] = pairs[2 * p] * scale;
     at[1] = pairs[2 * p + 1] * scale;
     colsum[col] += fabs(at[0]) + fabs(at[1]);
+  }
+  for (p = 0; p < d->p.nsingles; p++) {
+    int col = d->p.single_col[p];
+    double *at =
+        d->a + (size_t)col * (size_t)n + (size_t)d->p.single_row[p];
+    double v = pairs[2 * d->p.npairs + p] * d->colscale[col];
+    colsum[col] += fabs(v);
+    *at = v;
   }
   d->anorm = 0.0;
   for (p = 0; p < n; p++)
@@ -179,19 +187,24 @@ static double small_inverse_norm(kli_dense *d) {
 
 /* ---- the banded kernel: the ordered matrix in LAPACK band storage ---- */
 
+/* Places entry (row, col) of the held matrix in the ordered band. */
+static void band_put(kli_dense *d, int row, int col) {
+  int i = d->p.band_row[row], j = d->p.band_col[col];
+  /* AB(kl + ku + 1 + i - j, j), counted from 1 */
+  d->ab[(size_t)(d->p.band_lower + d->p.band_upper + i - j) +
+        (size_t)j * (size_t)d->ldab] =
+      d->a[(size_t)col * (size_t)d->p.n + (size_t)row];
+}
+
 static void band_fill(kli_dense *d) {
-  int p, n = d->p.n, kl = d->p.band_lower, ku = d->p.band_upper;
-  memset(d->ab, 0, (size_t)d->ldab * (size_t)n * sizeof(double));
+  int p;
+  memset(d->ab, 0, (size_t)d->ldab * (size_t)d->p.n * sizeof(double));
   for (p = 0; p < d->p.npairs; p++) {
-    int row = d->p.row[p], col = d->p.col[p], k;
-    int j = d->p.band_col[col];
-    const double *at = d->a + (size_t)col * (size_t)n + (size_t)row;
-    for (k = 0; k < 2; k++) {
-      int i = d->p.band_row[row + k];
-      /* AB(kl + ku + 1 + i - j, j), counted from 1 */
-      d->ab[(size_t)(kl + ku + i - j) + (size_t)j * (size_t)d->ldab] = at[k];
-    }
+    band_put(d, d->p.row[p], d->p.col[p]);
+    band_put(d, d->p.row[p] + 1, d->p.col[p]);
   }
+  for (p = 0; p < d->p.nsingles; p++)
+    band_put(d, d->p.single_row[p], d->p.single_col[p]);
 }
 
 int kli_dense_factor(kli_dense *d) {

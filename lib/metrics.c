@@ -378,41 +378,11 @@ int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
                     double *efforts) {
   const kl_model *m;
   int st, i, k;
-  char label[64];
-  if (s == NULL || efforts == NULL || nloads < 0 ||
-      (nloads > 0 && loads == NULL))
+  if (s == NULL || efforts == NULL)
     return KL_EINVAL;
   m = s->model;
-  for (k = 0; k < nloads; k++) {
-    const kl_load *l = &loads[k];
-    if (l->kind == KL_LOAD_FORCE) {
-      if (l->id < 0 || l->id >= m->npoints)
-        return kli_fail(s->error, KL_EID,
-                        "input effort: load %d acts at point %d, which does "
-                        "not exist",
-                        k, l->id);
-      if (!isfinite(l->fx) || !isfinite(l->fy))
-        return kli_fail(s->error, KL_ENONFINITE,
-                        "input effort: load %d at %s is NaN or infinite", k,
-                        kli_point_label(m, l->id, label, sizeof label));
-    } else if (l->kind == KL_LOAD_TORQUE) {
-      if (l->id < 0 || l->id >= m->nlinks)
-        return kli_fail(s->error, KL_EID,
-                        "input effort: load %d acts on link %d, which does "
-                        "not exist",
-                        k, l->id);
-      if (!isfinite(l->torque))
-        return kli_fail(s->error, KL_ENONFINITE,
-                        "input effort: the torque of load %d on %s is NaN or "
-                        "infinite",
-                        k, kli_link_label(m, l->id, label, sizeof label));
-    } else {
-      return kli_fail(s->error, KL_EKIND,
-                      "input effort: load %d has kind %d, neither force nor "
-                      "torque",
-                      k, l->kind);
-    }
-  }
+  if ((st = kli_check_loads(s, nloads, loads, "input effort")) != KL_OK)
+    return st;
   if ((st = need_coefficients(s)) != KL_OK)
     return st;
   for (i = 0; i < s->ninputs; i++) {
@@ -447,7 +417,7 @@ static int sensitivity(kl_solver *s, const kl_output *o,
     kli_loops_dimension(s->model, &s->st.pose, dim.joint, dim.link, dim.axis,
                         s->rhs);
   else
-    memset(s->rhs, 0, (size_t)s->n * sizeof(double));
+    memset(s->rhs, 0, (size_t)s->nrows * sizeof(double));
   kli_rate_solve(s, s->rhs, NULL, s->xv);
   *deriv = kli_output_change(s, o, s->xv, &dim);
   return KL_OK;
