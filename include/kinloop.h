@@ -759,7 +759,8 @@ KL_API int kl_point_velocity(const kl_solver *s, int point, double xy[2]);
 KL_API int kl_point_acceleration(const kl_solver *s, int point, double xy[2]);
 
 /* ------------------------------------------------------------------------
- * The force stage: inverse dynamics (kinetostatics) at a solved state
+ * The force stage: inverse dynamics (kinetostatics) at a solved state, and
+ * the force figures over a motion at constant input speed
  * (docs/theory.md section 8 gives the equations and the sign rules).
  * Links are ideal: rigid, joints without friction or clearance.
  * ------------------------------------------------------------------------ */
@@ -840,6 +841,112 @@ KL_API double kl_joint_moment(const kl_solver *s, int joint);
  * KL_EINVAL (NULL), KL_ESTAGE (no forces solved at the current state).
  */
 KL_API int kl_ground_force(const kl_solver *s, double fxy_m[3]);
+
+/**
+ * A motion for the force figures: input `input` driven at the constant
+ * speed `speed` from `from` to `to` in `steps` equal steps (as
+ * kl_solver_sweep sweeps it), every other input at rest at its value last
+ * solved. Start from kl_cycle_default's values, which set `size`.
+ */
+typedef struct kl_cycle {
+  size_t size;        /**< sizeof(kl_cycle), set by kl_cycle_default */
+  int input;          /**< the input driven; default 0 */
+  double from;        /**< its first value, rad or length; default 0 */
+  double to;          /**< its last value; default 2 pi (one crank turn) */
+  int steps;          /**< steps >= 1; default 360 */
+  double speed;       /**< its constant speed, rad or length per time unit
+                           (any sign; the forces depend on its square; 0
+                           gives the quasi-static cycle); default 1 */
+  double speed_fluctuation; /**< coefficient of speed fluctuation Cs for
+                           the flywheel, (max - min speed) / mean speed,
+                           > 0; 0 (the default) leaves the flywheel out */
+} kl_cycle;
+
+/** Fills `c` with the defaults (and `c->size`). NULL does nothing. */
+KL_API void kl_cycle_default(kl_cycle *c);
+
+/** The figures of one quantity over a cycle (the samples of the sweep). */
+typedef struct kl_cycle_peak {
+  double peak; /**< the sampled value of largest magnitude: signed for an
+                    input effort and the shaking moment, a magnitude for a
+                    joint load and the shaking force */
+  double at;   /**< the driven input's value there */
+  double mean; /**< the mean over the cycle (trapezoid rule in the input,
+                    which at constant speed is the mean over time) */
+  double rms;  /**< the root mean square over the cycle, likewise */
+} kl_cycle_peak;
+
+/** The force figures of a cycle. Set `size` to sizeof(kl_cycle_summary). */
+typedef struct kl_cycle_summary {
+  size_t size;              /**< sizeof(kl_cycle_summary), set by the caller */
+  int sweep_status;         /**< KL_OK, or KL_LIMIT: the figures cover the
+                                 part of the range the motion reached */
+  int steps_done;           /**< samples the figures cover */
+  double limit_input;       /**< with KL_LIMIT, where the motion stopped;
+                                 NaN otherwise */
+  kl_cycle_peak shaking_force;  /**< magnitude of the ground force */
+  kl_cycle_peak shaking_moment; /**< its moment about the global origin */
+  double energy_fluctuation;    /**< the largest minus the least of the
+                                     work the driven input does above its
+                                     mean effort, over the cycle (energy:
+                                     force x length) */
+  double energy_min_at;     /**< the driven input's value at the least */
+  double energy_max_at;     /**< and at the largest */
+  double flywheel_inertia;  /**< energy_fluctuation / (Cs speed^2): the
+                                 moment of inertia (mass x length^2) that
+                                 holds a crank's speed within Cs (for a
+                                 sliding input, the equivalent mass); NaN
+                                 when Cs or the speed is 0 */
+} kl_cycle_summary;
+
+/**
+ * The force figures of a cycle: with the motion of `c` and the constant
+ * loads, at every sample of the sweep the forces as kl_solve_forces gives
+ * them (the rates and accelerations are the sweep's unit-rate ones scaled
+ * by speed and speed^2), and from them: per input (`input_peaks`, one per
+ * input, may be NULL) its effort's peak, where, mean and RMS (the motor
+ * sizing figures); per joint (`joint_peaks`, one per joint, may be NULL)
+ * the peak magnitude of kl_joint_force and where, mean and RMS; the
+ * shaking force and moment; the energy fluctuation of the driven input
+ * over the cycle and the flywheel inertia it calls for at coefficient Cs,
+ * I = dE / (Cs w^2) (common practice). Peaks are sampled values: take
+ * enough steps. The energy comes from a first, kinematic sweep (the work
+ * the input does up to each sample, by the energy balance, exact at the
+ * samples for constant loads), so the range is swept twice.
+ * On success the solver is left at the end of the sweep (with the unit-rate
+ * rates and no forces solved); a failure leaves it exactly as it was.
+ * Returns KL_OK or KL_LIMIT (the motion stopped inside the range: figures
+ * over the reachable part), or KL_EINVAL (NULL, a size too small, steps <
+ * 1, a negative Cs), KL_ENONFINITE, KL_EINDETERMINATE, the load statuses
+ * of kl_solve_forces, the statuses of kl_solver_sweep (KL_ESINGULAR also
+ * when a sample's force system is singular). Never allocates.
+ */
+KL_API int kl_cycle_summarize(kl_solver *s, const kl_cycle *c, int nloads,
+                              const kl_load *loads, kl_cycle_summary *sum,
+                              kl_cycle_peak *input_peaks,
+                              kl_cycle_peak *joint_peaks);
+
+/** The numbers in one row of kl_cycle_table for model `m`:
+ * 1 + inputs + 3 joints + 5, or KL_EINVAL (NULL), KL_ESTATE (not
+ * finalized). */
+KL_API int kl_cycle_columns(const kl_model *m);
+
+/**
+ * The forces over a cycle, sample by sample, into `rows` (row-major,
+ * kl_cycle_columns numbers per row, one row per sample, at most
+ * c->steps + 1 rows): the driven input's value; every input's effort; per
+ * joint the force x, force y and moment of kl_joint_force and
+ * kl_joint_moment; the ground force x, y and moment; the kinetic energy of
+ * the links (mass x length^2 / time^2); the work the driven input has done
+ * since the first sample (by the energy balance). `cap` is the number of
+ * doubles `rows` holds, at least (c->steps + 1) times the columns. The
+ * rows delivered go to `*rows_done` (may be NULL). The solver is left as
+ * kl_cycle_summarize leaves it. Returns as kl_cycle_summarize, and
+ * KL_EINVAL for a `rows` array too small. Never allocates.
+ */
+KL_API int kl_cycle_table(kl_solver *s, const kl_cycle *c, int nloads,
+                          const kl_load *loads, double *rows, size_t cap,
+                          int *rows_done);
 
 /* ------------------------------------------------------------------------
  * Kinematic (influence) coefficients: derivatives of the position with
