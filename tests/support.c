@@ -317,10 +317,21 @@ snapshot snap(const kl_solver *s) {
     }
   }
   for (j = 0; j < kl_model_joint_count(m); j++) {
+    double f[2] = {NAN, NAN};
     snap_put(&sn, kl_joint_angle(s, j));
     snap_put(&sn, kl_joint_slide(s, j));
     snap_put(&sn, kl_joint_slide_rate(s, j));
     snap_put(&sn, kl_joint_slide_accel(s, j));
+    snap_put(&sn, (double)kl_joint_force(s, j, f));
+    snap_put(&sn, f[0]);
+    snap_put(&sn, f[1]);
+    snap_put(&sn, kl_joint_moment(s, j));
+  }
+  {
+    double g[3] = {NAN, NAN, NAN};
+    snap_put(&sn, (double)kl_ground_force(s, g));
+    for (i = 0; i < 3; i++)
+      snap_put(&sn, g[i]);
   }
   for (p = 0; p < kl_model_point_count(m); p++)
     for (g = 0; g < 3; g++) {

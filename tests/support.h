@@ -125,7 +125,8 @@ typedef struct {
 } snapshot;
 /* Everything a caller can read back from a solver, in a fixed order: every
  * link's angle, rate, acceleration and coefficients, every joint's angle
- * and slide with its rates, every point getter's status and values, every
+ * and slide with its rates and its force getters' status and values, the
+ * ground force getter's, every point getter's status and values, every
  * input value. */
 snapshot snap(const kl_solver *s);
 /* 1 if two snapshots hold the same bits. */
