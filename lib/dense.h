@@ -32,7 +32,9 @@ typedef struct {
    * units (slide columns times the model's scale), so that the condition
    * estimate does not depend on the unit of length. */
   double *colscale;
-  double *a;         /* the assembled, scaled matrix A D, column-major n x n */
+  double *a;         /* the assembled, scaled matrix A D, column-major n x n
+                        (not loaded for the banded kernel of a system
+                        without damped steps) */
   double *lu;        /* small and dense kernels: LU factors of a */
   double *ab;        /* banded kernel: LAPACK band storage, ldab x n */
   int ldab;
@@ -57,7 +59,8 @@ int kli_dense_choose(const kli_dense *d, int kernel);
 /* Switches kernels; the factors must be recomputed. */
 void kli_dense_use(kli_dense *d, int kernel);
 /* Scatters the pattern's values of A (two per pair, then one per single)
- * into A D. */
+ * into A D as the kernel in use factors it: the n x n matrix, the band, or
+ * both for a system with damped steps. */
 void kli_dense_load(kli_dense *d, const double *pairs);
 /* LU-factors the loaded matrix; 0, or 1 if a pivot is exactly zero. */
 int kli_dense_factor(kli_dense *d);

@@ -46,44 +46,50 @@ static void centre_motion(kl_solver *s, const double *xd, const double *xdd) {
   }
 }
 
-/* A joint at pose p: the arm from each side's centre of mass to the point
- * where the joint's force acts (link b's attachment point; on link a, that
- * point on its slide line), and a sliding joint's axis direction d. On
- * ground, whose centre is its origin, the arm is the point itself. */
-static void joint_geometry(const kl_model *m, const kli_pose *p, int joint,
-                           double arm[2][2], double d[2]) {
-  const kli_joint *j = &m->joints[joint];
-  int side;
-  for (side = 0; side < 2; side++) {
-    int link = j->link[side];
-    double local[2];
-    local[0] = j->at[side][0] - m->links[link].centre[0];
-    local[1] = j->at[side][1] - m->links[link].centre[1];
-    turn(p, link, local, arm[side]);
-  }
-  d[0] = d[1] = 0.0;
-  if (kli_is_sliding(j->kind)) {
-    double slide = p->x[m->nlinks + joint];
-    turn(p, j->link[0], j->axis_cs, d);
-    arm[0][0] += slide * d[0];
-    arm[0][1] += slide * d[1];
+/* Every joint at the committed pose, into s->force_geometry (6 per
+ * joint): the arm from each side's centre of mass to the point where the
+ * joint's force acts (link b's attachment point; on link a, that point on
+ * its slide line), and a sliding joint's axis direction d. On ground,
+ * whose centre is its origin, the arm is the point itself. */
+static void joint_geometry(kl_solver *s) {
+  const kl_model *m = s->model;
+  const kli_pose *p = &s->st.pose;
+  int joint, side;
+  for (joint = 0; joint < m->njoints; joint++) {
+    const kli_joint *j = &m->joints[joint];
+    double *arm = s->force_geometry + 6 * joint, *d = arm + 4;
+    for (side = 0; side < 2; side++) {
+      int link = j->link[side];
+      double local[2];
+      local[0] = j->at[side][0] - m->links[link].centre[0];
+      local[1] = j->at[side][1] - m->links[link].centre[1];
+      turn(p, link, local, arm + 2 * side);
+    }
+    d[0] = d[1] = 0.0;
+    if (kli_is_sliding(j->kind)) {
+      double slide = p->x[m->nlinks + joint];
+      turn(p, j->link[0], j->axis_cs, d);
+      arm[0] += slide * d[0];
+      arm[1] += slide * d[1];
+    }
   }
 }
 
-/* The force system's values at the committed pose: each entry's
- * coefficient times its side's sign, moment rows over the model's scale. */
+/* The force system's values at the committed pose (its joint geometry
+ * taken): each entry's coefficient times its side's sign, moment rows
+ * over the model's scale. */
 static void assemble(kl_solver *s) {
   const kl_model *m = s->model;
   const kli_force_pattern *f = &m->topo.forces;
   double inv_scale = 1.0 / m->topo.scale;
   int j, e;
   for (j = 0; j < m->njoints; j++) {
-    double arm[2][2], d[2], n[2];
-    joint_geometry(m, &s->st.pose, j, arm, d);
+    const double *arm = s->force_geometry + 6 * j, *d = arm + 4;
+    double n[2];
     n[0] = -d[1];
     n[1] = d[0];
     for (e = f->entry_start[j]; e < f->entry_start[j + 1]; e++) {
-      const double *r = arm[f->side[e]];
+      const double *r = arm + 2 * f->side[e];
       double v;
       switch (f->coef[e]) {
       case KLI_COEF_UNIT: v = 1.0; break;
@@ -144,7 +150,7 @@ static void right_side(kl_solver *s, const double *xdd, int nloads,
 }
 
 /* The unknowns x back to joint forces and moments, efforts and the load on
- * ground. */
+ * ground (the joint geometry taken at this pose). */
 static void results(kl_solver *s, const double *x, kli_forces *out) {
   const kl_model *m = s->model;
   const kli_force_pattern *f = &m->topo.forces;
@@ -154,8 +160,8 @@ static void results(kl_solver *s, const double *x, kli_forces *out) {
     const kli_joint *jt = &m->joints[j];
     int c = f->joint_col[j];
     int effort = jt->input >= 0 ? f->input_col[jt->input] : -1;
-    double arm[2][2], d[2], force[2], moment = 0.0;
-    joint_geometry(m, &s->st.pose, j, arm, d);
+    const double *arm = s->force_geometry + 6 * j, *d = arm + 4;
+    double force[2], moment = 0.0;
     if (jt->kind == KL_JOINT_REVOLUTE) {
       force[0] = x[c];
       force[1] = x[c + 1];
@@ -178,7 +184,7 @@ static void results(kl_solver *s, const double *x, kli_forces *out) {
      * opposites; the point is where the force acts, in global terms */
     if (jt->link[1] == KL_GROUND || jt->link[0] == KL_GROUND) {
       double sign = jt->link[1] == KL_GROUND ? 1.0 : -1.0;
-      const double *at = arm[jt->link[1] == KL_GROUND ? 1 : 0];
+      const double *at = arm + (jt->link[1] == KL_GROUND ? 2 : 0);
       out->ground[0] += sign * force[0];
       out->ground[1] += sign * force[1];
       out->ground[2] += sign * (cross(at, force) + moment);
@@ -228,6 +234,7 @@ int kli_forces_at(kl_solver *s, const double *xd, const double *xdd,
                     "are not determined",
                     stage, s->st.rcond, s->singular_rcond);
   if (!s->force_factored || memcmp(s->force_at, s->st.pose.x, coords) != 0) {
+    joint_geometry(s);
     assemble(s);
     kli_dense_load(&s->force, s->force_values);
     s->force_factored = 0;

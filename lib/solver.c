@@ -137,6 +137,7 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->force_values = kli_carve(c, (size_t)fp->nentries, sizeof(double));
   t->force_rhs = kli_carve(c, (size_t)fp->n, sizeof(double));
   t->force_at = kli_carve(c, (size_t)nc, sizeof(double));
+  t->force_geometry = kli_carve(c, 6 * (size_t)m->njoints, sizeof(double));
   t->centre_velocity = kli_carve(c, 2 * (size_t)nl, sizeof(double));
   t->centre_accel = kli_carve(c, 2 * (size_t)nl, sizeof(double));
   t->scaled_xd = kli_carve(c, (size_t)nc, sizeof(double));

@@ -95,6 +95,8 @@ struct kl_solver {
    * joints, shaking force and moment) its sums, first and last values. */
   kli_dense force;
   double *force_values, *force_rhs, *force_at;
+  double *force_geometry; /* per joint at force_at: the arms from a's and
+                             b's centres to its point, its slide axis */
   int force_factored;
   double *centre_velocity, *centre_accel;
   double *scaled_xd, *scaled_xdd;
