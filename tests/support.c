@@ -229,7 +229,7 @@ kl_model *build_pin_linkage(const pin_linkage *p, int explicit_loops) {
   return m;
 }
 
-chain build_chain(int n) {
+static chain chain_links(int n, int massive) {
   chain c;
   int k, driver, pivot;
   c.m = kl_model_new();
@@ -244,11 +244,23 @@ chain build_chain(int n) {
     kl_add_revolute(c.m, driver, 40, 0, c.couplers[k], 0, 0);
     kl_add_revolute(c.m, c.couplers[k], 120, 0, c.rockers[k], 80, 0);
     kl_add_revolute(c.m, c.rockers[k], 0, 0, KL_GROUND, 100.0 * (k + 1), 0);
+    if (massive) {
+      kl_set_link_mass(c.m, c.couplers[k], 1.2, 60, 0, 1500);
+      kl_set_link_mass(c.m, c.rockers[k], 0.8, 40, 0, 500);
+    }
     driver = c.rockers[k];
+  }
+  if (massive) {
+    kl_set_link_mass(c.m, c.crank, 0.4, 20, 0, 80);
+    kl_model_set_gravity(c.m, 0, -9810);
   }
   kl_model_finalize(c.m);
   return c;
 }
+
+chain build_chain(int n) { return chain_links(n, 0); }
+
+chain build_massive_chain(int n) { return chain_links(n, 1); }
 
 /*
  * Freudenstein's equation in its half-angle tangent form, as given in

@@ -108,6 +108,9 @@ typedef struct {
   int crank, couplers[CHAIN_MAX], rockers[CHAIN_MAX];
 } chain;
 chain build_chain(int n);
+/* The same chain with mass properties (crank 0.4 kg, couplers 1.2 kg,
+ * rockers 0.8 kg at their middles; mm, kg, s) and gravity along -y. */
+chain build_massive_chain(int n);
 /* Sets sketch angles near the open branch of every loop at crank angle u. */
 void sketch_chain(const chain *c, kl_solver *s, double u);
 
