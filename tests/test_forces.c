@@ -411,6 +411,64 @@ START_TEST(load_cases_at_one_position) {
 }
 END_TEST
 
+/* ---- kernels ---- */
+
+/* The kernel AUTO chooses for the force system, seen in the bits it
+ * gives: the same as the small kernel's on the four-bar (9 unknowns), the
+ * same as the banded kernel's on a chain of 100 loops (603 unknowns; the
+ * loop system is banded there under AUTO too, so the positions agree to
+ * the bit and any difference would be the force system's). */
+static void forces_with_kernel(const kl_model *m, const chain *c,
+                               const machine *mc, int kernel, double *out,
+                               int *n) {
+  kl_solver *s = c != NULL ? kl_solver_new(m) : machine_solver(mc);
+  kl_options o;
+  double u = 0.3, w = 9.0, a = 0.0, f[2];
+  int j, nj = kl_model_joint_count(m);
+  kl_options_default(&o);
+  o.kernel = kernel;
+  ck_assert_int_eq(kl_solver_set_options(s, &o), KL_OK);
+  if (c != NULL)
+    sketch_chain(c, s, u);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
+  ck_assert_int_eq(kl_solve_acceleration(s, &a), KL_OK);
+  ck_assert_int_eq(kl_solve_forces(s, c != NULL ? 0 : mc->nloads,
+                                   c != NULL ? NULL : mc->loads, out),
+                   KL_OK);
+  *n = 1;
+  for (j = 0; j < nj; j++) {
+    kl_joint_force(s, j, f);
+    out[(*n)++] = f[0];
+    out[(*n)++] = f[1];
+  }
+  kl_solver_free(s);
+}
+
+START_TEST(force_system_kernels) {
+  static double auto_run[1024], chosen[1024];
+  machine mc = build_machine(MACHINE_FOURBAR, 1);
+  chain c = build_massive_chain(100);
+  int n1, n2;
+  forces_with_kernel(mc.m, NULL, &mc, KL_KERNEL_AUTO, auto_run, &n1);
+  forces_with_kernel(mc.m, NULL, &mc, KL_KERNEL_SMALL, chosen, &n2);
+  ck_assert_int_eq(n1, n2);
+  ck_assert_msg(memcmp(auto_run, chosen, (size_t)n1 * sizeof(double)) == 0,
+                "the four-bar's forces under AUTO are not the small kernel's");
+  forces_with_kernel(c.m, &c, NULL, KL_KERNEL_AUTO, auto_run, &n1);
+  forces_with_kernel(c.m, &c, NULL, KL_KERNEL_BANDED, chosen, &n2);
+  ck_assert_int_eq(n1, n2);
+  ck_assert_msg(memcmp(auto_run, chosen, (size_t)n1 * sizeof(double)) == 0,
+                "the 100-loop chain's forces under AUTO are not the banded "
+                "kernel's");
+  /* and the dense kernel agrees to rounding */
+  forces_with_kernel(c.m, &c, NULL, KL_KERNEL_DENSE, chosen, &n2);
+  ck_assert_double_eq_tol(chosen[0], auto_run[0], 1e-9 * fabs(auto_run[0]));
+  kl_model_free(mc.m);
+  kl_model_free(c.m);
+}
+END_TEST
+
 /* ---- the cycle figures ---- */
 
 /* The cycle's forces, from the sweep's unit-rate rates scaled by w and
@@ -1026,6 +1084,7 @@ int main(void) {
                       MACHINE_COUNT);
   tcase_add_test(tc, slider_crank_torque_closed_form);
   tcase_add_test(tc, load_cases_at_one_position);
+  tcase_add_test(tc, force_system_kernels);
   tcase_add_loop_test(tc, cycle_scaling_matches_direct_solves, 0, 2);
   tcase_add_loop_test(tc, cycle_summary_matches_its_table, 0, 2);
   tcase_add_test(tc, cycle_of_a_conservative_machine);
