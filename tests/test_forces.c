@@ -196,12 +196,20 @@ static void check_power(const kl_solver *s, const machine *mc,
                 kinetic);
 }
 
-/* Every balance at the solver's state after kl_solve_forces. */
+/* Every balance at the solver's state after kl_solve_forces with loads. */
+static void check_balances_with(const kl_solver *s, const machine *mc,
+                                const double *efforts, const double *ud,
+                                int nloads, const kl_load *loads,
+                                const char *what) {
+  check_equilibrium(s, mc, nloads, loads, what);
+  check_power(s, mc, efforts, ud, nloads, loads, what);
+}
+
+/* The same with the machine's own loads. */
 static void check_balances(const kl_solver *s, const machine *mc,
                            const double *efforts, const double *ud,
                            const char *what) {
-  check_equilibrium(s, mc, mc->nloads, mc->loads, what);
-  check_power(s, mc, efforts, ud, mc->nloads, mc->loads, what);
+  check_balances_with(s, mc, efforts, ud, mc->nloads, mc->loads, what);
 }
 
 /* ---- every machine over its motion ---- */
@@ -235,10 +243,12 @@ START_TEST(efforts_are_the_joint_actuation) {
   machine mc = build_machine(_i, 1);
   kl_solver *s = machine_solver(&mc);
   const kl_model *m = mc.m;
-  double efforts[2];
+  double efforts[2], u[2], ud[2], udd[2];
   int i;
   ck_assert_int_eq(machine_solve(&mc, s, 3, SAMPLES), KL_OK);
   ck_assert_int_eq(kl_solve_forces(s, mc.nloads, mc.loads, efforts), KL_OK);
+  machine_sample(&mc, 3, SAMPLES, u, ud, udd);
+  check_balances(s, &mc, efforts, ud, mc.name);
   for (i = 0; i < mc.ninputs; i++) {
     int j = kl_model_input_joint(m, i), links[2];
     if (kl_model_joint_kind(m, j) == KL_JOINT_REVOLUTE) {
@@ -337,6 +347,7 @@ START_TEST(slider_crank_torque_closed_form) {
     ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
     ck_assert_int_eq(kl_solve_acceleration(s, &zero), KL_OK);
     ck_assert_int_eq(kl_solve_forces(s, mc.nloads, mc.loads, efforts), KL_OK);
+    check_balances(s, &mc, efforts, &w, "slider-crank by free bodies");
     ck_assert_msg(fabs(efforts[0] - torque) <= 1e-9 * fabs(torque) + 1e-6,
                   "crank %g: torque %.12g, free bodies %.12g", t, efforts[0],
                   torque);
@@ -363,9 +374,11 @@ START_TEST(massless_forces_equal_virtual_work) {
   kl_solver *s = machine_solver(&mc);
   int k, i;
   for (k = 0; k <= 12; k++) {
-    double forces[2], virtual_work[2];
+    double forces[2], virtual_work[2], u[2], ud[2], udd[2];
     ck_assert_int_eq(machine_solve(&mc, s, k, 12), KL_OK);
     ck_assert_int_eq(kl_solve_forces(s, mc.nloads, mc.loads, forces), KL_OK);
+    machine_sample(&mc, k, 12, u, ud, udd);
+    check_balances(s, &mc, forces, ud, "massless links");
     ck_assert_int_eq(kl_input_effort(s, mc.nloads, mc.loads, virtual_work),
                      KL_OK);
     for (i = 0; i < mc.ninputs; i++)
@@ -386,11 +399,15 @@ START_TEST(load_cases_at_one_position) {
   kl_solver *s = machine_solver(&mc);
   kl_load half[MACHINE_MAX_LOADS];
   double e_all[1], e_none[1], e_half[1], e_again[1], f_all[2], f_again[2];
+  double u[1], ud[1], udd[1];
   int k;
   ck_assert_int_eq(machine_solve(&mc, s, 5, SAMPLES), KL_OK);
+  machine_sample(&mc, 5, SAMPLES, u, ud, udd);
   ck_assert_int_eq(kl_solve_forces(s, mc.nloads, mc.loads, e_all), KL_OK);
+  check_balances(s, &mc, e_all, ud, "all loads");
   kl_joint_force(s, 4, f_all);
   ck_assert_int_eq(kl_solve_forces(s, 0, NULL, e_none), KL_OK);
+  check_balances_with(s, &mc, e_none, ud, 0, NULL, "no loads");
   for (k = 0; k < mc.nloads; k++) {
     half[k] = mc.loads[k];
     half[k].fx *= 0.5;
@@ -398,6 +415,7 @@ START_TEST(load_cases_at_one_position) {
     half[k].torque *= 0.5;
   }
   ck_assert_int_eq(kl_solve_forces(s, mc.nloads, half, e_half), KL_OK);
+  check_balances_with(s, &mc, e_half, ud, mc.nloads, half, "half loads");
   /* the forces are affine in the loads */
   ck_assert_double_eq_tol(e_half[0], 0.5 * (e_all[0] + e_none[0]),
                           1e-10 * fabs(e_all[0]));
