@@ -806,7 +806,10 @@ typedef struct kl_load {
  *  KL_ESTAGE        no acceleration solved at the current position and rates
  *  KL_ESINGULAR     the position is singular (dead point, toggle, change
  *                   point): the force system is singular exactly where the
- *                   loop Jacobian is, and the forces there are not determined
+ *                   loop Jacobian is, so the test is the position's: its
+ *                   condition estimate below singular_rcond, a singular
+ *                   last position solve, or an exactly zero pivot; the
+ *                   forces there are not determined
  * Never allocates.
  */
 KL_API int kl_solve_forces(kl_solver *s, int nloads, const kl_load *loads,
