@@ -224,6 +224,8 @@ POINTERS = {
     "kl_solver_passages": {"count": "out", "last_input": "out"},
     "kl_solver_reach": {"inputs": "inputs"},
     "kl_input_effort_range": {"loads": "nloads"},
+    "kl_model_link_mass": {"mass": "out", "inertia": "out"},
+    "kl_solve_forces": {"loads": "nloads", "efforts": "inputs"},
     "kl_output_tolerance_stack": {"o": "one", "dims": "n", "tolerances": "n",
                                   "worst": "out", "rss": "out"},
 }
@@ -728,7 +730,8 @@ def py_default(header, s, fl, defaults):
     when it has one, else zero as C's initializers give it."""
     e = field_enum(header, fl)
     if defaults:
-        value = "%s.%s" % (defaults, fl.name)
+        value = ("getattr(%s, %r)" % (defaults, fl.name) if keyword.iskeyword(fl.name)
+                 else "%s.%s" % (defaults, fl.name))
         return "as_enum(H.%s, %s)" % (e.python, value) if e else value
     if e is not None:
         zero = next((v for v in e.values if v[1] == 0), None)
@@ -753,6 +756,11 @@ def py_value_type(header, s, bs):
             py_docstring("%s\n\n(%s)" % (s.doc, s.name), 4)]
     for fl in s.value_fields():
         e = field_enum(header, fl)
+        nested = header.struct(fl.ctype)
+        if nested is not None:
+            # a struct inside a struct reads as its own value type
+            out.append("    %s: %r = None" % (py_name(fl.name), camel(nested.name[3:])))
+            continue
         kind = ("H." + e.python) if e else "str" if fl.length is not None else \
             "bool" if is_flag(fl) else {"double": "float"}.get(fl.ctype, "int")
         out.append("    %s: %s = %s" % (py_name(fl.name), kind,
@@ -870,6 +878,8 @@ def octave_structs(header):
                 value = "s.%s != 0" % fl.name
             elif fl.length is not None:
                 value = "std::string(s.%s)" % fl.name
+            elif header.struct(fl.ctype) is not None:
+                value = "to_octave(s.%s)" % fl.name
             elif fl.ctype in ("long", "size_t"):
                 value = "static_cast<double>(s.%s)" % fl.name
             else:
@@ -885,6 +895,11 @@ def octave_structs(header):
         for fl in fields:
             e = field_enum(header, fl)
             arg = "v.contents(%s)(k), what + \".%s\"" % (cpp_string(fl.name), fl.name)
+            if header.struct(fl.ctype) is not None:
+                out.append("  if (v.isfield(%s))" % cpp_string(fl.name))
+                out.append("    from_octave(c, v.contents(%s)(k).map_value(), 0, what + "
+                           "\".%s\", s.%s, all);" % (cpp_string(fl.name), fl.name, fl.name))
+                continue
             if e is not None:
                 conv = "c.code(%s, %s_names)" % (arg, e.name)
             elif fl.length is not None:
@@ -912,7 +927,10 @@ def octave_wrapper(header, b):
     lines.append("octave_value_list gen_%s(const call &c) {" % b.command)
     call_args, outs, counts, i, vector_arg = [], [], {}, 0, None
     for a in b.args:
-        n, what = a.name, cpp_string(a.name)
+        # the gateway's own names (the call c, the handle h) are not a
+        # parameter's: a header parameter named so takes a trailing _
+        n = a.name + "_" if a.name in ("c", "h") else a.name
+        what = cpp_string(a.name)
         if a.kind == "handle":
             lines.append("  entry &h = c.%s(0, %s);" % (
                 b.handle, "access::read" if a.const else "access::write"))

@@ -128,7 +128,10 @@ enum kl_status {
   KL_ESYNTAX = -20,        /**< model file: not in the format (line and column given) */
   KL_EIO = -21,            /**< a file could not be read or written */
   KL_ETRUNCATED = -22,     /**< the caller's buffer is too small: the text was cut */
-  KL_ETOOLARGE = -23       /**< the request exceeds a documented bound of the library */
+  KL_ETOOLARGE = -23,      /**< the request exceeds a documented bound of the library */
+  KL_EINDETERMINATE = -24  /**< forces: the structure is statically indeterminate
+                                (redundant constraints), so the joint forces are
+                                not determined by equilibrium alone */
 };
 
 /**
@@ -291,9 +294,11 @@ KL_API int kl_add_loop(kl_model *m, int njoints, const int *joints);
  * Checks, each with its own status and a message naming ids and names:
  *  KL_EDISCONNECTED  a link not connected to ground through joints
  *  KL_ELOOPSET       registered loops not independent, or not a full set
- *  KL_EOVERCONSTRAINED  Gruebler's count below zero, or a link angle fixed
- *                    twice over by prismatic joints and revolute inputs
+ *  KL_EOVERCONSTRAINED  Gruebler's count plus the declared redundancy
+ *                    (kl_model_set_redundancy) below zero, or a link angle
+ *                    fixed twice over by prismatic joints and revolute inputs
  *  KL_EDOF           number of inputs differs from the degrees of freedom
+ *                    (Gruebler's count plus the declared redundancy)
  *  KL_EZEROLENGTH    a link whose joints all stand at one point, so that its
  *                    angle is undetermined
  *  KL_EUNDETERMINED  an angle or slide that no loop equation can determine
@@ -311,9 +316,11 @@ KL_API int kl_model_finalize(kl_model *m);
 KL_API int kl_model_is_finalized(const kl_model *m);
 
 /**
- * Degrees of freedom by Gruebler's (Kutzbach's) count for planar linkages,
- * 3 (links - 1) - 2 (revolute + prismatic joints) - (slot joints); KL_ESTATE
- * before finalize, KL_EINVAL for NULL.
+ * Degrees of freedom: Gruebler's (Kutzbach's) count for planar linkages,
+ * 3 (links - 1) - 2 (revolute + prismatic joints) - (slot joints), plus the
+ * redundant constraints the model declares (kl_model_set_redundancy; 0
+ * unless declared), which a finalized model's number of inputs equals;
+ * KL_ESTATE before finalize, KL_EINVAL for NULL.
  */
 KL_API int kl_model_dof(const kl_model *m);
 
@@ -397,6 +404,59 @@ typedef struct kl_sweep_settings {
 KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);
 /** The recorded sweep settings; KL_OK, KL_EID if there are none, KL_EINVAL. */
 KL_API int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep);
+
+/* Mass properties, gravity and redundancy: model document data for the
+ * force stage, set before finalize and readable at any time. Units: any one
+ * consistent system; forces come out in mass x length / time^2 (kg, m, s
+ * give N; kg, mm, s give mN, since 1 kg mm / s^2 = 1e-3 N), moments in that
+ * force times the length unit. */
+
+/**
+ * Sets the mass properties of a moving link: `mass` (>= 0), the centre of
+ * mass (cx, cy) in the link's frame, and the moment of inertia about the
+ * centre of mass (`inertia` >= 0, mass x length^2). A link never given them
+ * is massless (mass 0, centre (0, 0), inertia 0); a later call replaces
+ * the earlier one. Returns KL_OK, KL_EINVAL (NULL model, or a negative mass
+ * or inertia), KL_ENONFINITE (a NaN or infinite number), KL_EID (unknown
+ * link), KL_EKIND (ground: it does not move), KL_ESTATE (finalized). On
+ * failure the model is unchanged. Never allocates.
+ */
+KL_API int kl_set_link_mass(kl_model *m, int link, double mass, double cx,
+                            double cy, double inertia);
+/**
+ * The mass properties of a link into `mass`, `cxy` (the centre of mass in
+ * the link's frame) and `inertia` (about the centre of mass); each pointer
+ * may be NULL. Ground and links never given them read as massless.
+ * Returns KL_OK, KL_EID, KL_EINVAL (NULL model).
+ */
+KL_API int kl_model_link_mass(const kl_model *m, int link, double *mass,
+                              double cxy[2], double *inertia);
+/**
+ * Sets gravity, the acceleration (gx, gy) of free fall in the global frame
+ * (length / time^2; (0, -9.81) for metres and seconds with y up, (0, -9810)
+ * for millimetres); (0, 0), the default, leaves it out. Returns KL_OK,
+ * KL_ENONFINITE, KL_ESTATE (finalized), KL_EINVAL (NULL).
+ */
+KL_API int kl_model_set_gravity(kl_model *m, double gx, double gy);
+/** The model's gravity into `gxy`. KL_OK, KL_EINVAL (NULL). */
+KL_API int kl_model_gravity(const kl_model *m, double gxy[2]);
+/**
+ * Declares that the model is over-constrained by design: `redundant` (>= 0)
+ * of its constraints repeat what the others already impose, given its
+ * special proportions (a parallelogram with a third parallel crank, a link
+ * doubled for strength). Gruebler's count then understates the mobility by
+ * that number, and kl_model_finalize expects inputs = Gruebler's count +
+ * `redundant`. The loop equations have `redundant` more rows than
+ * unknowns; the position stage solves the rest and checks that those rows
+ * close too (KL_ENOASSEMBLY naming the loop when the proportions are not
+ * the special ones), and the force stage reports KL_EINDETERMINATE: the
+ * joint forces of such a structure depend on its elasticity, not on
+ * equilibrium alone. Default 0. Returns KL_OK, KL_EINVAL (negative, or
+ * NULL), KL_ESTATE (finalized).
+ */
+KL_API int kl_model_set_redundancy(kl_model *m, int redundant);
+/** The declared number of redundant constraints, or KL_EINVAL for NULL. */
+KL_API int kl_model_redundancy(const kl_model *m);
 
 /* Reading a model back. Getters that return an int give KL_EID for an unknown
  * id and KL_EINVAL for NULL pointers; they never set the model's message. */
@@ -781,6 +841,199 @@ KL_API int kl_point_velocity(const kl_solver *s, int point, double xy[2]);
 KL_API int kl_point_acceleration(const kl_solver *s, int point, double xy[2]);
 
 /* ------------------------------------------------------------------------
+ * The force stage: inverse dynamics (kinetostatics) at a solved state, and
+ * the force figures over a motion at constant input speed
+ * (docs/theory.md section 8 gives the equations and the sign rules).
+ * Links are ideal: rigid, joints without friction or clearance.
+ * ------------------------------------------------------------------------ */
+
+/** Load kinds for kl_solve_forces and kl_input_effort. */
+enum kl_load_kind {
+  KL_LOAD_FORCE = 0, /**< force (fx, fy), global frame, applied at point `id` */
+  KL_LOAD_TORQUE = 1 /**< torque (counter-clockwise positive) on link `id` */
+};
+
+/** An applied load. A load on ground (a point of ground, or a torque on
+ * link 0) acts on the frame directly and changes no force of the stage. */
+typedef struct kl_load {
+  int kind;      /**< enum kl_load_kind */
+  int id;        /**< point (force) or link (torque) */
+  double fx;     /**< force, global x (KL_LOAD_FORCE) */
+  double fy;     /**< force, global y (KL_LOAD_FORCE) */
+  double torque; /**< torque, counter-clockwise (KL_LOAD_TORQUE) */
+} kl_load;
+
+/**
+ * Force stage: the joint forces and input efforts that move the linkage
+ * through the position, velocity and acceleration last solved, against the
+ * loads, gravity (kl_model_set_gravity) and the links' inertia
+ * (kl_set_link_mass), by Newton-Euler equations for every moving link with
+ * the joint reactions as unknowns (d'Alembert). `efforts[i]` (may be NULL)
+ * receives what input i's actuator applies: for a revolute input a torque
+ * on its joint's link b, reacting on link a, counter-clockwise positive;
+ * for a prismatic or slot input a force on link b along the slide axis
+ * (positive toward increasing slide), reacting on link a. `loads` (may be
+ * NULL when `nloads` is 0) act at the state solved. The results stay
+ * readable (kl_joint_force, kl_joint_moment, kl_ground_force) until the
+ * state changes: a position, velocity or acceleration solve, a sketch.
+ * For statics, solve velocity and acceleration with zero rates first.
+ * Calls at one position reuse the factors of the force system: several
+ * load cases, or other speeds at that position, cost a solve each.
+ * Returns KL_OK, and on failure leaves the state exactly as it was:
+ *  KL_EINDETERMINATE  the model declares redundant constraints
+ *                   (kl_model_set_redundancy): the forces are not determined
+ *  KL_EINVAL        NULL solver, nloads < 0, or NULL loads with nloads > 0
+ *  KL_EID, KL_EKIND, KL_ENONFINITE  a load names no point or link, has an
+ *                   unknown kind, or holds a NaN or infinite number
+ *  KL_ESTAGE        no acceleration solved at the current position and rates
+ *  KL_ESINGULAR     the position is singular (dead point, toggle, change
+ *                   point): the force system is singular exactly where the
+ *                   loop Jacobian is, so the test is the position's: its
+ *                   condition estimate below singular_rcond, a singular
+ *                   last position solve, or an exactly zero pivot; the
+ *                   forces there are not determined
+ * Never allocates.
+ */
+KL_API int kl_solve_forces(kl_solver *s, int nloads, const kl_load *loads,
+                           double *efforts);
+
+/**
+ * The whole force that link a exerts on link b through `joint` (global
+ * frame, force units), from the last successful kl_solve_forces at the
+ * current state: the constraint force, plus an input's actuator force along
+ * its slide. Link b exerts the opposite force on link a. For a revolute
+ * joint it acts at the pin; for a prismatic or slot joint at link b's
+ * attachment point, across the slide (plus, for an input, along it).
+ * Returns KL_OK, KL_EID, KL_EINVAL (NULL), KL_ESTAGE (no forces solved at
+ * the current state).
+ */
+KL_API int kl_joint_force(const kl_solver *s, int joint, double fxy[2]);
+
+/**
+ * The moment about link b's attachment point that link a exerts on link b
+ * through `joint` (counter-clockwise positive): a prismatic joint's
+ * constraint moment (what keeps b from turning against a); a revolute
+ * input's actuator torque; 0 for other revolute and for slot joints. NaN
+ * for an unknown joint or when no forces are solved at the current state.
+ */
+KL_API double kl_joint_moment(const kl_solver *s, int joint);
+
+/**
+ * What the moving links exert on ground through all its joints (the frame's
+ * load, its shaking force and moment): fxy_m[0], fxy_m[1] the force, global
+ * frame, and fxy_m[2] its moment about the global origin, counter-clockwise
+ * positive. Loads applied to ground itself are not in it. Returns KL_OK,
+ * KL_EINVAL (NULL), KL_ESTAGE (no forces solved at the current state).
+ */
+KL_API int kl_ground_force(const kl_solver *s, double fxy_m[3]);
+
+/**
+ * A motion for the force figures: input `input` driven at the constant
+ * speed `speed` from `from` to `to` in `steps` equal steps (as
+ * kl_solver_sweep sweeps it), every other input at rest at its value last
+ * solved. Start from kl_cycle_default's values, which set `size`.
+ */
+typedef struct kl_cycle {
+  size_t size;        /**< sizeof(kl_cycle), set by kl_cycle_default */
+  int input;          /**< the input driven; default 0 */
+  double from;        /**< its first value, rad or length; default 0 */
+  double to;          /**< its last value; default 2 pi (one crank turn) */
+  int steps;          /**< steps >= 1; default 360 */
+  double speed;       /**< its constant speed, rad or length per time unit
+                           (any sign; the forces depend on its square; 0
+                           gives the quasi-static cycle); default 1 */
+  double speed_fluctuation; /**< coefficient of speed fluctuation Cs for
+                           the flywheel, (max - min speed) / mean speed,
+                           > 0; 0 (the default) leaves the flywheel out */
+} kl_cycle;
+
+/** Fills `c` with the defaults (and `c->size`). NULL does nothing. */
+KL_API void kl_cycle_default(kl_cycle *c);
+
+/** The figures of one quantity over a cycle (the samples of the sweep). */
+typedef struct kl_cycle_peak {
+  double peak; /**< the sampled value of largest magnitude: signed for an
+                    input effort and the shaking moment, a magnitude for a
+                    joint load and the shaking force */
+  double at;   /**< the driven input's value there */
+  double mean; /**< the mean over the cycle (trapezoid rule in the input,
+                    which at constant speed is the mean over time) */
+  double rms;  /**< the root mean square over the cycle, likewise */
+} kl_cycle_peak;
+
+/** The force figures of a cycle. Set `size` to sizeof(kl_cycle_summary). */
+typedef struct kl_cycle_summary {
+  size_t size;              /**< sizeof(kl_cycle_summary), set by the caller */
+  int sweep_status;         /**< KL_OK, or KL_LIMIT: the figures cover the
+                                 part of the range the motion reached */
+  int steps_done;           /**< samples the figures cover */
+  double limit_input;       /**< with KL_LIMIT, where the motion stopped;
+                                 NaN otherwise */
+  kl_cycle_peak shaking_force;  /**< magnitude of the ground force */
+  kl_cycle_peak shaking_moment; /**< its moment about the global origin */
+  double energy_fluctuation;    /**< the largest minus the least of the
+                                     work the driven input does above its
+                                     mean effort, over the cycle (energy:
+                                     force x length) */
+  double energy_min_at;     /**< the driven input's value at the least */
+  double energy_max_at;     /**< and at the largest */
+  double flywheel_inertia;  /**< energy_fluctuation / (Cs speed^2): the
+                                 moment of inertia (mass x length^2) that
+                                 holds a crank's speed within Cs (for a
+                                 sliding input, the equivalent mass); NaN
+                                 when Cs or the speed is 0 */
+} kl_cycle_summary;
+
+/**
+ * The force figures of a cycle: with the motion of `c` and the constant
+ * loads, at every sample of the sweep the forces as kl_solve_forces gives
+ * them (the rates and accelerations are the sweep's unit-rate ones scaled
+ * by speed and speed^2), and from them: per input (`input_peaks`, one per
+ * input, may be NULL) its effort's peak, where, mean and RMS (the motor
+ * sizing figures); per joint (`joint_peaks`, one per joint, may be NULL)
+ * the peak magnitude of kl_joint_force and where, mean and RMS; the
+ * shaking force and moment; the energy fluctuation of the driven input
+ * over the cycle and the flywheel inertia it calls for at coefficient Cs,
+ * I = dE / (Cs w^2) (common practice). Peaks are sampled values: take
+ * enough steps. The energy comes from a first, kinematic sweep (the work
+ * the input does up to each sample, by the energy balance, exact at the
+ * samples for constant loads), so the range is swept twice.
+ * On success the solver is left at the end of the sweep (with the unit-rate
+ * rates and no forces solved); a failure leaves it exactly as it was.
+ * Returns KL_OK or KL_LIMIT (the motion stopped inside the range: figures
+ * over the reachable part), or KL_EINVAL (NULL, a size too small, steps <
+ * 1, a negative Cs), KL_ENONFINITE, KL_EINDETERMINATE, the load statuses
+ * of kl_solve_forces, the statuses of kl_solver_sweep (KL_ESINGULAR also
+ * when a sample's force system is singular). Never allocates.
+ */
+KL_API int kl_cycle_summarize(kl_solver *s, const kl_cycle *c, int nloads,
+                              const kl_load *loads, kl_cycle_summary *sum,
+                              kl_cycle_peak *input_peaks,
+                              kl_cycle_peak *joint_peaks);
+
+/** The numbers in one row of kl_cycle_table for model `m`:
+ * 1 + inputs + 3 joints + 5, or KL_EINVAL (NULL), KL_ESTATE (not
+ * finalized). */
+KL_API int kl_cycle_columns(const kl_model *m);
+
+/**
+ * The forces over a cycle, sample by sample, into `rows` (row-major,
+ * kl_cycle_columns numbers per row, one row per sample, at most
+ * c->steps + 1 rows): the driven input's value; every input's effort; per
+ * joint the force x, force y and moment of kl_joint_force and
+ * kl_joint_moment; the ground force x, y and moment; the kinetic energy of
+ * the links (mass x length^2 / time^2); the work the driven input has done
+ * since the first sample (by the energy balance). `cap` is the number of
+ * doubles `rows` holds, at least (c->steps + 1) times the columns. The
+ * rows delivered go to `*rows_done` (may be NULL). The solver is left as
+ * kl_cycle_summarize leaves it. Returns as kl_cycle_summarize, and
+ * KL_EINVAL for a `rows` array too small. Never allocates.
+ */
+KL_API int kl_cycle_table(kl_solver *s, const kl_cycle *c, int nloads,
+                          const kl_load *loads, double *rows, size_t cap,
+                          int *rows_done);
+
+/* ------------------------------------------------------------------------
  * Kinematic (influence) coefficients: derivatives of the position with
  * respect to the inputs, the velocity ratios and their rates of change.
  * ------------------------------------------------------------------------ */
@@ -1148,21 +1401,6 @@ KL_API int kl_range_time_ratio(const kl_range *range, double *ratio);
  */
 KL_API int kl_output_mechanical_advantage(kl_solver *s, const kl_output *o,
                                    int input, double *ma);
-
-/** Load kinds for kl_input_effort. */
-enum kl_load_kind {
-  KL_LOAD_FORCE = 0, /**< force (fx, fy), global frame, applied at point `id` */
-  KL_LOAD_TORQUE = 1 /**< torque (counter-clockwise positive) on link `id` */
-};
-
-/** An applied load. */
-typedef struct kl_load {
-  int kind;      /**< enum kl_load_kind */
-  int id;        /**< point (force) or link (torque) */
-  double fx;     /**< force, global x (KL_LOAD_FORCE) */
-  double fy;     /**< force, global y (KL_LOAD_FORCE) */
-  double torque; /**< torque, counter-clockwise (KL_LOAD_TORQUE) */
-} kl_load;
 
 /**
  * Static input effort by virtual work: the torque or force each input must

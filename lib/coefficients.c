@@ -32,7 +32,7 @@ int kl_solve_coefficients(kl_solver *s) {
   /* d2F/du_i du_j = J q_ij + B(x_i, x_j) = 0, inputs being linear in u */
   for (i = 0; i < s->ninputs; i++)
     for (j = i; j < s->ninputs; j++) {
-      memset(s->rhs, 0, (size_t)s->n * sizeof(double));
+      memset(s->rhs, 0, (size_t)s->nrows * sizeof(double));
       kli_loops_add_second(s->model, &s->st.pose, first_order(s, i),
                            first_order(s, j), s->rhs);
       kli_rate_solve(s, s->rhs, NULL, second_order(s, i, j));

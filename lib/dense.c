@@ -29,7 +29,7 @@ void kli_dense_carve(kli_dense *d, kli_carver *c, const kli_pattern *p) {
   d->ipiv = kli_carve(c, n, sizeof(int));
   d->work = kli_carve(c, 4 * n, sizeof(double));
   d->iwork = kli_carve(c, n, sizeof(int));
-  d->normal = kli_carve(c, nn, sizeof(double));
+  d->normal = p->damped ? kli_carve(c, nn, sizeof(double)) : NULL;
 }
 
 int kli_dense_choose(const kli_dense *d, int kernel) {
@@ -53,19 +53,45 @@ void kli_dense_init(kli_dense *d, const double *colscale, int kernel) {
   kli_dense_use(d, kernel);
 }
 
+/* Places the scaled value v of entry (row, col) of A D in the ordered
+ * band of the banded kernel (LAPACK's band storage). */
+static void band_put(kli_dense *d, int row, int col, double v) {
+  int i = d->p.band_row[row], j = d->p.band_col[col];
+  /* AB(kl + ku + 1 + i - j, j), counted from 1 */
+  d->ab[(size_t)(d->p.band_lower + d->p.band_upper + i - j) +
+        (size_t)j * (size_t)d->ldab] = v;
+}
+
+/* Places the scaled value v of entry (row, col): in the held matrix A D,
+ * which the small and dense kernels factor and the damped steps read, and
+ * in the band the banded kernel factors (a system without damped steps
+ * factored by the banded kernel never touches its n x n matrix). */
+static void put(kli_dense *d, int row, int col, double v, double *colsum) {
+  if (d->kernel != KL_KERNEL_BANDED || d->p.damped)
+    d->a[(size_t)col * (size_t)d->p.n + (size_t)row] = v;
+  if (d->kernel == KL_KERNEL_BANDED)
+    band_put(d, row, col, v);
+  colsum[col] += fabs(v);
+}
+
 void kli_dense_load(kli_dense *d, const double *pairs) {
   int p, n = d->p.n;
   /* the 1-norm from the same pass: column sums over the pattern */
   double *colsum = d->work;
   for (p = 0; p < n; p++)
     colsum[p] = 0.0;
+  if (d->kernel == KL_KERNEL_BANDED)
+    memset(d->ab, 0, (size_t)d->ldab * (size_t)n * sizeof(double));
   for (p = 0; p < d->p.npairs; p++) {
     int col = d->p.col[p];
-    double *at = d->a + (size_t)col * (size_t)n + (size_t)d->p.row[p];
     double scale = d->colscale[col];
-    at[0] = pairs[2 * p] * scale;
-    at[1] = pairs[2 * p + 1] * scale;
-    colsum[col] += fabs(at[0]) + fabs(at[1]);
+    put(d, d->p.row[p], col, pairs[2 * p] * scale, colsum);
+    put(d, d->p.row[p] + 1, col, pairs[2 * p + 1] * scale, colsum);
+  }
+  for (p = 0; p < d->p.nsingles; p++) {
+    int col = d->p.single_col[p];
+    put(d, d->p.single_row[p], col,
+        pairs[2 * d->p.npairs + p] * d->colscale[col], colsum);
   }
   d->anorm = 0.0;
   for (p = 0; p < n; p++)
@@ -97,7 +123,7 @@ static int small_factor2(kli_dense *d) {
 }
 
 static int small_factor(kli_dense *d) {
-  int n = d->p.n, i, j, k, singular = 0;
+  int n = d->p.n, i, j, k, singular = 0, rows, *below = d->iwork;
   double *lu = d->lu;
   if (n == 2)
     return small_factor2(d);
@@ -121,13 +147,20 @@ static int small_factor(kli_dense *d) {
         lu[k + j * n] = lu[piv + j * n];
         lu[piv + j * n] = t;
       }
+    /* the rows with a multiplier, so that sparse systems (the force
+     * system's) skip the rows an update would not change */
+    rows = 0;
     for (i = k + 1; i < n; i++)
-      lu[i + k * n] /= lu[k + k * n];
-    for (j = k + 1; j < n; j++) {
+      if (lu[i + k * n] != 0.0) {
+        lu[i + k * n] /= lu[k + k * n];
+        below[rows++] = i;
+      }
+    for (j = k + 1; j < n && rows > 0; j++) {
       double ukj = lu[k + j * n];
+      int r;
       if (ukj != 0.0)
-        for (i = k + 1; i < n; i++)
-          lu[i + j * n] -= lu[i + k * n] * ukj;
+        for (r = 0; r < rows; r++)
+          lu[below[r] + j * n] -= lu[below[r] + k * n] * ukj;
     }
   }
   return singular;
@@ -177,23 +210,6 @@ static double small_inverse_norm(kli_dense *d) {
   return norm;
 }
 
-/* ---- the banded kernel: the ordered matrix in LAPACK band storage ---- */
-
-static void band_fill(kli_dense *d) {
-  int p, n = d->p.n, kl = d->p.band_lower, ku = d->p.band_upper;
-  memset(d->ab, 0, (size_t)d->ldab * (size_t)n * sizeof(double));
-  for (p = 0; p < d->p.npairs; p++) {
-    int row = d->p.row[p], col = d->p.col[p], k;
-    int j = d->p.band_col[col];
-    const double *at = d->a + (size_t)col * (size_t)n + (size_t)row;
-    for (k = 0; k < 2; k++) {
-      int i = d->p.band_row[row + k];
-      /* AB(kl + ku + 1 + i - j, j), counted from 1 */
-      d->ab[(size_t)(kl + ku + i - j) + (size_t)j * (size_t)d->ldab] = at[k];
-    }
-  }
-}
-
 int kli_dense_factor(kli_dense *d) {
   int n = d->p.n;
   lapack_int info = 0;
@@ -206,7 +222,7 @@ int kli_dense_factor(kli_dense *d) {
     d->singular = small_factor(d);
     return d->singular;
   case KL_KERNEL_BANDED:
-    band_fill(d);
+    /* kli_dense_load filled the band */
     info = LAPACKE_dgbtrf_work(LAPACK_COL_MAJOR, n, n, d->p.band_lower,
                                d->p.band_upper, d->ab, d->ldab, d->ipiv);
     break;

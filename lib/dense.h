@@ -10,13 +10,19 @@
 /* Systems this small are factored by the built-in kernel in AUTO. */
 #define KLI_SMALL_MAX 16
 
-/* The sparsity pattern as the topology gives it. */
+/* The sparsity pattern as the topology gives it: pairs of entries (the
+ * loop Jacobian's x and y rows of a column) and single entries (a loop
+ * with one kept row, the force system). Values come in that order: two per
+ * pair, then one per single. */
 typedef struct {
   int n;                /* unknowns = equations */
   int npairs;           /* nonzero pairs: rows (r, r + 1) of column c */
   const int *row, *col;
+  int nsingles;         /* nonzero single entries: row r of column c */
+  const int *single_row, *single_col;
   const int *band_row, *band_col; /* a band-reducing ordering */
   int band_lower, band_upper;
+  int damped;           /* 1 if damped least-squares steps are taken */
 } kli_pattern;
 
 typedef struct {
@@ -26,14 +32,17 @@ typedef struct {
    * units (slide columns times the model's scale), so that the condition
    * estimate does not depend on the unit of length. */
   double *colscale;
-  double *a;         /* the assembled, scaled matrix A D, column-major n x n */
+  double *a;         /* the assembled, scaled matrix A D, column-major n x n
+                        (not loaded for the banded kernel of a system
+                        without damped steps) */
   double *lu;        /* small and dense kernels: LU factors of a */
   double *ab;        /* banded kernel: LAPACK band storage, ldab x n */
   int ldab;
   int *ipiv;
   double *work;      /* 4 n, for the condition estimates */
   int *iwork;        /* n */
-  double *normal;    /* n x n: A^T A + lambda I for damped steps */
+  double *normal;    /* n x n: A^T A + lambda I for damped steps (a
+                        pattern with `damped` set only) */
   double anorm;      /* 1-norm of a when loaded */
   int singular;      /* factorization met an exact zero pivot */
 } kli_dense;
@@ -49,7 +58,9 @@ void kli_dense_init(kli_dense *d, const double *colscale, int kernel);
 int kli_dense_choose(const kli_dense *d, int kernel);
 /* Switches kernels; the factors must be recomputed. */
 void kli_dense_use(kli_dense *d, int kernel);
-/* Scatters the pattern's values of A (two per pair) into A D. */
+/* Scatters the pattern's values of A (two per pair, then one per single)
+ * into A D as the kernel in use factors it: the n x n matrix, the band, or
+ * both for a system with damped steps. */
 void kli_dense_load(kli_dense *d, const double *pairs);
 /* LU-factors the loaded matrix; 0, or 1 if a pivot is exactly zero. */
 int kli_dense_factor(kli_dense *d);

@@ -256,3 +256,74 @@ void kli_jacobian_pairs(const kl_model *m, const kli_pose *p, double *pairs) {
     }
   }
 }
+
+void kli_row_directions(const kl_model *m, const double *pairs, double *dir) {
+  const kli_topology *t = &m->topo;
+  int loop;
+  for (loop = 0; loop < t->nloops; loop++) {
+    int p = t->loop_lead[loop];
+    double x, y, norm;
+    if (p < 0)
+      continue;
+    x = pairs[2 * p];
+    y = pairs[2 * p + 1];
+    norm = hypot(x, y);
+    dir[2 * loop] = norm > 0.0 ? x / norm : 1.0;
+    dir[2 * loop + 1] = norm > 0.0 ? y / norm : 0.0;
+  }
+}
+
+void kli_keep_rows(const kl_model *m, const double *dir, double *rows) {
+  const kli_topology *t = &m->topo;
+  int loop;
+  if (t->redundancy == 0)
+    return;
+  /* each loop's kept rows come at or before its own: in place, in order */
+  for (loop = 0; loop < t->nloops; loop++) {
+    double x = rows[2 * loop], y = rows[2 * loop + 1];
+    int first = t->loop_first_kept[loop];
+    if (t->loop_kept[loop] == 2) {
+      rows[first] = x;
+      rows[first + 1] = y;
+    } else if (t->loop_kept[loop] == 1) {
+      rows[first] = dir[2 * loop] * x + dir[2 * loop + 1] * y;
+    }
+  }
+}
+
+void kli_keep_pairs(const kl_model *m, const double *dir, const double *pairs,
+                    double *values) {
+  const kli_topology *t = &m->topo;
+  int p;
+  for (p = 0; p < t->nnz_pairs; p++) {
+    int loop = t->nz_row[p] / 2, slot = t->pair_slot[p];
+    if (t->loop_kept[loop] == 2) {
+      values[slot] = pairs[2 * p];
+      values[slot + 1] = pairs[2 * p + 1];
+    } else if (t->loop_kept[loop] == 1) {
+      values[slot] = dir[2 * loop] * pairs[2 * p] +
+                     dir[2 * loop + 1] * pairs[2 * p + 1];
+    }
+  }
+}
+
+double kli_dropped_residual(const kl_model *m, const double *dir,
+                            const double *rows, int *loop) {
+  const kli_topology *t = &m->topo;
+  double worst = 0.0;
+  int k;
+  *loop = -1;
+  for (k = 0; k < t->nloops; k++) {
+    double x = rows[2 * k], y = rows[2 * k + 1], r;
+    if (t->loop_kept[k] == 2)
+      continue;
+    r = t->loop_kept[k] == 1
+            ? fabs(dir[2 * k] * y - dir[2 * k + 1] * x)
+            : fmax(fabs(x), fabs(y));
+    if (*loop < 0 || !(r <= worst)) {
+      worst = r;
+      *loop = k;
+    }
+  }
+  return worst;
+}

@@ -74,4 +74,21 @@ void kli_loops_add_second(const kl_model *m, const kli_pose *p,
 /* Jacobian values dF/dq at p, two per nonzero pair of the pattern. */
 void kli_jacobian_pairs(const kl_model *m, const kli_pose *p, double *pairs);
 
+/* The kept rows of a model with redundant constraints (topology.c chooses
+ * them). A loop keeping one row keeps its component along a direction,
+ * 2 numbers per loop in `dir`: the unit vector of its lead unknown's
+ * Jacobian column, from the pair values at a pose (x-axis if that column
+ * is zero). */
+void kli_row_directions(const kl_model *m, const double *pairs, double *dir);
+/* Reduces loop rows (2 per loop) to the kept rows, in place. */
+void kli_keep_rows(const kl_model *m, const double *dir, double *rows);
+/* The kept system's values from the Jacobian pair values. */
+void kli_keep_pairs(const kl_model *m, const double *dir, const double *pairs,
+                    double *values);
+/* The largest residual of the dropped rows (the component across `dir` of
+ * a loop keeping one row, both rows of a loop keeping none) in the loop
+ * rows `rows`, and the loop it is in (-1 if no row is dropped). */
+double kli_dropped_residual(const kl_model *m, const double *dir,
+                            const double *rows, int *loop);
+
 #endif

@@ -262,42 +262,6 @@ int kl_range_time_ratio(const kl_range *range, double *ratio) {
 
 /* ---- input effort by virtual work ---- */
 
-static int check_loads(kl_solver *s, int nloads, const kl_load *loads) {
-  const kl_model *m = s->model;
-  char label[64];
-  int k;
-  for (k = 0; k < nloads; k++) {
-    const kl_load *l = &loads[k];
-    if (l->kind == KL_LOAD_FORCE) {
-      if (l->id < 0 || l->id >= m->npoints)
-        return kli_fail(s->error, KL_EID,
-                        "input effort: load %d acts at point %d, which does "
-                        "not exist",
-                        k, l->id);
-      if (!isfinite(l->fx) || !isfinite(l->fy))
-        return kli_fail(s->error, KL_ENONFINITE,
-                        "input effort: load %d at %s is NaN or infinite", k,
-                        kli_point_label(m, l->id, label, sizeof label));
-    } else if (l->kind == KL_LOAD_TORQUE) {
-      if (l->id < 0 || l->id >= m->nlinks)
-        return kli_fail(s->error, KL_EID,
-                        "input effort: load %d acts on link %d, which does "
-                        "not exist",
-                        k, l->id);
-      if (!isfinite(l->torque))
-        return kli_fail(s->error, KL_ENONFINITE,
-                        "input effort: the torque of load %d on %s is NaN or "
-                        "infinite",
-                        k, kli_link_label(m, l->id, label, sizeof label));
-    } else {
-      return kli_fail(s->error, KL_EKIND,
-                      "input effort: load %d has kind %d, neither force nor "
-                      "torque",
-                      k, l->kind);
-    }
-  }
-  return KL_OK;
-}
 
 /* The effort of the input whose first-order coefficients are dx: the
  * input's virtual work balances the loads'. */
@@ -322,10 +286,9 @@ static double effort_along(const kl_solver *s, const double *dx, int nloads,
 int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
                     double *efforts) {
   int st, i;
-  if (s == NULL || efforts == NULL || nloads < 0 ||
-      (nloads > 0 && loads == NULL))
+  if (s == NULL || efforts == NULL)
     return KL_EINVAL;
-  if ((st = check_loads(s, nloads, loads)) != KL_OK ||
+  if ((st = kli_check_loads(s, nloads, loads, "input effort")) != KL_OK ||
       (st = need_coefficients(s)) != KL_OK)
     return st;
   for (i = 0; i < s->ninputs; i++)
@@ -380,7 +343,7 @@ int kl_input_effort_range(kl_solver *s, int input, double from, double to,
       nloads < 0 || (nloads > 0 && loads == NULL))
     return KL_EINVAL;
   if ((st = check_input(s, effort_input, "input effort range")) != KL_OK ||
-      (st = check_loads(s, nloads, loads)) != KL_OK)
+      (st = kli_check_loads(s, nloads, loads, "input effort range")) != KL_OK)
     return st;
   memset(&e, 0, sizeof e);
   e.s = s;
@@ -419,7 +382,7 @@ static int sensitivity(kl_solver *s, const kl_output *o,
     kli_loops_dimension(s->model, &s->st.pose, dim.joint, dim.link, dim.axis,
                         s->rhs);
   else
-    memset(s->rhs, 0, (size_t)s->n * sizeof(double));
+    memset(s->rhs, 0, (size_t)s->nrows * sizeof(double));
   kli_rate_solve(s, s->rhs, NULL, s->xv);
   *deriv = kli_output_change(s, o, s->xv, &dim);
   return KL_OK;

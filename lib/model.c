@@ -719,6 +719,103 @@ int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep) {
   return KL_OK;
 }
 
+/* ---- mass properties, gravity, redundancy ---- */
+
+int kl_set_link_mass(kl_model *m, int link, double mass, double cx, double cy,
+                     double inertia) {
+  int st;
+  char la[64];
+  kli_link *l;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set link mass")) != KL_OK ||
+      (st = check_link(m, link, "set link mass")) != KL_OK)
+    return st;
+  if (link == KL_GROUND)
+    return kli_fail(m->error, KL_EKIND,
+                    "set link mass: link 0 is ground, which does not move; "
+                    "mass properties belong to moving links");
+  kli_link_label(m, link, la, sizeof la);
+  if (!isfinite(mass) || !isfinite(cx) || !isfinite(cy) || !isfinite(inertia))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "set link mass: a mass property of %s is NaN or infinite "
+                    "(mass %g, centre (%g, %g), inertia %g)",
+                    la, mass, cx, cy, inertia);
+  if (mass < 0.0 || inertia < 0.0)
+    return kli_fail(m->error, KL_EINVAL,
+                    "set link mass: %s is given a negative %s (%g); mass and "
+                    "moment of inertia are at least 0",
+                    la, mass < 0.0 ? "mass" : "moment of inertia",
+                    mass < 0.0 ? mass : inertia);
+  l = &m->links[link];
+  l->mass = mass;
+  l->centre[0] = cx;
+  l->centre[1] = cy;
+  l->inertia = inertia;
+  l->has_mass = 1;
+  return KL_OK;
+}
+
+int kl_model_link_mass(const kl_model *m, int link, double *mass,
+                       double cxy[2], double *inertia) {
+  const kli_link *l;
+  if (m == NULL)
+    return KL_EINVAL;
+  if (link < 0 || link >= m->nlinks)
+    return KL_EID;
+  l = &m->links[link];
+  if (mass != NULL)
+    *mass = l->mass;
+  if (cxy != NULL) {
+    cxy[0] = l->centre[0];
+    cxy[1] = l->centre[1];
+  }
+  if (inertia != NULL)
+    *inertia = l->inertia;
+  return KL_OK;
+}
+
+int kl_model_set_gravity(kl_model *m, double gx, double gy) {
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set gravity")) != KL_OK)
+    return st;
+  if (!isfinite(gx) || !isfinite(gy))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "set gravity: (%g, %g) is NaN or infinite", gx, gy);
+  m->gravity[0] = gx;
+  m->gravity[1] = gy;
+  return KL_OK;
+}
+
+int kl_model_gravity(const kl_model *m, double gxy[2]) {
+  if (m == NULL || gxy == NULL)
+    return KL_EINVAL;
+  gxy[0] = m->gravity[0];
+  gxy[1] = m->gravity[1];
+  return KL_OK;
+}
+
+int kl_model_set_redundancy(kl_model *m, int redundant) {
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set redundancy")) != KL_OK)
+    return st;
+  if (redundant < 0)
+    return kli_fail(m->error, KL_EINVAL,
+                    "set redundancy: %d redundant constraints; the count is "
+                    "at least 0",
+                    redundant);
+  m->redundancy = redundant;
+  return KL_OK;
+}
+
+int kl_model_redundancy(const kl_model *m) {
+  return m == NULL ? KL_EINVAL : m->redundancy;
+}
+
 /* Duplicates an array of `cap` elements of `elem` bytes; 1 if done. */
 static int copy_array(const kli_allocator *a, void **to, int *to_cap,
                       const void *from, int cap, size_t elem) {
@@ -745,6 +842,9 @@ kl_model *kli_model_copy(const kl_model *src) {
   m->angle_unit = src->angle_unit;
   m->sweep = src->sweep;
   m->has_sweep = src->has_sweep;
+  m->gravity[0] = src->gravity[0];
+  m->gravity[1] = src->gravity[1];
+  m->redundancy = src->redundancy;
   ok = copy_array(&m->alloc, (void **)&m->links, &m->cap_links, src->links,
                   src->cap_links, sizeof *m->links) &&
        copy_array(&m->alloc, (void **)&m->joints, &m->cap_joints, src->joints,

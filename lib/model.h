@@ -24,6 +24,9 @@ typedef struct {
   char *name;     /* owned; NULL when unnamed */
   double sketch;  /* starting angle for new solvers, when has_sketch */
   int has_sketch;
+  /* mass properties (kl_set_link_mass); all 0 for a massless link */
+  double mass, centre[2], inertia;
+  int has_mass;
 } kli_link;
 
 typedef struct {
@@ -66,6 +69,41 @@ typedef struct {
   int first, count; /* range in the term array */
 } kli_chain;
 
+/* Which coefficient an entry of the force system holds (reactions.c lays
+ * the entries out, forces.c fills them): r is the arm from the link's
+ * centre of mass to the joint's point, n the slide's normal and d its axis
+ * direction; each times the side's sign (-1 on link a, +1 on link b). */
+enum {
+  KLI_COEF_UNIT,     /* 1: a force on its own row, a moment on the moment row */
+  KLI_COEF_ARM_FX,   /* -r_y: the moment of a force's x part */
+  KLI_COEF_ARM_FY,   /* r_x: the moment of its y part */
+  KLI_COEF_NORMAL_X, /* n_x, n_y, r x n: a force across the slide */
+  KLI_COEF_NORMAL_Y,
+  KLI_COEF_NORMAL_M,
+  KLI_COEF_AXIS_X,   /* d_x, d_y, r x d: a force along the slide */
+  KLI_COEF_AXIS_Y,
+  KLI_COEF_AXIS_M
+};
+
+/* The force system (reactions.c): 3 rows per moving link, 3 (link - 1) +
+ * 0, 1, 2 for its force x, force y and moment about its centre of mass,
+ * and its unknowns joint by joint: fx, fy of a revolute joint; the normal
+ * force and the moment of a prismatic joint; the normal force of a slot
+ * joint; each followed by the effort when the joint is an input. */
+typedef struct {
+  int n;             /* unknowns = rows; 0 when the model is redundant */
+  int *joint_col;    /* the first unknown of each joint */
+  int *input_col;    /* the effort unknown of each input */
+  int nentries;
+  int *entry_start;  /* njoints + 1: each joint's entries, in order */
+  int *row, *col;    /* each entry's row and unknown */
+  unsigned char *coef; /* its KLI_COEF_* */
+  unsigned char *side; /* 0: on link a's rows, 1: on link b's */
+  /* a band-reducing ordering over the links (as for the loops) */
+  int *band_row, *band_col;
+  int band_lower, band_upper;
+} kli_force_pattern;
+
 /* What finalize derives from the builders' record. */
 typedef struct {
   void *block; /* one allocation holding every array below */
@@ -103,12 +141,31 @@ typedef struct {
   int nnz_pairs;
   int *nz_row;   /* first (x) row of the pair */
   int *nz_col;
-  /* A band-reducing ordering of the pattern (Cuthill-McKee over loops that
-   * share unknowns): the position of each row and each unknown, and the
-   * lower and upper bandwidths of the matrix so ordered. */
+
+  /* Rows: 2 per loop, `redundancy` more than the unknowns when the model
+   * declares redundant constraints. The rows the structural matching leaves
+   * unmatched are dropped from the Newton system (and checked after each
+   * solve): per loop, loop_kept of its rows stay, from kept row
+   * loop_first_kept on (nloops + 1 offsets). A loop keeping one row keeps
+   * its component along the Jacobian column of the unknown matched to it,
+   * the values of nz pair loop_lead (-1 otherwise). */
+  int redundancy;
+  int nrows;
+  int *loop_kept, *loop_first_kept, *loop_lead;
+  /* The pattern of the kept system: pairs (a loop's two kept rows) and
+   * singles (a loop's one kept row); with no redundancy the nz pairs
+   * themselves and no singles. With redundancy, pair_slot maps each nz pair
+   * to its values in the kept system: 2 values from pair_slot on for a
+   * pair, 1 for a single, none (-1) for a dropped loop. */
+  int nkept_pairs, nkept_singles;
+  int *kept_pair_row, *kept_pair_col, *kept_single_row, *kept_single_col;
+  int *pair_slot;
+  /* A band-reducing ordering of the kept pattern (Cuthill-McKee over loops
+   * that share unknowns): the position of each row and each unknown, and
+   * the lower and upper bandwidths of the matrix so ordered. */
   int *band_row, *band_col;
   int band_lower, band_upper;
-  int dof;
+  int dof;       /* Gruebler's count plus the redundancy: the inputs */
   double scale;
   /* The transmission-angle sites and the joints the rule passes over
    * (loops.c), in the order the loops meet them; at most one per joint. */
@@ -116,6 +173,7 @@ typedef struct {
   int nsites;
   kl_transmission_skip *skips;
   int nskips;
+  kli_force_pattern forces;
 } kli_topology;
 
 struct kl_model {
@@ -147,6 +205,8 @@ struct kl_model {
   int length_unit, angle_unit;
   kl_sweep_settings sweep;
   int has_sweep;
+  double gravity[2];
+  int redundancy; /* constraints declared redundant */
 
   int finalized;
   kli_topology topo;
@@ -177,7 +237,8 @@ int kli_is_sliding(int kind);
 /* The input that drives `joint`, or -1. */
 int kli_input_of(const kl_model *m, int joint);
 /* An unfinalized copy of m's record (links, joints, points, inputs,
- * registered loops, names, units, sketch, sweep), with m's allocator;
+ * registered loops, names, units, sketch, sweep, mass properties,
+ * gravity, redundancy), with m's allocator;
  * NULL when memory runs out. */
 kl_model *kli_model_copy(const kl_model *m);
 /* A solver or study made from m holds it: m is freed when the last holder

@@ -52,18 +52,46 @@ static double half_square(const double *f, int n) {
   return 0.5 * sum;
 }
 
-/* The residual at unknowns q, the inputs' share of x being s->x_base. */
+/* The residual of the kept rows at unknowns q (every loop row is computed
+ * into f first), the inputs' share of x being s->x_base; returns its
+ * |.|inf. */
 static double evaluate(kl_solver *s, kli_pose *p, const double *q, double *f) {
+  double norm;
+  int i;
   kli_add_unknowns(s->model, s->x_base, q, p->x);
   kli_pose_trig(s->model, p);
   s->stats.residual_evaluations++;
-  return kli_residual(s->model, p, f);
+  norm = kli_residual(s->model, p, f);
+  if (s->model->topo.redundancy == 0)
+    return norm;
+  kli_keep_rows(s->model, s->dir, f);
+  norm = 0.0;
+  for (i = 0; i < s->n; i++)
+    if (!(fabs(f[i]) <= norm))
+      norm = fabs(f[i]); /* NaN propagates */
+  return norm;
 }
 
 int kli_factor_at(kl_solver *s, const kli_pose *p) {
-  kli_jacobian_pairs(s->model, p, s->pairs);
-  kli_dense_load(&s->dense, s->pairs);
+  const kl_model *m = s->model;
+  kli_jacobian_pairs(m, p, s->pairs);
+  if (m->topo.redundancy > 0) {
+    kli_keep_pairs(m, s->dir, s->pairs, s->kept_values);
+    kli_dense_load(&s->dense, s->kept_values);
+  } else {
+    kli_dense_load(&s->dense, s->pairs);
+  }
   return kli_dense_factor(&s->dense);
+}
+
+/* With redundant constraints: a loop keeping one row keeps it along the
+ * Jacobian column of its lead unknown at pose p, so that the kept system
+ * is not singular where that unknown moves across a fixed axis. */
+static void choose_directions(kl_solver *s, const kli_pose *p) {
+  if (s->model->topo.redundancy == 0)
+    return;
+  kli_jacobian_pairs(s->model, p, s->pairs);
+  kli_row_directions(s->model, s->pairs, s->dir);
 }
 
 /* The derivative of 0.5 |F|^2 along dq: F . (J dq). */
@@ -94,6 +122,7 @@ static void predict_from_tangent(kl_solver *s, double *q) {
   if (!moved || s->n == 0)
     return;
   kli_input_terms_at(s->model, &s->st.pose, s->u_unit, s->xv, s->rhs);
+  kli_keep_rows(s->model, s->dir, s->rhs);
   for (i = 0; i < s->n; i++)
     s->rhs[i] = -s->rhs[i];
   kli_dense_solve(&s->dense, s->rhs);
@@ -103,10 +132,12 @@ static void predict_from_tangent(kl_solver *s, double *q) {
     q[i] += s->rhs[i];
 }
 
-/* The loop furthest from closing, for messages. */
-static int worst_loop(const kl_solver *s, const double *f) {
+/* The loop furthest from closing at pose p, for messages (every loop row
+ * into s->rhs). */
+static int worst_loop(kl_solver *s, const kli_pose *p) {
   int i, worst = 0;
-  double big = -1.0;
+  double big = -1.0, *f = s->rhs;
+  kli_residual(s->model, p, f);
   for (i = 0; i < s->model->topo.nloops; i++) {
     double r = fmax(fabs(f[2 * i]), fabs(f[2 * i + 1]));
     if (r > big) {
@@ -217,7 +248,7 @@ static int step_along(kl_solver *s, newton_iterate *it, double *dq,
 
 static int fail_stalled(kl_solver *s, const newton_iterate *it, int iters) {
   char in[200];
-  int loop = worst_loop(s, it->f);
+  int loop = worst_loop(s, it->cur);
   return kli_fail(s->error, KL_ENOASSEMBLY,
                   "solve position: the loops cannot close at %s: the residual "
                   "stalls at %.3g (length units) after %d iterations, loop %d "
@@ -226,6 +257,40 @@ static int fail_stalled(kl_solver *s, const newton_iterate *it, int iters) {
                   "another sketch)",
                   input_list(s, s->u_trial, in, sizeof in), it->fnorm, iters,
                   loop);
+}
+
+/*
+ * The rows dropped for the declared redundancy must close at the solution
+ * of the kept ones. The kept rows settle the position to within their
+ * tolerance over the condition estimate, so the dropped rows are held to
+ * that: rounding passes, proportions other than the special ones the
+ * redundancy needs do not.
+ */
+static int check_dropped_rows(kl_solver *s, const kli_pose *p, double ftol) {
+  const kl_model *m = s->model;
+  double allowed = ftol / s->stats.rcond, miss;
+  int loop, first, n, i;
+  char in[200], joints[96];
+  size_t used = 0;
+  kli_residual(m, p, s->rhs);
+  miss = kli_dropped_residual(m, s->dir, s->rhs, &loop);
+  if (!(miss > allowed))
+    return KL_OK;
+  first = m->topo.loop_joint_start[loop];
+  n = m->topo.loop_joint_start[loop + 1] - first;
+  joints[0] = '\0';
+  for (i = 0; i < n && used < sizeof joints; i++)
+    used += (size_t)snprintf(joints + used, sizeof joints - used, "%s%d",
+                             i > 0 ? " " : "", m->topo.loop_joints[first + i]);
+  return kli_fail(s->error, KL_ENOASSEMBLY,
+                  "solve position: at %s the redundant constraints do not "
+                  "close: loop %d (joints %s) misses by %.3g length units "
+                  "(allowed %.3g); the model declares %d redundant "
+                  "constraint%s, which holds only for the special "
+                  "proportions that make them repeat the others",
+                  input_list(s, s->u_trial, in, sizeof in), loop, joints, miss,
+                  allowed, m->topo.redundancy,
+                  m->topo.redundancy == 1 ? "" : "s");
 }
 
 static void commit(kl_solver *s, const kli_pose *p, double rcond,
@@ -268,6 +333,11 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   kli_gather(s->model, s->st.pose.x, it.q);
   predict_from_tangent(s, it.q);
   kli_expand_inputs(s->model, s->u_trial, s->x_base);
+  if (s->model->topo.redundancy > 0) {
+    kli_add_unknowns(s->model, s->x_base, it.q, it.cur->x);
+    kli_pose_trig(s->model, it.cur);
+    choose_directions(s, it.cur);
+  }
   it.fnorm = evaluate(s, it.cur, it.q, it.f);
   s->factors_current = s->factors_near = 0;
   for (iter = 0;; iter++) {
@@ -349,6 +419,9 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
                   s->singular_rcond);
     goto failed_stats;
   }
+  if (s->model->topo.redundancy > 0 &&
+      (st = check_dropped_rows(s, it.cur, ftol)) != KL_OK)
+    goto failed_stats;
   commit(s, it.cur, s->stats.rcond, factored_at_solution);
   s->st.last_attempt = s->stats.status = KL_OK;
   return KL_OK;
@@ -412,6 +485,7 @@ int kli_require_position(kl_solver *s, const char *stage) {
                     "last position solve failed",
                     stage);
   if (!s->factors_current) {
+    choose_directions(s, &s->st.pose);
     kli_factor_at(s, &s->st.pose);
     s->st.rcond = kli_dense_rcond(&s->dense);
     s->factors_current = 1;

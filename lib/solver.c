@@ -44,14 +44,22 @@ static void carve_pose(kli_pose *p, kli_carver *c, int ncoords, int nlinks) {
   p->trig_at = kli_carve(c, (size_t)nlinks, sizeof(double));
 }
 
-static void carve_state(kli_state *st, kli_carver *c, int ncoords,
-                        int nlinks, int ninputs) {
-  carve_pose(&st->pose, c, ncoords, nlinks);
+static void carve_forces(kli_forces *f, kli_carver *c, const kl_model *m) {
+  f->force = kli_carve(c, 2 * (size_t)m->njoints, sizeof(double));
+  f->moment = kli_carve(c, (size_t)m->njoints, sizeof(double));
+  f->effort = kli_carve(c, (size_t)m->ninputs, sizeof(double));
+  f->ground = kli_carve(c, 3, sizeof(double));
+}
+
+static void carve_state(kli_state *st, kli_carver *c, const kl_model *m) {
+  int ncoords = m->topo.ncoords, ninputs = m->ninputs;
+  carve_pose(&st->pose, c, ncoords, m->nlinks);
   st->xd = kli_carve(c, (size_t)ncoords, sizeof(double));
   st->xdd = kli_carve(c, (size_t)ncoords, sizeof(double));
   st->u = kli_carve(c, (size_t)ninputs, sizeof(double));
   st->ud = kli_carve(c, (size_t)ninputs, sizeof(double));
   st->udd = kli_carve(c, (size_t)ninputs, sizeof(double));
+  carve_forces(&st->forces, c, m);
 }
 
 /* Lays the solver out in c; returns the solver (NULL on the sizing pass). */
@@ -59,17 +67,20 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   kl_solver *s = kli_carve(c, 1, sizeof(kl_solver));
   kl_solver sizing;
   kl_solver *t = s != NULL ? s : &sizing;
-  int n = m->topo.nvars, nc = m->topo.ncoords, nl = m->nlinks;
-  int ni = m->ninputs, i;
-  carve_state(&t->st, c, nc, nl, ni);
-  carve_state(&t->saved, c, nc, nl, ni);
-  carve_state(&t->delivered, c, nc, nl, ni);
-  carve_state(&t->extreme[0], c, nc, nl, ni);
-  carve_state(&t->extreme[1], c, nc, nl, ni);
-  carve_state(&t->previous, c, nc, nl, ni);
-  carve_state(&t->kept, c, nc, nl, ni);
+  const kli_topology *top = &m->topo;
+  const kli_force_pattern *fp = &top->forces;
+  int n = top->nvars, nc = top->ncoords, nl = m->nlinks;
+  int ni = m->ninputs, nr = top->nrows, i;
+  kli_pattern p;
+  carve_state(&t->st, c, m);
+  carve_state(&t->saved, c, m);
+  carve_state(&t->delivered, c, m);
+  carve_state(&t->extreme[0], c, m);
+  carve_state(&t->extreme[1], c, m);
+  carve_state(&t->previous, c, m);
+  carve_state(&t->kept, c, m);
   for (i = 0; i < 4; i++)
-    carve_state(&t->crossing[i], c, nc, nl, ni);
+    carve_state(&t->crossing[i], c, m);
   t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
   t->coef2 = kli_carve(c, (size_t)nc * (size_t)ni * (size_t)ni, sizeof(double));
   carve_pose(&t->trial[0], c, nc, nl);
@@ -80,11 +91,16 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->q = kli_carve(c, (size_t)n, sizeof(double));
   t->dq = kli_carve(c, (size_t)n, sizeof(double));
   t->q_next = kli_carve(c, (size_t)n, sizeof(double));
-  t->f = kli_carve(c, (size_t)n, sizeof(double));
-  t->f_next = kli_carve(c, (size_t)n, sizeof(double));
+  /* residuals hold every loop row before the kept ones are taken */
+  t->f = kli_carve(c, (size_t)nr, sizeof(double));
+  t->f_next = kli_carve(c, (size_t)nr, sizeof(double));
   t->grad = kli_carve(c, (size_t)n, sizeof(double));
-  t->pairs = kli_carve(c, 2 * (size_t)m->topo.nnz_pairs, sizeof(double));
-  t->rhs = kli_carve(c, (size_t)n, sizeof(double));
+  t->pairs = kli_carve(c, 2 * (size_t)top->nnz_pairs, sizeof(double));
+  t->dir = kli_carve(c, 2 * (size_t)top->nloops, sizeof(double));
+  t->kept_values = kli_carve(
+      c, top->redundancy > 0 ? 2 * (size_t)top->nkept_pairs + (size_t)top->nkept_singles : 0,
+      sizeof(double));
+  t->rhs = kli_carve(c, (size_t)nr, sizeof(double));
   t->xv = kli_carve(c, (size_t)nc, sizeof(double));
   t->x_pred = kli_carve(c, (size_t)nc, sizeof(double));
   t->x_previous = kli_carve(c, (size_t)nc, sizeof(double));
@@ -92,18 +108,43 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->sweep_rate = kli_carve(c, (size_t)ni, sizeof(double));
   t->sweep_zero = kli_carve(c, (size_t)ni, sizeof(double));
   t->modes = kli_carve(c, (size_t)KLI_MAX_MODES * (size_t)n, sizeof(double));
-  {
-    kli_pattern p;
-    p.n = n;
-    p.npairs = m->topo.nnz_pairs;
-    p.row = m->topo.nz_row;
-    p.col = m->topo.nz_col;
-    p.band_row = m->topo.band_row;
-    p.band_col = m->topo.band_col;
-    p.band_lower = m->topo.band_lower;
-    p.band_upper = m->topo.band_upper;
-    kli_dense_carve(&t->dense, c, &p);
-  }
+  p.n = n;
+  p.npairs = top->nkept_pairs;
+  p.row = top->kept_pair_row;
+  p.col = top->kept_pair_col;
+  p.nsingles = top->nkept_singles;
+  p.single_row = top->kept_single_row;
+  p.single_col = top->kept_single_col;
+  p.band_row = top->band_row;
+  p.band_col = top->band_col;
+  p.band_lower = top->band_lower;
+  p.band_upper = top->band_upper;
+  p.damped = 1;
+  kli_dense_carve(&t->dense, c, &p);
+  /* the force system: single entries only, no damped steps */
+  p.n = fp->n;
+  p.npairs = 0;
+  p.row = p.col = NULL;
+  p.nsingles = fp->nentries;
+  p.single_row = fp->row;
+  p.single_col = fp->col;
+  p.band_row = fp->band_row;
+  p.band_col = fp->band_col;
+  p.band_lower = fp->band_lower;
+  p.band_upper = fp->band_upper;
+  p.damped = 0;
+  kli_dense_carve(&t->force, c, &p);
+  t->force_values = kli_carve(c, (size_t)fp->nentries, sizeof(double));
+  t->force_rhs = kli_carve(c, (size_t)fp->n, sizeof(double));
+  t->force_at = kli_carve(c, (size_t)nc, sizeof(double));
+  t->force_geometry = kli_carve(c, 6 * (size_t)m->njoints, sizeof(double));
+  t->centre_velocity = kli_carve(c, 2 * (size_t)nl, sizeof(double));
+  t->centre_accel = kli_carve(c, 2 * (size_t)nl, sizeof(double));
+  t->scaled_xd = kli_carve(c, (size_t)nc, sizeof(double));
+  t->scaled_xdd = kli_carve(c, (size_t)nc, sizeof(double));
+  carve_forces(&t->cycle_forces, c, m);
+  t->cycle_sums = kli_carve(
+      c, KLI_CYCLE_SUMS * ((size_t)ni + (size_t)m->njoints + 2), sizeof(double));
   return s;
 }
 
@@ -161,6 +202,7 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   s->block_size = size;
   s->owns_block = owns;
   s->n = m->topo.nvars;
+  s->nrows = m->topo.nrows;
   s->ncoords = m->topo.ncoords;
   s->ninputs = m->ninputs;
   kl_options_default(&s->opt);
@@ -170,6 +212,21 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   for (i = 0; i < s->n; i++)
     s->rhs[i] = m->topo.var_coord[i] < m->nlinks ? 1.0 : m->topo.scale;
   kli_dense_init(&s->dense, s->rhs, s->opt.kernel);
+  /* moment columns of the force system (a prismatic joint's moment, a
+   * revolute input's torque) are lengths times forces: scale them to
+   * forces, as the moment rows are (docs/theory.md section 8) */
+  for (i = 0; i < m->topo.forces.n; i++)
+    s->force_rhs[i] = 1.0;
+  for (i = 0; i < m->njoints; i++) {
+    const kli_joint *j = &m->joints[i];
+    if (m->topo.forces.n == 0)
+      break;
+    if (j->kind == KL_JOINT_PRISMATIC)
+      s->force_rhs[m->topo.forces.joint_col[i] + 1] = m->topo.scale;
+    if (j->kind == KL_JOINT_REVOLUTE && j->input >= 0)
+      s->force_rhs[m->topo.forces.input_col[j->input]] = m->topo.scale;
+  }
+  kli_dense_init(&s->force, s->force_rhs, s->opt.kernel);
   for (i = 0; i < 2; i++)
     kli_pose_forget_trig(m, &s->trial[i]);
   start_state(s);
@@ -274,7 +331,9 @@ int kl_solver_set_options(kl_solver *s, const kl_options *o) {
                     next.pass_change_points);
   if (next.kernel != s->opt.kernel) {
     kli_dense_use(&s->dense, next.kernel);
+    kli_dense_use(&s->force, next.kernel);
     s->factors_current = s->factors_near = 0;
+    s->force_factored = 0;
   }
   s->opt = next;
   s->singular_rcond = next.singular_rcond;
@@ -331,6 +390,18 @@ void kli_state_copy(const kl_solver *s, kli_state *to, const kli_state *from) {
   memcpy(to->u, from->u, ni);
   memcpy(to->ud, from->ud, ni);
   memcpy(to->udd, from->udd, ni);
+  /* the forces only when they hold results: the sweep copies states at
+   * every sub-step */
+  if (from->forces_solved) {
+    const kl_model *m = s->model;
+    memcpy(to->forces.force, from->forces.force,
+           2 * (size_t)m->njoints * sizeof(double));
+    memcpy(to->forces.moment, from->forces.moment,
+           (size_t)m->njoints * sizeof(double));
+    memcpy(to->forces.effort, from->forces.effort, ni);
+    memcpy(to->forces.ground, from->forces.ground, 3 * sizeof(double));
+  }
+  to->forces_solved = from->forces_solved;
   to->position_solved = from->position_solved;
   to->inputs_known = from->inputs_known;
   to->velocity_solved = from->velocity_solved;
@@ -348,6 +419,7 @@ void kli_state_restore(kl_solver *s, const kli_state *from) {
 void kli_state_changed(kl_solver *s) {
   s->st.velocity_solved = 0;
   s->st.acceleration_solved = 0;
+  s->st.forces_solved = 0;
   s->coefficients_solved = 0;
 }
 
@@ -361,6 +433,45 @@ void kli_state_back(kl_solver *s) {
   /* the coefficient arrays were left alone: they still hold the kept
    * position's */
   s->coefficients_solved = s->kept_coefficients;
+}
+
+int kli_check_loads(kl_solver *s, int nloads, const kl_load *loads,
+                    const char *stage) {
+  const kl_model *m = s->model;
+  char label[64];
+  int k;
+  if (nloads < 0 || (nloads > 0 && loads == NULL))
+    return kli_fail(s->error, KL_EINVAL,
+                    "%s: %d loads%s", stage, nloads,
+                    nloads < 0 ? "; the count is at least 0"
+                               : " but the loads array is NULL");
+  for (k = 0; k < nloads; k++) {
+    const kl_load *l = &loads[k];
+    if (l->kind == KL_LOAD_FORCE) {
+      if (l->id < 0 || l->id >= m->npoints)
+        return kli_fail(s->error, KL_EID,
+                        "%s: load %d acts at point %d, which does not exist",
+                        stage, k, l->id);
+      if (!isfinite(l->fx) || !isfinite(l->fy))
+        return kli_fail(s->error, KL_ENONFINITE,
+                        "%s: load %d at %s is NaN or infinite", stage, k,
+                        kli_point_label(m, l->id, label, sizeof label));
+    } else if (l->kind == KL_LOAD_TORQUE) {
+      if (l->id < 0 || l->id >= m->nlinks)
+        return kli_fail(s->error, KL_EID,
+                        "%s: load %d acts on link %d, which does not exist",
+                        stage, k, l->id);
+      if (!isfinite(l->torque))
+        return kli_fail(s->error, KL_ENONFINITE,
+                        "%s: the torque of load %d on %s is NaN or infinite",
+                        stage, k, kli_link_label(m, l->id, label, sizeof label));
+    } else {
+      return kli_fail(s->error, KL_EKIND,
+                      "%s: load %d has kind %d, neither force nor torque",
+                      stage, k, l->kind);
+    }
+  }
+  return KL_OK;
 }
 
 /* A sketch moves the state off the solved position. */

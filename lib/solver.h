@@ -8,18 +8,30 @@
 #include "dense.h"
 #include "equations.h"
 
-/* What a caller sees: a position, its rates and accelerations, and which of
- * them are solved. */
+/* What the force stage finds: per joint the force a exerts on b (2) and
+ * the moment about b's attachment point (1), per input its effort, and
+ * the load on ground (force x, y, moment about the origin). */
+typedef struct {
+  double *force, *moment, *effort, *ground;
+} kli_forces;
+
+/* What a caller sees: a position, its rates and accelerations, the forces
+ * there, and which of them are solved. */
 typedef struct {
   kli_pose pose;          /* x, cos, sin */
   double *xd, *xdd;       /* coordinate rates and accelerations */
   double *u, *ud, *udd;   /* inputs, their rates and accelerations */
+  kli_forces forces;      /* the force stage's results */
   int position_solved;    /* pose closes the loops at u (not a sketch) */
   int inputs_known;       /* u holds inputs of a successful solve */
   int velocity_solved, acceleration_solved;
+  int forces_solved;      /* forces hold the force stage at this state */
   int last_attempt;       /* status of the last position solve */
   double rcond;           /* condition estimate of the factors at pose */
 } kli_state;
+
+/* Numbers the cycle figures keep per quantity (cycle.c). */
+#define KLI_CYCLE_SUMS 6
 
 /* Distinct assembly modes kl_solver_find_assemblies can tell apart. */
 #define KLI_MAX_MODES 64
@@ -31,6 +43,7 @@ struct kl_solver {
   size_t block_size;
   int owns_block;
   int n, ncoords, ninputs;
+  int nrows;              /* loop rows: n, plus the redundant ones */
 
   kli_state st;           /* the committed state */
   kli_state saved;        /* a copy the sweep keeps while it explores */
@@ -60,7 +73,12 @@ struct kl_solver {
   double *q, *dq, *q_next;
   double *f, *f_next, *grad;
   double *pairs;          /* Jacobian values on the pattern */
-  double *rhs;            /* n */
+  /* With redundant constraints: the direction of each loop that keeps one
+   * row (2 per loop), chosen when a solve starts or the rates factor at a
+   * solved position, and the kept system's values. */
+  double *dir;
+  double *kept_values;
+  double *rhs;            /* nrows: loop rows, reduced to n in place */
   double *xv;             /* ncoords scratch for the rate stages */
   double *x_pred;         /* ncoords: the sweep's predicted position */
   double *x_previous;     /* ncoords: the sweep's position before the last */
@@ -69,6 +87,21 @@ struct kl_solver {
   double *sweep_u, *sweep_rate, *sweep_zero; /* inputs for the sweep */
   double *modes;          /* KLI_MAX_MODES x n: assembly modes found */
   kli_dense dense;
+
+  /* The force stage: its system (factored at the coordinates force_at,
+   * reused while the position stays), values and right side; the motion
+   * of each link's centre of mass (2 per link); and for the cycle figures,
+   * rates scaled to the working speed, forces, and per quantity (inputs,
+   * joints, shaking force and moment) its sums, first and last values. */
+  kli_dense force;
+  double *force_values, *force_rhs, *force_at;
+  double *force_geometry; /* per joint at force_at: the arms from a's and
+                             b's centres to its point, its slide axis */
+  int force_factored;
+  double *centre_velocity, *centre_accel;
+  double *scaled_xd, *scaled_xdd;
+  kli_forces cycle_forces;
+  double *cycle_sums;
   kl_solve_stats stats;
   char error[KLI_MESSAGE_SIZE];
 };
@@ -92,5 +125,11 @@ void kli_state_changed(kl_solver *s);
  * two, nothing may write the coefficients. */
 void kli_state_keep(kl_solver *s);
 void kli_state_back(kl_solver *s);
+/* KL_OK if the loads are valid for this model (nloads >= 0, loads not NULL
+ * when nloads > 0, each an existing point or link with finite numbers);
+ * else KL_EINVAL, KL_EID, KL_EKIND or KL_ENONFINITE with a message naming
+ * the stage and the load. */
+int kli_check_loads(kl_solver *s, int nloads, const kl_load *loads,
+                    const char *stage);
 
 #endif

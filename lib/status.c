@@ -39,6 +39,7 @@ const char *kl_status_str(int status) {
   case KL_EIO: return "file could not be read or written";
   case KL_ETRUNCATED: return "buffer too small: output cut short";
   case KL_ETOOLARGE: return "request exceeds a bound of the library";
+  case KL_EINDETERMINATE: return "statically indeterminate: forces not determined";
   default: return "unknown status";
   }
 }

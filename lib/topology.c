@@ -1,13 +1,16 @@
 /*
  * topology.c - finalize: connectivity, loops (registered or found from a
  * spanning tree), mobility, elimination of locked angles and inputs, the
- * vector chains of loops and points, the Jacobian's sparsity pattern, and
- * the transmission-angle sites (their rule is in loops.c).
+ * vector chains of loops and points, the rows kept, the Jacobian's
+ * sparsity pattern, and the transmission-angle sites (their rule is in
+ * loops.c).
  */
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
-#include "model.h"
+#include "ordering.h"
+#include "reactions.h"
 
 /* Working arrays of one finalize call, carved from one temporary block. */
 typedef struct {
@@ -238,26 +241,37 @@ static int registered_loops(kl_model *m, work *w, int expected) {
 }
 
 static int mobility(kl_model *m, int *dof) {
-  int lower = 0, slots = 0, j;
+  int lower = 0, slots = 0, j, count;
   for (j = 0; j < m->njoints; j++) {
     if (m->joints[j].kind == KL_JOINT_SLOT)
       slots++;
     else
       lower++;
   }
-  *dof = 3 * (m->nlinks - 1) - 2 * lower - slots;
+  count = 3 * (m->nlinks - 1) - 2 * lower - slots;
+  *dof = count + m->redundancy;
   if (*dof < 0)
     return kli_fail(m->error, KL_EOVERCONSTRAINED,
                     "finalize: over-constrained: Gruebler's count gives "
                     "mobility %d (3 x %d moving links - 2 x %d revolute and "
-                    "prismatic joints - %d slot joints)",
-                    *dof, m->nlinks - 1, lower, slots);
-  if (*dof != m->ninputs)
+                    "prismatic joints - %d slot joints)%s",
+                    count, m->nlinks - 1, lower, slots,
+                    m->redundancy > 0 ? ", below zero even with the "
+                                        "redundant constraints declared"
+                                      : "");
+  if (*dof != m->ninputs) {
+    char declared[96] = "";
+    if (m->redundancy > 0)
+      snprintf(declared, sizeof declared,
+               " (Gruebler's count %d plus %d redundant constraint%s "
+               "declared)",
+               count, m->redundancy, m->redundancy == 1 ? "" : "s");
     return kli_fail(m->error, KL_EDOF,
-                    "finalize: the model has %d degree%s of freedom but %d "
+                    "finalize: the model has %d degree%s of freedom%s but %d "
                     "input%s; give exactly one input per degree of freedom",
-                    *dof, *dof == 1 ? "" : "s", m->ninputs,
+                    *dof, *dof == 1 ? "" : "s", declared, m->ninputs,
                     m->ninputs == 1 ? "" : "s");
+  }
   return KL_OK;
 }
 
@@ -466,100 +480,6 @@ static void build_pattern(work *w, kli_topology *t) {
   }
 }
 
-/*
- * Cuthill-McKee over the loops (two loops are neighbours when they share an
- * unknown): each component from a loop of least degree, neighbours in order
- * of degree. Rows follow their loop's place; each unknown takes the next
- * column when its first loop comes. Scratch from the model's allocator.
- */
-static int band_ordering(kl_model *m, kli_topology *t) {
-  int nl = t->nloops, nv = t->nvars, np = t->nnz_pairs;
-  int *pair_start, *col_start, *col_pairs, *degree, *loop_pos, *queue, *mark;
-  int i, p, k, head, tail, next_col = 0, placed = 0;
-  size_t bytes = (size_t)(2 * nl + 2 + 2 * nv + 1 + np + 2 * nl + nl + 1) *
-                 sizeof(int);
-  int *scratch = kli_alloc(&m->alloc, bytes);
-  if (scratch == NULL)
-    return KL_ENOMEM;
-  pair_start = scratch;            /* nl + 1: pairs of each loop, in order */
-  col_start = pair_start + nl + 1; /* nv + 1 */
-  col_pairs = col_start + nv + 1;  /* np: pairs of each unknown */
-  degree = col_pairs + np;         /* nl */
-  loop_pos = degree + nl;          /* nl */
-  queue = loop_pos + nl;           /* nl */
-  mark = queue + nl;               /* nl + nv */
-  for (i = 0; i <= nl; i++)
-    pair_start[i] = 0;
-  for (p = 0; p < np; p++)
-    pair_start[t->nz_row[p] / 2 + 1]++;
-  for (i = 0; i < nl; i++)
-    pair_start[i + 1] += pair_start[i];
-  for (i = 0; i <= nv; i++)
-    col_start[i] = 0;
-  for (p = 0; p < np; p++)
-    col_start[t->nz_col[p] + 1]++;
-  for (i = 0; i < nv; i++)
-    col_start[i + 1] += col_start[i];
-  for (i = 0; i < nv; i++)
-    mark[i] = col_start[i];
-  for (p = 0; p < np; p++)
-    col_pairs[mark[t->nz_col[p]]++] = p;
-  /* degree: pairs in other loops that share this loop's unknowns */
-  for (i = 0; i < nl; i++) {
-    degree[i] = 0;
-    for (p = pair_start[i]; p < pair_start[i + 1]; p++)
-      degree[i] += col_start[t->nz_col[p] + 1] - col_start[t->nz_col[p]] - 1;
-    loop_pos[i] = -1;
-  }
-  for (i = 0; i < nv; i++)
-    t->band_col[i] = -1;
-  head = tail = 0;
-  while (placed < nl) {
-    int start = -1;
-    for (i = 0; i < nl; i++)
-      if (loop_pos[i] < 0 && (start < 0 || degree[i] < degree[start]))
-        start = i;
-    loop_pos[start] = placed++;
-    queue[tail++] = start;
-    while (head < tail) {
-      int loop = queue[head++], first = tail;
-      for (p = pair_start[loop]; p < pair_start[loop + 1]; p++) {
-        int col = t->nz_col[p];
-        if (t->band_col[col] < 0)
-          t->band_col[col] = next_col++;
-        for (k = col_start[col]; k < col_start[col + 1]; k++) {
-          int other = t->nz_row[col_pairs[k]] / 2, j;
-          if (loop_pos[other] >= 0)
-            continue;
-          loop_pos[other] = placed++;
-          /* insert by degree among this loop's new neighbours */
-          for (j = tail++; j > first && degree[queue[j - 1]] > degree[other];
-               j--)
-            queue[j] = queue[j - 1];
-          queue[j] = other;
-        }
-      }
-      /* positions follow the queue's order */
-      for (k = first; k < tail; k++)
-        loop_pos[queue[k]] = placed - (tail - k);
-    }
-  }
-  for (i = 0; i < nl; i++) {
-    t->band_row[2 * i] = 2 * loop_pos[i];
-    t->band_row[2 * i + 1] = 2 * loop_pos[i] + 1;
-  }
-  t->band_lower = t->band_upper = 0;
-  for (p = 0; p < np; p++) {
-    int row = t->band_row[t->nz_row[p]], col = t->band_col[t->nz_col[p]];
-    if (row + 1 - col > t->band_lower)
-      t->band_lower = row + 1 - col;
-    if (col - row > t->band_upper)
-      t->band_upper = col - row;
-  }
-  kli_free(&m->alloc, scratch, bytes);
-  return KL_OK;
-}
-
 /* Augmenting path for unknown `col` in the bipartite graph unknown -> rows. */
 static int augment(const kli_topology *t, work *w, int col, int stamp) {
   int p, side;
@@ -661,6 +581,90 @@ static int structural_check(kl_model *m, work *w, const kli_topology *t) {
   return KL_OK;
 }
 
+/*
+ * The rows the structural matching leaves unmatched, one per redundant
+ * constraint, leave the Newton system: per loop, how many rows stay, and
+ * for a loop that keeps one, the nz pair of the unknown matched to it (the
+ * kept row is the loop's component along that unknown's column). The kept
+ * system's pattern follows: the nz pairs of loops keeping both rows, and
+ * one single entry per nz pair of a loop keeping one.
+ */
+static void keep_rows(const work *w, kli_topology *t) {
+  int loop, p, kept = 0, pairs = 0, singles = 0;
+  for (loop = 0; loop < t->nloops; loop++) {
+    int x = w->row_match[2 * loop] >= 0, y = w->row_match[2 * loop + 1] >= 0;
+    t->loop_kept[loop] = x + y;
+    t->loop_first_kept[loop] = kept;
+    t->loop_lead[loop] = -1;
+    kept += x + y;
+  }
+  t->loop_first_kept[t->nloops] = kept;
+  if (t->redundancy == 0) {
+    t->nkept_pairs = t->nnz_pairs;
+    t->nkept_singles = 0;
+    t->kept_pair_row = t->nz_row;
+    t->kept_pair_col = t->nz_col;
+    return;
+  }
+  for (p = 0; p < t->nnz_pairs; p++)
+    pairs += t->loop_kept[t->nz_row[p] / 2] == 2;
+  t->nkept_pairs = pairs;
+  pairs = 0;
+  for (p = 0; p < t->nnz_pairs; p++) {
+    int at = t->nz_row[p] / 2, row = t->loop_first_kept[at];
+    t->pair_slot[p] = -1;
+    if (t->loop_kept[at] == 2) {
+      t->pair_slot[p] = 2 * pairs;
+      t->kept_pair_row[pairs] = row;
+      t->kept_pair_col[pairs++] = t->nz_col[p];
+    } else if (t->loop_kept[at] == 1) {
+      int matched = w->row_match[t->nz_row[p]] >= 0 ? w->row_match[t->nz_row[p]]
+                                                     : w->row_match[t->nz_row[p] + 1];
+      if (t->nz_col[p] == matched)
+        t->loop_lead[at] = p;
+      t->pair_slot[p] = 2 * t->nkept_pairs + singles;
+      t->kept_single_row[singles] = row;
+      t->kept_single_col[singles++] = t->nz_col[p];
+    }
+  }
+  t->nkept_singles = singles;
+}
+
+/* The band-reducing ordering of the kept system, over the loops. */
+static int order_loops(kl_model *m, kli_topology *t) {
+  int n = t->nvars, ne = t->nkept_pairs + t->nkept_singles, loop, r, e, st;
+  size_t bytes = (size_t)(n + 2 * ne + 1) * sizeof(int);
+  int *scratch = kli_alloc(&m->alloc, bytes), *row_group, *entry_row, *entry_col;
+  kli_block_pattern bp;
+  if (scratch == NULL)
+    return KL_ENOMEM;
+  row_group = scratch;
+  entry_row = row_group + n;
+  entry_col = entry_row + ne;
+  for (loop = 0; loop < t->nloops; loop++)
+    for (r = t->loop_first_kept[loop]; r < t->loop_first_kept[loop + 1]; r++)
+      row_group[r] = loop;
+  for (e = 0; e < t->nkept_pairs; e++) {
+    entry_row[e] = t->kept_pair_row[e];
+    entry_col[e] = t->kept_pair_col[e];
+  }
+  for (e = 0; e < t->nkept_singles; e++) {
+    entry_row[t->nkept_pairs + e] = t->kept_single_row[e];
+    entry_col[t->nkept_pairs + e] = t->kept_single_col[e];
+  }
+  bp.ngroups = t->nloops;
+  bp.group_start = t->loop_first_kept;
+  bp.row_group = row_group;
+  bp.nentries = ne;
+  bp.entry_row = entry_row;
+  bp.entry_col = entry_col;
+  bp.ncols = n;
+  st = kli_band_order(&m->alloc, &bp, t->band_row, t->band_col,
+                      &t->band_lower, &t->band_upper);
+  kli_free(&m->alloc, scratch, bytes);
+  return st;
+}
+
 static double model_scale(const kl_model *m, const work *w) {
   double scale = 0.0;
   int l, i, k;
@@ -730,6 +734,17 @@ static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
   t->band_col = kli_carve(c, (size_t)nvars, sizeof(int));
   t->sites = kli_carve(c, (size_t)nj, sizeof(kl_output));
   t->skips = kli_carve(c, (size_t)nj, sizeof(kl_transmission_skip));
+  t->loop_kept = kli_carve(c, (size_t)w->nloops, sizeof(int));
+  t->loop_first_kept = kli_carve(c, (size_t)w->nloops + 1, sizeof(int));
+  t->loop_lead = kli_carve(c, (size_t)w->nloops, sizeof(int));
+  if (m->redundancy > 0) {
+    t->kept_pair_row = kli_carve(c, (size_t)nlj * 4, sizeof(int));
+    t->kept_pair_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));
+    t->kept_single_row = kli_carve(c, (size_t)nlj * 4, sizeof(int));
+    t->kept_single_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));
+    t->pair_slot = kli_carve(c, (size_t)nlj * 4, sizeof(int));
+  }
+  kli_carve_reactions(m, &t->forces, c);
 }
 
 /* Loop joints as found or registered, with the link after each joint. */
@@ -819,7 +834,10 @@ int kl_model_finalize(kl_model *m) {
   if ((st = pinned_at_one_point(m, &w)) != KL_OK ||
       (st = structural_check(m, &w, &t)) != KL_OK)
     goto done;
-  if (band_ordering(m, &t) != KL_OK) {
+  t.redundancy = m->redundancy;
+  t.nrows = 2 * t.nloops;
+  keep_rows(&w, &t);
+  if (order_loops(m, &t) != KL_OK || kli_build_reactions(m, &t) != KL_OK) {
     st = kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
     goto done;
   }

@@ -13,6 +13,7 @@ void kli_input_terms(kl_solver *s, const double *w, double *rhs) {
 
 void kli_rate_solve(kl_solver *s, double *rhs, const double *w, double *out) {
   int i;
+  kli_keep_rows(s->model, s->dir, rhs);
   for (i = 0; i < s->n; i++)
     rhs[i] = -rhs[i];
   kli_dense_solve(&s->dense, rhs);
@@ -33,6 +34,7 @@ int kl_solve_velocity(kl_solver *s, const double *input_rates) {
     memcpy(s->st.ud, input_rates, (size_t)s->ninputs * sizeof(double));
   s->st.velocity_solved = 1;
   s->st.acceleration_solved = 0;
+  s->st.forces_solved = 0;
   return KL_OK;
 }
 

@@ -9,7 +9,8 @@
 
 /* rhs = (dF/dx) G w: the loop-rate terms of input rates w (NULL for none). */
 void kli_input_terms(kl_solver *s, const double *w, double *rhs);
-/* Solves J q = -rhs (rhs is overwritten) and writes out = E q + G w. */
+/* Solves J q = -rhs for the loop rows in rhs (2 per loop, reduced to the
+ * kept rows in place) and writes out = E q + G w. */
 void kli_rate_solve(kl_solver *s, double *rhs, const double *w, double *out);
 
 #endif

@@ -229,7 +229,7 @@ kl_model *build_pin_linkage(const pin_linkage *p, int explicit_loops) {
   return m;
 }
 
-chain build_chain(int n) {
+static chain chain_links(int n, int massive) {
   chain c;
   int k, driver, pivot;
   c.m = kl_model_new();
@@ -244,11 +244,23 @@ chain build_chain(int n) {
     kl_add_revolute(c.m, driver, 40, 0, c.couplers[k], 0, 0);
     kl_add_revolute(c.m, c.couplers[k], 120, 0, c.rockers[k], 80, 0);
     kl_add_revolute(c.m, c.rockers[k], 0, 0, KL_GROUND, 100.0 * (k + 1), 0);
+    if (massive) {
+      kl_set_link_mass(c.m, c.couplers[k], 1.2, 60, 0, 1500);
+      kl_set_link_mass(c.m, c.rockers[k], 0.8, 40, 0, 500);
+    }
     driver = c.rockers[k];
+  }
+  if (massive) {
+    kl_set_link_mass(c.m, c.crank, 0.4, 20, 0, 80);
+    kl_model_set_gravity(c.m, 0, -9810);
   }
   kl_model_finalize(c.m);
   return c;
 }
+
+chain build_chain(int n) { return chain_links(n, 0); }
+
+chain build_massive_chain(int n) { return chain_links(n, 1); }
 
 /*
  * Freudenstein's equation in its half-angle tangent form, as given in
@@ -317,10 +329,21 @@ snapshot snap(const kl_solver *s) {
     }
   }
   for (j = 0; j < kl_model_joint_count(m); j++) {
+    double f[2] = {NAN, NAN};
     snap_put(&sn, kl_joint_angle(s, j));
     snap_put(&sn, kl_joint_slide(s, j));
     snap_put(&sn, kl_joint_slide_rate(s, j));
     snap_put(&sn, kl_joint_slide_accel(s, j));
+    snap_put(&sn, (double)kl_joint_force(s, j, f));
+    snap_put(&sn, f[0]);
+    snap_put(&sn, f[1]);
+    snap_put(&sn, kl_joint_moment(s, j));
+  }
+  {
+    double g[3] = {NAN, NAN, NAN};
+    snap_put(&sn, (double)kl_ground_force(s, g));
+    for (i = 0; i < 3; i++)
+      snap_put(&sn, g[i]);
   }
   for (p = 0; p < kl_model_point_count(m); p++)
     for (g = 0; g < 3; g++) {

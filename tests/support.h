@@ -108,6 +108,9 @@ typedef struct {
   int crank, couplers[CHAIN_MAX], rockers[CHAIN_MAX];
 } chain;
 chain build_chain(int n);
+/* The same chain with mass properties (crank 0.4 kg, couplers 1.2 kg,
+ * rockers 0.8 kg at their middles; mm, kg, s) and gravity along -y. */
+chain build_massive_chain(int n);
 /* Sets sketch angles near the open branch of every loop at crank angle u. */
 void sketch_chain(const chain *c, kl_solver *s, double u);
 
@@ -125,7 +128,8 @@ typedef struct {
 } snapshot;
 /* Everything a caller can read back from a solver, in a fixed order: every
  * link's angle, rate, acceleration and coefficients, every joint's angle
- * and slide with its rates, every point getter's status and values, every
+ * and slide with its rates and its force getters' status and values, the
+ * ground force getter's, every point getter's status and values, every
  * input value. */
 snapshot snap(const kl_solver *s);
 /* 1 if two snapshots hold the same bits. */

@@ -307,6 +307,105 @@ START_TEST(solvers_keep_a_freed_model) {
 }
 END_TEST
 
+/* After kl_solver_new nothing allocates: the force stage (its factors
+ * kept and reused), its getters, the cycle figures, their refusals, and
+ * a redundant model's position stage and refusal. */
+START_TEST(forces_never_allocate) {
+  counting_alloc c;
+  kl_model *m, *r;
+  kl_solver *s, *t;
+  int crank, coupler, rocker, pivot, tool, third, k;
+  long calls;
+  double u = 0.4, w = 7.0, a = 2.0, e[1], f[2], g[3], rows[400];
+  kl_load loads[2], bad;
+  kl_cycle cycle;
+  kl_cycle_summary sum;
+  kl_cycle_peak inputs[1], joints[4];
+  memset(&c, 0, sizeof c);
+  m = counting_model(&c);
+  crank = kl_add_link(m, "crank");
+  coupler = kl_add_link(m, "coupler");
+  rocker = kl_add_link(m, "rocker");
+  pivot = kl_add_revolute(m, KL_GROUND, 0, 0, crank, 0, 0);
+  kl_add_revolute(m, crank, 40, 0, coupler, 0, 0);
+  kl_add_revolute(m, coupler, 120, 0, rocker, 80, 0);
+  kl_add_revolute(m, rocker, 0, 0, KL_GROUND, 100, 0);
+  kl_add_input(m, pivot);
+  tool = kl_add_point(m, coupler, 100, 30, "tool");
+  ck_assert_int_eq(kl_set_link_mass(m, coupler, 1.1, 60, 12, 1600), KL_OK);
+  ck_assert_int_eq(kl_set_link_mass(m, rocker, 0.8, 40, 3, 500), KL_OK);
+  ck_assert_int_eq(kl_model_set_gravity(m, 0, -9810), KL_OK);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  /* a redundant model: the parallelogram with a third crank */
+  r = counting_model(&c);
+  kl_add_link(r, NULL);
+  kl_add_link(r, NULL);
+  kl_add_link(r, NULL);
+  third = kl_add_link(r, NULL);
+  kl_add_input(r, kl_add_revolute(r, KL_GROUND, 0, 0, 1, 0, 0));
+  kl_add_revolute(r, 1, 50, 0, 2, 0, 0);
+  kl_add_revolute(r, 2, 100, 0, 3, 50, 0);
+  kl_add_revolute(r, 3, 0, 0, KL_GROUND, 100, 0);
+  kl_add_revolute(r, 2, 200, 0, third, 50, 0);
+  kl_add_revolute(r, third, 0, 0, KL_GROUND, 200, 0);
+  kl_model_set_redundancy(r, 1);
+  ck_assert_int_eq(kl_model_finalize(r), KL_OK);
+  s = kl_solver_new(m);
+  t = kl_solver_new(r);
+  ck_assert_ptr_nonnull(s);
+  ck_assert_ptr_nonnull(t);
+  calls = c.calls;
+  memset(loads, 0, sizeof loads);
+  loads[0].kind = KL_LOAD_FORCE;
+  loads[0].id = tool;
+  loads[0].fx = 25000;
+  loads[1].kind = KL_LOAD_TORQUE;
+  loads[1].id = rocker;
+  loads[1].torque = -3e5;
+  bad = loads[0];
+  bad.fy = NAN;
+  kl_set_link_angle(s, coupler, 0.5);
+  kl_set_link_angle(s, rocker, 1.8);
+  ck_assert_int_eq(kl_solve_forces(s, 2, loads, e), KL_ESTAGE);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
+  ck_assert_int_eq(kl_solve_acceleration(s, &a), KL_OK);
+  for (k = 0; k < 3; k++)
+    ck_assert_int_eq(kl_solve_forces(s, 2 - k, loads, e), KL_OK);
+  ck_assert_int_eq(kl_solve_forces(s, 1, &bad, e), KL_ENONFINITE);
+  ck_assert_int_eq(kl_joint_force(s, 1, f), KL_OK);
+  ck_assert(isfinite(kl_joint_moment(s, 0)));
+  ck_assert_int_eq(kl_ground_force(s, g), KL_OK);
+  kl_cycle_default(&cycle);
+  cycle.steps = 18;
+  cycle.speed = 10;
+  cycle.speed_fluctuation = 0.05;
+  sum.size = sizeof sum;
+  ck_assert_int_eq(kl_cycle_table(s, &cycle, 2, loads, rows, 400, NULL), KL_OK);
+  ck_assert_int_eq(kl_cycle_summarize(s, &cycle, 2, loads, &sum, inputs,
+                                      joints),
+                   KL_OK);
+  cycle.steps = 0;
+  ck_assert_int_eq(kl_cycle_summarize(s, &cycle, 2, loads, &sum, inputs,
+                                      joints),
+                   KL_EINVAL);
+  kl_set_link_angle(t, 2, 0.0);
+  kl_set_link_angle(t, 3, 0.5);
+  kl_set_link_angle(t, third, 0.5);
+  ck_assert_int_eq(kl_solve_position(t, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_velocity(t, &w), KL_OK);
+  ck_assert_int_eq(kl_solve_acceleration(t, &a), KL_OK);
+  ck_assert_int_eq(kl_solve_forces(t, 0, NULL, NULL), KL_EINDETERMINATE);
+  ck_assert_msg(c.calls == calls, "%ld allocations after kl_solver_new",
+                c.calls - calls);
+  kl_solver_free(s);
+  kl_solver_free(t);
+  kl_model_free(m);
+  kl_model_free(r);
+  ck_assert_int_eq(c.live, 0);
+}
+END_TEST
+
 START_TEST(allocator_hook_is_required) {
   counting_alloc c;
   memset(&c, 0, sizeof c);
@@ -409,6 +508,7 @@ int main(void) {
   tcase_add_test(tc, every_study_allocation_failure_is_clean);
   tcase_add_test(tc, allocator_hook_is_required);
   tcase_add_test(tc, calls_after_solver_new_never_allocate);
+  tcase_add_test(tc, forces_never_allocate);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }

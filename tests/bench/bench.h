@@ -150,4 +150,17 @@ typedef struct {
 void bench_threads(FILE *out, const bench_plan *plan,
                    const fourbar_figures *fourbar, thread_figures *fig);
 
+/* ---- part 4: the force stage ---- */
+
+typedef struct {
+  double fourbar_position_ns; /* one position solve, ns per step */
+  double fourbar_force_ns;    /* the force stage after the rates, ns */
+  double fourbar_ratio;       /* force stage / one position solve */
+  double chain_position_ns[2], chain_force_ns[2]; /* N = 10 and 100 */
+  double growth_position, growth_forces; /* exponents p, t ~ N^p */
+  int valid;                  /* no step failed */
+} force_figures;
+
+void bench_forces(FILE *out, const bench_plan *plan, force_figures *fig);
+
 #endif

@@ -44,7 +44,8 @@ int main(int argc, char **argv) {
   fourbar_figures fourbar = {0};
   chain_figures chains = {0};
   thread_figures threads = {0};
-  target targets[5];
+  force_figures forces = {0};
+  target targets[7];
   size_t i;
   int arg;
   for (arg = 1; arg < argc; arg++) {
@@ -63,6 +64,8 @@ int main(int argc, char **argv) {
   bench_chain(stdout, &plan, &chains);
   fflush(stdout);
   bench_threads(stdout, &plan, &fourbar, &threads);
+  fflush(stdout);
+  bench_forces(stdout, &plan, &forces);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -95,6 +98,18 @@ int main(int argc, char **argv) {
   targets[4].at_most = 1;
   targets[4].valid = chains.kinloop_valid;
   targets[4].unit = "";
+  targets[5].what = "four-bar force stage <= 1.5x one position solve";
+  targets[5].measured = forces.fourbar_ratio;
+  targets[5].limit = 1.5;
+  targets[5].at_most = 1;
+  targets[5].valid = forces.valid;
+  targets[5].unit = "x";
+  targets[6].what = "force stage growth N = 10 to 100 <= the position stage's";
+  targets[6].measured = forces.growth_forces;
+  targets[6].limit = forces.growth_position;
+  targets[6].at_most = 1;
+  targets[6].valid = forces.valid;
+  targets[6].unit = "";
   printf("\n== targets (ratios measured in this run%s) ==\n",
          plan.quick ? "; QUICK MODE: single samples, not for reporting" : "");
   printf("%-62s %10s  %s\n", "target", "measured", "verdict");

@@ -51,7 +51,7 @@ static double number(program *p) {
 }
 
 static void check(int status) {
-  if (status < KL_EIO || status > KL_STOPPED)
+  if (status < KL_EINDETERMINATE || status > KL_STOPPED)
     abort();
 }
 
@@ -94,7 +94,10 @@ static void build(program *p, kl_model *m) {
       kl_add_slot_through(m, a, ax, ay, bx, by, b, angle, number(p));
       break;
     case 6:
-      kl_add_point(m, id(p, nl), ax, ay, NULL);
+      a = id(p, nl);
+      kl_add_point(m, a, ax, ay, NULL);
+      /* the same numbers as mass properties of the point's link */
+      check(kl_set_link_mass(m, a, fabs(ax), ay, ax, fabs(ay)));
       break;
     case 7:
       check(kl_add_input(m, id(p, nj)));
@@ -104,9 +107,12 @@ static void build(program *p, kl_model *m) {
       for (i = 0; i < n; i++)
         joints[i] = id(p, nj);
       check(kl_add_loop(m, n, joints));
+      if (n == 6)
+        check(kl_model_set_redundancy(m, 1));
       break;
     case 9:
       check(kl_model_set_sketch_angle(m, id(p, nl), ax));
+      check(kl_model_set_gravity(m, ax, ay));
       break;
     default:
       check(kl_model_set_sketch_slide(m, id(p, nj), ax));
@@ -199,7 +205,7 @@ static void solve(program *p, kl_model *m) {
   int ni = kl_model_input_count(m), nl = kl_model_link_count(m);
   int nj = kl_model_joint_count(m), np = kl_model_point_count(m);
   int ops = (int)(byte(p) % 16), k, i;
-  double in[8], out[8];
+  double in[8], out[8], rows[512];
   if (s == NULL || ni > 8)
     goto done;
   other = kl_solver_new(m);
@@ -237,6 +243,21 @@ static void solve(program *p, kl_model *m) {
       v = number(p);
       w = number(p);
       check(kl_solver_sweep(s, a, v, w, (int)(byte(p) % 6), NULL, NULL, &sw));
+      {
+        /* the forces over the same range, the first input value as speed */
+        kl_cycle c;
+        kl_cycle_summary sum;
+        kl_cycle_default(&c);
+        c.input = a;
+        c.from = v;
+        c.to = w;
+        c.steps = 1 + sw.steps_done % 3;
+        c.speed = ni > 0 ? in[0] : 1.0;
+        c.speed_fluctuation = ni > 1 ? in[1] : 0.0;
+        sum.size = sizeof sum;
+        check(kl_cycle_table(s, &c, 0, NULL, rows, 512, NULL));
+        check(kl_cycle_summarize(s, &c, 0, NULL, &sum, NULL, NULL));
+      }
       break;
     case 8:
       r.size = sizeof r;
@@ -262,6 +283,11 @@ static void solve(program *p, kl_model *m) {
       load.fy = number(p);
       load.torque = number(p);
       check(kl_input_effort(s, 1, &load, out));
+      check(kl_solve_forces(s, 1, &load, out));
+      check(kl_joint_force(s, load.id, out));
+      check(kl_ground_force(s, out));
+      v = kl_joint_moment(s, load.id);
+      (void)v;
       break;
     default:
       check(kl_solver_copy_state(other, s));

@@ -78,7 +78,9 @@ def value_of(c):
     values = {}
     for f in dataclasses.fields(cls):
         v = getattr(c, f.name.rstrip("_"))
-        if f.type is bool:
+        if type(v) in VALUE_TYPES:  # a struct inside a struct
+            v = value_of(v)
+        elif f.type is bool:
             v = bool(v)
         elif isinstance(f.type, type) and issubclass(f.type, enum.IntEnum):
             v = as_enum(f.type, v)

@@ -1,0 +1,340 @@
+/*
+ * forces.c - the force stage: the Newton-Euler equations of every moving
+ * link with the joint reactions and input efforts as unknowns (d'Alembert),
+ * on the pattern reactions.c lays out, solved by the dense module.
+ */
+#include <math.h>
+#include <string.h>
+
+#include "forces.h"
+
+static double cross(const double a[2], const double b[2]) {
+  return a[0] * b[1] - a[1] * b[0];
+}
+
+/* R(angle of link) v at pose p. */
+static void turn(const kli_pose *p, int link, const double v[2],
+                 double out[2]) {
+  double c = p->c[link], s = p->s[link];
+  out[0] = c * v[0] - s * v[1];
+  out[1] = s * v[0] + c * v[1];
+}
+
+/* The velocity (and, with xdd, the acceleration) of the centre of mass of
+ * every link with mass, into s->centre_velocity and s->centre_accel: its
+ * frame origin's, from the origin's chain, plus the turning of the arm
+ * R c to the centre (omega (Rc)-perp; alpha (Rc)-perp - omega^2 Rc). */
+static void centre_motion(kl_solver *s, const double *xd, const double *xdd) {
+  const kl_model *m = s->model;
+  const kli_pose *p = &s->st.pose;
+  int l;
+  for (l = 1; l < m->nlinks; l++) {
+    const kli_link *link = &m->links[l];
+    double rc[2], v[2], w = xd[l], *vg = s->centre_velocity + 2 * l;
+    if (link->mass == 0.0)
+      continue;
+    turn(p, l, link->centre, rc);
+    kli_chain_rate(m, &m->topo.origins[l], p, xd, v);
+    vg[0] = v[0] - w * rc[1];
+    vg[1] = v[1] + w * rc[0];
+    if (xdd != NULL) {
+      double a[2], alpha = xdd[l], *ag = s->centre_accel + 2 * l;
+      kli_chain_accel(m, &m->topo.origins[l], p, xd, xd, xdd, a);
+      ag[0] = a[0] - alpha * rc[1] - w * w * rc[0];
+      ag[1] = a[1] + alpha * rc[0] - w * w * rc[1];
+    }
+  }
+}
+
+/* Every joint at the committed pose, into s->force_geometry (6 per
+ * joint): the arm from each side's centre of mass to the point where the
+ * joint's force acts (link b's attachment point; on link a, that point on
+ * its slide line), and a sliding joint's axis direction d. On ground,
+ * whose centre is its origin, the arm is the point itself. */
+static void joint_geometry(kl_solver *s) {
+  const kl_model *m = s->model;
+  const kli_pose *p = &s->st.pose;
+  int joint, side;
+  for (joint = 0; joint < m->njoints; joint++) {
+    const kli_joint *j = &m->joints[joint];
+    double *arm = s->force_geometry + 6 * joint, *d = arm + 4;
+    for (side = 0; side < 2; side++) {
+      int link = j->link[side];
+      double local[2];
+      local[0] = j->at[side][0] - m->links[link].centre[0];
+      local[1] = j->at[side][1] - m->links[link].centre[1];
+      turn(p, link, local, arm + 2 * side);
+    }
+    d[0] = d[1] = 0.0;
+    if (kli_is_sliding(j->kind)) {
+      double slide = p->x[m->nlinks + joint];
+      turn(p, j->link[0], j->axis_cs, d);
+      arm[0] += slide * d[0];
+      arm[1] += slide * d[1];
+    }
+  }
+}
+
+/* The force system's values at the committed pose (its joint geometry
+ * taken): each entry's coefficient times its side's sign, moment rows
+ * over the model's scale. */
+static void assemble(kl_solver *s) {
+  const kl_model *m = s->model;
+  const kli_force_pattern *f = &m->topo.forces;
+  double inv_scale = 1.0 / m->topo.scale;
+  int j, e;
+  for (j = 0; j < m->njoints; j++) {
+    const double *arm = s->force_geometry + 6 * j, *d = arm + 4;
+    double n[2];
+    n[0] = -d[1];
+    n[1] = d[0];
+    for (e = f->entry_start[j]; e < f->entry_start[j + 1]; e++) {
+      const double *r = arm + 2 * f->side[e];
+      double v;
+      switch (f->coef[e]) {
+      case KLI_COEF_UNIT: v = 1.0; break;
+      case KLI_COEF_ARM_FX: v = -r[1]; break;
+      case KLI_COEF_ARM_FY: v = r[0]; break;
+      case KLI_COEF_NORMAL_X: v = n[0]; break;
+      case KLI_COEF_NORMAL_Y: v = n[1]; break;
+      case KLI_COEF_NORMAL_M: v = cross(r, n); break;
+      case KLI_COEF_AXIS_X: v = d[0]; break;
+      case KLI_COEF_AXIS_Y: v = d[1]; break;
+      default: v = cross(r, d); break; /* KLI_COEF_AXIS_M */
+      }
+      if (f->side[e] == 0)
+        v = -v; /* link a feels the opposite of what b feels */
+      if (f->row[e] % 3 == 2)
+        v *= inv_scale;
+      s->force_values[e] = v;
+    }
+  }
+}
+
+/* The right side: per moving link, m (a_G - g) and I alpha, less the
+ * loads it carries (moment rows over the model's scale). */
+static void right_side(kl_solver *s, const double *xdd, int nloads,
+                       const kl_load *loads, double *b) {
+  const kl_model *m = s->model;
+  const double *g = m->gravity, *ag = s->centre_accel;
+  double inv_scale = 1.0 / m->topo.scale;
+  int l, k;
+  for (l = 1; l < m->nlinks; l++) {
+    const kli_link *link = &m->links[l];
+    double *row = b + 3 * (l - 1);
+    row[0] = link->mass == 0.0 ? 0.0 : link->mass * (ag[2 * l] - g[0]);
+    row[1] = link->mass == 0.0 ? 0.0 : link->mass * (ag[2 * l + 1] - g[1]);
+    row[2] = link->inertia * xdd[l] * inv_scale;
+  }
+  for (k = 0; k < nloads; k++) {
+    const kl_load *load = &loads[k];
+    if (load->kind == KL_LOAD_FORCE) {
+      const kli_point *pt = &m->points[load->id];
+      const kli_link *link = &m->links[pt->link];
+      double local[2], r[2], force[2], *row;
+      if (pt->link == KL_GROUND)
+        continue;
+      local[0] = pt->at[0] - link->centre[0];
+      local[1] = pt->at[1] - link->centre[1];
+      turn(&s->st.pose, pt->link, local, r);
+      force[0] = load->fx;
+      force[1] = load->fy;
+      row = b + 3 * (pt->link - 1);
+      row[0] -= force[0];
+      row[1] -= force[1];
+      row[2] -= cross(r, force) * inv_scale;
+    } else if (load->id != KL_GROUND) {
+      b[3 * (load->id - 1) + 2] -= load->torque * inv_scale;
+    }
+  }
+}
+
+/* The unknowns x back to joint forces and moments, efforts and the load on
+ * ground (the joint geometry taken at this pose). */
+static void results(kl_solver *s, const double *x, kli_forces *out) {
+  const kl_model *m = s->model;
+  const kli_force_pattern *f = &m->topo.forces;
+  int j;
+  out->ground[0] = out->ground[1] = out->ground[2] = 0.0;
+  for (j = 0; j < m->njoints; j++) {
+    const kli_joint *jt = &m->joints[j];
+    int c = f->joint_col[j];
+    int effort = jt->input >= 0 ? f->input_col[jt->input] : -1;
+    const double *arm = s->force_geometry + 6 * j, *d = arm + 4;
+    double force[2], moment = 0.0;
+    if (jt->kind == KL_JOINT_REVOLUTE) {
+      force[0] = x[c];
+      force[1] = x[c + 1];
+      if (effort >= 0)
+        moment = x[effort];
+    } else {
+      /* across the slide, n = d-perp, plus an input's push along it */
+      double along = effort >= 0 ? x[effort] : 0.0;
+      force[0] = -x[c] * d[1] + along * d[0];
+      force[1] = x[c] * d[0] + along * d[1];
+      if (jt->kind == KL_JOINT_PRISMATIC)
+        moment = x[c + 1];
+    }
+    out->force[2 * j] = force[0];
+    out->force[2 * j + 1] = force[1];
+    out->moment[j] = moment;
+    if (effort >= 0)
+      out->effort[jt->input] = x[effort];
+    /* ground as link b receives the force and moment; as link a, their
+     * opposites; the point is where the force acts, in global terms */
+    if (jt->link[1] == KL_GROUND || jt->link[0] == KL_GROUND) {
+      double sign = jt->link[1] == KL_GROUND ? 1.0 : -1.0;
+      const double *at = arm + (jt->link[1] == KL_GROUND ? 2 : 0);
+      out->ground[0] += sign * force[0];
+      out->ground[1] += sign * force[1];
+      out->ground[2] += sign * (cross(at, force) + moment);
+    }
+  }
+}
+
+int kli_forces_determinate(kl_solver *s, const char *stage) {
+  const kl_model *m = s->model;
+  if (m->topo.redundancy > 0)
+    return kli_fail(s->error, KL_EINDETERMINATE,
+                    "%s: the model declares %d redundant constraint%s, so "
+                    "it is statically indeterminate: its joint forces depend "
+                    "on the links' elasticity, not on equilibrium alone",
+                    stage, m->topo.redundancy,
+                    m->topo.redundancy == 1 ? "" : "s");
+  return KL_OK;
+}
+
+int kli_forces_ready(kl_solver *s, const char *stage) {
+  if (s->st.last_attempt == KL_ESINGULAR)
+    return kli_fail(s->error, KL_ESINGULAR,
+                    "%s: the position asked for last is singular (a dead "
+                    "point, toggle or change point), where the forces are "
+                    "not determined",
+                    stage);
+  if (!s->st.acceleration_solved || !s->st.position_solved ||
+      s->st.last_attempt != KL_OK)
+    return kli_fail(s->error, KL_ESTAGE,
+                    "%s needs the position, velocity and acceleration solved "
+                    "at the current inputs first (inverse dynamics: the "
+                    "forces follow the motion)",
+                    stage);
+  return KL_OK;
+}
+
+int kli_forces_at(kl_solver *s, const double *xd, const double *xdd,
+                  int nloads, const kl_load *loads, kli_forces *out,
+                  const char *stage) {
+  size_t coords = (size_t)s->ncoords * sizeof(double);
+  /* the force system is singular exactly where the loop Jacobian is (both
+   * state the same constraints), so the position's condition decides */
+  if (s->st.rcond < s->singular_rcond)
+    return kli_fail(s->error, KL_ESINGULAR,
+                    "%s: the position is singular (rcond %.3g below %.3g): "
+                    "a dead point, toggle or change point, where the forces "
+                    "are not determined",
+                    stage, s->st.rcond, s->singular_rcond);
+  if (!s->force_factored || memcmp(s->force_at, s->st.pose.x, coords) != 0) {
+    joint_geometry(s);
+    assemble(s);
+    kli_dense_load(&s->force, s->force_values);
+    s->force_factored = 0;
+    if (kli_dense_factor(&s->force))
+      return kli_fail(s->error, KL_ESINGULAR,
+                      "%s: the force system is singular at this position: a "
+                      "dead point, where the forces are not determined",
+                      stage);
+    memcpy(s->force_at, s->st.pose.x, coords);
+    s->force_factored = 1;
+  }
+  centre_motion(s, xd, xdd);
+  right_side(s, xdd, nloads, loads, s->force_rhs);
+  kli_dense_solve(&s->force, s->force_rhs);
+  results(s, s->force_rhs, out);
+  return KL_OK;
+}
+
+void kli_link_energy(kl_solver *s, const double *xd, int nloads,
+                     const kl_load *loads, double *kinetic, double *total) {
+  const kl_model *m = s->model;
+  const kli_pose *p = &s->st.pose;
+  double ke = 0.0, potential = 0.0;
+  int l, k;
+  centre_motion(s, xd, NULL);
+  for (l = 1; l < m->nlinks; l++) {
+    const kli_link *link = &m->links[l];
+    ke += 0.5 * link->inertia * xd[l] * xd[l];
+    if (link->mass > 0.0) {
+      const double *vg = s->centre_velocity + 2 * l;
+      double origin[2], rc[2];
+      ke += 0.5 * link->mass * (vg[0] * vg[0] + vg[1] * vg[1]);
+      kli_chain_value(m, &m->topo.origins[l], p, origin);
+      turn(p, l, link->centre, rc);
+      potential -= link->mass * (m->gravity[0] * (origin[0] + rc[0]) +
+                                 m->gravity[1] * (origin[1] + rc[1]));
+    }
+  }
+  for (k = 0; k < nloads; k++) {
+    const kl_load *load = &loads[k];
+    if (load->kind == KL_LOAD_FORCE) {
+      double q[2];
+      kli_chain_value(m, &m->topo.points[load->id], p, q);
+      potential -= load->fx * q[0] + load->fy * q[1];
+    } else {
+      potential -= load->torque * p->x[load->id];
+    }
+  }
+  *kinetic = ke;
+  *total = ke + potential;
+}
+
+/* ---- the API ---- */
+
+int kl_solve_forces(kl_solver *s, int nloads, const kl_load *loads,
+                    double *efforts) {
+  static const char stage[] = "solve forces";
+  int st;
+  if (s == NULL)
+    return KL_EINVAL;
+  if ((st = kli_forces_determinate(s, stage)) != KL_OK ||
+      (st = kli_check_loads(s, nloads, loads, stage)) != KL_OK ||
+      (st = kli_forces_ready(s, stage)) != KL_OK ||
+      (st = kli_forces_at(s, s->st.xd, s->st.xdd, nloads, loads,
+                          &s->st.forces, stage)) != KL_OK)
+    return st;
+  s->st.forces_solved = 1;
+  if (efforts != NULL && s->ninputs > 0)
+    memcpy(efforts, s->st.forces.effort, (size_t)s->ninputs * sizeof(double));
+  return KL_OK;
+}
+
+static int forces_known(const kl_solver *s, int joint) {
+  if (s == NULL)
+    return KL_EINVAL;
+  if (joint < 0 || joint >= s->model->njoints)
+    return KL_EID;
+  return s->st.forces_solved ? KL_OK : KL_ESTAGE;
+}
+
+int kl_joint_force(const kl_solver *s, int joint, double fxy[2]) {
+  int st = forces_known(s, joint);
+  if (fxy == NULL)
+    return KL_EINVAL;
+  if (st != KL_OK)
+    return st;
+  fxy[0] = s->st.forces.force[2 * joint];
+  fxy[1] = s->st.forces.force[2 * joint + 1];
+  return KL_OK;
+}
+
+double kl_joint_moment(const kl_solver *s, int joint) {
+  return forces_known(s, joint) == KL_OK ? s->st.forces.moment[joint] : NAN;
+}
+
+int kl_ground_force(const kl_solver *s, double fxy_m[3]) {
+  if (s == NULL || fxy_m == NULL)
+    return KL_EINVAL;
+  if (!s->st.forces_solved)
+    return KL_ESTAGE;
+  memcpy(fxy_m, s->st.forces.ground, 3 * sizeof(double));
+  return KL_OK;
+}
