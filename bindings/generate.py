@@ -927,9 +927,10 @@ def octave_wrapper(header, b):
     lines.append("octave_value_list gen_%s(const call &c) {" % b.command)
     call_args, outs, counts, i, vector_arg = [], [], {}, 0, None
     for a in b.args:
-        # the gateway's own names (the call c, the handle h) are not a
-        # parameter's: a header parameter named so takes a trailing _
-        n = a.name + "_" if a.name in ("c", "h") else a.name
+        # the gateway's own names (the call c, the handle h, the results
+        # out) are not a parameter's: a header parameter named so takes a
+        # trailing _
+        n = a.name + "_" if a.name in ("c", "h", "out") else a.name
         what = cpp_string(a.name)
         if a.kind == "handle":
             lines.append("  entry &h = c.%s(0, %s);" % (

@@ -1553,6 +1553,43 @@ KL_API int kl_input_effort_range(kl_solver *s, int input, double from,
                                  kl_range *range);
 
 /* ------------------------------------------------------------------------
+ * Motion laws: the published rise laws of cams and servo profiles
+ * ------------------------------------------------------------------------ */
+
+/** The motion laws kl_motion_law evaluates (docs/theory.md gives each
+ * one's formula and source). */
+enum kl_motion_law_kind {
+  KL_LAW_HARMONIC = 0,      /**< simple harmonic: s = (1 - cos pi x) / 2 */
+  KL_LAW_CYCLOIDAL = 1,     /**< cycloidal: s = x - sin(2 pi x) / (2 pi) */
+  KL_LAW_POLY345 = 2,       /**< 3-4-5 polynomial: 10x^3 - 15x^4 + 6x^5 */
+  KL_LAW_POLY4567 = 3,      /**< 4-5-6-7 polynomial: 35x^4 - 84x^5 + 70x^6 - 20x^7 */
+  KL_LAW_MOD_TRAPEZOID = 4, /**< modified trapezoidal: sine ramps to a held
+                                 peak acceleration of 8 pi / (pi + 2) */
+  KL_LAW_MOD_SINE = 5       /**< modified sine: a sine quarter, then a sine of
+                                 a third the frequency; peak acceleration
+                                 4 pi^2 / (pi + 4) */
+};
+
+/**
+ * A published motion law, normalised: for x in [0, 1] (the fraction of the
+ * rise's duration or cam angle) the rise s, 0 at x = 0 and 1 at x = 1, and
+ * its derivatives, into out = s, ds/dx, d2s/dx2, d3s/dx3. A rise of height
+ * h over a duration T takes h s(t / T), with velocity h s' / T,
+ * acceleration h s'' / T^2 and jerk h s''' / T^3. Where a law's derivative
+ * jumps (the simple harmonic law's acceleration at both ends, the
+ * 3-4-5 polynomial's and the cycloidal law's jerk at both ends, the
+ * modified laws' jerk at the joints of their pieces) the value is the one
+ * inside [0, 1], or of the piece on the left of an inner joint.
+ * Returns KL_OK, KL_ENONFINITE (x NaN or infinite), or KL_EINVAL (NULL
+ * out, x outside [0, 1], or an unknown law). Never allocates; no handle.
+ */
+KL_API int kl_motion_law(int law, double x, double out[4]);
+
+/** "cycloidal", ... for an enum kl_motion_law_kind; "not a law" otherwise
+ * (static text). */
+KL_API const char *kl_motion_law_str(int law);
+
+/* ------------------------------------------------------------------------
  * Design studies: tolerance Monte Carlo and design grids (the study file is
  * described in docs/studies.md)
  * ------------------------------------------------------------------------ */
