@@ -160,3 +160,39 @@ assert(~isempty(strfind(err.message, 'redundan')));
 expect_error(@() s.cycle_table([], 'speed', 3, 'steps', 12), 'kinloop:EINDETERMINATE');
 assert(abs(s.link_angle(c1) - 0.3) < 1e-12);
 clear s m
+
+% ---- loads and the working speed recorded in the model
+m = kinloop.Model();
+crank = m.add_link('crank'); coupler = m.add_link('coupler'); rocker = m.add_link('rocker');
+m.add_revolute(0, [0 0], crank, [0 0]);
+m.add_revolute(crank, [40 0], coupler, [0 0]);
+m.add_revolute(coupler, [120 0], rocker, [80 0]);
+m.add_revolute(rocker, [0 0], 0, [100 0]);
+tip = m.add_point(coupler, [60 30], 'tool');
+m.add_input(0);
+m.set_link_mass(coupler, 0.5, [60 10], 700);
+assert(m.add_load(struct('kind', 'force', 'id', tip, 'fx', 1500, 'fy', -800)) == 0);
+assert(m.add_load(struct('kind', 'torque', 'id', rocker, 'torque', 2e4)) == 1);
+expect_error(@() m.add_load(struct('kind', 'torque', 'id', 9, 'torque', 1)), 'kinloop:EID');
+expect_error(@() m.set_speed(0, 3, -0.5), 'kinloop:EINVAL');
+m.set_speed(0, 8, 0.04);
+m.finalize();
+loads = m.loads();
+assert(numel(loads) == 2 && strcmp(loads(1).kind, 'force') && loads(1).fy == -800);
+assert(strcmp(loads(2).kind, 'torque') && loads(2).torque == 2e4);
+[input, speed, cs] = m.speed();
+assert(input == 0 && speed == 8 && cs == 0.04);
+cycle = m.cycle();
+assert(cycle.speed == 8 && cycle.steps == 360 && abs(cycle.to - 2 * pi) < 1e-15);
+s = kinloop.Solver(m);
+s.set_link_angle(coupler, 0.9); s.set_link_angle(rocker, 1.9);
+s.solve_position(0);
+[recorded, ~, joints_recorded] = s.cycle_summarize(m.loads(), m.cycle());
+s.solve_position(0);
+[given, ~, joints_given] = s.cycle_summarize(loads, 'speed', 8, 'speed_fluctuation', 0.04);
+% the same figures (the second cycle starts where the first left the
+% solver: equal to rounding)
+assert(recorded.steps_done == 361 && given.steps_done == 361);
+assert(abs(recorded.flywheel_inertia - given.flywheel_inertia) <= 1e-9 * given.flywheel_inertia);
+assert(max(abs([joints_recorded.rms] - [joints_given.rms])) <= 1e-9 * max([joints_given.rms]));
+clear s m

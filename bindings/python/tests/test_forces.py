@@ -307,3 +307,43 @@ def test_the_table_dtype_is_the_c_row():
     assert dtype.itemsize == 8 * f.model.cycle_columns
     assert dtype.names == ("input", "effort", "joint", "ground", "kinetic_energy", "work")
     assert dtype["joint"].base.names == ("fx", "fy", "moment")
+
+
+def test_loads_and_the_working_speed_recorded_in_the_model():
+    f = build_fourbar(40, 120, 80, 100, finalize=False)
+    m = f.model
+    m.set_link_mass(f.coupler, 0.5, (60, 10), 700.0)
+    assert m.add_load(kl.Load.force_at(f.point, (1500.0, -800.0))) == 0
+    assert m.add_load(kl.Load.torque_on(f.rocker, 2.0e4)) == 1
+    with pytest.raises(kl.KinloopError) as e:
+        m.add_load(kl.Load.torque_on(9, 1.0))
+    assert e.value.status == kl.Status.EID and m.load_count == 2
+    with pytest.raises(kl.KinloopError) as e:
+        m.set_speed(0, 3.0, -0.5)
+    assert e.value.status == kl.Status.EINVAL
+    m.set_speed(0, 8.0, 0.04)
+    m.set_sweep(kl.SweepSettings(0, 0.0, math.pi, 30))
+    m.finalize()
+    assert m.loads == [kl.Load.force_at(f.point, (1500.0, -800.0)),
+                       kl.Load.torque_on(f.rocker, 2.0e4)]
+    assert m.speed == (0, 8.0, 0.04)
+    assert m.cycle == kl.Cycle(input=0, from_=0.0, to=math.pi, steps=30, speed=8.0,
+                               speed_fluctuation=0.04)
+    s = kl.Solver(m)
+    s.set_link_angle(f.coupler, 0.9)
+    s.set_link_angle(f.rocker, 1.9)
+    s.solve_position([0.0])
+    recorded = s.cycle_summarize(m.loads, m.cycle)
+    s.solve_position([0.0])
+    given = s.cycle_summarize([kl.Load.force_at(f.point, (1500.0, -800.0)),
+                               kl.Load.torque_on(f.rocker, 2.0e4)],
+                              speed=8.0, to=math.pi, steps=30, speed_fluctuation=0.04)
+    # the same figures (the second cycle starts from where the first left
+    # the solver, so they agree to rounding, not bit for bit)
+    assert recorded.summary.steps_done == given.summary.steps_done == 31
+    for a, b in zip([recorded.summary.shaking_force] + recorded.joints + recorded.inputs,
+                    [given.summary.shaking_force] + given.joints + given.inputs):
+        assert (a.peak, a.at, a.mean, a.rms) == pytest.approx((b.peak, b.at, b.mean, b.rms),
+                                                              rel=1e-9)
+    assert recorded.summary.flywheel_inertia == pytest.approx(
+        given.summary.flywheel_inertia, rel=1e-9)
