@@ -130,8 +130,9 @@ classdef Solver < kinloop.SolverMethods
     % ---- force figures over a cycle ----
 
     function [summary, inputs, joints] = cycle_summarize(obj, loads, varargin)
-      % [summary, inputs, joints] = cycle_summarize(loads, cycle) or
-      % cycle_summarize(loads, 'speed', w, 'steps', n, ...): the force
+      % [summary, inputs, joints] = cycle_summarize(loads, cycle), or
+      % cycle_summarize(loads, 'speed', w, 'steps', n, ...), or both
+      % (cycle_summarize(loads, cycle, 'steps', n)): the force
       % figures of a cycle (kl_cycle_summarize): input cycle.input driven at
       % the constant cycle.speed over its range against the constant loads
       % (a struct array of kind, id, fx, fy, torque, or []), the other
@@ -177,13 +178,19 @@ classdef Solver < kinloop.SolverMethods
 
   methods (Static, Access = private)
     function c = cycle_of(given)
-      % A cycle struct from one struct, or name, value pairs, or nothing.
-      if isempty(given)
-        c = [];
-      elseif numel(given) == 1 && isstruct(given{1})
+      % A cycle struct from a struct, name-value pairs replacing its fields
+      % (or making one), or nothing ([]: the defaults).
+      c = [];
+      if ~isempty(given) && isstruct(given{1})
         c = given{1};
-      else
-        c = struct(given{:});
+        given = given(2:end);
+      end
+      if mod(numel(given), 2) ~= 0 || ~all(cellfun(@ischar, given(1:2:end)))
+        error('kinloop:EINVAL', ['cycle: give a struct of kl_cycle''s fields, ' ...
+                                 'name-value pairs, or both']);
+      end
+      for k = 1:2:numel(given)
+        c.(given{k}) = given{k + 1};
       end
     end
 

@@ -196,3 +196,18 @@ assert(recorded.steps_done == 361 && given.steps_done == 361);
 assert(abs(recorded.flywheel_inertia - given.flywheel_inertia) <= 1e-9 * given.flywheel_inertia);
 assert(max(abs([joints_recorded.rms] - [joints_given.rms])) <= 1e-9 * max([joints_given.rms]));
 clear s m
+
+% a cycle struct with name-value pairs replacing its fields; a bad mix
+m = kinloop.Model();
+crank = m.add_link('crank');
+m.add_revolute(0, [0 0], crank, [0 0]);
+m.add_input(0);
+m.set_link_mass(crank, 2, [0.1 0], 0.003);
+m.finalize();
+s = kinloop.Solver(m);
+s.solve_position(0);
+t = s.cycle_table([], struct('speed', 5, 'steps', 36), 'steps', 8);
+assert(numel(t.input) == 9 && abs(max(hypot(t.joint_fx, t.joint_fy)) - 2 * 0.1 * 25) < 1e-12);
+expect_error(@() s.cycle_table([], 'steps'), 'kinloop:EINVAL');
+expect_error(@() s.cycle_table([], struct('speed', 5), 3, 4), 'kinloop:EINVAL');
+clear s m

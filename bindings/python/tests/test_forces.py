@@ -347,3 +347,12 @@ def test_loads_and_the_working_speed_recorded_in_the_model():
                                                               rel=1e-9)
     assert recorded.summary.flywheel_inertia == pytest.approx(
         given.summary.flywheel_inertia, rel=1e-9)
+
+
+def test_a_model_s_start_inputs_are_one_per_input():
+    # a generated method of the model with an array per input (the start
+    # the sweep settings give, 0 for the others)
+    f = build_fourbar(40, 120, 80, 100, finalize=False)
+    f.model.set_sweep(kl.SweepSettings(0, 0.25, 1.0, 10))
+    f.model.finalize()
+    np.testing.assert_array_equal(f.model.start_inputs, [0.25])
