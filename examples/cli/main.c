@@ -59,7 +59,7 @@ static const char general_usage[] =
     "     the same for a study file\n"
     "  4  solve failure: no assembly, singular position, or a motion limit\n"
     "     before a position that was asked for; a study's nominal that does\n"
-    "     not solve\n"
+    "     not solve; forces that are not determined (redundant or singular)\n"
     "  5  an output file or folder cannot be written\n";
 
 static const char range_help[] =
