@@ -200,7 +200,7 @@ class Function:
 
 # What the pointer parameters of these functions are, where the C type
 # alone cannot say (a double * may be one value or an array): "out", one
-# value the function fills; "one", one struct it reads; the name of the int
+# value or one struct the function fills; "one", one struct it reads; the name of the int
 # parameter that counts an array; "inputs", one value per input of the
 # model. The header documents the same in words. Handles, fixed arrays
 # (double xy[2]) and sized structs need no entry; a function with any
@@ -228,6 +228,9 @@ POINTERS = {
     "kl_solve_forces": {"loads": "nloads", "efforts": "inputs"},
     "kl_output_tolerance_stack": {"o": "one", "dims": "n", "tolerances": "n",
                                   "worst": "out", "rss": "out"},
+    "kl_add_load": {"load": "one"},
+    "kl_model_load": {"load": "out"},
+    "kl_model_speed": {"input": "out", "speed": "out", "speed_fluctuation": "out"},
 }
 
 
@@ -269,7 +272,7 @@ class Arg:
       out_value    one int or double the function fills
       out_array    a fixed array the function fills (double xy[2])
       inputs_out   double *, one per input, filled
-      struct_out   one sized struct filled"""
+      struct_out   one struct filled (a sized one, or "out" in POINTERS)"""
 
     def __init__(self, kind, name, params, ctype=None, length=None, enum=None,
                  struct=None, const=False, optional=False, count=None):
@@ -365,7 +368,8 @@ class Binding:
                 self.args.append(Arg("array_in", p.name, [p], ctype=p.base, struct=struct,
                                      count=role))
             elif struct is not None and p.pointers == 1 and not struct.reports_error and \
-                    (struct.sized or (role == "one" and p.const)):
+                    (struct.sized or (role == "one" and p.const) or
+                     (role == "out" and not p.const)):
                 if k == 0 and p.const:
                     self.owner = struct
                 self.args.append(Arg("struct_in" if p.const else "struct_out", p.name,
@@ -1000,7 +1004,8 @@ def octave_wrapper(header, b):
             call_args.append("&" + n)
         elif a.kind == "struct_out":
             lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
-            lines.append("  %s.size = sizeof %s;" % (n, n))
+            if a.struct.sized:
+                lines.append("  %s.size = sizeof %s;" % (n, n))
             call_args.append("&" + n)
             outs.append("octave_value(to_octave(%s))" % n)
         elif a.kind == "out_value":

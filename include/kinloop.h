@@ -1033,6 +1033,54 @@ KL_API int kl_cycle_table(kl_solver *s, const kl_cycle *c, int nloads,
                           const kl_load *loads, double *rows, size_t cap,
                           int *rows_done);
 
+/* Loads and the working speed recorded in the model: what the machine
+ * works against and how fast it runs, model document data for tools (the
+ * model file's load and speed statements), set before finalize and
+ * readable at any time. The force stage and the cycle figures take their
+ * loads and motion as arguments: these change no result by themselves. */
+
+/**
+ * Records a load in the model, of the kind kl_solve_forces takes: a force
+ * at a point (global frame) or a torque on a link, in the model's force unit
+ * (mass x length / time^2; its torque times the length unit). Returns the
+ * load's index (0, 1, ... in the order recorded), or KL_EINVAL (NULL model
+ * or load), KL_EKIND (a kind neither force nor torque), KL_EID (no
+ * such point or link), KL_ENONFINITE, KL_ESTATE (finalized), KL_ENOMEM. On
+ * failure the model is unchanged. Allocates (the model's load list).
+ */
+KL_API int kl_add_load(kl_model *m, const kl_load *load);
+/** The number of loads the model records, or KL_EINVAL for NULL. */
+KL_API int kl_model_load_count(const kl_model *m);
+/** The recorded load `index` into `*load`. Returns KL_OK, KL_EID (no such
+ * load), KL_EINVAL (NULL). */
+KL_API int kl_model_load(const kl_model *m, int index, kl_load *load);
+/**
+ * Records the working speed: input `input` driven at the constant `speed`
+ * (rad or length per time unit, any sign; 0 gives the quasi-static
+ * cycle), and the coefficient of speed fluctuation Cs the flywheel is
+ * sized for (`speed_fluctuation` >= 0; 0 leaves the flywheel out). A later
+ * call replaces it. Returns KL_OK, KL_EID (no such input), KL_ENONFINITE,
+ * KL_EINVAL (a negative speed_fluctuation, or NULL), KL_ESTATE
+ * (finalized). Never allocates.
+ */
+KL_API int kl_model_set_speed(kl_model *m, int input, double speed,
+                              double speed_fluctuation);
+/** The recorded working speed into `input`, `speed` and
+ * `speed_fluctuation` (each may be NULL). Returns KL_OK, KL_EID (none
+ * recorded), KL_EINVAL (NULL model). */
+KL_API int kl_model_speed(const kl_model *m, int *input, double *speed,
+                          double *speed_fluctuation);
+/**
+ * The model's working cycle, for kl_cycle_summarize and kl_cycle_table:
+ * kl_cycle_default's values, with the input, speed and speed fluctuation
+ * of the working speed (kl_model_set_speed), and the range and steps of
+ * the sweep settings (kl_model_set_sweep) when they sweep that input. Set
+ * `c->size` first (kl_cycle_default sets it); fields past it are left as
+ * they are. Returns KL_OK, KL_EID (no working speed recorded), KL_EINVAL
+ * (NULL, or a size too small). Never allocates.
+ */
+KL_API int kl_model_cycle(const kl_model *m, kl_cycle *c);
+
 /* ------------------------------------------------------------------------
  * Kinematic (influence) coefficients: derivatives of the position with
  * respect to the inputs, the velocity ratios and their rates of change.

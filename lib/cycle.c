@@ -48,6 +48,25 @@ void kl_cycle_default(kl_cycle *c) {
   c->speed_fluctuation = 0.0;
 }
 
+int kl_model_cycle(const kl_model *m, kl_cycle *c) {
+  kl_cycle full;
+  if (m == NULL || c == NULL || c->size < sizeof c->size)
+    return KL_EINVAL;
+  if (!m->has_speed)
+    return KL_EID;
+  kl_cycle_default(&full);
+  full.input = m->speed_input;
+  full.speed = m->speed;
+  full.speed_fluctuation = m->speed_fluctuation;
+  if (m->has_sweep && m->sweep.input == m->speed_input) {
+    full.from = m->sweep.from;
+    full.to = m->sweep.to;
+    full.steps = m->sweep.steps;
+  }
+  kli_copy_sized(c, &full, sizeof full);
+  return KL_OK;
+}
+
 int kl_cycle_columns(const kl_model *m) {
   if (m == NULL)
     return KL_EINVAL;

@@ -1,6 +1,7 @@
 /*
  * model.c - building a model: links, joints, points, inputs and registered
- * loops, each checked as it is added; and reading the record back.
+ * loops, each checked as it is added, and its document data (units,
+ * sketch, sweep, masses, gravity, loads, speed); and reading it back.
  */
 #include <limits.h>
 #include <math.h>
@@ -68,6 +69,7 @@ static void destroy(kl_model *m) {
   kli_free(&a, m->inputs, (size_t)m->cap_inputs * sizeof *m->inputs);
   kli_free(&a, m->reg_joints, (size_t)m->cap_reg_joints * sizeof(int));
   kli_free(&a, m->reg_start, (size_t)m->cap_reg_start * sizeof(int));
+  kli_free(&a, m->loads, (size_t)m->cap_loads * sizeof *m->loads);
   kli_lookup_free(&a, &m->link_names);
   kli_lookup_free(&a, &m->joint_names);
   kli_lookup_free(&a, &m->point_names);
@@ -816,6 +818,119 @@ int kl_model_redundancy(const kl_model *m) {
   return m == NULL ? KL_EINVAL : m->redundancy;
 }
 
+/* ---- loads and the working speed ---- */
+
+int kli_check_load_list(const kl_model *m, char *error, int nloads,
+                        const kl_load *loads, const char *stage) {
+  char label[64];
+  int k;
+  if (nloads < 0 || (nloads > 0 && loads == NULL))
+    return kli_fail(error, KL_EINVAL,
+                    "%s: %d loads%s", stage, nloads,
+                    nloads < 0 ? "; the count is at least 0"
+                               : " but the loads array is NULL");
+  for (k = 0; k < nloads; k++) {
+    const kl_load *l = &loads[k];
+    if (l->kind == KL_LOAD_FORCE) {
+      if (l->id < 0 || l->id >= m->npoints)
+        return kli_fail(error, KL_EID,
+                        "%s: load %d acts at point %d, which does not exist",
+                        stage, k, l->id);
+      if (!isfinite(l->fx) || !isfinite(l->fy))
+        return kli_fail(error, KL_ENONFINITE,
+                        "%s: load %d at %s is NaN or infinite", stage, k,
+                        kli_point_label(m, l->id, label, sizeof label));
+    } else if (l->kind == KL_LOAD_TORQUE) {
+      if (l->id < 0 || l->id >= m->nlinks)
+        return kli_fail(error, KL_EID,
+                        "%s: load %d acts on link %d, which does not exist",
+                        stage, k, l->id);
+      if (!isfinite(l->torque))
+        return kli_fail(error, KL_ENONFINITE,
+                        "%s: the torque of load %d on %s is NaN or infinite",
+                        stage, k, kli_link_label(m, l->id, label, sizeof label));
+    } else {
+      return kli_fail(error, KL_EKIND,
+                      "%s: load %d has kind %d, neither force nor torque",
+                      stage, k, l->kind);
+    }
+  }
+  return KL_OK;
+}
+
+int kl_add_load(kl_model *m, const kl_load *load) {
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "add load")) != KL_OK)
+    return st;
+  if (load == NULL)
+    return kli_fail(m->error, KL_EINVAL, "add load: no load (NULL)");
+  if ((st = kli_check_load_list(m, m->error, 1, load, "add load")) != KL_OK)
+    return st;
+  if (kli_reserve(&m->alloc, (void **)&m->loads, &m->cap_loads, m->nloads + 1,
+                  sizeof *m->loads) != KL_OK)
+    return kli_fail(m->error, KL_ENOMEM, "add load: out of memory");
+  m->loads[m->nloads] = *load;
+  return m->nloads++;
+}
+
+int kl_model_load_count(const kl_model *m) {
+  return m == NULL ? KL_EINVAL : m->nloads;
+}
+
+int kl_model_load(const kl_model *m, int index, kl_load *load) {
+  if (m == NULL || load == NULL)
+    return KL_EINVAL;
+  if (index < 0 || index >= m->nloads)
+    return KL_EID;
+  *load = m->loads[index];
+  return KL_OK;
+}
+
+int kl_model_set_speed(kl_model *m, int input, double speed,
+                       double speed_fluctuation) {
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set speed")) != KL_OK)
+    return st;
+  if (input < 0 || input >= m->ninputs)
+    return kli_fail(m->error, KL_EID,
+                    "set speed: input %d does not exist (%d inputs so far)",
+                    input, m->ninputs);
+  if (!isfinite(speed) || !isfinite(speed_fluctuation))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "set speed: the speed (%g) or its fluctuation (%g) is NaN "
+                    "or infinite",
+                    speed, speed_fluctuation);
+  if (speed_fluctuation < 0.0)
+    return kli_fail(m->error, KL_EINVAL,
+                    "set speed: the coefficient of speed fluctuation is %g; "
+                    "it is at least 0 (0 leaves the flywheel out)",
+                    speed_fluctuation);
+  m->has_speed = 1;
+  m->speed_input = input;
+  m->speed = speed;
+  m->speed_fluctuation = speed_fluctuation;
+  return KL_OK;
+}
+
+int kl_model_speed(const kl_model *m, int *input, double *speed,
+                   double *speed_fluctuation) {
+  if (m == NULL)
+    return KL_EINVAL;
+  if (!m->has_speed)
+    return KL_EID;
+  if (input != NULL)
+    *input = m->speed_input;
+  if (speed != NULL)
+    *speed = m->speed;
+  if (speed_fluctuation != NULL)
+    *speed_fluctuation = m->speed_fluctuation;
+  return KL_OK;
+}
+
 /* Duplicates an array of `cap` elements of `elem` bytes; 1 if done. */
 static int copy_array(const kli_allocator *a, void **to, int *to_cap,
                       const void *from, int cap, size_t elem) {
@@ -845,6 +960,10 @@ kl_model *kli_model_copy(const kl_model *src) {
   m->gravity[0] = src->gravity[0];
   m->gravity[1] = src->gravity[1];
   m->redundancy = src->redundancy;
+  m->has_speed = src->has_speed;
+  m->speed_input = src->speed_input;
+  m->speed = src->speed;
+  m->speed_fluctuation = src->speed_fluctuation;
   ok = copy_array(&m->alloc, (void **)&m->links, &m->cap_links, src->links,
                   src->cap_links, sizeof *m->links) &&
        copy_array(&m->alloc, (void **)&m->joints, &m->cap_joints, src->joints,
@@ -856,7 +975,9 @@ kl_model *kli_model_copy(const kl_model *src) {
        copy_array(&m->alloc, (void **)&m->reg_joints, &m->cap_reg_joints,
                   src->reg_joints, src->cap_reg_joints, sizeof(int)) &&
        copy_array(&m->alloc, (void **)&m->reg_start, &m->cap_reg_start,
-                  src->reg_start, src->cap_reg_start, sizeof(int));
+                  src->reg_start, src->cap_reg_start, sizeof(int)) &&
+       copy_array(&m->alloc, (void **)&m->loads, &m->cap_loads, src->loads,
+                  src->cap_loads, sizeof *m->loads);
   if (ok) {
     m->nlinks = src->nlinks;
     m->njoints = src->njoints;
@@ -864,6 +985,7 @@ kl_model *kli_model_copy(const kl_model *src) {
     m->ninputs = src->ninputs;
     m->nreg_joints = src->nreg_joints;
     m->nreg_loops = src->nreg_loops;
+    m->nloads = src->nloads;
     /* the names are src's until copied: none first, then each */
     for (i = 0; i < m->nlinks; i++)
       m->links[i].name = NULL;

@@ -207,6 +207,12 @@ struct kl_model {
   int has_sweep;
   double gravity[2];
   int redundancy; /* constraints declared redundant */
+  /* the loads and the working speed recorded for tools (kl_add_load,
+   * kl_model_set_speed) */
+  kl_load *loads;
+  int nloads, cap_loads;
+  int has_speed, speed_input;
+  double speed, speed_fluctuation;
 
   int finalized;
   kli_topology topo;
@@ -234,11 +240,16 @@ int kli_loop_links(const kl_model *m, int n, const int *joints,
                    int *links_after);
 /* 1 for prismatic and slot joints. */
 int kli_is_sliding(int kind);
+/* KL_OK when every load of loads[0..nloads) names a point (a force) or a
+ * link (a torque) of m and holds finite numbers; else its status, with a
+ * message naming `stage` and the load written into `error` (may be NULL). */
+int kli_check_load_list(const kl_model *m, char *error, int nloads,
+                        const kl_load *loads, const char *stage);
 /* The input that drives `joint`, or -1. */
 int kli_input_of(const kl_model *m, int joint);
 /* An unfinalized copy of m's record (links, joints, points, inputs,
  * registered loops, names, units, sketch, sweep, mass properties,
- * gravity, redundancy), with m's allocator;
+ * gravity, redundancy, loads, working speed), with m's allocator;
  * NULL when memory runs out. */
 kl_model *kli_model_copy(const kl_model *m);
 /* A solver or study made from m holds it: m is freed when the last holder

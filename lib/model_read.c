@@ -2,6 +2,7 @@
  * model_read.c - the model-file reader: any bytes in, a finalized model or
  * an error at a line and column out; each statement calls its builder.
  */
+#include <math.h>
 #include <string.h>
 
 #include "tokens.h"
@@ -207,6 +208,145 @@ static int read_sweep(model_reader *mr) {
   return st == KL_OK ? KL_OK : builder_failed(mr, st, 1);
 }
 
+/* ---- the force stage's statements: mass properties, gravity, loads, the
+ * working speed, the declared redundancy ---- */
+
+/* The column where the next token starts, the reader left before it. */
+static int next_column(kli_reader *r, int *column) {
+  kli_token t;
+  size_t save = r->pos;
+  int st = kli_next_token(r, &t);
+  r->pos = save;
+  *column = t.column;
+  return st;
+}
+
+/* mass LINK M at X Y inertia J */
+static int read_mass(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  int st, link, link_column, mass_column, inertia_column;
+  double mass, x, y, inertia;
+  if ((st = next_column(r, &link_column)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_LINK, "the link with the mass", &link)) !=
+          KL_OK ||
+      (st = kli_expect_number_at(r, "the mass", &mass, &mass_column)) !=
+          KL_OK ||
+      (st = kli_expect_keyword(r, "at", "before the centre of mass")) !=
+          KL_OK ||
+      (st = kli_expect_number(r, "the centre of mass's x", &x)) != KL_OK ||
+      (st = kli_expect_number(r, "the centre of mass's y", &y)) != KL_OK ||
+      (st = kli_expect_keyword(r, "inertia", "after the centre of mass")) !=
+          KL_OK ||
+      (st = kli_expect_number_at(r, "the moment of inertia", &inertia,
+                                 &inertia_column)) != KL_OK ||
+      (st = kli_expect_end(r)) != KL_OK)
+    return st;
+  st = kl_set_link_mass(mr->m, link, mass, x, y, inertia);
+  return st == KL_OK ? KL_OK
+                     : builder_failed(mr, st,
+                                      st == KL_EINVAL ? (mass < 0.0 ? mass_column
+                                                                    : inertia_column)
+                                                      : link_column);
+}
+
+/* gravity GX GY */
+static int read_gravity(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  double gx, gy;
+  int st;
+  if ((st = kli_expect_number(r, "gravity's x", &gx)) != KL_OK ||
+      (st = kli_expect_number(r, "gravity's y", &gy)) != KL_OK ||
+      (st = kli_expect_end(r)) != KL_OK)
+    return st;
+  st = kl_model_set_gravity(mr->m, gx, gy);
+  return st == KL_OK ? KL_OK : builder_failed(mr, st, 1);
+}
+
+/* load force POINT FX FY | load torque LINK T */
+static int read_load(model_reader *mr) {
+  kl_load l;
+  int st = kli_expect_load(&mr->r, &l);
+  if (st != KL_OK)
+    return st;
+  st = kl_add_load(mr->m, &l);
+  return st >= 0 ? KL_OK : builder_failed(mr, st, 1);
+}
+
+/* speed JOINT W [fluctuation CS]: W in the file's angle unit (or length
+ * unit, for a sliding input) per time unit */
+static int read_speed(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  kli_token t;
+  int st, joint, joint_column, input, cs_column = 1;
+  double speed, cs = 0.0;
+  if ((st = next_column(r, &joint_column)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_JOINT, "the driven input's joint",
+                           &joint)) != KL_OK ||
+      (st = kli_expect_number(r, "the working speed", &speed)) != KL_OK ||
+      (st = kli_next_token(r, &t)) != KL_OK)
+    return st;
+  if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, "fluctuation") == 0) {
+    if ((st = kli_expect_number_at(r, "the coefficient of speed fluctuation",
+                                   &cs, &cs_column)) != KL_OK ||
+        (st = kli_expect_end(r)) != KL_OK)
+      return st;
+  } else if (t.kind != KLI_TOKEN_END) {
+    return kli_read_fail(r, KL_ESYNTAX, t.column,
+                         "expected 'fluctuation' or the end of the line after "
+                         "the working speed, found '%.60s'",
+                         kli_token_shown(&t));
+  }
+  input = kli_input_of(mr->m, joint);
+  if (input < 0) {
+    char label[96];
+    return kli_read_fail(r, KL_EKIND, joint_column,
+                         "%s is not an input; declare it with 'input' before "
+                         "its working speed",
+                         kli_joint_label(mr->m, joint, label, sizeof label));
+  }
+  if (mr->m->joints[joint].kind == KL_JOINT_REVOLUTE)
+    speed = kli_angle_in(r, speed);
+  st = kl_model_set_speed(mr->m, input, speed, cs);
+  return st == KL_OK ? KL_OK : builder_failed(mr, st, cs_column);
+}
+
+/* redundant N: N >= 0 constraints repeat what the others impose */
+static int read_redundant(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  double n;
+  int st, column;
+  if ((st = kli_expect_number_at(r, "the number of redundant constraints", &n,
+                                 &column)) != KL_OK ||
+      (st = kli_expect_end(r)) != KL_OK)
+    return st;
+  if (n != floor(n) || n > 1e9)
+    return kli_read_fail(r, KL_ESYNTAX, column,
+                         "expected a whole number (the number of redundant "
+                         "constraints), found %g",
+                         n);
+  st = kl_model_set_redundancy(mr->m, (int)fmax(n, -1e9));
+  return st == KL_OK ? KL_OK : builder_failed(mr, st, column);
+}
+
+typedef int (*statement_reader)(model_reader *mr);
+
+/* The reader of a force-stage statement word, or NULL. */
+static statement_reader force_statement(const char *word) {
+  static const struct {
+    const char *word;
+    statement_reader read;
+  } table[] = {{"mass", read_mass},
+               {"gravity", read_gravity},
+               {"load", read_load},
+               {"speed", read_speed},
+               {"redundant", read_redundant}};
+  size_t i;
+  for (i = 0; i < sizeof table / sizeof table[0]; i++)
+    if (strcmp(word, table[i].word) == 0)
+      return table[i].read;
+  return NULL;
+}
+
 static int read_header(model_reader *mr) {
   kli_reader *r = &mr->r;
   double version;
@@ -258,11 +398,13 @@ static int read_statement(model_reader *mr, const kli_token *key) {
     return read_sketch(mr);
   if (strcmp(k, "sweep") == 0)
     return read_sweep(mr);
+  if (force_statement(k) != NULL)
+    return force_statement(k)(mr);
   return kli_read_fail(
       r, KL_ESYNTAX, key->column,
       "unknown statement '%.60s' (expected units, link, "
-      "revolute, prismatic, slot, point, input, loop, sketch or "
-      "sweep)",
+      "revolute, prismatic, slot, point, input, loop, sketch, "
+      "sweep, mass, gravity, load, speed or redundant)",
       k);
 }
 

@@ -64,8 +64,56 @@ static void put_joint_ref(sink *o, const kl_model *m, int joint) {
     put(o, " @%d", joint);
 }
 
+static void put_point_ref(sink *o, const kl_model *m, int point) {
+  if (m->points[point].name != NULL)
+    put_name(o, m->points[point].name);
+  else
+    put(o, " @%d", point);
+}
+
 static double angle_out(const kl_model *m, double v) {
   return m->angle_unit == KL_ANGLE_DEG ? v * (180.0 / KLI_PI) : v;
+}
+
+/* The force stage's statements: mass properties, gravity, loads, the
+ * working speed, the declared redundancy. */
+static void write_force_data(const kl_model *m, sink *o) {
+  int i;
+  for (i = 1; i < m->nlinks; i++)
+    if (m->links[i].has_mass) {
+      const kli_link *l = &m->links[i];
+      put(o, "mass");
+      put_link_ref(o, m, i);
+      put(o, " %.17g at %.17g %.17g inertia %.17g\n", l->mass, l->centre[0],
+          l->centre[1], l->inertia);
+    }
+  if (m->gravity[0] != 0.0 || m->gravity[1] != 0.0)
+    put(o, "gravity %.17g %.17g\n", m->gravity[0], m->gravity[1]);
+  for (i = 0; i < m->nloads; i++) {
+    const kl_load *l = &m->loads[i];
+    if (l->kind == KL_LOAD_FORCE) {
+      put(o, "load force");
+      put_point_ref(o, m, l->id);
+      put(o, " %.17g %.17g\n", l->fx, l->fy);
+    } else {
+      put(o, "load torque");
+      put_link_ref(o, m, l->id);
+      put(o, " %.17g\n", l->torque);
+    }
+  }
+  if (m->has_speed) {
+    int joint = m->inputs[m->speed_input];
+    put(o, "speed");
+    put_joint_ref(o, m, joint);
+    put(o, " %.17g", m->joints[joint].kind == KL_JOINT_REVOLUTE
+                         ? angle_out(m, m->speed)
+                         : m->speed);
+    if (m->speed_fluctuation > 0.0)
+      put(o, " fluctuation %.17g", m->speed_fluctuation);
+    put(o, "\n");
+  }
+  if (m->redundancy > 0)
+    put(o, "redundant %d\n", m->redundancy);
 }
 
 static void write_model(const kl_model *m, sink *o) {
@@ -129,6 +177,7 @@ static void write_model(const kl_model *m, sink *o) {
         angle ? angle_out(m, m->sweep.from) : m->sweep.from,
         angle ? angle_out(m, m->sweep.to) : m->sweep.to, m->sweep.steps);
   }
+  write_force_data(m, o);
 }
 
 int kl_model_write(const kl_model *m, char *buf, size_t cap, size_t *needed) {

@@ -437,41 +437,7 @@ void kli_state_back(kl_solver *s) {
 
 int kli_check_loads(kl_solver *s, int nloads, const kl_load *loads,
                     const char *stage) {
-  const kl_model *m = s->model;
-  char label[64];
-  int k;
-  if (nloads < 0 || (nloads > 0 && loads == NULL))
-    return kli_fail(s->error, KL_EINVAL,
-                    "%s: %d loads%s", stage, nloads,
-                    nloads < 0 ? "; the count is at least 0"
-                               : " but the loads array is NULL");
-  for (k = 0; k < nloads; k++) {
-    const kl_load *l = &loads[k];
-    if (l->kind == KL_LOAD_FORCE) {
-      if (l->id < 0 || l->id >= m->npoints)
-        return kli_fail(s->error, KL_EID,
-                        "%s: load %d acts at point %d, which does not exist",
-                        stage, k, l->id);
-      if (!isfinite(l->fx) || !isfinite(l->fy))
-        return kli_fail(s->error, KL_ENONFINITE,
-                        "%s: load %d at %s is NaN or infinite", stage, k,
-                        kli_point_label(m, l->id, label, sizeof label));
-    } else if (l->kind == KL_LOAD_TORQUE) {
-      if (l->id < 0 || l->id >= m->nlinks)
-        return kli_fail(s->error, KL_EID,
-                        "%s: load %d acts on link %d, which does not exist",
-                        stage, k, l->id);
-      if (!isfinite(l->torque))
-        return kli_fail(s->error, KL_ENONFINITE,
-                        "%s: the torque of load %d on %s is NaN or infinite",
-                        stage, k, kli_link_label(m, l->id, label, sizeof label));
-    } else {
-      return kli_fail(s->error, KL_EKIND,
-                      "%s: load %d has kind %d, neither force nor torque",
-                      stage, k, l->kind);
-    }
-  }
-  return KL_OK;
+  return kli_check_load_list(s->model, s->error, nloads, loads, stage);
 }
 
 /* A sketch moves the state off the solved position. */

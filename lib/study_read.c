@@ -215,30 +215,9 @@ static int read_grid(study_reader *sr) {
 /* load force POINT FX FY | load torque LINK T */
 static int read_load(study_reader *sr) {
   kl_load l;
-  kli_token t;
   int st;
-  memset(&l, 0, sizeof l);
   if ((st = study_needs_model(sr, 1)) != KL_OK ||
-      (st = kli_next_token(&sr->r, &t)) != KL_OK)
-    return st;
-  if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, "force") == 0) {
-    l.kind = KL_LOAD_FORCE;
-    if ((st = kli_expect_ref(&sr->r, KLI_REF_POINT, "the loaded point",
-                             &l.id)) ||
-        (st = kli_expect_number(&sr->r, "the force's x", &l.fx)) != KL_OK ||
-        (st = kli_expect_number(&sr->r, "the force's y", &l.fy)) != KL_OK)
-      return st;
-  } else if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, "torque") == 0) {
-    l.kind = KL_LOAD_TORQUE;
-    if ((st = kli_expect_ref(&sr->r, KLI_REF_LINK, "the loaded link", &l.id)) ||
-        (st = kli_expect_number(&sr->r, "the torque", &l.torque)) != KL_OK)
-      return st;
-  } else {
-    return kli_read_fail(&sr->r, KL_ESYNTAX, t.column,
-                         "expected 'force' or 'torque', found '%.60s'",
-                         kli_token_shown(&t));
-  }
-  if ((st = kli_expect_end(&sr->r)) != KL_OK)
+      (st = kli_expect_load(&sr->r, &l)) != KL_OK)
     return st;
   if (kli_reserve(&sr->st->model->alloc, (void **)&sr->st->loads,
                   &sr->st->cap_loads, sr->st->nloads + 1, sizeof l) != KL_OK)

@@ -286,6 +286,33 @@ double kli_angle_in(const kli_reader *r, double v) {
   return r->angle_deg ? v * (KLI_PI / 180.0) : v;
 }
 
+int kli_expect_load(kli_reader *r, kl_load *l) {
+  kli_token t;
+  int st;
+  memset(l, 0, sizeof *l);
+  if ((st = kli_next_token(r, &t)) != KL_OK)
+    return st;
+  if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, "force") == 0) {
+    l->kind = KL_LOAD_FORCE;
+    if ((st = kli_expect_ref(r, KLI_REF_POINT, "the loaded point", &l->id)) !=
+            KL_OK ||
+        (st = kli_expect_number(r, "the force's x", &l->fx)) != KL_OK ||
+        (st = kli_expect_number(r, "the force's y", &l->fy)) != KL_OK)
+      return st;
+  } else if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, "torque") == 0) {
+    l->kind = KL_LOAD_TORQUE;
+    if ((st = kli_expect_ref(r, KLI_REF_LINK, "the loaded link", &l->id)) !=
+            KL_OK ||
+        (st = kli_expect_number(r, "the torque", &l->torque)) != KL_OK)
+      return st;
+  } else {
+    return kli_read_fail(r, KL_ESYNTAX, t.column,
+                         "expected 'force' or 'torque', found '%.60s'",
+                         kli_token_shown(&t));
+  }
+  return kli_expect_end(r);
+}
+
 /* JOINT from V to V steps N, JOINT being an input's joint: into *sw, the
  * range in API units. */
 int kli_expect_sweep(kli_reader *r, kl_sweep_settings *sw) {

@@ -88,6 +88,9 @@ int kli_expect_new_name(kli_reader *r, const char *what, kli_token *t,
 int kli_expect_ref(kli_reader *r, int kind, const char *what, int *id);
 /* An angle of the text in radians. */
 double kli_angle_in(const kli_reader *r, double v);
+/* force POINT FX FY | torque LINK T, and the end of the line: into *l
+ * (the 'load' statement of both formats, after its first word). */
+int kli_expect_load(kli_reader *r, kl_load *l);
 /* JOINT from V to V steps N, JOINT an input's joint: into *sw, the range
  * in API units (the 'sweep' statement of both formats). */
 int kli_expect_sweep(kli_reader *r, kl_sweep_settings *sw);

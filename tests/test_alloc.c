@@ -13,7 +13,8 @@
 #include "suite.h"
 #include "support.h"
 
-/* Builds a six-bar with a slider, a point and named links, step by step;
+/* Builds a six-bar with a slider, a point, named links and recorded loads,
+ * step by step;
  * returns the first failing status, or KL_OK with the model finalized. */
 static int build_steps(kl_model *m) {
   int st, crank, coupler, rocker, rod, block;
@@ -36,6 +37,19 @@ static int build_steps(kl_model *m) {
   if ((st = kl_add_point(m, coupler, 100, 40, "tucker")) < 0 ||
       (st = kl_add_input(m, j0)) < 0 || (st = kl_add_loop(m, 4, loop)) < 0)
     return st;
+  {
+    kl_load loads[2];
+    memset(loads, 0, sizeof loads);
+    loads[0].kind = KL_LOAD_FORCE;
+    loads[0].id = 0;
+    loads[0].fy = -15.0;
+    loads[1].kind = KL_LOAD_TORQUE;
+    loads[1].id = rocker;
+    loads[1].torque = 800.0;
+    if ((st = kl_add_load(m, &loads[0])) < 0 ||
+        (st = kl_add_load(m, &loads[1])) < 0)
+      return st;
+  }
   return KL_OK;
 }
 

@@ -966,6 +966,95 @@ START_TEST(bad_mass_properties) {
 }
 END_TEST
 
+/* Loads and the working speed recorded in the model: read back as given,
+ * refused with their own status (the model unchanged), and the working
+ * cycle composed from the speed and the sweep settings. */
+START_TEST(recorded_loads_and_working_speed) {
+  kl_model *m = kl_model_new();
+  kl_load bad, back;
+  kl_sweep_settings sw;
+  kl_cycle c, direct;
+  double speed, cs;
+  int link, joint, point, input;
+  link = kl_add_link(m, "arm");
+  joint = kl_add_revolute(m, KL_GROUND, 0, 0, link, 0, 0);
+  point = kl_add_point(m, link, 50, 0, "tip");
+  ck_assert_int_eq(kl_model_load_count(m), 0);
+  memset(&bad, 0, sizeof bad);
+  bad.kind = KL_LOAD_FORCE;
+  bad.id = point;
+  bad.fy = -3.0;
+  ck_assert_int_eq(kl_add_load(m, &bad), 0);
+  bad.kind = KL_LOAD_TORQUE;
+  bad.id = link;
+  bad.torque = 7.0;
+  ck_assert_int_eq(kl_add_load(m, &bad), 1);
+  /* refusals, each its own status, the list unchanged */
+  bad.id = 5;
+  ck_assert_int_eq(kl_add_load(m, &bad), KL_EID);
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "link 5"));
+  bad.id = link;
+  bad.torque = NAN;
+  ck_assert_int_eq(kl_add_load(m, &bad), KL_ENONFINITE);
+  bad.kind = 3;
+  ck_assert_int_eq(kl_add_load(m, &bad), KL_EKIND);
+  bad.kind = KL_LOAD_FORCE;
+  bad.id = 1;
+  ck_assert_int_eq(kl_add_load(m, &bad), KL_EID);
+  ck_assert_int_eq(kl_add_load(m, NULL), KL_EINVAL);
+  ck_assert_int_eq(kl_add_load(NULL, &bad), KL_EINVAL);
+  ck_assert_int_eq(kl_model_load_count(m), 2);
+  ck_assert_int_eq(kl_model_load(m, 0, &back), KL_OK);
+  ck_assert(back.kind == KL_LOAD_FORCE && back.id == point && back.fy == -3.0);
+  ck_assert_int_eq(kl_model_load(m, 1, &back), KL_OK);
+  ck_assert(back.kind == KL_LOAD_TORQUE && back.torque == 7.0);
+  ck_assert_int_eq(kl_model_load(m, 2, &back), KL_EID);
+  ck_assert_int_eq(kl_model_load(m, -1, &back), KL_EID);
+  ck_assert_int_eq(kl_model_load(m, 0, NULL), KL_EINVAL);
+  ck_assert_int_eq(kl_model_load_count(NULL), KL_EINVAL);
+  /* the working speed */
+  kl_cycle_default(&c);
+  ck_assert_int_eq(kl_model_speed(m, &input, &speed, &cs), KL_EID);
+  ck_assert_int_eq(kl_model_cycle(m, &c), KL_EID);
+  ck_assert_int_eq(kl_model_set_speed(m, 0, 2.0, 0.0), KL_EID); /* no input yet */
+  kl_add_input(m, joint);
+  ck_assert_int_eq(kl_model_set_speed(m, 0, NAN, 0.0), KL_ENONFINITE);
+  ck_assert_int_eq(kl_model_set_speed(m, 0, 2.0, INFINITY), KL_ENONFINITE);
+  ck_assert_int_eq(kl_model_set_speed(m, 0, 2.0, -0.1), KL_EINVAL);
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "speed fluctuation"));
+  ck_assert_int_eq(kl_model_speed(m, NULL, NULL, NULL), KL_EID);
+  ck_assert_int_eq(kl_model_set_speed(m, 0, -12.5, 0.03), KL_OK);
+  ck_assert_int_eq(kl_model_speed(m, &input, &speed, &cs), KL_OK);
+  ck_assert(input == 0 && speed == -12.5 && cs == 0.03);
+  ck_assert_int_eq(kl_model_speed(m, NULL, NULL, NULL), KL_OK);
+  ck_assert_int_eq(kl_model_speed(NULL, &input, &speed, &cs), KL_EINVAL);
+  /* the cycle: the defaults' range without a sweep of that input, the
+   * sweep's with one */
+  ck_assert_int_eq(kl_model_cycle(m, &c), KL_OK);
+  kl_cycle_default(&direct);
+  ck_assert(c.input == 0 && c.speed == -12.5 && c.speed_fluctuation == 0.03);
+  ck_assert(c.from == direct.from && c.to == direct.to && c.steps == direct.steps);
+  sw.size = sizeof sw;
+  sw.input = 0;
+  sw.from = 1.0;
+  sw.to = 3.0;
+  sw.steps = 40;
+  kl_model_set_sweep(m, &sw);
+  ck_assert_int_eq(kl_model_cycle(m, &c), KL_OK);
+  ck_assert(c.from == 1.0 && c.to == 3.0 && c.steps == 40);
+  c.size = sizeof c.size;
+  ck_assert_int_eq(kl_model_cycle(m, &c), KL_OK); /* no field past size */
+  ck_assert_int_eq(kl_model_cycle(m, NULL), KL_EINVAL);
+  c.size = 0;
+  ck_assert_int_eq(kl_model_cycle(m, &c), KL_EINVAL);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  ck_assert_int_eq(kl_add_load(m, &back), KL_ESTATE);
+  ck_assert_int_eq(kl_model_set_speed(m, 0, 1.0, 0.0), KL_ESTATE);
+  ck_assert_int_eq(kl_model_load_count(m), 2);
+  kl_model_free(m);
+}
+END_TEST
+
 START_TEST(bad_loads_change_nothing) {
   machine mc = build_machine(MACHINE_FOURBAR, 1);
   kl_solver *s = machine_solver(&mc);
@@ -1114,6 +1203,7 @@ int main(void) {
   tcase_add_test(bad, forces_at_a_dead_point);
   tcase_add_test(bad, indeterminate_structure);
   tcase_add_test(bad, bad_mass_properties);
+  tcase_add_test(bad, recorded_loads_and_working_speed);
   tcase_add_test(bad, bad_loads_change_nothing);
   tcase_add_test(bad, bad_cycles_change_nothing);
   tcase_add_test(bad, failed_cycle_puts_the_state_back);

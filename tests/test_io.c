@@ -14,9 +14,11 @@
 #include "suite.h"
 #include "support.h"
 
-/* A model using every statement of the format: units, named and unnamed
- * links, joints and points, every joint kind, names needing quotes,
- * registered loops, sketches and sweep settings. Geometry chosen for the
+/* A model using every statement of the format but 'redundant' (see
+ * redundancy_reads_back): units, named and unnamed links, joints and
+ * points, every joint kind, names needing quotes, registered loops,
+ * sketches, sweep settings, mass properties, gravity, loads of both kinds
+ * (one at an unnamed point) and the working speed. Geometry chosen for the
  * test (it is only written and read, not solved): the Watt six-bar of
  * support.c, a rod driving a block on a slanted rail from its second
  * coupler, and a carrier pinned to its output rocker running in a slot. */
@@ -60,6 +62,29 @@ static kl_model *full_model(void) {
   sw.to = 2.0;
   sw.steps = 40;
   kl_model_set_sweep(m, &sw);
+  {
+    /* masses, loads and speed chosen for the test */
+    kl_load l;
+    kl_set_link_mass(m, 1, 0.25, 10.0, 0.0, 12.5);
+    kl_set_link_mass(m, 2, 1.0 / 3.0, 45.0, -2.0, 800.0);
+    kl_set_link_mass(m, 7, 0.0, 0.0, 0.0, 0.0); /* given, and massless */
+    kl_model_set_gravity(m, 0.1, -9810.0);
+    memset(&l, 0, sizeof l);
+    l.kind = KL_LOAD_FORCE;
+    l.id = 0;
+    l.fx = 12.0;
+    l.fy = -1e-3;
+    kl_add_load(m, &l);
+    l.id = 1; /* the unnamed point */
+    l.fx = -7.5;
+    kl_add_load(m, &l);
+    memset(&l, 0, sizeof l);
+    l.kind = KL_LOAD_TORQUE;
+    l.id = 8;
+    l.torque = 2.0 / 7.0;
+    kl_add_load(m, &l);
+    kl_model_set_speed(m, 0, 3.0, 0.04);
+  }
   return m;
 }
 
@@ -128,6 +153,37 @@ static void assert_same_model(const kl_model *a, const kl_model *b) {
     ck_assert_int_eq(kl_model_loop(b, i, jb, 16), n);
     for (k = 0; k < n; k++)
       ck_assert_int_eq(ja[k], jb[k]);
+  }
+  for (i = 0; i < kl_model_link_count(a); i++) {
+    double ma, mb, ca[2], cb[2], ia, ib;
+    kl_model_link_mass(a, i, &ma, ca, &ia);
+    kl_model_link_mass(b, i, &mb, cb, &ib);
+    ck_assert(ma == mb && ca[0] == cb[0] && ca[1] == cb[1] && ia == ib);
+  }
+  {
+    double ga[2], gb[2], wa, wb, csa, csb;
+    int ia, ib;
+    kl_model_gravity(a, ga);
+    kl_model_gravity(b, gb);
+    ck_assert(ga[0] == gb[0] && ga[1] == gb[1]);
+    ck_assert_int_eq(kl_model_load_count(a), kl_model_load_count(b));
+    for (i = 0; i < kl_model_load_count(a); i++) {
+      kl_load x, y;
+      kl_model_load(a, i, &x);
+      kl_model_load(b, i, &y);
+      ck_assert(x.kind == y.kind && x.id == y.id);
+      if (x.kind == KL_LOAD_FORCE)
+        ck_assert(x.fx == y.fx && x.fy == y.fy);
+      else
+        ck_assert(x.torque == y.torque);
+    }
+    ck_assert_int_eq(kl_model_speed(a, &ia, &wa, &csa), kl_model_speed(b, &ib, &wb, &csb));
+    if (kl_model_speed(a, NULL, NULL, NULL) == KL_OK) {
+      ck_assert_int_eq(ia, ib);
+      ck_assert_double_le(fabs(wa - wb), 1e-15 * fabs(wa));
+      ck_assert(csa == csb);
+    }
+    ck_assert_int_eq(kl_model_redundancy(a), kl_model_redundancy(b));
   }
   sa.size = sb.size = sizeof sa;
   ck_assert_int_eq(kl_model_sweep(a, &sa), kl_model_sweep(b, &sb));
@@ -208,6 +264,112 @@ START_TEST(a_read_model_solves_like_the_original) {
 }
 END_TEST
 
+/* The declared redundancy reads back too: a parallelogram with a third
+ * parallel crank (geometry chosen for the test), one constraint redundant. */
+START_TEST(redundancy_reads_back) {
+  static const char *text =
+      "kinloop-model 1\nlink crank\nlink middle\nlink third\nlink bar\n"
+      "revolute motor ground 0 0 crank 0 0\n"
+      "revolute - ground 50 0 middle 0 0\nrevolute - ground 100 0 third 0 0\n"
+      "revolute - crank 30 0 bar 0 0\nrevolute - middle 30 0 bar 50 0\n"
+      "revolute - third 30 0 bar 100 0\ninput motor\nredundant 1\n";
+  kl_io_error err;
+  kl_model *m, *back;
+  size_t len;
+  char *written;
+  err.size = sizeof err;
+  m = kl_model_read(text, strlen(text), &err);
+  ck_assert_msg(m != NULL, "%d:%d %s", err.line, err.column, err.message);
+  ck_assert_int_eq(kl_model_redundancy(m), 1);
+  ck_assert_int_eq(kl_model_dof(m), 1);
+  written = write_text(m, &len);
+  ck_assert_ptr_nonnull(strstr(written, "\nredundant 1\n"));
+  back = kl_model_read(written, len, &err);
+  ck_assert_ptr_nonnull(back);
+  assert_same_model(m, back);
+  kl_model_free(m);
+  kl_model_free(back);
+  free(written);
+}
+END_TEST
+
+/* The force statements mean what the calls they stand for mean: the cycle
+ * figures of a read model, with its recorded cycle and loads, are those of
+ * the same model built by calls, bit for bit (angles in radians: no
+ * conversion between the two). */
+START_TEST(force_statements_mean_their_calls) {
+  static const char *text =
+      "kinloop-model 1\nlink crank\nlink coupler\nlink rocker\n"
+      "revolute motor ground 0 0 crank 0 0\nrevolute a crank 40 0 coupler 0 0\n"
+      "revolute b coupler 120 0 rocker 80 0\nrevolute c rocker 0 0 ground 100 0\n"
+      "point tip coupler 60 30\ninput motor\n"
+      "sketch angle coupler 0.3\nsketch angle rocker 1.5\n"
+      "sweep motor from 0 to 6 steps 60\n"
+      "mass crank 0.2 at 20 0 inertia 30\nmass coupler 0.5 at 60 10 inertia 700\n"
+      "mass rocker 0.4 at 40 0 inertia 250\ngravity 0 -9810\n"
+      "load force tip 1500 -800\nload torque rocker 2e4\n"
+      "speed motor 8 fluctuation 0.04\n";
+  kl_model *read = kl_model_read(text, strlen(text), NULL), *built;
+  kl_solver *s, *t;
+  kl_cycle c, d;
+  kl_cycle_summary a, b;
+  kl_cycle_peak ja[4], jb[4];
+  kl_load loads[2], recorded[2];
+  double u = 0.0;
+  int k;
+  ck_assert_ptr_nonnull(read);
+  built = kl_model_new();
+  kl_add_link(built, "crank");
+  kl_add_link(built, "coupler");
+  kl_add_link(built, "rocker");
+  kl_add_revolute(built, 0, 0, 0, 1, 0, 0);
+  kl_add_revolute(built, 1, 40, 0, 2, 0, 0);
+  kl_add_revolute(built, 2, 120, 0, 3, 80, 0);
+  kl_add_revolute(built, 3, 0, 0, 0, 100, 0);
+  kl_add_point(built, 2, 60, 30, "tip");
+  kl_add_input(built, 0);
+  kl_set_link_mass(built, 1, 0.2, 20, 0, 30);
+  kl_set_link_mass(built, 2, 0.5, 60, 10, 700);
+  kl_set_link_mass(built, 3, 0.4, 40, 0, 250);
+  kl_model_set_gravity(built, 0, -9810);
+  ck_assert_int_eq(kl_model_finalize(built), KL_OK);
+  memset(loads, 0, sizeof loads);
+  loads[0].kind = KL_LOAD_FORCE;
+  loads[0].fx = 1500;
+  loads[0].fy = -800;
+  loads[1].kind = KL_LOAD_TORQUE;
+  loads[1].id = 3;
+  loads[1].torque = 2e4;
+  for (k = 0; k < 2; k++)
+    ck_assert_int_eq(kl_model_load(read, k, &recorded[k]), KL_OK);
+  kl_cycle_default(&c);
+  ck_assert_int_eq(kl_model_cycle(read, &c), KL_OK);
+  kl_cycle_default(&d);
+  d.to = 6;
+  d.steps = 60;
+  d.speed = 8;
+  d.speed_fluctuation = 0.04;
+  s = kl_solver_new(read);
+  t = kl_solver_new(built);
+  kl_set_link_angle(t, 2, 0.3);
+  kl_set_link_angle(t, 3, 1.5);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_position(t, &u), KL_OK);
+  a.size = b.size = sizeof a;
+  ck_assert_int_eq(kl_cycle_summarize(s, &c, 2, recorded, &a, NULL, ja), KL_OK);
+  ck_assert_int_eq(kl_cycle_summarize(t, &d, 2, loads, &b, NULL, jb), KL_OK);
+  ck_assert_int_eq(a.steps_done, 61);
+  ck_assert(a.flywheel_inertia == b.flywheel_inertia);
+  ck_assert(a.shaking_force.rms == b.shaking_force.rms);
+  for (k = 0; k < 4; k++)
+    ck_assert(ja[k].peak == jb[k].peak && ja[k].rms == jb[k].rms);
+  kl_solver_free(s);
+  kl_solver_free(t);
+  kl_model_free(read);
+  kl_model_free(built);
+}
+END_TEST
+
 static const char *good =
     "kinloop-model 1\n"
     "units length mm angle deg\n"
@@ -216,9 +378,15 @@ static const char *good =
     "revolute a crank 40 0 coupler 0 0\n"
     "revolute b coupler 120 0 rocker 80 0\n"
     "revolute c rocker 0 0 ground 100 0\n"
+    "point tip coupler 60 30\n"
     "input motor\n"
     "sketch angle coupler 17\n"
-    "sketch angle rocker 86\n";
+    "sketch angle rocker 86\n"
+    "mass crank 0.2 at 20 0 inertia 30\n"
+    "gravity 0 -9810\n"
+    "load force tip 1500 -800\n"
+    "load torque coupler 2e4\n"
+    "speed motor 360 fluctuation 0.05\n";
 
 typedef struct {
   const char *text;
@@ -279,6 +447,49 @@ static const bad_case bad_cases[] = {
      KL_EDISCONNECTED, 0, 0, "link 2 'b' is not connected"},
     {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\n", KL_EDOF, 0, 0,
      "1 degree of freedom but 0 inputs"},
+    /* the force stage's statements: each bad value its own status, where
+     * it stands */
+    {"kinloop-model 1\nlink a\nmass a -1 at 0 0 inertia 1\n", KL_EINVAL, 3, 8,
+     "negative mass"},
+    {"kinloop-model 1\nlink a\nmass a 1 at 0 0 inertia -0.5\n", KL_EINVAL, 3,
+     25, "negative moment of inertia"},
+    {"kinloop-model 1\nlink a\nmass ground 1 at 0 0 inertia 1\n", KL_EKIND, 3,
+     6, "ground"},
+    {"kinloop-model 1\nlink a\nmass b 1 at 0 0 inertia 1\n", KL_ESYNTAX, 3, 6,
+     "no link is named 'b'"},
+    {"kinloop-model 1\nlink a\nmass a 1 0 0 inertia 1\n", KL_ESYNTAX, 3, 10,
+     "expected 'at'"},
+    {"kinloop-model 1\nlink a\nmass a 1 at 0 0\n", KL_ESYNTAX, 3, 16,
+     "expected 'inertia'"},
+    {"kinloop-model 1\nlink a\nmass a 1 at 0 0 inertia 1e999\n", KL_ESYNTAX, 3,
+     25, "out of range"},
+    {"kinloop-model 1\ngravity 0\n", KL_ESYNTAX, 2, 10, "gravity's y"},
+    {"kinloop-model 1\ngravity 0 -9.81 down\n", KL_ESYNTAX, 2, 17,
+     "expected the end"},
+    {"kinloop-model 1\nlink a\nload push a 1\n", KL_ESYNTAX, 3, 6,
+     "'force' or 'torque'"},
+    {"kinloop-model 1\nlink a\nload force a 1 2\n", KL_ESYNTAX, 3, 12,
+     "no point is named 'a'"},
+    {"kinloop-model 1\nlink a\npoint p a 1 0\nload force p 1\n", KL_ESYNTAX, 4,
+     15, "the force's y"},
+    {"kinloop-model 1\nlink a\nload torque a nan\n", KL_ESYNTAX, 3, 15,
+     "expected a number (the torque)"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\nspeed j 2\n",
+     KL_EKIND, 4, 7, "not an input"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "speed j 2 fluctuation -0.1\n",
+     KL_EINVAL, 5, 23, "speed fluctuation"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "speed j 2 wobble 0.1\n",
+     KL_ESYNTAX, 5, 11, "expected 'fluctuation'"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "speed j fast\n",
+     KL_ESYNTAX, 5, 9, "the working speed"},
+    {"kinloop-model 1\nredundant -2\n", KL_EINVAL, 2, 11, "-2 redundant"},
+    {"kinloop-model 1\nredundant 1.5\n", KL_ESYNTAX, 2, 11, "whole number"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "redundant 1\n",
+     KL_EDOF, 0, 0, "plus 1 redundant constraint declared"},
     {"kinloop-model 1\nlink a\x01\n", KL_ESYNTAX, 2, 7, "control character"},
     {"kinloop-model 1\nlink a\n\0link b\n", KL_ESYNTAX, 3, 1, "NUL byte"},
 };
@@ -532,6 +743,8 @@ int main(void) {
   tcase_set_timeout(tc, 120);
   tcase_add_test(tc, writing_then_reading_gives_the_same_model);
   tcase_add_test(tc, a_read_model_solves_like_the_original);
+  tcase_add_test(tc, redundancy_reads_back);
+  tcase_add_test(tc, force_statements_mean_their_calls);
   tcase_add_loop_test(tc, every_error_names_line_and_column, 0,
                       (int)(sizeof bad_cases / sizeof bad_cases[0]));
   tcase_add_test(tc, truncated_input_never_crashes);

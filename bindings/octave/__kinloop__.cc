@@ -4,7 +4,7 @@
  * functions' commands are generated (kinloop_gateway.inc); this file holds
  * the handle table, the argument rule, and the commands the generator
  * leaves to hand code: lifetimes, model and study files, assembly modes,
- * sweeps and study runs.
+ * sweeps, the force figures over a cycle, and study runs.
  */
 #include "gateway.h"
 
@@ -614,6 +614,112 @@ octave_value_list cmd_sweep(const call &c) {
 }
 
 /* ------------------------------------------------------------------------
+ * The force figures over a cycle
+ * ------------------------------------------------------------------------ */
+
+/* The arguments both cycle commands take: (solver, cycle, loads), the
+ * cycle a struct of any of kl_cycle's fields (the rest keep
+ * kl_cycle_default's values; [] keeps them all), the loads a struct array
+ * of kl_load's fields (or []). */
+struct cycle_arguments {
+  kl_cycle cycle;
+  std::vector<kl_load> loads;
+  int nloads = 0;
+
+  explicit cycle_arguments(const call &c) {
+    kl_cycle_default(&cycle);
+    if (c.given(1)) {
+      octave_map given = c.one_struct(1, "cycle");
+      from_octave(c, given, 0, "cycle", cycle, false);
+    }
+    octave_map list = c.count() > 2 ? c.struct_list(2, "loads") : octave_map();
+    loads.assign(static_cast<size_t>(list.numel()), kl_load());
+    for (octave_idx_type k = 0; k < list.numel(); k++)
+      from_octave(c, list, k, "loads", loads[static_cast<size_t>(k)], false);
+    nloads = c.count(loads.size(), "loads");
+  }
+  const kl_load *load_array() const { return loads.empty() ? nullptr : loads.data(); }
+};
+
+/* A row-major C array as a rows x columns matrix. */
+Matrix from_rows(const std::vector<double> &v, long rows, int columns) {
+  Matrix out(rows, columns);
+  for (long i = 0; i < rows; i++)
+    for (int k = 0; k < columns; k++)
+      out(i, k) = v[static_cast<size_t>(i) * columns + k];
+  return out;
+}
+
+/* A 1 x n struct array of the peaks. */
+octave_map peak_list(const std::vector<kl_cycle_peak> &peaks, int n) {
+  octave_map out(dim_vector(1, n));
+  for (int k = 0; k < n; k++)
+    out.assign(k, to_octave(peaks[static_cast<size_t>(k)]));
+  return out;
+}
+
+/* [summary, input_peaks, joint_peaks] of kl_cycle_summarize. */
+octave_value_list cmd_cycle_summarize(const call &c) {
+  entry &s = c.solver(0);
+  cycle_arguments a(c);
+  int ni = kl_model_input_count(s.model), nj = kl_model_joint_count(s.model);
+  std::vector<kl_cycle_peak> inputs(static_cast<size_t>(ni > 0 ? ni : 1));
+  std::vector<kl_cycle_peak> joints(static_cast<size_t>(nj > 0 ? nj : 1));
+  kl_cycle_summary sum = kl_cycle_summary();
+  sum.size = sizeof sum;
+  c.check(kl_cycle_summarize(s.solver, &a.cycle, a.nloads, a.load_array(), &sum,
+                             inputs.data(), joints.data()),
+          kl_solver_error(s.solver));
+  octave_value_list out;
+  out(0) = to_octave(sum);
+  out(1) = peak_list(inputs, ni);
+  out(2) = peak_list(joints, nj);
+  return out;
+}
+
+/* kl_cycle_table as a struct of named columns, one row per sample: input,
+ * effort (a column per input), joint_fx, joint_fy, joint_moment (a column
+ * per joint), ground_fx, ground_fy, ground_moment, kinetic_energy, work;
+ * and rows, the table whole as the C rows lay it out. */
+octave_value_list cmd_cycle_table(const call &c) {
+  entry &s = c.solver(0);
+  cycle_arguments a(c);
+  int ni = kl_model_input_count(s.model), nj = kl_model_joint_count(s.model);
+  int width = kl_cycle_columns(s.model);
+  c.check(width);
+  /* sized for a valid cycle; the library judges the steps itself */
+  size_t samples = a.cycle.steps >= 1 ? static_cast<size_t>(a.cycle.steps) + 1 : 1;
+  std::vector<double> rows(samples * static_cast<size_t>(width));
+  int done = 0;
+  c.check(kl_cycle_table(s.solver, &a.cycle, a.nloads, a.load_array(), rows.data(),
+                         rows.size(), &done),
+          kl_solver_error(s.solver));
+  Matrix table = from_rows(rows, done, width);
+  octave_scalar_map out;
+  /* columns first, first + stride, ... (count of them) under `name` */
+  auto take = [&](const char *name, int first, int count, int stride) {
+    Matrix m(done, count);
+    for (int i = 0; i < done; i++)
+      for (int k = 0; k < count; k++)
+        m(i, k) = table(i, first + k * stride);
+    out.assign(name, m);
+  };
+  int ground = 1 + ni + 3 * nj;
+  take("input", 0, 1, 1);
+  take("effort", 1, ni, 1);
+  take("joint_fx", 1 + ni, nj, 3);
+  take("joint_fy", 2 + ni, nj, 3);
+  take("joint_moment", 3 + ni, nj, 3);
+  take("ground_fx", ground, 1, 1);
+  take("ground_fy", ground + 1, 1, 1);
+  take("ground_moment", ground + 2, 1, 1);
+  take("kinetic_energy", ground + 3, 1, 1);
+  take("work", ground + 4, 1, 1);
+  out.assign("rows", table);
+  return one(out);
+}
+
+/* ------------------------------------------------------------------------
  * Design studies
  * ------------------------------------------------------------------------ */
 
@@ -669,15 +775,6 @@ octave_value_list cmd_study_model(const call &c) {
     st.model_id = new_id(kind::model, e);
   }
   return one(st.model_id);
-}
-
-/* A row-major C array as a rows x columns matrix. */
-Matrix from_rows(const std::vector<double> &v, long rows, int columns) {
-  Matrix out(rows, columns);
-  for (long i = 0; i < rows; i++)
-    for (int k = 0; k < columns; k++)
-      out(i, k) = v[static_cast<size_t>(i) * columns + k];
-  return out;
 }
 
 octave_value_list cmd_study_run(const call &c) {
@@ -781,6 +878,8 @@ const command hand_commands[] = {
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
+    {"cycle_summarize", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_summarize},
+    {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
     {"study_read", 2, 2, "(text, model)", cmd_study_read},
     {"study_read_file", 1, 1, "(path)", cmd_study_read_file},
     {"study_free", 1, 1, "(study)", cmd_study_free},

@@ -262,6 +262,7 @@ int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o) {
     goto done;
   }
   print_structure(f, cm);
+  cli_forces_outline(f, cm);
   if (!has_sketch(cm) && cm->nlinks > 1)
     warn(w, "no sketch angles: the assembly mode is whichever one Newton's "
             "method reaches from zero angles; add 'sketch angle LINK VALUE' "

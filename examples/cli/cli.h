@@ -35,6 +35,7 @@ enum cli_command {
   CLI_WRITE,
   CLI_DEMO,
   CLI_STUDY,
+  CLI_FORCES,
   CLI_NCOMMANDS
 };
 
@@ -66,6 +67,9 @@ typedef struct {
   int threads;        /* study: threads to run on, 0 for every core */
   const char *csv;    /* study: where to write one row per sample */
   const char *charts; /* study: the folder for its charts */
+  int have_fluctuation; /* forces: the coefficient of speed fluctuation */
+  double fluctuation;
+  int forces;           /* sweep: the force columns too */
 } cli_options;
 
 typedef struct {
@@ -126,6 +130,9 @@ int cli_close_output(FILE *f, const char *path);
 /* Makes the folder `dir` unless it is one already (its parent must
  * exist). Returns an exit code after printing why it failed. */
 int cli_make_dir(const char *dir);
+/* A name as part of a file name: letters, digits, '.', '-' and '_' kept,
+ * anything else '_', at most 40 bytes. */
+void cli_file_word(const char *name, char *buf, size_t cap);
 
 /* ---- inputs.c: inputs in the user's units, ranges, going to positions ---- */
 int cli_input_is_angle(const cli_model *cm, int input);
@@ -292,6 +299,64 @@ void cli_list_outputs(FILE *f, const cli_model *cm);
 
 /* ---- demo.c ---- */
 int cli_cmd_demo(const cli_model *cm, const cli_options *o);
+
+/* ---- forces.c: the force stage over the working cycle ---- */
+extern const char cli_forces_help[];
+/* The units forces are shown in: masses in kg, times in seconds, lengths
+ * in the model's unit; forces in N and torques (moments, energies) in N
+ * times the length unit, or the unstated unit's own combination. */
+typedef struct {
+  double per_model; /* shown units per model unit: 1e-3 for mm (mN to N) */
+  double metres;    /* metres per length unit, 0 when unstated */
+  char force[24], torque[24], inertia[24];
+} cli_force_units;
+void cli_force_units_of(const cli_model *cm, cli_force_units *u);
+/* A working cycle and its force figures. */
+typedef struct {
+  cli_range r;
+  double speed;       /* the driven input's, rad or length per second */
+  double fluctuation; /* coefficient of speed fluctuation, 0 for none */
+  int nloads;
+  kl_load *loads; /* the model's */
+  int status;     /* KL_OK, or KL_LIMIT: the figures of the part reached */
+  kl_cycle_summary sum;
+  kl_cycle_peak *inputs, *joints;
+  int rows, width;
+  double *table; /* kl_cycle_table's rows, or NULL */
+} cli_cycle;
+/* The cycle: `range`, or (NULL) the range options, or the model's working
+ * cycle; the speed and fluctuation of the options or the model's speed
+ * line; the model's loads. Returns an exit code after saying why not. */
+int cli_cycle_setup(const cli_model *cm, const cli_options *o,
+                    const cli_range *range, cli_cycle *c);
+/* Reaches the cycle's start (--at for the other inputs) and computes its
+ * figures, and its table when `table`. Returns an exit code after saying
+ * why not; where the forces are not determined, it says so. */
+int cli_cycle_compute(const cli_model *cm, const cli_options *o, int table,
+                      cli_cycle *c);
+void cli_cycle_free(cli_cycle *c);
+/* A figure's mean, 0 where it is rounding beside its peak (a conservative
+ * cycle's mean effort). */
+double cli_peak_mean(const kl_cycle_peak *p);
+/* The figures as text; `brief`: the motor, the three largest joint loads,
+ * the frame and the flywheel, without the outline. */
+void cli_cycle_report(FILE *f, const cli_model *cm, const cli_cycle *c,
+                      int brief);
+/* The force columns of a CSV: their names and row k's numbers, each
+ * after a comma. */
+void cli_cycle_csv_header(FILE *f, const cli_model *cm, const cli_cycle *c);
+void cli_cycle_csv_row(FILE *f, const cli_model *cm, const cli_cycle *c,
+                       int k, const char *format);
+/* One line of the check report on the model's force data (none without). */
+void cli_forces_outline(FILE *f, const cli_model *cm);
+int cli_cmd_forces(const cli_model *cm, const cli_options *o);
+
+/* ---- force_charts.c ---- */
+/* Writes into `dir` each input's effort over the cycle and, as polar plots
+ * of the force vector, each joint's load and the frame's; counts the files
+ * in *files. Returns an exit code. */
+int cli_force_charts(const cli_model *cm, const cli_cycle *c, const char *dir,
+                     int *files);
 
 /* ---- study.c: the study command, which reads a study, not a model ---- */
 int cli_cmd_study(const cli_options *o);

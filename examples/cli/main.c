@@ -20,7 +20,8 @@ void cli_error(const char *fmt, ...) {
 }
 
 static const char *const command_names[CLI_NCOMMANDS] = {
-    "check", "solve", "sweep", "draw", "plot", "write", "demo", "study"};
+    "check", "solve", "sweep", "draw", "plot", "write", "demo", "study",
+    "forces"};
 
 static const char general_usage[] =
     "kinloop %s - position, velocity and acceleration of planar linkages\n"
@@ -43,6 +44,8 @@ static const char general_usage[] =
     "  demo    the built-in demo (what kinloop does with no arguments)\n"
     "  study   a design study (docs/studies.md): tolerance samples or a grid of\n"
     "          designs, summarized per output, with CSV and SVG charts\n"
+    "  forces  the force stage over the working cycle: motor effort, joint\n"
+    "          loads, shaking, flywheel; with CSV and SVG charts\n"
     "\n"
     "MODEL is a model file (docs/model-format.md); without one a command works on\n"
     "the built-in demo, a carton flap-tucking station. Angles on the command line\n"
@@ -56,7 +59,7 @@ static const char general_usage[] =
     "     the same for a study file\n"
     "  4  solve failure: no assembly, singular position, or a motion limit\n"
     "     before a position that was asked for; a study's nominal that does\n"
-    "     not solve\n"
+    "     not solve; forces that are not determined (redundant or singular)\n"
     "  5  an output file or folder cannot be written\n";
 
 static const char range_help[] =
@@ -122,10 +125,16 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "                    (default 1): rates scale by W, accelerations by W^2\n"
     "  --all-digits      write every number with 17 significant digits\n"
     "                    (default 6)\n"
+    "  --forces          add the force columns of kinloop forces --csv: every\n"
+    "                    input's effort, every joint's force, the frame's,\n"
+    "                    against the model's masses, gravity and loads; the\n"
+    "                    speed is then the model's speed line unless --speed\n"
     "  -o, --output FILE write the CSV to FILE instead of standard output\n"
     "\n"
     "A sweep that meets a motion limit or a singular position writes the rows\n"
-    "before it, says where it stopped on standard error, and exits with 0.\n",
+    "before it, says where it stopped on standard error, and exits with 0.\n"
+    "With --forces, where the forces are not determined it writes nothing and\n"
+    "exits with 4.\n",
     /* draw */
     "usage: kinloop draw [MODEL] [OPTIONS]\n"
     "\n"
@@ -179,9 +188,10 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "       kinloop\n"
     "\n"
     "Prints a summary of the built-in demo, a carton flap-tucking station (the\n"
-    "check report, and the worst motor torque against the loads of the\n"
-    "flap and the rail), and writes into DIR: the model file, a CSV sweep at\n"
-    "60 rpm, a drawing and four plots.\n"
+    "check report, and the motor and bearing figures of a turn at 60 rpm\n"
+    "against its masses, gravity and the loads of the flap and the rail), and\n"
+    "writes into DIR: the model file, a CSV sweep at 60 rpm, a drawing, four\n"
+    "plots, the forces as CSV, and in DIR/forces the force charts.\n"
     "\n"
     "options:\n"
     "  --dir DIR         the folder to write (default kinloop-demo; made if\n"
@@ -211,7 +221,9 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "\n"
     "Samples that do not assemble are counted, never left out silently. A\n"
     "study that cannot be read exits with 3, one whose nominal does not\n"
-    "solve or move through the sweep with 4.\n"};
+    "solve or move through the sweep with 4.\n",
+    /* forces */
+    cli_forces_help};
 
 enum {
   OPT_OUTPUT,
@@ -232,11 +244,15 @@ enum {
   OPT_THREADS,
   OPT_CSV,
   OPT_CHARTS,
+  OPT_FLUCTUATION,
+  OPT_FORCES,
   OPT_HELP
 };
 
 #define BIT(c) (1u << (c))
-#define RANGE_CMDS (BIT(CLI_CHECK) | BIT(CLI_SWEEP) | BIT(CLI_DRAW) | BIT(CLI_PLOT))
+#define RANGE_CMDS                                                             \
+  (BIT(CLI_CHECK) | BIT(CLI_SWEEP) | BIT(CLI_DRAW) | BIT(CLI_PLOT) |           \
+   BIT(CLI_FORCES))
 
 static const struct {
   const char *name;
@@ -253,16 +269,18 @@ static const struct {
     {"at", 0, 1, RANGE_CMDS | BIT(CLI_SOLVE)},
     {"rate", 0, 1, BIT(CLI_SOLVE)},
     {"accel", 0, 1, BIT(CLI_SOLVE)},
-    {"speed", 0, 1, BIT(CLI_SWEEP)},
-    {"all-digits", 0, 0, BIT(CLI_SWEEP)},
+    {"speed", 0, 1, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},
+    {"all-digits", 0, 0, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},
     {"poses", 0, 1, BIT(CLI_DRAW)},
     {"no-paths", 0, 0, BIT(CLI_DRAW)},
     {"show", 0, 1, BIT(CLI_PLOT)},
     {"order", 0, 1, BIT(CLI_PLOT)},
     {"dir", 0, 1, BIT(CLI_DEMO)},
     {"threads", 0, 1, BIT(CLI_STUDY)},
-    {"csv", 0, 1, BIT(CLI_STUDY)},
-    {"charts", 0, 1, BIT(CLI_STUDY)},
+    {"csv", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES)},
+    {"charts", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES)},
+    {"fluctuation", 0, 1, BIT(CLI_FORCES)},
+    {"forces", 0, 0, BIT(CLI_SWEEP)},
     {"help", 'h', 0, ~0u},
 };
 #define NOPTIONS ((int)(sizeof option_specs / sizeof option_specs[0]))
@@ -377,7 +395,7 @@ static int store_option(cli_options *o, int which, const char *value) {
   case OPT_SPEED:
     o->have_speed = 1;
     st = parse_number(c, name, value, &o->speed);
-    if (st == CLI_EXIT_OK && o->speed == 0.0)
+    if (st == CLI_EXIT_OK && o->speed == 0.0 && c == CLI_SWEEP)
       return usage_error(c, "--speed cannot be 0 (%s)", value);
     break;
   case OPT_ALL_DIGITS:
@@ -409,6 +427,15 @@ static int store_option(cli_options *o, int which, const char *value) {
     break;
   case OPT_CHARTS:
     o->charts = value;
+    break;
+  case OPT_FLUCTUATION:
+    o->have_fluctuation = 1;
+    st = parse_number(c, name, value, &o->fluctuation);
+    if (st == CLI_EXIT_OK && o->fluctuation < 0.0)
+      return usage_error(c, "--fluctuation cannot be negative (%s)", value);
+    break;
+  case OPT_FORCES:
+    o->forces = 1;
     break;
   default:
     break;
@@ -494,6 +521,9 @@ static int run(cli_options *o) {
     break;
   case CLI_WRITE:
     st = cli_cmd_write(&cm, o);
+    break;
+  case CLI_FORCES:
+    st = cli_cmd_forces(&cm, o);
     break;
   default:
     st = cli_cmd_demo(&cm, o);

@@ -267,3 +267,15 @@ int cli_make_dir(const char *dir) {
                             : strerror(errno));
   return CLI_EXIT_OUTPUT;
 }
+
+void cli_file_word(const char *name, char *buf, size_t cap) {
+  size_t i;
+  for (i = 0; name[i] != '\0' && i + 1 < cap && i < 40; i++) {
+    char ch = name[i];
+    int keep = (ch >= 'a' && ch <= 'z') || (ch >= 'A' && ch <= 'Z') ||
+               (ch >= '0' && ch <= '9') || ch == '.' || ch == '-' ||
+               ch == '_';
+    buf[i] = keep ? ch : '_';
+  }
+  buf[i] = '\0';
+}

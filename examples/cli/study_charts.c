@@ -121,20 +121,6 @@ static void mark_limits(FILE *f, const chart *c, const kl_study_summary *sum,
   }
 }
 
-/* An output's name as part of a file name: letters, digits, '.', '-' and
- * '_' kept, anything else '_'. */
-static void file_word(const char *name, char *buf, size_t cap) {
-  size_t i;
-  for (i = 0; name[i] != '\0' && i + 1 < cap && i < 40; i++) {
-    char ch = name[i];
-    int keep = (ch >= 'a' && ch <= 'z') || (ch >= 'A' && ch <= 'Z') ||
-               (ch >= '0' && ch <= '9') || ch == '.' || ch == '-' ||
-               ch == '_';
-    buf[i] = keep ? ch : '_';
-  }
-  buf[i] = '\0';
-}
-
 static int write_histogram(const cli_study_samples *s, int k,
                            const column *c, const kl_study_summary *sum,
                            const char *path) {
@@ -356,14 +342,14 @@ int cli_study_charts(const cli_study_samples *s, const char *dir,
       cli_error("out of memory drawing the charts");
       return CLI_EXIT_MEMORY;
     }
-    file_word(kl_study_output_name(s->st, k), word, sizeof word);
+    cli_file_word(kl_study_output_name(s->st, k), word, sizeof word);
     snprintf(path, sizeof path, "%s/out%d-%s-histogram.svg", dir, k + 1,
              word);
     if ((st = write_histogram(s, k, &c, &sum, path)) == CLI_EXIT_OK)
       ++*histograms;
     found = st == CLI_EXIT_OK ? strongest(s, k, best, r) : 0;
     for (j = 0; j < found && st == CLI_EXIT_OK; j++) {
-      file_word(kl_study_dimension_name(s->st, best[j]), dim_word,
+      cli_file_word(kl_study_dimension_name(s->st, best[j]), dim_word,
                 sizeof dim_word);
       snprintf(path, sizeof path, "%s/out%d-%s-vs-dim%d-%s.svg", dir, k + 1,
                word, best[j] + 1, dim_word);

@@ -1,6 +1,7 @@
 /*
  * sweep.c - the sweep command: one CSV row per step of a sweep, every
- * quantity in the model's units, rates per second at the given speed.
+ * quantity in the model's units, rates per second at the given speed, and
+ * (--forces) the force columns of forces.c.
  */
 #include <stdlib.h>
 #include <string.h>
@@ -13,6 +14,8 @@ typedef struct {
   const cli_column *cols;
   const double *factor;
   const char *format;
+  const cli_model *cm;
+  const cli_cycle *cycle; /* the forces at each step, or NULL */
 } csv_sink;
 
 void cli_csv_field(FILE *f, const char *text) {
@@ -33,12 +36,13 @@ void cli_csv_field(FILE *f, const char *text) {
 static int put_row(void *user, int step, const double *row) {
   csv_sink *k = user;
   int i;
-  (void)step;
   for (i = 0; i < k->ncols; i++) {
     if (i > 0)
       fputc(',', k->f);
     fprintf(k->f, k->format, row[k->cols[i].at] * k->factor[i]);
   }
+  if (k->cycle != NULL && step < k->cycle->rows)
+    cli_cycle_csv_row(k->f, k->cm, k->cycle, step, k->format);
   fputc('\n', k->f);
   return ferror(k->f) != 0; /* a full disk stops the sweep */
 }
@@ -50,9 +54,21 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
   kl_solver *s;
   kl_sweep_result res;
   csv_sink sink;
+  cli_cycle cycle;
+  double speed = o->have_speed ? o->speed : 1.0;
   int st, i;
+  memset(&cycle, 0, sizeof cycle);
   if ((st = cli_require_range(cm, o, &r, "nothing to sweep")) != CLI_EXIT_OK)
     return st;
+  if (o->forces) {
+    /* the forces first: where they are not determined, nothing is written */
+    if ((st = cli_cycle_setup(cm, o, &r, &cycle)) != CLI_EXIT_OK ||
+        (st = cli_cycle_compute(cm, o, 1, &cycle)) != CLI_EXIT_OK) {
+      cli_cycle_free(&cycle);
+      return st;
+    }
+    speed = cycle.speed * cli_input_factor(cm, r.input);
+  }
   sink.ncols = cli_column_count(cm);
   cols = malloc((size_t)sink.ncols * sizeof *cols);
   factor = malloc((size_t)sink.ncols * sizeof *factor);
@@ -64,8 +80,7 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
   }
   cli_columns(cm, r.input, cols);
   for (i = 0; i < sink.ncols; i++)
-    factor[i] = cli_column_factor(cm, r.input, &cols[i],
-                                  o->have_speed ? o->speed : 1.0);
+    factor[i] = cli_column_factor(cm, r.input, &cols[i], speed);
   if ((st = cli_reach_start(s, cm, o, &r)) != CLI_EXIT_OK)
     goto done;
   if ((sink.f = cli_open_output(o->output)) == NULL) {
@@ -80,7 +95,11 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
       fputc(',', sink.f);
     cli_csv_field(sink.f, name);
   }
+  if (o->forces)
+    cli_cycle_csv_header(sink.f, cm, &cycle);
   fputc('\n', sink.f);
+  sink.cm = cm;
+  sink.cycle = o->forces ? &cycle : NULL;
   sink.cols = cols;
   sink.factor = factor;
   sink.format = o->all_digits ? "%.17g" : "%.6g";
@@ -99,5 +118,6 @@ done:
   kl_solver_free(s);
   free(cols);
   free(factor);
+  cli_cycle_free(&cycle);
   return st;
 }

@@ -75,6 +75,19 @@ classdef Model < kinloop.ModelMethods
       joints = __kinloop__('model_loop', obj.id, index);
     end
 
+    function loads = loads(obj)
+      % The loads the model records (kl_model_load) as a struct array, in
+      % order: what Solver.cycle_summarize(m.loads(), m.cycle()) takes.
+      loads = [];
+      for k = 0:obj.load_count() - 1
+        if isempty(loads)
+          loads = obj.load(k);
+        else
+          loads(end + 1) = obj.load(k);
+        end
+      end
+    end
+
     function sites = transmissions(obj)
       % The transmission-angle sites kinloop measures (kl_model_transmissions):
       % a struct array of outputs.

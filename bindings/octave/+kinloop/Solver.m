@@ -127,6 +127,39 @@ classdef Solver < kinloop.SolverMethods
       values = __kinloop__('solver_row', obj.id);
     end
 
+    % ---- force figures over a cycle ----
+
+    function [summary, inputs, joints] = cycle_summarize(obj, loads, varargin)
+      % [summary, inputs, joints] = cycle_summarize(loads, cycle), or
+      % cycle_summarize(loads, 'speed', w, 'steps', n, ...), or both
+      % (cycle_summarize(loads, cycle, 'steps', n)): the force
+      % figures of a cycle (kl_cycle_summarize): input cycle.input driven at
+      % the constant cycle.speed over its range against the constant loads
+      % (a struct array of kind, id, fx, fy, torque, or []), the other
+      % inputs at rest. The cycle's fields not given (input, from, to,
+      % steps, speed, speed_fluctuation) keep kinloop.cycle_default()'s
+      % values. summary: the shaking force and moment, the energy
+      % fluctuation and flywheel inertia, sweep_status 'LIMIT' when the
+      % motion stopped inside the range; inputs: a peak struct (peak, at,
+      % mean, rms) per input, its effort; joints: one per joint, the
+      % magnitude of its force.
+      [summary, inputs, joints] = __kinloop__('cycle_summarize', obj.id, ...
+                                              kinloop.Solver.cycle_of(varargin), loads);
+    end
+
+    function t = cycle_table(obj, loads, varargin)
+      % t = cycle_table(loads, cycle) or cycle_table(loads, 'name', value,
+      % ...): the forces over a cycle sample by sample (kl_cycle_table),
+      % cycle and loads as for cycle_summarize. t has a row per sample in
+      % each named column: input, effort (a column per input), joint_fx,
+      % joint_fy, joint_moment (a column per joint: kl_joint_force and
+      % kl_joint_moment), ground_fx, ground_fy, ground_moment
+      % (kl_ground_force), kinetic_energy, work (the driven input's work
+      % since the first sample); and rows, the C rows whole. A cycle
+      % stopped by a motion limit has the samples it reached.
+      t = __kinloop__('cycle_table', obj.id, kinloop.Solver.cycle_of(varargin), loads);
+    end
+
     % ---- design figures: a dimension's axis may be 'x' or 'y' ----
 
     function d = output_sensitivity(obj, o, dim)
@@ -144,6 +177,23 @@ classdef Solver < kinloop.SolverMethods
   end
 
   methods (Static, Access = private)
+    function c = cycle_of(given)
+      % A cycle struct from a struct, name-value pairs replacing its fields
+      % (or making one), or nothing ([]: the defaults).
+      c = [];
+      if ~isempty(given) && isstruct(given{1})
+        c = given{1};
+        given = given(2:end);
+      end
+      if mod(numel(given), 2) ~= 0 || ~all(cellfun(@ischar, given(1:2:end)))
+        error('kinloop:EINVAL', ['cycle: give a struct of kl_cycle''s fields, ' ...
+                                 'name-value pairs, or both']);
+      end
+      for k = 1:2:numel(given)
+        c.(given{k}) = given{k + 1};
+      end
+    end
+
     function dims = axes(dims)
       % Dimensions with their axis 'x' or 'y' given as kl_dimension's 0 or 1.
       for k = 1:numel(dims)

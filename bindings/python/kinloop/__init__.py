@@ -28,12 +28,12 @@ from .model import Model
 from .raw import MissingFunctionError
 from .solver import Solver
 from .study import Study
-from .values import Dimension, Load, Output, StudyRun, SweepResult
+from .values import CycleFigures, Dimension, Load, Output, StudyRun, SweepResult
 
 __version__ = "%d.%d.%d" % raw.VERSION
 library_path = raw.library_path
 library_version = raw.library_version
 
 __all__ = sorted(set(_api.__all__ + _header.__all__ + [
-    "Dimension", "KinloopError", "Load", "MissingFunctionError", "Model", "Output", "Solver",
+    "CycleFigures", "Dimension", "KinloopError", "Load", "MissingFunctionError", "Model", "Output", "Solver",
     "Study", "StudyRun", "SweepResult", "library_path", "library_version"]))

@@ -165,6 +165,18 @@ class Model(_api.ModelMethods, Handle):
     def loops(self):
         return [self.loop(k) for k in range(self.loop_count)]
 
+    @property
+    def _input_count(self):
+        """The count of a generated method's array per input
+        (kl_model_start_inputs)."""
+        return self.input_count
+
+    @property
+    def loads(self):
+        """The loads the model records (kl_model_load), as Load values in
+        order: what Solver.cycle_summarize(m.loads, m.cycle) takes."""
+        return [self.load(k) for k in range(self.load_count)]
+
     # ---- what a finalized model says of its rows and transmissions ----
 
     @property

@@ -2,8 +2,8 @@
 finalized Model over the kl_solver handle. The plain functions are
 generated (kinloop._api.SolverMethods: getters, setters, stages, design
 figures); this adds lifetime, options by keyword, the count of input
-arrays, copies, assembly modes, and sweeps with their recorder and
-callback."""
+arrays, copies, assembly modes, sweeps with their recorder and callback,
+and the force figures over a cycle (summary and table)."""
 
 import ctypes
 import dataclasses
@@ -14,9 +14,9 @@ import numpy as np
 
 from . import _api, raw
 from ._args import array_of, refuse, to_int
-from ._core import Handle, KinloopError, as_enum, check_const
+from ._core import Handle, KinloopError, as_enum, check_const, value_of
 from ._header import Status
-from .values import SweepResult
+from .values import Cycle, CycleFigures, SweepResult, cycle_table_dtype
 
 # Over-alignment for a solver placed in a Python buffer: the C side wants
 # malloc's alignment, which no ABI sets above this.
@@ -190,3 +190,65 @@ class Solver(_api.SolverMethods, Handle):
             rows=table[:done], layout=model.row_layout, input_index=input)
         self._check(status, result=result)
         return result
+
+    # ---- force figures over a cycle ----
+
+    def _cycle_arguments(self, function, loads, cycle, fields):
+        """The cycle (`cycle`, default Cycle(), with `fields` replacing
+        fields by name) and the loads as the C calls take them."""
+        c = dataclasses.replace(cycle if cycle is not None else Cycle(), **fields)
+        loads, count = array_of(loads, raw.kl_load, function, "loads")
+        return c, loads, count
+
+    def cycle_summarize(self, loads=(), cycle=None, **fields):
+        """The force figures of a cycle (kl_cycle_summarize): input
+        `cycle.input` driven at the constant `cycle.speed` over its range
+        against the constant `loads`, the others at rest. `cycle` is a Cycle
+        (default: Cycle(), the library's defaults); keyword arguments
+        replace its fields by name (speed=..., steps=..., from_=...).
+
+        Returns a CycleFigures: `summary`, the CycleSummary (the shaking
+        force and moment, the energy fluctuation and flywheel inertia, and
+        sweep_status LIMIT when the motion stopped inside the range);
+        `inputs`, a CyclePeak per input (its effort's peak, where, mean and
+        RMS); `joints`, a CyclePeak per joint (the magnitude of its force).
+        A negative status raises KinloopError (INDETERMINATE for a declared
+        redundancy, ESINGULAR at a singular sample, ...) and leaves the
+        solver as it was."""
+        function = "kl_cycle_summarize"
+        c, loads, count = self._cycle_arguments(function, loads, cycle, fields)
+        ninputs, njoints = self._input_count, self._model.joint_count
+        summary = raw.kl_cycle_summary()
+        inputs = (raw.kl_cycle_peak * max(ninputs, 1))()
+        joints = (raw.kl_cycle_peak * max(njoints, 1))()
+        self._check(_api.kl_cycle_summarize(self._changing, c, count, loads,
+                                            ctypes.byref(summary), inputs, joints))
+        return CycleFigures(value_of(summary), [value_of(p) for p in inputs[:ninputs]],
+                            [value_of(p) for p in joints[:njoints]])
+
+    def cycle_table(self, loads=(), cycle=None, **fields):
+        """The forces over a cycle sample by sample (kl_cycle_table), the
+        cycle and loads as for cycle_summarize: a numpy structured array,
+        one element per sample, whose named columns are the C row's:
+        input (the driven input's value), effort[:, i] (every input's
+        effort), joint[:, j] with fields fx, fy, moment (kl_joint_force and
+        kl_joint_moment of joint j), ground with fields fx, fy, moment
+        (kl_ground_force), kinetic_energy, work (the driven input's work
+        since the first sample): t["joint"]["fx"][:, j]. A cycle stopped
+        by a motion limit gives the samples it reached (fewer than
+        steps + 1). A negative status raises KinloopError."""
+        function = "kl_cycle_table"
+        c, loads, count = self._cycle_arguments(function, loads, cycle, fields)
+        model = self._model
+        dtype = cycle_table_dtype(self._input_count, model.joint_count)
+        columns = model.cycle_columns
+        if dtype.itemsize != columns * ctypes.sizeof(ctypes.c_double):
+            raise RuntimeError("kinloop: kl_cycle_table's row has %d numbers; the "
+                               "bindings expect %d" % (columns, dtype.itemsize // 8))
+        steps = to_int(c.steps, function, "cycle.steps")
+        table = np.zeros(max(steps + 1, 1), dtype=dtype)
+        done = ctypes.c_int()
+        self._check(_api.kl_cycle_table(self._changing, c, count, loads,
+                                        table.ctypes.data_as(_DOUBLES),
+                                        table.size * columns, ctypes.byref(done)))
+        return table[:done.value]

@@ -15,6 +15,7 @@ from ._header import DimensionKind, LoadKind, OutputKind
 
 Options, SolveStats, SweepSettings = _api.Options, _api.SolveStats, _api.SweepSettings
 Range, StudySummary = _api.Range, _api.StudySummary
+Cycle, CyclePeak, CycleSummary = _api.Cycle, _api.CyclePeak, _api.CycleSummary
 
 
 class Output(_api.Output):
@@ -122,6 +123,28 @@ class SweepResult(_api.SweepResult):
 
     def __len__(self):
         return self.steps_done
+
+
+class CycleFigures(NamedTuple):
+    """What Solver.cycle_summarize computed (kl_cycle_summarize): the
+    CycleSummary of the cycle, a CyclePeak per input (its effort) and a
+    CyclePeak per joint (the magnitude of its force), in id order."""
+    summary: CycleSummary
+    inputs: list
+    joints: list
+
+
+#: the fields of a force, moment pair in kl_cycle_table's rows
+_FORCE_FIELDS = [("fx", np.float64), ("fy", np.float64), ("moment", np.float64)]
+
+
+def cycle_table_dtype(ninputs, njoints):
+    """The numpy dtype of one row of kl_cycle_table for a model with
+    `ninputs` inputs and `njoints` joints: named fields laid out exactly
+    as the C row (1 + ninputs + 3 njoints + 5 doubles)."""
+    return np.dtype([("input", np.float64), ("effort", np.float64, (ninputs,)),
+                     ("joint", _FORCE_FIELDS, (njoints,)), ("ground", _FORCE_FIELDS),
+                     ("kinetic_energy", np.float64), ("work", np.float64)])
 
 
 class StudyRun(NamedTuple):

@@ -71,3 +71,18 @@ def test_both_bindings_emit_them(extended):
     assert 'gen_model_link_length' in gateway and '{"solver_reach", 3, 3,' in gateway
     assert "gen_solver_row" not in gateway
     compile(api, "_api.py", "exec")  # valid Python
+
+
+def test_a_struct_filled_through_an_out_pointer_is_an_output():
+    # kl_model_load fills a kl_load, which has no size field: POINTERS says
+    # "out", and neither binding sets a size it does not have
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    load = {b.name: b for b in generate.bindings(header)}["kl_model_load"]
+    assert load.plain and load.method == "load"
+    assert [(a.kind, a.struct.name) for a in load.outputs] == [("struct_out", "kl_load")]
+    gateway = generate.octave_gateway(header)
+    body = gateway[gateway.index("gen_model_load("):]
+    body = body[:body.index("\n}\n")]
+    assert "kl_load load = kl_load();" in body and ".size" not in body
+    assert "value_of(load)" in generate.python_api(header)
