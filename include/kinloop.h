@@ -1257,7 +1257,8 @@ typedef struct kl_reach_result {
  * solved directly from the sketch. Each input moves in turn, in input
  * order, the others held, swept as kl_solver_sweep does (branch guard
  * included) in steps of at most 2 degrees of a turning input or 0.02 of the
- * model's scale of a sliding one; then the position is solved at the target
+ * model's scale of a sliding one (a move longer than 100000 such steps takes
+ * 100000 longer ones, so that a far target costs bounded work); then the position is solved at the target
  * itself, and no rates are solved there.
  * Fills `result` (may be NULL). Returns KL_OK, or on failure leaves the
  * state exactly as it was and returns:

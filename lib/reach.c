@@ -13,8 +13,9 @@
  * checks, few enough to cost little). */
 #define KLI_REACH_ANGLE_STEP (2.0 * KLI_PI / 180.0)
 #define KLI_REACH_SLIDE_STEP 0.02
-/* Steps one move may take; beyond, each step grows longer instead. */
-#define KLI_REACH_MAX_STEPS 1000000
+/* Steps one move may take (555 turns at 2 degrees); beyond, each step
+ * grows longer instead, so that a far target costs bounded work. */
+#define KLI_REACH_MAX_STEPS 100000
 
 int kl_model_start_inputs(const kl_model *m, double *inputs) {
   int i;
