@@ -120,8 +120,12 @@ typedef struct {
    * velocity + acceleration over the closed form, GSL hybridsj over kinloop
    * position */
   double small_ratio, rates_ratio, hybridsj_ratio;
+  /* kinloop position over the hand-written Newton iteration, and kinloop
+   * position + velocity + acceleration over the hand-written Newton with
+   * its hand-written rate and acceleration formulas */
+  double hand_ratio, hand_rates_ratio;
   /* no failed step and errors within BENCH_MAX_ERROR */
-  int small_valid, rates_valid;
+  int small_valid, rates_valid, hand_valid;
 } fourbar_figures;
 
 /* Runs and prints part 1; fig keeps the model, the start and the small
