@@ -256,6 +256,92 @@ double kli_dense_rcond(kli_dense *d) {
   return info == 0 ? rcond : 0.0;
 }
 
+/*
+ * An upper bound on |(A D)^-1|_1 from the LAPACK kernels' factors, with
+ * absolute values throughout (docs/theory.md, "Watching the condition"):
+ * for A D = P L U, |(A D)^-1| <= M(U)^-1 |L^-1| entrywise, M(U) being U
+ * with its off-diagonal entries negated in absolute value, so e^T of that
+ * product, one transposed triangular pass through each factor, bounds
+ * every column sum. Inf when it overflows (or a pivot is zero).
+ */
+static double dense_inverse_bound(kli_dense *d) {
+  int n = d->p.n, i, j;
+  const double *lu = d->lu;
+  double *y = d->work, bound = 0.0;
+  for (j = 0; j < n; j++) { /* M(U)^T y = e */
+    double sum = 1.0;
+    for (i = 0; i < j; i++)
+      sum += fabs(lu[i + (size_t)j * (size_t)n]) * y[i];
+    y[j] = sum / fabs(lu[j + (size_t)j * (size_t)n]);
+  }
+  for (i = n - 1; i >= 0; i--) { /* M(L)^T z = y, unit diagonal */
+    double sum = y[i];
+    for (j = i + 1; j < n; j++)
+      sum += fabs(lu[j + (size_t)i * (size_t)n]) * y[j];
+    y[i] = sum;
+    bound = fmax(bound, sum);
+  }
+  return bound;
+}
+
+/* The same bound from dgbtrf's band: U has kl + ku bands above its
+ * diagonal; L is the product of the elimination steps, each a row
+ * interchange and one column of at most kl multipliers, gone through in
+ * reverse as dgbtrs does for the transposed system. */
+static double band_inverse_bound(kli_dense *d) {
+  int n = d->p.n, kl = d->p.band_lower, kv = kl + d->p.band_upper, i, j;
+  const double *ab = d->ab;
+  size_t ld = (size_t)d->ldab;
+  double *y = d->work, bound = 0.0;
+  for (j = 0; j < n; j++) { /* M(U)^T y = e */
+    double sum = 1.0;
+    for (i = j - kv > 0 ? j - kv : 0; i < j; i++)
+      sum += fabs(ab[(size_t)(kv + i - j) + (size_t)j * ld]) * y[i];
+    y[j] = sum / fabs(ab[(size_t)kv + (size_t)j * ld]);
+  }
+  for (j = n - 2; j >= 0; j--) { /* each step's |L_j^-1| P_j, reversed */
+    int rows = kl < n - 1 - j ? kl : n - 1 - j, piv = d->ipiv[j] - 1;
+    double sum = y[j], t;
+    for (i = 1; i <= rows; i++)
+      sum += fabs(ab[(size_t)(kv + i) + (size_t)j * ld]) * y[j + i];
+    y[j] = sum;
+    t = y[j];
+    y[j] = y[piv];
+    y[piv] = t;
+  }
+  for (i = 0; i < n; i++)
+    bound = fmax(bound, y[i]);
+  return bound;
+}
+
+/* The exact 1-norm condition of a 2 x 2 matrix: its inverse is the
+ * adjugate over the determinant, whose column sums are A's row sums. */
+static double small_rcond2(const kli_dense *d) {
+  const double *a = d->a;
+  double det = fabs(d->lu[0] * d->lu[3]);
+  double rows = fmax(fabs(a[0]) + fabs(a[2]), fabs(a[1]) + fabs(a[3]));
+  return det / (d->anorm * rows);
+}
+
+double kli_dense_rcond_at_least(kli_dense *d, double needed) {
+  double bound;
+  if (d->p.n == 0)
+    return 1.0;
+  if (d->singular || d->anorm == 0.0)
+    return 0.0;
+  switch (d->kernel) {
+  case KL_KERNEL_SMALL:
+    return d->p.n == 2 ? small_rcond2(d) : kli_dense_rcond(d);
+  case KL_KERNEL_BANDED:
+    bound = band_inverse_bound(d);
+    break;
+  default:
+    bound = dense_inverse_bound(d);
+  }
+  bound = 1.0 / (d->anorm * bound); /* 0 when the bound overflowed */
+  return bound >= needed ? bound : kli_dense_rcond(d);
+}
+
 /* The i-th pivot of the factors, whichever kernel made them. */
 static double pivot_at(const kli_dense *d, int i) {
   return d->kernel == KL_KERNEL_BANDED

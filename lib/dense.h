@@ -68,6 +68,14 @@ int kli_dense_factor(kli_dense *d);
  * exact for the small kernel, LAPACK's dgecon / dgbcon estimate otherwise;
  * 0 when the factorization was singular. */
 double kli_dense_rcond(kli_dense *d);
+/* rcond, or a cheaper guaranteed lower bound on it when that shows it at
+ * least `needed`: exact for the small kernel's 2 x 2 systems (closed form)
+ * and as kli_dense_rcond for its others; for the LAPACK kernels a bound
+ * from the factors' absolute values (one transposed pass through each),
+ * and LAPACK's estimate only when the bound is below `needed`. The bound
+ * never exceeds the true rcond, which never exceeds the estimate, so a
+ * test rcond < t with t <= needed gives the verdict the estimate would. */
+double kli_dense_rcond_at_least(kli_dense *d, double needed);
 /* Sign of the determinant of the factored matrix (+1 or -1; 0 when
  * singular); the column scales are positive and do not change it. */
 int kli_dense_det_sign(const kli_dense *d);

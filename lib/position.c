@@ -29,6 +29,12 @@
 #define KLI_STALL_RATIO 0.999
 #define KLI_STALL_ITERATIONS 4
 
+/* Above this rcond a position is far from every test the library makes
+ * of it (the option singular_rcond is below 1e-3 and is taken as well;
+ * the sweep changes its predictor below 1e-6), so that a guaranteed lower
+ * bound at least this large stands in for the condition estimate. */
+#define KLI_RCOND_FAR 1e-6
+
 /* |v|inf with slides measured in units of the model's scale. */
 static double scaled_norm(const kl_solver *s, const double *v) {
   const kl_model *m = s->model;
@@ -82,6 +88,19 @@ int kli_factor_at(kl_solver *s, const kli_pose *p) {
     kli_dense_load(&s->dense, s->pairs);
   }
   return kli_dense_factor(&s->dense);
+}
+
+/*
+ * The factors' rcond as far as the tests of it need: a cheap guaranteed
+ * lower bound where that already clears them, LAPACK's estimate otherwise
+ * (kli_dense_rcond_at_least). With redundant constraints the dropped rows
+ * are held to a tolerance over rcond, so they get the estimate itself.
+ */
+static double watch_condition(kl_solver *s) {
+  double needed = s->model->topo.redundancy > 0
+                      ? HUGE_VAL
+                      : fmax(s->singular_rcond, KLI_RCOND_FAR);
+  return kli_dense_rcond_at_least(&s->dense, needed);
 }
 
 /* With redundant constraints: a loop keeping one row keeps it along the
@@ -409,7 +428,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   s->stats.iterations = iter;
   s->stats.residual = it.fnorm;
   s->stats.step = singular ? NAN : step;
-  s->stats.rcond = kli_dense_rcond(&s->dense);
+  s->stats.rcond = watch_condition(s);
   if (singular || s->stats.rcond < s->singular_rcond) {
     st = kli_fail(s->error, KL_ESINGULAR,
                   "solve position: the Jacobian is singular at the solution "
@@ -487,7 +506,7 @@ int kli_require_position(kl_solver *s, const char *stage) {
   if (!s->factors_current) {
     choose_directions(s, &s->st.pose);
     kli_factor_at(s, &s->st.pose);
-    s->st.rcond = kli_dense_rcond(&s->dense);
+    s->st.rcond = watch_condition(s);
     s->factors_current = 1;
   }
   if (s->st.rcond < s->singular_rcond || s->dense.singular)
