@@ -30,6 +30,36 @@ void kli_dense_carve(kli_dense *d, kli_carver *c, const kli_pattern *p) {
   d->work = kli_carve(c, 4 * n, sizeof(double));
   d->iwork = kli_carve(c, n, sizeof(int));
   d->normal = p->damped ? kli_carve(c, nn, sizeof(double)) : NULL;
+  d->value_col = kli_carve(c, (size_t)kli_dense_values(p), sizeof(int));
+  d->a_at = kli_carve(c, (size_t)kli_dense_values(p), sizeof(size_t));
+  d->band_at = kli_carve(c, (size_t)kli_dense_values(p), sizeof(size_t));
+}
+
+int kli_dense_values(const kli_pattern *p) {
+  return 2 * p->npairs + p->nsingles;
+}
+
+/* Where value k of the pattern lands: its column, and its place in A D
+ * and in the ordered band (LAPACK's band storage), worked out once so
+ * that a load is one pass of stores. */
+static void place_value(kli_dense *d, int k, int row, int col) {
+  int i = d->p.band_row[row], j = d->p.band_col[col];
+  d->value_col[k] = col;
+  d->a_at[k] = (size_t)col * (size_t)d->p.n + (size_t)row;
+  /* AB(kl + ku + 1 + i - j, j), counted from 1 */
+  d->band_at[k] = (size_t)(d->p.band_lower + d->p.band_upper + i - j) +
+                  (size_t)j * (size_t)d->ldab;
+}
+
+static void place_values(kli_dense *d) {
+  int p;
+  for (p = 0; p < d->p.npairs; p++) {
+    place_value(d, 2 * p, d->p.row[p], d->p.col[p]);
+    place_value(d, 2 * p + 1, d->p.row[p] + 1, d->p.col[p]);
+  }
+  for (p = 0; p < d->p.nsingles; p++)
+    place_value(d, 2 * d->p.npairs + p, d->p.single_row[p],
+                d->p.single_col[p]);
 }
 
 int kli_dense_choose(const kli_dense *d, int kernel) {
@@ -50,53 +80,42 @@ void kli_dense_init(kli_dense *d, const double *colscale, int kernel) {
   memcpy(d->colscale, colscale, (size_t)d->p.n * sizeof(double));
   memset(d->a, 0, (size_t)d->p.n * (size_t)d->p.n * sizeof(double));
   d->anorm = 0.0;
+  place_values(d);
   kli_dense_use(d, kernel);
 }
 
-/* Places the scaled value v of entry (row, col) of A D in the ordered
- * band of the banded kernel (LAPACK's band storage). */
-static void band_put(kli_dense *d, int row, int col, double v) {
-  int i = d->p.band_row[row], j = d->p.band_col[col];
-  /* AB(kl + ku + 1 + i - j, j), counted from 1 */
-  d->ab[(size_t)(d->p.band_lower + d->p.band_upper + i - j) +
-        (size_t)j * (size_t)d->ldab] = v;
-}
-
-/* Places the scaled value v of entry (row, col): in the held matrix A D,
- * which the small and dense kernels factor and the damped steps read, and
- * in the band the banded kernel factors (a system without damped steps
- * factored by the banded kernel never touches its n x n matrix). */
-static void put(kli_dense *d, int row, int col, double v, double *colsum) {
-  if (d->kernel != KL_KERNEL_BANDED || d->p.damped)
-    d->a[(size_t)col * (size_t)d->p.n + (size_t)row] = v;
-  if (d->kernel == KL_KERNEL_BANDED)
-    band_put(d, row, col, v);
-  colsum[col] += fabs(v);
-}
-
-void kli_dense_load(kli_dense *d, const double *pairs) {
-  int p, n = d->p.n;
+void kli_dense_load(kli_dense *d, const double *values) {
+  int k, n = d->p.n, count = kli_dense_values(&d->p);
   /* the 1-norm from the same pass: column sums over the pattern */
   double *colsum = d->work;
-  for (p = 0; p < n; p++)
-    colsum[p] = 0.0;
-  if (d->kernel == KL_KERNEL_BANDED)
+  for (k = 0; k < n; k++)
+    colsum[k] = 0.0;
+  /* the held matrix A D, which the small and dense kernels factor and the
+   * damped steps read, and the band the banded kernel factors (a system
+   * without damped steps factored by the banded kernel never touches its
+   * n x n matrix) */
+  if (d->kernel != KL_KERNEL_BANDED) {
+    for (k = 0; k < count; k++) {
+      int col = d->value_col[k];
+      double v = values[k] * d->colscale[col];
+      d->a[d->a_at[k]] = v;
+      colsum[col] += fabs(v);
+    }
+  } else {
     memset(d->ab, 0, (size_t)d->ldab * (size_t)n * sizeof(double));
-  for (p = 0; p < d->p.npairs; p++) {
-    int col = d->p.col[p];
-    double scale = d->colscale[col];
-    put(d, d->p.row[p], col, pairs[2 * p] * scale, colsum);
-    put(d, d->p.row[p] + 1, col, pairs[2 * p + 1] * scale, colsum);
-  }
-  for (p = 0; p < d->p.nsingles; p++) {
-    int col = d->p.single_col[p];
-    put(d, d->p.single_row[p], col,
-        pairs[2 * d->p.npairs + p] * d->colscale[col], colsum);
+    for (k = 0; k < count; k++) {
+      int col = d->value_col[k];
+      double v = values[k] * d->colscale[col];
+      if (d->p.damped)
+        d->a[d->a_at[k]] = v;
+      d->ab[d->band_at[k]] = v;
+      colsum[col] += fabs(v);
+    }
   }
   d->anorm = 0.0;
-  for (p = 0; p < n; p++)
-    if (colsum[p] > d->anorm)
-      d->anorm = colsum[p];
+  for (k = 0; k < n; k++)
+    if (colsum[k] > d->anorm)
+      d->anorm = colsum[k];
 }
 
 /* ---- the small kernel: LU with partial pivoting, as dgetrf does it ---- */

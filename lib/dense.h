@@ -43,12 +43,18 @@ typedef struct {
   int *iwork;        /* n */
   double *normal;    /* n x n: A^T A + lambda I for damped steps (a
                         pattern with `damped` set only) */
+  /* Per value of the pattern (two per pair, then one per single), set by
+   * kli_dense_init: its column, and its offsets in a and in ab. */
+  int *value_col;
+  size_t *a_at, *band_at;
   double anorm;      /* 1-norm of a when loaded */
   int singular;      /* factorization met an exact zero pivot */
 } kli_dense;
 
 /* Carves the arrays for an n x n system with pattern p (kept by pointer). */
 void kli_dense_carve(kli_dense *d, kli_carver *c, const kli_pattern *p);
+/* The values a load takes for pattern p: two per pair, then one per single. */
+int kli_dense_values(const kli_pattern *p);
 /* Zeroes the matrix once (entries off the pattern stay zero for good),
  * takes the column scales (n values, copied) and chooses the kernel. */
 void kli_dense_init(kli_dense *d, const double *colscale, int kernel);
@@ -61,7 +67,7 @@ void kli_dense_use(kli_dense *d, int kernel);
 /* Scatters the pattern's values of A (two per pair, then one per single)
  * into A D as the kernel in use factors it: the n x n matrix, the band, or
  * both for a system with damped steps. */
-void kli_dense_load(kli_dense *d, const double *pairs);
+void kli_dense_load(kli_dense *d, const double *values);
 /* LU-factors the loaded matrix; 0, or 1 if a pivot is exactly zero. */
 int kli_dense_factor(kli_dense *d);
 /* Reciprocal condition number (1-norm) of the factored, scaled matrix:
