@@ -64,7 +64,11 @@ static double half_square(const double *f, int n) {
 static double evaluate(kl_solver *s, kli_pose *p, const double *q, double *f) {
   double norm;
   int i;
-  kli_add_unknowns(s->model, s->x_base, q, p->x);
+  /* the other coordinates are the inputs' share, set by start_poses */
+  for (i = 0; i < s->nmoving; i++) {
+    int c = s->moving_coord[i];
+    p->x[c] = s->x_base[c] + q[s->moving_var[i]];
+  }
   kli_pose_trig(s->model, p);
   s->stats.residual_evaluations++;
   norm = kli_residual(s->model, p, f);
@@ -76,6 +80,14 @@ static double evaluate(kl_solver *s, kli_pose *p, const double *q, double *f) {
     if (!(fabs(f[i]) <= norm))
       norm = fabs(f[i]); /* NaN propagates */
   return norm;
+}
+
+/* Both trial poses take the inputs' share s->x_base whole, once per solve,
+ * so that each evaluation writes only the unknowns' coordinates. */
+static void start_poses(kl_solver *s) {
+  size_t bytes = (size_t)s->ncoords * sizeof(double);
+  memcpy(s->trial[0].x, s->x_base, bytes);
+  memcpy(s->trial[1].x, s->x_base, bytes);
 }
 
 int kli_factor_at(kl_solver *s, const kli_pose *p) {
@@ -352,6 +364,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   kli_gather(s->model, s->st.pose.x, it.q);
   predict_from_tangent(s, it.q);
   kli_expand_inputs(s->model, s->u_trial, s->x_base);
+  start_poses(s);
   if (s->model->topo.redundancy > 0) {
     kli_add_unknowns(s->model, s->x_base, it.q, it.cur->x);
     kli_pose_trig(s->model, it.cur);
@@ -463,6 +476,7 @@ int kli_polish_position(kl_solver *s) {
   kli_pose_copy(s, cur, &s->st.pose);
   kli_gather(s->model, cur->x, s->q);
   kli_expand_inputs(s->model, s->st.u, s->x_base);
+  start_poses(s);
   fnorm = evaluate(s, cur, s->q, s->f);
   for (iter = 0; iter < KLI_POLISH_ITERATIONS; iter++) {
     double next_norm;
