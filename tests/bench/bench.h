@@ -20,6 +20,15 @@
 #define BENCH_ENTRY __attribute__((noinline))
 #else
 #define BENCH_ENTRY
+/* ---- part 5: a design study's sample ---- */
+
+typedef struct {
+  double sample_over_sweep; /* one study sample / one plain sweep, 1 thread */
+  int valid;                /* the sweep and every sample went through */
+} study_figures;
+
+void bench_study(FILE *out, const bench_plan *plan, study_figures *fig);
+
 #endif
 
 /* |F|inf every method must reach, in length units (absolute). */
@@ -166,5 +175,14 @@ typedef struct {
 } force_figures;
 
 void bench_forces(FILE *out, const bench_plan *plan, force_figures *fig);
+
+/* ---- part 5: a design study's sample ---- */
+
+typedef struct {
+  double sample_over_sweep; /* one study sample / one plain sweep, 1 thread */
+  int valid;                /* the sweep and every sample went through */
+} study_figures;
+
+void bench_study(FILE *out, const bench_plan *plan, study_figures *fig);
 
 #endif

@@ -45,7 +45,8 @@ int main(int argc, char **argv) {
   chain_figures chains = {0};
   thread_figures threads = {0};
   force_figures forces = {0};
-  target targets[9];
+  study_figures study = {0};
+  target targets[10];
   size_t i;
   int arg;
   for (arg = 1; arg < argc; arg++) {
@@ -66,6 +67,8 @@ int main(int argc, char **argv) {
   bench_threads(stdout, &plan, &fourbar, &threads);
   fflush(stdout);
   bench_forces(stdout, &plan, &forces);
+  fflush(stdout);
+  bench_study(stdout, &plan, &study);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -122,6 +125,12 @@ int main(int argc, char **argv) {
   targets[8].at_most = 1;
   targets[8].valid = fourbar.rates_valid && fourbar.hand_valid;
   targets[8].unit = "x";
+  targets[9].what = "study sample <= 3x a plain sweep (one thread)";
+  targets[9].measured = study.sample_over_sweep;
+  targets[9].limit = 3.0;
+  targets[9].at_most = 1;
+  targets[9].valid = study.valid;
+  targets[9].unit = "x";
   printf("\n== targets (ratios measured in this run%s) ==\n",
          plan.quick ? "; QUICK MODE: single samples, not for reporting" : "");
   printf("%-62s %10s  %s\n", "target", "measured", "verdict");
