@@ -1,8 +1,9 @@
 /*
  * dense.c - assembly of the sparse Jacobian values and its factorization by
  * the kernel that suits the system: a built-in LU for small systems, LAPACK
- * LU (dgetrf) for general dense ones, LAPACK banded LU (dgbtrf) for long
- * chains; solves, condition estimates and damped least-squares steps.
+ * LU (dgetrf) for general dense ones, banded LU in LAPACK's storage (the
+ * operations of its dgbtf2, built in) for long chains; solves, condition
+ * watches and estimates, and damped least-squares steps.
  */
 #include <math.h>
 #include <string.h>
@@ -229,6 +230,99 @@ static double small_inverse_norm(kli_dense *d) {
   return norm;
 }
 
+/* ---- the banded kernel: LAPACK's band storage and unblocked band LU ----
+ *
+ * dgbtrf factors bands as narrow as a chain's (kl below LAPACK's block
+ * size) with its unblocked dgbtf2, calling a BLAS routine for each column's
+ * pivot search, scaling and update: for such short columns the calls cost
+ * more than the arithmetic. band_factor and band_solve do dgbtf2's and
+ * dgbtrs' operations in the same order with the same roundings (the pivot
+ * is the first of largest magnitude, the multipliers are scaled by the
+ * pivot's reciprocal, an update adds x * (-y)), so that the factors and
+ * solutions are LAPACK's to the last bit, and dgbcon reads the factors as
+ * its own. */
+
+#define AB(row, col) d->ab[(size_t)(row) + (size_t)(col) * ld]
+
+static int band_factor(kli_dense *d) {
+  int n = d->p.n, kl = d->p.band_lower, ku = d->p.band_upper, kv = kl + ku;
+  int i, j, c, ju = 0, singular = 0;
+  size_t ld = (size_t)d->ldab;
+  for (j = ku + 1; j < (kv < n ? kv : n); j++) /* fill-in above the band */
+    for (i = kv - j; i < kl; i++)
+      AB(i, j) = 0.0;
+  for (j = 0; j < n; j++) {
+    int km = kl < n - 1 - j ? kl : n - 1 - j, jp = 0;
+    double best;
+    if (j + kv < n)
+      for (i = 0; i < kl; i++)
+        AB(i, j + kv) = 0.0;
+    best = fabs(AB(kv, j));
+    for (i = 1; i <= km; i++)
+      if (fabs(AB(kv + i, j)) > best) {
+        best = fabs(AB(kv + i, j));
+        jp = i;
+      }
+    d->ipiv[j] = jp + j + 1; /* LAPACK counts from 1 */
+    if (AB(kv + jp, j) == 0.0) {
+      singular = 1;
+      continue;
+    }
+    if (j + ku + jp > ju)
+      ju = j + ku + jp < n - 1 ? j + ku + jp : n - 1;
+    if (jp != 0) /* the rows along the band: one place up per column */
+      for (c = 0; c <= ju - j; c++) {
+        double t = AB(kv + jp - c, j + c);
+        AB(kv + jp - c, j + c) = AB(kv - c, j + c);
+        AB(kv - c, j + c) = t;
+      }
+    if (km > 0) {
+      double r = 1.0 / AB(kv, j);
+      for (i = 1; i <= km; i++)
+        AB(kv + i, j) = r * AB(kv + i, j);
+      for (c = 1; c <= ju - j; c++) {
+        double y = AB(kv - c, j + c);
+        if (y != 0.0) {
+          double t = -1.0 * y;
+          for (i = 1; i <= km; i++)
+            AB(kv + i - c, j + c) = AB(kv + i - c, j + c) + AB(kv + i, j) * t;
+        }
+      }
+    }
+  }
+  return singular;
+}
+
+/* Solves the ordered band system in place with band_factor's factors. */
+static void band_solve(const kli_dense *d, double *b) {
+  int n = d->p.n, kl = d->p.band_lower, kv = kl + d->p.band_upper, i, j;
+  size_t ld = (size_t)d->ldab;
+  for (j = 0; j < n - 1 && kl > 0; j++) {
+    int lm = kl < n - 1 - j ? kl : n - 1 - j, l = d->ipiv[j] - 1;
+    if (l != j) {
+      double t = b[l];
+      b[l] = b[j];
+      b[j] = t;
+    }
+    if (b[j] != 0.0) {
+      double t = -1.0 * b[j];
+      for (i = 1; i <= lm; i++)
+        b[j + i] = b[j + i] + AB(kv + i, j) * t;
+    }
+  }
+  for (j = n - 1; j >= 0; j--) {
+    if (b[j] != 0.0) {
+      double t;
+      b[j] = b[j] / AB(kv, j);
+      t = b[j];
+      for (i = j - 1; i >= 0 && i >= j - kv; i--)
+        b[i] = b[i] - t * AB(kv + i - j, j);
+    }
+  }
+}
+
+#undef AB
+
 int kli_dense_factor(kli_dense *d) {
   int n = d->p.n;
   lapack_int info = 0;
@@ -242,9 +336,8 @@ int kli_dense_factor(kli_dense *d) {
     return d->singular;
   case KL_KERNEL_BANDED:
     /* kli_dense_load filled the band */
-    info = LAPACKE_dgbtrf_work(LAPACK_COL_MAJOR, n, n, d->p.band_lower,
-                               d->p.band_upper, d->ab, d->ldab, d->ipiv);
-    break;
+    d->singular = band_factor(d);
+    return d->singular;
   default:
     memcpy(d->lu, d->a, (size_t)n * (size_t)n * sizeof(double));
     info = LAPACKE_dgetrf_work(LAPACK_COL_MAJOR, n, n, d->lu, n, d->ipiv);
@@ -415,8 +508,7 @@ void kli_dense_solve(const kli_dense *d, double *b) {
   case KL_KERNEL_BANDED:
     for (i = 0; i < n; i++)
       tmp[d->p.band_row[i]] = b[i];
-    LAPACKE_dgbtrs_work(LAPACK_COL_MAJOR, 'N', n, d->p.band_lower,
-                        d->p.band_upper, 1, d->ab, d->ldab, d->ipiv, tmp, n);
+    band_solve(d, tmp);
     for (i = 0; i < n; i++)
       b[i] = tmp[d->p.band_col[i]];
     break;
