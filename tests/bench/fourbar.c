@@ -476,6 +476,8 @@ void bench_fourbar(FILE *out, const bench_plan *plan, fourbar_figures *fig) {
           bench_ratio(&m[GNEWTON], &m[SMALL]));
   fprintf(out, ">> kinloop DENSE / AUTO (small kernel):     %6.2fx\n",
           bench_ratio(&m[DENSE], &m[SMALL]));
+  fprintf(out, ">> a four-bar solver's block (kl_solver_bytes): %zu bytes\n",
+          kl_solver_bytes(fig->f.m));
   fourbar_run_free(runs[CLOSED]);
   fourbar_run_free(runs[DENSE]);
   fourbar_run_free(runs[RATES]);
