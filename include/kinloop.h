@@ -795,8 +795,10 @@ typedef struct kl_solve_stats {
   double step;              /**< |dq|inf of the last Newton step */
   double rcond;             /**< reciprocal condition number (1-norm, slide columns scaled to
                                  lengths) at the last factored iterate, the solution or
-                                 one quadratically converged Newton step before it (how it
-                                 is estimated: docs/theory.md); 0 if singular */
+                                 one quadratically converged Newton step before it: exact
+                                 for 2 x 2 systems, else an estimate or, far from singular
+                                 (at least 1e-6 and singular_rcond), a guaranteed lower
+                                 bound (docs/theory.md 5.6); 0 if singular */
   int kernel;               /**< the enum kl_kernel that factored the system */
 } kl_solve_stats;
 

@@ -1,8 +1,9 @@
 /*
  * dense.c - assembly of the sparse Jacobian values and its factorization by
  * the kernel that suits the system: a built-in LU for small systems, LAPACK
- * LU (dgetrf) for general dense ones, LAPACK banded LU (dgbtrf) for long
- * chains; solves, condition estimates and damped least-squares steps.
+ * LU (dgetrf) for general dense ones, banded LU in LAPACK's storage (the
+ * operations of its dgbtf2, built in) for long chains; solves, condition
+ * watches and estimates, and damped least-squares steps.
  */
 #include <math.h>
 #include <string.h>
@@ -30,6 +31,36 @@ void kli_dense_carve(kli_dense *d, kli_carver *c, const kli_pattern *p) {
   d->work = kli_carve(c, 4 * n, sizeof(double));
   d->iwork = kli_carve(c, n, sizeof(int));
   d->normal = p->damped ? kli_carve(c, nn, sizeof(double)) : NULL;
+  d->value_col = kli_carve(c, (size_t)kli_dense_values(p), sizeof(int));
+  d->a_at = kli_carve(c, (size_t)kli_dense_values(p), sizeof(size_t));
+  d->band_at = kli_carve(c, (size_t)kli_dense_values(p), sizeof(size_t));
+}
+
+int kli_dense_values(const kli_pattern *p) {
+  return 2 * p->npairs + p->nsingles;
+}
+
+/* Where value k of the pattern lands: its column, and its place in A D
+ * and in the ordered band (LAPACK's band storage), worked out once so
+ * that a load is one pass of stores. */
+static void place_value(kli_dense *d, int k, int row, int col) {
+  int i = d->p.band_row[row], j = d->p.band_col[col];
+  d->value_col[k] = col;
+  d->a_at[k] = (size_t)col * (size_t)d->p.n + (size_t)row;
+  /* AB(kl + ku + 1 + i - j, j), counted from 1 */
+  d->band_at[k] = (size_t)(d->p.band_lower + d->p.band_upper + i - j) +
+                  (size_t)j * (size_t)d->ldab;
+}
+
+static void place_values(kli_dense *d) {
+  int p;
+  for (p = 0; p < d->p.npairs; p++) {
+    place_value(d, 2 * p, d->p.row[p], d->p.col[p]);
+    place_value(d, 2 * p + 1, d->p.row[p] + 1, d->p.col[p]);
+  }
+  for (p = 0; p < d->p.nsingles; p++)
+    place_value(d, 2 * d->p.npairs + p, d->p.single_row[p],
+                d->p.single_col[p]);
 }
 
 int kli_dense_choose(const kli_dense *d, int kernel) {
@@ -50,53 +81,42 @@ void kli_dense_init(kli_dense *d, const double *colscale, int kernel) {
   memcpy(d->colscale, colscale, (size_t)d->p.n * sizeof(double));
   memset(d->a, 0, (size_t)d->p.n * (size_t)d->p.n * sizeof(double));
   d->anorm = 0.0;
+  place_values(d);
   kli_dense_use(d, kernel);
 }
 
-/* Places the scaled value v of entry (row, col) of A D in the ordered
- * band of the banded kernel (LAPACK's band storage). */
-static void band_put(kli_dense *d, int row, int col, double v) {
-  int i = d->p.band_row[row], j = d->p.band_col[col];
-  /* AB(kl + ku + 1 + i - j, j), counted from 1 */
-  d->ab[(size_t)(d->p.band_lower + d->p.band_upper + i - j) +
-        (size_t)j * (size_t)d->ldab] = v;
-}
-
-/* Places the scaled value v of entry (row, col): in the held matrix A D,
- * which the small and dense kernels factor and the damped steps read, and
- * in the band the banded kernel factors (a system without damped steps
- * factored by the banded kernel never touches its n x n matrix). */
-static void put(kli_dense *d, int row, int col, double v, double *colsum) {
-  if (d->kernel != KL_KERNEL_BANDED || d->p.damped)
-    d->a[(size_t)col * (size_t)d->p.n + (size_t)row] = v;
-  if (d->kernel == KL_KERNEL_BANDED)
-    band_put(d, row, col, v);
-  colsum[col] += fabs(v);
-}
-
-void kli_dense_load(kli_dense *d, const double *pairs) {
-  int p, n = d->p.n;
+void kli_dense_load(kli_dense *d, const double *values) {
+  int k, n = d->p.n, count = kli_dense_values(&d->p);
   /* the 1-norm from the same pass: column sums over the pattern */
   double *colsum = d->work;
-  for (p = 0; p < n; p++)
-    colsum[p] = 0.0;
-  if (d->kernel == KL_KERNEL_BANDED)
+  for (k = 0; k < n; k++)
+    colsum[k] = 0.0;
+  /* the held matrix A D, which the small and dense kernels factor and the
+   * damped steps read, and the band the banded kernel factors (a system
+   * without damped steps factored by the banded kernel never touches its
+   * n x n matrix) */
+  if (d->kernel != KL_KERNEL_BANDED) {
+    for (k = 0; k < count; k++) {
+      int col = d->value_col[k];
+      double v = values[k] * d->colscale[col];
+      d->a[d->a_at[k]] = v;
+      colsum[col] += fabs(v);
+    }
+  } else {
     memset(d->ab, 0, (size_t)d->ldab * (size_t)n * sizeof(double));
-  for (p = 0; p < d->p.npairs; p++) {
-    int col = d->p.col[p];
-    double scale = d->colscale[col];
-    put(d, d->p.row[p], col, pairs[2 * p] * scale, colsum);
-    put(d, d->p.row[p] + 1, col, pairs[2 * p + 1] * scale, colsum);
-  }
-  for (p = 0; p < d->p.nsingles; p++) {
-    int col = d->p.single_col[p];
-    put(d, d->p.single_row[p], col,
-        pairs[2 * d->p.npairs + p] * d->colscale[col], colsum);
+    for (k = 0; k < count; k++) {
+      int col = d->value_col[k];
+      double v = values[k] * d->colscale[col];
+      if (d->p.damped)
+        d->a[d->a_at[k]] = v;
+      d->ab[d->band_at[k]] = v;
+      colsum[col] += fabs(v);
+    }
   }
   d->anorm = 0.0;
-  for (p = 0; p < n; p++)
-    if (colsum[p] > d->anorm)
-      d->anorm = colsum[p];
+  for (k = 0; k < n; k++)
+    if (colsum[k] > d->anorm)
+      d->anorm = colsum[k];
 }
 
 /* ---- the small kernel: LU with partial pivoting, as dgetrf does it ---- */
@@ -210,6 +230,99 @@ static double small_inverse_norm(kli_dense *d) {
   return norm;
 }
 
+/* ---- the banded kernel: LAPACK's band storage and unblocked band LU ----
+ *
+ * dgbtrf factors bands as narrow as a chain's (kl below LAPACK's block
+ * size) with its unblocked dgbtf2, calling a BLAS routine for each column's
+ * pivot search, scaling and update: for such short columns the calls cost
+ * more than the arithmetic. band_factor and band_solve do dgbtf2's and
+ * dgbtrs' operations in the same order with the same roundings (the pivot
+ * is the first of largest magnitude, the multipliers are scaled by the
+ * pivot's reciprocal, an update adds x * (-y)), so that the factors and
+ * solutions are LAPACK's to the last bit, and dgbcon reads the factors as
+ * its own. */
+
+#define AB(row, col) d->ab[(size_t)(row) + (size_t)(col) * ld]
+
+static int band_factor(kli_dense *d) {
+  int n = d->p.n, kl = d->p.band_lower, ku = d->p.band_upper, kv = kl + ku;
+  int i, j, c, ju = 0, singular = 0;
+  size_t ld = (size_t)d->ldab;
+  for (j = ku + 1; j < (kv < n ? kv : n); j++) /* fill-in above the band */
+    for (i = kv - j; i < kl; i++)
+      AB(i, j) = 0.0;
+  for (j = 0; j < n; j++) {
+    int km = kl < n - 1 - j ? kl : n - 1 - j, jp = 0;
+    double best;
+    if (j + kv < n)
+      for (i = 0; i < kl; i++)
+        AB(i, j + kv) = 0.0;
+    best = fabs(AB(kv, j));
+    for (i = 1; i <= km; i++)
+      if (fabs(AB(kv + i, j)) > best) {
+        best = fabs(AB(kv + i, j));
+        jp = i;
+      }
+    d->ipiv[j] = jp + j + 1; /* LAPACK counts from 1 */
+    if (AB(kv + jp, j) == 0.0) {
+      singular = 1;
+      continue;
+    }
+    if (j + ku + jp > ju)
+      ju = j + ku + jp < n - 1 ? j + ku + jp : n - 1;
+    if (jp != 0) /* the rows along the band: one place up per column */
+      for (c = 0; c <= ju - j; c++) {
+        double t = AB(kv + jp - c, j + c);
+        AB(kv + jp - c, j + c) = AB(kv - c, j + c);
+        AB(kv - c, j + c) = t;
+      }
+    if (km > 0) {
+      double r = 1.0 / AB(kv, j);
+      for (i = 1; i <= km; i++)
+        AB(kv + i, j) = r * AB(kv + i, j);
+      for (c = 1; c <= ju - j; c++) {
+        double y = AB(kv - c, j + c);
+        if (y != 0.0) {
+          double t = -1.0 * y;
+          for (i = 1; i <= km; i++)
+            AB(kv + i - c, j + c) = AB(kv + i - c, j + c) + AB(kv + i, j) * t;
+        }
+      }
+    }
+  }
+  return singular;
+}
+
+/* Solves the ordered band system in place with band_factor's factors. */
+static void band_solve(const kli_dense *d, double *b) {
+  int n = d->p.n, kl = d->p.band_lower, kv = kl + d->p.band_upper, i, j;
+  size_t ld = (size_t)d->ldab;
+  for (j = 0; j < n - 1 && kl > 0; j++) {
+    int lm = kl < n - 1 - j ? kl : n - 1 - j, l = d->ipiv[j] - 1;
+    if (l != j) {
+      double t = b[l];
+      b[l] = b[j];
+      b[j] = t;
+    }
+    if (b[j] != 0.0) {
+      double t = -1.0 * b[j];
+      for (i = 1; i <= lm; i++)
+        b[j + i] = b[j + i] + AB(kv + i, j) * t;
+    }
+  }
+  for (j = n - 1; j >= 0; j--) {
+    if (b[j] != 0.0) {
+      double t;
+      b[j] = b[j] / AB(kv, j);
+      t = b[j];
+      for (i = j - 1; i >= 0 && i >= j - kv; i--)
+        b[i] = b[i] - t * AB(kv + i - j, j);
+    }
+  }
+}
+
+#undef AB
+
 int kli_dense_factor(kli_dense *d) {
   int n = d->p.n;
   lapack_int info = 0;
@@ -223,9 +336,8 @@ int kli_dense_factor(kli_dense *d) {
     return d->singular;
   case KL_KERNEL_BANDED:
     /* kli_dense_load filled the band */
-    info = LAPACKE_dgbtrf_work(LAPACK_COL_MAJOR, n, n, d->p.band_lower,
-                               d->p.band_upper, d->ab, d->ldab, d->ipiv);
-    break;
+    d->singular = band_factor(d);
+    return d->singular;
   default:
     memcpy(d->lu, d->a, (size_t)n * (size_t)n * sizeof(double));
     info = LAPACKE_dgetrf_work(LAPACK_COL_MAJOR, n, n, d->lu, n, d->ipiv);
@@ -254,6 +366,92 @@ double kli_dense_rcond(kli_dense *d) {
                                d->anorm, &rcond, d->work, d->iwork);
   }
   return info == 0 ? rcond : 0.0;
+}
+
+/*
+ * An upper bound on |(A D)^-1|_1 from the LAPACK kernels' factors, with
+ * absolute values throughout (docs/theory.md, "Watching the condition"):
+ * for A D = P L U, |(A D)^-1| <= M(U)^-1 |L^-1| entrywise, M(U) being U
+ * with its off-diagonal entries negated in absolute value, so e^T of that
+ * product, one transposed triangular pass through each factor, bounds
+ * every column sum. Inf when it overflows (or a pivot is zero).
+ */
+static double dense_inverse_bound(kli_dense *d) {
+  int n = d->p.n, i, j;
+  const double *lu = d->lu;
+  double *y = d->work, bound = 0.0;
+  for (j = 0; j < n; j++) { /* M(U)^T y = e */
+    double sum = 1.0;
+    for (i = 0; i < j; i++)
+      sum += fabs(lu[i + (size_t)j * (size_t)n]) * y[i];
+    y[j] = sum / fabs(lu[j + (size_t)j * (size_t)n]);
+  }
+  for (i = n - 1; i >= 0; i--) { /* M(L)^T z = y, unit diagonal */
+    double sum = y[i];
+    for (j = i + 1; j < n; j++)
+      sum += fabs(lu[j + (size_t)i * (size_t)n]) * y[j];
+    y[i] = sum;
+    bound = fmax(bound, sum);
+  }
+  return bound;
+}
+
+/* The same bound from dgbtrf's band: U has kl + ku bands above its
+ * diagonal; L is the product of the elimination steps, each a row
+ * interchange and one column of at most kl multipliers, gone through in
+ * reverse as dgbtrs does for the transposed system. */
+static double band_inverse_bound(kli_dense *d) {
+  int n = d->p.n, kl = d->p.band_lower, kv = kl + d->p.band_upper, i, j;
+  const double *ab = d->ab;
+  size_t ld = (size_t)d->ldab;
+  double *y = d->work, bound = 0.0;
+  for (j = 0; j < n; j++) { /* M(U)^T y = e */
+    double sum = 1.0;
+    for (i = j - kv > 0 ? j - kv : 0; i < j; i++)
+      sum += fabs(ab[(size_t)(kv + i - j) + (size_t)j * ld]) * y[i];
+    y[j] = sum / fabs(ab[(size_t)kv + (size_t)j * ld]);
+  }
+  for (j = n - 2; j >= 0; j--) { /* each step's |L_j^-1| P_j, reversed */
+    int rows = kl < n - 1 - j ? kl : n - 1 - j, piv = d->ipiv[j] - 1;
+    double sum = y[j], t;
+    for (i = 1; i <= rows; i++)
+      sum += fabs(ab[(size_t)(kv + i) + (size_t)j * ld]) * y[j + i];
+    y[j] = sum;
+    t = y[j];
+    y[j] = y[piv];
+    y[piv] = t;
+  }
+  for (i = 0; i < n; i++)
+    bound = fmax(bound, y[i]);
+  return bound;
+}
+
+/* The exact 1-norm condition of a 2 x 2 matrix: its inverse is the
+ * adjugate over the determinant, whose column sums are A's row sums. */
+static double small_rcond2(const kli_dense *d) {
+  const double *a = d->a;
+  double det = fabs(d->lu[0] * d->lu[3]);
+  double rows = fmax(fabs(a[0]) + fabs(a[2]), fabs(a[1]) + fabs(a[3]));
+  return det / (d->anorm * rows);
+}
+
+double kli_dense_rcond_at_least(kli_dense *d, double needed) {
+  double bound;
+  if (d->p.n == 0)
+    return 1.0;
+  if (d->singular || d->anorm == 0.0)
+    return 0.0;
+  switch (d->kernel) {
+  case KL_KERNEL_SMALL:
+    return d->p.n == 2 ? small_rcond2(d) : kli_dense_rcond(d);
+  case KL_KERNEL_BANDED:
+    bound = band_inverse_bound(d);
+    break;
+  default:
+    bound = dense_inverse_bound(d);
+  }
+  bound = 1.0 / (d->anorm * bound); /* 0 when the bound overflowed */
+  return bound >= needed ? bound : kli_dense_rcond(d);
 }
 
 /* The i-th pivot of the factors, whichever kernel made them. */
@@ -310,8 +508,7 @@ void kli_dense_solve(const kli_dense *d, double *b) {
   case KL_KERNEL_BANDED:
     for (i = 0; i < n; i++)
       tmp[d->p.band_row[i]] = b[i];
-    LAPACKE_dgbtrs_work(LAPACK_COL_MAJOR, 'N', n, d->p.band_lower,
-                        d->p.band_upper, 1, d->ab, d->ldab, d->ipiv, tmp, n);
+    band_solve(d, tmp);
     for (i = 0; i < n; i++)
       b[i] = tmp[d->p.band_col[i]];
     break;

@@ -43,12 +43,18 @@ typedef struct {
   int *iwork;        /* n */
   double *normal;    /* n x n: A^T A + lambda I for damped steps (a
                         pattern with `damped` set only) */
+  /* Per value of the pattern (two per pair, then one per single), set by
+   * kli_dense_init: its column, and its offsets in a and in ab. */
+  int *value_col;
+  size_t *a_at, *band_at;
   double anorm;      /* 1-norm of a when loaded */
   int singular;      /* factorization met an exact zero pivot */
 } kli_dense;
 
 /* Carves the arrays for an n x n system with pattern p (kept by pointer). */
 void kli_dense_carve(kli_dense *d, kli_carver *c, const kli_pattern *p);
+/* The values a load takes for pattern p: two per pair, then one per single. */
+int kli_dense_values(const kli_pattern *p);
 /* Zeroes the matrix once (entries off the pattern stay zero for good),
  * takes the column scales (n values, copied) and chooses the kernel. */
 void kli_dense_init(kli_dense *d, const double *colscale, int kernel);
@@ -61,13 +67,21 @@ void kli_dense_use(kli_dense *d, int kernel);
 /* Scatters the pattern's values of A (two per pair, then one per single)
  * into A D as the kernel in use factors it: the n x n matrix, the band, or
  * both for a system with damped steps. */
-void kli_dense_load(kli_dense *d, const double *pairs);
+void kli_dense_load(kli_dense *d, const double *values);
 /* LU-factors the loaded matrix; 0, or 1 if a pivot is exactly zero. */
 int kli_dense_factor(kli_dense *d);
 /* Reciprocal condition number (1-norm) of the factored, scaled matrix:
  * exact for the small kernel, LAPACK's dgecon / dgbcon estimate otherwise;
  * 0 when the factorization was singular. */
 double kli_dense_rcond(kli_dense *d);
+/* rcond, or a cheaper guaranteed lower bound on it when that shows it at
+ * least `needed`: exact for the small kernel's 2 x 2 systems (closed form)
+ * and as kli_dense_rcond for its others; for the LAPACK kernels a bound
+ * from the factors' absolute values (one transposed pass through each),
+ * and LAPACK's estimate only when the bound is below `needed`. The bound
+ * never exceeds the true rcond, which never exceeds the estimate, so a
+ * test rcond < t with t <= needed gives the verdict the estimate would. */
+double kli_dense_rcond_at_least(kli_dense *d, double needed);
 /* Sign of the determinant of the factored matrix (+1 or -1; 0 when
  * singular); the column scales are positive and do not change it. */
 int kli_dense_det_sign(const kli_dense *d);

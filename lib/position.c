@@ -29,6 +29,12 @@
 #define KLI_STALL_RATIO 0.999
 #define KLI_STALL_ITERATIONS 4
 
+/* Above this rcond a position is far from every test the library makes
+ * of it (the option singular_rcond is below 1e-3 and is taken as well;
+ * the sweep changes its predictor below 1e-6), so that a guaranteed lower
+ * bound at least this large stands in for the condition estimate. */
+#define KLI_RCOND_FAR 1e-6
+
 /* |v|inf with slides measured in units of the model's scale. */
 static double scaled_norm(const kl_solver *s, const double *v) {
   const kl_model *m = s->model;
@@ -58,7 +64,11 @@ static double half_square(const double *f, int n) {
 static double evaluate(kl_solver *s, kli_pose *p, const double *q, double *f) {
   double norm;
   int i;
-  kli_add_unknowns(s->model, s->x_base, q, p->x);
+  /* the other coordinates are the inputs' share, set by start_poses */
+  for (i = 0; i < s->nmoving; i++) {
+    int c = s->moving_coord[i];
+    p->x[c] = s->x_base[c] + q[s->moving_var[i]];
+  }
   kli_pose_trig(s->model, p);
   s->stats.residual_evaluations++;
   norm = kli_residual(s->model, p, f);
@@ -72,6 +82,14 @@ static double evaluate(kl_solver *s, kli_pose *p, const double *q, double *f) {
   return norm;
 }
 
+/* Both trial poses take the inputs' share s->x_base whole, once per solve,
+ * so that each evaluation writes only the unknowns' coordinates. */
+static void start_poses(kl_solver *s) {
+  size_t bytes = (size_t)s->ncoords * sizeof(double);
+  memcpy(s->trial[0].x, s->x_base, bytes);
+  memcpy(s->trial[1].x, s->x_base, bytes);
+}
+
 int kli_factor_at(kl_solver *s, const kli_pose *p) {
   const kl_model *m = s->model;
   kli_jacobian_pairs(m, p, s->pairs);
@@ -82,6 +100,19 @@ int kli_factor_at(kl_solver *s, const kli_pose *p) {
     kli_dense_load(&s->dense, s->pairs);
   }
   return kli_dense_factor(&s->dense);
+}
+
+/*
+ * The factors' rcond as far as the tests of it need: a cheap guaranteed
+ * lower bound where that already clears them, LAPACK's estimate otherwise
+ * (kli_dense_rcond_at_least). With redundant constraints the dropped rows
+ * are held to a tolerance over rcond, so they get the estimate itself.
+ */
+static double watch_condition(kl_solver *s) {
+  double needed = s->model->topo.redundancy > 0
+                      ? HUGE_VAL
+                      : fmax(s->singular_rcond, KLI_RCOND_FAR);
+  return kli_dense_rcond_at_least(&s->dense, needed);
 }
 
 /* With redundant constraints: a loop keeping one row keeps it along the
@@ -333,6 +364,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   kli_gather(s->model, s->st.pose.x, it.q);
   predict_from_tangent(s, it.q);
   kli_expand_inputs(s->model, s->u_trial, s->x_base);
+  start_poses(s);
   if (s->model->topo.redundancy > 0) {
     kli_add_unknowns(s->model, s->x_base, it.q, it.cur->x);
     kli_pose_trig(s->model, it.cur);
@@ -409,7 +441,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   s->stats.iterations = iter;
   s->stats.residual = it.fnorm;
   s->stats.step = singular ? NAN : step;
-  s->stats.rcond = kli_dense_rcond(&s->dense);
+  s->stats.rcond = watch_condition(s);
   if (singular || s->stats.rcond < s->singular_rcond) {
     st = kli_fail(s->error, KL_ESINGULAR,
                   "solve position: the Jacobian is singular at the solution "
@@ -444,6 +476,7 @@ int kli_polish_position(kl_solver *s) {
   kli_pose_copy(s, cur, &s->st.pose);
   kli_gather(s->model, cur->x, s->q);
   kli_expand_inputs(s->model, s->st.u, s->x_base);
+  start_poses(s);
   fnorm = evaluate(s, cur, s->q, s->f);
   for (iter = 0; iter < KLI_POLISH_ITERATIONS; iter++) {
     double next_norm;
@@ -487,7 +520,7 @@ int kli_require_position(kl_solver *s, const char *stage) {
   if (!s->factors_current) {
     choose_directions(s, &s->st.pose);
     kli_factor_at(s, &s->st.pose);
-    s->st.rcond = kli_dense_rcond(&s->dense);
+    s->st.rcond = watch_condition(s);
     s->factors_current = 1;
   }
   if (s->st.rcond < s->singular_rcond || s->dense.singular)

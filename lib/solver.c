@@ -87,6 +87,8 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   carve_pose(&t->trial[1], c, nc, nl);
   t->u_trial = kli_carve(c, (size_t)ni, sizeof(double));
   t->x_base = kli_carve(c, (size_t)nc, sizeof(double));
+  t->moving_coord = kli_carve(c, (size_t)nc, sizeof(int));
+  t->moving_var = kli_carve(c, (size_t)nc, sizeof(int));
   t->u_unit = kli_carve(c, (size_t)ni, sizeof(double));
   t->q = kli_carve(c, (size_t)n, sizeof(double));
   t->dq = kli_carve(c, (size_t)n, sizeof(double));
@@ -208,6 +210,12 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   kl_options_default(&s->opt);
   s->singular_rcond = s->opt.singular_rcond;
   s->last_passage = NAN;
+  s->nmoving = 0;
+  for (i = 0; i < s->ncoords; i++)
+    if (m->topo.coord_var[i] >= 0) {
+      s->moving_coord[s->nmoving] = i;
+      s->moving_var[s->nmoving++] = m->topo.coord_var[i];
+    }
   /* slide columns of the Jacobian are unitless: scale them to lengths */
   for (i = 0; i < s->n; i++)
     s->rhs[i] = m->topo.var_coord[i] < m->nlinks ? 1.0 : m->topo.scale;

@@ -69,6 +69,9 @@ struct kl_solver {
   kli_pose trial[2];      /* Newton's current and trial iterates */
   double *u_trial;
   double *x_base;         /* ncoords: the coordinates the inputs alone give */
+  /* The coordinates an unknown moves (a group's links share one) and its
+   * unknown, listed once at creation for the position stage's updates. */
+  int *moving_coord, *moving_var, nmoving;
   double *u_unit;         /* a unit input vector for the coefficients */
   double *q, *dq, *q_next;
   double *f, *f_next, *grad;

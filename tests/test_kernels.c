@@ -188,6 +188,108 @@ START_TEST(fivebar_and_chains_agree_across_kernels) {
 }
 END_TEST
 
+/* The reported rcond with the kernel forced to `kernel`, after solving
+ * from `from` at input u (KL_OK asserted). */
+static double rcond_with(const kl_model *m, const kl_solver *from, int kernel,
+                         double u) {
+  kl_solver *s = solver_with_kernel(m, kernel);
+  kl_solve_stats st;
+  st.size = sizeof st;
+  kl_solver_copy_state(s, from);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  kl_solver_stats(s, &st);
+  ck_assert_int_eq(st.kernel, kernel);
+  kl_solver_free(s);
+  return st.rcond;
+}
+
+/*
+ * The four-bar's 2 x 2 loop Jacobian in the coupler and rocker angles,
+ * J = [-b sin t3, c sin t4; b cos t3, -c cos t4] (the loop equation
+ * differentiated, common practice, no source), has the exact 1-norm
+ * condition |det J| / (|J|_1 |J|_inf), since J^-1 is its adjugate over
+ * det J. The small kernel reports it (to 1e-4: the factors may be one
+ * quadratically converged step, below 1e-5 rad, from the closed form's
+ * angles, kl_solve_stats); the LAPACK kernels report at most it
+ * (a lower bound from the factors, or LAPACK's estimate where the bound is
+ * low) and, this far from a singular position, at least 1e-6.
+ */
+START_TEST(rcond_of_the_fourbar_is_exact_or_a_lower_bound) {
+  fourbar f = build_fourbar(40, 120, 80, 100);
+  kl_solver *start = kl_solver_new(f.m);
+  double u, t3, t4, zero = 0.0;
+  int k, step;
+  ck_assert(freudenstein(&f, 0.0, +1, &t3, &t4));
+  kl_set_link_angle(start, f.coupler, t3);
+  kl_set_link_angle(start, f.rocker, t4);
+  ck_assert_int_eq(kl_solve_position(start, &zero), KL_OK);
+  for (step = 1; step < 36; step++) {
+    double j00, j01, j10, j11, exact;
+    u = step * PI / 18;
+    ck_assert(freudenstein(&f, u, +1, &t3, &t4));
+    j00 = -f.b * sin(t3), j01 = f.c * sin(t4);
+    j10 = f.b * cos(t3), j11 = -f.c * cos(t4);
+    exact = fabs(j00 * j11 - j01 * j10) /
+            (fmax(fabs(j00) + fabs(j10), fabs(j01) + fabs(j11)) *
+             fmax(fabs(j00) + fabs(j01), fabs(j10) + fabs(j11)));
+    for (k = 0; k < 3; k++) {
+      double r = rcond_with(f.m, start, kernels[k], u);
+      if (kernels[k] == KL_KERNEL_SMALL)
+        ck_assert_msg(fabs(r - exact) <= 1e-4 * exact,
+                      "small %.17g exact %.17g", r, exact);
+      else
+        ck_assert_msg(r <= exact * (1 + 1e-4) && r >= 1e-6,
+                      "kernel %d: %.17g, exact %.17g", kernels[k], r, exact);
+    }
+  }
+  kl_solver_free(start);
+  kl_model_free(f.m);
+}
+END_TEST
+
+/* A chain of 5 loops (10 unknowns): the small kernel's rcond is exact (the
+ * inverse column by column); the LAPACK kernels' never exceeds it. */
+START_TEST(rcond_of_a_chain_never_exceeds_the_exact_one) {
+  chain c = build_chain(5);
+  kl_solver *start = kl_solver_new(c.m);
+  double zero = 0.0, u;
+  int k, step;
+  sketch_chain(&c, start, 0.0);
+  ck_assert_int_eq(kl_solve_position(start, &zero), KL_OK);
+  for (step = 1; step < 36; step++) {
+    double exact;
+    u = step * PI / 18;
+    exact = rcond_with(c.m, start, KL_KERNEL_SMALL, u);
+    for (k = 1; k < 3; k++) {
+      double r = rcond_with(c.m, start, kernels[k], u);
+      ck_assert_msg(r <= exact * (1 + 1e-9) && r > 0.0,
+                    "kernel %d at %g: %.17g, exact %.17g", kernels[k], u, r,
+                    exact);
+    }
+  }
+  kl_solver_free(start);
+  kl_model_free(c.m);
+}
+END_TEST
+
+/* A parallelogram at its change point (all four links in line) is singular
+ * whichever kernel factors it: the cheaper condition watch keeps the
+ * verdict. */
+START_TEST(change_point_is_singular_with_every_kernel) {
+  fourbar p = build_fourbar(40, 100, 40, 100);
+  double u = 0.0;
+  int k;
+  for (k = 0; k < 3; k++) {
+    kl_solver *s = solver_with_kernel(p.m, kernels[k]);
+    kl_set_link_angle(s, p.coupler, 0.02);
+    kl_set_link_angle(s, p.rocker, 0.03);
+    ck_assert_int_eq(kl_solve_position(s, &u), KL_ESINGULAR);
+    kl_solver_free(s);
+  }
+  kl_model_free(p.m);
+}
+END_TEST
+
 /*
  * Rates from the factors at the converged position agree with the closed
  * forms of the differentiated loop (see test_rates.c for their derivation)
@@ -270,6 +372,9 @@ int main(void) {
   tcase_add_test(tc, fivebar_and_chains_agree_across_kernels);
   tcase_add_test(tc, rates_agree_with_closed_form_to_1e_12);
   tcase_add_test(tc, auto_chooses_by_size_and_band);
+  tcase_add_test(tc, rcond_of_the_fourbar_is_exact_or_a_lower_bound);
+  tcase_add_test(tc, rcond_of_a_chain_never_exceeds_the_exact_one);
+  tcase_add_test(tc, change_point_is_singular_with_every_kernel);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }

@@ -221,7 +221,9 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "\n"
     "Samples that do not assemble are counted, never left out silently. A\n"
     "study that cannot be read exits with 3, one whose nominal does not\n"
-    "solve or move through the sweep with 4.\n",
+    "solve or move through the sweep with 4. Ctrl-C or SIGTERM stops it\n"
+    "after the chunk under way: the summary and files then cover the\n"
+    "samples done, marked PARTIAL, and it exits with 130 or 143.\n",
     /* forces */
     cli_forces_help};
 

@@ -3,6 +3,7 @@
  * study), runs its samples on threads, prints the summary, writes the CSV.
  */
 #define _POSIX_C_SOURCE 200809L /* clock_gettime, isatty */
+#include <signal.h>
 #include <stdint.h>
 #include <stdlib.h>
 #include <string.h>
@@ -62,26 +63,49 @@ static kl_study *read_study(const char *path, int *exit_code) {
   return st;
 }
 
-/* Runs every sample in chunks, showing the progress on a terminal once the
- * study has taken a while. Returns the wall time in *seconds and a KL
- * status. */
+/* The signal (SIGINT, SIGTERM) that asked the study to stop, 0 if none:
+ * the run ends after the chunk under way, and the samples done so far are
+ * summarized as a partial study. */
+static volatile sig_atomic_t stop_signal = 0;
+
+static void ask_to_stop(int sig) { stop_signal = sig; }
+
+/* Runs the samples in chunks, showing the progress (samples, rate, time
+ * left) on a terminal once the study has taken a while, until all are done
+ * or a signal asks it to stop. Returns the samples done in *done, the wall
+ * time in *seconds and a KL status. */
 static int run_all(const kl_study *st, int threads, double *values,
-                   int *status, double *dims, double *seconds) {
-  long n = kl_study_sample_count(st), done = 0;
+                   int *status, double *dims, long *done, double *seconds) {
+  long n = kl_study_sample_count(st);
   long chunk = (long)SAMPLES_PER_THREAD * threads;
   int nout = kl_study_output_count(st), ndim = kl_study_dimension_count(st);
   int terminal = isatty(fileno(stderr)), shown = 0, result = KL_OK;
   double start = seconds_now();
-  while (done < n && result == KL_OK) {
-    long count = n - done < chunk ? n - done : chunk;
-    result = kl_study_run(st, done, count, threads, values + done * nout,
-                          status + done,
-                          dims == NULL ? NULL : dims + done * ndim);
-    done += count;
-    if (terminal && seconds_now() - start >= PROGRESS_AFTER_S)
-      shown = fprintf(stderr, "\rkinloop: study, %ld of %ld samples (%3.0f%%)",
-                      done, n, 100.0 * (double)done / (double)n);
+  struct sigaction stop, old_int, old_term;
+  memset(&stop, 0, sizeof stop);
+  stop.sa_handler = ask_to_stop;
+  sigemptyset(&stop.sa_mask);
+  sigaction(SIGINT, &stop, &old_int);
+  sigaction(SIGTERM, &stop, &old_term);
+  *done = 0;
+  while (*done < n && result == KL_OK && stop_signal == 0) {
+    long count = n - *done < chunk ? n - *done : chunk;
+    double elapsed, rate;
+    result = kl_study_run(st, *done, count, threads, values + *done * nout,
+                          status + *done,
+                          dims == NULL ? NULL : dims + *done * ndim);
+    *done += count;
+    elapsed = seconds_now() - start;
+    rate = (double)*done / elapsed;
+    if (terminal && elapsed >= PROGRESS_AFTER_S)
+      shown = fprintf(stderr,
+                      "\rkinloop: study, %ld of %ld samples (%3.0f%%), "
+                      "%.0f samples/s, %.0f s left   ",
+                      *done, n, 100.0 * (double)*done / (double)n, rate,
+                      (double)(n - *done) / rate);
   }
+  sigaction(SIGINT, &old_int, NULL);
+  sigaction(SIGTERM, &old_term, NULL);
   *seconds = seconds_now() - start;
   if (shown > 0) /* the line's width, blanked */
     fprintf(stderr, "\r%*s\r", shown, "");
@@ -138,13 +162,13 @@ int cli_cmd_study(const cli_options *o) {
   const char *label = o->model_path != NULL ? o->model_path : DEMO_LABEL;
   double *values = NULL, *dims = NULL, seconds;
   int *status = NULL;
-  long n;
+  long n, planned;
   size_t widest;
   FILE *f;
   cli_study_samples s;
   if (st == NULL)
     return exit_code;
-  n = kl_study_sample_count(st);
+  n = planned = kl_study_sample_count(st);
   nout = kl_study_output_count(st);
   ndim = kl_study_dimension_count(st);
   widest = (size_t)(nout > ndim ? nout : ndim);
@@ -158,7 +182,7 @@ int cli_cmd_study(const cli_options *o) {
   if (want_dims)
     dims = malloc((size_t)(n > 0 ? n : 1) * widest * sizeof *dims);
   if (values == NULL || status == NULL || (want_dims && dims == NULL) ||
-      run_all(st, threads, values, status, dims, &seconds) != KL_OK) {
+      run_all(st, threads, values, status, dims, &n, &seconds) != KL_OK) {
     cli_error("out of memory running %ld samples of %s", n, label);
     exit_code = CLI_EXIT_MEMORY;
     goto done;
@@ -167,6 +191,12 @@ int cli_cmd_study(const cli_options *o) {
     exit_code = CLI_EXIT_OUTPUT;
     goto done;
   }
+  if (n < planned) /* stopped by a signal: every file holds what was done */
+    fprintf(f,
+            "PARTIAL STUDY: stopped by %s after %ld of %ld samples; the "
+            "summary, CSV and charts cover those samples only\n",
+            stop_signal == SIGINT ? "an interrupt (SIGINT)" : "SIGTERM", n,
+            planned);
   if (study_report_print(f, st, label, values, status, n) != KL_OK) {
     cli_error("out of memory summarizing %s", label);
     cli_close_output(f, o->output);
@@ -198,5 +228,8 @@ done:
   free(status);
   free(dims);
   kl_study_free(st);
-  return exit_code;
+  /* a stopped study ends as the shell expects of the signal: 128 + its
+   * number (130 for Ctrl-C), after writing what it did */
+  return stop_signal != 0 && exit_code == CLI_EXIT_OK ? 128 + stop_signal
+                                                       : exit_code;
 }

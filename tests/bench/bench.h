@@ -20,6 +20,15 @@
 #define BENCH_ENTRY __attribute__((noinline))
 #else
 #define BENCH_ENTRY
+/* ---- part 5: a design study's sample ---- */
+
+typedef struct {
+  double sample_over_sweep; /* one study sample / one plain sweep, 1 thread */
+  int valid;                /* the sweep and every sample went through */
+} study_figures;
+
+void bench_study(FILE *out, const bench_plan *plan, study_figures *fig);
+
 #endif
 
 /* |F|inf every method must reach, in length units (absolute). */
@@ -120,8 +129,12 @@ typedef struct {
    * velocity + acceleration over the closed form, GSL hybridsj over kinloop
    * position */
   double small_ratio, rates_ratio, hybridsj_ratio;
+  /* kinloop position over the hand-written Newton iteration, and kinloop
+   * position + velocity + acceleration over the hand-written Newton with
+   * its hand-written rate and acceleration formulas */
+  double hand_ratio, hand_rates_ratio;
   /* no failed step and errors within BENCH_MAX_ERROR */
-  int small_valid, rates_valid;
+  int small_valid, rates_valid, hand_valid;
 } fourbar_figures;
 
 /* Runs and prints part 1; fig keeps the model, the start and the small
@@ -162,5 +175,14 @@ typedef struct {
 } force_figures;
 
 void bench_forces(FILE *out, const bench_plan *plan, force_figures *fig);
+
+/* ---- part 5: a design study's sample ---- */
+
+typedef struct {
+  double sample_over_sweep; /* one study sample / one plain sweep, 1 thread */
+  int valid;                /* the sweep and every sample went through */
+} study_figures;
+
+void bench_study(FILE *out, const bench_plan *plan, study_figures *fig);
 
 #endif

@@ -125,6 +125,78 @@ BENCH_ENTRY static void bench_fourbar_kinloop_rates(void *run) {
   fourbar_kinloop_pass(run);
 }
 
+/* ---- the hand-written Newton iteration ---- */
+
+/*
+ * What a user writes by hand for this one linkage (textbook Newton-Raphson
+ * on the two loop equations, common practice, no source): from the
+ * previous solution, F(t3, t4) = a e(t2) + b e(t3) - c e(t4) - (d, 0), its
+ * 2 x 2 Jacobian J = [-b sin t3, c sin t4; b cos t3, -c cos t4] solved by
+ * Cramer's rule, until |F|inf < BENCH_RESIDUAL. The rates and
+ * accelerations solve the same J against the loop equation differentiated
+ * once and twice in time (unit crank rate, no crank acceleration):
+ *   J (w3, w4) = (a sin t2, -a cos t2),
+ *   J (a3, a4) = (a cos t2 + b w3^2 cos t3 - c w4^2 cos t4,
+ *                 a sin t2 + b w3^2 sin t3 - c w4^2 sin t4).
+ */
+static void hand_pass(fourbar_run *r, double t3, double t4) {
+  const fourbar *f = r->f;
+  int i, iter;
+  r->iterations = 0;
+  r->failures = 0;
+  for (i = 0; i < r->steps; i++) {
+    double t2 = crank_angle(i), c2 = cos(t2), s2 = sin(t2);
+    double c3 = cos(t3), s3 = sin(t3), c4 = cos(t4), s4 = sin(t4);
+    double j00, j01, j10, j11, det;
+    for (iter = 0;; iter++) {
+      double fx = f->a * c2 + f->b * c3 - f->c * c4 - f->d;
+      double fy = f->a * s2 + f->b * s3 - f->c * s4;
+      j00 = -f->b * s3;
+      j01 = f->c * s4;
+      j10 = f->b * c3;
+      j11 = -f->c * c4;
+      det = j00 * j11 - j01 * j10;
+      if (fmax(fabs(fx), fabs(fy)) < BENCH_RESIDUAL)
+        break;
+      if (iter == BENCH_GSL_MAX_ITERATIONS || det == 0.0) {
+        r->failures++;
+        break;
+      }
+      t3 -= (fx * j11 - j01 * fy) / det;
+      t4 -= (j00 * fy - fx * j10) / det;
+      c3 = cos(t3), s3 = sin(t3), c4 = cos(t4), s4 = sin(t4);
+    }
+    r->iterations += iter;
+    r->t3[i] = t3;
+    r->t4[i] = t4;
+    if (r->with_rates) {
+      double vx = f->a * s2, vy = -f->a * c2, w3, w4, ax, ay;
+      w3 = (vx * j11 - j01 * vy) / det;
+      w4 = (j00 * vy - vx * j10) / det;
+      ax = f->a * c2 + f->b * w3 * w3 * c3 - f->c * w4 * w4 * c4;
+      ay = f->a * s2 + f->b * w3 * w3 * s3 - f->c * w4 * w4 * s4;
+      r->w3[i] = w3;
+      r->w4[i] = w4;
+      r->a3[i] = (ax * j11 - j01 * ay) / det;
+      r->a4[i] = (j00 * ay - ax * j10) / det;
+    }
+  }
+}
+
+typedef struct {
+  fourbar_run base;
+  double start_t3, start_t4;
+} hand_run;
+
+BENCH_ENTRY static void bench_fourbar_hand_newton(void *run) {
+  hand_run *h = run;
+  hand_pass(&h->base, h->start_t3, h->start_t4);
+}
+BENCH_ENTRY static void bench_fourbar_hand_rates(void *run) {
+  hand_run *h = run;
+  hand_pass(&h->base, h->start_t3, h->start_t4);
+}
+
 /* ---- GSL ---- */
 
 typedef struct {
@@ -264,7 +336,8 @@ static void rate_errors(const fourbar_run *r, const fourbar_run *ref,
 
 /* ---- the table ---- */
 
-enum { CLOSED, SMALL, DENSE, RATES, HYBRIDSJ, GNEWTON, METHODS };
+enum { CLOSED, SMALL, DENSE, RATES, HAND, HAND_RATES, HYBRIDSJ, GNEWTON,
+       METHODS };
 
 /* One row; kinloop rows name the kernel that factored, as the solver's
  * statistics report it. */
@@ -294,12 +367,16 @@ void bench_fourbar(FILE *out, const bench_plan *plan, fourbar_figures *fig) {
       "kinloop position, AUTO",
       "kinloop position, DENSE",
       "kinloop pos+vel+acc, AUTO",
+      "hand-written Newton (Cramer's rule)",
+      "hand-written Newton pos+vel+acc",
       "GSL hybridsj (analytic Jacobian)",
       "GSL gnewton (analytic Jacobian)"};
   bench_method m[METHODS];
   fourbar_run *runs[METHODS];
   gsl_run *hybridsj, *gnewton;
+  hand_run hand = {0}, hand_rates = {0};
   double t3, t4, u0 = 0.0, rate_error, accel_error;
+  double hand_rate_error, hand_accel_error;
   int i;
   fig->f = build_fourbar(CRANK, COUPLER, ROCKER, GROUND);
   fig->start = bench_solver_new(fig->f.m, KL_KERNEL_AUTO);
@@ -312,17 +389,27 @@ void bench_fourbar(FILE *out, const bench_plan *plan, fourbar_figures *fig) {
   }
   hybridsj = gsl_run_new(&fig->f, gsl_multiroot_fdfsolver_hybridsj, t3, t4);
   gnewton = gsl_run_new(&fig->f, gsl_multiroot_fdfsolver_gnewton, t3, t4);
+  run_init(&hand.base, &fig->f, FOURBAR_STEPS, 0);
+  run_init(&hand_rates.base, &fig->f, FOURBAR_STEPS, 1);
+  hand.start_t3 = hand_rates.start_t3 = t3;
+  hand.start_t4 = hand_rates.start_t4 = t4;
   fig->small = fourbar_run_kinloop(&fig->f, fig->start, KL_KERNEL_AUTO, 0);
   runs[CLOSED] = run_new(&fig->f, FOURBAR_STEPS, 0);
   runs[SMALL] = fig->small;
   runs[DENSE] = fourbar_run_kinloop(&fig->f, fig->start, KL_KERNEL_DENSE, 0);
   runs[RATES] = fourbar_run_kinloop(&fig->f, fig->start, KL_KERNEL_AUTO, 1);
+  runs[HAND] = &hand.base;
+  runs[HAND_RATES] = &hand_rates.base;
   runs[HYBRIDSJ] = &hybridsj->base;
   runs[GNEWTON] = &gnewton->base;
   m[CLOSED].fn = bench_fourbar_closed_form;
   m[SMALL].fn = bench_fourbar_kinloop_small;
   m[DENSE].fn = bench_fourbar_kinloop_dense;
   m[RATES].fn = bench_fourbar_kinloop_rates;
+  m[HAND].fn = bench_fourbar_hand_newton;
+  m[HAND_RATES].fn = bench_fourbar_hand_rates;
+  m[HAND].ctx = &hand;
+  m[HAND_RATES].ctx = &hand_rates;
   m[HYBRIDSJ].fn = bench_fourbar_gsl_hybridsj;
   m[GNEWTON].fn = bench_fourbar_gsl_gnewton;
   m[HYBRIDSJ].ctx = hybridsj;
@@ -347,10 +434,18 @@ void bench_fourbar(FILE *out, const bench_plan *plan, fourbar_figures *fig) {
     print_row(out, names[i], &m[i], &m[CLOSED], runs[i], runs[CLOSED]);
 
   rate_errors(runs[RATES], runs[CLOSED], &rate_error, &accel_error);
+  rate_errors(runs[HAND_RATES], runs[CLOSED], &hand_rate_error,
+              &hand_accel_error);
   fig->small_ns = 1e9 * m[SMALL].median / FOURBAR_STEPS;
   fig->small_ratio = bench_ratio(&m[SMALL], &m[CLOSED]);
   fig->rates_ratio = bench_ratio(&m[RATES], &m[CLOSED]);
   fig->hybridsj_ratio = bench_ratio(&m[HYBRIDSJ], &m[SMALL]);
+  fig->hand_ratio = bench_ratio(&m[SMALL], &m[HAND]);
+  fig->hand_rates_ratio = bench_ratio(&m[RATES], &m[HAND_RATES]);
+  fig->hand_valid =
+      hand.base.failures == 0 && hand_rates.base.failures == 0 &&
+      max_angle_error(&hand.base, runs[CLOSED]) <= BENCH_MAX_ERROR &&
+      hand_rate_error <= BENCH_MAX_ERROR && hand_accel_error <= BENCH_MAX_ERROR;
   fig->small_valid =
       fig->small->failures == 0 &&
       max_angle_error(fig->small, runs[CLOSED]) <= BENCH_MAX_ERROR;
@@ -367,15 +462,27 @@ void bench_fourbar(FILE *out, const bench_plan *plan, fourbar_figures *fig) {
           fig->small_ratio);
   fprintf(out, ">> kinloop pos+vel+acc / closed form:       %6.2fx\n",
           fig->rates_ratio);
+  fprintf(out,
+          "the hand-written rates agree with it to %.2e rad/s, its "
+          "accelerations to %.2e rad/s^2\n",
+          hand_rate_error, hand_accel_error);
+  fprintf(out, ">> kinloop position / hand-written Newton:  %6.2fx\n",
+          fig->hand_ratio);
+  fprintf(out, ">> kinloop pos+vel+acc / hand-written:      %6.2fx\n",
+          fig->hand_rates_ratio);
   fprintf(out, ">> GSL hybridsj / kinloop position:         %6.2fx\n",
           fig->hybridsj_ratio);
   fprintf(out, ">> GSL gnewton / kinloop position:          %6.2fx\n",
           bench_ratio(&m[GNEWTON], &m[SMALL]));
   fprintf(out, ">> kinloop DENSE / AUTO (small kernel):     %6.2fx\n",
           bench_ratio(&m[DENSE], &m[SMALL]));
+  fprintf(out, ">> a four-bar solver's block (kl_solver_bytes): %zu bytes\n",
+          kl_solver_bytes(fig->f.m));
   fourbar_run_free(runs[CLOSED]);
   fourbar_run_free(runs[DENSE]);
   fourbar_run_free(runs[RATES]);
+  run_release(&hand.base);
+  run_release(&hand_rates.base);
   gsl_run_free(hybridsj);
   gsl_run_free(gnewton);
 }

@@ -45,7 +45,8 @@ int main(int argc, char **argv) {
   chain_figures chains = {0};
   thread_figures threads = {0};
   force_figures forces = {0};
-  target targets[7];
+  study_figures study = {0};
+  target targets[10];
   size_t i;
   int arg;
   for (arg = 1; arg < argc; arg++) {
@@ -66,6 +67,8 @@ int main(int argc, char **argv) {
   bench_threads(stdout, &plan, &fourbar, &threads);
   fflush(stdout);
   bench_forces(stdout, &plan, &forces);
+  fflush(stdout);
+  bench_study(stdout, &plan, &study);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -86,9 +89,9 @@ int main(int argc, char **argv) {
   targets[2].at_most = 1;
   targets[2].valid = fourbar.rates_valid;
   targets[2].unit = "x";
-  targets[3].what = "chain N = 100 >= 100x faster than GSL hybridsj";
+  targets[3].what = "chain N = 100 >= 150x faster than GSL hybridsj";
   targets[3].measured = chains.gsl_over_auto_100;
-  targets[3].limit = 100.0;
+  targets[3].limit = 150.0;
   targets[3].at_most = 0;
   targets[3].valid = chains.kinloop_valid;
   targets[3].unit = "x";
@@ -110,6 +113,24 @@ int main(int argc, char **argv) {
   targets[6].at_most = 1;
   targets[6].valid = forces.valid;
   targets[6].unit = "";
+  targets[7].what = "four-bar position solve <= 1.25x hand-written Newton";
+  targets[7].measured = fourbar.hand_ratio;
+  targets[7].limit = 1.25;
+  targets[7].at_most = 1;
+  targets[7].valid = fourbar.small_valid && fourbar.hand_valid;
+  targets[7].unit = "x";
+  targets[8].what = "four-bar pos+vel+acc <= 1.25x hand-written pos+vel+acc";
+  targets[8].measured = fourbar.hand_rates_ratio;
+  targets[8].limit = 1.25;
+  targets[8].at_most = 1;
+  targets[8].valid = fourbar.rates_valid && fourbar.hand_valid;
+  targets[8].unit = "x";
+  targets[9].what = "study sample <= 3x a plain sweep (one thread)";
+  targets[9].measured = study.sample_over_sweep;
+  targets[9].limit = 3.0;
+  targets[9].at_most = 1;
+  targets[9].valid = study.valid;
+  targets[9].unit = "x";
   printf("\n== targets (ratios measured in this run%s) ==\n",
          plan.quick ? "; QUICK MODE: single samples, not for reporting" : "");
   printf("%-62s %10s  %s\n", "target", "measured", "verdict");

@@ -30,7 +30,7 @@ const char *bench_kernel_name(int kernel) {
   case KL_KERNEL_DENSE:
     return "dense LAPACK";
   case KL_KERNEL_BANDED:
-    return "banded LAPACK";
+    return "banded";
   default:
     return "?";
   }
