@@ -11,6 +11,9 @@
 /* Assembly modes taken at one grid node: more than a two-input linkage of
  * a few loops has. */
 #define KLI_WS_MODES 16
+/* The solvers of a run: six for the grid and the tracing, and two sets of
+ * assembly modes (the grid's, and where a curve stops). */
+#define KLI_WS_SOLVERS (6 + 2 * KLI_WS_MODES)
 /* Bisections that bring a grid edge's sign change to a seed: 1/1024 of a
  * cell, well within the corrector's reach. */
 #define KLI_WS_BISECTIONS 10
@@ -22,6 +25,12 @@
  * (rad) or the corrector moves more than this fraction of the step. */
 #define KLI_WS_TURN 0.3
 #define KLI_WS_CORRECTION 0.3
+/* Where the image turns more than this (rad) from one stretch to the
+ * next (a corner where two fold curves cross, a cusp), steps shrink to this
+ * fraction of the longest, so that the corner is cut by a chord no further
+ * from it than the image's second derivative times its square. */
+#define KLI_WS_IMAGE_TURN 1.0
+#define KLI_WS_CORNER 1e-4
 /* The shortest step (rad) before a curve is taken to end on its branch,
  * and how far along it (fraction of the longest step) the next branch is
  * looked for. */
@@ -32,7 +41,7 @@
  * fraction of the inputs' move (second-order terms). */
 #define KLI_WS_BRANCH_FIT 0.3
 #define KLI_WS_BRANCH_SLACK 0.1
-/* Offset (fraction of the step) of the two probes beside a stretch. */
+/* Offset (fraction of the stretch) of the two probes beside it. */
 #define KLI_WS_PROBE 0.1
 /* Lines across the workspace for its area: the midpoint rule's error at
  * the round ends of a region falls as their number to the power 1.5. */
@@ -64,7 +73,7 @@ typedef struct {
   int grid;
   kl_solver *modes[KLI_WS_MODES];
   kl_solver *turn[KLI_WS_MODES]; /* the assemblies where a curve stops */
-  kl_solver *work, *lo, *hi, *cur, *trial;
+  kl_solver *work, *lo, *hi, *cur, *trial, *before;
   double *xy;
   int *curves, *kinds;
   int cap, n;
@@ -206,18 +215,6 @@ static int push(ws_run *r, const fold_eval *e, const double u[2],
   return KL_OK;
 }
 
-/* The unit tangent of the curve at e, turned to agree with `along`. */
-static void tangent(const fold_eval *e, const double along[2],
-                    double t[2]) {
-  double n = hypot(e->grad[0], e->grad[1]);
-  t[0] = -e->grad[1] / n;
-  t[1] = e->grad[0] / n;
-  if (t[0] * along[0] + t[1] * along[1] < 0.0) {
-    t[0] = -t[0];
-    t[1] = -t[1];
-  }
-}
-
 /* Distance from q to the segment a-b. */
 static double segment_distance(const double q[2], const double a[2],
                                const double b[2]) {
@@ -253,30 +250,52 @@ static int traced(const ws_run *r, const double u[2], const double p[2],
   return 0;
 }
 
-/* Where a curve stops on its branch, the linkage's own Jacobian is
- * singular and the fold curve goes on in the assembly mode that meets this
- * one there: among the assemblies a little further along the tangent, the
- * one whose fold passes next to the stop, if any, is pushed and becomes
- * r->cur. */
+/* The unit tangent of the curve at e, turned to agree with `along`. */
+static void tangent(const fold_eval *e, const double along[2],
+                    double t[2]) {
+  double n = hypot(e->grad[0], e->grad[1]);
+  t[0] = -e->grad[1] / n;
+  t[1] = e->grad[0] / n;
+  if (t[0] * along[0] + t[1] * along[1] < 0.0) {
+    t[0] = -t[0];
+    t[1] = -t[1];
+  }
+}
+
+/* Where a curve stops on its branch, either the linkage's own Jacobian is
+ * singular and the fold curve goes on in the assembly mode that meets
+ * this one there, or another fold curve crosses it (the determinant's
+ * gradient vanishes, and the corrector cannot choose). Either way the
+ * curve is looked for a little further along its tangent, on this branch
+ * and then in each assembly there: the first position that corrects onto
+ * a fold next to the stop, ahead of it and turning less than a step may,
+ * becomes r->cur. */
 static int hand_over(ws_run *r, const double u[2], const double t[2],
                      const fold_eval *e) {
-  for (int tries = 0; tries < 2; tries++) {
-    double ahead = (tries == 0 ? 1.0 : 10.0) * KLI_WS_HANDOVER * r->max_du;
+  for (int tries = 0; tries < 3; tries++) {
+    double ahead = pow(10.0, tries) * KLI_WS_HANDOVER * r->max_du;
     double ut[2] = {u[0] + ahead * t[0], u[1] + ahead * t[1]};
     int nm = kl_solver_find_assemblies(r->work, ut, r->turn, KLI_WS_MODES);
-    for (int q = 0; q < nm && q < KLI_WS_MODES; q++) {
-      double un[2] = {ut[0], ut[1]};
+    if (nm > KLI_WS_MODES)
+      nm = KLI_WS_MODES;
+    for (int q = -1; q < nm; q++) {
+      double un[2] = {ut[0], ut[1]}, tn[2];
       fold_eval en;
-      kl_solver_copy_state(r->trial, r->turn[q]);
+      if (q < 0) {
+        double du[2] = {ut[0] - u[0], ut[1] - u[1]};
+        kl_solver_copy_state(r->trial, r->cur);
+        if (kl_solve_position(r->trial, un) != KL_OK ||
+            !same_branch(r, r->cur, r->trial, du))
+          continue;
+      } else {
+        kl_solver_copy_state(r->trial, r->turn[q]);
+      }
       if (correct(r, r->trial, un, &en) != KL_OK ||
           hypot(en.p[0] - e->p[0], en.p[1] - e->p[1]) > r->step ||
           (un[0] - u[0]) * t[0] + (un[1] - u[1]) * t[1] <= 0.0)
         continue;
-      /* the branch the curve stopped on does not reach there */
-      kl_solver_copy_state(r->hi, r->cur);
-      if (kl_solve_position(r->hi, un) == KL_OK &&
-          same_branch(r, r->cur, r->hi,
-                      (const double[2]){un[0] - u[0], un[1] - u[1]}))
+      tangent(&en, t, tn);
+      if (t[0] * tn[0] + t[1] * tn[1] < cos(KLI_WS_TURN))
         continue;
       kl_solver_copy_state(r->cur, r->trial);
       return 1;
@@ -292,8 +311,12 @@ static int hand_over(ws_run *r, const double u[2], const double t[2],
 static int trace_way(ws_run *r, const double u0[2], const fold_eval *e0,
                      int dir, int curve, int skip) {
   double u[2] = {u0[0], u0[1]}, t[2], along[2], travelled = 0.0;
-  double h = 0.25 * r->max_du;
-  fold_eval e = *e0, en;
+  double h = 0.25 * r->max_du, back[2] = {0.0, 0.0};
+  /* the vertex before the last, to step again from when the image turned
+   * inside the last step (last_h 0: none to go back to) */
+  double prev_u[2] = {0.0, 0.0}, prev_t[2] = {0.0, 0.0};
+  double prev_back[2] = {0.0, 0.0}, last_h = 0.0;
+  fold_eval e = *e0, en, prev_e = *e0;
   int first = r->n;
   along[0] = -dir * e0->grad[1];
   along[1] = dir * e0->grad[0];
@@ -316,6 +339,7 @@ static int trace_way(ws_run *r, const double u0[2], const fold_eval *e0,
       h *= 0.5;
       if (h < KLI_WS_MIN_STEP && hand_over(r, u, t, &e)) {
         first = r->n;
+        last_h = 0.0;
         h = KLI_WS_HANDOVER * r->max_du;
       }
       continue;
@@ -325,10 +349,42 @@ static int trace_way(ws_run *r, const double u0[2], const fold_eval *e0,
     if (t[0] * tn[0] + t[1] * tn[1] < cos(KLI_WS_TURN) ||
         hypot(un[0] - u[0] - du[0], un[1] - u[1] - du[1]) >
             KLI_WS_CORRECTION * h ||
-        dp > 1.5 * r->step) {
+        dp > 1.5 * r->step ||
+        (h > KLI_WS_CORNER * r->max_du &&
+         (en.p[0] - e.p[0]) * back[0] + (en.p[1] - e.p[1]) * back[1] >
+             -cos(KLI_WS_IMAGE_TURN) * dp * hypot(back[0], back[1]))) {
       h *= 0.5;
       continue;
     }
+    if (last_h > KLI_WS_CORNER * r->max_du &&
+        (en.p[0] - e.p[0]) * back[0] + (en.p[1] - e.p[1]) * back[1] >
+            -cos(KLI_WS_IMAGE_TURN) * dp * hypot(back[0], back[1])) {
+      /* the image turned back between the last two vertices: its corner
+       * lies inside the last step, which is taken again shorter */
+      r->n--;
+      kl_solver_copy_state(r->cur, r->before);
+      u[0] = prev_u[0];
+      u[1] = prev_u[1];
+      e = prev_e;
+      t[0] = prev_t[0];
+      t[1] = prev_t[1];
+      back[0] = prev_back[0];
+      back[1] = prev_back[1];
+      h = 0.5 * last_h;
+      last_h = 0.0;
+      continue;
+    }
+    kl_solver_copy_state(r->before, r->cur);
+    prev_u[0] = u[0];
+    prev_u[1] = u[1];
+    prev_e = e;
+    prev_t[0] = t[0];
+    prev_t[1] = t[1];
+    prev_back[0] = back[0];
+    prev_back[1] = back[1];
+    last_h = hypot(un[0] - u[0], un[1] - u[1]);
+    back[0] = e.p[0] - en.p[0];
+    back[1] = e.p[1] - en.p[1];
     travelled += hypot(un[0] - u[0], un[1] - u[1]);
     u[0] = un[0];
     u[1] = un[1];
@@ -351,8 +407,8 @@ static int trace_way(ws_run *r, const double u0[2], const fold_eval *e0,
         fabs(wrap(u[0] - u0[0])) < 1.5 * h &&
         fabs(wrap(u[1] - u0[1])) < 1.5 * h &&
         hypot(e.p[0] - e0->p[0], e.p[1] - e0->p[1]) < 2.0 * r->step) {
-      double back[2] = {u[0] + wrap(u0[0] - u[0]), u[1] + wrap(u0[1] - u[1])};
-      return push(r, e0, back, curve) == KL_OK ? 1 : KL_ETRUNCATED;
+      double home[2] = {u[0] + wrap(u0[0] - u[0]), u[1] + wrap(u0[1] - u[1])};
+      return push(r, e0, home, curve) == KL_OK ? 1 : KL_ETRUNCATED;
     }
     h = fmin(1.5 * h, r->max_du);
   }
@@ -562,32 +618,37 @@ static double reach_area(const ws_run *r, ws_cross *cross) {
   return area;
 }
 
+/* Whether the count of assemblies is positive on one side of stretch k
+ * and not on the other, with the probes `eps` off its middle. */
+static int on_boundary(const ws_run *r, int k, double eps) {
+  const double *a = r->xy + 2 * k, *b = a + 2;
+  double d[2] = {b[0] - a[0], b[1] - a[1]}, l = hypot(d[0], d[1]);
+  double ql[2], qr[2];
+  ql[0] = 0.5 * (a[0] + b[0]) - eps * d[1] / l;
+  ql[1] = 0.5 * (a[1] + b[1]) + eps * d[0] / l;
+  qr[0] = 0.5 * (a[0] + b[0]) + eps * d[1] / l;
+  qr[1] = 0.5 * (a[1] + b[1]) - eps * d[0] / l;
+  return (reach_count(r, ql) > 0) != (reach_count(r, qr) > 0);
+}
+
 /* Classes every stretch by the assemblies that reach its two sides, and
- * takes the boundary's extent. The probes stand a tenth of a step off the
- * stretch's middle: beyond the chords of a curve traced twice over. */
+ * takes the boundary's extent. Two pairs of probes: a tenth of a step off
+ * the stretch's middle, beyond the chords of a curve traced twice over;
+ * and a tenth of the stretch off, short of a corner it ends at. Either
+ * pair finding the two sides apart makes the stretch boundary. */
 static void classify(ws_run *r, kl_workspace_result *res) {
   double box[4] = {NAN, NAN, NAN, NAN};
-  double eps = KLI_WS_PROBE * r->step;
   for (int k = 0; k < r->n; k++) {
     const double *a = r->xy + 2 * k, *b = a + 2;
-    double d[2], l, mid[2], ql[2], qr[2];
+    double l;
     if (k + 1 == r->n || r->curves[k] != r->curves[k + 1]) {
       if (k > 0 && r->curves[k] == r->curves[k - 1])
         r->kinds[k] = r->kinds[k - 1];
       continue;
     }
-    d[0] = b[0] - a[0];
-    d[1] = b[1] - a[1];
-    l = hypot(d[0], d[1]);
-    if (!(l > 0.0))
-      continue;
-    mid[0] = 0.5 * (a[0] + b[0]);
-    mid[1] = 0.5 * (a[1] + b[1]);
-    ql[0] = mid[0] - eps * d[1] / l;
-    ql[1] = mid[1] + eps * d[0] / l;
-    qr[0] = mid[0] + eps * d[1] / l;
-    qr[1] = mid[1] - eps * d[0] / l;
-    if ((reach_count(r, ql) > 0) == (reach_count(r, qr) > 0))
+    l = hypot(b[0] - a[0], b[1] - a[1]);
+    if (!(l > 0.0) || !(on_boundary(r, k, KLI_WS_PROBE * r->step) ||
+                        on_boundary(r, k, KLI_WS_PROBE * fmin(r->step, l))))
       continue;
     r->kinds[k] = KL_WORKSPACE_BOUNDARY;
     for (int c = 0; c < 2; c++) {
@@ -661,18 +722,18 @@ static int check(kl_solver *s, int point, const kl_workspace_options *o,
 /* The solvers and scratch of a run, from the model's allocator; NULL
  * pointers are skipped on the way out. */
 static kl_solver **run_solver(ws_run *r, int k) {
-  kl_solver **all[2 * KLI_WS_MODES + 5] = {&r->work, &r->lo, &r->hi, &r->cur,
-                                       &r->trial};
+  kl_solver **all[KLI_WS_SOLVERS] = {&r->work, &r->lo,    &r->hi,
+                                     &r->cur,  &r->trial, &r->before};
   for (int q = 0; q < KLI_WS_MODES; q++) {
-    all[5 + q] = &r->modes[q];
-    all[5 + KLI_WS_MODES + q] = &r->turn[q];
+    all[6 + q] = &r->modes[q];
+    all[6 + KLI_WS_MODES + q] = &r->turn[q];
   }
   return all[k];
 }
 
 static void release(ws_run *r) {
   const kli_allocator *al = &r->m->alloc;
-  for (int k = 0; k < 2 * KLI_WS_MODES + 5; k++)
+  for (int k = 0; k < KLI_WS_SOLVERS; k++)
     kl_solver_free(*run_solver(r, k));
   kli_free(al, r->u, 2 * sizeof(double) * (size_t)r->cap);
   kli_free(al, r->w, 2 * sizeof(double) * (size_t)r->cap);
@@ -685,7 +746,7 @@ static int acquire(ws_run *r) {
   kl_options opt;
   kl_options_default(&opt);
   kl_solver_options(r->s, &opt);
-  for (int k = 0; k < 2 * KLI_WS_MODES + 5; k++) {
+  for (int k = 0; k < KLI_WS_SOLVERS; k++) {
     kl_solver **p = run_solver(r, k);
     if ((*p = kl_solver_new(r->m)) == NULL)
       return KL_ENOMEM;
