@@ -1701,7 +1701,7 @@ typedef struct kl_workspace_result {
  *                 traced stays in the arrays; no area)
  *  KL_ENOASSEMBLY the linkage assembles at no node of the grid
  *  KL_ENOMEM
- * Allocates: solvers and scratch (two vertices' worth of doubles per cap)
+ * Allocates: 38 solvers and scratch of about 64 bytes per vertex of cap
  * through the model's allocator, all freed before it returns. Time grows
  * with grid^2 and with the vertices traced; the classing with their
  * square.

@@ -43,6 +43,9 @@
 #define KLI_WS_BRANCH_SLACK 0.1
 /* Offset (fraction of the stretch) of the two probes beside it. */
 #define KLI_WS_PROBE 0.1
+/* A fold's second derivative beyond this many times its median over the
+ * curve is taken as the blow-up beside a change of assembly mode. */
+#define KLI_WS_WILD 20.0
 /* Lines across the workspace for its area: the midpoint rule's error at
  * the round ends of a region falls as their number to the power 1.5. */
 #define KLI_WS_ROWS 4000
@@ -532,40 +535,47 @@ static int crossing(const ws_run *r, int k, double y, double *x) {
   return (b[1] - a[1] < 0.0) == left ? 2 : -2;
 }
 
+static int by_x(const void *a, const void *b) {
+  double xa = ((const ws_cross *)a)->x, xb = ((const ws_cross *)b)->x;
+  return (xa > xb) - (xa < xb);
+}
+
 /* Which side of each stretch its fold bends to (+1 its left, -1 its
- * right), into r->side. Along a fold curve the side keeps to one side of
- * the curve, turning over with the image's direction where that reverses
- * (at a cusp, or where a curve runs back over itself); so each curve takes
- * the side most of its stretches show by the second derivative at their
- * two ends. That derivative grows without bound, its sign not to be
- * trusted, beside the points where the linkage's own Jacobian is singular
- * and the curve passes to another assembly mode. */
+ * right), into r->side, from the second derivative w at its two ends: the
+ * side of w. Where the image turns back (a cusp, a corner where two folds
+ * cross) w stays right. Beside a change of assembly mode it grows without
+ * bound and its sign is not to be trusted: there, where w exceeds
+ * KLI_WS_WILD times its median over the curve or the two ends disagree,
+ * the side is carried from the nearest stretch before (else after) whose
+ * side is known; the curve does not turn back there. */
 static void fold_sides(ws_run *r) {
   int from = 0;
   while (from + 1 < r->n) {
-    int to = from + 1;
-    double vote = 0.0, turned = 1.0;
+    int to = from + 1, m = 0;
+    double median;
     while (to < r->n && r->curves[to] == r->curves[from])
       to++;
-    /* stretches from .. to - 2; side[k] first holds turned^k, the
-     * image's direction against the first stretch's */
+    for (int k = from; k < to; k++)
+      r->cross[m++].x = hypot(r->w[2 * k], r->w[2 * k + 1]);
+    qsort(r->cross, (size_t)m, sizeof *r->cross, by_x);
+    median = r->cross[m / 2].x;
     for (int k = from; k + 1 < to; k++) {
       const double *a = r->xy + 2 * k, *w = r->w + 2 * k;
       double nl[2] = {a[1] - a[3], a[2] - a[0]};
       double sa = nl[0] * w[0] + nl[1] * w[1];
       double sb = nl[0] * w[2] + nl[1] * w[3];
-      if (k > from) {
-        const double *b = a - 2;
-        if ((a[2] - a[0]) * (a[0] - b[0]) + (a[3] - a[1]) * (a[1] - b[1]) <
-            0.0)
-          turned = -turned;
-      }
-      r->side[k] = turned;
-      if ((sa > 0.0) == (sb > 0.0))
-        vote += (sa > 0.0 ? 1.0 : -1.0) * turned;
+      int wild = hypot(w[0], w[1]) > KLI_WS_WILD * median ||
+                 hypot(w[2], w[3]) > KLI_WS_WILD * median;
+      r->side[k] = wild || (sa > 0.0) != (sb > 0.0) ? 0.0
+                   : sa > 0.0                       ? 1.0
+                                                    : -1.0;
     }
-    for (int k = from; k + 1 < to; k++)
-      r->side[k] *= vote >= 0.0 ? 1.0 : -1.0;
+    for (int pass = 0; pass < 2; pass++)
+      for (int i = 1; i + 1 < to - from; i++) {
+        int k = pass == 0 ? from + i : to - 2 - i, j = pass == 0 ? k - 1 : k + 1;
+        if (r->side[k] == 0.0)
+          r->side[k] = r->side[j];
+      }
     from = to;
   }
 }
@@ -582,10 +592,6 @@ static int reach_count(const ws_run *r, const double q[2]) {
   return count;
 }
 
-static int by_x(const void *a, const void *b) {
-  double xa = ((const ws_cross *)a)->x, xb = ((const ws_cross *)b)->x;
-  return (xa > xb) - (xa < xb);
-}
 
 /* The area where some assembly reaches: on KLI_WS_ROWS lines across the
  * curves' extent, the length where the count is positive, by the midpoint

@@ -84,3 +84,48 @@ def test_bad_input():
     with pytest.raises(kl.KinloopError) as e:
         s.workspace(17)
     assert e.value.status == kl.Status.EID
+
+
+def test_offset_pen_against_sampled_positions():
+    """A pen off the arm's line, where folds run inside the workspace: the
+    area against the pen's positions sampled over a fine grid of both
+    inputs in both assemblies (the two-circle closed form of the wrist,
+    then the pen on the left arm), counted on rasters of 200 and 400 cells
+    a side and extrapolated (Richardson: the raster's excess on the boundary
+    halves as the cells do)."""
+    a1, b1, a2, b2, d, px, py = 1.0, 1.5, 0.8, 1.4, 1.2, 1.9, 0.5
+    m = kl.Model()
+    c1, c2 = m.add_link("c1"), m.add_link("c2")
+    l1, l2 = m.add_link("l1"), m.add_link("l2")
+    p1 = m.add_revolute(kl.GROUND, (0, 0), c1, (0, 0))
+    p2 = m.add_revolute(kl.GROUND, (d, 0), c2, (0, 0))
+    m.add_revolute(c1, (a1, 0), l1, (0, 0))
+    m.add_revolute(c2, (a2, 0), l2, (0, 0))
+    m.add_revolute(l1, (b1, 0), l2, (b2, 0))
+    pen = m.add_point(l1, (px, py), "pen")
+    m.add_input(p1)
+    m.add_input(p2)
+    m.finalize()
+    w = kl.Solver(m).workspace(pen)
+    assert np.count_nonzero(w.kind == kl.WorkspaceKind.FOLD) > 0
+    u1, u2 = np.meshgrid(np.linspace(0, 2 * np.pi, 2000, endpoint=False),
+                         np.linspace(0, 2 * np.pi, 2000, endpoint=False))
+    b1x, b1y = a1 * np.cos(u1), a1 * np.sin(u1)
+    dx, dy = d + a2 * np.cos(u2) - b1x, a2 * np.sin(u2) - b1y
+    span = np.hypot(dx, dy)
+    ok = (span <= b1 + b2) & (span >= abs(b1 - b2))
+    half = np.arccos(np.clip((b1 * b1 + span ** 2 - b2 * b2) / (2 * b1 * span), -1, 1))
+    xs, ys = [], []
+    for sign in (1, -1):
+        th = np.arctan2(dy, dx) + sign * half
+        xs.append((b1x + px * np.cos(th) - py * np.sin(th))[ok])
+        ys.append((b1y + px * np.sin(th) + py * np.cos(th))[ok])
+    x, y = np.concatenate(xs), np.concatenate(ys)
+    box = [[w.result.xmin - 0.05, w.result.xmax + 0.05],
+           [w.result.ymin - 0.05, w.result.ymax + 0.05]]
+    areas = []
+    for cells in (200, 400):
+        h, xe, ye = np.histogram2d(x, y, bins=cells, range=box)
+        areas.append(np.count_nonzero(h) * (xe[1] - xe[0]) * (ye[1] - ye[0]))
+    sampled = 2 * areas[1] - areas[0]
+    assert w.result.area == pytest.approx(sampled, rel=0.01)
