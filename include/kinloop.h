@@ -1604,6 +1604,117 @@ KL_API int kl_input_effort_range(kl_solver *s, int input, double from,
                                  kl_range *range);
 
 /* ------------------------------------------------------------------------
+ * Workspace of a point: where a point of a two-input linkage can go, its
+ * boundary and the singular curves inside it, traced by continuation
+ * (docs/theory.md, "Workspace of a point"). Results are a design aid:
+ * verify a machine's reach by physical testing; local codes and licensed
+ * engineering practice take precedence.
+ * ------------------------------------------------------------------------ */
+
+/** What a stretch of a workspace curve is (kl_solver_workspace's kinds). */
+enum kl_workspace_kind {
+  KL_WORKSPACE_BOUNDARY = 0, /**< on the workspace's boundary: the point can
+                                  go on one side of it and not the other */
+  KL_WORKSPACE_FOLD = 1      /**< a singular curve inside the workspace:
+                                  the map from the two inputs to the point
+                                  folds there (d(x, y)/d(u1, u2) singular),
+                                  but other assemblies reach both sides */
+};
+
+/** "boundary" or "fold" for an enum kl_workspace_kind; "not a kind"
+ * otherwise (static text). */
+KL_API const char *kl_workspace_kind_str(int kind);
+
+/**
+ * How kl_solver_workspace seeds and steps. Start from
+ * kl_workspace_options_default(), which sets `size`.
+ */
+typedef struct kl_workspace_options {
+  size_t size;  /**< sizeof(kl_workspace_options), set by the default */
+  int grid;     /**< seed nodes per turn of each input, 4 to 720; default
+                     32. A curve that crosses no edge of the grid (a
+                     closed curve smaller than a cell in the inputs'
+                     plane) is missed: raise it when in doubt */
+  double step;  /**< the longest step along a curve, as a fraction of the
+                     model's scale (kl_model_scale), in (0, 0.5];
+                     default 0.01. The area's error from the curves'
+                     chords falls with its square */
+} kl_workspace_options;
+
+/** Fills `o` with the defaults (and `o->size`). NULL does nothing. */
+KL_API void kl_workspace_options_default(kl_workspace_options *o);
+
+/** What kl_solver_workspace found. Set `size` to
+ * sizeof(kl_workspace_result) first. */
+typedef struct kl_workspace_result {
+  size_t size;    /**< sizeof(kl_workspace_result), set by the caller */
+  int vertices;   /**< vertices written into the caller's arrays */
+  int curves;     /**< curves traced (numbered 0 .. curves - 1) */
+  int closed;     /**< of them, curves that close on themselves; the others
+                       end where the linkage stops assembling on their
+                       branch and go on in another assembly mode */
+  int seeds;      /**< grid edges on which a curve was found */
+  double area;    /**< the workspace's area (length units squared): the
+                     region the boundary stretches enclose, holes left
+                     out */
+  double xmin;    /**< the boundary's extent, global frame: least x (NaN
+                       when there is no boundary) */
+  double ymin;    /**< least y (NaN when there is no boundary) */
+  double xmax;    /**< greatest x (NaN when there is no boundary) */
+  double ymax;    /**< greatest y (NaN when there is no boundary) */
+} kl_workspace_result;
+
+/**
+ * The workspace of `point` for a model with two turning inputs (revolute
+ * joints, each over whole turns): every position the point takes in every
+ * assembly mode. Its boundary lies on the fold curves of the map from the
+ * inputs (u1, u2) to the point's (x, y), where d(x, y)/d(u1, u2) is
+ * singular: a coarse grid of the inputs (o->grid per turn) in every
+ * assembly mode (kl_solver_find_assemblies) seeds them, where that
+ * determinant changes sign along a grid edge swept on one branch; each
+ * curve is then traced by predictor-corrector continuation in the
+ * inputs' plane, the corrector Newton's method on the determinant (its
+ * gradient from the second-order coefficients, kl_point_deriv2), until it
+ * closes or the linkage stops assembling on its branch. Each stretch is
+ * then classed by counting the assemblies that reach each side of it
+ * (a fold adds two on the side it bends to), and the area is the
+ * polygon area of the boundary stretches.
+ *
+ * Vertex k of the curves goes to xy[2k], xy[2k + 1] (global frame, the
+ * model's length unit), its curve's number to curves[k] (a curve's
+ * vertices are consecutive, in order along it; a closed curve repeats its
+ * first vertex at its end) and to kinds[k] the enum kl_workspace_kind of
+ * the stretch from vertex k to k + 1 (the last vertex of a curve repeats
+ * the kind before it). `cap` is the number of vertices the arrays hold
+ * (xy holds 2 cap doubles); a few thousand suffice at the defaults. The
+ * arrays are the caller's; `result` (may be NULL) gets the counts, the
+ * area and the extent. The solver's options steer every position solve;
+ * its state is left as it was.
+ *
+ * Returns KL_OK, or on failure leaves the solver as it was (its message
+ * says why) and returns:
+ *  KL_EDOF        the model has not exactly two inputs
+ *  KL_EKIND       an input is not a revolute joint, or the point is on
+ *                 ground (it does not move)
+ *  KL_EID         no such point
+ *  KL_EINVAL      NULL solver, options or arrays, a size too small, cap
+ *                 < 2, grid outside 4 to 720, step outside (0, 0.5]
+ *  KL_ENONFINITE  step NaN or infinite
+ *  KL_ETRUNCATED  the curves need more than `cap` vertices (what was
+ *                 traced stays in the arrays; no area)
+ *  KL_ENOASSEMBLY the linkage assembles at no node of the grid
+ *  KL_ENOMEM
+ * Allocates: 38 solvers and scratch of about 64 bytes per vertex of cap
+ * through the model's allocator, all freed before it returns. Time grows
+ * with grid^2 and with the vertices traced; the classing with their
+ * square.
+ */
+KL_API int kl_solver_workspace(kl_solver *s, int point,
+                               const kl_workspace_options *o, double *xy,
+                               int *curves, int *kinds, int cap,
+                               kl_workspace_result *result);
+
+/* ------------------------------------------------------------------------
  * Motion laws: the published rise laws of cams and servo profiles
  * ------------------------------------------------------------------------ */
 

@@ -36,6 +36,7 @@ enum cli_command {
   CLI_DEMO,
   CLI_STUDY,
   CLI_FORCES,
+  CLI_REACH,
   CLI_NCOMMANDS
 };
 
@@ -70,6 +71,8 @@ typedef struct {
   int have_fluctuation; /* forces: the coefficient of speed fluctuation */
   double fluctuation;
   int forces;           /* sweep: the force columns too */
+  const char *point;    /* reach: the point whose workspace is traced */
+  int grid;             /* reach: seed nodes per turn, 0 for the default */
 } cli_options;
 
 typedef struct {
@@ -357,6 +360,9 @@ int cli_cmd_forces(const cli_model *cm, const cli_options *o);
  * in *files. Returns an exit code. */
 int cli_force_charts(const cli_model *cm, const cli_cycle *c, const char *dir,
                      int *files);
+
+/* ---- reach.c: the workspace of a point ---- */
+int cli_cmd_reach(const cli_model *cm, const cli_options *o);
 
 /* ---- study.c: the study command, which reads a study, not a model ---- */
 int cli_cmd_study(const cli_options *o);

@@ -21,7 +21,7 @@ void cli_error(const char *fmt, ...) {
 
 static const char *const command_names[CLI_NCOMMANDS] = {
     "check", "solve", "sweep", "draw", "plot", "write", "demo", "study",
-    "forces"};
+    "forces", "reach"};
 
 static const char general_usage[] =
     "kinloop %s - position, velocity and acceleration of planar linkages\n"
@@ -46,6 +46,8 @@ static const char general_usage[] =
     "          designs, summarized per output, with CSV and SVG charts\n"
     "  forces  the force stage over the working cycle: motor effort, joint\n"
     "          loads, shaking, flywheel; with CSV and SVG charts\n"
+    "  reach   SVG picture of the workspace of a point of a two-input linkage:\n"
+    "          its boundary and singular curves, traced, and its area\n"
     "\n"
     "MODEL is a model file (docs/model-format.md); without one a command works on\n"
     "the built-in demo, a carton flap-tucking station. Angles on the command line\n"
@@ -225,7 +227,30 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "after the chunk under way: the summary and files then cover the\n"
     "samples done, marked PARTIAL, and it exits with 130 or 143.\n",
     /* forces */
-    cli_forces_help};
+    cli_forces_help,
+    /* reach */
+    "usage: kinloop reach [MODEL] --point POINT [OPTIONS]\n"
+    "\n"
+    "Traces the workspace of POINT (by name, an unnamed one as @id) for a\n"
+    "model with two turning inputs, each over whole turns: every position the\n"
+    "point takes in every assembly mode. Its boundary and the singular curves\n"
+    "inside it (where the map from the two inputs to the point folds) are\n"
+    "traced by continuation from a coarse grid of seeds, and drawn as SVG with\n"
+    "coordinate axes in the model's length unit and the ground pivots; the\n"
+    "area and extent are printed (on standard error when the SVG goes to\n"
+    "standard output). The picture is a design aid: verify a machine's reach\n"
+    "by physical testing; local codes and licensed engineering practice take\n"
+    "precedence.\n"
+    "\n"
+    "options:\n"
+    "  --point POINT     the point whose workspace is traced (required)\n"
+    "  --grid N          seed nodes per turn of each input, 4 to 720\n"
+    "                    (default 32); raise it when a small closed curve\n"
+    "                    may slip between the seeds\n"
+    "  -o, --output FILE write the SVG to FILE instead of standard output\n"
+    "\n"
+    "A model without exactly two turning inputs, or a point on ground, exits\n"
+    "with 3; one that assembles nowhere on the grid with 4.\n"};
 
 enum {
   OPT_OUTPUT,
@@ -248,6 +273,8 @@ enum {
   OPT_CHARTS,
   OPT_FLUCTUATION,
   OPT_FORCES,
+  OPT_POINT,
+  OPT_GRID,
   OPT_HELP
 };
 
@@ -263,7 +290,8 @@ static const struct {
   unsigned commands;
 } option_specs[] = {
     {"output", 'o', 1,
-     RANGE_CMDS | BIT(CLI_SOLVE) | BIT(CLI_WRITE) | BIT(CLI_STUDY)},
+     RANGE_CMDS | BIT(CLI_SOLVE) | BIT(CLI_WRITE) | BIT(CLI_STUDY) |
+         BIT(CLI_REACH)},
     {"input", 0, 1, RANGE_CMDS},
     {"from", 0, 1, RANGE_CMDS},
     {"to", 0, 1, RANGE_CMDS},
@@ -283,6 +311,8 @@ static const struct {
     {"charts", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES)},
     {"fluctuation", 0, 1, BIT(CLI_FORCES)},
     {"forces", 0, 0, BIT(CLI_SWEEP)},
+    {"point", 0, 1, BIT(CLI_REACH)},
+    {"grid", 0, 1, BIT(CLI_REACH)},
     {"help", 'h', 0, ~0u},
 };
 #define NOPTIONS ((int)(sizeof option_specs / sizeof option_specs[0]))
@@ -439,6 +469,12 @@ static int store_option(cli_options *o, int which, const char *value) {
   case OPT_FORCES:
     o->forces = 1;
     break;
+  case OPT_POINT:
+    o->point = value;
+    break;
+  case OPT_GRID:
+    st = parse_count(c, name, value, 4, 720, &o->grid);
+    break;
   default:
     break;
   }
@@ -526,6 +562,9 @@ static int run(cli_options *o) {
     break;
   case CLI_FORCES:
     st = cli_cmd_forces(&cm, o);
+    break;
+  case CLI_REACH:
+    st = cli_cmd_reach(&cm, o);
     break;
   default:
     st = cli_cmd_demo(&cm, o);

@@ -147,6 +147,20 @@ classdef Solver < kinloop.SolverMethods
                                               kinloop.Solver.cycle_of(varargin), loads);
     end
 
+    function w = workspace(obj, point, varargin)
+      % w = workspace(point), workspace(point, options) or
+      % workspace(point, 'grid', n, 'step', h): the workspace of a point
+      % (kl_solver_workspace) for a model with two turning inputs, its
+      % boundary and the singular curves inside traced by continuation.
+      % w has the result's fields (area, xmin, ymin, xmax, ymax, vertices,
+      % curves, closed, seeds), xy (a row per vertex, global frame), curve
+      % (each vertex's curve number, from 0) and kind (a cell of 'boundary'
+      % or 'fold', the stretch from each vertex). The solver keeps its
+      % state.
+      w = __kinloop__('solver_workspace', obj.id, point, ...
+                      kinloop.Solver.cycle_of(varargin));
+    end
+
     function t = cycle_table(obj, loads, varargin)
       % t = cycle_table(loads, cycle) or cycle_table(loads, 'name', value,
       % ...): the forces over a cycle sample by sample (kl_cycle_table),

@@ -28,7 +28,8 @@ from .model import Model
 from .raw import MissingFunctionError
 from .solver import Solver
 from .study import Study
-from .values import CycleFigures, Dimension, Load, Output, StudyRun, SweepResult
+from .values import (CycleFigures, Dimension, Load, Output, StudyRun, SweepResult,
+                     Workspace)
 
 __version__ = "%d.%d.%d" % raw.VERSION
 library_path = raw.library_path
@@ -36,4 +37,4 @@ library_version = raw.library_version
 
 __all__ = sorted(set(_api.__all__ + _header.__all__ + [
     "CycleFigures", "Dimension", "KinloopError", "Load", "MissingFunctionError", "Model", "Output", "Solver",
-    "Study", "StudyRun", "SweepResult", "library_path", "library_version"]))
+    "Study", "StudyRun", "SweepResult", "Workspace", "library_path", "library_version"]))

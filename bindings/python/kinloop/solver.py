@@ -15,14 +15,17 @@ import numpy as np
 from . import _api, raw
 from ._args import array_of, refuse, to_int
 from ._core import Handle, KinloopError, as_enum, check_const, value_of
-from ._header import Status
-from .values import Cycle, CycleFigures, SweepResult, cycle_table_dtype
+from ._header import Status, WorkspaceKind
+from .values import Cycle, CycleFigures, SweepResult, Workspace, cycle_table_dtype
 
 # Over-alignment for a solver placed in a Python buffer: the C side wants
 # malloc's alignment, which no ABI sets above this.
 _BLOCK_ALIGN = 64
 
 _DOUBLES = ctypes.POINTER(ctypes.c_double)
+_INTS = ctypes.POINTER(ctypes.c_int)
+# The workspace's arrays stop growing here (vertices), some 50 MB.
+_WORKSPACE_MAX_CAP = 1 << 22
 
 
 def _free_solver(ptr, keepalive):
@@ -225,6 +228,36 @@ class Solver(_api.SolverMethods, Handle):
                                             ctypes.byref(summary), inputs, joints))
         return CycleFigures(value_of(summary), [value_of(p) for p in inputs[:ninputs]],
                             [value_of(p) for p in joints[:njoints]])
+
+    def workspace(self, point, options=None, cap=4096, **fields):
+        """The workspace of `point` (kl_solver_workspace) for a model with two
+        turning inputs: its boundary and the singular curves inside it,
+        traced by continuation, and its area. `options` is a
+        WorkspaceOptions (default: the library's); keyword arguments replace
+        its fields (grid=..., step=...). `cap` is the first guess at the
+        vertices needed; the arrays grow until the curves fit. Returns a
+        Workspace. A negative status raises KinloopError; the solver keeps
+        its state either way."""
+        function = "kl_solver_workspace"
+        o = dataclasses.replace(options if options is not None else _api.WorkspaceOptions(),
+                                **fields)
+        cap = to_int(cap, function, "cap")
+        while True:
+            xy = np.zeros((max(cap, 2), 2))
+            curve = np.zeros(max(cap, 2), dtype=np.intc)
+            kind = np.zeros(max(cap, 2), dtype=np.intc)
+            result = raw.kl_workspace_result()
+            status = _api.kl_solver_workspace(
+                self._changing, point, o, xy.ctypes.data_as(_DOUBLES),
+                curve.ctypes.data_as(_INTS), kind.ctypes.data_as(_INTS), max(cap, 2),
+                ctypes.byref(result))
+            if status != Status.ETRUNCATED or cap >= _WORKSPACE_MAX_CAP:
+                break
+            cap *= 4  # the C call cannot grow the caller's arrays
+        self._check(status)
+        n = result.vertices
+        return Workspace(value_of(result), xy[:n].copy(), curve[:n].copy(),
+                         np.array([WorkspaceKind(k) for k in kind[:n]], dtype=object))
 
     def cycle_table(self, loads=(), cycle=None, **fields):
         """The forces over a cycle sample by sample (kl_cycle_table), the

@@ -147,6 +147,19 @@ def cycle_table_dtype(ninputs, njoints):
                      ("kinetic_energy", np.float64), ("work", np.float64)])
 
 
+class Workspace(NamedTuple):
+    """What Solver.workspace traced (kl_solver_workspace): `result`, the
+    WorkspaceResult (area, extent, counts); `xy`, the curves' vertices, one
+    row (x, y) each in the global frame; `curve`, each vertex's curve
+    number (a curve's vertices are consecutive, in order along it);
+    `kind`, the WorkspaceKind of the stretch from each vertex to the next
+    (BOUNDARY, or FOLD: a singular curve inside)."""
+    result: object
+    xy: np.ndarray
+    curve: np.ndarray
+    kind: np.ndarray
+
+
 class StudyRun(NamedTuple):
     """What Study.run computed, one row per sample (first .. first + count - 1):
     values[i, k] is output k (NaN where the sample has none: it did not
