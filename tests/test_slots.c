@@ -77,6 +77,7 @@ static kl_model *disc_cam_model(const disc_cam *c, int npoints) {
     }
     ck_assert_int_ge(kl_add_curve_slot(m, cam, npoints, xy, 1, follower, 0, 0), 0);
   }
+  kl_add_point(m, follower, 0, 0, "roller");
   kl_add_input(m, drive);
   ck_assert_int_eq(kl_model_finalize(m), KL_OK);
   return m;
@@ -180,6 +181,50 @@ START_TEST(curve_slot_cam_matches_and_its_rates_are_the_slopes) {
   }
   kl_solver_free(s);
   kl_model_free(m);
+}
+END_TEST
+
+/* The force stage through both curved kinds: with the follower pushed
+ * down by a spring force F, the motor's torque is what virtual work gives
+ * (torque = -F . v at unit crank rate: the principle of virtual work, for
+ * massless links), and the slot's force is normal to its path at the pin. */
+START_TEST(forces_through_curved_slots_do_virtual_work) {
+  disc_cam c = {12.0, 40.0, 8.0, 5.0};
+  int kind;
+  for (kind = 0; kind < 2; kind++) {
+    kl_model *m = disc_cam_model(&c, kind == 0 ? 0 : 256);
+    kl_solver *s;
+    kl_load load = {KL_LOAD_FORCE, 0, 0.0, -300.0, 0.0};
+    int k;
+    for (k = 0; k < 8; k++) {
+      double t = 2 * PI * k / 8 + 0.2, one = 1.0, zero = 0.0, effort, v[2],
+             f[2], path[6];
+      int lk[2];
+      s = kl_solver_new(m);
+      sketch_disc(&c, s, t, kind, 256);
+      ck_assert_int_eq(kl_solve_position(s, &t), KL_OK);
+      ck_assert_int_eq(kl_solve_velocity(s, &one), KL_OK);
+      ck_assert_int_eq(kl_solve_acceleration(s, &zero), KL_OK);
+      ck_assert_int_eq(kl_point_velocity(s, 0, v), KL_OK);
+      ck_assert_int_eq(kl_solve_forces(s, 1, &load, &effort), KL_OK);
+      ck_assert_double_le(fabs(effort + (load.fx * v[0] + load.fy * v[1])),
+                          1e-9 * 300 * 60);
+      /* the slot's force on the follower is normal to the path (in the
+       * cam's frame, turned by the cam's angle) */
+      ck_assert_int_eq(kl_joint_force(s, 2, f), KL_OK);
+      ck_assert_int_eq(kl_model_joint_links(m, 2, lk, NULL, NULL), KL_OK);
+      kl_model_slot_point(m, 2, kl_joint_slide(s, 2), path);
+      {
+        double a = kl_link_angle(s, lk[0]);
+        double dx = cos(a) * path[2] - sin(a) * path[3];
+        double dy = sin(a) * path[2] + cos(a) * path[3];
+        ck_assert_double_le(fabs(f[0] * dx + f[1] * dy),
+                            1e-9 * hypot(f[0], f[1]) * hypot(dx, dy));
+      }
+      kl_solver_free(s);
+    }
+    kl_model_free(m);
+  }
 }
 END_TEST
 
@@ -334,6 +379,7 @@ int main(void) {
   tcase_add_test(tc, arc_slot_is_a_fourbar_by_freudenstein);
   tcase_add_test(tc, eccentric_disc_cam_is_an_offset_slider_crank);
   tcase_add_test(tc, curve_slot_cam_matches_and_its_rates_are_the_slopes);
+  tcase_add_test(tc, forces_through_curved_slots_do_virtual_work);
   tcase_add_test(tc, spline_slot_converges_to_an_ellipse_at_fourth_order);
   tcase_add_test(tc, open_curve_end_is_a_located_limit);
   tcase_add_test(tc, bad_slots_are_refused_and_change_nothing);
