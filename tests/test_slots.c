@@ -372,6 +372,65 @@ START_TEST(slots_read_back) {
 }
 END_TEST
 
+/* The model file: arc-slot and curve-slot statements read into the same
+ * joints, and written back to the same text (a round trip). */
+START_TEST(slot_statements_round_trip) {
+  static const char text[] =
+      "kinloop-model 1\n"
+      "units length mm angle deg\n"
+      "link crank\nlink coupler\nlink block\n"
+      "revolute drive ground 0 0 crank 0 0\n"
+      "revolute - crank 40 0 coupler 0 0\n"
+      "arc-slot guide ground 100 0 radius 80 coupler 120 0\n"
+      "curve-slot track ground open 3 block 0 0 through 0 -50 60 -45 120 -50\n"
+      "revolute - coupler 60 0 block 0 10\n"
+      "input drive\n";
+  kl_io_error err;
+  kl_model *m, *again;
+  char out1[4096], out2[4096];
+  size_t need;
+  double xy[6];
+  int closed;
+  memset(&err, 0, sizeof err);
+  err.size = sizeof err;
+  m = kl_model_read(text, sizeof text - 1, &err);
+  ck_assert_msg(m != NULL, "%s (line %d)", err.message, err.line);
+  ck_assert_int_eq(kl_model_joint_kind(m, 2), KL_JOINT_ARC_SLOT);
+  ck_assert_double_eq(kl_model_slot_radius(m, 2), 80.0);
+  ck_assert_int_eq(kl_model_curve_points(m, 3, &closed, xy, 3), 3);
+  ck_assert_int_eq(closed, 0);
+  ck_assert_double_eq(xy[3], -45.0);
+  ck_assert_int_eq(kl_model_write(m, out1, sizeof out1, &need), KL_OK);
+  again = kl_model_read(out1, strlen(out1), &err);
+  ck_assert_msg(again != NULL, "%s (line %d)\n%s", err.message, err.line, out1);
+  ck_assert_int_eq(kl_model_write(again, out2, sizeof out2, &need), KL_OK);
+  ck_assert_str_eq(out1, out2);
+  ck_assert_ptr_nonnull(strstr(out1, "curve-slot track ground open 3 block 0 0 through 0 -50 60 -45 120 -50\n"));
+  kl_model_free(again);
+  kl_model_free(m);
+  /* bad statements: their own messages, at their line */
+  {
+    static const char flat[] = "kinloop-model 1\nlink a\narc-slot - ground 0 0 radius 0 a 0 0\n";
+    static const char twice[] = "kinloop-model 1\nlink a\ncurve-slot - ground open 3 a 0 0 through 0 0 1 1 1 1\n";
+    static const char few[] = "kinloop-model 1\nlink a\ncurve-slot - ground closed 2 a 0 0 through 0 0 1 1\n";
+    static const char huge[] = "kinloop-model 1\nlink a\ncurve-slot - ground open 999999999 a 0 0 through 0 0\n";
+    static const char shape[] = "kinloop-model 1\nlink a\ncurve-slot - ground round 3 a 0 0 through 0 0\n";
+    ck_assert_ptr_null(kl_model_read(flat, sizeof flat - 1, &err));
+    ck_assert_int_eq(err.status, KL_ERADIUS);
+    ck_assert_int_eq(err.line, 3);
+    ck_assert_ptr_null(kl_model_read(twice, sizeof twice - 1, &err));
+    ck_assert_int_eq(err.status, KL_EREPEATED);
+    ck_assert_ptr_null(kl_model_read(few, sizeof few - 1, &err));
+    ck_assert_int_eq(err.status, KL_EFEWPOINTS);
+    ck_assert_ptr_null(kl_model_read(huge, sizeof huge - 1, &err));
+    ck_assert_int_eq(err.status, KL_ESYNTAX);
+    ck_assert_ptr_null(kl_model_read(shape, sizeof shape - 1, &err));
+    ck_assert_int_eq(err.status, KL_ESYNTAX);
+    ck_assert_ptr_nonnull(strstr(err.message, "'open' or 'closed'"));
+  }
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("slots");
   TCase *tc = tcase_create("slots");
@@ -384,6 +443,7 @@ int main(void) {
   tcase_add_test(tc, open_curve_end_is_a_located_limit);
   tcase_add_test(tc, bad_slots_are_refused_and_change_nothing);
   tcase_add_test(tc, slots_read_back);
+  tcase_add_test(tc, slot_statements_round_trip);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }

@@ -59,7 +59,7 @@ static int has_sketch(const cli_model *cm) {
 
 static void print_structure(FILE *f, const cli_model *cm) {
   const kl_model *m = cm->model;
-  int kinds[3] = {0, 0, 0}, j, i, loop;
+  int kinds[5] = {0, 0, 0, 0, 0}, j, i, loop;
   const char *comment;
   size_t len;
   fprintf(f, "model %s\n", cm->label);
@@ -73,8 +73,12 @@ static void print_structure(FILE *f, const cli_model *cm) {
   }
   for (j = 0; j < cm->njoints; j++)
     kinds[kl_model_joint_kind(m, j)]++;
-  fprintf(f, "\n" LABEL "%d: %d revolute, %d prismatic, %d slot\n", "joints",
+  fprintf(f, "\n" LABEL "%d: %d revolute, %d prismatic, %d slot", "joints",
           cm->njoints, kinds[KL_JOINT_REVOLUTE], kinds[KL_JOINT_PRISMATIC], kinds[KL_JOINT_SLOT]);
+  if (kinds[KL_JOINT_ARC_SLOT] + kinds[KL_JOINT_CURVE_SLOT] > 0)
+    fprintf(f, ", %d arc slot, %d curve slot", kinds[KL_JOINT_ARC_SLOT],
+            kinds[KL_JOINT_CURVE_SLOT]);
+  fprintf(f, "\n");
   fprintf(f, LABEL "%d%s", "points", cm->npoints, cm->npoints ? ": " : "");
   print_names(f, cm->point_names, 0, cm->npoints);
   fprintf(f, "\n" LABEL "lengths in %s, angles in %s\n", "units",
