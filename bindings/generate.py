@@ -233,6 +233,7 @@ POINTERS = {
     "kl_model_speed": {"input": "out", "speed": "out", "speed_fluctuation": "out"},
     # "N pairs": 2 numbers (x, y) per element that N counts
     "kl_add_curve_slot": {"xy": "npoints pairs"},
+    "kl_cam_set_program": {"segments": "nsegments"},
 }
 
 

@@ -1860,15 +1860,17 @@ KL_API int kl_add_curve_slot(kl_model *m, int a, int npoints, const double *xy,
 /** The radius of an arc slot joint; NaN for any other joint or a bad id. */
 KL_API double kl_model_slot_radius(const kl_model *m, int joint);
 
-/**
- * A curve slot's points: copies min(npoints, cap) points into xy (2 numbers
- * each; may be NULL when cap is 0) and whether the curve is closed into
- * `closed` (may be NULL). Returns the number of points, KL_EID, KL_EKIND
- * (not a curve slot) or KL_EINVAL (NULL model, cap < 0, or xy NULL with
- * cap > 0).
- */
-KL_API int kl_model_curve_points(const kl_model *m, int joint, int *closed,
-                                 double *xy, int cap);
+/** The number of points of a curve slot joint, or KL_EID, KL_EKIND (not a
+ * curve slot), KL_EINVAL (NULL). */
+KL_API int kl_model_curve_count(const kl_model *m, int joint);
+/** 1 if a curve slot joint's curve is closed, 0 if open, or KL_EID,
+ * KL_EKIND, KL_EINVAL. */
+KL_API int kl_model_curve_closed(const kl_model *m, int joint);
+/** Point k (from 0) of a curve slot joint, in its link a's frame, into xy.
+ * Returns KL_OK, KL_EID (unknown joint or k out of range), KL_EKIND,
+ * KL_EINVAL. */
+KL_API int kl_model_curve_point(const kl_model *m, int joint, int k,
+                                double xy[2]);
 
 /**
  * Where the slot of a sliding joint (prismatic, slot, arc or curve slot)
@@ -1975,14 +1977,14 @@ enum kl_cam_sample_index {
 };
 
 /**
- * The cam at cam angle `theta` (rad): the roller centre and the contact
+ * The cam at cam angle `theta` (rad), into out (KL_CAM_SAMPLE_SIZE = 6
+ * numbers, indexed by enum kl_cam_sample_index): the roller centre and the contact
  * point in the cam's own frame (the cam frame coincides with the global
  * frame at angle 0), the pressure angle (between the pitch curve's normal
  * and the follower's direction of motion) and the pitch curve's radius of
  * curvature. Returns KL_OK, KL_EINVAL (NULL), KL_ENONFINITE. No allocation.
  */
-KL_API int kl_cam_sample(const kl_cam *c, double theta,
-                         double out[KL_CAM_SAMPLE_SIZE]);
+KL_API int kl_cam_sample(const kl_cam *c, double theta, double out[6]);
 
 /**
  * The pitch curve and the cam surface as n points each at the cam angles

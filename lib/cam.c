@@ -311,7 +311,7 @@ static void sample_at(const kl_cam *c, double theta, double out[6]) {
   out[KL_CAM_CURVATURE] = cross == 0.0 ? INFINITY : -norm * norm * norm / cross;
 }
 
-int kl_cam_sample(const kl_cam *c, double theta, double out[KL_CAM_SAMPLE_SIZE]) {
+int kl_cam_sample(const kl_cam *c, double theta, double out[6]) {
   if (c == NULL || out == NULL)
     return KL_EINVAL;
   if (!isfinite(theta))

@@ -1198,21 +1198,39 @@ double kl_model_slot_radius(const kl_model *m, int joint) {
   return m->joints[joint].radius;
 }
 
-int kl_model_curve_points(const kl_model *m, int joint, int *closed,
-                          double *xy, int cap) {
-  const kli_curve *c;
-  if (m == NULL || cap < 0 || (xy == NULL && cap > 0))
+/* The curve of a curve slot joint, or NULL with the status in *st. */
+static const kli_curve *curve_of(const kl_model *m, int joint, int *st) {
+  *st = m == NULL                                       ? KL_EINVAL
+        : joint < 0 || joint >= m->njoints              ? KL_EID
+        : m->joints[joint].kind != KL_JOINT_CURVE_SLOT ? KL_EKIND
+                                                        : KL_OK;
+  return *st == KL_OK ? m->joints[joint].curve : NULL;
+}
+
+int kl_model_curve_count(const kl_model *m, int joint) {
+  int st;
+  const kli_curve *c = curve_of(m, joint, &st);
+  return c == NULL ? st : c->n;
+}
+
+int kl_model_curve_closed(const kl_model *m, int joint) {
+  int st;
+  const kli_curve *c = curve_of(m, joint, &st);
+  return c == NULL ? st : c->closed;
+}
+
+int kl_model_curve_point(const kl_model *m, int joint, int k, double xy[2]) {
+  int st;
+  const kli_curve *c = curve_of(m, joint, &st);
+  if (c == NULL)
+    return st;
+  if (xy == NULL)
     return KL_EINVAL;
-  if (joint < 0 || joint >= m->njoints)
+  if (k < 0 || k >= c->n)
     return KL_EID;
-  if (m->joints[joint].kind != KL_JOINT_CURVE_SLOT)
-    return KL_EKIND;
-  c = m->joints[joint].curve;
-  if (closed != NULL)
-    *closed = c->closed;
-  if (cap > 0)
-    memcpy(xy, c->xy, (size_t)(cap < c->n ? cap : c->n) * 2 * sizeof(double));
-  return c->n;
+  xy[0] = c->xy[2 * k];
+  xy[1] = c->xy[2 * k + 1];
+  return KL_OK;
 }
 
 int kl_model_slot_point(const kl_model *m, int joint, double slide,

@@ -345,16 +345,20 @@ END_TEST
 /* Reading back: the points, the radius, and the path at a slide. */
 START_TEST(slots_read_back) {
   kl_model *m = kl_model_new();
-  int a = kl_add_link(m, "a"), b = kl_add_link(m, "b"), closed = -1;
+  int a = kl_add_link(m, "a"), b = kl_add_link(m, "b"), closed;
   double sq[8] = {0, 0, 1, 0, 1, 1, 0, 1}, got[8], out[6];
   ck_assert_int_eq(kl_add_arc_slot(m, KL_GROUND, 1, 2, 3, a, 0, 0), 0);
   ck_assert_int_eq(kl_add_curve_slot(m, a, 4, sq, 1, b, 0, 0), 1);
   ck_assert_double_eq(kl_model_slot_radius(m, 0), 3.0);
   ck_assert(isnan(kl_model_slot_radius(m, 1)));
-  ck_assert_int_eq(kl_model_curve_points(m, 1, &closed, got, 4), 4);
-  ck_assert_int_eq(closed, 1);
+  ck_assert_int_eq(kl_model_curve_count(m, 1), 4);
+  ck_assert_int_eq(kl_model_curve_closed(m, 1), 1);
+  for (closed = 0; closed < 4; closed++)
+    ck_assert_int_eq(kl_model_curve_point(m, 1, closed, got + 2 * closed), KL_OK);
   ck_assert_int_eq(memcmp(got, sq, sizeof sq), 0);
-  ck_assert_int_eq(kl_model_curve_points(m, 0, NULL, NULL, 0), KL_EKIND);
+  ck_assert_int_eq(kl_model_curve_point(m, 1, 4, got), KL_EID);
+  ck_assert_int_eq(kl_model_curve_count(m, 0), KL_EKIND);
+  ck_assert_int_eq(kl_model_curve_closed(m, 9), KL_EID);
   /* the arc at slide r pi / 2: a quarter turn from the x axis */
   ck_assert_int_eq(kl_model_slot_point(m, 0, 3 * PI / 2, out), KL_OK);
   ck_assert_double_le(fabs(out[0] - 1.0), 1e-15);
@@ -389,17 +393,17 @@ START_TEST(slot_statements_round_trip) {
   kl_model *m, *again;
   char out1[4096], out2[4096];
   size_t need;
-  double xy[6];
-  int closed;
+  double xy[2];
   memset(&err, 0, sizeof err);
   err.size = sizeof err;
   m = kl_model_read(text, sizeof text - 1, &err);
   ck_assert_msg(m != NULL, "%s (line %d)", err.message, err.line);
   ck_assert_int_eq(kl_model_joint_kind(m, 2), KL_JOINT_ARC_SLOT);
   ck_assert_double_eq(kl_model_slot_radius(m, 2), 80.0);
-  ck_assert_int_eq(kl_model_curve_points(m, 3, &closed, xy, 3), 3);
-  ck_assert_int_eq(closed, 0);
-  ck_assert_double_eq(xy[3], -45.0);
+  ck_assert_int_eq(kl_model_curve_count(m, 3), 3);
+  ck_assert_int_eq(kl_model_curve_closed(m, 3), 0);
+  ck_assert_int_eq(kl_model_curve_point(m, 3, 1, xy), KL_OK);
+  ck_assert_double_eq(xy[1], -45.0);
   ck_assert_int_eq(kl_model_write(m, out1, sizeof out1, &need), KL_OK);
   again = kl_model_read(out1, strlen(out1), &err);
   ck_assert_msg(again != NULL, "%s (line %d)\n%s", err.message, err.line, out1);

@@ -277,16 +277,16 @@ static int is_curved(const cli_model *cm, int joint) {
 static void rail_span(const cli_model *cm, const pose *poses, int nposes,
                       const paths *p, int slide_index, double pad,
                       double *lo, double *hi) {
-  int joint = cm->slides[slide_index], k, closed;
+  int joint = cm->slides[slide_index], k;
   if (kl_model_joint_kind(cm->model, joint) == KL_JOINT_ARC_SLOT) {
     *lo = 0.0;
     *hi = 2.0 * CLI_PI * kl_model_slot_radius(cm->model, joint);
     return;
   }
   if (kl_model_joint_kind(cm->model, joint) == KL_JOINT_CURVE_SLOT) {
-    int n = kl_model_curve_points(cm->model, joint, &closed, NULL, 0);
+    int n = kl_model_curve_count(cm->model, joint);
     *lo = 0.0;
-    *hi = closed ? n : n - 1;
+    *hi = kl_model_curve_closed(cm->model, joint) ? n : n - 1;
     return;
   }
   *lo = *hi = poses[0].slide[joint];
