@@ -1965,15 +1965,15 @@ KL_API int kl_cam_motion(const kl_cam *c, double theta, double out[4]);
 /** What kl_cam_sample gives at one cam angle (indexes into its out array). */
 enum kl_cam_sample_index {
   KL_CAM_PITCH_X = 0,    /**< pitch curve (roller centre), cam frame */
-  KL_CAM_PITCH_Y = 1,
+  KL_CAM_PITCH_Y = 1,    /**< (its y) */
   KL_CAM_SURFACE_X = 2,  /**< cam surface (contact point), cam frame */
-  KL_CAM_SURFACE_Y = 3,
+  KL_CAM_SURFACE_Y = 3,  /**< (its y) */
   KL_CAM_PRESSURE = 4,   /**< pressure angle, rad, signed: positive when the
                               normal leans against the rise */
   KL_CAM_CURVATURE = 5,  /**< radius of curvature of the pitch curve:
                               positive convex, negative concave, infinite
                               where straight */
-  KL_CAM_SAMPLE_SIZE = 6
+  KL_CAM_SAMPLE_SIZE = 6 /**< the numbers kl_cam_sample gives */
 };
 
 /**
