@@ -435,6 +435,46 @@ START_TEST(slot_statements_round_trip) {
 }
 END_TEST
 
+/* Every allocation of a curve slot and of reading one may fail: each
+ * failure gives KL_ENOMEM, leaves the model as it was, and leaks nothing
+ * (the fault-injecting allocator of support.c). */
+START_TEST(curve_slot_survives_every_failed_allocation) {
+  static const char text[] =
+      "kinloop-model 1\nlink a\nlink b\n"
+      "revolute - ground 0 0 a 0 0\nrevolute - a 1 0 b 0 0\n"
+      "curve-slot - ground closed 4 b 2 0 through 0 0 3 0 3 3 0 3\n"
+      "input @0\n";
+  double sq[8] = {0, 0, 1, 0, 1, 1, 0, 1};
+  long n;
+  for (n = 1;; n++) {
+    counting_alloc c;
+    kl_model *m, *read;
+    int a, st;
+    kl_io_error err;
+    memset(&c, 0, sizeof c);
+    m = counting_model(&c);
+    ck_assert_ptr_nonnull(m);
+    a = kl_add_link(m, "a");
+    c.fail_at = c.calls + n;
+    st = kl_add_curve_slot(m, KL_GROUND, 4, sq, 1, a, 0, 0);
+    ck_assert(st == 0 || st == KL_ENOMEM);
+    ck_assert_int_eq(kl_model_joint_count(m), st == 0 ? 1 : 0);
+    kl_model_free(m);
+    ck_assert_int_eq(c.live, 0);
+    memset(&err, 0, sizeof err);
+    err.size = sizeof err;
+    c.fail_at = c.calls + n;
+    read = kl_model_read_with_alloc(text, sizeof text - 1, counting_alloc_fn, &c, &err);
+    if (read == NULL)
+      ck_assert_int_eq(err.status, KL_ENOMEM);
+    kl_model_free(read);
+    ck_assert_int_eq(c.live, 0);
+    if (st == 0 && read != NULL)
+      break;
+  }
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("slots");
   TCase *tc = tcase_create("slots");
@@ -448,6 +488,7 @@ int main(void) {
   tcase_add_test(tc, bad_slots_are_refused_and_change_nothing);
   tcase_add_test(tc, slots_read_back);
   tcase_add_test(tc, slot_statements_round_trip);
+  tcase_add_test(tc, curve_slot_survives_every_failed_allocation);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }
