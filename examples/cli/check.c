@@ -189,6 +189,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     kl_output out;
     kl_range range;
     double ratio;
+    const char *unit;
     if (is_input_joint(cm, cm->slides[i]))
       continue;
     memset(&out, 0, sizeof out);
@@ -198,9 +199,13 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
       continue;
     at_pair(cm, r->input, range.input_at_min, range.input_at_max, both,
             sizeof both);
+    /* a curve slot's slide is the spline's parameter, not a length */
+    unit = kl_model_joint_kind(cm->model, cm->slides[i]) == KL_JOINT_CURVE_SLOT
+               ? "(curve parameter)"
+               : cm->length_unit;
     fprintf(f, LABEL "stroke %.6g %s, from %.6g to %.6g %s, %s",
-            cm->joint_names[cm->slides[i]], range.max - range.min,
-            cm->length_unit, range.min, range.max, cm->length_unit, both);
+            cm->joint_names[cm->slides[i]], range.max - range.min, unit,
+            range.min, range.max, unit, both);
     if (full_turn && kl_range_time_ratio(&range, &ratio) == KL_OK)
       fprintf(f, "; time ratio %.4f", ratio);
     fputc('\n', f);
