@@ -27,7 +27,7 @@ import re
 import sys
 
 SCALARS = ("int", "long", "size_t", "double")
-HANDLES = ("model", "solver", "study")
+HANDLES = ("model", "solver", "study", "cam")
 
 
 # ---------------------------------------------------------------------------
@@ -231,6 +231,9 @@ POINTERS = {
     "kl_add_load": {"load": "one"},
     "kl_model_load": {"load": "out"},
     "kl_model_speed": {"input": "out", "speed": "out", "speed_fluctuation": "out"},
+    # "N pairs": 2 numbers (x, y) per element that N counts
+    "kl_add_curve_slot": {"xy": "npoints pairs"},
+    "kl_cam_set_program": {"segments": "nsegments"},
 }
 
 
@@ -245,8 +248,10 @@ def check_pointers(header):
             if param not in params or not params[param].pointers:
                 sys.exit("generate.py: POINTERS names %s's pointer parameter %r, which "
                          "include/kinloop.h does not declare" % (name, param))
+            count = role.split()[0]
             if role not in ("out", "one", "inputs") and \
-                    (role not in params or params[role].base != "int" or params[role].pointers):
+                    (count not in params or params[count].base != "int" or
+                     params[count].pointers):
                 sys.exit("generate.py: POINTERS counts %s's %r by %r, which is not an int "
                          "parameter of it" % (name, param, role))
 
@@ -275,8 +280,9 @@ class Arg:
       struct_out   one struct filled (a sized one, or "out" in POINTERS)"""
 
     def __init__(self, kind, name, params, ctype=None, length=None, enum=None,
-                 struct=None, const=False, optional=False, count=None):
+                 struct=None, const=False, optional=False, count=None, per=1):
         self.kind, self.name, self.params = kind, name, params
+        self.per = per  # numbers per counted element (2 for x, y pairs)
         self.ctype, self.length, self.enum, self.struct = ctype, length, enum, struct
         self.const, self.optional, self.count = const, optional, count
 
@@ -321,7 +327,8 @@ class Binding:
         if any(p.base == "size_t" and not p.pointers for p in params) and \
                 any(p.pointers and p.base[3:] not in HANDLES for p in params):
             self.refuse("a size_t sizes the memory of a pointer argument")
-        counts = {role for role in roles.values() if role not in ("out", "one", "inputs")}
+        counts = {role.split()[0] for role in roles.values()
+                  if role not in ("out", "one", "inputs")}
         k = 0
         while k < len(params):
             p = params[k]
@@ -363,10 +370,11 @@ class Binding:
                                      if p.base == "int" else None))
             elif role == "inputs" and p.base == "double" and p.pointers == 1:
                 self.args.append(Arg("inputs_in" if p.const else "inputs_out", p.name, [p]))
-            elif role in counts and p.const and p.pointers == 1 and \
-                    (p.base in ("int", "double") or struct is not None):
+            elif role is not None and role.split()[0] in counts and p.const and \
+                    p.pointers == 1 and (p.base in ("int", "double") or struct is not None):
                 self.args.append(Arg("array_in", p.name, [p], ctype=p.base, struct=struct,
-                                     count=role))
+                                     count=role.split()[0],
+                                     per=2 if role.endswith(" pairs") else 1))
             elif struct is not None and p.pointers == 1 and not struct.reports_error and \
                     (struct.sized or (role == "one" and p.const) or
                      (role == "out" and not p.const)):
@@ -664,7 +672,11 @@ def py_method(b):
         elif a.kind == "array_in":
             params.append(n)
             ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
+            if a.per == 2:
+                pre.append("%s = flat_pairs(%s, %r, %r)" % (n, n, f, a.name))
             pre.append("%s, %s_n = array_of(%s, %s, %r, %r)" % (n, n, n, ctype, f, a.name))
+            if a.per == 2:
+                pre.append("%s_n //= 2" % n)
             counts.setdefault(a.count, []).append(a.name)
             call.append(n)
         elif a.kind == "inputs_in":
@@ -785,8 +797,8 @@ def python_api(header):
            "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
            "import dataclasses", "", "import numpy as np", "",
            "from . import _header as H",
-           "from ._args import (array_of, same_count, struct_in, to_double, to_int, to_long,",
-           "                    to_path, to_point, to_size, to_string)",
+           "from ._args import (array_of, flat_pairs, same_count, struct_in, to_double, to_int,",
+           "                    to_long, to_path, to_point, to_size, to_string)",
            "from ._core import VALUE_TYPES, as_enum, check_const, text, value_of",
            "from ._header import Status",
            "from .raw import lib", "", "",
@@ -930,11 +942,12 @@ def octave_wrapper(header, b):
     signature = len(lines)
     lines.append("octave_value_list gen_%s(const call &c) {" % b.command)
     call_args, outs, counts, i, vector_arg = [], [], {}, 0, None
+    halved = set()  # arrays of x, y pairs: their count is half their length
     for a in b.args:
         # the gateway's own names (the call c, the handle h, the results
-        # out) are not a parameter's: a header parameter named so takes a
-        # trailing _
-        n = a.name + "_" if a.name in ("c", "h", "out") else a.name
+        # out, the result r) are not a parameter's: a header parameter
+        # named so takes a trailing _
+        n = a.name + "_" if a.name in ("c", "h", "out", "r") else a.name
         what = cpp_string(a.name)
         if a.kind == "handle":
             lines.append("  entry &h = c.%s(0, %s);" % (
@@ -984,6 +997,11 @@ def octave_wrapper(header, b):
             else:
                 lines.append("  std::vector<int> %s = c.wholes<int>(c.arg(%d), %s);" % (
                     n, i, what))
+            if a.per == 2:
+                # x, y pairs: a 2-by-n matrix, or a flat list x0 y0 x1 y1 ...
+                lines.append("  if (%s.size() %% 2 != 0)" % n)
+                lines.append("    c.bad(%s, \"must hold x, y pairs\");" % what)
+                halved.add(n)
             counts.setdefault(a.count, []).append(n)
             call_args.append("%s.empty() ? nullptr : %s.data()" % (n, n))
         elif a.kind == "inputs_in":
@@ -1024,8 +1042,9 @@ def octave_wrapper(header, b):
             lines.append("  if (%s.size() != %s.size())" % (other, arrays[0]))
             lines.append("    c.bad(%s, \"must have as many elements as %s\");" % (
                 cpp_string(other), arrays[0]))
-        lines.append("  int %s = c.count(%s.size(), %s);" % (count, arrays[0],
-                                                            cpp_string(arrays[0])))
+        lines.append("  int %s = c.count(%s.size()%s, %s);" % (
+            count, arrays[0], " / 2" if arrays[0] in halved else "",
+            cpp_string(arrays[0])))
     call = "%s(%s)" % (b.name, ", ".join(call_args))
     if vector_arg is not None:
         pos, name = vector_arg

@@ -129,9 +129,16 @@ enum kl_status {
   KL_EIO = -21,            /**< a file could not be read or written */
   KL_ETRUNCATED = -22,     /**< the caller's buffer is too small: the text was cut */
   KL_ETOOLARGE = -23,      /**< the request exceeds a documented bound of the library */
-  KL_EINDETERMINATE = -24  /**< forces: the structure is statically indeterminate
+  KL_EINDETERMINATE = -24, /**< forces: the structure is statically indeterminate
                                 (redundant constraints), so the joint forces are
                                 not determined by equilibrium alone */
+  /* curved slots and cams */
+  KL_EFEWPOINTS = -25,     /**< a curve has too few points */
+  KL_EREPEATED = -26,      /**< a curve repeats a point (a zero-length piece) */
+  KL_ERADIUS = -27,        /**< a radius is zero or negative */
+  KL_EUNDERCUT = -28,      /**< cam: the roller is larger than the pitch curve's
+                                smallest convex radius of curvature */
+  KL_EPRESSURE = -29       /**< cam: the pressure angle exceeds the bound set */
 };
 
 /**
@@ -151,7 +158,9 @@ KL_API const char *kl_status_str(int status);
 enum kl_joint_kind {
   KL_JOINT_REVOLUTE = 0,  /**< pin: the two attachment points coincide */
   KL_JOINT_PRISMATIC = 1, /**< slider: b's point runs on a line of a; b keeps a's angle */
-  KL_JOINT_SLOT = 2       /**< pin in slot: b's point runs on a line of a; b may turn */
+  KL_JOINT_SLOT = 2,      /**< pin in slot: b's point runs on a line of a; b may turn */
+  KL_JOINT_ARC_SLOT = 3,  /**< pin in a circular-arc slot of a (kl_add_arc_slot) */
+  KL_JOINT_CURVE_SLOT = 4 /**< pin in a slot of a along a spline (kl_add_curve_slot) */
 };
 
 /**
@@ -480,7 +489,7 @@ KL_API int kl_model_find_joint(const kl_model *m, const char *name);
 KL_API int kl_model_find_point(const kl_model *m, const char *name);
 /** The link a point belongs to, and its local coordinates into `xy` (may be NULL). */
 KL_API int kl_model_point_link(const kl_model *m, int point, double xy[2]);
-/** KL_JOINT_REVOLUTE, KL_JOINT_PRISMATIC or KL_JOINT_SLOT, or KL_EID. */
+/** An enum kl_joint_kind value, or KL_EID. */
 KL_API int kl_model_joint_kind(const kl_model *m, int joint);
 /**
  * The joint's links into `links` ([0] = a, [1] = b) and its attachment points
@@ -488,7 +497,8 @@ KL_API int kl_model_joint_kind(const kl_model *m, int joint);
  */
 KL_API int kl_model_joint_links(const kl_model *m, int joint, int links[2],
                           double a_xy[2], double b_xy[2]);
-/** The slide axis angle of a prismatic or slot joint in a's frame; NaN otherwise. */
+/** The slide axis angle of a prismatic or (straight) slot joint in a's frame;
+ * NaN otherwise. */
 KL_API double kl_model_joint_axis(const kl_model *m, int joint);
 /** The joint an input drives, or KL_EID. */
 KL_API int kl_model_input_joint(const kl_model *m, int input);
@@ -1916,6 +1926,217 @@ typedef struct kl_study_summary {
 KL_API int kl_study_summarize(const kl_study *st, int k, const double *values,
                               const int *sample_status, long n,
                               kl_study_summary *summary);
+
+/* ------------------------------------------------------------------------
+ * Curved slots and cams (issue 17). Curved slots are joints like the
+ * others: every stage (position, rates, coefficients, sweeps, forces)
+ * works through them. The cam functions need no model: they turn a
+ * follower motion program into the cam's pitch curve and surface.
+ * ------------------------------------------------------------------------ */
+
+/**
+ * Adds a pin in a circular slot: link b's point (bx, by) runs along the
+ * circle of centre (cx, cy) and radius r in link a's frame, and b may turn
+ * (a slot joint: two freedoms, one constraint). The joint's slide is the
+ * arc length r * phi, phi the pin's polar angle about the centre from a's
+ * x axis (unwrapped: it goes on past a full turn). The circle is the whole
+ * slot: the slide has no ends.
+ * Returns the joint's id, or KL_EID (unknown link), KL_ESELFJOINT (a == b),
+ * KL_ENONFINITE, KL_ERADIUS (r <= 0), KL_EDUPLICATE (an arc slot between
+ * these links already), KL_ESTATE (finalized), KL_ENOMEM; the model is
+ * unchanged on error.
+ */
+KL_API int kl_add_arc_slot(kl_model *m, int a, double cx, double cy, double r,
+                           int b, double bx, double by);
+
+/**
+ * Adds a pin in a slot along a curve: link b's point (bx, by) runs along the
+ * C2 cubic spline through the `npoints` points xy = (x0, y0, x1, y1, ...) of
+ * link a's frame, in a uniform parameter t (t = k at point k). A closed curve
+ * (closed != 0) is the periodic spline through the points and back to the
+ * first (t in [0, npoints), and on around: t is unwrapped); an open one has
+ * natural ends (zero curvature) and runs for t in [0, npoints - 1]: a
+ * position whose pin lies beyond an end gets KL_ENOASSEMBLY, and a sweep
+ * that reaches an end stops there with KL_LIMIT, located like any other
+ * limit. The joint's slide is t; its rates are per unit of t. The points
+ * are copied. An input on this joint prescribes t; its effort
+ * (kl_solve_forces) is the force along the curve's tangent.
+ * Returns the joint's id, or KL_EID, KL_ESELFJOINT, KL_EINVAL (NULL xy),
+ * KL_EFEWPOINTS (fewer than 2 points open, 3 closed), KL_ENONFINITE (a
+ * coordinate NaN or infinite), KL_EREPEATED (two consecutive points equal,
+ * the last and the first included for a closed curve), KL_EDUPLICATE,
+ * KL_ESTATE, KL_ENOMEM (npoints above 1e7 included); the model is unchanged
+ * on error.
+ */
+KL_API int kl_add_curve_slot(kl_model *m, int a, int npoints, const double *xy,
+                             int closed, int b, double bx, double by);
+
+/** The radius of an arc slot joint; NaN for any other joint or a bad id. */
+KL_API double kl_model_slot_radius(const kl_model *m, int joint);
+
+/** The number of points of a curve slot joint, or KL_EID, KL_EKIND (not a
+ * curve slot), KL_EINVAL (NULL). */
+KL_API int kl_model_curve_count(const kl_model *m, int joint);
+/** 1 if a curve slot joint's curve is closed, 0 if open, or KL_EID,
+ * KL_EKIND, KL_EINVAL. */
+KL_API int kl_model_curve_closed(const kl_model *m, int joint);
+/** Point k (from 0) of a curve slot joint, in its link a's frame, into xy.
+ * Returns KL_OK, KL_EID (unknown joint or k out of range), KL_EKIND,
+ * KL_EINVAL. */
+KL_API int kl_model_curve_point(const kl_model *m, int joint, int k,
+                                double xy[2]);
+
+/**
+ * Where the slot of a sliding joint (prismatic, slot, arc or curve slot)
+ * runs at slide value `slide`, in link a's frame: out = x, y of the point,
+ * its first derivative dx/ds, dy/ds and its second derivative with respect
+ * to the slide. A curve slot's spline costs O(1) here (no search along the
+ * points); beyond an open curve's end the curve goes on along its end
+ * tangent (the natural ends have zero curvature, so this stays C2).
+ * Returns KL_OK, KL_EID, KL_EKIND (a revolute joint), KL_ENONFINITE (slide
+ * NaN or infinite) or KL_EINVAL (NULL pointer).
+ */
+KL_API int kl_model_slot_point(const kl_model *m, int joint, double slide,
+                               double out[6]);
+
+/** How a cam's follower moves. */
+enum kl_cam_follower_kind {
+  KL_CAM_TRANSLATING = 0, /**< a roller on a stem sliding along a line (in-line
+                               or offset from the cam's centre) */
+  KL_CAM_OSCILLATING = 1  /**< a roller on an arm turning about a fixed pivot */
+};
+
+/** The follower of a cam. Lengths in any consistent unit. The cam turns
+ * counter-clockwise about the global origin; at cam angle 0 the follower
+ * stands as described here. */
+typedef struct kl_cam_follower {
+  size_t size;          /**< sizeof(kl_cam_follower), set by kl_cam_follower_init */
+  int kind;             /**< enum kl_cam_follower_kind */
+  double base_radius;   /**< base circle: the smallest radius of the cam surface, > 0 */
+  double roller_radius; /**< > 0; the prime circle has radius base + roller */
+  double offset;        /**< translating: the stem's line is x = offset, the
+                             roller rising along +y; 0 for in-line */
+  double pivot_x;       /**< oscillating: the arm's pivot (global frame) */
+  double pivot_y;       /**< oscillating: the pivot's y */
+  double arm_length;    /**< oscillating: pivot to roller centre, > 0; the arm
+                             turns counter-clockwise as the follower rises */
+} kl_cam_follower;
+
+/** Fills `f` with a translating in-line follower, base radius 1, roller
+ * 0.25 (an example to change), and sets its size. No-op on NULL. */
+KL_API void kl_cam_follower_init(kl_cam_follower *f);
+
+/** One segment of a follower motion program. */
+typedef struct kl_cam_segment {
+  double span;  /**< the cam angle it takes, rad, > 0 */
+  double lift;  /**< the follower's travel over it: length (translating) or
+                     arm angle in rad (oscillating); > 0 a rise, < 0 a
+                     return, 0 a dwell */
+  int law;      /**< enum kl_motion_law_kind (ignored for a dwell) */
+} kl_cam_segment;
+
+/** A cam: a follower and a motion program (opaque). */
+typedef struct kl_cam kl_cam;
+
+/** A new cam, with the follower of kl_cam_follower_init and a program of one
+ * full-turn dwell; NULL when memory runs out. Allocates. */
+KL_API kl_cam *kl_cam_new(void);
+/** Frees the cam; NULL does nothing. */
+KL_API void kl_cam_free(kl_cam *c);
+/** The message of the cam's last failure ("" if none); owned by the cam. */
+KL_API const char *kl_cam_error(const kl_cam *c);
+
+/**
+ * Sets the cam's follower. Returns KL_OK, or KL_EINVAL (NULL, size too
+ * small, unknown kind, an oscillating arm that cannot reach the prime
+ * circle from its pivot, a pivot inside the prime circle), KL_ENONFINITE,
+ * KL_ERADIUS (a radius or the arm length zero or negative), each with a
+ * message; the cam is unchanged on error.
+ */
+KL_API int kl_cam_set_follower(kl_cam *c, const kl_cam_follower *f);
+
+/**
+ * Sets the motion program: `nsegments` segments in cam-angle order from
+ * angle 0. Their spans must add up to one turn (2 pi, to 1e-9) and their
+ * lifts to zero (the follower comes back, to 1e-9 of the largest lift).
+ * Returns KL_OK, or KL_EINVAL (NULL, nsegments < 1 or above 10000, an
+ * unknown law, spans not a turn, lifts not closing, span <= 0),
+ * KL_ENONFINITE; with a message naming the segment; the cam is unchanged
+ * on error. The segments are copied (allocates).
+ */
+KL_API int kl_cam_set_program(kl_cam *c, int nsegments,
+                              const kl_cam_segment *segments);
+
+/**
+ * The follower's displacement from its lowest position at cam angle `theta`
+ * (rad; any value, taken modulo one turn) and its derivatives with respect
+ * to the cam angle: out = s, ds/dtheta, d2s/dtheta2, d3s/dtheta3 (times
+ * omega, omega^2, omega^3 for time rates at constant cam speed omega).
+ * Returns KL_OK, KL_EINVAL (NULL), KL_ENONFINITE.
+ */
+KL_API int kl_cam_motion(const kl_cam *c, double theta, double out[4]);
+
+/** What kl_cam_sample gives at one cam angle (indexes into its out array). */
+enum kl_cam_sample_index {
+  KL_CAM_PITCH_X = 0,    /**< pitch curve (roller centre), cam frame */
+  KL_CAM_PITCH_Y = 1,    /**< (its y) */
+  KL_CAM_SURFACE_X = 2,  /**< cam surface (contact point), cam frame */
+  KL_CAM_SURFACE_Y = 3,  /**< (its y) */
+  KL_CAM_PRESSURE = 4,   /**< pressure angle, rad, signed: positive when the
+                              normal leans against the rise */
+  KL_CAM_CURVATURE = 5,  /**< radius of curvature of the pitch curve:
+                              positive convex, negative concave, infinite
+                              where straight */
+  KL_CAM_SAMPLE_SIZE = 6 /**< the numbers kl_cam_sample gives */
+};
+
+/**
+ * The cam at cam angle `theta` (rad), into out (KL_CAM_SAMPLE_SIZE = 6
+ * numbers, indexed by enum kl_cam_sample_index): the roller centre and the contact
+ * point in the cam's own frame (the cam frame coincides with the global
+ * frame at angle 0), the pressure angle (between the pitch curve's normal
+ * and the follower's direction of motion) and the pitch curve's radius of
+ * curvature. Returns KL_OK, KL_EINVAL (NULL), KL_ENONFINITE. No allocation.
+ */
+KL_API int kl_cam_sample(const kl_cam *c, double theta, double out[6]);
+
+/**
+ * The pitch curve and the cam surface as n points each at the cam angles
+ * 2 pi k / n, k = 0 .. n - 1 (in the cam frame, 2 numbers a point; either
+ * array may be NULL): ready for kl_add_curve_slot with closed = 1, where
+ * t = k stands for cam angle 2 pi k / n. The cam turns counter-clockwise,
+ * so the points run clockwise around it. Returns KL_OK, KL_EINVAL (NULL
+ * cam, n < 3).
+ */
+KL_API int kl_cam_outline(const kl_cam *c, int n, double *pitch_xy,
+                          double *surface_xy);
+
+/** What kl_cam_check finds over the cycle. */
+typedef struct kl_cam_report {
+  size_t size;                /**< sizeof(kl_cam_report), set by the caller */
+  double max_pressure;        /**< the largest |pressure angle|, rad */
+  double max_pressure_angle;  /**< the cam angle where it is, rad */
+  double min_convex_radius;   /**< the smallest positive radius of curvature
+                                   of the pitch curve (infinite if none) */
+  double min_convex_angle;    /**< the cam angle where it is (NaN if none) */
+} kl_cam_report;
+
+/**
+ * Checks the cam over one turn at `nsamples` cam angles (>= 8), each
+ * extreme refined to 1e-9 rad between its neighbours by golden-section
+ * search: fills `report` (may be NULL) and then judges, in this order,
+ * the roller against the pitch curve (common practice: the roller radius
+ * must stay below the smallest convex radius of curvature, or the surface
+ * undercuts) and the pressure angle against `max_pressure` (rad, > 0; the
+ * rule of thumb is 30 degrees for a translating follower, 35 to 45 for an
+ * oscillating one: common practice, no source).
+ * Returns KL_OK, KL_EUNDERCUT or KL_EPRESSURE with a message giving the
+ * cam angle in degrees, or KL_EINVAL (NULL cam, nsamples < 8, a report
+ * whose size is too small, max_pressure not positive), KL_ENONFINITE.
+ * No allocation.
+ */
+KL_API int kl_cam_check(kl_cam *c, int nsamples, double max_pressure,
+                        kl_cam_report *report);
 
 #ifdef __cplusplus
 }

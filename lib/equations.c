@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "equations.h"
+#include "slots.h"
 
 #if defined(__GLIBC__)
 #define kli_sincos(a, s, c) sincos((a), (s), (c))
@@ -71,13 +72,18 @@ void kli_pose_forget_trig(const kl_model *m, kli_pose *p) {
     p->trig_at[l] = NAN;
 }
 
-/* Unit direction of a slide term's axis at pose p. */
-static void slide_dir(const kl_model *m, const kli_term *t, const kli_pose *p,
-                      double d[2]) {
-  const double *ax = m->joints[t->joint].axis_cs;
-  double c = p->c[t->link], s = p->s[t->link];
-  d[0] = c * ax[0] - s * ax[1];
-  d[1] = s * ax[0] + c * ax[1];
+/* A slide term's path at pose p, turned into the global frame: its vector
+ * g(s) from the guide's attachment to the pin, dg/ds and d2g/ds2 (slots.c),
+ * each times the term's sign. */
+static void slide_path(const kl_model *m, const kli_term *t, const kli_pose *p,
+                       double r[6]) {
+  double local[6], c = p->c[t->link], s = p->s[t->link];
+  int i;
+  kli_slot_path(&m->joints[t->joint], p->x[m->nlinks + t->joint], local);
+  for (i = 0; i < 6; i += 2) {
+    r[i] = t->sign * (c * local[i] - s * local[i + 1]);
+    r[i + 1] = t->sign * (s * local[i] + c * local[i + 1]);
+  }
 }
 
 /* R(angle) v for a link term. */
@@ -97,10 +103,10 @@ void kli_chain_value(const kl_model *m, const kli_chain *ch, const kli_pose *p,
     if (t->joint < 0) {
       rotated(t, p, r);
     } else {
-      double s = t->sign * p->x[m->nlinks + t->joint];
-      slide_dir(m, t, p, r);
-      r[0] *= s;
-      r[1] *= s;
+      double g[6];
+      slide_path(m, t, p, g);
+      r[0] = g[0];
+      r[1] = g[1];
     }
     out[0] += r[0];
     out[1] += r[1];
@@ -119,12 +125,11 @@ void kli_chain_rate(const kl_model *m, const kli_chain *ch, const kli_pose *p,
       out[0] -= w * r[1];
       out[1] += w * r[0];
     } else {
-      int si = m->nlinks + t->joint;
-      double s = p->x[si], sd = v[si];
-      slide_dir(m, t, p, r);
-      /* d/dt (s d) = sdot d + s omega d-perp */
-      out[0] += t->sign * (sd * r[0] - s * w * r[1]);
-      out[1] += t->sign * (sd * r[1] + s * w * r[0]);
+      double g[6], sd = v[m->nlinks + t->joint];
+      slide_path(m, t, p, g);
+      /* d/dt R g(s) = sdot R g' + omega (R g)-perp */
+      out[0] += sd * g[2] - w * g[1];
+      out[1] += sd * g[3] + w * g[0];
     }
   }
 }
@@ -144,13 +149,14 @@ void kli_chain_second(const kl_model *m, const kli_chain *ch,
       out[1] -= wa * wb * r[1];
     } else {
       int si = m->nlinks + t->joint;
-      double s = p->x[si];
-      /* Coriolis (sdot_a omega_b + sdot_b omega_a) d-perp, and the
-       * centripetal part -s omega_a omega_b d of the slide's vector */
-      double cor = va[si] * wb + vb[si] * wa, cen = s * wa * wb;
-      slide_dir(m, t, p, r);
-      out[0] += t->sign * (-cor * r[1] - cen * r[0]);
-      out[1] += t->sign * (cor * r[0] - cen * r[1]);
+      /* Coriolis (sdot_a omega_b + sdot_b omega_a) (R g')-perp, the
+       * centripetal part -omega_a omega_b R g of the slide's vector, and
+       * the path's own curvature sdot_a sdot_b R g'' */
+      double g[6], cor = va[si] * wb + vb[si] * wa, cen = wa * wb,
+                   curv = va[si] * vb[si];
+      slide_path(m, t, p, g);
+      out[0] += -cor * g[3] - cen * g[0] + curv * g[4];
+      out[1] += cor * g[2] - cen * g[1] + curv * g[5];
     }
   }
 }
@@ -242,15 +248,15 @@ void kli_jacobian_pairs(const kl_model *m, const kli_pose *p, double *pairs) {
         pairs[2 * t->nz_angle] -= r[1];
         pairs[2 * t->nz_angle + 1] += r[0];
       } else {
-        double s = p->x[m->nlinks + t->joint];
-        slide_dir(m, t, p, r);
+        double g[6];
+        slide_path(m, t, p, g);
         if (t->nz_slide >= 0) {
-          pairs[2 * t->nz_slide] += t->sign * r[0];
-          pairs[2 * t->nz_slide + 1] += t->sign * r[1];
+          pairs[2 * t->nz_slide] += g[2];
+          pairs[2 * t->nz_slide + 1] += g[3];
         }
         if (t->nz_angle >= 0) {
-          pairs[2 * t->nz_angle] -= t->sign * s * r[1];
-          pairs[2 * t->nz_angle + 1] += t->sign * s * r[0];
+          pairs[2 * t->nz_angle] -= g[1];
+          pairs[2 * t->nz_angle + 1] += g[0];
         }
       }
     }

@@ -7,6 +7,7 @@
 #include <string.h>
 
 #include "forces.h"
+#include "slots.h"
 
 static double cross(const double a[2], const double b[2]) {
   return a[0] * b[1] - a[1] * b[0];
@@ -67,10 +68,16 @@ static void joint_geometry(kl_solver *s) {
     }
     d[0] = d[1] = 0.0;
     if (kli_is_sliding(j->kind)) {
-      double slide = p->x[m->nlinks + joint];
-      turn(p, j->link[0], j->axis_cs, d);
-      arm[0] += slide * d[0];
-      arm[1] += slide * d[1];
+      /* the pin's place on the slot's path, and the path's unit tangent */
+      double path[6], g[2], norm;
+      kli_slot_path(j, p->x[m->nlinks + joint], path);
+      turn(p, j->link[0], path, g);
+      arm[0] += g[0];
+      arm[1] += g[1];
+      norm = hypot(path[2], path[3]);
+      path[2] /= norm;
+      path[3] /= norm;
+      turn(p, j->link[0], path + 2, d);
     }
   }
 }

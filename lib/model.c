@@ -8,7 +8,7 @@
 #include <stdio.h>
 #include <string.h>
 
-#include "model.h"
+#include "slots.h"
 
 kl_model *kl_model_new(void) {
   return kl_model_new_with_alloc(kli_default_alloc, NULL);
@@ -61,8 +61,10 @@ static void destroy(kl_model *m) {
     free_name(m, m->links[i].name);
   for (i = 0; i < m->npoints; i++)
     free_name(m, m->points[i].name);
-  for (i = 0; i < m->njoints; i++)
+  for (i = 0; i < m->njoints; i++) {
     free_name(m, m->joints[i].name);
+    kli_curve_free(&a, m->joints[i].curve);
+  }
   kli_free(&a, m->links, (size_t)m->cap_links * sizeof *m->links);
   kli_free(&a, m->joints, (size_t)m->cap_joints * sizeof *m->joints);
   kli_free(&a, m->points, (size_t)m->cap_points * sizeof *m->points);
@@ -129,6 +131,8 @@ const char *kli_kind_name(int kind) {
   switch (kind) {
   case KL_JOINT_REVOLUTE: return "revolute";
   case KL_JOINT_PRISMATIC: return "prismatic";
+  case KL_JOINT_ARC_SLOT: return "arc slot";
+  case KL_JOINT_CURVE_SLOT: return "curve slot";
   default: return "slot";
   }
 }
@@ -146,7 +150,14 @@ const char *kli_joint_label(const kl_model *m, int joint, char *buf,
   return buf;
 }
 
-int kli_is_sliding(int kind) { return kind == KL_JOINT_PRISMATIC || kind == KL_JOINT_SLOT; }
+int kli_is_sliding(int kind) {
+  return kind == KL_JOINT_PRISMATIC || kli_is_pin_slot(kind);
+}
+
+int kli_is_pin_slot(int kind) {
+  return kind == KL_JOINT_SLOT || kind == KL_JOINT_ARC_SLOT ||
+         kind == KL_JOINT_CURVE_SLOT;
+}
 
 int kli_input_of(const kl_model *m, int joint) {
   return m->joints[joint].input;
@@ -989,10 +1000,16 @@ kl_model *kli_model_copy(const kl_model *src) {
     /* the names are src's until copied: none first, then each */
     for (i = 0; i < m->nlinks; i++)
       m->links[i].name = NULL;
-    for (i = 0; i < m->njoints; i++)
+    for (i = 0; i < m->njoints; i++) {
       m->joints[i].name = NULL;
+      m->joints[i].curve = NULL;
+    }
     for (i = 0; i < m->npoints; i++)
       m->points[i].name = NULL;
+    for (i = 0; ok && i < m->njoints; i++)
+      ok = src->joints[i].curve == NULL ||
+           (m->joints[i].curve = kli_curve_copy(&m->alloc,
+                                                src->joints[i].curve)) != NULL;
     for (i = 0; ok && i < m->nlinks; i++)
       ok = copy_name(m, src->links[i].name, &m->links[i].name, "copy") == KL_OK;
     for (i = 0; ok && i < m->njoints; i++)
@@ -1114,9 +1131,124 @@ int kl_model_joint_links(const kl_model *m, int joint, int links[2], double a_xy
 
 double kl_model_joint_axis(const kl_model *m, int joint) {
   if (m == NULL || joint < 0 || joint >= m->njoints ||
-      !kli_is_sliding(m->joints[joint].kind))
+      (m->joints[joint].kind != KL_JOINT_PRISMATIC &&
+       m->joints[joint].kind != KL_JOINT_SLOT))
     return NAN;
   return m->joints[joint].axis;
+}
+
+/* ---- curved slots ---- */
+
+/* A joint of a curved kind through add_joint, then its path: on any error
+ * the joint is taken back, so the model is as before. */
+static int add_curved(kl_model *m, int kind, int a, double ax, double ay,
+                      double radius, kli_curve *curve, int b, double bx,
+                      double by) {
+  int j = add_joint(m, kind, a, ax, ay, 0.0, b, bx, by);
+  if (j < 0) {
+    kli_curve_free(&m->alloc, curve);
+    return j;
+  }
+  m->joints[j].radius = radius;
+  m->joints[j].curve = curve;
+  return j;
+}
+
+int kl_add_arc_slot(kl_model *m, int a, double cx, double cy, double r, int b,
+                    double bx, double by) {
+  char la[64];
+  if (m == NULL)
+    return KL_EINVAL;
+  /* the joint's own checks (state, ids, numbers) speak first */
+  if (m->finalized || a < 0 || a >= m->nlinks || b < 0 || b >= m->nlinks ||
+      a == b || !isfinite(cx) || !isfinite(cy) || !isfinite(bx) ||
+      !isfinite(by))
+    return add_joint(m, KL_JOINT_ARC_SLOT, a, cx, cy, 0.0, b, bx, by);
+  if (!isfinite(r))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "add arc slot joint on %s: the radius is NaN or infinite",
+                    kli_link_label(m, a, la, sizeof la));
+  if (r <= 0.0)
+    return kli_fail(m->error, KL_ERADIUS,
+                    "add arc slot joint on %s: the radius %g is not positive",
+                    kli_link_label(m, a, la, sizeof la), r);
+  return add_curved(m, KL_JOINT_ARC_SLOT, a, cx, cy, r, NULL, b, bx, by);
+}
+
+int kl_add_curve_slot(kl_model *m, int a, int npoints, const double *xy,
+                      int closed, int b, double bx, double by) {
+  kli_curve *curve;
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if (m->finalized || a < 0 || a >= m->nlinks || b < 0 || b >= m->nlinks ||
+      a == b || !isfinite(bx) || !isfinite(by))
+    return add_joint(m, KL_JOINT_CURVE_SLOT, a, 0.0, 0.0, 0.0, b, bx, by);
+  if ((st = kli_curve_new(&m->alloc, npoints, xy, closed, m->error,
+                          "add curve slot joint", &curve)) != KL_OK)
+    return st;
+  return add_curved(m, KL_JOINT_CURVE_SLOT, a, 0.0, 0.0, 0.0, curve, b, bx,
+                    by);
+}
+
+double kl_model_slot_radius(const kl_model *m, int joint) {
+  if (m == NULL || joint < 0 || joint >= m->njoints ||
+      m->joints[joint].kind != KL_JOINT_ARC_SLOT)
+    return NAN;
+  return m->joints[joint].radius;
+}
+
+/* The curve of a curve slot joint, or NULL with the status in *st. */
+static const kli_curve *curve_of(const kl_model *m, int joint, int *st) {
+  *st = m == NULL                                       ? KL_EINVAL
+        : joint < 0 || joint >= m->njoints              ? KL_EID
+        : m->joints[joint].kind != KL_JOINT_CURVE_SLOT ? KL_EKIND
+                                                        : KL_OK;
+  return *st == KL_OK ? m->joints[joint].curve : NULL;
+}
+
+int kl_model_curve_count(const kl_model *m, int joint) {
+  int st;
+  const kli_curve *c = curve_of(m, joint, &st);
+  return c == NULL ? st : c->n;
+}
+
+int kl_model_curve_closed(const kl_model *m, int joint) {
+  int st;
+  const kli_curve *c = curve_of(m, joint, &st);
+  return c == NULL ? st : c->closed;
+}
+
+int kl_model_curve_point(const kl_model *m, int joint, int k, double xy[2]) {
+  int st;
+  const kli_curve *c = curve_of(m, joint, &st);
+  if (c == NULL)
+    return st;
+  if (xy == NULL)
+    return KL_EINVAL;
+  if (k < 0 || k >= c->n)
+    return KL_EID;
+  xy[0] = c->xy[2 * k];
+  xy[1] = c->xy[2 * k + 1];
+  return KL_OK;
+}
+
+int kl_model_slot_point(const kl_model *m, int joint, double slide,
+                        double out[6]) {
+  const kli_joint *j;
+  if (m == NULL || out == NULL)
+    return KL_EINVAL;
+  if (joint < 0 || joint >= m->njoints)
+    return KL_EID;
+  j = &m->joints[joint];
+  if (!kli_is_sliding(j->kind))
+    return KL_EKIND;
+  if (!isfinite(slide))
+    return KL_ENONFINITE;
+  kli_slot_path(j, slide, out);
+  out[0] += j->at[0][0];
+  out[1] += j->at[0][1];
+  return KL_OK;
 }
 
 int kl_model_input_joint(const kl_model *m, int input) {

@@ -39,6 +39,10 @@ typedef struct {
   double axis;        /* slide axis angle in a's frame (sliding joints) */
   double axis_cs[2];  /* cos, sin of axis */
   int input;          /* the input that drives it (its index), or -1 */
+  /* curved slots (slots.c): an arc slot's radius (its centre is at[0]); a
+   * curve slot's spline (owned; at[0] is a's origin), NULL otherwise */
+  double radius;
+  struct kli_curve *curve;
 } kli_joint;
 
 typedef struct {
@@ -49,8 +53,9 @@ typedef struct {
 
 /*
  * One term of a vector chain. A link term adds R(angle(link)) v; a slide term
- * adds sign * s * (cos, sin)(angle(link) + axis) for the slide s of `joint`,
- * whose guide is `link`. Loops are closed chains (their sum is the residual);
+ * adds sign * R(angle(link)) g(s) for the slide s of `joint`, whose guide is
+ * `link`, g the slot's path in the guide's frame (slots.c: s times the axis
+ * for a straight one). Loops are closed chains (their sum is the residual);
  * points are open chains from the global origin (their sum is the position).
  */
 typedef struct {
@@ -238,8 +243,11 @@ const double *kli_joint_point_on(const kl_model *m, int joint, int link);
  * links_after filled (may be NULL) if the walk closes, else 0. */
 int kli_loop_links(const kl_model *m, int n, const int *joints,
                    int *links_after);
-/* 1 for prismatic and slot joints. */
+/* 1 for joints with a slide: prismatic, slot, arc slot and curve slot. */
 int kli_is_sliding(int kind);
+/* 1 for the pin-in-slot kinds (one constraint, two freedoms): slot, arc
+ * slot and curve slot. */
+int kli_is_pin_slot(int kind);
 /* KL_OK when every load of loads[0..nloads) names a point (a force) or a
  * link (a torque) of m and holds finite numbers; else its status, with a
  * message naming `stage` and the load written into `error` (may be NULL). */

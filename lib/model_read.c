@@ -108,6 +108,88 @@ static int read_joint(model_reader *mr, int kind) {
   return KL_OK;
 }
 
+/* Names the joint a builder just added, if the statement named it. */
+static int name_joint(model_reader *mr, int joint, const kli_token *name_tok,
+                      const char *name) {
+  int st;
+  if (joint < 0)
+    return builder_failed(mr, joint, name_tok->column);
+  if (name != NULL &&
+      (st = kl_model_set_joint_name(mr->m, joint, name)) != KL_OK)
+    return builder_failed(mr, st, name_tok->column);
+  return KL_OK;
+}
+
+/* arc-slot NAME LINK CX CY radius R LINK X Y */
+static int read_arc_slot(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  kli_token name_tok;
+  const char *name;
+  int st, a, b;
+  double cx, cy, radius, bx, by;
+  if ((st = kli_expect_new_name(r, "joint", &name_tok, &name)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_LINK, "the slot's link", &a)) != KL_OK ||
+      (st = kli_expect_number(r, "the slot circle's centre x", &cx)) != KL_OK ||
+      (st = kli_expect_number(r, "the slot circle's centre y", &cy)) != KL_OK ||
+      (st = kli_expect_keyword(r, "radius", "before the slot's radius")) !=
+          KL_OK ||
+      (st = kli_expect_number(r, "the slot's radius", &radius)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_LINK, "the pin's link", &b)) != KL_OK ||
+      (st = kli_expect_number(r, "the pin's x", &bx)) != KL_OK ||
+      (st = kli_expect_number(r, "the pin's y", &by)) != KL_OK ||
+      (st = kli_expect_end(r)) != KL_OK)
+    return st;
+  return name_joint(mr, kl_add_arc_slot(mr->m, a, cx, cy, radius, b, bx, by),
+                    &name_tok, name);
+}
+
+/* curve-slot NAME LINK open|closed COUNT LINK X Y through X0 Y0 X1 Y1 ...
+ * (COUNT points, all on the line) */
+static int read_curve_slot(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  kli_token name_tok, shape;
+  const char *name;
+  int st, a, b, n, k, closed;
+  double bx, by, *xy;
+  size_t bytes;
+  if ((st = kli_expect_new_name(r, "joint", &name_tok, &name)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_LINK, "the slot's link", &a)) != KL_OK ||
+      (st = kli_next_token(r, &shape)) != KL_OK)
+    return st;
+  if (shape.kind != KLI_TOKEN_WORD ||
+      (strcmp(shape.text, "open") != 0 && strcmp(shape.text, "closed") != 0))
+    return kli_read_fail(r, KL_ESYNTAX, shape.column,
+                         "expected 'open' or 'closed' for the curve, found "
+                         "'%.60s'",
+                         kli_token_shown(&shape));
+  closed = strcmp(shape.text, "closed") == 0;
+  if ((st = kli_expect_count(r, "the number of points", &n)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_LINK, "the pin's link", &b)) != KL_OK ||
+      (st = kli_expect_number(r, "the pin's x", &bx)) != KL_OK ||
+      (st = kli_expect_number(r, "the pin's y", &by)) != KL_OK ||
+      (st = kli_expect_keyword(r, "through", "before the curve's points")) !=
+          KL_OK)
+    return st;
+  /* each number takes at least two bytes of the text: a count beyond that
+   * cannot be there, and must not size an allocation */
+  if ((size_t)n > (r->length - r->pos) / 4 + 1)
+    return kli_read_fail(r, KL_ESYNTAX, shape.column,
+                         "%d points announced, more than the rest of the "
+                         "text can hold",
+                         n);
+  bytes = (size_t)n * 2 * sizeof *xy;
+  if ((xy = kli_alloc(&mr->m->alloc, bytes)) == NULL)
+    return kli_read_fail(r, KL_ENOMEM, shape.column, "out of memory");
+  for (k = 0, st = KL_OK; k < 2 * n && st == KL_OK; k++)
+    st = kli_expect_number(r, k % 2 == 0 ? "a point's x" : "a point's y",
+                           &xy[k]);
+  if (st == KL_OK && (st = kli_expect_end(r)) == KL_OK)
+    st = name_joint(mr, kl_add_curve_slot(mr->m, a, n, xy, closed, b, bx, by),
+                    &name_tok, name);
+  kli_free(&mr->m->alloc, xy, bytes);
+  return st;
+}
+
 static int read_point(model_reader *mr) {
   kli_reader *r = &mr->r;
   kli_token name_tok;
@@ -388,6 +470,10 @@ static int read_statement(model_reader *mr, const kli_token *key) {
     return read_joint(mr, KL_JOINT_PRISMATIC);
   if (strcmp(k, "slot") == 0)
     return read_joint(mr, KL_JOINT_SLOT);
+  if (strcmp(k, "arc-slot") == 0)
+    return read_arc_slot(mr);
+  if (strcmp(k, "curve-slot") == 0)
+    return read_curve_slot(mr);
   if (strcmp(k, "point") == 0)
     return read_point(mr);
   if (strcmp(k, "input") == 0)
@@ -403,7 +489,8 @@ static int read_statement(model_reader *mr, const kli_token *key) {
   return kli_read_fail(
       r, KL_ESYNTAX, key->column,
       "unknown statement '%.60s' (expected units, link, "
-      "revolute, prismatic, slot, point, input, loop, sketch, "
+      "revolute, prismatic, slot, arc-slot, curve-slot, point, input, "
+      "loop, sketch, "
       "sweep, mass, gravity, load, speed or redundant)",
       k);
 }

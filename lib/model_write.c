@@ -6,6 +6,7 @@
 #include <stdio.h>
 #include <string.h>
 
+#include "slots.h"
 #include "tokens.h"
 
 typedef struct {
@@ -116,6 +117,27 @@ static void write_force_data(const kl_model *m, sink *o) {
     put(o, "redundant %d\n", m->redundancy);
 }
 
+/* arc-slot and curve-slot statements (model_read.c gives their form). */
+static void write_curved_slot(const kl_model *m, int joint, sink *o) {
+  const kli_joint *j = &m->joints[joint];
+  int k;
+  put(o, j->kind == KL_JOINT_ARC_SLOT ? "arc-slot" : "curve-slot");
+  put_name(o, j->name);
+  put_link_ref(o, m, j->link[0]);
+  if (j->kind == KL_JOINT_ARC_SLOT)
+    put(o, " %.17g %.17g radius %.17g", j->at[0][0], j->at[0][1], j->radius);
+  else
+    put(o, " %s %d", j->curve->closed ? "closed" : "open", j->curve->n);
+  put_link_ref(o, m, j->link[1]);
+  put(o, " %.17g %.17g", j->at[1][0], j->at[1][1]);
+  if (j->kind == KL_JOINT_CURVE_SLOT) {
+    put(o, " through");
+    for (k = 0; k < 2 * j->curve->n; k++)
+      put(o, " %.17g", j->curve->xy[k]);
+  }
+  put(o, "\n");
+}
+
 static void write_model(const kl_model *m, sink *o) {
   int i, k;
   put(o, "kinloop-model %d\n", KLI_FORMAT_VERSION);
@@ -130,6 +152,10 @@ static void write_model(const kl_model *m, sink *o) {
   }
   for (i = 0; i < m->njoints; i++) {
     const kli_joint *j = &m->joints[i];
+    if (j->kind == KL_JOINT_ARC_SLOT || j->kind == KL_JOINT_CURVE_SLOT) {
+      write_curved_slot(m, i, o);
+      continue;
+    }
     put(o, "%s", kli_kind_name(j->kind));
     put_name(o, j->name);
     put_link_ref(o, m, j->link[0]);

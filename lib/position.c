@@ -7,6 +7,7 @@
 #include <string.h>
 
 #include "position.h"
+#include "slots.h"
 
 /* Sufficient decrease of 0.5 |F|^2 asked of each step (Armijo). */
 #define KLI_ARMIJO 1e-4
@@ -324,6 +325,26 @@ static int check_dropped_rows(kl_solver *s, const kli_pose *p, double ftol) {
                   m->topo.redundancy == 1 ? "" : "s");
 }
 
+/* A pin beyond an open curve slot's end has left the slot: the loops do
+ * not close there (a sweep locates that end as a motion limit). */
+static int check_slot_ends(kl_solver *s, const kli_pose *p) {
+  const kl_model *m = s->model;
+  int j;
+  char lj[160], in[200];
+  for (j = 0; j < m->njoints; j++) {
+    double t = p->x[m->nlinks + j];
+    if (kli_is_sliding(m->joints[j].kind) &&
+        !kli_slide_on_slot(&m->joints[j], t))
+      return kli_fail(s->error, KL_ENOASSEMBLY,
+                      "solve position: at %s the pin of %s would be at "
+                      "t = %.9g, beyond its open curve's ends 0 and %.9g",
+                      input_list(s, s->u_trial, in, sizeof in),
+                      kli_joint_label(m, j, lj, sizeof lj), t,
+                      kli_curve_end(m->joints[j].curve));
+  }
+  return KL_OK;
+}
+
 static void commit(kl_solver *s, const kli_pose *p, double rcond,
                    int factored_at_solution) {
   kli_pose_copy(s, &s->st.pose, p);
@@ -453,6 +474,8 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   }
   if (s->model->topo.redundancy > 0 &&
       (st = check_dropped_rows(s, it.cur, ftol)) != KL_OK)
+    goto failed_stats;
+  if ((st = check_slot_ends(s, it.cur)) != KL_OK)
     goto failed_stats;
   commit(s, it.cur, s->stats.rcond, factored_at_solution);
   s->st.last_attempt = s->stats.status = KL_OK;

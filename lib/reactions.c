@@ -41,7 +41,7 @@ static void entry(kli_force_pattern *f, int row, int col, int coef,
  * moment rows. */
 static void joint_entries(kli_force_pattern *f, const kli_joint *j, int col,
                           int row, int side) {
-  int effort = col + (j->kind == KL_JOINT_SLOT ? 1 : 2);
+  int effort = col + (kli_is_pin_slot(j->kind) ? 1 : 2);
   if (j->kind == KL_JOINT_REVOLUTE) {
     entry(f, row, col, KLI_COEF_UNIT, side);
     entry(f, row + 2, col, KLI_COEF_ARM_FX, side);
@@ -85,7 +85,7 @@ int kli_build_reactions(kl_model *m, kli_topology *t) {
     for (side = 0; side < 2; side++)
       if (jt->link[side] != KL_GROUND)
         joint_entries(f, jt, f->n, 3 * (jt->link[side] - 1), side);
-    f->n += jt->kind == KL_JOINT_SLOT ? 1 : 2;
+    f->n += kli_is_pin_slot(jt->kind) ? 1 : 2;
     if (jt->input >= 0)
       f->input_col[jt->input] = f->n++;
   }

@@ -40,6 +40,11 @@ const char *kl_status_str(int status) {
   case KL_ETRUNCATED: return "buffer too small: output cut short";
   case KL_ETOOLARGE: return "request exceeds a bound of the library";
   case KL_EINDETERMINATE: return "statically indeterminate: forces not determined";
+  case KL_EFEWPOINTS: return "too few points for the curve";
+  case KL_EREPEATED: return "a curve repeats a point";
+  case KL_ERADIUS: return "radius zero or negative";
+  case KL_EUNDERCUT: return "cam surface undercut by the roller";
+  case KL_EPRESSURE: return "pressure angle above the bound";
   default: return "unknown status";
   }
 }

@@ -243,7 +243,7 @@ static int registered_loops(kl_model *m, work *w, int expected) {
 static int mobility(kl_model *m, int *dof) {
   int lower = 0, slots = 0, j, count;
   for (j = 0; j < m->njoints; j++) {
-    if (m->joints[j].kind == KL_JOINT_SLOT)
+    if (kli_is_pin_slot(m->joints[j].kind))
       slots++;
     else
       lower++;

@@ -27,6 +27,7 @@ const char *kind_name(kind k) {
   return k == kind::model    ? "model"
          : k == kind::solver ? "solver"
          : k == kind::study  ? "study"
+         : k == kind::cam    ? "cam"
                              : "handle";
 }
 
@@ -898,6 +899,40 @@ octave_value_list cmd_handles(const call &) {
 
 octave_value_list cmd_commands(const call &);
 
+/* Cams: a handle of their own, no model. */
+octave_value_list cmd_cam_new(const call &) {
+  entry e;
+  e.cam = kl_cam_new();
+  if (e.cam == nullptr)
+    raise_status(KL_ENOMEM, "cam_new: out of memory");
+  return one(octave_value(new_id(kind::cam, e)));
+}
+
+octave_value_list cmd_cam_free(const call &c) {
+  kl_cam_free(c.cam(0).cam);
+  table().live.erase(c.whole<int>(c.arg(0), "cam id"));
+  return none();
+}
+
+/* The pitch curve and the surface at n cam angles, each an n-by-2 matrix
+ * of (x, y) rows. */
+octave_value_list cmd_cam_outline(const call &c) {
+  const kl_cam *cam = c.cam(0, access::read).cam;
+  int n = c.whole<int>(c.arg(1), "n");
+  std::vector<double> pitch(2 * static_cast<size_t>(n > 0 ? n : 0)), surface(pitch.size());
+  c.check(kl_cam_outline(cam, n, pitch.data(), surface.data()), kl_cam_error(cam));
+  Matrix p(n, 2), s(n, 2);
+  for (int k = 0; k < n; k++)
+    for (int i = 0; i < 2; i++) {
+      p(k, i) = pitch[2 * k + i];
+      s(k, i) = surface[2 * k + i];
+    }
+  octave_value_list out;
+  out(0) = p;
+  out(1) = s;
+  return out;
+}
+
 const command hand_commands[] = {
     {"commands", 0, 0, "()", cmd_commands},
     {"handles", 0, 0, "()", cmd_handles},
@@ -927,6 +962,9 @@ const command hand_commands[] = {
     {"study_model", 1, 1, "(study)", cmd_study_model},
     {"study_run", 3, 4, "(study, first, count, [threads])", cmd_study_run},
     {"study_summarize", 4, 4, "(study, output, values, sample_statuses)", cmd_study_summarize},
+    {"cam_new", 0, 0, "()", cmd_cam_new},
+    {"cam_free", 1, 1, "(cam)", cmd_cam_free},
+    {"cam_outline", 2, 2, "(cam, n)", cmd_cam_outline},
     {nullptr, 0, 0, nullptr, nullptr}};
 
 const command *const all_commands[] = {generated_commands, hand_commands, extra_commands};

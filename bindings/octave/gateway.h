@@ -23,7 +23,7 @@ namespace kinloop_gateway {
 /* Models, solvers and studies are held here and handed to Octave as ids.
  * Ids start at 1 and are never reused, so a stale id is always recognised
  * as freed rather than taken for a newer object. */
-enum class kind : unsigned char { none, model, solver, study };
+enum class kind : unsigned char { none, model, solver, study, cam };
 
 /* A study's model is borrowed: its handle (made by study_model) refuses
  * every command that would change or free it, and goes with the study. */
@@ -32,6 +32,7 @@ struct entry {
   kl_model *model = nullptr; /* the model, or the solver's model */
   kl_solver *solver = nullptr;
   kl_study *study = nullptr;
+  kl_cam *cam = nullptr;
   int model_id = 0;      /* solver: its model's id; study: its borrowed
                             model's id, 0 until study_model */
   int owner = 0;         /* model: the study it belongs to, 0 if its own */
@@ -131,6 +132,7 @@ public:
   entry &model(int i, access how = access::write) const { return handle(i, kind::model, how); }
   entry &solver(int i, access how = access::write) const { return handle(i, kind::solver, how); }
   entry &study(int i, access how = access::read) const { return handle(i, kind::study, how); }
+  entry &cam(int i, access how = access::write) const { return handle(i, kind::cam, how); }
 
   /* A failed call raises its status with `message`, or, for calls that
    * leave none (getters on a const handle), the command and its arguments. */

@@ -59,7 +59,7 @@ static int has_sketch(const cli_model *cm) {
 
 static void print_structure(FILE *f, const cli_model *cm) {
   const kl_model *m = cm->model;
-  int kinds[3] = {0, 0, 0}, j, i, loop;
+  int kinds[5] = {0, 0, 0, 0, 0}, j, i, loop;
   const char *comment;
   size_t len;
   fprintf(f, "model %s\n", cm->label);
@@ -73,8 +73,12 @@ static void print_structure(FILE *f, const cli_model *cm) {
   }
   for (j = 0; j < cm->njoints; j++)
     kinds[kl_model_joint_kind(m, j)]++;
-  fprintf(f, "\n" LABEL "%d: %d revolute, %d prismatic, %d slot\n", "joints",
+  fprintf(f, "\n" LABEL "%d: %d revolute, %d prismatic, %d slot", "joints",
           cm->njoints, kinds[KL_JOINT_REVOLUTE], kinds[KL_JOINT_PRISMATIC], kinds[KL_JOINT_SLOT]);
+  if (kinds[KL_JOINT_ARC_SLOT] + kinds[KL_JOINT_CURVE_SLOT] > 0)
+    fprintf(f, ", %d arc slot, %d curve slot", kinds[KL_JOINT_ARC_SLOT],
+            kinds[KL_JOINT_CURVE_SLOT]);
+  fprintf(f, "\n");
   fprintf(f, LABEL "%d%s", "points", cm->npoints, cm->npoints ? ": " : "");
   print_names(f, cm->point_names, 0, cm->npoints);
   fprintf(f, "\n" LABEL "lengths in %s, angles in %s\n", "units",
@@ -185,6 +189,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     kl_output out;
     kl_range range;
     double ratio;
+    const char *unit;
     if (is_input_joint(cm, cm->slides[i]))
       continue;
     memset(&out, 0, sizeof out);
@@ -194,9 +199,13 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
       continue;
     at_pair(cm, r->input, range.input_at_min, range.input_at_max, both,
             sizeof both);
+    /* a curve slot's slide is the spline's parameter, not a length */
+    unit = kl_model_joint_kind(cm->model, cm->slides[i]) == KL_JOINT_CURVE_SLOT
+               ? "(curve parameter)"
+               : cm->length_unit;
     fprintf(f, LABEL "stroke %.6g %s, from %.6g to %.6g %s, %s",
-            cm->joint_names[cm->slides[i]], range.max - range.min,
-            cm->length_unit, range.min, range.max, cm->length_unit, both);
+            cm->joint_names[cm->slides[i]], range.max - range.min, unit,
+            range.min, range.max, unit, both);
     if (full_turn && kl_range_time_ratio(&range, &ratio) == KL_OK)
       fprintf(f, "; time ratio %.4f", ratio);
     fputc('\n', f);

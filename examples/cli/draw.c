@@ -27,8 +27,9 @@ typedef struct {
   double *point_xy;   /* 2 per point */
   double *slide;      /* per joint (NaN for revolute) */
   double *outline_xy; /* 2 per outline point of every link, in turn */
-  double *rail;       /* 4 per sliding joint: where its slide is 0 on link
-                         a, and the unit direction its slide grows in */
+  double *rail;       /* 4 per sliding joint: link a's frame (its origin,
+                         and the cosine and sine of its angle), which
+                         carries the slot's path */
 } pose;
 
 typedef struct {
@@ -129,13 +130,11 @@ static void pose_take(pose *q, const cli_model *cm, const outline *o,
                         q->outline_xy + 2 * (o[i].first + k));
   for (k = 0; k < cm->nslides; k++) {
     int joint = cm->slides[k], links[2];
-    double a[2], along[2], axis = kl_model_joint_axis(m, joint);
+    static const double origin[2] = {0.0, 0.0}, unit[2] = {1.0, 0.0};
     double *rail = q->rail + 4 * k;
-    kl_model_joint_links(m, joint, links, a, NULL);
-    along[0] = a[0] + cos(axis);
-    along[1] = a[1] + sin(axis);
-    kl_link_to_global(s, links[0], a, rail);
-    kl_link_to_global(s, links[0], along, rail + 2);
+    kl_model_joint_links(m, joint, links, NULL, NULL);
+    kl_link_to_global(s, links[0], origin, rail);
+    kl_link_to_global(s, links[0], unit, rail + 2);
     rail[2] -= rail[0];
     rail[3] -= rail[1];
   }
@@ -266,11 +265,30 @@ static void grow(box *b, double x, double y) {
     b->y1 = y;
 }
 
-/* The stretch of a guide line to draw: every slide seen, plus a margin. */
+/* Whether a sliding joint's slot is curved (an arc or curve slot). */
+static int is_curved(const cli_model *cm, int joint) {
+  int kind = kl_model_joint_kind(cm->model, joint);
+  return kind == KL_JOINT_ARC_SLOT || kind == KL_JOINT_CURVE_SLOT;
+}
+
+/* The stretch of a guide to draw: a curved slot whole (the circle, the
+ * curve from end to end); a straight one over every slide seen, plus a
+ * margin. */
 static void rail_span(const cli_model *cm, const pose *poses, int nposes,
                       const paths *p, int slide_index, double pad,
                       double *lo, double *hi) {
   int joint = cm->slides[slide_index], k;
+  if (kl_model_joint_kind(cm->model, joint) == KL_JOINT_ARC_SLOT) {
+    *lo = 0.0;
+    *hi = 2.0 * CLI_PI * kl_model_slot_radius(cm->model, joint);
+    return;
+  }
+  if (kl_model_joint_kind(cm->model, joint) == KL_JOINT_CURVE_SLOT) {
+    int n = kl_model_curve_count(cm->model, joint);
+    *lo = 0.0;
+    *hi = kl_model_curve_closed(cm->model, joint) ? n : n - 1;
+    return;
+  }
   *lo = *hi = poses[0].slide[joint];
   for (k = 1; k < nposes; k++) {
     double v = poses[k].slide[joint];
@@ -286,11 +304,20 @@ static void rail_span(const cli_model *cm, const pose *poses, int nposes,
   *hi += pad;
 }
 
-/* The point of sliding joint k's guide line at slide v, for pose q. */
-static void rail_point(const pose *q, int k, double v, double xy[2]) {
+/* The point of sliding joint k's slot at slide v, for pose q, and the
+ * unit direction the slide grows in there (dir may be NULL). */
+static void rail_point(const cli_model *cm, const pose *q, int k, double v,
+                       double xy[2], double dir[2]) {
   const double *rail = q->rail + 4 * k;
-  xy[0] = rail[0] + v * rail[2];
-  xy[1] = rail[1] + v * rail[3];
+  double path[6], len;
+  kl_model_slot_point(cm->model, cm->slides[k], v, path);
+  xy[0] = rail[0] + rail[2] * path[0] - rail[3] * path[1];
+  xy[1] = rail[1] + rail[3] * path[0] + rail[2] * path[1];
+  if (dir == NULL)
+    return;
+  len = hypot(path[2], path[3]);
+  dir[0] = (rail[2] * path[2] - rail[3] * path[3]) / len;
+  dir[1] = (rail[3] * path[2] + rail[2] * path[3]) / len;
 }
 
 /* ---- writing ---- */
@@ -319,15 +346,39 @@ static void draw_ground_pivot(FILE *f, const double *xy, double u) {
   }
 }
 
+/* A curved slot as a channel: a dark band with a light core, sampled
+ * finely enough to look smooth. */
+static void draw_channel(FILE *f, const cli_model *cm, const pose *q, int k,
+                         double lo, double hi, double u) {
+  enum { SAMPLES = 240 };
+  int pass, i;
+  for (pass = 0; pass < 2; pass++) {
+    fprintf(f, "<polyline class=\"slot\" points=\"");
+    for (i = 0; i <= SAMPLES; i++) {
+      double xy[2];
+      rail_point(cm, q, k, lo + (hi - lo) * i / SAMPLES, xy, NULL);
+      put_xy(f, xy);
+    }
+    fprintf(f,
+            "\" fill=\"none\" stroke=\"%s\" stroke-width=\"%.9g\" "
+            "stroke-linecap=\"round\" stroke-linejoin=\"round\"/>\n",
+            pass == 0 ? SVG_INK : "#fffdf7", (pass == 0 ? 1.9 : 1.3) * u);
+  }
+}
+
 /* Draws a guide line; a rail on ground gets hatching on the side away
  * from `centre`, where the linkage is not. */
-static void draw_rail(FILE *f, const pose *q, int slide_index, double lo,
-                      double hi, double u, int on_ground,
-                      const double centre[2]) {
+static void draw_rail(FILE *f, const cli_model *cm, const pose *q,
+                      int slide_index, double lo, double hi, double u,
+                      int on_ground, const double centre[2]) {
   double p0[2], p1[2], dx, dy, len, nx, ny;
   int k, marks;
-  rail_point(q, slide_index, lo, p0);
-  rail_point(q, slide_index, hi, p1);
+  if (is_curved(cm, cm->slides[slide_index])) {
+    draw_channel(f, cm, q, slide_index, lo, hi, u);
+    return;
+  }
+  rail_point(cm, q, slide_index, lo, p0, NULL);
+  rail_point(cm, q, slide_index, hi, p1, NULL);
   fprintf(f,
           "<line x1=\"%.9g\" y1=\"%.9g\" x2=\"%.9g\" y2=\"%.9g\" stroke=\"%s\" "
           "stroke-width=\"%.9g\" stroke-linecap=\"round\"%s/>\n",
@@ -379,7 +430,7 @@ static void draw_pose(FILE *f, const cli_model *cm, const pose *q,
     if (links[0] == KL_GROUND)
       continue;
     rail_span(cm, poses, nposes, p, k, 3 * u, &lo, &hi);
-    draw_rail(f, q, k, lo, hi, u, 0, NULL);
+    draw_rail(f, cm, q, k, lo, hi, u, 0, NULL);
   }
   for (l = 1; l < cm->nlinks; l++) {
     const char *colour = svg_colour(l - 1);
@@ -406,10 +457,13 @@ static void draw_pose(FILE *f, const cli_model *cm, const pose *q,
   /* slider blocks of prismatic joints, along their axis */
   for (k = 0; k < cm->nslides; k++) {
     int joint = cm->slides[k], links[2];
-    double c = q->rail[4 * k + 2], s = q->rail[4 * k + 3], cx, cy;
+    double at[2], dir[2], c, s, cx, cy;
     double hl = 2.6 * u, hw = 1.6 * u;
     if (kl_model_joint_kind(m, joint) != KL_JOINT_PRISMATIC)
       continue;
+    rail_point(cm, q, k, q->slide[joint], at, dir);
+    c = dir[0];
+    s = dir[1];
     kl_model_joint_links(m, joint, links, NULL, NULL);
     cx = q->joint_xy[2 * joint];
     cy = q->joint_xy[2 * joint + 1];
@@ -474,6 +528,18 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   }
   for (k = 0; k < p->n * p->npoints; k++)
     grow(&b, p->xy[2 * k], p->xy[2 * k + 1]);
+  /* curved slots are drawn whole: room for them in every position */
+  for (i = 0; i < cm->nslides; i++) {
+    double lo, hi, xy[2];
+    if (!is_curved(cm, cm->slides[i]))
+      continue;
+    rail_span(cm, poses, nposes, p, i, 0.0, &lo, &hi);
+    for (k = 0; k < nposes; k++)
+      for (j = 0; j <= 64; j++) {
+        rail_point(cm, &poses[k], i, lo + (hi - lo) * j / 64, xy, NULL);
+        grow(&b, xy[0], xy[1]);
+      }
+  }
   if (b.empty) {
     b.x0 = b.y0 = -1;
     b.x1 = b.y1 = 1;
@@ -555,7 +621,7 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
     if (links[0] != KL_GROUND)
       continue;
     rail_span(cm, poses, nposes, p, k, 3 * u, &lo, &hi);
-    draw_rail(f, &poses[0], k, lo, hi, u, 1, centre);
+    draw_rail(f, cm, &poses[0], k, lo, hi, u, 1, centre);
   }
   for (j = 0; j < cm->njoints; j++) {
     int links[2];

@@ -51,7 +51,7 @@ static double number(program *p) {
 }
 
 static void check(int status) {
-  if (status < KL_EINDETERMINATE || status > KL_STOPPED)
+  if (status < KL_EPRESSURE || status > KL_STOPPED)
     abort();
 }
 

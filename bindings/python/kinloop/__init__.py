@@ -22,6 +22,7 @@ kinloop.raw (raw.lib.kl_*).
 
 from . import _api, _header, raw
 from ._api import *  # noqa: F401,F403  (value types and package functions, generated)
+from .cam import Cam
 from ._core import KinloopError
 from ._header import *  # noqa: F401,F403  (the enums and GROUND, generated)
 from .model import Model
@@ -36,5 +37,5 @@ library_path = raw.library_path
 library_version = raw.library_version
 
 __all__ = sorted(set(_api.__all__ + _header.__all__ + [
-    "CycleFigures", "Dimension", "KinloopError", "Load", "MissingFunctionError", "Model", "Output", "Solver",
+    "Cam", "CycleFigures", "Dimension", "KinloopError", "Load", "MissingFunctionError", "Model", "Output", "Solver",
     "Study", "StudyRun", "SweepResult", "Workspace", "library_path", "library_version"]))

@@ -114,6 +114,17 @@ def to_point(value, function, argument):
             to_double(y, function, argument + "[1]"))
 
 
+def flat_pairs(values, function, argument):
+    """Points (x, y) as the flat list x0, y0, x1, y1, ... that C reads: a
+    sequence of pairs (an n-by-2 array)."""
+    if values is None:
+        return None
+    flat = []
+    for k, v in enumerate(values):
+        flat.extend(to_point(v, function, "%s[%d]" % (argument, k)))
+    return flat
+
+
 _FIELD_RULES = {ctypes.c_int: to_int, ctypes.c_long: to_long, ctypes.c_size_t: to_size,
                 ctypes.c_double: to_double}
 

@@ -29,7 +29,7 @@ with open(HEADER, encoding="utf-8") as f:
     TEXT = re.sub(r"/\*.*?\*/", " ", f.read(), flags=re.S)
 DECLARED = re.findall(r"^KL_API\s+[^;(#]*?\b(kl_\w+)\s*\(([^)]*)\)\s*;", TEXT, re.M)
 CLASSES = {"kl_model": kl.Model, "kl_solver": kl.Solver, "kl_study": kl.Study,
-           "kl_range": kl.Range}
+           "kl_range": kl.Range, "kl_cam": kl.Cam}
 
 # Bound where the naming grammar does not say: lifetimes and files.
 ELSEWHERE = {
@@ -46,6 +46,8 @@ ELSEWHERE = {
     "kl_study_read": (kl.Study, "read_text"),
     "kl_study_read_file": (kl.Study, "read_file"),
     "kl_study_free": (kl.Study, "close"),
+    "kl_cam_new": (kl.Cam, "__init__"),
+    "kl_cam_free": (kl.Cam, "close"),
     # a sweep without a callback is recorded by the library itself
     "kl_solver_sweep_rows": (kl.Solver, "sweep"),
 }

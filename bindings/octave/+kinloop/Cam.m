@@ -1,0 +1,44 @@
+classdef Cam < kinloop.CamMethods
+  % kinloop.Cam - a cam from a follower and a motion program (kl_cam): the
+  % follower's motion over the cam angle, the pitch curve and the cam
+  % surface, pressure angle, radius of curvature and the undercutting and
+  % pressure-angle checks.
+  %
+  %   c = kinloop.Cam();
+  %   f = kinloop.cam_follower_init();  f.base_radius = 40; ...
+  %   c.set_follower(f);
+  %   c.set_program(struct('span', {...}, 'lift', {...}, 'law', {...}));
+  %   [pitch, surface] = c.outline(360);   % n-by-2, ready for add_curve_slot
+  %
+  % The cam is freed when the last reference goes, or by delete(c).
+
+  properties (SetAccess = private)
+    id = [];      % the gateway's handle for this cam
+  end
+
+  % Public but hidden: Octave 7 runs a destructor in the context of the
+  % object that released it, where private properties cannot be read.
+  properties (Hidden)
+    freed = false;  % set once the gateway has freed the handle
+  end
+
+  methods
+    function obj = Cam()
+      obj.id = __kinloop__('cam_new');
+    end
+
+    function delete(obj)
+      % Frees the cam (once; later calls do nothing).
+      if ~obj.freed && ~isempty(obj.id)
+        __kinloop__('cam_free', obj.id);
+        obj.freed = true;
+      end
+    end
+
+    function [pitch, surface] = outline(obj, n)
+      % The pitch curve and the cam surface at the cam angles 2 pi k / n,
+      % k = 0 .. n - 1: n-by-2 matrices of (x, y) rows in the cam's frame.
+      [pitch, surface] = __kinloop__('cam_outline', obj.id, n);
+    end
+  end
+end
