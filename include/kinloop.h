@@ -393,12 +393,19 @@ typedef struct kl_sweep_settings {
   int input;   /**< which input sweeps */
   double from; /**< start: rad, or length for a sliding input */
   double to;   /**< end, in the same unit */
-  int steps;   /**< steps >= 1 */
+  int steps;   /**< 1 <= steps <= KL_MAX_SWEEP_STEPS */
 } kl_sweep_settings;
+
+/* ---- Sweep step limit (one limit for every source of a step count) ---- */
+/** The most steps a sweep setting may ask for, whether it comes from a model
+ * file's sweep statement, a study file or kl_model_set_sweep; the command-line
+ * tool's --steps has the same limit (docs/model-format.md, docs/cli.md). */
+#define KL_MAX_SWEEP_STEPS 10000000
+/* ---- end of the sweep step limit ---- */
 
 /**
  * Records sweep settings in the model. Returns KL_OK, KL_EINVAL (NULL,
- * size too small, steps < 1), KL_EID (no such input), KL_ENONFINITE,
+ * size too small, steps < 1 or above KL_MAX_SWEEP_STEPS), KL_EID (no such input), KL_ENONFINITE,
  * KL_ESTATE (finalized).
  */
 KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);

@@ -693,12 +693,14 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
     return KL_EINVAL;
   if ((st = check_open(m, "set sweep")) != KL_OK)
     return st;
-  if (sweep == NULL || sweep->size < sizeof *sweep || sweep->steps < 1)
+  if (sweep == NULL || sweep->size < sizeof *sweep)
+    return kli_fail(m->error, KL_EINVAL, "set sweep: %s",
+                    sweep == NULL ? "no settings (NULL)"
+                                  : "settings size too small");
+  if (sweep->steps < 1 || sweep->steps > KL_MAX_SWEEP_STEPS)
     return kli_fail(m->error, KL_EINVAL,
-                    "set sweep: %s",
-                    sweep == NULL              ? "no settings (NULL)"
-                    : sweep->size < sizeof *sweep ? "settings size too small"
-                                                 : "steps must be at least 1");
+                    "set sweep: steps must be from 1 to %d, not %d",
+                    KL_MAX_SWEEP_STEPS, sweep->steps);
   if (sweep->input < 0 || sweep->input >= m->ninputs)
     return kli_fail(m->error, KL_EID,
                     "set sweep: input %d does not exist (%d inputs so far)",
