@@ -412,6 +412,21 @@ KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);
 /** The recorded sweep settings; KL_OK, KL_EID if there are none, KL_EINVAL. */
 KL_API int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep);
 
+/* ---- Held inputs: the start values of inputs other than the swept one ---- */
+/**
+ * Records the value input `input` holds at the model's start (rad, or length
+ * for a sliding input): kl_model_start_inputs gives it, so a sweep of another
+ * input keeps it there (model-file statement `hold JOINT at VALUE`). The
+ * swept input's own start is its sweep settings' start. Returns KL_OK,
+ * KL_EINVAL (NULL model), KL_EID (no such input), KL_ENONFINITE, KL_ESTATE
+ * (finalized).
+ */
+KL_API int kl_model_set_input_hold(kl_model *m, int input, double value);
+/** The value recorded by kl_model_set_input_hold, NaN if none (or unknown
+ * input). */
+KL_API double kl_model_input_hold(const kl_model *m, int input);
+/* ---- end of held inputs ---- */
+
 /* Mass properties, gravity and redundancy: model document data for the
  * force stage, set before finalize and readable at any time. Units: any one
  * consistent system; forces come out in mass x length / time^2 (kg, m, s
@@ -506,8 +521,8 @@ KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /**
  * The model's start position into `inputs` (one per input): the start of
- * its sweep settings for the input they sweep, 0 for the others (all 0
- * without sweep settings). kl_solver_reach starts there. Returns KL_OK, or
+ * its sweep settings for the input they sweep, for the others the value
+ * kl_model_set_input_hold recorded, else 0. kl_solver_reach starts there. Returns KL_OK, or
  * KL_EINVAL (NULL model, or NULL inputs for a model with inputs). Works
  * before and after finalize; never allocates.
  */

@@ -714,6 +714,32 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
   return KL_OK;
 }
 
+int kl_model_set_input_hold(kl_model *m, int input, double value) {
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set input hold")) != KL_OK)
+    return st;
+  if (input < 0 || input >= m->ninputs)
+    return kli_fail(m->error, KL_EID,
+                    "set input hold: input %d does not exist (%d inputs so "
+                    "far)",
+                    input, m->ninputs);
+  if (!isfinite(value))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "set input hold: the value is NaN or infinite");
+  m->joints[m->inputs[input]].hold = value;
+  m->joints[m->inputs[input]].has_hold = 1;
+  return KL_OK;
+}
+
+double kl_model_input_hold(const kl_model *m, int input) {
+  if (m == NULL || input < 0 || input >= m->ninputs ||
+      !m->joints[m->inputs[input]].has_hold)
+    return NAN;
+  return m->joints[m->inputs[input]].hold;
+}
+
 int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep) {
   if (m == NULL || sweep == NULL || sweep->size < sizeof(sweep->size))
     return KL_EINVAL;

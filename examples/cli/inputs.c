@@ -132,10 +132,26 @@ int cli_start_or_at(const cli_model *cm, const cli_options *o, double *u) {
   return 0;
 }
 
+void cli_solver_why(const cli_model *cm, const kl_solver *s, int status,
+                    char *buf, size_t cap) {
+  kl_solve_stats stats;
+  stats.size = sizeof stats;
+  if (status == KL_ENOASSEMBLY && kl_solver_stats(s, &stats) == KL_OK) {
+    /* the library's text speaks radians and numbers loops from 0 */
+    snprintf(buf, cap,
+             "the loops cannot close there: they stay %.3g %s apart after %d "
+             "iterations; the inputs are beyond a motion limit, or the start "
+             "is too far from any assembly (try other sketch angles)",
+             stats.residual, cm->length_unit, stats.iterations);
+    return;
+  }
+  snprintf(buf, cap, "%s", kl_solver_error(s));
+}
+
 int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
               char *why, size_t cap) {
   kl_reach_result r;
-  char where[1024], start[320], stop[320], goal[320];
+  char where[1024], start[320], stop[320], goal[320], what[1024];
   int st;
   why[0] = '\0';
   kl_solver_reset(s);
@@ -143,9 +159,10 @@ int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
   st = kl_solver_reach(s, cm->ninputs > 0 ? target : NULL, &r);
   if (st == KL_OK)
     return st;
+  cli_solver_why(cm, s, st, what, sizeof what);
   if (r.input < 0) {
     describe_position(cm, target, where, sizeof where);
-    snprintf(why, cap, "no position at %s: %s", where, kl_solver_error(s));
+    snprintf(why, cap, "no position at %s: %s", where, what);
     return st;
   }
   cli_format_input(cm, r.input, r.from, start, sizeof start);
@@ -153,7 +170,7 @@ int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
   cli_format_input(cm, r.input, r.limit_input, stop, sizeof stop);
   if (isnan(r.limit_input))
     snprintf(why, cap, "cannot reach %s from the start (%s): %s", goal, start,
-             kl_solver_error(s));
+             what);
   else if (st == KL_ESINGULAR)
     snprintf(why, cap,
              "cannot reach %s from the start (%s): the motion meets a "
