@@ -699,7 +699,8 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
                                   : "settings size too small");
   if (sweep->steps < 1 || sweep->steps > KL_MAX_SWEEP_STEPS)
     return kli_fail(m->error, KL_EINVAL,
-                    "set sweep: steps must be from 1 to %d, not %d",
+                    "set sweep: steps must be at least 1 and at most %d, "
+                    "not %d",
                     KL_MAX_SWEEP_STEPS, sweep->steps);
   if (sweep->input < 0 || sweep->input >= m->ninputs)
     return kli_fail(m->error, KL_EID,
