@@ -11,7 +11,7 @@
 #define LABEL "  %-20s"
 
 const char cli_forces_help[] =
-    "usage: kinloop forces [MODEL] [OPTIONS]\n"
+    "usage: kinloop forces MODEL [OPTIONS]\n"
     "\n"
     "The force stage over the working cycle (docs/cli.md): the driven input\n"
     "at a constant speed over its range, the model's masses, gravity and\n"

@@ -67,6 +67,13 @@ static const char general_usage[] =
     "     not solve; forces that are not determined (redundant or singular)\n"
     "  5  an output file or folder cannot be written\n";
 
+/* check, sweep, draw and plot; forces takes the range options only */
+#define THROUGH_HELP                                                           \
+  "  --through-change-points  at a change point (where two branches cross)\n"  \
+  "                    go on along the branch with the same tangent and\n"    \
+  "                    report each passage on standard error; by default\n"   \
+  "                    the motion stops there and is reported\n"
+
 static const char range_help[] =
     "  --input JOINT     the input to sweep: its joint's name or its number\n"
     "                    (1, 2, ...); default: the model's sweep line, else 1\n"
@@ -77,11 +84,7 @@ static const char range_help[] =
     "                    start; a sliding input then needs --to)\n"
     "  --steps N         number of equal steps, 1 to 10000000, the limit for a\n"
     "                    sweep line too (default: the model's sweep line if\n"
-    "                    it sweeps this input, else 72)\n"
-    "  --through-change-points  at a change point (where two branches cross)\n"
-    "                    go on along the branch with the same tangent and\n"
-    "                    report each passage on standard error; by default\n"
-    "                    the motion stops there and is reported\n";
+    "                    it sweeps this input, else 72)\n";
 
 static const char *const command_help[CLI_NCOMMANDS] = {
     /* check */
@@ -97,6 +100,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "\n"
     "options:\n"
     "%s"
+    THROUGH_HELP
     "  --at LIST         values of every input at the start, comma-separated\n"
     "                    (the swept input's own entry is replaced by --from)\n"
     "  -o, --output FILE write the report to FILE instead of standard output\n"
@@ -134,6 +138,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "\n"
     "options:\n"
     "%s"
+    THROUGH_HELP
     "  --at LIST         values of every input at the start, comma-separated\n"
     "                    (the swept input's own entry is replaced by --from)\n"
     "  --speed W         the swept input's constant speed, its unit per second\n"
@@ -161,6 +166,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "\n"
     "options:\n"
     "%s"
+    THROUGH_HELP
     "  --at LIST         values of every input at the start, comma-separated\n"
     "                    (the swept input's own entry is replaced by --from)\n"
     "  --pose X          a position to draw: the swept input's value X,\n"
@@ -186,6 +192,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "\n"
     "options:\n"
     "%s"
+    THROUGH_HELP
     "  --show OUTPUT     an output to plot; repeat for up to 8\n"
     "  --order N         0 the output itself (default), 1 its first-order\n"
     "                    kinematic coefficient d output / d input, 2 its\n"
