@@ -1735,6 +1735,25 @@ KL_API long kl_study_sample_count(const kl_study *st);
 KL_API int kl_study_output_count(const kl_study *st);
 /** The name of output `k`, NULL if there is none. */
 KL_API const char *kl_study_output_name(const kl_study *st, int k);
+/* ---- What a study output measures, for its unit ---- */
+/** The kind of quantity a study output is (kl_study_output_quantity). */
+enum kl_study_quantity {
+  KL_STUDY_ANGLE = 0,  /**< an angle, in the model's angle unit */
+  KL_STUDY_LENGTH = 1, /**< a length, in the model's length unit */
+  KL_STUDY_FORCE = 2,  /**< a force: mass x length / time^2 of the model's units */
+  KL_STUDY_TORQUE = 3  /**< a torque: force x length */
+};
+/**
+ * What output `k` measures (enum kl_study_quantity), so that tools can give
+ * its unit: a link, joint or transmission angle, or the reach of a turning
+ * input, is an angle; a slide, a point's coordinate or the reach of a
+ * sliding input a length; the effort of a turning input a torque, of a
+ * sliding input a force. Returns KL_EINVAL for a NULL study, KL_EID for no
+ * output k. Never allocates.
+ */
+KL_API int kl_study_output_quantity(const kl_study *st, int k);
+/* ---- end of study output quantities ---- */
+
 /** The nominal model: the one the study was read against, held by the
  * study, so valid until kl_study_free even if the caller freed its own
  * handle. Make solvers of it or copy it with kl_model_copy; never cast

@@ -404,6 +404,9 @@ typedef struct {
   const int *status;    /* n */
   const double *dims;   /* n x dimensions */
 } cli_study_samples;
+/* Output k's name with its unit: "stroke (mm)". */
+void cli_study_output_titled(const kl_study *st, int k, char *buf,
+                             size_t cap);
 /* Whether sample i has a value of output k: it assembled, and (if its
  * motion stopped) reached where the output is taken. */
 int cli_study_has_value(const cli_study_samples *s, long i, int k);

@@ -86,8 +86,10 @@ static int write_csv(const cli_study_samples *s, const char *path) {
     cli_csv_field(f, name);
   }
   for (k = 0; k < nout; k++) {
+    char titled[300];
+    cli_study_output_titled(s->st, k, titled, sizeof titled);
     fputc(',', f);
-    cli_csv_field(f, kl_study_output_name(s->st, k));
+    cli_csv_field(f, titled);
   }
   fputc('\n', f);
   for (i = 0; i < s->n && !ferror(f); i++) {
