@@ -402,17 +402,39 @@ typedef struct kl_sweep_settings {
   int input;   /**< which input sweeps */
   double from; /**< start: rad, or length for a sliding input */
   double to;   /**< end, in the same unit */
-  int steps;   /**< steps >= 1 */
+  int steps;   /**< 1 <= steps <= KL_MAX_SWEEP_STEPS */
 } kl_sweep_settings;
+
+/* ---- Sweep step limit (one limit for every source of a step count) ---- */
+/** The most steps a sweep setting may ask for, whether it comes from a model
+ * file's sweep statement, a study file or kl_model_set_sweep; the command-line
+ * tool's --steps has the same limit (docs/model-format.md, docs/cli.md). */
+#define KL_MAX_SWEEP_STEPS 10000000
+/* ---- end of the sweep step limit ---- */
 
 /**
  * Records sweep settings in the model. Returns KL_OK, KL_EINVAL (NULL,
- * size too small, steps < 1), KL_EID (no such input), KL_ENONFINITE,
+ * size too small, steps < 1 or above KL_MAX_SWEEP_STEPS), KL_EID (no such input), KL_ENONFINITE,
  * KL_ESTATE (finalized).
  */
 KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);
 /** The recorded sweep settings; KL_OK, KL_EID if there are none, KL_EINVAL. */
 KL_API int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep);
+
+/* ---- Held inputs: the start values of inputs other than the swept one ---- */
+/**
+ * Records the value input `input` holds at the model's start (rad, or length
+ * for a sliding input): kl_model_start_inputs gives it, so a sweep of another
+ * input keeps it there (model-file statement `hold JOINT at VALUE`). The
+ * swept input's own start is its sweep settings' start. Returns KL_OK,
+ * KL_EINVAL (NULL model), KL_EID (no such input), KL_ENONFINITE, KL_ESTATE
+ * (finalized).
+ */
+KL_API int kl_model_set_input_hold(kl_model *m, int input, double value);
+/** The value recorded by kl_model_set_input_hold, NaN if none (or unknown
+ * input). */
+KL_API double kl_model_input_hold(const kl_model *m, int input);
+/* ---- end of held inputs ---- */
 
 /* Mass properties, gravity and redundancy: model document data for the
  * force stage, set before finalize and readable at any time. Units: any one
@@ -509,8 +531,8 @@ KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /**
  * The model's start position into `inputs` (one per input): the start of
- * its sweep settings for the input they sweep, 0 for the others (all 0
- * without sweep settings). kl_solver_reach starts there. Returns KL_OK, or
+ * its sweep settings for the input they sweep, for the others the value
+ * kl_model_set_input_hold recorded, else 0. kl_solver_reach starts there. Returns KL_OK, or
  * KL_EINVAL (NULL model, or NULL inputs for a model with inputs). Works
  * before and after finalize; never allocates.
  */
@@ -1837,6 +1859,25 @@ KL_API long kl_study_sample_count(const kl_study *st);
 KL_API int kl_study_output_count(const kl_study *st);
 /** The name of output `k`, NULL if there is none. */
 KL_API const char *kl_study_output_name(const kl_study *st, int k);
+/* ---- What a study output measures, for its unit ---- */
+/** The kind of quantity a study output is (kl_study_output_quantity). */
+enum kl_study_quantity {
+  KL_STUDY_ANGLE = 0,  /**< an angle, in the model's angle unit */
+  KL_STUDY_LENGTH = 1, /**< a length, in the model's length unit */
+  KL_STUDY_FORCE = 2,  /**< a force: mass x length / time^2 of the model's units */
+  KL_STUDY_TORQUE = 3  /**< a torque: force x length */
+};
+/**
+ * What output `k` measures (enum kl_study_quantity), so that tools can give
+ * its unit: a link, joint or transmission angle, or the reach of a turning
+ * input, is an angle; a slide, a point's coordinate or the reach of a
+ * sliding input a length; the effort of a turning input a torque, of a
+ * sliding input a force. Returns KL_EINVAL for a NULL study, KL_EID for no
+ * output k. Never allocates.
+ */
+KL_API int kl_study_output_quantity(const kl_study *st, int k);
+/* ---- end of study output quantities ---- */
+
 /** The nominal model: the one the study was read against, held by the
  * study, so valid until kl_study_free even if the caller freed its own
  * handle. Make solvers of it or copy it with kl_model_copy; never cast

@@ -704,12 +704,15 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
     return KL_EINVAL;
   if ((st = check_open(m, "set sweep")) != KL_OK)
     return st;
-  if (sweep == NULL || sweep->size < sizeof *sweep || sweep->steps < 1)
+  if (sweep == NULL || sweep->size < sizeof *sweep)
+    return kli_fail(m->error, KL_EINVAL, "set sweep: %s",
+                    sweep == NULL ? "no settings (NULL)"
+                                  : "settings size too small");
+  if (sweep->steps < 1 || sweep->steps > KL_MAX_SWEEP_STEPS)
     return kli_fail(m->error, KL_EINVAL,
-                    "set sweep: %s",
-                    sweep == NULL              ? "no settings (NULL)"
-                    : sweep->size < sizeof *sweep ? "settings size too small"
-                                                 : "steps must be at least 1");
+                    "set sweep: steps must be at least 1 and at most %d, "
+                    "not %d",
+                    KL_MAX_SWEEP_STEPS, sweep->steps);
   if (sweep->input < 0 || sweep->input >= m->ninputs)
     return kli_fail(m->error, KL_EID,
                     "set sweep: input %d does not exist (%d inputs so far)",
@@ -721,6 +724,32 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
   m->sweep.size = sizeof m->sweep;
   m->has_sweep = 1;
   return KL_OK;
+}
+
+int kl_model_set_input_hold(kl_model *m, int input, double value) {
+  int st;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, "set input hold")) != KL_OK)
+    return st;
+  if (input < 0 || input >= m->ninputs)
+    return kli_fail(m->error, KL_EID,
+                    "set input hold: input %d does not exist (%d inputs so "
+                    "far)",
+                    input, m->ninputs);
+  if (!isfinite(value))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "set input hold: the value is NaN or infinite");
+  m->joints[m->inputs[input]].hold = value;
+  m->joints[m->inputs[input]].has_hold = 1;
+  return KL_OK;
+}
+
+double kl_model_input_hold(const kl_model *m, int input) {
+  if (m == NULL || input < 0 || input >= m->ninputs ||
+      !m->joints[m->inputs[input]].has_hold)
+    return NAN;
+  return m->joints[m->inputs[input]].hold;
 }
 
 int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep) {

@@ -33,6 +33,8 @@ typedef struct {
   char *name;         /* owned; NULL when unnamed */
   double sketch;      /* starting slide for new solvers, when has_sketch */
   int has_sketch;
+  double hold;   /* an input joint's value at the model's start, when has_hold */
+  int has_hold;
   int kind;           /* enum kl_joint_kind */
   int link[2];        /* a, b */
   double at[2][2];    /* attachment in a's frame, in b's frame */

@@ -279,6 +279,28 @@ static int read_sketch(model_reader *mr) {
   return st == KL_OK ? KL_OK : builder_failed(mr, st, t.column);
 }
 
+/* hold JOINT at V: an input's value at the model's start */
+static int read_hold(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  double v;
+  int st, joint, column;
+  if ((st = kli_expect_ref(r, KLI_REF_JOINT, "the held input's joint",
+                           &joint)) != KL_OK ||
+      (st = kli_expect_keyword(r, "at", "after the held joint")) != KL_OK ||
+      (st = kli_expect_number_at(r, "the held value", &v, &column)) !=
+          KL_OK ||
+      (st = kli_expect_end(r)) != KL_OK)
+    return st;
+  if (mr->m->joints[joint].input < 0)
+    return kli_read_fail(r, KL_ESYNTAX, 1,
+                         "the held joint is not an input; declare it with "
+                         "'input' first");
+  if (mr->m->joints[joint].kind == KL_JOINT_REVOLUTE)
+    v = kli_angle_in(r, v);
+  st = kl_model_set_input_hold(mr->m, mr->m->joints[joint].input, v);
+  return st == KL_OK ? KL_OK : builder_failed(mr, st, column);
+}
+
 /* sweep JOINT from V to V steps N */
 static int read_sweep(model_reader *mr) {
   kli_reader *r = &mr->r;
@@ -484,14 +506,15 @@ static int read_statement(model_reader *mr, const kli_token *key) {
     return read_sketch(mr);
   if (strcmp(k, "sweep") == 0)
     return read_sweep(mr);
+  if (strcmp(k, "hold") == 0)
+    return read_hold(mr);
   if (force_statement(k) != NULL)
     return force_statement(k)(mr);
   return kli_read_fail(
       r, KL_ESYNTAX, key->column,
       "unknown statement '%.60s' (expected units, link, "
       "revolute, prismatic, slot, arc-slot, curve-slot, point, input, "
-      "loop, sketch, "
-      "sweep, mass, gravity, load, speed or redundant)",
+      "loop, sketch, hold, sweep, mass, gravity, load, speed or redundant)",
       k);
 }
 

@@ -194,6 +194,15 @@ static void write_model(const kl_model *m, sink *o) {
       put_joint_ref(o, m, i);
       put(o, " %.17g\n", m->joints[i].sketch);
     }
+  for (i = 0; i < m->ninputs; i++) {
+    const kli_joint *j = &m->joints[m->inputs[i]];
+    if (!j->has_hold)
+      continue;
+    put(o, "hold");
+    put_joint_ref(o, m, m->inputs[i]);
+    put(o, " at %.17g\n",
+        j->kind == KL_JOINT_REVOLUTE ? angle_out(m, j->hold) : j->hold);
+  }
   if (m->has_sweep) {
     int joint = m->inputs[m->sweep.input];
     int angle = m->joints[joint].kind == KL_JOINT_REVOLUTE;

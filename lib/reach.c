@@ -21,8 +21,10 @@ int kl_model_start_inputs(const kl_model *m, double *inputs) {
   int i;
   if (m == NULL || (m->ninputs > 0 && inputs == NULL))
     return KL_EINVAL;
-  for (i = 0; i < m->ninputs; i++)
-    inputs[i] = 0.0;
+  for (i = 0; i < m->ninputs; i++) {
+    const kli_joint *j = &m->joints[m->inputs[i]];
+    inputs[i] = j->has_hold ? j->hold : 0.0;
+  }
   if (m->has_sweep)
     inputs[m->sweep.input] = m->sweep.from;
   return KL_OK;

@@ -66,6 +66,13 @@ static double *dimension_slot(kl_model *m, const kli_vary *v) {
 
 /* ---- one sample ---- */
 
+/* An input's value at the start when the study does not sweep it: the
+ * model's `hold`, else 0. */
+static double held(const kl_model *m, int input) {
+  const kli_joint *j = &m->joints[m->inputs[input]];
+  return j->has_hold ? j->hold : 0.0;
+}
+
 /* The solver at the start of the sweep, sketched from the nominal. */
 static int start_at_sweep(const kl_study *st, kl_solver *s) {
   const kl_model *m = st->model;
@@ -77,7 +84,7 @@ static int start_at_sweep(const kl_study *st, kl_solver *s) {
     if (kli_is_sliding(m->joints[j].kind))
       kl_set_joint_slide(s, j, kl_joint_slide(st->nominal, j));
   for (i = 0; i < m->ninputs && i < 64; i++)
-    u[i] = i == st->sweep.input ? st->sweep.from : 0.0;
+    u[i] = i == st->sweep.input ? st->sweep.from : held(m, i);
   return kl_solve_position(s, u);
 }
 
@@ -377,7 +384,7 @@ int kl_study_prepare(kl_study *st) {
     goto done;
   }
   for (i = 0; i < m->ninputs; i++)
-    u[i] = i == st->sweep.input ? st->sweep.from : 0.0;
+    u[i] = i == st->sweep.input ? st->sweep.from : held(m, i);
   if ((status = kl_solve_position(st->nominal, u)) != KL_OK) {
     kli_fail(st->error, status, "the nominal model: %s",
              kl_solver_error(st->nominal));
@@ -556,6 +563,31 @@ int kl_study_output_count(const kl_study *st) {
 
 const char *kl_study_output_name(const kl_study *st, int k) {
   return st == NULL || k < 0 || k >= st->njudge ? NULL : st->judge[k].name;
+}
+
+int kl_study_output_quantity(const kl_study *st, int k) {
+  const kli_judge *j;
+  int turning;
+  if (st == NULL)
+    return KL_EINVAL;
+  if (k < 0 || k >= st->njudge)
+    return KL_EID;
+  j = &st->judge[k];
+  turning = st->sweep.input >= 0 && st->sweep.input < st->model->ninputs &&
+            st->model->joints[st->model->inputs[st->sweep.input]].kind ==
+                KL_JOINT_REVOLUTE;
+  if (j->how == KLI_JUDGE_REACH)
+    return turning ? KL_STUDY_ANGLE : KL_STUDY_LENGTH;
+  if (j->how == KLI_JUDGE_EFFORT)
+    return turning ? KL_STUDY_TORQUE : KL_STUDY_FORCE;
+  switch (j->what.kind) {
+  case KL_OUTPUT_LINK_ANGLE:
+  case KL_OUTPUT_JOINT_ANGLE:
+  case KL_OUTPUT_TRANSMISSION:
+    return KL_STUDY_ANGLE;
+  default:
+    return KL_STUDY_LENGTH;
+  }
 }
 
 const kl_model *kl_study_model(const kl_study *st) {

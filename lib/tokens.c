@@ -201,10 +201,11 @@ int kli_expect_count(kli_reader *r, const char *what, int *value) {
   int column, st = kli_expect_number_at(r, what, &v, &column);
   if (st != KL_OK)
     return st;
-  if (v != floor(v) || v < 1 || v > 1e9)
+  if (v != floor(v) || v < 1 || v > KL_MAX_SWEEP_STEPS)
     return kli_read_fail(r, KL_ESYNTAX, column,
-                         "expected a whole number from 1 (%s), found %g", what,
-                         v);
+                         "expected a whole number from 1 to %d (%s), found "
+                         "%.17g",
+                         KL_MAX_SWEEP_STEPS, what, v);
   *value = (int)v;
   return KL_OK;
 }

@@ -293,6 +293,61 @@ START_TEST(redundancy_reads_back) {
 }
 END_TEST
 
+/* `hold` gives the start value of an input other than the swept one: read
+ * in degrees, held in radians, reported by kl_model_start_inputs, written
+ * and read back; a sweep statement above KL_MAX_SWEEP_STEPS is refused
+ * with the limit and the exact count, and so is kl_model_set_sweep. */
+#define RAD_PER_DEG (3.14159265358979323846 / 180.0)
+START_TEST(held_inputs_and_the_step_limit) {
+  static const char *text =
+      "kinloop-model 1\nunits length mm angle deg\nlink a\nlink b\n"
+      "revolute m1 ground 0 0 a 0 0\nrevolute m2 ground 10 0 b 0 0\n"
+      "input m1\ninput m2\nhold m2 at 30\nsweep m1 from 10 to 20 steps 4\n";
+  static const char *too_many =
+      "kinloop-model 1\nlink a\nrevolute m1 ground 0 0 a 0 0\ninput m1\n"
+      "sweep m1 from 0 to 1 steps 1000000001\n";
+  kl_io_error err;
+  kl_sweep_settings sw;
+  kl_model *m, *back;
+  double u[2];
+  size_t len;
+  char *written;
+  err.size = sizeof err;
+  m = kl_model_read(text, strlen(text), &err);
+  ck_assert_msg(m != NULL, "%d:%d %s", err.line, err.column, err.message);
+  ck_assert_int_eq(kl_model_start_inputs(m, u), KL_OK);
+  ck_assert_double_eq_tol(u[0], 10 * RAD_PER_DEG, 1e-15);
+  ck_assert_double_eq_tol(u[1], 30 * RAD_PER_DEG, 1e-15);
+  ck_assert(isnan(kl_model_input_hold(m, 0)));
+  written = write_text(m, &len);
+  ck_assert_ptr_nonnull(strstr(written, "\nhold m2 at "));
+  back = kl_model_read(written, len, &err);
+  ck_assert_ptr_nonnull(back);
+  ck_assert_double_eq_tol(kl_model_input_hold(back, 1), 30 * RAD_PER_DEG,
+                          1e-15);
+  kl_model_free(back);
+  free(written);
+  kl_model_free(m);
+  ck_assert_ptr_null(kl_model_read(too_many, strlen(too_many), &err));
+  ck_assert_ptr_nonnull(strstr(err.message, "from 1 to 10000000"));
+  ck_assert_ptr_nonnull(strstr(err.message, "1000000001"));
+  m = kl_model_new();
+  kl_add_link(m, "a");
+  kl_add_input(m, kl_add_revolute(m, KL_GROUND, 0, 0, 1, 0, 0));
+  sw.size = sizeof sw;
+  sw.input = 0;
+  sw.from = 0;
+  sw.to = 1;
+  sw.steps = KL_MAX_SWEEP_STEPS + 1;
+  ck_assert_int_eq(kl_model_set_sweep(m, &sw), KL_EINVAL);
+  sw.steps = KL_MAX_SWEEP_STEPS;
+  ck_assert_int_eq(kl_model_set_sweep(m, &sw), KL_OK);
+  ck_assert_int_eq(kl_model_set_input_hold(m, 1, 0.5), KL_EID);
+  ck_assert_int_eq(kl_model_set_input_hold(m, 0, NAN), KL_ENONFINITE);
+  kl_model_free(m);
+}
+END_TEST
+
 /* The force statements mean what the calls they stand for mean: the cycle
  * figures of a read model, with its recorded cycle and loads, are those of
  * the same model built by calls, bit for bit (angles in radians: no
@@ -744,6 +799,7 @@ int main(void) {
   tcase_add_test(tc, writing_then_reading_gives_the_same_model);
   tcase_add_test(tc, a_read_model_solves_like_the_original);
   tcase_add_test(tc, redundancy_reads_back);
+  tcase_add_test(tc, held_inputs_and_the_step_limit);
   tcase_add_test(tc, force_statements_mean_their_calls);
   tcase_add_loop_test(tc, every_error_names_line_and_column, 0,
                       (int)(sizeof bad_cases / sizeof bad_cases[0]));

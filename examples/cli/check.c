@@ -257,7 +257,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
 
 int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o) {
   warnings *w = calloc(1, sizeof *w);
-  kl_solver *base = kl_solver_new(cm->model), *work = kl_solver_new(cm->model);
+  kl_solver *base = cli_solver_new(cm, o), *work = cli_solver_new(cm, o);
   cli_range r;
   int st = CLI_EXIT_OK, found, i;
   if (w == NULL || base == NULL || work == NULL) {
@@ -279,7 +279,7 @@ int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o) {
   if (found == 0) {
     fprintf(f, "\nno range to check: %s\n",
             cm->ninputs == 0 ? "the model has no inputs"
-                             : "input 0 slides and the model has no sweep "
+                             : "input 1 slides and the model has no sweep "
                                "line; give --from and --to");
   } else {
     char a[320], why[2048];

@@ -47,7 +47,7 @@ enum cli_command {
  * the model (and so the number of inputs and their units) is known. */
 typedef struct {
   int command;
-  const char *model_path; /* NULL: the built-in demo */
+  const char *model_path; /* required but for demo, which uses its own */
   const char *output;     /* NULL or "-": standard output */
   const char *input;      /* the input to sweep: joint name or index */
   int have_from, have_to, have_steps;
@@ -73,6 +73,10 @@ typedef struct {
   int forces;           /* sweep: the force columns too */
   const char *point;    /* reach: the point whose workspace is traced */
   int grid;             /* reach: seed nodes per turn, 0 for the default */
+  int through_change_points; /* pass change points on the smooth branch */
+  int write_over; /* outputs may replace model and study files */
+  int npose;
+  double pose[CLI_MAX_POSES]; /* draw: the swept input's values to draw */
 } cli_options;
 
 typedef struct {
@@ -128,8 +132,17 @@ void cli_model_free(cli_model *cm);
 /* The model's leading comment block, one line per call: returns the start
  * of line `k` (0-based) and its length, or NULL when there are no more. */
 const char *cli_model_comment(const cli_model *cm, int k, size_t *len);
+/* Output files are written whole or not at all: cli_open_output opens a
+ * temporary file beside `path` (standard output for NULL or "-"), which
+ * cli_close_output renames into place once written, and
+ * cli_abandon_output removes, leaving any earlier file at `path` as it
+ * was. Unless cli_set_write_over(1), a `path` that reads as a model or
+ * study file is refused. Both print why they failed; cli_close_output
+ * returns an exit code. */
 FILE *cli_open_output(const char *path);
 int cli_close_output(FILE *f, const char *path);
+void cli_abandon_output(FILE *f);
+void cli_set_write_over(int allowed);
 /* Makes the folder `dir` unless it is one already (its parent must
  * exist). Returns an exit code after printing why it failed. */
 int cli_make_dir(const char *dir);
@@ -138,6 +151,13 @@ int cli_make_dir(const char *dir);
 void cli_file_word(const char *name, char *buf, size_t cap);
 
 /* ---- inputs.c: inputs in the user's units, ranges, going to positions ---- */
+/* A number as a model file writes one: decimal digits with an optional
+ * sign, point and exponent; no hex, no infinity or NaN, no overflow.
+ * Returns 0 with *end after it, or -1. */
+int cli_parse_real(const char *text, const char **end, double *value);
+/* A solver for the model with the command's options (pass change points
+ * with --through-change-points), or NULL when memory runs out. */
+kl_solver *cli_solver_new(const cli_model *cm, const cli_options *o);
 int cli_input_is_angle(const cli_model *cm, int input);
 double cli_input_factor(const cli_model *cm, int input); /* unit per lib unit */
 const char *cli_input_unit(const cli_model *cm, int input);
@@ -149,6 +169,10 @@ int cli_parse_inputs(const cli_model *cm, const char *list, const char *what,
 /* The inputs of --at, or the model's start when it is not given. Returns
  * 0, or -1 after printing why. */
 int cli_start_or_at(const cli_model *cm, const cli_options *o, double *u);
+/* Why the solver's last call failed with `status`, in the model's units
+ * (the library's own text where it has no figures to convert). */
+void cli_solver_why(const cli_model *cm, const kl_solver *s, int status,
+                    char *buf, size_t cap);
 /* Brings the solver to `target` from the model's start (kl_solver_reset,
  * kl_solver_reach). Returns a KL status; on failure `why` says what
  * happened in the user's units. */
@@ -193,9 +217,18 @@ int cli_col_site(const cli_model *cm, int site);
  * model's units, with rates per second at the given input speed. */
 double cli_column_factor(const cli_model *cm, int input, const cli_column *c,
                          double speed);
+/* Below what raw value (library units, per unit input rate) a column's
+ * value is rounding and shows as 0: the solver's tolerance, times the
+ * model's scale for lengths; 0 for the input and the condition estimate. */
+double cli_column_resolution(const cli_model *cm, const cli_column *c);
 /* The column's unit: per second (per_input 0) or per input unit (1). */
 void cli_column_unit(const cli_model *cm, int input, const cli_column *c,
                      int per_input, char *buf, size_t cap);
+/* A picture (draw, plot) keeps every stride-th step of a sweep and its
+ * last, at most CLI_PICTURE_POINTS + 1 rows whatever the step count: more
+ * than a page's width of pixels, so nothing visible is lost. */
+#define CLI_PICTURE_POINTS 4000
+int cli_picture_stride(int steps);
 typedef int (*cli_row_fn)(void *user, int step, const double *row);
 /* Sweeps `r` from the solver's state, handing each step's row
  * (kl_solver_row) to `fn` (non-zero stops). Returns what kl_solver_sweep
@@ -377,6 +410,9 @@ typedef struct {
   const int *status;    /* n */
   const double *dims;   /* n x dimensions */
 } cli_study_samples;
+/* Output k's name with its unit: "stroke (mm)". */
+void cli_study_output_titled(const kl_study *st, int k, char *buf,
+                             size_t cap);
 /* Whether sample i has a value of output k: it assembled, and (if its
  * motion stopped) reached where the output is taken. */
 int cli_study_has_value(const cli_study_samples *s, long i, int k);

@@ -39,12 +39,18 @@ static int forces(const cli_model *cm, const char *dir) {
   return st;
 }
 
-static int write_model_text(const cli_model *cm, const char *path) {
-  FILE *f = cli_open_output(path);
+/* The demo's own model and study files, which each run writes again. */
+static int write_text(const char *text, size_t length, const char *path) {
+  FILE *f;
+  int st;
+  cli_set_write_over(1);
+  f = cli_open_output(path);
+  cli_set_write_over(0);
   if (f == NULL)
     return CLI_EXIT_OUTPUT;
-  fwrite(cm->text, 1, cm->length, f);
-  return cli_close_output(f, path);
+  fwrite(text, 1, length, f);
+  st = cli_close_output(f, path);
+  return st;
 }
 
 typedef struct {
@@ -56,6 +62,8 @@ typedef struct {
 static const demo_file files[] = {
     {"flap-tucker.kinloop", "the model file, to edit and run again", CLI_WRITE,
      0, 0, {NULL, NULL, NULL}},
+    {"flap-tucker.study", "a tolerance study of it, for kinloop study",
+     CLI_STUDY, 0, 0, {NULL, NULL, NULL}},
     {"sweep.csv", "one motor turn in 5 deg steps at 60 rpm, every quantity",
      CLI_SWEEP, 0, 0, {NULL, NULL, NULL}},
     {"mechanism.svg", "the station at four motor angles, with point paths",
@@ -105,7 +113,11 @@ int cli_cmd_demo(const cli_model *cm, const cli_options *o) {
     memcpy(fo.show, files[k].show, sizeof files[k].show);
     switch (files[k].command) {
     case CLI_WRITE:
-      st = write_model_text(cm, path);
+      st = write_text(cm->text, cm->length, path);
+      break;
+    case CLI_STUDY:
+      st = write_text((const char *)cli_demo_study_text,
+                      cli_demo_study_length, path);
       break;
     case CLI_SWEEP:
       fo.have_speed = 1;

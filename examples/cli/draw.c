@@ -33,7 +33,8 @@ typedef struct {
 } pose;
 
 typedef struct {
-  int n, cap;
+  int n;
+  int stride, tail; /* keep every stride-th step; the last row is held */
   double *xy;    /* 2 per point per row */
   double *slide; /* per sliding joint per row */
   int npoints, nslides;
@@ -56,26 +57,12 @@ typedef struct {
   const cli_model *cm;
 } path_sink;
 
+/* Every row goes to slot n, kept (n grows) on every stride-th step, so
+ * that the last row stays in slot n until the sweep ends. */
 static int path_row(void *user, int step, const double *row) {
   path_sink *k = user;
   paths *p = k->p;
   int i;
-  (void)step;
-  if (p->n == p->cap) {
-    int cap = p->cap == 0 ? 256 : 2 * p->cap;
-    double *xy = realloc(p->xy, (size_t)cap * 2 * (size_t)(p->npoints + 1) *
-                                    sizeof *xy);
-    double *sl;
-    if (xy == NULL)
-      return 1;
-    p->xy = xy;
-    sl = realloc(p->slide,
-                 (size_t)cap * (size_t)(p->nslides + 1) * sizeof *sl);
-    if (sl == NULL)
-      return 1;
-    p->slide = sl;
-    p->cap = cap;
-  }
   for (i = 0; i < p->npoints; i++) {
     p->xy[2 * (p->n * p->npoints + i)] =
         row[cli_row_at(k->cm, KL_QUANTITY_POINT_X, i)];
@@ -85,7 +72,9 @@ static int path_row(void *user, int step, const double *row) {
   for (i = 0; i < p->nslides; i++)
     p->slide[p->n * p->nslides + i] =
         row[cli_row_at(k->cm, KL_QUANTITY_JOINT_SLIDE, k->cm->slides[i])];
-  p->n++;
+  p->tail = step % p->stride != 0;
+  if (!p->tail)
+    p->n++;
   return 0;
 }
 
@@ -504,15 +493,40 @@ static void screen(const view *v, const double xy[2], double *sx, double *sy) {
   *sy = v->ty - v->s * xy[1];
 }
 
-static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
-                      int nposes, const paths *p, const outline *o,
-                      const cli_range *r, int have_range) {
+/* Where the picture goes on the page. */
+typedef struct {
+  box b;
+  view v;
+  double width, height, u, centre[2];
+} layout;
+
+static int finite_xy(const double *xy, int n) {
+  int k;
+  for (k = 0; k < 2 * n; k++)
+    if (!isfinite(xy[k]))
+      return 0;
+  return 1;
+}
+
+/* Fits every position and path to the page. Returns 0, or -1 when a
+ * coordinate, the picture's extent or its scale is not a finite number:
+ * no SVG may hold an inf or a nan. */
+static int lay_out(const cli_model *cm, const pose *poses, int nposes,
+                   const paths *p, const outline *o, int outline_points,
+                   layout *L) {
   const kl_model *m = cm->model;
   box b;
   view v;
-  double width, height, draw_w, draw_h, u, bar, bx, by, centre[2];
-  char text[320];
+  double draw_w, draw_h, u;
   int k, i, j;
+  for (k = 0; k < nposes; k++)
+    if (!finite_xy(poses[k].joint_xy, cm->njoints) ||
+        !finite_xy(poses[k].point_xy, cm->npoints) ||
+        !finite_xy(poses[k].outline_xy, outline_points) ||
+        !finite_xy(poses[k].rail, 2 * cm->nslides))
+      return -1;
+  if (!finite_xy(p->xy, p->n * p->npoints))
+    return -1;
   b.empty = 1;
   b.x0 = b.y0 = b.x1 = b.y1 = 0;
   for (k = 0; k < nposes; k++) {
@@ -560,20 +574,42 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
     b.y0 -= pad;
     b.y1 += pad;
   }
-  width = CANVAS_WIDTH;
-  draw_w = width - 2 * MARGIN;
+  L->width = CANVAS_WIDTH;
+  draw_w = L->width - 2 * MARGIN;
   v.s = draw_w / (b.x1 - b.x0);
   draw_h = v.s * (b.y1 - b.y0);
   if (draw_h + HEADER + FOOTER > MAX_HEIGHT) {
     draw_h = MAX_HEIGHT - HEADER - FOOTER;
     v.s = draw_h / (b.y1 - b.y0);
   }
-  height = HEADER + draw_h + FOOTER;
+  L->height = HEADER + draw_h + FOOTER;
   v.tx = MARGIN + 0.5 * (draw_w - v.s * (b.x1 - b.x0)) - v.s * b.x0;
   v.ty = HEADER + v.s * b.y1;
   u = JOINT_PX / v.s; /* one joint radius, in model units */
-  centre[0] = 0.5 * (b.x0 + b.x1);
-  centre[1] = 0.5 * (b.y0 + b.y1);
+  L->b = b;
+  L->v = v;
+  L->u = u;
+  L->centre[0] = 0.5 * (b.x0 + b.x1);
+  L->centre[1] = 0.5 * (b.y0 + b.y1);
+  /* the extent, the scale and the farthest rail or marker must be numbers */
+  if (!isfinite(b.x1 - b.x0) || !isfinite(b.y1 - b.y0) || !(v.s > 0) ||
+      !isfinite(v.s) || !isfinite(v.tx) || !isfinite(v.ty) || !isfinite(u) ||
+      !isfinite(fmax(fabs(b.x0), fabs(b.x1)) + 1000 * u) ||
+      !isfinite(fmax(fabs(b.y0), fabs(b.y1)) + 1000 * u))
+    return -1;
+  return 0;
+}
+
+static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
+                      int nposes, const paths *p, const outline *o,
+                      const cli_range *r, int have_range, const layout *L) {
+  const kl_model *m = cm->model;
+  box b = L->b;
+  view v = L->v;
+  double width = L->width, height = L->height, u = L->u, bar, bx, by;
+  const double *centre = L->centre;
+  char text[320];
+  int k, i, j;
 
   svg_begin(f, width, height, SVG_PAPER);
   svg_text(f, MARGIN, 26, 17, SVG_INK, "font-weight=\"bold\"", cm->label);
@@ -686,6 +722,48 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
   svg_end(f);
 }
 
+static int no_row(const kl_solver *s, int step, double input, void *user) {
+  (void)s;
+  (void)step;
+  (void)input;
+  (void)user;
+  return 0;
+}
+
+/* Brings the solver to the swept input's value `x` as the paths go: from
+ * the start of the range (other inputs at --at) along the range's steps.
+ * Returns an exit code after saying why it cannot. */
+static int reach_along(kl_solver *s, const cli_model *cm,
+                       const cli_options *o, const cli_range *r, double x) {
+  kl_sweep_result res;
+  cli_range to_x = *r;
+  double part;
+  int st;
+  if ((st = cli_reach_start(s, cm, o, r)) != CLI_EXIT_OK || x == r->from)
+    return st;
+  part = fabs((x - r->from) / (r->to - r->from));
+  to_x.to = x;
+  to_x.steps = part * r->steps < 1 ? 1 : (int)ceil(part * r->steps);
+  if (to_x.steps > KL_MAX_SWEEP_STEPS)
+    to_x.steps = KL_MAX_SWEEP_STEPS;
+  res.size = sizeof res;
+  st = kl_solver_sweep(s, r->input, r->from, x, to_x.steps, no_row, NULL,
+                       &res);
+  if (st != KL_OK) {
+    char at[320], note[1024];
+    cli_format_input(cm, r->input, x, at, sizeof at);
+    if (st == KL_LIMIT || st == KL_ESINGULAR)
+      cli_sweep_note(cm, &to_x, &res, note, sizeof note);
+    else
+      snprintf(note, sizeof note, "%s", kl_solver_error(s));
+    cli_error("the position %s cannot be reached from the start of the "
+              "range: %s",
+              at, note);
+    return CLI_EXIT_SOLVE;
+  }
+  return CLI_EXIT_OK;
+}
+
 int cli_cmd_draw(const cli_model *cm, const cli_options *o) {
   cli_range r;
   paths p;
@@ -693,76 +771,101 @@ int cli_cmd_draw(const cli_model *cm, const cli_options *o) {
   pose poses[CLI_MAX_POSES];
   outline *outlines = NULL;
   kl_solver *s = NULL;
-  int found, nposes = 0, st = CLI_EXIT_OK, k, i, outline_points = -1;
+  layout L;
+  int found, nposes = 0, st = CLI_EXIT_OK, k, outline_points = -1, reached = 0;
   FILE *f;
   memset(&p, 0, sizeof p);
   memset(poses, 0, sizeof poses);
   found = cli_resolve_range(cm, o, &r);
   if (found < 0)
     return CLI_EXIT_USAGE;
+  if (!found && o->npose > 0) {
+    cli_error("--pose needs a range to move along: %s",
+              cm->ninputs == 0 ? "the model has no inputs"
+                               : "give --input, --from and --to");
+    return CLI_EXIT_USAGE;
+  }
   p.npoints = cm->npoints;
   p.nslides = cm->nslides;
-  s = kl_solver_new(cm->model);
+  p.stride = found ? cli_picture_stride(r.steps) : 1;
+  if (found) {
+    size_t rows = (size_t)(r.steps / p.stride + 2);
+    p.xy = malloc(rows * 2 * (size_t)(p.npoints + 1) * sizeof *p.xy);
+    p.slide = malloc(rows * (size_t)(p.nslides + 1) * sizeof *p.slide);
+    if (p.xy == NULL || p.slide == NULL)
+      goto nomem;
+  }
+  s = cli_solver_new(cm, o);
   outlines = calloc((size_t)cm->nlinks, sizeof *outlines);
   if (s == NULL || outlines == NULL ||
       (outline_points = make_outlines(cm, outlines)) < 0)
     goto nomem;
   /* the paths, which also tell how far the motion reaches */
   if (found) {
-    cli_options start = *o;
     kl_sweep_result res;
-    start.nat = 0;
-    if ((st = cli_reach_start(s, cm, &start, &r)) != CLI_EXIT_OK)
+    if ((st = cli_reach_start(s, cm, o, &r)) != CLI_EXIT_OK)
       goto done;
     sink.p = &p;
     sink.cm = cm;
     st = cli_record(s, cm, &r, path_row, &sink, &res);
+    if (p.tail)
+      p.n++;
     if (st == KL_STOPPED || st == KL_ENOMEM)
       goto nomem;
+    reached = res.steps_done;
     if ((st = cli_sweep_told(cm, s, &r, &res, st, "the sweep for the paths",
                              "the paths end there")) != CLI_EXIT_OK)
       goto done;
   }
-  nposes = o->nat > 0 ? o->nat : found ? (o->poses > 0 ? o->poses : 4) : 1;
+  nposes = o->npose > 0 ? o->npose : found ? (o->poses > 0 ? o->poses : 4) : 1;
   for (k = 0; k < nposes; k++) {
-    char why[2048];
-    double *target;
     if (!pose_alloc(&poses[k], cm, outline_points))
       goto nomem;
-    target = poses[k].inputs;
-    if (o->nat > 0) {
-      if (cli_parse_inputs(cm, o->at[k], "--at", target) != 0) {
+    if (!found) {
+      char why[2048];
+      if (cli_start_or_at(cm, o, poses[k].inputs) != 0) {
         st = CLI_EXIT_USAGE;
         goto done;
       }
+      if (cli_reach(s, cm, poses[k].inputs, why, sizeof why) != KL_OK) {
+        cli_error("%s", why);
+        st = CLI_EXIT_SOLVE;
+        goto done;
+      }
     } else {
-      kl_model_start_inputs(cm->model, target);
-      if (found && p.n > 0) {
+      double x;
+      if (o->npose > 0) {
+        x = o->pose[k] / cli_input_factor(cm, r.input);
+      } else {
         /* spread over the steps the sweep reached; a closed turn would
          * draw its first position twice */
-        int closed = cli_input_is_angle(cm, r.input) && p.n == r.steps + 1 &&
+        int closed = cli_input_is_angle(cm, r.input) && reached == r.steps + 1 &&
                      fabs(fabs(r.to - r.from) - 2 * CLI_PI) < 1e-9;
-        int last = p.n - 1, at;
+        int last = reached > 0 ? reached - 1 : 0, at;
         at = nposes == 1 ? 0
              : closed    ? (int)floor((double)k * last / nposes + 0.5)
                          : (int)floor((double)k * last / (nposes - 1) + 0.5);
-        target[r.input] = r.from + (r.to - r.from) * at / r.steps;
+        x = r.from + (r.to - r.from) * at / r.steps;
       }
-    }
-    if ((i = cli_reach(s, cm, target, why, sizeof why)) != KL_OK) {
-      cli_error("%s", why);
-      st = CLI_EXIT_SOLVE;
-      goto done;
+      if ((st = reach_along(s, cm, o, &r, x)) != CLI_EXIT_OK)
+        goto done;
     }
     pose_take(&poses[k], cm, outlines, s);
   }
   if (o->no_paths)
     p.n = 0;
+  if (lay_out(cm, poses, nposes, &p, outlines, outline_points, &L) != 0) {
+    cli_error("the drawing's coordinates are too large to draw (beyond the "
+              "numbers an SVG file can hold); nothing written: check the "
+              "model's lengths");
+    st = CLI_EXIT_MODEL;
+    goto done;
+  }
   if ((f = cli_open_output(o->output)) == NULL) {
     st = CLI_EXIT_OUTPUT;
     goto done;
   }
-  write_svg(f, cm, poses, nposes, &p, outlines, &r, found);
+  write_svg(f, cm, poses, nposes, &p, outlines, &r, found, &L);
   st = cli_close_output(f, o->output);
   goto done;
 nomem:

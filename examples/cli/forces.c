@@ -11,7 +11,7 @@
 #define LABEL "  %-20s"
 
 const char cli_forces_help[] =
-    "usage: kinloop forces [MODEL] [OPTIONS]\n"
+    "usage: kinloop forces MODEL [OPTIONS]\n"
     "\n"
     "The force stage over the working cycle (docs/cli.md): the driven input\n"
     "at a constant speed over its range, the model's masses, gravity and\n"
@@ -116,7 +116,7 @@ int cli_cycle_setup(const cli_model *cm, const cli_options *o,
     int st;
     if (o->input == NULL && have_model_cycle) {
       /* the speed line's input, unless the options name another */
-      snprintf(index, sizeof index, "%d", mc.input);
+      snprintf(index, sizeof index, "%d", mc.input + 1); /* numbered from 1 */
       chosen.input = index;
     }
     if ((st = cli_require_range(cm, &chosen, &c->r,

@@ -11,6 +11,52 @@
 
 #define DEFAULT_STEPS 72
 
+int cli_parse_real(const char *text, const char **end, double *value) {
+  const char *p = text;
+  char *stop;
+  int digits = 0;
+  if (*p == '+' || *p == '-')
+    p++;
+  for (; *p >= '0' && *p <= '9'; p++)
+    digits++;
+  if (*p == '.')
+    for (p++; *p >= '0' && *p <= '9'; p++)
+      digits++;
+  if (digits == 0)
+    return -1;
+  if (*p == 'e' || *p == 'E') {
+    const char *q = p + 1;
+    if (*q == '+' || *q == '-')
+      q++;
+    if (*q < '0' || *q > '9')
+      return -1;
+    for (; *q >= '0' && *q <= '9'; q++)
+      ;
+    p = q;
+  }
+  /* the syntax is checked: strtod reads exactly that stretch */
+  *value = strtod(text, &stop);
+  if (stop != p || !isfinite(*value))
+    return -1; /* overflow; an underflow is the nearest number, as read */
+  *end = p;
+  return 0;
+}
+
+kl_solver *cli_solver_new(const cli_model *cm, const cli_options *o) {
+  kl_solver *s = kl_solver_new(cm->model);
+  kl_options opts;
+  if (s == NULL)
+    return NULL;
+  kl_options_default(&opts);
+  opts.pass_change_points = o->through_change_points;
+  if (kl_solver_set_options(s, &opts) != KL_OK) {
+    cli_error("the solver refused its options: %s", kl_solver_error(s));
+    kl_solver_free(s);
+    return NULL;
+  }
+  return s;
+}
+
 int cli_input_is_angle(const cli_model *cm, int input) {
   return kl_model_joint_kind(cm->model, kl_model_input_joint(cm->model, input)) ==
          KL_JOINT_REVOLUTE;
@@ -43,12 +89,9 @@ int cli_parse_inputs(const cli_model *cm, const char *list, const char *what,
     return -1;
   }
   for (i = 0; i < cm->ninputs; i++) {
-    char *end;
+    const char *end;
     double v;
-    errno = 0;
-    v = strtod(p, &end);
-    if (end == p || errno == ERANGE || !isfinite(v) ||
-        (*end != ',' && *end != '\0')) {
+    if (cli_parse_real(p, &end, &v) != 0 || (*end != ',' && *end != '\0')) {
       cli_error("%s '%s': value %d is not a number; give %d comma-separated "
                 "number%s (in the model's units), one per input",
                 what, list, i + 1, cm->ninputs, cm->ninputs == 1 ? "" : "s");
@@ -89,10 +132,26 @@ int cli_start_or_at(const cli_model *cm, const cli_options *o, double *u) {
   return 0;
 }
 
+void cli_solver_why(const cli_model *cm, const kl_solver *s, int status,
+                    char *buf, size_t cap) {
+  kl_solve_stats stats;
+  stats.size = sizeof stats;
+  if (status == KL_ENOASSEMBLY && kl_solver_stats(s, &stats) == KL_OK) {
+    /* the library's text speaks radians and numbers loops from 0 */
+    snprintf(buf, cap,
+             "the loops cannot close there: they stay %.3g %s apart after %d "
+             "iterations; the inputs are beyond a motion limit, or the start "
+             "is too far from any assembly (try other sketch angles)",
+             stats.residual, cm->length_unit, stats.iterations);
+    return;
+  }
+  snprintf(buf, cap, "%s", kl_solver_error(s));
+}
+
 int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
               char *why, size_t cap) {
   kl_reach_result r;
-  char where[1024], start[320], stop[320], goal[320];
+  char where[1024], start[320], stop[320], goal[320], what[1024];
   int st;
   why[0] = '\0';
   kl_solver_reset(s);
@@ -100,9 +159,10 @@ int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
   st = kl_solver_reach(s, cm->ninputs > 0 ? target : NULL, &r);
   if (st == KL_OK)
     return st;
+  cli_solver_why(cm, s, st, what, sizeof what);
   if (r.input < 0) {
     describe_position(cm, target, where, sizeof where);
-    snprintf(why, cap, "no position at %s: %s", where, kl_solver_error(s));
+    snprintf(why, cap, "no position at %s: %s", where, what);
     return st;
   }
   cli_format_input(cm, r.input, r.from, start, sizeof start);
@@ -110,7 +170,7 @@ int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
   cli_format_input(cm, r.input, r.limit_input, stop, sizeof stop);
   if (isnan(r.limit_input))
     snprintf(why, cap, "cannot reach %s from the start (%s): %s", goal, start,
-             kl_solver_error(s));
+             what);
   else if (st == KL_ESINGULAR)
     snprintf(why, cap,
              "cannot reach %s from the start (%s): the motion meets a "
@@ -133,8 +193,8 @@ static int find_input(const cli_model *cm, const char *text) {
       return i;
   errno = 0;
   v = strtol(text, &end, 10);
-  if (end != text && *end == '\0' && errno == 0 && v >= 0 && v < cm->ninputs)
-    return (int)v;
+  if (end != text && *end == '\0' && errno == 0 && v >= 1 && v <= cm->ninputs)
+    return (int)v - 1; /* numbered from 1, as everywhere in the tool */
   return -1;
 }
 
@@ -162,7 +222,8 @@ int cli_resolve_range(const cli_model *cm, const cli_options *o,
                       "name; the inputs are",
               o->input);
       for (i = 0; i < cm->ninputs; i++)
-        fprintf(stderr, "%s %d (%s)", i ? "," : "", i, cli_input_name(cm, i));
+        fprintf(stderr, "%s %d (%s)", i ? "," : "", i + 1,
+                cli_input_name(cm, i));
       fputc('\n', stderr);
       return -1;
     }
@@ -183,7 +244,7 @@ int cli_resolve_range(const cli_model *cm, const cli_options *o,
     if (asked) {
       cli_error("input %d (%s) slides and the model has no sweep line for it: "
                 "give --to",
-                r->input, cli_input_name(cm, r->input));
+                r->input + 1, cli_input_name(cm, r->input));
       return -1;
     }
     return 0;

@@ -28,8 +28,8 @@ static const char general_usage[] =
     "\n"
     "usage: kinloop                         the built-in demo: a summary, and\n"
     "                                       files in ./kinloop-demo/\n"
-    "       kinloop COMMAND [MODEL] [OPTIONS]\n"
-    "       kinloop study [STUDY] [OPTIONS]\n"
+    "       kinloop COMMAND MODEL [OPTIONS]\n"
+    "       kinloop study STUDY [OPTIONS]\n"
     "       kinloop COMMAND --help          the options of one command\n"
     "\n"
     "commands:\n"
@@ -49,9 +49,14 @@ static const char general_usage[] =
     "  reach   SVG picture of the workspace of a point of a two-input linkage:\n"
     "          its boundary and singular curves, traced, and its area\n"
     "\n"
-    "MODEL is a model file (docs/model-format.md); without one a command works on\n"
-    "the built-in demo, a carton flap-tucking station. Angles on the command line\n"
-    "are in the model's angle unit, lengths in its length unit.\n"
+    "MODEL is a model file (docs/model-format.md); every command but demo needs\n"
+    "one (kinloop demo writes the built-in demo's, a carton flap-tucking\n"
+    "station, into kinloop-demo/). Angles on the command line and in messages\n"
+    "are in the model's angle unit, lengths in its length unit. Inputs and loops\n"
+    "are numbered from 1 everywhere (--input 1 is the first input).\n"
+    "No output replaces a file until it is complete: a failed or interrupted\n"
+    "run leaves the file as it was, and a file that reads as a model or study\n"
+    "file is not written over without --write-over.\n"
     "\n"
     "exit status:\n"
     "  0  success\n"
@@ -64,20 +69,28 @@ static const char general_usage[] =
     "     not solve; forces that are not determined (redundant or singular)\n"
     "  5  an output file or folder cannot be written\n";
 
+/* check, sweep, draw and plot; forces takes the range options only */
+#define THROUGH_HELP                                                           \
+  "  --through-change-points  at a change point (where two branches cross)\n"  \
+  "                    go on along the branch with the same tangent and\n"    \
+  "                    report each passage on standard error; by default\n"   \
+  "                    the motion stops there and is reported\n"
+
 static const char range_help[] =
-    "  --input JOINT     the input to sweep: its joint's name or its index\n"
-    "                    (0, 1, ...); default: the model's sweep line, else 0\n"
+    "  --input JOINT     the input to sweep: its joint's name or its number\n"
+    "                    (1, 2, ...); default: the model's sweep line, else 1\n"
     "  --from X          start of the range (default: the model's sweep line\n"
     "                    if it sweeps this input, else 0)\n"
     "  --to X            end of the range (default: the model's sweep line\n"
     "                    if it sweeps this input, else one full turn from the\n"
     "                    start; a sliding input then needs --to)\n"
-    "  --steps N         number of equal steps (default: the model's sweep\n"
-    "                    line if it sweeps this input, else 72)\n";
+    "  --steps N         number of equal steps, 1 to 10000000, the limit for a\n"
+    "                    sweep line too (default: the model's sweep line if\n"
+    "                    it sweeps this input, else 72)\n";
 
 static const char *const command_help[CLI_NCOMMANDS] = {
     /* check */
-    "usage: kinloop check [MODEL] [OPTIONS]\n"
+    "usage: kinloop check MODEL [OPTIONS]\n"
     "\n"
     "Reports the model's structure (links, joints, degrees of freedom, inputs,\n"
     "loops by their joints), the Grashof class of each four-bar loop driven at a\n"
@@ -89,6 +102,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "\n"
     "options:\n"
     "%s"
+    THROUGH_HELP
     "  --at LIST         values of every input at the start, comma-separated\n"
     "                    (the swept input's own entry is replaced by --from)\n"
     "  -o, --output FILE write the report to FILE instead of standard output\n"
@@ -96,7 +110,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "Warnings do not change the exit status; a start position that cannot be\n"
     "solved exits with 4.\n",
     /* solve */
-    "usage: kinloop solve [MODEL] [OPTIONS]\n"
+    "usage: kinloop solve MODEL [OPTIONS]\n"
     "\n"
     "Solves one position, reached by continuation from the model's start (its\n"
     "sweep line's start, other inputs 0) so that the assembly mode is the one the\n"
@@ -108,9 +122,14 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "                    (default: the start position)\n"
     "  --rate LIST       input rates, per second (default: 1 for each input)\n"
     "  --accel LIST      input accelerations, per second squared (default: 0)\n"
-    "  -o, --output FILE write the table to FILE instead of standard output\n",
+    "  --all-digits      print every number with 17 significant digits\n"
+    "                    (default 8)\n"
+    "  -o, --output FILE write the table to FILE instead of standard output\n"
+    "\n"
+    "Values smaller than the model's resolution (the solver's tolerance times\n"
+    "the model's scale, in the value's unit) print as 0.\n",
     /* sweep */
-    "usage: kinloop sweep [MODEL] [OPTIONS]\n"
+    "usage: kinloop sweep MODEL [OPTIONS]\n"
     "\n"
     "Sweeps one input over a range and writes CSV: a header row of names with\n"
     "units, then one row per step with the input, every link's angle, rate and\n"
@@ -121,6 +140,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "\n"
     "options:\n"
     "%s"
+    THROUGH_HELP
     "  --at LIST         values of every input at the start, comma-separated\n"
     "                    (the swept input's own entry is replaced by --from)\n"
     "  --speed W         the swept input's constant speed, its unit per second\n"
@@ -138,23 +158,28 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "With --forces, where the forces are not determined it writes nothing and\n"
     "exits with 4.\n",
     /* draw */
-    "usage: kinloop draw [MODEL] [OPTIONS]\n"
+    "usage: kinloop draw MODEL [OPTIONS]\n"
     "\n"
     "Draws the mechanism as SVG at one or more positions (the first in full\n"
     "colour, the others faint), ground pivots and rails hatched, with the path\n"
-    "of every point over the sweep range. Each position is reached from the\n"
-    "model's start by continuation, as kinloop solve does.\n"
+    "of every point over the sweep range. The paths and the positions are\n"
+    "swept from the start of the range with the other inputs at --at, so the\n"
+    "drawn positions lie on the drawn paths.\n"
     "\n"
     "options:\n"
     "%s"
-    "  --at LIST         a position to draw (input values, comma-separated);\n"
-    "                    repeat for more positions, up to 16\n"
-    "  --poses N         without --at: N positions spread over the range\n"
+    THROUGH_HELP
+    "  --at LIST         values of every input at the start, comma-separated\n"
+    "                    (the swept input's own entry is replaced by --from)\n"
+    "  --pose X          a position to draw: the swept input's value X,\n"
+    "                    reached along the range from its start; repeat for\n"
+    "                    more positions, up to 16\n"
+    "  --poses N         without --pose: N positions spread over the range\n"
     "                    (default 4)\n"
     "  --no-paths        leave out the point paths\n"
     "  -o, --output FILE write the SVG to FILE instead of standard output\n",
     /* plot */
-    "usage: kinloop plot [MODEL] --show OUTPUT [--show OUTPUT ...] [OPTIONS]\n"
+    "usage: kinloop plot MODEL --show OUTPUT [--show OUTPUT ...] [OPTIONS]\n"
     "\n"
     "Plots outputs against the swept input as SVG. OUTPUT is one of\n"
     "  angle:LINK          a link's angle\n"
@@ -169,6 +194,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "\n"
     "options:\n"
     "%s"
+    THROUGH_HELP
     "  --show OUTPUT     an output to plot; repeat for up to 8\n"
     "  --order N         0 the output itself (default), 1 its first-order\n"
     "                    kinematic coefficient d output / d input, 2 its\n"
@@ -177,9 +203,9 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "                    (the swept input's own entry is replaced by --from)\n"
     "  -o, --output FILE write the SVG to FILE instead of standard output\n",
     /* write */
-    "usage: kinloop write [MODEL] [-o FILE]\n"
+    "usage: kinloop write MODEL [-o FILE]\n"
     "\n"
-    "Reads MODEL (default: the built-in demo) and writes it back in the\n"
+    "Reads MODEL and writes it back in the\n"
     "library's canonical model-file text: every number with 17 significant\n"
     "digits, comments dropped. Reading the result gives the same model.\n"
     "\n"
@@ -199,7 +225,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "  --dir DIR         the folder to write (default kinloop-demo; made if\n"
     "                    missing)\n",
     /* study */
-    "usage: kinloop study [STUDY] [OPTIONS]\n"
+    "usage: kinloop study STUDY [OPTIONS]\n"
     "\n"
     "Runs every sample of a design study (docs/studies.md): each a copy of the\n"
     "study's model with its dimensions drawn within their tolerances (or set\n"
@@ -208,8 +234,8 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "its first-order estimate, extremes, percentiles, the worst sample, how\n"
     "many samples stay within the limits, how many do not assemble and how\n"
     "many stop short of the sweep's end; then a line starting with\n"
-    "'throughput' (samples per second). Without STUDY, the built-in demo\n"
-    "study flap-tucker.study.\n"
+    "'throughput' (samples per second). kinloop demo writes the built-in\n"
+    "demo study, flap-tucker.study, beside its model.\n"
     "\n"
     "options:\n"
     "  --threads N       threads to run the samples on, 1 to 64, or 0 for\n"
@@ -275,6 +301,9 @@ enum {
   OPT_FORCES,
   OPT_POINT,
   OPT_GRID,
+  OPT_THROUGH,
+  OPT_WRITE_OVER,
+  OPT_POSE,
   OPT_HELP
 };
 
@@ -300,7 +329,7 @@ static const struct {
     {"rate", 0, 1, BIT(CLI_SOLVE)},
     {"accel", 0, 1, BIT(CLI_SOLVE)},
     {"speed", 0, 1, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},
-    {"all-digits", 0, 0, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},
+    {"all-digits", 0, 0, BIT(CLI_SWEEP) | BIT(CLI_FORCES) | BIT(CLI_SOLVE)},
     {"poses", 0, 1, BIT(CLI_DRAW)},
     {"no-paths", 0, 0, BIT(CLI_DRAW)},
     {"show", 0, 1, BIT(CLI_PLOT)},
@@ -313,6 +342,10 @@ static const struct {
     {"forces", 0, 0, BIT(CLI_SWEEP)},
     {"point", 0, 1, BIT(CLI_REACH)},
     {"grid", 0, 1, BIT(CLI_REACH)},
+    {"through-change-points", 0, 0,
+     BIT(CLI_CHECK) | BIT(CLI_SWEEP) | BIT(CLI_DRAW) | BIT(CLI_PLOT)},
+    {"write-over", 0, 0, ~0u},
+    {"pose", 0, 1, BIT(CLI_DRAW)},
     {"help", 'h', 0, ~0u},
 };
 #define NOPTIONS ((int)(sizeof option_specs / sizeof option_specs[0]))
@@ -334,13 +367,12 @@ static void print_command_help(int command) {
 
 static int parse_number(int command, const char *option, const char *text,
                         double *value) {
-  char *end;
-  errno = 0;
-  *value = strtod(text, &end);
-  if (end == text || *end != '\0' || errno == ERANGE ||
-      *value != *value || *value - *value != 0.0) {
-    char what[128];
-    snprintf(what, sizeof what, "--%s wants a finite number, not '%%s'",
+  const char *end;
+  if (cli_parse_real(text, &end, value) != 0 || *end != '\0') {
+    char what[160];
+    snprintf(what, sizeof what,
+             "--%s wants a finite decimal number (as in a model file), not "
+             "'%%s'",
              option);
     return usage_error(command, what, text);
   }
@@ -409,14 +441,24 @@ static int store_option(cli_options *o, int which, const char *value) {
     break;
   case OPT_STEPS:
     o->have_steps = 1;
-    st = parse_count(c, name, value, 1, 10000000, &o->steps);
+    st = parse_count(c, name, value, 1, KL_MAX_SWEEP_STEPS, &o->steps);
     break;
   case OPT_AT:
-    if (o->nat == (c == CLI_DRAW ? CLI_MAX_POSES : 1))
-      return usage_error(c, c == CLI_DRAW ? "at most 16 positions (--at %s)"
-                                          : "--at is given once (again: %s)",
-                         value);
+    if (o->nat == 1)
+      return usage_error(c, "--at is given once (again: %s)", value);
     o->at[o->nat++] = value;
+    break;
+  case OPT_POSE:
+    if (o->npose == CLI_MAX_POSES)
+      return usage_error(c, "at most 16 positions (--pose %s)", value);
+    st = parse_number(c, name, value, &o->pose[o->npose]);
+    o->npose++;
+    break;
+  case OPT_THROUGH:
+    o->through_change_points = 1;
+    break;
+  case OPT_WRITE_OVER:
+    o->write_over = 1;
     break;
   case OPT_RATE:
     o->rate = value;
@@ -527,9 +569,19 @@ static int parse_options(cli_options *o, int argc, char **argv) {
     if (store_option(o, which, value) != CLI_EXIT_OK)
       return CLI_EXIT_USAGE;
   }
-  if (o->command == CLI_DRAW && o->nat > 0 && o->poses > 0)
-    return usage_error(o->command, "give --at positions or --poses%s, not both",
+  if (o->command == CLI_DRAW && o->npose > 0 && o->poses > 0)
+    return usage_error(o->command, "give --pose positions or --poses%s, not "
+                                   "both",
                        "");
+  if (o->command != CLI_DEMO && o->model_path == NULL)
+    return usage_error(o->command,
+                       o->command == CLI_STUDY
+                           ? "kinloop %s needs a study file (kinloop demo "
+                             "writes the built-in one into kinloop-demo/)"
+                           : "kinloop %s needs a model file (kinloop demo "
+                             "writes the built-in one into kinloop-demo/)",
+                       command_names[o->command]);
+  cli_set_write_over(o->write_over);
   return CLI_EXIT_OK;
 }
 
@@ -603,8 +655,11 @@ int main(int argc, char **argv) {
       if (strcmp(word, command_names[i]) == 0)
         o.command = i;
     if (o.command < 0) {
-      if (word[0] == '-')
+      const char *value;
+      if (word[0] == '-' && match_option(word, &value) >= 0)
         return usage_error(-1, "'%s' needs a command before it", word);
+      if (word[0] == '-')
+        return usage_error(-1, "unknown option '%s'", word);
       if (strchr(word, '.') != NULL || strchr(word, '/') != NULL)
         return usage_error(-1,
                            "unknown command '%s'; to look at a model file, "

@@ -3,13 +3,15 @@
  * embedded demo, its items named, its loops read through the library; and
  * the output files and folders commands write.
  */
-#define _POSIX_C_SOURCE 200809L /* mkdir, stat */
+#define _POSIX_C_SOURCE 200809L /* mkdir, stat, mkstemp, sigaction, fsync */
 #include <errno.h>
+#include <signal.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
 #include <sys/types.h>
+#include <unistd.h>
 
 #include "cli.h"
 
@@ -230,30 +232,168 @@ const char *cli_model_comment(const cli_model *cm, int k, size_t *len) {
   return NULL;
 }
 
+/* The files being written: their temporary names, for renaming when done
+ * and for removal when the run is interrupted. Fixed arrays, so that the
+ * signal handler touches no heap. */
+#define MAX_OPEN_OUTPUTS 8
+#define MAX_PATH_BYTES 4096
+static struct {
+  FILE *f;
+  char temp[MAX_PATH_BYTES];
+} open_outputs[MAX_OPEN_OUTPUTS];
+static volatile sig_atomic_t handlers_set;
+static int write_over;
+
+void cli_set_write_over(int allowed) { write_over = allowed; }
+
+/* Interrupted (SIGINT, SIGTERM, SIGHUP): removes the temporary files, so
+ * that only the earlier files remain, and dies of the same signal. */
+static void remove_temps_and_die(int sig) {
+  int k;
+  for (k = 0; k < MAX_OPEN_OUTPUTS; k++)
+    if (open_outputs[k].f != NULL)
+      unlink(open_outputs[k].temp);
+  signal(sig, SIG_DFL);
+  raise(sig);
+}
+
+static void set_handlers(void) {
+  static const int signals[] = {SIGINT, SIGTERM, SIGHUP};
+  size_t k;
+  if (handlers_set)
+    return;
+  for (k = 0; k < sizeof signals / sizeof signals[0]; k++) {
+    struct sigaction sa;
+    memset(&sa, 0, sizeof sa);
+    sa.sa_handler = remove_temps_and_die;
+    sigemptyset(&sa.sa_mask);
+    sigaction(signals[k], &sa, NULL);
+  }
+  handlers_set = 1;
+}
+
+/* Whether the file at `path` starts as a model or a study file does (its
+ * first word after comments and blank lines). */
+static const char *document_kind(const char *path) {
+  char line[256];
+  const char *kind = NULL;
+  int lines = 0; /* only regular files get here; comments come first */
+  FILE *f = fopen(path, "rb");
+  if (f == NULL)
+    return NULL;
+  while (lines++ < 1000 && fgets(line, sizeof line, f) != NULL) {
+    const char *p = line;
+    while (*p == ' ' || *p == '\t' || *p == '\r' || *p == '\n')
+      p++;
+    if (*p == '\0' || *p == '#')
+      continue;
+    if (strncmp(p, "kinloop-model", 13) == 0)
+      kind = "model";
+    else if (strncmp(p, "kinloop-study", 13) == 0)
+      kind = "study";
+    break;
+  }
+  fclose(f);
+  return kind;
+}
+
 FILE *cli_open_output(const char *path) {
+  const char *kind;
+  int k, fd;
   FILE *f;
   if (path == NULL || strcmp(path, "-") == 0)
     return stdout;
-  f = fopen(path, "w");
-  if (f == NULL)
+  {
+    /* a device or a pipe is written as it is: no file to keep */
+    struct stat info;
+    if (stat(path, &info) == 0 && !S_ISREG(info.st_mode) &&
+        !S_ISDIR(info.st_mode)) {
+      f = fopen(path, "w");
+      if (f == NULL)
+        cli_error("cannot write '%s': %s", path, strerror(errno));
+      return f;
+    }
+  }
+  if (!write_over && (kind = document_kind(path)) != NULL) {
+    cli_error("'%s' is a %s file; not writing over it (choose another "
+              "output, or give --write-over)",
+              path, kind);
+    return NULL;
+  }
+  for (k = 0; k < MAX_OPEN_OUTPUTS && open_outputs[k].f != NULL; k++)
+    ;
+  if (k == MAX_OPEN_OUTPUTS ||
+      (size_t)snprintf(open_outputs[k].temp, MAX_PATH_BYTES, "%s.tmp-XXXXXX",
+                       path) >= MAX_PATH_BYTES) {
+    cli_error("cannot write '%s': the path is too long", path);
+    return NULL;
+  }
+  set_handlers();
+  fd = mkstemp(open_outputs[k].temp);
+  if (fd < 0) {
     cli_error("cannot write '%s': %s", path, strerror(errno));
+    return NULL;
+  }
+  /* mkstemp makes it private; a finished file gets the usual mode */
+  {
+    mode_t mask = umask(0);
+    umask(mask);
+    fchmod(fd, 0666 & ~mask);
+  }
+  f = fdopen(fd, "w");
+  if (f == NULL) {
+    cli_error("cannot write '%s': %s", path, strerror(errno));
+    close(fd);
+    unlink(open_outputs[k].temp);
+    return NULL;
+  }
+  open_outputs[k].f = f;
   return f;
 }
 
+static int output_slot(FILE *f) {
+  int k;
+  for (k = 0; k < MAX_OPEN_OUTPUTS; k++)
+    if (open_outputs[k].f == f)
+      return k;
+  return -1;
+}
+
+void cli_abandon_output(FILE *f) {
+  int k = output_slot(f);
+  if (f == stdout) {
+    fflush(f);
+    return;
+  }
+  fclose(f);
+  if (k >= 0) {
+    unlink(open_outputs[k].temp);
+    open_outputs[k].f = NULL;
+  }
+}
+
 int cli_close_output(FILE *f, const char *path) {
-  int failed = ferror(f) != 0;
+  int failed = ferror(f) != 0, k = output_slot(f);
   if (f == stdout) {
     if (fflush(f) != 0)
       failed = 1;
-  } else if (fclose(f) != 0) {
-    failed = 1;
+  } else {
+    if (fflush(f) != 0 || fsync(fileno(f)) != 0)
+      failed = 1;
+    if (fclose(f) != 0)
+      failed = 1;
+    if (!failed && k >= 0 && rename(open_outputs[k].temp, path) != 0)
+      failed = 1;
   }
-  if (failed) {
+  if (failed)
     cli_error("writing '%s' failed: %s",
               path == NULL ? "standard output" : path, strerror(errno));
-    return CLI_EXIT_OUTPUT;
+  if (k >= 0) {
+    if (failed)
+      unlink(open_outputs[k].temp);
+    open_outputs[k].f = NULL;
   }
-  return CLI_EXIT_OK;
+  return failed ? CLI_EXIT_OUTPUT : CLI_EXIT_OK;
 }
 
 int cli_make_dir(const char *dir) {

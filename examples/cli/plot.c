@@ -17,7 +17,8 @@ typedef struct {
 } series;
 
 typedef struct {
-  int n, cap, nseries;
+  int n, nseries;
+  int stride, tail; /* keep every stride-th step; the last row is held */
   double *x, *y; /* y: nseries values per row */
   const series *s;
   const double *factor;
@@ -127,26 +128,17 @@ unknown:
   return -1;
 }
 
+/* Every row goes to slot n, kept (n grows) on every stride-th step, so
+ * that the last row stays in slot n until the sweep ends. */
 static int sample_row(void *user, int step, const double *row) {
   samples *d = user;
   int k;
-  (void)step;
-  if (d->n == d->cap) {
-    int cap = d->cap == 0 ? 256 : 2 * d->cap;
-    double *x = realloc(d->x, (size_t)cap * sizeof *x), *y;
-    if (x == NULL)
-      return 1;
-    d->x = x;
-    y = realloc(d->y, (size_t)cap * (size_t)d->nseries * sizeof *y);
-    if (y == NULL)
-      return 1;
-    d->y = y;
-    d->cap = cap;
-  }
   d->x[d->n] = row[d->x_at] * d->xfactor;
   for (k = 0; k < d->nseries; k++)
     d->y[d->n * d->nseries + k] = row[d->s[k].at] * d->factor[k];
-  d->n++;
+  d->tail = step % d->stride != 0;
+  if (!d->tail)
+    d->n++;
   return 0;
 }
 
@@ -303,7 +295,13 @@ int cli_cmd_plot(const cli_model *cm, const cli_options *o) {
   }
   free(cols);
   cols = NULL;
-  if ((sv = kl_solver_new(cm->model)) == NULL)
+  d.stride = cli_picture_stride(r.steps);
+  {
+    size_t rows = (size_t)(r.steps / d.stride + 2);
+    d.x = malloc(rows * sizeof *d.x);
+    d.y = malloc(rows * (size_t)o->nshow * sizeof *d.y);
+  }
+  if (d.x == NULL || d.y == NULL || (sv = cli_solver_new(cm, o)) == NULL)
     goto nomem;
   if ((st = cli_reach_start(sv, cm, o, &r)) != CLI_EXIT_OK)
     goto done;
@@ -313,11 +311,30 @@ int cli_cmd_plot(const cli_model *cm, const cli_options *o) {
   d.xfactor = cli_input_factor(cm, r.input);
   d.x_at = cli_row_at(cm, KL_QUANTITY_INPUT_VALUE, r.input);
   st = cli_record(sv, cm, &r, sample_row, &d, &res);
+  if (d.tail)
+    d.n++;
   if (st == KL_STOPPED || st == KL_ENOMEM)
     goto nomem;
   if ((st = cli_sweep_told(cm, sv, &r, &res, st, "the sweep",
                            "the curves end there")) != CLI_EXIT_OK)
     goto done;
+  {
+    /* NaN leaves a gap (no transmission angle there); what overflows a
+     * picture's numbers is refused */
+    double lo = INFINITY, hi = -INFINITY;
+    for (k = 0; k < d.n * d.nseries; k++)
+      if (!isnan(d.y[k])) {
+        lo = fmin(lo, d.y[k]);
+        hi = fmax(hi, d.y[k]);
+      }
+    if (lo <= hi && !isfinite(hi - lo)) {
+      cli_error("the outputs span %g to %g, more than the numbers of a "
+                "picture can hold; nothing written",
+                lo, hi);
+      st = CLI_EXIT_SOLVE;
+      goto done;
+    }
+  }
   if ((f = cli_open_output(o->output)) == NULL) {
     st = CLI_EXIT_OUTPUT;
     goto done;

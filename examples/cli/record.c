@@ -3,6 +3,7 @@
  * the columns the tool shows of them: names, places in a row, units.
  */
 #define _POSIX_C_SOURCE 200809L /* isatty, fileno */
+#include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <unistd.h>
@@ -116,17 +117,52 @@ void cli_column_unit(const cli_model *cm, int input, const cli_column *c,
     snprintf(buf, cap, "%s/%s%s", base, per, c->order == 2 ? "^2" : "");
 }
 
+int cli_picture_stride(int steps) {
+  return steps / CLI_PICTURE_POINTS + 1;
+}
+
+double cli_column_resolution(const cli_model *cm, const cli_column *c) {
+  kl_options opts;
+  kl_options_default(&opts);
+  if (c->dim == CLI_DIM_ANGLE)
+    return opts.tolerance;
+  if (c->dim == CLI_DIM_LENGTH)
+    return opts.tolerance * kl_model_scale(cm->model);
+  return 0.0; /* the input itself and the condition estimate as they are */
+}
+
 typedef struct {
   cli_row_fn fn;
   void *user;
   double *row;
   int steps, progress, shown;
+  const cli_model *cm;
+  int input, passages; /* the swept input; passages told so far */
 } recorder;
+
+/* Tells each change point the sweep passed (--through-change-points) as
+ * it happens. */
+static void tell_passages(recorder *r, const kl_solver *s) {
+  int count = 0;
+  double at = NAN;
+  char where[320];
+  kl_solver_passages(s, &count, &at);
+  if (count == r->passages)
+    return;
+  r->passages = count;
+  cli_format_input(r->cm, r->input, at, where, sizeof where);
+  if (r->progress)
+    fputc('\n', stderr);
+  cli_error("note: passage %d through a change point at %s, on the branch "
+            "with the same tangent",
+            count, where);
+}
 
 static int record_step(const kl_solver *s, int step, double input,
                        void *user) {
   recorder *r = user;
   (void)input;
+  tell_passages(r, s);
   kl_solver_row(s, r->row);
   if (r->progress) {
     int percent = (int)(100.0 * step / r->steps);
@@ -144,6 +180,9 @@ int cli_record(kl_solver *s, const cli_model *cm, const cli_range *range,
   int st;
   r.fn = fn;
   r.user = user;
+  r.cm = cm;
+  r.input = range->input;
+  r.passages = 0;
   r.steps = range->steps;
   r.shown = -1;
   r.progress = range->steps >= PROGRESS_MIN_STEPS && isatty(fileno(stderr));
@@ -153,6 +192,7 @@ int cli_record(kl_solver *s, const cli_model *cm, const cli_range *range,
   res->size = sizeof *res;
   st = kl_solver_sweep(s, range->input, range->from, range->to, range->steps,
                        record_step, &r, res);
+  tell_passages(&r, s);
   if (r.progress)
     fputs("\r                          \r", stderr);
   free(r.row);
@@ -187,7 +227,9 @@ void cli_sweep_note(const cli_model *cm, const cli_range *r,
   else if (res->status == KL_ESINGULAR)
     snprintf(buf, cap,
              "the motion meets a singular position (change point) at %s, "
-             "after %d of %d steps; it is not passed through",
+             "after %d of %d steps; it is not passed through "
+             "(--through-change-points goes on along the branch with the "
+             "same tangent)",
              at, res->steps_done, r->steps + 1);
   else
     snprintf(buf, cap, "%d of %d steps", res->steps_done, r->steps + 1);

@@ -16,60 +16,115 @@ static int name_width(char **names, int from, int to, int least) {
   return w;
 }
 
+/* How numbers are printed: their digits, and the resolution below which
+ * a value is 0 (the solver's tolerance times the model's scale for
+ * lengths, the tolerance for angles in rad; times the largest input rate
+ * for rates, and its square or the largest input acceleration for
+ * accelerations), in library units. */
+typedef struct {
+  int digits;
+  double length[3], angle[3];
+} number_style;
+
+static void style_of(const cli_model *cm, const kl_solver *s,
+                     const double *rates, const double *accels, int all_digits,
+                     number_style *ns) {
+  kl_options opts;
+  double w = 1.0, acc = 1.0, scale = kl_model_scale(cm->model);
+  int i;
+  kl_options_default(&opts);
+  kl_solver_options(s, &opts);
+  for (i = 0; i < cm->ninputs; i++) {
+    w = fmax(w, fabs(rates[i]));
+    acc = fmax(acc, fabs(accels[i]));
+  }
+  acc = fmax(acc, w * w);
+  ns->digits = all_digits ? 17 : 8;
+  ns->angle[0] = opts.tolerance;
+  ns->angle[1] = opts.tolerance * w;
+  ns->angle[2] = opts.tolerance * acc;
+  for (i = 0; i < 3; i++)
+    ns->length[i] = ns->angle[i] * (scale > 0 ? scale : 1.0);
+}
+
+/* A value in a column `width` wide: `raw` in library units, shown times
+ * `factor`, 0 below `resolution`. */
+static void put_value(FILE *f, const number_style *ns, int width, double raw,
+                      double factor, double resolution) {
+  double v = fabs(raw) < resolution ? 0.0 : raw * factor;
+  fprintf(f, " %*.*g", ns->digits > 8 ? width + 9 : width, ns->digits, v);
+}
+
 static void print_solution(FILE *f, const cli_model *cm, const kl_solver *s,
                            const double *u, const double *rates,
-                           const double *accels) {
+                           const double *accels, const number_style *ns) {
   double k = cm->angle_factor;
   const char *a = cm->angle_unit, *len = cm->length_unit;
   char h1[64], h2[64], h3[64];
   kl_solve_stats stats;
   kl_options opts;
-  int i, w;
+  int i, w, wide = ns->digits > 8 ? 9 : 0;
   fprintf(f, "model %s\n", cm->label);
   for (i = 0; i < cm->ninputs; i++) {
     double fi = cli_input_factor(cm, i);
     const char *ui = cli_input_unit(cm, i);
-    fprintf(f, "input %s at %.6g %s, rate %.6g %s/s, acceleration %.6g %s/s^2\n",
-            cli_input_name(cm, i), u[i] * fi, ui, rates[i] * fi, ui,
-            accels[i] * fi, ui);
+    fprintf(f, "input %s at %.*g %s, rate %.*g %s/s, acceleration %.*g "
+               "%s/s^2\n",
+            cli_input_name(cm, i), ns->digits, u[i] * fi, ui, ns->digits,
+            rates[i] * fi, ui, ns->digits, accels[i] * fi, ui);
   }
   w = name_width(cm->link_names, 1, cm->nlinks, 12);
   snprintf(h1, sizeof h1, "angle (%s)", a);
   snprintf(h2, sizeof h2, "rate (%s/s)", a);
   snprintf(h3, sizeof h3, "accel (%s/s^2)", a);
-  fprintf(f, "\n%-*s %16s %16s %16s\n", w, "link", h1, h2, h3);
-  for (i = 1; i < cm->nlinks; i++)
-    fprintf(f, "%-*s %16.8g %16.8g %16.8g\n", w, cm->link_names[i],
-            kl_link_angle(s, i) * k, kl_link_rate(s, i) * k,
-            kl_link_accel(s, i) * k);
+  fprintf(f, "\n%-*s %*s %*s %*s\n", w, "link", 16 + wide, h1, 16 + wide, h2,
+          16 + wide, h3);
+  for (i = 1; i < cm->nlinks; i++) {
+    fprintf(f, "%-*s", w, cm->link_names[i]);
+    put_value(f, ns, 16, kl_link_angle(s, i), k, ns->angle[0]);
+    put_value(f, ns, 16, kl_link_rate(s, i), k, ns->angle[1]);
+    put_value(f, ns, 16, kl_link_accel(s, i), k, ns->angle[2]);
+    fputc('\n', f);
+  }
   if (cm->nslides > 0) {
     w = name_width(cm->joint_names, 0, cm->njoints, 12);
     snprintf(h1, sizeof h1, "slide (%s)", len);
     snprintf(h2, sizeof h2, "rate (%s/s)", len);
     snprintf(h3, sizeof h3, "accel (%s/s^2)", len);
-    fprintf(f, "\n%-*s %16s %16s %16s\n", w, "slide", h1, h2, h3);
+    fprintf(f, "\n%-*s %*s %*s %*s\n", w, "slide", 16 + wide, h1,
+            16 + wide, h2, 16 + wide, h3);
     for (i = 0; i < cm->nslides; i++) {
       int j = cm->slides[i];
-      fprintf(f, "%-*s %16.8g %16.8g %16.8g\n", w, cm->joint_names[j],
-              kl_joint_slide(s, j), kl_joint_slide_rate(s, j),
-              kl_joint_slide_accel(s, j));
+      fprintf(f, "%-*s", w, cm->joint_names[j]);
+      put_value(f, ns, 16, kl_joint_slide(s, j), 1.0, ns->length[0]);
+      put_value(f, ns, 16, kl_joint_slide_rate(s, j), 1.0, ns->length[1]);
+      put_value(f, ns, 16, kl_joint_slide_accel(s, j), 1.0, ns->length[2]);
+      fputc('\n', f);
     }
   }
   if (cm->npoints > 0) {
     w = name_width(cm->point_names, 0, cm->npoints, 12);
-    fprintf(f, "\n%-*s %14s %14s %14s %14s %14s %14s\n", w, "point", "x",
-            "y", "x rate", "y rate", "x accel", "y accel");
+    int c = 14 + wide;
+    fprintf(f, "\n%-*s %*s %*s %*s %*s %*s %*s\n", w, "point", c, "x", c,
+            "y", c, "x rate", c, "y rate", c, "x accel", c, "y accel");
     snprintf(h2, sizeof h2, "%s/s", len);
     snprintf(h3, sizeof h3, "%s/s^2", len);
-    fprintf(f, "%-*s %14s %14s %14s %14s %14s %14s\n", w, "", len, len, h2,
-            h2, h3, h3);
+    fprintf(f, "%-*s %*s %*s %*s %*s %*s %*s\n", w, "", c, len, c, len, c,
+            h2, c, h2, c, h3, c, h3);
     for (i = 0; i < cm->npoints; i++) {
       double p[2], v[2], acc[2];
+      int axis;
       kl_point_position(s, i, p);
       kl_point_velocity(s, i, v);
       kl_point_acceleration(s, i, acc);
-      fprintf(f, "%-*s %14.8g %14.8g %14.8g %14.8g %14.8g %14.8g\n", w,
-              cm->point_names[i], p[0], p[1], v[0], v[1], acc[0], acc[1]);
+      fprintf(f, "%-*s", w, cm->point_names[i]);
+      for (axis = 0; axis < 2; axis++)
+        put_value(f, ns, 14, p[axis], 1.0, ns->length[0]);
+      for (axis = 0; axis < 2; axis++)
+        put_value(f, ns, 14, v[axis], 1.0, ns->length[1]);
+      for (axis = 0; axis < 2; axis++)
+        put_value(f, ns, 14, acc[axis], 1.0, ns->length[2]);
+      fputc('\n', f);
     }
   }
   if (cm->nsites > 0) {
@@ -81,8 +136,9 @@ static void print_solution(FILE *f, const cli_model *cm, const kl_solver *s,
       double mu = NAN, deg;
       kl_output_value(s, site, &mu);
       deg = mu * 180 / CLI_PI;
-      fprintf(f, "%-*s %16.8g   %s, %s%s\n", w, cm->joint_names[site->id],
-              mu * k, cm->joint_names[site->line_a],
+      fprintf(f, "%-*s", w, cm->joint_names[site->id]);
+      put_value(f, ns, 16, mu, k, ns->angle[0]);
+      fprintf(f, "   %s, %s%s\n", cm->joint_names[site->line_a],
               cm->joint_names[site->line_b],
               deg < CLI_USUAL_LOW_DEG || deg > CLI_USUAL_HIGH_DEG
                   ? "  (outside the usual 40-140 deg)"
@@ -113,6 +169,7 @@ int cli_cmd_solve(const cli_model *cm, const cli_options *o) {
   double *u = malloc(n * sizeof *u), *rates = malloc(n * sizeof *rates),
          *accels = malloc(n * sizeof *accels);
   kl_solver *s = kl_solver_new(cm->model);
+  number_style ns;
   char why[2048];
   FILE *f;
   int st;
@@ -145,7 +202,8 @@ int cli_cmd_solve(const cli_model *cm, const cli_options *o) {
     st = CLI_EXIT_OUTPUT;
     goto done;
   }
-  print_solution(f, cm, s, u, rates, accels);
+  style_of(cm, s, rates, accels, o->all_digits, &ns);
+  print_solution(f, cm, s, u, rates, accels, &ns);
   st = cli_close_output(f, o->output);
 done:
   kl_solver_free(s);

@@ -1,6 +1,5 @@
 /*
- * study.c - the study command: reads a design study (or the built-in demo
- * study), runs its samples on threads, prints the summary, writes the CSV.
+ * study.c - the study command: reads a design study, runs its samples on threads, prints the summary, writes the CSV.
  */
 #define _POSIX_C_SOURCE 200809L /* clock_gettime, isatty */
 #include <signal.h>
@@ -15,29 +14,11 @@
 
 #define SAMPLES_PER_THREAD 64  /* a chunk between progress reports */
 #define PROGRESS_AFTER_S 1.0   /* quicker studies finish before it helps */
-#define DEMO_LABEL "flap-tucker.study (built in)"
 
 static double seconds_now(void) {
   struct timespec t;
   clock_gettime(CLOCK_MONOTONIC, &t);
   return (double)t.tv_sec + 1e-9 * (double)t.tv_nsec;
-}
-
-/* The built-in demo study, read against the built-in demo model (which
- * its `model` line names). */
-static kl_study *read_demo(int *exit_code) {
-  kl_io_error err;
-  kl_model *m;
-  kl_study *st = NULL;
-  err.size = sizeof err;
-  m = kl_model_read((const char *)cli_demo_text, cli_demo_length, &err);
-  if (m != NULL)
-    st = kl_study_read((const char *)cli_demo_study_text,
-                       cli_demo_study_length, m, &err);
-  if (st == NULL)
-    *exit_code = study_read_failed("kinloop", DEMO_LABEL, &err);
-  kl_model_free(m); /* the study holds it */
-  return st;
 }
 
 /* The study, read and prepared (its nominal solved); NULL after saying
@@ -46,17 +27,12 @@ static kl_study *read_study(const char *path, int *exit_code) {
   kl_io_error err;
   kl_study *st;
   int status;
-  if (path == NULL) {
-    st = read_demo(exit_code);
-  } else {
-    err.size = sizeof err;
-    st = kl_study_read_file(path, &err);
-    if (st == NULL)
-      *exit_code = study_read_failed("kinloop", path, &err);
-  }
+  err.size = sizeof err;
+  st = kl_study_read_file(path, &err);
+  if (st == NULL)
+    *exit_code = study_read_failed("kinloop", path, &err);
   if (st != NULL && (status = kl_study_prepare(st)) != KL_OK) {
-    *exit_code = study_prepare_failed(
-        "kinloop", path != NULL ? path : DEMO_LABEL, st, status);
+    *exit_code = study_prepare_failed("kinloop", path, st, status);
     kl_study_free(st);
     st = NULL;
   }
@@ -134,8 +110,10 @@ static int write_csv(const cli_study_samples *s, const char *path) {
     cli_csv_field(f, name);
   }
   for (k = 0; k < nout; k++) {
+    char titled[300];
+    cli_study_output_titled(s->st, k, titled, sizeof titled);
     fputc(',', f);
-    cli_csv_field(f, kl_study_output_name(s->st, k));
+    cli_csv_field(f, titled);
   }
   fputc('\n', f);
   for (i = 0; i < s->n && !ferror(f); i++) {
@@ -159,7 +137,7 @@ int cli_cmd_study(const cli_options *o) {
   int exit_code = CLI_EXIT_OK, threads = study_threads(o->threads), nout, ndim;
   int want_dims = o->csv != NULL || o->charts != NULL, histograms, scatters;
   kl_study *st = read_study(o->model_path, &exit_code);
-  const char *label = o->model_path != NULL ? o->model_path : DEMO_LABEL;
+  const char *label = o->model_path;
   double *values = NULL, *dims = NULL, seconds;
   int *status = NULL;
   long n, planned;

@@ -16,6 +16,30 @@
 #define LIMIT_COLOUR CHART_ALARM
 #define NOMINAL_COLOUR "#6a6256"
 
+void cli_study_output_titled(const kl_study *st, int k, char *buf,
+                             size_t cap) {
+  int length_unit, angle_unit;
+  const char *len;
+  kl_model_units(kl_study_model(st), &length_unit, &angle_unit);
+  len = length_unit == KL_LENGTH_UNSTATED ? "len"
+                                          : kl_length_unit_str(length_unit);
+  switch (kl_study_output_quantity(st, k)) {
+  case KL_STUDY_ANGLE:
+    snprintf(buf, cap, "%s (%s)", kl_study_output_name(st, k),
+             kl_angle_unit_str(angle_unit));
+    break;
+  case KL_STUDY_FORCE: /* masses in kg, times in s (docs/studies.md) */
+    snprintf(buf, cap, "%s (kg %s/s^2)", kl_study_output_name(st, k), len);
+    break;
+  case KL_STUDY_TORQUE:
+    snprintf(buf, cap, "%s (kg %s^2/s^2)", kl_study_output_name(st, k), len);
+    break;
+  default:
+    snprintf(buf, cap, "%s (%s)", kl_study_output_name(st, k), len);
+    break;
+  }
+}
+
 int cli_study_has_value(const cli_study_samples *s, long i, int k) {
   return s->status[i] != KL_SAMPLE_NO_ASSEMBLY &&
          !isnan(s->values[i * kl_study_output_count(s->st) + k]);
@@ -188,7 +212,8 @@ static int write_histogram(const cli_study_samples *s, int k,
   if (sum->nominal >= ch.x.lo && sum->nominal <= ch.x.hi)
     chart_mark_x(f, &ch, sum->nominal, NOMINAL_COLOUR, text, 1, 1);
   mark_limits(f, &ch, sum, 1);
-  chart_axis_titles(f, &ch, name, "samples per bin");
+  cli_study_output_titled(s->st, k, text, sizeof text);
+  chart_axis_titles(f, &ch, text, "samples per bin");
   svg_end(f);
   return cli_close_output(f, path);
 }
@@ -294,7 +319,11 @@ static int write_scatter(const cli_study_samples *s, int k, int d,
   snprintf(text, sizeof text, "%.200s (%s)", dim,
            length_unit == KL_LENGTH_UNSTATED ? "len"
                                              : kl_length_unit_str(length_unit));
-  chart_axis_titles(f, &ch, text, name);
+  {
+    char y_title[300];
+    cli_study_output_titled(s->st, k, y_title, sizeof y_title);
+    chart_axis_titles(f, &ch, text, y_title);
+  }
   svg_end(f);
   return cli_close_output(f, path);
 }

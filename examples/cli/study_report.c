@@ -48,9 +48,11 @@ int study_exit_code(int status) {
   }
 }
 
-/* A value with 8 significant digits; "-" where there is none. */
+/* A value with 8 significant digits; "-" where there is none (NaN, or
+ * the infinite extremes of an empty set), so that an empty summary reads
+ * "-" throughout. */
 static const char *number(char *buf, size_t cap, double v) {
-  if (isnan(v))
+  if (!isfinite(v))
     snprintf(buf, cap, "-");
   else
     snprintf(buf, cap, "%.8g", v);

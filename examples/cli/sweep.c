@@ -3,6 +3,7 @@
  * quantity in the model's units, rates per second at the given speed, and
  * (--forces) the force columns of forces.c.
  */
+#include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -13,7 +14,9 @@ typedef struct {
   int ncols;
   const cli_column *cols;
   const double *factor;
+  const double *resolution; /* raw values below it print as 0 */
   const char *format;
+  int nonfinite; /* the column of a value too large to print, or -1 */
   const cli_model *cm;
   const cli_cycle *cycle; /* the forces at each step, or NULL */
 } csv_sink;
@@ -37,9 +40,15 @@ static int put_row(void *user, int step, const double *row) {
   csv_sink *k = user;
   int i;
   for (i = 0; i < k->ncols; i++) {
+    double raw = row[k->cols[i].at],
+           v = fabs(raw) < k->resolution[i] ? 0.0 : raw * k->factor[i];
+    if (!isfinite(v)) {
+      k->nonfinite = i;
+      return 1; /* no file gets an inf or a nan */
+    }
     if (i > 0)
       fputc(',', k->f);
-    fprintf(k->f, k->format, row[k->cols[i].at] * k->factor[i]);
+    fprintf(k->f, k->format, v);
   }
   if (k->cycle != NULL && step < k->cycle->rows)
     cli_cycle_csv_row(k->f, k->cm, k->cycle, step, k->format);
@@ -50,7 +59,7 @@ static int put_row(void *user, int step, const double *row) {
 int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
   cli_range r;
   cli_column *cols;
-  double *factor;
+  double *factor, *resolution;
   kl_solver *s;
   kl_sweep_result res;
   csv_sink sink;
@@ -72,15 +81,18 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
   sink.ncols = cli_column_count(cm);
   cols = malloc((size_t)sink.ncols * sizeof *cols);
   factor = malloc((size_t)sink.ncols * sizeof *factor);
-  s = kl_solver_new(cm->model);
-  if (cols == NULL || factor == NULL || s == NULL) {
+  resolution = malloc((size_t)sink.ncols * sizeof *resolution);
+  s = cli_solver_new(cm, o);
+  if (cols == NULL || factor == NULL || resolution == NULL || s == NULL) {
     cli_error("out of memory");
     st = CLI_EXIT_MEMORY;
     goto done;
   }
   cli_columns(cm, r.input, cols);
-  for (i = 0; i < sink.ncols; i++)
+  for (i = 0; i < sink.ncols; i++) {
     factor[i] = cli_column_factor(cm, r.input, &cols[i], speed);
+    resolution[i] = cli_column_resolution(cm, &cols[i]);
+  }
   if ((st = cli_reach_start(s, cm, o, &r)) != CLI_EXIT_OK)
     goto done;
   if ((sink.f = cli_open_output(o->output)) == NULL) {
@@ -102,22 +114,35 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
   sink.cycle = o->forces ? &cycle : NULL;
   sink.cols = cols;
   sink.factor = factor;
+  sink.resolution = resolution;
+  sink.nonfinite = -1;
   sink.format = o->all_digits ? "%.17g" : "%.6g";
   st = cli_record(s, cm, &r, put_row, &sink, &res);
-  i = cli_close_output(sink.f, o->output);
   if (st == KL_ENOMEM) {
     cli_error("out of memory");
     st = CLI_EXIT_MEMORY;
-  } else if (i != CLI_EXIT_OK || st == KL_STOPPED) {
+  } else if (sink.nonfinite >= 0) {
+    cli_error("the column '%s' overflows the numbers a file can hold at "
+              "--speed %g; nothing written (give a smaller --speed)",
+              cols[sink.nonfinite].name, speed);
+    st = CLI_EXIT_SOLVE;
+  } else if (st == KL_STOPPED) {
+    cli_error("writing '%s' failed", o->output == NULL ? "standard output"
+                                                       : o->output);
     st = CLI_EXIT_OUTPUT;
   } else {
     st = cli_sweep_told(cm, s, &r, &res, st, "the sweep",
                         "the rows before it are written");
   }
+  if (st == CLI_EXIT_OK)
+    st = cli_close_output(sink.f, o->output);
+  else
+    cli_abandon_output(sink.f);
 done:
   kl_solver_free(s);
   free(cols);
   free(factor);
+  free(resolution);
   cli_cycle_free(&cycle);
   return st;
 }

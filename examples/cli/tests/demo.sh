@@ -51,7 +51,8 @@ expect_text err.txt "cannot make the folder 'other/place'"
 mkdir other
 expect_status 0 "$KINLOOP" demo --dir other/place
 [ -s other/place/mechanism.svg ] || fail "demo --dir wrote no drawing"
-# with a command but no model file, a command works on the demo
-expect_status 0 "$KINLOOP" check
-expect_text out.txt "model flap-tucker.kinloop"
+# the demo writes its study beside its model
+expect_text other/place/flap-tucker.study "kinloop-study 1"
+# a second demo run replaces its own model file
+expect_status 0 "$KINLOOP" demo --dir other/place
 finish

@@ -2,9 +2,10 @@
 # cli_exit_codes: each kind of failure has its own exit status and a
 # message that says what to do: 2 usage, 3 model (with line:column for a
 # syntax error), 4 solve, 5 output file; 0 for help.
-# usage: exit_codes.sh TOOL
+# usage: exit_codes.sh TOOL DEMO_MODEL
 set -eu
 KINLOOP=$1
+DEMO=$2
 . "$(dirname "$0")/lib.sh"
 
 # help and version
@@ -26,26 +27,26 @@ expect_status 2 "$KINLOOP" bogus
 expect_text err.txt "unknown command 'bogus'"
 expect_status 2 "$KINLOOP" model.kinloop
 expect_text err.txt "try kinloop check FILE"
-expect_status 2 "$KINLOOP" check --frm 3
+expect_status 2 "$KINLOOP" check "$DEMO" --frm 3
 expect_text err.txt "unknown option '--frm'"
-expect_status 2 "$KINLOOP" solve --speed 3
+expect_status 2 "$KINLOOP" solve "$DEMO" --speed 3
 expect_text err.txt "takes no option '--speed'"
-expect_status 2 "$KINLOOP" sweep --steps 0
-expect_status 2 "$KINLOOP" sweep --from abc
-expect_status 2 "$KINLOOP" sweep --from
+expect_status 2 "$KINLOOP" sweep "$DEMO" --steps 0
+expect_status 2 "$KINLOOP" sweep "$DEMO" --from abc
+expect_status 2 "$KINLOOP" sweep "$DEMO" --from
 expect_text err.txt "needs a value"
-expect_status 2 "$KINLOOP" solve --at 1,2
+expect_status 2 "$KINLOOP" solve "$DEMO" --at 1,2
 expect_text err.txt "1 input"
-expect_status 2 "$KINLOOP" solve --at x
-expect_status 2 "$KINLOOP" plot
+expect_status 2 "$KINLOOP" solve "$DEMO" --at x
+expect_status 2 "$KINLOOP" plot "$DEMO"
 expect_text err.txt "slide:rail"
-expect_status 2 "$KINLOOP" plot --show angle:nothing
-expect_status 2 "$KINLOOP" plot --show transmission:rocker_pin --order 1
-expect_status 2 "$KINLOOP" plot --show angle:rocker --show slide:rail
+expect_status 2 "$KINLOOP" plot "$DEMO" --show angle:nothing
+expect_status 2 "$KINLOOP" plot "$DEMO" --show transmission:rocker_pin --order 1
+expect_status 2 "$KINLOOP" plot "$DEMO" --show angle:rocker --show slide:rail
 expect_text err.txt "one unit"
-expect_status 2 "$KINLOOP" sweep --input drive
-expect_text err.txt "0 (motor)"
-expect_status 2 "$KINLOOP" sweep --from 10 --to 10
+expect_status 2 "$KINLOOP" sweep "$DEMO" --input drive
+expect_text err.txt "1 (motor)"
+expect_status 2 "$KINLOOP" sweep "$DEMO" --from 10 --to 10
 expect_status 2 "$KINLOOP" check a.kinloop b.kinloop
 expect_status 2 "$KINLOOP" demo a.kinloop
 
@@ -82,7 +83,7 @@ expect_status 4 "$KINLOOP" solve rocker2.kinloop --at 90
 expect_text err.txt "the motion stops at motor 82.8"
 expect_status 4 "$KINLOOP" solve rocker2.kinloop --at 10
 expect_text err.txt "the motion stops at motor 36.8"
-expect_status 4 "$KINLOOP" draw rocker2.kinloop --at 100
+expect_status 4 "$KINLOOP" draw rocker2.kinloop --pose 100
 # check reports the limit as a warning and exits 0
 expect_status 0 "$KINLOOP" check rocker2.kinloop
 expect_text out.txt "the motion stops at motor 82.8"
@@ -93,14 +94,14 @@ expect_status 4 "$KINLOOP" sweep rocker2.kinloop --from 20 --to 60
 expect_text err.txt "cannot reach motor 20 deg"
 
 # 5: output files
-expect_status 5 "$KINLOOP" sweep -o no-such-folder/out.csv
+expect_status 5 "$KINLOOP" sweep "$DEMO" -o no-such-folder/out.csv
 expect_text err.txt "cannot write 'no-such-folder/out.csv'"
-expect_status 5 "$KINLOOP" draw -o no-such-folder/out.svg
-expect_status 5 "$KINLOOP" write -o no-such-folder/out.kinloop
+expect_status 5 "$KINLOOP" draw "$DEMO" -o no-such-folder/out.svg
+expect_status 5 "$KINLOOP" write "$DEMO" -o no-such-folder/out.kinloop
 touch blocker
 expect_status 5 "$KINLOOP" demo --dir blocker
 expect_text err.txt "a file of that name is in the way"
 if [ -w /dev/full ]; then
-  expect_status 5 "$KINLOOP" sweep --steps 2000 -o /dev/full
+  expect_status 5 "$KINLOOP" sweep "$DEMO" --steps 2000 -o /dev/full
 fi
 finish

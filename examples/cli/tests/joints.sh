@@ -13,7 +13,7 @@ MODEL=$3
 expect_status 0 "$KINLOOP" draw "$MODEL" -o default.svg
 expect_status 0 "$CHECK" "$MODEL" default.svg 4
 cat out.txt err.txt >&2
-expect_status 0 "$KINLOOP" draw "$MODEL" --at 33.3 --at 181 --at 400 -o at.svg
+expect_status 0 "$KINLOOP" draw "$MODEL" --pose 33.3 --pose 181 --pose 400 -o at.svg
 expect_status 0 "$CHECK" "$MODEL" at.svg 3
 cat out.txt err.txt >&2
 

@@ -9,7 +9,7 @@ KINLOOP=$1
 MODEL=$2
 . "$(dirname "$0")/lib.sh"
 
-expect_status 0 "$KINLOOP" write -o demo.kinloop
+expect_status 0 "$KINLOOP" write "$MODEL" -o demo.kinloop
 expect_status 0 "$KINLOOP" write "$MODEL" -o from-file.kinloop
 cmp -s demo.kinloop from-file.kinloop ||
   fail "the demo and $MODEL write differently"

@@ -21,5 +21,5 @@ cmp -s one.csv two.csv || fail "the CSV on one and two threads differ"
 [ "$(wc -l <one.csv)" -eq 251 ] || fail "one.csv: not a header and 250 rows"
 head -n 1 one.csv >header.txt
 expect_text header.txt \
-  'sample,status,crank_pin a x (mm),rocker_pin b x (mm),pivot b y (mm),tucker tip y (mm),stroke,mu_min,tip_low,reach'
+  'sample,status,crank_pin a x (mm),rocker_pin b x (mm),pivot b y (mm),tucker tip y (mm),stroke (mm),mu_min (deg),tip_low (mm),reach (deg)'
 finish

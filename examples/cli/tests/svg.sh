@@ -4,20 +4,21 @@
 # from Debian's librsvg2-bin): the demo's files, drawings and plots of the
 # demo with every option, of a model with awkward names, and of a motion
 # that stops at a limit.
-# usage: svg.sh TOOL
+# usage: svg.sh TOOL DEMO_MODEL
 set -eu
 KINLOOP=$1
+DEMO=$2
 . "$(dirname "$0")/lib.sh"
 
 expect_status 0 "$KINLOOP"
-expect_status 0 "$KINLOOP" draw -o draw-default.svg
-expect_status 0 "$KINLOOP" draw --at 10 --at 100 --at 250 -o draw-at.svg
-expect_status 0 "$KINLOOP" draw --poses 1 --no-paths -o draw-bare.svg
-expect_status 0 "$KINLOOP" draw --from 30 --to 120 --steps 9 -o draw-part.svg
-expect_status 0 "$KINLOOP" plot --show angle:coupler --show angle:rocker \
+expect_status 0 "$KINLOOP" draw "$DEMO" -o draw-default.svg
+expect_status 0 "$KINLOOP" draw "$DEMO" --pose 10 --pose 100 --pose 250 -o draw-at.svg
+expect_status 0 "$KINLOOP" draw "$DEMO" --poses 1 --no-paths -o draw-bare.svg
+expect_status 0 "$KINLOOP" draw "$DEMO" --from 30 --to 120 --steps 9 -o draw-part.svg
+expect_status 0 "$KINLOOP" plot "$DEMO" --show angle:coupler --show angle:rocker \
   -o plot-two.svg
-expect_status 0 "$KINLOOP" plot --show "y:tucker tip" --order 2 -o plot-acc.svg
-expect_status 0 "$KINLOOP" plot --show transmission:rocker_pin --from 90 \
+expect_status 0 "$KINLOOP" plot "$DEMO" --show "y:tucker tip" --order 2 -o plot-acc.svg
+expect_status 0 "$KINLOOP" plot "$DEMO" --show transmission:rocker_pin --from 90 \
   --to -90 -o plot-backwards.svg
 
 # names that need escaping in XML, and UTF-8 (geometry chosen for this
