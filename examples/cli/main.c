@@ -255,7 +255,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     /* forces */
     cli_forces_help,
     /* reach */
-    "usage: kinloop reach [MODEL] --point POINT [OPTIONS]\n"
+    "usage: kinloop reach MODEL --point POINT [OPTIONS]\n"
     "\n"
     "Traces the workspace of POINT (by name, an unnamed one as @id) for a\n"
     "model with two turning inputs, each over whole turns: every position the\n"

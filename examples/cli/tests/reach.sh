@@ -4,9 +4,10 @@
 # (the intersection of two annuli, derived in tests/test_workspace.c: the
 # lens two crossing disks share, less the two holes, common practice, no
 # source), and bad input has its own exit status and message.
-# usage: reach.sh TOOL
+# usage: reach.sh TOOL DEMO_MODEL
 set -eu
 KINLOOP=$1
+DEMO_MODEL=$2
 . "$(dirname "$0")/lib.sh"
 
 # geometry chosen for this test: cranks 100 and 80 mm about (0, 0) and
@@ -61,7 +62,7 @@ expect_text err.txt "--point"
 expect_status 2 "$KINLOOP" reach fivebar.kinloop --point nib
 expect_text err.txt "no point 'nib'"
 expect_status 2 "$KINLOOP" reach fivebar.kinloop --point pen --grid 2
-expect_status 3 "$KINLOOP" reach --point "tucker tip"
+expect_status 3 "$KINLOOP" reach "$DEMO_MODEL" --point "tucker tip"
 expect_text err.txt "two inputs"
 sed 's/^point pen "left arm" 150 0$/point post ground 10 10/' fivebar.kinloop \
   >post.kinloop
