@@ -660,8 +660,10 @@ enum kl_kernel {
   KL_KERNEL_AUTO = 0,   /**< choose by size and structure (the default) */
   KL_KERNEL_SMALL = 1,  /**< built-in LU with partial pivoting, for a few unknowns */
   KL_KERNEL_DENSE = 2,  /**< LAPACK's dense LU */
-  KL_KERNEL_BANDED = 3  /**< LAPACK's banded LU after a band-reducing ordering
-                             (docs/theory.md says how each kernel works) */
+  KL_KERNEL_BANDED = 3  /**< banded LU in LAPACK's band storage, with the
+                             results of its dgbtrf, after a band-reducing
+                             ordering (docs/theory.md says how each kernel
+                             works) */
 };
 
 /**
