@@ -14,9 +14,6 @@
 #define KLI_SAME_ANGLE 1e-12
 /* Refined extremes stop when the bracket is this narrow (input units). */
 #define KLI_EXTREME_BRACKET 1e-13
-/* Where a sweep stopped at a limit, the last value is taken this far
- * inside it (the limit is located to 1e-11). */
-#define KLI_LIMIT_INSIDE 1e-10
 
 /* ---- outputs ---- */
 

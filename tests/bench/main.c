@@ -45,7 +45,8 @@ int main(int argc, char **argv) {
   chain_figures chains = {0};
   thread_figures threads = {0};
   force_figures forces = {0};
-  target targets[7];
+  check_figures checks = {0};
+  target targets[8];
   size_t i;
   int arg;
   for (arg = 1; arg < argc; arg++) {
@@ -66,6 +67,8 @@ int main(int argc, char **argv) {
   bench_threads(stdout, &plan, &fourbar, &threads);
   fflush(stdout);
   bench_forces(stdout, &plan, &forces);
+  fflush(stdout);
+  bench_check(stdout, &plan, &checks);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -110,6 +113,12 @@ int main(int argc, char **argv) {
   targets[6].at_most = 1;
   targets[6].valid = forces.valid;
   targets[6].unit = "";
+  targets[7].what = "kinloop check <= 10x one kinloop sweep at N = 500";
+  targets[7].measured = checks.check_over_sweep_500;
+  targets[7].limit = 10.0;
+  targets[7].at_most = 1;
+  targets[7].valid = checks.valid;
+  targets[7].unit = "x";
   printf("\n== targets (ratios measured in this run%s) ==\n",
          plan.quick ? "; QUICK MODE: single samples, not for reporting" : "");
   printf("%-62s %10s  %s\n", "target", "measured", "verdict");
