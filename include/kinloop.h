@@ -1412,8 +1412,10 @@ typedef struct kl_range {
   double max;          /**< the largest value found */
   double input_at_min; /**< input value where the minimum occurs */
   double input_at_max; /**< input value where the maximum occurs */
-  int sweep_status;    /**< how the sweep ended (KL_OK or KL_LIMIT) */
-  double limit_input;  /**< with KL_LIMIT: where the motion stopped */
+  int sweep_status;    /**< how the sweep ended (KL_OK, KL_LIMIT, or
+                            KL_ESINGULAR from kl_output_range) */
+  double limit_input;  /**< with KL_LIMIT: where the motion stopped; with
+                            KL_ESINGULAR: the change point */
 } kl_range;
 
 /**
@@ -1426,7 +1428,11 @@ typedef struct kl_range {
  * On success the solver is left at the end of the sweep; a failure leaves it
  * exactly as it was (coefficients included). Returns KL_OK or KL_LIMIT (the
  * range is what was reachable), or the statuses of kl_solver_sweep and
- * kl_output_value. Never allocates.
+ * kl_output_value. With KL_ESINGULAR, a change point met on the way after
+ * the first step, `range` still receives the extremes of the part swept
+ * before it, sweep_status KL_ESINGULAR and limit_input the change point's
+ * location (the solver goes back as for any failure); on other failures
+ * `range` is not written. Never allocates.
  */
 KL_API int kl_output_range(kl_solver *s, int input, double from, double to,
                            int steps, const kl_output *o, kl_range *range);
@@ -1467,6 +1473,36 @@ KL_API int kl_output_ranges(kl_solver *s, int input, double from, double to,
  * modulo 2 pi), KL_ENONFINITE.
  */
 KL_API int kl_range_time_ratio(const kl_range *range, double *ratio);
+
+/* ---- Issue 14: the time ratio by the trade's quick-return convention ---- */
+
+/** Which stroke of an output between its extremes takes the longer part of
+ * the input's turn (kl_range_quick_return). */
+enum kl_stroke {
+  KL_STROKE_EQUAL = 0,   /**< both take half a turn (within 1e-12 rad) */
+  KL_STROKE_RISING = 1,  /**< from the minimum to the maximum */
+  KL_STROKE_FALLING = 2  /**< from the maximum back to the minimum */
+};
+
+/**
+ * Time ratio of a quick-return mechanism as the trade states it (common
+ * practice, no source): the slower stroke's time over the faster's, so
+ * >= 1, for a crank turning in the positive sense at constant speed. With
+ * the output's extremes at crank angles input_at_min and input_at_max
+ * (kl_output_range over one full turn), the rising stroke takes A, the
+ * angle from minimum to maximum in (0, 2 pi), the falling stroke 2 pi - A;
+ * the ratio is the larger over the smaller. *slower says which stroke is
+ * the slower (enum kl_stroke) and *slower_angle its crank angle (rad);
+ * either may be NULL. kl_range_time_ratio gives the rising stroke over the
+ * falling one, which may be below 1. Returns KL_OK, KL_EINVAL (NULL range
+ * or ratio, or equal angles modulo 2 pi), KL_ENONFINITE.
+ */
+KL_API int kl_range_quick_return(const kl_range *range, double *ratio,
+                                 int *slower, double *slower_angle);
+
+/** "rising", "falling", "equal" for an enum kl_stroke; "not a stroke"
+ * otherwise. */
+KL_API const char *kl_stroke_str(int stroke);
 
 /**
  * Mechanical advantage of an ideal (frictionless, massless) linkage: output

@@ -356,6 +356,37 @@ START_TEST(stroke_and_time_ratio_match_the_dead_centres) {
                 "time ratio %.15g, closed form %.15g", ratio,
                 out / (2 * PI - out));
 
+  /* the trade's convention: slower stroke over faster, >= 1; with this
+   * offset the block returns (max to min) through 2 pi - A > pi, so the
+   * return is the slower stroke and the raw ratio above is below 1 */
+  {
+    double quick, angle;
+    int slower;
+    ck_assert_double_lt(ratio, 1.0);
+    ck_assert_int_eq(kl_range_quick_return(&range, &quick, &slower, &angle),
+                     KL_OK);
+    ck_assert_msg(fabs(quick - (2 * PI - out) / out) <= 1e-9,
+                  "quick return %.15g, closed form %.15g", quick,
+                  (2 * PI - out) / out);
+    ck_assert_int_eq(slower, KL_STROKE_FALLING);
+    ck_assert_double_le(fabs(angle - (2 * PI - out)), 1e-9);
+    ck_assert_str_eq(kl_stroke_str(slower), "falling");
+    ck_assert_int_eq(kl_range_quick_return(&range, &quick, NULL, NULL), KL_OK);
+    ck_assert_int_eq(kl_range_quick_return(&range, NULL, NULL, NULL),
+                     KL_EINVAL);
+    wrong = range;
+    wrong.input_at_max = wrong.input_at_min + PI;
+    ck_assert_int_eq(kl_range_quick_return(&wrong, &quick, &slower, NULL),
+                     KL_OK);
+    ck_assert_int_eq(slower, KL_STROKE_EQUAL);
+    ck_assert_double_le(fabs(quick - 1.0), 1e-12);
+    wrong.input_at_max = wrong.input_at_min + 4.0;
+    ck_assert_int_eq(kl_range_quick_return(&wrong, &quick, &slower, NULL),
+                     KL_OK);
+    ck_assert_int_eq(slower, KL_STROKE_RISING);
+    ck_assert_double_le(fabs(quick - 4.0 / (2 * PI - 4.0)), 1e-12);
+  }
+
   /* bad ranges */
   ratio = -7.0;
   ck_assert_int_eq(kl_range_time_ratio(NULL, &ratio), KL_EINVAL);
@@ -584,10 +615,22 @@ START_TEST(failed_range_changes_nothing) {
   ck_assert_int_eq(kl_solve_acceleration(s, &a), KL_OK);
   ck_assert_int_eq(kl_solve_coefficients(s), KL_OK);
   before = snap(s);
+  r.min = r.max = NAN;
   ck_assert_int_eq(kl_output_range(s, 0, 0.3, -0.3, 6, &o, &r),
                    KL_ESINGULAR);
   after = snap(s);
   assert_same_state(&before, &after, "kl_output_range at a change point");
+  /* the range swept before the change point is kept, with its location:
+   * the parallel branch's output angle equals the input angle (common
+   * practice, no source), the change point is at input 0 */
+  ck_assert_int_eq(r.sweep_status, KL_ESINGULAR);
+  ck_assert_msg(fabs(r.limit_input) <= 1e-9, "change point at %.15g",
+                r.limit_input);
+  ck_assert_double_le(fabs(r.max - 0.3), 1e-9);
+  ck_assert_double_le(fabs(r.input_at_max - 0.3), 1e-12);
+  ck_assert_double_le(fabs(r.min - r.input_at_min), 1e-9);
+  ck_assert(r.input_at_min >= 0.0 && r.input_at_min < 0.3);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "change point"));
   ck_assert_double_eq(kl_link_rate(s, f.crank), 7.0);
   kl_solver_free(s);
   kl_model_free(f.m);

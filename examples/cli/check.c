@@ -168,6 +168,26 @@ static int rcond_row(void *user, int step, const double *row) {
   return 0;
 }
 
+/* "; time ratio 1.36 (slower: the rise to the maximum, over 208 deg of
+ * motor)": the quick-return ratio as the trade states it, slower stroke
+ * over faster, and which stroke is the slower. */
+static void print_time_ratio(FILE *f, const cli_model *cm, int input,
+                             const kl_range *range) {
+  double ratio, angle;
+  int slower;
+  if (kl_range_quick_return(range, &ratio, &slower, &angle) != KL_OK)
+    return;
+  fprintf(f, "; time ratio %.4f", ratio);
+  if (slower == KL_STROKE_EQUAL)
+    fprintf(f, " (both strokes take half a turn)");
+  else
+    fprintf(f, " (slower: the %s, over %.6g %s of %s)",
+            slower == KL_STROKE_RISING ? "rise to the maximum"
+                                       : "return to the minimum",
+            angle * cli_input_factor(cm, input), cli_input_unit(cm, input),
+            cli_input_name(cm, input));
+}
+
 /* "at motor 35.2 and 222 deg": where a range has its two extremes. */
 static void at_pair(const cli_model *cm, int input, double a, double b,
                     char *buf, size_t cap) {
@@ -203,7 +223,6 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
   for (j = 0; j < cm->njoints; j++) {
     const kl_range *range;
     int link;
-    double ratio;
     if (pivot_of[j] < 0)
       continue;
     range = &ranges[pivot_of[j]];
@@ -218,14 +237,13 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     fprintf(f, LABEL "swings about %s from %.6g to %.6g %s, %s",
             cm->link_names[link], cm->joint_names[j], range->min * k,
             range->max * k, cm->angle_unit, both);
-    if (full_turn && kl_range_time_ratio(range, &ratio) == KL_OK)
-      fprintf(f, "; time ratio %.4f", ratio);
+    if (full_turn)
+      print_time_ratio(f, cm, r->input, range);
     fputc('\n', f);
   }
   at = n - cm->nsites - cm->nslides;
   for (i = 0; i < cm->nslides; i++) {
     const kl_range *range = &ranges[at + i];
-    double ratio;
     if (is_input_joint(cm, cm->slides[i]))
       continue;
     at_pair(cm, r->input, range->input_at_min, range->input_at_max, both,
@@ -233,8 +251,8 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     fprintf(f, LABEL "stroke %.6g %s, from %.6g to %.6g %s, %s",
             cm->joint_names[cm->slides[i]], range->max - range->min,
             cm->length_unit, range->min, range->max, cm->length_unit, both);
-    if (full_turn && kl_range_time_ratio(range, &ratio) == KL_OK)
-      fprintf(f, "; time ratio %.4f", ratio);
+    if (full_turn)
+      print_time_ratio(f, cm, r->input, range);
     fputc('\n', f);
   }
   at = n - cm->nsites;
