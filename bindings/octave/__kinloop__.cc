@@ -658,6 +658,31 @@ octave_map peak_list(const std::vector<kl_cycle_peak> &peaks, int n) {
   return out;
 }
 
+/* kl_output_ranges: (solver, input, from, to, steps, outputs), outputs a
+ * struct array of kl_output; a struct array of kl_range, one per output. */
+octave_value_list cmd_output_ranges(const call &c) {
+  entry &s = c.solver(0);
+  int input = c.whole<int>(c.arg(1), "input");
+  double from = c.real(c.arg(2), "from");
+  double to = c.real(c.arg(3), "to");
+  int steps = c.whole<int>(c.arg(4), "steps");
+  octave_map list = c.struct_list(5, "outputs");
+  std::vector<kl_output> outs(static_cast<size_t>(list.numel()), kl_output());
+  for (octave_idx_type k = 0; k < list.numel(); k++)
+    from_octave(c, list, k, "outputs", outs[static_cast<size_t>(k)], false);
+  int n = c.count(outs.size(), "outputs");
+  kl_range blank = kl_range();
+  blank.size = sizeof blank;
+  std::vector<kl_range> ranges(outs.size() > 0 ? outs.size() : 1, blank);
+  c.check(kl_output_ranges(s.solver, input, from, to, steps, n,
+                           outs.empty() ? nullptr : outs.data(), ranges.data()),
+          kl_solver_error(s.solver));
+  octave_map out(dim_vector(1, n));
+  for (int k = 0; k < n; k++)
+    out.assign(k, to_octave(ranges[static_cast<size_t>(k)]));
+  return one(octave_value(out));
+}
+
 /* [summary, input_peaks, joint_peaks] of kl_cycle_summarize. */
 octave_value_list cmd_cycle_summarize(const call &c) {
   entry &s = c.solver(0);
@@ -878,6 +903,7 @@ const command hand_commands[] = {
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
+    {"output_ranges", 6, 6, "(solver, input, from, to, steps, outputs)", cmd_output_ranges},
     {"cycle_summarize", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_summarize},
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
     {"study_read", 2, 2, "(text, model)", cmd_study_read},
