@@ -1441,9 +1441,9 @@ KL_API int kl_output_range(kl_solver *s, int input, double from, double to,
 
 /**
  * Extremes of `n` outputs while input `input` sweeps from `from` to `to` in
- * `steps` steps (as kl_solver_sweep), from one sweep: its cost is about
- * that of 4 sweeps at most, whatever n (calling
- * kl_output_range per output costs a sweep each). Where any output's slope
+ * `steps` steps (as kl_solver_sweep), from one sweep: its cost stays
+ * within about five sweeps whatever n (docs/performance.md section 8),
+ * where calling kl_output_range per output costs a sweep or more each. Where any output's slope
  * changes sign between two steps, the positions at three interior points of
  * that step (Chebyshev-Lobatto spacing) are solved once, and each output
  * turning there is refined to 1e-13 of the step on the Hermite interpolant

@@ -145,6 +145,13 @@ static void refine_step(ranges_search *r, double a, double b) {
   for (k = 1; k + 1 < KLI_RANGE_NODES; k++) {
     double u = a + (b - a) * 0.5 *
                        (1.0 - cos(KLI_PI * k / (KLI_RANGE_NODES - 1)));
+    double delta = u - w->sweep_u[r->input];
+    int c;
+    /* predicted from the last solved point's unit-rate velocity, as the
+     * sweep predicts its steps, so that Newton needs a step or two */
+    for (c = 0; c < w->ncoords; c++)
+      w->st.pose.x[c] += w->st.xd[c] * delta;
+    w->factors_current = w->factors_near = 0;
     w->sweep_u[r->input] = u;
     if (kl_solve_position(w, w->sweep_u) != KL_OK ||
         kl_solve_velocity(w, w->sweep_rate) != KL_OK)
