@@ -1605,8 +1605,10 @@ KL_API int kl_model_loop_fourbar(const kl_model *m, int loop,
  * neighbours in that loop's walk (line_a the one on the joint's link a), so
  * that for a four-bar the site is the coupler-output pin, with lines to the
  * input pin and the output's ground pivot. A joint on a link that a
- * revolute input turns from ground, or with a line of no length, is no site
- * (kl_model_transmission_skips says which and why). Writes up to `cap`
+ * revolute input turns from ground, with a line of no length, or inside a
+ * rigid triangle of revolute joints (a ternary link built of three bars,
+ * where no link drives another) is no site (kl_model_transmission_skips
+ * says which and why). Writes up to `cap`
  * outputs of kind KL_OUTPUT_TRANSMISSION into `sites` (may be NULL when cap
  * is 0), for kl_output_value and kl_output_range, and returns how many
  * sites there are (which may exceed cap), or KL_ESTATE (not finalized),
@@ -1621,10 +1623,16 @@ enum kl_transmission_skip_reason {
                                              revolute input, so the angle
                                              says nothing of how force gets
                                              through */
-  KL_TRANSMISSION_SKIP_NO_LINE = 2      /**< on `link`, the neighbour in the
+  KL_TRANSMISSION_SKIP_NO_LINE = 2,     /**< on `link`, the neighbour in the
                                              loop stands at the joint's own
                                              point (within 1e-12 of the
                                              scale): no line to measure */
+  KL_TRANSMISSION_SKIP_RIGID = 3        /**< the joint's two links and `link`
+                                             are joined pairwise by revolute
+                                             joints: a rigid triangle, one
+                                             ternary link built of three
+                                             bars, whose pins never turn, so
+                                             no link drives another there */
 };
 
 /** A joint the transmission-angle rule meets but does not measure. */

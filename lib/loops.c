@@ -167,6 +167,34 @@ static void skip(kli_topology *t, int joint, int loop, int link, int reason) {
   k->reason = reason;
 }
 
+/* Bit of a link's scratch mark: a revolute neighbour of the link under
+ * test (bit 0 is "turned by a revolute input from ground"). */
+#define KLI_NEIGHBOUR 2
+
+/*
+ * A third link that closes a triangle of revolute joints with links a and
+ * b (a joint to each), or -1: the three then form one rigid ternary link,
+ * and the pin between a and b never turns. Linear in the joints.
+ */
+static int rigid_triangle(const kl_model *m, int a, int b, int *link_mark) {
+  int i, third = -1;
+  for (i = 0; i < m->njoints; i++) {
+    const kli_joint *j = &m->joints[i];
+    if (j->kind == KL_JOINT_REVOLUTE && (j->link[0] == a || j->link[1] == a))
+      link_mark[j->link[0] == a ? j->link[1] : j->link[0]] |= KLI_NEIGHBOUR;
+  }
+  for (i = 0; i < m->njoints && third < 0; i++) {
+    const kli_joint *j = &m->joints[i];
+    int other = j->link[0] == b ? j->link[1] : j->link[0];
+    if (j->kind == KL_JOINT_REVOLUTE && (j->link[0] == b || j->link[1] == b) &&
+        other != a && (link_mark[other] & KLI_NEIGHBOUR))
+      third = other;
+  }
+  for (i = 0; i < m->nlinks; i++)
+    link_mark[i] &= ~KLI_NEIGHBOUR;
+  return third;
+}
+
 /*
  * The rule: walking the loops in order, each revolute joint that is on
  * neither ground nor an input, where a loop first meets it, measured
@@ -205,6 +233,12 @@ void kli_find_transmissions(const kl_model *m, kli_topology *t,
           j->link[1] == KL_GROUND || mark[joint] != KLI_PLAIN)
         continue;
       mark[joint] = KLI_DONE;
+      /* a pin inside a rigid triangle joins lines of one ternary link:
+       * no link drives another through it */
+      if ((side = rigid_triangle(m, j->link[0], j->link[1], crank)) >= 0) {
+        skip(t, joint, loop, side, KL_TRANSMISSION_SKIP_RIGID);
+        continue;
+      }
       /* the walk arrives from prev over the link before this joint: that
        * line lies on it */
       if (after[(k + n - 1) % n] != j->link[0]) {
@@ -212,7 +246,7 @@ void kli_find_transmissions(const kl_model *m, kli_topology *t,
         prev = next;
         next = swap;
       }
-      for (side = 0; side < 2 && !crank[j->link[side]]; side++)
+      for (side = 0; side < 2 && !(crank[j->link[side]] & 1); side++)
         ;
       if (side < 2) {
         skip(t, joint, loop, j->link[side], KL_TRANSMISSION_SKIP_INPUT_CRANK);

@@ -279,6 +279,52 @@ START_TEST(six_bars_cover_each_joint_once) {
 }
 END_TEST
 
+/* A four-bar whose coupler is a ternary link built of three bars pinned in
+ * a triangle (t1 from the crank pin to the rocker pin, t2 from the rocker
+ * pin to the apex, t3 from the apex back to t1; geometry chosen for this
+ * test; the rocker pinned 20 along t2): the triangle's pins never turn (a triangle of bars is rigid,
+ * Gruebler's count 3 (3 - 1) - 2 3 = 0), so they are no sites; the pin
+ * where the coupler drives the rocker still is one. */
+START_TEST(rigid_triangle_pins_are_no_sites) {
+  kl_model *m = kl_model_new();
+  int crank = kl_add_link(m, "crank"), t1 = kl_add_link(m, "t1");
+  int t2 = kl_add_link(m, "t2"), t3 = kl_add_link(m, "t3");
+  int rocker = kl_add_link(m, "rocker"), k, rigid = 0;
+  double side = hypot(60.0, 40.0), back = hypot(40.0, 40.0);
+  int pivot = kl_add_revolute(m, KL_GROUND, 0, 0, crank, 0, 0);
+  int crank_pin = kl_add_revolute(m, crank, 40, 0, t1, 0, 0);
+  int t1_t2 = kl_add_revolute(m, t1, 120, 0, t2, 0, 0);
+  int t2_t3 = kl_add_revolute(m, t2, side, 0, t3, 0, 0);
+  int t3_t1 = kl_add_revolute(m, t3, back, 0, t1, 20, 0);
+  int drive = kl_add_revolute(m, t2, 20, 0, rocker, 80, 0);
+  kl_output sites[8];
+  kl_transmission_skip skips[8];
+  int ns, nk;
+  kl_add_revolute(m, rocker, 0, 0, KL_GROUND, 100, 0);
+  kl_add_input(m, pivot);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  ns = kl_model_transmissions(m, sites, 8);
+  nk = kl_model_transmission_skips(m, skips, 8);
+  ck_assert_int_eq(ns, 1);
+  ck_assert_int_eq(sites[0].id, drive);
+  for (k = 0; k < nk; k++) {
+    int j = skips[k].joint;
+    if (j == crank_pin) {
+      ck_assert_int_eq(skips[k].reason, KL_TRANSMISSION_SKIP_INPUT_CRANK);
+      continue;
+    }
+    ck_assert_int_eq(skips[k].reason, KL_TRANSMISSION_SKIP_RIGID);
+    ck_assert(j == t1_t2 || j == t2_t3 || j == t3_t1);
+    /* the third bar of the triangle */
+    ck_assert_int_eq(skips[k].link, j == t1_t2 ? t3 : j == t2_t3 ? t1 : t2);
+    rigid++;
+  }
+  ck_assert_int_eq(rigid, 3);
+  check_cover(m);
+  kl_model_free(m);
+}
+END_TEST
+
 START_TEST(sites_refuse_what_they_cannot_give) {
   fourbar f = build_fourbar(40, 120, 80, 100);
   kl_model *open = kl_model_new();
@@ -313,6 +359,7 @@ int main(void) {
   tcase_add_test(tc, slider_crank_has_no_site);
   tcase_add_test(tc, six_bars_cover_each_joint_once);
   tcase_add_test(tc, sites_refuse_what_they_cannot_give);
+  tcase_add_test(tc, rigid_triangle_pins_are_no_sites);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }

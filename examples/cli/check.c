@@ -293,6 +293,12 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
       fprintf(f,
               LABEL "no transmission angle: the input turns link %s directly\n",
               cm->joint_names[u->joint], cm->link_names[u->link]);
+    else if (u->reason == KL_TRANSMISSION_SKIP_RIGID)
+      fprintf(f,
+              LABEL "no transmission angle: its links and link %s form a "
+                    "rigid triangle (one ternary link), so the pin never "
+                    "turns\n",
+              cm->joint_names[u->joint], cm->link_names[u->link]);
     else
       fprintf(f,
               LABEL "no transmission angle: its neighbour in loop %d stands "
