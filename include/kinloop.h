@@ -1370,7 +1370,8 @@ enum kl_output_kind {
   KL_OUTPUT_JOINT_ANGLE = 2,  /**< relative angle of joint `id` (rad) */
   KL_OUTPUT_POINT_X = 3,      /**< x of point `id` */
   KL_OUTPUT_POINT_Y = 4,      /**< y of point `id` */
-  KL_OUTPUT_TRANSMISSION = 5  /**< transmission angle at revolute joint `id` (rad) */
+  KL_OUTPUT_TRANSMISSION = 5, /**< transmission angle at revolute joint `id` (rad) */
+  KL_OUTPUT_PRESSURE = 6      /**< pressure angle at sliding joint `id` (rad) */
 };
 
 /**
@@ -1380,7 +1381,17 @@ enum kl_output_kind {
  * a) and the line on b from it to joint `line_b` (another joint on b): for a
  * four-bar, the coupler-rocker pin with the crank pin and the rocker's
  * ground pivot. Rule of thumb (common practice, no source): keep it within
- * 40 to 140 degrees. `line_a` and `line_b` are ignored by other kinds.
+ * 40 to 140 degrees. For KL_OUTPUT_PRESSURE, `id` is a prismatic or slot
+ * joint, `line_a` a revolute joint on one of its two links (the pin through
+ * which a rod drives the slider) and `line_b` another joint on the pin's
+ * other link (the rod); the angle, in (-pi/2, pi/2), is taken from the
+ * slide's direction of motion to the rod's line from `line_a` to `line_b`
+ * (either way along each line: atan of cross over dot product), positive
+ * counter-clockwise, so its sign says which face of the guide the rod
+ * presses the slider against and it stays smooth through 0. Its magnitude
+ * is the pressure angle: 0 when the rod pushes straight along the guide
+ * (the ideal; common practice, no source). It still measures when the pin
+ * stands on the slide point. `line_a` and `line_b` are ignored by other kinds.
  */
 typedef struct kl_output {
   int kind;   /**< enum kl_output_kind */
@@ -1627,13 +1638,34 @@ enum kl_transmission_skip_reason {
                                              loop stands at the joint's own
                                              point (within 1e-12 of the
                                              scale): no line to measure */
-  KL_TRANSMISSION_SKIP_RIGID = 3        /**< the joint's two links and `link`
+  KL_TRANSMISSION_SKIP_RIGID = 3,       /**< the joint's two links and `link`
                                              are joined pairwise by revolute
                                              joints: a rigid triangle, one
                                              ternary link built of three
                                              bars, whose pins never turn, so
                                              no link drives another there */
+  KL_TRANSMISSION_SKIP_SLIDER = 4       /**< `link` is a slider whose
+                                             pressure angle, at its sliding
+                                             joint (kl_model_pressure_sites),
+                                             is measured instead */
 };
+
+/* ---- Issue 14: pressure angles of sliders ---- */
+
+/**
+ * The model's pressure-angle sites, chosen once at finalize by the walk of
+ * kl_model_transmissions: each prismatic or slot joint that is not an input
+ * and has, next to it in a loop's walk, a revolute joint (the pin) whose
+ * other link goes on to a further joint of the walk (the rod's line), where
+ * the loops first meet it. Writes up to `cap` outputs of kind
+ * KL_OUTPUT_PRESSURE into `sites` (may be NULL when cap is 0) and returns
+ * how many there are, or KL_ESTATE (not finalized), KL_EINVAL. The pin itself
+ * is then no transmission-angle site (KL_TRANSMISSION_SKIP_SLIDER): the
+ * angle between rod and block says nothing a press designer reads. Never
+ * allocates.
+ */
+KL_API int kl_model_pressure_sites(const kl_model *m, kl_output *sites,
+                                   int cap);
 
 /** A joint the transmission-angle rule meets but does not measure. */
 typedef struct kl_transmission_skip {

@@ -348,6 +348,15 @@ octave_value_list cmd_model_transmissions(const call &c) {
   return one(out);
 }
 
+octave_value_list cmd_model_pressure_sites(const call &c) {
+  std::vector<kl_output> sites =
+      filled(c, c.model(0, access::read).model, kl_model_pressure_sites);
+  octave_map out(dim_vector(1, static_cast<octave_idx_type>(sites.size())));
+  for (size_t k = 0; k < sites.size(); k++)
+    out.assign(static_cast<octave_idx_type>(k), to_octave(sites[k]));
+  return one(out);
+}
+
 octave_value_list cmd_model_transmission_skips(const call &c) {
   std::vector<kl_transmission_skip> skips =
       filled(c, c.model(0, access::read).model, kl_model_transmission_skips);
@@ -357,9 +366,11 @@ octave_value_list cmd_model_transmission_skips(const call &c) {
     one_skip.assign("joint", skips[k].joint);
     one_skip.assign("loop", skips[k].loop);
     one_skip.assign("link", skips[k].link);
-    one_skip.assign("reason", skips[k].reason == KL_TRANSMISSION_SKIP_INPUT_CRANK
-                                  ? "input_crank"
-                                  : "no_line");
+    int why = skips[k].reason;
+    one_skip.assign("reason", why == KL_TRANSMISSION_SKIP_INPUT_CRANK ? "input_crank"
+                              : why == KL_TRANSMISSION_SKIP_RIGID     ? "rigid"
+                              : why == KL_TRANSMISSION_SKIP_SLIDER    ? "slider"
+                                                                      : "no_line");
     out.assign(static_cast<octave_idx_type>(k), one_skip);
   }
   return one(out);
@@ -892,6 +903,7 @@ const command hand_commands[] = {
     {"model_loop", 2, 2, "(model, loop)", cmd_model_loop},
     {"model_transmissions", 1, 1, "(model)", cmd_model_transmissions},
     {"model_transmission_skips", 1, 1, "(model)", cmd_model_transmission_skips},
+    {"model_pressure_sites", 1, 1, "(model)", cmd_model_pressure_sites},
     {"solver_row", 1, 1, "(solver)", cmd_solver_row},
     {"model_read", 1, 1, "(text)", cmd_model_read},
     {"model_read_file", 1, 1, "(path)", cmd_model_read_file},

@@ -115,12 +115,14 @@ static void print_structure(FILE *f, const cli_model *cm) {
  * The ranges of every output the report reads, from one sweep that starts
  * at `base`'s state (kl_output_ranges: the cost of a few sweeps at most,
  * whatever the model's size). Outputs: each ground pivot's link angle (-1
- * where the joint is no such pivot), each slide's, then each transmission
- * site's, in that order; ranges[i] receives output i's. Returns the count,
- * or -1 when the ranges cannot be measured.
+ * where the joint is no such pivot), each slide's, each transmission
+ * site's, then the `npressure` pressure-angle sites already in outs after
+ * room for those, in that order; ranges[i] receives output i's. Returns
+ * the count, or -1 when the ranges cannot be measured.
  */
 static int measure_all(kl_solver *work, const kl_solver *base,
                        const cli_model *cm, const cli_range *r, int *pivot_of,
+                       const kl_output *pressure, int npressure,
                        kl_output *outs, kl_range *ranges) {
   const kl_model *m = cm->model;
   int n = 0, j, i;
@@ -144,6 +146,8 @@ static int measure_all(kl_solver *work, const kl_solver *base,
   }
   for (i = 0; i < cm->nsites; i++)
     outs[n++] = cm->sites[i];
+  for (i = 0; i < npressure; i++)
+    outs[n++] = pressure[i];
   for (i = 0; i < n; i++)
     ranges[i].size = sizeof ranges[i];
   kl_solver_copy_state(work, base);
@@ -204,19 +208,25 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
   int full_turn = cli_input_is_angle(cm, r->input) &&
                   fabs(r->to - r->from - 2 * CLI_PI) < 1e-12 * 2 * CLI_PI &&
                   res->status == KL_OK;
-  size_t most = (size_t)(cm->njoints + cm->nslides + cm->nsites);
+  int npressure = kl_model_pressure_sites(cm->model, NULL, 0);
+  size_t most = (size_t)(cm->njoints + cm->nslides + cm->nsites + npressure);
   int *pivot_of = malloc((size_t)cm->njoints * sizeof *pivot_of + 1);
   kl_output *outs = malloc(most * sizeof *outs + 1);
+  kl_output *pressure = malloc((size_t)npressure * sizeof *pressure + 1);
   kl_range *ranges = malloc(most * sizeof *ranges + 1);
   int j, i, n, at;
-  if (pivot_of == NULL || outs == NULL || ranges == NULL ||
-      (n = measure_all(work, base, cm, r, pivot_of, outs, ranges)) < 0) {
-    if (pivot_of == NULL || outs == NULL || ranges == NULL)
+  if (pressure != NULL)
+    kl_model_pressure_sites(cm->model, pressure, npressure);
+  if (pivot_of == NULL || outs == NULL || ranges == NULL || pressure == NULL ||
+      (n = measure_all(work, base, cm, r, pivot_of, pressure, npressure, outs,
+                       ranges)) < 0) {
+    if (pivot_of == NULL || outs == NULL || ranges == NULL || pressure == NULL)
       warn(w, "out of memory: the ranges were not measured");
     else
       warn(w, "the ranges could not be measured: %s", kl_solver_error(work));
     free(pivot_of);
     free(outs);
+    free(pressure);
     free(ranges);
     return;
   }
@@ -241,7 +251,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
       print_time_ratio(f, cm, r->input, range);
     fputc('\n', f);
   }
-  at = n - cm->nsites - cm->nslides;
+  at = n - npressure - cm->nsites - cm->nslides;
   for (i = 0; i < cm->nslides; i++) {
     const kl_range *range = &ranges[at + i];
     if (is_input_joint(cm, cm->slides[i]))
@@ -255,7 +265,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
       print_time_ratio(f, cm, r->input, range);
     fputc('\n', f);
   }
-  at = n - cm->nsites;
+  at = n - npressure - cm->nsites;
   for (i = 0; i < cm->nsites; i++) {
     const kl_output *site = &cm->sites[i];
     const kl_range *range = &ranges[at + i];
@@ -284,14 +294,47 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
            cm->joint_names[site->id], range->max * k, cm->angle_unit, hi,
            CLI_USUAL_HIGH_DEG);
   }
+  at = n - npressure;
+  for (i = 0; i < npressure; i++) {
+    const kl_output *site = &pressure[i];
+    const kl_range *range = &ranges[at + i];
+    /* the complement of the usual lowest transmission angle */
+    double usual = 90.0 - CLI_USUAL_LOW_DEG;
+    int low = -range->min > range->max; /* the larger magnitude */
+    double worst = low ? -range->min : range->max;
+    cli_format_input(cm, r->input,
+                     low ? range->input_at_min : range->input_at_max, hi,
+                     sizeof hi);
+    at_pair(cm, r->input, range->input_at_min, range->input_at_max, both,
+            sizeof both);
+    fprintf(f,
+            LABEL "pressure angle %.4g to %.4g %s, %s (rod from %s to %s "
+                  "against the slide; signed, 0 ideal)\n",
+            cm->joint_names[site->id], range->min * k, range->max * k,
+            cm->angle_unit, both, cm->joint_names[site->line_a],
+            cm->joint_names[site->line_b]);
+    if (worst * 180 / CLI_PI > usual)
+      warn(w,
+           "the pressure angle at %s reaches %.4g %s (at %s), beyond the "
+           "usual %g deg: the rod pushes the slider across its guide there; "
+           "change link lengths or the slide's offset, or keep the motion "
+           "out of that part of the range",
+           cm->joint_names[site->id], worst * k, cm->angle_unit, hi, usual);
+  }
   free(pivot_of);
   free(outs);
+  free(pressure);
   free(ranges);
   for (i = 0; i < cm->nskips; i++) {
     const kl_transmission_skip *u = &cm->skips[i];
     if (u->reason == KL_TRANSMISSION_SKIP_INPUT_CRANK)
       fprintf(f,
               LABEL "no transmission angle: the input turns link %s directly\n",
+              cm->joint_names[u->joint], cm->link_names[u->link]);
+    else if (u->reason == KL_TRANSMISSION_SKIP_SLIDER)
+      fprintf(f,
+              LABEL "no transmission angle: it drives slider %s, whose "
+                    "pressure angle is given instead\n",
               cm->joint_names[u->joint], cm->link_names[u->link]);
     else if (u->reason == KL_TRANSMISSION_SKIP_RIGID)
       fprintf(f,

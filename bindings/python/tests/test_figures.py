@@ -311,3 +311,32 @@ def test_link_origin_velocity_and_acceleration_reach_python():
         assert acc == pytest.approx((A * (-w * w * math.cos(t) - al * math.sin(t)),
                                      A * (-w * w * math.sin(t) + al * math.cos(t))),
                                     abs=1e-9)
+
+
+def test_slider_pressure_angle_matches_the_closed_form():
+    """The offset slider-crank's pressure angle (crank r, rod l, offset e;
+    standard kinematics): the rod stands at phi with sin phi =
+    (e - r sin t) / l against the slide, the signed angle, from
+    asin((e - r) / l) to asin((e + r) / l); the pin is on the slide point."""
+    r, l, e = 25.0, 90.0, 10.0  # chosen for this test
+    m = kl.Model()
+    crank, rod, block = m.add_link("crank"), m.add_link("rod"), m.add_link("block")
+    pivot = m.add_revolute(kl.GROUND, (0, 0), crank, (0, 0))
+    crank_pin = m.add_revolute(crank, (r, 0), rod, (0, 0))
+    pin = m.add_revolute(rod, (l, 0), block, (0, 0))
+    slide = m.add_prismatic(kl.GROUND, (0, e), 0.0, block, (0, 0))
+    m.add_input(pivot)
+    m.finalize()
+    assert m.pressure_sites == [kl.Output.pressure(slide, pin, crank_pin)]
+    assert [k.reason for k in m.transmission_skips if k.joint == pin] == \
+        [kl.TransmissionSkipReason.SLIDER]
+    s = kl.Solver(m)
+    s.set_link_angle(rod, -0.1)
+    s.set_joint_slide(slide, 100.0)
+    for t in [0.1 + 0.5 * k for k in range(13)]:
+        s.solve_position(t)
+        assert s.output_value(m.pressure_sites[0]) == pytest.approx(
+            math.asin((e - r * math.sin(t)) / l), abs=1e-10)
+    top = s.output_range(0, 0.0, 2 * math.pi, 72, m.pressure_sites[0])
+    assert top.max == pytest.approx(math.asin((e + r) / l), abs=1e-9)
+    assert top.min == pytest.approx(math.asin((e - r) / l), abs=1e-9)

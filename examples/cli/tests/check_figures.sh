@@ -1,5 +1,6 @@
 #!/bin/sh
 # cli_check_figures: what `kinloop check` reports of a quick-return press
+# (its pressure angle below, against the closed form)
 # (an offset slider-crank, numbers invented for this test): the time ratio
 # by the trade's convention, slower stroke over faster (>= 1; common
 # practice, no source), naming the slower stroke, against the dead-centre
@@ -52,4 +53,27 @@ awk -v r=30 -v l=100 -v e=12 '
       print "slower stroke over " got " deg, closed form " angle; exit 1
     }
   }' stroke.txt || fail "the press's time ratio is wrong"
+
+# Sliders: the pressure angle between rod and direction of motion (0 is
+# ideal), not a transmission angle at the wrist pin, which stands on the
+# slide point; the rod stands at phi with sin phi = (e - r sin t) / l, the
+# signed angle, from asin((e - r) / l) to asin((e + r) / l).
+grep -q 'wrist .*transmission angle [0-9]' out.txt &&
+  fail "the wrist pin still gets a transmission angle"
+grep -q 'pushes weakly' out.txt && fail "a warning that the slider pushes weakly"
+grep 'guide .*pressure angle' out.txt >pressure.txt ||
+  fail "no pressure angle for the guide"
+awk -v r=30 -v l=100 -v e=12 '
+  function asin(x) { return atan2(x, sqrt(1 - x * x)) }
+  {
+    if (!match($0, /pressure angle [-0-9.e]+ to [-0-9.]+ deg/)) { print "no range: " $0; exit 1 }
+    split(substr($0, RSTART + 15, RLENGTH - 19), v, " to ")
+    k = 180 / atan2(0, -1)
+    lo = asin((e - r) / l) * k
+    hi = asin((e + r) / l) * k
+    # printed to 4 digits: within half a unit of the last, 0.005 here
+    if (v[1] - lo > 5e-3 || lo - v[1] > 5e-3 || v[2] - hi > 5e-3 || hi - v[2] > 5e-3) {
+      print "pressure angle " v[1] " to " v[2] ", closed form " lo " to " hi; exit 1
+    }
+  }' pressure.txt || fail "the press's pressure angle is wrong"
 finish
