@@ -216,6 +216,7 @@ POINTERS = {
     "kl_output_deriv": {"o": "one", "deriv": "out"},
     "kl_output_range": {"o": "one"},
     "kl_range_time_ratio": {"ratio": "out"},
+    "kl_range_quick_return": {"ratio": "out", "slower": "out", "slower_angle": "out"},
     "kl_output_mechanical_advantage": {"o": "one", "ma": "out"},
     "kl_input_effort": {"loads": "nloads", "efforts": "inputs"},
     "kl_output_sensitivity": {"o": "one", "dim": "one", "deriv": "out"},

@@ -1407,7 +1407,8 @@ enum kl_output_kind {
   KL_OUTPUT_JOINT_ANGLE = 2,  /**< relative angle of joint `id` (rad) */
   KL_OUTPUT_POINT_X = 3,      /**< x of point `id` */
   KL_OUTPUT_POINT_Y = 4,      /**< y of point `id` */
-  KL_OUTPUT_TRANSMISSION = 5  /**< transmission angle at revolute joint `id` (rad) */
+  KL_OUTPUT_TRANSMISSION = 5, /**< transmission angle at revolute joint `id` (rad) */
+  KL_OUTPUT_PRESSURE = 6      /**< pressure angle at sliding joint `id` (rad) */
 };
 
 /**
@@ -1417,7 +1418,17 @@ enum kl_output_kind {
  * a) and the line on b from it to joint `line_b` (another joint on b): for a
  * four-bar, the coupler-rocker pin with the crank pin and the rocker's
  * ground pivot. Rule of thumb (common practice, no source): keep it within
- * 40 to 140 degrees. `line_a` and `line_b` are ignored by other kinds.
+ * 40 to 140 degrees. For KL_OUTPUT_PRESSURE, `id` is a prismatic or slot
+ * joint, `line_a` a revolute joint on one of its two links (the pin through
+ * which a rod drives the slider) and `line_b` another joint on the pin's
+ * other link (the rod); the angle, in (-pi/2, pi/2), is taken from the
+ * slide's direction of motion to the rod's line from `line_a` to `line_b`
+ * (either way along each line: atan of cross over dot product), positive
+ * counter-clockwise, so its sign says which face of the guide the rod
+ * presses the slider against and it stays smooth through 0. Its magnitude
+ * is the pressure angle: 0 when the rod pushes straight along the guide
+ * (the ideal; common practice, no source). It still measures when the pin
+ * stands on the slide point. `line_a` and `line_b` are ignored by other kinds.
  */
 typedef struct kl_output {
   int kind;   /**< enum kl_output_kind */
@@ -1449,8 +1460,10 @@ typedef struct kl_range {
   double max;          /**< the largest value found */
   double input_at_min; /**< input value where the minimum occurs */
   double input_at_max; /**< input value where the maximum occurs */
-  int sweep_status;    /**< how the sweep ended (KL_OK or KL_LIMIT) */
-  double limit_input;  /**< with KL_LIMIT: where the motion stopped */
+  int sweep_status;    /**< how the sweep ended (KL_OK, KL_LIMIT, or
+                            KL_ESINGULAR from kl_output_range) */
+  double limit_input;  /**< with KL_LIMIT: where the motion stopped; with
+                            KL_ESINGULAR: the change point */
 } kl_range;
 
 /**
@@ -1463,10 +1476,41 @@ typedef struct kl_range {
  * On success the solver is left at the end of the sweep; a failure leaves it
  * exactly as it was (coefficients included). Returns KL_OK or KL_LIMIT (the
  * range is what was reachable), or the statuses of kl_solver_sweep and
- * kl_output_value. Never allocates.
+ * kl_output_value. With KL_ESINGULAR, a change point met on the way after
+ * the first step, `range` still receives the extremes of the part swept
+ * before it, sweep_status KL_ESINGULAR and limit_input the change point's
+ * location (the solver goes back as for any failure); on other failures
+ * `range` is not written. Never allocates.
  */
 KL_API int kl_output_range(kl_solver *s, int input, double from, double to,
                            int steps, const kl_output *o, kl_range *range);
+
+/* ---- Issue 14: many outputs' ranges from one sweep ---- */
+
+/**
+ * Extremes of `n` outputs while input `input` sweeps from `from` to `to` in
+ * `steps` steps (as kl_solver_sweep), from one sweep: its cost stays
+ * within about five sweeps whatever n (docs/performance.md section 8),
+ * where calling kl_output_range per output costs a sweep or more each. Where any output's slope
+ * changes sign between two steps, the positions at three interior points of
+ * that step (Chebyshev-Lobatto spacing) are solved once, and each output
+ * turning there is refined to 1e-13 of the step on the Hermite interpolant
+ * of degree 9 through its values and slopes at the step's five points
+ * (docs/figures.md section 5); the samples, the ends and the motion limit
+ * count as candidates as in kl_output_range, whose results it matches to
+ * the interpolant's accuracy (better than 1e-10 in the input for steps of
+ * a degree or so, closer with shorter steps). Set ranges[i].size for each
+ * of the n ranges first; ranges[i] receives output i's range. On success
+ * the solver is left at the end of the sweep; a failure leaves it as it
+ * was. Allocates a scratch solver and O(n) working memory through the
+ * model's allocator, freed before it returns. Returns KL_OK, KL_LIMIT (the
+ * ranges of the reachable part), KL_ENOMEM, KL_EINVAL (NULL, n < 0, a
+ * range's size unset), the statuses of kl_output_value for each output,
+ * and the errors of kl_solver_sweep.
+ */
+KL_API int kl_output_ranges(kl_solver *s, int input, double from, double to,
+                            int steps, int n, const kl_output *outputs,
+                            kl_range *ranges);
 
 /**
  * Time ratio of a quick-return mechanism driven at constant speed by a
@@ -1477,6 +1521,36 @@ KL_API int kl_output_range(kl_solver *s, int input, double from, double to,
  * modulo 2 pi), KL_ENONFINITE.
  */
 KL_API int kl_range_time_ratio(const kl_range *range, double *ratio);
+
+/* ---- Issue 14: the time ratio by the trade's quick-return convention ---- */
+
+/** Which stroke of an output between its extremes takes the longer part of
+ * the input's turn (kl_range_quick_return). */
+enum kl_stroke {
+  KL_STROKE_EQUAL = 0,   /**< both take half a turn (within 1e-12 rad) */
+  KL_STROKE_RISING = 1,  /**< from the minimum to the maximum */
+  KL_STROKE_FALLING = 2  /**< from the maximum back to the minimum */
+};
+
+/**
+ * Time ratio of a quick-return mechanism as the trade states it (common
+ * practice, no source): the slower stroke's time over the faster's, so
+ * >= 1, for a crank turning in the positive sense at constant speed. With
+ * the output's extremes at crank angles input_at_min and input_at_max
+ * (kl_output_range over one full turn), the rising stroke takes A, the
+ * angle from minimum to maximum in (0, 2 pi), the falling stroke 2 pi - A;
+ * the ratio is the larger over the smaller. *slower says which stroke is
+ * the slower (enum kl_stroke) and *slower_angle its crank angle (rad);
+ * either may be NULL. kl_range_time_ratio gives the rising stroke over the
+ * falling one, which may be below 1. Returns KL_OK, KL_EINVAL (NULL range
+ * or ratio, or equal angles modulo 2 pi), KL_ENONFINITE.
+ */
+KL_API int kl_range_quick_return(const kl_range *range, double *ratio,
+                                 int *slower, double *slower_angle);
+
+/** "rising", "falling", "equal" for an enum kl_stroke; "not a stroke"
+ * otherwise. */
+KL_API const char *kl_stroke_str(int stroke);
 
 /**
  * Mechanical advantage of an ideal (frictionless, massless) linkage: output
@@ -1579,8 +1653,10 @@ KL_API int kl_model_loop_fourbar(const kl_model *m, int loop,
  * neighbours in that loop's walk (line_a the one on the joint's link a), so
  * that for a four-bar the site is the coupler-output pin, with lines to the
  * input pin and the output's ground pivot. A joint on a link that a
- * revolute input turns from ground, or with a line of no length, is no site
- * (kl_model_transmission_skips says which and why). Writes up to `cap`
+ * revolute input turns from ground, with a line of no length, or inside a
+ * rigid triangle of revolute joints (a ternary link built of three bars,
+ * where no link drives another) is no site (kl_model_transmission_skips
+ * says which and why). Writes up to `cap`
  * outputs of kind KL_OUTPUT_TRANSMISSION into `sites` (may be NULL when cap
  * is 0), for kl_output_value and kl_output_range, and returns how many
  * sites there are (which may exceed cap), or KL_ESTATE (not finalized),
@@ -1595,11 +1671,38 @@ enum kl_transmission_skip_reason {
                                              revolute input, so the angle
                                              says nothing of how force gets
                                              through */
-  KL_TRANSMISSION_SKIP_NO_LINE = 2      /**< on `link`, the neighbour in the
+  KL_TRANSMISSION_SKIP_NO_LINE = 2,     /**< on `link`, the neighbour in the
                                              loop stands at the joint's own
                                              point (within 1e-12 of the
                                              scale): no line to measure */
+  KL_TRANSMISSION_SKIP_RIGID = 3,       /**< the joint's two links and `link`
+                                             are joined pairwise by revolute
+                                             joints: a rigid triangle, one
+                                             ternary link built of three
+                                             bars, whose pins never turn, so
+                                             no link drives another there */
+  KL_TRANSMISSION_SKIP_SLIDER = 4       /**< `link` is a slider whose
+                                             pressure angle, at its sliding
+                                             joint (kl_model_pressure_sites),
+                                             is measured instead */
 };
+
+/* ---- Issue 14: pressure angles of sliders ---- */
+
+/**
+ * The model's pressure-angle sites, chosen once at finalize by the walk of
+ * kl_model_transmissions: each prismatic or slot joint that is not an input
+ * and has, next to it in a loop's walk, a revolute joint (the pin) whose
+ * other link goes on to a further joint of the walk (the rod's line), where
+ * the loops first meet it. Writes up to `cap` outputs of kind
+ * KL_OUTPUT_PRESSURE into `sites` (may be NULL when cap is 0) and returns
+ * how many there are, or KL_ESTATE (not finalized), KL_EINVAL. The pin itself
+ * is then no transmission-angle site (KL_TRANSMISSION_SKIP_SLIDER): the
+ * angle between rod and block says nothing a press designer reads. Never
+ * allocates.
+ */
+KL_API int kl_model_pressure_sites(const kl_model *m, kl_output *sites,
+                                   int cap);
 
 /** A joint the transmission-angle rule meets but does not measure. */
 typedef struct kl_transmission_skip {

@@ -167,6 +167,80 @@ static void skip(kli_topology *t, int joint, int loop, int link, int reason) {
   k->reason = reason;
 }
 
+/* Bit of a link's scratch mark: a revolute neighbour of the link under
+ * test (bit 0 is "turned by a revolute input from ground"). */
+#define KLI_NEIGHBOUR 2
+
+/*
+ * A third link that closes a triangle of revolute joints with links a and
+ * b (a joint to each), or -1: the three then form one rigid ternary link,
+ * and the pin between a and b never turns. Linear in the joints.
+ */
+static int rigid_triangle(const kl_model *m, int a, int b, int *link_mark) {
+  int i, third = -1;
+  for (i = 0; i < m->njoints; i++) {
+    const kli_joint *j = &m->joints[i];
+    if (j->kind == KL_JOINT_REVOLUTE && (j->link[0] == a || j->link[1] == a))
+      link_mark[j->link[0] == a ? j->link[1] : j->link[0]] |= KLI_NEIGHBOUR;
+  }
+  for (i = 0; i < m->njoints && third < 0; i++) {
+    const kli_joint *j = &m->joints[i];
+    int other = j->link[0] == b ? j->link[1] : j->link[0];
+    if (j->kind == KL_JOINT_REVOLUTE && (j->link[0] == b || j->link[1] == b) &&
+        other != a && (link_mark[other] & KLI_NEIGHBOUR))
+      third = other;
+  }
+  for (i = 0; i < m->nlinks; i++)
+    link_mark[i] &= ~KLI_NEIGHBOUR;
+  return third;
+}
+
+/*
+ * The pressure-angle sites: walking the loops in order, each sliding joint
+ * that is no input, where a loop first meets it with a revolute neighbour
+ * (the pin) off ground on the slider's side, and past the pin a further
+ * joint at some distance on the pin's other link (the rod). The pin is
+ * then passed over as a transmission-angle site (marked done).
+ */
+static void find_pressure_sites(const kl_model *m, kli_topology *t,
+                                int *mark, double tiny) {
+  int loop;
+  t->npressure = 0;
+  for (loop = 0; loop < t->nloops; loop++) {
+    int first = t->loop_joint_start[loop];
+    int n = t->loop_joint_start[loop + 1] - first, k, way;
+    const int *walk = t->loop_joints + first, *after = t->loop_links + first;
+    for (k = 0; k < n && n >= 3; k++) {
+      int slide = walk[k];
+      if (!kli_is_sliding(m->joints[slide].kind) || mark[slide] != KLI_PLAIN)
+        continue;
+      /* way +1: the pin after the slide in the walk, -1: before it; the
+       * link between slide and pin is the slider, the next one the rod */
+      for (way = 1; way >= -1; way -= 2) {
+        int pin = walk[(k + way + n) % n], beyond = walk[(k + 2 * way + 2 * n) % n];
+        int slider = after[way > 0 ? k : (k + n - 1) % n];
+        int rod = after[way > 0 ? (k + 1) % n : (k + n - 2) % n];
+        kl_output *site;
+        if (m->joints[pin].kind != KL_JOINT_REVOLUTE || slider == KL_GROUND ||
+            rod == slider || span(m, rod, pin, beyond) <= tiny)
+          continue;
+        mark[slide] = KLI_DONE;
+        site = &t->pressure[t->npressure++];
+        site->kind = KL_OUTPUT_PRESSURE;
+        site->id = slide;
+        site->line_a = pin;
+        site->line_b = beyond;
+        if (mark[pin] == KLI_PLAIN && m->joints[pin].link[0] != KL_GROUND &&
+            m->joints[pin].link[1] != KL_GROUND) {
+          mark[pin] = KLI_DONE;
+          skip(t, pin, loop, slider, KL_TRANSMISSION_SKIP_SLIDER);
+        }
+        break;
+      }
+    }
+  }
+}
+
 /*
  * The rule: walking the loops in order, each revolute joint that is on
  * neither ground nor an input, where a loop first meets it, measured
@@ -192,6 +266,7 @@ void kli_find_transmissions(const kl_model *m, kli_topology *t,
     if (j->kind == KL_JOINT_REVOLUTE && j->link[1] == KL_GROUND)
       crank[j->link[0]] = 1;
   }
+  find_pressure_sites(m, t, mark, tiny);
   for (loop = 0; loop < t->nloops; loop++) {
     int first = t->loop_joint_start[loop];
     int n = t->loop_joint_start[loop + 1] - first, k;
@@ -205,6 +280,12 @@ void kli_find_transmissions(const kl_model *m, kli_topology *t,
           j->link[1] == KL_GROUND || mark[joint] != KLI_PLAIN)
         continue;
       mark[joint] = KLI_DONE;
+      /* a pin inside a rigid triangle joins lines of one ternary link:
+       * no link drives another through it */
+      if ((side = rigid_triangle(m, j->link[0], j->link[1], crank)) >= 0) {
+        skip(t, joint, loop, side, KL_TRANSMISSION_SKIP_RIGID);
+        continue;
+      }
       /* the walk arrives from prev over the link before this joint: that
        * line lies on it */
       if (after[(k + n - 1) % n] != j->link[0]) {
@@ -212,7 +293,7 @@ void kli_find_transmissions(const kl_model *m, kli_topology *t,
         prev = next;
         next = swap;
       }
-      for (side = 0; side < 2 && !crank[j->link[side]]; side++)
+      for (side = 0; side < 2 && !(crank[j->link[side]] & 1); side++)
         ;
       if (side < 2) {
         skip(t, joint, loop, j->link[side], KL_TRANSMISSION_SKIP_INPUT_CRANK);
@@ -243,6 +324,17 @@ int kl_model_transmissions(const kl_model *m, kl_output *sites, int cap) {
   for (i = 0; i < m->topo.nsites && i < cap; i++)
     sites[i] = m->topo.sites[i];
   return m->topo.nsites;
+}
+
+int kl_model_pressure_sites(const kl_model *m, kl_output *sites, int cap) {
+  int i;
+  if (m == NULL || cap < 0 || (cap > 0 && sites == NULL))
+    return KL_EINVAL;
+  if (!m->finalized)
+    return KL_ESTATE;
+  for (i = 0; i < m->topo.npressure && i < cap; i++)
+    sites[i] = m->topo.pressure[i];
+  return m->topo.npressure;
 }
 
 int kl_model_transmission_skips(const kl_model *m, kl_transmission_skip *skips,

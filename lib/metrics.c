@@ -14,9 +14,6 @@
 #define KLI_SAME_ANGLE 1e-12
 /* Refined extremes stop when the bracket is this narrow (input units). */
 #define KLI_EXTREME_BRACKET 1e-13
-/* Where a sweep stopped at a limit, the last value is taken this far
- * inside it (the limit is located to 1e-11). */
-#define KLI_LIMIT_INSIDE 1e-10
 
 /* ---- outputs ---- */
 
@@ -185,12 +182,45 @@ static int refine_extreme(kl_solver *s, int input, const kl_output *o,
   return ok;
 }
 
+/* The extremes found by the search `r` of a sweep that ended with status
+ * `st` (where the motion stopped: `limit`): the ends of what was swept and
+ * each bracketed turn, refined. */
+static void collect_extremes(kl_solver *s, int input, const kl_output *o,
+                             const range_search *r, int st, double limit,
+                             kl_range *out) {
+  int i;
+  memset(out, 0, sizeof *out);
+  out->sweep_status = st;
+  out->limit_input = limit;
+  out->min = out->max = r->first_v;
+  out->input_at_min = out->input_at_max = r->first_u;
+  if (r->v < out->min)
+    out->min = r->v, out->input_at_min = r->u;
+  if (r->v > out->max)
+    out->max = r->v, out->input_at_max = r->u;
+  for (i = 0; i < 2; i++) {
+    double value, at;
+    if (!r->found[i])
+      continue;
+    /* A turn that lands on a sample can leave both re-solved slopes of its
+     * bracket on one side (rounding), so refinement cannot go below the
+     * bracket's own samples: they are candidates too. */
+    if (!refine_extreme(s, input, o, i, r->lo[i], r->hi[i], &value, &at) ||
+        (i == 0 ? r->sampled[i] < value : r->sampled[i] > value))
+      value = r->sampled[i], at = r->sampled_at[i];
+    if (i == 0 && value < out->min)
+      out->min = value, out->input_at_min = at;
+    if (i == 1 && value > out->max)
+      out->max = value, out->input_at_max = at;
+  }
+}
+
 int kl_output_range(kl_solver *s, int input, double from, double to,
                     int steps, const kl_output *o, kl_range *range) {
   range_search r;
   kl_sweep_result sw;
   kl_range out;
-  int st, i;
+  int st;
   if (s == NULL || range == NULL || range->size < sizeof(range->size))
     return KL_EINVAL;
   if ((st = kli_output_check(s->model, o, s->error)) != KL_OK)
@@ -202,13 +232,21 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
   sw.size = sizeof sw;
   kli_state_keep(s);
   st = kl_solver_sweep(s, input, from, to, steps, track_extremes, &r, &sw);
+  if (st == KL_ESINGULAR && r.steps > 0 && isfinite(sw.limit_input)) {
+    /* a change point on the way: the range up to it is kept for the
+     * caller, the solver goes back, and the sweep's message stays */
+    char message[KLI_MESSAGE_SIZE];
+    memcpy(message, s->error, sizeof message);
+    collect_extremes(s, input, o, &r, st, sw.limit_input, &out);
+    kli_copy_sized(range, &out, sizeof out);
+    kli_state_back(s);
+    memcpy(s->error, message, sizeof message);
+    return st;
+  }
   if (st != KL_OK && st != KL_LIMIT) {
     kli_state_back(s);
     return st;
   }
-  memset(&out, 0, sizeof out);
-  out.sweep_status = st;
-  out.limit_input = sw.limit_input;
   if (st == KL_LIMIT) {
     /* the motion's last reachable position counts too */
     double inside = sw.limit_input - (to > from ? 1.0 : -1.0) * KLI_LIMIT_INSIDE;
@@ -217,37 +255,16 @@ int kl_output_range(kl_solver *s, int input, double from, double to,
     kl_solver_sweep(s, input, r.u, inside, 1, track_extremes, &r, &tail);
   }
   kli_state_copy(s, &s->delivered, &s->st); /* where the sweep ended */
-  /* the ends of the range are candidates; then each bracketed turn */
-  out.min = out.max = r.first_v;
-  out.input_at_min = out.input_at_max = r.first_u;
-  if (r.v < out.min)
-    out.min = r.v, out.input_at_min = r.u;
-  if (r.v > out.max)
-    out.max = r.v, out.input_at_max = r.u;
-  for (i = 0; i < 2; i++) {
-    double value, at;
-    if (!r.found[i])
-      continue;
-    /* A turn that lands on a sample can leave both re-solved slopes of its
-     * bracket on one side (rounding), so refinement cannot go below the
-     * bracket's own samples: they are candidates too. */
-    if (!refine_extreme(s, input, o, i, r.lo[i], r.hi[i], &value, &at) ||
-        (i == 0 ? r.sampled[i] < value : r.sampled[i] > value))
-      value = r.sampled[i], at = r.sampled_at[i];
-    if (i == 0 && value < out.min)
-      out.min = value, out.input_at_min = at;
-    if (i == 1 && value > out.max)
-      out.max = value, out.input_at_max = at;
-  }
+  collect_extremes(s, input, o, &r, st, sw.limit_input, &out);
   kli_state_restore(s, &s->delivered);
   kli_copy_sized(range, &out, sizeof out);
   return st;
 }
 
-int kl_range_time_ratio(const kl_range *range, double *ratio) {
+/* The crank angle from the output's minimum to its maximum, in (0, 2 pi),
+ * for a crank turning in the positive sense. */
+static int rising_angle(const kl_range *range, double *rising) {
   double a;
-  if (range == NULL || ratio == NULL)
-    return KL_EINVAL;
   if (!isfinite(range->input_at_min) || !isfinite(range->input_at_max))
     return KL_ENONFINITE;
   a = fmod(range->input_at_max - range->input_at_min, KLI_TWO_PI);
@@ -256,8 +273,47 @@ int kl_range_time_ratio(const kl_range *range, double *ratio) {
   /* extremes a whole turn apart (to rounding) are no stroke at all */
   if (!(a > KLI_SAME_ANGLE) || !(a < KLI_TWO_PI - KLI_SAME_ANGLE))
     return KL_EINVAL;
+  *rising = a;
+  return KL_OK;
+}
+
+int kl_range_time_ratio(const kl_range *range, double *ratio) {
+  double a;
+  int st;
+  if (range == NULL || ratio == NULL)
+    return KL_EINVAL;
+  if ((st = rising_angle(range, &a)) != KL_OK)
+    return st;
   *ratio = a / (KLI_TWO_PI - a);
   return KL_OK;
+}
+
+int kl_range_quick_return(const kl_range *range, double *ratio, int *slower,
+                          double *slower_angle) {
+  double a, back;
+  int st;
+  if (range == NULL || ratio == NULL)
+    return KL_EINVAL;
+  if ((st = rising_angle(range, &a)) != KL_OK)
+    return st;
+  back = KLI_TWO_PI - a;
+  *ratio = a >= back ? a / back : back / a;
+  if (slower != NULL)
+    *slower = fabs(a - back) <= KLI_SAME_ANGLE ? KL_STROKE_EQUAL
+              : a > back                       ? KL_STROKE_RISING
+                                               : KL_STROKE_FALLING;
+  if (slower_angle != NULL)
+    *slower_angle = fmax(a, back);
+  return KL_OK;
+}
+
+const char *kl_stroke_str(int stroke) {
+  switch (stroke) {
+  case KL_STROKE_EQUAL: return "equal";
+  case KL_STROKE_RISING: return "rising";
+  case KL_STROKE_FALLING: return "falling";
+  default: return "not a stroke";
+  }
 }
 
 /* ---- input effort by virtual work ---- */

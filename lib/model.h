@@ -180,6 +180,10 @@ typedef struct {
   int nsites;
   kl_transmission_skip *skips;
   int nskips;
+  /* The pressure-angle sites of sliders (loops.c), one per sliding joint
+   * at most. */
+  kl_output *pressure;
+  int npressure;
   kli_force_pattern forces;
 } kli_topology;
 

@@ -14,6 +14,43 @@ static int joint_on(const kl_model *m, int joint, int link) {
 }
 
 
+/* The rod of a pressure angle: the pin's link other than the slider's. */
+static int pressure_rod(const kl_model *m, const kl_output *o) {
+  const kli_joint *slide = &m->joints[o->id], *pin = &m->joints[o->line_a];
+  int block = pin->link[0] == slide->link[0] || pin->link[0] == slide->link[1]
+                  ? pin->link[0]
+                  : pin->link[1];
+  return pin->link[0] == block ? pin->link[1] : pin->link[0];
+}
+
+static int pressure_check(const kl_model *m, const kl_output *o, char *buf) {
+  const kli_joint *slide = &m->joints[o->id];
+  if (!kli_is_sliding(slide->kind))
+    return kli_fail(buf, KL_EKIND, "output: a pressure angle needs a "
+                                   "prismatic or slot joint; joint %d is "
+                                   "revolute",
+                    o->id);
+  if (o->line_a < 0 || o->line_a >= m->njoints || o->line_b < 0 ||
+      o->line_b >= m->njoints)
+    return kli_fail(buf, KL_EID,
+                    "output: line joint %d does not exist (%d joints)",
+                    o->line_a < 0 || o->line_a >= m->njoints ? o->line_a
+                                                             : o->line_b,
+                    m->njoints);
+  if (m->joints[o->line_a].kind != KL_JOINT_REVOLUTE ||
+      !(joint_on(m, o->line_a, slide->link[0]) ||
+        joint_on(m, o->line_a, slide->link[1])))
+    return kli_fail(buf, KL_EKIND, "output: line_a (joint %d) is not a "
+                                   "revolute joint on a link of sliding "
+                                   "joint %d",
+                    o->line_a, o->id);
+  if (o->line_b == o->line_a || !joint_on(m, o->line_b, pressure_rod(m, o)))
+    return kli_fail(buf, KL_EKIND, "output: line_b (joint %d) is not another "
+                                   "joint on link %d, the rod at pin %d",
+                    o->line_b, pressure_rod(m, o), o->line_a);
+  return KL_OK;
+}
+
 int kli_output_check(const kl_model *m, const kl_output *o, char *buf) {
   const kli_joint *j;
   if (o == NULL)
@@ -33,6 +70,7 @@ int kli_output_check(const kl_model *m, const kl_output *o, char *buf) {
   case KL_OUTPUT_SLIDE:
   case KL_OUTPUT_JOINT_ANGLE:
   case KL_OUTPUT_TRANSMISSION:
+  case KL_OUTPUT_PRESSURE:
     break;
   default:
     return kli_fail(buf, KL_EINVAL, "output: kind %d is not an output kind",
@@ -46,6 +84,8 @@ int kli_output_check(const kl_model *m, const kl_output *o, char *buf) {
     return kli_fail(buf, KL_EKIND, "output: joint %d is revolute and has no "
                               "slide",
                o->id);
+  if (o->kind == KL_OUTPUT_PRESSURE)
+    return pressure_check(m, o, buf);
   if (o->kind != KL_OUTPUT_TRANSMISSION)
     return KL_OK;
   if (j->kind != KL_JOINT_REVOLUTE)
@@ -116,6 +156,14 @@ static void transmission_line(const kl_solver *s, int joint, int line,
   w[1] = sn * local[0] + c * local[1];
 }
 
+/* The slide's direction of motion: its axis on its link a, turned with it. */
+static void slide_direction(const kl_solver *s, int joint, double d[2]) {
+  const kli_joint *j = &s->model->joints[joint];
+  double c = s->st.pose.c[j->link[0]], sn = s->st.pose.s[j->link[0]];
+  d[0] = c * j->axis_cs[0] - sn * j->axis_cs[1];
+  d[1] = sn * j->axis_cs[0] + c * j->axis_cs[1];
+}
+
 double kli_output_value(const kl_solver *s, const kl_output *o) {
   const kl_model *m = s->model;
   const double *x = s->st.pose.x;
@@ -133,6 +181,15 @@ double kli_output_value(const kl_solver *s, const kl_output *o) {
   case KL_OUTPUT_POINT_Y:
     kli_chain_value(m, &m->topo.points[o->id], &s->st.pose, xy);
     return xy[o->kind == KL_OUTPUT_POINT_X ? 0 : 1];
+  case KL_OUTPUT_PRESSURE:
+    slide_direction(s, o->id, wa);
+    transmission_line(s, o->line_a, o->line_b, pressure_rod(m, o), wb, lb);
+    /* atan(cross / dot): the same whichever way either line points */
+    {
+      double cross = wa[0] * wb[1] - wa[1] * wb[0];
+      double dot = wa[0] * wb[0] + wa[1] * wb[1];
+      return atan2(dot < 0.0 ? -cross : cross, fabs(dot));
+    }
   default: /* KL_OUTPUT_TRANSMISSION */
     j = &m->joints[o->id];
     transmission_line(s, o->id, o->line_a, j->link[0], wa, la);
@@ -186,6 +243,20 @@ double kli_output_change(const kl_solver *s, const kl_output *o,
       change += xy[o->kind == KL_OUTPUT_POINT_X ? 0 : 1];
     }
     return change;
+  }
+  case KL_OUTPUT_PRESSURE: { /* atan((d x w) / (d . w)) */
+    int rod = pressure_rod(m, o), guide = m->joints[o->id].link[0];
+    double turn = dx[guide], dcross, ddot;
+    slide_direction(s, o->id, wa);
+    transmission_line(s, o->line_a, o->line_b, rod, wb, lb);
+    line_change(s, o->line_a, o->line_b, rod, wb, dx, dim, dwb);
+    dwa[0] = -turn * wa[1];
+    dwa[1] = turn * wa[0];
+    cross = wa[0] * wb[1] - wa[1] * wb[0];
+    dot = wa[0] * wb[0] + wa[1] * wb[1];
+    dcross = dwa[0] * wb[1] - dwa[1] * wb[0] + wa[0] * dwb[1] - wa[1] * dwb[0];
+    ddot = dwa[0] * wb[0] + dwa[1] * wb[1] + wa[0] * dwb[0] + wa[1] * dwb[1];
+    return (dcross * dot - cross * ddot) / (cross * cross + dot * dot);
   }
   default: /* KL_OUTPUT_TRANSMISSION: mu = atan2(|wa x wb|, wa . wb) */
     j = &m->joints[o->id];

@@ -7,6 +7,10 @@
 
 #include "solver.h"
 
+/* Where a sweep stopped at a limit, a range's last value is taken this far
+ * inside it (the limit is located to 1e-11). */
+#define KLI_LIMIT_INSIDE 1e-10
+
 /* A dimension resolved to what moves: local coordinate `axis` of joint
  * `joint`'s attachment on `link`, or (joint -1) point `point`'s own. */
 typedef struct {

@@ -734,6 +734,7 @@ static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
   t->band_col = kli_carve(c, (size_t)nvars, sizeof(int));
   t->sites = kli_carve(c, (size_t)nj, sizeof(kl_output));
   t->skips = kli_carve(c, (size_t)nj, sizeof(kl_transmission_skip));
+  t->pressure = kli_carve(c, (size_t)nj, sizeof(kl_output));
   t->loop_kept = kli_carve(c, (size_t)w->nloops, sizeof(int));
   t->loop_first_kept = kli_carve(c, (size_t)w->nloops + 1, sizeof(int));
   t->loop_lead = kli_carve(c, (size_t)w->nloops, sizeof(int));

@@ -215,9 +215,9 @@ START_TEST(fourbar_site_is_the_coupler_rocker_pin) {
 END_TEST
 
 START_TEST(slider_crank_has_no_site) {
-  /* the crank pin is on the crank the input turns; the block pin's line on
-   * the block runs to the slide joint, which the builder puts at the same
-   * point of the block */
+  /* the crank pin is on the crank the input turns; the block pin drives
+   * the slider, whose pressure angle is measured instead (even with the pin
+   * on the slide point, as the builder puts it) */
   slider_crank sc = build_slider_crank(40, 120, 10);
   kl_transmission_skip skipped[4];
   int k;
@@ -230,10 +230,66 @@ START_TEST(slider_crank_has_no_site) {
       ck_assert_int_eq(skipped[k].reason, KL_TRANSMISSION_SKIP_INPUT_CRANK);
       ck_assert_int_eq(skipped[k].link, sc.crank);
     } else {
-      ck_assert_int_eq(skipped[k].reason, KL_TRANSMISSION_SKIP_NO_LINE);
+      ck_assert_int_eq(skipped[k].reason, KL_TRANSMISSION_SKIP_SLIDER);
       ck_assert_int_eq(skipped[k].link, sc.block);
     }
   }
+  kl_model_free(sc.m);
+}
+END_TEST
+
+/*
+ * The pressure angle of the offset slider-crank (crank r, rod l, offset e;
+ * standard kinematics, as tests/test_position.c): the rod stands at phi
+ * with sin phi = (e - r sin t) / l against the slide's axis, which is the
+ * signed angle from the direction of motion to the rod, with slope
+ * -r cos t / (l cos phi); over a turn it runs from asin((e - r) / l) at
+ * t = pi / 2 to asin((e + r) / l) at t = 3 pi / 2. The pin stands on the
+ * slide point of the block, and the angle still measures.
+ */
+START_TEST(slider_pressure_angle_matches_the_closed_form) {
+  slider_crank sc = build_slider_crank(30, 100, 12);
+  kl_solver *s = kl_solver_new(sc.m);
+  kl_output site[2], bad;
+  kl_range range;
+  double v, d;
+  int k;
+  ck_assert_int_eq(kl_model_pressure_sites(sc.m, site, 2), 1);
+  ck_assert_int_eq(site[0].kind, KL_OUTPUT_PRESSURE);
+  ck_assert_int_eq(site[0].id, sc.slide_joint);
+  ck_assert_int_eq(site[0].line_a, sc.block_pin);
+  ck_assert_int_eq(site[0].line_b, sc.crank_pin);
+  kl_set_link_angle(s, sc.rod, -0.1);
+  kl_set_joint_slide(s, sc.slide_joint, 120.0);
+  for (k = 0; k < 36; k++) {
+    double t = k * 10 * DEG, phi = asin((sc.e - sc.r * sin(t)) / sc.l);
+    double slope = -sc.r * cos(t) / (sc.l * cos(phi));
+    ck_assert_int_eq(kl_solve_position(s, &t), KL_OK);
+    ck_assert_int_eq(kl_output_value(s, &site[0], &v), KL_OK);
+    ck_assert_msg(fabs(v - phi) < CLOSED_FORM_TOL,
+                  "crank %d deg: %.15g, closed form %.15g", 10 * k, v, phi);
+    ck_assert_int_eq(kl_output_deriv(s, &site[0], 0, &d), KL_OK);
+    ck_assert_msg(fabs(d - slope) < 1e-9, "crank %d deg: slope %.15g, closed "
+                  "form %.15g", 10 * k, d, slope);
+  }
+  range.size = sizeof range;
+  ck_assert_int_eq(kl_output_range(s, 0, 0.0, 2 * PI, 72, &site[0], &range),
+                   KL_OK);
+  ck_assert_double_le(fabs(range.max - asin((sc.e + sc.r) / sc.l)), 1e-9);
+  ck_assert_double_le(fabs(range.input_at_max - 1.5 * PI), 1e-6);
+  ck_assert_double_le(fabs(range.min - asin((sc.e - sc.r) / sc.l)), 1e-9);
+  ck_assert_double_le(fabs(range.input_at_min - 0.5 * PI), 1e-6);
+  /* refused: a revolute joint, a pin not on the slider, a line off the rod */
+  bad = site[0];
+  bad.id = sc.block_pin;
+  ck_assert_int_eq(kl_output_value(s, &bad, &v), KL_EKIND);
+  bad = site[0];
+  bad.line_a = sc.crank_pin;
+  ck_assert_int_eq(kl_output_value(s, &bad, &v), KL_EKIND);
+  bad = site[0];
+  bad.line_b = sc.pivot;
+  ck_assert_int_eq(kl_output_value(s, &bad, &v), KL_EKIND);
+  kl_solver_free(s);
   kl_model_free(sc.m);
 }
 END_TEST
@@ -279,6 +335,52 @@ START_TEST(six_bars_cover_each_joint_once) {
 }
 END_TEST
 
+/* A four-bar whose coupler is a ternary link built of three bars pinned in
+ * a triangle (t1 from the crank pin to the rocker pin, t2 from the rocker
+ * pin to the apex, t3 from the apex back to t1; geometry chosen for this
+ * test; the rocker pinned 20 along t2): the triangle's pins never turn (a triangle of bars is rigid,
+ * Gruebler's count 3 (3 - 1) - 2 3 = 0), so they are no sites; the pin
+ * where the coupler drives the rocker still is one. */
+START_TEST(rigid_triangle_pins_are_no_sites) {
+  kl_model *m = kl_model_new();
+  int crank = kl_add_link(m, "crank"), t1 = kl_add_link(m, "t1");
+  int t2 = kl_add_link(m, "t2"), t3 = kl_add_link(m, "t3");
+  int rocker = kl_add_link(m, "rocker"), k, rigid = 0;
+  double side = hypot(60.0, 40.0), back = hypot(40.0, 40.0);
+  int pivot = kl_add_revolute(m, KL_GROUND, 0, 0, crank, 0, 0);
+  int crank_pin = kl_add_revolute(m, crank, 40, 0, t1, 0, 0);
+  int t1_t2 = kl_add_revolute(m, t1, 120, 0, t2, 0, 0);
+  int t2_t3 = kl_add_revolute(m, t2, side, 0, t3, 0, 0);
+  int t3_t1 = kl_add_revolute(m, t3, back, 0, t1, 20, 0);
+  int drive = kl_add_revolute(m, t2, 20, 0, rocker, 80, 0);
+  kl_output sites[8];
+  kl_transmission_skip skips[8];
+  int ns, nk;
+  kl_add_revolute(m, rocker, 0, 0, KL_GROUND, 100, 0);
+  kl_add_input(m, pivot);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  ns = kl_model_transmissions(m, sites, 8);
+  nk = kl_model_transmission_skips(m, skips, 8);
+  ck_assert_int_eq(ns, 1);
+  ck_assert_int_eq(sites[0].id, drive);
+  for (k = 0; k < nk; k++) {
+    int j = skips[k].joint;
+    if (j == crank_pin) {
+      ck_assert_int_eq(skips[k].reason, KL_TRANSMISSION_SKIP_INPUT_CRANK);
+      continue;
+    }
+    ck_assert_int_eq(skips[k].reason, KL_TRANSMISSION_SKIP_RIGID);
+    ck_assert(j == t1_t2 || j == t2_t3 || j == t3_t1);
+    /* the third bar of the triangle */
+    ck_assert_int_eq(skips[k].link, j == t1_t2 ? t3 : j == t2_t3 ? t1 : t2);
+    rigid++;
+  }
+  ck_assert_int_eq(rigid, 3);
+  check_cover(m);
+  kl_model_free(m);
+}
+END_TEST
+
 START_TEST(sites_refuse_what_they_cannot_give) {
   fourbar f = build_fourbar(40, 120, 80, 100);
   kl_model *open = kl_model_new();
@@ -311,8 +413,10 @@ int main(void) {
   tcase_add_test(tc, fourbar_loop_refuses_what_it_cannot_read);
   tcase_add_test(tc, fourbar_site_is_the_coupler_rocker_pin);
   tcase_add_test(tc, slider_crank_has_no_site);
+  tcase_add_test(tc, slider_pressure_angle_matches_the_closed_form);
   tcase_add_test(tc, six_bars_cover_each_joint_once);
   tcase_add_test(tc, sites_refuse_what_they_cannot_give);
+  tcase_add_test(tc, rigid_triangle_pins_are_no_sites);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }

@@ -356,6 +356,37 @@ START_TEST(stroke_and_time_ratio_match_the_dead_centres) {
                 "time ratio %.15g, closed form %.15g", ratio,
                 out / (2 * PI - out));
 
+  /* the trade's convention: slower stroke over faster, >= 1; with this
+   * offset the block returns (max to min) through 2 pi - A > pi, so the
+   * return is the slower stroke and the raw ratio above is below 1 */
+  {
+    double quick, angle;
+    int slower;
+    ck_assert_double_lt(ratio, 1.0);
+    ck_assert_int_eq(kl_range_quick_return(&range, &quick, &slower, &angle),
+                     KL_OK);
+    ck_assert_msg(fabs(quick - (2 * PI - out) / out) <= 1e-9,
+                  "quick return %.15g, closed form %.15g", quick,
+                  (2 * PI - out) / out);
+    ck_assert_int_eq(slower, KL_STROKE_FALLING);
+    ck_assert_double_le(fabs(angle - (2 * PI - out)), 1e-9);
+    ck_assert_str_eq(kl_stroke_str(slower), "falling");
+    ck_assert_int_eq(kl_range_quick_return(&range, &quick, NULL, NULL), KL_OK);
+    ck_assert_int_eq(kl_range_quick_return(&range, NULL, NULL, NULL),
+                     KL_EINVAL);
+    wrong = range;
+    wrong.input_at_max = wrong.input_at_min + PI;
+    ck_assert_int_eq(kl_range_quick_return(&wrong, &quick, &slower, NULL),
+                     KL_OK);
+    ck_assert_int_eq(slower, KL_STROKE_EQUAL);
+    ck_assert_double_le(fabs(quick - 1.0), 1e-12);
+    wrong.input_at_max = wrong.input_at_min + 4.0;
+    ck_assert_int_eq(kl_range_quick_return(&wrong, &quick, &slower, NULL),
+                     KL_OK);
+    ck_assert_int_eq(slower, KL_STROKE_RISING);
+    ck_assert_double_le(fabs(quick - 4.0 / (2 * PI - 4.0)), 1e-12);
+  }
+
   /* bad ranges */
   ratio = -7.0;
   ck_assert_int_eq(kl_range_time_ratio(NULL, &ratio), KL_EINVAL);
@@ -419,6 +450,135 @@ START_TEST(range_up_to_a_motion_limit) {
 END_TEST
 
 /* ------------------------------------------------------------------------
+ * 4b. Many outputs' ranges from one sweep (kl_output_ranges)
+ * ------------------------------------------------------------------------ */
+
+/*
+ * Source: the law of cosines for the transmission angle's extremes (as in
+ * section 2) and the slider-crank's dead centres (section 3); with 37 steps
+ * from -1 rad the extremes fall between samples, so the shared refinement
+ * must find them.
+ */
+START_TEST(ranges_from_one_sweep_match_the_closed_forms) {
+  fourbar f = build_fourbar(40, 120, 80, 100);
+  slider_crank sc = build_slider_crank(30, 100, 12);
+  kl_solver *s = kl_solver_new(f.m), *t = kl_solver_new(sc.m);
+  kl_output outs[2];
+  kl_range r[2];
+  const double mu_min = acos((f.b * f.b + f.c * f.c - (f.d - f.a) * (f.d - f.a)) /
+                             (2 * f.b * f.c));
+  const double mu_max = acos((f.b * f.b + f.c * f.c - (f.d + f.a) * (f.d + f.a)) /
+                             (2 * f.b * f.c));
+  const double l = sc.l, rr = sc.r, e = sc.e;
+  const double x_max = sqrt((l + rr) * (l + rr) - e * e);
+  const double x_min = sqrt((l - rr) * (l - rr) - e * e);
+  int sense;
+  outs[0] = transmission(&f);
+  outs[1] = output(KL_OUTPUT_LINK_ANGLE, f.rocker, 0, 0);
+  kl_set_link_angle(s, f.coupler, 0.6);
+  kl_set_link_angle(s, f.rocker, 1.1);
+  for (sense = 1; sense >= -1; sense -= 2) {
+    double from = -1.0 * sense, to = from + sense * 2 * PI;
+    r[0] = new_range();
+    r[1] = new_range();
+    ck_assert_int_eq(kl_output_ranges(s, 0, from, to, 37, 2, outs, r), KL_OK);
+    ck_assert_int_eq(r[0].sweep_status, KL_OK);
+    ck_assert_msg(fabs(r[0].min - mu_min) <= CLOSED_FORM_TOL, "min %.15g vs %.15g",
+                  r[0].min, mu_min);
+    ck_assert_msg(fabs(r[0].max - mu_max) <= CLOSED_FORM_TOL, "max %.15g vs %.15g",
+                  r[0].max, mu_max);
+    ck_assert_msg(fabs(angle_diff(r[0].input_at_min, 0.0)) <= 1e-9,
+                  "minimum at %.15g", r[0].input_at_min);
+    ck_assert_msg(fabs(angle_diff(r[0].input_at_max, PI)) <= 1e-9,
+                  "maximum at %.15g", r[0].input_at_max);
+    ck_assert_double_eq(kl_input_value(s, 0), to);
+  }
+  outs[0] = output(KL_OUTPUT_SLIDE, sc.slide_joint, 0, 0);
+  r[0] = new_range();
+  kl_set_link_angle(t, sc.rod, -0.1);
+  kl_set_joint_slide(t, sc.slide_joint, 120.0);
+  ck_assert_int_eq(kl_output_ranges(t, 0, 0.0, 2 * PI, 72, 1, outs, r), KL_OK);
+  ck_assert_double_le(fabs(r[0].max - x_max), 1e-9);
+  ck_assert_double_le(fabs(r[0].min - x_min), 1e-9);
+  ck_assert_double_le(fabs(r[0].input_at_max - asin(e / (l + rr))), 1e-9);
+  ck_assert_double_le(fabs(r[0].input_at_min - (PI + asin(e / (l - rr)))), 1e-9);
+  /* refused: NULL, a size unset, a bad output (nothing moves) */
+  ck_assert_int_eq(kl_output_ranges(t, 0, 0.0, 1.0, 4, 1, NULL, r), KL_EINVAL);
+  r[0].size = 0;
+  ck_assert_int_eq(kl_output_ranges(t, 0, 0.0, 1.0, 4, 1, outs, r), KL_EINVAL);
+  r[0] = new_range();
+  outs[0].id = 99;
+  ck_assert_int_eq(kl_output_ranges(t, 0, 0.0, 1.0, 4, 1, outs, r), KL_EID);
+  kl_solver_free(s);
+  kl_solver_free(t);
+  kl_model_free(f.m);
+  kl_model_free(sc.m);
+}
+END_TEST
+
+/* Every rocker angle and transmission angle of a chain of 12 loops from one
+ * sweep agrees with kl_output_range of each alone (whose refinement is
+ * checked against closed forms above), in values and where they occur;
+ * and a range up to a motion limit (section 4's four-bar) too. */
+START_TEST(ranges_from_one_sweep_match_one_range_each) {
+  enum { LOOPS = 12 };
+  chain c = build_chain(LOOPS);
+  fourbar f = build_fourbar(70, 50, 60, 100);
+  kl_solver *s = kl_solver_new(c.m), *one = kl_solver_new(c.m);
+  kl_solver *lim = kl_solver_new(f.m);
+  kl_output outs[3 * LOOPS];
+  kl_range r[3 * LOOPS], each = new_range();
+  int n = 0, k, sites;
+  for (k = 0; k < LOOPS; k++)
+    outs[n++] = output(KL_OUTPUT_LINK_ANGLE, c.rockers[k], 0, 0);
+  sites = kl_model_transmissions(c.m, outs + n, 2 * LOOPS);
+  ck_assert_int_ge(sites, LOOPS);
+  n += sites;
+  for (k = 0; k < n; k++)
+    r[k] = new_range();
+  sketch_chain(&c, s, 0.3);
+  ck_assert_int_eq(kl_solve_position(s, (const double[]){0.3}), KL_OK);
+  ck_assert_int_eq(kl_solver_copy_state(one, s), KL_OK);
+  ck_assert_int_eq(kl_output_ranges(s, 0, 0.3, 0.3 + 2 * PI, 90, n, outs, r),
+                   KL_OK);
+  for (k = 0; k < n; k++) {
+    kl_solver *fresh = kl_solver_new(c.m);
+    kl_solver_copy_state(fresh, one);
+    ck_assert_int_eq(kl_output_range(fresh, 0, 0.3, 0.3 + 2 * PI, 90, &outs[k],
+                                     &each),
+                     KL_OK);
+    ck_assert_msg(fabs(r[k].min - each.min) <= 1e-10 &&
+                      fabs(r[k].max - each.max) <= 1e-10,
+                  "output %d: %.15g..%.15g vs %.15g..%.15g", k, r[k].min,
+                  r[k].max, each.min, each.max);
+    ck_assert_msg(fabs(r[k].input_at_min - each.input_at_min) <= 1e-7 &&
+                      fabs(r[k].input_at_max - each.input_at_max) <= 1e-7,
+                  "output %d: at %.15g, %.15g vs %.15g, %.15g", k,
+                  r[k].input_at_min, r[k].input_at_max, each.input_at_min,
+                  each.input_at_max);
+    kl_solver_free(fresh);
+  }
+  outs[0] = output(KL_OUTPUT_LINK_ANGLE, f.rocker, 0, 0);
+  kl_set_link_angle(lim, f.coupler, -0.2);
+  kl_set_link_angle(lim, f.rocker, 1.5);
+  r[0] = new_range();
+  ck_assert_int_eq(kl_output_ranges(lim, 0, 0.0, PI, 40, 1, outs, r), KL_LIMIT);
+  kl_set_link_angle(lim, f.coupler, -0.2);
+  kl_set_link_angle(lim, f.rocker, 1.5);
+  ck_assert_int_eq(kl_output_range(lim, 0, 0.0, PI, 40, &outs[0], &each),
+                   KL_LIMIT);
+  ck_assert_double_le(fabs(r[0].min - each.min), 1e-10);
+  ck_assert_double_le(fabs(r[0].max - each.max), 1e-10);
+  ck_assert_double_le(fabs(r[0].limit_input - each.limit_input), 1e-12);
+  kl_solver_free(s);
+  kl_solver_free(one);
+  kl_solver_free(lim);
+  kl_model_free(c.m);
+  kl_model_free(f.m);
+}
+END_TEST
+
+/* ------------------------------------------------------------------------
  * 5. Static input effort by virtual work
  * ------------------------------------------------------------------------ */
 
@@ -455,10 +615,22 @@ START_TEST(failed_range_changes_nothing) {
   ck_assert_int_eq(kl_solve_acceleration(s, &a), KL_OK);
   ck_assert_int_eq(kl_solve_coefficients(s), KL_OK);
   before = snap(s);
+  r.min = r.max = NAN;
   ck_assert_int_eq(kl_output_range(s, 0, 0.3, -0.3, 6, &o, &r),
                    KL_ESINGULAR);
   after = snap(s);
   assert_same_state(&before, &after, "kl_output_range at a change point");
+  /* the range swept before the change point is kept, with its location:
+   * the parallel branch's output angle equals the input angle (common
+   * practice, no source), the change point is at input 0 */
+  ck_assert_int_eq(r.sweep_status, KL_ESINGULAR);
+  ck_assert_msg(fabs(r.limit_input) <= 1e-9, "change point at %.15g",
+                r.limit_input);
+  ck_assert_double_le(fabs(r.max - 0.3), 1e-9);
+  ck_assert_double_le(fabs(r.input_at_max - 0.3), 1e-12);
+  ck_assert_double_le(fabs(r.min - r.input_at_min), 1e-9);
+  ck_assert(r.input_at_min >= 0.0 && r.input_at_min < 0.3);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "change point"));
   ck_assert_double_eq(kl_link_rate(s, f.crank), 7.0);
   kl_solver_free(s);
   kl_model_free(f.m);
@@ -1313,6 +1485,8 @@ int main(void) {
   tcase_add_test(tc, transmission_angle_extremes_match_the_law_of_cosines);
   tcase_add_test(tc, stroke_and_time_ratio_match_the_dead_centres);
   tcase_add_test(tc, range_up_to_a_motion_limit);
+  tcase_add_test(tc, ranges_from_one_sweep_match_the_closed_forms);
+  tcase_add_test(tc, ranges_from_one_sweep_match_one_range_each);
   tcase_add_test(tc, failed_range_changes_nothing);
   tcase_add_test(tc, slider_crank_torque_matches_statics);
   tcase_add_test(tc, slider_crank_torque_range_matches_statics);

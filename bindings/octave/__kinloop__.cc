@@ -349,6 +349,15 @@ octave_value_list cmd_model_transmissions(const call &c) {
   return one(out);
 }
 
+octave_value_list cmd_model_pressure_sites(const call &c) {
+  std::vector<kl_output> sites =
+      filled(c, c.model(0, access::read).model, kl_model_pressure_sites);
+  octave_map out(dim_vector(1, static_cast<octave_idx_type>(sites.size())));
+  for (size_t k = 0; k < sites.size(); k++)
+    out.assign(static_cast<octave_idx_type>(k), to_octave(sites[k]));
+  return one(out);
+}
+
 octave_value_list cmd_model_transmission_skips(const call &c) {
   std::vector<kl_transmission_skip> skips =
       filled(c, c.model(0, access::read).model, kl_model_transmission_skips);
@@ -358,9 +367,11 @@ octave_value_list cmd_model_transmission_skips(const call &c) {
     one_skip.assign("joint", skips[k].joint);
     one_skip.assign("loop", skips[k].loop);
     one_skip.assign("link", skips[k].link);
-    one_skip.assign("reason", skips[k].reason == KL_TRANSMISSION_SKIP_INPUT_CRANK
-                                  ? "input_crank"
-                                  : "no_line");
+    int why = skips[k].reason;
+    one_skip.assign("reason", why == KL_TRANSMISSION_SKIP_INPUT_CRANK ? "input_crank"
+                              : why == KL_TRANSMISSION_SKIP_RIGID     ? "rigid"
+                              : why == KL_TRANSMISSION_SKIP_SLIDER    ? "slider"
+                                                                      : "no_line");
     out.assign(static_cast<octave_idx_type>(k), one_skip);
   }
   return one(out);
@@ -659,6 +670,31 @@ octave_map peak_list(const std::vector<kl_cycle_peak> &peaks, int n) {
   return out;
 }
 
+/* kl_output_ranges: (solver, input, from, to, steps, outputs), outputs a
+ * struct array of kl_output; a struct array of kl_range, one per output. */
+octave_value_list cmd_output_ranges(const call &c) {
+  entry &s = c.solver(0);
+  int input = c.whole<int>(c.arg(1), "input");
+  double from = c.real(c.arg(2), "from");
+  double to = c.real(c.arg(3), "to");
+  int steps = c.whole<int>(c.arg(4), "steps");
+  octave_map list = c.struct_list(5, "outputs");
+  std::vector<kl_output> outs(static_cast<size_t>(list.numel()), kl_output());
+  for (octave_idx_type k = 0; k < list.numel(); k++)
+    from_octave(c, list, k, "outputs", outs[static_cast<size_t>(k)], false);
+  int n = c.count(outs.size(), "outputs");
+  kl_range blank = kl_range();
+  blank.size = sizeof blank;
+  std::vector<kl_range> ranges(outs.size() > 0 ? outs.size() : 1, blank);
+  c.check(kl_output_ranges(s.solver, input, from, to, steps, n,
+                           outs.empty() ? nullptr : outs.data(), ranges.data()),
+          kl_solver_error(s.solver));
+  octave_map out(dim_vector(1, n));
+  for (int k = 0; k < n; k++)
+    out.assign(k, to_octave(ranges[static_cast<size_t>(k)]));
+  return one(octave_value(out));
+}
+
 /* [summary, input_peaks, joint_peaks] of kl_cycle_summarize. */
 octave_value_list cmd_cycle_summarize(const call &c) {
   entry &s = c.solver(0);
@@ -942,6 +978,7 @@ const command hand_commands[] = {
     {"model_loop", 2, 2, "(model, loop)", cmd_model_loop},
     {"model_transmissions", 1, 1, "(model)", cmd_model_transmissions},
     {"model_transmission_skips", 1, 1, "(model)", cmd_model_transmission_skips},
+    {"model_pressure_sites", 1, 1, "(model)", cmd_model_pressure_sites},
     {"solver_row", 1, 1, "(solver)", cmd_solver_row},
     {"model_read", 1, 1, "(text)", cmd_model_read},
     {"model_read_file", 1, 1, "(path)", cmd_model_read_file},
@@ -953,6 +990,7 @@ const command hand_commands[] = {
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
+    {"output_ranges", 6, 6, "(solver, input, from, to, steps, outputs)", cmd_output_ranges},
     {"cycle_summarize", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_summarize},
     {"solver_workspace", 2, 3, "(solver, point, [options])", cmd_solver_workspace},
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},

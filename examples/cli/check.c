@@ -115,12 +115,50 @@ static void print_structure(FILE *f, const cli_model *cm) {
   }
 }
 
-/* The range of one output from the start state in `base`. */
-static int measure(kl_solver *work, const kl_solver *base, const cli_range *r,
-                   const kl_output *out, kl_range *range) {
+/*
+ * The ranges of every output the report reads, from one sweep that starts
+ * at `base`'s state (kl_output_ranges: the cost of a few sweeps at most,
+ * whatever the model's size). Outputs: each ground pivot's link angle (-1
+ * where the joint is no such pivot), each slide's, each transmission
+ * site's, then the `npressure` pressure-angle sites already in outs after
+ * room for those, in that order; ranges[i] receives output i's. Returns
+ * the count, or -1 when the ranges cannot be measured.
+ */
+static int measure_all(kl_solver *work, const kl_solver *base,
+                       const cli_model *cm, const cli_range *r, int *pivot_of,
+                       const kl_output *pressure, int npressure,
+                       kl_output *outs, kl_range *ranges) {
+  const kl_model *m = cm->model;
+  int n = 0, j, i;
+  for (j = 0; j < cm->njoints; j++) {
+    int links[2];
+    pivot_of[j] = -1;
+    kl_model_joint_links(m, j, links, NULL, NULL);
+    if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE ||
+        is_input_joint(cm, j) ||
+        (links[0] != KL_GROUND && links[1] != KL_GROUND))
+      continue;
+    memset(&outs[n], 0, sizeof outs[n]);
+    outs[n].kind = KL_OUTPUT_LINK_ANGLE;
+    outs[n].id = links[0] == KL_GROUND ? links[1] : links[0];
+    pivot_of[j] = n++;
+  }
+  for (i = 0; i < cm->nslides; i++) {
+    memset(&outs[n], 0, sizeof outs[n]);
+    outs[n].kind = KL_OUTPUT_SLIDE;
+    outs[n++].id = cm->slides[i];
+  }
+  for (i = 0; i < cm->nsites; i++)
+    outs[n++] = cm->sites[i];
+  for (i = 0; i < npressure; i++)
+    outs[n++] = pressure[i];
+  for (i = 0; i < n; i++)
+    ranges[i].size = sizeof ranges[i];
   kl_solver_copy_state(work, base);
-  range->size = sizeof *range;
-  return kl_output_range(work, r->input, r->from, r->to, r->steps, out, range);
+  if (kl_output_ranges(work, r->input, r->from, r->to, r->steps, n, outs,
+                       ranges) < 0)
+    return -1;
+  return n;
 }
 
 /* Tracks the smallest condition estimate of a sweep and where it occurs. */
@@ -138,6 +176,26 @@ static int rcond_row(void *user, int step, const double *row) {
   return 0;
 }
 
+/* "; time ratio 1.36 (slower: the rise to the maximum, over 208 deg of
+ * motor)": the quick-return ratio as the trade states it, slower stroke
+ * over faster, and which stroke is the slower. */
+static void print_time_ratio(FILE *f, const cli_model *cm, int input,
+                             const kl_range *range) {
+  double ratio, angle;
+  int slower;
+  if (kl_range_quick_return(range, &ratio, &slower, &angle) != KL_OK)
+    return;
+  fprintf(f, "; time ratio %.4f", ratio);
+  if (slower == KL_STROKE_EQUAL)
+    fprintf(f, " (both strokes take half a turn)");
+  else
+    fprintf(f, " (slower: the %s, over %.6g %s of %s)",
+            slower == KL_STROKE_RISING ? "rise to the maximum"
+                                       : "return to the minimum",
+            angle * cli_input_factor(cm, input), cli_input_unit(cm, input),
+            cli_input_name(cm, input));
+}
+
 /* "at motor 35.2 and 222 deg": where a range has its two extremes. */
 static void at_pair(const cli_model *cm, int input, double a, double b,
                     char *buf, size_t cap) {
@@ -149,102 +207,149 @@ static void at_pair(const cli_model *cm, int input, double a, double b,
 static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
                          kl_solver *work, const cli_range *r,
                          const kl_sweep_result *res, warnings *w) {
-  const kl_model *m = cm->model;
   double k = cm->angle_factor;
   char lo[320], hi[320], both[700];
   int full_turn = cli_input_is_angle(cm, r->input) &&
                   fabs(r->to - r->from - 2 * CLI_PI) < 1e-12 * 2 * CLI_PI &&
                   res->status == KL_OK;
-  int j, i;
+  int npressure = kl_model_pressure_sites(cm->model, NULL, 0);
+  size_t most = (size_t)(cm->njoints + cm->nslides + cm->nsites + npressure);
+  int *pivot_of = malloc((size_t)cm->njoints * sizeof *pivot_of + 1);
+  kl_output *outs = malloc(most * sizeof *outs + 1);
+  kl_output *pressure = malloc((size_t)npressure * sizeof *pressure + 1);
+  kl_range *ranges = malloc(most * sizeof *ranges + 1);
+  int j, i, n, at;
+  if (pressure != NULL)
+    kl_model_pressure_sites(cm->model, pressure, npressure);
+  if (pivot_of == NULL || outs == NULL || ranges == NULL || pressure == NULL ||
+      (n = measure_all(work, base, cm, r, pivot_of, pressure, npressure, outs,
+                       ranges)) < 0) {
+    if (pivot_of == NULL || outs == NULL || ranges == NULL || pressure == NULL)
+      warn(w, "out of memory: the ranges were not measured");
+    else
+      warn(w, "the ranges could not be measured: %s", kl_solver_error(work));
+    free(pivot_of);
+    free(outs);
+    free(pressure);
+    free(ranges);
+    return;
+  }
   for (j = 0; j < cm->njoints; j++) {
-    int links[2], link;
-    kl_output out;
-    kl_range range;
-    double ratio;
-    kl_model_joint_links(m, j, links, NULL, NULL);
-    if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE || is_input_joint(cm, j) ||
-        (links[0] != KL_GROUND && links[1] != KL_GROUND))
+    const kl_range *range;
+    int link;
+    if (pivot_of[j] < 0)
       continue;
-    link = links[0] == KL_GROUND ? links[1] : links[0];
-    memset(&out, 0, sizeof out);
-    out.kind = KL_OUTPUT_LINK_ANGLE;
-    out.id = link;
-    if (measure(work, base, r, &out, &range) < 0)
-      continue;
-    at_pair(cm, r->input, range.input_at_min, range.input_at_max, both,
+    range = &ranges[pivot_of[j]];
+    link = outs[pivot_of[j]].id;
+    at_pair(cm, r->input, range->input_at_min, range->input_at_max, both,
             sizeof both);
-    if (range.max - range.min >= 2 * CLI_PI - 1e-6) {
+    if (range->max - range->min >= 2 * CLI_PI - 1e-6) {
       fprintf(f, LABEL "turns fully about %s\n", cm->link_names[link],
               cm->joint_names[j]);
       continue;
     }
     fprintf(f, LABEL "swings about %s from %.6g to %.6g %s, %s",
-            cm->link_names[link], cm->joint_names[j], range.min * k,
-            range.max * k, cm->angle_unit, both);
-    if (full_turn && kl_range_time_ratio(&range, &ratio) == KL_OK)
-      fprintf(f, "; time ratio %.4f", ratio);
+            cm->link_names[link], cm->joint_names[j], range->min * k,
+            range->max * k, cm->angle_unit, both);
+    if (full_turn)
+      print_time_ratio(f, cm, r->input, range);
     fputc('\n', f);
   }
+  at = n - npressure - cm->nsites - cm->nslides;
   for (i = 0; i < cm->nslides; i++) {
-    kl_output out;
-    kl_range range;
-    double ratio;
+    const kl_range *range = &ranges[at + i];
     const char *unit;
     if (is_input_joint(cm, cm->slides[i]))
       continue;
-    memset(&out, 0, sizeof out);
-    out.kind = KL_OUTPUT_SLIDE;
-    out.id = cm->slides[i];
-    if (measure(work, base, r, &out, &range) < 0)
-      continue;
-    at_pair(cm, r->input, range.input_at_min, range.input_at_max, both,
+    at_pair(cm, r->input, range->input_at_min, range->input_at_max, both,
             sizeof both);
     /* a curve slot's slide is the spline's parameter, not a length */
     unit = kl_model_joint_kind(cm->model, cm->slides[i]) == KL_JOINT_CURVE_SLOT
                ? "(curve parameter)"
                : cm->length_unit;
     fprintf(f, LABEL "stroke %.6g %s, from %.6g to %.6g %s, %s",
-            cm->joint_names[cm->slides[i]], range.max - range.min, unit,
-            range.min, range.max, unit, both);
-    if (full_turn && kl_range_time_ratio(&range, &ratio) == KL_OK)
-      fprintf(f, "; time ratio %.4f", ratio);
+            cm->joint_names[cm->slides[i]], range->max - range->min, unit,
+            range->min, range->max, unit, both);
+    if (full_turn)
+      print_time_ratio(f, cm, r->input, range);
     fputc('\n', f);
   }
+  at = n - npressure - cm->nsites;
   for (i = 0; i < cm->nsites; i++) {
     const kl_output *site = &cm->sites[i];
-    kl_range range;
-    if (measure(work, base, r, site, &range) < 0)
-      continue;
-    cli_format_input(cm, r->input, range.input_at_min, lo, sizeof lo);
-    cli_format_input(cm, r->input, range.input_at_max, hi, sizeof hi);
-    at_pair(cm, r->input, range.input_at_min, range.input_at_max, both,
+    const kl_range *range = &ranges[at + i];
+    cli_format_input(cm, r->input, range->input_at_min, lo, sizeof lo);
+    cli_format_input(cm, r->input, range->input_at_max, hi, sizeof hi);
+    at_pair(cm, r->input, range->input_at_min, range->input_at_max, both,
             sizeof both);
     fprintf(f,
             LABEL "transmission angle %.4g to %.4g %s, %s (lines to %s and "
                   "%s)\n",
-            cm->joint_names[site->id], range.min * k, range.max * k,
+            cm->joint_names[site->id], range->min * k, range->max * k,
             cm->angle_unit, both, cm->joint_names[site->line_a],
             cm->joint_names[site->line_b]);
-    if (range.min * 180 / CLI_PI < CLI_USUAL_LOW_DEG)
+    if (range->min * 180 / CLI_PI < CLI_USUAL_LOW_DEG)
       warn(w,
            "the transmission angle at %s falls to %.4g %s (at %s), below the "
            "usual %g deg: the joint pushes weakly there; change link lengths "
            "or keep the motion out of that part of the range",
-           cm->joint_names[site->id], range.min * k, cm->angle_unit, lo,
+           cm->joint_names[site->id], range->min * k, cm->angle_unit, lo,
            CLI_USUAL_LOW_DEG);
-    if (range.max * 180 / CLI_PI > CLI_USUAL_HIGH_DEG)
+    if (range->max * 180 / CLI_PI > CLI_USUAL_HIGH_DEG)
       warn(w,
            "the transmission angle at %s rises to %.4g %s (at %s), above the "
            "usual %g deg: the joint pushes weakly there; change link lengths "
            "or keep the motion out of that part of the range",
-           cm->joint_names[site->id], range.max * k, cm->angle_unit, hi,
+           cm->joint_names[site->id], range->max * k, cm->angle_unit, hi,
            CLI_USUAL_HIGH_DEG);
   }
+  at = n - npressure;
+  for (i = 0; i < npressure; i++) {
+    const kl_output *site = &pressure[i];
+    const kl_range *range = &ranges[at + i];
+    /* the complement of the usual lowest transmission angle */
+    double usual = 90.0 - CLI_USUAL_LOW_DEG;
+    int low = -range->min > range->max; /* the larger magnitude */
+    double worst = low ? -range->min : range->max;
+    cli_format_input(cm, r->input,
+                     low ? range->input_at_min : range->input_at_max, hi,
+                     sizeof hi);
+    at_pair(cm, r->input, range->input_at_min, range->input_at_max, both,
+            sizeof both);
+    fprintf(f,
+            LABEL "pressure angle %.4g to %.4g %s, %s (rod from %s to %s "
+                  "against the slide; signed, 0 ideal)\n",
+            cm->joint_names[site->id], range->min * k, range->max * k,
+            cm->angle_unit, both, cm->joint_names[site->line_a],
+            cm->joint_names[site->line_b]);
+    if (worst * 180 / CLI_PI > usual)
+      warn(w,
+           "the pressure angle at %s reaches %.4g %s (at %s), beyond the "
+           "usual %g deg: the rod pushes the slider across its guide there; "
+           "change link lengths or the slide's offset, or keep the motion "
+           "out of that part of the range",
+           cm->joint_names[site->id], worst * k, cm->angle_unit, hi, usual);
+  }
+  free(pivot_of);
+  free(outs);
+  free(pressure);
+  free(ranges);
   for (i = 0; i < cm->nskips; i++) {
     const kl_transmission_skip *u = &cm->skips[i];
     if (u->reason == KL_TRANSMISSION_SKIP_INPUT_CRANK)
       fprintf(f,
               LABEL "no transmission angle: the input turns link %s directly\n",
+              cm->joint_names[u->joint], cm->link_names[u->link]);
+    else if (u->reason == KL_TRANSMISSION_SKIP_SLIDER)
+      fprintf(f,
+              LABEL "no transmission angle: it drives slider %s, whose "
+                    "pressure angle is given instead\n",
+              cm->joint_names[u->joint], cm->link_names[u->link]);
+    else if (u->reason == KL_TRANSMISSION_SKIP_RIGID)
+      fprintf(f,
+              LABEL "no transmission angle: its links and link %s form a "
+                    "rigid triangle (one ternary link), so the pin never "
+                    "turns\n",
               cm->joint_names[u->joint], cm->link_names[u->link]);
     else
       fprintf(f,

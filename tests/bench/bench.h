@@ -184,5 +184,13 @@ typedef struct {
 } study_figures;
 
 void bench_study(FILE *out, const bench_plan *plan, study_figures *fig);
+/* ---- part 6: kinloop check against one sweep ---- */
+typedef struct {
+  double check_over_sweep_500; /* kinloop check / kinloop sweep, N = 500 */
+  int valid;                   /* every run of the tool succeeded */
+} check_figures;
+/* Runs and prints part 6: the tool (KINLOOP_TOOL, set by the build) on
+ * model files of chains of 10 to 500 loops. */
+void bench_check(FILE *out, const bench_plan *plan, check_figures *fig);
 
 #endif

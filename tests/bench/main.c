@@ -46,7 +46,8 @@ int main(int argc, char **argv) {
   thread_figures threads = {0};
   force_figures forces = {0};
   study_figures study = {0};
-  target targets[10];
+  check_figures checks = {0};
+  target targets[11];
   size_t i;
   int arg;
   for (arg = 1; arg < argc; arg++) {
@@ -69,6 +70,7 @@ int main(int argc, char **argv) {
   bench_forces(stdout, &plan, &forces);
   fflush(stdout);
   bench_study(stdout, &plan, &study);
+  bench_check(stdout, &plan, &checks);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -131,6 +133,12 @@ int main(int argc, char **argv) {
   targets[9].at_most = 1;
   targets[9].valid = study.valid;
   targets[9].unit = "x";
+  targets[10].what = "kinloop check <= 10x one kinloop sweep at N = 500";
+  targets[10].measured = checks.check_over_sweep_500;
+  targets[10].limit = 10.0;
+  targets[10].at_most = 1;
+  targets[10].valid = checks.valid;
+  targets[10].unit = "x";
   printf("\n== targets (ratios measured in this run%s) ==\n",
          plan.quick ? "; QUICK MODE: single samples, not for reporting" : "");
   printf("%-62s %10s  %s\n", "target", "measured", "verdict");

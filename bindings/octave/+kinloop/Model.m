@@ -94,6 +94,12 @@ classdef Model < kinloop.ModelMethods
       sites = __kinloop__('model_transmissions', obj.id);
     end
 
+    function sites = pressure_sites(obj)
+      % The sliders' pressure-angle sites kinloop measures
+      % (kl_model_pressure_sites): a struct array of outputs.
+      sites = __kinloop__('model_pressure_sites', obj.id);
+    end
+
     function skips = transmission_skips(obj)
       % The joints passed over for a transmission angle, with the reason
       % (kl_model_transmission_skips).

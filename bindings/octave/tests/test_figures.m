@@ -39,6 +39,18 @@ assert(min(abs(angle_diff(rock.min, toggles))) <= 1e-9 && ...
        min(abs(angle_diff(rock.max, toggles))) <= 1e-9 && rock.max - rock.min > 0.1, ...
        'rocker swings [%.12g %.12g], law of cosines %s', rock.min, rock.max, mat2str(toggles, 12));
 
+% ---- every output's range from one sweep ----
+% kl_output_ranges agrees with the law of cosines above and with
+% output_range of the rocker alone
+s.set_link_angle(f.coupler, t3);
+s.set_link_angle(f.rocker, t4);
+both = s.output_ranges(0, 0, 2 * pi, 72, [mu, struct('kind', 'link_angle', 'id', f.rocker, ...
+                                                      'line_a', 0, 'line_b', 0)]);
+assert(numel(both) == 2);
+assert(abs(both(1).min - mu_min) <= 1e-9 && abs(both(1).max - mu_max) <= 1e-9);
+assert(abs(both(2).min - rock.min) <= 1e-10 && abs(both(2).max - rock.max) <= 1e-10);
+assert(abs(both(2).input_at_max - rock.input_at_max) <= 1e-7);
+
 % ---- kinematic coefficients at one crank angle ----
 u = 0.7;
 s.solve_position(u);

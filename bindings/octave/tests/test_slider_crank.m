@@ -39,6 +39,14 @@ for through = [false true]
     % the prismatic lock keeps the block at ground's angle
     assert(s.link_angle(block) == 0);
     assert(norm(s.link_origin(block) - [x e]) <= 1e-10 * l);
+    % frame origins' motion: the block's origin runs with the slide; the
+    % rod's is the crank pin, on a circle of radius r (at unit crank rate
+    % and no crank acceleration, velocity r (-sin t, cos t) and the
+    % centripetal acceleration -r (cos t, sin t))
+    s.solve_acceleration(0);
+    assert(norm(s.link_origin_velocity(block) - [xdot 0]) <= 1e-9 * l);
+    assert(norm(s.link_origin_velocity(rod) - r * [-sin(t) cos(t)]) <= 1e-9 * l);
+    assert(norm(s.link_origin_accel(rod) + r * [cos(t) sin(t)]) <= 1e-9 * l);
     assert(isnan(s.joint_slide(pivot)), 'a revolute joint has no slide');
   end
   clear s m

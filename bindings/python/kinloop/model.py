@@ -208,6 +208,13 @@ class Model(_api.ModelMethods, Handle):
                                                 raw.kl_output, "transmissions")]
 
     @property
+    def pressure_sites(self):
+        """The sliders' pressure-angle sites kinloop measures
+        (kl_model_pressure_sites), as Outputs."""
+        return [value_of(o) for o in self._fill(_api.kl_model_pressure_sites,
+                                                raw.kl_output, "pressure_sites")]
+
+    @property
     def transmission_skips(self):
         """The joints passed over for a transmission angle, with the reason
         (kl_model_transmission_skips)."""

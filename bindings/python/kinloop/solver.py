@@ -194,6 +194,37 @@ class Solver(_api.SolverMethods, Handle):
         self._check(status, result=result)
         return result
 
+    # ---- ranges of outputs ----
+
+    def output_range(self, input, from_, to, steps, o):
+        """Extremes of output `o` while input `input` sweeps from `from_` to
+        `to` in `steps` steps (kl_output_range): a Range (min, max, where,
+        sweep_status OK or LIMIT, limit_input). A negative status raises
+        KinloopError and leaves the solver as it was; at a change point
+        (Status.ESINGULAR) the error's `result` is the Range of the part
+        swept before it, its limit_input the change point's location."""
+        found = raw.kl_range()
+        status = _api.kl_output_range(self._changing, input, from_, to, steps, o,
+                                      ctypes.byref(found))
+        kept = value_of(found) if status == Status.ESINGULAR else None
+        self._check(status, result=kept)
+        return value_of(found)
+
+    def output_ranges(self, input, from_, to, steps, outputs):
+        """The extremes of every output in `outputs` (a sequence of Output)
+        from one sweep (kl_output_ranges), a list of Range in their order:
+        the cost of a few sweeps whatever their number, where calling
+        output_range for each costs a sweep apiece. A negative status
+        raises KinloopError and leaves the solver as it was."""
+        function = "kl_output_ranges"
+        outs, count = array_of(outputs, raw.kl_output, function, "outputs")
+        found = (raw.kl_range * max(count, 1))()
+        for r in found:
+            r.size = ctypes.sizeof(raw.kl_range)
+        self._check(_api.kl_output_ranges(self._changing, input, from_, to, steps,
+                                          count, outs, found))
+        return [value_of(r) for r in found[:count]]
+
     # ---- force figures over a cycle ----
 
     def _cycle_arguments(self, function, loads, cycle, fields):

@@ -47,6 +47,13 @@ class Output(_api.Output):
         `line_a` and the line on its link b to joint `line_b`."""
         return cls(OutputKind.TRANSMISSION, joint, line_a, line_b)
 
+    @classmethod
+    def pressure(cls, slide, pin, rod_line):
+        """Pressure angle at sliding joint `slide`: between the rod's line
+        from revolute joint `pin` (on the slider) to joint `rod_line` (on
+        the rod) and the slide's direction of motion; 0 is ideal."""
+        return cls(OutputKind.PRESSURE, slide, pin, rod_line)
+
 
 class Load(_api.Load):
     """kl_load: a force at a point or a torque on a link."""

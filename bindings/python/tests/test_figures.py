@@ -234,3 +234,109 @@ def test_every_kernel_gives_the_same_answers(kernel):
     with pytest.raises(kl.KinloopError) as info:
         s.set_options(kernel=99)
     assert info.value.status == kl.Status.EINVAL
+
+
+def test_quick_return_is_slower_over_faster_and_names_the_stroke():
+    """The trade's time ratio (slower stroke over faster, >= 1; common
+    practice, no source) from the crank angles of the extremes: rising 4
+    rad of the turn, falling 2 pi - 4."""
+    r = kl.Range(0.0, 1.0, 0.5, 4.5, kl.Status.OK, math.nan)
+    ratio, slower, angle = r.quick_return()
+    assert ratio == pytest.approx(4.0 / (2 * math.pi - 4.0), rel=1e-12)
+    assert slower == kl.Stroke.RISING and str(kl.Stroke(slower)) == "rising"
+    assert angle == pytest.approx(4.0, abs=1e-12)
+    back = kl.Range(0.0, 1.0, 4.5, 0.5 + 2 * math.pi, kl.Status.OK, math.nan)
+    ratio, slower, angle = back.quick_return()
+    assert ratio == pytest.approx(4.0 / (2 * math.pi - 4.0), rel=1e-12)
+    assert slower == kl.Stroke.FALLING and ratio >= 1
+    assert back.time_ratio() < 1
+
+
+def test_output_range_keeps_the_range_up_to_a_change_point():
+    """At a change point output_range raises, and the error's result is
+    the range swept before it, with the change point's location; the
+    parallel branch's rocker follows the crank (the parallelogram's closed
+    form, common practice, no source), so the range is the crank's."""
+    f = build_fourbar(40, 100, 40, 100)  # parallelogram, chosen for this test
+    s = kl.Solver(f.model)
+    s.set_link_angle(f.coupler, 0.02)
+    s.set_link_angle(f.rocker, 0.48)
+    with pytest.raises(kl.KinloopError) as stop:
+        s.output_range(0, 0.5, 0.5 + 2 * math.pi, 40, kl.Output.link_angle(f.rocker))
+    e = stop.value
+    assert e.status == kl.Status.ESINGULAR and "change point" in e.message
+    assert e.result is not None and e.result.sweep_status == kl.Status.ESINGULAR
+    assert e.result.limit_input == pytest.approx(math.pi, abs=1e-9)
+    assert e.result.min == pytest.approx(0.5, abs=1e-9)
+    assert e.result.input_at_min == pytest.approx(0.5, abs=1e-12)
+    assert abs(e.result.max - e.result.input_at_max) <= 1e-9
+    assert math.pi - 0.2 < e.result.input_at_max < math.pi
+
+
+def test_output_ranges_from_one_sweep_match_one_range_each():
+    """kl_output_ranges agrees with output_range of each output alone."""
+    f = build_fourbar(A, B, C, D)
+    s = kl.Solver(f.model)
+    sketch_branch(s, f, 0.0, -1)
+    s.solve_position(0.0)
+    start = s.copy()
+    outs = [kl.Output.link_angle(f.rocker), kl.Output.link_angle(f.coupler)] + \
+        list(f.model.transmissions)
+    together = s.output_ranges(0, 0.0, 2 * math.pi, 72, outs)
+    assert len(together) == len(outs)
+    for o, r in zip(outs, together):
+        alone = start.copy().output_range(0, 0.0, 2 * math.pi, 72, o)
+        assert r.min == pytest.approx(alone.min, abs=1e-10)
+        assert r.max == pytest.approx(alone.max, abs=1e-10)
+        assert r.input_at_min == pytest.approx(alone.input_at_min, abs=1e-7)
+        assert r.input_at_max == pytest.approx(alone.input_at_max, abs=1e-7)
+
+
+def test_link_origin_velocity_and_acceleration_reach_python():
+    """The coupler's frame origin is the crank pin, which moves on a circle
+    of radius a about the crank pivot: velocity a w (-sin t, cos t),
+    acceleration a (-w^2 cos t - al sin t, -w^2 sin t + al cos t)
+    (circular motion, standard kinematics)."""
+    f = build_fourbar(A, B, C, D)
+    s = kl.Solver(f.model)
+    sketch_branch(s, f, 0.0, -1)
+    w, al = 3.0, 2.0
+    for t in (0.0, 0.7, 2.5, 4.0):
+        s.solve_position(t)
+        s.solve_velocity(w)
+        s.solve_acceleration(al)
+        v = s.link_origin_velocity(f.coupler)
+        acc = s.link_origin_accel(f.coupler)
+        assert v == pytest.approx((-A * w * math.sin(t), A * w * math.cos(t)), abs=1e-9)
+        assert acc == pytest.approx((A * (-w * w * math.cos(t) - al * math.sin(t)),
+                                     A * (-w * w * math.sin(t) + al * math.cos(t))),
+                                    abs=1e-9)
+
+
+def test_slider_pressure_angle_matches_the_closed_form():
+    """The offset slider-crank's pressure angle (crank r, rod l, offset e;
+    standard kinematics): the rod stands at phi with sin phi =
+    (e - r sin t) / l against the slide, the signed angle, from
+    asin((e - r) / l) to asin((e + r) / l); the pin is on the slide point."""
+    r, l, e = 25.0, 90.0, 10.0  # chosen for this test
+    m = kl.Model()
+    crank, rod, block = m.add_link("crank"), m.add_link("rod"), m.add_link("block")
+    pivot = m.add_revolute(kl.GROUND, (0, 0), crank, (0, 0))
+    crank_pin = m.add_revolute(crank, (r, 0), rod, (0, 0))
+    pin = m.add_revolute(rod, (l, 0), block, (0, 0))
+    slide = m.add_prismatic(kl.GROUND, (0, e), 0.0, block, (0, 0))
+    m.add_input(pivot)
+    m.finalize()
+    assert m.pressure_sites == [kl.Output.pressure(slide, pin, crank_pin)]
+    assert [k.reason for k in m.transmission_skips if k.joint == pin] == \
+        [kl.TransmissionSkipReason.SLIDER]
+    s = kl.Solver(m)
+    s.set_link_angle(rod, -0.1)
+    s.set_joint_slide(slide, 100.0)
+    for t in [0.1 + 0.5 * k for k in range(13)]:
+        s.solve_position(t)
+        assert s.output_value(m.pressure_sites[0]) == pytest.approx(
+            math.asin((e - r * math.sin(t)) / l), abs=1e-10)
+    top = s.output_range(0, 0.0, 2 * math.pi, 72, m.pressure_sites[0])
+    assert top.max == pytest.approx(math.asin((e + r) / l), abs=1e-9)
+    assert top.min == pytest.approx(math.asin((e - r) / l), abs=1e-9)
