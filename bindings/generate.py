@@ -212,6 +212,7 @@ POINTERS = {
     "kl_solve_position": {"inputs": "inputs"},
     "kl_solve_velocity": {"input_rates": "inputs"},
     "kl_solve_acceleration": {"input_accels": "inputs"},
+    "kl_solve_jerk": {"input_jerks": "inputs"},
     "kl_output_value": {"o": "one", "value": "out"},
     "kl_output_deriv": {"o": "one", "deriv": "out"},
     "kl_output_range": {"o": "one"},

@@ -537,11 +537,17 @@ enum kl_quantity {
   KL_QUANTITY_POINT_AX = 14,          /**< x of kl_point_acceleration */
   KL_QUANTITY_POINT_AY = 15,          /**< y of kl_point_acceleration */
   KL_QUANTITY_TRANSMISSION = 16,      /**< kl_output_value of each site */
-  KL_QUANTITY_RCOND = 17              /**< one value: the reciprocal
+  KL_QUANTITY_RCOND = 17,             /**< one value: the reciprocal
                                            condition number of the Jacobian
                                            at the position solved, estimated
                                            as kl_solve_stats' rcond is; NaN
                                            if none is solved */
+  KL_QUANTITY_INPUT_JERK = 18,        /**< the jerks kl_solve_jerk was
+                                           given */
+  KL_QUANTITY_LINK_JERK = 19,         /**< kl_link_jerk */
+  KL_QUANTITY_JOINT_SLIDE_JERK = 20,  /**< kl_joint_slide_jerk */
+  KL_QUANTITY_POINT_JX = 21,          /**< x of kl_point_jerk */
+  KL_QUANTITY_POINT_JY = 22           /**< y of kl_point_jerk */
 };
 
 /**
@@ -839,6 +845,35 @@ KL_API int kl_point_velocity(const kl_solver *s, int point, double xy[2]);
  * KL_OK, KL_EID, KL_EINVAL, KL_ESTAGE.
  */
 KL_API int kl_point_acceleration(const kl_solver *s, int point, double xy[2]);
+
+/* ------------------------------------------------------------------------
+ * Jerk (issue 18): third time derivatives of every coordinate and point,
+ * from the factors the velocity and acceleration stages use
+ * (docs/theory.md, "Jerk", gives the right-hand side).
+ * ------------------------------------------------------------------------ */
+
+/**
+ * Jerk stage: link, slide and point jerks for the `input_jerks` (the
+ * inputs' third time derivatives; NULL when the model has none), at the
+ * position, rates and accelerations last solved. J qddd = -((dF/du) uddd +
+ * the third-order terms of the rates and accelerations), with the LU factors
+ * of the Jacobian the rate stages use. Returns KL_OK, KL_ESTAGE (no
+ * acceleration solved at the current position and rates, or no position),
+ * KL_ESINGULAR, KL_ENONFINITE, KL_EINVAL. On failure the state is unchanged.
+ * Never allocates.
+ */
+KL_API int kl_solve_jerk(kl_solver *s, const double *input_jerks);
+/** Link jerk (rad per time^3); NaN before kl_solve_jerk at this state. */
+KL_API double kl_link_jerk(const kl_solver *s, int link);
+/** Slide jerk of a prismatic or slot joint (length per time^3); NaN for a
+ * revolute joint or before kl_solve_jerk at this state. */
+KL_API double kl_joint_slide_jerk(const kl_solver *s, int joint);
+/** Global jerk of a point (length per time^3). KL_OK, KL_EID, KL_EINVAL,
+ * KL_ESTAGE (no jerk solved at this state). */
+KL_API int kl_point_jerk(const kl_solver *s, int point, double xy[2]);
+/** Global jerk of a link's frame origin (kl_link_origin). KL_OK, KL_EID,
+ * KL_EINVAL, KL_ESTAGE. */
+KL_API int kl_link_origin_jerk(const kl_solver *s, int link, double xy[2]);
 
 /* ------------------------------------------------------------------------
  * The force stage: inverse dynamics (kinetostatics) at a solved state, and

@@ -379,6 +379,7 @@ static void interpolate_crossing(kl_solver *s, int input, double target) {
   s->st.u[input] = target;
   s->st.position_solved = s->st.inputs_known = 1;
   s->st.velocity_solved = s->st.acceleration_solved = 1;
+  s->st.jerk_solved = 0;
   s->st.forces_solved = 0;
   s->st.last_attempt = KL_OK;
   s->st.rcond = 0.0; /* at (or next to) a singular position */
