@@ -109,6 +109,8 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->sweep_u = kli_carve(c, (size_t)ni, sizeof(double));
   t->sweep_rate = kli_carve(c, (size_t)ni, sizeof(double));
   t->sweep_zero = kli_carve(c, (size_t)ni, sizeof(double));
+  t->time_motion = kli_carve(c, 4 * (size_t)ni, sizeof(double));
+  t->time_efforts = kli_carve(c, (size_t)ni, sizeof(double));
   t->modes = kli_carve(c, (size_t)KLI_MAX_MODES * (size_t)n, sizeof(double));
   p.n = n;
   p.npairs = top->nkept_pairs;

@@ -88,6 +88,9 @@ struct kl_solver {
   double u_previous;      /* its input */
   int have_previous;
   double *sweep_u, *sweep_rate, *sweep_zero; /* inputs for the sweep */
+  double *time_motion;    /* 4 x ninputs: the inputs, rates, accelerations
+                             and jerks at a time of the model's profile */
+  double *time_efforts;   /* ninputs: the efforts at one such time */
   double *modes;          /* KLI_MAX_MODES x n: assembly modes found */
   kli_dense dense;
 

@@ -40,6 +40,7 @@ const char *kl_status_str(int status) {
   case KL_ETRUNCATED: return "buffer too small: output cut short";
   case KL_ETOOLARGE: return "request exceeds a bound of the library";
   case KL_EINDETERMINATE: return "statically indeterminate: forces not determined";
+  case KL_EJOIN: return "motion profile segments do not join";
   default: return "unknown status";
   }
 }

@@ -428,10 +428,13 @@ static int hand_over(kl_solver *s, int step, double input, kl_sweep_fn fn,
   return KL_OK;
 }
 
-/* Delivers one step: acceleration at zero input acceleration, callback. */
+/* Delivers one step: acceleration and jerk at zero input acceleration and
+ * jerk (the second- and third-order coefficients), callback. */
 static int deliver(kl_solver *s, int step, double input, kl_sweep_fn fn,
                    void *user) {
   int st = kl_solve_acceleration(s, s->sweep_zero);
+  if (st == KL_OK)
+    st = kl_solve_jerk(s, s->sweep_zero);
   return st != KL_OK ? st : hand_over(s, step, input, fn, user);
 }
 

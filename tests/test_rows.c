@@ -191,7 +191,7 @@ static int record(const kl_solver *s, int step, double input, void *user) {
   double one = 1.0, zero = 0.0;
   (void)input;
   kl_solver_row(s, r->rows + (size_t)step * (size_t)r->size);
-  check_row(s, r->rows + (size_t)step * (size_t)r->size, &one, &zero, NULL);
+  check_row(s, r->rows + (size_t)step * (size_t)r->size, &one, &zero, &zero);
   r->calls++;
   return 0;
 }

@@ -163,4 +163,14 @@ typedef struct {
 
 void bench_forces(FILE *out, const bench_plan *plan, force_figures *fig);
 
+/* ---- part 5: the jerk stage ---- */
+
+typedef struct {
+  double fourbar_jerk_ns, chain_jerk_ns; /* jerk stage after acceleration */
+  double fourbar_ratio, chain_ratio;     /* ... over one position solve */
+  int valid;                             /* no step failed */
+} jerk_figures;
+
+void bench_jerk(FILE *out, const bench_plan *plan, jerk_figures *fig);
+
 #endif

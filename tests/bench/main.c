@@ -45,7 +45,8 @@ int main(int argc, char **argv) {
   chain_figures chains = {0};
   thread_figures threads = {0};
   force_figures forces = {0};
-  target targets[7];
+  jerk_figures jerk = {0};
+  target targets[8];
   size_t i;
   int arg;
   for (arg = 1; arg < argc; arg++) {
@@ -66,6 +67,8 @@ int main(int argc, char **argv) {
   bench_threads(stdout, &plan, &fourbar, &threads);
   fflush(stdout);
   bench_forces(stdout, &plan, &forces);
+  fflush(stdout);
+  bench_jerk(stdout, &plan, &jerk);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -110,6 +113,12 @@ int main(int argc, char **argv) {
   targets[6].at_most = 1;
   targets[6].valid = forces.valid;
   targets[6].unit = "";
+  targets[7].what = "four-bar jerk stage's extra cost <= 0.3x one position";
+  targets[7].measured = jerk.fourbar_ratio;
+  targets[7].limit = 0.3;
+  targets[7].at_most = 1;
+  targets[7].valid = jerk.valid;
+  targets[7].unit = "x";
   printf("\n== targets (ratios measured in this run%s) ==\n",
          plan.quick ? "; QUICK MODE: single samples, not for reporting" : "");
   printf("%-62s %10s  %s\n", "target", "measured", "verdict");
