@@ -36,6 +36,7 @@ enum cli_command {
   CLI_DEMO,
   CLI_STUDY,
   CLI_FORCES,
+  CLI_TIMELINE,
   CLI_NCOMMANDS
 };
 
@@ -220,6 +221,10 @@ int cli_cmd_solve(const cli_model *cm, const cli_options *o);
 int cli_cmd_sweep(const cli_model *cm, const cli_options *o);
 /* A CSV field, quoted when a comma, quote or line break would split it. */
 void cli_csv_field(FILE *f, const char *text);
+
+/* ---- timeline.c: the model's motion profile in time ---- */
+extern const char cli_timeline_help[];
+int cli_cmd_timeline(const cli_model *cm, const cli_options *o);
 
 /* ---- write.c ---- */
 int cli_cmd_write(const cli_model *cm, const cli_options *o);

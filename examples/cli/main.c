@@ -21,7 +21,7 @@ void cli_error(const char *fmt, ...) {
 
 static const char *const command_names[CLI_NCOMMANDS] = {
     "check", "solve", "sweep", "draw", "plot", "write", "demo", "study",
-    "forces"};
+    "forces", "timeline"};
 
 static const char general_usage[] =
     "kinloop %s - position, velocity and acceleration of planar linkages\n"
@@ -46,6 +46,8 @@ static const char general_usage[] =
     "          designs, summarized per output, with CSV and SVG charts\n"
     "  forces  the force stage over the working cycle: motor effort, joint\n"
     "          loads, shaking, flywheel; with CSV and SVG charts\n"
+    "  timeline  the model's motion profile in time: every quantity with its\n"
+    "          rate, acceleration and jerk per second, as CSV\n"
     "\n"
     "MODEL is a model file (docs/model-format.md); without one a command works on\n"
     "the built-in demo, a carton flap-tucking station. Angles on the command line\n"
@@ -223,7 +225,9 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "study that cannot be read exits with 3, one whose nominal does not\n"
     "solve or move through the sweep with 4.\n",
     /* forces */
-    cli_forces_help};
+    cli_forces_help,
+    /* timeline */
+    cli_timeline_help};
 
 enum {
   OPT_OUTPUT,
@@ -261,11 +265,12 @@ static const struct {
   unsigned commands;
 } option_specs[] = {
     {"output", 'o', 1,
-     RANGE_CMDS | BIT(CLI_SOLVE) | BIT(CLI_WRITE) | BIT(CLI_STUDY)},
+     RANGE_CMDS | BIT(CLI_SOLVE) | BIT(CLI_WRITE) | BIT(CLI_STUDY) |
+         BIT(CLI_TIMELINE)},
     {"input", 0, 1, RANGE_CMDS},
     {"from", 0, 1, RANGE_CMDS},
     {"to", 0, 1, RANGE_CMDS},
-    {"steps", 0, 1, RANGE_CMDS},
+    {"steps", 0, 1, RANGE_CMDS | BIT(CLI_TIMELINE)},
     {"at", 0, 1, RANGE_CMDS | BIT(CLI_SOLVE)},
     {"rate", 0, 1, BIT(CLI_SOLVE)},
     {"accel", 0, 1, BIT(CLI_SOLVE)},
@@ -524,6 +529,9 @@ static int run(cli_options *o) {
     break;
   case CLI_FORCES:
     st = cli_cmd_forces(&cm, o);
+    break;
+  case CLI_TIMELINE:
+    st = cli_cmd_timeline(&cm, o);
     break;
   default:
     st = cli_cmd_demo(&cm, o);
