@@ -11,6 +11,10 @@ KINLOOP=$1
 
 expect_status 0 "$KINLOOP"
 expect_status 0 "$KINLOOP" draw -o draw-default.svg
+# the drawing's coordinate axes, with the model's length unit
+expect_text draw-default.svg 'class="axes"'
+expect_text draw-default.svg 'x (mm)</text>'
+expect_text draw-default.svg 'y (mm)</text>'
 expect_status 0 "$KINLOOP" draw --at 10 --at 100 --at 250 -o draw-at.svg
 expect_status 0 "$KINLOOP" draw --poses 1 --no-paths -o draw-bare.svg
 expect_status 0 "$KINLOOP" draw --from 30 --to 120 --steps 9 -o draw-part.svg
