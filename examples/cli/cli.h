@@ -71,6 +71,8 @@ typedef struct {
   int have_fluctuation; /* forces: the coefficient of speed fluctuation */
   double fluctuation;
   int forces;           /* sweep: the force columns too */
+  int have_rpm;         /* sweep, forces: the speed in turns a minute */
+  double rpm;
 } cli_options;
 
 typedef struct {
@@ -165,6 +167,10 @@ int cli_require_range(const cli_model *cm, const cli_options *o,
  * Returns an exit code after printing why it failed. */
 int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,
                     const cli_range *r);
+/* --rpm N as the swept input's speed in its unit per second, into
+ * o->speed; a usage error (exit 2, after saying why) with --speed too or
+ * for an input that does not turn. */
+int cli_apply_rpm(const cli_model *cm, cli_options *o);
 /* A value in the model's units for messages: "123.4 deg". */
 void cli_format_input(const cli_model *cm, int input, double value, char *buf,
                       size_t cap);

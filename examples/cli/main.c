@@ -125,6 +125,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "                    (the swept input's own entry is replaced by --from)\n"
     "  --speed W         the swept input's constant speed, its unit per second\n"
     "                    (default 1): rates scale by W, accelerations by W^2\n"
+    "  --rpm N           the same for a turning input, in turns a minute\n"
     "  --all-digits      write every number with 17 significant digits\n"
     "                    (default 6)\n"
     "  --forces          add the force columns of kinloop forces --csv: every\n"
@@ -250,6 +251,7 @@ enum {
   OPT_CHARTS,
   OPT_FLUCTUATION,
   OPT_FORCES,
+  OPT_RPM,
   OPT_HELP
 };
 
@@ -286,6 +288,7 @@ static const struct {
     {"charts", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES)},
     {"fluctuation", 0, 1, BIT(CLI_FORCES)},
     {"forces", 0, 0, BIT(CLI_SWEEP)},
+    {"rpm", 0, 1, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},
     {"help", 'h', 0, ~0u},
 };
 #define NOPTIONS ((int)(sizeof option_specs / sizeof option_specs[0]))
@@ -403,6 +406,12 @@ static int store_option(cli_options *o, int which, const char *value) {
     if (st == CLI_EXIT_OK && o->speed == 0.0 && c == CLI_SWEEP)
       return usage_error(c, "--speed cannot be 0 (%s)", value);
     break;
+  case OPT_RPM:
+    o->have_rpm = 1;
+    st = parse_number(c, name, value, &o->rpm);
+    if (st == CLI_EXIT_OK && o->rpm == 0.0 && c == CLI_SWEEP)
+      return usage_error(c, "--rpm cannot be 0 (%s)", value);
+    break;
   case OPT_ALL_DIGITS:
     o->all_digits = 1;
     break;
@@ -508,6 +517,10 @@ static int run(cli_options *o) {
   st = cli_model_load(&cm, o->model_path);
   if (st != CLI_EXIT_OK)
     return st;
+  if (o->have_rpm && (st = cli_apply_rpm(&cm, o)) != CLI_EXIT_OK) {
+    cli_model_free(&cm);
+    return st;
+  }
   switch (o->command) {
   case CLI_CHECK:
     st = cli_cmd_check(&cm, o);

@@ -25,6 +25,13 @@ awk -F, 'NR == 3 {
 awk -F, 'END { if ($1 != 0.8 || $2 ^ 2 > 1e-12 || $3 ^ 2 > 1e-12) exit 1 }' \
   t.csv || fail "the last row is not the profile's end at rest"
 
+# --rpm: turns a minute as the speed of a turning input (60 rpm = 360 deg/s)
+expect_status 0 "$KINLOOP" sweep "$WITHOUT" --steps 6 --rpm 60 -o rpm.csv
+expect_status 0 "$KINLOOP" sweep "$WITHOUT" --steps 6 --speed 360 -o deg.csv
+cmp -s rpm.csv deg.csv || fail "--rpm 60 differs from --speed 360 deg/s"
+expect_status 2 "$KINLOOP" sweep "$WITHOUT" --rpm 60 --speed 2
+expect_text err.txt "give --speed or --rpm, not both"
+
 expect_status 3 "$KINLOOP" timeline "$WITHOUT"
 expect_text err.txt "has no motion profile in time"
 expect_status 0 "$KINLOOP" timeline --help
