@@ -13,6 +13,7 @@
 
 #include <gsl/gsl_spline.h>
 
+#include "machines.h"
 #include "suite.h"
 #include "support.h"
 
@@ -327,6 +328,85 @@ START_TEST(servo_torque_follows_newtons_law) {
 }
 END_TEST
 
+/* ------------------------------------------------------------------------
+ * Every machine's jerk against differences of its accelerations in time
+ * ------------------------------------------------------------------------ */
+
+/* Every stage at time tau of the motion u = u0 + ud tau + udd tau^2 / 2
+ * (the machine's sample k of 12, its rates and accelerations), zero input
+ * jerk; the row into `row`. */
+static void solve_in_time(const machine *mc, kl_solver *s, int k, double tau,
+                          double *row) {
+  double u[MACHINE_MAX_INPUTS], ud[MACHINE_MAX_INPUTS];
+  double udd[MACHINE_MAX_INPUTS], zero[MACHINE_MAX_INPUTS] = {0.0, 0.0};
+  int i;
+  machine_sample(mc, k, 12, u, ud, udd);
+  for (i = 0; i < mc->ninputs; i++) {
+    u[i] += ud[i] * tau + 0.5 * udd[i] * tau * tau;
+    ud[i] += udd[i] * tau;
+  }
+  ck_assert_msg(kl_solve_position(s, u) == KL_OK, "%s sample %d: %s",
+                mc->name, k, kl_solver_error(s));
+  ck_assert_int_eq(kl_solve_velocity(s, ud), KL_OK);
+  ck_assert_int_eq(kl_solve_acceleration(s, udd), KL_OK);
+  ck_assert_int_eq(kl_solve_jerk(s, zero), KL_OK);
+  kl_solver_row(s, row);
+}
+
+/*
+ * Common practice, no source: a central difference in time of the
+ * accelerations, (a(h) - a(-h)) / 2h, against the jerk at 0, along each
+ * machine's own motion (rates and input accelerations of tests/machines.c,
+ * so the cross terms in omega alpha and sdot alpha count). h moves the
+ * inputs by about 1e-4 rad or 1e-4 of the length scale; truncation h^2
+ * |x''''| / 6 and rounding eps |a| / h stay near 1e-8 of the row's largest
+ * jerk; the tolerance 1e-6 of it keeps a factor of a hundred, while a wrong
+ * coefficient of a third-order term shows at 1e-2 or more.
+ */
+START_TEST(every_machine_jerk_matches_differences_of_accelerations) {
+  static const int pairs[][2] = {
+      {KL_QUANTITY_LINK_ACCEL, KL_QUANTITY_LINK_JERK},
+      {KL_QUANTITY_JOINT_SLIDE_ACCEL, KL_QUANTITY_JOINT_SLIDE_JERK},
+      {KL_QUANTITY_POINT_AX, KL_QUANTITY_POINT_JX},
+      {KL_QUANTITY_POINT_AY, KL_QUANTITY_POINT_JY}};
+  machine mc = build_machine(_i, 0);
+  kl_solver *s = machine_solver(&mc);
+  int size = kl_model_row_size(mc.m), k, p, i;
+  double *at = malloc(3 * (size_t)size * sizeof *at);
+  double *minus = at + size, *plus = minus + size;
+  double speed = fmax(fabs(mc.rate[0]), fabs(mc.rate[1]));
+  double h = 1e-4 / fmax(speed, 1.0);
+  for (k = 0; k <= 12; k += 3) {
+    double largest = 0.0;
+    solve_in_time(&mc, s, k, -h, minus);
+    solve_in_time(&mc, s, k, h, plus);
+    solve_in_time(&mc, s, k, 0.0, at);
+    for (p = 0; p < 4; p++) {
+      int count, jerk = kl_model_row_offset(mc.m, pairs[p][1], &count);
+      for (i = 0; i < count; i++)
+        if (isfinite(at[jerk + i]))
+          largest = fmax(largest, fabs(at[jerk + i]));
+    }
+    for (p = 0; p < 4; p++) {
+      int count, accel = kl_model_row_offset(mc.m, pairs[p][0], &count);
+      int jerk = kl_model_row_offset(mc.m, pairs[p][1], NULL);
+      for (i = 0; i < count; i++) {
+        double fd = (plus[accel + i] - minus[accel + i]) / (2 * h);
+        if (isnan(at[jerk + i]))
+          continue; /* a revolute joint's slide */
+        ck_assert_msg(fabs(fd - at[jerk + i]) <= 1e-6 * largest,
+                      "%s sample %d, %s %d: jerk %.12g, difference %.12g",
+                      mc.name, k, kl_quantity_str(pairs[p][1]), i,
+                      at[jerk + i], fd);
+      }
+    }
+  }
+  free(at);
+  kl_solver_free(s);
+  kl_model_free(mc.m);
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("time");
   TCase *tc = tcase_create("time");
@@ -336,6 +416,8 @@ int main(void) {
   tcase_add_test(tc, table_matches_gsl_natural_spline);
   tcase_add_test(tc, constant_speed_is_the_scaled_coefficient_sweep);
   tcase_add_test(tc, servo_torque_follows_newtons_law);
+  tcase_add_loop_test(tc, every_machine_jerk_matches_differences_of_accelerations,
+                      0, MACHINE_COUNT);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }
