@@ -285,7 +285,7 @@ static const struct {
     {"dir", 0, 1, BIT(CLI_DEMO)},
     {"threads", 0, 1, BIT(CLI_STUDY)},
     {"csv", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES)},
-    {"charts", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES)},
+    {"charts", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES) | BIT(CLI_TIMELINE)},
     {"fluctuation", 0, 1, BIT(CLI_FORCES)},
     {"forces", 0, 0, BIT(CLI_SWEEP)},
     {"rpm", 0, 1, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},

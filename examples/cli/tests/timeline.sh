@@ -25,6 +25,13 @@ awk -F, 'NR == 3 {
 awk -F, 'END { if ($1 != 0.8 || $2 ^ 2 > 1e-12 || $3 ^ 2 > 1e-12) exit 1 }' \
   t.csv || fail "the last row is not the profile's end at rest"
 
+# --charts: the driven input's and the point's x and y over time, each
+# order its own chart (3 x 4), well-formed and rendering
+expect_status 0 "$KINLOOP" timeline "$WITH" --steps 40 --charts charts -o /dev/null
+check_svgs 12 charts/*.svg
+expect_text charts/motor-jerk.svg "motor jerk (deg/s^3)"
+expect_text charts/mark_y-accel.svg "time (s)"
+
 # --rpm: turns a minute as the speed of a turning input (60 rpm = 360 deg/s)
 expect_status 0 "$KINLOOP" sweep "$WITHOUT" --steps 6 --rpm 60 -o rpm.csv
 expect_status 0 "$KINLOOP" sweep "$WITHOUT" --steps 6 --speed 360 -o deg.csv
@@ -37,4 +44,4 @@ expect_text err.txt "has no motion profile in time"
 expect_status 0 "$KINLOOP" timeline --help
 expect_text out.txt "usage: kinloop timeline"
 
-[ "$failures" -eq 0 ]
+finish
