@@ -1176,8 +1176,9 @@ KL_API int kl_add_segment(kl_model *m, int input, int kind, int law,
  * NULL), KL_ENONFINITE, KL_EID, KL_EDUPLICATE, KL_ESTATE (finalized, or the
  * profile holds segments), KL_ENOMEM; on failure the model is unchanged.
  */
-KL_API int kl_set_profile_table(kl_model *m, int input, int n,
-                                const double *times, const double *values);
+KL_API int kl_model_set_profile_table(kl_model *m, int input, int n,
+                                      const double *times,
+                                      const double *values);
 /** The input the model's profile drives, KL_EID if it has none, or
  * KL_EINVAL. */
 KL_API int kl_model_profile_input(const kl_model *m);
@@ -1224,9 +1225,9 @@ KL_API int kl_solve_at_time(kl_solver *s, double t);
  * KL_EINDETERMINATE, the load checks' statuses and those of the stages at
  * the sample that failed (the solver then as it was). Never allocates.
  */
-KL_API int kl_time_efforts(kl_solver *s, int steps, int nloads,
-                           const kl_load *loads, double *peaks,
-                           double *peak_times, double *rms);
+KL_API int kl_solver_time_efforts(kl_solver *s, int steps, int nloads,
+                                  const kl_load *loads, double *peaks,
+                                  double *peak_times, double *rms);
 
 /* ------------------------------------------------------------------------
  * Kinematic (influence) coefficients: derivatives of the position with

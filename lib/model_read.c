@@ -458,7 +458,7 @@ static int read_timetable(model_reader *mr) {
       times[k] = pairs[2 * k];
     }
     if (st == KL_OK) {
-      st = kl_set_profile_table(mr->m, input, n, times, values);
+      st = kl_model_set_profile_table(mr->m, input, n, times, values);
       if (st != KL_OK)
         st = builder_failed(mr, st, joint_column);
     }

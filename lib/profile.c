@@ -141,8 +141,8 @@ static void spline_curvature(kli_knot *k, int n) {
     k[i].m = (k[i].m - (k[i + 1].t - k[i].t) * k[i + 1].m) / k[i].work;
 }
 
-int kl_set_profile_table(kl_model *m, int input, int n, const double *times,
-                         const double *values) {
+int kl_model_set_profile_table(kl_model *m, int input, int n,
+                               const double *times, const double *values) {
   int st, i;
   if (m == NULL || (n > 0 && (times == NULL || values == NULL)))
     return KL_EINVAL;

@@ -51,8 +51,9 @@ int kl_solve_at_time(kl_solver *s, double t) {
   return st;
 }
 
-int kl_time_efforts(kl_solver *s, int steps, int nloads, const kl_load *loads,
-                    double *peaks, double *peak_times, double *rms) {
+int kl_solver_time_efforts(kl_solver *s, int steps, int nloads,
+                           const kl_load *loads, double *peaks,
+                           double *peak_times, double *rms) {
   const kl_model *m;
   double total;
   int st, k, i;

@@ -151,28 +151,28 @@ START_TEST(bad_profiles_are_refused) {
                  "no segment kind");
   expect_refused(m, kl_add_segment(m, 3, KL_SEGMENT_DWELL, 0, 0.2, 1.0, 1.0),
                  KL_EID, "does not exist");
-  expect_refused(m, kl_set_profile_table(m, 0, 2, t, v), KL_ESTATE,
+  expect_refused(m, kl_model_set_profile_table(m, 0, 2, t, v), KL_ESTATE,
                  "holds segments");
   kl_model_free(m);
 
   /* a table: times must increase, numbers be finite */
   m = open_slider_crank(&slide);
-  ck_assert_int_eq(kl_set_profile_table(m, 0, 3, t, v), KL_EINVAL);
+  ck_assert_int_eq(kl_model_set_profile_table(m, 0, 3, t, v), KL_EINVAL);
   ck_assert_ptr_nonnull(strstr(kl_model_error(m), "does not come after"));
   t[2] = 0.3;
   v[1] = NAN;
-  ck_assert_int_eq(kl_set_profile_table(m, 0, 3, t, v), KL_ENONFINITE);
-  ck_assert_int_eq(kl_set_profile_table(m, 0, 1, t, v), KL_EINVAL);
+  ck_assert_int_eq(kl_model_set_profile_table(m, 0, 3, t, v), KL_ENONFINITE);
+  ck_assert_int_eq(kl_model_set_profile_table(m, 0, 1, t, v), KL_EINVAL);
   ck_assert_int_eq(kl_model_table_count(m), 0);
   ck_assert_int_eq(kl_model_profile_input(m), KL_EID);
   ck_assert(isnan(kl_model_profile_duration(m)));
   v[1] = 1.0;
-  ck_assert_int_eq(kl_set_profile_table(m, 0, 3, t, v), KL_OK);
+  ck_assert_int_eq(kl_model_set_profile_table(m, 0, 3, t, v), KL_OK);
   ck_assert_int_eq(kl_add_segment(m, 0, KL_SEGMENT_DWELL, 0, 0.2, 2.0, 2.0),
                    KL_ESTATE);
   /* after finalize the profile no longer changes */
   ck_assert_int_eq(kl_model_finalize(m), KL_OK);
-  ck_assert_int_eq(kl_set_profile_table(m, 0, 3, t, v), KL_ESTATE);
+  ck_assert_int_eq(kl_model_set_profile_table(m, 0, 3, t, v), KL_ESTATE);
   ck_assert_int_eq(kl_model_table_count(m), 3);
   kl_model_free(m);
 }
@@ -194,7 +194,7 @@ START_TEST(table_matches_gsl_natural_spline) {
   gsl_interp_accel *acc = gsl_interp_accel_alloc();
   gsl_spline *sp = gsl_spline_alloc(gsl_interp_cspline, 7);
   gsl_spline_init(sp, t, y, 7);
-  ck_assert_int_eq(kl_set_profile_table(m, 0, 7, t, y), KL_OK);
+  ck_assert_int_eq(kl_model_set_profile_table(m, 0, 7, t, y), KL_OK);
   ck_assert_double_eq(kl_model_profile_duration(m), 0.5);
   for (k = 0; k <= 100; k++) {
     double tk = 0.005 * k, out[4], lo, hi;
@@ -314,10 +314,11 @@ START_TEST(servo_torque_follows_newtons_law) {
   ck_assert_int_eq(kl_add_segment(m, 0, KL_SEGMENT_DWELL, 0, 0.1, h, h), 1);
   ck_assert_int_eq(kl_model_finalize(m), KL_OK);
   s = kl_solver_new(m);
-  ck_assert_int_eq(kl_time_efforts(s, 0, 0, NULL, &peak, &at, &rms),
+  ck_assert_int_eq(kl_solver_time_efforts(s, 0, 0, NULL, &peak, &at, &rms),
                    KL_EINVAL);
   /* 80 steps on the rise and its dwell: samples every 0.005 s */
-  ck_assert_int_eq(kl_time_efforts(s, 80, 0, NULL, &peak, &at, &rms), KL_OK);
+  ck_assert_int_eq(kl_solver_time_efforts(s, 80, 0, NULL, &peak, &at, &rms),
+                   KL_OK);
   ck_assert_double_le(rel_diff(peak, J * alpha_peak, 1.0), 1e-9);
   ck_assert_double_le(fabs(at - T / 4), 1e-12);
   /* over the whole 0.4 s: the rise's mean square, times T / 0.4 */
@@ -416,8 +417,9 @@ int main(void) {
   tcase_add_test(tc, table_matches_gsl_natural_spline);
   tcase_add_test(tc, constant_speed_is_the_scaled_coefficient_sweep);
   tcase_add_test(tc, servo_torque_follows_newtons_law);
-  tcase_add_loop_test(tc, every_machine_jerk_matches_differences_of_accelerations,
-                      0, MACHINE_COUNT);
+  tcase_add_loop_test(
+      tc, every_machine_jerk_matches_differences_of_accelerations, 0,
+      MACHINE_COUNT);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }
