@@ -138,7 +138,10 @@ enum kl_status {
   KL_ERADIUS = -27,        /**< a radius is zero or negative */
   KL_EUNDERCUT = -28,      /**< cam: the roller is larger than the pitch curve's
                                 smallest convex radius of curvature */
-  KL_EPRESSURE = -29       /**< cam: the pressure angle exceeds the bound set */
+  KL_EPRESSURE = -29,      /**< cam: the pressure angle exceeds the bound set */
+  /* motion profiles */
+  KL_EJOIN = -30           /**< a motion profile's segment does not start
+                                where the one before it ended */
 };
 
 /**
@@ -569,11 +572,17 @@ enum kl_quantity {
   KL_QUANTITY_POINT_AX = 14,          /**< x of kl_point_acceleration */
   KL_QUANTITY_POINT_AY = 15,          /**< y of kl_point_acceleration */
   KL_QUANTITY_TRANSMISSION = 16,      /**< kl_output_value of each site */
-  KL_QUANTITY_RCOND = 17              /**< one value: the reciprocal
+  KL_QUANTITY_RCOND = 17,             /**< one value: the reciprocal
                                            condition number of the Jacobian
                                            at the position solved, estimated
                                            as kl_solve_stats' rcond is; NaN
                                            if none is solved */
+  KL_QUANTITY_INPUT_JERK = 18,        /**< the jerks kl_solve_jerk was
+                                           given */
+  KL_QUANTITY_LINK_JERK = 19,         /**< kl_link_jerk */
+  KL_QUANTITY_JOINT_SLIDE_JERK = 20,  /**< kl_joint_slide_jerk */
+  KL_QUANTITY_POINT_JX = 21,          /**< x of kl_point_jerk */
+  KL_QUANTITY_POINT_JY = 22           /**< y of kl_point_jerk */
 };
 
 /**
@@ -877,6 +886,35 @@ KL_API int kl_point_velocity(const kl_solver *s, int point, double xy[2]);
 KL_API int kl_point_acceleration(const kl_solver *s, int point, double xy[2]);
 
 /* ------------------------------------------------------------------------
+ * Jerk (issue 18): third time derivatives of every coordinate and point,
+ * from the factors the velocity and acceleration stages use
+ * (docs/theory.md, "Jerk", gives the right-hand side).
+ * ------------------------------------------------------------------------ */
+
+/**
+ * Jerk stage: link, slide and point jerks for the `input_jerks` (the
+ * inputs' third time derivatives; NULL when the model has none), at the
+ * position, rates and accelerations last solved. J qddd = -((dF/du) uddd +
+ * the third-order terms of the rates and accelerations), with the LU factors
+ * of the Jacobian the rate stages use. Returns KL_OK, KL_ESTAGE (no
+ * acceleration solved at the current position and rates, or no position),
+ * KL_ESINGULAR, KL_ENONFINITE, KL_EINVAL. On failure the state is unchanged.
+ * Never allocates.
+ */
+KL_API int kl_solve_jerk(kl_solver *s, const double *input_jerks);
+/** Link jerk (rad per time^3); NaN before kl_solve_jerk at this state. */
+KL_API double kl_link_jerk(const kl_solver *s, int link);
+/** Slide jerk of a prismatic or slot joint (length per time^3); NaN for a
+ * revolute joint or before kl_solve_jerk at this state. */
+KL_API double kl_joint_slide_jerk(const kl_solver *s, int joint);
+/** Global jerk of a point (length per time^3). KL_OK, KL_EID, KL_EINVAL,
+ * KL_ESTAGE (no jerk solved at this state). */
+KL_API int kl_point_jerk(const kl_solver *s, int point, double xy[2]);
+/** Global jerk of a link's frame origin (kl_link_origin). KL_OK, KL_EID,
+ * KL_EINVAL, KL_ESTAGE. */
+KL_API int kl_link_origin_jerk(const kl_solver *s, int link, double xy[2]);
+
+/* ------------------------------------------------------------------------
  * The force stage: inverse dynamics (kinetostatics) at a solved state, and
  * the force figures over a motion at constant input speed
  * (docs/theory.md section 8 gives the equations and the sign rules).
@@ -1118,6 +1156,117 @@ KL_API int kl_model_speed(const kl_model *m, int *input, double *speed,
 KL_API int kl_model_cycle(const kl_model *m, kl_cycle *c);
 
 /* ------------------------------------------------------------------------
+ * Motion profiles in time (issue 18): one input of a model driven by
+ * segments built on the motion laws, or by a table of times and values;
+ * every stage at a time of it, and the input efforts over it. Times are in
+ * the caller's time unit (seconds in the tool); rates, accelerations and
+ * jerks then come per that unit, per its square and per its cube.
+ * ------------------------------------------------------------------------ */
+
+/** Segment kinds of a motion profile. */
+enum kl_segment_kind {
+  KL_SEGMENT_DWELL = 0, /**< the input holds its value (from == to) */
+  KL_SEGMENT_RISE = 1,  /**< from up to to (to > from) by a motion law */
+  KL_SEGMENT_RETURN = 2, /**< from down to to (to < from) by a motion law */
+  KL_SEGMENT_SPEED = 3  /**< from to to at the constant rate (to - from) /
+                             duration */
+};
+
+/** A segment as kl_model_segment reads it. Set `size` first. */
+typedef struct kl_segment {
+  size_t size;     /**< sizeof(kl_segment), set by the caller */
+  int kind;        /**< enum kl_segment_kind */
+  int law;         /**< enum kl_motion_law_kind of a rise or return; 0
+                        otherwise */
+  double duration; /**< time units, > 0 */
+  double from;     /**< the input's value at its start (rad, or length
+                        units for a sliding input) */
+  double to;       /**< and at its end */
+} kl_segment;
+
+/**
+ * Appends a segment to the motion profile of input `input` (model data,
+ * before finalize): over `duration` (> 0) the input goes from `from` to
+ * `to`, a rise or return by motion law `law` (kl_motion_law: value from +
+ * (to - from) s(x), rate (to - from) s'(x) / duration, and so on, x the
+ * fraction of the segment's time), a dwell holding still, a constant-speed
+ * segment at one rate. A segment starts where the one before ended (within
+ * 1e-9 of the larger value, or of 1); it starts at the time the one before
+ * ends. Rise and return laws start and end at rest, so a constant-speed
+ * segment meets them with a step in the rate: the profile is then evaluated
+ * on the later segment at the joint. Returns the segment's index (>= 0),
+ * or KL_EJOIN (from is not where the last segment ended), KL_EINVAL
+ * (duration not positive, no such kind or law, a dwell that moves, a rise
+ * that does not go up, a return that does not go down), KL_ENONFINITE,
+ * KL_EID (no such input), KL_EDUPLICATE (the profile drives another input),
+ * KL_ESTATE (finalized, or the profile is a table), KL_ENOMEM; on failure
+ * the model is unchanged and kl_model_error says why.
+ */
+KL_API int kl_add_segment(kl_model *m, int input, int kind, int law,
+                          double duration, double from, double to);
+/**
+ * Makes the motion profile of input `input` the natural cubic spline (zero
+ * second derivative at both ends) through the `n` (>= 2) points (times[k],
+ * values[k]), times strictly increasing: C2, so its jerk is piecewise
+ * constant. The profile's time 0 is times[0]. Replaces an earlier table.
+ * Returns KL_OK, KL_EINVAL (fewer than 2 points, times not increasing,
+ * NULL), KL_ENONFINITE, KL_EID, KL_EDUPLICATE, KL_ESTATE (finalized, or the
+ * profile holds segments), KL_ENOMEM; on failure the model is unchanged.
+ */
+KL_API int kl_model_set_profile_table(kl_model *m, int input, int n,
+                                      const double *times,
+                                      const double *values);
+/** The input the model's profile drives, KL_EID if it has none, or
+ * KL_EINVAL. */
+KL_API int kl_model_profile_input(const kl_model *m);
+/** The profile's duration in time units; NaN if the model has none. */
+KL_API double kl_model_profile_duration(const kl_model *m);
+/** Segments of the profile (0 for none or a table), or KL_EINVAL. */
+KL_API int kl_model_segment_count(const kl_model *m);
+/** Segment `index` of the profile into `segment` (up to segment->size
+ * bytes). KL_OK, KL_EID, KL_EINVAL. */
+KL_API int kl_model_segment(const kl_model *m, int index, kl_segment *segment);
+/** Points of the profile's table (0 for none or segments), or KL_EINVAL. */
+KL_API int kl_model_table_count(const kl_model *m);
+/** Point `index` of the profile's table. KL_OK, KL_EID, KL_EINVAL. */
+KL_API int kl_model_table_point(const kl_model *m, int index, double *time,
+                                double *value);
+/**
+ * The profile at time t (0 <= t <= kl_model_profile_duration): the input's
+ * value, rate, acceleration and jerk into out[0..3]. Returns KL_OK, KL_EID
+ * (no profile), KL_EINVAL (t outside, NULL), KL_ENONFINITE. Never
+ * allocates.
+ */
+KL_API int kl_model_profile_motion(const kl_model *m, double t,
+                                   double out[4]);
+
+/**
+ * Every stage at time t of the model's profile: position, velocity,
+ * acceleration and jerk, the profiled input at its value, rate,
+ * acceleration and jerk there, the other inputs at the values last solved
+ * (0 before any) and at rest. The position is solved from the state the
+ * solver holds, so a sweep over time walks in steps small enough for the
+ * motion to follow. Returns KL_OK, KL_EID (no profile), KL_EINVAL (t
+ * outside the profile), KL_ENONFINITE, and the statuses of the stages; on
+ * failure the solver is as it was. Never allocates.
+ */
+KL_API int kl_solve_at_time(kl_solver *s, double t);
+/**
+ * The force stage over the model's profile: at steps + 1 equally spaced
+ * times from 0 to the duration (steps >= 1), kl_solve_at_time and
+ * kl_solve_forces with the loads; per input, the effort of largest
+ * magnitude (signed) into peaks[i], its time into peak_times[i], and the
+ * root mean square over time (trapezoid rule) into rms[i]: for a servo
+ * cycle, the peak and RMS motor torque. On success the solver holds the
+ * profile's end. Returns KL_OK, KL_EID (no profile), KL_EINVAL,
+ * KL_EINDETERMINATE, the load checks' statuses and those of the stages at
+ * the sample that failed (the solver then as it was). Never allocates.
+ */
+KL_API int kl_solver_time_efforts(kl_solver *s, int steps, int nloads,
+                                  const kl_load *loads, double *peaks,
+                                  double *peak_times, double *rms);
+
+/* ------------------------------------------------------------------------
  * Kinematic (influence) coefficients: derivatives of the position with
  * respect to the inputs, the velocity ratios and their rates of change.
  * ------------------------------------------------------------------------ */
@@ -1185,10 +1334,10 @@ KL_API int kl_solver_find_assemblies(kl_solver *s, const double *inputs,
 
 /**
  * Called once per delivered sweep step, with the solver at that step
- * (position, and the rates and accelerations of a unit rate and zero
- * acceleration of the swept input, the other inputs at rest: so the rates
- * read as first-order and the accelerations as second-order kinematic
- * coefficients). Return 0 to go on, non-zero to stop the sweep.
+ * (position, and the rates, accelerations and jerks of a unit rate and
+ * zero acceleration and jerk of the swept input, the other inputs at rest:
+ * so the rates read as first-order, the accelerations as second-order and
+ * the jerks as third-order kinematic coefficients). Return 0 to go on, non-zero to stop the sweep.
  */
 typedef int (*kl_sweep_fn)(const kl_solver *s, int step, double input,
                            void *user);

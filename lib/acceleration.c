@@ -25,6 +25,7 @@ int kl_solve_acceleration(kl_solver *s, const double *input_accels) {
   if (s->ninputs > 0)
     memcpy(s->st.udd, input_accels, (size_t)s->ninputs * sizeof(double));
   s->st.acceleration_solved = 1;
+  s->st.jerk_solved = 0;
   s->st.forces_solved = 0;
   return KL_OK;
 }

@@ -75,8 +75,7 @@ int kl_cycle_columns(const kl_model *m) {
   return 1 + m->ninputs + 3 * m->njoints + 5;
 }
 
-/* Folds value v of quantity q, at input u, into its sums. */
-static void take(kl_solver *s, int q, double v, double u, int first) {
+void kli_cycle_take(kl_solver *s, int q, double v, double u, int first) {
   double *a = s->cycle_sums + (size_t)q * KLI_CYCLE_SUMS;
   if (first) {
     a[SUM] = a[SUM_SQUARES] = 0.0;
@@ -92,9 +91,7 @@ static void take(kl_solver *s, int q, double v, double u, int first) {
   }
 }
 
-/* Quantity q's figures over `samples` equally spaced samples: the
- * trapezoid rule, whose end samples weigh half. */
-static kl_cycle_peak figures(const kl_solver *s, int q, int samples) {
+kl_cycle_peak kli_cycle_figures(const kl_solver *s, int q, int samples) {
   const double *a = s->cycle_sums + (size_t)q * KLI_CYCLE_SUMS;
   int intervals = samples - 1;
   double squares;
@@ -120,11 +117,12 @@ static void tally(cycle_run *r, double u, double kinetic) {
   int ni = s->ninputs, nj = s->model->njoints, i, first = r->samples == 0;
   double excess;
   for (i = 0; i < ni; i++)
-    take(s, i, f->effort[i], u, first);
+    kli_cycle_take(s, i, f->effort[i], u, first);
   for (i = 0; i < nj; i++)
-    take(s, ni + i, hypot(f->force[2 * i], f->force[2 * i + 1]), u, first);
-  take(s, ni + nj, hypot(f->ground[0], f->ground[1]), u, first);
-  take(s, ni + nj + 1, f->ground[2], u, first);
+    kli_cycle_take(s, ni + i, hypot(f->force[2 * i], f->force[2 * i + 1]), u,
+                   first);
+  kli_cycle_take(s, ni + nj, hypot(f->ground[0], f->ground[1]), u, first);
+  kli_cycle_take(s, ni + nj + 1, f->ground[2], u, first);
   /* the energy the driven input puts in above its mean rate of work */
   excess = r->work - r->mean_effort * (u - r->first_u);
   if (first || excess < r->energy_min) {
@@ -274,16 +272,16 @@ int kl_cycle_summarize(kl_solver *s, const kl_cycle *c, int nloads,
   ni = s->ninputs;
   nj = s->model->njoints;
   for (i = 0; input_peaks != NULL && i < ni; i++)
-    input_peaks[i] = figures(s, i, r.samples);
+    input_peaks[i] = kli_cycle_figures(s, i, r.samples);
   for (i = 0; joint_peaks != NULL && i < nj; i++)
-    joint_peaks[i] = figures(s, ni + i, r.samples);
+    joint_peaks[i] = kli_cycle_figures(s, ni + i, r.samples);
   memset(&out, 0, sizeof out);
   out.size = sum->size;
   out.sweep_status = st;
   out.steps_done = r.samples;
   out.limit_input = st == KL_LIMIT ? r.last_u : NAN;
-  out.shaking_force = figures(s, ni + nj, r.samples);
-  out.shaking_moment = figures(s, ni + nj + 1, r.samples);
+  out.shaking_force = kli_cycle_figures(s, ni + nj, r.samples);
+  out.shaking_moment = kli_cycle_figures(s, ni + nj + 1, r.samples);
   out.energy_fluctuation = r.energy_max - r.energy_min;
   out.energy_min_at = r.energy_min_at;
   out.energy_max_at = r.energy_max_at;

@@ -171,6 +171,54 @@ void kli_chain_accel(const kl_model *m, const kli_chain *ch, const kli_pose *p,
   out[1] += second[1];
 }
 
+/* The third-order part of one term's third time derivative: everything
+ * but (dF/dx) xddd, from the rates v and accelerations a. Each term kind
+ * adds its piece here and nowhere else (docs/theory.md, "jerk"). */
+static void term_third(const kl_model *m, const kli_term *t,
+                       const kli_pose *p, const double *v, const double *a,
+                       double out[2]) {
+  double r[2], w = v[t->link], al = a[t->link];
+  if (t->joint < 0) {
+    /* d3/dt3 R v = zeta R' v - 3 omega alpha R v - omega^3 R' v, R' v the
+     * vector turned a quarter: its zeta part is linear, the rest is here */
+    double along = -3.0 * w * al, across = -w * w * w;
+    rotated(t, p, r);
+    out[0] += along * r[0] - across * r[1];
+    out[1] += along * r[1] + across * r[0];
+  } else {
+    int si = m->nlinks + t->joint;
+    double s = p->x[si], sd = v[si], sdd = a[si];
+    /* d3/dt3 (s d) = sddd d + s zeta d-perp (linear), plus
+     * (3 sdd omega + 3 sd alpha - s omega^3) d-perp
+     * - (3 sd omega^2 + 3 s omega alpha) d */
+    double across = 3.0 * sdd * w + 3.0 * sd * al - s * w * w * w;
+    double along = -(3.0 * sd * w * w + 3.0 * s * w * al);
+    slide_dir(m, t, p, r);
+    out[0] += t->sign * (along * r[0] - across * r[1]);
+    out[1] += t->sign * (along * r[1] + across * r[0]);
+  }
+}
+
+void kli_chain_third(const kl_model *m, const kli_chain *ch,
+                     const kli_pose *p, const double *v, const double *a,
+                     double out[2]) {
+  const kli_term *t = m->topo.terms + ch->first;
+  int k;
+  out[0] = out[1] = 0.0;
+  for (k = 0; k < ch->count; k++, t++)
+    term_third(m, t, p, v, a, out);
+}
+
+void kli_chain_jerk(const kl_model *m, const kli_chain *ch, const kli_pose *p,
+                    const double *v, const double *a, const double *j,
+                    double out[2]) {
+  double third[2];
+  kli_chain_rate(m, ch, p, j, out);
+  kli_chain_third(m, ch, p, v, a, third);
+  out[0] += third[0];
+  out[1] += third[1];
+}
+
 void kli_chain_dimension(const kl_model *m, const kli_chain *ch,
                          const kli_pose *p, int joint, int link, int axis,
                          double out[2]) {
@@ -228,6 +276,17 @@ void kli_loops_add_second(const kl_model *m, const kli_pose *p,
   for (i = 0; i < m->topo.nloops; i++) {
     double b[2];
     kli_chain_second(m, &m->topo.loops[i], p, va, vb, b);
+    out[2 * i] += b[0];
+    out[2 * i + 1] += b[1];
+  }
+}
+
+void kli_loops_add_third(const kl_model *m, const kli_pose *p,
+                         const double *v, const double *a, double *out) {
+  int i;
+  for (i = 0; i < m->topo.nloops; i++) {
+    double b[2];
+    kli_chain_third(m, &m->topo.loops[i], p, v, a, b);
     out[2 * i] += b[0];
     out[2 * i + 1] += b[1];
   }

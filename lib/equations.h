@@ -49,6 +49,17 @@ void kli_chain_accel(const kl_model *m, const kli_chain *ch, const kli_pose *p,
                      const double *va, const double *vb, const double *vdd,
                      double out[2]);
 
+/* The third-order terms of a chain's third time derivative at rates v and
+ * accelerations a: the part that does not multiply the jerks. */
+void kli_chain_third(const kl_model *m, const kli_chain *ch,
+                     const kli_pose *p, const double *v, const double *a,
+                     double out[2]);
+/* Third derivative of a chain's sum: (dF/dx) j + the third-order terms;
+ * with v, a, j = xdot, xddot, xdddot, the jerk of an open chain's end. */
+void kli_chain_jerk(const kl_model *m, const kli_chain *ch, const kli_pose *p,
+                    const double *v, const double *a, const double *j,
+                    double out[2]);
+
 /* Derivative of a chain's sum with respect to local coordinate `axis` (0 x,
  * 1 y) of the attachment of `joint` on `link`, or, with joint -1, of the
  * chain's own end point (a point's local coordinates, on `link`). */
@@ -71,6 +82,10 @@ void kli_loops_rate(const kl_model *m, const kli_pose *p, const double *v,
 /* B(va, vb) over every loop, added to out. */
 void kli_loops_add_second(const kl_model *m, const kli_pose *p,
                           const double *va, const double *vb, double *out);
+/* The third-order terms of every loop at rates v and accelerations a,
+ * added to out. */
+void kli_loops_add_third(const kl_model *m, const kli_pose *p,
+                         const double *v, const double *a, double *out);
 /* Jacobian values dF/dq at p, two per nonzero pair of the pattern. */
 void kli_jacobian_pairs(const kl_model *m, const kli_pose *p, double *pairs);
 

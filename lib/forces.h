@@ -31,5 +31,12 @@ int kli_forces_at(kl_solver *s, const double *xd, const double *xdd,
  * the total between two states are the work the inputs did between them. */
 void kli_link_energy(kl_solver *s, const double *xd, int nloads,
                      const kl_load *loads, double *kinetic, double *total);
+/* The running figures of quantity q (inputs' efforts first, then the
+ * joints', the shaking force and moment) in s->cycle_sums: folds value v
+ * at `at` (an input value or a time) in, starting afresh when `first`. */
+void kli_cycle_take(kl_solver *s, int q, double v, double at, int first);
+/* Quantity q's figures over `samples` equally spaced samples: the
+ * trapezoid rule, whose end samples weigh half. */
+kl_cycle_peak kli_cycle_figures(const kl_solver *s, int q, int samples);
 
 #endif

@@ -72,6 +72,8 @@ static void destroy(kl_model *m) {
   kli_free(&a, m->reg_joints, (size_t)m->cap_reg_joints * sizeof(int));
   kli_free(&a, m->reg_start, (size_t)m->cap_reg_start * sizeof(int));
   kli_free(&a, m->loads, (size_t)m->cap_loads * sizeof *m->loads);
+  kli_free(&a, m->segments, (size_t)m->cap_segments * sizeof *m->segments);
+  kli_free(&a, m->knots, (size_t)m->cap_knots * sizeof *m->knots);
   kli_lookup_free(&a, &m->link_names);
   kli_lookup_free(&a, &m->joint_names);
   kli_lookup_free(&a, &m->point_names);
@@ -1004,6 +1006,7 @@ kl_model *kli_model_copy(const kl_model *src) {
   m->speed_input = src->speed_input;
   m->speed = src->speed;
   m->speed_fluctuation = src->speed_fluctuation;
+  m->profile_input = src->profile_input;
   ok = copy_array(&m->alloc, (void **)&m->links, &m->cap_links, src->links,
                   src->cap_links, sizeof *m->links) &&
        copy_array(&m->alloc, (void **)&m->joints, &m->cap_joints, src->joints,
@@ -1017,7 +1020,11 @@ kl_model *kli_model_copy(const kl_model *src) {
        copy_array(&m->alloc, (void **)&m->reg_start, &m->cap_reg_start,
                   src->reg_start, src->cap_reg_start, sizeof(int)) &&
        copy_array(&m->alloc, (void **)&m->loads, &m->cap_loads, src->loads,
-                  src->cap_loads, sizeof *m->loads);
+                  src->cap_loads, sizeof *m->loads) &&
+       copy_array(&m->alloc, (void **)&m->segments, &m->cap_segments,
+                  src->segments, src->cap_segments, sizeof *m->segments) &&
+       copy_array(&m->alloc, (void **)&m->knots, &m->cap_knots, src->knots,
+                  src->cap_knots, sizeof *m->knots);
   if (ok) {
     m->nlinks = src->nlinks;
     m->njoints = src->njoints;
@@ -1026,6 +1033,8 @@ kl_model *kli_model_copy(const kl_model *src) {
     m->nreg_joints = src->nreg_joints;
     m->nreg_loops = src->nreg_loops;
     m->nloads = src->nloads;
+    m->nsegments = src->nsegments;
+    m->nknots = src->nknots;
     /* the names are src's until copied: none first, then each */
     for (i = 0; i < m->nlinks; i++)
       m->links[i].name = NULL;

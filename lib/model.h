@@ -187,6 +187,17 @@ typedef struct {
   kli_force_pattern forces;
 } kli_topology;
 
+/* A motion profile's segment, laid out in time from `start`. */
+typedef struct {
+  int kind, law;
+  double start, duration, from, to;
+} kli_segment;
+/* A table's knot: time, value, the spline's second derivative there, and
+ * scratch for the solve that finds it. */
+typedef struct {
+  double t, y, m, work;
+} kli_knot;
+
 struct kl_model {
   kli_allocator alloc;
   /* Holders of the model: the caller's handle, each solver and each study
@@ -224,6 +235,13 @@ struct kl_model {
   int nloads, cap_loads;
   int has_speed, speed_input;
   double speed, speed_fluctuation;
+  /* the motion profile in time of one input (profile.c): segments, or a
+   * table's knots; none while both counts are 0 */
+  int profile_input;
+  kli_segment *segments;
+  int nsegments, cap_segments;
+  kli_knot *knots;
+  int nknots, cap_knots;
 
   int finalized;
   kli_topology topo;

@@ -432,6 +432,148 @@ static int read_redundant(model_reader *mr) {
   return st == KL_OK ? KL_OK : builder_failed(mr, st, column);
 }
 
+/* ---- the motion profile in time: segment and timetable ---- */
+
+/* The file's words for the motion laws, in enum kl_motion_law_kind's
+ * order (shared with the writer through kli_law_word). */
+static const char *const law_words[] = {"harmonic", "cycloidal", "poly345",
+                                        "poly4567", "mod-trapezoid",
+                                        "mod-sine"};
+
+const char *kli_law_word(int law) {
+  return law >= 0 && law < (int)(sizeof law_words / sizeof law_words[0])
+             ? law_words[law]
+             : NULL;
+}
+
+/* The input that `joint` (read at `column`) drives, or the status. */
+static int driven_input(model_reader *mr, int joint, int column,
+                        const char *what, int *input) {
+  char label[96];
+  *input = kli_input_of(mr->m, joint);
+  if (*input < 0)
+    return kli_read_fail(&mr->r, KL_EKIND, column,
+                         "%s is not an input; declare it with 'input' before "
+                         "its %s",
+                         kli_joint_label(mr->m, joint, label, sizeof label),
+                         what);
+  return KL_OK;
+}
+
+/* A value of the driven joint in the file's units, in the library's. */
+static double joint_value_in(model_reader *mr, int joint, double v) {
+  return mr->m->joints[joint].kind == KL_JOINT_REVOLUTE
+             ? kli_angle_in(&mr->r, v)
+             : v;
+}
+
+/* segment JOINT dwell T V | segment JOINT rise|return LAW T FROM TO |
+ * segment JOINT speed T FROM TO */
+static int read_segment(model_reader *mr) {
+  static const char *const kinds[] = {"dwell", "rise", "return", "speed"};
+  kli_reader *r = &mr->r;
+  kli_token t;
+  int st, joint, joint_column, input, kind = -1, law = 0, i;
+  double duration, from, to;
+  if ((st = next_column(r, &joint_column)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_JOINT, "the driven input's joint",
+                           &joint)) != KL_OK ||
+      (st = kli_next_token(r, &t)) != KL_OK)
+    return st;
+  for (i = 0; i < 4; i++)
+    if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, kinds[i]) == 0)
+      kind = i;
+  if (kind < 0)
+    return kli_read_fail(r, KL_ESYNTAX, t.column,
+                         "expected dwell, rise, return or speed, found "
+                         "'%.60s'",
+                         kli_token_shown(&t));
+  if (kind == KL_SEGMENT_RISE || kind == KL_SEGMENT_RETURN) {
+    if ((st = kli_next_token(r, &t)) != KL_OK)
+      return st;
+    for (law = 0; kli_law_word(law) != NULL; law++)
+      if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, kli_law_word(law)) == 0)
+        break;
+    if (kli_law_word(law) == NULL)
+      return kli_read_fail(r, KL_ESYNTAX, t.column,
+                           "expected a motion law (harmonic, cycloidal, "
+                           "poly345, poly4567, mod-trapezoid or mod-sine), "
+                           "found '%.60s'",
+                           kli_token_shown(&t));
+  }
+  if ((st = kli_expect_number(r, "the segment's duration", &duration)) !=
+          KL_OK ||
+      (st = kli_expect_number(r, "the value the segment starts at", &from)) !=
+          KL_OK)
+    return st;
+  to = from;
+  if (kind != KL_SEGMENT_DWELL &&
+      (st = kli_expect_number(r, "the value the segment ends at", &to)) !=
+          KL_OK)
+    return st;
+  if ((st = kli_expect_end(r)) != KL_OK ||
+      (st = driven_input(mr, joint, joint_column, "motion profile",
+                         &input)) != KL_OK)
+    return st;
+  st = kl_add_segment(mr->m, input, kind, law, duration,
+                      joint_value_in(mr, joint, from),
+                      joint_value_in(mr, joint, to));
+  return st >= 0 ? KL_OK : builder_failed(mr, st, joint_column);
+}
+
+/* timetable JOINT T V T V ...: time and value pairs */
+static int read_timetable(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  const kli_allocator *a = &mr->m->alloc;
+  double *pairs = NULL;
+  int st, joint, joint_column, input, n = 0, cap = 0, k;
+  if ((st = next_column(r, &joint_column)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_JOINT, "the driven input's joint",
+                           &joint)) != KL_OK ||
+      (st = driven_input(mr, joint, joint_column, "motion profile",
+                         &input)) != KL_OK)
+    return st;
+  for (;;) {
+    kli_token t;
+    size_t save = r->pos;
+    if ((st = kli_next_token(r, &t)) != KL_OK)
+      break;
+    if (t.kind == KLI_TOKEN_END)
+      break;
+    r->pos = save;
+    if ((st = kli_reserve(a, (void **)&pairs, &cap, 2 * n + 2,
+                          sizeof *pairs)) != KL_OK) {
+      st = kli_read_fail(r, KL_ENOMEM, t.column, "out of memory");
+      break;
+    }
+    if ((st = kli_expect_number(r, "a time", &pairs[2 * n])) != KL_OK ||
+        (st = kli_expect_number(r, "the value at that time",
+                                &pairs[2 * n + 1])) != KL_OK)
+      break;
+    n++;
+  }
+  if (st == KL_OK) {
+    /* times in place of the pairs' first half, values after them */
+    double *times = pairs, *values = NULL;
+    if (n > 0 && (values = kli_alloc(a, (size_t)n * sizeof *values)) == NULL)
+      st = kli_read_fail(r, KL_ENOMEM, joint_column, "out of memory");
+    for (k = 0; st == KL_OK && k < n; k++) {
+      values[k] = joint_value_in(mr, joint, pairs[2 * k + 1]);
+      times[k] = pairs[2 * k];
+    }
+    if (st == KL_OK) {
+      st = kl_model_set_profile_table(mr->m, input, n, times, values);
+      if (st != KL_OK)
+        st = builder_failed(mr, st, joint_column);
+    }
+    if (values != NULL)
+      kli_free(a, values, (size_t)n * sizeof *values);
+  }
+  if (cap > 0)
+    kli_free(a, pairs, (size_t)cap * sizeof *pairs);
+  return st;
+}
+
 typedef int (*statement_reader)(model_reader *mr);
 
 /* The reader of a force-stage statement word, or NULL. */
@@ -443,7 +585,9 @@ static statement_reader force_statement(const char *word) {
                {"gravity", read_gravity},
                {"load", read_load},
                {"speed", read_speed},
-               {"redundant", read_redundant}};
+               {"redundant", read_redundant},
+               {"segment", read_segment},
+               {"timetable", read_timetable}};
   size_t i;
   for (i = 0; i < sizeof table / sizeof table[0]; i++)
     if (strcmp(word, table[i].word) == 0)
@@ -514,7 +658,8 @@ static int read_statement(model_reader *mr, const kli_token *key) {
       r, KL_ESYNTAX, key->column,
       "unknown statement '%.60s' (expected units, link, "
       "revolute, prismatic, slot, arc-slot, curve-slot, point, input, "
-      "loop, sketch, hold, sweep, mass, gravity, load, speed or redundant)",
+      "loop, sketch, hold, sweep, mass, gravity, load, speed, redundant, "
+      "segment or timetable)",
       k);
 }
 

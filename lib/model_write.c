@@ -138,6 +138,40 @@ static void write_curved_slot(const kl_model *m, int joint, sink *o) {
   put(o, "\n");
 }
 
+/* A value of the profile's joint in the file's units. */
+static double joint_value_out(const kl_model *m, int joint, double v) {
+  return m->joints[joint].kind == KL_JOINT_REVOLUTE ? angle_out(m, v) : v;
+}
+
+/* The motion profile: its segments or its timetable. */
+static void write_profile(const kl_model *m, sink *o) {
+  static const char *const kinds[] = {"dwell", "rise", "return", "speed"};
+  int joint, k;
+  if (m->nsegments == 0 && m->nknots == 0)
+    return;
+  joint = m->inputs[m->profile_input];
+  for (k = 0; k < m->nsegments; k++) {
+    const kli_segment *g = &m->segments[k];
+    put(o, "segment");
+    put_joint_ref(o, m, joint);
+    put(o, " %s", kinds[g->kind]);
+    if (g->kind == KL_SEGMENT_RISE || g->kind == KL_SEGMENT_RETURN)
+      put(o, " %s", kli_law_word(g->law));
+    put(o, " %.17g %.17g", g->duration, joint_value_out(m, joint, g->from));
+    if (g->kind != KL_SEGMENT_DWELL)
+      put(o, " %.17g", joint_value_out(m, joint, g->to));
+    put(o, "\n");
+  }
+  if (m->nknots > 0) {
+    put(o, "timetable");
+    put_joint_ref(o, m, joint);
+    for (k = 0; k < m->nknots; k++)
+      put(o, " %.17g %.17g", m->knots[k].t,
+          joint_value_out(m, joint, m->knots[k].y));
+    put(o, "\n");
+  }
+}
+
 static void write_model(const kl_model *m, sink *o) {
   int i, k;
   put(o, "kinloop-model %d\n", KLI_FORMAT_VERSION);
@@ -213,6 +247,7 @@ static void write_model(const kl_model *m, sink *o) {
         angle ? angle_out(m, m->sweep.to) : m->sweep.to, m->sweep.steps);
   }
   write_force_data(m, o);
+  write_profile(m, o);
 }
 
 int kl_model_write(const kl_model *m, char *buf, size_t cap, size_t *needed) {

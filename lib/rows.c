@@ -13,7 +13,9 @@ static const char *const quantity_names[] = {
     "joint_angle",  "joint_slide",      "joint_slide_rate",
     "joint_slide_accel", "point_x",     "point_y",
     "point_vx",     "point_vy",         "point_ax",
-    "point_ay",     "transmission",     "rcond"};
+    "point_ay",     "transmission",     "rcond",
+    "input_jerk",   "link_jerk",        "joint_slide_jerk",
+    "point_jx",     "point_jy"};
 #define KLI_QUANTITIES ((int)(sizeof quantity_names / sizeof quantity_names[0]))
 
 const char *kl_quantity_str(int quantity) {
@@ -27,21 +29,24 @@ static int block_size(const kl_model *m, int q) {
   case KL_QUANTITY_INPUT_VALUE:
   case KL_QUANTITY_INPUT_RATE:
   case KL_QUANTITY_INPUT_ACCEL:
+  case KL_QUANTITY_INPUT_JERK:
     return m->ninputs;
   case KL_QUANTITY_LINK_ANGLE:
   case KL_QUANTITY_LINK_RATE:
   case KL_QUANTITY_LINK_ACCEL:
+  case KL_QUANTITY_LINK_JERK:
     return m->nlinks;
   case KL_QUANTITY_JOINT_ANGLE:
   case KL_QUANTITY_JOINT_SLIDE:
   case KL_QUANTITY_JOINT_SLIDE_RATE:
   case KL_QUANTITY_JOINT_SLIDE_ACCEL:
+  case KL_QUANTITY_JOINT_SLIDE_JERK:
     return m->njoints;
   case KL_QUANTITY_TRANSMISSION:
     return m->topo.nsites;
   case KL_QUANTITY_RCOND:
     return 1;
-  default: /* the six point quantities */
+  default: /* the eight point quantities */
     return m->npoints;
   }
 }
@@ -72,7 +77,23 @@ int kl_model_row_offset(const kl_model *m, int quantity, int *count) {
   return offset;
 }
 
-/* An input's rate or acceleration when its stage is solved. */
+/* x and y of a point getter for every point, in blocks of their own;
+ * returns the row position after them. */
+static double *point_blocks(const kl_solver *s,
+                            int (*getter)(const kl_solver *, int, double *),
+                            double *r) {
+  int i, np = s->model->npoints;
+  for (i = 0; i < np; i++) {
+    double xy[2];
+    if (getter(s, i, xy) != KL_OK)
+      xy[0] = xy[1] = NAN;
+    r[i] = xy[0];
+    r[np + i] = xy[1];
+  }
+  return r + 2 * np;
+}
+
+/* An input's rate, acceleration or jerk when its stage is solved. */
 static double input_stage(int solved, const double *v, int i) {
   return solved ? v[i] : NAN;
 }
@@ -107,19 +128,18 @@ int kl_solver_row(const kl_solver *s, double *row) {
   for (i = 0; i < m->njoints; i++)
     *r++ = kl_joint_slide_accel(s, i);
   /* x and y of each getter, in blocks of their own */
-  for (g = 0; g < 3; g++) {
-    for (i = 0; i < m->npoints; i++) {
-      double xy[2];
-      if (point_getter[g](s, i, xy) != KL_OK)
-        xy[0] = xy[1] = NAN;
-      r[i] = xy[0];
-      r[m->npoints + i] = xy[1];
-    }
-    r += 2 * m->npoints;
-  }
+  for (g = 0; g < 3; g++)
+    r = point_blocks(s, point_getter[g], r);
   for (i = 0; i < m->topo.nsites; i++)
     *r++ = kli_output_value(s, &m->topo.sites[i]);
-  *r = s->st.position_solved ? s->st.rcond : NAN;
+  *r++ = s->st.position_solved ? s->st.rcond : NAN;
+  for (i = 0; i < m->ninputs; i++)
+    *r++ = input_stage(s->st.jerk_solved, s->st.uddd, i);
+  for (i = 0; i < m->nlinks; i++)
+    *r++ = kl_link_jerk(s, i);
+  for (i = 0; i < m->njoints; i++)
+    *r++ = kl_joint_slide_jerk(s, i);
+  point_blocks(s, kl_point_jerk, r);
   return KL_OK;
 }
 

@@ -56,9 +56,11 @@ static void carve_state(kli_state *st, kli_carver *c, const kl_model *m) {
   carve_pose(&st->pose, c, ncoords, m->nlinks);
   st->xd = kli_carve(c, (size_t)ncoords, sizeof(double));
   st->xdd = kli_carve(c, (size_t)ncoords, sizeof(double));
+  st->xddd = kli_carve(c, (size_t)ncoords, sizeof(double));
   st->u = kli_carve(c, (size_t)ninputs, sizeof(double));
   st->ud = kli_carve(c, (size_t)ninputs, sizeof(double));
   st->udd = kli_carve(c, (size_t)ninputs, sizeof(double));
+  st->uddd = kli_carve(c, (size_t)ninputs, sizeof(double));
   carve_forces(&st->forces, c, m);
 }
 
@@ -109,6 +111,8 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->sweep_u = kli_carve(c, (size_t)ni, sizeof(double));
   t->sweep_rate = kli_carve(c, (size_t)ni, sizeof(double));
   t->sweep_zero = kli_carve(c, (size_t)ni, sizeof(double));
+  t->time_motion = kli_carve(c, 4 * (size_t)ni, sizeof(double));
+  t->time_efforts = kli_carve(c, (size_t)ni, sizeof(double));
   t->modes = kli_carve(c, (size_t)KLI_MAX_MODES * (size_t)n, sizeof(double));
   p.n = n;
   p.npairs = top->nkept_pairs;
@@ -167,11 +171,14 @@ static void start_state(kl_solver *s) {
   int i;
   memset(s->st.xd, 0, nc);
   memset(s->st.xdd, 0, nc);
+  memset(s->st.xddd, 0, nc);
   memset(s->st.u, 0, ni);
   memset(s->st.ud, 0, ni);
   memset(s->st.udd, 0, ni);
+  memset(s->st.uddd, 0, ni);
   s->st.position_solved = s->st.inputs_known = 0;
   s->st.velocity_solved = s->st.acceleration_solved = 0;
+  s->st.jerk_solved = 0;
   s->st.rcond = 0.0;
   s->coefficients_solved = 0;
   s->factors_current = s->factors_near = 0;
@@ -395,9 +402,11 @@ void kli_state_copy(const kl_solver *s, kli_state *to, const kli_state *from) {
   kli_pose_copy(s, &to->pose, &from->pose);
   memcpy(to->xd, from->xd, nc);
   memcpy(to->xdd, from->xdd, nc);
+  memcpy(to->xddd, from->xddd, nc);
   memcpy(to->u, from->u, ni);
   memcpy(to->ud, from->ud, ni);
   memcpy(to->udd, from->udd, ni);
+  memcpy(to->uddd, from->uddd, ni);
   /* the forces only when they hold results: the sweep copies states at
    * every sub-step */
   if (from->forces_solved) {
@@ -414,6 +423,7 @@ void kli_state_copy(const kl_solver *s, kli_state *to, const kli_state *from) {
   to->inputs_known = from->inputs_known;
   to->velocity_solved = from->velocity_solved;
   to->acceleration_solved = from->acceleration_solved;
+  to->jerk_solved = from->jerk_solved;
   to->last_attempt = from->last_attempt;
   to->rcond = from->rcond;
 }
@@ -427,6 +437,7 @@ void kli_state_restore(kl_solver *s, const kli_state *from) {
 void kli_state_changed(kl_solver *s) {
   s->st.velocity_solved = 0;
   s->st.acceleration_solved = 0;
+  s->st.jerk_solved = 0;
   s->st.forces_solved = 0;
   s->coefficients_solved = 0;
 }

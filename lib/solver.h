@@ -20,11 +20,14 @@ typedef struct {
 typedef struct {
   kli_pose pose;          /* x, cos, sin */
   double *xd, *xdd;       /* coordinate rates and accelerations */
+  double *xddd;           /* coordinate jerks */
   double *u, *ud, *udd;   /* inputs, their rates and accelerations */
+  double *uddd;           /* and their jerks */
   kli_forces forces;      /* the force stage's results */
   int position_solved;    /* pose closes the loops at u (not a sketch) */
   int inputs_known;       /* u holds inputs of a successful solve */
   int velocity_solved, acceleration_solved;
+  int jerk_solved;        /* xddd holds the jerk at these rates and accels */
   int forces_solved;      /* forces hold the force stage at this state */
   int last_attempt;       /* status of the last position solve */
   double rcond;           /* condition estimate of the factors at pose */
@@ -88,6 +91,9 @@ struct kl_solver {
   double u_previous;      /* its input */
   int have_previous;
   double *sweep_u, *sweep_rate, *sweep_zero; /* inputs for the sweep */
+  double *time_motion;    /* 4 x ninputs: the inputs, rates, accelerations
+                             and jerks at a time of the model's profile */
+  double *time_efforts;   /* ninputs: the efforts at one such time */
   double *modes;          /* KLI_MAX_MODES x n: assembly modes found */
   kli_dense dense;
 

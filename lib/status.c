@@ -45,6 +45,7 @@ const char *kl_status_str(int status) {
   case KL_ERADIUS: return "radius zero or negative";
   case KL_EUNDERCUT: return "cam surface undercut by the roller";
   case KL_EPRESSURE: return "pressure angle above the bound";
+  case KL_EJOIN: return "motion profile segments do not join";
   default: return "unknown status";
   }
 }

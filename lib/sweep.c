@@ -379,6 +379,7 @@ static void interpolate_crossing(kl_solver *s, int input, double target) {
   s->st.u[input] = target;
   s->st.position_solved = s->st.inputs_known = 1;
   s->st.velocity_solved = s->st.acceleration_solved = 1;
+  s->st.jerk_solved = 0;
   s->st.forces_solved = 0;
   s->st.last_attempt = KL_OK;
   s->st.rcond = 0.0; /* at (or next to) a singular position */
@@ -427,10 +428,13 @@ static int hand_over(kl_solver *s, int step, double input, kl_sweep_fn fn,
   return KL_OK;
 }
 
-/* Delivers one step: acceleration at zero input acceleration, callback. */
+/* Delivers one step: acceleration and jerk at zero input acceleration and
+ * jerk (the second- and third-order coefficients), callback. */
 static int deliver(kl_solver *s, int step, double input, kl_sweep_fn fn,
                    void *user) {
   int st = kl_solve_acceleration(s, s->sweep_zero);
+  if (st == KL_OK)
+    st = kl_solve_jerk(s, s->sweep_zero);
   return st != KL_OK ? st : hand_over(s, step, input, fn, user);
 }
 

@@ -88,6 +88,9 @@ int kli_expect_new_name(kli_reader *r, const char *what, kli_token *t,
 int kli_expect_ref(kli_reader *r, int kind, const char *what, int *id);
 /* An angle of the text in radians. */
 double kli_angle_in(const kli_reader *r, double v);
+/* The model file's word for motion law `law` (enum kl_motion_law_kind), or
+ * NULL for a number that is no law. */
+const char *kli_law_word(int law);
 /* force POINT FX FY | torque LINK T, and the end of the line: into *l
  * (the 'load' statement of both formats, after its first word). */
 int kli_expect_load(kli_reader *r, kl_load *l);

@@ -34,6 +34,7 @@ int kl_solve_velocity(kl_solver *s, const double *input_rates) {
     memcpy(s->st.ud, input_rates, (size_t)s->ninputs * sizeof(double));
   s->st.velocity_solved = 1;
   s->st.acceleration_solved = 0;
+  s->st.jerk_solved = 0;
   s->st.forces_solved = 0;
   return KL_OK;
 }

@@ -545,9 +545,99 @@ static const bad_case bad_cases[] = {
     {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
      "redundant 1\n",
      KL_EDOF, 0, 0, "plus 1 redundant constraint declared"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "segment j rise 0.2 0 90\n",
+     KL_ESYNTAX, 5, 16, "expected a motion law"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "segment j climb 0.2 0 90\n",
+     KL_ESYNTAX, 5, 11, "expected dwell, rise"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "segment j rise cycloidal 0.2 0 90\nsegment j dwell 0.1 80\n",
+     KL_EJOIN, 6, 9, "segment 0 ended at 90"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "segment j dwell -0.1 0\n",
+     KL_EINVAL, 5, 9, "not positive"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\n"
+     "segment j dwell 0.1 0\n",
+     KL_EKIND, 4, 9, "not an input"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "timetable j 0 0 0.1\n",
+     KL_ESYNTAX, 5, 20, "the value at that time"},
+    {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
+     "timetable j 0 0 0.2 5 0.1 9\n",
+     KL_EINVAL, 5, 11, "does not come after"},
     {"kinloop-model 1\nlink a\x01\n", KL_ESYNTAX, 2, 7, "control character"},
     {"kinloop-model 1\nlink a\n\0link b\n", KL_ESYNTAX, 3, 1, "NUL byte"},
 };
+
+/* The profile statements mean their calls (values in the file's degrees
+ * come in as radians), and a written model reads back to the same
+ * profile, within a rounding of the degree conversion. */
+START_TEST(profile_statements_read_and_write_back) {
+  static const char text[] =
+      "kinloop-model 1\nunits length mm angle deg\nlink crank\n"
+      "revolute motor ground 0 0 crank 0 0\ninput motor\n"
+      "segment motor dwell 0.1 0\n"
+      "segment motor rise mod-sine 0.25 0 120\n"
+      "segment motor speed 0.2 120 180\n"
+      "segment motor return poly4567 0.3 180 0\n";
+  static const char table[] =
+      "kinloop-model 1\nlink slider\n"
+      "prismatic ram ground 0 0 axis 0 slider 0 0\ninput ram\n"
+      "timetable ram 0 0 0.1 4 0.25 30 0.4 32\n";
+  kl_io_error err;
+  kl_model *m, *back;
+  kl_segment seg;
+  double out[4], again[4], t, v;
+  char *written;
+  size_t len;
+  int k;
+  err.size = sizeof err;
+  m = kl_model_read(text, sizeof text - 1, &err);
+  ck_assert_msg(m != NULL, "%s", err.message);
+  ck_assert_int_eq(kl_model_segment_count(m), 4);
+  seg.size = sizeof seg;
+  ck_assert_int_eq(kl_model_segment(m, 1, &seg), KL_OK);
+  ck_assert_int_eq(seg.kind, KL_SEGMENT_RISE);
+  ck_assert_int_eq(seg.law, KL_LAW_MOD_SINE);
+  ck_assert_double_eq_tol(seg.to, 120 * PI / 180, 1e-15);
+  ck_assert_int_eq(kl_model_segment(m, 3, &seg), KL_OK);
+  ck_assert_int_eq(seg.law, KL_LAW_POLY4567);
+  ck_assert_double_eq_tol(kl_model_profile_duration(m), 0.85, 1e-15);
+  written = write_text(m, &len);
+  ck_assert_ptr_nonnull(written);
+  ck_assert_ptr_nonnull(strstr(written, "segment motor return poly4567 "));
+  back = kl_model_read(written, strlen(written), &err);
+  ck_assert_msg(back != NULL, "%s", err.message);
+  for (k = 0; k <= 17; k++) {
+    ck_assert_int_eq(kl_model_profile_motion(m, 0.05 * k, out), KL_OK);
+    ck_assert_int_eq(kl_model_profile_motion(back, 0.05 * k, again), KL_OK);
+    ck_assert_double_le(rel_diff(again[0], out[0], 1.0), 1e-14);
+    ck_assert_double_le(rel_diff(again[3], out[3], fabs(out[3]) + 1.0),
+                        1e-13);
+  }
+  free(written);
+  kl_model_free(back);
+  kl_model_free(m);
+
+  m = kl_model_read(table, sizeof table - 1, &err);
+  ck_assert_msg(m != NULL, "%s", err.message);
+  ck_assert_int_eq(kl_model_table_count(m), 4);
+  ck_assert_int_eq(kl_model_table_point(m, 2, &t, &v), KL_OK);
+  ck_assert_double_eq(t, 0.25);
+  ck_assert_double_eq(v, 30.0);
+  written = write_text(m, &len);
+  ck_assert_ptr_nonnull(strstr(written, "timetable ram 0 0 0.10000000000000001 4"));
+  back = kl_model_read(written, strlen(written), &err);
+  ck_assert_msg(back != NULL, "%s", err.message);
+  ck_assert_int_eq(kl_model_profile_motion(back, 0.3, again), KL_OK);
+  ck_assert_int_eq(kl_model_profile_motion(m, 0.3, out), KL_OK);
+  ck_assert_double_eq(again[2], out[2]);
+  free(written);
+  kl_model_free(back);
+  kl_model_free(m);
+}
+END_TEST
 
 START_TEST(every_error_names_line_and_column) {
   const bad_case *c = &bad_cases[_i];
@@ -801,6 +891,7 @@ int main(void) {
   tcase_add_test(tc, redundancy_reads_back);
   tcase_add_test(tc, held_inputs_and_the_step_limit);
   tcase_add_test(tc, force_statements_mean_their_calls);
+  tcase_add_test(tc, profile_statements_read_and_write_back);
   tcase_add_loop_test(tc, every_error_names_line_and_column, 0,
                       (int)(sizeof bad_cases / sizeof bad_cases[0]));
   tcase_add_test(tc, truncated_input_never_crashes);

@@ -1,7 +1,8 @@
 /*
- * test_rates.c - the velocity and acceleration stages and the kinematic
- * coefficients against closed forms, finite differences of the position
- * stage and superposition; stage order, bad rates, and no allocation.
+ * test_rates.c - the velocity, acceleration and jerk stages and the
+ * kinematic coefficients against closed forms, finite differences of the
+ * position stage and superposition; stage order, bad rates, and no
+ * allocation.
  */
 #include <check.h>
 #include <math.h>
@@ -14,14 +15,16 @@
 
 /* ---- reading every result of one stage ---- */
 
-enum stage { POSITION, VELOCITY, ACCELERATION, NSTAGES };
+enum stage { POSITION, VELOCITY, ACCELERATION, JERK, NSTAGES };
 
 static double (*const link_getter[NSTAGES])(const kl_solver *, int) = {
-    kl_link_angle, kl_link_rate, kl_link_accel};
+    kl_link_angle, kl_link_rate, kl_link_accel, kl_link_jerk};
 static double (*const slide_getter[NSTAGES])(const kl_solver *, int) = {
-    kl_joint_slide, kl_joint_slide_rate, kl_joint_slide_accel};
+    kl_joint_slide, kl_joint_slide_rate, kl_joint_slide_accel,
+    kl_joint_slide_jerk};
 static int (*const point_getter[NSTAGES])(const kl_solver *, int, double *) = {
-    kl_point_position, kl_point_velocity, kl_point_acceleration};
+    kl_point_position, kl_point_velocity, kl_point_acceleration,
+    kl_point_jerk};
 
 /* What the getters of one stage hand out, in a fixed order: links 1..,
  * the slides of the sliding joints, then x and y of each point. `unit` is
@@ -177,7 +180,8 @@ static kl_solver *mechanism_solver(const mechanism *mc) {
 }
 
 /* Solves every stage at start + tau dir, with input rates dir and zero
- * input accelerations, so the results are d/dtau and d^2/dtau^2. */
+ * input accelerations and jerks, so the results are d/dtau, d^2/dtau^2 and
+ * d^3/dtau^3. */
 static void solve_along(kl_solver *s, const mechanism *mc, double tau,
                         readout out[NSTAGES]) {
   double u[2], zero[2] = {0.0, 0.0};
@@ -188,6 +192,7 @@ static void solve_along(kl_solver *s, const mechanism *mc, double tau,
                 tau, kl_solver_error(s));
   ck_assert_int_eq(kl_solve_velocity(s, mc->dir), KL_OK);
   ck_assert_int_eq(kl_solve_acceleration(s, zero), KL_OK);
+  ck_assert_int_eq(kl_solve_jerk(s, zero), KL_OK);
   for (i = 0; i < NSTAGES; i++)
     out[i] = read_stage(s, (enum stage)i);
 }
@@ -324,11 +329,17 @@ END_TEST
  *   S' = -h h' / S,  S'' = -(h'^2 + h h'') / S - (h h')^2 / S^3,
  *   x' = -r sin t + S',  x'' = -r cos t + S'',
  * and in time (chain rule) xdot = x' w, xddot = x'' w^2 + x' al.
+ * The jerk: a third time from S S' = -h h' (so S S'' = -(h'^2 + h h'' +
+ * S'^2), the same S'' as above), with h''' = r cos t:
+ *   S S''' + 3 S' S'' = -(3 h' h'' + h h''')
+ *   S''' = -(3 h' h'' + h h''' + 3 S' S'') / S,  x''' = r sin t + S''',
+ * and in time, differentiating xddot once more (w' = al, al' = ze):
+ *   xdddot = x''' w^3 + 3 x'' w al + x' ze.
  */
 START_TEST(slider_crank_rates_match_closed_form) {
   slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = kl_solver_new(sc.m);
-  const double w = 3.1, al = 2.2; /* chosen for this test */
+  const double w = 3.1, al = 2.2, ze = -4.3; /* chosen for this test */
   int k;
   ck_assert_ptr_nonnull(s);
   kl_set_link_angle(s, sc.rod, 0.1);
@@ -339,11 +350,16 @@ START_TEST(slider_crank_rates_match_closed_form) {
     double S = sqrt(sc.l * sc.l - h * h);
     double dS = -h * dh / S;
     double ddS = -(dh * dh + h * ddh) / S - (h * dh) * (h * dh) / (S * S * S);
+    double dddh = sc.r * cos(t);
+    double dddS = -(3 * dh * ddh + h * dddh + 3 * dS * ddS) / S;
     double dx = -sc.r * sin(t) + dS, ddx = -sc.r * cos(t) + ddS;
+    double dddx = sc.r * sin(t) + dddS;
     double v_ref = dx * w, a_ref = ddx * w * w + dx * al;
+    double j_ref = dddx * w * w * w + 3 * ddx * w * al + dx * ze;
     ck_assert_int_eq(kl_solve_position(s, &t), KL_OK);
     ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
     ck_assert_int_eq(kl_solve_acceleration(s, &al), KL_OK);
+    ck_assert_int_eq(kl_solve_jerk(s, &ze), KL_OK);
     /* the branch the closed form describes (slider right of the crank) */
     ck_assert_double_le(fabs(kl_joint_slide(s, sc.slide_joint) -
                              (sc.r * cos(t) + S)),
@@ -357,9 +373,15 @@ START_TEST(slider_crank_rates_match_closed_form) {
                            sc.r * (fabs(al) + w * w)) <= CLOSED_FORM_TOL,
                   "slide acceleration at %d deg: %.17g vs %.17g", k * 10,
                   kl_joint_slide_accel(s, sc.slide_joint), a_ref);
+    ck_assert_msg(rel_diff(kl_joint_slide_jerk(s, sc.slide_joint), j_ref,
+                           sc.r * (fabs(ze) + 3 * w * fabs(al) +
+                                   w * w * w)) <= CLOSED_FORM_TOL,
+                  "slide jerk at %d deg: %.17g vs %.17g", k * 10,
+                  kl_joint_slide_jerk(s, sc.slide_joint), j_ref);
     /* the block keeps ground's angle (prismatic lock): it never turns */
     ck_assert_double_eq(kl_link_rate(s, sc.block), 0.0);
     ck_assert_double_eq(kl_link_accel(s, sc.block), 0.0);
+    ck_assert_double_eq(kl_link_jerk(s, sc.block), 0.0);
   }
   kl_solver_free(s);
   kl_model_free(sc.m);
@@ -547,6 +569,8 @@ START_TEST(differences_match_the_rate_stages) {
                       &at[VELOCITY]);
     expect_difference(&mc, tau, "acceleration", &minus[VELOCITY],
                       &plus[VELOCITY], &at[ACCELERATION]);
+    expect_difference(&mc, tau, "jerk", &minus[ACCELERATION],
+                      &plus[ACCELERATION], &at[JERK]);
   }
   kl_solver_free(s);
   kl_model_free(mc.m);
@@ -728,7 +752,9 @@ static void assert_rates_unreadable(const kl_solver *s, const fourbar *f) {
     ck_assert(isnan(kl_link_accel(s, l)));
     ck_assert(isnan(kl_link_angle_deriv(s, l, 0)));
     ck_assert(isnan(kl_link_angle_deriv2(s, l, 0, 0)));
+    ck_assert(isnan(kl_link_jerk(s, l)));
   }
+  ck_assert_int_eq(kl_point_jerk(s, f->coupler_point, xy), KL_ESTAGE);
   ck_assert_int_eq(kl_point_velocity(s, f->coupler_point, xy), KL_ESTAGE);
   ck_assert_int_eq(kl_point_acceleration(s, f->coupler_point, xy), KL_ESTAGE);
   ck_assert_int_eq(kl_point_deriv(s, f->coupler_point, 0, xy), KL_ESTAGE);
@@ -739,6 +765,7 @@ static void solve_all(kl_solver *s, double u, double w, double al) {
   ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
   ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
   ck_assert_int_eq(kl_solve_acceleration(s, &al), KL_OK);
+  ck_assert_int_eq(kl_solve_jerk(s, &al), KL_OK);
   ck_assert_int_eq(kl_solve_coefficients(s), KL_OK);
 }
 
@@ -772,6 +799,11 @@ START_TEST(stages_in_the_wrong_order) {
                      "velocity");
   ck_assert(isnan(kl_link_accel(s, f.rocker)));
   ck_assert_int_eq(kl_point_acceleration(s, f.coupler_point, xy), KL_ESTAGE);
+  /* jerk before acceleration: refused, and nothing becomes readable */
+  ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
+  expect_stage_error(s, kl_solve_jerk(s, &al), "solve jerk", "acceleration");
+  ck_assert(isnan(kl_link_jerk(s, f.rocker)));
+  ck_assert_int_eq(kl_point_jerk(s, f.coupler_point, xy), KL_ESTAGE);
 
   /* a new position makes every rate stale: NaN, never the old numbers */
   solve_all(s, u, w, al);
@@ -789,6 +821,12 @@ START_TEST(stages_in_the_wrong_order) {
   ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
   ck_assert(isnan(kl_link_accel(s, f.rocker)));
   ck_assert_int_eq(kl_point_acceleration(s, f.coupler_point, xy), KL_ESTAGE);
+  /* ... and new accelerations the jerks of the old ones */
+  expect_stage_error(s, kl_solve_jerk(s, &al), "solve jerk", "acceleration");
+  solve_all(s, u, w, al);
+  ck_assert_int_eq(kl_solve_acceleration(s, &w), KL_OK);
+  ck_assert(isnan(kl_link_jerk(s, f.rocker)));
+  ck_assert_int_eq(kl_point_jerk(s, f.coupler_point, xy), KL_ESTAGE);
 
   /* a sketch change leaves no solved position */
   solve_all(s, u, w, al);
@@ -889,6 +927,8 @@ static void call_every_getter(const kl_solver *s, int solved) {
     ck_assert(isfinite(kl_link_angle(s, l)));
     ck_assert_int_eq(isfinite(kl_link_rate(s, l)) != 0, solved);
     ck_assert_int_eq(isfinite(kl_link_accel(s, l)) != 0, solved);
+    ck_assert_int_eq(isfinite(kl_link_jerk(s, l)) != 0, solved);
+    ck_assert_int_eq(kl_link_origin_jerk(s, l, xy), stage_status);
     ck_assert_int_eq(isfinite(kl_link_angle_deriv(s, l, 0)) != 0, solved);
     ck_assert_int_eq(isfinite(kl_link_angle_deriv2(s, l, 0, 0)) != 0, solved);
     ck_assert_int_eq(kl_link_origin(s, l, xy), KL_OK);
@@ -898,6 +938,7 @@ static void call_every_getter(const kl_solver *s, int solved) {
     ck_assert(isnan(kl_joint_slide(s, j)));
     ck_assert(isnan(kl_joint_slide_rate(s, j)));
     ck_assert(isnan(kl_joint_slide_accel(s, j)));
+    ck_assert(isnan(kl_joint_slide_jerk(s, j)));
     ck_assert(isnan(kl_joint_slide_deriv(s, j, 0)));
     ck_assert(isnan(kl_joint_slide_deriv2(s, j, 0, 0)));
   }
@@ -905,6 +946,7 @@ static void call_every_getter(const kl_solver *s, int solved) {
     ck_assert_int_eq(kl_point_position(s, p, xy), KL_OK);
     ck_assert_int_eq(kl_point_velocity(s, p, xy), stage_status);
     ck_assert_int_eq(kl_point_acceleration(s, p, xy), stage_status);
+    ck_assert_int_eq(kl_point_jerk(s, p, xy), stage_status);
     ck_assert_int_eq(kl_point_deriv(s, p, 0, xy), stage_status);
     ck_assert_int_eq(kl_point_deriv2(s, p, 0, 0, xy), stage_status);
   }
@@ -929,6 +971,7 @@ START_TEST(rate_stages_never_allocate) {
   /* the failure paths format messages: they must not allocate either */
   ck_assert_int_eq(kl_solve_velocity(s, &al), KL_ESTAGE);
   ck_assert_int_eq(kl_solve_coefficients(s), KL_ESTAGE);
+  ck_assert_int_eq(kl_solve_jerk(s, &al), KL_ESTAGE);
   call_every_getter(s, 0);
   kl_set_link_angle(s, 2, 0.6);
   kl_set_link_angle(s, 3, 1.1);
@@ -937,8 +980,10 @@ START_TEST(rate_stages_never_allocate) {
     ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
     ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
     ck_assert_int_eq(kl_solve_acceleration(s, &al), KL_OK);
+    ck_assert_int_eq(kl_solve_jerk(s, &al), KL_OK);
     ck_assert_int_eq(kl_solve_coefficients(s), KL_OK);
     ck_assert_int_eq(kl_solve_velocity(s, &bad), KL_ENONFINITE);
+    ck_assert_int_eq(kl_solve_jerk(s, &bad), KL_ENONFINITE);
     call_every_getter(s, 1);
   }
   /* source: the contract in kinloop.h, "no call on a solver allocates

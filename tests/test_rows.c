@@ -58,14 +58,16 @@ static int same(double a, double b) {
                   kl_quantity_str(q), (i), got_, want_);                       \
   } while (0)
 
-/* Every value of `row` against the getters of s; the input rates and
- * accelerations against what the stages were given (`rate`, `accel`, NULL
- * when not solved). */
+/* Every value of `row` against the getters of s; the input rates,
+ * accelerations and jerks against what the stages were given (`rate`,
+ * `accel`, `jerk`, NULL when not solved). */
 static void check_row(const kl_solver *s, const double *row,
-                      const double *rate, const double *accel) {
+                      const double *rate, const double *accel,
+                      const double *jerk) {
   const kl_model *m = kl_solver_model(s);
   int (*const point_getter[3])(const kl_solver *, int, double *) = {
       kl_point_position, kl_point_velocity, kl_point_acceleration};
+  double xy[2];
   kl_output sites[16];
   kl_solve_stats st;
   int i, g, nsites = kl_model_transmissions(m, sites, 16);
@@ -73,26 +75,34 @@ static void check_row(const kl_solver *s, const double *row,
     CHECK(KL_QUANTITY_INPUT_VALUE, i, kl_input_value(s, i));
     CHECK(KL_QUANTITY_INPUT_RATE, i, rate != NULL ? rate[i] : NAN);
     CHECK(KL_QUANTITY_INPUT_ACCEL, i, accel != NULL ? accel[i] : NAN);
+    CHECK(KL_QUANTITY_INPUT_JERK, i, jerk != NULL ? jerk[i] : NAN);
   }
   for (i = 0; i < kl_model_link_count(m); i++) {
     CHECK(KL_QUANTITY_LINK_ANGLE, i, kl_link_angle(s, i));
     CHECK(KL_QUANTITY_LINK_RATE, i, kl_link_rate(s, i));
     CHECK(KL_QUANTITY_LINK_ACCEL, i, kl_link_accel(s, i));
+    CHECK(KL_QUANTITY_LINK_JERK, i, kl_link_jerk(s, i));
   }
   for (i = 0; i < kl_model_joint_count(m); i++) {
     CHECK(KL_QUANTITY_JOINT_ANGLE, i, kl_joint_angle(s, i));
     CHECK(KL_QUANTITY_JOINT_SLIDE, i, kl_joint_slide(s, i));
     CHECK(KL_QUANTITY_JOINT_SLIDE_RATE, i, kl_joint_slide_rate(s, i));
     CHECK(KL_QUANTITY_JOINT_SLIDE_ACCEL, i, kl_joint_slide_accel(s, i));
+    CHECK(KL_QUANTITY_JOINT_SLIDE_JERK, i, kl_joint_slide_jerk(s, i));
   }
   for (i = 0; i < kl_model_point_count(m); i++)
     for (g = 0; g < 3; g++) {
-      double xy[2];
       if (point_getter[g](s, i, xy) != KL_OK)
         xy[0] = xy[1] = NAN;
       CHECK(KL_QUANTITY_POINT_X + 2 * g, i, xy[0]);
       CHECK(KL_QUANTITY_POINT_Y + 2 * g, i, xy[1]);
     }
+  for (i = 0; i < kl_model_point_count(m); i++) {
+    if (kl_point_jerk(s, i, xy) != KL_OK)
+      xy[0] = xy[1] = NAN;
+    CHECK(KL_QUANTITY_POINT_JX, i, xy[0]);
+    CHECK(KL_QUANTITY_POINT_JY, i, xy[1]);
+  }
   for (i = 0; i < nsites; i++) {
     double v;
     ck_assert_int_eq(kl_output_value(s, &sites[i], &v), KL_OK);
@@ -109,17 +119,17 @@ static void check_row(const kl_solver *s, const double *row,
 
 START_TEST(layout_blocks_follow_each_other) {
   kl_model *m = read_model(model_text), *open = kl_model_new();
-  const int counts[18] = {1, 1, 1, 6, 6, 6, 7, 7, 7, 7,
-                          2, 2, 2, 2, 2, 2, 2, 1};
+  const int counts[23] = {1, 1, 1, 6, 6, 6, 7, 7, 7, 7, 2, 2,
+                          2, 2, 2, 2, 2, 1, 1, 6, 7, 2, 2};
   int q, next = 0, count;
   for (q = 0; kl_quantity_str(q) != NULL; q++) {
-    ck_assert_int_lt(q, 18);
+    ck_assert_int_lt(q, 23);
     ck_assert_int_eq(kl_model_row_offset(m, q, &count), next);
     ck_assert_msg(count == counts[q], "%s: %d values", kl_quantity_str(q),
                   count);
     next += count;
   }
-  ck_assert_int_eq(q, 18);
+  ck_assert_int_eq(q, 23);
   ck_assert_int_eq(kl_model_row_size(m), next);
   ck_assert_int_eq(kl_model_row_offset(m, q, &count), KL_EID);
   ck_assert_int_eq(kl_model_row_offset(m, -1, NULL), KL_EID);
@@ -128,6 +138,7 @@ START_TEST(layout_blocks_follow_each_other) {
                    "joint_slide_accel");
   ck_assert_str_eq(kl_quantity_str(KL_QUANTITY_POINT_VY), "point_vy");
   ck_assert_str_eq(kl_quantity_str(KL_QUANTITY_RCOND), "rcond");
+  ck_assert_str_eq(kl_quantity_str(KL_QUANTITY_POINT_JY), "point_jy");
   ck_assert_ptr_null(kl_quantity_str(-1));
   ck_assert_int_eq(kl_model_row_size(open), KL_ESTATE);
   ck_assert_int_eq(kl_model_row_offset(open, 0, NULL), KL_ESTATE);
@@ -142,18 +153,21 @@ START_TEST(row_holds_each_getters_value_at_every_stage) {
   kl_model *m = read_model(model_text);
   kl_solver *s = kl_solver_new(m);
   double *row = malloc((size_t)kl_model_row_size(m) * sizeof *row);
-  double u = 0.7, w = 6.3, al = -2.0;
+  double u = 0.7, w = 6.3, al = -2.0, ze = 4.5;
   ck_assert_int_eq(kl_solver_row(s, row), KL_OK); /* the sketch */
-  check_row(s, row, NULL, NULL);
+  check_row(s, row, NULL, NULL, NULL);
   ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
   kl_solver_row(s, row);
-  check_row(s, row, NULL, NULL);
+  check_row(s, row, NULL, NULL, NULL);
   ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
   kl_solver_row(s, row);
-  check_row(s, row, &w, NULL);
+  check_row(s, row, &w, NULL, NULL);
   ck_assert_int_eq(kl_solve_acceleration(s, &al), KL_OK);
   kl_solver_row(s, row);
-  check_row(s, row, &w, &al);
+  check_row(s, row, &w, &al, NULL);
+  ck_assert_int_eq(kl_solve_jerk(s, &ze), KL_OK);
+  kl_solver_row(s, row);
+  check_row(s, row, &w, &al, &ze);
   /* a sketch after a solve: the position is the sketch's, rates gone */
   kl_set_link_angle(s, 2, 0.6);
   kl_solver_row(s, row);
@@ -177,7 +191,7 @@ static int record(const kl_solver *s, int step, double input, void *user) {
   double one = 1.0, zero = 0.0;
   (void)input;
   kl_solver_row(s, r->rows + (size_t)step * (size_t)r->size);
-  check_row(s, r->rows + (size_t)step * (size_t)r->size, &one, &zero);
+  check_row(s, r->rows + (size_t)step * (size_t)r->size, &one, &zero, &zero);
   r->calls++;
   return 0;
 }

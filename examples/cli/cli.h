@@ -37,6 +37,7 @@ enum cli_command {
   CLI_STUDY,
   CLI_FORCES,
   CLI_REACH,
+  CLI_TIMELINE,
   CLI_NCOMMANDS
 };
 
@@ -77,6 +78,8 @@ typedef struct {
   int write_over; /* outputs may replace model and study files */
   int npose;
   double pose[CLI_MAX_POSES]; /* draw: the swept input's values to draw */
+  int have_rpm;         /* sweep, forces: the speed in turns a minute */
+  double rpm;
 } cli_options;
 
 typedef struct {
@@ -191,6 +194,10 @@ int cli_require_range(const cli_model *cm, const cli_options *o,
  * Returns an exit code after printing why it failed. */
 int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,
                     const cli_range *r);
+/* --rpm N as the swept input's speed in its unit per second, into
+ * o->speed; a usage error (exit 2, after saying why) with --speed too or
+ * for an input that does not turn. */
+int cli_apply_rpm(const cli_model *cm, cli_options *o);
 /* A value in the model's units for messages: "123.4 deg". */
 void cli_format_input(const cli_model *cm, int input, double value, char *buf,
                       size_t cap);
@@ -256,6 +263,10 @@ int cli_cmd_solve(const cli_model *cm, const cli_options *o);
 int cli_cmd_sweep(const cli_model *cm, const cli_options *o);
 /* A CSV field, quoted when a comma, quote or line break would split it. */
 void cli_csv_field(FILE *f, const char *text);
+
+/* ---- timeline.c: the model's motion profile in time ---- */
+extern const char cli_timeline_help[];
+int cli_cmd_timeline(const cli_model *cm, const cli_options *o);
 
 /* ---- write.c ---- */
 int cli_cmd_write(const cli_model *cm, const cli_options *o);

@@ -493,6 +493,53 @@ static void screen(const view *v, const double xy[2], double *sx, double *sy) {
   *sy = v->ty - v->s * xy[1];
 }
 
+/* Coordinate axes along the left and bottom edges of the drawing box b,
+ * with ticks at a round step and their values in the model's length unit,
+ * so that a position (a point's path above all) can be read off the
+ * picture. Drawn first, under the linkage. */
+static void draw_axes(FILE *f, const cli_model *cm, const view *v,
+                      const box *b) {
+  double step = svg_round_125((b->x1 - b->x0) / 6, 1), c[2], left, bottom,
+         right, top, t;
+  char text[64];
+  c[0] = b->x0;
+  c[1] = b->y0;
+  screen(v, c, &left, &bottom);
+  c[0] = b->x1;
+  c[1] = b->y1;
+  screen(v, c, &right, &top);
+  fprintf(f,
+          "<g class=\"axes\" stroke=\"%s\" stroke-width=\"0.8\" "
+          "fill=\"none\">\n"
+          "<polyline points=\"%.2f,%.2f %.2f,%.2f %.2f,%.2f\"/>\n",
+          SVG_MUTED, left, top, left, bottom, right, bottom);
+  for (t = ceil(b->x0 / step) * step; t <= b->x1; t += step) {
+    double sx = v->tx + v->s * t;
+    fprintf(f, "<line x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\"/>\n",
+            sx, bottom, sx, bottom - 5);
+  }
+  for (t = ceil(b->y0 / step) * step; t <= b->y1; t += step) {
+    double sy = v->ty - v->s * t;
+    fprintf(f, "<line x1=\"%.2f\" y1=\"%.2f\" x2=\"%.2f\" y2=\"%.2f\"/>\n",
+            left, sy, left + 5, sy);
+  }
+  fprintf(f, "</g>\n");
+  /* values inside the box, beside their ticks; 0 shown as 0, not -0 */
+  for (t = ceil(b->x0 / step) * step; t <= b->x1; t += step) {
+    snprintf(text, sizeof text, "%g", fabs(t) < 1e-9 * step ? 0.0 : t);
+    svg_text(f, v->tx + v->s * t, bottom - 8, 9, SVG_MUTED,
+             "text-anchor=\"middle\"", text);
+  }
+  for (t = ceil(b->y0 / step) * step; t <= b->y1; t += step) {
+    snprintf(text, sizeof text, "%g", fabs(t) < 1e-9 * step ? 0.0 : t);
+    svg_text(f, left + 8, v->ty - v->s * t + 3, 9, SVG_MUTED, NULL, text);
+  }
+  snprintf(text, sizeof text, "x (%s)", cm->length_unit);
+  svg_text(f, right, bottom + 12, 10, SVG_MUTED, "text-anchor=\"end\"", text);
+  snprintf(text, sizeof text, "y (%s)", cm->length_unit);
+  svg_text(f, left + 8, top + 10, 10, SVG_MUTED, NULL, text);
+}
+
 /* Where the picture goes on the page. */
 typedef struct {
   box b;
@@ -644,6 +691,7 @@ static void write_svg(FILE *f, const cli_model *cm, const pose *poses,
             cli_input_unit(cm, r->input));
   }
   fprintf(f, "</text>\n");
+  draw_axes(f, cm, &v, &b);
 
   fprintf(f,
           "<g class=\"model\" transform=\"matrix(%.17g 0 0 %.17g %.17g "

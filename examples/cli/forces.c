@@ -27,6 +27,7 @@ const char cli_forces_help[] =
     "                    (the driven input's own entry is replaced by --from)\n"
     "  --speed W         the driven input's speed, its unit per second\n"
     "                    (default: the model's speed line)\n"
+    "  --rpm N           the same for a turning input, in turns a minute\n"
     "  --fluctuation CS  the coefficient of speed fluctuation the flywheel is\n"
     "                    sized for (default: the model's speed line's)\n"
     "  --csv FILE        write the forces at every step as CSV\n"

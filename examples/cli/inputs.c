@@ -295,3 +295,26 @@ int cli_reach_start(kl_solver *s, const cli_model *cm, const cli_options *o,
   }
   return CLI_EXIT_OK;
 }
+
+int cli_apply_rpm(const cli_model *cm, cli_options *o) {
+  cli_range r;
+  int found;
+  if (o->have_speed) {
+    cli_error("give --speed or --rpm, not both");
+    return CLI_EXIT_USAGE;
+  }
+  found = cli_resolve_range(cm, o, &r);
+  if (found < 0)
+    return CLI_EXIT_USAGE;
+  if (found == 0 || !cli_input_is_angle(cm, r.input)) {
+    cli_error("--rpm is the speed of a turning input; %s does not turn "
+              "(give its speed with --speed, its unit per second)",
+              found == 0 ? "the model has no input that"
+                         : cli_input_name(cm, r.input));
+    return CLI_EXIT_USAGE;
+  }
+  /* turns a minute: 2 pi rad each, over 60 s, in the model's angle unit */
+  o->speed = o->rpm * 2.0 * CLI_PI / 60.0 * cm->angle_factor;
+  o->have_speed = 1;
+  return CLI_EXIT_OK;
+}

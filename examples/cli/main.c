@@ -21,7 +21,7 @@ void cli_error(const char *fmt, ...) {
 
 static const char *const command_names[CLI_NCOMMANDS] = {
     "check", "solve", "sweep", "draw", "plot", "write", "demo", "study",
-    "forces", "reach"};
+    "forces", "reach", "timeline"};
 
 static const char general_usage[] =
     "kinloop %s - position, velocity and acceleration of planar linkages\n"
@@ -48,6 +48,8 @@ static const char general_usage[] =
     "          loads, shaking, flywheel; with CSV and SVG charts\n"
     "  reach   SVG picture of the workspace of a point of a two-input linkage:\n"
     "          its boundary and singular curves, traced, and its area\n"
+    "  timeline  the model's motion profile in time: every quantity with its\n"
+    "          rate, acceleration and jerk per second, as CSV\n"
     "\n"
     "MODEL is a model file (docs/model-format.md); every command but demo needs\n"
     "one (kinloop demo writes the built-in demo's, a carton flap-tucking\n"
@@ -145,6 +147,7 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "                    (the swept input's own entry is replaced by --from)\n"
     "  --speed W         the swept input's constant speed, its unit per second\n"
     "                    (default 1): rates scale by W, accelerations by W^2\n"
+    "  --rpm N           the same for a turning input, in turns a minute\n"
     "  --all-digits      write every number with 17 significant digits\n"
     "                    (default 6)\n"
     "  --forces          add the force columns of kinloop forces --csv: every\n"
@@ -276,7 +279,9 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "  -o, --output FILE write the SVG to FILE instead of standard output\n"
     "\n"
     "A model without exactly two turning inputs, or a point on ground, exits\n"
-    "with 3; one that assembles nowhere on the grid with 4.\n"};
+    "with 3; one that assembles nowhere on the grid with 4.\n",
+    /* timeline */
+    cli_timeline_help};
 
 enum {
   OPT_OUTPUT,
@@ -304,6 +309,7 @@ enum {
   OPT_THROUGH,
   OPT_WRITE_OVER,
   OPT_POSE,
+  OPT_RPM,
   OPT_HELP
 };
 
@@ -320,11 +326,11 @@ static const struct {
 } option_specs[] = {
     {"output", 'o', 1,
      RANGE_CMDS | BIT(CLI_SOLVE) | BIT(CLI_WRITE) | BIT(CLI_STUDY) |
-         BIT(CLI_REACH)},
+         BIT(CLI_REACH) | BIT(CLI_TIMELINE)},
     {"input", 0, 1, RANGE_CMDS},
     {"from", 0, 1, RANGE_CMDS},
     {"to", 0, 1, RANGE_CMDS},
-    {"steps", 0, 1, RANGE_CMDS},
+    {"steps", 0, 1, RANGE_CMDS | BIT(CLI_TIMELINE)},
     {"at", 0, 1, RANGE_CMDS | BIT(CLI_SOLVE)},
     {"rate", 0, 1, BIT(CLI_SOLVE)},
     {"accel", 0, 1, BIT(CLI_SOLVE)},
@@ -337,7 +343,7 @@ static const struct {
     {"dir", 0, 1, BIT(CLI_DEMO)},
     {"threads", 0, 1, BIT(CLI_STUDY)},
     {"csv", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES)},
-    {"charts", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES)},
+    {"charts", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES) | BIT(CLI_TIMELINE)},
     {"fluctuation", 0, 1, BIT(CLI_FORCES)},
     {"forces", 0, 0, BIT(CLI_SWEEP)},
     {"point", 0, 1, BIT(CLI_REACH)},
@@ -346,6 +352,7 @@ static const struct {
      BIT(CLI_CHECK) | BIT(CLI_SWEEP) | BIT(CLI_DRAW) | BIT(CLI_PLOT)},
     {"write-over", 0, 0, ~0u},
     {"pose", 0, 1, BIT(CLI_DRAW)},
+    {"rpm", 0, 1, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},
     {"help", 'h', 0, ~0u},
 };
 #define NOPTIONS ((int)(sizeof option_specs / sizeof option_specs[0]))
@@ -472,6 +479,12 @@ static int store_option(cli_options *o, int which, const char *value) {
     if (st == CLI_EXIT_OK && o->speed == 0.0 && c == CLI_SWEEP)
       return usage_error(c, "--speed cannot be 0 (%s)", value);
     break;
+  case OPT_RPM:
+    o->have_rpm = 1;
+    st = parse_number(c, name, value, &o->rpm);
+    if (st == CLI_EXIT_OK && o->rpm == 0.0 && c == CLI_SWEEP)
+      return usage_error(c, "--rpm cannot be 0 (%s)", value);
+    break;
   case OPT_ALL_DIGITS:
     o->all_digits = 1;
     break;
@@ -593,6 +606,10 @@ static int run(cli_options *o) {
   st = cli_model_load(&cm, o->model_path);
   if (st != CLI_EXIT_OK)
     return st;
+  if (o->have_rpm && (st = cli_apply_rpm(&cm, o)) != CLI_EXIT_OK) {
+    cli_model_free(&cm);
+    return st;
+  }
   switch (o->command) {
   case CLI_CHECK:
     st = cli_cmd_check(&cm, o);
@@ -617,6 +634,9 @@ static int run(cli_options *o) {
     break;
   case CLI_REACH:
     st = cli_cmd_reach(&cm, o);
+    break;
+  case CLI_TIMELINE:
+    st = cli_cmd_timeline(&cm, o);
     break;
   default:
     st = cli_cmd_demo(&cm, o);

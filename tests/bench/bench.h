@@ -192,5 +192,14 @@ typedef struct {
 /* Runs and prints part 6: the tool (KINLOOP_TOOL, set by the build) on
  * model files of chains of 10 to 500 loops. */
 void bench_check(FILE *out, const bench_plan *plan, check_figures *fig);
+/* ---- part 7: the jerk stage ---- */
+
+typedef struct {
+  double fourbar_jerk_ns, chain_jerk_ns; /* jerk stage after acceleration */
+  double fourbar_ratio, chain_ratio;     /* ... over one position solve */
+  int valid;                             /* no step failed */
+} jerk_figures;
+
+void bench_jerk(FILE *out, const bench_plan *plan, jerk_figures *fig);
 
 #endif

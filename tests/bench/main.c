@@ -47,7 +47,8 @@ int main(int argc, char **argv) {
   force_figures forces = {0};
   study_figures study = {0};
   check_figures checks = {0};
-  target targets[11];
+  jerk_figures jerk = {0};
+  target targets[12];
   size_t i;
   int arg;
   for (arg = 1; arg < argc; arg++) {
@@ -71,6 +72,7 @@ int main(int argc, char **argv) {
   fflush(stdout);
   bench_study(stdout, &plan, &study);
   bench_check(stdout, &plan, &checks);
+  bench_jerk(stdout, &plan, &jerk);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -139,6 +141,12 @@ int main(int argc, char **argv) {
   targets[10].at_most = 1;
   targets[10].valid = checks.valid;
   targets[10].unit = "x";
+  targets[11].what = "four-bar jerk stage's extra cost <= 0.3x one position";
+  targets[11].measured = jerk.fourbar_ratio;
+  targets[11].limit = 0.3;
+  targets[11].at_most = 1;
+  targets[11].valid = jerk.valid;
+  targets[11].unit = "x";
   printf("\n== targets (ratios measured in this run%s) ==\n",
          plan.quick ? "; QUICK MODE: single samples, not for reporting" : "");
   printf("%-62s %10s  %s\n", "target", "measured", "verdict");

@@ -235,7 +235,15 @@ static void solve(program *p, kl_model *m) {
     case 2:
     case 3: check(kl_solve_position(s, in)); break;
     case 4: check(kl_solve_velocity(s, in)); break;
-    case 5: check(kl_solve_acceleration(s, in)); break;
+    case 5:
+      /* the jerk stage right after, with the same numbers as jerks */
+      check(kl_solve_acceleration(s, in));
+      check(kl_solve_jerk(s, in));
+      check(kl_point_jerk(s, id(p, np), out));
+      check(kl_link_origin_jerk(s, id(p, nl), out));
+      v = kl_link_jerk(s, id(p, nl)) + kl_joint_slide_jerk(s, id(p, nj));
+      (void)v;
+      break;
     case 6: check(kl_solve_coefficients(s)); break;
     case 7:
       sw.size = sizeof sw;

@@ -12,6 +12,10 @@ DEMO=$2
 
 expect_status 0 "$KINLOOP"
 expect_status 0 "$KINLOOP" draw "$DEMO" -o draw-default.svg
+# the drawing's coordinate axes, with the model's length unit
+expect_text draw-default.svg 'class="axes"'
+expect_text draw-default.svg 'x (mm)</text>'
+expect_text draw-default.svg 'y (mm)</text>'
 expect_status 0 "$KINLOOP" draw "$DEMO" --pose 10 --pose 100 --pose 250 -o draw-at.svg
 expect_status 0 "$KINLOOP" draw "$DEMO" --poses 1 --no-paths -o draw-bare.svg
 expect_status 0 "$KINLOOP" draw "$DEMO" --from 30 --to 120 --steps 9 -o draw-part.svg
