@@ -186,16 +186,25 @@ static void term_third(const kl_model *m, const kli_term *t,
     out[0] += along * r[0] - across * r[1];
     out[1] += along * r[1] + across * r[0];
   } else {
+    /* F = R g(s), G_k = R d^k g/ds^k, J a quarter turn: the third
+     * derivative is zeta J F + sddd G_1 (linear) plus
+     * -3 omega alpha F - omega^3 J F - 3 sd omega^2 G_1
+     * + 3 (sd alpha + sdd omega) J G_1 + 3 sd sdd G_2
+     * + 3 sd^2 omega J G_2 + sd^3 G_3 (docs/theory.md, jerk) */
     int si = m->nlinks + t->joint;
-    double s = p->x[si], sd = v[si], sdd = a[si];
-    /* d3/dt3 (s d) = sddd d + s zeta d-perp (linear), plus
-     * (3 sdd omega + 3 sd alpha - s omega^3) d-perp
-     * - (3 sd omega^2 + 3 s omega alpha) d */
-    double across = 3.0 * sdd * w + 3.0 * sd * al - s * w * w * w;
-    double along = -(3.0 * sd * w * w + 3.0 * s * w * al);
-    slide_dir(m, t, p, r);
-    out[0] += t->sign * (along * r[0] - across * r[1]);
-    out[1] += t->sign * (along * r[1] + across * r[0]);
+    double sd = v[si], sdd = a[si], g[6], local3[2], g3[2];
+    double c = p->c[t->link], sn = p->s[t->link];
+    double f0 = -3.0 * w * al, f1 = -w * w * w;
+    double a1 = -3.0 * sd * w * w, b1 = 3.0 * (sd * al + sdd * w);
+    double a2 = 3.0 * sd * sdd, b2 = 3.0 * sd * sd * w, a3 = sd * sd * sd;
+    slide_path(m, t, p, g);
+    kli_slot_path_third(&m->joints[t->joint], p->x[si], local3);
+    g3[0] = t->sign * (c * local3[0] - sn * local3[1]);
+    g3[1] = t->sign * (sn * local3[0] + c * local3[1]);
+    out[0] += f0 * g[0] - f1 * g[1] + a1 * g[2] - b1 * g[3] + a2 * g[4] -
+              b2 * g[5] + a3 * g3[0];
+    out[1] += f0 * g[1] + f1 * g[0] + a1 * g[3] + b1 * g[2] + a2 * g[5] +
+              b2 * g[4] + a3 * g3[1];
   }
 }
 

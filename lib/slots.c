@@ -205,6 +205,32 @@ void kli_slot_path(const kli_joint *j, double s, double out[6]) {
   }
 }
 
+void kli_slot_path_third(const kli_joint *j, double s, double out[2]) {
+  out[0] = out[1] = 0.0;
+  if (j->kind == KL_JOINT_CURVE_SLOT) {
+    const kli_curve *c = j->curve;
+    int k, i;
+    if (!isfinite(s) || fabs(s) > 1e15) {
+      out[0] = out[1] = NAN;
+      return;
+    }
+    if (c->closed) {
+      double u = s - c->n * floor(s / c->n);
+      k = (int)u >= c->n ? c->n - 1 : (int)u;
+    } else if (s < 0.0 || s > c->n - 1) {
+      return; /* along the end tangent: a straight line */
+    } else {
+      k = (int)s > c->n - 2 ? c->n - 2 : (int)s;
+    }
+    for (i = 0; i < 2; i++)
+      out[i] = c->m2[2 * ((k + 1) % c->n) + i] - c->m2[2 * k + i];
+  } else if (j->kind == KL_JOINT_ARC_SLOT) {
+    double r = j->radius;
+    out[0] = sin(s / r) / (r * r);
+    out[1] = -cos(s / r) / (r * r);
+  }
+}
+
 int kli_slide_on_slot(const kli_joint *j, double s) {
   /* a rounding error's slack, so that a sweep's located end solves */
   const double slack = 1e-12;

@@ -26,6 +26,9 @@ void kli_curve_free(const kli_allocator *a, kli_curve *c);
 /* The slot path of sliding joint j at slide s, in a's frame relative to
  * a's attachment point: out = g, dg/ds, d2g/ds2 (x, y each). */
 void kli_slot_path(const kli_joint *j, double s, double out[6]);
+/* d3g/ds3 of the same path at slide s (x, y): what the jerk stage needs
+ * beyond kli_slot_path (constant on each piece of a spline, 0 on a line). */
+void kli_slot_path_third(const kli_joint *j, double s, double out[2]);
 /* Whether slide s lies on the slot (beyond an open curve's ends it does
  * not); every other sliding joint's slide is unbounded. */
 int kli_slide_on_slot(const kli_joint *j, double s);

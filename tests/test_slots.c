@@ -106,6 +106,9 @@ static void sketch_disc(const disc_cam *c, kl_solver *s, double t, int curve,
   kl_set_joint_slide(s, 2, curve ? phi / (2 * PI) * npoints : phi * (c->rd + c->rr));
 }
 
+static void check_rates_by_differences(kl_model *m, kl_solver *s, double t,
+                                       double tol);
+
 START_TEST(eccentric_disc_cam_is_an_offset_slider_crank) {
   disc_cam c = {12.0, 40.0, 8.0, 5.0};
   kl_model *m = disc_cam_model(&c, 0);
@@ -118,6 +121,8 @@ START_TEST(eccentric_disc_cam_is_an_offset_slider_crank) {
     ck_assert_int_eq(kl_solve_velocity(s, &rate), KL_OK);
     ck_assert_double_le(fabs(kl_joint_slide(s, 1) - y), 1e-11 * 60);
     ck_assert_double_le(fabs(kl_joint_slide_rate(s, 1) - dy), 1e-10 * 60);
+    if (k % 6 == 1)
+      check_rates_by_differences(m, s, t, 1e-6);
   }
   kl_solver_free(s);
   kl_model_free(m);
@@ -125,31 +130,42 @@ START_TEST(eccentric_disc_cam_is_an_offset_slider_crank) {
 END_TEST
 
 /* Rates by central differences (common practice, no source): velocity
- * against positions at t +- h, acceleration against velocities. */
+ * against positions at t +- h, acceleration against velocities, jerk
+ * against accelerations (the path's third derivative included). */
 static void check_rates_by_differences(kl_model *m, kl_solver *s, double t,
                                        double tol) {
   const double h = 1e-5;
   int n = kl_model_link_count(m), nj = kl_model_joint_count(m), i;
-  double up[16], down[16], vup[16], vdown[16], v[16], a[16], one = 1.0,
-      zero = 0.0, u;
+  double up[16], down[16], vup[16], vdown[16], aup[16], adown[16], v[16],
+      a[16], one = 1.0, zero = 0.0, u;
   for (i = 0; i < 2; i++) {
     int j;
     u = t + (i == 0 ? h : -h);
     ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
     ck_assert_int_eq(kl_solve_velocity(s, &one), KL_OK);
+    ck_assert_int_eq(kl_solve_acceleration(s, &zero), KL_OK);
     for (j = 0; j < n + nj; j++) {
       double pos = j < n ? kl_link_angle(s, j) : kl_joint_slide(s, j - n);
       double rate = j < n ? kl_link_rate(s, j) : kl_joint_slide_rate(s, j - n);
+      double acc = j < n ? kl_link_accel(s, j) : kl_joint_slide_accel(s, j - n);
       (i == 0 ? up : down)[j] = isnan(pos) ? 0.0 : pos;
       (i == 0 ? vup : vdown)[j] = isnan(rate) ? 0.0 : rate;
+      (i == 0 ? aup : adown)[j] = isnan(acc) ? 0.0 : acc;
     }
   }
   ck_assert_int_eq(kl_solve_position(s, &t), KL_OK);
   ck_assert_int_eq(kl_solve_velocity(s, &one), KL_OK);
   ck_assert_int_eq(kl_solve_acceleration(s, &zero), KL_OK);
+  ck_assert_int_eq(kl_solve_jerk(s, &zero), KL_OK);
   for (i = 0; i < n + nj; i++) {
     double rate = i < n ? kl_link_rate(s, i) : kl_joint_slide_rate(s, i - n);
     double acc = i < n ? kl_link_accel(s, i) : kl_joint_slide_accel(s, i - n);
+    double jerk = i < n ? kl_link_jerk(s, i) : kl_joint_slide_jerk(s, i - n);
+    if (isnan(jerk))
+      jerk = 0.0;
+    ck_assert_msg(fabs(jerk - (aup[i] - adown[i]) / (2 * h)) <= tol,
+                  "jerk %d at %g: %.12g against %.12g", i, t, jerk,
+                  (aup[i] - adown[i]) / (2 * h));
     v[i] = isnan(rate) ? 0.0 : rate;
     a[i] = isnan(acc) ? 0.0 : acc;
     ck_assert_msg(fabs(v[i] - (up[i] - down[i]) / (2 * h)) <= tol,
