@@ -387,19 +387,37 @@ KL_API double kl_model_sketch_angle(const kl_model *m, int link);
 /** The recorded sketch slide of a joint, NaN if none (or unknown id). */
 KL_API double kl_model_sketch_slide(const kl_model *m, int joint);
 
+/* ------------------------------------------------------------------------
+ * The step bound (one limit for steps wherever they come from)
+ * ------------------------------------------------------------------------ */
+
+/**
+ * The most steps one sweep takes, wherever the count comes from:
+ * kl_solver_sweep and every call that sweeps (kl_solver_sweep_rows,
+ * kl_output_range, kl_input_effort_range, the cycle figures), the sweep
+ * settings of kl_model_set_sweep, a kl_cycle's `steps`, and the `steps` of
+ * model and study files (and a study's `at` outputs, reached in steps no
+ * longer than its sweep's). Beyond it a call returns KL_ETOOLARGE and a
+ * reader KL_ESYNTAX at the number, each message naming this limit. Ten
+ * million steps keep a sweep's work and a table of its rows bounded
+ * (docs/guarantees.md) while far finer than any drawing or plot needs.
+ */
+#define KL_MAX_STEPS 10000000
+
 /** Sweep settings a model may carry (for tools that run it). */
 typedef struct kl_sweep_settings {
   size_t size; /**< sizeof(kl_sweep_settings), set by the caller */
   int input;   /**< which input sweeps */
   double from; /**< start: rad, or length for a sliding input */
   double to;   /**< end, in the same unit */
-  int steps;   /**< steps >= 1 */
+  int steps;   /**< 1 <= steps <= KL_MAX_STEPS */
 } kl_sweep_settings;
 
 /**
  * Records sweep settings in the model. Returns KL_OK, KL_EINVAL (NULL,
- * size too small, steps < 1), KL_EID (no such input), KL_ENONFINITE,
- * KL_ESTATE (finalized).
+ * size too small, steps < 1), KL_ETOOLARGE (steps > KL_MAX_STEPS), KL_EID
+ * (no such input), KL_ENONFINITE (an end NaN or infinite, or to - from
+ * beyond a double), KL_ESTATE (finalized).
  */
 KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);
 /** The recorded sweep settings; KL_OK, KL_EID if there are none, KL_EINVAL. */
@@ -682,7 +700,10 @@ KL_API kl_solver *kl_solver_new(const kl_model *m);
 
 /**
  * Bytes a solver for `m` needs inside a caller-supplied block, or 0 if `m` is
- * NULL or not finalized.
+ * NULL or not finalized. A model whose solver would need more bytes than a
+ * size_t holds gives SIZE_MAX (the sizes saturate, never wrap), which no
+ * block holds: kl_solver_new then returns NULL, and kl_solver_new_in
+ * refuses it.
  */
 KL_API size_t kl_solver_bytes(const kl_model *m);
 
@@ -1199,7 +1220,9 @@ typedef struct kl_sweep_result {
  *  KL_EMAXITER  a step needs more than 10000 sub-steps (a range of a great
  *               many turns in one step): the steps before it are delivered
  *  and the errors of kl_solve_position for the first step, KL_EID for an
- *  unknown input, KL_ENONFINITE, KL_EINVAL.
+ *  unknown input, KL_ENONFINITE (a range end NaN or infinite, or a range
+ *  whose length overflows a double), KL_EINVAL (steps < 1), KL_ETOOLARGE
+ *  (steps > KL_MAX_STEPS; nothing solved, the solver unchanged).
  * Afterwards the solver holds the last delivered step (or, if none was, its
  * state from before): a sweep that fails part-way is the one call that
  * leaves the solver changed, at the last good step it delivered, so that

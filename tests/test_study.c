@@ -437,7 +437,7 @@ static const bad_study bad_studies[] = {
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
      "output s swing slide rail\nlimit s 0 1\nlimit s 0 2\n",
      KL_ESYNTAX, 6, "this output's 'limit' is given already, on line 5"},
-    {"", KL_ESYNTAX, 1, "empty study"},
+    {"", KL_ESYNTAX, 0, "empty study"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n", KL_ESYNTAX, 0,
      "judges no output"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
@@ -533,7 +533,7 @@ static const bad_study bad_study_files[] = {
      "broken.kinloop', line 3, column 33: expected a number"},
     {"kinloop-study 1\nseed 1\nseed 2\nmodel slider.kinloop\n", KL_ESYNTAX,
      3, "'seed' is given already, on line 2"},
-    {"", KL_ESYNTAX, 1, "empty study"},
+    {"", KL_ESYNTAX, 0, "empty study"},
     {"kinloop-model 1\nmodel slider.kinloop\n", KL_ESYNTAX, 1,
      "kinloop-study 1"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
