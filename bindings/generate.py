@@ -54,6 +54,7 @@ class Header:
                                            text).group(1))
                              for p in ("MAJOR", "MINOR", "PATCH"))
         self.ground = int(re.search(r"#define KL_GROUND (\d+)", text).group(1))
+        self.max_steps = int(re.search(r"#define KL_MAX_STEPS (\d+)", text).group(1))
         self.handles = re.findall(r"typedef struct (kl_\w+) \1;", text)
         self.enums = self._enums()
         self.structs = self._structs()
@@ -562,7 +563,9 @@ def python_header(header):
            GENERATED + '"""', "", "import ctypes", "import enum", "",
            "#: KINLOOP_VERSION_MAJOR, _MINOR, _PATCH of the header",
            "VERSION = %r" % (header.version,),
-           "#: KL_GROUND: the link id of ground", "GROUND = %d" % header.ground, ""]
+           "#: KL_GROUND: the link id of ground", "GROUND = %d" % header.ground,
+           "#: KL_MAX_STEPS: the most steps one sweep takes", "MAX_STEPS = %d" % header.max_steps,
+           ""]
     for e in header.enums:
         out += ["", "class %s(enum.IntEnum):" % e.python,
                 py_docstring("enum %s: %s" % (e.name, e.doc), 4)]
@@ -597,7 +600,7 @@ def python_header(header):
             out.append("        (%r, %s),  # %s" % (fl.name, t, " ".join(fl.doc.split())[:60]))
         out += ["    ]", ""]
     out += ["", "#: what the kinloop package exports from here",
-            "__all__ = %r" % (["GROUND"] + [e.python for e in header.enums],)]
+            "__all__ = %r" % (["GROUND", "MAX_STEPS"] + [e.python for e in header.enums],)]
     out += ["", "#: every KL_API function: name -> (restype, argtypes), in the header's order",
             "PROTOTYPES = {"]
     for f in header.functions:

@@ -15,7 +15,7 @@ import numpy as np
 from . import _api, raw
 from ._args import array_of, refuse, to_int
 from ._core import Handle, KinloopError, as_enum, check_const, value_of
-from ._header import Status
+from ._header import MAX_STEPS, Status
 from .values import Cycle, CycleFigures, SweepResult, cycle_table_dtype
 
 # Over-alignment for a solver placed in a Python buffer: the C side wants
@@ -154,7 +154,10 @@ class Solver(_api.SolverMethods, Handle):
         `result` holding the steps delivered."""
         h, model = self._changing, self._model
         steps = to_int(steps, "kl_solver_sweep", "steps")
-        table = np.full((max(steps + 1, 1), model.row_size), math.nan)
+        # sized for a count the library takes: it refuses the others itself
+        # (KL_EINVAL, KL_ETOOLARGE) and then writes no row
+        rows = steps + 1 if 1 <= steps <= MAX_STEPS else 1
+        table = np.full((rows, model.row_size), math.nan)
         outcome, raised = raw.kl_sweep_result(), []
         if callback is None:
             status = _api.kl_solver_sweep_rows(h, input, from_, to, steps,
@@ -246,7 +249,7 @@ class Solver(_api.SolverMethods, Handle):
             raise RuntimeError("kinloop: kl_cycle_table's row has %d numbers; the "
                                "bindings expect %d" % (columns, dtype.itemsize // 8))
         steps = to_int(c.steps, function, "cycle.steps")
-        table = np.zeros(max(steps + 1, 1), dtype=dtype)
+        table = np.zeros(steps + 1 if 1 <= steps <= MAX_STEPS else 1, dtype=dtype)
         done = ctypes.c_int()
         self._check(_api.kl_cycle_table(self._changing, c, count, loads,
                                         table.ctypes.data_as(_DOUBLES),
