@@ -652,7 +652,7 @@ def py_method(b):
             call.append("self")
         elif a.kind == "handle_in":
             params.append(n)
-            call.append("%s._handle" % n)
+            call.append("to_handle(%s, %r, %r, %r)" % (n, a.ctype, f, a.name))
         elif a.kind == "point":
             params.append(n)
             xs = [py_name(p.name) for p in a.params]
@@ -788,7 +788,8 @@ def python_api(header):
            "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
            "import dataclasses", "", "import numpy as np", "",
            "from . import _header as H",
-           "from ._args import (array_of, same_count, struct_in, to_double, to_int, to_long,",
+           "from ._args import (array_of, same_count, struct_in, to_double, to_handle, to_int,",
+           "                    to_long,",
            "                    to_path, to_point, to_size, to_string)",
            "from ._core import VALUE_TYPES, as_enum, check_const, text, value_of",
            "from ._header import Status",

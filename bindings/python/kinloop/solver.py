@@ -6,14 +6,13 @@ arrays, copies, assembly modes, sweeps with their recorder and callback,
 and the force figures over a cycle (summary and table)."""
 
 import ctypes
-import dataclasses
 import math
 import weakref
 
 import numpy as np
 
 from . import _api, raw
-from ._args import array_of, refuse, to_int
+from ._args import array_of, refuse, to_int, with_fields
 from ._core import Handle, KinloopError, as_enum, check_const, value_of
 from ._header import MAX_STEPS, Status
 from .values import Cycle, CycleFigures, SweepResult, cycle_table_dtype
@@ -88,7 +87,9 @@ class Solver(_api.SolverMethods, Handle):
     def set_options(self, options=None, **values):
         """Sets options: `options` (default: the current ones) with `values`
         replacing fields by name."""
-        super().set_options(dataclasses.replace(options or self.options, **values))
+        super().set_options(with_fields(self.options if options is None else options,
+                                        "Options", values, "kl_solver_set_options",
+                                        "options"))
 
     # ---- what the generated methods of arrays per input ask of a solver ----
 
@@ -199,7 +200,8 @@ class Solver(_api.SolverMethods, Handle):
     def _cycle_arguments(self, function, loads, cycle, fields):
         """The cycle (`cycle`, default Cycle(), with `fields` replacing
         fields by name) and the loads as the C calls take them."""
-        c = dataclasses.replace(cycle if cycle is not None else Cycle(), **fields)
+        c = with_fields(cycle if cycle is not None else Cycle(), "Cycle", fields, function,
+                        "cycle")
         loads, count = array_of(loads, raw.kl_load, function, "loads")
         return c, loads, count
 
