@@ -86,6 +86,8 @@ static int same_tangent(const kl_solver *s, double delta) {
   const kl_model *m = s->model;
   double worst = 0.0, size = 0.0;
   int v;
+  if (delta == 0.0)
+    return 1; /* no sub-step (a target already reached): no secant to test */
   for (v = 0; v < s->n; v++) {
     int c = m->topo.var_coord[v];
     double unit = c >= m->nlinks ? 1.0 / m->topo.scale : 1.0;
