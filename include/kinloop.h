@@ -603,9 +603,12 @@ typedef struct kl_io_error {
  * needed, none allowed) and finalizes it. Returns the new model, or NULL
  * with `err` (may be NULL) telling why: KL_ESYNTAX with line, column and
  * what was expected; the builders' and kl_model_finalize's statuses with
- * the line of the statement involved; KL_EINVAL for input longer than 16
- * MiB; KL_ENOMEM. The reader never reads past `length`, and allocates in
- * proportion to the input.
+ * the line of the statement involved (so KL_ETOOLARGE for sweep steps
+ * above KL_MAX_STEPS, at the number); KL_EINVAL (line 0) for input longer
+ * than 16 MiB, the documented size limit of model and study texts;
+ * KL_ESYNTAX (line 0) for a text with no statement; KL_ENOMEM. Lines end
+ * with LF, CR LF or CR. The reader never reads past `length`, and
+ * allocates and takes time in proportion to the input.
  */
 KL_API kl_model *kl_model_read(const char *text, size_t length,
                                kl_io_error *err);
@@ -1683,7 +1686,9 @@ typedef struct kl_study kl_study;
  * Returns the study, or NULL with `err` (may be NULL) telling why:
  * KL_ESYNTAX with line and column as for model files; KL_EID, KL_EKIND or
  * KL_EINVAL (line 0) for an output or dimension the model does not have
- * in that kind; KL_EINVAL for a NULL model or text longer than 16 MiB;
+ * in that kind; KL_ETOOLARGE for steps above KL_MAX_STEPS (at the number)
+ * and for an `at` output whose continuation from the sweep's start would
+ * take more (line 0); KL_EINVAL for a NULL model or text longer than 16 MiB;
  * KL_ESTATE for a model not finalized; KL_ENOMEM. Allocates in proportion
  * to the text. Thread-safe against other calls on the same model.
  */
@@ -1738,8 +1743,9 @@ KL_API int kl_study_output_count(const kl_study *st);
 KL_API const char *kl_study_output_name(const kl_study *st, int k);
 /** The nominal model: the one the study was read against, held by the
  * study, so valid until kl_study_free even if the caller freed its own
- * handle. Make solvers of it or copy it with kl_model_copy; never cast
- * away `const`: kl_study_run's threads read it at the same time. */
+ * handle. Make solvers of it (kl_solver_new), or write it out
+ * (kl_model_write) and read the text back for a copy to change; never
+ * cast away `const`: kl_study_run's threads read it at the same time. */
 KL_API const kl_model *kl_study_model(const kl_study *st);
 /** The path the text's `model` statement gives, as written (owned by the
  * study, valid until kl_study_free), or NULL if the text has none or `st`
@@ -1772,7 +1778,10 @@ enum kl_sample_status {
  * it. Each sample works on its own copy of the model, made through the
  * model's allocator on the thread that runs it (a hook must then be
  * thread-safe). Returns KL_OK, KL_ESTAGE (not prepared: kl_study_prepare),
- * KL_EINVAL (NULL study, bad range or NULL arrays), KL_ENOMEM.
+ * KL_EINVAL (NULL study, NULL arrays, or a range that does not exist:
+ * first or count negative, first + count beyond the samples, checked
+ * without overflow, so a count near LONG_MAX is refused and nothing is
+ * written), KL_ENOMEM.
  */
 KL_API int kl_study_run(const kl_study *st, long first, long count,
                         int threads, double *values, int *sample_status,
