@@ -172,14 +172,11 @@ def array_of(values, ctype, function, argument):
 
 def with_fields(value, ctype_name, fields, function, argument):
     """A value type (a frozen dataclass of kinloop) with `fields` replacing
-    fields by name; anything else, or a field it does not have, is
-    refused."""
+    fields by name; any other value is refused (a keyword naming no field
+    is Python's TypeError, as for any function)."""
     if not dataclasses.is_dataclass(value) or isinstance(value, type):
         refuse(function, argument, "must be a %s; got %s" % (ctype_name, type(value).__name__))
-    try:
-        return dataclasses.replace(value, **fields)
-    except TypeError as e:
-        refuse(function, argument, "has no such field (%s)" % e)
+    return dataclasses.replace(value, **fields)
 
 
 def same_count(function, count, *arrays):
