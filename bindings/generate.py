@@ -54,6 +54,7 @@ class Header:
                                            text).group(1))
                              for p in ("MAJOR", "MINOR", "PATCH"))
         self.ground = int(re.search(r"#define KL_GROUND (\d+)", text).group(1))
+        self.max_steps = int(re.search(r"#define KL_MAX_STEPS (\d+)", text).group(1))
         self.handles = re.findall(r"typedef struct (kl_\w+) \1;", text)
         self.enums = self._enums()
         self.structs = self._structs()
@@ -576,7 +577,9 @@ def python_header(header):
            GENERATED + '"""', "", "import ctypes", "import enum", "",
            "#: KINLOOP_VERSION_MAJOR, _MINOR, _PATCH of the header",
            "VERSION = %r" % (header.version,),
-           "#: KL_GROUND: the link id of ground", "GROUND = %d" % header.ground, ""]
+           "#: KL_GROUND: the link id of ground", "GROUND = %d" % header.ground,
+           "#: KL_MAX_STEPS: the most steps one sweep takes", "MAX_STEPS = %d" % header.max_steps,
+           ""]
     for e in header.enums:
         out += ["", "class %s(enum.IntEnum):" % e.python,
                 py_docstring("enum %s: %s" % (e.name, e.doc), 4)]
@@ -611,7 +614,7 @@ def python_header(header):
             out.append("        (%r, %s),  # %s" % (fl.name, t, " ".join(fl.doc.split())[:60]))
         out += ["    ]", ""]
     out += ["", "#: what the kinloop package exports from here",
-            "__all__ = %r" % (["GROUND"] + [e.python for e in header.enums],)]
+            "__all__ = %r" % (["GROUND", "MAX_STEPS"] + [e.python for e in header.enums],)]
     out += ["", "#: every KL_API function: name -> (restype, argtypes), in the header's order",
             "PROTOTYPES = {"]
     for f in header.functions:
@@ -663,7 +666,7 @@ def py_method(b):
             call.append("self")
         elif a.kind == "handle_in":
             params.append(n)
-            call.append("%s._handle" % n)
+            call.append("to_handle(%s, %r, %r, %r)" % (n, a.ctype, f, a.name))
         elif a.kind == "point":
             params.append(n)
             xs = [py_name(p.name) for p in a.params]
@@ -803,8 +806,9 @@ def python_api(header):
            "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
            "import dataclasses", "", "import numpy as np", "",
            "from . import _header as H",
-           "from ._args import (array_of, flat_pairs, same_count, struct_in, to_double, to_int,",
-           "                    to_long, to_path, to_point, to_size, to_string)",
+           "from ._args import (array_of, flat_pairs, same_count, struct_in, to_double,",
+           "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
+           "                    to_string)",
            "from ._core import VALUE_TYPES, as_enum, check_const, text, value_of",
            "from ._header import Status",
            "from .raw import lib", "", "",

@@ -399,26 +399,37 @@ KL_API double kl_model_sketch_angle(const kl_model *m, int link);
 /** The recorded sketch slide of a joint, NaN if none (or unknown id). */
 KL_API double kl_model_sketch_slide(const kl_model *m, int joint);
 
+/* ------------------------------------------------------------------------
+ * The step bound (one limit for steps wherever they come from)
+ * ------------------------------------------------------------------------ */
+
+/**
+ * The most steps one sweep takes, wherever the count comes from:
+ * kl_solver_sweep and every call that sweeps (kl_solver_sweep_rows,
+ * kl_output_range, kl_input_effort_range, the cycle figures), the sweep
+ * settings of kl_model_set_sweep, a kl_cycle's `steps`, and the `steps` of
+ * model and study files (and a study's `at` outputs, reached in steps no
+ * longer than its sweep's). Beyond it a call returns KL_ETOOLARGE and a
+ * reader KL_ESYNTAX at the number, each message naming this limit. Ten
+ * million steps keep a sweep's work and a table of its rows bounded
+ * (docs/guarantees.md) while far finer than any drawing or plot needs.
+ */
+#define KL_MAX_STEPS 10000000
+
 /** Sweep settings a model may carry (for tools that run it). */
 typedef struct kl_sweep_settings {
   size_t size; /**< sizeof(kl_sweep_settings), set by the caller */
   int input;   /**< which input sweeps */
   double from; /**< start: rad, or length for a sliding input */
   double to;   /**< end, in the same unit */
-  int steps;   /**< 1 <= steps <= KL_MAX_SWEEP_STEPS */
+  int steps;   /**< 1 <= steps <= KL_MAX_STEPS */
 } kl_sweep_settings;
-
-/* ---- Sweep step limit (one limit for every source of a step count) ---- */
-/** The most steps a sweep setting may ask for, whether it comes from a model
- * file's sweep statement, a study file or kl_model_set_sweep; the command-line
- * tool's --steps has the same limit (docs/model-format.md, docs/cli.md). */
-#define KL_MAX_SWEEP_STEPS 10000000
-/* ---- end of the sweep step limit ---- */
 
 /**
  * Records sweep settings in the model. Returns KL_OK, KL_EINVAL (NULL,
- * size too small, steps < 1 or above KL_MAX_SWEEP_STEPS), KL_EID (no such input), KL_ENONFINITE,
- * KL_ESTATE (finalized).
+ * size too small, steps < 1), KL_ETOOLARGE (steps > KL_MAX_STEPS), KL_EID
+ * (no such input), KL_ENONFINITE (an end NaN or infinite, or to - from
+ * beyond a double), KL_ESTATE (finalized).
  */
 KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);
 /** The recorded sweep settings; KL_OK, KL_EID if there are none, KL_EINVAL. */
@@ -626,9 +637,12 @@ typedef struct kl_io_error {
  * needed, none allowed) and finalizes it. Returns the new model, or NULL
  * with `err` (may be NULL) telling why: KL_ESYNTAX with line, column and
  * what was expected; the builders' and kl_model_finalize's statuses with
- * the line of the statement involved; KL_EINVAL for input longer than 16
- * MiB; KL_ENOMEM. The reader never reads past `length`, and allocates in
- * proportion to the input.
+ * the line of the statement involved (so KL_ETOOLARGE for sweep steps
+ * above KL_MAX_STEPS, at the number); KL_EINVAL (line 0) for input longer
+ * than 16 MiB, the documented size limit of model and study texts;
+ * KL_ESYNTAX (line 0) for a text with no statement; KL_ENOMEM. Lines end
+ * with LF, CR LF or CR. The reader never reads past `length`, and
+ * allocates and takes time in proportion to the input.
  */
 KL_API kl_model *kl_model_read(const char *text, size_t length,
                                kl_io_error *err);
@@ -725,7 +739,10 @@ KL_API kl_solver *kl_solver_new(const kl_model *m);
 
 /**
  * Bytes a solver for `m` needs inside a caller-supplied block, or 0 if `m` is
- * NULL or not finalized.
+ * NULL or not finalized. A model whose solver would need more bytes than a
+ * size_t holds gives SIZE_MAX (the sizes saturate, never wrap), which no
+ * block holds: kl_solver_new then returns NULL, and kl_solver_new_in
+ * refuses it.
  */
 KL_API size_t kl_solver_bytes(const kl_model *m);
 
@@ -1384,7 +1401,9 @@ typedef struct kl_sweep_result {
  *  KL_EMAXITER  a step needs more than 10000 sub-steps (a range of a great
  *               many turns in one step): the steps before it are delivered
  *  and the errors of kl_solve_position for the first step, KL_EID for an
- *  unknown input, KL_ENONFINITE, KL_EINVAL.
+ *  unknown input, KL_ENONFINITE (a range end NaN or infinite, or a range
+ *  whose length overflows a double), KL_EINVAL (steps < 1), KL_ETOOLARGE
+ *  (steps > KL_MAX_STEPS; nothing solved, the solver unchanged).
  * Afterwards the solver holds the last delivered step (or, if none was, its
  * state from before): a sweep that fails part-way is the one call that
  * leaves the solver changed, at the last good step it delivered, so that
@@ -2060,7 +2079,9 @@ typedef struct kl_study kl_study;
  * Returns the study, or NULL with `err` (may be NULL) telling why:
  * KL_ESYNTAX with line and column as for model files; KL_EID, KL_EKIND or
  * KL_EINVAL (line 0) for an output or dimension the model does not have
- * in that kind; KL_EINVAL for a NULL model or text longer than 16 MiB;
+ * in that kind; KL_ETOOLARGE for steps above KL_MAX_STEPS (at the number)
+ * and for an `at` output whose continuation from the sweep's start would
+ * take more (line 0); KL_EINVAL for a NULL model or text longer than 16 MiB;
  * KL_ESTATE for a model not finalized; KL_ENOMEM. Allocates in proportion
  * to the text. Thread-safe against other calls on the same model.
  */
@@ -2134,8 +2155,9 @@ KL_API int kl_study_output_quantity(const kl_study *st, int k);
 
 /** The nominal model: the one the study was read against, held by the
  * study, so valid until kl_study_free even if the caller freed its own
- * handle. Make solvers of it or copy it with kl_model_copy; never cast
- * away `const`: kl_study_run's threads read it at the same time. */
+ * handle. Make solvers of it (kl_solver_new), or write it out
+ * (kl_model_write) and read the text back for a copy to change; never
+ * cast away `const`: kl_study_run's threads read it at the same time. */
 KL_API const kl_model *kl_study_model(const kl_study *st);
 /** The path the text's `model` statement gives, as written (owned by the
  * study, valid until kl_study_free), or NULL if the text has none or `st`
@@ -2168,7 +2190,10 @@ enum kl_sample_status {
  * it. Each sample works on its own copy of the model, made through the
  * model's allocator on the thread that runs it (a hook must then be
  * thread-safe). Returns KL_OK, KL_ESTAGE (not prepared: kl_study_prepare),
- * KL_EINVAL (NULL study, bad range or NULL arrays), KL_ENOMEM.
+ * KL_EINVAL (NULL study, NULL arrays, or a range that does not exist:
+ * first or count negative, first + count beyond the samples, checked
+ * without overflow, so a count near LONG_MAX is refused and nothing is
+ * written), KL_ENOMEM.
  */
 KL_API int kl_study_run(const kl_study *st, long first, long count,
                         int threads, double *values, int *sample_status,

@@ -233,6 +233,10 @@ static int begin(kl_solver *s, const kl_cycle *c, int nloads,
                     "%s: the range, speed or speed fluctuation of the cycle "
                     "is NaN or infinite",
                     stage);
+  if (r->c.steps > KL_MAX_STEPS)
+    return kli_fail(s->error, KL_ETOOLARGE,
+                    "%s: %d steps; a cycle takes at most %d (KL_MAX_STEPS)",
+                    stage, r->c.steps, KL_MAX_STEPS);
   if (r->c.steps < 1 || r->c.speed_fluctuation < 0.0)
     return kli_fail(s->error, KL_EINVAL,
                     "%s: %s", stage,
@@ -308,11 +312,11 @@ int kl_cycle_table(kl_solver *s, const kl_cycle *c, int nloads,
   r.width = kl_cycle_columns(s->model);
   if (rows == NULL || cap / (size_t)r.width < (size_t)r.c.steps + 1)
     return kli_fail(s->error, KL_EINVAL,
-                    "%s: the rows array holds %lu numbers; %d samples of %d "
+                    "%s: the rows array holds %lu numbers; %ld samples of %d "
                     "columns need %lu",
                     stage, rows == NULL ? 0ul : (unsigned long)cap,
-                    r.c.steps + 1, r.width,
-                    (unsigned long)((size_t)(r.c.steps + 1) * (size_t)r.width));
+                    (long)r.c.steps + 1, r.width,
+                    (unsigned long)(((size_t)r.c.steps + 1) * (size_t)r.width));
   r.rows = rows;
   st = pass(&r, 1);
   if (rows_done != NULL)

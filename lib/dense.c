@@ -5,6 +5,7 @@
  * operations of its dgbtf2, built in) for long chains; solves, condition
  * watches and estimates, and damped least-squares steps.
  */
+#include <limits.h>
 #include <math.h>
 #include <string.h>
 
@@ -20,15 +21,18 @@ typedef char lapack_int_is_int[sizeof(lapack_int) == sizeof(int) ? 1 : -1];
 #define KLI_BAND_FRACTION 4
 
 void kli_dense_carve(kli_dense *d, kli_carver *c, const kli_pattern *p) {
-  size_t n = (size_t)p->n, nn = n * n;
+  size_t n = (size_t)p->n, nn = kli_size_mul(n, n);
+  /* the band's rows: 2 lower + upper + 1 <= 3 n + 1, computed where an int
+   * cannot overflow */
+  size_t ldab = 2 * (size_t)p->band_lower + (size_t)p->band_upper + 1;
   d->p = *p;
-  d->ldab = 2 * p->band_lower + p->band_upper + 1;
+  d->ldab = ldab <= (size_t)INT_MAX ? (int)ldab : INT_MAX;
   d->colscale = kli_carve(c, n, sizeof(double));
   d->a = kli_carve(c, nn, sizeof(double));
   d->lu = kli_carve(c, nn, sizeof(double));
-  d->ab = kli_carve(c, (size_t)d->ldab * n, sizeof(double));
+  d->ab = kli_carve(c, kli_size_mul(ldab, n), sizeof(double));
   d->ipiv = kli_carve(c, n, sizeof(int));
-  d->work = kli_carve(c, 4 * n, sizeof(double));
+  d->work = kli_carve(c, kli_size_mul(4, n), sizeof(double));
   d->iwork = kli_carve(c, n, sizeof(int));
   d->normal = p->damped ? kli_carve(c, nn, sizeof(double)) : NULL;
   d->value_col = kli_carve(c, (size_t)kli_dense_values(p), sizeof(int));

@@ -21,8 +21,16 @@ void *kli_default_alloc(void *user, void *ptr, size_t old_size,
   return realloc(ptr, new_size);
 }
 
+size_t kli_size_mul(size_t a, size_t b) {
+  return b != 0 && a > SIZE_MAX / b ? SIZE_MAX : a * b;
+}
+
+size_t kli_size_add(size_t a, size_t b) {
+  return a > SIZE_MAX - b ? SIZE_MAX : a + b;
+}
+
 void *kli_alloc(const kli_allocator *a, size_t size) {
-  return size == 0 ? NULL : a->fn(a->user, NULL, 0, size);
+  return size == 0 || size == SIZE_MAX ? NULL : a->fn(a->user, NULL, 0, size);
 }
 
 void kli_free(const kli_allocator *a, void *p, size_t size) {
@@ -50,9 +58,13 @@ int kli_reserve(const kli_allocator *a, void **arr, int *cap, int need,
 }
 
 void *kli_carve(kli_carver *c, size_t count, size_t elem) {
-  size_t start = (c->used + KLI_ALIGN - 1) / KLI_ALIGN * KLI_ALIGN;
-  size_t bytes = count * elem;
-  c->used = start + bytes;
+  size_t start;
+  if (c->used > SIZE_MAX - KLI_ALIGN) { /* saturated: stays so */
+    c->used = SIZE_MAX;
+    return NULL;
+  }
+  start = (c->used + KLI_ALIGN - 1) / KLI_ALIGN * KLI_ALIGN;
+  c->used = kli_size_add(start, kli_size_mul(count, elem));
   /* an empty array still gets a pointer into the block, so that copying
    * zero elements from or to it is well defined */
   return c->base == NULL ? NULL : c->base + start;

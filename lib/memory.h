@@ -6,6 +6,7 @@
 #define KINLOOP_MEMORY_H
 
 #include <stddef.h>
+#include <stdint.h>
 
 #include "kinloop.h"
 
@@ -19,6 +20,14 @@ typedef struct {
 void *kli_default_alloc(void *user, void *ptr, size_t old_size,
                         size_t new_size);
 
+/* Sizes saturate rather than wrap: a count times a size, or a sum, that a
+ * size_t cannot hold is SIZE_MAX, which no allocation grants (kli_alloc
+ * refuses it without calling the hook), so an overflowing size ends in
+ * KL_ENOMEM, never in a block smaller than its arrays. */
+size_t kli_size_mul(size_t a, size_t b);
+size_t kli_size_add(size_t a, size_t b);
+
+/* NULL for size 0 or SIZE_MAX (a saturated size), else the hook's block. */
 void *kli_alloc(const kli_allocator *a, size_t size);
 void kli_free(const kli_allocator *a, void *p, size_t size);
 /* Ensures *arr holds at least `need` elements of `elem` bytes, growing by
@@ -30,7 +39,9 @@ int kli_reserve(const kli_allocator *a, void **arr, int *cap, int need,
  * Carving one block into arrays: a first pass with base NULL only adds up
  * the bytes (kli_carve returns NULL); a second pass over the allocated block
  * hands out the same arrays in the same order, each aligned for any type
- * (an empty array gets a valid pointer too, never NULL).
+ * (an empty array gets a valid pointer too, never NULL). `used` saturates
+ * at SIZE_MAX (kli_size_mul, kli_size_add) when the arrays add up to more
+ * than a size_t holds.
  */
 typedef struct {
   unsigned char *base;

@@ -710,18 +710,24 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
     return kli_fail(m->error, KL_EINVAL, "set sweep: %s",
                     sweep == NULL ? "no settings (NULL)"
                                   : "settings size too small");
-  if (sweep->steps < 1 || sweep->steps > KL_MAX_SWEEP_STEPS)
+  if (sweep->steps < 1)
     return kli_fail(m->error, KL_EINVAL,
-                    "set sweep: steps must be at least 1 and at most %d, "
-                    "not %d",
-                    KL_MAX_SWEEP_STEPS, sweep->steps);
+                    "set sweep: steps must be at least 1, not %d",
+                    sweep->steps);
+  if (sweep->steps > KL_MAX_STEPS)
+    return kli_fail(m->error, KL_ETOOLARGE,
+                    "set sweep: %d steps; a sweep takes at most %d "
+                    "(KL_MAX_STEPS)",
+                    sweep->steps, KL_MAX_STEPS);
   if (sweep->input < 0 || sweep->input >= m->ninputs)
     return kli_fail(m->error, KL_EID,
                     "set sweep: input %d does not exist (%d inputs so far)",
                     sweep->input, m->ninputs);
-  if (!isfinite(sweep->from) || !isfinite(sweep->to))
+  if (!isfinite(sweep->from) || !isfinite(sweep->to) ||
+      !isfinite(sweep->to - sweep->from))
     return kli_fail(m->error, KL_ENONFINITE,
-                    "set sweep: the range is NaN or infinite");
+                    "set sweep: the range is NaN or infinite, or longer "
+                    "than a double holds");
   m->sweep = *sweep;
   m->sweep.size = sizeof m->sweep;
   m->has_sweep = 1;

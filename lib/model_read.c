@@ -689,8 +689,8 @@ kl_model *kl_model_read_with_alloc(const char *text, size_t length,
       kli_next_line(r);
   }
   if (st == KL_OK && !r->seen_header)
-    st = kli_read_fail(r, KL_ESYNTAX, 1,
-                       "empty model: expected 'kinloop-model %d'",
+    st = kli_io_fail(r->err, KL_ESYNTAX, 0, 0,
+                     "empty model: expected 'kinloop-model %d'",
                        KLI_FORMAT_VERSION);
   if (st == KL_OK && (st = kl_model_finalize(mr.m)) != KL_OK) {
     r->line = 0;

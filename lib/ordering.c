@@ -13,8 +13,9 @@ int kli_band_order(const kli_allocator *a, const kli_block_pattern *p,
   int *group_entries, *entry_start, *col_start, *col_entries, *degree;
   int *group_pos, *queue, *row_start, *fill;
   int i, e, k, head, tail, next_col = 0, placed = 0;
-  size_t bytes = (size_t)(ng + 1 + ne + nc + 1 + ne + 3 * ng + ng + 1 + ng + nc) *
-                 sizeof(int);
+  /* in size_t: the sum of the model's counts may exceed an int */
+  size_t bytes = kli_size_mul(6 * (size_t)ng + 2 * (size_t)ne + 2 * (size_t)nc + 3,
+                              sizeof(int));
   int *scratch = kli_alloc(a, bytes);
   if (scratch == NULL)
     return KL_ENOMEM;

@@ -92,7 +92,7 @@ int kli_build_reactions(kl_model *m, kli_topology *t) {
   f->entry_start[m->njoints] = f->nentries;
   /* Gruebler's count with one input per freedom: 2 (revolute + prismatic)
    * + slot + inputs = 3 (links - 1), one unknown per equation */
-  bytes = (size_t)(moving + 1 + rows) * sizeof(int);
+  bytes = kli_size_mul((size_t)moving + 1 + (size_t)rows, sizeof(int));
   scratch = kli_alloc(&m->alloc, bytes);
   if (scratch == NULL)
     return KL_ENOMEM;

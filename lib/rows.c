@@ -167,7 +167,9 @@ int kl_solver_sweep_rows(kl_solver *s, int input, double from, double to,
   sink.size = (size_t)kl_model_row_size(s->model);
   sw.size = sizeof sw;
   st = kl_solver_sweep(s, input, from, to, steps, put_row, &sink, &sw);
-  if (steps >= 1)
+  /* the rows the sweep did not deliver, where the call was not refused
+   * for its steps (which may then not say how many rows there are) */
+  if (steps >= 1 && steps <= KL_MAX_STEPS)
     for (k = (size_t)sw.steps_done * sink.size;
          k < ((size_t)steps + 1) * sink.size; k++)
       rows[k] = NAN;

@@ -3,6 +3,7 @@
  * options, the sketch setters, the getters of the committed position.
  */
 #include <math.h>
+#include <stdint.h>
 #include <string.h>
 
 #include "solver.h"
@@ -83,8 +84,9 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   carve_state(&t->kept, c, m);
   for (i = 0; i < 4; i++)
     carve_state(&t->crossing[i], c, m);
-  t->coef1 = kli_carve(c, (size_t)nc * (size_t)ni, sizeof(double));
-  t->coef2 = kli_carve(c, (size_t)nc * (size_t)ni * (size_t)ni, sizeof(double));
+  t->coef1 = kli_carve(c, kli_size_mul((size_t)nc, (size_t)ni), sizeof(double));
+  t->coef2 = kli_carve(c, kli_size_mul(kli_size_mul((size_t)nc, (size_t)ni), (size_t)ni),
+                       sizeof(double));
   carve_pose(&t->trial[0], c, nc, nl);
   carve_pose(&t->trial[1], c, nc, nl);
   t->u_trial = kli_carve(c, (size_t)ni, sizeof(double));
@@ -260,7 +262,7 @@ kl_solver *kl_solver_new(const kl_model *m) {
 
 kl_solver *kl_solver_new_in(const kl_model *m, void *block, size_t size) {
   size_t need = kl_solver_bytes(m);
-  if (need == 0 || block == NULL || size < need ||
+  if (need == 0 || need == SIZE_MAX || block == NULL || size < need ||
       ((size_t)block % sizeof(double)) != 0)
     return NULL;
   return place(m, block, need, 0);

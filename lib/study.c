@@ -88,12 +88,20 @@ static int start_at_sweep(const kl_study *st, kl_solver *s) {
   return kl_solve_position(s, u);
 }
 
-/* Steps for the part of the sweep from its start to u. */
-static int steps_to(const kl_study *st, double u) {
+double kli_study_steps_to(const kl_study *st, double u) {
   double full = fabs(st->sweep.to - st->sweep.from);
   double part = fabs(u - st->sweep.from);
-  int n = full > 0.0 ? (int)ceil(st->sweep.steps * part / full) : 1;
-  return n < 1 ? 1 : n;
+  double n = full > 0.0 ? ceil(st->sweep.steps * (part / full)) : 1.0;
+  return n < 1.0 ? 1.0 : n;
+}
+
+/* kli_study_steps_to as a sweep's steps: in range before the cast (the
+ * reader refuses an 'at' beyond KL_MAX_STEPS; should one get here, the
+ * sweep refuses KL_MAX_STEPS + 1 rather than run a count it was not
+ * given). */
+static int steps_to(const kl_study *st, double u) {
+  double n = kli_study_steps_to(st, u);
+  return n <= KL_MAX_STEPS ? (int)n : KL_MAX_STEPS + 1;
 }
 
 /* One judged output of a solver at the sweep's start (which it may move). */
@@ -209,15 +217,30 @@ typedef struct {
 static void *run_share(void *arg) {
   work *w = arg;
   long i;
-  int nout = w->st->njudge, nd = w->st->nvary;
+  size_t nout = (size_t)w->st->njudge, nd = (size_t)w->st->nvary;
   w->result = KL_OK;
+  /* i < count <= samples - first, so first + i and the offsets (bounded
+   * by run_range_ok) never overflow */
   for (i = w->offset; i < w->count; i += w->stride) {
-    int r = run_sample(w->st, w->first + i, w->values + i * nout,
-                       w->status + i, w->dims == NULL ? NULL : w->dims + i * nd);
+    int r = run_sample(w->st, w->first + i, w->values + (size_t)i * nout,
+                       w->status + i,
+                       w->dims == NULL ? NULL : w->dims + (size_t)i * nd);
     if (r != KL_OK)
       w->result = r;
   }
   return NULL;
+}
+
+/* Whether samples first .. first + count - 1 exist, and their arrays'
+ * sizes fit a size_t: checked without forming a sum or product that could
+ * overflow (first + count wraps for a count near LONG_MAX). */
+static int run_range_ok(const kl_study *st, long first, long count) {
+  size_t widest = (size_t)(st->njudge > st->nvary ? st->njudge : st->nvary);
+  if (first < 0 || count < 0 || first > st->samples ||
+      count > st->samples - first)
+    return 0;
+  return widest == 0 ||
+         (size_t)count <= SIZE_MAX / sizeof(double) / widest;
 }
 
 int kl_study_run(const kl_study *st, long first, long count, int threads,
@@ -229,7 +252,7 @@ int kl_study_run(const kl_study *st, long first, long count, int threads,
     return KL_EINVAL;
   if (!st->prepared)
     return KL_ESTAGE;
-  if (first < 0 || count < 0 || first + count > st->samples ||
+  if (!run_range_ok(st, first, count) ||
       (count > 0 && (values == NULL || sample_status == NULL)))
     return KL_EINVAL;
   if (threads <= 0)

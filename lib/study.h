@@ -74,6 +74,10 @@ kl_study *kli_study_new(const kl_model *m);
  * values and names, and turns the file's input values into API units.
  * KL_OK, or a status with buf saying why. Solves nothing. */
 int kli_study_resolve(kl_study *st, char *buf);
+/* The steps of a continuation from the sweep's start to input u (API
+ * units) in steps no longer than the sweep's, as a double: at least 1,
+ * and NaN or beyond any int for a u far outside the sweep. */
+double kli_study_steps_to(const kl_study *st, double u);
 
 /* The study reader's first pass, for the file module: the path of the
  * text's 'model' statement (into path, cap bytes; a path has at most 255)

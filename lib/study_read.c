@@ -203,7 +203,7 @@ static int read_grid(study_reader *sr) {
       (st = kli_expect_number(&sr->r, "the last value", &v->to)) != KL_OK ||
       (st = kli_expect_keyword(&sr->r, "steps", "after the last value")) !=
           KL_OK ||
-      (st = kli_expect_count(&sr->r, "the number of steps", &v->steps)) !=
+      (st = kli_expect_steps(&sr->r, &v->steps)) !=
           KL_OK ||
       (st = kli_expect_end(&sr->r)) != KL_OK)
     return st;
@@ -478,6 +478,31 @@ static int check_study(study_reader *sr) {
   return KL_OK;
 }
 
+/* Each 'at' output within reach: its continuation from the sweep's start
+ * takes no more than KL_MAX_STEPS steps (checked once the values are in
+ * API units, so in doubles: never an oversized cast). */
+static int check_at_outputs(study_reader *sr) {
+  const kl_study *st = sr->st;
+  int k;
+  for (k = 0; k < st->njudge; k++) {
+    const kli_judge *j = &st->judge[k];
+    double steps;
+    if (j->how != KLI_JUDGE_AT)
+      continue;
+    steps = kli_study_steps_to(st, j->at);
+    if (!(steps <= KL_MAX_STEPS)) {
+      sr->r.line = 0;
+      return kli_read_fail(
+          &sr->r, KL_ETOOLARGE, 0,
+          "output '%.60s': its input value lies so far outside the sweep "
+          "that reaching it from the sweep's start in steps no longer than "
+          "the sweep's takes %.3g steps; at most %d (KL_MAX_STEPS)",
+          j->name, steps, KL_MAX_STEPS);
+    }
+  }
+  return KL_OK;
+}
+
 /* Every statement, then the header's presence: KL_OK, FOUND_MODEL, or a
  * status with the error located. */
 static int read_statements(study_reader *sr) {
@@ -492,8 +517,8 @@ static int read_statements(study_reader *sr) {
       kli_next_line(&sr->r);
   }
   if (st == KL_OK && !sr->r.seen_header)
-    st = kli_read_fail(&sr->r, KL_ESYNTAX, 1,
-                       "empty study: expected 'kinloop-study %d'",
+    st = kli_io_fail(sr->r.err, KL_ESYNTAX, 0, 0,
+                     "empty study: expected 'kinloop-study %d'",
                        KLI_FORMAT_VERSION);
   return st;
 }
@@ -559,6 +584,8 @@ kl_study *kl_study_read(const char *text, size_t length, const kl_model *model,
     if (st != KL_OK)
       kli_read_fail(&sr.r, st, 0, "the nominal model: %s", why);
   }
+  if (st == KL_OK)
+    st = check_at_outputs(&sr);
   if (st != KL_OK) {
     kl_study_free(sr.st);
     return NULL;

@@ -2,6 +2,7 @@
  * sweep.c - continuation over an input range: predictor from the rates,
  * Newton as corrector, adaptive sub-steps, branch guard, limit location.
  */
+#include <limits.h>
 #include <math.h>
 #include <string.h>
 
@@ -85,6 +86,8 @@ static int same_tangent(const kl_solver *s, double delta) {
   const kl_model *m = s->model;
   double worst = 0.0, size = 0.0;
   int v;
+  if (delta == 0.0)
+    return 1; /* no sub-step (a target already reached): no secant to test */
   for (v = 0; v < s->n; v++) {
     int c = m->topo.var_coord[v];
     double unit = c >= m->nlinks ? 1.0 / m->topo.scale : 1.0;
@@ -189,7 +192,8 @@ static int advance(kl_solver *s, int input, double target, double full,
         fabs(target - trial) <= KLI_SNAP_FRACTION * fabs(*h))
       trial = target;
     r = substep(s, input, trial, det_sign);
-    (*substeps)++;
+    if (*substeps < INT_MAX) /* a count, saturated in the longest sweeps */
+      (*substeps)++;
     if (r == KL_OK) {
       /* grow after two easy corrections in a row, so that a sub-step
        * halved near a hard spot does not crawl through the rest */
@@ -411,9 +415,18 @@ static int check_sweep(kl_solver *s, int input, double from, double to,
   if (!isfinite(from) || !isfinite(to))
     return kli_fail(s->error, KL_ENONFINITE,
                     "sweep: the range of input %d is NaN or infinite", input);
+  if (!isfinite(to - from))
+    return kli_fail(s->error, KL_ENONFINITE,
+                    "sweep: the range of input %d, %g to %g, is longer than "
+                    "a double holds",
+                    input, from, to);
   if (steps < 1)
     return kli_fail(s->error, KL_EINVAL,
                     "sweep: %d steps; a sweep needs at least 1", steps);
+  if (steps > KL_MAX_STEPS)
+    return kli_fail(s->error, KL_ETOOLARGE,
+                    "sweep: %d steps; a sweep takes at most %d (KL_MAX_STEPS)",
+                    steps, KL_MAX_STEPS);
   return KL_OK;
 }
 

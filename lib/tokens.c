@@ -2,7 +2,6 @@
  * tokens.c - the tokenizer the model and study readers share: tokens of a
  * line, what a statement expects next, and errors at a line and column.
  */
-#include <errno.h>
 #include <math.h>
 #include <stdarg.h>
 #include <stdio.h>
@@ -57,18 +56,29 @@ static int column_of(const kli_reader *r, size_t pos) {
   return (int)(pos - r->line_start) + 1;
 }
 
+/* The bytes of the line break at pos: 2 for CR LF, 1 for LF or a CR alone
+ * (old Mac files: CR ends a line too), 0 for none. */
+static size_t line_break_at(const char *text, size_t length, size_t pos) {
+  if (pos >= length)
+    return 0;
+  if (text[pos] == '\n')
+    return 1;
+  if (text[pos] == '\r')
+    return pos + 1 < length && text[pos + 1] == '\n' ? 2 : 1;
+  return 0;
+}
+
 /* The next token on the current line; KLI_TOKEN_END at a newline, a comment
  * or the end of the input. */
 int kli_next_token(kli_reader *r, kli_token *t) {
   size_t start;
   while (r->pos < r->length &&
-         (r->text[r->pos] == ' ' || r->text[r->pos] == '\t' ||
-          r->text[r->pos] == '\r'))
+         (r->text[r->pos] == ' ' || r->text[r->pos] == '\t'))
     r->pos++;
   t->length = 0;
   t->text[0] = '\0';
   t->column = column_of(r, r->pos);
-  if (r->pos >= r->length || r->text[r->pos] == '\n' ||
+  if (r->pos >= r->length || line_break_at(r->text, r->length, r->pos) > 0 ||
       r->text[r->pos] == '#') {
     t->kind = KLI_TOKEN_END;
     return KL_OK;
@@ -79,7 +89,7 @@ int kli_next_token(kli_reader *r, kli_token *t) {
     t->kind = KLI_TOKEN_STRING;
     for (;;) {
       char c;
-      if (r->pos >= r->length || r->text[r->pos] == '\n')
+      if (r->pos >= r->length || line_break_at(r->text, r->length, r->pos) > 0)
         return kli_read_fail(
             r, KL_ESYNTAX, t->column,
             "the quoted name starting here has no closing quote");
@@ -124,10 +134,9 @@ int kli_next_token(kli_reader *r, kli_token *t) {
 
 /* Skips to the start of the next line. */
 void kli_next_line(kli_reader *r) {
-  while (r->pos < r->length && r->text[r->pos] != '\n')
+  while (r->pos < r->length && line_break_at(r->text, r->length, r->pos) == 0)
     r->pos++;
-  if (r->pos < r->length)
-    r->pos++;
+  r->pos += line_break_at(r->text, r->length, r->pos);
   r->line++;
   r->line_start = r->pos;
 }
@@ -180,12 +189,13 @@ int kli_expect_number_at(kli_reader *r, const char *what, double *value,
                          "expected a number (%s), found "
                          "'%.60s'",
                          what, kli_token_shown(&t));
-  errno = 0;
   *value = strtod(t.text, &end);
   if (*end != '\0')
     return kli_read_fail(r, KL_ESYNTAX, t.column,
                          "expected a number (%s), found '%.60s'", what, t.text);
-  if (!isfinite(*value) || errno == ERANGE)
+  /* only overflow is an error: strtod's ERANGE also flags underflow, to a
+   * subnormal number or zero, which is read as that value */
+  if (!isfinite(*value))
     return kli_read_fail(r, KL_ESYNTAX, t.column,
                          "the number '%.60s' (%s) is out of range", t.text,
                          what);
@@ -201,11 +211,31 @@ int kli_expect_count(kli_reader *r, const char *what, int *value) {
   int column, st = kli_expect_number_at(r, what, &v, &column);
   if (st != KL_OK)
     return st;
-  if (v != floor(v) || v < 1 || v > KL_MAX_SWEEP_STEPS)
+  if (v != floor(v) || v < 1 || v > 1e9)
     return kli_read_fail(r, KL_ESYNTAX, column,
-                         "expected a whole number from 1 to %d (%s), found "
-                         "%.17g",
-                         KL_MAX_SWEEP_STEPS, what, v);
+                         "expected a whole number from 1 to 1000000000 (%s), "
+                         "found %.15g",
+                         what, v);
+  *value = (int)v;
+  return KL_OK;
+}
+
+int kli_expect_steps(kli_reader *r, int *value) {
+  double v;
+  int column, st = kli_expect_number_at(r, "the number of steps", &v, &column);
+  if (st != KL_OK)
+    return st;
+  /* %.15g shows every whole number up to the limit and well past it */
+  if (v != floor(v) || v < 1)
+    return kli_read_fail(r, KL_ESYNTAX, column,
+                         "expected a whole number of steps from 1 to %d, "
+                         "found %.15g",
+                         KL_MAX_STEPS, v);
+  if (v > KL_MAX_STEPS)
+    return kli_read_fail(r, KL_ETOOLARGE, column,
+                         "%.15g steps; a sweep takes at most %d "
+                         "(KL_MAX_STEPS)",
+                         v, KL_MAX_STEPS);
   *value = (int)v;
   return KL_OK;
 }
@@ -326,7 +356,7 @@ int kli_expect_sweep(kli_reader *r, kl_sweep_settings *sw) {
       (st = kli_expect_keyword(r, "to", "after the start")) != KL_OK ||
       (st = kli_expect_number(r, "the end of the sweep", &sw->to)) != KL_OK ||
       (st = kli_expect_keyword(r, "steps", "after the end")) != KL_OK ||
-      (st = kli_expect_count(r, "the number of steps", &sw->steps)) != KL_OK ||
+      (st = kli_expect_steps(r, &sw->steps)) != KL_OK ||
       (st = kli_expect_end(r)) != KL_OK)
     return st;
   sw->size = sizeof *sw;
@@ -338,6 +368,11 @@ int kli_expect_sweep(kli_reader *r, kl_sweep_settings *sw) {
     return kli_read_fail(r, KL_ESYNTAX, 1,
                          "the swept joint is not an input; declare it with "
                          "'input' first");
+  if (!isfinite(sw->to - sw->from))
+    return kli_read_fail(r, KL_ENONFINITE, 1,
+                         "the sweep from %g to %g is longer than a number "
+                         "holds",
+                         sw->from, sw->to);
   if (r->m->joints[joint].kind == KL_JOINT_REVOLUTE) {
     sw->from = kli_angle_in(r, sw->from);
     sw->to = kli_angle_in(r, sw->to);
@@ -354,12 +389,14 @@ void kli_io_clear(kl_io_error *err) {
   }
 }
 
-/* What both readers refuse before reading a statement: no text, too much,
- * or a NUL byte (located: it is no text file). r->text and r->length are
- * set, r->line is 1. */
+/* What both readers refuse before reading a statement: no text or too much
+ * (line 0: the text as a whole), or a NUL byte (located: it is no text
+ * file). r->text and r->length are set; r->line is 1 after it. */
 int kli_check_text(kli_reader *r, const char *what) {
   const char *nul;
   size_t at, i;
+  /* errors of the text as a whole have line 0 */
+  r->line = 0;
   if (r->text == NULL && r->length > 0)
     return kli_read_fail(r, KL_EINVAL, 0, "no %s text (NULL) for %lu bytes",
                          what, (unsigned long)r->length);
@@ -367,15 +404,19 @@ int kli_check_text(kli_reader *r, const char *what) {
     return kli_read_fail(r, KL_EINVAL, 0,
                          "the %s text is %lu bytes; at most %u are read", what,
                          (unsigned long)r->length, KLI_MAX_INPUT);
+  r->line = 1;
   nul = r->length > 0 ? memchr(r->text, '\0', r->length) : NULL;
   if (nul == NULL)
     return KL_OK;
   at = (size_t)(nul - r->text);
-  for (i = 0; i < at; i++)
-    if (r->text[i] == '\n') {
+  for (i = 0; i < at;) {
+    size_t brk = line_break_at(r->text, r->length, i);
+    i += brk > 0 ? brk : 1;
+    if (brk > 0) {
       r->line++;
-      r->line_start = i + 1;
+      r->line_start = i;
     }
+  }
   return kli_read_fail(r, KL_ESYNTAX, column_of(r, at),
                        "a NUL byte: this is not a text file");
 }

@@ -77,7 +77,10 @@ int kli_expect_keyword(kli_reader *r, const char *word, const char *why);
 int kli_expect_number_at(kli_reader *r, const char *what, double *value,
                          int *column);
 int kli_expect_number(kli_reader *r, const char *what, double *value);
-/* A whole number from 1 to 1e9. */
+/* A sweep's or grid's number of steps: a whole number from 1 to
+ * KL_MAX_STEPS (KL_ETOOLARGE beyond it, at the number). */
+int kli_expect_steps(kli_reader *r, int *value);
+/* A whole number from 1 to 1e9 (`what` names it in the message). */
 int kli_expect_count(kli_reader *r, const char *what, int *value);
 /* A new item's name: an identifier, a quoted string, or '-' for none
  * (*name NULL); *name points into *t. */

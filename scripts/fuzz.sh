@@ -4,7 +4,11 @@
 # 60) from the seed corpus. A crash fails the run and leaves its input as
 # build-fuzz/crash-*; copy it to tests/fuzz/regressions/<corpus>-<name> so
 # that every build replays it. Timeouts (a call that runs for ever) and
-# memory blow-ups count as failures too. Long run: scripts/fuzz.sh 3600
+# memory blow-ups count as failures too. The bindings target
+# (tests/fuzz/fuzz_bindings.py, random arguments through the Python binding)
+# runs as long against a plain build of the library and the binding under
+# /usr/bin/python3; a finding prints its seed and call. Long run:
+# scripts/fuzz.sh 3600
 set -euo pipefail
 cd "$(dirname "$0")/.."
 seconds=${1:-60}
@@ -20,8 +24,9 @@ fi
 CC=clang cmake -S . -B build-fuzz -DKINLOOP_FUZZ=ON -DKINLOOP_SANITIZE=ON \
   -DKINLOOP_BUILD_BINDINGS=OFF -DKINLOOP_BUILD_EXAMPLES=OFF \
   -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
-cmake --build build-fuzz -j2 --target fuzz_model_read fuzz_study_read fuzz_api
-for pair in model_read:model study_read:study api:api; do
+cmake --build build-fuzz -j2 --target fuzz_model_read fuzz_study_read \
+  fuzz_study_run fuzz_api
+for pair in model_read:model study_read:study study_run:study_run api:api; do
   target=${pair%%:*}
   corpus=${pair##*:}
   work=build-fuzz/corpus-$corpus
@@ -38,4 +43,10 @@ for pair in model_read:model study_read:study api:api; do
     exit 1
   fi
 done
+echo "== fuzz_bindings for $seconds s =="
+cmake -S . -B build-fuzz-bindings -DKINLOOP_BUILD_TESTS=OFF \
+  -DKINLOOP_BUILD_EXAMPLES=OFF -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
+cmake --build build-fuzz-bindings -j2 --target kinloop kinloop_python
+PYTHONPATH=build-fuzz-bindings/bindings/python PYTHONDONTWRITEBYTECODE=1 \
+  /usr/bin/python3 tests/fuzz/fuzz_bindings.py --seconds "$seconds"
 echo "fuzz: no failures in $seconds s per target"

@@ -16,7 +16,7 @@ ctest --test-dir build-test --output-on-failure -j"$jobs"
 echo "== API reference (Doxygen; an undocumented public item fails) =="
 cmake --build build-test --target docs
 
-echo "== AddressSanitizer + UndefinedBehaviorSanitizer build =="
+echo "== AddressSanitizer + UndefinedBehaviorSanitizer build (float-cast-overflow and float-divide-by-zero included: see KINLOOP_SANITIZE) =="
 cmake -S . -B build-asan -DKINLOOP_WERROR=ON -DKINLOOP_SANITIZE=ON \
   -DCMAKE_BUILD_TYPE=Debug >/dev/null
 cmake --build build-asan -j"$jobs"

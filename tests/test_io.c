@@ -295,7 +295,7 @@ END_TEST
 
 /* `hold` gives the start value of an input other than the swept one: read
  * in degrees, held in radians, reported by kl_model_start_inputs, written
- * and read back; a sweep statement above KL_MAX_SWEEP_STEPS is refused
+ * and read back; a sweep statement above KL_MAX_STEPS is refused
  * with the limit and the exact count, and so is kl_model_set_sweep. */
 #define RAD_PER_DEG (3.14159265358979323846 / 180.0)
 START_TEST(held_inputs_and_the_step_limit) {
@@ -338,9 +338,9 @@ START_TEST(held_inputs_and_the_step_limit) {
   sw.input = 0;
   sw.from = 0;
   sw.to = 1;
-  sw.steps = KL_MAX_SWEEP_STEPS + 1;
-  ck_assert_int_eq(kl_model_set_sweep(m, &sw), KL_EINVAL);
-  sw.steps = KL_MAX_SWEEP_STEPS;
+  sw.steps = KL_MAX_STEPS + 1;
+  ck_assert_int_eq(kl_model_set_sweep(m, &sw), KL_ETOOLARGE);
+  sw.steps = KL_MAX_STEPS;
   ck_assert_int_eq(kl_model_set_sweep(m, &sw), KL_OK);
   ck_assert_int_eq(kl_model_set_input_hold(m, 1, 0.5), KL_EID);
   ck_assert_int_eq(kl_model_set_input_hold(m, 0, NAN), KL_ENONFINITE);
@@ -451,8 +451,9 @@ typedef struct {
 
 /* Every kind of syntax error, and model errors, with where they are. */
 static const bad_case bad_cases[] = {
-    {"", KL_ESYNTAX, 1, 1, "empty model"},
-    {"# only a comment\n", KL_ESYNTAX, 2, 1, "empty model"},
+    /* the text as a whole: line 0, as docs/model-format.md says */
+    {"", KL_ESYNTAX, 0, 0, "empty model"},
+    {"# only a comment\n", KL_ESYNTAX, 0, 0, "empty model"},
     {"link a\n", KL_ESYNTAX, 1, 1, "expected 'kinloop-model 1'"},
     {"kinloop-model 2\n", KL_ESYNTAX, 1, 15, "format version 2"},
     {"kinloop-model one\n", KL_ESYNTAX, 1, 15, "expected a number"},
@@ -731,9 +732,13 @@ START_TEST(oversized_and_odd_input) {
   ck_assert_ptr_null(kl_model_read(huge, big, &err));
   ck_assert_int_eq(err.status, KL_EINVAL);
   ck_assert_ptr_nonnull(strstr(err.message, "at most"));
+  /* the text as a whole: line 0, column 0 (docs/model-format.md) */
+  ck_assert_int_eq(err.line, 0);
+  ck_assert_int_eq(err.column, 0);
   free(huge);
   ck_assert_ptr_null(kl_model_read(NULL, 10, &err));
   ck_assert_int_eq(err.status, KL_EINVAL);
+  ck_assert_int_eq(err.line, 0);
   /* a line of one enormous word is refused at the word's limit */
   huge = malloc(5000);
   memcpy(huge, "kinloop-model 1\nlink ", 21);
@@ -750,6 +755,121 @@ START_TEST(oversized_and_odd_input) {
     ck_assert_ptr_nonnull(m);
     kl_model_free(m);
   }
+}
+END_TEST
+
+/* Line ends: LF, CR LF and a CR alone each end a line, so the same model
+ * reads the same in all three (and an error is at the same line). */
+START_TEST(every_line_end_reads_alike) {
+  static const char *const ends[] = {"\n", "\r\n", "\r"};
+  static const char *const lines[] = {
+      "kinloop-model 1", "# a comment", "link crank", "link coupler",
+      "link rocker", "revolute a ground 0 0 crank 0 0",
+      "revolute b crank 1 0 coupler 0 0", "revolute c coupler 3 0 rocker 0 0",
+      "revolute d rocker 2 0 ground 3 0", "input a",
+      "sweep a from 0 to 1 steps 4"};
+  kl_model *first = NULL;
+  size_t e, k;
+  for (e = 0; e < 3; e++) {
+    char text[512], bad[512];
+    kl_io_error err;
+    kl_model *m;
+    text[0] = '\0';
+    for (k = 0; k < sizeof lines / sizeof *lines; k++) {
+      strcat(text, lines[k]);
+      strcat(text, ends[e]);
+    }
+    err.size = sizeof err;
+    m = kl_model_read(text, strlen(text), &err);
+    ck_assert_msg(m != NULL, "line end %lu: %s", (unsigned long)e, err.message);
+    ck_assert_int_eq(kl_model_link_count(m), 4);
+    ck_assert_int_eq(kl_model_joint_count(m), 4);
+    if (first == NULL)
+      first = m;
+    else {
+      assert_same_model(first, m);
+      kl_model_free(m);
+    }
+    /* an error on line 3 is on line 3 whatever ends the lines */
+    snprintf(bad, sizeof bad, "kinloop-model 1%s%slink 7x%s", ends[e], ends[e],
+             ends[e]);
+    ck_assert_ptr_null(kl_model_read(bad, strlen(bad), &err));
+    ck_assert_int_eq(err.line, 3);
+    ck_assert_int_eq(err.column, 6);
+    /* and a NUL byte is located across them too */
+    snprintf(bad, sizeof bad, "kinloop-model 1%slink a%s@", ends[e], ends[e]);
+    bad[strlen(bad) - 1] = '\0';
+    ck_assert_ptr_null(kl_model_read(bad, strlen(bad) + 1, &err));
+    ck_assert_int_eq(err.line, 3);
+    ck_assert_int_eq(err.column, 1);
+  }
+  kl_model_free(first);
+}
+END_TEST
+
+/* Numbers: only overflow is an error (model-format.md); a subnormal value
+ * or one that underflows to zero reads as strtod gives it. */
+START_TEST(only_overflow_is_out_of_range) {
+  const char *fmt = "kinloop-model 1\nlink a\nrevolute j ground 0 0 a %s 0\n"
+                    "input j\n";
+  static const char *const small[] = {"4.9e-324", "2.2250738585072009e-308",
+                                      "1e-320", "-1e-400"};
+  char text[256];
+  kl_io_error err;
+  size_t k;
+  err.size = sizeof err;
+  for (k = 0; k < sizeof small / sizeof *small; k++) {
+    kl_model *m;
+    double at[2];
+    int links[2];
+    snprintf(text, sizeof text, fmt, small[k]);
+    m = kl_model_read(text, strlen(text), &err);
+    ck_assert_msg(m != NULL, "%s: %s", small[k], err.message);
+    ck_assert_int_eq(kl_model_joint_links(m, 0, links, NULL, at), KL_OK);
+    ck_assert(at[0] == strtod(small[k], NULL));
+    kl_model_free(m);
+  }
+  snprintf(text, sizeof text, fmt, "1e309");
+  ck_assert_ptr_null(kl_model_read(text, strlen(text), &err));
+  ck_assert_int_eq(err.status, KL_ESYNTAX);
+  ck_assert_ptr_nonnull(strstr(err.message, "out of range"));
+}
+END_TEST
+
+/* Steps: one limit, KL_MAX_STEPS, named in the message with the number as
+ * written (not 1e+09 for 1000000001). */
+START_TEST(steps_have_one_limit) {
+  const char *fmt = "kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\n"
+                    "input j\nsweep j from %s to %s steps %s\n";
+  char text[256], limit[32];
+  kl_io_error err;
+  kl_model *m;
+  kl_sweep_settings sw;
+  err.size = sizeof err;
+  snprintf(text, sizeof text, fmt, "0", "1", "1000000001");
+  ck_assert_ptr_null(kl_model_read(text, strlen(text), &err));
+  ck_assert_int_eq(err.status, KL_ETOOLARGE);
+  ck_assert_int_eq(err.line, 5);
+  ck_assert_int_eq(err.column, 27);
+  ck_assert_ptr_nonnull(strstr(err.message, "1000000001 steps"));
+  snprintf(limit, sizeof limit, "at most %d", KL_MAX_STEPS);
+  ck_assert_ptr_nonnull(strstr(err.message, limit));
+  snprintf(limit, sizeof limit, "%d", KL_MAX_STEPS);
+  snprintf(text, sizeof text, fmt, "0", "1", limit);
+  m = kl_model_read(text, strlen(text), &err);
+  ck_assert_ptr_nonnull(m);
+  sw.size = sizeof sw;
+  ck_assert_int_eq(kl_model_sweep(m, &sw), KL_OK);
+  ck_assert_int_eq(sw.steps, KL_MAX_STEPS);
+  kl_model_free(m);
+  snprintf(text, sizeof text, fmt, "0", "1", "0");
+  ck_assert_ptr_null(kl_model_read(text, strlen(text), &err));
+  ck_assert_int_eq(err.status, KL_ESYNTAX);
+  ck_assert_ptr_nonnull(strstr(err.message, "from 1 to 10000000"));
+  /* a range whose length overflows a double, as kl_model_set_sweep says */
+  snprintf(text, sizeof text, fmt, "-1e308", "1e308", "4");
+  ck_assert_ptr_null(kl_model_read(text, strlen(text), &err));
+  ck_assert_int_eq(err.status, KL_ENONFINITE);
 }
 END_TEST
 
@@ -897,6 +1017,9 @@ int main(void) {
   tcase_add_test(tc, truncated_input_never_crashes);
   tcase_add_test(tc, random_and_mutated_input_never_crashes);
   tcase_add_test(tc, oversized_and_odd_input);
+  tcase_add_test(tc, every_line_end_reads_alike);
+  tcase_add_test(tc, only_overflow_is_out_of_range);
+  tcase_add_test(tc, steps_have_one_limit);
   tcase_add_test(tc, files_on_disk);
   tcase_add_test(tc, writer_says_what_it_needs);
   tcase_add_test(tc, reading_survives_refused_allocations);

@@ -7,6 +7,7 @@
  */
 #define _POSIX_C_SOURCE 200809L
 #include <check.h>
+#include <limits.h>
 #include <math.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -317,6 +318,60 @@ START_TEST(results_do_not_depend_on_threads_or_splits) {
 }
 END_TEST
 
+/* Ranges of samples are checked without overflow: a count near LONG_MAX,
+ * or a first sample near it, is refused (KL_EINVAL), never wrapped into a
+ * range that passes (and writes past the arrays, or runs samples that do
+ * not exist); nothing is written. */
+START_TEST(sample_ranges_never_wrap) {
+  kl_study *st = read_study("kinloop-study 1\n"
+                            "model slider.kinloop\n"
+                            "seed 3\nsamples 8\n"
+                            "vary joint pin a x tolerance 0.5 normal\n"
+                            "output stroke swing slide rail\n");
+  static const long bad[][2] = {
+      {10, LONG_MAX},         {0, LONG_MAX},          {LONG_MAX - 5, 10},
+      {LONG_MAX, LONG_MAX},   {LONG_MAX, 0},          {9, 0},
+      {8, 1},                 {1, 8},                 {-1, 2},
+      {0, -1},                {LONG_MIN, LONG_MAX},   {LONG_MAX - 1, 2}};
+  double values[8], dims[8];
+  int status[8], k;
+  for (k = 0; k < 8; k++) {
+    values[k] = dims[k] = 42.0;
+    status[k] = 42;
+  }
+  for (k = 0; k < (int)(sizeof bad / sizeof *bad); k++) {
+    ck_assert_msg(kl_study_run(st, bad[k][0], bad[k][1], 1, values, status,
+                               dims) == KL_EINVAL,
+                  "first %ld count %ld", bad[k][0], bad[k][1]);
+  }
+  for (k = 0; k < 8; k++)
+    ck_assert(values[k] == 42.0 && dims[k] == 42.0 && status[k] == 42);
+  /* the edges themselves are fine: the last sample, and none after it */
+  ck_assert_int_eq(kl_study_run(st, 7, 1, 1, values, status, dims), KL_OK);
+  ck_assert_int_eq(kl_study_run(st, 8, 0, 1, values, status, dims), KL_OK);
+  kl_study_free(st);
+}
+END_TEST
+
+/* An 'at' output outside the sweep but within the step limit is judged
+ * there (reached by continuation in the sweep's step length): the slide
+ * at 720 degrees is the slide at 0, one full turn later (the motion is
+ * periodic; common practice, no source). */
+START_TEST(an_at_output_beyond_the_sweep_within_the_limit) {
+  kl_study *st = read_study("kinloop-study 1\n"
+                            "model slider.kinloop\n"
+                            "samples 1\n"
+                            "output home at 0 slide rail\n"
+                            "output twice at 720 slide rail\n");
+  double values[2];
+  int status;
+  ck_assert_int_eq(kl_study_run(st, 0, 1, 1, values, &status, NULL), KL_OK);
+  ck_assert_int_eq(status, KL_SAMPLE_OK);
+  ck_assert_double_eq_tol(values[1], values[0], 1e-9);
+  kl_study_free(st);
+}
+END_TEST
+
 /* Tolerances large enough that some cranks cannot turn fully: the crank
  * reaches up to 30 + 3 * 25 mm against a 100 mm rod on a 12 mm offset, and
  * a crank longer than rod - offset = 88 mm locks before a full turn (the
@@ -437,7 +492,7 @@ static const bad_study bad_studies[] = {
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
      "output s swing slide rail\nlimit s 0 1\nlimit s 0 2\n",
      KL_ESYNTAX, 6, "this output's 'limit' is given already, on line 5"},
-    {"", KL_ESYNTAX, 1, "empty study"},
+    {"", KL_ESYNTAX, 0, "empty study"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n", KL_ESYNTAX, 0,
      "judges no output"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
@@ -500,6 +555,25 @@ static const bad_study bad_studies[] = {
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
      "output s swing slide pin\n",
      KL_EKIND, 0, "revolute"},
+    /* one step limit (KL_MAX_STEPS) for the study's sweep and grid, and
+     * for the steps an 'at' output takes from the sweep's start: the
+     * slider's sweep is 36 steps over 360 degrees, so 1e8 degrees would
+     * take 1e7 + 1 steps, and 1e300 a count beyond any int */
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "sweep motor from 0 to 360 steps 10000001\noutput s swing slide rail\n",
+     KL_ETOOLARGE, 4, "at most 10000000"},
+    {"kinloop-study 1\nmodel slider.kinloop\n"
+     "grid joint pin a x from 20 to 40 steps 1e12\noutput s swing slide rail\n",
+     KL_ETOOLARGE, 3, "1000000000000 steps"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output s at 1e300 slide rail\n",
+     KL_ETOOLARGE, 0, "at most 10000000"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output s at -1.7e308 slide rail\n",
+     KL_ETOOLARGE, 0, "so far outside the sweep"},
+    {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
+     "output s at 100000010 slide rail\n",
+     KL_ETOOLARGE, 0, "1e+07 steps"},
 };
 
 static void assert_error(const kl_io_error *err, const bad_study *b, int i) {
@@ -533,7 +607,7 @@ static const bad_study bad_study_files[] = {
      "broken.kinloop', line 3, column 33: expected a number"},
     {"kinloop-study 1\nseed 1\nseed 2\nmodel slider.kinloop\n", KL_ESYNTAX,
      3, "'seed' is given already, on line 2"},
-    {"", KL_ESYNTAX, 1, "empty study"},
+    {"", KL_ESYNTAX, 0, "empty study"},
     {"kinloop-model 1\nmodel slider.kinloop\n", KL_ESYNTAX, 1,
      "kinloop-study 1"},
     {"kinloop-study 1\nmodel slider.kinloop\nsamples 5\n"
@@ -794,6 +868,8 @@ int main(void) {
   tcase_add_test(tc, the_random_stream_has_the_stated_distributions);
   tcase_add_test(tc, monte_carlo_agrees_with_first_order);
   tcase_add_test(tc, results_do_not_depend_on_threads_or_splits);
+  tcase_add_test(tc, sample_ranges_never_wrap);
+  tcase_add_test(tc, an_at_output_beyond_the_sweep_within_the_limit);
   tcase_add_test(tc, samples_that_cannot_turn_are_counted);
   tcase_add_test(tc, summary_statistics);
   tcase_add_loop_test(tc, study_errors_are_located, 0,

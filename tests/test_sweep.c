@@ -4,6 +4,7 @@
  * the modes at one input, bad arguments, and no allocation.
  */
 #include <check.h>
+#include <limits.h>
 #include <math.h>
 #include <string.h>
 
@@ -820,6 +821,12 @@ START_TEST(bad_sweep_arguments) {
       {0, 0.0, INFINITY, 10, KL_ENONFINITE, "input 0"},
       {0, 0.0, 1.0, 0, KL_EINVAL, "0 steps"},
       {0, 0.0, 1.0, -3, KL_EINVAL, "-3 steps"},
+      /* one step limit, named in the message; a count that would wrap
+       * steps + 1 (INT_MAX) is refused before any arithmetic on it */
+      {0, 0.0, 1.0, KL_MAX_STEPS + 1, KL_ETOOLARGE, "at most 10000000"},
+      {0, 0.0, 1.0, INT_MAX, KL_ETOOLARGE, "at most 10000000"},
+      /* ends that are finite, a length that is not */
+      {0, -1e308, 1e308, 10, KL_ENONFINITE, "longer than a double"},
   };
   unsigned k;
   sketch_branch(s, &f, u, 1);
@@ -853,6 +860,62 @@ START_TEST(bad_sweep_arguments) {
   ck_assert_int_eq(t.calls, 11);
   ck_assert_double_eq(kl_link_angle(s, f.crank), 0.4);
   kl_solver_free(s);
+  kl_model_free(f.m);
+}
+END_TEST
+
+/* Every call that sweeps takes its steps under the one limit: refused
+ * with KL_ETOOLARGE, the solver unchanged, and kl_solver_sweep_rows
+ * writes no row (it cannot know how many the caller has). */
+START_TEST(every_sweep_has_one_step_limit) {
+  fourbar f = build_fourbar(40, 120, 80, 100);
+  kl_solver *s = kl_solver_new(f.m);
+  kl_output o;
+  kl_range range;
+  kl_cycle c;
+  kl_sweep_settings sw;
+  double u = 0.4, w = 1.0, rows[4] = {42.0, 42.0, 42.0, 42.0};
+  int done = 7;
+  snapshot before, after;
+  sketch_branch(s, &f, u, 1);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
+  before = snap(s);
+  memset(&o, 0, sizeof o);
+  o.kind = KL_OUTPUT_LINK_ANGLE;
+  o.id = f.rocker;
+  range.size = sizeof range;
+  ck_assert_int_eq(kl_output_range(s, 0, 0.0, 1.0, KL_MAX_STEPS + 1, &o,
+                                   &range),
+                   KL_ETOOLARGE);
+  ck_assert_int_eq(kl_solver_sweep_rows(s, 0, 0.0, 1.0, INT_MAX, rows, NULL),
+                   KL_ETOOLARGE);
+  ck_assert(rows[0] == 42.0 && rows[3] == 42.0);
+  kl_cycle_default(&c);
+  c.steps = INT_MAX;
+  ck_assert_int_eq(kl_cycle_table(s, &c, 0, NULL, rows, 4, &done),
+                   KL_ETOOLARGE);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "at most 10000000"));
+  after = snap(s);
+  assert_same_state(&before, &after, "a sweep refused for its steps");
+  kl_solver_free(s);
+  /* the model's sweep settings: the same limit, the same status */
+  kl_model_free(f.m);
+  f.m = kl_model_new();
+  ck_assert_int_ge(kl_add_link(f.m, "a"), 1);
+  ck_assert_int_ge(kl_add_revolute(f.m, 0, 0, 0, 1, 0, 0), 0);
+  ck_assert_int_ge(kl_add_input(f.m, 0), 0);
+  sw.size = sizeof sw;
+  sw.input = 0;
+  sw.from = 0.0;
+  sw.to = 1.0;
+  sw.steps = KL_MAX_STEPS + 1;
+  ck_assert_int_eq(kl_model_set_sweep(f.m, &sw), KL_ETOOLARGE);
+  sw.steps = KL_MAX_STEPS;
+  ck_assert_int_eq(kl_model_set_sweep(f.m, &sw), KL_OK);
+  sw.from = -1e308;
+  sw.to = 1e308;
+  ck_assert_int_eq(kl_model_set_sweep(f.m, &sw), KL_ENONFINITE);
   kl_model_free(f.m);
 }
 END_TEST
@@ -1085,6 +1148,7 @@ int main(void) {
   tcase_add_test(tc, a_mode_is_a_state_to_continue_from);
   tcase_add_test(tc, mode_arguments_are_checked);
   tcase_add_test(tc, bad_sweep_arguments);
+  tcase_add_test(tc, every_sweep_has_one_step_limit);
   tcase_add_test(tc, copy_state_needs_the_same_model);
   tcase_add_test(tc, sweeps_modes_and_figures_never_allocate);
   tcase_add_test(tc, slide_input_stops_at_the_dead_centres);

@@ -528,9 +528,13 @@ struct recorder {
   octave::interpreter *interp = nullptr;
   std::exception_ptr failure;
 
+  /* sized for a count the library takes: it refuses the others itself
+   * (KL_EINVAL, KL_ETOOLARGE) and then writes no row */
+  static bool takes(int steps) { return steps >= 1 && steps <= KL_MAX_STEPS; }
+
   recorder(const kl_model *m, int steps)
       : model(m), width(kl_model_row_size(m)),
-        table(steps >= 1 ? static_cast<octave_idx_type>(steps) + 1 : 0,
+        table(takes(steps) ? static_cast<octave_idx_type>(steps) + 1 : 0,
               kl_model_row_size(m), NAN),
         row(static_cast<size_t>(kl_model_row_size(m))) {}
 
@@ -600,9 +604,9 @@ octave_value_list cmd_sweep(const call &c) {
   kl_sweep_result res = kl_sweep_result();
   res.size = sizeof res;
   int st;
-  if (rec.callback.is_undefined() && steps >= 1) {
+  if (rec.callback.is_undefined() && recorder::takes(steps)) {
     /* the library fills the rows at C speed, C-ordered: one row per step */
-    std::vector<double> rows(static_cast<size_t>(steps + 1) *
+    std::vector<double> rows((static_cast<size_t>(steps) + 1) *
                              static_cast<size_t>(rec.width));
     st = kl_solver_sweep_rows(s.solver, input, from, to, steps, rows.data(), &res);
     for (rec.rows = 0; rec.rows < res.steps_done; rec.rows++)
@@ -765,7 +769,8 @@ octave_value_list cmd_cycle_table(const call &c) {
   int width = kl_cycle_columns(s.model);
   c.check(width);
   /* sized for a valid cycle; the library judges the steps itself */
-  size_t samples = a.cycle.steps >= 1 ? static_cast<size_t>(a.cycle.steps) + 1 : 1;
+  size_t samples = recorder::takes(a.cycle.steps)
+                       ? static_cast<size_t>(a.cycle.steps) + 1 : 1;
   std::vector<double> rows(samples * static_cast<size_t>(width));
   int done = 0;
   c.check(kl_cycle_table(s.solver, &a.cycle, a.nloads, a.load_array(), rows.data(),

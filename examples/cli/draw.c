@@ -792,8 +792,8 @@ static int reach_along(kl_solver *s, const cli_model *cm,
   part = fabs((x - r->from) / (r->to - r->from));
   to_x.to = x;
   to_x.steps = part * r->steps < 1 ? 1 : (int)ceil(part * r->steps);
-  if (to_x.steps > KL_MAX_SWEEP_STEPS)
-    to_x.steps = KL_MAX_SWEEP_STEPS;
+  if (to_x.steps > KL_MAX_STEPS)
+    to_x.steps = KL_MAX_STEPS;
   res.size = sizeof res;
   st = kl_solver_sweep(s, r->input, r->from, x, to_x.steps, no_row, NULL,
                        &res);

@@ -448,7 +448,7 @@ static int store_option(cli_options *o, int which, const char *value) {
     break;
   case OPT_STEPS:
     o->have_steps = 1;
-    st = parse_count(c, name, value, 1, KL_MAX_SWEEP_STEPS, &o->steps);
+    st = parse_count(c, name, value, 1, KL_MAX_STEPS, &o->steps);
     break;
   case OPT_AT:
     if (o->nat == 1)

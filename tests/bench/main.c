@@ -32,11 +32,12 @@ static void print_target(FILE *out, const target *t) {
 }
 
 static void usage(FILE *out) {
-  fprintf(out, "usage: kinloop-bench [--quick]\n"
+  fprintf(out, "usage: kinloop-bench [--quick] [--reader]\n"
                "  times kinloop against the closed form and GSL; never fails "
                "on time\n"
                "  --quick  one call per method and few chain steps (for "
-               "valgrind and callgrind)\n");
+               "valgrind and callgrind)\n"
+               "  --reader the model reader's row alone (part 8)\n");
 }
 
 int main(int argc, char **argv) {
@@ -48,6 +49,7 @@ int main(int argc, char **argv) {
   study_figures study = {0};
   check_figures checks = {0};
   jerk_figures jerk = {0};
+  reader_figures reader = {0};
   target targets[12];
   size_t i;
   int arg;
@@ -55,6 +57,9 @@ int main(int argc, char **argv) {
     if (strcmp(argv[arg], "--quick") == 0) {
       plan.quick = 1;
       plan.samples = 1;
+    } else if (strcmp(argv[arg], "--reader") == 0) {
+      bench_reader(stdout, &plan, &reader);
+      return EXIT_SUCCESS;
     } else {
       usage(strcmp(argv[arg], "--help") == 0 ? stdout : stderr);
       return strcmp(argv[arg], "--help") == 0 ? EXIT_SUCCESS : EXIT_FAILURE;
@@ -73,6 +78,7 @@ int main(int argc, char **argv) {
   bench_study(stdout, &plan, &study);
   bench_check(stdout, &plan, &checks);
   bench_jerk(stdout, &plan, &jerk);
+  bench_reader(stdout, &plan, &reader);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -153,8 +159,10 @@ int main(int argc, char **argv) {
   for (i = 0; i < sizeof targets / sizeof targets[0]; i++)
     print_target(stdout, &targets[i]);
   printf("(not targets: 2 threads / 1 thread throughput %.2fx; thread "
-         "results identical: %s)\n",
-         threads.throughput_ratio, threads.results_identical ? "yes" : "NO");
+         "results identical: %s; reader time per item at 1,000,000 items / "
+         "at 1,000: %.2fx)\n",
+         threads.throughput_ratio, threads.results_identical ? "yes" : "NO",
+         reader.ratio_1m);
   fourbar_done(&fourbar);
   return EXIT_SUCCESS;
 }

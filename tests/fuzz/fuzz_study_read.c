@@ -14,32 +14,13 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "counts.h"
 #include "kinloop.h"
 
 #define KLI_FUZZ_MAX_COUNT 2000
 #define KLI_FUZZ_SAMPLES 2
 
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
-
-/* Whether a word of the text is followed by a number above the cap. */
-static int counts_too_large(const char *text, size_t size, const char *word) {
-  size_t w = strlen(word), i;
-  for (i = 0; i + w < size; i++) {
-    char digits[32];
-    size_t k = i + w, d = 0;
-    if (memcmp(text + i, word, w) != 0)
-      continue;
-    while (k < size && (text[k] == ' ' || text[k] == '\t'))
-      k++;
-    while (k < size && d + 1 < sizeof digits &&
-           strchr("0123456789.eE+-", text[k]) != NULL)
-      digits[d++] = text[k++];
-    digits[d] = '\0';
-    if (d > 0 && !(strtod(digits, NULL) <= KLI_FUZZ_MAX_COUNT))
-      return 1;
-  }
-  return 0;
-}
 
 /* The model every input is read against, read once and kept for the
  * process. */
@@ -64,8 +45,8 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size) {
   kl_study *st;
   long n;
   int k, outputs, dimensions, prepared;
-  if (counts_too_large(text, size, "steps") ||
-      counts_too_large(text, size, "samples"))
+  if (kli_fuzz_count_above(text, size, "steps", KLI_FUZZ_MAX_COUNT) ||
+      kli_fuzz_count_above(text, size, "samples", KLI_FUZZ_MAX_COUNT))
     return 0;
   err.size = sizeof err;
   st = kl_study_read(text, size, fixed_model(), &err);

@@ -100,4 +100,20 @@ for range = {{2^64, 5}, {0, 2^64}, {-2^63 - 2^11, 1}, {0.5, 1}, {uint64(2)^63, 1
   assert(~isempty(strfind(err.message, 'study_run')), 'message: %s', err.message);
 end
 expect_error(@() st.output_name(2^32), 'kinloop:EINVAL');
+% ranges a C long holds exactly, so the argument rule passes them: the
+% library checks first + count without overflow (it once wrapped, ran
+% samples that do not exist and wrote past the arrays)
+st.prepare();
+n = st.sample_count();
+big = intmax('int64');
+for range = {{10, big}, {0, big}, {big - 5, 10}, {big, big}, {n, 1}, {n + 1, 0}}
+  err = expect_error(@() st.run(range{1}{:}), 'kinloop:EINVAL');
+end
+[values, status] = st.run(n - 1, 1);
+assert(numel(status) == 1);
+% one step limit (KL_MAX_STEPS, 10^7) for every sweep, named in the message
+err = expect_error(@() s.sweep(0, 0, 1, 10^7 + 1), 'kinloop:ETOOLARGE');
+assert(~isempty(strfind(err.message, 'at most 10000000')), 'message: %s', err.message);
+expect_error(@() s.sweep(0, 0, 1, 2^31 - 1), 'kinloop:ETOOLARGE');
+assert(s.input_value(0) == before);
 clear s st

@@ -10,13 +10,14 @@ generated calls (kinloop._api) apply it to every value; the Octave gateway
 applies the same rule."""
 
 import ctypes
+import dataclasses
 import keyword
 import math
 import numbers
 import operator
 import os
 
-from ._core import KinloopError
+from ._core import Handle, KinloopError
 from ._header import Sized, Status
 
 
@@ -104,6 +105,17 @@ def to_path(value, function, argument):
         refuse(function, argument, "is not a file system path: %s" % e)
 
 
+def to_handle(value, kind, function, argument):
+    """Another handle a function reads: a kinloop object of the C type
+    kl_<kind> (Model, Solver, Study); any other object is refused, never
+    handed to C as a pointer it would misread."""
+    if not (isinstance(value, Handle) and
+            any(c.__name__.lower() == kind for c in type(value).__mro__)):
+        refuse(function, argument, "must be a %s; got %s" % (kind.capitalize(),
+                                                              type(value).__name__))
+    return value._handle
+
+
 def to_point(value, function, argument):
     """A point: a sequence of two real numbers (x, y)."""
     try:
@@ -161,9 +173,21 @@ def array_of(values, ctype, function, argument):
     """A C array of the values (ints, doubles or structs, each under the
     rule; None for none) and how many there are."""
     rule = _FIELD_RULES.get(ctype) or (lambda v, f, a: to_struct(v, ctype, f, a))
-    items = [] if values is None else list(values)
+    try:
+        items = [] if values is None else list(values)
+    except TypeError:
+        refuse(function, argument, "must be a sequence; got %s" % type(values).__name__)
     converted = [rule(v, function, "%s[%d]" % (argument, k)) for k, v in enumerate(items)]
     return (ctype * max(len(items), 1))(*converted), len(items)
+
+
+def with_fields(value, ctype_name, fields, function, argument):
+    """A value type (a frozen dataclass of kinloop) with `fields` replacing
+    fields by name; any other value is refused (a keyword naming no field
+    is Python's TypeError, as for any function)."""
+    if not dataclasses.is_dataclass(value) or isinstance(value, type):
+        refuse(function, argument, "must be a %s; got %s" % (ctype_name, type(value).__name__))
+    return dataclasses.replace(value, **fields)
 
 
 def same_count(function, count, *arrays):

@@ -7,6 +7,7 @@ import ctypes
 import weakref
 
 from . import _api, raw
+from ._args import refuse
 from ._core import Handle, KinloopError, check_const, text, value_of
 from ._header import Status
 
@@ -55,9 +56,17 @@ def read_handle(reader, what, *args):
     return ptr
 
 
-def data_of(source):
-    """Model or study file text: str as UTF-8, or bytes as they are."""
-    return source.encode("utf-8") if isinstance(source, str) else bytes(source)
+def data_of(source, function):
+    """Model or study file text: str as UTF-8, or bytes as they are; any
+    other value is refused (bytes(5) would be five NUL bytes)."""
+    if isinstance(source, str):
+        try:
+            return source.encode("utf-8")
+        except UnicodeEncodeError as e:
+            refuse(function, "text", "cannot be encoded as UTF-8: %s" % e.reason)
+    if isinstance(source, (bytes, bytearray, memoryview)):
+        return bytes(source)
+    refuse(function, "text", "must be a str or bytes; got %s" % type(source).__name__)
 
 
 class Model(_api.ModelMethods, Handle):
@@ -227,7 +236,7 @@ class Model(_api.ModelMethods, Handle):
     @classmethod
     def read_text(cls, source, allocator=None):
         """A finalized model from model-file text (str, or bytes as they are)."""
-        data = data_of(source)
+        data = data_of(source, "kl_model_read")
         if allocator is None:
             return cls._adopting(read_handle(_api.kl_model_read, "read_text", data, len(data)))
         hook = allocator_hook(allocator)

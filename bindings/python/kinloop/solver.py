@@ -6,16 +6,15 @@ arrays, copies, assembly modes, sweeps with their recorder and callback,
 and the force figures over a cycle (summary and table)."""
 
 import ctypes
-import dataclasses
 import math
 import weakref
 
 import numpy as np
 
 from . import _api, raw
-from ._args import array_of, refuse, to_int
+from ._args import array_of, refuse, to_int, with_fields
 from ._core import Handle, KinloopError, as_enum, check_const, value_of
-from ._header import Status, WorkspaceKind
+from ._header import MAX_STEPS, Status, WorkspaceKind
 from .values import Cycle, CycleFigures, SweepResult, Workspace, cycle_table_dtype
 
 # Over-alignment for a solver placed in a Python buffer: the C side wants
@@ -91,7 +90,9 @@ class Solver(_api.SolverMethods, Handle):
     def set_options(self, options=None, **values):
         """Sets options: `options` (default: the current ones) with `values`
         replacing fields by name."""
-        super().set_options(dataclasses.replace(options or self.options, **values))
+        super().set_options(with_fields(self.options if options is None else options,
+                                        "Options", values, "kl_solver_set_options",
+                                        "options"))
 
     # ---- what the generated methods of arrays per input ask of a solver ----
 
@@ -157,7 +158,10 @@ class Solver(_api.SolverMethods, Handle):
         `result` holding the steps delivered."""
         h, model = self._changing, self._model
         steps = to_int(steps, "kl_solver_sweep", "steps")
-        table = np.full((max(steps + 1, 1), model.row_size), math.nan)
+        # sized for a count the library takes: it refuses the others itself
+        # (KL_EINVAL, KL_ETOOLARGE) and then writes no row
+        rows = steps + 1 if 1 <= steps <= MAX_STEPS else 1
+        table = np.full((rows, model.row_size), math.nan)
         outcome, raised = raw.kl_sweep_result(), []
         if callback is None:
             status = _api.kl_solver_sweep_rows(h, input, from_, to, steps,
@@ -230,7 +234,8 @@ class Solver(_api.SolverMethods, Handle):
     def _cycle_arguments(self, function, loads, cycle, fields):
         """The cycle (`cycle`, default Cycle(), with `fields` replacing
         fields by name) and the loads as the C calls take them."""
-        c = dataclasses.replace(cycle if cycle is not None else Cycle(), **fields)
+        c = with_fields(cycle if cycle is not None else Cycle(), "Cycle", fields, function,
+                        "cycle")
         loads, count = array_of(loads, raw.kl_load, function, "loads")
         return c, loads, count
 
@@ -310,7 +315,7 @@ class Solver(_api.SolverMethods, Handle):
             raise RuntimeError("kinloop: kl_cycle_table's row has %d numbers; the "
                                "bindings expect %d" % (columns, dtype.itemsize // 8))
         steps = to_int(c.steps, function, "cycle.steps")
-        table = np.zeros(max(steps + 1, 1), dtype=dtype)
+        table = np.zeros(steps + 1 if 1 <= steps <= MAX_STEPS else 1, dtype=dtype)
         done = ctypes.c_int()
         self._check(_api.kl_cycle_table(self._changing, c, count, loads,
                                         table.ctypes.data_as(_DOUBLES),

@@ -71,7 +71,9 @@ class Study(_api.StudyMethods, Handle):
         recorded (model_path). The study holds the model: closing `model`
         afterwards is safe. Errors raise KinloopError with line and column
         where the text has them. Solves nothing: see prepare."""
-        data = data_of(source)
+        data = data_of(source, "kl_study_read")
+        if not isinstance(model, Model):
+            refuse("kl_study_read", "model", "must be a Model; got %s" % type(model).__name__)
         return cls._adopting(read_handle(_api.kl_study_read, "read_text", data, len(data),
                                          model._handle), model._hook)
 
@@ -179,8 +181,12 @@ class Study(_api.StudyMethods, Handle):
         name) over the rows of `values` and `status` as run returned them,
         read as samples 0 .. n - 1 (worst_sample counts from the first row)."""
         k, nout = self._output_index(output), self.output_count
-        values = np.ascontiguousarray(values, dtype=float)
-        status = np.ascontiguousarray(status, dtype=np.intc)
+        try:
+            values = np.ascontiguousarray(values, dtype=float)
+            status = np.ascontiguousarray(status, dtype=np.intc)
+        except (TypeError, ValueError, OverflowError) as e:
+            refuse("kl_study_summarize", "values and status", "must be arrays of numbers "
+                   "as run gives them (%s)" % e)
         if values.ndim != 2 or values.shape[1] != nout or status.shape != (values.shape[0],):
             refuse("kl_study_summarize", "values", "must be (n, %d) and status (n,), as run "
                    "gives them; got %s and %s" % (nout, values.shape, status.shape))

@@ -6,6 +6,7 @@ first NUL, and store 2**32 + 5 as 5 in a struct field."""
 
 import math
 import os
+import sys
 
 import numpy as np
 import pytest
@@ -151,3 +152,32 @@ def test_study_runs_never_hand_c_a_wrapped_range():
             assert "kl_study_run" in message
         refused(st.run, 0, 1, threads=2**32 + 1)
         refused(st.output_name, 2**32)
+
+
+def test_study_ranges_that_fit_a_long_but_wrap_in_c_are_refused():
+    """Values a C long holds exactly, so the argument rule passes them; the
+    library checks first + count without overflow (it once wrapped, ran
+    samples that do not exist and wrote past the arrays)."""
+    study = os.path.join(os.path.dirname(__file__), os.pardir, os.pardir, os.pardir,
+                         "examples", "models", "flap-tucker.study")
+    with kl.Study.read_file(study) as st:
+        st.prepare()
+        n = st.sample_count
+        for first, count in ((10, sys.maxsize), (0, sys.maxsize), (sys.maxsize - 5, 10),
+                             (sys.maxsize, sys.maxsize), (n, 1), (n + 1, 0)):
+            message = refused(st.run, first, count)
+            assert "run(first=%d, count=%d)" % (first, count) in message
+        assert st.run(n - 1, 1).status.shape == (1,)
+
+
+def test_steps_beyond_the_limit_are_too_large(solved):
+    """One step limit (KL_MAX_STEPS, 10^7) for every sweep, named in the
+    message; values within an int that C would otherwise take."""
+    f, s = solved
+    for call in (lambda: s.sweep(0, 0.0, 1.0, 10**7 + 1),
+                 lambda: s.output_range(0, 0.0, 1.0, 2**31 - 1, kl.Output.link_angle(f.rocker))):
+        with pytest.raises(kl.KinloopError) as info:
+            call()
+        assert info.value.status == kl.Status.ETOOLARGE
+        assert "at most 10000000" in info.value.message
+    assert s.input_value(0) == 1.0
