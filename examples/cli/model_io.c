@@ -378,7 +378,8 @@ int cli_close_output(FILE *f, const char *path) {
     if (fflush(f) != 0)
       failed = 1;
   } else {
-    if (fflush(f) != 0 || fsync(fileno(f)) != 0)
+    /* a device (/dev/null) cannot sync: only a temporary file needs it */
+    if (fflush(f) != 0 || (k >= 0 && fsync(fileno(f)) != 0))
       failed = 1;
     if (fclose(f) != 0)
       failed = 1;

@@ -131,8 +131,13 @@ def flat_pairs(values, function, argument):
     sequence of pairs (an n-by-2 array)."""
     if values is None:
         return None
+    try:
+        items = list(values)
+    except TypeError:
+        refuse(function, argument, "must be a sequence of (x, y) pairs; got %s"
+               % type(values).__name__)
     flat = []
-    for k, v in enumerate(values):
+    for k, v in enumerate(items):
         flat.extend(to_point(v, function, "%s[%d]" % (argument, k)))
     return flat
 

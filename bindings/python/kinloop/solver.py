@@ -275,8 +275,8 @@ class Solver(_api.SolverMethods, Handle):
         Workspace. A negative status raises KinloopError; the solver keeps
         its state either way."""
         function = "kl_solver_workspace"
-        o = dataclasses.replace(options if options is not None else _api.WorkspaceOptions(),
-                                **fields)
+        o = with_fields(options if options is not None else _api.WorkspaceOptions(),
+                        "WorkspaceOptions", fields, function, "options")
         cap = to_int(cap, function, "cap")
         while True:
             xy = np.zeros((max(cap, 2), 2))
