@@ -129,9 +129,15 @@ enum kl_status {
   KL_EIO = -21,            /**< a file could not be read or written */
   KL_ETRUNCATED = -22,     /**< the caller's buffer is too small: the text was cut */
   KL_ETOOLARGE = -23,      /**< the request exceeds a documented bound of the library */
-  KL_EINDETERMINATE = -24  /**< forces: the structure is statically indeterminate
+  KL_EINDETERMINATE = -24, /**< forces: the structure is statically indeterminate
                                 (redundant constraints), so the joint forces are
                                 not determined by equilibrium alone */
+  /* couplings (kl_add_gear_pair, kl_add_rack_pinion, kl_add_coupling) */
+  KL_ENOMESH = -25,        /**< gear pair: the centre distance fits neither
+                                radius1 + radius2 nor |radius1 - radius2| */
+  KL_ENOCOMMON = -26,      /**< gear pair or rack: the two joints share no link */
+  KL_ERADIUS = -27,        /**< a pitch radius zero or negative (or a rack's zero) */
+  KL_ESELFCOUPLING = -28   /**< a joint coupled with itself */
 };
 
 /**
@@ -490,7 +496,8 @@ KL_API int kl_model_joint_links(const kl_model *m, int joint, int links[2],
                           double a_xy[2], double b_xy[2]);
 /** The slide axis angle of a prismatic or slot joint in a's frame; NaN otherwise. */
 KL_API double kl_model_joint_axis(const kl_model *m, int joint);
-/** The joint an input drives, or KL_EID. */
+/** The joint an input drives, or KL_EID; KL_EKIND for a point input
+ * (kl_add_point_input). */
 KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /* ------------------------------------------------------------------------
@@ -1802,6 +1809,106 @@ typedef struct kl_study_summary {
 KL_API int kl_study_summarize(const kl_study *st, int k, const double *values,
                               const int *sample_status, long n,
                               kl_study_summary *summary);
+
+/* ------------------------------------------------------------------------
+ * Couplings and point inputs: rows beyond loop closure
+ *
+ * Each coupling and each point input adds one scalar equation and no
+ * unknown. A coupling is linear in two joint coordinates, counted from the
+ * model's sketch (a link without a sketch angle counts from 0, a joint
+ * without a sketch slide from 0); a point input sets one global coordinate
+ * of a point. The mobility count takes a coupling as a higher pair (one
+ * constraint) and a point input as an input like a joint's.
+ * ------------------------------------------------------------------------ */
+
+/** What a coupling relates (kl_model_coupling). */
+enum kl_coupling_kind {
+  KL_COUPLING_GEAR = 0,  /**< a gear pair (kl_add_gear_pair) */
+  KL_COUPLING_RACK = 1,  /**< a rack and pinion (kl_add_rack_pinion) */
+  KL_COUPLING_RATIO = 2  /**< two joint coordinates by a ratio (kl_add_coupling) */
+};
+
+/**
+ * Couples two revolute joints on one common link (the carrier) as a gear
+ * pair: the gear on joint k's other link has pitch radius `radiusk` (> 0,
+ * length units) about joint k's centre. The centres on the carrier lie
+ * radius1 + radius2 apart for an external mesh (the gears turn against the
+ * carrier in opposite senses: r1 dphi1 = -r2 dphi2) or |radius1 - radius2|
+ * apart for an internal mesh (same sense: r1 dphi1 = r2 dphi2), to within
+ * 1e-9 of the larger of the distance and the radii; phik is gear k's angle
+ * against the carrier. The sketch angles are a meshing pose. Returns the
+ * coupling's id (>= 0, couplings numbered from 0 in order added), or
+ * KL_EID (no such joint), KL_EKIND (a joint not revolute), KL_ESELFCOUPLING
+ * (joint1 == joint2), KL_ENOCOMMON (the joints share no link),
+ * KL_ENONFINITE, KL_ERADIUS (a radius <= 0), KL_ENOMESH (the centre
+ * distance fits neither mesh, or an internal pair of equal radii),
+ * KL_ESTATE (finalized), KL_ENOMEM. The model is unchanged on failure.
+ */
+KL_API int kl_add_gear_pair(kl_model *m, int joint1, int joint2,
+                            double radius1, double radius2);
+
+/**
+ * Couples a revolute joint (the pinion) with a prismatic joint (the rack)
+ * on one common link: the rack's slide changes by `radius` times the
+ * pinion's turn against that link (rad), counted from the sketch; the sign
+ * of radius says which way. Returns the coupling's id, or KL_EID, KL_EKIND
+ * (pinion not revolute or rack not prismatic), KL_ESELFCOUPLING,
+ * KL_ENOCOMMON, KL_ENONFINITE, KL_ERADIUS (radius 0), KL_ESTATE,
+ * KL_ENOMEM. The model is unchanged on failure.
+ */
+KL_API int kl_add_rack_pinion(kl_model *m, int pinion_joint, int rack_joint,
+                              double radius);
+
+/**
+ * Couples any two joints: coordinate2 changes by `ratio` times
+ * coordinate1's change, counted from the sketch (a revolute joint's
+ * coordinate is its relative angle in rad, a sliding joint's its slide), for
+ * belts and chains, coupled screws, linked cams. Returns the coupling's id,
+ * or KL_EID, KL_ESELFCOUPLING, KL_ENONFINITE, KL_EINVAL (ratio 0: that is
+ * no coupling but a locked joint), KL_ESTATE, KL_ENOMEM. The model is
+ * unchanged on failure.
+ */
+KL_API int kl_add_coupling(kl_model *m, int joint1, int joint2, double ratio);
+
+/**
+ * Makes the global x (axis 0) or y (axis 1) of `point` an input (inverse
+ * kinematics): two on one point drive it along a path. The input is
+ * numbered with the joint inputs (kl_add_input), in the order added; its
+ * value is in length units. Returns the input's index, or KL_EID (no such
+ * point), KL_EINVAL (axis not 0 or 1), KL_EKIND (a point on ground, which
+ * no input moves), KL_EDUPLICATE (this axis of this point is already an
+ * input), KL_ESTATE, KL_ENOMEM. The model is unchanged on failure.
+ */
+KL_API int kl_add_point_input(kl_model *m, int point, int axis);
+
+/** The number of couplings, or KL_EINVAL. */
+KL_API int kl_model_coupling_count(const kl_model *m);
+
+/** A coupling as recorded (kl_model_coupling). */
+typedef struct kl_coupling_info {
+  size_t size;    /**< sizeof(kl_coupling_info), set by the caller */
+  int kind;       /**< an enum kl_coupling_kind value */
+  int joint1;     /**< the first joint (a gear's, the pinion's, the driver's) */
+  int joint2;     /**< the second joint (a gear's, the rack's, the driven) */
+  double value1;  /**< radius1; the pinion's radius; the ratio */
+  double value2;  /**< radius2; 0; 0 */
+  int carrier;    /**< the common link of a gear pair or rack, -1 otherwise */
+  int internal;   /**< 1 for an internal gear mesh, else 0 */
+} kl_coupling_info;
+
+/**
+ * Fills `info` (its size set by the caller) with coupling `coupling`.
+ * Returns KL_OK, KL_EINVAL (NULL, size too small), KL_EID.
+ */
+KL_API int kl_model_coupling(const kl_model *m, int coupling,
+                             kl_coupling_info *info);
+
+/** The point a point input drives, or KL_EID; KL_EKIND for a joint input. */
+KL_API int kl_model_input_point(const kl_model *m, int input);
+
+/** The axis (0 x, 1 y) a point input drives, or KL_EID; KL_EKIND for a
+ * joint input. */
+KL_API int kl_model_input_axis(const kl_model *m, int input);
 
 #ifdef __cplusplus
 }

@@ -201,6 +201,13 @@ int kli_forces_determinate(kl_solver *s, const char *stage) {
                     "on the links' elasticity, not on equilibrium alone",
                     stage, m->topo.redundancy,
                     m->topo.redundancy == 1 ? "" : "s");
+  if (m->topo.nextra > 0)
+    return kli_fail(s->error, KL_EKIND,
+                    "%s: the model has %d coupling%s and %d point input%s; "
+                    "the force stage does not yet carry a tooth or coupling "
+                    "force, nor a point input's effort",
+                    stage, m->ncouplings, m->ncouplings == 1 ? "" : "s",
+                    m->npoint_inputs, m->npoint_inputs == 1 ? "" : "s");
   return KL_OK;
 }
 

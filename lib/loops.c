@@ -185,7 +185,10 @@ void kli_find_transmissions(const kl_model *m, kli_topology *t,
   for (i = 0; i < m->njoints; i++)
     mark[i] = KLI_PLAIN;
   for (i = 0; i < m->ninputs; i++) {
-    const kli_joint *j = &m->joints[m->inputs[i]];
+    const kli_joint *j;
+    if (m->inputs[i] < 0)
+      continue; /* a point input */
+    j = &m->joints[m->inputs[i]];
     mark[m->inputs[i]] = KLI_INPUT;
     if (j->kind == KL_JOINT_REVOLUTE && j->link[0] == KL_GROUND)
       crank[j->link[1]] = 1;

@@ -70,6 +70,7 @@ static void destroy(kl_model *m) {
   kli_free(&a, m->reg_joints, (size_t)m->cap_reg_joints * sizeof(int));
   kli_free(&a, m->reg_start, (size_t)m->cap_reg_start * sizeof(int));
   kli_free(&a, m->loads, (size_t)m->cap_loads * sizeof *m->loads);
+  kli_free_couplings(m);
   kli_lookup_free(&a, &m->link_names);
   kli_lookup_free(&a, &m->joint_names);
   kli_lookup_free(&a, &m->point_names);
@@ -977,7 +978,8 @@ kl_model *kli_model_copy(const kl_model *src) {
        copy_array(&m->alloc, (void **)&m->reg_start, &m->cap_reg_start,
                   src->reg_start, src->cap_reg_start, sizeof(int)) &&
        copy_array(&m->alloc, (void **)&m->loads, &m->cap_loads, src->loads,
-                  src->cap_loads, sizeof *m->loads);
+                  src->cap_loads, sizeof *m->loads) &&
+       kli_copy_couplings(m, src);
   if (ok) {
     m->nlinks = src->nlinks;
     m->njoints = src->njoints;
@@ -1124,7 +1126,7 @@ int kl_model_input_joint(const kl_model *m, int input) {
     return KL_EINVAL;
   if (input < 0 || input >= m->ninputs)
     return KL_EID;
-  return m->inputs[input];
+  return m->inputs[input] >= 0 ? m->inputs[input] : KL_EKIND;
 }
 
 int kl_model_is_finalized(const kl_model *m) {

@@ -44,7 +44,7 @@ static void finish(kl_reach_result *result, int status, int input,
 static int move(kl_solver *s, int i, double target, kl_sweep_result *sw) {
   const kl_model *m = s->model;
   double from = s->st.u[i], delta = fabs(target - from);
-  double step = m->joints[m->inputs[i]].kind == KL_JOINT_REVOLUTE
+  double step = kli_input_is_angle(m, i)
                     ? KLI_REACH_ANGLE_STEP
                     : KLI_REACH_SLIDE_STEP * m->topo.scale;
   int steps = delta / step > KLI_REACH_MAX_STEPS ? KLI_REACH_MAX_STEPS
@@ -57,7 +57,7 @@ static int move(kl_solver *s, int i, double target, kl_sweep_result *sw) {
     return kli_fail(s->error, st == KL_LIMIT ? KL_ENOASSEMBLY : KL_ESINGULAR,
                     "reach: input %d (%s) %s at %.12g on its way from %.12g "
                     "to %.12g",
-                    i, kli_joint_label(m, m->inputs[i], lj, sizeof lj),
+                    i, kli_input_label(m, i, lj, sizeof lj),
                     st == KL_LIMIT ? "stops at a motion limit"
                                    : "meets a singular position",
                     sw->limit_input, from, target);

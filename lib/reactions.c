@@ -75,8 +75,9 @@ int kli_build_reactions(kl_model *m, kli_topology *t) {
   f->nentries = 0;
   f->band_lower = f->band_upper = 0;
   memset(f->entry_start, 0, (size_t)(m->njoints + 1) * sizeof(int));
-  /* redundant constraints leave more reactions than equations */
-  if (t->redundancy > 0)
+  /* redundant constraints leave more reactions than equations; the rows
+   * of couplings and point inputs have no force unknowns here yet */
+  if (t->redundancy > 0 || t->nextra > 0)
     return KL_OK;
   for (j = 0; j < m->njoints; j++) {
     const kli_joint *jt = &m->joints[j];

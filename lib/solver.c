@@ -95,7 +95,9 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->f = kli_carve(c, (size_t)nr, sizeof(double));
   t->f_next = kli_carve(c, (size_t)nr, sizeof(double));
   t->grad = kli_carve(c, (size_t)n, sizeof(double));
-  t->pairs = kli_carve(c, 2 * (size_t)top->nnz_pairs, sizeof(double));
+  t->pairs = kli_carve(c, 2 * (size_t)top->nnz_pairs +
+                              (size_t)top->nextra_entries,
+                       sizeof(double));
   t->dir = kli_carve(c, 2 * (size_t)top->nloops, sizeof(double));
   t->kept_values = kli_carve(
       c, top->redundancy > 0 ? 2 * (size_t)top->nkept_pairs + (size_t)top->nkept_singles : 0,
@@ -376,8 +378,7 @@ int kli_check_input_values(kl_solver *s, const double *values,
     if (!isfinite(values[i]))
       return kli_fail(s->error, KL_ENONFINITE,
                       "%s: %s %d (%s) is NaN or infinite", stage, what, i,
-                      kli_joint_label(s->model, s->model->inputs[i], lj,
-                                      sizeof lj));
+                      kli_input_label(s->model, i, lj, sizeof lj));
   return KL_OK;
 }
 

@@ -40,6 +40,10 @@ const char *kl_status_str(int status) {
   case KL_ETRUNCATED: return "buffer too small: output cut short";
   case KL_ETOOLARGE: return "request exceeds a bound of the library";
   case KL_EINDETERMINATE: return "statically indeterminate: forces not determined";
+  case KL_ENOMESH: return "gear pair cannot mesh at its centre distance";
+  case KL_ENOCOMMON: return "coupled joints share no link";
+  case KL_ERADIUS: return "radius zero or negative";
+  case KL_ESELFCOUPLING: return "joint coupled with itself";
   default: return "unknown status";
   }
 }
