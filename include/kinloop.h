@@ -404,8 +404,9 @@ typedef struct kl_sweep_settings {
 
 /**
  * Records sweep settings in the model. Returns KL_OK, KL_EINVAL (NULL,
- * size too small, steps < 1), KL_EID (no such input), KL_ENONFINITE,
- * KL_ESTATE (finalized).
+ * size too small, steps < 1), KL_EID (no such input), KL_EKIND (a point
+ * input: the recorded sweep drives a joint), KL_ENONFINITE, KL_ESTATE
+ * (finalized).
  */
 KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);
 /** The recorded sweep settings; KL_OK, KL_EID if there are none, KL_EINVAL. */
@@ -1066,9 +1067,9 @@ KL_API int kl_model_load(const kl_model *m, int index, kl_load *load);
  * (rad or length per time unit, any sign; 0 gives the quasi-static
  * cycle), and the coefficient of speed fluctuation Cs the flywheel is
  * sized for (`speed_fluctuation` >= 0; 0 leaves the flywheel out). A later
- * call replaces it. Returns KL_OK, KL_EID (no such input), KL_ENONFINITE,
- * KL_EINVAL (a negative speed_fluctuation, or NULL), KL_ESTATE
- * (finalized). Never allocates.
+ * call replaces it. Returns KL_OK, KL_EID (no such input), KL_EKIND (a
+ * point input), KL_ENONFINITE, KL_EINVAL (a negative speed_fluctuation, or
+ * NULL), KL_ESTATE (finalized). Never allocates.
  */
 KL_API int kl_model_set_speed(kl_model *m, int input, double speed,
                               double speed_fluctuation);

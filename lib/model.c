@@ -704,6 +704,12 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
     return kli_fail(m->error, KL_EID,
                     "set sweep: input %d does not exist (%d inputs so far)",
                     sweep->input, m->ninputs);
+  if (m->inputs[sweep->input] < 0)
+    return kli_fail(m->error, KL_EKIND,
+                    "set sweep: input %d is a point input; the recorded "
+                    "sweep is a joint input's (sweep a point input with "
+                    "kl_solver_sweep)",
+                    sweep->input);
   if (!isfinite(sweep->from) || !isfinite(sweep->to))
     return kli_fail(m->error, KL_ENONFINITE,
                     "set sweep: the range is NaN or infinite");
@@ -900,6 +906,11 @@ int kl_model_set_speed(kl_model *m, int input, double speed,
     return kli_fail(m->error, KL_EID,
                     "set speed: input %d does not exist (%d inputs so far)",
                     input, m->ninputs);
+  if (m->inputs[input] < 0)
+    return kli_fail(m->error, KL_EKIND,
+                    "set speed: input %d is a point input; the working speed "
+                    "is a joint input's",
+                    input);
   if (!isfinite(speed) || !isfinite(speed_fluctuation))
     return kli_fail(m->error, KL_ENONFINITE,
                     "set speed: the speed (%g) or its fluctuation (%g) is NaN "

@@ -6,6 +6,7 @@
  */
 #include <check.h>
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 #include "suite.h"
@@ -623,6 +624,91 @@ START_TEST(forces_refuse_couplings_for_now) {
 }
 END_TEST
 
+
+/* ---- the model file: gears, rack, couple and drive statements ---- */
+
+static const char geared_text[] =
+    "kinloop-model 1\n"
+    "units length mm angle deg\n"
+    "link carrier\nlink planet\nlink ring\nlink pinion\nlink rack\n"
+    "link arm\n"
+    "revolute pivot ground 0 0 carrier 0 0\n"
+    "revolute planet_pin carrier 35 0 planet 0 0\n"
+    "revolute centre carrier 0 0 ring 0 0\n"
+    "revolute pinion_pivot ground 200 0 pinion 0 0\n"
+    "prismatic slide ground 200 -10 axis 0 rack 0 0\n"
+    "revolute arm_pivot ground 0 100 arm 0 0\n"
+    "point tip arm 50 0\n"
+    "input pivot\n"
+    "drive tip y\n"
+    "input pinion_pivot\n"
+    "gears pivot planet_pin 20 15\n"
+    "gears centre planet_pin 50 15\n"
+    "rack pinion_pivot slide -10\n"
+    "sketch angle arm 30\n";
+
+START_TEST(model_file_round_trip) {
+  kl_io_error err;
+  kl_model *m, *again;
+  char first[4096], second[4096];
+  size_t need;
+  kl_coupling_info info;
+  err.size = sizeof err;
+  m = kl_model_read(geared_text, sizeof geared_text - 1, &err);
+  ck_assert_msg(m != NULL, "line %d: %s", err.line, err.message);
+  ck_assert_int_eq(kl_model_coupling_count(m), 3);
+  ck_assert_int_eq(kl_model_input_point(m, 1), 0);
+  ck_assert_int_eq(kl_model_input_axis(m, 1), 1);
+  ck_assert_int_eq(kl_model_dof(m), 3);
+  info.size = sizeof info;
+  ck_assert_int_eq(kl_model_coupling(m, 2, &info), KL_OK);
+  ck_assert_int_eq(info.kind, KL_COUPLING_RACK);
+  ck_assert_double_eq(info.value1, -10.0);
+  ck_assert_int_eq(kl_model_write(m, first, sizeof first, &need), KL_OK);
+  ck_assert_ptr_nonnull(strstr(first, "drive tip y\n"));
+  ck_assert_ptr_nonnull(strstr(first, "gears centre planet_pin 50 15\n"));
+  again = kl_model_read(first, need, &err);
+  ck_assert_msg(again != NULL, "line %d: %s", err.line, err.message);
+  ck_assert_int_eq(kl_model_write(again, second, sizeof second, &need),
+                   KL_OK);
+  ck_assert_str_eq(first, second);
+  kl_model_free(again);
+  kl_model_free(m);
+}
+END_TEST
+
+START_TEST(model_file_bad_statements) {
+  static const char *bad[] = {
+      "drive tip z\n",          /* no such axis */
+      "gears pivot planet_pin 20 16\n", /* does not mesh */
+      "gears pivot pivot 20 15\n",      /* coupled with itself */
+      "rack pivot planet_pin 5\n",      /* planet_pin is no prismatic */
+      "couple pivot planet_pin\n",      /* no ratio */
+  };
+  static const int status[] = {KL_ESYNTAX, KL_ENOMESH, KL_ESELFCOUPLING,
+                               KL_EKIND, KL_ESYNTAX};
+  size_t k;
+  for (k = 0; k < sizeof bad / sizeof bad[0]; k++) {
+    char text[2048];
+    kl_io_error err;
+    kl_model *m;
+    err.size = sizeof err;
+    snprintf(text, sizeof text,
+             "kinloop-model 1\nlink carrier\nlink planet\nlink arm\n"
+             "revolute pivot ground 0 0 carrier 0 0\n"
+             "revolute planet_pin carrier 35 0 planet 0 0\n"
+             "revolute arm_pivot ground 0 100 arm 0 0\n"
+             "point tip arm 50 0\n%s",
+             bad[k]);
+    m = kl_model_read(text, strlen(text), &err);
+    ck_assert_ptr_null(m);
+    ck_assert_msg(err.status == status[k], "%s: %d (%s)", bad[k], err.status,
+                  err.message);
+    ck_assert_int_eq(err.line, 9);
+  }
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("couplings");
   TCase *tc = tcase_create("couplings");
@@ -640,6 +726,8 @@ int main(void) {
   tcase_add_test(tc, bad_couplings_are_refused);
   tcase_add_test(tc, couplings_enter_the_mobility_count);
   tcase_add_test(tc, forces_refuse_couplings_for_now);
+  tcase_add_test(tc, model_file_round_trip);
+  tcase_add_test(tc, model_file_bad_statements);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }
