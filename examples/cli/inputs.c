@@ -12,8 +12,9 @@
 #define DEFAULT_STEPS 72
 
 int cli_input_is_angle(const cli_model *cm, int input) {
-  return kl_model_joint_kind(cm->model, kl_model_input_joint(cm->model, input)) ==
-         KL_JOINT_REVOLUTE;
+  int joint = kl_model_input_joint(cm->model, input);
+  return joint >= 0 && kl_model_joint_kind(cm->model, joint) ==
+                           KL_JOINT_REVOLUTE;
 }
 
 double cli_input_factor(const cli_model *cm, int input) {
@@ -25,7 +26,7 @@ const char *cli_input_unit(const cli_model *cm, int input) {
 }
 
 const char *cli_input_name(const cli_model *cm, int input) {
-  return cm->joint_names[kl_model_input_joint(cm->model, input)];
+  return cm->input_names[input];
 }
 
 void cli_format_input(const cli_model *cm, int input, double value, char *buf,
