@@ -1911,6 +1911,19 @@ KL_API int kl_model_input_point(const kl_model *m, int input);
  * joint input. */
 KL_API int kl_model_input_axis(const kl_model *m, int input);
 
+/**
+ * The force coupling `coupling` carries, from the last kl_solve_forces():
+ * a gear pair's tooth force, which gear 2 receives at the pitch point along
+ * the common tangent (pressure angle 0), the direction 90 degrees
+ * counter-clockwise from the line of centres, gear 1 to gear 2 (gear 1
+ * receives its opposite); a rack's tooth force, which the rack receives
+ * along its slide axis at the pinion's pitch point; a ratio coupling's
+ * torque (revolute) or push (sliding) on joint 2's link b along its
+ * coordinate. The tooth forces enter the joint forces of the gears'
+ * bearings. NaN when the forces are not solved, or for an unknown id.
+ */
+KL_API double kl_coupling_force(const kl_solver *s, int coupling);
+
 #ifdef __cplusplus
 }
 #endif

@@ -128,6 +128,15 @@ typedef struct {
   int *input_col;    /* the effort unknown of each input */
   int nentries;
   int *entry_start;  /* njoints + 1: each joint's entries, in order */
+  /* The rows beyond loop closure: each coupling's force unknown (a gear's
+   * or rack's tooth force, a ratio coupling's generalised force) and each
+   * point input's effort (in input_col); their entries, after the joints',
+   * from extra_entry_start (nextra + 1), each with the geometry it takes
+   * (a joint's, or njoints + e for extra row e's) and a weight. */
+  int *coupling_col;
+  int *extra_entry_start;
+  int *geom;
+  double *weight;
   int *row, *col;    /* each entry's row and unknown */
   unsigned char *coef; /* its KLI_COEF_* */
   unsigned char *side; /* 0: on link a's rows, 1: on link b's */

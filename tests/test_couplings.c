@@ -609,16 +609,153 @@ START_TEST(couplings_enter_the_mobility_count) {
 }
 END_TEST
 
-/* The force stage refuses, with its own message, what it does not carry. */
-START_TEST(forces_refuse_couplings_for_now) {
-  geared_fivebar g = build_geared_fivebar();
-  kl_solver *s = kl_solver_new(g.m);
-  double u = GF_T1, w = 1.0, a = 0.0, effort;
+/* ---- the force stage: tooth forces, coupling forces, point efforts ---- */
+
+static void solve_motion(kl_solver *s, double u, double w, double a) {
   solve_at(s, &u);
   ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
   ck_assert_int_eq(kl_solve_acceleration(s, &a), KL_OK);
-  ck_assert_int_eq(kl_solve_forces(s, 0, NULL, &effort), KL_EKIND);
-  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "coupling"));
+}
+
+/* A massless train with a load torque T on the ring (sun held): by the
+ * power balance T_in w_c + T w_r = 0 with Willis' w_r = w_c (1 + r_s /
+ * r_r), the carrier's torque is -T (1 + r_s / r_r); the ring takes T from
+ * the tooth force at r_r, so |F| = |T| / r_r; the free planet takes equal
+ * tooth forces from sun and ring; and the frame takes the load torque
+ * (what the moving links exert on ground balances what acts on them). */
+START_TEST(planetary_tooth_forces_balance) {
+  planetary p = build_planetary(1);
+  kl_solver *s = kl_solver_new(p.m);
+  kl_load load;
+  double effort, ground[3];
+  memset(&load, 0, sizeof load);
+  load.kind = KL_LOAD_TORQUE;
+  load.id = p.moving;
+  load.torque = 30.0;
+  solve_motion(s, 0.4, 2.0, 0.0);
+  ck_assert_int_eq(kl_solve_forces(s, 1, &load, &effort), KL_OK);
+  ck_assert_double_eq_tol(effort, -30.0 * (1 + R_SUN / R_RING), 1e-9);
+  ck_assert_double_eq_tol(fabs(kl_coupling_force(s, 1)), 30.0 / R_RING, 1e-12);
+  ck_assert_double_eq_tol(fabs(kl_coupling_force(s, 0)),
+                          fabs(kl_coupling_force(s, 1)), 1e-12);
+  ck_assert_int_eq(kl_ground_force(s, ground), KL_OK);
+  ck_assert_double_eq_tol(ground[0], 0.0, 1e-9);
+  ck_assert_double_eq_tol(ground[1], 0.0, 1e-9);
+  ck_assert_double_eq_tol(ground[2], 30.0, 1e-8);
+  ck_assert(isnan(kl_coupling_force(s, 2)));
+  kl_solver_free(s);
+  kl_model_free(p.m);
+}
+END_TEST
+
+/* Rack and pinion, massless, a force F along x on the rack: by virtual
+ * work T dtheta + F ds = 0 with ds = r dtheta, the pinion's torque is
+ * -F r; the rack's teeth take -F (equilibrium of the rack along x); the
+ * pinion's teeth take +F, which its bearing holds: ground pushes the
+ * pinion with (-F, 0). */
+START_TEST(rack_tooth_force_by_virtual_work) {
+  kl_model *m = kl_model_new();
+  int pinion = kl_add_link(m, "pinion"), rack = kl_add_link(m, "rack");
+  int pivot = kl_add_revolute(m, KL_GROUND, 0, 0, pinion, 0, 0);
+  int slide = kl_add_prismatic(m, KL_GROUND, 0, -12.5, 0.0, rack, 0, 0);
+  int face = kl_add_point(m, rack, 30, 0, "face");
+  kl_solver *s;
+  kl_load load;
+  double effort, f[2];
+  kl_add_rack_pinion(m, pivot, slide, -12.5);
+  kl_add_input(m, pivot);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  s = kl_solver_new(m);
+  memset(&load, 0, sizeof load);
+  load.kind = KL_LOAD_FORCE;
+  load.id = face;
+  load.fx = 8.0;
+  solve_motion(s, 0.7, 1.0, 0.0);
+  ck_assert_int_eq(kl_solve_forces(s, 1, &load, &effort), KL_OK);
+  ck_assert_double_eq_tol(effort, -8.0 * -12.5, 1e-9);
+  ck_assert_double_eq_tol(kl_coupling_force(s, 0), -8.0, 1e-9);
+  ck_assert_int_eq(kl_joint_force(s, pivot, f), KL_OK);
+  ck_assert_double_eq_tol(f[0], -8.0, 1e-9);
+  ck_assert_double_eq_tol(f[1], 0.0, 1e-9);
+  kl_solver_free(s);
+  kl_model_free(m);
+}
+END_TEST
+
+/* The two-input five-bar driven by its tip, massless, a force (Fx, Fy) at
+ * the tip: the actuators along x and y at the tip hold it, efforts (-Fx,
+ * -Fy) (equilibrium of the tip, no source needed). */
+START_TEST(point_input_efforts_hold_the_tip) {
+  kl_model *m = kl_model_new();
+  int c1 = kl_add_link(m, "c1"), c2 = kl_add_link(m, "c2");
+  int l1 = kl_add_link(m, "l1"), l2 = kl_add_link(m, "l2"), tip;
+  double u[2] = {45.0, 95.0}, w[2] = {1.0, -2.0}, a[2] = {0.0, 0.0};
+  double efforts[2], ground[3];
+  kl_solver *s;
+  kl_load load;
+  kl_add_revolute(m, KL_GROUND, 0, 0, c1, 0, 0);
+  kl_add_revolute(m, KL_GROUND, PF_D, 0, c2, 0, 0);
+  kl_add_revolute(m, c1, PF_A1, 0, l1, 0, 0);
+  kl_add_revolute(m, c2, PF_A2, 0, l2, 0, 0);
+  kl_add_revolute(m, l1, PF_B1, 0, l2, PF_B2, 0);
+  tip = kl_add_point(m, l1, PF_B1, 0, "tip");
+  kl_add_point_input(m, tip, 0);
+  kl_add_point_input(m, tip, 1);
+  kl_model_set_sketch_angle(m, c1, 2.2);
+  kl_model_set_sketch_angle(m, c2, 0.9);
+  kl_model_set_sketch_angle(m, l1, 0.9);
+  kl_model_set_sketch_angle(m, l2, 2.2);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  s = kl_solver_new(m);
+  solve_at(s, u);
+  ck_assert_int_eq(kl_solve_velocity(s, w), KL_OK);
+  ck_assert_int_eq(kl_solve_acceleration(s, a), KL_OK);
+  memset(&load, 0, sizeof load);
+  load.kind = KL_LOAD_FORCE;
+  load.id = tip;
+  load.fx = 3.0;
+  load.fy = -5.0;
+  ck_assert_int_eq(kl_solve_forces(s, 1, &load, efforts), KL_OK);
+  ck_assert_double_eq_tol(efforts[0], -3.0, 1e-9);
+  ck_assert_double_eq_tol(efforts[1], 5.0, 1e-9);
+  /* the actuators take the load: the pivots carry nothing */
+  ck_assert_int_eq(kl_ground_force(s, ground), KL_OK);
+  ck_assert_double_eq_tol(ground[0], 3.0, 1e-9);
+  ck_assert_double_eq_tol(ground[1], -5.0, 1e-9);
+  kl_solver_free(s);
+  kl_model_free(m);
+}
+END_TEST
+
+/* The geared five-bar, massless, with a force F at the tip and a load
+ * torque Q on the geared right crank: by virtual work (the power balance)
+ * T w1 + Q w2 + F . v_tip = 0 with w2 / w1 = -r1 / r2 from the mesh, the
+ * motor's torque is T = Q r1 / r2 - F . dtip/dt1, the tip's slope from
+ * kinloop's coefficients. */
+START_TEST(geared_fivebar_effort_by_virtual_work) {
+  geared_fivebar g = build_geared_fivebar();
+  kl_solver *s = kl_solver_new(g.m);
+  kl_load loads[2];
+  int k;
+  memset(loads, 0, sizeof loads);
+  loads[0].kind = KL_LOAD_FORCE;
+  loads[0].id = g.tip;
+  loads[0].fx = 2.0;
+  loads[0].fy = 7.0;
+  loads[1].kind = KL_LOAD_TORQUE;
+  loads[1].id = g.crank2;
+  loads[1].torque = -40.0;
+  for (k = 0; k < 8; k++) {
+    double u = GF_T1 + 0.7 * k, effort, dtip[2];
+    solve_motion(s, u, 1.0, 0.0);
+    ck_assert_int_eq(kl_solve_coefficients(s), KL_OK);
+    ck_assert_int_eq(kl_point_deriv(s, g.tip, 0, dtip), KL_OK);
+    ck_assert_int_eq(kl_solve_forces(s, 2, loads, &effort), KL_OK);
+    ck_assert_double_eq_tol(effort,
+                            -40.0 * GF_R1 / GF_R2 -
+                                (2.0 * dtip[0] + 7.0 * dtip[1]),
+                            1e-8);
+  }
   kl_solver_free(s);
   kl_model_free(g.m);
 }
@@ -725,7 +862,10 @@ int main(void) {
   tcase_add_test(tc, point_input_limit_is_the_workspace_boundary);
   tcase_add_test(tc, bad_couplings_are_refused);
   tcase_add_test(tc, couplings_enter_the_mobility_count);
-  tcase_add_test(tc, forces_refuse_couplings_for_now);
+  tcase_add_test(tc, planetary_tooth_forces_balance);
+  tcase_add_test(tc, rack_tooth_force_by_virtual_work);
+  tcase_add_test(tc, point_input_efforts_hold_the_tip);
+  tcase_add_test(tc, geared_fivebar_effort_by_virtual_work);
   tcase_add_test(tc, model_file_round_trip);
   tcase_add_test(tc, model_file_bad_statements);
   suite_add_tcase(suite, tc);
