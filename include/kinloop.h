@@ -1474,7 +1474,11 @@ KL_API int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
 enum kl_dimension_kind {
   KL_DIMENSION_JOINT_A = 0, /**< joint `id`'s attachment point on its link a */
   KL_DIMENSION_JOINT_B = 1, /**< joint `id`'s attachment point on its link b */
-  KL_DIMENSION_POINT = 2    /**< point `id`'s local coordinates */
+  KL_DIMENSION_POINT = 2,   /**< point `id`'s local coordinates */
+  KL_DIMENSION_RADIUS = 3   /**< coupling `id`'s pitch radius: axis 0 the
+                                 first (a gear pair's radius1, a rack's
+                                 radius), axis 1 a gear pair's radius2; the
+                                 centres held, the count from the sketch */
 };
 
 /** A dimension: one local coordinate (axis 0 = x, 1 = y) of a point. */

@@ -189,17 +189,55 @@ void kli_chain_dimension(const kl_model *m, const kli_chain *ch,
   }
 }
 
+/* A joint's coordinate in coordinates x: angle(b) - angle(a), or its
+ * slide. */
+static double joint_coordinate(const kl_model *m, const double *x,
+                               int joint) {
+  const kli_joint *j = &m->joints[joint];
+  return j->kind == KL_JOINT_REVOLUTE ? x[j->link[1]] - x[j->link[0]]
+                                      : x[m->nlinks + joint];
+}
+
+/* The same at the model's sketch (0 where it gives none). */
+static double sketch_coordinate(const kl_model *m, int joint) {
+  const kli_joint *j = &m->joints[joint];
+  if (j->kind != KL_JOINT_REVOLUTE)
+    return j->has_sketch ? j->sketch : 0.0;
+  return (m->links[j->link[1]].has_sketch ? m->links[j->link[1]].sketch
+                                          : 0.0) -
+         (m->links[j->link[0]].has_sketch ? m->links[j->link[0]].sketch
+                                          : 0.0);
+}
+
+/* d F / d radius of a gear pair's or rack's row: its joint's turn against
+ * the carrier since the sketch, with the row's sign for that radius. */
+static double radius_term(const kl_model *m, const kli_pose *p, int coupling,
+                          int which) {
+  const kli_coupling *c = &m->couplings[coupling];
+  int joint = c->joint[c->kind == KL_COUPLING_GEAR ? which : 0];
+  double turn = joint_coordinate(m, p->x, joint) - sketch_coordinate(m, joint);
+  double against = m->joints[joint].link[0] == c->carrier ? 1.0 : -1.0;
+  if (c->kind == KL_COUPLING_RACK)
+    return -against * turn;
+  return (which == 1 && c->internal ? -1.0 : 1.0) * against * turn;
+}
+
 void kli_loops_dimension(const kl_model *m, const kli_pose *p, int joint,
-                         int link, int axis, double *out) {
+                         int link, int axis, int point, int coupling,
+                         double *out) {
   int i, rows = 2 * m->topo.nloops;
   for (i = 0; i < m->topo.nloops; i++)
     kli_chain_dimension(m, &m->topo.loops[i], p, joint, link, axis,
                         out + 2 * i);
-  /* a point row moves with the attachments on its point's path */
   for (i = 0; i < m->topo.nextra; i++) {
     const kli_extra *e = &m->topo.extra[i];
     double d[2] = {0.0, 0.0};
-    if (e->chain.count > 0 && joint >= 0)
+    if (i < m->ncouplings) {
+      out[rows + i] = i == coupling ? radius_term(m, p, i, axis) : 0.0;
+      continue;
+    }
+    if (joint >= 0 ||
+        (coupling < 0 && m->point_inputs[i - m->ncouplings].point == point))
       kli_chain_dimension(m, &e->chain, p, joint, link, axis, d);
     out[rows + i] = d[e->axis];
   }

@@ -846,6 +846,102 @@ START_TEST(model_file_bad_statements) {
 }
 END_TEST
 
+/* ---- sensitivities: to gear radii, to a driven point's place ---- */
+
+/* From the mesh t2 = t2_0 - (r1 / r2)(t1 - t1_0) with the centres held
+ * (derived from the rolling condition): dt2/dr1 = -(t1 - t1_0) / r2 and
+ * dt2/dr2 = r1 (t1 - t1_0) / r2^2. The arms move only through the right
+ * crank, so their sensitivities to r2 and r1 stand in the crank's ratio,
+ * -r1 / r2. */
+START_TEST(sensitivity_to_gear_radii) {
+  geared_fivebar g = build_geared_fivebar();
+  kl_solver *s = kl_solver_new(g.m);
+  kl_output o;
+  kl_dimension dim;
+  double u = GF_T1 + 0.8, deriv;
+  memset(&o, 0, sizeof o);
+  o.kind = KL_OUTPUT_LINK_ANGLE;
+  o.id = g.crank2;
+  dim.kind = KL_DIMENSION_RADIUS;
+  dim.id = 0;
+  dim.axis = 0;
+  solve_at(s, &u);
+  ck_assert_int_eq(kl_output_sensitivity(s, &o, &dim, &deriv), KL_OK);
+  ck_assert_double_eq_tol(deriv, -0.8 / GF_R2, 1e-12);
+  dim.axis = 1;
+  ck_assert_int_eq(kl_output_sensitivity(s, &o, &dim, &deriv), KL_OK);
+  ck_assert_double_eq_tol(deriv, GF_R1 * 0.8 / (GF_R2 * GF_R2), 1e-12);
+  {
+    double d_arm, d_arm2;
+    o.id = g.link1;
+    dim.axis = 0;
+    kl_output_sensitivity(s, &o, &dim, &d_arm);
+    dim.axis = 1;
+    kl_output_sensitivity(s, &o, &dim, &d_arm2);
+    ck_assert_double_eq_tol(d_arm2 / d_arm, -GF_R1 / GF_R2, 1e-10);
+  }
+  dim.kind = KL_DIMENSION_RADIUS;
+  dim.id = 3;
+  ck_assert_int_eq(kl_output_sensitivity(s, &o, &dim, &deriv), KL_EID);
+  kl_solver_free(s);
+  kl_model_free(g.m);
+}
+END_TEST
+
+/* The crank of the coupler-x-driven four-bar against the coupler point's
+ * local x: a central difference over two models with that coordinate
+ * moved (step 1e-5), solved at the same input. */
+START_TEST(sensitivity_to_a_driven_points_place) {
+  const double h = 1e-5;
+  double t3, t4, x, deriv, lo, hi;
+  fourbar probe, f = build_point_driven_fourbar(1.0, +1);
+  kl_solver *s = kl_solver_new(f.m);
+  kl_output o;
+  kl_dimension dim;
+  int k;
+  probe.a = 40;
+  probe.b = 120;
+  probe.c = 80;
+  probe.d = 100;
+  x = coupler_x(&probe, 1.0, +1, &t3, &t4);
+  solve_at(s, &x);
+  memset(&o, 0, sizeof o);
+  o.kind = KL_OUTPUT_LINK_ANGLE;
+  o.id = f.crank;
+  dim.kind = KL_DIMENSION_POINT;
+  dim.id = f.coupler_point;
+  dim.axis = 0;
+  ck_assert_int_eq(kl_output_sensitivity(s, &o, &dim, &deriv), KL_OK);
+  for (k = 0; k < 2; k++) {
+    kl_model *m = kl_model_new();
+    kl_solver *t;
+    int crank = kl_add_link(m, "crank"), coupler = kl_add_link(m, "coupler");
+    int rocker = kl_add_link(m, "rocker"), point;
+    kl_add_revolute(m, KL_GROUND, 0, 0, crank, 0, 0);
+    kl_add_revolute(m, crank, 40, 0, coupler, 0, 0);
+    kl_add_revolute(m, coupler, 120, 0, rocker, 80, 0);
+    kl_add_revolute(m, rocker, 0, 0, KL_GROUND, 100, 0);
+    point = kl_add_point(m, coupler, 60 + (k ? h : -h), 30, "coupler");
+    kl_add_point_input(m, point, 0);
+    kl_model_finalize(m);
+    t = kl_solver_new(m);
+    kl_set_link_angle(t, crank, kl_link_angle(s, f.crank));
+    kl_set_link_angle(t, coupler, kl_link_angle(s, f.coupler));
+    kl_set_link_angle(t, rocker, kl_link_angle(s, f.rocker));
+    solve_at(t, &x);
+    if (k)
+      hi = kl_link_angle(t, crank);
+    else
+      lo = kl_link_angle(t, crank);
+    kl_solver_free(t);
+    kl_model_free(m);
+  }
+  ck_assert(rel_diff(deriv, (hi - lo) / (2 * h), 1e-3) < 1e-6);
+  kl_solver_free(s);
+  kl_model_free(f.m);
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("couplings");
   TCase *tc = tcase_create("couplings");
@@ -867,6 +963,8 @@ int main(void) {
   tcase_add_test(tc, point_input_efforts_hold_the_tip);
   tcase_add_test(tc, geared_fivebar_effort_by_virtual_work);
   tcase_add_test(tc, model_file_round_trip);
+  tcase_add_test(tc, sensitivity_to_gear_radii);
+  tcase_add_test(tc, sensitivity_to_a_driven_points_place);
   tcase_add_test(tc, model_file_bad_statements);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
