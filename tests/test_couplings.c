@@ -942,6 +942,48 @@ START_TEST(sensitivity_to_a_driven_points_place) {
 }
 END_TEST
 
+/* A coupling beside declared redundant constraints: a parallelogram with
+ * a third, redundant crank (its coupler stays level, common practice, no
+ * source) whose motor also turns a wheel at twice its angle through a
+ * ratio coupling; the extra row follows the kept loop rows. */
+START_TEST(coupling_beside_redundant_constraints) {
+  kl_model *m = kl_model_new();
+  int c1 = kl_add_link(m, "c1"), c2 = kl_add_link(m, "c2");
+  int c3 = kl_add_link(m, "c3"), bar = kl_add_link(m, "bar");
+  int wheel = kl_add_link(m, "wheel"), motor, wheel_pivot;
+  kl_solver *s;
+  double u, w = 1.5;
+  motor = kl_add_revolute(m, KL_GROUND, 0, 0, c1, 0, 0);
+  kl_add_revolute(m, KL_GROUND, 100, 0, c2, 0, 0);
+  kl_add_revolute(m, KL_GROUND, 50, 0, c3, 0, 0);
+  kl_add_revolute(m, c1, 40, 0, bar, 0, 0);
+  kl_add_revolute(m, c2, 40, 0, bar, 100, 0);
+  kl_add_revolute(m, c3, 40, 0, bar, 50, 0);
+  wheel_pivot = kl_add_revolute(m, KL_GROUND, 200, 0, wheel, 0, 0);
+  ck_assert_int_eq(kl_add_coupling(m, motor, wheel_pivot, 2.0), 0);
+  kl_add_input(m, motor);
+  kl_model_set_redundancy(m, 1);
+  kl_model_set_sketch_angle(m, c1, 1.0);
+  kl_model_set_sketch_angle(m, c2, 1.0);
+  kl_model_set_sketch_angle(m, c3, 1.0);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  ck_assert_int_eq(kl_model_dof(m), 1);
+  s = kl_solver_new(m);
+  /* within (0, pi): a parallelogram meets its change points at 0 and pi */
+  for (u = 0.3; u < 2.9; u += 0.25) {
+    solve_at(s, &u);
+    ck_assert_double_eq_tol(kl_link_angle(s, wheel), 2.0 * (u - 1.0), 1e-12);
+    ck_assert_double_eq_tol(angle_diff(kl_link_angle(s, bar), 0.0), 0.0,
+                            1e-10);
+    ck_assert_double_eq_tol(kl_link_angle(s, c3), u, 1e-10);
+    ck_assert_int_eq(kl_solve_velocity(s, &w), KL_OK);
+    ck_assert_double_eq_tol(kl_link_rate(s, wheel), 2.0 * w, 1e-12);
+  }
+  kl_solver_free(s);
+  kl_model_free(m);
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("couplings");
   TCase *tc = tcase_create("couplings");
@@ -963,6 +1005,7 @@ int main(void) {
   tcase_add_test(tc, point_input_efforts_hold_the_tip);
   tcase_add_test(tc, geared_fivebar_effort_by_virtual_work);
   tcase_add_test(tc, model_file_round_trip);
+  tcase_add_test(tc, coupling_beside_redundant_constraints);
   tcase_add_test(tc, sensitivity_to_gear_radii);
   tcase_add_test(tc, sensitivity_to_a_driven_points_place);
   tcase_add_test(tc, model_file_bad_statements);
