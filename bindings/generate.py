@@ -231,6 +231,7 @@ POINTERS = {
     "kl_add_load": {"load": "one"},
     "kl_model_load": {"load": "out"},
     "kl_model_speed": {"input": "out", "speed": "out", "speed_fluctuation": "out"},
+    "kl_solver_follow_path": {"path_x": "npoints", "path_y": "npoints"},
 }
 
 

@@ -1928,6 +1928,41 @@ KL_API int kl_model_input_axis(const kl_model *m, int input);
  */
 KL_API double kl_coupling_force(const kl_solver *s, int coupling);
 
+/** Outcome of kl_solver_follow_path. Set `size` first. */
+typedef struct kl_path_result {
+  size_t size;       /**< sizeof(kl_path_result), set by the caller */
+  int status;        /**< what kl_solver_follow_path returned */
+  double arc_done;   /**< the arc length the solver's position is at */
+  double limit_arc;  /**< with KL_LIMIT or KL_ESINGULAR: the arc length of
+                          the last position reached before it (as
+                          arc_done); NaN otherwise */
+} kl_path_result;
+
+/**
+ * A path follower: moves the point of point inputs `input_x` (its x) and
+ * `input_y` (its y) along the polyline through (path_x[k], path_y[k]),
+ * k < npoints (>= 2), from arc length `from_arc`, where the solver's
+ * position has it, to `to_arc` (both clamped to the path), by continuation
+ * (steps of at most 2% of the model's scale, halved where one fails; the
+ * other inputs held), then solves the velocity there with the point moving
+ * at `speed` (length per time unit) along the path toward to_arc (along the
+ * segment's direction; at a vertex, the next segment's) and the
+ * acceleration with zero input accelerations (a polyline's corners are
+ * jumps of velocity). Call it sample by sample: the rates, accelerations
+ * and motor angles of each sample are then the solver's. Returns KL_OK,
+ * KL_LIMIT (the path leaves the workspace: limit_arc says where, the
+ * solver there), KL_ESINGULAR (a singular position on the path, likewise),
+ * KL_EID, KL_EKIND (an input not a point's), KL_EINVAL (not the x and y of
+ * one point, npoints < 2, NULL arrays, a short result), KL_ENONFINITE,
+ * KL_EZEROLENGTH (the points all coincide), KL_ESTAGE (no solved position
+ * to start from); writes `result` (may be NULL). Never allocates.
+ */
+KL_API int kl_solver_follow_path(kl_solver *s, int input_x, int input_y,
+                                 int npoints, const double *path_x,
+                                 const double *path_y, double from_arc,
+                                 double to_arc, double speed,
+                                 kl_path_result *result);
+
 #ifdef __cplusplus
 }
 #endif

@@ -984,6 +984,101 @@ START_TEST(coupling_beside_redundant_constraints) {
 }
 END_TEST
 
+/* ---- the path follower ---- */
+
+static kl_model *tip_driven_fivebar(int *c1, int *c2, int *tip) {
+  kl_model *m = kl_model_new();
+  int l1, l2;
+  *c1 = kl_add_link(m, "c1");
+  *c2 = kl_add_link(m, "c2");
+  l1 = kl_add_link(m, "l1");
+  l2 = kl_add_link(m, "l2");
+  kl_add_revolute(m, KL_GROUND, 0, 0, *c1, 0, 0);
+  kl_add_revolute(m, KL_GROUND, PF_D, 0, *c2, 0, 0);
+  kl_add_revolute(m, *c1, PF_A1, 0, l1, 0, 0);
+  kl_add_revolute(m, *c2, PF_A2, 0, l2, 0, 0);
+  kl_add_revolute(m, l1, PF_B1, 0, l2, PF_B2, 0);
+  *tip = kl_add_point(m, l1, PF_B1, 0, "tip");
+  kl_add_point_input(m, *tip, 0);
+  kl_add_point_input(m, *tip, 1);
+  kl_model_set_sketch_angle(m, *c1, 2.2);
+  kl_model_set_sketch_angle(m, *c2, 0.9);
+  kl_model_set_sketch_angle(m, l1, 0.9);
+  kl_model_set_sketch_angle(m, l2, 2.2);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  return m;
+}
+
+/* Around a square of side 20 at 30 mm/s: at every sample the cranks are
+ * the two circle intersections' (closed form) and the tip moves at the
+ * speed along the side it is on. */
+START_TEST(path_follower_traces_a_square) {
+  static const double px[5] = {35, 55, 55, 35, 35}, py[5] = {85, 85, 105,
+                                                             105, 85};
+  const double o1[2] = {0, 0}, o2[2] = {PF_D, 0};
+  int c1, c2, tip, k, n = 80;
+  kl_model *m = tip_driven_fivebar(&c1, &c2, &tip);
+  kl_solver *s = kl_solver_new(m);
+  kl_path_result r;
+  double start[2] = {35, 85}, previous = 0.0;
+  solve_at(s, start);
+  r.size = sizeof r;
+  for (k = 0; k <= n; k++) {
+    double arc = 80.0 * k / n, t[2], a[2], b[2], v[2];
+    int side = k == n ? 3 : (int)(arc / 20.0);
+    ck_assert_int_eq(kl_solver_follow_path(s, 0, 1, 5, px, py, previous, arc,
+                                           30.0, &r),
+                     KL_OK);
+    ck_assert_double_eq_tol(r.arc_done, arc, 1e-12);
+    previous = arc;
+    t[0] = kl_input_value(s, 0);
+    t[1] = kl_input_value(s, 1);
+    circle_meet(o1, PF_A1, t, PF_B1, +1, a);
+    circle_meet(o2, PF_A2, t, PF_B2, -1, b);
+    ck_assert_double_eq_tol(kl_link_angle(s, c1), atan2(a[1], a[0]), 1e-10);
+    ck_assert_double_eq_tol(kl_link_angle(s, c2), atan2(b[1], b[0] - PF_D),
+                            1e-10);
+    ck_assert_int_eq(kl_point_velocity(s, tip, v), KL_OK);
+    ck_assert_double_eq_tol(v[0], 30.0 * (px[side + 1] - px[side]) / 20.0,
+                            1e-9);
+    ck_assert_double_eq_tol(v[1], 30.0 * (py[side + 1] - py[side]) / 20.0,
+                            1e-9);
+  }
+  kl_solver_free(s);
+  kl_model_free(m);
+}
+END_TEST
+
+/* Straight up from (20, 95): the right chain (O2 = (60, 0), reach a2 +
+ * b2 = 130) stretches out at y = sqrt(130^2 - 40^2), before the left one
+ * (sqrt(130^2 - 20^2)): the workspace's edge, where the follower stops. */
+START_TEST(path_follower_stops_at_the_workspace_edge) {
+  static const double px[2] = {20, 20}, py[2] = {95, 160};
+  int c1, c2, tip;
+  kl_model *m = tip_driven_fivebar(&c1, &c2, &tip);
+  kl_solver *s = kl_solver_new(m);
+  kl_path_result r;
+  double start[2] = {20, 95};
+  solve_at(s, start);
+  r.size = sizeof r;
+  ck_assert_int_eq(kl_solver_follow_path(s, 0, 1, 2, px, py, 0.0, 65.0, 1.0,
+                                         &r),
+                   KL_LIMIT);
+  ck_assert_double_eq_tol(r.limit_arc, sqrt(130.0 * 130.0 - 40.0 * 40.0) - 95,
+                          1e-5);
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "leaves the workspace"));
+  /* bad calls: a joint input, the axes swapped, one point */
+  ck_assert_int_eq(kl_solver_follow_path(s, 1, 0, 2, px, py, 0, 1, 1, &r),
+                   KL_EINVAL);
+  ck_assert_int_eq(kl_solver_follow_path(s, 0, 1, 1, px, py, 0, 1, 1, &r),
+                   KL_EINVAL);
+  ck_assert_int_eq(kl_solver_follow_path(s, 0, 5, 2, px, py, 0, 1, 1, &r),
+                   KL_EID);
+  kl_solver_free(s);
+  kl_model_free(m);
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("couplings");
   TCase *tc = tcase_create("couplings");
@@ -1005,6 +1100,8 @@ int main(void) {
   tcase_add_test(tc, point_input_efforts_hold_the_tip);
   tcase_add_test(tc, geared_fivebar_effort_by_virtual_work);
   tcase_add_test(tc, model_file_round_trip);
+  tcase_add_test(tc, path_follower_traces_a_square);
+  tcase_add_test(tc, path_follower_stops_at_the_workspace_edge);
   tcase_add_test(tc, coupling_beside_redundant_constraints);
   tcase_add_test(tc, sensitivity_to_gear_radii);
   tcase_add_test(tc, sensitivity_to_a_driven_points_place);
