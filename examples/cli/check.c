@@ -300,7 +300,8 @@ int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o) {
   if (found == 0) {
     fprintf(f, "\nno range to check: %s\n",
             cm->ninputs == 0 ? "the model has no inputs"
-                             : "input 0 slides and the model has no sweep "
+                             : "input 0 is a length (a slide or a point "
+                               "coordinate) and the model has no sweep "
                                "line; give --from and --to");
   } else {
     char a[320], why[2048];

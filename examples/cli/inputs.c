@@ -182,7 +182,8 @@ int cli_resolve_range(const cli_model *cm, const cli_options *o,
     r->to = r->from + 2.0 * CLI_PI;
   } else {
     if (asked) {
-      cli_error("input %d (%s) slides and the model has no sweep line for it: "
+      cli_error("input %d (%s) is a length (a slide or a point coordinate) "
+                "and the model has no sweep line for it: "
                 "give --to",
                 r->input, cli_input_name(cm, r->input));
       return -1;
