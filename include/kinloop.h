@@ -507,8 +507,9 @@ KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /**
  * The model's start position into `inputs` (one per input): the start of
- * its sweep settings for the input they sweep, 0 for the others (all 0
- * without sweep settings). kl_solver_reach starts there. Returns KL_OK, or
+ * its sweep settings for the input they sweep, for a point input (after
+ * finalize) its point's coordinate where the model's sketch puts it, 0 for
+ * the others (all 0 without sweep settings). kl_solver_reach starts there. Returns KL_OK, or
  * KL_EINVAL (NULL model, or NULL inputs for a model with inputs). Works
  * before and after finalize; never allocates.
  */

@@ -1079,6 +1079,19 @@ START_TEST(path_follower_stops_at_the_workspace_edge) {
 }
 END_TEST
 
+/* A point input starts where the sketch puts its point: the chain of the
+ * sketch angles (crank 40 at 2.2 rad, arm 90 at 0.9 rad). */
+START_TEST(point_inputs_start_at_the_sketch) {
+  int c1, c2, tip;
+  kl_model *m = tip_driven_fivebar(&c1, &c2, &tip);
+  double u[2];
+  ck_assert_int_eq(kl_model_start_inputs(m, u), KL_OK);
+  ck_assert_double_eq_tol(u[0], 40 * cos(2.2) + 90 * cos(0.9), 1e-12);
+  ck_assert_double_eq_tol(u[1], 40 * sin(2.2) + 90 * sin(0.9), 1e-12);
+  kl_model_free(m);
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("couplings");
   TCase *tc = tcase_create("couplings");
@@ -1101,6 +1114,7 @@ int main(void) {
   tcase_add_test(tc, geared_fivebar_effort_by_virtual_work);
   tcase_add_test(tc, model_file_round_trip);
   tcase_add_test(tc, path_follower_traces_a_square);
+  tcase_add_test(tc, point_inputs_start_at_the_sketch);
   tcase_add_test(tc, path_follower_stops_at_the_workspace_edge);
   tcase_add_test(tc, coupling_beside_redundant_constraints);
   tcase_add_test(tc, sensitivity_to_gear_radii);
