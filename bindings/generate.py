@@ -241,6 +241,7 @@ POINTERS = {
     # "N pairs": 2 numbers (x, y) per element that N counts
     "kl_add_curve_slot": {"xy": "npoints pairs"},
     "kl_cam_set_program": {"segments": "nsegments"},
+    "kl_solver_follow_path": {"path_x": "npoints", "path_y": "npoints"},
 }
 
 

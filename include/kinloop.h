@@ -135,13 +135,19 @@ enum kl_status {
   /* curved slots and cams */
   KL_EFEWPOINTS = -25,     /**< a curve has too few points */
   KL_EREPEATED = -26,      /**< a curve repeats a point (a zero-length piece) */
-  KL_ERADIUS = -27,        /**< a radius is zero or negative */
+  KL_ERADIUS = -27,        /**< a radius is zero or negative (a slot's, a cam's,
+                                a gear's pitch radius), or a rack's is zero */
   KL_EUNDERCUT = -28,      /**< cam: the roller is larger than the pitch curve's
                                 smallest convex radius of curvature */
   KL_EPRESSURE = -29,      /**< cam: the pressure angle exceeds the bound set */
   /* motion profiles */
-  KL_EJOIN = -30           /**< a motion profile's segment does not start
+  KL_EJOIN = -30,          /**< a motion profile's segment does not start
                                 where the one before it ended */
+  /* couplings (kl_add_gear_pair, kl_add_rack_pinion, kl_add_coupling) */
+  KL_ENOMESH = -31,        /**< gear pair: the centre distance fits neither
+                                radius1 + radius2 nor |radius1 - radius2| */
+  KL_ENOCOMMON = -32,      /**< gear pair or rack: the two joints share no link */
+  KL_ESELFCOUPLING = -33   /**< a joint coupled with itself */
 };
 
 /**
@@ -428,8 +434,9 @@ typedef struct kl_sweep_settings {
 /**
  * Records sweep settings in the model. Returns KL_OK, KL_EINVAL (NULL,
  * size too small, steps < 1), KL_ETOOLARGE (steps > KL_MAX_STEPS), KL_EID
- * (no such input), KL_ENONFINITE (an end NaN or infinite, or to - from
- * beyond a double), KL_ESTATE (finalized).
+ * (no such input), KL_EKIND (a point input: the recorded sweep drives a
+ * joint), KL_ENONFINITE (an end NaN or infinite, or to - from beyond a
+ * double), KL_ESTATE (finalized).
  */
 KL_API int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep);
 /** The recorded sweep settings; KL_OK, KL_EID if there are none, KL_EINVAL. */
@@ -536,7 +543,8 @@ KL_API int kl_model_joint_links(const kl_model *m, int joint, int links[2],
 /** The slide axis angle of a prismatic or (straight) slot joint in a's frame;
  * NaN otherwise. */
 KL_API double kl_model_joint_axis(const kl_model *m, int joint);
-/** The joint an input drives, or KL_EID. */
+/** The joint an input drives, or KL_EID; KL_EKIND for a point input
+ * (kl_add_point_input). */
 KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /* ------------------------------------------------------------------------
@@ -545,8 +553,10 @@ KL_API int kl_model_input_joint(const kl_model *m, int input);
 
 /**
  * The model's start position into `inputs` (one per input): the start of
- * its sweep settings for the input they sweep, for the others the value
- * kl_model_set_input_hold recorded, else 0. kl_solver_reach starts there. Returns KL_OK, or
+ * its sweep settings for the input they sweep, for a point input (after
+ * finalize) its point's coordinate where the model's sketch puts it, for
+ * the others the value kl_model_set_input_hold recorded, else 0.
+ * kl_solver_reach starts there. Returns KL_OK, or
  * KL_EINVAL (NULL model, or NULL inputs for a model with inputs). Works
  * before and after finalize; never allocates.
  */
@@ -1150,9 +1160,9 @@ KL_API int kl_model_load(const kl_model *m, int index, kl_load *load);
  * (rad or length per time unit, any sign; 0 gives the quasi-static
  * cycle), and the coefficient of speed fluctuation Cs the flywheel is
  * sized for (`speed_fluctuation` >= 0; 0 leaves the flywheel out). A later
- * call replaces it. Returns KL_OK, KL_EID (no such input), KL_ENONFINITE,
- * KL_EINVAL (a negative speed_fluctuation, or NULL), KL_ESTATE
- * (finalized). Never allocates.
+ * call replaces it. Returns KL_OK, KL_EID (no such input), KL_EKIND (a
+ * point input), KL_ENONFINITE, KL_EINVAL (a negative speed_fluctuation, or
+ * NULL), KL_ESTATE (finalized). Never allocates.
  */
 KL_API int kl_model_set_speed(kl_model *m, int input, double speed,
                               double speed_fluctuation);
@@ -1745,7 +1755,11 @@ KL_API int kl_input_effort(kl_solver *s, int nloads, const kl_load *loads,
 enum kl_dimension_kind {
   KL_DIMENSION_JOINT_A = 0, /**< joint `id`'s attachment point on its link a */
   KL_DIMENSION_JOINT_B = 1, /**< joint `id`'s attachment point on its link b */
-  KL_DIMENSION_POINT = 2    /**< point `id`'s local coordinates */
+  KL_DIMENSION_POINT = 2,   /**< point `id`'s local coordinates */
+  KL_DIMENSION_RADIUS = 3   /**< coupling `id`'s pitch radius: axis 0 the
+                                 first (a gear pair's radius1, a rack's
+                                 radius), axis 1 a gear pair's radius2; the
+                                 centres held, the count from the sketch */
 };
 
 /** A dimension: one local coordinate (axis 0 = x, 1 = y) of a point. */
@@ -2457,6 +2471,152 @@ typedef struct kl_cam_report {
  */
 KL_API int kl_cam_check(kl_cam *c, int nsamples, double max_pressure,
                         kl_cam_report *report);
+ * Couplings and point inputs: rows beyond loop closure
+ *
+ * Each coupling and each point input adds one scalar equation and no
+ * unknown. A coupling is linear in two joint coordinates, counted from the
+ * model's sketch (a link without a sketch angle counts from 0, a joint
+ * without a sketch slide from 0); a point input sets one global coordinate
+ * of a point. The mobility count takes a coupling as a higher pair (one
+ * constraint) and a point input as an input like a joint's.
+ * ------------------------------------------------------------------------ */
+
+/** What a coupling relates (kl_model_coupling). */
+enum kl_coupling_kind {
+  KL_COUPLING_GEAR = 0,  /**< a gear pair (kl_add_gear_pair) */
+  KL_COUPLING_RACK = 1,  /**< a rack and pinion (kl_add_rack_pinion) */
+  KL_COUPLING_RATIO = 2  /**< two joint coordinates by a ratio (kl_add_coupling) */
+};
+
+/**
+ * Couples two revolute joints on one common link (the carrier) as a gear
+ * pair: the gear on joint k's other link has pitch radius `radiusk` (> 0,
+ * length units) about joint k's centre. The centres on the carrier lie
+ * radius1 + radius2 apart for an external mesh (the gears turn against the
+ * carrier in opposite senses: r1 dphi1 = -r2 dphi2) or |radius1 - radius2|
+ * apart for an internal mesh (same sense: r1 dphi1 = r2 dphi2), to within
+ * 1e-9 of the larger of the distance and the radii; phik is gear k's angle
+ * against the carrier. The sketch angles are a meshing pose. Returns the
+ * coupling's id (>= 0, couplings numbered from 0 in order added), or
+ * KL_EID (no such joint), KL_EKIND (a joint not revolute), KL_ESELFCOUPLING
+ * (joint1 == joint2), KL_ENOCOMMON (the joints share no link),
+ * KL_ENONFINITE, KL_ERADIUS (a radius <= 0), KL_ENOMESH (the centre
+ * distance fits neither mesh, or an internal pair of equal radii),
+ * KL_ESTATE (finalized), KL_ENOMEM. The model is unchanged on failure.
+ */
+KL_API int kl_add_gear_pair(kl_model *m, int joint1, int joint2,
+                            double radius1, double radius2);
+
+/**
+ * Couples a revolute joint (the pinion) with a prismatic joint (the rack)
+ * on one common link: the rack's slide changes by `radius` times the
+ * pinion's turn against that link (rad), counted from the sketch; the sign
+ * of radius says which way. Returns the coupling's id, or KL_EID, KL_EKIND
+ * (pinion not revolute or rack not prismatic), KL_ESELFCOUPLING,
+ * KL_ENOCOMMON, KL_ENONFINITE, KL_ERADIUS (radius 0), KL_ESTATE,
+ * KL_ENOMEM. The model is unchanged on failure.
+ */
+KL_API int kl_add_rack_pinion(kl_model *m, int pinion_joint, int rack_joint,
+                              double radius);
+
+/**
+ * Couples any two joints: coordinate2 changes by `ratio` times
+ * coordinate1's change, counted from the sketch (a revolute joint's
+ * coordinate is its relative angle in rad, a sliding joint's its slide), for
+ * belts and chains, coupled screws, linked cams. Returns the coupling's id,
+ * or KL_EID, KL_ESELFCOUPLING, KL_ENONFINITE, KL_EINVAL (ratio 0: that is
+ * no coupling but a locked joint), KL_ESTATE, KL_ENOMEM. The model is
+ * unchanged on failure.
+ */
+KL_API int kl_add_coupling(kl_model *m, int joint1, int joint2, double ratio);
+
+/**
+ * Makes the global x (axis 0) or y (axis 1) of `point` an input (inverse
+ * kinematics): two on one point drive it along a path. The input is
+ * numbered with the joint inputs (kl_add_input), in the order added; its
+ * value is in length units. Returns the input's index, or KL_EID (no such
+ * point), KL_EINVAL (axis not 0 or 1), KL_EKIND (a point on ground, which
+ * no input moves), KL_EDUPLICATE (this axis of this point is already an
+ * input), KL_ESTATE, KL_ENOMEM. The model is unchanged on failure.
+ */
+KL_API int kl_add_point_input(kl_model *m, int point, int axis);
+
+/** The number of couplings, or KL_EINVAL. */
+KL_API int kl_model_coupling_count(const kl_model *m);
+
+/** A coupling as recorded (kl_model_coupling). */
+typedef struct kl_coupling_info {
+  size_t size;    /**< sizeof(kl_coupling_info), set by the caller */
+  int kind;       /**< an enum kl_coupling_kind value */
+  int joint1;     /**< the first joint (a gear's, the pinion's, the driver's) */
+  int joint2;     /**< the second joint (a gear's, the rack's, the driven) */
+  double value1;  /**< radius1; the pinion's radius; the ratio */
+  double value2;  /**< radius2; 0; 0 */
+  int carrier;    /**< the common link of a gear pair or rack, -1 otherwise */
+  int internal;   /**< 1 for an internal gear mesh, else 0 */
+} kl_coupling_info;
+
+/**
+ * Fills `info` (its size set by the caller) with coupling `coupling`.
+ * Returns KL_OK, KL_EINVAL (NULL, size too small), KL_EID.
+ */
+KL_API int kl_model_coupling(const kl_model *m, int coupling,
+                             kl_coupling_info *info);
+
+/** The point a point input drives, or KL_EID; KL_EKIND for a joint input. */
+KL_API int kl_model_input_point(const kl_model *m, int input);
+
+/** The axis (0 x, 1 y) a point input drives, or KL_EID; KL_EKIND for a
+ * joint input. */
+KL_API int kl_model_input_axis(const kl_model *m, int input);
+
+/**
+ * The force coupling `coupling` carries, from the last kl_solve_forces():
+ * a gear pair's tooth force, which gear 2 receives at the pitch point along
+ * the common tangent (pressure angle 0), the direction 90 degrees
+ * counter-clockwise from the line of centres, gear 1 to gear 2 (gear 1
+ * receives its opposite); a rack's tooth force, which the rack receives
+ * along its slide axis at the pinion's pitch point; a ratio coupling's
+ * torque (revolute) or push (sliding) on joint 2's link b along its
+ * coordinate. The tooth forces enter the joint forces of the gears'
+ * bearings. NaN when the forces are not solved, or for an unknown id.
+ */
+KL_API double kl_coupling_force(const kl_solver *s, int coupling);
+
+/** Outcome of kl_solver_follow_path. Set `size` first. */
+typedef struct kl_path_result {
+  size_t size;       /**< sizeof(kl_path_result), set by the caller */
+  int status;        /**< what kl_solver_follow_path returned */
+  double arc_done;   /**< the arc length the solver's position is at */
+  double limit_arc;  /**< with KL_LIMIT or KL_ESINGULAR: the arc length of
+                          the last position reached before it (as
+                          arc_done); NaN otherwise */
+} kl_path_result;
+
+/**
+ * A path follower: moves the point of point inputs `input_x` (its x) and
+ * `input_y` (its y) along the polyline through (path_x[k], path_y[k]),
+ * k < npoints (>= 2), from arc length `from_arc`, where the solver's
+ * position has it, to `to_arc` (both clamped to the path), by continuation
+ * (steps of at most 2% of the model's scale, halved where one fails; the
+ * other inputs held), then solves the velocity there with the point moving
+ * at `speed` (length per time unit) along the path toward to_arc (along the
+ * segment's direction; at a vertex, the next segment's) and the
+ * acceleration with zero input accelerations (a polyline's corners are
+ * jumps of velocity). Call it sample by sample: the rates, accelerations
+ * and motor angles of each sample are then the solver's. Returns KL_OK,
+ * KL_LIMIT (the path leaves the workspace: limit_arc says where, the
+ * solver there), KL_ESINGULAR (a singular position on the path, likewise),
+ * KL_EID, KL_EKIND (an input not a point's), KL_EINVAL (not the x and y of
+ * one point, npoints < 2, NULL arrays, a short result), KL_ENONFINITE,
+ * KL_EZEROLENGTH (the points all coincide), KL_ESTAGE (no solved position
+ * to start from); writes `result` (may be NULL). Never allocates.
+ */
+KL_API int kl_solver_follow_path(kl_solver *s, int input_x, int input_y,
+                                 int npoints, const double *path_x,
+                                 const double *path_y, double from_arc,
+                                 double to_arc, double speed,
+                                 kl_path_result *result);
 
 #ifdef __cplusplus
 }

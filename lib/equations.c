@@ -33,6 +33,10 @@ void kli_expand_inputs(const kl_model *m, const double *u, double *base) {
     base[m->nlinks + j] = t->slide_input[j] >= 0 && u != NULL
                               ? u[t->slide_input[j]]
                               : 0.0;
+  /* a point input's value is a coordinate of its own, after the slides */
+  for (j = 0; j < m->npoint_inputs; j++)
+    base[m->nlinks + m->njoints + j] =
+        u != NULL ? u[m->point_inputs[j].input] : 0.0;
 }
 
 void kli_add_unknowns(const kl_model *m, const double *base, const double *q,
@@ -248,20 +252,125 @@ void kli_chain_dimension(const kl_model *m, const kli_chain *ch,
   }
 }
 
+/* A joint's coordinate in coordinates x: angle(b) - angle(a), or its
+ * slide. */
+static double joint_coordinate(const kl_model *m, const double *x,
+                               int joint) {
+  const kli_joint *j = &m->joints[joint];
+  return j->kind == KL_JOINT_REVOLUTE ? x[j->link[1]] - x[j->link[0]]
+                                      : x[m->nlinks + joint];
+}
+
+/* The same at the model's sketch (0 where it gives none). */
+static double sketch_coordinate(const kl_model *m, int joint) {
+  const kli_joint *j = &m->joints[joint];
+  if (j->kind != KL_JOINT_REVOLUTE)
+    return j->has_sketch ? j->sketch : 0.0;
+  return (m->links[j->link[1]].has_sketch ? m->links[j->link[1]].sketch
+                                          : 0.0) -
+         (m->links[j->link[0]].has_sketch ? m->links[j->link[0]].sketch
+                                          : 0.0);
+}
+
+/* d F / d radius of a gear pair's or rack's row: its joint's turn against
+ * the carrier since the sketch, with the row's sign for that radius. */
+static double radius_term(const kl_model *m, const kli_pose *p, int coupling,
+                          int which) {
+  const kli_coupling *c = &m->couplings[coupling];
+  int joint = c->joint[c->kind == KL_COUPLING_GEAR ? which : 0];
+  double turn = joint_coordinate(m, p->x, joint) - sketch_coordinate(m, joint);
+  double against = m->joints[joint].link[0] == c->carrier ? 1.0 : -1.0;
+  if (c->kind == KL_COUPLING_RACK)
+    return -against * turn;
+  return (which == 1 && c->internal ? -1.0 : 1.0) * against * turn;
+}
+
 void kli_loops_dimension(const kl_model *m, const kli_pose *p, int joint,
-                         int link, int axis, double *out) {
-  int i;
+                         int link, int axis, int point, int coupling,
+                         double *out) {
+  int i, rows = 2 * m->topo.nloops;
   for (i = 0; i < m->topo.nloops; i++)
     kli_chain_dimension(m, &m->topo.loops[i], p, joint, link, axis,
                         out + 2 * i);
+  for (i = 0; i < m->topo.nextra; i++) {
+    const kli_extra *e = &m->topo.extra[i];
+    double d[2] = {0.0, 0.0};
+    if (i < m->ncouplings) {
+      out[rows + i] = i == coupling ? radius_term(m, p, i, axis) : 0.0;
+      continue;
+    }
+    if (joint >= 0 ||
+        (coupling < 0 && m->point_inputs[i - m->ncouplings].point == point))
+      kli_chain_dimension(m, &e->chain, p, joint, link, axis, d);
+    out[rows + i] = d[e->axis];
+  }
+}
+
+/* ---- extra rows: F = sum coef x - offset + (chain's component axis) ---- */
+
+static double extra_value(const kl_model *m, const kli_extra *e,
+                          const kli_pose *p) {
+  double sum = -e->offset, c[2];
+  int k;
+  for (k = 0; k < e->ncoef; k++)
+    sum += e->coef[k] * p->x[e->coord[k]];
+  if (e->chain.count > 0) {
+    kli_chain_value(m, &e->chain, p, c);
+    sum += c[e->axis];
+  }
+  return sum;
+}
+
+static double extra_rate(const kl_model *m, const kli_extra *e,
+                         const kli_pose *p, const double *v) {
+  double sum = 0.0, c[2];
+  int k;
+  for (k = 0; k < e->ncoef; k++)
+    sum += e->coef[k] * v[e->coord[k]];
+  if (e->chain.count > 0) {
+    kli_chain_rate(m, &e->chain, p, v, c);
+    sum += c[e->axis];
+  }
+  return sum;
+}
+
+/* The Jacobian values of extra row e, added to `values` (one per extra
+ * entry). */
+static void extra_jacobian(const kl_model *m, const kli_extra *e,
+                           const kli_pose *p, double *values) {
+  const kli_term *t = m->topo.terms + e->chain.first;
+  int k, ax = e->axis;
+  for (k = 0; k < e->ncoef; k++)
+    if (e->entry[k] >= 0)
+      values[e->entry[k]] += e->coef[k];
+  for (k = 0; k < e->chain.count; k++, t++) {
+    double r[2];
+    if (t->joint < 0) {
+      if (t->nz_angle < 0)
+        continue;
+      rotated(t, p, r);
+      values[t->nz_angle] += ax == 0 ? -r[1] : r[0];
+    } else {
+      double sl = p->x[m->nlinks + t->joint];
+      slide_dir(m, t, p, r);
+      if (t->nz_slide >= 0)
+        values[t->nz_slide] += t->sign * r[ax];
+      if (t->nz_angle >= 0)
+        values[t->nz_angle] += t->sign * sl * (ax == 0 ? -r[1] : r[0]);
+    }
+  }
 }
 
 double kli_residual(const kl_model *m, const kli_pose *p, double *f) {
   double norm = 0.0;
-  int i;
+  int i, rows = 2 * m->topo.nloops;
   for (i = 0; i < m->topo.nloops; i++) {
     kli_chain_value(m, &m->topo.loops[i], p, f + 2 * i);
     norm = fmax(norm, fmax(fabs(f[2 * i]), fabs(f[2 * i + 1])));
+  }
+  for (i = 0; i < m->topo.nextra; i++) {
+    f[rows + i] = extra_value(m, &m->topo.extra[i], p);
+    norm = fmax(norm, fabs(f[rows + i]));
   }
   return norm;
 }
@@ -274,19 +383,30 @@ void kli_input_terms_at(const kl_model *m, const kli_pose *p, const double *w,
 
 void kli_loops_rate(const kl_model *m, const kli_pose *p, const double *v,
                     double *out) {
-  int i;
+  int i, rows = 2 * m->topo.nloops;
   for (i = 0; i < m->topo.nloops; i++)
     kli_chain_rate(m, &m->topo.loops[i], p, v, out + 2 * i);
+  for (i = 0; i < m->topo.nextra; i++)
+    out[rows + i] = extra_rate(m, &m->topo.extra[i], p, v);
 }
 
 void kli_loops_add_second(const kl_model *m, const kli_pose *p,
                           const double *va, const double *vb, double *out) {
-  int i;
+  int i, rows = 2 * m->topo.nloops;
   for (i = 0; i < m->topo.nloops; i++) {
     double b[2];
     kli_chain_second(m, &m->topo.loops[i], p, va, vb, b);
     out[2 * i] += b[0];
     out[2 * i + 1] += b[1];
+  }
+  /* a coupling row is linear: only a point row has second-order terms */
+  for (i = 0; i < m->topo.nextra; i++) {
+    const kli_extra *e = &m->topo.extra[i];
+    double b[2];
+    if (e->chain.count == 0)
+      continue;
+    kli_chain_second(m, &e->chain, p, va, vb, b);
+    out[rows + i] += b[e->axis];
   }
 }
 
@@ -304,7 +424,11 @@ void kli_loops_add_third(const kl_model *m, const kli_pose *p,
 void kli_jacobian_pairs(const kl_model *m, const kli_pose *p, double *pairs) {
   const kli_topology *top = &m->topo;
   int i, k;
-  memset(pairs, 0, (size_t)top->nnz_pairs * 2 * sizeof *pairs);
+  memset(pairs, 0,
+         ((size_t)top->nnz_pairs * 2 + (size_t)top->nextra_entries) *
+             sizeof *pairs);
+  for (i = 0; i < top->nextra; i++)
+    extra_jacobian(m, &top->extra[i], p, pairs + 2 * top->nnz_pairs);
   for (i = 0; i < top->nloops; i++) {
     const kli_term *t = top->terms + top->loops[i].first;
     for (k = 0; k < top->loops[i].count; k++, t++) {
@@ -349,7 +473,7 @@ void kli_row_directions(const kl_model *m, const double *pairs, double *dir) {
 
 void kli_keep_rows(const kl_model *m, const double *dir, double *rows) {
   const kli_topology *t = &m->topo;
-  int loop;
+  int loop, e;
   if (t->redundancy == 0)
     return;
   /* each loop's kept rows come at or before its own: in place, in order */
@@ -363,6 +487,9 @@ void kli_keep_rows(const kl_model *m, const double *dir, double *rows) {
       rows[first] = dir[2 * loop] * x + dir[2 * loop + 1] * y;
     }
   }
+  /* the extra rows follow the kept loop rows whole */
+  for (e = 0; e < t->nextra; e++)
+    rows[t->loop_first_kept[t->nloops] + e] = rows[2 * t->nloops + e];
 }
 
 void kli_keep_pairs(const kl_model *m, const double *dir, const double *pairs,
@@ -379,6 +506,10 @@ void kli_keep_pairs(const kl_model *m, const double *dir, const double *pairs,
                      dir[2 * loop + 1] * pairs[2 * p + 1];
     }
   }
+  /* the extra entries close the kept system's singles */
+  memcpy(values + 2 * t->nkept_pairs + t->nkept_singles - t->nextra_entries,
+         pairs + 2 * t->nnz_pairs,
+         (size_t)t->nextra_entries * sizeof *values);
 }
 
 double kli_dropped_residual(const kl_model *m, const double *dir,

@@ -66,9 +66,14 @@ void kli_chain_jerk(const kl_model *m, const kli_chain *ch, const kli_pose *p,
 void kli_chain_dimension(const kl_model *m, const kli_chain *ch,
                          const kli_pose *p, int joint, int link, int axis,
                          double out[2]);
-/* kli_chain_dimension over every loop. */
+/* kli_chain_dimension over every row: the loops (joint >= 0), and the
+ * extra rows: a point input's row moves with the attachments on its
+ * point's path and, for joint -1, with its own point's local coordinates
+ * (point == its point); with coupling >= 0 (joint -1), only that
+ * coupling's row moves, with its radius `axis` (0 radius1, 1 radius2). */
 void kli_loops_dimension(const kl_model *m, const kli_pose *p, int joint,
-                         int link, int axis, double *out);
+                         int link, int axis, int point, int coupling,
+                         double *out);
 
 /* The residuals of every loop, 2 per loop; returns |F|inf. */
 double kli_residual(const kl_model *m, const kli_pose *p, double *f);

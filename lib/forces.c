@@ -82,39 +82,130 @@ static void joint_geometry(kl_solver *s) {
   }
 }
 
+/* The global position of (x, y) in link's frame at pose p. */
+static void global_point(const kl_model *m, const kli_pose *p, int link,
+                         const double at[2], double out[2]) {
+  double r[2];
+  kli_chain_value(m, &m->topo.origins[link], p, out);
+  turn(p, link, at, r);
+  out[0] += r[0];
+  out[1] += r[1];
+}
+
+/* The arm from link's centre of mass to the global point q. */
+static void arm_to(const kl_model *m, const kli_pose *p, int link,
+                   const double q[2], double arm[2]) {
+  double g[2];
+  global_point(m, p, link, m->links[link].centre, g);
+  arm[0] = q[0] - g[0];
+  arm[1] = q[1] - g[1];
+}
+
+/* The other link of `joint` than `link`. */
+static int other_side(const kl_model *m, int joint, int link) {
+  const kli_joint *j = &m->joints[joint];
+  return j->link[0] == link ? j->link[1] : j->link[0];
+}
+
+/*
+ * Each extra row's geometry after the joints' (6 per row): the arms from
+ * the two sides' centres of mass to the point where its force acts, and
+ * the force's direction; and that point, globally, into `at` (2 per row).
+ * A gear pair's tooth force acts at the pitch point on the line of centres
+ * (r1 from gear 1's centre, toward gear 2's unless gear 2 is the larger of
+ * an internal pair), along the common tangent (pressure angle 0); a rack's
+ * along the rack's axis at the pinion's pitch point, where the pinion's
+ * turn moves the pitch line by radius times the turn; a point input's
+ * along its axis at its point. A ratio coupling uses its joints' geometry.
+ */
+static void extra_geometry(kl_solver *s, double *at) {
+  const kl_model *m = s->model;
+  const kli_pose *p = &s->st.pose;
+  int e;
+  for (e = 0; e < m->topo.nextra; e++) {
+    double *arm = s->force_geometry + 6 * (m->njoints + e), *d = arm + 4;
+    double *q = at + 2 * e;
+    int side_link[2] = {KL_GROUND, KL_GROUND};
+    if (e < m->ncouplings) {
+      const kli_coupling *c = &m->couplings[e];
+      double c1[2];
+      if (c->kind == KL_COUPLING_RATIO)
+        continue;
+      global_point(m, p, c->carrier, kli_joint_point_on(m, c->joint[0],
+                                                       c->carrier),
+                   c1);
+      side_link[0] = other_side(m, c->joint[0], c->carrier);
+      side_link[1] = other_side(m, c->joint[1], c->carrier);
+      if (c->kind == KL_COUPLING_GEAR) {
+        double c2[2], u[2], len, toward;
+        global_point(m, p, c->carrier,
+                     kli_joint_point_on(m, c->joint[1], c->carrier), c2);
+        u[0] = c2[0] - c1[0];
+        u[1] = c2[1] - c1[1];
+        len = hypot(u[0], u[1]);
+        toward = c->internal && c->value[1] > c->value[0] ? -1.0 : 1.0;
+        q[0] = c1[0] + toward * c->value[0] * u[0] / len;
+        q[1] = c1[1] + toward * c->value[0] * u[1] / len;
+        d[0] = -u[1] / len;
+        d[1] = u[0] / len;
+      } else {
+        const kli_joint *rack = &m->joints[c->joint[1]];
+        double r = (rack->link[0] == c->carrier ? 1.0 : -1.0) * c->value[0];
+        turn(p, rack->link[0], rack->axis_cs, d);
+        q[0] = c1[0] + r * d[1];
+        q[1] = c1[1] - r * d[0];
+      }
+    } else {
+      const kli_point_input *pi = &m->point_inputs[e - m->ncouplings];
+      kli_chain_value(m, &m->topo.points[pi->point], p, q);
+      side_link[1] = m->points[pi->point].link;
+      d[0] = pi->axis == 0 ? 1.0 : 0.0;
+      d[1] = pi->axis == 0 ? 0.0 : 1.0;
+    }
+    arm_to(m, p, side_link[0], q, arm);
+    arm_to(m, p, side_link[1], q, arm + 2);
+  }
+}
+
+/* The value of coefficient `coef` with arm r and direction d. */
+static double coefficient(int coef, const double r[2], const double d[2]) {
+  double n[2];
+  n[0] = -d[1];
+  n[1] = d[0];
+  switch (coef) {
+  case KLI_COEF_UNIT: return 1.0;
+  case KLI_COEF_ARM_FX: return -r[1];
+  case KLI_COEF_ARM_FY: return r[0];
+  case KLI_COEF_NORMAL_X: return n[0];
+  case KLI_COEF_NORMAL_Y: return n[1];
+  case KLI_COEF_NORMAL_M: return cross(r, n);
+  case KLI_COEF_AXIS_X: return d[0];
+  case KLI_COEF_AXIS_Y: return d[1];
+  default: return cross(r, d); /* KLI_COEF_AXIS_M */
+  }
+}
+
 /* The force system's values at the committed pose (its joint geometry
- * taken): each entry's coefficient times its side's sign, moment rows
- * over the model's scale. */
+ * taken): each entry's coefficient (times its weight, for an extra row's)
+ * times its side's sign, moment rows over the model's scale. */
 static void assemble(kl_solver *s) {
   const kl_model *m = s->model;
   const kli_force_pattern *f = &m->topo.forces;
   double inv_scale = 1.0 / m->topo.scale;
-  int j, e;
-  for (j = 0; j < m->njoints; j++) {
-    const double *arm = s->force_geometry + 6 * j, *d = arm + 4;
-    double n[2];
-    n[0] = -d[1];
-    n[1] = d[0];
-    for (e = f->entry_start[j]; e < f->entry_start[j + 1]; e++) {
-      const double *r = arm + 2 * f->side[e];
-      double v;
-      switch (f->coef[e]) {
-      case KLI_COEF_UNIT: v = 1.0; break;
-      case KLI_COEF_ARM_FX: v = -r[1]; break;
-      case KLI_COEF_ARM_FY: v = r[0]; break;
-      case KLI_COEF_NORMAL_X: v = n[0]; break;
-      case KLI_COEF_NORMAL_Y: v = n[1]; break;
-      case KLI_COEF_NORMAL_M: v = cross(r, n); break;
-      case KLI_COEF_AXIS_X: v = d[0]; break;
-      case KLI_COEF_AXIS_Y: v = d[1]; break;
-      default: v = cross(r, d); break; /* KLI_COEF_AXIS_M */
-      }
-      if (f->side[e] == 0)
-        v = -v; /* link a feels the opposite of what b feels */
-      if (f->row[e] % 3 == 2)
-        v *= inv_scale;
-      s->force_values[e] = v;
-    }
+  int j = 0, e;
+  for (e = 0; e < f->nentries; e++) {
+    const double *arm;
+    double v;
+    while (j < m->njoints && e >= f->entry_start[j + 1])
+      j++;
+    arm = s->force_geometry +
+          6 * (e < f->entry_start[m->njoints] ? j : f->geom[e]);
+    v = coefficient(f->coef[e], arm + 2 * f->side[e], arm + 4) * f->weight[e];
+    if (f->side[e] == 0)
+      v = -v; /* link a feels the opposite of what b feels */
+    if (f->row[e] % 3 == 2)
+      v *= inv_scale;
+    s->force_values[e] = v;
   }
 }
 
@@ -156,6 +247,76 @@ static void right_side(kl_solver *s, const double *xdd, int nloads,
   }
 }
 
+/* Adds sign times (force at global point at, plus a moment) to the load
+ * on ground. */
+static void add_to_ground(kli_forces *out, double sign, const double at[2],
+                          const double force[2], double moment) {
+  out->ground[0] += sign * force[0];
+  out->ground[1] += sign * force[1];
+  out->ground[2] += sign * (cross(at, force) + moment);
+}
+
+/* The extra rows' unknowns back to coupling forces and point efforts, and
+ * what ground takes of them: a toothed ground link's share of a tooth
+ * force, a ratio coupling's moment or push on ground, the reaction of a
+ * point input's actuator, which stands on ground. */
+static void extra_results(kl_solver *s, const double *x, const double *at,
+                          kli_forces *out) {
+  const kl_model *m = s->model;
+  const kli_force_pattern *f = &m->topo.forces;
+  int e, k;
+  for (e = 0; e < m->topo.nextra; e++) {
+    const double *d = s->force_geometry + 6 * (m->njoints + e) + 4;
+    const double *q = at + 2 * e;
+    double lambda, force[2];
+    if (e >= m->ncouplings) {
+      const kli_point_input *pi = &m->point_inputs[e - m->ncouplings];
+      lambda = x[f->input_col[pi->input]];
+      out->effort[pi->input] = lambda;
+      force[0] = lambda * d[0];
+      force[1] = lambda * d[1];
+      add_to_ground(out, -1.0, q, force, 0.0);
+      continue;
+    }
+    lambda = x[f->coupling_col[e]];
+    if (m->couplings[e].kind != KL_COUPLING_RATIO) {
+      const kli_coupling *c = &m->couplings[e];
+      out->coupling[e] = lambda;
+      force[0] = lambda * d[0];
+      force[1] = lambda * d[1];
+      if (other_side(m, c->joint[0], c->carrier) == KL_GROUND)
+        add_to_ground(out, -1.0, q, force, 0.0);
+      if (other_side(m, c->joint[1], c->carrier) == KL_GROUND)
+        add_to_ground(out, 1.0, q, force, 0.0);
+      continue;
+    }
+    {
+      const kli_extra *xr = &m->topo.extra[e];
+      const kli_joint *j2 = &m->joints[m->couplings[e].joint[1]];
+      /* reported: what it applies on joint 2's coordinate (a torque or a
+       * push on its link b), its row's weight on that coordinate */
+      out->coupling[e] =
+          lambda * (j2->kind == KL_JOINT_REVOLUTE ? m->topo.scale : 1.0);
+      for (k = 0; k < xr->ncoef; k++) {
+        int coord = xr->coord[k];
+        if (coord == KL_GROUND) {
+          out->ground[2] += xr->coef[k] * lambda;
+        } else if (coord >= m->nlinks) {
+          const kli_joint *j = &m->joints[coord - m->nlinks];
+          const double *arm = s->force_geometry + 6 * (coord - m->nlinks);
+          double jd[2];
+          jd[0] = xr->coef[k] * lambda * arm[4];
+          jd[1] = xr->coef[k] * lambda * arm[5];
+          if (j->link[0] == KL_GROUND)
+            add_to_ground(out, -1.0, arm, jd, 0.0);
+          if (j->link[1] == KL_GROUND)
+            add_to_ground(out, 1.0, arm + 2, jd, 0.0);
+        }
+      }
+    }
+  }
+}
+
 /* The unknowns x back to joint forces and moments, efforts and the load on
  * ground (the joint geometry taken at this pose). */
 static void results(kl_solver *s, const double *x, kli_forces *out) {
@@ -192,9 +353,7 @@ static void results(kl_solver *s, const double *x, kli_forces *out) {
     if (jt->link[1] == KL_GROUND || jt->link[0] == KL_GROUND) {
       double sign = jt->link[1] == KL_GROUND ? 1.0 : -1.0;
       const double *at = arm + (jt->link[1] == KL_GROUND ? 2 : 0);
-      out->ground[0] += sign * force[0];
-      out->ground[1] += sign * force[1];
-      out->ground[2] += sign * (cross(at, force) + moment);
+      add_to_ground(out, sign, at, force, moment);
     }
   }
 }
@@ -242,6 +401,7 @@ int kli_forces_at(kl_solver *s, const double *xd, const double *xdd,
                     stage, s->st.rcond, s->singular_rcond);
   if (!s->force_factored || memcmp(s->force_at, s->st.pose.x, coords) != 0) {
     joint_geometry(s);
+    extra_geometry(s, s->extra_points);
     assemble(s);
     kli_dense_load(&s->force, s->force_values);
     s->force_factored = 0;
@@ -257,6 +417,7 @@ int kli_forces_at(kl_solver *s, const double *xd, const double *xdd,
   right_side(s, xdd, nloads, loads, s->force_rhs);
   kli_dense_solve(&s->force, s->force_rhs);
   results(s, s->force_rhs, out);
+  extra_results(s, s->force_rhs, s->extra_points, out);
   return KL_OK;
 }
 
@@ -344,4 +505,11 @@ int kl_ground_force(const kl_solver *s, double fxy_m[3]) {
     return KL_ESTAGE;
   memcpy(fxy_m, s->st.forces.ground, 3 * sizeof(double));
   return KL_OK;
+}
+
+double kl_coupling_force(const kl_solver *s, int coupling) {
+  if (s == NULL || coupling < 0 || coupling >= s->model->ncouplings ||
+      !s->st.forces_solved)
+    return NAN;
+  return s->st.forces.coupling[coupling];
 }

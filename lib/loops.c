@@ -241,6 +241,34 @@ static void find_pressure_sites(const kl_model *m, kli_topology *t,
   }
 }
 
+/* The link a revolute joint on ground turns, or -1 for other joints. */
+static int ground_crank(const kl_model *m, int joint) {
+  const kli_joint *j = &m->joints[joint];
+  if (j->kind != KL_JOINT_REVOLUTE)
+    return -1;
+  return j->link[0] == KL_GROUND   ? j->link[1]
+         : j->link[1] == KL_GROUND ? j->link[0]
+                                   : -1;
+}
+
+/* A link on a ground pivot that a gear pair or a ratio coupling ties to a
+ * crank is turned by the input as directly as that crank (through the
+ * gears): passes until no coupling adds one, at most one per coupling. */
+static void mark_geared_cranks(const kl_model *m, int *crank) {
+  int changed = 1, pass, i;
+  for (pass = 0; changed && pass <= m->ncouplings; pass++) {
+    changed = 0;
+    for (i = 0; i < m->ncouplings; i++) {
+      int l1 = ground_crank(m, m->couplings[i].joint[0]);
+      int l2 = ground_crank(m, m->couplings[i].joint[1]);
+      if (l1 < 0 || l2 < 0 || crank[l1] == crank[l2])
+        continue;
+      crank[l1] = crank[l2] = 1;
+      changed = 1;
+    }
+  }
+}
+
 /*
  * The rule: walking the loops in order, each revolute joint that is on
  * neither ground nor an input, where a loop first meets it, measured
@@ -259,13 +287,17 @@ void kli_find_transmissions(const kl_model *m, kli_topology *t,
   for (i = 0; i < m->njoints; i++)
     mark[i] = KLI_PLAIN;
   for (i = 0; i < m->ninputs; i++) {
-    const kli_joint *j = &m->joints[m->inputs[i]];
+    const kli_joint *j;
+    if (m->inputs[i] < 0)
+      continue; /* a point input */
+    j = &m->joints[m->inputs[i]];
     mark[m->inputs[i]] = KLI_INPUT;
     if (j->kind == KL_JOINT_REVOLUTE && j->link[0] == KL_GROUND)
       crank[j->link[1]] = 1;
     if (j->kind == KL_JOINT_REVOLUTE && j->link[1] == KL_GROUND)
       crank[j->link[0]] = 1;
   }
+  mark_geared_cranks(m, crank);
   find_pressure_sites(m, t, mark, tiny);
   for (loop = 0; loop < t->nloops; loop++) {
     int first = t->loop_joint_start[loop];

@@ -433,12 +433,9 @@ static int sensitivity(kl_solver *s, const kl_output *o,
   int st;
   if ((st = kli_dim_resolve(s->model, d, &dim, s->error)) != KL_OK)
     return st;
-  /* loops: J dq = -dF/dp with the inputs held */
-  if (dim.joint >= 0)
-    kli_loops_dimension(s->model, &s->st.pose, dim.joint, dim.link, dim.axis,
-                        s->rhs);
-  else
-    memset(s->rhs, 0, (size_t)s->nrows * sizeof(double));
+  /* loops and extra rows: J dq = -dF/dp with the inputs held */
+  kli_loops_dimension(s->model, &s->st.pose, dim.joint, dim.link, dim.axis,
+                      dim.point, dim.coupling, s->rhs);
   kli_rate_solve(s, s->rhs, NULL, s->xv);
   *deriv = kli_output_change(s, o, s->xv, &dim);
   return KL_OK;

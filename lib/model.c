@@ -74,6 +74,7 @@ static void destroy(kl_model *m) {
   kli_free(&a, m->loads, (size_t)m->cap_loads * sizeof *m->loads);
   kli_free(&a, m->segments, (size_t)m->cap_segments * sizeof *m->segments);
   kli_free(&a, m->knots, (size_t)m->cap_knots * sizeof *m->knots);
+  kli_free_couplings(m);
   kli_lookup_free(&a, &m->link_names);
   kli_lookup_free(&a, &m->joint_names);
   kli_lookup_free(&a, &m->point_names);
@@ -723,6 +724,12 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
     return kli_fail(m->error, KL_EID,
                     "set sweep: input %d does not exist (%d inputs so far)",
                     sweep->input, m->ninputs);
+  if (m->inputs[sweep->input] < 0)
+    return kli_fail(m->error, KL_EKIND,
+                    "set sweep: input %d is a point input; the recorded "
+                    "sweep is a joint input's (sweep a point input with "
+                    "kl_solver_sweep)",
+                    sweep->input);
   if (!isfinite(sweep->from) || !isfinite(sweep->to) ||
       !isfinite(sweep->to - sweep->from))
     return kli_fail(m->error, KL_ENONFINITE,
@@ -947,6 +954,11 @@ int kl_model_set_speed(kl_model *m, int input, double speed,
     return kli_fail(m->error, KL_EID,
                     "set speed: input %d does not exist (%d inputs so far)",
                     input, m->ninputs);
+  if (m->inputs[input] < 0)
+    return kli_fail(m->error, KL_EKIND,
+                    "set speed: input %d is a point input; the working speed "
+                    "is a joint input's",
+                    input);
   if (!isfinite(speed) || !isfinite(speed_fluctuation))
     return kli_fail(m->error, KL_ENONFINITE,
                     "set speed: the speed (%g) or its fluctuation (%g) is NaN "
@@ -1030,7 +1042,8 @@ kl_model *kli_model_copy(const kl_model *src) {
        copy_array(&m->alloc, (void **)&m->segments, &m->cap_segments,
                   src->segments, src->cap_segments, sizeof *m->segments) &&
        copy_array(&m->alloc, (void **)&m->knots, &m->cap_knots, src->knots,
-                  src->cap_knots, sizeof *m->knots);
+                  src->cap_knots, sizeof *m->knots) &&
+       kli_copy_couplings(m, src);
   if (ok) {
     m->nlinks = src->nlinks;
     m->njoints = src->njoints;
@@ -1300,7 +1313,7 @@ int kl_model_input_joint(const kl_model *m, int input) {
     return KL_EINVAL;
   if (input < 0 || input >= m->ninputs)
     return KL_EID;
-  return m->inputs[input];
+  return m->inputs[input] >= 0 ? m->inputs[input] : KL_EKIND;
 }
 
 int kl_model_is_finalized(const kl_model *m) {

@@ -76,6 +76,38 @@ typedef struct {
   int first, count; /* range in the term array */
 } kli_chain;
 
+/* A coupling as the builders record it (couplings.c). */
+typedef struct {
+  int kind;          /* enum kl_coupling_kind */
+  int joint[2];
+  double value[2];   /* radii; the pinion's radius; the ratio */
+  int carrier;       /* common link, or -1 */
+  int internal;      /* internal gear mesh */
+} kli_coupling;
+
+/* A point input: input `input` sets global coordinate `axis` of `point`. */
+typedef struct {
+  int point, axis, input;
+} kli_point_input;
+
+/*
+ * One extra scalar row (one equation, no unknown) after the loop rows:
+ *   F = sum_k coef[k] x[coord[k]] - offset + (chain's component `axis`)
+ *       - (u[input] when input >= 0)
+ * A coupling row has the linear part only (offset from the sketch); a point
+ * input row has the chain from the origin to its point and its input.
+ */
+#define KLI_EXTRA_COEFS 4
+typedef struct {
+  int ncoef;
+  int coord[KLI_EXTRA_COEFS];
+  double coef[KLI_EXTRA_COEFS];
+  int entry[KLI_EXTRA_COEFS]; /* its single entry in the extra pattern, or -1 */
+  double offset;
+  kli_chain chain;            /* count 0 for a coupling */
+  int axis, input;            /* input -1 for a coupling */
+} kli_extra;
+
 /* Which coefficient an entry of the force system holds (reactions.c lays
  * the entries out, forces.c fills them): r is the arm from the link's
  * centre of mass to the joint's point, n the slide's normal and d its axis
@@ -103,6 +135,15 @@ typedef struct {
   int *input_col;    /* the effort unknown of each input */
   int nentries;
   int *entry_start;  /* njoints + 1: each joint's entries, in order */
+  /* The rows beyond loop closure: each coupling's force unknown (a gear's
+   * or rack's tooth force, a ratio coupling's generalised force) and each
+   * point input's effort (in input_col); their entries, after the joints',
+   * from extra_entry_start (nextra + 1), each with the geometry it takes
+   * (a joint's, or njoints + e for extra row e's) and a weight. */
+  int *coupling_col;
+  int *extra_entry_start;
+  int *geom;
+  double *weight;
   int *row, *col;    /* each entry's row and unknown */
   unsigned char *coef; /* its KLI_COEF_* */
   unsigned char *side; /* 0: on link a's rows, 1: on link b's */
@@ -172,6 +213,13 @@ typedef struct {
    * the lower and upper bandwidths of the matrix so ordered. */
   int *band_row, *band_col;
   int band_lower, band_upper;
+  /* Extra rows (couplings first, then point inputs), after the 2 nloops
+   * loop rows; their Jacobian entries are single entries (row e, col),
+   * valued after the loop pairs. Kept, they follow the kept loop rows. */
+  int nextra;
+  kli_extra *extra;
+  int nextra_entries;
+  int *extra_entry_row, *extra_entry_col;
   int dof;       /* Gruebler's count plus the redundancy: the inputs */
   double scale;
   /* The transmission-angle sites and the joints the rule passes over
@@ -242,6 +290,12 @@ struct kl_model {
   int nsegments, cap_segments;
   kli_knot *knots;
   int nknots, cap_knots;
+  /* couplings and point inputs (couplings.c); inputs[i] is -1 for a
+   * point input */
+  kli_coupling *couplings;
+  int ncouplings, cap_couplings;
+  kli_point_input *point_inputs;
+  int npoint_inputs, cap_point_inputs;
 
   int finalized;
   kli_topology topo;
@@ -279,6 +333,18 @@ int kli_check_load_list(const kl_model *m, char *error, int nloads,
                         const kl_load *loads, const char *stage);
 /* The input that drives `joint`, or -1. */
 int kli_input_of(const kl_model *m, int joint);
+/* The point input record of input i, or NULL for a joint input. */
+const kli_point_input *kli_point_input_of(const kl_model *m, int input);
+/* 1 when input i turns a revolute joint (an angle), 0 for a slide or a
+ * point coordinate (a length). */
+int kli_input_is_angle(const kl_model *m, int input);
+/* "joint 2 'crank'" or "point 1 'tip' x" for input i, into buf. */
+const char *kli_input_label(const kl_model *m, int input, char *buf,
+                            size_t n);
+/* Copies src's couplings and point inputs into the empty arrays of m;
+ * 0 when memory runs out. Frees them (kli_free_couplings). */
+int kli_copy_couplings(kl_model *m, const kl_model *src);
+void kli_free_couplings(kl_model *m);
 /* An unfinalized copy of m's record (links, joints, points, inputs,
  * registered loops, names, units, sketch, sweep, mass properties,
  * gravity, redundancy, loads, working speed), with m's allocator;

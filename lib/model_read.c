@@ -572,9 +572,81 @@ static int read_timetable(model_reader *mr) {
   if (cap > 0)
     kli_free(a, pairs, (size_t)cap * sizeof *pairs);
   return st;
+/* ---- couplings and point inputs ---- */
+
+/* gears JOINT1 JOINT2 R1 R2 | rack PINION RACK R | couple JOINT1 JOINT2 RATIO */
+static int read_coupling(model_reader *mr, int kind) {
+  kli_reader *r = &mr->r;
+  int st, j1, j2, column;
+  double v1, v2 = 0.0;
+  if ((st = kli_expect_ref(r, KLI_REF_JOINT, "the first coupled joint",
+                           &j1)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_JOINT, "the second coupled joint",
+                           &j2)) != KL_OK ||
+      (st = kli_expect_number_at(r,
+                                 kind == KL_COUPLING_RATIO ? "the ratio"
+                                                           : "a radius",
+                                 &v1, &column)) != KL_OK ||
+      (kind == KL_COUPLING_GEAR &&
+       (st = kli_expect_number(r, "the second radius", &v2)) != KL_OK) ||
+      (st = kli_expect_end(r)) != KL_OK)
+    return st;
+  st = kind == KL_COUPLING_GEAR   ? kl_add_gear_pair(mr->m, j1, j2, v1, v2)
+       : kind == KL_COUPLING_RACK ? kl_add_rack_pinion(mr->m, j1, j2, v1)
+                                  : kl_add_coupling(mr->m, j1, j2, v1);
+  return st >= 0 ? KL_OK : builder_failed(mr, st, column);
+}
+
+static int read_gears(model_reader *mr) {
+  return read_coupling(mr, KL_COUPLING_GEAR);
+}
+static int read_rack(model_reader *mr) {
+  return read_coupling(mr, KL_COUPLING_RACK);
+}
+static int read_couple(model_reader *mr) {
+  return read_coupling(mr, KL_COUPLING_RATIO);
+}
+
+/* drive POINT x|y: a point input */
+static int read_drive(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  kli_token t;
+  int st, point, axis;
+  if ((st = kli_expect_ref(r, KLI_REF_POINT, "the driven point", &point)) !=
+      KL_OK)
+    return st;
+  if ((st = kli_next_token(r, &t)) != KL_OK)
+    return st;
+  if (t.kind != KLI_TOKEN_WORD ||
+      (strcmp(t.text, "x") != 0 && strcmp(t.text, "y") != 0))
+    return kli_read_fail(r, KL_ESYNTAX, t.column,
+                         "expected the driven coordinate, x or y, found "
+                         "'%.60s'",
+                         kli_token_shown(&t));
+  axis = strcmp(t.text, "y") == 0;
+  if ((st = kli_expect_end(r)) != KL_OK)
+    return st;
+  st = kl_add_point_input(mr->m, point, axis);
+  return st >= 0 ? KL_OK : builder_failed(mr, st, t.column);
 }
 
 typedef int (*statement_reader)(model_reader *mr);
+
+/* The reader of a coupling or point-input statement word, or NULL. */
+static statement_reader coupling_statement(const char *word) {
+  static const struct {
+    const char *word;
+    statement_reader read;
+  } table[] = {{"gears", read_gears},
+               {"rack", read_rack},
+               {"couple", read_couple},
+               {"drive", read_drive}};
+  size_t i;
+  for (i = 0; i < sizeof table / sizeof table[0]; i++)
+    if (strcmp(word, table[i].word) == 0)
+      return table[i].read;
+  return NULL;
+}
 
 /* The reader of a force-stage statement word, or NULL. */
 static statement_reader force_statement(const char *word) {
@@ -654,12 +726,14 @@ static int read_statement(model_reader *mr, const kli_token *key) {
     return read_hold(mr);
   if (force_statement(k) != NULL)
     return force_statement(k)(mr);
+  if (coupling_statement(k) != NULL)
+    return coupling_statement(k)(mr);
   return kli_read_fail(
       r, KL_ESYNTAX, key->column,
       "unknown statement '%.60s' (expected units, link, "
       "revolute, prismatic, slot, arc-slot, curve-slot, point, input, "
-      "loop, sketch, hold, sweep, mass, gravity, load, speed, redundant, "
-      "segment or timetable)",
+      "drive, gears, rack, couple, loop, sketch, hold, sweep, mass, gravity, "
+      "load, speed, redundant, segment or timetable)",
       k);
 }
 

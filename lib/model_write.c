@@ -206,8 +206,27 @@ static void write_model(const kl_model *m, sink *o) {
     put(o, " %.17g %.17g\n", m->points[i].at[0], m->points[i].at[1]);
   }
   for (i = 0; i < m->ninputs; i++) {
+    const kli_point_input *pi = kli_point_input_of(m, i);
+    if (pi != NULL) {
+      put(o, "drive");
+      put_point_ref(o, m, pi->point);
+      put(o, " %c\n", pi->axis == 0 ? 'x' : 'y');
+      continue;
+    }
     put(o, "input");
     put_joint_ref(o, m, m->inputs[i]);
+    put(o, "\n");
+  }
+  for (i = 0; i < m->ncouplings; i++) {
+    const kli_coupling *c = &m->couplings[i];
+    put(o, "%s", c->kind == KL_COUPLING_GEAR   ? "gears"
+                 : c->kind == KL_COUPLING_RACK ? "rack"
+                                               : "couple");
+    put_joint_ref(o, m, c->joint[0]);
+    put_joint_ref(o, m, c->joint[1]);
+    put(o, " %.17g", c->value[0]);
+    if (c->kind == KL_COUPLING_GEAR)
+      put(o, " %.17g", c->value[1]);
     put(o, "\n");
   }
   for (i = 0; i < m->nreg_loops; i++) {

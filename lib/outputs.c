@@ -119,6 +119,23 @@ int kli_dim_resolve(const kl_model *m, const kl_dimension *d, kli_dim *out,
                                "(y)",
                d->axis);
   out->axis = d->axis;
+  out->coupling = -1;
+  if (d->kind == KL_DIMENSION_RADIUS) {
+    if (d->id < 0 || d->id >= m->ncouplings)
+      return kli_fail(buf, KL_EID,
+                      "dimension: coupling %d does not exist (%d couplings)",
+                      d->id, m->ncouplings);
+    if (m->couplings[d->id].kind == KL_COUPLING_RATIO ||
+        (m->couplings[d->id].kind == KL_COUPLING_RACK && d->axis != 0))
+      return kli_fail(buf, KL_EKIND,
+                      "dimension: coupling %d has no radius %d (a gear pair "
+                      "has radii 0 and 1, a rack radius 0)",
+                      d->id, d->axis);
+    out->joint = out->point = -1;
+    out->link = -1;
+    out->coupling = d->id;
+    return KL_OK;
+  }
   if (d->kind == KL_DIMENSION_POINT) {
     if (d->id < 0 || d->id >= m->npoints)
       return kli_fail(buf, KL_EID, "dimension: point %d does not exist (%d "

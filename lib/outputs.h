@@ -15,6 +15,7 @@
  * `joint`'s attachment on `link`, or (joint -1) point `point`'s own. */
 typedef struct {
   int joint, link, axis, point;
+  int coupling; /* a coupling's radius (joint and point -1), or -1 */
 } kli_dim;
 
 /* KL_OK if o names existing items of the right kinds; KL_EID, KL_EKIND or

@@ -17,14 +17,43 @@
  * grows longer instead, so that a far target costs bounded work. */
 #define KLI_REACH_MAX_STEPS 100000
 
+/* A point's global coordinate `axis` at the model's sketch (a link without
+ * a sketch angle at 0, a slide without a sketch slide at 0): its chain's
+ * terms summed, as a new solver's start pose places it. */
+static double sketch_coordinate(const kl_model *m, int point, int axis) {
+  const kli_chain *ch = &m->topo.points[point];
+  const kli_term *t = m->topo.terms + ch->first;
+  double sum = 0.0;
+  int k;
+  for (k = 0; k < ch->count; k++, t++) {
+    const kli_link *l = &m->links[t->link];
+    double angle = l->has_sketch ? l->sketch : 0.0;
+    if (t->joint < 0) {
+      sum += axis == 0 ? cos(angle) * t->v[0] - sin(angle) * t->v[1]
+                       : sin(angle) * t->v[0] + cos(angle) * t->v[1];
+    } else {
+      const kli_joint *j = &m->joints[t->joint];
+      double slide = j->has_sketch ? j->sketch : 0.0;
+      angle += j->axis;
+      sum += t->sign * slide * (axis == 0 ? cos(angle) : sin(angle));
+    }
+  }
+  return sum;
+}
+
 int kl_model_start_inputs(const kl_model *m, double *inputs) {
   int i;
   if (m == NULL || (m->ninputs > 0 && inputs == NULL))
     return KL_EINVAL;
-  for (i = 0; i < m->ninputs; i++) {
-    const kli_joint *j = &m->joints[m->inputs[i]];
-    inputs[i] = j->has_hold ? j->hold : 0.0;
-  }
+  for (i = 0; i < m->ninputs; i++)
+    inputs[i] = m->inputs[i] >= 0 && m->joints[m->inputs[i]].has_hold
+                    ? m->joints[m->inputs[i]].hold
+                    : 0.0;
+  /* a point input starts where the sketch puts its point (once the chains
+   * exist: after finalize) */
+  for (i = 0; m->finalized && i < m->npoint_inputs; i++)
+    inputs[m->point_inputs[i].input] = sketch_coordinate(
+        m, m->point_inputs[i].point, m->point_inputs[i].axis);
   if (m->has_sweep)
     inputs[m->sweep.input] = m->sweep.from;
   return KL_OK;
@@ -47,7 +76,7 @@ static void finish(kl_reach_result *result, int status, int input,
 static int move(kl_solver *s, int i, double target, kl_sweep_result *sw) {
   const kl_model *m = s->model;
   double from = s->st.u[i], delta = fabs(target - from);
-  double step = m->joints[m->inputs[i]].kind == KL_JOINT_REVOLUTE
+  double step = kli_input_is_angle(m, i)
                     ? KLI_REACH_ANGLE_STEP
                     : KLI_REACH_SLIDE_STEP * m->topo.scale;
   int steps = delta / step > KLI_REACH_MAX_STEPS ? KLI_REACH_MAX_STEPS
@@ -60,7 +89,7 @@ static int move(kl_solver *s, int i, double target, kl_sweep_result *sw) {
     return kli_fail(s->error, st == KL_LIMIT ? KL_ENOASSEMBLY : KL_ESINGULAR,
                     "reach: input %d (%s) %s at %.12g on its way from %.12g "
                     "to %.12g",
-                    i, kli_joint_label(m, m->inputs[i], lj, sizeof lj),
+                    i, kli_input_label(m, i, lj, sizeof lj),
                     st == KL_LIMIT ? "stops at a motion limit"
                                    : "meets a singular position",
                     sw->limit_input, from, target);

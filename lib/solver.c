@@ -50,6 +50,7 @@ static void carve_forces(kli_forces *f, kli_carver *c, const kl_model *m) {
   f->moment = kli_carve(c, (size_t)m->njoints, sizeof(double));
   f->effort = kli_carve(c, (size_t)m->ninputs, sizeof(double));
   f->ground = kli_carve(c, 3, sizeof(double));
+  f->coupling = kli_carve(c, (size_t)m->ncouplings, sizeof(double));
 }
 
 static void carve_state(kli_state *st, kli_carver *c, const kl_model *m) {
@@ -101,7 +102,9 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->f = kli_carve(c, (size_t)nr, sizeof(double));
   t->f_next = kli_carve(c, (size_t)nr, sizeof(double));
   t->grad = kli_carve(c, (size_t)n, sizeof(double));
-  t->pairs = kli_carve(c, 2 * (size_t)top->nnz_pairs, sizeof(double));
+  t->pairs = kli_carve(c, 2 * (size_t)top->nnz_pairs +
+                              (size_t)top->nextra_entries,
+                       sizeof(double));
   t->dir = kli_carve(c, 2 * (size_t)top->nloops, sizeof(double));
   t->kept_values = kli_carve(
       c, top->redundancy > 0 ? 2 * (size_t)top->nkept_pairs + (size_t)top->nkept_singles : 0,
@@ -145,7 +148,9 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   t->force_values = kli_carve(c, (size_t)fp->nentries, sizeof(double));
   t->force_rhs = kli_carve(c, (size_t)fp->n, sizeof(double));
   t->force_at = kli_carve(c, (size_t)nc, sizeof(double));
-  t->force_geometry = kli_carve(c, 6 * (size_t)m->njoints, sizeof(double));
+  t->force_geometry = kli_carve(
+      c, 6 * ((size_t)m->njoints + (size_t)top->nextra), sizeof(double));
+  t->extra_points = kli_carve(c, 2 * (size_t)top->nextra, sizeof(double));
   t->centre_velocity = kli_carve(c, 2 * (size_t)nl, sizeof(double));
   t->centre_accel = kli_carve(c, 2 * (size_t)nl, sizeof(double));
   t->scaled_xd = kli_carve(c, (size_t)nc, sizeof(double));
@@ -393,8 +398,7 @@ int kli_check_input_values(kl_solver *s, const double *values,
     if (!isfinite(values[i]))
       return kli_fail(s->error, KL_ENONFINITE,
                       "%s: %s %d (%s) is NaN or infinite", stage, what, i,
-                      kli_joint_label(s->model, s->model->inputs[i], lj,
-                                      sizeof lj));
+                      kli_input_label(s->model, i, lj, sizeof lj));
   return KL_OK;
 }
 
@@ -419,6 +423,9 @@ void kli_state_copy(const kl_solver *s, kli_state *to, const kli_state *from) {
            (size_t)m->njoints * sizeof(double));
     memcpy(to->forces.effort, from->forces.effort, ni);
     memcpy(to->forces.ground, from->forces.ground, 3 * sizeof(double));
+    if (s->model->ncouplings > 0)
+      memcpy(to->forces.coupling, from->forces.coupling,
+             (size_t)s->model->ncouplings * sizeof(double));
   }
   to->forces_solved = from->forces_solved;
   to->position_solved = from->position_solved;

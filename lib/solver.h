@@ -13,6 +13,7 @@
  * the load on ground (force x, y, moment about the origin). */
 typedef struct {
   double *force, *moment, *effort, *ground;
+  double *coupling; /* each coupling's force (kl_coupling_force) */
 } kli_forces;
 
 /* What a caller sees: a position, its rates and accelerations, the forces
@@ -105,7 +106,9 @@ struct kl_solver {
   kli_dense force;
   double *force_values, *force_rhs, *force_at;
   double *force_geometry; /* per joint at force_at: the arms from a's and
-                             b's centres to its point, its slide axis */
+                             b's centres to its point, its slide axis; then
+                             the same per extra row */
+  double *extra_points;   /* per extra row: where its force acts (2) */
   int force_factored;
   double *centre_velocity, *centre_accel;
   double *scaled_xd, *scaled_xdd;

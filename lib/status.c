@@ -46,6 +46,9 @@ const char *kl_status_str(int status) {
   case KL_EUNDERCUT: return "cam surface undercut by the roller";
   case KL_EPRESSURE: return "pressure angle above the bound";
   case KL_EJOIN: return "motion profile segments do not join";
+  case KL_ENOMESH: return "gear pair cannot mesh at its centre distance";
+  case KL_ENOCOMMON: return "coupled joints share no link";
+  case KL_ESELFCOUPLING: return "joint coupled with itself";
   default: return "unknown status";
   }
 }

@@ -348,7 +348,7 @@ int kli_study_resolve(kl_study *st, char *buf) {
     return kli_fail(buf, KL_EINVAL,
                     "the sweep's input does not exist (or the model has "
                     "more than 64 inputs)");
-  revolute = m->joints[m->inputs[st->sweep.input]].kind == KL_JOINT_REVOLUTE;
+  revolute = kli_input_is_angle(m, st->sweep.input);
   for (k = 0; k < st->njudge; k++) {
     kli_judge *j = &st->judge[k];
     if (j->how == KLI_JUDGE_AT && revolute)

@@ -340,8 +340,8 @@ static int cross_with(kl_solver *s, int input, double near, double span,
  * KL_ESINGULAR when no span gives a consistent crossing. */
 static int cross(kl_solver *s, int input, double near, double dir,
                  int det_sign, int *substeps, double *where) {
-  const kli_joint *j = &s->model->joints[s->model->inputs[input]];
-  double unit = j->kind == KL_JOINT_REVOLUTE ? 1.0 : s->model->topo.scale;
+  double unit =
+      kli_input_is_angle(s->model, input) ? 1.0 : s->model->topo.scale;
   int k;
   for (k = 0; k < 3; k++)
     if (cross_with(s, input, near, kli_cross_spans[k] * unit, dir, det_sign,

@@ -240,6 +240,8 @@ static int registered_loops(kl_model *m, work *w, int expected) {
   return KL_OK;
 }
 
+/* Gruebler's criterion with higher pairs: a slot joint and each coupling
+ * (a gear mesh, a rack, a belt) take one freedom, a lower pair two. */
 static int mobility(kl_model *m, int *dof) {
   int lower = 0, slots = 0, j, count;
   for (j = 0; j < m->njoints; j++) {
@@ -248,14 +250,14 @@ static int mobility(kl_model *m, int *dof) {
     else
       lower++;
   }
-  count = 3 * (m->nlinks - 1) - 2 * lower - slots;
+  count = 3 * (m->nlinks - 1) - 2 * lower - slots - m->ncouplings;
   *dof = count + m->redundancy;
   if (*dof < 0)
     return kli_fail(m->error, KL_EOVERCONSTRAINED,
                     "finalize: over-constrained: Gruebler's count gives "
                     "mobility %d (3 x %d moving links - 2 x %d revolute and "
-                    "prismatic joints - %d slot joints)%s",
-                    count, m->nlinks - 1, lower, slots,
+                    "prismatic joints - %d slot joints - %d couplings)%s",
+                    count, m->nlinks - 1, lower, slots, m->ncouplings,
                     m->redundancy > 0 ? ", below zero even with the "
                                         "redundant constraints declared"
                                       : "");
@@ -360,6 +362,8 @@ static int angle_groups(kl_model *m, work *w, kli_topology *t) {
   }
   for (j = 0; j < m->njoints; j++)
     t->coord_var[m->nlinks + j] = t->slide_var[j];
+  for (j = 0; j < m->npoint_inputs; j++)
+    t->coord_var[m->nlinks + m->njoints + j] = -1; /* an input's value */
   t->nvars = nvars;
   return KL_OK;
 }
@@ -480,6 +484,124 @@ static void build_pattern(work *w, kli_topology *t) {
   }
 }
 
+/* ---- extra rows: couplings and point inputs ---- */
+
+/* The coordinate a sketch gives: a link's sketch angle, a joint's slide. */
+static double sketch_coord(const kl_model *m, int coord) {
+  if (coord < m->nlinks)
+    return m->links[coord].has_sketch ? m->links[coord].sketch : 0.0;
+  return m->joints[coord - m->nlinks].has_sketch
+             ? m->joints[coord - m->nlinks].sketch
+             : 0.0;
+}
+
+static void add_coef(kli_extra *e, int coord, double coef) {
+  int k;
+  for (k = 0; k < e->ncoef; k++)
+    if (e->coord[k] == coord) {
+      e->coef[k] += coef;
+      return;
+    }
+  e->coord[e->ncoef] = coord;
+  e->coef[e->ncoef++] = coef;
+}
+
+/* coef times the joint's coordinate: angle(b) - angle(a), or its slide. */
+static void add_joint_coef(const kl_model *m, kli_extra *e, int joint,
+                           double coef) {
+  const kli_joint *j = &m->joints[joint];
+  if (j->kind == KL_JOINT_REVOLUTE) {
+    add_coef(e, j->link[1], coef);
+    add_coef(e, j->link[0], -coef);
+  } else {
+    add_coef(e, m->nlinks + joint, coef);
+  }
+}
+
+/* +1 when joint's coordinate is its other link's angle against `carrier`
+ * (carrier is link a), -1 when carrier is link b. */
+static double against(const kl_model *m, int joint, int carrier) {
+  return m->joints[joint].link[0] == carrier ? 1.0 : -1.0;
+}
+
+/* The linear part of a coupling's row, in length units: a gear pair
+ * r1 dphi1 +- r2 dphi2, a rack ds - r dphi, a ratio coupling
+ * dq2 - ratio dq1 (times the model's scale when q2 is an angle). */
+static void coupling_row(const kl_model *m, const kli_coupling *c,
+                         double scale, kli_extra *e) {
+  int k;
+  e->ncoef = 0;
+  if (c->kind == KL_COUPLING_GEAR) {
+    add_joint_coef(m, e, c->joint[0],
+                   c->value[0] * against(m, c->joint[0], c->carrier));
+    add_joint_coef(m, e, c->joint[1],
+                   (c->internal ? -1.0 : 1.0) * c->value[1] *
+                       against(m, c->joint[1], c->carrier));
+  } else if (c->kind == KL_COUPLING_RACK) {
+    add_joint_coef(m, e, c->joint[1], 1.0);
+    add_joint_coef(m, e, c->joint[0],
+                   -c->value[0] * against(m, c->joint[0], c->carrier));
+  } else {
+    double weight =
+        m->joints[c->joint[1]].kind == KL_JOINT_REVOLUTE ? scale : 1.0;
+    add_joint_coef(m, e, c->joint[1], weight);
+    add_joint_coef(m, e, c->joint[0], -weight * c->value[0]);
+  }
+  e->offset = 0.0;
+  for (k = 0; k < e->ncoef; k++)
+    e->offset += e->coef[k] * sketch_coord(m, e->coord[k]);
+}
+
+/* The entry of extra row `row` in column `col`, made on first use (col_nz
+ * maps columns to this row's entries until reset). */
+static int extra_entry(work *w, kli_topology *t, int row, int col) {
+  if (col < 0)
+    return -1;
+  if (w->col_nz[col] < 0) {
+    w->col_nz[col] = t->nextra_entries;
+    t->extra_entry_row[t->nextra_entries] = row;
+    t->extra_entry_col[t->nextra_entries++] = col;
+  }
+  return w->col_nz[col];
+}
+
+static void build_extra_rows(const kl_model *m, work *w, kli_topology *t) {
+  int e, k, first;
+  t->nextra_entries = 0;
+  for (e = 0; e < t->nextra; e++) {
+    kli_extra *x = &t->extra[e];
+    first = t->nextra_entries;
+    memset(x, 0, sizeof *x);
+    x->input = -1;
+    if (e < m->ncouplings) {
+      coupling_row(m, &m->couplings[e], t->scale, x);
+      for (k = 0; k < x->ncoef; k++)
+        x->entry[k] = extra_entry(w, t, e, t->coord_var[x->coord[k]]);
+    } else {
+      const kli_point_input *pi = &m->point_inputs[e - m->ncouplings];
+      const kli_point *pt = &m->points[pi->point];
+      x->axis = pi->axis;
+      x->input = pi->input;
+      x->ncoef = 1;
+      x->coord[0] = m->nlinks + m->njoints + (e - m->ncouplings);
+      x->coef[0] = -1.0;
+      x->entry[0] = -1;
+      build_path_chain(m, w, t, pt->link, pt->at, &x->chain);
+      for (k = x->chain.first; k < x->chain.first + x->chain.count; k++) {
+        kli_term *term = &t->terms[k];
+        int zero = term->joint < 0 && term->v[0] == 0.0 && term->v[1] == 0.0;
+        term->nz_angle =
+            zero ? -1 : extra_entry(w, t, e, w->group_var[term->link]);
+        term->nz_slide = term->joint >= 0
+                             ? extra_entry(w, t, e, t->slide_var[term->joint])
+                             : -1;
+      }
+    }
+    for (k = first; k < t->nextra_entries; k++)
+      w->col_nz[t->extra_entry_col[k]] = -1; /* reset for the next row */
+  }
+}
+
 /* Augmenting path for unknown `col` in the bipartite graph unknown -> rows. */
 static int augment(const kli_topology *t, work *w, int col, int stamp) {
   int p, side;
@@ -497,6 +619,17 @@ static int augment(const kli_topology *t, work *w, int col, int stamp) {
         w->match_row[col] = row;
         return 1;
       }
+    }
+  }
+  for (p = 0; p < t->nextra_entries; p++) {
+    int row = 2 * t->nloops + t->extra_entry_row[p];
+    if (t->extra_entry_col[p] != col || w->seen[row] == stamp)
+      continue;
+    w->seen[row] = stamp;
+    if (w->row_match[row] < 0 || augment(t, w, w->row_match[row], stamp)) {
+      w->row_match[row] = col;
+      w->match_row[col] = row;
+      return 1;
     }
   }
   return 0;
@@ -551,7 +684,7 @@ static int pinned_at_one_point(kl_model *m, const work *w) {
 static int structural_check(kl_model *m, work *w, const kli_topology *t) {
   int v, r, l;
   char la[64], lj[160];
-  for (r = 0; r < 2 * t->nloops; r++) {
+  for (r = 0; r < 2 * t->nloops + t->nextra; r++) {
     w->row_match[r] = -1;
     w->seen[r] = -1;
   }
@@ -581,6 +714,33 @@ static int structural_check(kl_model *m, work *w, const kli_topology *t) {
   return KL_OK;
 }
 
+/* The extra rows stay whole after the kept loop rows: their entries follow
+ * the kept system's singles. */
+static void keep_extra_entries(kli_topology *t) {
+  int e, first = t->loop_first_kept[t->nloops];
+  for (e = 0; e < t->nextra_entries; e++) {
+    t->kept_single_row[t->nkept_singles + e] = first + t->extra_entry_row[e];
+    t->kept_single_col[t->nkept_singles + e] = t->extra_entry_col[e];
+  }
+  t->nkept_singles += t->nextra_entries;
+}
+
+/* With redundancy, the matching may leave an extra row out; the declared
+ * redundancy must lie in the loops, so that is refused. */
+static int extra_rows_matched(kl_model *m, const work *w,
+                              const kli_topology *t) {
+  int e;
+  for (e = 0; e < t->nextra; e++)
+    if (w->row_match[2 * t->nloops + e] < 0)
+      return kli_fail(m->error, KL_EOVERCONSTRAINED,
+                      "finalize: over-constrained: the %s %d repeats what "
+                      "the loops and the other rows already fix; the "
+                      "declared redundancy must lie in the loops",
+                      e < m->ncouplings ? "coupling" : "point input",
+                      e < m->ncouplings ? e : e - m->ncouplings);
+  return KL_OK;
+}
+
 /*
  * The rows the structural matching leaves unmatched, one per redundant
  * constraint, leave the Newton system: per loop, how many rows stay, and
@@ -604,6 +764,7 @@ static void keep_rows(const work *w, kli_topology *t) {
     t->nkept_singles = 0;
     t->kept_pair_row = t->nz_row;
     t->kept_pair_col = t->nz_col;
+    keep_extra_entries(t);
     return;
   }
   for (p = 0; p < t->nnz_pairs; p++)
@@ -628,21 +789,30 @@ static void keep_rows(const work *w, kli_topology *t) {
     }
   }
   t->nkept_singles = singles;
+  keep_extra_entries(t);
 }
 
 /* The band-reducing ordering of the kept system, over the loops. */
 static int order_loops(kl_model *m, kli_topology *t) {
   int n = t->nvars, ne = t->nkept_pairs + t->nkept_singles, loop, r, e, st;
-  size_t bytes = (size_t)(n + 2 * ne + 1) * sizeof(int);
+  int ngroups = t->nloops + t->nextra;
+  size_t bytes = (size_t)(n + 2 * ne + ngroups + 2) * sizeof(int);
   int *scratch = kli_alloc(&m->alloc, bytes), *row_group, *entry_row, *entry_col;
+  int *group_start;
   kli_block_pattern bp;
   if (scratch == NULL)
     return KL_ENOMEM;
   row_group = scratch;
   entry_row = row_group + n;
   entry_col = entry_row + ne;
-  for (loop = 0; loop < t->nloops; loop++)
-    for (r = t->loop_first_kept[loop]; r < t->loop_first_kept[loop + 1]; r++)
+  group_start = entry_col + ne;
+  /* each loop's kept rows a group, each extra row a group of its own */
+  for (loop = 0; loop <= t->nloops; loop++)
+    group_start[loop] = t->loop_first_kept[loop];
+  for (e = 1; e <= t->nextra; e++)
+    group_start[t->nloops + e] = t->loop_first_kept[t->nloops] + e;
+  for (loop = 0; loop < ngroups; loop++)
+    for (r = group_start[loop]; r < group_start[loop + 1]; r++)
       row_group[r] = loop;
   for (e = 0; e < t->nkept_pairs; e++) {
     entry_row[e] = t->kept_pair_row[e];
@@ -652,8 +822,8 @@ static int order_loops(kl_model *m, kli_topology *t) {
     entry_row[t->nkept_pairs + e] = t->kept_single_row[e];
     entry_col[t->nkept_pairs + e] = t->kept_single_col[e];
   }
-  bp.ngroups = t->nloops;
-  bp.group_start = t->loop_first_kept;
+  bp.ngroups = ngroups;
+  bp.group_start = group_start;
   bp.row_group = row_group;
   bp.nentries = ne;
   bp.entry_row = entry_row;
@@ -682,7 +852,8 @@ static double model_scale(const kl_model *m, const work *w) {
 
 static void *carve_work(const kl_model *m, work *w, kli_carver *c) {
   int nl = m->nlinks, nj = m->njoints;
-  int rows = 2 * (nj + 1); /* rows of the loop equations, at most 2 (J-N+1) */
+  /* rows of the loop equations, at most 2 (J-N+1), and the extra rows */
+  int rows = 2 * (nj + 1) + m->ncouplings + m->npoint_inputs;
   size_t rank = (size_t)(m->nreg_loops > 0 ? m->nreg_loops : 1) *
                 (size_t)(m->nreg_loops > 0 ? m->nreg_loops : 1);
   int big = nl + nj + rows + 1;
@@ -708,7 +879,7 @@ static void *carve_work(const kl_model *m, work *w, kli_carver *c) {
 
 /* Arrays of the topology, sized from the loops and the tree. */
 static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
-                           kli_carver *c, int nterm_bound) {
+                           kli_carver *c, int nterm_bound, int nextra_bound) {
   int nvars = m->nlinks + m->njoints; /* a bound: the count comes later */
   int nl = m->nlinks, nj = m->njoints, nlj = w->loop_start[w->nloops];
   t->loop_joint_start = kli_carve(c, (size_t)w->nloops + 1, sizeof(int));
@@ -726,11 +897,13 @@ static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
   t->angle_sign = kli_carve(c, (size_t)nl, sizeof(double));
   t->slide_var = kli_carve(c, (size_t)nj, sizeof(int));
   t->slide_input = kli_carve(c, (size_t)nj, sizeof(int));
-  t->coord_var = kli_carve(c, (size_t)(nl + nj), sizeof(int));
+  t->coord_var = kli_carve(c, (size_t)(nl + nj + m->npoint_inputs),
+                          sizeof(int));
   /* a loop term touches at most two unknowns */
   t->nz_row = kli_carve(c, (size_t)nlj * 4, sizeof(int));
   t->nz_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));
-  t->band_row = kli_carve(c, (size_t)w->nloops * 2, sizeof(int));
+  t->band_row = kli_carve(c, (size_t)w->nloops * 2 + (size_t)t->nextra,
+                         sizeof(int));
   t->band_col = kli_carve(c, (size_t)nvars, sizeof(int));
   t->sites = kli_carve(c, (size_t)nj, sizeof(kl_output));
   t->skips = kli_carve(c, (size_t)nj, sizeof(kl_transmission_skip));
@@ -738,11 +911,18 @@ static void carve_topology(const kl_model *m, const work *w, kli_topology *t,
   t->loop_kept = kli_carve(c, (size_t)w->nloops, sizeof(int));
   t->loop_first_kept = kli_carve(c, (size_t)w->nloops + 1, sizeof(int));
   t->loop_lead = kli_carve(c, (size_t)w->nloops, sizeof(int));
+  t->extra = kli_carve(c, (size_t)t->nextra, sizeof(kli_extra));
+  t->extra_entry_row = kli_carve(c, (size_t)nextra_bound, sizeof(int));
+  t->extra_entry_col = kli_carve(c, (size_t)nextra_bound, sizeof(int));
+  {
+    size_t singles = (m->redundancy > 0 ? (size_t)nlj * 4 : 0) +
+                     (size_t)nextra_bound;
+    t->kept_single_row = kli_carve(c, singles, sizeof(int));
+    t->kept_single_col = kli_carve(c, singles, sizeof(int));
+  }
   if (m->redundancy > 0) {
     t->kept_pair_row = kli_carve(c, (size_t)nlj * 4, sizeof(int));
     t->kept_pair_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));
-    t->kept_single_row = kli_carve(c, (size_t)nlj * 4, sizeof(int));
-    t->kept_single_col = kli_carve(c, (size_t)nlj * 4, sizeof(int));
     t->pair_slot = kli_carve(c, (size_t)nlj * 4, sizeof(int));
   }
   kli_carve_reactions(m, &t->forces, c);
@@ -768,7 +948,7 @@ int kl_model_finalize(kl_model *m) {
   kli_carver wc = {NULL, 0}, tc = {NULL, 0};
   kli_topology t;
   int st, dof, expected_loops, l, p, nterm_bound;
-  long terms;
+  long terms, extra_bound;
   if (m == NULL)
     return KL_EINVAL;
   if (m->finalized)
@@ -801,12 +981,21 @@ int kl_model_finalize(kl_model *m) {
     terms += 2L * (w.depth[l] + 1);
   for (p = 0; p < m->npoints; p++)
     terms += 2L * (w.depth[m->points[p].link] + 1);
+  /* a point input's row walks its point's chain once more; a coupling row
+   * has at most KLI_EXTRA_COEFS entries, a point row one per unknown */
+  extra_bound = KLI_EXTRA_COEFS * m->ncouplings;
+  for (p = 0; p < m->npoint_inputs; p++) {
+    long chain = 2L * (w.depth[m->points[m->point_inputs[p].point].link] + 1);
+    terms += chain;
+    extra_bound += 2L * chain;
+  }
   if (terms > term_budget(m)) {
     st = too_large(m, terms);
     goto done;
   }
   nterm_bound = (int)terms;
-  carve_topology(m, &w, &t, &tc, nterm_bound);
+  t.nextra = m->ncouplings + m->npoint_inputs;
+  carve_topology(m, &w, &t, &tc, nterm_bound, (int)extra_bound);
   t.block_size = tc.used;
   t.block = kli_alloc(&m->alloc, tc.used);
   if (t.block == NULL) {
@@ -815,7 +1004,7 @@ int kl_model_finalize(kl_model *m) {
   }
   tc.base = t.block;
   tc.used = 0;
-  carve_topology(m, &w, &t, &tc, nterm_bound);
+  carve_topology(m, &w, &t, &tc, nterm_bound, (int)extra_bound);
 
   if ((st = angle_groups(m, &w, &t)) != KL_OK)
     goto done;
@@ -832,19 +1021,21 @@ int kl_model_finalize(kl_model *m) {
     static const double origin[2] = {0.0, 0.0};
     build_path_chain(m, &w, &t, l, origin, &t.origins[l]);
   }
+  t.scale = model_scale(m, &w);
+  build_extra_rows(m, &w, &t);
   if ((st = pinned_at_one_point(m, &w)) != KL_OK ||
-      (st = structural_check(m, &w, &t)) != KL_OK)
+      (st = structural_check(m, &w, &t)) != KL_OK ||
+      (st = extra_rows_matched(m, &w, &t)) != KL_OK)
     goto done;
   t.redundancy = m->redundancy;
-  t.nrows = 2 * t.nloops;
+  t.nrows = 2 * t.nloops + t.nextra;
   keep_rows(&w, &t);
   if (order_loops(m, &t) != KL_OK || kli_build_reactions(m, &t) != KL_OK) {
     st = kli_fail(m->error, KL_ENOMEM, "finalize: out of memory");
     goto done;
   }
-  t.ncoords = m->nlinks + m->njoints;
+  t.ncoords = m->nlinks + m->njoints + m->npoint_inputs;
   t.dof = dof;
-  t.scale = model_scale(m, &w);
   kli_find_transmissions(m, &t, w.marks);
   m->topo = t;
   m->finalized = 1;

@@ -57,6 +57,33 @@ static int has_sketch(const cli_model *cm) {
   return 0;
 }
 
+/* One line per coupling: what it joins, its radii or ratio, and the mesh. */
+static void print_couplings(FILE *f, const cli_model *cm) {
+  int n = kl_model_coupling_count(cm->model), i;
+  if (n <= 0)
+    return;
+  fprintf(f, LABEL "%d (each takes one freedom)\n", "couplings", n);
+  for (i = 0; i < n; i++) {
+    kl_coupling_info c;
+    c.size = sizeof c;
+    kl_model_coupling(cm->model, i, &c);
+    if (c.kind == KL_COUPLING_GEAR)
+      fprintf(f, LABEL "gear pair %s (r %g) with %s (r %g) on %s, %s mesh, "
+                 "ratio %.6g\n",
+              "", cm->joint_names[c.joint1], c.value1,
+              cm->joint_names[c.joint2], c.value2, cm->link_names[c.carrier],
+              c.internal ? "internal" : "external",
+              (c.internal ? 1.0 : -1.0) * c.value1 / c.value2);
+    else if (c.kind == KL_COUPLING_RACK)
+      fprintf(f, LABEL "rack %s driven by pinion %s (r %g) on %s\n", "",
+              cm->joint_names[c.joint2], cm->joint_names[c.joint1], c.value1,
+              cm->link_names[c.carrier]);
+    else
+      fprintf(f, LABEL "%s follows %s times %.6g\n", "",
+              cm->joint_names[c.joint2], cm->joint_names[c.joint1], c.value1);
+  }
+}
+
 static void print_structure(FILE *f, const cli_model *cm) {
   const kl_model *m = cm->model;
   int kinds[5] = {0, 0, 0, 0, 0}, j, i, loop;
@@ -90,8 +117,11 @@ static void print_structure(FILE *f, const cli_model *cm) {
           cm->ninputs, cm->ninputs == 1 ? "" : "s");
   for (i = 0; i < cm->ninputs; i++)
     fprintf(f, "%s%s (%s)", i ? ", " : ": ", cli_input_name(cm, i),
-            cli_input_is_angle(cm, i) ? "turning" : "sliding");
+            kl_model_input_joint(m, i) < 0 ? "point coordinate"
+            : cli_input_is_angle(cm, i)    ? "turning"
+                                           : "sliding");
   fputc('\n', f);
+  print_couplings(f, cm);
   fprintf(f, LABEL "%d independent loop%s\n", "loops", cm->nloops,
           cm->nloops == 1 ? "" : "s");
   for (loop = 0; loop < cm->nloops; loop++) {
@@ -384,7 +414,8 @@ int cli_check_report(FILE *f, const cli_model *cm, const cli_options *o) {
   if (found == 0) {
     fprintf(f, "\nno range to check: %s\n",
             cm->ninputs == 0 ? "the model has no inputs"
-                             : "input 1 slides and the model has no sweep "
+                             : "input 1 is a length (a slide or a point "
+                               "coordinate) and the model has no sweep "
                                "line; give --from and --to");
   } else {
     char a[320], why[2048];

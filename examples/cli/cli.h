@@ -90,6 +90,7 @@ typedef struct {
   char *owned_text;
   int nlinks, njoints, npoints, ninputs, nloops;
   char **link_names, **joint_names, **point_names; /* "@id" when unnamed */
+  char **input_names; /* the joint's name, or "point.x" for a point input */
   double angle_factor;     /* model angle unit per radian */
   const char *angle_unit;  /* "deg" or "rad" */
   const char *length_unit; /* "mm", "m", "in", or "len" when unstated */

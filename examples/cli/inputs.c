@@ -58,8 +58,9 @@ kl_solver *cli_solver_new(const cli_model *cm, const cli_options *o) {
 }
 
 int cli_input_is_angle(const cli_model *cm, int input) {
-  return kl_model_joint_kind(cm->model, kl_model_input_joint(cm->model, input)) ==
-         KL_JOINT_REVOLUTE;
+  int joint = kl_model_input_joint(cm->model, input);
+  return joint >= 0 && kl_model_joint_kind(cm->model, joint) ==
+                           KL_JOINT_REVOLUTE;
 }
 
 double cli_input_factor(const cli_model *cm, int input) {
@@ -71,7 +72,7 @@ const char *cli_input_unit(const cli_model *cm, int input) {
 }
 
 const char *cli_input_name(const cli_model *cm, int input) {
-  return cm->joint_names[kl_model_input_joint(cm->model, input)];
+  return cm->input_names[input];
 }
 
 void cli_format_input(const cli_model *cm, int input, double value, char *buf,
@@ -242,7 +243,8 @@ int cli_resolve_range(const cli_model *cm, const cli_options *o,
     r->to = r->from + 2.0 * CLI_PI;
   } else {
     if (asked) {
-      cli_error("input %d (%s) slides and the model has no sweep line for it: "
+      cli_error("input %d (%s) is a length (a slide or a point coordinate) "
+                "and the model has no sweep line for it: "
                 "give --to",
                 r->input + 1, cli_input_name(cm, r->input));
       return -1;

@@ -86,6 +86,35 @@ static char **labels(int n, const kl_model *m,
   return out;
 }
 
+/* Each input's name: its joint's, or its point's with ".x" or ".y". */
+static char **input_labels(const cli_model *cm) {
+  char **out = calloc((size_t)(cm->ninputs > 0 ? cm->ninputs : 1),
+                      sizeof *out);
+  int i;
+  if (out == NULL)
+    return NULL;
+  for (i = 0; i < cm->ninputs; i++) {
+    int joint = kl_model_input_joint(cm->model, i);
+    const char *base = joint >= 0
+                           ? cm->joint_names[joint]
+                           : cm->point_names[kl_model_input_point(cm->model, i)];
+    size_t n = strlen(base) + 3;
+    out[i] = malloc(n);
+    if (out[i] == NULL) {
+      while (i-- > 0)
+        free(out[i]);
+      free(out);
+      return NULL;
+    }
+    if (joint >= 0)
+      snprintf(out[i], n, "%s", base);
+    else
+      snprintf(out[i], n, "%s.%c", base,
+               kl_model_input_axis(cm->model, i) == 0 ? 'x' : 'y');
+  }
+  return out;
+}
+
 static void free_labels(char **l, int n) {
   int i;
   if (l == NULL)
@@ -146,6 +175,8 @@ static int fill_tables(cli_model *cm) {
   if (cm->link_names == NULL || cm->joint_names == NULL ||
       cm->point_names == NULL || cm->slides == NULL)
     return CLI_EXIT_MEMORY;
+  if ((cm->input_names = input_labels(cm)) == NULL)
+    return CLI_EXIT_MEMORY;
   for (j = 0; j < cm->njoints; j++)
     if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE)
       cm->slides[cm->nslides++] = j;
@@ -196,6 +227,7 @@ void cli_model_free(cli_model *cm) {
   free_labels(cm->link_names, cm->nlinks);
   free_labels(cm->joint_names, cm->njoints);
   free_labels(cm->point_names, cm->npoints);
+  free_labels(cm->input_names, cm->ninputs);
   free(cm->slides);
   free(cm->sites);
   free(cm->skips);
