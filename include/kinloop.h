@@ -448,7 +448,7 @@ KL_API int kl_model_sweep(const kl_model *m, kl_sweep_settings *sweep);
  * for a sliding input): kl_model_start_inputs gives it, so a sweep of another
  * input keeps it there (model-file statement `hold JOINT at VALUE`). The
  * swept input's own start is its sweep settings' start. Returns KL_OK,
- * KL_EINVAL (NULL model), KL_EID (no such input), KL_ENONFINITE, KL_ESTATE
+ * KL_EINVAL (NULL model), KL_EID (no such input), KL_EKIND (a point input), KL_ENONFINITE, KL_ESTATE
  * (finalized).
  */
 KL_API int kl_model_set_input_hold(kl_model *m, int input, double value);
@@ -1225,7 +1225,7 @@ typedef struct kl_segment {
  * or KL_EJOIN (from is not where the last segment ended), KL_EINVAL
  * (duration not positive, no such kind or law, a dwell that moves, a rise
  * that does not go up, a return that does not go down), KL_ENONFINITE,
- * KL_EID (no such input), KL_EDUPLICATE (the profile drives another input),
+ * KL_EID (no such input), KL_EKIND (a point input), KL_EDUPLICATE (the profile drives another input),
  * KL_ESTATE (finalized, or the profile is a table), KL_ENOMEM; on failure
  * the model is unchanged and kl_model_error says why.
  */
@@ -2013,7 +2013,7 @@ typedef struct kl_workspace_result {
  * Returns KL_OK, or on failure leaves the solver as it was (its message
  * says why) and returns:
  *  KL_EDOF        the model has not exactly two inputs
- *  KL_EKIND       an input is not a revolute joint, or the point is on
+ *  KL_EKIND       an input is not a revolute joint (a sliding or a point input), or the point is on
  *                 ground (it does not move)
  *  KL_EID         no such point
  *  KL_EINVAL      NULL solver, options or arrays, a size too small, cap
@@ -2471,6 +2471,8 @@ typedef struct kl_cam_report {
  */
 KL_API int kl_cam_check(kl_cam *c, int nsamples, double max_pressure,
                         kl_cam_report *report);
+
+/* ------------------------------------------------------------------------
  * Couplings and point inputs: rows beyond loop closure
  *
  * Each coupling and each point input adds one scalar equation and no

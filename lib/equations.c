@@ -351,12 +351,12 @@ static void extra_jacobian(const kl_model *m, const kli_extra *e,
       rotated(t, p, r);
       values[t->nz_angle] += ax == 0 ? -r[1] : r[0];
     } else {
-      double sl = p->x[m->nlinks + t->joint];
-      slide_dir(m, t, p, r);
+      double g[6]; /* the slot's path, signed, in the global frame */
+      slide_path(m, t, p, g);
       if (t->nz_slide >= 0)
-        values[t->nz_slide] += t->sign * r[ax];
+        values[t->nz_slide] += g[2 + ax];
       if (t->nz_angle >= 0)
-        values[t->nz_angle] += t->sign * sl * (ax == 0 ? -r[1] : r[0]);
+        values[t->nz_angle] += ax == 0 ? -g[1] : g[0];
     }
   }
 }
@@ -412,12 +412,22 @@ void kli_loops_add_second(const kl_model *m, const kli_pose *p,
 
 void kli_loops_add_third(const kl_model *m, const kli_pose *p,
                          const double *v, const double *a, double *out) {
-  int i;
+  int i, rows = 2 * m->topo.nloops;
   for (i = 0; i < m->topo.nloops; i++) {
     double b[2];
     kli_chain_third(m, &m->topo.loops[i], p, v, a, b);
     out[2 * i] += b[0];
     out[2 * i + 1] += b[1];
+  }
+  /* as for the second order: a coupling row is linear, a point row takes
+   * its chain's third-order terms */
+  for (i = 0; i < m->topo.nextra; i++) {
+    const kli_extra *e = &m->topo.extra[i];
+    double b[2];
+    if (e->chain.count == 0)
+      continue;
+    kli_chain_third(m, &e->chain, p, v, a, b);
+    out[rows + i] += b[e->axis];
   }
 }
 

@@ -752,6 +752,11 @@ int kl_model_set_input_hold(kl_model *m, int input, double value) {
                     "set input hold: input %d does not exist (%d inputs so "
                     "far)",
                     input, m->ninputs);
+  if (m->inputs[input] < 0)
+    return kli_fail(m->error, KL_EKIND,
+                    "set input hold: input %d is a point input; it starts "
+                    "where the sketch puts its point",
+                    input);
   if (!isfinite(value))
     return kli_fail(m->error, KL_ENONFINITE,
                     "set input hold: the value is NaN or infinite");
@@ -761,7 +766,7 @@ int kl_model_set_input_hold(kl_model *m, int input, double value) {
 }
 
 double kl_model_input_hold(const kl_model *m, int input) {
-  if (m == NULL || input < 0 || input >= m->ninputs ||
+  if (m == NULL || input < 0 || input >= m->ninputs || m->inputs[input] < 0 ||
       !m->joints[m->inputs[input]].has_hold)
     return NAN;
   return m->joints[m->inputs[input]].hold;

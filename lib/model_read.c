@@ -572,6 +572,8 @@ static int read_timetable(model_reader *mr) {
   if (cap > 0)
     kli_free(a, pairs, (size_t)cap * sizeof *pairs);
   return st;
+}
+
 /* ---- couplings and point inputs ---- */
 
 /* gears JOINT1 JOINT2 R1 R2 | rack PINION RACK R | couple JOINT1 JOINT2 RATIO */

@@ -248,7 +248,10 @@ static void write_model(const kl_model *m, sink *o) {
       put(o, " %.17g\n", m->joints[i].sketch);
     }
   for (i = 0; i < m->ninputs; i++) {
-    const kli_joint *j = &m->joints[m->inputs[i]];
+    const kli_joint *j;
+    if (m->inputs[i] < 0)
+      continue; /* a point input has no hold */
+    j = &m->joints[m->inputs[i]];
     if (!j->has_hold)
       continue;
     put(o, "hold");

@@ -27,6 +27,11 @@ static int check_profile_input(kl_model *m, int input, const char *what) {
     return kli_fail(m->error, KL_EID,
                     "%s: input %d does not exist (%d inputs so far)", what,
                     input, m->ninputs);
+  if (m->inputs[input] < 0)
+    return kli_fail(m->error, KL_EKIND,
+                    "%s: input %d is a point input; a profile drives a "
+                    "joint's input",
+                    what, input);
   if (has_profile(m) && input != m->profile_input)
     return kli_fail(m->error, KL_EDUPLICATE,
                     "%s: the model's profile drives input %d, not %d", what,

@@ -69,8 +69,8 @@ static double *dimension_slot(kl_model *m, const kli_vary *v) {
 /* An input's value at the start when the study does not sweep it: the
  * model's `hold`, else 0. */
 static double held(const kl_model *m, int input) {
-  const kli_joint *j = &m->joints[m->inputs[input]];
-  return j->has_hold ? j->hold : 0.0;
+  double hold = kl_model_input_hold(m, input);
+  return isnan(hold) ? 0.0 : hold;
 }
 
 /* The solver at the start of the sweep, sketched from the nominal. */
@@ -597,8 +597,7 @@ int kl_study_output_quantity(const kl_study *st, int k) {
     return KL_EID;
   j = &st->judge[k];
   turning = st->sweep.input >= 0 && st->sweep.input < st->model->ninputs &&
-            st->model->joints[st->model->inputs[st->sweep.input]].kind ==
-                KL_JOINT_REVOLUTE;
+            kli_input_is_angle(st->model, st->sweep.input);
   if (j->how == KLI_JUDGE_REACH)
     return turning ? KL_STUDY_ANGLE : KL_STUDY_LENGTH;
   if (j->how == KLI_JUDGE_EFFORT)

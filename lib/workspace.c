@@ -696,6 +696,11 @@ static int check(kl_solver *s, int point, const kl_workspace_options *o,
                     stage, n);
   for (int i = 0; i < 2; i++) {
     int j = kl_model_input_joint(m, i);
+    if (j < 0)
+      return kli_fail(s->error, KL_EKIND,
+                      "%s: input %d is a point input; the workspace takes "
+                      "turning inputs over whole turns",
+                      stage, i);
     if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE) {
       char label[96];
       return kli_fail(s->error, KL_EKIND,

@@ -315,6 +315,46 @@ END_TEST
 #define PF_B2 85.0
 #define PF_D 60.0
 
+/* The tip driven around the circle of radius 15 about (30, 95) at unit
+ * angular rate: the cranks' jerks (the point rows' third-order terms
+ * included) against central differences of their accelerations (common
+ * practice, no source). */
+static void tip_motion(double phi, int order, double u[2]) {
+  /* d^order/dphi^order of (30 + 15 cos phi, 95 + 15 sin phi) */
+  double c = cos(phi + order * PI / 2), s = sin(phi + order * PI / 2);
+  u[0] = (order == 0 ? 30.0 : 0.0) + 15.0 * c;
+  u[1] = (order == 0 ? 95.0 : 0.0) + 15.0 * s;
+}
+
+static void solve_motion_at(kl_solver *s, double phi, int jerk) {
+  double u[2], ud[2], udd[2], uddd[2];
+  tip_motion(phi, 0, u);
+  tip_motion(phi, 1, ud);
+  tip_motion(phi, 2, udd);
+  tip_motion(phi, 3, uddd);
+  solve_at(s, u);
+  ck_assert_int_eq(kl_solve_velocity(s, ud), KL_OK);
+  ck_assert_int_eq(kl_solve_acceleration(s, udd), KL_OK);
+  if (jerk)
+    ck_assert_int_eq(kl_solve_jerk(s, uddd), KL_OK);
+}
+
+static void check_jerk_along_circle(kl_solver *s, double phi, int c1, int c2) {
+  const double h = 1e-5;
+  double up[2], down[2];
+  solve_motion_at(s, phi + h, 0);
+  up[0] = kl_link_accel(s, c1);
+  up[1] = kl_link_accel(s, c2);
+  solve_motion_at(s, phi - h, 0);
+  down[0] = kl_link_accel(s, c1);
+  down[1] = kl_link_accel(s, c2);
+  solve_motion_at(s, phi, 1);
+  ck_assert_double_eq_tol(kl_link_jerk(s, c1), (up[0] - down[0]) / (2 * h),
+                          1e-6);
+  ck_assert_double_eq_tol(kl_link_jerk(s, c2), (up[1] - down[1]) / (2 * h),
+                          1e-6);
+}
+
 START_TEST(fivebar_point_inputs_match_two_circle_intersections) {
   kl_model *m = kl_model_new();
   int c1 = kl_add_link(m, "left crank"), c2 = kl_add_link(m, "right crank");
@@ -331,6 +371,11 @@ START_TEST(fivebar_point_inputs_match_two_circle_intersections) {
   tip = kl_add_point(m, l1, PF_B1, 0, "tip");
   ck_assert_int_eq(kl_add_point_input(m, tip, 0), 0);
   ck_assert_int_eq(kl_add_point_input(m, tip, 1), 1);
+  /* a point input has no hold, no time profile (they drive a joint) */
+  ck_assert_int_eq(kl_model_set_input_hold(m, 0, 1.0), KL_EKIND);
+  ck_assert(isnan(kl_model_input_hold(m, 0)));
+  ck_assert_int_eq(kl_add_segment(m, 1, KL_SEGMENT_DWELL, 0, 1.0, 0.0, 0.0),
+                   KL_EKIND);
   /* the elbows out: the left pin on the left of O1 -> T, the right pin on
    * the right of O2 -> T */
   side1 = +1;
@@ -347,6 +392,16 @@ START_TEST(fivebar_point_inputs_match_two_circle_intersections) {
   ck_assert_int_eq(kl_model_input_axis(m, 1), 1);
   ck_assert_int_eq(kl_model_input_joint(m, 0), KL_EKIND);
   s = kl_solver_new(m);
+  {
+    /* the workspace takes two turning inputs: point inputs are refused */
+    double xy[8];
+    int curve[4], kind[4];
+    kl_workspace_options o;
+    kl_workspace_options_default(&o);
+    ck_assert_int_eq(kl_solver_workspace(s, tip, &o, xy, curve, kind, 4, NULL),
+                     KL_EKIND);
+    ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "point input"));
+  }
   /* the tip around a circle of radius 15 about (30, 95) */
   for (k = 0; k <= 72; k++) {
     double phi = k * 2 * PI / 72, t[2], xy[2];
@@ -361,6 +416,8 @@ START_TEST(fivebar_point_inputs_match_two_circle_intersections) {
     ck_assert_int_eq(kl_point_position(s, tip, xy), KL_OK);
     ck_assert_double_eq_tol(xy[0], t[0], 1e-9);
     ck_assert_double_eq_tol(xy[1], t[1], 1e-9);
+    if (k % 9 == 4)
+      check_jerk_along_circle(s, phi, c1, c2);
   }
   kl_solver_free(s);
   kl_model_free(m);
