@@ -7,14 +7,34 @@
 
 #include "ordering.h"
 
+/* Sorts v[0..n) by degree, keeping the order of equal degrees (a bottom-up
+ * merge sort through tmp, n ints): O(n log n), where inserting one by one
+ * made a link with many neighbours, or many unconnected groups, cost n^2. */
+static void sort_by_degree(int *v, int n, const int *degree, int *tmp) {
+  int width, i;
+  for (width = 1; width < n; width *= 2) {
+    for (i = 0; i < n; i += 2 * width) {
+      int mid = i + width < n ? i + width : n;
+      int end = i + 2 * width < n ? i + 2 * width : n, a = i, b = mid, k = i;
+      while (a < mid && b < end)
+        tmp[k++] = degree[v[b]] < degree[v[a]] ? v[b++] : v[a++];
+      while (a < mid)
+        tmp[k++] = v[a++];
+      while (b < end)
+        tmp[k++] = v[b++];
+    }
+    memcpy(v, tmp, (size_t)n * sizeof *v);
+  }
+}
+
 int kli_band_order(const kli_allocator *a, const kli_block_pattern *p,
                    int *band_row, int *band_col, int *lower, int *upper) {
   int ng = p->ngroups, nc = p->ncols, ne = p->nentries;
   int *group_entries, *entry_start, *col_start, *col_entries, *degree;
-  int *group_pos, *queue, *row_start, *fill;
-  int i, e, k, head, tail, next_col = 0, placed = 0;
+  int *group_pos, *queue, *row_start, *fill, *by_degree;
+  int i, e, k, head, tail, next_col = 0, placed = 0, next_start = 0;
   /* in size_t: the sum of the model's counts may exceed an int */
-  size_t bytes = kli_size_mul(6 * (size_t)ng + 2 * (size_t)ne + 2 * (size_t)nc + 3,
+  size_t bytes = kli_size_mul(7 * (size_t)ng + 2 * (size_t)ne + 2 * (size_t)nc + 3,
                               sizeof(int));
   int *scratch = kli_alloc(a, bytes);
   if (scratch == NULL)
@@ -28,6 +48,7 @@ int kli_band_order(const kli_allocator *a, const kli_block_pattern *p,
   queue = group_pos + ng;            /* ng */
   row_start = queue + ng;            /* ng + 1: first ordered row of each place */
   fill = row_start + ng + 1;         /* max(ng, nc) */
+  by_degree = fill + (ng > nc ? ng : nc); /* ng: the groups, fewest first */
   memset(entry_start, 0, (size_t)(ng + 1) * sizeof(int));
   memset(col_start, 0, (size_t)(nc + 1) * sizeof(int));
   for (e = 0; e < ne; e++) {
@@ -55,12 +76,17 @@ int kli_band_order(const kli_allocator *a, const kli_block_pattern *p,
   }
   for (i = 0; i < nc; i++)
     band_col[i] = -1;
+  for (i = 0; i < ng; i++)
+    by_degree[i] = i;
+  sort_by_degree(by_degree, ng, degree, fill);
   head = tail = 0;
   while (placed < ng) {
-    int start = -1;
-    for (i = 0; i < ng; i++)
-      if (group_pos[i] < 0 && (start < 0 || degree[i] < degree[start]))
-        start = i;
+    /* each part starts at the unplaced group of least degree (the first
+     * of equals) */
+    int start;
+    while (group_pos[by_degree[next_start]] >= 0)
+      next_start++;
+    start = by_degree[next_start];
     group_pos[start] = placed++;
     queue[tail++] = start;
     while (head < tail) {
@@ -70,17 +96,15 @@ int kli_band_order(const kli_allocator *a, const kli_block_pattern *p,
         if (band_col[col] < 0)
           band_col[col] = next_col++;
         for (c = col_start[col]; c < col_start[col + 1]; c++) {
-          int other = p->row_group[p->entry_row[col_entries[c]]], j;
+          int other = p->row_group[p->entry_row[col_entries[c]]];
           if (group_pos[other] >= 0)
             continue;
           group_pos[other] = placed++;
-          /* insert by degree among this group's new neighbours */
-          for (j = tail++; j > first && degree[queue[j - 1]] > degree[other];
-               j--)
-            queue[j] = queue[j - 1];
-          queue[j] = other;
+          queue[tail++] = other;
         }
       }
+      /* this group's new neighbours by degree */
+      sort_by_degree(queue + first, tail - first, degree, fill);
       /* places follow the queue's order */
       for (k = first; k < tail; k++)
         group_pos[queue[k]] = placed - (tail - k);

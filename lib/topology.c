@@ -7,6 +7,7 @@
  */
 #include <math.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "ordering.h"
@@ -28,6 +29,8 @@ typedef struct {
   int nloops, nloop_joints, cap_loop_joints;
   double *rank_work;
   int *marks;                       /* links + joints: the transmission rule's */
+  double *scale_points;             /* 2 per joint end: a link's points */
+  int *hull;                        /* 1 per joint end: their convex hull */
 } work;
 
 static int union_find(int *parent, int x) {
@@ -835,18 +838,87 @@ static int order_loops(kl_model *m, kli_topology *t) {
   return st;
 }
 
+/* Links with more joints than this have their farthest pair found on the
+ * convex hull: every pair checked would make finalize quadratic in a
+ * link's joints (a ground carrying 10^5 pivots). */
+#define KLI_SCALE_ALL_PAIRS 32
+
+static double distance(const double *p, const double *q) {
+  return hypot(p[0] - q[0], p[1] - q[1]);
+}
+
+static int by_x_then_y(const void *a, const void *b) {
+  const double *p = a, *q = b;
+  if (p[0] != q[0])
+    return p[0] < q[0] ? -1 : 1;
+  return p[1] < q[1] ? -1 : p[1] > q[1];
+}
+
+/* Twice the signed area of triangle o, a, b (> 0 counter-clockwise). */
+static double turn(const double *o, const double *a, const double *b) {
+  return (a[0] - o[0]) * (b[1] - o[1]) - (a[1] - o[1]) * (b[0] - o[0]);
+}
+
+/* The largest distance between n points (x, y pairs, sorted here): the
+ * convex hull by the monotone chain, then its antipodal pairs by rotating
+ * calipers (Shamos; from memory). The farthest pair is a pair of hull
+ * vertices, so the result is the all-pairs maximum to the bit. */
+static double diameter(double *pts, int n, int *hull) {
+  int h = 0, k, i, j, lower;
+  double best = 0.0;
+  qsort(pts, (size_t)n, 2 * sizeof *pts, by_x_then_y);
+  for (k = 0; k < n; k++) { /* lower hull */
+    while (h >= 2 && turn(pts + 2 * hull[h - 2], pts + 2 * hull[h - 1],
+                          pts + 2 * k) <= 0)
+      h--;
+    hull[h++] = k;
+  }
+  lower = h + 1;
+  for (k = n - 2; k >= 0; k--) { /* upper hull */
+    while (h >= lower && turn(pts + 2 * hull[h - 2], pts + 2 * hull[h - 1],
+                              pts + 2 * k) <= 0)
+      h--;
+    hull[h++] = k;
+  }
+  h--; /* the first point closes the chain */
+  if (h < 3) {
+    for (i = 0; i < h; i++)
+      for (j = i + 1; j < h; j++)
+        best = fmax(best, distance(pts + 2 * hull[i], pts + 2 * hull[j]));
+    return best;
+  }
+  for (i = 0, j = 1; i < h; i++) {
+    const double *a = pts + 2 * hull[i], *b = pts + 2 * hull[(i + 1) % h];
+    while (turn(a, b, pts + 2 * hull[(j + 1) % h]) >
+           turn(a, b, pts + 2 * hull[j]))
+      j = (j + 1) % h;
+    best = fmax(best, fmax(distance(a, pts + 2 * hull[j]),
+                           distance(b, pts + 2 * hull[j])));
+  }
+  return best;
+}
+
 static double model_scale(const kl_model *m, const work *w) {
   double scale = 0.0;
   int l, i, k;
-  for (l = 0; l < m->nlinks; l++)
-    for (i = w->adj_start[l]; i < w->adj_start[l + 1]; i++)
-      for (k = i + 1; k < w->adj_start[l + 1]; k++) {
-        const double *p = kli_joint_point_on(m, w->adj_joint[i], l);
-        const double *q = kli_joint_point_on(m, w->adj_joint[k], l);
-        double d = hypot(p[0] - q[0], p[1] - q[1]);
+  for (l = 0; l < m->nlinks; l++) {
+    int first = w->adj_start[l], n = w->adj_start[l + 1] - first;
+    if (n > KLI_SCALE_ALL_PAIRS) {
+      for (i = 0; i < n; i++)
+        memcpy(w->scale_points + 2 * i,
+               kli_joint_point_on(m, w->adj_joint[first + i], l),
+               2 * sizeof(double));
+      scale = fmax(scale, diameter(w->scale_points, n, w->hull));
+      continue;
+    }
+    for (i = first; i < first + n; i++)
+      for (k = i + 1; k < first + n; k++) {
+        double d = distance(kli_joint_point_on(m, w->adj_joint[i], l),
+                            kli_joint_point_on(m, w->adj_joint[k], l));
         if (d > scale)
           scale = d;
       }
+  }
   return scale > 0.0 ? scale : 1.0;
 }
 
@@ -874,6 +946,8 @@ static void *carve_work(const kl_model *m, work *w, kli_carver *c) {
   w->loop_start = kli_carve(c, (size_t)nj + 2, sizeof(int));
   w->rank_work = kli_carve(c, rank, sizeof(double));
   w->marks = kli_carve(c, (size_t)(nl + nj), sizeof(int));
+  w->scale_points = kli_carve(c, 4 * (size_t)nj, sizeof(double));
+  w->hull = kli_carve(c, 2 * (size_t)nj + 1, sizeof(int));
   return c->base;
 }
 

@@ -544,6 +544,44 @@ START_TEST(reading_the_model_back) {
 }
 END_TEST
 
+/* The model's scale is its largest link's farthest pair of attachment
+ * points. A ground carrying many pivots (more than the all-pairs limit)
+ * takes the convex hull's way: the result must be the all-pairs maximum
+ * computed here to the bit, for pivots on a circle (every one on the
+ * hull), inside it, and on a line. */
+static void check_scale_of_pivots(int n, int shape) {
+  kl_model *m = kl_model_new();
+  double xy[2 * 400], best = 0.0;
+  int k, i;
+  unsigned seed = 12345u;
+  for (k = 0; k < n; k++) {
+    double r, a;
+    seed = seed * 1103515245u + 12345u;
+    r = (double)(seed >> 8) / 16777216.0;
+    a = 2 * PI * k / n + 0.01 * r;
+    xy[2 * k] = shape == 0 ? 50 * cos(a) : shape == 1 ? 50 * r * cos(7 * a) : 3 * k - 0.5 * n;
+    xy[2 * k + 1] = shape == 0 ? 50 * sin(a) : shape == 1 ? 50 * r * sin(7 * a) : 2 * k + 1.0;
+    kl_add_input(m, kl_add_revolute(m, KL_GROUND, xy[2 * k], xy[2 * k + 1],
+                                    kl_add_link(m, NULL), 0, 0));
+  }
+  for (k = 0; k < n; k++)
+    for (i = k + 1; i < n; i++)
+      best = fmax(best, hypot(xy[2 * k] - xy[2 * i], xy[2 * k + 1] - xy[2 * i + 1]));
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  ck_assert_double_eq(kl_model_scale(m), best);
+  kl_model_free(m);
+}
+
+START_TEST(scale_is_the_farthest_pair_on_a_link) {
+  int shape;
+  for (shape = 0; shape < 3; shape++) {
+    check_scale_of_pivots(20, shape);
+    check_scale_of_pivots(33, shape);
+    check_scale_of_pivots(400, shape);
+  }
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("model");
   TCase *tc = tcase_create("model");
@@ -567,6 +605,7 @@ int main(void) {
   tcase_add_test(tc, size_limits);
   tcase_add_test(tc, builders_fail_after_finalize);
   tcase_add_test(tc, reading_the_model_back);
+  tcase_add_test(tc, scale_is_the_farthest_pair_on_a_link);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }
