@@ -390,45 +390,41 @@ void kli_loops_rate(const kl_model *m, const kli_pose *p, const double *v,
     out[rows + i] = extra_rate(m, &m->topo.extra[i], p, v);
 }
 
-void kli_loops_add_second(const kl_model *m, const kli_pose *p,
-                          const double *va, const double *vb, double *out) {
+/* A chain's terms of one order beyond the Jacobian's (second or third,
+ * from two vectors of rates): kli_chain_second or kli_chain_third. */
+typedef void (*chain_terms_fn)(const kl_model *m, const kli_chain *ch,
+                               const kli_pose *p, const double *x,
+                               const double *y, double out[2]);
+
+/* Adds `terms` over every loop row and every extra row: a coupling row is
+ * linear (nothing to add), a point row takes its chain's component. */
+static void add_terms(const kl_model *m, const kli_pose *p, chain_terms_fn terms,
+                      const double *x, const double *y, double *out) {
   int i, rows = 2 * m->topo.nloops;
   for (i = 0; i < m->topo.nloops; i++) {
     double b[2];
-    kli_chain_second(m, &m->topo.loops[i], p, va, vb, b);
+    terms(m, &m->topo.loops[i], p, x, y, b);
     out[2 * i] += b[0];
     out[2 * i + 1] += b[1];
   }
-  /* a coupling row is linear: only a point row has second-order terms */
   for (i = 0; i < m->topo.nextra; i++) {
     const kli_extra *e = &m->topo.extra[i];
     double b[2];
     if (e->chain.count == 0)
       continue;
-    kli_chain_second(m, &e->chain, p, va, vb, b);
+    terms(m, &e->chain, p, x, y, b);
     out[rows + i] += b[e->axis];
   }
 }
 
+void kli_loops_add_second(const kl_model *m, const kli_pose *p,
+                          const double *va, const double *vb, double *out) {
+  add_terms(m, p, kli_chain_second, va, vb, out);
+}
+
 void kli_loops_add_third(const kl_model *m, const kli_pose *p,
                          const double *v, const double *a, double *out) {
-  int i, rows = 2 * m->topo.nloops;
-  for (i = 0; i < m->topo.nloops; i++) {
-    double b[2];
-    kli_chain_third(m, &m->topo.loops[i], p, v, a, b);
-    out[2 * i] += b[0];
-    out[2 * i + 1] += b[1];
-  }
-  /* as for the second order: a coupling row is linear, a point row takes
-   * its chain's third-order terms */
-  for (i = 0; i < m->topo.nextra; i++) {
-    const kli_extra *e = &m->topo.extra[i];
-    double b[2];
-    if (e->chain.count == 0)
-      continue;
-    kli_chain_third(m, &e->chain, p, v, a, b);
-    out[rows + i] += b[e->axis];
-  }
+  add_terms(m, p, kli_chain_third, v, a, out);
 }
 
 void kli_jacobian_pairs(const kl_model *m, const kli_pose *p, double *pairs) {
