@@ -206,5 +206,19 @@ typedef struct {
   double ratio_largest; /* time per item at 900,000 over that at 1,000 */
 } reader_figures;
 void bench_reader(FILE *out, const bench_plan *plan, reader_figures *fig);
+/* ---- part 9: the five-bar's inverse kinematics along a path ---- */
+
+#define IK_POINTS 1000
+
+typedef struct {
+  double kinloop_ns, closed_form_ns; /* per path point */
+  double ratio;                /* kinloop / closed form, paired over rounds */
+  double max_angle_difference; /* largest |crank angle difference|, rad */
+  int valid; /* no point failed, angles within BENCH_MAX_ERROR */
+} inverse_figures;
+
+/* Runs and prints part 9: the two-input five-bar's tool point along a path
+ * of IK_POINTS points, kinloop against two circle intersections. */
+void bench_inverse(FILE *out, const bench_plan *plan, inverse_figures *fig);
 
 #endif
