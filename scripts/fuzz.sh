@@ -44,8 +44,9 @@ for pair in model_read:model study_read:study study_run:study_run api:api; do
   fi
 done
 echo "== fuzz_bindings for $seconds s =="
-cmake -S . -B build-fuzz-bindings -DKINLOOP_BUILD_TESTS=OFF \
-  -DKINLOOP_BUILD_EXAMPLES=OFF -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
+# the bindings are configured with the tests (their targets live there)
+cmake -S . -B build-fuzz-bindings -DKINLOOP_BUILD_EXAMPLES=OFF \
+  -DCMAKE_BUILD_TYPE=RelWithDebInfo >/dev/null
 cmake --build build-fuzz-bindings -j2 --target kinloop kinloop_python
 PYTHONPATH=build-fuzz-bindings/bindings/python PYTHONDONTWRITEBYTECODE=1 \
   /usr/bin/python3 tests/fuzz/fuzz_bindings.py --seconds "$seconds"

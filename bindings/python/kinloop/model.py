@@ -250,12 +250,13 @@ class Model(_api.ModelMethods, Handle):
                                          path))
 
     def to_text(self):
-        """The model as model-file text."""
+        """The model as model-file text (a byte that is not UTF-8, from a name
+        given as bytes, reads as U+FFFD, as in every string from C)."""
         h, needed = self._handle, ctypes.c_size_t()
         check_const(_api.kl_model_write(h, None, 0, ctypes.byref(needed)), "to_text")
         buf = ctypes.create_string_buffer(needed.value + 1)
         check_const(_api.kl_model_write(h, buf, len(buf), ctypes.byref(needed)), "to_text")
-        return buf.raw[:needed.value].decode("utf-8")
+        return text(buf.raw[:needed.value])
 
     def write_file(self, path):
         """Writes the model to the file at `path`."""

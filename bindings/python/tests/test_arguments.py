@@ -181,3 +181,13 @@ def test_steps_beyond_the_limit_are_too_large(solved):
         assert info.value.status == kl.Status.ETOOLARGE
         assert "at most 10000000" in info.value.message
     assert s.input_value(0) == 1.0
+
+
+def test_a_name_given_as_bytes_that_are_not_utf8_writes_back():
+    """A name given as bytes reaches C as it is; the written model reads
+    its non-UTF-8 byte as U+FFFD, as every string from C does (the
+    bindings fuzzer found to_text raising UnicodeDecodeError here)."""
+    with kl.Model() as m:
+        m.add_link(b"arm\xff")
+        text = m.to_text()
+    assert "arm\ufffd" in text
