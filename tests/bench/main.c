@@ -32,12 +32,13 @@ static void print_target(FILE *out, const target *t) {
 }
 
 static void usage(FILE *out) {
-  fprintf(out, "usage: kinloop-bench [--quick] [--reader]\n"
+  fprintf(out, "usage: kinloop-bench [--quick] [--reader] [--couplings]\n"
                "  times kinloop against the closed form and GSL; never fails "
                "on time\n"
                "  --quick  one call per method and few chain steps (for "
                "valgrind and callgrind)\n"
-               "  --reader the model reader's row alone (part 8)\n");
+               "  --reader the model reader's row alone (part 8)\n"
+               "  --couplings the coupled linkages' rows alone (part 9)\n");
 }
 
 int main(int argc, char **argv) {
@@ -50,6 +51,7 @@ int main(int argc, char **argv) {
   check_figures checks = {0};
   jerk_figures jerk = {0};
   reader_figures reader = {0};
+  coupling_figures couplings = {0};
   target targets[12];
   size_t i;
   int arg;
@@ -60,6 +62,11 @@ int main(int argc, char **argv) {
     } else if (strcmp(argv[arg], "--reader") == 0) {
       bench_reader(stdout, &plan, &reader);
       return EXIT_SUCCESS;
+    } else if (strcmp(argv[arg], "--couplings") == 0) {
+      machine_report(stdout, &plan);
+      bench_couplings(stdout, &plan, &couplings);
+      machine_load(stdout, "at the end");
+      return couplings.valid ? EXIT_SUCCESS : EXIT_FAILURE;
     } else {
       usage(strcmp(argv[arg], "--help") == 0 ? stdout : stderr);
       return strcmp(argv[arg], "--help") == 0 ? EXIT_SUCCESS : EXIT_FAILURE;
@@ -79,6 +86,7 @@ int main(int argc, char **argv) {
   bench_check(stdout, &plan, &checks);
   bench_jerk(stdout, &plan, &jerk);
   bench_reader(stdout, &plan, &reader);
+  bench_couplings(stdout, &plan, &couplings);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -163,6 +171,11 @@ int main(int argc, char **argv) {
          "at 1,000: %.2fx)\n",
          threads.throughput_ratio, threads.results_identical ? "yes" : "NO",
          reader.ratio_largest);
+  printf("(not targets: per unknown against the four-bar, geared five-bar "
+         "%.2fx, cam and follower %.2fx; allocations after kl_solver_new "
+         "%ld; results %s)\n",
+         couplings.geared_per_unknown, couplings.cam_per_unknown,
+         couplings.allocations, couplings.valid ? "right" : "WRONG");
   fourbar_done(&fourbar);
   return EXIT_SUCCESS;
 }
