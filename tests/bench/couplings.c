@@ -110,12 +110,9 @@ static void build_cam_follower(kl_model *m) {
 }
 
 /* The follower's slide as the offset slider-crank's (crank ecc, rod disc +
- * roller; e.g. Norton, Design of Machinery, the slider-crank position
- * analysis; from memory, as test_slots.c): y = ecc sin t + sqrt(L^2 -
- * (offset - ecc cos t)^2). */
+ * roller; support.c's offset_slider_y, from Norton, from memory). */
 static double cam_follower_slide(double t) {
-  double L = CAM_DISC + CAM_ROLLER, h = CAM_OFFSET - CAM_ECC * cos(t);
-  return CAM_ECC * sin(t) + sqrt(L * L - h * h);
+  return offset_slider_y(CAM_ECC, CAM_DISC + CAM_ROLLER, CAM_OFFSET, t, NULL);
 }
 
 /* Makes run r's two solvers (the start and the timed one) on its model;
