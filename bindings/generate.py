@@ -210,6 +210,7 @@ class Function:
 POINTERS = {
     "kl_add_loop": {"joints": "njoints"},
     "kl_model_units": {"length_unit": "out", "angle_unit": "out"},
+    "kl_model_transmission_lines": {"line_a": "out", "line_b": "out"},
     "kl_solve_position": {"inputs": "inputs"},
     "kl_solve_velocity": {"input_rates": "inputs"},
     "kl_solve_acceleration": {"input_accels": "inputs"},

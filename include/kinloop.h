@@ -1838,7 +1838,9 @@ KL_API int kl_model_loop_fourbar(const kl_model *m, int loop,
  * revolute input turns from ground, with a line of no length, or inside a
  * rigid triangle of revolute joints (a ternary link built of three bars,
  * where no link drives another) is no site (kl_model_transmission_skips
- * says which and why). Writes up to `cap`
+ * says which and why). Lines named with kl_model_set_transmission_lines
+ * replace the rule's at their joint, or add a site after the rule's. Writes
+ * up to `cap`
  * outputs of kind KL_OUTPUT_TRANSMISSION into `sites` (may be NULL when cap
  * is 0), for kl_output_value and kl_output_range, and returns how many
  * sites there are (which may exceed cap), or KL_ESTATE (not finalized),
@@ -1902,6 +1904,37 @@ typedef struct kl_transmission_skip {
  */
 KL_API int kl_model_transmission_skips(const kl_model *m,
                                        kl_transmission_skip *skips, int cap);
+
+/* ---- Issue 14: named transmission-angle lines ---- */
+
+/**
+ * Names the two lines of the transmission angle at revolute joint `joint`
+ * (model-file statement `transmission JOINT between JOINT and JOINT`): the lines from
+ * `joint` to joint `line_a` and to joint `line_b`, each another joint on
+ * one of `joint`'s two links, one on each (given in either order; the site
+ * keeps line_a on the joint's link a). At finalize the named site replaces
+ * the one the rule of kl_model_transmissions picks for that joint, or is
+ * added after the rule's sites where the rule picks none (a joint on ground
+ * or an input, or one the rule passes over: it then leaves
+ * kl_model_transmission_skips). Naming the joint again replaces its lines.
+ * Returns KL_OK, KL_EINVAL (NULL model), KL_ESTATE (finalized), KL_EID (no
+ * such joint), KL_EKIND (`joint` not revolute; a line joint that is `joint`
+ * itself, on neither of its links, or both on one link), KL_EZEROLENGTH (a
+ * line joint stands at `joint`'s own point on their link, within 1e-12 of
+ * the larger of the two points' distances from the link's origin: no line).
+ * On error the model is unchanged and kl_model_error says why.
+ */
+KL_API int kl_model_set_transmission_lines(kl_model *m, int joint,
+                                           int line_a, int line_b);
+
+/**
+ * The lines named for joint `joint` by kl_model_set_transmission_lines,
+ * into *line_a (on the joint's link a) and *line_b. Returns KL_OK, KL_EID
+ * (no such joint, or none named for it), KL_EINVAL (NULL argument).
+ */
+KL_API int kl_model_transmission_lines(const kl_model *m, int joint,
+                                       int *line_a, int *line_b);
+/* ---- end of named transmission-angle lines ---- */
 
 /**
  * Extremes of the static input effort (kl_input_effort) of input

@@ -157,7 +157,7 @@ int kl_model_grashof(const kl_model *m) {
 
 /* ---- transmission-angle sites ---- */
 
-enum { KLI_PLAIN = 0, KLI_INPUT = 1, KLI_DONE = 2 };
+enum { KLI_PLAIN = 0, KLI_INPUT = 1, KLI_DONE = 2, KLI_NAMED = 3 };
 
 static void skip(kli_topology *t, int joint, int loop, int link, int reason) {
   kl_transmission_skip *k = &t->skips[t->nskips++];
@@ -270,6 +270,38 @@ static void mark_geared_cranks(const kl_model *m, int *crank) {
 }
 
 /*
+ * The lines a user named (kl_model_set_transmission_lines) win over the
+ * rule: they replace the rule's lines at a site, turn a passed-over joint
+ * into a site (its skip dropped), or add a site after the rule's. Linear in
+ * the joints.
+ */
+static void apply_named_lines(const kl_model *m, kli_topology *t, int *mark) {
+  int i, kept = 0;
+  for (i = 0; i < t->nsites; i++) {
+    const kli_joint *j = &m->joints[t->sites[i].id];
+    if (!j->has_lines)
+      continue;
+    t->sites[i].line_a = j->lines[0];
+    t->sites[i].line_b = j->lines[1];
+    mark[t->sites[i].id] = KLI_NAMED;
+  }
+  for (i = 0; i < t->nskips; i++)
+    if (!m->joints[t->skips[i].joint].has_lines)
+      t->skips[kept++] = t->skips[i];
+  t->nskips = kept;
+  for (i = 0; i < m->njoints; i++) {
+    kl_output *site;
+    if (!m->joints[i].has_lines || mark[i] == KLI_NAMED)
+      continue;
+    site = &t->sites[t->nsites++];
+    site->kind = KL_OUTPUT_TRANSMISSION;
+    site->id = i;
+    site->line_a = m->joints[i].lines[0];
+    site->line_b = m->joints[i].lines[1];
+  }
+}
+
+/*
  * The rule: walking the loops in order, each revolute joint that is on
  * neither ground nor an input, where a loop first meets it, measured
  * between the lines to its two neighbours in that walk. The scratch holds
@@ -345,6 +377,7 @@ void kli_find_transmissions(const kl_model *m, kli_topology *t,
       site->line_b = next;
     }
   }
+  apply_named_lines(m, t, mark);
 }
 
 int kl_model_transmissions(const kl_model *m, kl_output *sites, int cap) {

@@ -765,6 +765,91 @@ int kl_model_set_input_hold(kl_model *m, int input, double value) {
   return KL_OK;
 }
 
+/* The named line of a transmission angle on `link` from `joint` to
+ * `line`: refused when the two stand at one point (relative to their
+ * distance from the link's origin: the model's scale is not known yet). */
+static int check_line(kl_model *m, int joint, int line, int link) {
+  const double *p = kli_joint_point_on(m, joint, link);
+  const double *q = kli_joint_point_on(m, line, link);
+  double size = fmax(hypot(p[0], p[1]), hypot(q[0], q[1]));
+  char lj[160], ll[160], lk[64];
+  if (hypot(p[0] - q[0], p[1] - q[1]) > 1e-12 * size)
+    return KL_OK;
+  return kli_fail(m->error, KL_EZEROLENGTH,
+                  "set transmission lines: %s stands at %s's point on %s, so "
+                  "there is no line to measure",
+                  kli_joint_label(m, line, ll, sizeof ll),
+                  kli_joint_label(m, joint, lj, sizeof lj),
+                  kli_link_label(m, link, lk, sizeof lk));
+}
+
+static int joint_on_link(const kl_model *m, int joint, int link) {
+  return m->joints[joint].link[0] == link || m->joints[joint].link[1] == link;
+}
+
+int kl_model_set_transmission_lines(kl_model *m, int joint, int line_a,
+                                    int line_b) {
+  const char *what = "set transmission lines";
+  const kli_joint *j;
+  int st, lines[2];
+  char lj[160], ll[160];
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_open(m, what)) != KL_OK ||
+      (st = check_joint(m, joint, what)) != KL_OK ||
+      (st = check_joint(m, line_a, what)) != KL_OK ||
+      (st = check_joint(m, line_b, what)) != KL_OK)
+    return st;
+  j = &m->joints[joint];
+  if (j->kind != KL_JOINT_REVOLUTE)
+    return kli_fail(m->error, KL_EKIND,
+                    "%s: %s is not revolute; a slider's figure is its "
+                    "pressure angle",
+                    what, kli_joint_label(m, joint, lj, sizeof lj));
+  if (line_a == joint || line_b == joint)
+    return kli_fail(m->error, KL_EKIND,
+                    "%s: a line of %s must run to another joint", what,
+                    kli_joint_label(m, joint, lj, sizeof lj));
+  /* one line on each link: take them in whichever order fits */
+  if (joint_on_link(m, line_a, j->link[0]) &&
+      joint_on_link(m, line_b, j->link[1])) {
+    lines[0] = line_a;
+    lines[1] = line_b;
+  } else if (joint_on_link(m, line_b, j->link[0]) &&
+             joint_on_link(m, line_a, j->link[1])) {
+    lines[0] = line_b;
+    lines[1] = line_a;
+  } else {
+    char la[64], lb[64], lm[160];
+    return kli_fail(m->error, KL_EKIND,
+                    "%s: %s and %s are not one on %s and one on %s, the "
+                    "links %s joins",
+                    what, kli_joint_label(m, line_a, ll, sizeof ll),
+                    kli_joint_label(m, line_b, lm, sizeof lm),
+                    kli_link_label(m, j->link[0], la, sizeof la),
+                    kli_link_label(m, j->link[1], lb, sizeof lb),
+                    kli_joint_label(m, joint, lj, sizeof lj));
+  }
+  if ((st = check_line(m, joint, lines[0], j->link[0])) != KL_OK ||
+      (st = check_line(m, joint, lines[1], j->link[1])) != KL_OK)
+    return st;
+  m->joints[joint].lines[0] = lines[0];
+  m->joints[joint].lines[1] = lines[1];
+  m->joints[joint].has_lines = 1;
+  return KL_OK;
+}
+
+int kl_model_transmission_lines(const kl_model *m, int joint, int *line_a,
+                                int *line_b) {
+  if (m == NULL || line_a == NULL || line_b == NULL)
+    return KL_EINVAL;
+  if (joint < 0 || joint >= m->njoints || !m->joints[joint].has_lines)
+    return KL_EID;
+  *line_a = m->joints[joint].lines[0];
+  *line_b = m->joints[joint].lines[1];
+  return KL_OK;
+}
+
 double kl_model_input_hold(const kl_model *m, int input) {
   if (m == NULL || input < 0 || input >= m->ninputs || m->inputs[input] < 0 ||
       !m->joints[m->inputs[input]].has_hold)

@@ -35,6 +35,10 @@ typedef struct {
   int has_sketch;
   double hold;   /* an input joint's value at the model's start, when has_hold */
   int has_hold;
+  /* the transmission lines named for a revolute joint
+   * (kl_model_set_transmission_lines), line on link a first, when has_lines */
+  int lines[2];
+  int has_lines;
   int kind;           /* enum kl_joint_kind */
   int link[2];        /* a, b */
   double at[2][2];    /* attachment in a's frame, in b's frame */

@@ -301,6 +301,27 @@ static int read_hold(model_reader *mr) {
   return st == KL_OK ? KL_OK : builder_failed(mr, st, column);
 }
 
+/* transmission JOINT between JOINT and JOINT: the named lines of a
+ * transmission angle */
+static int read_transmission(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  int st, joint, line_a, line_b;
+  if ((st = kli_expect_ref(r, KLI_REF_JOINT, "the transmission angle's joint",
+                           &joint)) != KL_OK ||
+      (st = kli_expect_keyword(r, "between", "after the transmission angle's "
+                                             "joint")) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_JOINT, "the first line's joint",
+                           &line_a)) != KL_OK ||
+      (st = kli_expect_keyword(r, "and", "after the first line's joint")) !=
+          KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_JOINT, "the second line's joint",
+                           &line_b)) != KL_OK ||
+      (st = kli_expect_end(r)) != KL_OK)
+    return st;
+  st = kl_model_set_transmission_lines(mr->m, joint, line_a, line_b);
+  return st == KL_OK ? KL_OK : builder_failed(mr, st, 1);
+}
+
 /* sweep JOINT from V to V steps N */
 static int read_sweep(model_reader *mr) {
   kli_reader *r = &mr->r;
@@ -726,6 +747,8 @@ static int read_statement(model_reader *mr, const kli_token *key) {
     return read_sweep(mr);
   if (strcmp(k, "hold") == 0)
     return read_hold(mr);
+  if (strcmp(k, "transmission") == 0)
+    return read_transmission(mr);
   if (force_statement(k) != NULL)
     return force_statement(k)(mr);
   if (coupling_statement(k) != NULL)
@@ -734,7 +757,8 @@ static int read_statement(model_reader *mr, const kli_token *key) {
       r, KL_ESYNTAX, key->column,
       "unknown statement '%.60s' (expected units, link, "
       "revolute, prismatic, slot, arc-slot, curve-slot, point, input, "
-      "drive, gears, rack, couple, loop, sketch, hold, sweep, mass, gravity, "
+      "drive, gears, rack, couple, loop, sketch, hold, transmission, sweep, "
+      "mass, gravity, "
       "load, speed, redundant, segment or timetable)",
       k);
 }

@@ -259,6 +259,16 @@ static void write_model(const kl_model *m, sink *o) {
     put(o, " at %.17g\n",
         j->kind == KL_JOINT_REVOLUTE ? angle_out(m, j->hold) : j->hold);
   }
+  for (i = 0; i < m->njoints; i++)
+    if (m->joints[i].has_lines) {
+      put(o, "transmission");
+      put_joint_ref(o, m, i);
+      put(o, " between");
+      put_joint_ref(o, m, m->joints[i].lines[0]);
+      put(o, " and");
+      put_joint_ref(o, m, m->joints[i].lines[1]);
+      put(o, "\n");
+    }
   if (m->has_sweep) {
     int joint = m->inputs[m->sweep.input];
     int angle = m->joints[joint].kind == KL_JOINT_REVOLUTE;

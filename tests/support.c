@@ -65,6 +65,10 @@ fourbar build_fourbar_in(kl_model *m, double a, double b, double c,
   return f;
 }
 
+fourbar build_fourbar_open(double a, double b, double c, double d) {
+  return fourbar_links(kl_model_new(), a, b, c, d);
+}
+
 fourbar build_fourbar(double a, double b, double c, double d) {
   return build_fourbar_in(kl_model_new(), a, b, c, d);
 }

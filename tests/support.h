@@ -44,6 +44,8 @@ typedef struct {
 fourbar build_fourbar(double a, double b, double c, double d);
 /* The same, built in the empty model m (e.g. one with a counting allocator). */
 fourbar build_fourbar_in(kl_model *m, double a, double b, double c, double d);
+/* The same, not yet finalized (for builder calls that must come first). */
+fourbar build_fourbar_open(double a, double b, double c, double d);
 /* The same four-bar with its one loop registered explicitly. */
 fourbar build_fourbar_explicit(double a, double b, double c, double d);
 

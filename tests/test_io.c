@@ -348,6 +348,59 @@ START_TEST(held_inputs_and_the_step_limit) {
 }
 END_TEST
 
+/* `transmission JOINT between JOINT and JOINT` means
+ * kl_model_set_transmission_lines: read (lines in either order), written
+ * back with the line on the joint's link a first, read back alike; a
+ * refused one names its line and the builder's reason. */
+START_TEST(named_transmission_lines_read_and_write_back) {
+  static const char *text =
+      "kinloop-model 1\nunits length mm angle deg\nlink crank\nlink rod\n"
+      "link lever\nrevolute shaft ground 0 0 crank 0 0\n"
+      "revolute crank_pin crank 25 0 rod 0 0\n"
+      "revolute elbow rod 90 0 lever 60 0\n"
+      "revolute fulcrum lever 0 0 ground 80 10\ninput shaft\n"
+      "transmission crank_pin between elbow and shaft\n";
+  static const char *refused =
+      "kinloop-model 1\nlink crank\nlink rod\nlink lever\n"
+      "revolute shaft ground 0 0 crank 0 0\n"
+      "revolute crank_pin crank 25 0 rod 0 0\n"
+      "revolute elbow rod 90 0 lever 60 0\n"
+      "revolute fulcrum lever 0 0 ground 80 10\ninput shaft\n"
+      "transmission crank_pin between fulcrum and shaft\n";
+  kl_io_error err;
+  kl_model *m, *back;
+  int shaft, elbow, pin, a = -1, b = -1;
+  size_t len;
+  char *written;
+  err.size = sizeof err;
+  m = kl_model_read(text, strlen(text), &err);
+  ck_assert_msg(m != NULL, "%d:%d %s", err.line, err.column, err.message);
+  shaft = kl_model_find_joint(m, "shaft");
+  elbow = kl_model_find_joint(m, "elbow");
+  pin = kl_model_find_joint(m, "crank_pin");
+  ck_assert_int_eq(kl_model_transmission_lines(m, pin, &a, &b), KL_OK);
+  ck_assert_int_eq(a, shaft);
+  ck_assert_int_eq(b, elbow);
+  written = write_text(m, &len);
+  ck_assert_ptr_nonnull(
+      strstr(written, "\ntransmission crank_pin between shaft and elbow\n"));
+  back = kl_model_read(written, len, &err);
+  ck_assert_msg(back != NULL, "%d:%d %s", err.line, err.column, err.message);
+  a = b = -1;
+  ck_assert_int_eq(kl_model_transmission_lines(back, pin, &a, &b), KL_OK);
+  ck_assert_int_eq(a, shaft);
+  ck_assert_int_eq(b, elbow);
+  ck_assert_int_eq(kl_model_transmission_lines(back, elbow, &a, &b), KL_EID);
+  kl_model_free(back);
+  free(written);
+  kl_model_free(m);
+  ck_assert_ptr_null(kl_model_read(refused, strlen(refused), &err));
+  ck_assert_int_eq(err.status, KL_EKIND);
+  ck_assert_int_eq(err.line, 10);
+  ck_assert_ptr_nonnull(strstr(err.message, "set transmission lines"));
+}
+END_TEST
+
 /* The force statements mean what the calls they stand for mean: the cycle
  * figures of a read model, with its recorded cycle and loads, are those of
  * the same model built by calls, bit for bit (angles in radians: no
@@ -1010,6 +1063,7 @@ int main(void) {
   tcase_add_test(tc, a_read_model_solves_like_the_original);
   tcase_add_test(tc, redundancy_reads_back);
   tcase_add_test(tc, held_inputs_and_the_step_limit);
+  tcase_add_test(tc, named_transmission_lines_read_and_write_back);
   tcase_add_test(tc, force_statements_mean_their_calls);
   tcase_add_test(tc, profile_statements_read_and_write_back);
   tcase_add_loop_test(tc, every_error_names_line_and_column, 0,

@@ -403,6 +403,128 @@ START_TEST(sites_refuse_what_they_cannot_give) {
 }
 END_TEST
 
+/* The angle at the crank pin B between the crank (to the pivot A) and the
+ * coupler (to C), from the law of cosines on the diagonal BD to the rocker's
+ * pivot (common practice, no source): BD^2 = a^2 + d^2 - 2 a d cos theta2,
+ * then angle ABD in triangle ABD and angle DBC in triangle BCD. With the
+ * crank above the ground line and the open assembly, A and C lie on either
+ * side of BD, so the angle is their sum, folded into [0, pi]. */
+static double law_of_cosines_crank_pin(const fourbar *f, double t2) {
+  double bd2 = f->a * f->a + f->d * f->d - 2 * f->a * f->d * cos(t2);
+  double bd = sqrt(bd2);
+  double abd = acos((f->a * f->a + bd2 - f->d * f->d) / (2 * f->a * bd));
+  double dbc = acos((bd2 + f->b * f->b - f->c * f->c) / (2 * bd * f->b));
+  return acos(cos(abd + dbc));
+}
+
+START_TEST(named_lines_add_and_replace_sites) {
+  fourbar f = build_fourbar_open(40, 120, 80, 100);
+  kl_solver *s;
+  kl_output site[3];
+  kl_transmission_skip skipped[2];
+  int line_a = -1, line_b = -1, k;
+  /* the crank pin, which the rule passes over, named: lines given in
+   * either order, kept with line_a on the joint's link a (the crank) */
+  ck_assert_int_eq(kl_model_set_transmission_lines(f.m, f.crank_pin,
+                                                   f.rocker_pin, f.pivot),
+                   KL_OK);
+  /* the rule's own site named again, lines reversed: replaced, not added */
+  ck_assert_int_eq(kl_model_set_transmission_lines(f.m, f.rocker_pin,
+                                                   f.rocker_pivot,
+                                                   f.crank_pin),
+                   KL_OK);
+  ck_assert_int_eq(kl_model_transmission_lines(f.m, f.crank_pin, &line_a,
+                                               &line_b),
+                   KL_OK);
+  ck_assert_int_eq(line_a, f.pivot);
+  ck_assert_int_eq(line_b, f.rocker_pin);
+  ck_assert_int_eq(kl_model_transmission_lines(f.m, f.pivot, &line_a,
+                                               &line_b),
+                   KL_EID);
+  ck_assert_int_eq(kl_model_finalize(f.m), KL_OK);
+  ck_assert_int_eq(kl_model_transmissions(f.m, site, 3), 2);
+  ck_assert_int_eq(site[0].id, f.rocker_pin);
+  ck_assert_int_eq(site[0].line_a, f.crank_pin);
+  ck_assert_int_eq(site[0].line_b, f.rocker_pivot);
+  ck_assert_int_eq(site[1].kind, KL_OUTPUT_TRANSMISSION);
+  ck_assert_int_eq(site[1].id, f.crank_pin);
+  ck_assert_int_eq(site[1].line_a, f.pivot);
+  ck_assert_int_eq(site[1].line_b, f.rocker_pin);
+  ck_assert_int_eq(kl_model_transmission_skips(f.m, skipped, 2), 0);
+  s = kl_solver_new(f.m);
+  kl_set_link_angle(s, f.coupler, 0.6);
+  kl_set_link_angle(s, f.rocker, 1.1);
+  for (k = 1; k <= 17; k++) {
+    double u = k * 10 * DEG, mu, want = law_of_cosines_crank_pin(&f, u);
+    ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+    ck_assert_int_eq(kl_output_value(s, &site[1], &mu), KL_OK);
+    ck_assert_msg(fabs(mu - want) < CLOSED_FORM_TOL,
+                  "crank %d deg: %.15g, closed form %.15g", 10 * k, mu, want);
+    ck_assert_int_eq(kl_output_value(s, &site[0], &mu), KL_OK);
+    ck_assert_msg(fabs(mu - law_of_cosines_mu(&f, u)) < CLOSED_FORM_TOL,
+                  "crank %d deg: %.15g, closed form %.15g", 10 * k, mu,
+                  law_of_cosines_mu(&f, u));
+  }
+  ck_assert_int_eq(kl_model_set_transmission_lines(f.m, f.crank_pin, f.pivot,
+                                                   f.rocker_pin),
+                   KL_ESTATE);
+  kl_solver_free(s);
+  kl_model_free(f.m);
+}
+END_TEST
+
+/* Refused with its own status and message, the model as it was. */
+static void expect_lines_refused(fourbar *f, int joint, int line_a,
+                                 int line_b, int status) {
+  int a = -1, b = -1;
+  ck_assert_int_eq(kl_model_set_transmission_lines(f->m, joint, line_a,
+                                                   line_b),
+                   status);
+  ck_assert_msg(strstr(kl_model_error(f->m), "set transmission lines") !=
+                    NULL,
+                "message: %s", kl_model_error(f->m));
+  /* the crank pin keeps the lines named before */
+  ck_assert_int_eq(kl_model_transmission_lines(f->m, f->crank_pin, &a, &b),
+                   KL_OK);
+  ck_assert_int_eq(a, f->pivot);
+  ck_assert_int_eq(b, f->rocker_pin);
+  if (joint >= 0 && joint < kl_model_joint_count(f->m) &&
+      joint != f->crank_pin)
+    ck_assert_int_eq(kl_model_transmission_lines(f->m, joint, &a, &b),
+                     KL_EID);
+}
+
+START_TEST(named_lines_refuse_bad_input) {
+  fourbar f = build_fourbar_open(40, 120, 80, 100);
+  int slider = kl_add_link(f.m, "slider");
+  int guide = kl_add_prismatic(f.m, f.rocker, 10, 0, 0.0, slider, 0, 0);
+  /* a pin on the coupler at the crank pin's own point */
+  int twin = kl_add_revolute(f.m, f.coupler, 0, 0, slider, 5, 0);
+  ck_assert_int_ge(guide, 0);
+  ck_assert_int_ge(twin, 0);
+  ck_assert_int_eq(kl_model_set_transmission_lines(f.m, f.crank_pin, f.pivot,
+                                                   f.rocker_pin),
+                   KL_OK);
+  ck_assert_int_eq(kl_model_set_transmission_lines(NULL, f.crank_pin,
+                                                   f.pivot, f.rocker_pin),
+                   KL_EINVAL);
+  expect_lines_refused(&f, -1, f.pivot, f.rocker_pin, KL_EID);
+  expect_lines_refused(&f, 99, f.pivot, f.rocker_pin, KL_EID);
+  expect_lines_refused(&f, f.crank_pin, 99, f.rocker_pin, KL_EID);
+  expect_lines_refused(&f, f.crank_pin, f.pivot, -3, KL_EID);
+  expect_lines_refused(&f, guide, f.rocker_pin, f.rocker_pivot, KL_EKIND);
+  expect_lines_refused(&f, f.crank_pin, f.crank_pin, f.rocker_pin,
+                       KL_EKIND);
+  /* both on the coupler, none on the rocker */
+  expect_lines_refused(&f, f.rocker_pin, f.crank_pin, f.crank_pin,
+                       KL_EKIND);
+  /* the rocker's pivot is on neither the crank nor the coupler */
+  expect_lines_refused(&f, f.crank_pin, f.pivot, f.rocker_pivot, KL_EKIND);
+  expect_lines_refused(&f, f.crank_pin, f.pivot, twin, KL_EZEROLENGTH);
+  kl_model_free(f.m);
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("loops");
   TCase *tc = tcase_create("loops");
@@ -417,6 +539,8 @@ int main(void) {
   tcase_add_test(tc, six_bars_cover_each_joint_once);
   tcase_add_test(tc, sites_refuse_what_they_cannot_give);
   tcase_add_test(tc, rigid_triangle_pins_are_no_sites);
+  tcase_add_test(tc, named_lines_add_and_replace_sites);
+  tcase_add_test(tc, named_lines_refuse_bad_input);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }

@@ -308,16 +308,19 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
   for (i = 0; i < cm->nsites; i++) {
     const kl_output *site = &cm->sites[i];
     const kl_range *range = &ranges[at + i];
+    int named_a, named_b;
+    int named = kl_model_transmission_lines(cm->model, site->id, &named_a,
+                                            &named_b) == KL_OK;
     cli_format_input(cm, r->input, range->input_at_min, lo, sizeof lo);
     cli_format_input(cm, r->input, range->input_at_max, hi, sizeof hi);
     at_pair(cm, r->input, range->input_at_min, range->input_at_max, both,
             sizeof both);
     fprintf(f,
             LABEL "transmission angle %.4g to %.4g %s, %s (lines to %s and "
-                  "%s)\n",
+                  "%s%s)\n",
             cm->joint_names[site->id], range->min * k, range->max * k,
             cm->angle_unit, both, cm->joint_names[site->line_a],
-            cm->joint_names[site->line_b]);
+            cm->joint_names[site->line_b], named ? ", as the model names" : "");
     if (range->min * 180 / CLI_PI < CLI_USUAL_LOW_DEG)
       warn(w,
            "the transmission angle at %s falls to %.4g %s (at %s), below the "

@@ -80,6 +80,7 @@ typedef struct {
   double pose[CLI_MAX_POSES]; /* draw: the swept input's values to draw */
   int have_rpm;         /* sweep, forces: the speed in turns a minute */
   double rpm;
+  const char *profile; /* timeline: profile statements, ';' between them */
 } cli_options;
 
 typedef struct {
@@ -129,9 +130,11 @@ extern const char cli_demo_file_name[];
 extern const unsigned char cli_demo_study_text[];
 extern const size_t cli_demo_study_length;
 extern const char cli_demo_study_file_name[];
-/* Loads the file at `path`, or the built-in demo when NULL. Prints why it
- * failed and returns an exit code. */
-int cli_model_load(cli_model *cm, const char *path);
+/* Loads the file at `path`, or the built-in demo when NULL, with the
+ * model-format statements of `profile` (NULL for none; ';' between
+ * statements) read after the file's own lines. Prints why it failed and
+ * returns an exit code. */
+int cli_model_load(cli_model *cm, const char *path, const char *profile);
 void cli_model_free(cli_model *cm);
 /* The model's leading comment block, one line per call: returns the start
  * of line `k` (0-based) and its length, or NULL when there are no more. */

@@ -803,6 +803,10 @@ static int lay_out(const cli_model *cm, const pose *poses, int nposes,
     b.y0 -= pad;
     b.y1 += pad;
   }
+  /* the extent and the scale must be numbers before anything is divided
+   * by them */
+  if (!isfinite(b.x1 - b.x0) || !isfinite(b.y1 - b.y0))
+    return -1;
   L->width = CANVAS_WIDTH;
   draw_w = L->width - 2 * MARGIN;
   v.s = draw_w / (b.x1 - b.x0);
@@ -811,6 +815,8 @@ static int lay_out(const cli_model *cm, const pose *poses, int nposes,
     draw_h = MAX_HEIGHT - HEADER - FOOTER;
     v.s = draw_h / (b.y1 - b.y0);
   }
+  if (!(v.s > 0) || !isfinite(v.s))
+    return -1;
   L->height = HEADER + draw_h + FOOTER;
   v.tx = MARGIN + 0.5 * (draw_w - v.s * (b.x1 - b.x0)) - v.s * b.x0;
   v.ty = HEADER + v.s * b.y1;
@@ -820,9 +826,8 @@ static int lay_out(const cli_model *cm, const pose *poses, int nposes,
   L->u = u;
   L->centre[0] = 0.5 * (b.x0 + b.x1);
   L->centre[1] = 0.5 * (b.y0 + b.y1);
-  /* the extent, the scale and the farthest rail or marker must be numbers */
-  if (!isfinite(b.x1 - b.x0) || !isfinite(b.y1 - b.y0) || !(v.s > 0) ||
-      !isfinite(v.s) || !isfinite(v.tx) || !isfinite(v.ty) || !isfinite(u) ||
+  /* the offsets and the farthest rail or marker must be numbers */
+  if (!isfinite(v.tx) || !isfinite(v.ty) || !isfinite(u) ||
       !isfinite(fmax(fabs(b.x0), fabs(b.x1)) + 1000 * u) ||
       !isfinite(fmax(fabs(b.y0), fabs(b.y1)) + 1000 * u))
     return -1;

@@ -310,6 +310,7 @@ enum {
   OPT_WRITE_OVER,
   OPT_POSE,
   OPT_RPM,
+  OPT_PROFILE,
   OPT_HELP
 };
 
@@ -353,6 +354,7 @@ static const struct {
     {"write-over", 0, 0, ~0u},
     {"pose", 0, 1, BIT(CLI_DRAW)},
     {"rpm", 0, 1, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},
+    {"profile", 0, 1, BIT(CLI_TIMELINE)},
     {"help", 'h', 0, ~0u},
 };
 #define NOPTIONS ((int)(sizeof option_specs / sizeof option_specs[0]))
@@ -485,6 +487,9 @@ static int store_option(cli_options *o, int which, const char *value) {
     if (st == CLI_EXIT_OK && o->rpm == 0.0 && c == CLI_SWEEP)
       return usage_error(c, "--rpm cannot be 0 (%s)", value);
     break;
+  case OPT_PROFILE:
+    o->profile = value;
+    break;
   case OPT_ALL_DIGITS:
     o->all_digits = 1;
     break;
@@ -603,7 +608,7 @@ static int run(cli_options *o) {
   int st;
   if (o->command == CLI_STUDY)
     return cli_cmd_study(o);
-  st = cli_model_load(&cm, o->model_path);
+  st = cli_model_load(&cm, o->model_path, o->profile);
   if (st != CLI_EXIT_OK)
     return st;
   if (o->have_rpm && (st = cli_apply_rpm(&cm, o)) != CLI_EXIT_OK) {

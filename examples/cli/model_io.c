@@ -183,9 +183,30 @@ static int fill_tables(cli_model *cm) {
   return read_loops(cm);
 }
 
-int cli_model_load(cli_model *cm, const char *path) {
+/* The model text followed by the statements of `profile`, one a line
+ * (';' becomes a line break); *lines_before the lines before the first
+ * statement. NULL when out of memory. */
+static char *with_profile(const char *text, size_t length, const char *profile,
+                          size_t *combined_length, int *lines_before) {
+  size_t extra = strlen(profile), i;
+  char *combined = malloc(length + 1 + extra + 1);
+  if (combined == NULL)
+    return NULL;
+  memcpy(combined, text, length);
+  *lines_before = 1;
+  for (i = 0; i < length; i++)
+    *lines_before += text[i] == '\n';
+  combined[length] = '\n';
+  for (i = 0; i < extra; i++)
+    combined[length + 1 + i] = profile[i] == ';' ? '\n' : profile[i];
+  combined[length + 1 + extra] = '\n';
+  *combined_length = length + 1 + extra + 1;
+  return combined;
+}
+
+int cli_model_load(cli_model *cm, const char *path, const char *profile) {
   kl_io_error err;
-  int st;
+  int st, lines_before = 0;
   memset(cm, 0, sizeof *cm);
   if (path == NULL) {
     cm->label = cli_demo_file_name;
@@ -198,6 +219,18 @@ int cli_model_load(cli_model *cm, const char *path) {
       return CLI_EXIT_MODEL;
     cm->text = cm->owned_text;
   }
+  if (profile != NULL) {
+    char *combined =
+        with_profile(cm->text, cm->length, profile, &cm->length, &lines_before);
+    if (combined == NULL) {
+      cli_error("out of memory reading '%s'", cm->label);
+      cli_model_free(cm);
+      return CLI_EXIT_MEMORY;
+    }
+    free(cm->owned_text);
+    cm->owned_text = combined;
+    cm->text = combined;
+  }
   err.size = sizeof err;
   cm->model = kl_model_read(cm->text, cm->length, &err);
   if (cm->model == NULL) {
@@ -205,7 +238,10 @@ int cli_model_load(cli_model *cm, const char *path) {
       cli_error("out of memory reading '%s'", cm->label);
       st = CLI_EXIT_MEMORY;
     } else {
-      if (err.line > 0)
+      if (profile != NULL && err.line > lines_before)
+        fprintf(stderr, "kinloop: --profile statement %d:%d: %s\n",
+                err.line - lines_before, err.column, err.message);
+      else if (err.line > 0)
         fprintf(stderr, "kinloop: %s:%d:%d: %s\n", cm->label, err.line,
                 err.column, err.message);
       else

@@ -10,7 +10,9 @@
 #include "cli.h"
 
 const char cli_timeline_help[] =
-    "usage: kinloop timeline [MODEL] [--steps N] [--charts DIR] [-o FILE]\n"
+    "usage: kinloop timeline [MODEL] [--profile TEXT] [--steps N] [--charts "
+    "DIR]\n"
+    "                        [-o FILE]\n"
     "\n"
     "Runs the model's motion profile in time (its 'segment' or 'timetable'\n"
     "lines, docs/model-format.md) and writes one CSV row per time step: the\n"
@@ -20,13 +22,19 @@ const char cli_timeline_help[] =
     "other inputs stay at the model's start, at rest.\n"
     "\n"
     "options:\n"
+    "  --profile TEXT    'segment' or 'timetable' statements of the model\n"
+    "                    format, ';' between them, read after the model's\n"
+    "                    own lines (they extend its segments), e.g.\n"
+    "                    \"segment motor rise cycloidal 0.5 0 30; segment\n"
+    "                    motor dwell 0.25 30\"; an error in one is reported\n"
+    "                    as '--profile statement N:COLUMN' and exits with 3\n"
     "  --steps N         time steps over the profile (default 200)\n"
     "  --charts DIR      write SVG charts over time into DIR (made if\n"
     "                    missing): the driven input's and each point's x and\n"
     "                    y value, rate, acceleration and jerk, one chart each\n"
     "  -o, --output FILE write to FILE instead of standard output\n"
     "\n"
-    "A model without a profile exits with 3; a step that does not solve\n"
+    "A model without a profile (and no --profile) exits with 3; a step that does not solve\n"
     "(a motion limit or singular position on the way) with 4.\n";
 
 /* One quantity followed through the four orders. */

@@ -216,5 +216,19 @@ typedef struct {
 /* A geared five-bar and a disc cam with a roller follower against the
  * four-bar, per unknown, with the allocations of their passes. */
 void bench_couplings(FILE *out, const bench_plan *plan, coupling_figures *fig);
+/* ---- part 10: the five-bar's inverse kinematics along a path ---- */
+
+#define IK_POINTS 1000
+
+typedef struct {
+  double kinloop_ns, closed_form_ns; /* per path point */
+  double ratio;                /* kinloop / closed form, paired over rounds */
+  double max_angle_difference; /* largest |crank angle difference|, rad */
+  int valid; /* no point failed, angles within BENCH_MAX_ERROR */
+} inverse_figures;
+
+/* Runs and prints part 10: the two-input five-bar's tool point along a path
+ * of IK_POINTS points, kinloop against two circle intersections. */
+void bench_inverse(FILE *out, const bench_plan *plan, inverse_figures *fig);
 
 #endif

@@ -32,13 +32,14 @@ static void print_target(FILE *out, const target *t) {
 }
 
 static void usage(FILE *out) {
-  fprintf(out, "usage: kinloop-bench [--quick] [--reader] [--couplings]\n"
+  fprintf(out, "usage: kinloop-bench [--quick] [--reader] [--couplings] [--inverse]\n"
                "  times kinloop against the closed form and GSL; never fails "
                "on time\n"
                "  --quick  one call per method and few chain steps (for "
                "valgrind and callgrind)\n"
                "  --reader the model reader's row alone (part 8)\n"
-               "  --couplings the coupled linkages' rows alone (part 9)\n");
+               "  --couplings the coupled linkages' rows alone (part 9)\n"
+               "  --inverse the five-bar's inverse kinematics alone (part 10)\n");
 }
 
 int main(int argc, char **argv) {
@@ -52,6 +53,7 @@ int main(int argc, char **argv) {
   jerk_figures jerk = {0};
   reader_figures reader = {0};
   coupling_figures couplings = {0};
+  inverse_figures inverse = {0};
   target targets[12];
   size_t i;
   int arg;
@@ -67,6 +69,11 @@ int main(int argc, char **argv) {
       bench_couplings(stdout, &plan, &couplings);
       machine_load(stdout, "at the end");
       return couplings.valid ? EXIT_SUCCESS : EXIT_FAILURE;
+    } else if (strcmp(argv[arg], "--inverse") == 0) {
+      machine_report(stdout, &plan);
+      bench_inverse(stdout, &plan, &inverse);
+      machine_load(stdout, "at the end");
+      return inverse.valid ? EXIT_SUCCESS : EXIT_FAILURE;
     } else {
       usage(strcmp(argv[arg], "--help") == 0 ? stdout : stderr);
       return strcmp(argv[arg], "--help") == 0 ? EXIT_SUCCESS : EXIT_FAILURE;
@@ -87,6 +94,7 @@ int main(int argc, char **argv) {
   bench_jerk(stdout, &plan, &jerk);
   bench_reader(stdout, &plan, &reader);
   bench_couplings(stdout, &plan, &couplings);
+  bench_inverse(stdout, &plan, &inverse);
   machine_load(stdout, "at the end");
 
   targets[0].what = "four-bar position solve <= 2.5x the closed form";
@@ -168,9 +176,11 @@ int main(int argc, char **argv) {
     print_target(stdout, &targets[i]);
   printf("(not targets: 2 threads / 1 thread throughput %.2fx; thread "
          "results identical: %s; reader time per item at 900,000 items / "
-         "at 1,000: %.2fx)\n",
+         "at 1,000: %.2fx; five-bar inverse kinematics / closed form %.2fx, "
+         "crank angles within %.2g rad%s)\n",
          threads.throughput_ratio, threads.results_identical ? "yes" : "NO",
-         reader.ratio_largest);
+         reader.ratio_largest, inverse.ratio, inverse.max_angle_difference,
+         inverse.valid ? "" : " (RESULTS WRONG)");
   printf("(not targets: per unknown against the four-bar, geared five-bar "
          "%.2fx, cam and follower %.2fx; allocations after kl_solver_new "
          "%ld; results %s)\n",

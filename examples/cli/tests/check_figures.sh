@@ -76,4 +76,54 @@ awk -v r=30 -v l=100 -v e=12 '
       print "pressure angle " v[1] " to " v[2] ", closed form " lo " to " hi; exit 1
     }
   }' pressure.txt || fail "the press's pressure angle is wrong"
+
+# A named pair of lines (`transmission JOINT between J1 and J2`): the crank
+# pin, which kinloop passes over on its own (an input crank), is reported
+# with the named lines and marked; the chosen site at the elbow stays
+# unmarked. Its smallest angle, at shaft 170 deg (invented four-bar: ground
+# 100, crank 40, coupler 120, rocker 80), against the law of cosines on the
+# diagonal BD from the crank pin to the rocker's pivot (common practice, no
+# source): angle ABD + angle DBC.
+cat >named.kinloop <<'MODEL'
+kinloop-model 1
+units length mm angle deg
+link crank
+link coupler
+link rocker
+revolute shaft ground 0 0 crank 0 0
+revolute crank_pin crank 40 0 coupler 0 0
+revolute elbow coupler 120 0 rocker 80 0
+revolute fulcrum rocker 0 0 ground 100 0
+input shaft
+sketch angle coupler 34
+sketch angle rocker 63
+transmission crank_pin between elbow and shaft
+sweep shaft from 10 to 170 steps 16
+MODEL
+
+expect_status 0 "$KINLOOP" check named.kinloop
+grep 'elbow .*transmission angle .*(lines to crank_pin and fulcrum)$' out.txt >/dev/null ||
+  fail "the chosen site at the elbow is missing or marked as named"
+grep 'crank_pin .*transmission angle' out.txt >named.txt ||
+  fail "no transmission angle at the named crank pin"
+grep -q '(lines to shaft and elbow, as the model names)' named.txt ||
+  fail "the named site's lines or mark are not reported"
+awk -v a=40 -v b=120 -v c=80 -v d=100 '
+  function acos(x) { return atan2(sqrt(1 - x * x), x) }
+  {
+    pi = atan2(0, -1)
+    t = 170 * pi / 180
+    bd2 = a * a + d * d - 2 * a * d * cos(t)
+    bd = sqrt(bd2)
+    abd = acos((a * a + bd2 - d * d) / (2 * a * bd))
+    dbc = acos((bd2 + b * b - c * c) / (2 * bd * b))
+    want = (abd + dbc) * 180 / pi
+    if (!match($0, /transmission angle [0-9.]+ to/)) { print "no range: " $0; exit 1 }
+    got = substr($0, RSTART + 19, RLENGTH - 22) + 0
+    if (index($0, "at shaft 170 and") == 0) { print "minimum not at 170 deg: " $0; exit 1 }
+    # printed to 4 digits: within half a unit of the last, 0.005 here
+    if (got - want > 5e-3 || want - got > 5e-3) {
+      print "named angle " got ", law of cosines " want; exit 1
+    }
+  }' named.txt || fail "the named site's angle is wrong"
 finish
