@@ -266,6 +266,17 @@ chain build_chain(int n) { return chain_links(n, 0); }
 
 chain build_massive_chain(int n) { return chain_links(n, 1); }
 
+/* e.g. Norton, Design of Machinery, the slider-crank position analysis
+ * (from memory): y = crank sin t + sqrt(rod^2 - (offset - crank cos t)^2),
+ * and its derivative. */
+double offset_slider_y(double crank, double rod, double offset, double t,
+                       double *dy) {
+  double h = offset - crank * cos(t), root = sqrt(rod * rod - h * h);
+  if (dy != NULL)
+    *dy = crank * cos(t) - h * crank * sin(t) / root;
+  return crank * sin(t) + root;
+}
+
 /*
  * Freudenstein's equation in its half-angle tangent form, as given in
  * standard machine-design texts (recalled from memory): with

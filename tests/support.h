@@ -122,6 +122,13 @@ void sketch_chain(const chain *c, kl_solver *s, double u);
 int freudenstein(const fourbar *f, double t2, int branch, double *t3,
                  double *t4);
 
+/* The offset slider-crank's closed form with the slider running along +y
+ * on the line x = offset (an eccentric disc cam's translating roller
+ * follower: crank = the eccentricity, rod = disc + roller radius): the
+ * slider's y at crank angle t, and dy/dt into *dy (may be NULL). */
+double offset_slider_y(double crank, double rod, double offset, double t,
+                       double *dy);
+
 /* ---- solver states, compared bit for bit ---- */
 #define SNAPSHOT_MAX 1024
 typedef struct {

@@ -84,14 +84,9 @@ static kl_model *disc_cam_model(const disc_cam *c, int npoints) {
 }
 
 /* The offset slider-crank's closed form (crank ecc, connecting rod
- * rd + rr, offset: e.g. Norton, Design of Machinery, the slider-crank
- * position analysis; from memory): y = ecc sin t + sqrt(L^2 - (offset -
- * ecc cos t)^2), and its derivative. */
+ * rd + rr, offset; support.c's offset_slider_y, from Norton, from memory). */
 static double slider_y(const disc_cam *c, double t, double *dy) {
-  double L = c->rd + c->rr, h = c->offset - c->ecc * cos(t);
-  double root = sqrt(L * L - h * h);
-  *dy = c->ecc * cos(t) - h * c->ecc * sin(t) / root;
-  return c->ecc * sin(t) + root;
+  return offset_slider_y(c->ecc, c->rd + c->rr, c->offset, t, dy);
 }
 
 /* The pin's place on the slot at the start: its polar angle about the

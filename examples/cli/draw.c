@@ -19,6 +19,7 @@
 #define OUTLINE_PX 3.0 /* stroke of a plate-shaped link */
 #define GHOST_OPACITY 0.3
 #define JOINT_NAME_COLOUR "#8a8174"
+#define MESH_VALUES 8 /* per coupling in a pose's mesh */
 
 /* A position as drawn, every place global (from the library's frames). */
 typedef struct {
@@ -30,6 +31,10 @@ typedef struct {
   double *rail;       /* 4 per sliding joint: link a's frame (its origin,
                          and the cosine and sine of its angle), which
                          carries the slot's path */
+  double *mesh;       /* MESH_VALUES per coupling: a gear pair's two pitch
+                         circles, each its centre and the end of a radius
+                         fixed to its gear; a rack's pinion the same, then
+                         the rack's pitch point and its unit direction */
 } pose;
 
 typedef struct {
@@ -81,15 +86,17 @@ static int path_row(void *user, int step, const double *row) {
 static int pose_alloc(pose *q, const cli_model *cm, int outline_points) {
   size_t ni = (size_t)(cm->ninputs + 1), nj = (size_t)(cm->njoints + 1),
          np = (size_t)(cm->npoints + 1), no = (size_t)(outline_points + 1),
-         ns = (size_t)(cm->nslides + 1);
+         ns = (size_t)(cm->nslides + 1),
+         nc = (size_t)(kl_model_coupling_count(cm->model) + 1);
   q->inputs = malloc(ni * sizeof(double));
   q->joint_xy = malloc(2 * nj * sizeof(double));
   q->point_xy = malloc(2 * np * sizeof(double));
   q->slide = malloc(nj * sizeof(double));
   q->outline_xy = malloc(2 * no * sizeof(double));
   q->rail = malloc(4 * ns * sizeof(double));
+  q->mesh = malloc(MESH_VALUES * nc * sizeof(double));
   return q->inputs && q->joint_xy && q->point_xy && q->slide &&
-         q->outline_xy && q->rail;
+         q->outline_xy && q->rail && q->mesh;
 }
 
 static void pose_free(pose *q) {
@@ -99,6 +106,74 @@ static void pose_free(pose *q) {
   free(q->slide);
   free(q->outline_xy);
   free(q->rail);
+  free(q->mesh);
+}
+
+/* Where sliding joint `joint` is in cm->slides. */
+static int slide_index(const cli_model *cm, int joint) {
+  int k;
+  for (k = 0; k < cm->nslides; k++)
+    if (cm->slides[k] == joint)
+      return k;
+  return -1;
+}
+
+static void rail_point(const cli_model *cm, const pose *q, int k, double v,
+                       double xy[2], double dir[2]);
+
+/* The gear on revolute joint `joint` (on the link that is not the
+ * carrier): its centre and the end of one radius fixed to it, so that its
+ * turning shows. Returns +1 when the carrier is the joint's first link (the
+ * gear's turn against the carrier is then the joint's angle), else -1. */
+static int gear_take(const kl_solver *s, const kl_model *m, int joint,
+                     int carrier, double radius, double out[4]) {
+  int links[2], gear;
+  double a[2], b[2], tip[2];
+  kl_model_joint_links(m, joint, links, a, b);
+  gear = links[0] == carrier ? 1 : 0;
+  tip[0] = (gear ? b : a)[0] + fabs(radius);
+  tip[1] = (gear ? b : a)[1];
+  kl_link_to_global(s, links[gear], gear ? b : a, out);
+  kl_link_to_global(s, links[gear], tip, out + 2);
+  return gear ? 1 : -1;
+}
+
+/* Coupling k's pitch circles (and a rack's pitch point and direction) in
+ * pose q, whose joints and rails are already taken. */
+static void mesh_take(pose *q, const cli_model *cm, const kl_solver *s,
+                      int k) {
+  const kl_model *m = cm->model;
+  double *out = q->mesh + MESH_VALUES * k, at[2], *d = out + 6, n[2];
+  kl_coupling_info c;
+  int rack_links[2], pinion_sense, rack_sense;
+  c.size = sizeof c;
+  kl_model_coupling(m, k, &c);
+  if (c.kind == KL_COUPLING_GEAR) {
+    gear_take(s, m, c.joint1, c.carrier, c.value1, out);
+    gear_take(s, m, c.joint2, c.carrier, c.value2, out + 4);
+    return;
+  }
+  if (c.kind != KL_COUPLING_RACK) {
+    /* a ratio coupling has no pitch geometry to draw */
+    memset(out, 0, MESH_VALUES * sizeof *out);
+    return;
+  }
+  pinion_sense = gear_take(s, m, c.joint1, c.carrier, c.value1, out);
+  kl_model_joint_links(m, c.joint2, rack_links, NULL, NULL);
+  rack_sense = rack_links[0] == c.carrier ? 1 : -1;
+  rail_point(cm, q, slide_index(cm, c.joint2), q->slide[c.joint2], at, d);
+  /* Against the carrier, the rack runs along d at rack_sense times the
+   * slide's rate and the pinion turns at pinion_sense times its joint's
+   * rate; a pinion point at -rho n (n = d turned a quarter left) runs
+   * along d at rho times the pinion's rate. The rolling condition
+   * (slide = radius times turn) puts the pitch point at rho = pinion_sense
+   * rack_sense radius. d becomes the way the rack runs as the slide grows. */
+  n[0] = -d[1];
+  n[1] = d[0];
+  out[4] = out[0] - pinion_sense * rack_sense * c.value1 * n[0];
+  out[5] = out[1] - pinion_sense * rack_sense * c.value1 * n[1];
+  d[0] *= rack_sense;
+  d[1] *= rack_sense;
 }
 
 static void pose_take(pose *q, const cli_model *cm, const outline *o,
@@ -127,6 +202,8 @@ static void pose_take(pose *q, const cli_model *cm, const outline *o,
     rail[2] -= rail[0];
     rail[3] -= rail[1];
   }
+  for (k = 0; k < kl_model_coupling_count(m); k++)
+    mesh_take(q, cm, s, k);
 }
 
 /* ---- link outlines: convex hull of a link's joints and points ---- */
@@ -400,6 +477,88 @@ static void draw_rail(FILE *f, const cli_model *cm, const pose *q,
   }
 }
 
+/* The link a coupled joint's gear (or rack) is on: not the carrier. */
+static int coupled_link(const kl_model *m, int joint, int carrier) {
+  int links[2];
+  kl_model_joint_links(m, joint, links, NULL, NULL);
+  return links[0] == carrier ? links[1] : links[0];
+}
+
+static const char *link_colour(int link) {
+  return link == KL_GROUND ? SVG_INK : svg_colour(link - 1);
+}
+
+/* The ends of rack coupling c's pitch line in pose q: the stretch of the
+ * rack that passes the pinion over every slide drawn, and a pinion radius
+ * beyond either end. */
+static void rack_ends(const cli_model *cm, const pose *q, const pose *poses,
+                      int nposes, const paths *p, const kl_coupling_info *c,
+                      int coupling, double ends[4]) {
+  const double *g = q->mesh + MESH_VALUES * coupling;
+  double lo, hi, sq = q->slide[c->joint2], pad = fabs(c->value1);
+  rail_span(cm, poses, nposes, p, slide_index(cm, c->joint2), 0.0, &lo, &hi);
+  ends[0] = g[4] + (sq - lo + pad) * g[6];
+  ends[1] = g[5] + (sq - lo + pad) * g[7];
+  ends[2] = g[4] + (sq - hi - pad) * g[6];
+  ends[3] = g[5] + (sq - hi - pad) * g[7];
+}
+
+/* A gear's pitch circle as a chain line (the drafting convention for pitch
+ * circles; common practice, no source), with the radius that turns with
+ * it. g: its centre and that radius's end. */
+static void draw_pitch_circle(FILE *f, const cli_model *cm, int joint,
+                              int link, const double *g, double u) {
+  const char *colour = link_colour(link);
+  fprintf(f, "<circle class=\"pitch-circle\" data-joint=\"");
+  svg_escaped(f, cm->joint_names[joint]);
+  fprintf(f,
+          "\" cx=\"%.17g\" cy=\"%.17g\" r=\"%.17g\" fill=\"none\" "
+          "stroke=\"%s\" stroke-width=\"%.9g\" "
+          "stroke-dasharray=\"%.9g,%.9g,%.9g,%.9g\"/>\n",
+          g[0], g[1], hypot(g[2] - g[0], g[3] - g[1]), colour, 0.3 * u,
+          2.4 * u, 0.5 * u, 0.4 * u, 0.5 * u);
+  fprintf(f, "<line class=\"pitch-radius\" data-joint=\"");
+  svg_escaped(f, cm->joint_names[joint]);
+  fprintf(f,
+          "\" x1=\"%.17g\" y1=\"%.17g\" x2=\"%.17g\" y2=\"%.17g\" "
+          "stroke=\"%s\" stroke-width=\"%.9g\"/>\n",
+          g[0], g[1], g[2], g[3], colour, 0.2 * u);
+}
+
+/* Gears as pitch circles, racks as pitch lines (chain lines too). */
+static void draw_meshes(FILE *f, const cli_model *cm, const pose *q,
+                        const pose *poses, int nposes, const paths *p,
+                        double u) {
+  const kl_model *m = cm->model;
+  int k;
+  for (k = 0; k < kl_model_coupling_count(m); k++) {
+    const double *g = q->mesh + MESH_VALUES * k;
+    kl_coupling_info c;
+    double ends[4];
+    c.size = sizeof c;
+    kl_model_coupling(m, k, &c);
+    if (c.kind == KL_COUPLING_RATIO)
+      continue;
+    draw_pitch_circle(f, cm, c.joint1, coupled_link(m, c.joint1, c.carrier),
+                      g, u);
+    if (c.kind == KL_COUPLING_GEAR) {
+      draw_pitch_circle(f, cm, c.joint2,
+                        coupled_link(m, c.joint2, c.carrier), g + 4, u);
+      continue;
+    }
+    rack_ends(cm, q, poses, nposes, p, &c, k, ends);
+    fprintf(f, "<line class=\"pitch-line\" data-joint=\"");
+    svg_escaped(f, cm->joint_names[c.joint2]);
+    fprintf(f,
+            "\" x1=\"%.17g\" y1=\"%.17g\" x2=\"%.17g\" y2=\"%.17g\" "
+            "stroke=\"%s\" stroke-width=\"%.9g\" "
+            "stroke-dasharray=\"%.9g,%.9g,%.9g,%.9g\"/>\n",
+            ends[0], ends[1], ends[2], ends[3],
+            link_colour(coupled_link(m, c.joint2, c.carrier)), 0.3 * u,
+            2.4 * u, 0.5 * u, 0.4 * u, 0.5 * u);
+  }
+}
+
 static void draw_pose(FILE *f, const cli_model *cm, const pose *q,
                       const outline *o, const pose *poses, int nposes,
                       const paths *p, double u, int main_pose) {
@@ -443,6 +602,7 @@ static void draw_pose(FILE *f, const cli_model *cm, const pose *q,
               xy[0], xy[1], xy[2], xy[3], colour, BAR_PX / JOINT_PX * u);
     }
   }
+  draw_meshes(f, cm, q, poses, nposes, p, u);
   /* slider blocks of prismatic joints, along their axis */
   for (k = 0; k < cm->nslides; k++) {
     int joint = cm->slides[k], links[2];
@@ -570,7 +730,9 @@ static int lay_out(const cli_model *cm, const pose *poses, int nposes,
     if (!finite_xy(poses[k].joint_xy, cm->njoints) ||
         !finite_xy(poses[k].point_xy, cm->npoints) ||
         !finite_xy(poses[k].outline_xy, outline_points) ||
-        !finite_xy(poses[k].rail, 2 * cm->nslides))
+        !finite_xy(poses[k].rail, 2 * cm->nslides) ||
+        !finite_xy(poses[k].mesh,
+                   MESH_VALUES / 2 * kl_model_coupling_count(m)))
       return -1;
   if (!finite_xy(p->xy, p->n * p->npoints))
     return -1;
@@ -600,6 +762,26 @@ static int lay_out(const cli_model *cm, const pose *poses, int nposes,
         rail_point(cm, &poses[k], i, lo + (hi - lo) * j / 64, xy, NULL);
         grow(&b, xy[0], xy[1]);
       }
+  }
+  /* pitch circles and pitch lines */
+  for (i = 0; i < kl_model_coupling_count(m); i++) {
+    kl_coupling_info c;
+    c.size = sizeof c;
+    kl_model_coupling(m, i, &c);
+    for (k = 0; k < nposes && c.kind != KL_COUPLING_RATIO; k++) {
+      const double *g = poses[k].mesh + MESH_VALUES * i;
+      double ends[4];
+      for (j = 0; j < (c.kind == KL_COUPLING_GEAR ? 2 : 1); j++) {
+        double r = hypot(g[4 * j + 2] - g[4 * j], g[4 * j + 3] - g[4 * j + 1]);
+        grow(&b, g[4 * j] - r, g[4 * j + 1] - r);
+        grow(&b, g[4 * j] + r, g[4 * j + 1] + r);
+      }
+      if (c.kind == KL_COUPLING_RACK) {
+        rack_ends(cm, &poses[k], poses, nposes, p, &c, i, ends);
+        grow(&b, ends[0], ends[1]);
+        grow(&b, ends[2], ends[3]);
+      }
+    }
   }
   if (b.empty) {
     b.x0 = b.y0 = -1;

@@ -206,7 +206,17 @@ typedef struct {
   double ratio_largest; /* time per item at 900,000 over that at 1,000 */
 } reader_figures;
 void bench_reader(FILE *out, const bench_plan *plan, reader_figures *fig);
-/* ---- part 9: the five-bar's inverse kinematics along a path ---- */
+/* ---- part 9: coupled linkages (issue 17) ---- */
+typedef struct {
+  /* time per solve per unknown over the four-bar's, paired over rounds */
+  double geared_per_unknown, cam_per_unknown;
+  long allocations; /* allocator calls in all passes after kl_solver_new */
+  int valid; /* no failed step, errors within bounds, no allocation */
+} coupling_figures;
+/* A geared five-bar and a disc cam with a roller follower against the
+ * four-bar, per unknown, with the allocations of their passes. */
+void bench_couplings(FILE *out, const bench_plan *plan, coupling_figures *fig);
+/* ---- part 10: the five-bar's inverse kinematics along a path ---- */
 
 #define IK_POINTS 1000
 
@@ -217,7 +227,7 @@ typedef struct {
   int valid; /* no point failed, angles within BENCH_MAX_ERROR */
 } inverse_figures;
 
-/* Runs and prints part 9: the two-input five-bar's tool point along a path
+/* Runs and prints part 10: the two-input five-bar's tool point along a path
  * of IK_POINTS points, kinloop against two circle intersections. */
 void bench_inverse(FILE *out, const bench_plan *plan, inverse_figures *fig);
 

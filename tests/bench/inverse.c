@@ -1,5 +1,5 @@
 /*
- * inverse.c - benchmark part 9: the inverse kinematics of the two-input
+ * inverse.c - benchmark part 10: the inverse kinematics of the two-input
  * five-bar, its tool point driven by two point inputs along a path of 1000
  * points (each solved from the one before), against the closed form of two
  * circle intersections in the same run, and the largest difference of the

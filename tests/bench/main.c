@@ -32,13 +32,14 @@ static void print_target(FILE *out, const target *t) {
 }
 
 static void usage(FILE *out) {
-  fprintf(out, "usage: kinloop-bench [--quick] [--reader] [--inverse]\n"
+  fprintf(out, "usage: kinloop-bench [--quick] [--reader] [--couplings] [--inverse]\n"
                "  times kinloop against the closed form and GSL; never fails "
                "on time\n"
                "  --quick  one call per method and few chain steps (for "
                "valgrind and callgrind)\n"
                "  --reader the model reader's row alone (part 8)\n"
-               "  --inverse the five-bar's inverse kinematics alone (part 9)\n");
+               "  --couplings the coupled linkages' rows alone (part 9)\n"
+               "  --inverse the five-bar's inverse kinematics alone (part 10)\n");
 }
 
 int main(int argc, char **argv) {
@@ -51,6 +52,7 @@ int main(int argc, char **argv) {
   check_figures checks = {0};
   jerk_figures jerk = {0};
   reader_figures reader = {0};
+  coupling_figures couplings = {0};
   inverse_figures inverse = {0};
   target targets[12];
   size_t i;
@@ -62,6 +64,11 @@ int main(int argc, char **argv) {
     } else if (strcmp(argv[arg], "--reader") == 0) {
       bench_reader(stdout, &plan, &reader);
       return EXIT_SUCCESS;
+    } else if (strcmp(argv[arg], "--couplings") == 0) {
+      machine_report(stdout, &plan);
+      bench_couplings(stdout, &plan, &couplings);
+      machine_load(stdout, "at the end");
+      return couplings.valid ? EXIT_SUCCESS : EXIT_FAILURE;
     } else if (strcmp(argv[arg], "--inverse") == 0) {
       machine_report(stdout, &plan);
       bench_inverse(stdout, &plan, &inverse);
@@ -86,6 +93,7 @@ int main(int argc, char **argv) {
   bench_check(stdout, &plan, &checks);
   bench_jerk(stdout, &plan, &jerk);
   bench_reader(stdout, &plan, &reader);
+  bench_couplings(stdout, &plan, &couplings);
   bench_inverse(stdout, &plan, &inverse);
   machine_load(stdout, "at the end");
 
@@ -173,6 +181,11 @@ int main(int argc, char **argv) {
          threads.throughput_ratio, threads.results_identical ? "yes" : "NO",
          reader.ratio_largest, inverse.ratio, inverse.max_angle_difference,
          inverse.valid ? "" : " (RESULTS WRONG)");
+  printf("(not targets: per unknown against the four-bar, geared five-bar "
+         "%.2fx, cam and follower %.2fx; allocations after kl_solver_new "
+         "%ld; results %s)\n",
+         couplings.geared_per_unknown, couplings.cam_per_unknown,
+         couplings.allocations, couplings.valid ? "right" : "WRONG");
   fourbar_done(&fourbar);
   return EXIT_SUCCESS;
 }
