@@ -5,6 +5,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "slots.h"
 #include "solver.h"
 
 /* The longest continuation step of a move: 2 degrees of a turning input,
@@ -32,10 +33,11 @@ static double sketch_coordinate(const kl_model *m, int point, int axis) {
       sum += axis == 0 ? cos(angle) * t->v[0] - sin(angle) * t->v[1]
                        : sin(angle) * t->v[0] + cos(angle) * t->v[1];
     } else {
+      /* the slot's own path (line, arc or spline), as the equations take it */
       const kli_joint *j = &m->joints[t->joint];
-      double slide = j->has_sketch ? j->sketch : 0.0;
-      angle += j->axis;
-      sum += t->sign * slide * (axis == 0 ? cos(angle) : sin(angle));
+      double g[6], c = cos(angle), s = sin(angle);
+      kli_slot_path(j, j->has_sketch ? j->sketch : 0.0, g);
+      sum += t->sign * (axis == 0 ? c * g[0] - s * g[1] : s * g[0] + c * g[1]);
     }
   }
   return sum;

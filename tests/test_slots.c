@@ -354,6 +354,27 @@ START_TEST(bad_slots_are_refused_and_change_nothing) {
 END_TEST
 
 /* Reading back: the points, the radius, and the path at a slide. */
+/* A point input whose chain runs through an arc slot starts where the
+ * sketch puts the point: on the circle, x = cx + r cos(s / r) plus the
+ * point's arm (the slot's own path, not a straight slide). */
+START_TEST(point_input_through_an_arc_slot_starts_on_the_circle) {
+  kl_model *m = kl_model_new();
+  int carriage = kl_add_link(m, "carriage");
+  int slot = kl_add_arc_slot(m, KL_GROUND, 5, -3, 50, carriage, 0, 0);
+  int pen = kl_add_point(m, carriage, 10, 0, "pen");
+  double u[2];
+  ck_assert_int_ge(slot, 0);
+  ck_assert_int_eq(kl_add_input(m, slot), 0);
+  ck_assert_int_eq(kl_add_point_input(m, pen, 1), 1);
+  ck_assert_int_eq(kl_model_set_sketch_slide(m, slot, 25.0), KL_OK);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  ck_assert_int_eq(kl_model_start_inputs(m, u), KL_OK);
+  /* the carriage's sketch angle is 0: the pen's arm adds (10, 0) */
+  ck_assert_double_eq_tol(u[1], -3 + 50 * sin(0.5), 1e-12);
+  kl_model_free(m);
+}
+END_TEST
+
 START_TEST(slots_read_back) {
   kl_model *m = kl_model_new();
   int a = kl_add_link(m, "a"), b = kl_add_link(m, "b"), closed;
@@ -498,6 +519,7 @@ int main(void) {
   tcase_add_test(tc, open_curve_end_is_a_located_limit);
   tcase_add_test(tc, bad_slots_are_refused_and_change_nothing);
   tcase_add_test(tc, slots_read_back);
+  tcase_add_test(tc, point_input_through_an_arc_slot_starts_on_the_circle);
   tcase_add_test(tc, slot_statements_round_trip);
   tcase_add_test(tc, curve_slot_survives_every_failed_allocation);
   suite_add_tcase(suite, tc);
