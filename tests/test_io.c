@@ -553,7 +553,7 @@ static const bad_case bad_cases[] = {
     {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\nloop j\n",
      KL_EINVAL, 5, 1, "at least 2 joints"},
     {"kinloop-model 1\nlink a\nlink b\nrevolute j ground 0 0 a 0 0\n",
-     KL_EDISCONNECTED, 0, 0, "link 2 'b' is not connected"},
+     KL_EDISCONNECTED, 0, 0, "link 'b' is not connected"},
     {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\n", KL_EDOF, 0, 0,
      "1 degree of freedom but 0 inputs"},
     /* the force stage's statements: each bad value its own status, where
@@ -607,7 +607,7 @@ static const bad_case bad_cases[] = {
      KL_ESYNTAX, 5, 11, "expected dwell, rise"},
     {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
      "segment j rise cycloidal 0.2 0 90\nsegment j dwell 0.1 80\n",
-     KL_EJOIN, 6, 9, "segment 0 ended at 90"},
+     KL_EJOIN, 6, 9, "starts at 80 rad, but the one before ended at 90 rad"},
     {"kinloop-model 1\nlink a\nrevolute j ground 0 0 a 0 0\ninput j\n"
      "segment j dwell -0.1 0\n",
      KL_EINVAL, 5, 9, "not positive"},
