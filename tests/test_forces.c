@@ -1061,7 +1061,8 @@ START_TEST(bad_loads_change_nothing) {
   kl_load bad[6];
   int expect[6] = {KL_EID, KL_EID, KL_EKIND, KL_ENONFINITE, KL_ENONFINITE,
                    KL_ENONFINITE};
-  const char *said[6] = {"point index 9 (0-based)", "link index 11 (0-based)", "kind 7", "NaN or infinite",
+  const char *said[6] = {"point index 9 (0-based)", "link index 11 (0-based)",
+                         "kind 7", "NaN or infinite",
                          "NaN or infinite", "NaN or infinite"};
   double e[1];
   int k;

@@ -111,7 +111,11 @@ expect_status 4 "$KINLOOP" check six.kinloop
 grep -q "^  loop $loop .*anchor" out.txt ||
   fail "check's loop $loop is not the one through anchor: $(cat out.txt)"
 # unstated units: the same text in radians, lengths without a unit
-sed 's/^units .*$/units length unstated angle rad/; s/^sketch angle coupler 60/sketch angle coupler 1.0471975511965976/; s/^sketch angle rocker 100/sketch angle rocker 1.7453292519943295/; s/from 30 to 60/from 0.5235987755982988 to 1.0471975511965976/' six.kinloop >six-rad.kinloop
+sed -e 's/^units .*$/units length unstated angle rad/' \
+  -e 's/^\(sketch angle coupler\) 60/\1 1.0471975511965976/' \
+  -e 's/^\(sketch angle rocker\) 100/\1 1.7453292519943295/' \
+  -e 's/from 30 to 60/from 0.5235987755982988 to 1.0471975511965976/' \
+  six.kinloop >six-rad.kinloop
 expect_status 4 "$KINLOOP" solve six-rad.kinloop --at 0.5235987755982988
 expect_text err.txt "input 1 (motor) = 0.5235987756 rad"
 grep -q " deg\| mm " err.txt && fail "units the model does not state: $(cat err.txt)"
