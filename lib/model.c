@@ -200,7 +200,7 @@ static int check_name(kl_model *m, const char *name, const char *what,
                       what, name, (unsigned long)i);
   if ((other = find_name(m, table, name_at, name)) >= 0)
     return kli_fail(m->error, KL_EDUPLICATE,
-                    "%s: the name '%.40s' is already used by id %d", what,
+                    "%s: the name '%.40s' is already used by @%d", what,
                     name, other);
   if (kli_lookup_grow(&m->alloc, table) != KL_OK)
     return kli_fail(m->error, KL_ENOMEM, "%s: out of memory", what);

@@ -49,7 +49,7 @@ START_TEST(link_names_are_checked) {
   ck_assert_int_eq(kl_add_link(m, NULL), 2);
   ck_assert_ptr_null(kl_model_link_name(m, 2));
   ck_assert_int_eq(kl_add_link(m, "crank"), KL_EDUPLICATE);
-  assert_message_has(m, "'crank' is already used by id 1");
+  assert_message_has(m, "'crank' is already used by @1");
   ck_assert_int_eq(kl_add_link(m, "ground"), KL_EDUPLICATE);
   ck_assert_int_eq(kl_add_link(m, ""), KL_EINVAL);
   ck_assert_int_eq(kl_add_link(m, "tab\there"), KL_EINVAL);
