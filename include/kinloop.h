@@ -14,12 +14,24 @@
  *    positive value for success with a remark, a negative KL_E* value on
  *    failure. A failed call changes nothing: the model or solver stays exactly
  *    as it was before the call.
- *  - The handle that failed keeps a message naming the offending ids and
- *    names (kl_model_error, kl_solver_error), written by every failing call
+ *  - The handle that failed keeps a message naming the offending items
+ *    (kl_model_error, kl_solver_error), written by every failing call
  *    that takes a non-const handle and kept until the next such failure;
  *    calls on a const handle (getters) return their status and write no
  *    message. The library never prints, exits, aborts or uses global
  *    mutable state.
+ *  - Messages read as the model's file does, whatever the call: links,
+ *    joints and points by name ("link 'crank'") or, unnamed, by the file's
+ *    reference "@id" (the id above, from 0; ground is link 'ground');
+ *    inputs and loops, which have no names, numbered from 1 as the
+ *    command-line tool numbers them ("input 1 (motor)", "loop 2"); an
+ *    input's value in the model's recorded units (kl_model_set_units):
+ *    "input 1 (motor) = 170 deg" when angles are deg, "= 2.967059728 rad"
+ *    otherwise, lengths with the unit's symbol when one is stated. An
+ *    argument that names nothing is the caller's C index, and says so:
+ *    "input index 3 (0-based) does not exist (the model has 2 inputs)";
+ *    so are items with no name of their own (loads, couplings, segments,
+ *    array entries: "load index 1 (0-based)").
  *  - Memory: models and solvers allocate only through the allocator given at
  *    model creation. No call on a solver allocates after kl_solver_new.
  *  - Threads: a finalized model is immutable and may be shared by solvers on
@@ -214,8 +226,8 @@ KL_API kl_model *kl_model_new_with_alloc(kl_alloc_fn fn, void *user);
 KL_API void kl_model_free(kl_model *m);
 
 /**
- * The message of the model's last failed call, naming the ids and names
- * involved; "" if none failed yet. Owned by the model; valid until the next
+ * The message of the model's last failed call, naming the items involved
+ * as the conventions above say; "" if none failed yet. Owned by the model; valid until the next
  * call on the model. A NULL model gives a fixed text.
  */
 KL_API const char *kl_model_error(const kl_model *m);
@@ -309,7 +321,7 @@ KL_API int kl_add_loop(kl_model *m, int njoints, const int *joints);
 /**
  * Checks the topology and prepares the equations. After success the model is
  * immutable: builders fail with KL_ESTATE, and solvers may be made.
- * Checks, each with its own status and a message naming ids and names:
+ * Checks, each with its own status and a message naming the items:
  *  KL_EDISCONNECTED  a link not connected to ground through joints
  *  KL_ELOOPSET       registered loops not independent, or not a full set
  *  KL_EOVERCONSTRAINED  Gruebler's count plus the declared redundancy
@@ -772,8 +784,9 @@ KL_API void kl_solver_free(kl_solver *s);
 KL_API const kl_model *kl_solver_model(const kl_solver *s);
 
 /**
- * The message of the solver's last failed call; "" if none failed yet. Owned
- * by the solver; valid until the next call on it.
+ * The message of the solver's last failed call, in the model's units and
+ * numbering (the conventions above); "" if none failed yet. Owned by the
+ * solver; valid until the next call on it.
  */
 KL_API const char *kl_solver_error(const kl_solver *s);
 
@@ -2428,8 +2441,8 @@ KL_API int kl_cam_set_follower(kl_cam *c, const kl_cam_follower *f);
  * lifts to zero (the follower comes back, to 1e-9 of the largest lift).
  * Returns KL_OK, or KL_EINVAL (NULL, nsegments < 1 or above 10000, an
  * unknown law, spans not a turn, lifts not closing, span <= 0),
- * KL_ENONFINITE; with a message naming the segment; the cam is unchanged
- * on error. The segments are copied (allocates).
+ * KL_ENONFINITE; with a message naming the segment by its index (0-based)
+ * and giving angles in degrees; the cam is unchanged on error. The segments are copied (allocates).
  */
 KL_API int kl_cam_set_program(kl_cam *c, int nsegments,
                               const kl_cam_segment *segments);

@@ -160,18 +160,19 @@ int kl_cam_set_program(kl_cam *c, int n, const kl_cam_segment *seg) {
   for (i = 0; i < n; i++) {
     if (!isfinite(seg[i].span) || !isfinite(seg[i].lift))
       return kli_fail(c->error, KL_ENONFINITE,
-                      "set program: segment %d's span or lift is NaN or "
-                      "infinite",
+                      "set program: segment index %d (0-based): its span "
+                      "or lift is NaN or infinite",
                       i);
     if (seg[i].span <= 0.0)
       return kli_fail(c->error, KL_EINVAL,
-                      "set program: segment %d's span %g rad is not "
-                      "positive",
-                      i, seg[i].span);
+                      "set program: segment index %d (0-based): its span "
+                      "%g deg is not positive",
+                      i, seg[i].span * 180.0 / KLI_PI);
     if (seg[i].lift != 0.0 &&
         (seg[i].law < KL_LAW_HARMONIC || seg[i].law > KL_LAW_MOD_SINE))
       return kli_fail(c->error, KL_EINVAL,
-                      "set program: segment %d has unknown motion law %d", i,
+                      "set program: segment index %d (0-based) has unknown "
+                      "motion law %d", i,
                       seg[i].law);
     turn += seg[i].span;
     lift += seg[i].lift;
@@ -179,9 +180,9 @@ int kl_cam_set_program(kl_cam *c, int n, const kl_cam_segment *seg) {
   }
   if (fabs(turn - 2.0 * KLI_PI) > KLI_CAM_CLOSURE * 2.0 * KLI_PI)
     return kli_fail(c->error, KL_EINVAL,
-                    "set program: the spans add up to %.12g rad, not one "
-                    "turn (2 pi)",
-                    turn);
+                    "set program: the spans add up to %.10g deg, not one "
+                    "turn (360 deg)",
+                    turn * 180.0 / KLI_PI);
   if (fabs(lift) > KLI_CAM_CLOSURE * largest)
     return kli_fail(c->error, KL_EINVAL,
                     "set program: the lifts add up to %g, not 0: the "

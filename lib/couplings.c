@@ -6,6 +6,7 @@
 #include <stdio.h>
 #include <string.h>
 
+#include "describe.h"
 #include "model.h"
 
 /* The centre distance must match a mesh to this fraction of the larger of
@@ -23,9 +24,7 @@ static int check_builder(kl_model *m, const char *what) {
 
 static int check_joint_id(kl_model *m, int joint, const char *what) {
   if (joint < 0 || joint >= m->njoints)
-    return kli_fail(m->error, KL_EID,
-                    "%s: joint %d does not exist (%d joints so far)", what,
-                    joint, m->njoints);
+    return kli_fail_index(m->error, what, "joint", joint, m->njoints);
   return KL_OK;
 }
 
@@ -65,11 +64,10 @@ static int check_pair(kl_model *m, int joint1, int joint2, int *common,
         return KL_OK;
       }
   return kli_fail(m->error, KL_ENOCOMMON,
-                  "%s: %s (links %d, %d) and %s (links %d, %d) share no link; "
-                  "the pair turns on one common link (the carrier)",
-                  what, kli_joint_label(m, joint1, l1, sizeof l1), j1->link[0],
-                  j1->link[1], kli_joint_label(m, joint2, l2, sizeof l2),
-                  j2->link[0], j2->link[1]);
+                  "%s: %s and %s share no link; the pair turns on one common "
+                  "link (the carrier)",
+                  what, kli_joint_label(m, joint1, l1, sizeof l1),
+                  kli_joint_label(m, joint2, l2, sizeof l2));
 }
 
 static int push_coupling(kl_model *m, const kli_coupling *c,
@@ -166,6 +164,7 @@ int kl_add_rack_pinion(kl_model *m, int pinion_joint, int rack_joint,
 int kl_add_coupling(kl_model *m, int joint1, int joint2, double ratio) {
   static const char what[] = "add coupling";
   kli_coupling c;
+  char j1[48], j2[48];
   int st;
   if (m == NULL)
     return KL_EINVAL;
@@ -176,9 +175,10 @@ int kl_add_coupling(kl_model *m, int joint1, int joint2, double ratio) {
                     ratio);
   if (ratio == 0.0)
     return kli_fail(m->error, KL_EINVAL,
-                    "%s: a ratio of 0 locks joint %d rather than coupling it "
-                    "with joint %d",
-                    what, joint2, joint1);
+                    "%s: a ratio of 0 locks joint %s rather than coupling it "
+                    "with joint %s",
+                    what, kli_joint_ref(m, joint2, j2, sizeof j2),
+                    kli_joint_ref(m, joint1, j1, sizeof j1));
   memset(&c, 0, sizeof c);
   c.kind = KL_COUPLING_RATIO;
   c.joint[0] = joint1;
@@ -190,16 +190,14 @@ int kl_add_coupling(kl_model *m, int joint1, int joint2, double ratio) {
 
 int kl_add_point_input(kl_model *m, int point, int axis) {
   static const char what[] = "add point input";
-  char lp[160];
+  char lp[160], li[KLI_LABEL_SIZE];
   int st, k;
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_builder(m, what)) != KL_OK)
     return st;
   if (point < 0 || point >= m->npoints)
-    return kli_fail(m->error, KL_EID,
-                    "%s: point %d does not exist (%d points so far)", what,
-                    point, m->npoints);
+    return kli_fail_index(m->error, what, "point", point, m->npoints);
   if (axis != 0 && axis != 1)
     return kli_fail(m->error, KL_EINVAL,
                     "%s: axis %d is neither 0 (x) nor 1 (y)", what, axis);
@@ -210,10 +208,11 @@ int kl_add_point_input(kl_model *m, int point, int axis) {
   for (k = 0; k < m->npoint_inputs; k++)
     if (m->point_inputs[k].point == point && m->point_inputs[k].axis == axis)
       return kli_fail(m->error, KL_EDUPLICATE,
-                      "%s: the %c of %s is already input %d", what,
+                      "%s: the %c of %s is already %s", what,
                       axis == 0 ? 'x' : 'y',
                       kli_point_label(m, point, lp, sizeof lp),
-                      m->point_inputs[k].input);
+                      kli_input_label(m, m->point_inputs[k].input, li,
+                                      sizeof li));
   if (kli_reserve(&m->alloc, (void **)&m->point_inputs, &m->cap_point_inputs,
                   m->npoint_inputs + 1, sizeof *m->point_inputs) != KL_OK ||
       kli_reserve(&m->alloc, (void **)&m->inputs, &m->cap_inputs,
@@ -288,17 +287,6 @@ int kl_model_input_axis(const kl_model *m, int input) {
 int kli_input_is_angle(const kl_model *m, int input) {
   return m->inputs[input] >= 0 &&
          m->joints[m->inputs[input]].kind == KL_JOINT_REVOLUTE;
-}
-
-const char *kli_input_label(const kl_model *m, int input, char *buf,
-                            size_t n) {
-  const kli_point_input *p = kli_point_input_of(m, input);
-  char lp[160];
-  if (p == NULL)
-    return kli_joint_label(m, m->inputs[input], buf, n);
-  snprintf(buf, n, "%s %c", kli_point_label(m, p->point, lp, sizeof lp),
-           p->axis == 0 ? 'x' : 'y');
-  return buf;
 }
 
 int kli_copy_couplings(kl_model *m, const kl_model *src) {

@@ -6,6 +6,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "describe.h"
 #include "forces.h"
 
 /* The first kl_cycle ends after speed_fluctuation: callers' structs are at
@@ -224,9 +225,7 @@ static int begin(kl_solver *s, const kl_cycle *c, int nloads,
       (st = kli_check_loads(s, nloads, loads, stage)) != KL_OK)
     return st;
   if (r->c.input < 0 || r->c.input >= s->ninputs)
-    return kli_fail(s->error, KL_EID,
-                    "%s: input %d does not exist (the model has %d)", stage,
-                    r->c.input, s->ninputs);
+    return kli_fail_index(s->error, stage, "input", r->c.input, s->ninputs);
   if (!isfinite(r->c.from) || !isfinite(r->c.to) || !isfinite(r->c.speed) ||
       !isfinite(r->c.speed_fluctuation))
     return kli_fail(s->error, KL_ENONFINITE,

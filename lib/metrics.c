@@ -6,6 +6,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "describe.h"
 #include "outputs.h"
 #include "velocity.h"
 
@@ -34,9 +35,7 @@ static int need_coefficients(kl_solver *s) {
 
 static int check_input(kl_solver *s, int input, const char *what) {
   if (input < 0 || input >= s->ninputs)
-    return kli_fail(s->error, KL_EID,
-                    "%s: input %d does not exist (the model has %d)", what,
-                    input, s->ninputs);
+    return kli_fail_index(s->error, what, "input", input, s->ninputs);
   return KL_OK;
 }
 
@@ -462,11 +461,14 @@ int kl_output_tolerance_stack(kl_solver *s, const kl_output *o, int n,
   for (k = 0; k < n; k++) {
     if (!isfinite(tolerances[k]))
       return kli_fail(s->error, KL_ENONFINITE,
-                      "tolerance stack: tolerance %d is NaN or infinite", k);
+                      "tolerance stack: tolerance index %d (0-based) is NaN "
+                      "or infinite",
+                      k);
     if (tolerances[k] < 0.0)
       return kli_fail(s->error, KL_EINVAL,
-                      "tolerance stack: tolerance %d is negative (%g)", k,
-                      tolerances[k]);
+                      "tolerance stack: tolerance index %d (0-based) is "
+                      "negative (%g)",
+                      k, tolerances[k]);
   }
   if ((st = kli_output_check(s->model, o, s->error)) != KL_OK ||
       (st = kli_require_position(s, "tolerance stack")) != KL_OK)

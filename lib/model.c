@@ -8,6 +8,7 @@
 #include <stdio.h>
 #include <string.h>
 
+#include "describe.h"
 #include "slots.h"
 
 kl_model *kl_model_new(void) {
@@ -109,26 +110,7 @@ const char *kl_model_error(const kl_model *m) {
   return m == NULL ? "no model (NULL pointer)" : m->error;
 }
 
-/* ---- labels used in messages ---- */
-
-const char *kli_link_label(const kl_model *m, int link, char *buf, size_t n) {
-  const char *name = kl_model_link_name(m, link);
-  if (name != NULL)
-    snprintf(buf, n, "link %d '%.40s'", link, name);
-  else
-    snprintf(buf, n, "link %d", link);
-  return buf;
-}
-
-const char *kli_point_label(const kl_model *m, int point, char *buf,
-                            size_t n) {
-  const char *name = kl_model_point_name(m, point);
-  if (name != NULL)
-    snprintf(buf, n, "point %d '%.40s'", point, name);
-  else
-    snprintf(buf, n, "point %d", point);
-  return buf;
-}
+/* ---- kinds ---- */
 
 const char *kli_kind_name(int kind) {
   switch (kind) {
@@ -138,19 +120,6 @@ const char *kli_kind_name(int kind) {
   case KL_JOINT_CURVE_SLOT: return "curve slot";
   default: return "slot";
   }
-}
-
-const char *kli_joint_label(const kl_model *m, int joint, char *buf,
-                            size_t n) {
-  char la[64], lb[64], name[48] = "";
-  const kli_joint *j = &m->joints[joint];
-  if (j->name != NULL)
-    snprintf(name, sizeof name, " '%.40s'", j->name);
-  snprintf(buf, n, "joint %d%s (%s, %s to %s)", joint, name,
-           kli_kind_name(j->kind),
-           kli_link_label(m, j->link[0], la, sizeof la),
-           kli_link_label(m, j->link[1], lb, sizeof lb));
-  return buf;
 }
 
 int kli_is_sliding(int kind) {
@@ -183,9 +152,7 @@ static int check_open(kl_model *m, const char *what) {
 
 static int check_link(kl_model *m, int link, const char *what) {
   if (link < 0 || link >= m->nlinks)
-    return kli_fail(m->error, KL_EID,
-                    "%s: link %d does not exist (links are 0 to %d)", what,
-                    link, m->nlinks - 1);
+    return kli_fail_index(m->error, what, "link", link, m->nlinks);
   return KL_OK;
 }
 
@@ -233,7 +200,7 @@ static int check_name(kl_model *m, const char *name, const char *what,
                       what, name, (unsigned long)i);
   if ((other = find_name(m, table, name_at, name)) >= 0)
     return kli_fail(m->error, KL_EDUPLICATE,
-                    "%s: the name '%.40s' is already used by id %d", what,
+                    "%s: the name '%.40s' is already used by @%d", what,
                     name, other);
   if (kli_lookup_grow(&m->alloc, table) != KL_OK)
     return kli_fail(m->error, KL_ENOMEM, "%s: out of memory", what);
@@ -291,7 +258,7 @@ static int same_pair(const void *owner, int id, const void *key) {
 
 static int add_joint(kl_model *m, int kind, int a, double ax, double ay,
                      double axis, int b, double bx, double by) {
-  char what[32], la[64], lb[64];
+  char what[32], la[64], lb[64], lj[48];
   int st, j, pair[3];
   unsigned pair_hash;
   kli_joint *nj;
@@ -318,8 +285,9 @@ static int add_joint(kl_model *m, int kind, int a, double ax, double ay,
   if ((j = kli_lookup_find(&m->joint_pairs, pair_hash, same_pair, m, pair)) >=
       0)
     return kli_fail(m->error, KL_EDUPLICATE,
-                    "%s: joint %d is already a %s joint between %s and %s",
-                    what, j, kli_kind_name(kind),
+                    "%s: joint %s is already a %s joint between %s and %s",
+                    what, kli_joint_ref(m, j, lj, sizeof lj),
+                    kli_kind_name(kind),
                     kli_link_label(m, a, la, sizeof la),
                     kli_link_label(m, b, lb, sizeof lb));
   if (kli_lookup_grow(&m->alloc, &m->joint_pairs) != KL_OK ||
@@ -419,15 +387,13 @@ int kl_add_point(kl_model *m, int link, double x, double y, const char *name) {
 
 static int check_joint(kl_model *m, int joint, const char *what) {
   if (joint < 0 || joint >= m->njoints)
-    return kli_fail(m->error, KL_EID,
-                    "%s: joint %d does not exist (%d joints so far)", what,
-                    joint, m->njoints);
+    return kli_fail_index(m->error, what, "joint", joint, m->njoints);
   return KL_OK;
 }
 
 int kl_add_input(kl_model *m, int joint) {
   int st, i;
-  char lj[160];
+  char lj[160], li[KLI_LABEL_SIZE];
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "add input")) != KL_OK ||
@@ -435,8 +401,9 @@ int kl_add_input(kl_model *m, int joint) {
     return st;
   if ((i = kli_input_of(m, joint)) >= 0)
     return kli_fail(m->error, KL_EDUPLICATE,
-                    "add input: %s is already input %d",
-                    kli_joint_label(m, joint, lj, sizeof lj), i);
+                    "add input: %s is already %s",
+                    kli_joint_label(m, joint, lj, sizeof lj),
+                    kli_input_label(m, i, li, sizeof li));
   if (kli_reserve(&m->alloc, (void **)&m->inputs, &m->cap_inputs,
                   m->ninputs + 1, sizeof *m->inputs) != KL_OK)
     return kli_fail(m->error, KL_ENOMEM, "add input: out of memory");
@@ -483,7 +450,7 @@ int kli_loop_links(const kl_model *m, int n, const int *joints,
 static int check_cycle(kl_model *m, int n, const int *joints,
                        int *links_after, unsigned char *seen) {
   int i;
-  char la[64];
+  char la[64], ja[48], jb[48];
   if (!kli_loop_links(m, n, joints, links_after)) {
     for (i = 0; i < n; i++) {
       const kli_joint *a = &m->joints[joints[i]];
@@ -491,14 +458,18 @@ static int check_cycle(kl_model *m, int n, const int *joints,
       if (a->link[0] != b->link[0] && a->link[0] != b->link[1] &&
           a->link[1] != b->link[0] && a->link[1] != b->link[1])
         return kli_fail(m->error, KL_ELOOP,
-                        "add loop: joints %d and %d (positions %d and %d) do "
-                        "not share a link, so the walk breaks there",
-                        joints[i], joints[(i + 1) % n], i, (i + 1) % n);
+                        "add loop: joints %s and %s (positions %d and %d of "
+                        "the list, 0-based) do not share a link, so the walk "
+                        "breaks there",
+                        kli_joint_ref(m, joints[i], ja, sizeof ja),
+                        kli_joint_ref(m, joints[(i + 1) % n], jb, sizeof jb),
+                        i, (i + 1) % n);
     }
     return kli_fail(m->error, KL_ELOOP,
-                    "add loop: walking joints %d .. %d from either link of "
-                    "joint %d does not come back to where it started",
-                    joints[0], joints[n - 1], joints[0]);
+                    "add loop: walking joints %s .. %s from either link of "
+                    "joint %s does not come back to where it started",
+                    kli_joint_ref(m, joints[0], ja, sizeof ja),
+                    kli_joint_ref(m, joints[n - 1], jb, sizeof jb), ja);
   }
   for (i = 0; i < n; i++) {
     if (seen[links_after[i]])
@@ -516,6 +487,7 @@ int kl_add_loop(kl_model *m, int njoints, const int *joints) {
   int *links_after;
   unsigned char *seen_joint, *seen_link;
   size_t bytes;
+  char ref[48];
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "add loop")) != KL_OK)
@@ -552,8 +524,9 @@ int kl_add_loop(kl_model *m, int njoints, const int *joints) {
       while (joints[k] != joints[i])
         k++;
       st = kli_fail(m->error, KL_ELOOP,
-                    "add loop: joint %d appears twice (positions %d and %d)",
-                    joints[i], k, i);
+                    "add loop: joint %s appears twice (positions %d and %d "
+                    "of the list, 0-based)",
+                    kli_joint_ref(m, joints[i], ref, sizeof ref), k, i);
     }
     seen_joint[joints[i]] = 1;
   }
@@ -650,6 +623,7 @@ const char *kl_angle_unit_str(int angle_unit) {
 
 int kl_model_set_sketch_angle(kl_model *m, int link, double angle) {
   int st;
+  char label[KLI_LABEL_SIZE];
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "set sketch angle")) != KL_OK ||
@@ -660,9 +634,8 @@ int kl_model_set_sketch_angle(kl_model *m, int link, double angle) {
                     "set sketch angle: ground's angle is 0 for good");
   if (!isfinite(angle))
     return kli_fail(m->error, KL_ENONFINITE,
-                    "set sketch angle: the angle of link %d is NaN or "
-                    "infinite",
-                    link);
+                    "set sketch angle: the angle of %s is NaN or infinite",
+                    kli_link_label(m, link, label, sizeof label));
   m->links[link].sketch = angle;
   m->links[link].has_sketch = 1;
   return KL_OK;
@@ -703,6 +676,7 @@ double kl_model_sketch_slide(const kl_model *m, int joint) {
 
 int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
   int st;
+  char label[KLI_LABEL_SIZE];
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "set sweep")) != KL_OK)
@@ -721,15 +695,14 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
                     "(KL_MAX_STEPS)",
                     sweep->steps, KL_MAX_STEPS);
   if (sweep->input < 0 || sweep->input >= m->ninputs)
-    return kli_fail(m->error, KL_EID,
-                    "set sweep: input %d does not exist (%d inputs so far)",
-                    sweep->input, m->ninputs);
+    return kli_fail_index(m->error, "set sweep", "input", sweep->input,
+                          m->ninputs);
   if (m->inputs[sweep->input] < 0)
     return kli_fail(m->error, KL_EKIND,
-                    "set sweep: input %d is a point input; the recorded "
-                    "sweep is a joint input's (sweep a point input with "
+                    "set sweep: %s is a point input; the recorded sweep is a "
+                    "joint input's (sweep a point input with "
                     "kl_solver_sweep)",
-                    sweep->input);
+                    kli_input_label(m, sweep->input, label, sizeof label));
   if (!isfinite(sweep->from) || !isfinite(sweep->to) ||
       !isfinite(sweep->to - sweep->from))
     return kli_fail(m->error, KL_ENONFINITE,
@@ -743,20 +716,19 @@ int kl_model_set_sweep(kl_model *m, const kl_sweep_settings *sweep) {
 
 int kl_model_set_input_hold(kl_model *m, int input, double value) {
   int st;
+  char label[KLI_LABEL_SIZE];
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "set input hold")) != KL_OK)
     return st;
   if (input < 0 || input >= m->ninputs)
-    return kli_fail(m->error, KL_EID,
-                    "set input hold: input %d does not exist (%d inputs so "
-                    "far)",
-                    input, m->ninputs);
+    return kli_fail_index(m->error, "set input hold", "input", input,
+                          m->ninputs);
   if (m->inputs[input] < 0)
     return kli_fail(m->error, KL_EKIND,
-                    "set input hold: input %d is a point input; it starts "
-                    "where the sketch puts its point",
-                    input);
+                    "set input hold: %s is a point input; it starts where the "
+                    "sketch puts its point",
+                    kli_input_label(m, input, label, sizeof label));
   if (!isfinite(value))
     return kli_fail(m->error, KL_ENONFINITE,
                     "set input hold: the value is NaN or infinite");
@@ -979,24 +951,32 @@ int kli_check_load_list(const kl_model *m, char *error, int nloads,
     if (l->kind == KL_LOAD_FORCE) {
       if (l->id < 0 || l->id >= m->npoints)
         return kli_fail(error, KL_EID,
-                        "%s: load %d acts at point %d, which does not exist",
-                        stage, k, l->id);
+                        "%s: load index %d (0-based) acts at point index %d "
+                        "(0-based), which does not exist (the model has %d "
+                        "points)",
+                        stage, k, l->id, m->npoints);
       if (!isfinite(l->fx) || !isfinite(l->fy))
         return kli_fail(error, KL_ENONFINITE,
-                        "%s: load %d at %s is NaN or infinite", stage, k,
+                        "%s: load index %d (0-based) at %s is NaN or "
+                        "infinite",
+                        stage, k,
                         kli_point_label(m, l->id, label, sizeof label));
     } else if (l->kind == KL_LOAD_TORQUE) {
       if (l->id < 0 || l->id >= m->nlinks)
         return kli_fail(error, KL_EID,
-                        "%s: load %d acts on link %d, which does not exist",
-                        stage, k, l->id);
+                        "%s: load index %d (0-based) acts on link index %d "
+                        "(0-based), which does not exist (the model has %d "
+                        "links)",
+                        stage, k, l->id, m->nlinks);
       if (!isfinite(l->torque))
         return kli_fail(error, KL_ENONFINITE,
-                        "%s: the torque of load %d on %s is NaN or infinite",
+                        "%s: the torque of load index %d (0-based) on %s is "
+                        "NaN or infinite",
                         stage, k, kli_link_label(m, l->id, label, sizeof label));
     } else {
       return kli_fail(error, KL_EKIND,
-                      "%s: load %d has kind %d, neither force nor torque",
+                      "%s: load index %d (0-based) has kind %d, neither "
+                      "force nor torque",
                       stage, k, l->kind);
     }
   }
@@ -1036,19 +1016,18 @@ int kl_model_load(const kl_model *m, int index, kl_load *load) {
 int kl_model_set_speed(kl_model *m, int input, double speed,
                        double speed_fluctuation) {
   int st;
+  char label[KLI_LABEL_SIZE];
   if (m == NULL)
     return KL_EINVAL;
   if ((st = check_open(m, "set speed")) != KL_OK)
     return st;
   if (input < 0 || input >= m->ninputs)
-    return kli_fail(m->error, KL_EID,
-                    "set speed: input %d does not exist (%d inputs so far)",
-                    input, m->ninputs);
+    return kli_fail_index(m->error, "set speed", "input", input, m->ninputs);
   if (m->inputs[input] < 0)
     return kli_fail(m->error, KL_EKIND,
-                    "set speed: input %d is a point input; the working speed "
-                    "is a joint input's",
-                    input);
+                    "set speed: %s is a point input; the working speed is a "
+                    "joint input's",
+                    kli_input_label(m, input, label, sizeof label));
   if (!isfinite(speed) || !isfinite(speed_fluctuation))
     return kli_fail(m->error, KL_ENONFINITE,
                     "set speed: the speed (%g) or its fluctuation (%g) is NaN "

@@ -313,10 +313,6 @@ int kli_fail(char *buf, int status, const char *fmt, ...)
     __attribute__((format(printf, 3, 4)))
 #endif
     ;
-/* "link 3 'rocker'" or "link 3"; likewise for joints and points. */
-const char *kli_link_label(const kl_model *m, int link, char *buf, size_t n);
-const char *kli_joint_label(const kl_model *m, int joint, char *buf, size_t n);
-const char *kli_point_label(const kl_model *m, int point, char *buf, size_t n);
 const char *kli_kind_name(int kind);
 
 /* The attachment of `joint` on `link` (one of its two links). */
@@ -342,9 +338,6 @@ const kli_point_input *kli_point_input_of(const kl_model *m, int input);
 /* 1 when input i turns a revolute joint (an angle), 0 for a slide or a
  * point coordinate (a length). */
 int kli_input_is_angle(const kl_model *m, int input);
-/* "joint 2 'crank'" or "point 1 'tip' x" for input i, into buf. */
-const char *kli_input_label(const kl_model *m, int input, char *buf,
-                            size_t n);
 /* Copies src's couplings and point inputs into the empty arrays of m;
  * 0 when memory runs out. Frees them (kli_free_couplings). */
 int kli_copy_couplings(kl_model *m, const kl_model *src);

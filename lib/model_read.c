@@ -5,6 +5,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "describe.h"
 #include "tokens.h"
 
 /* The model being built, beside the tokenizer's reader (whose r.m is the

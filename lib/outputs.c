@@ -6,6 +6,7 @@
 #include <math.h>
 #include <stdio.h>
 
+#include "describe.h"
 #include "outputs.h"
 
 static int joint_on(const kl_model *m, int joint, int link) {
@@ -23,49 +24,60 @@ static int pressure_rod(const kl_model *m, const kl_output *o) {
   return pin->link[0] == block ? pin->link[1] : pin->link[0];
 }
 
+/* KL_EID with its message when line_a or line_b names no joint. */
+static int check_line_ids(const kl_model *m, const kl_output *o, char *buf) {
+  if (o->line_a < 0 || o->line_a >= m->njoints)
+    return kli_fail_index(buf, "output: line_a", "joint", o->line_a,
+                          m->njoints);
+  if (o->line_b < 0 || o->line_b >= m->njoints)
+    return kli_fail_index(buf, "output: line_b", "joint", o->line_b,
+                          m->njoints);
+  return KL_OK;
+}
+
 static int pressure_check(const kl_model *m, const kl_output *o, char *buf) {
   const kli_joint *slide = &m->joints[o->id];
+  char la[48], lb[48], lj[48], ll[64];
+  int st;
   if (!kli_is_sliding(slide->kind))
     return kli_fail(buf, KL_EKIND, "output: a pressure angle needs a "
-                                   "prismatic or slot joint; joint %d is "
+                                   "prismatic or slot joint; joint %s is "
                                    "revolute",
-                    o->id);
-  if (o->line_a < 0 || o->line_a >= m->njoints || o->line_b < 0 ||
-      o->line_b >= m->njoints)
-    return kli_fail(buf, KL_EID,
-                    "output: line joint %d does not exist (%d joints)",
-                    o->line_a < 0 || o->line_a >= m->njoints ? o->line_a
-                                                             : o->line_b,
-                    m->njoints);
+                    kli_joint_ref(m, o->id, lj, sizeof lj));
+  if ((st = check_line_ids(m, o, buf)) != KL_OK)
+    return st;
   if (m->joints[o->line_a].kind != KL_JOINT_REVOLUTE ||
       !(joint_on(m, o->line_a, slide->link[0]) ||
         joint_on(m, o->line_a, slide->link[1])))
-    return kli_fail(buf, KL_EKIND, "output: line_a (joint %d) is not a "
+    return kli_fail(buf, KL_EKIND, "output: line_a (joint %s) is not a "
                                    "revolute joint on a link of sliding "
-                                   "joint %d",
-                    o->line_a, o->id);
+                                   "joint %s",
+                    kli_joint_ref(m, o->line_a, la, sizeof la),
+                    kli_joint_ref(m, o->id, lj, sizeof lj));
   if (o->line_b == o->line_a || !joint_on(m, o->line_b, pressure_rod(m, o)))
-    return kli_fail(buf, KL_EKIND, "output: line_b (joint %d) is not another "
-                                   "joint on link %d, the rod at pin %d",
-                    o->line_b, pressure_rod(m, o), o->line_a);
+    return kli_fail(buf, KL_EKIND, "output: line_b (joint %s) is not another "
+                                   "joint on %s, the rod at pin %s",
+                    kli_joint_ref(m, o->line_b, lb, sizeof lb),
+                    kli_link_label(m, pressure_rod(m, o), ll, sizeof ll),
+                    kli_joint_ref(m, o->line_a, la, sizeof la));
   return KL_OK;
 }
 
 int kli_output_check(const kl_model *m, const kl_output *o, char *buf) {
   const kli_joint *j;
+  char lj[48], la[48], lb[48], ll[64];
+  int st;
   if (o == NULL)
     return kli_fail(buf, KL_EINVAL, "output: none given (NULL)");
   switch (o->kind) {
   case KL_OUTPUT_LINK_ANGLE:
     if (o->id < 0 || o->id >= m->nlinks)
-      return kli_fail(buf, KL_EID, "output: link %d does not exist (%d links)",
-                 o->id, m->nlinks);
+      return kli_fail_index(buf, "output", "link", o->id, m->nlinks);
     return KL_OK;
   case KL_OUTPUT_POINT_X:
   case KL_OUTPUT_POINT_Y:
     if (o->id < 0 || o->id >= m->npoints)
-      return kli_fail(buf, KL_EID, "output: point %d does not exist (%d points)",
-                 o->id, m->npoints);
+      return kli_fail_index(buf, "output", "point", o->id, m->npoints);
     return KL_OK;
   case KL_OUTPUT_SLIDE:
   case KL_OUTPUT_JOINT_ANGLE:
@@ -77,36 +89,32 @@ int kli_output_check(const kl_model *m, const kl_output *o, char *buf) {
                o->kind);
   }
   if (o->id < 0 || o->id >= m->njoints)
-    return kli_fail(buf, KL_EID, "output: joint %d does not exist (%d joints)",
-               o->id, m->njoints);
+    return kli_fail_index(buf, "output", "joint", o->id, m->njoints);
   j = &m->joints[o->id];
   if (o->kind == KL_OUTPUT_SLIDE && !kli_is_sliding(j->kind))
-    return kli_fail(buf, KL_EKIND, "output: joint %d is revolute and has no "
+    return kli_fail(buf, KL_EKIND, "output: joint %s is revolute and has no "
                               "slide",
-               o->id);
+               kli_joint_ref(m, o->id, lj, sizeof lj));
   if (o->kind == KL_OUTPUT_PRESSURE)
     return pressure_check(m, o, buf);
   if (o->kind != KL_OUTPUT_TRANSMISSION)
     return KL_OK;
   if (j->kind != KL_JOINT_REVOLUTE)
     return kli_fail(buf, KL_EKIND, "output: a transmission angle needs a revolute "
-                              "joint; joint %d is not",
-               o->id);
-  if (o->line_a < 0 || o->line_a >= m->njoints || o->line_b < 0 ||
-      o->line_b >= m->njoints)
-    return kli_fail(buf, KL_EID,
-                    "output: line joint %d does not exist (%d joints)",
-                    o->line_a < 0 || o->line_a >= m->njoints ? o->line_a
-                                                             : o->line_b,
-                    m->njoints);
+                              "joint; joint %s is not",
+               kli_joint_ref(m, o->id, lj, sizeof lj));
+  if ((st = check_line_ids(m, o, buf)) != KL_OK)
+    return st;
   if (o->line_a == o->id || !joint_on(m, o->line_a, j->link[0]))
-    return kli_fail(buf, KL_EKIND, "output: line_a (joint %d) is not another "
-                              "joint on link %d, joint's link a",
-               o->line_a, j->link[0]);
+    return kli_fail(buf, KL_EKIND, "output: line_a (joint %s) is not another "
+                              "joint on %s, joint's link a",
+               kli_joint_ref(m, o->line_a, la, sizeof la),
+               kli_link_label(m, j->link[0], ll, sizeof ll));
   if (o->line_b == o->id || !joint_on(m, o->line_b, j->link[1]))
-    return kli_fail(buf, KL_EKIND, "output: line_b (joint %d) is not another "
-                              "joint on link %d, joint's link b",
-               o->line_b, j->link[1]);
+    return kli_fail(buf, KL_EKIND, "output: line_b (joint %s) is not another "
+                              "joint on %s, joint's link b",
+               kli_joint_ref(m, o->line_b, lb, sizeof lb),
+               kli_link_label(m, j->link[1], ll, sizeof ll));
   return KL_OK;
 }
 
@@ -122,14 +130,13 @@ int kli_dim_resolve(const kl_model *m, const kl_dimension *d, kli_dim *out,
   out->coupling = -1;
   if (d->kind == KL_DIMENSION_RADIUS) {
     if (d->id < 0 || d->id >= m->ncouplings)
-      return kli_fail(buf, KL_EID,
-                      "dimension: coupling %d does not exist (%d couplings)",
-                      d->id, m->ncouplings);
+      return kli_fail_index(buf, "dimension", "coupling", d->id,
+                            m->ncouplings);
     if (m->couplings[d->id].kind == KL_COUPLING_RATIO ||
         (m->couplings[d->id].kind == KL_COUPLING_RACK && d->axis != 0))
       return kli_fail(buf, KL_EKIND,
-                      "dimension: coupling %d has no radius %d (a gear pair "
-                      "has radii 0 and 1, a rack radius 0)",
+                      "dimension: coupling index %d (0-based) has no radius "
+                      "%d (a gear pair has radii 0 and 1, a rack radius 0)",
                       d->id, d->axis);
     out->joint = out->point = -1;
     out->link = -1;
@@ -138,9 +145,7 @@ int kli_dim_resolve(const kl_model *m, const kl_dimension *d, kli_dim *out,
   }
   if (d->kind == KL_DIMENSION_POINT) {
     if (d->id < 0 || d->id >= m->npoints)
-      return kli_fail(buf, KL_EID, "dimension: point %d does not exist (%d "
-                              "points)",
-                 d->id, m->npoints);
+      return kli_fail_index(buf, "dimension", "point", d->id, m->npoints);
     out->joint = -1;
     out->point = d->id;
     out->link = m->points[d->id].link;
@@ -151,8 +156,7 @@ int kli_dim_resolve(const kl_model *m, const kl_dimension *d, kli_dim *out,
                                "kind",
                d->kind);
   if (d->id < 0 || d->id >= m->njoints)
-    return kli_fail(buf, KL_EID, "dimension: joint %d does not exist (%d joints)",
-               d->id, m->njoints);
+    return kli_fail_index(buf, "dimension", "joint", d->id, m->njoints);
   out->joint = d->id;
   out->point = -1;
   out->link = m->joints[d->id].link[d->kind == KL_DIMENSION_JOINT_A ? 0 : 1];

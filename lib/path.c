@@ -7,6 +7,7 @@
 #include <stdio.h>
 #include <string.h>
 
+#include "describe.h"
 #include "velocity.h"
 
 /* Continuation steps are no longer than this fraction of the model's
@@ -48,25 +49,25 @@ static int check_path(kl_solver *s, int input_x, int input_y, int npoints,
   static const char what[] = "follow path";
   const kl_model *m = s->model;
   int k, axis[2], inputs[2];
+  char lx[KLI_LABEL_SIZE], ly[KLI_LABEL_SIZE];
   inputs[0] = input_x;
   inputs[1] = input_y;
   for (k = 0; k < 2; k++) {
     if (inputs[k] < 0 || inputs[k] >= m->ninputs)
-      return kli_fail(s->error, KL_EID, "%s: input %d does not exist (%d "
-                      "inputs)", what, inputs[k], m->ninputs);
+      return kli_fail_index(s->error, what, "input", inputs[k], m->ninputs);
     if (kli_point_input_of(m, inputs[k]) == NULL)
       return kli_fail(s->error, KL_EKIND,
-                      "%s: input %d is a joint's, not a point's coordinate",
-                      what, inputs[k]);
+                      "%s: %s is a joint's, not a point's coordinate", what,
+                      kli_input_label(m, inputs[k], lx, sizeof lx));
     axis[k] = kli_point_input_of(m, inputs[k])->axis;
   }
   if (axis[0] != 0 || axis[1] != 1 ||
       kli_point_input_of(m, input_x)->point !=
           kli_point_input_of(m, input_y)->point)
     return kli_fail(s->error, KL_EINVAL,
-                    "%s: inputs %d and %d must be the x and the y of one "
-                    "point",
-                    what, input_x, input_y);
+                    "%s: %s and %s must be the x and the y of one point",
+                    what, kli_input_label(m, input_x, lx, sizeof lx),
+                    kli_input_label(m, input_y, ly, sizeof ly));
   if (npoints < 2 || path_x == NULL || path_y == NULL)
     return kli_fail(s->error, KL_EINVAL,
                     "%s: a path needs at least 2 points (%d given)", what,
@@ -81,7 +82,9 @@ static int check_path(kl_solver *s, int input_x, int input_y, int npoints,
   for (k = 0; k < npoints; k++) {
     if (!isfinite(path_x[k]) || !isfinite(path_y[k]))
       return kli_fail(s->error, KL_ENONFINITE,
-                      "%s: point %d of the path is NaN or infinite", what, k);
+                      "%s: the path's point index %d (0-based) is NaN or "
+                      "infinite",
+                      what, k);
     if (k > 0)
       p->length += hypot(path_x[k] - path_x[k - 1], path_y[k] - path_y[k - 1]);
   }

@@ -6,6 +6,7 @@
 #include <stdio.h>
 #include <string.h>
 
+#include "describe.h"
 #include "position.h"
 #include "slots.h"
 
@@ -180,17 +181,19 @@ static int worst_loop(kl_solver *s, const kli_pose *p) {
   return worst;
 }
 
-/* "input 0 = 1.5, input 1 = -0.2" (the first few), into buf. */
+/* "input 1 (shaft) = 170 deg, input 2 (@3) = 12.5 mm" (the first few),
+ * into buf. */
 static const char *input_list(const kl_solver *s, const double *u, char *buf,
                               size_t n) {
   size_t used = 0;
   int i;
+  char one[KLI_LABEL_SIZE];
   buf[0] = '\0';
   if (s->ninputs == 0)
     snprintf(buf, n, "no inputs");
   for (i = 0; i < s->ninputs && i < 4 && used < n; i++)
-    used += (size_t)snprintf(buf + used, n - used, "%sinput %d = %.10g",
-                             i > 0 ? ", " : "", i, u[i]);
+    used += (size_t)snprintf(buf + used, n - used, "%s%s", i > 0 ? ", " : "",
+                             kli_input_at(s->model, i, u[i], one, sizeof one));
   if (s->ninputs > 4 && used < n)
     snprintf(buf + used, n - used, ", ...");
   return buf;
@@ -279,16 +282,16 @@ static int step_along(kl_solver *s, newton_iterate *it, double *dq,
 }
 
 static int fail_stalled(kl_solver *s, const newton_iterate *it, int iters) {
-  char in[200];
-  int loop = worst_loop(s, it->cur);
+  char in[200], miss[48], loop[24];
   return kli_fail(s->error, KL_ENOASSEMBLY,
-                  "solve position: the loops cannot close at %s: the residual "
-                  "stalls at %.3g (length units) after %d iterations, loop %d "
-                  "furthest from closing; the inputs are beyond a motion "
-                  "limit, or the start is too far from any assembly (try "
-                  "another sketch)",
-                  input_list(s, s->u_trial, in, sizeof in), it->fnorm, iters,
-                  loop);
+                  "solve position: the loops cannot close at %s: they stay "
+                  "%s apart after %d iterations, %s furthest from closing; "
+                  "the inputs are beyond a motion limit, or the start is too "
+                  "far from any assembly (try another sketch)",
+                  input_list(s, s->u_trial, in, sizeof in),
+                  kli_length_value(s->model, it->fnorm, 3, miss, sizeof miss),
+                  iters, kli_loop_label(worst_loop(s, it->cur), loop,
+                                        sizeof loop));
 }
 
 /*
@@ -302,7 +305,7 @@ static int check_dropped_rows(kl_solver *s, const kli_pose *p, double ftol) {
   const kl_model *m = s->model;
   double allowed = ftol / s->stats.rcond, miss;
   int loop, first, n, i;
-  char in[200], joints[96];
+  char in[200], joints[96], ref[48], label[24], by[48], most[48];
   size_t used = 0;
   kli_residual(m, p, s->rhs);
   miss = kli_dropped_residual(m, s->dir, s->rhs, &loop);
@@ -312,17 +315,20 @@ static int check_dropped_rows(kl_solver *s, const kli_pose *p, double ftol) {
   n = m->topo.loop_joint_start[loop + 1] - first;
   joints[0] = '\0';
   for (i = 0; i < n && used < sizeof joints; i++)
-    used += (size_t)snprintf(joints + used, sizeof joints - used, "%s%d",
-                             i > 0 ? " " : "", m->topo.loop_joints[first + i]);
+    used += (size_t)snprintf(
+        joints + used, sizeof joints - used, "%s%s", i > 0 ? " " : "",
+        kli_joint_ref(m, m->topo.loop_joints[first + i], ref, sizeof ref));
   return kli_fail(s->error, KL_ENOASSEMBLY,
                   "solve position: at %s the redundant constraints do not "
-                  "close: loop %d (joints %s) misses by %.3g length units "
-                  "(allowed %.3g); the model declares %d redundant "
-                  "constraint%s, which holds only for the special "
-                  "proportions that make them repeat the others",
-                  input_list(s, s->u_trial, in, sizeof in), loop, joints, miss,
-                  allowed, m->topo.redundancy,
-                  m->topo.redundancy == 1 ? "" : "s");
+                  "close: %s (joints %s) misses by %s (allowed %s); the "
+                  "model declares %d redundant constraint%s, which holds "
+                  "only for the special proportions that make them repeat "
+                  "the others",
+                  input_list(s, s->u_trial, in, sizeof in),
+                  kli_loop_label(loop, label, sizeof label), joints,
+                  kli_length_value(m, miss, 3, by, sizeof by),
+                  kli_length_value(m, allowed, 3, most, sizeof most),
+                  m->topo.redundancy, m->topo.redundancy == 1 ? "" : "s");
 }
 
 /* A pin beyond an open curve slot's end has left the slot: the loops do

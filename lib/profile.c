@@ -7,6 +7,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "describe.h"
 #include "memory.h"
 #include "model.h"
 
@@ -19,43 +20,47 @@ static int has_profile(const kl_model *m) {
 
 /* KL_OK if a profile for `input` may be recorded now; else its status. */
 static int check_profile_input(kl_model *m, int input, const char *what) {
+  char label[KLI_LABEL_SIZE], other[KLI_LABEL_SIZE];
   if (m->finalized)
     return kli_fail(m->error, KL_ESTATE,
                     "%s: the model is finalized and can no longer change",
                     what);
   if (input < 0 || input >= m->ninputs)
-    return kli_fail(m->error, KL_EID,
-                    "%s: input %d does not exist (%d inputs so far)", what,
-                    input, m->ninputs);
+    return kli_fail_index(m->error, what, "input", input, m->ninputs);
   if (m->inputs[input] < 0)
     return kli_fail(m->error, KL_EKIND,
-                    "%s: input %d is a point input; a profile drives a "
-                    "joint's input",
-                    what, input);
+                    "%s: %s is a point input; a profile drives a joint's "
+                    "input",
+                    what, kli_input_label(m, input, label, sizeof label));
   if (has_profile(m) && input != m->profile_input)
     return kli_fail(m->error, KL_EDUPLICATE,
-                    "%s: the model's profile drives input %d, not %d", what,
-                    m->profile_input, input);
+                    "%s: the model's profile drives %s, not %s", what,
+                    kli_input_label(m, m->profile_input, other, sizeof other),
+                    kli_input_label(m, input, label, sizeof label));
   return KL_OK;
 }
 
-/* What a segment of `kind` asks of from and to. */
-static int check_change(kl_model *m, int kind, double from, double to) {
+/* What a segment of `kind` of input `input` asks of from and to. */
+static int check_change(kl_model *m, int input, int kind, double from,
+                        double to) {
+  char a[48], b[48];
+  kli_input_value(m, input, from, 15, a, sizeof a);
+  kli_input_value(m, input, to, 15, b, sizeof b);
   if (kind == KL_SEGMENT_DWELL && to != from)
     return kli_fail(m->error, KL_EINVAL,
-                    "add segment: a dwell holds its value, but from %.17g and "
-                    "to %.17g differ",
-                    from, to);
+                    "add segment: a dwell holds its value, but from %s and "
+                    "to %s differ",
+                    a, b);
   if (kind == KL_SEGMENT_RISE && !(to > from))
     return kli_fail(m->error, KL_EINVAL,
-                    "add segment: a rise goes up, but to %.17g is not above "
-                    "from %.17g",
-                    to, from);
+                    "add segment: a rise goes up, but to %s is not above "
+                    "from %s",
+                    b, a);
   if (kind == KL_SEGMENT_RETURN && !(to < from))
     return kli_fail(m->error, KL_EINVAL,
-                    "add segment: a return goes down, but to %.17g is not "
-                    "below from %.17g",
-                    to, from);
+                    "add segment: a return goes down, but to %s is not "
+                    "below from %s",
+                    b, a);
   return KL_OK;
 }
 
@@ -98,18 +103,20 @@ int kl_add_segment(kl_model *m, int input, int kind, int law,
     return kli_fail(m->error, KL_EINVAL,
                     "add segment: %d is no motion law for the %s", law,
                     segment_names[kind]);
-  if ((st = check_change(m, kind, from, to)) != KL_OK)
+  if ((st = check_change(m, input, kind, from, to)) != KL_OK)
     return st;
   if (m->nsegments > 0) {
     /* a segment starts where the last ended: the rounding of the caller's
      * arithmetic is forgiven, a gap is not */
     double end = m->segments[m->nsegments - 1].to;
+    char a[48], b[48];
     if (fabs(from - end) > 1e-9 * fmax(1.0, fmax(fabs(end), fabs(from))))
       return kli_fail(m->error, KL_EJOIN,
-                      "add segment: segment %d (%s) starts at %.17g, but "
-                      "segment %d ended at %.17g",
-                      m->nsegments, segment_names[kind], from,
-                      m->nsegments - 1, end);
+                      "add segment: segment index %d (0-based, a %s) starts "
+                      "at %s, but the one before ended at %s",
+                      m->nsegments, segment_names[kind],
+                      kli_input_value(m, input, from, 15, a, sizeof a),
+                      kli_input_value(m, input, end, 15, b, sizeof b));
   }
   if (kli_reserve(&m->alloc, (void **)&m->segments, &m->cap_segments,
                   m->nsegments + 1, sizeof *m->segments) != KL_OK)
@@ -163,15 +170,15 @@ int kl_model_set_profile_table(kl_model *m, int input, int n,
   for (i = 0; i < n; i++)
     if (!isfinite(times[i]) || !isfinite(values[i]))
       return kli_fail(m->error, KL_ENONFINITE,
-                      "set profile table: time or value %d is NaN or "
-                      "infinite",
+                      "set profile table: time or value index %d (0-based) "
+                      "is NaN or infinite",
                       i);
   for (i = 1; i < n; i++)
     if (!(times[i] > times[i - 1]))
       return kli_fail(m->error, KL_EINVAL,
-                      "set profile table: time %d (%.17g) does not come after "
-                      "time %d (%.17g)",
-                      i, times[i], i - 1, times[i - 1]);
+                      "set profile table: time index %d (0-based, %.17g) "
+                      "does not come after the one before (%.17g)",
+                      i, times[i], times[i - 1]);
   if (kli_reserve(&m->alloc, (void **)&m->knots, &m->cap_knots, n,
                   sizeof *m->knots) != KL_OK)
     return kli_fail(m->error, KL_ENOMEM, "set profile table: out of memory");

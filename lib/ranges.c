@@ -244,7 +244,9 @@ int kl_output_ranges(kl_solver *s, int input, double from, double to,
   for (i = 0; i < n; i++) {
     if (ranges[i].size < sizeof(ranges[i].size))
       return kli_fail(s->error, KL_EINVAL,
-                      "output ranges: range %d has no size set", i);
+                      "output ranges: range index %d (0-based) has no size "
+                      "set",
+                      i);
     if ((st = kli_output_check(m, &outputs[i], s->error)) != KL_OK)
       return st;
   }

@@ -5,6 +5,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "describe.h"
 #include "slots.h"
 #include "solver.h"
 
@@ -83,18 +84,19 @@ static int move(kl_solver *s, int i, double target, kl_sweep_result *sw) {
                     : KLI_REACH_SLIDE_STEP * m->topo.scale;
   int steps = delta / step > KLI_REACH_MAX_STEPS ? KLI_REACH_MAX_STEPS
                                                   : (int)ceil(delta / step);
-  char lj[160];
+  char lj[KLI_LABEL_SIZE], at[48], a[48], b[48];
   int st;
   sw->size = sizeof *sw;
   st = kl_solver_sweep(s, i, from, target, steps, NULL, NULL, sw);
   if (st == KL_LIMIT || st == KL_ESINGULAR)
     return kli_fail(s->error, st == KL_LIMIT ? KL_ENOASSEMBLY : KL_ESINGULAR,
-                    "reach: input %d (%s) %s at %.12g on its way from %.12g "
-                    "to %.12g",
-                    i, kli_input_label(m, i, lj, sizeof lj),
+                    "reach: %s %s at %s on its way from %s to %s",
+                    kli_input_label(m, i, lj, sizeof lj),
                     st == KL_LIMIT ? "stops at a motion limit"
                                    : "meets a singular position",
-                    sw->limit_input, from, target);
+                    kli_input_value(m, i, sw->limit_input, 12, at, sizeof at),
+                    kli_input_value(m, i, from, 12, a, sizeof a),
+                    kli_input_value(m, i, target, 12, b, sizeof b));
   return st; /* the sweep's own message stands */
 }
 

@@ -97,15 +97,16 @@ int kli_curve_new(const kli_allocator *a, int n, const double *xy, int closed,
   for (k = 0; k < 2 * n; k++)
     if (!isfinite(xy[k]))
       return kli_fail(error, KL_ENONFINITE,
-                      "%s: the %s coordinate of point %d is NaN or infinite",
+                      "%s: the %s coordinate of point index %d (0-based) is "
+                      "NaN or infinite",
                       what, k % 2 == 0 ? "x" : "y", k / 2);
   for (k = 0; k < (closed ? n : n - 1); k++) {
     int next = (k + 1) % n;
     if (xy[2 * k] == xy[2 * next] && xy[2 * k + 1] == xy[2 * next + 1])
       return kli_fail(error, KL_EREPEATED,
-                      "%s: points %d and %d are the same (%g, %g): a piece "
-                      "of zero length, along which the parameter has no "
-                      "direction",
+                      "%s: point indices %d and %d (0-based) are the same "
+                      "(%g, %g): a piece of zero length, along which the "
+                      "parameter has no direction",
                       what, k, next, xy[2 * k], xy[2 * k + 1]);
   }
   c = kli_alloc(a, kli_curve_bytes(n));

@@ -6,6 +6,7 @@
 #include <stdint.h>
 #include <string.h>
 
+#include "describe.h"
 #include "solver.h"
 
 /* The first options struct ended before `kernel`: callers' structs are at
@@ -397,8 +398,8 @@ int kli_check_input_values(kl_solver *s, const double *values,
   for (i = 0; i < s->ninputs; i++)
     if (!isfinite(values[i]))
       return kli_fail(s->error, KL_ENONFINITE,
-                      "%s: %s %d (%s) is NaN or infinite", stage, what, i,
-                      kli_input_label(s->model, i, lj, sizeof lj));
+                      "%s: the %s value for %s is NaN or infinite", stage,
+                      what, kli_input_label(s->model, i, lj, sizeof lj));
   return KL_OK;
 }
 
@@ -486,14 +487,12 @@ int kl_set_link_angle(kl_solver *s, int link, double angle) {
     return KL_EINVAL;
   t = &s->model->topo;
   if (link < 0 || link >= s->model->nlinks)
-    return kli_fail(s->error, KL_EID,
-                    "set link angle: link %d does not exist (links are 0 to "
-                    "%d)",
-                    link, s->model->nlinks - 1);
+    return kli_fail_index(s->error, "set link angle", "link", link,
+                          s->model->nlinks);
   if (link == KL_GROUND)
     return kli_fail(s->error, KL_EKIND,
-                    "set link angle: link 0 is ground; its angle is 0 for "
-                    "good");
+                    "set link angle: link index 0 is ground; its angle is 0 "
+                    "for good");
   if (!isfinite(angle))
     return kli_fail(s->error, KL_ENONFINITE,
                     "set link angle: the angle of %s is NaN or infinite",
@@ -516,10 +515,8 @@ int kl_set_joint_slide(kl_solver *s, int joint, double slide) {
     return KL_EINVAL;
   t = &s->model->topo;
   if (joint < 0 || joint >= s->model->njoints)
-    return kli_fail(s->error, KL_EID,
-                    "set joint slide: joint %d does not exist (joints are 0 "
-                    "to %d)",
-                    joint, s->model->njoints - 1);
+    return kli_fail_index(s->error, "set joint slide", "joint", joint,
+                          s->model->njoints);
   if (!kli_is_sliding(s->model->joints[joint].kind))
     return kli_fail(s->error, KL_EKIND,
                     "set joint slide: %s has no slide",

@@ -6,6 +6,7 @@
 #include <math.h>
 #include <string.h>
 
+#include "describe.h"
 #include "velocity.h"
 
 /* A sub-step shorter than this (rad, or length units) brackets a limit:
@@ -408,18 +409,20 @@ static void finish(const kl_solver *s, kl_sweep_result *result, int status,
 
 static int check_sweep(kl_solver *s, int input, double from, double to,
                        int steps) {
+  char label[KLI_LABEL_SIZE], a[48], b[48];
   if (input < 0 || input >= s->ninputs)
-    return kli_fail(s->error, KL_EID,
-                    "sweep: input %d does not exist (the model has %d)", input,
-                    s->ninputs);
+    return kli_fail_index(s->error, "sweep", "input", input, s->ninputs);
+  kli_input_label(s->model, input, label, sizeof label);
   if (!isfinite(from) || !isfinite(to))
     return kli_fail(s->error, KL_ENONFINITE,
-                    "sweep: the range of input %d is NaN or infinite", input);
+                    "sweep: the range of %s is NaN or infinite", label);
   if (!isfinite(to - from))
     return kli_fail(s->error, KL_ENONFINITE,
-                    "sweep: the range of input %d, %g to %g, is longer than "
-                    "a double holds",
-                    input, from, to);
+                    "sweep: the range of %s, %s to %s, is longer than a "
+                    "double holds",
+                    label,
+                    kli_input_value(s->model, input, from, 10, a, sizeof a),
+                    kli_input_value(s->model, input, to, 10, b, sizeof b));
   if (steps < 1)
     return kli_fail(s->error, KL_EINVAL,
                     "sweep: %d steps; a sweep needs at least 1", steps);
@@ -430,25 +433,27 @@ static int check_sweep(kl_solver *s, int input, double from, double to,
   return KL_OK;
 }
 
-/* Hands the committed state to the callback as step `step`. */
-static int hand_over(kl_solver *s, int step, double input, kl_sweep_fn fn,
-                     void *user) {
+/* Hands the committed state to the callback as step `step`, at `value` of
+ * input `input`. */
+static int hand_over(kl_solver *s, int input, int step, double value,
+                     kl_sweep_fn fn, void *user) {
+  char at[2 * KLI_LABEL_SIZE];
   kli_state_copy(s, &s->delivered, &s->st);
-  if (fn != NULL && fn(s, step, input, user) != 0)
+  if (fn != NULL && fn(s, step, value, user) != 0)
     return kli_fail(s->error, KL_STOPPED,
-                    "sweep: the callback stopped it at step %d (input %.12g)",
-                    step, input);
+                    "sweep: the callback stopped it at step %d (%s)", step,
+                    kli_input_at(s->model, input, value, at, sizeof at));
   return KL_OK;
 }
 
 /* Delivers one step: acceleration and jerk at zero input acceleration and
  * jerk (the second- and third-order coefficients), callback. */
-static int deliver(kl_solver *s, int step, double input, kl_sweep_fn fn,
-                   void *user) {
+static int deliver(kl_solver *s, int input, int step, double value,
+                   kl_sweep_fn fn, void *user) {
   int st = kl_solve_acceleration(s, s->sweep_zero);
   if (st == KL_OK)
     st = kl_solve_jerk(s, s->sweep_zero);
-  return st != KL_OK ? st : hand_over(s, step, input, fn, user);
+  return st != KL_OK ? st : hand_over(s, input, step, value, fn, user);
 }
 
 /* The motion cannot go on past [cur, trial]: a limit if no assembly lies
@@ -460,32 +465,36 @@ static int stuck(kl_solver *s, int input, double cur, double trial, int k,
                  int *det_sign, int *substeps, double *where) {
   double dir = trial > cur ? 1.0 : -1.0;
   int beyond = assembles_beyond(s, input, trial + dir * KLI_LOOK_BEYOND);
+  char label[KLI_LABEL_SIZE], at[48];
+  kli_input_label(s->model, input, label, sizeof label);
   *where = 0.5 * (cur + trial);
   if (!beyond) {
     kli_state_restore(s, &s->delivered);
     return kli_fail(s->error, KL_LIMIT,
-                    "sweep: input %d reaches a motion limit at %.12g (no "
-                    "assembly beyond it); %d steps delivered",
-                    input, *where, k);
+                    "sweep: %s reaches a motion limit at %s (no assembly "
+                    "beyond it); %d steps delivered",
+                    label, kli_input_value(s->model, input, *where, 12, at,
+                                           sizeof at), k);
   }
   if (cross(s, input, *where, dir, *det_sign, substeps, where) != KL_OK) {
     kli_state_restore(s, &s->delivered);
     *where = 0.5 * (cur + trial);
     return kli_fail(s->error, KL_ESINGULAR,
-                    "sweep: input %d meets a singular position near %.12g "
-                    "where the motion could go on along more than one "
-                    "branch, none continuing with the same tangent; %d "
-                    "steps delivered",
-                    input, *where, k);
+                    "sweep: %s meets a singular position near %s where the "
+                    "motion could go on along more than one branch, none "
+                    "continuing with the same tangent; %d steps delivered",
+                    label, kli_input_value(s->model, input, *where, 12, at,
+                                           sizeof at), k);
   }
   if (!s->opt.pass_change_points) {
     kli_state_restore(s, &s->delivered);
     return kli_fail(s->error, KL_ESINGULAR,
-                    "sweep: input %d meets a change point at %.12g (two "
-                    "branches cross there; the option pass_change_points "
-                    "goes on along the branch with the same tangent); %d "
-                    "steps delivered",
-                    input, *where, k);
+                    "sweep: %s meets a change point at %s (two branches "
+                    "cross there; the option pass_change_points goes on "
+                    "along the branch with the same tangent); %d steps "
+                    "delivered",
+                    label, kli_input_value(s->model, input, *where, 12, at,
+                                           sizeof at), k);
   }
   s->passages++;
   s->last_passage = *where;
@@ -514,7 +523,7 @@ static int sweep(kl_solver *s, int input, double from, double to, int steps,
   }
   det_sign = kli_dense_det_sign(&s->dense);
   s->have_previous = 0;
-  st = deliver(s, 0, from, fn, user);
+  st = deliver(s, input, 0, from, fn, user);
   delivered = st == KL_OK || st == KL_STOPPED;
   full = (to - from) / steps;
   h = full;
@@ -534,21 +543,25 @@ static int sweep(kl_solver *s, int input, double from, double to, int steps,
       h = full;
     }
     if (st == KL_EMAXITER) {
+      char label[KLI_LABEL_SIZE], to_value[48];
       kli_state_restore(s, &s->delivered);
       st = kli_fail(s->error, KL_EMAXITER,
-                    "sweep: step %d of input %d (to %.12g) takes more than "
-                    "%d sub-steps; sweep it in more, shorter steps",
-                    k, input, target, KLI_MAX_SUBSTEPS);
+                    "sweep: step %d of %s (to %s) takes more than %d "
+                    "sub-steps; sweep it in more, shorter steps",
+                    k, kli_input_label(s->model, input, label, sizeof label),
+                    kli_input_value(s->model, input, target, 10, to_value,
+                                    sizeof to_value),
+                    KLI_MAX_SUBSTEPS);
       finish(s, result, st, k, NAN, substeps);
       return st;
     }
     if (inside_crossing(s, input, target, dir)) {
       /* too near the change point to solve for: the branch's samples */
       interpolate_crossing(s, input, target);
-      st = hand_over(s, k, target, fn, user);
+      st = hand_over(s, input, k, target, fn, user);
       kli_state_restore(s, &s->crossing[2]);
     } else {
-      st = deliver(s, k, target, fn, user);
+      st = deliver(s, input, k, target, fn, user);
     }
     if (st == KL_OK || st == KL_STOPPED)
       delivered = k + 1;

@@ -10,6 +10,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "describe.h"
 #include "ordering.h"
 #include "reactions.h"
 
@@ -728,19 +729,27 @@ static void keep_extra_entries(kli_topology *t) {
   t->nkept_singles += t->nextra_entries;
 }
 
+/* The coupling or point input behind extra row e, for a message. */
+static const char *extra_label(const kl_model *m, int e, char *buf,
+                               size_t n) {
+  if (e < m->ncouplings)
+    return kli_index_label("coupling", e, buf, n);
+  return kli_input_label(m, m->point_inputs[e - m->ncouplings].input, buf, n);
+}
+
 /* With redundancy, the matching may leave an extra row out; the declared
  * redundancy must lie in the loops, so that is refused. */
 static int extra_rows_matched(kl_model *m, const work *w,
                               const kli_topology *t) {
   int e;
+  char label[KLI_LABEL_SIZE];
   for (e = 0; e < t->nextra; e++)
     if (w->row_match[2 * t->nloops + e] < 0)
       return kli_fail(m->error, KL_EOVERCONSTRAINED,
-                      "finalize: over-constrained: the %s %d repeats what "
-                      "the loops and the other rows already fix; the "
-                      "declared redundancy must lie in the loops",
-                      e < m->ncouplings ? "coupling" : "point input",
-                      e < m->ncouplings ? e : e - m->ncouplings);
+                      "finalize: over-constrained: %s repeats what the "
+                      "loops and the other rows already fix; the declared "
+                      "redundancy must lie in the loops",
+                      extra_label(m, e, label, sizeof label));
   return KL_OK;
 }
 

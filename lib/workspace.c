@@ -6,6 +6,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "describe.h"
 #include "solver.h"
 
 /* Assembly modes taken at one grid node: more than a two-input linkage of
@@ -696,23 +697,24 @@ static int check(kl_solver *s, int point, const kl_workspace_options *o,
                     stage, n);
   for (int i = 0; i < 2; i++) {
     int j = kl_model_input_joint(m, i);
+    char li[KLI_LABEL_SIZE];
     if (j < 0)
       return kli_fail(s->error, KL_EKIND,
-                      "%s: input %d is a point input; the workspace takes "
-                      "turning inputs over whole turns",
-                      stage, i);
+                      "%s: %s is a point input; the workspace takes turning "
+                      "inputs over whole turns",
+                      stage, kli_input_label(m, i, li, sizeof li));
     if (kl_model_joint_kind(m, j) != KL_JOINT_REVOLUTE) {
-      char label[96];
+      char label[KLI_LABEL_SIZE];
       return kli_fail(s->error, KL_EKIND,
-                      "%s: input %d drives %s, a sliding joint; the "
-                      "workspace takes turning inputs over whole turns",
-                      stage, i, kli_joint_label(m, j, label, sizeof label));
+                      "%s: %s drives %s, a sliding joint; the workspace "
+                      "takes turning inputs over whole turns",
+                      stage, kli_input_label(m, i, li, sizeof li),
+                      kli_joint_label(m, j, label, sizeof label));
     }
   }
   if (point < 0 || point >= kl_model_point_count(m))
-    return kli_fail(s->error, KL_EID,
-                    "%s: point %d does not exist (the model has %d)", stage,
-                    point, kl_model_point_count(m));
+    return kli_fail_index(s->error, stage, "point", point,
+                          kl_model_point_count(m));
   if (kl_model_point_link(m, point, NULL) == KL_GROUND) {
     char label[96];
     return kli_fail(s->error, KL_EKIND,

@@ -35,26 +35,26 @@ typedef struct {
 } expectation;
 
 static const expectation builder_cases[] = {
-    {"revolute with a NaN coordinate", KL_ENONFINITE, "link 1 'crank'"},
+    {"revolute with a NaN coordinate", KL_ENONFINITE, "link 'crank'"},
     {"revolute with an infinite coordinate", KL_ENONFINITE, "NaN or infinite"},
     {"prismatic with a NaN axis", KL_ENONFINITE, "axis angle"},
-    {"slot with an infinite attachment", KL_ENONFINITE, "link 2 'coupler'"},
-    {"point with a NaN coordinate", KL_ENONFINITE, "link 2 'coupler'"},
-    {"point on an unknown link", KL_EID, "link 42"},
-    {"revolute with a negative link id", KL_EID, "link -3"},
-    {"input on an unknown joint", KL_EID, "joint 9"},
-    {"input on a negative joint id", KL_EID, "joint -1"},
+    {"slot with an infinite attachment", KL_ENONFINITE, "link 'coupler'"},
+    {"point with a NaN coordinate", KL_ENONFINITE, "link 'coupler'"},
+    {"point on an unknown link", KL_EID, "link index 42 (0-based)"},
+    {"revolute with a negative link id", KL_EID, "link index -3 (0-based)"},
+    {"input on an unknown joint", KL_EID, "joint index 9 (0-based)"},
+    {"input on a negative joint id", KL_EID, "joint index -1 (0-based)"},
     {"link with a name already used", KL_EDUPLICATE, "'crank'"},
-    {"joint joining a link to itself", KL_ESELFJOINT, "link 3 'rocker'"},
-    {"second revolute between the same links", KL_EDUPLICATE, "joint 1"},
+    {"joint joining a link to itself", KL_ESELFJOINT, "link 'rocker'"},
+    {"second revolute between the same links", KL_EDUPLICATE, "joint @1"},
     {"slide axis through two coincident points", KL_EZEROLENGTH, "zero length"},
     {"loop whose joints do not share links", KL_ELOOP, "do not share a link"},
-    {"loop through an unknown joint", KL_EID, "joint 17"},
-    {"the same joint made an input twice", KL_EDUPLICATE, "already input 0"},
+    {"loop through an unknown joint", KL_EID, "joint index 17 (0-based)"},
+    {"the same joint made an input twice", KL_EDUPLICATE, "already input 1 ("},
     {"name with a control character", KL_EINVAL, "control character"},
     {"sketch angle for ground", KL_EKIND, "ground"},
     {"sketch slide for a revolute joint", KL_EKIND, "has no slide"},
-    {"sweep settings for an unknown input", KL_EID, "input 4"},
+    {"sweep settings for an unknown input", KL_EID, "input index 4 (0-based)"},
     {"sweep settings with a NaN range", KL_ENONFINITE, "NaN or infinite"},
     {"sweep settings of no steps", KL_EINVAL, "at least 1"},
     {"loop whose walk does not close", KL_ELOOP, "does not come back"},
@@ -137,13 +137,13 @@ END_TEST
 /* ---- finalize ---- */
 
 static const expectation finalize_cases[] = {
-    {"a link not connected to ground", KL_EDISCONNECTED, "link 4 'loose'"},
-    {"a zero-length link", KL_EZEROLENGTH, "link 4 'stub'"},
+    {"a link not connected to ground", KL_EDISCONNECTED, "link 'loose'"},
+    {"a zero-length link", KL_EZEROLENGTH, "link 'stub'"},
     {"an under-driven model", KL_EDOF, "2 degrees of freedom but 1 input"},
     {"an over-driven model", KL_EDOF, "1 degree of freedom but 2 inputs"},
     {"registered loops short of a full set", KL_ELOOPSET, "1 loop is registered"},
     {"an over-constrained structure", KL_EOVERCONSTRAINED, "mobility -3"},
-    {"a coordinate no loop determines", KL_EUNDETERMINED, "link 4 'flap'"},
+    {"a coordinate no loop determines", KL_EUNDETERMINED, "link 'flap'"},
 };
 
 static int run_finalize(int i, kl_model *m) {
@@ -205,26 +205,27 @@ END_TEST
 /* ---- the solver ---- */
 
 static const expectation solver_cases[] = {
-    {"position with a NaN input", KL_ENONFINITE, "input 0"},
-    {"position with an infinite input", KL_ENONFINITE, "joint 0"},
-    {"velocity with a NaN rate", KL_ENONFINITE, "input rate 0"},
+    {"position with a NaN input", KL_ENONFINITE, "input value for input 1"},
+    {"position with an infinite input", KL_ENONFINITE, "input 1 ("},
+    {"velocity with a NaN rate", KL_ENONFINITE,
+     "input rate value for input 1"},
     {"acceleration with an infinite acceleration", KL_ENONFINITE,
-     "input acceleration 0"},
+     "input acceleration value for input 1"},
     {"velocity with no rates array", KL_EINVAL, "NULL"},
     {"sketch angle of ground", KL_EKIND, "ground"},
-    {"sketch angle of an unknown link", KL_EID, "link 99"},
+    {"sketch angle of an unknown link", KL_EID, "link index 99 (0-based)"},
     {"slide of a revolute joint", KL_EKIND, "has no slide"},
-    {"NaN sketch angle", KL_ENONFINITE, "link 2 'coupler'"},
+    {"NaN sketch angle", KL_ENONFINITE, "link 'coupler'"},
     {"options with a NaN tolerance", KL_ENONFINITE, "NaN"},
     {"options with an unknown kernel", KL_EINVAL, "kernel"},
     {"options with zero iterations", KL_EINVAL, "max_iterations"},
-    {"sweep of an unknown input", KL_EID, "input 3"},
-    {"sweep over a NaN range", KL_ENONFINITE, "input 0"},
+    {"sweep of an unknown input", KL_EID, "input index 3 (0-based)"},
+    {"sweep over a NaN range", KL_ENONFINITE, "range of input 1"},
     {"sweep of no steps", KL_EINVAL, "0 steps"},
-    {"output at an unknown point", KL_EID, "point 8"},
-    {"slide output of a revolute joint", KL_EKIND, "joint 1"},
+    {"output at an unknown point", KL_EID, "point index 8 (0-based)"},
+    {"slide output of a revolute joint", KL_EKIND, "joint @1"},
     {"sensitivity to axis 2", KL_EINVAL, "axis 2"},
-    {"effort of a load at an unknown point", KL_EID, "point 5"},
+    {"effort of a load at an unknown point", KL_EID, "point index 5 (0-based)"},
     {"tolerance stack with a negative tolerance", KL_EINVAL, "negative"},
     {"state copied from a solver of another model", KL_EINVAL,
      "different models"},
@@ -364,7 +365,7 @@ START_TEST(stages_out_of_order) {
   before = snap(t);
   beyond = 1.6;
   ck_assert_int_eq(kl_solve_position(t, &beyond), KL_ENOASSEMBLY);
-  ck_assert_ptr_nonnull(strstr(kl_solver_error(t), "input 0 = 1.6"));
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(t), "= 1.6 rad"));
   after = snap(t);
   ck_assert(same_state(&before, &after));
   beyond = acos((70.0 * 70 + 100.0 * 100 - 110.0 * 110) / (2 * 70.0 * 100));

@@ -992,7 +992,7 @@ START_TEST(recorded_loads_and_working_speed) {
   /* refusals, each its own status, the list unchanged */
   bad.id = 5;
   ck_assert_int_eq(kl_add_load(m, &bad), KL_EID);
-  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "link 5"));
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "link index 5 (0-based)"));
   bad.id = link;
   bad.torque = NAN;
   ck_assert_int_eq(kl_add_load(m, &bad), KL_ENONFINITE);
@@ -1061,7 +1061,8 @@ START_TEST(bad_loads_change_nothing) {
   kl_load bad[6];
   int expect[6] = {KL_EID, KL_EID, KL_EKIND, KL_ENONFINITE, KL_ENONFINITE,
                    KL_ENONFINITE};
-  const char *said[6] = {"point 9", "link 11", "kind 7", "NaN or infinite",
+  const char *said[6] = {"point index 9 (0-based)", "link index 11 (0-based)",
+                         "kind 7", "NaN or infinite",
                          "NaN or infinite", "NaN or infinite"};
   double e[1];
   int k;
@@ -1087,7 +1088,7 @@ START_TEST(bad_loads_change_nothing) {
     ck_assert_int_eq(kl_solve_forces(s, 2, two, e), expect[k]);
     ck_assert_msg(strstr(kl_solver_error(s), said[k]) != NULL,
                   "case %d: %s", k, kl_solver_error(s));
-    ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "load 1"));
+    ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "load index 1 (0-based)"));
     after = snap(s);
     assert_same_state(&before, &after, "a bad load");
   }

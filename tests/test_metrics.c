@@ -809,7 +809,7 @@ START_TEST(effort_range_at_limits_and_failures) {
   /* refused before sweeping */
   ck_assert_int_eq(kl_input_effort_range(c, 0, 0, 1, 4, 1, &hold, 1, &r),
                    KL_EID);
-  ck_assert_ptr_nonnull(strstr(kl_solver_error(c), "input 1"));
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(c), "input index 1 (0-based)"));
   ck_assert_int_eq(kl_input_effort_range(c, 0, 0, 1, 4, 1, &bad, 0, &r),
                    KL_EID);
   ck_assert_int_eq(kl_input_effort_range(c, 3, 0, 1, 4, 1, &hold, 0, &r),
@@ -1210,7 +1210,7 @@ START_TEST(tolerance_stack_sums_the_sensitivities) {
     ck_assert_int_eq(kl_output_tolerance_stack(s, &mu, 5, dims, bad_tol, &got_worst,
                                         &got_rss),
                      status[k]);
-    ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "tolerance 3"));
+    ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "tolerance index 3 (0-based)"));
     ck_assert_double_eq(got_worst, keep_w);
     ck_assert_double_eq(got_rss, keep_r);
     after = snap(s);
@@ -1301,29 +1301,29 @@ START_TEST(bad_outputs_are_refused) {
   slider_crank sc = build_slider_crank(30, 100, 12);
   kl_solver *s = solved_fourbar(&f), *ss = kl_solver_new(sc.m);
   const bad_output bad[] = {
-      {{KL_OUTPUT_LINK_ANGLE, 9, 0, 0}, KL_EID, "link 9"},
-      {{KL_OUTPUT_LINK_ANGLE, -1, 0, 0}, KL_EID, "link -1"},
-      {{KL_OUTPUT_SLIDE, 9, 0, 0}, KL_EID, "joint 9"},
-      {{KL_OUTPUT_JOINT_ANGLE, 9, 0, 0}, KL_EID, "joint 9"},
-      {{KL_OUTPUT_POINT_X, 3, 0, 0}, KL_EID, "point 3"},
-      {{KL_OUTPUT_POINT_Y, -2, 0, 0}, KL_EID, "point -2"},
-      {{KL_OUTPUT_TRANSMISSION, 9, 1, 3}, KL_EID, "joint 9"},
+      {{KL_OUTPUT_LINK_ANGLE, 9, 0, 0}, KL_EID, "link index 9 (0-based)"},
+      {{KL_OUTPUT_LINK_ANGLE, -1, 0, 0}, KL_EID, "link index -1 (0-based)"},
+      {{KL_OUTPUT_SLIDE, 9, 0, 0}, KL_EID, "joint index 9 (0-based)"},
+      {{KL_OUTPUT_JOINT_ANGLE, 9, 0, 0}, KL_EID, "joint index 9 (0-based)"},
+      {{KL_OUTPUT_POINT_X, 3, 0, 0}, KL_EID, "point index 3 (0-based)"},
+      {{KL_OUTPUT_POINT_Y, -2, 0, 0}, KL_EID, "point index -2 (0-based)"},
+      {{KL_OUTPUT_TRANSMISSION, 9, 1, 3}, KL_EID, "joint index 9 (0-based)"},
       /* a slide of a revolute joint */
-      {{KL_OUTPUT_SLIDE, 0, 0, 0}, KL_EKIND, "joint 0"},
+      {{KL_OUTPUT_SLIDE, 0, 0, 0}, KL_EKIND, "joint @0"},
       /* lines not on the joint's links: joint 3 is not on the coupler
        * (link a of joint 2), joint 1 not on the rocker (its link b) */
-      {{KL_OUTPUT_TRANSMISSION, 2, 3, 3}, KL_EKIND, "line_a (joint 3)"},
-      {{KL_OUTPUT_TRANSMISSION, 2, 1, 1}, KL_EKIND, "line_b (joint 1)"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 3, 3}, KL_EKIND, "line_a (joint @3)"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 1, 1}, KL_EKIND, "line_b (joint @1)"},
       /* a line from the joint to itself */
-      {{KL_OUTPUT_TRANSMISSION, 2, 2, 3}, KL_EKIND, "line_a (joint 2)"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 2, 3}, KL_EKIND, "line_a (joint @2)"},
       {{KL_OUTPUT_LINK_ANGLE + 42, 1, 0, 0}, KL_EINVAL, "kind 42"},
   };
   /* unknown joints as the lines of a transmission angle are unknown ids
    * (kinloop.h: KL_EID for unknown ids, KL_EKIND for lines that exist but
    * are not on the joint's links) */
   const bad_output unknown_lines[] = {
-      {{KL_OUTPUT_TRANSMISSION, 2, 9, 3}, KL_EID, "joint 9"},
-      {{KL_OUTPUT_TRANSMISSION, 2, 1, -4}, KL_EID, "joint -4"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 9, 3}, KL_EID, "joint index 9 (0-based)"},
+      {{KL_OUTPUT_TRANSMISSION, 2, 1, -4}, KL_EID, "joint index -4 (0-based)"},
   };
   unsigned k;
   char label[64];
@@ -1343,7 +1343,7 @@ START_TEST(bad_outputs_are_refused) {
     at_slider.o.id = sc.slide_joint;
     at_slider.o.line_a = sc.block_pin;
     at_slider.o.line_b = sc.block_pin;
-    at_slider.names = "joint 3";
+    at_slider.names = "joint @3";
     sketch_slider(ss, &sc);
     ck_assert_int_eq(kl_solve_position(ss, &u), KL_OK);
     expect_output_refused(ss, &at_slider, "transmission at a slider");
@@ -1359,9 +1359,9 @@ START_TEST(bad_outputs_are_refused) {
     {
       kl_output rocker = output(KL_OUTPUT_LINK_ANGLE, f.rocker, 0, 0);
       ck_assert_int_eq(kl_output_deriv(s, &rocker, 1, &v), KL_EID);
-      ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input 1"));
+      ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input index 1 (0-based)"));
       ck_assert_int_eq(kl_output_mechanical_advantage(s, &rocker, -1, &v), KL_EID);
-      ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input -1"));
+      ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input index -1 (0-based)"));
       ck_assert_int_eq(kl_output_deriv(s, &rocker, 0, NULL), KL_EINVAL);
     }
     after = snap(s);
@@ -1390,9 +1390,9 @@ START_TEST(bad_dimensions_are_refused) {
       {{KL_DIMENSION_POINT + 5, 1, 0}, KL_EINVAL, "kind 7"},
       {{KL_DIMENSION_JOINT_A, 1, 2}, KL_EINVAL, "axis 2"},
       {{KL_DIMENSION_JOINT_B, 1, -1}, KL_EINVAL, "axis -1"},
-      {{KL_DIMENSION_JOINT_B, 9, 0}, KL_EID, "joint 9"},
-      {{KL_DIMENSION_JOINT_A, -1, 0}, KL_EID, "joint -1"},
-      {{KL_DIMENSION_POINT, 4, 1}, KL_EID, "point 4"},
+      {{KL_DIMENSION_JOINT_B, 9, 0}, KL_EID, "joint index 9 (0-based)"},
+      {{KL_DIMENSION_JOINT_A, -1, 0}, KL_EID, "joint index -1 (0-based)"},
+      {{KL_DIMENSION_POINT, 4, 1}, KL_EID, "point index 4 (0-based)"},
   };
   const double tol = 0.02;
   unsigned k;
@@ -1435,25 +1435,25 @@ START_TEST(bad_loads_are_refused) {
     const char *names;
   } bad[] = {
       {{KL_LOAD_TORQUE + 2, 1, 0, 0, 1}, KL_EKIND, "kind 3"},
-      {{KL_LOAD_FORCE, 7, 1, 0, 0}, KL_EID, "point 7"},
-      {{KL_LOAD_FORCE, -1, 1, 0, 0}, KL_EID, "point -1"},
-      {{KL_LOAD_TORQUE, 9, 0, 0, 1}, KL_EID, "link 9"},
-      {{KL_LOAD_FORCE, 0, NAN, 0, 0}, KL_ENONFINITE, "point 0"},
-      {{KL_LOAD_FORCE, 0, 0, INFINITY, 0}, KL_ENONFINITE, "point 0"},
-      {{KL_LOAD_TORQUE, 3, 0, 0, NAN}, KL_ENONFINITE, "link 3"},
+      {{KL_LOAD_FORCE, 7, 1, 0, 0}, KL_EID, "point index 7 (0-based)"},
+      {{KL_LOAD_FORCE, -1, 1, 0, 0}, KL_EID, "point index -1 (0-based)"},
+      {{KL_LOAD_TORQUE, 9, 0, 0, 1}, KL_EID, "link index 9 (0-based)"},
+      {{KL_LOAD_FORCE, 0, NAN, 0, 0}, KL_ENONFINITE, "point 'coupler'"},
+      {{KL_LOAD_FORCE, 0, 0, INFINITY, 0}, KL_ENONFINITE, "point 'coupler'"},
+      {{KL_LOAD_TORQUE, 3, 0, 0, NAN}, KL_ENONFINITE, "link 'rocker'"},
   };
   unsigned k;
   snapshot before = snap(s), after;
   for (k = 0; k < sizeof bad / sizeof bad[0]; k++) {
-    /* the bad load second, after a good one: the message names load 1 */
+    /* the bad load second, after a good one: the message names its index */
     kl_load loads[2];
     double effort = -5.0;
     loads[0] = torque_on(f.rocker, 2.0);
     loads[1] = bad[k].l;
     ck_assert_int_eq(kl_input_effort(s, 2, loads, &effort), bad[k].status);
-    ck_assert_msg(strstr(kl_solver_error(s), "load 1") != NULL &&
+    ck_assert_msg(strstr(kl_solver_error(s), "load index 1 (0-based)") != NULL &&
                       strstr(kl_solver_error(s), bad[k].names) != NULL,
-                  "load %u: message '%s' does not name load 1 and '%s'", k,
+                  "load %u: message '%s' does not name load index 1 and '%s'", k,
                   kl_solver_error(s), bad[k].names);
     ck_assert_double_eq(effort, -5.0);
     after = snap(s);

@@ -392,7 +392,7 @@ START_TEST(bad_solve_arguments) {
   ck_assert_int_eq(kl_solve_position(s, NULL), KL_EINVAL);
   for (k = 0; k < 3; k++) {
     ck_assert_int_eq(kl_solve_position(s, &bad[k]), KL_ENONFINITE);
-    ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input 0"));
+    ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input 1"));
   }
   ck_assert_int_eq(kl_set_link_angle(s, 0, 1.0), KL_EKIND);
   ck_assert_int_eq(kl_set_link_angle(s, 9, 1.0), KL_EID);

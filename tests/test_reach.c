@@ -193,7 +193,7 @@ START_TEST(reach_stops_at_a_motion_limit) {
   ck_assert_double_eq(r.from, u);
   ck_assert_msg(fabs(r.limit_input - lim) <= 1e-9, "limit %.15g vs %.15g",
                 r.limit_input, lim);
-  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input 0"));
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input 1"));
   ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "motion limit"));
   /* the rates solved before are still there and still usable */
   ck_assert(!isnan(kl_link_rate(s, f.rocker)));

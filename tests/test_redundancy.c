@@ -174,7 +174,7 @@ START_TEST(wrong_proportions_name_the_loop) {
   before = snap(s);
   ck_assert_int_eq(kl_solve_position(s, &u), KL_ENOASSEMBLY);
   ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "redundant constraints do "
-                                                   "not close: loop 1"));
+                                                   "not close: loop 2"));
   after = snap(s);
   assert_same_state(&before, &after, "a failed redundant solve");
   kl_solver_free(s);

@@ -329,10 +329,10 @@ START_TEST(bad_slots_are_refused_and_change_nothing) {
   ck_assert_ptr_nonnull(strstr(kl_model_error(m), "needs at least 2"));
   ck_assert_int_eq(kl_add_curve_slot(m, KL_GROUND, 2, line, 1, a, 0, 0), KL_EFEWPOINTS);
   ck_assert_int_eq(kl_add_curve_slot(m, KL_GROUND, 3, twice, 0, a, 0, 0), KL_EREPEATED);
-  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "points 1 and 2"));
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "point indices 1 and 2 (0-based)"));
   /* closed: the last point repeats the first */
   ck_assert_int_eq(kl_add_curve_slot(m, KL_GROUND, 3, loop, 1, a, 0, 0), KL_EREPEATED);
-  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "points 2 and 0"));
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "point indices 2 and 0 (0-based)"));
   ck_assert_int_eq(kl_add_curve_slot(m, KL_GROUND, 3, bad, 0, a, 0, 0), KL_ENONFINITE);
   ck_assert_int_eq(kl_add_curve_slot(m, KL_GROUND, 3, NULL, 0, a, 0, 0), KL_EINVAL);
   ck_assert_int_eq(kl_add_arc_slot(m, KL_GROUND, 0, 0, 0.0, a, 0, 0), KL_ERADIUS);

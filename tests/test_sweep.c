@@ -780,7 +780,7 @@ START_TEST(mode_arguments_are_checked) {
   ck_assert_int_eq(kl_solver_find_assemblies(NULL, &u, modes, 1), KL_EINVAL);
   ck_assert_int_eq(kl_solver_find_assemblies(s, NULL, modes, 1), KL_EINVAL);
   ck_assert_int_eq(kl_solver_find_assemblies(s, &bad, modes, 1), KL_ENONFINITE);
-  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input 0"));
+  ck_assert_ptr_nonnull(strstr(kl_solver_error(s), "input 1"));
   modes[0] = NULL;
   ck_assert_int_eq(kl_solver_find_assemblies(s, &u, modes, 1), KL_EINVAL);
   now = snap(s);
@@ -814,11 +814,11 @@ START_TEST(bad_sweep_arguments) {
     int steps, status;
     const char *names;
   } bad[] = {
-      {1, 0.0, 1.0, 10, KL_EID, "input 1"},
-      {-1, 0.0, 1.0, 10, KL_EID, "input -1"},
-      {0, NAN, 1.0, 10, KL_ENONFINITE, "input 0"},
-      {0, 0.0, NAN, 10, KL_ENONFINITE, "input 0"},
-      {0, 0.0, INFINITY, 10, KL_ENONFINITE, "input 0"},
+      {1, 0.0, 1.0, 10, KL_EID, "input index 1 (0-based)"},
+      {-1, 0.0, 1.0, 10, KL_EID, "input index -1 (0-based)"},
+      {0, NAN, 1.0, 10, KL_ENONFINITE, "range of input 1"},
+      {0, 0.0, NAN, 10, KL_ENONFINITE, "range of input 1"},
+      {0, 0.0, INFINITY, 10, KL_ENONFINITE, "range of input 1"},
       {0, 0.0, 1.0, 0, KL_EINVAL, "0 steps"},
       {0, 0.0, 1.0, -3, KL_EINVAL, "-3 steps"},
       /* one step limit, named in the message; a count that would wrap

@@ -176,10 +176,6 @@ int cli_parse_inputs(const cli_model *cm, const char *list, const char *what,
 /* The inputs of --at, or the model's start when it is not given. Returns
  * 0, or -1 after printing why. */
 int cli_start_or_at(const cli_model *cm, const cli_options *o, double *u);
-/* Why the solver's last call failed with `status`, in the model's units
- * (the library's own text where it has no figures to convert). */
-void cli_solver_why(const cli_model *cm, const kl_solver *s, int status,
-                    char *buf, size_t cap);
 /* Brings the solver to `target` from the model's start (kl_solver_reset,
  * kl_solver_reach). Returns a KL status; on failure `why` says what
  * happened in the user's units. */

@@ -133,26 +133,11 @@ int cli_start_or_at(const cli_model *cm, const cli_options *o, double *u) {
   return 0;
 }
 
-void cli_solver_why(const cli_model *cm, const kl_solver *s, int status,
-                    char *buf, size_t cap) {
-  kl_solve_stats stats;
-  stats.size = sizeof stats;
-  if (status == KL_ENOASSEMBLY && kl_solver_stats(s, &stats) == KL_OK) {
-    /* the library's text speaks radians and numbers loops from 0 */
-    snprintf(buf, cap,
-             "the loops cannot close there: they stay %.3g %s apart after %d "
-             "iterations; the inputs are beyond a motion limit, or the start "
-             "is too far from any assembly (try other sketch angles)",
-             stats.residual, cm->length_unit, stats.iterations);
-    return;
-  }
-  snprintf(buf, cap, "%s", kl_solver_error(s));
-}
-
 int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
               char *why, size_t cap) {
   kl_reach_result r;
-  char where[1024], start[320], stop[320], goal[320], what[1024];
+  char where[1024], start[320], stop[320], goal[320];
+  const char *what;
   int st;
   why[0] = '\0';
   kl_solver_reset(s);
@@ -160,7 +145,7 @@ int cli_reach(kl_solver *s, const cli_model *cm, const double *target,
   st = kl_solver_reach(s, cm->ninputs > 0 ? target : NULL, &r);
   if (st == KL_OK)
     return st;
-  cli_solver_why(cm, s, st, what, sizeof what);
+  what = kl_solver_error(s);
   if (r.input < 0) {
     describe_position(cm, target, where, sizeof where);
     snprintf(why, cap, "no position at %s: %s", where, what);

@@ -80,6 +80,45 @@ expect_status 4 "$KINLOOP" solve r2.kinloop
 expect_text err.txt "no position at motor 10 deg"
 expect_text err.txt "mm apart"
 grep -q "input 0\|loop 0\|0\.1745" err.txt && fail "radians or numbering from 0: $(cat err.txt)"
+# the library's own text, passed on unchanged, numbers loops as check lists
+# them: a six-bar whose second loop cannot close at all (the arm and tie
+# reach 40 mm from the rocker, the anchor lies 300 mm beyond its pivot)
+cat >six.kinloop <<'MODEL'
+kinloop-model 1
+units length mm angle deg
+link crank
+link coupler
+link rocker
+link arm
+link tie
+revolute motor ground 0 0 crank 0 0
+revolute crank_pin crank 40 0 coupler 0 0
+revolute rocker_pin coupler 120 0 rocker 80 0
+revolute pivot rocker 0 0 ground 100 0
+revolute elbow rocker 40 0 arm 0 0
+revolute knee arm 20 0 tie 0 0
+revolute anchor tie 20 0 ground 400 0
+input motor
+sketch angle coupler 60
+sketch angle rocker 100
+sweep motor from 30 to 60 steps 3
+MODEL
+expect_status 4 "$KINLOOP" solve six.kinloop --at 30
+expect_text err.txt "input 1 (motor) = 30 deg"
+loop=$(sed -n 's/.*loop \([0-9]*\) furthest from closing.*/\1/p' err.txt)
+[ -n "$loop" ] || fail "the message names no loop: $(cat err.txt)"
+expect_status 4 "$KINLOOP" check six.kinloop
+grep -q "^  loop $loop .*anchor" out.txt ||
+  fail "check's loop $loop is not the one through anchor: $(cat out.txt)"
+# unstated units: the same text in radians, lengths without a unit
+sed -e 's/^units .*$/units length unstated angle rad/' \
+  -e 's/^\(sketch angle coupler\) 60/\1 1.0471975511965976/' \
+  -e 's/^\(sketch angle rocker\) 100/\1 1.7453292519943295/' \
+  -e 's/from 30 to 60/from 0.5235987755982988 to 1.0471975511965976/' \
+  six.kinloop >six-rad.kinloop
+expect_status 4 "$KINLOOP" solve six-rad.kinloop --at 0.5235987755982988
+expect_text err.txt "input 1 (motor) = 0.5235987756 rad"
+grep -q " deg\| mm " err.txt && fail "units the model does not state: $(cat err.txt)"
 
 # a model file for every command but demo; unknown options named
 for c in check solve sweep draw plot write forces; do
