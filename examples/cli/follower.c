@@ -218,6 +218,7 @@ static int write_chart(const cli_model *cm, const run *r, int c,
     if (isfinite(limit)) {
       snprintf(label, sizeof label, "bound %.4g %s", limit, unit);
       chart_mark_y(f, &ch, limit, SVG_MUTED, label);
+      snprintf(label, sizeof label, "bound %.4g %s", -limit, unit);
       chart_mark_y(f, &ch, -limit, SVG_MUTED, label);
     }
   }

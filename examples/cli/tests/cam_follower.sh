@@ -17,9 +17,12 @@
 #   memory): phi = atan((v - e) / (s + sqrt(Rp^2 - e^2))), v = ds/dtheta in
 #   length per rad, Rp the prime circle radius, e the offset;
 # - bad cam statements are refused with their line number.
-# usage: cam_follower.sh TOOL
+# - the example cam lever (examples/models/cam-lever.kinloop) runs, its
+#   lever swinging the program's 14 deg.
+# usage: cam_follower.sh TOOL EXAMPLE_MODEL
 set -eu
 KINLOOP=$1
+EXAMPLE=$2
 . "$(dirname "$0")/lib.sh"
 
 cat >disc.kinloop <<'MODEL'
@@ -136,5 +139,17 @@ bad "cam lobe shaft follower 0 0 points 720 translating base 5 roller 30 offset 
   "undercuts the cam at cam angle"
 bad "cam lobe shaft follower 0 0 points 720 translating base 40 roller 10 offset 10 limit 10 program rise cycloidal 120 25 dwell 60 return harmonic 120 25 dwell 60" \
   "above the bound 10 deg"
+
+# the example: an oscillating follower that drives a pusher; the rise is
+# the arm's angle, the program's 14 deg lift at the 720 deg/s of its speed
+expect_status 0 "$KINLOOP" follower "$EXAMPLE" --charts lever -o lever.csv
+expect_text lever.csv "track rise (deg)"
+awk -F, 'NR > 1 && $3 > top { top = $3 }
+END { d = top - 14; if (d < 0) d = -d; exit d > 1e-3 }' lever.csv ||
+  fail "the example lever does not swing 14 deg"
+[ -s lever/track-jerk.svg ] || fail "no jerk chart in time for the example"
+expect_status 0 "$KINLOOP" draw "$EXAMPLE" -o lever.svg
+expect_text lever.svg 'class="cam"'
+expect_text lever.svg 'class="roller"'
 
 exit "$failures"
