@@ -112,6 +112,13 @@ done
 expect_text charts/lobe-pressure.svg "largest"
 expect_text charts/lobe-pressure.svg "bound 35 deg"
 
+# check reports the cam's follower pressure angle (Norton's formula above
+# puts its largest, -25.78 deg, in the return at 252 deg), not a slider's
+expect_status 0 "$KINLOOP" check lobe.kinloop
+expect_text out.txt "lobe          cam on shaft: follower pressure angle -25.78 to 12.8"
+expect_text out.txt "largest at shaft 252 deg (bound 35 deg)"
+expect_text out.txt "warnings: none"
+
 # the canonical writer writes the cam statement back: read, write, read and
 # write again gives the same text
 expect_status 0 "$KINLOOP" write lobe.kinloop -o once.kinloop
