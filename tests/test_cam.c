@@ -337,6 +337,7 @@ START_TEST(cam_joint_state_is_the_program) {
   ck_assert_int_eq(kl_cam_follower_state(s, shaft, out), KL_EKIND);
   ck_assert_int_eq(kl_cam_follower_state(s, 9, out), KL_EID);
   ck_assert_int_eq(kl_cam_follower_state(s, joint, NULL), KL_EINVAL);
+  res.size = sizeof res;
   ck_assert_int_eq(kl_solver_sweep(s, 0, 0.0, 2 * PI, 144, check_state, &k, &res),
                    KL_OK);
   ck_assert_int_eq(k.rows, 145);

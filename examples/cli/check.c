@@ -275,6 +275,7 @@ static void print_cams(FILE *f, const cli_model *cm, const kl_solver *base,
     c.min = INFINITY;
     c.max = -INFINITY;
     kl_solver_copy_state(work, base);
+    res.size = sizeof res;
     kl_solver_sweep(work, r->input, r->from, r->to,
                     r->steps < 360 ? 360 : r->steps, cam_row, &c, &res);
     if (c.status != KL_OK || !isfinite(c.min)) {

@@ -368,6 +368,7 @@ int cli_cmd_follower(const cli_model *cm, const cli_options *o) {
   }
   if ((st = cli_reach_start(s, cm, o, &range)) != CLI_EXIT_OK)
     goto done;
+  res.size = sizeof res;
   st = kl_solver_sweep(s, range.input, range.from, range.to, range.steps,
                        take_row, &r, &res);
   if (r.status != KL_OK) {
