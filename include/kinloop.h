@@ -2527,7 +2527,7 @@ KL_API int kl_cam_check(kl_cam *c, int nsamples, double max_pressure,
  * and the bound `max_pressure` (rad, in (0, pi]; pi bounds nothing a
  * working cam reaches).
  * Returns the joint's id, or KL_EINVAL (NULL cam or model, npoints below 8
- * or above 1e6, max_pressure outside (0, pi]), KL_ENONFINITE, KL_EID (no
+ * or above 1e5, max_pressure outside (0, pi]), KL_ENONFINITE, KL_EID (no
  * such joint or link), KL_EKIND (bearing not a revolute joint with
  * ground), KL_ESELFJOINT (the follower is the cam link), KL_EUNDERCUT,
  * KL_EPRESSURE (both with the cam angle in degrees in the message),

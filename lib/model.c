@@ -1345,7 +1345,7 @@ int kl_add_curve_slot(kl_model *m, int a, int npoints, const double *xy,
 }
 
 /* The most points a cam's pitch curve may take in a model. */
-#define KLI_CAM_MAX_POINTS 1000000
+#define KLI_CAM_MAX_POINTS 100000
 
 /* The checks of kl_add_cam before anything is built: the status, with
  * the message in m->error. */
