@@ -462,9 +462,10 @@ int kl_cam_set_from_model(kl_cam *c, const kl_model *m, int joint) {
   if (c == NULL)
     return KL_EINVAL;
   if ((st = kl_model_cam_bearing(m, joint)) < 0)
-    return kli_fail(c->error, st,
-                    "set from model: joint %d is %s", joint + 1,
-                    st == KL_EKIND ? "not a cam joint" : "not in the model");
+    return kli_fail(c->error, st, "set from model: %s",
+                    st == KL_EKIND  ? "the joint is not a cam joint"
+                    : st == KL_EID ? "no such joint in the model"
+                                   : "the model is NULL");
   from = m->joints[joint].cam;
   if ((st = kl_cam_set_program(c, from->nsegments, from->segments)) != KL_OK)
     return st;

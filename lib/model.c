@@ -1366,10 +1366,14 @@ static int check_cam(kl_model *m, int bearing, int follower, const kl_cam *cam,
   if (!isfinite(max_pressure))
     return kli_fail(m->error, KL_ENONFINITE,
                     "%s: the pressure-angle bound is NaN or infinite", what);
-  if (!(max_pressure > 0.0 && max_pressure <= KLI_PI))
+  if (!(max_pressure > 0.0 && max_pressure <= KLI_PI)) {
+    double unit = m->angle_unit == KL_ANGLE_DEG ? 180.0 / KLI_PI : 1.0;
     return kli_fail(m->error, KL_EINVAL,
-                    "%s: the pressure-angle bound %g rad is not in (0, pi]",
-                    what, max_pressure);
+                    "%s: the pressure-angle bound %g %s is not above 0 and "
+                    "at most half a turn",
+                    what, max_pressure * unit,
+                    kl_angle_unit_str(m->angle_unit));
+  }
   if (bearing < 0 || bearing >= m->njoints)
     return kli_fail(m->error, KL_EID, "%s: no joint %d for the bearing", what,
                     bearing + 1);
