@@ -2519,6 +2519,93 @@ KL_API int kl_cam_check(kl_cam *c, int nsamples, double max_pressure,
                         kl_cam_report *report);
 
 /* ------------------------------------------------------------------------
+ * Cams in a model (issue 17): a cam program as the curve slot its roller
+ * runs in, and the follower's motion and pressure angle read from a solved
+ * model, so that a cam-driven linkage is analysed as a whole.
+ * ------------------------------------------------------------------------ */
+
+/**
+ * Adds a cam to the model: link `follower`'s point (bx, by), the roller
+ * centre, runs in the pitch curve of `cam` on the cam link, the link that
+ * revolute joint `bearing` hinges to ground. The cam's centre is the
+ * bearing, its frame the cam link's axes (at cam link angle 0 the cam
+ * stands at cam angle 0), and the cam's follower geometry (stem offset, arm
+ * pivot) is read in the ground frame about the bearing: the model's
+ * follower joints should put the roller there (kinloop does not check it).
+ * The pitch curve becomes a closed curve slot (kl_add_curve_slot) through
+ * `npoints` points at the cam angles 2 pi k / npoints, its slide t = k at
+ * cam angle 2 pi k / npoints; the cam's follower and program are copied
+ * with it, for kl_cam_set_from_model and the model file's writer. Before
+ * adding, the cam is checked as kl_cam_check does with 4 npoints samples
+ * and the bound `max_pressure` (rad, in (0, pi]; pi bounds nothing a
+ * working cam reaches).
+ * Returns the joint's id, or KL_EINVAL (NULL cam or model, npoints below 8
+ * or above 1e5, max_pressure outside (0, pi]), KL_ENONFINITE, KL_EID (no
+ * such joint or link), KL_EKIND (bearing not a revolute joint with
+ * ground), KL_ESELFJOINT (the follower is the cam link), KL_EUNDERCUT,
+ * KL_EPRESSURE (both with the cam angle in degrees in the message),
+ * KL_EDUPLICATE, KL_ESTATE (finalized), KL_ENOMEM; the model is unchanged
+ * on error.
+ */
+KL_API int kl_add_cam(kl_model *m, int bearing, int follower, double bx,
+                      double by, const kl_cam *cam, int npoints,
+                      double max_pressure);
+
+/** The bearing joint of a cam joint (kl_add_cam), or KL_EKIND (another
+ * joint), KL_EID, KL_EINVAL (NULL). */
+KL_API int kl_model_cam_bearing(const kl_model *m, int joint);
+
+/** The pressure-angle bound (rad) a cam joint was added with; NaN for
+ * another joint or a bad id. */
+KL_API double kl_model_cam_limit(const kl_model *m, int joint);
+
+/**
+ * Gives the cam `c` the follower and program of cam joint `joint` of the
+ * model (kl_add_cam). Returns KL_OK, KL_EINVAL (NULL), KL_EID, KL_EKIND
+ * (not a cam joint), KL_ENOMEM; the cam is unchanged on error. Allocates.
+ */
+KL_API int kl_cam_set_from_model(kl_cam *c, const kl_model *m, int joint);
+
+/** What kl_cam_follower_state gives (indexes into its out array). */
+enum kl_cam_state_index {
+  KL_CAM_STATE_ANGLE = 0,    /**< cam angle: the cam link's angle, rad */
+  KL_CAM_STATE_RISE = 1,     /**< the follower's coordinate: its guide's
+                                  slide (length) or its link's angle (rad) */
+  KL_CAM_STATE_D1 = 2,       /**< d rise / d cam angle */
+  KL_CAM_STATE_D2 = 3,       /**< d2 rise / d cam angle^2 */
+  KL_CAM_STATE_D3 = 4,       /**< d3 rise / d cam angle^3 */
+  KL_CAM_STATE_RATE = 5,     /**< d rise / dt at the solved rates */
+  KL_CAM_STATE_ACCEL = 6,    /**< d2 rise / dt2 */
+  KL_CAM_STATE_JERK = 7,     /**< d3 rise / dt3 */
+  KL_CAM_STATE_PRESSURE = 8, /**< pressure angle, rad, signed as
+                                  KL_CAM_PRESSURE of kl_cam_sample */
+  KL_CAM_STATE_SIZE = 9      /**< the numbers kl_cam_follower_state gives */
+};
+
+/**
+ * A cam pair's state at the solver's solved position, rates, accelerations
+ * and jerks (kl_solve_jerk last): joint `joint` is a pin-in-slot joint
+ * (a cam joint of kl_add_cam, or any arc, curve or straight slot) whose
+ * slot link (a, the cam) turns on a revolute joint with ground and whose
+ * pin link (b, the follower) is guided by ground through a prismatic joint
+ * (a translating follower: its coordinate is that joint's slide of the
+ * follower along the axis) or a revolute joint (an oscillating one: its
+ * coordinate is the follower link's angle). Into out (KL_CAM_STATE_SIZE
+ * numbers, enum kl_cam_state_index): the cam angle, the coordinate, its
+ * derivatives over the cam angle (by the chain rule from the time rates,
+ * so exact whatever drives the cam), its time rates, and the pressure
+ * angle: between the pitch curve's normal at the pin and the direction the
+ * follower's coordinate moves the pin. A sweep's callback (kl_sweep_fn)
+ * reads it at each step. Returns KL_OK, KL_EINVAL (NULL), KL_EID, KL_EKIND
+ * (not a pin-in-slot joint between moving links, or no bearing or guide
+ * with ground), KL_ESTAGE (no jerk solved at this state), KL_ESINGULAR
+ * (the cam does not turn at the solved rates: nothing is per cam angle).
+ * Like the other getters it writes no message. Never allocates.
+ */
+KL_API int kl_cam_follower_state(const kl_solver *s, int joint,
+                                 double out[9]);
+
+/* ------------------------------------------------------------------------
  * Couplings and point inputs: rows beyond loop closure
  *
  * Each coupling and each point input adds one scalar equation and no

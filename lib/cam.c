@@ -51,15 +51,14 @@ static void free_program(kl_cam *c) {
   c->nsegments = 0;
 }
 
-kl_cam *kl_cam_new(void) {
-  kli_allocator a = {kli_default_alloc, NULL};
+kl_cam *kli_cam_new(const kli_allocator *a) {
   kl_cam_segment dwell = {2.0 * KLI_PI, 0.0, KL_LAW_HARMONIC};
   kl_cam_follower f;
-  kl_cam *c = kli_alloc(&a, sizeof *c);
+  kl_cam *c = kli_alloc(a, sizeof *c);
   if (c == NULL)
     return NULL;
   memset(c, 0, sizeof *c);
-  c->alloc = a;
+  c->alloc = *a;
   kl_cam_follower_init(&f);
   if (kl_cam_set_follower(c, &f) != KL_OK ||
       kl_cam_set_program(c, 1, &dwell) != KL_OK) {
@@ -68,6 +67,11 @@ kl_cam *kl_cam_new(void) {
   }
   c->error[0] = '\0';
   return c;
+}
+
+kl_cam *kl_cam_new(void) {
+  kli_allocator a = {kli_default_alloc, NULL};
+  return kli_cam_new(&a);
 }
 
 void kl_cam_free(kl_cam *c) {
@@ -438,4 +442,44 @@ int kl_cam_check(kl_cam *c, int nsamples, double max_pressure,
                     -best[0] * 180.0 / KLI_PI, at[0] * 180.0 / KLI_PI,
                     max_pressure * 180.0 / KLI_PI);
   return KL_OK;
+}
+
+kl_cam *kli_cam_copy(const kli_allocator *a, const kl_cam *from) {
+  kl_cam *c = kli_cam_new(a);
+  if (c == NULL)
+    return NULL;
+  if (kl_cam_set_program(c, from->nsegments, from->segments) != KL_OK) {
+    kl_cam_free(c);
+    return NULL;
+  }
+  c->follower = from->follower;
+  c->rest = from->rest;
+  return c;
+}
+
+int kl_cam_set_from_model(kl_cam *c, const kl_model *m, int joint) {
+  const kl_cam *from;
+  int st;
+  if (c == NULL)
+    return KL_EINVAL;
+  if ((st = kl_model_cam_bearing(m, joint)) < 0)
+    return kli_fail(c->error, st, "set from model: %s",
+                    st == KL_EKIND  ? "the joint is not a cam joint"
+                    : st == KL_EID ? "no such joint in the model"
+                                   : "the model is NULL");
+  from = m->joints[joint].cam;
+  if ((st = kl_cam_set_program(c, from->nsegments, from->segments)) != KL_OK)
+    return st;
+  c->follower = from->follower;
+  c->rest = from->rest;
+  return KL_OK;
+}
+
+const kl_cam_follower *kli_cam_follower_of(const kl_cam *c) {
+  return &c->follower;
+}
+
+const kl_cam_segment *kli_cam_program_of(const kl_cam *c, int *n) {
+  *n = c->nsegments;
+  return c->segments;
 }

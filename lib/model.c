@@ -65,6 +65,7 @@ static void destroy(kl_model *m) {
   for (i = 0; i < m->njoints; i++) {
     free_name(m, m->joints[i].name);
     kli_curve_free(&a, m->joints[i].curve);
+    kl_cam_free(m->joints[i].cam);
   }
   kli_free(&a, m->links, (size_t)m->cap_links * sizeof *m->links);
   kli_free(&a, m->joints, (size_t)m->cap_joints * sizeof *m->joints);
@@ -1129,6 +1130,7 @@ kl_model *kli_model_copy(const kl_model *src) {
     for (i = 0; i < m->njoints; i++) {
       m->joints[i].name = NULL;
       m->joints[i].curve = NULL;
+      m->joints[i].cam = NULL;
     }
     for (i = 0; i < m->npoints; i++)
       m->points[i].name = NULL;
@@ -1136,6 +1138,10 @@ kl_model *kli_model_copy(const kl_model *src) {
       ok = src->joints[i].curve == NULL ||
            (m->joints[i].curve = kli_curve_copy(&m->alloc,
                                                 src->joints[i].curve)) != NULL;
+    for (i = 0; ok && i < m->njoints; i++)
+      ok = src->joints[i].cam == NULL ||
+           (m->joints[i].cam = kli_cam_copy(&m->alloc, src->joints[i].cam)) !=
+               NULL;
     for (i = 0; ok && i < m->nlinks; i++)
       ok = copy_name(m, src->links[i].name, &m->links[i].name, "copy") == KL_OK;
     for (i = 0; ok && i < m->njoints; i++)
@@ -1315,6 +1321,149 @@ int kl_add_curve_slot(kl_model *m, int a, int npoints, const double *xy,
     return st;
   return add_curved(m, KL_JOINT_CURVE_SLOT, a, 0.0, 0.0, 0.0, curve, b, bx,
                     by);
+}
+
+/* The most points a cam's pitch curve may take in a model. */
+#define KLI_CAM_MAX_POINTS 100000
+
+/* The checks of kl_add_cam before anything is built: the status, with
+ * the message in m->error. */
+static int check_cam(kl_model *m, int bearing, int follower, const kl_cam *cam,
+                     int npoints, double max_pressure, const char *what) {
+  char label[96];
+  int st, cam_link;
+  if ((st = check_open(m, what)) != KL_OK ||
+      (st = check_link(m, follower, what)) != KL_OK)
+    return st;
+  if (cam == NULL || npoints < 8 || npoints > KLI_CAM_MAX_POINTS)
+    return kli_fail(m->error, KL_EINVAL,
+                    "%s: %s (8 to %d points)", what,
+                    cam == NULL ? "the cam is NULL"
+                                : "the number of pitch-curve points is out "
+                                  "of range",
+                    KLI_CAM_MAX_POINTS);
+  if (!isfinite(max_pressure))
+    return kli_fail(m->error, KL_ENONFINITE,
+                    "%s: the pressure-angle bound is NaN or infinite", what);
+  if (!(max_pressure > 0.0 && max_pressure <= KLI_PI)) {
+    double unit = m->angle_unit == KL_ANGLE_DEG ? 180.0 / KLI_PI : 1.0;
+    return kli_fail(m->error, KL_EINVAL,
+                    "%s: the pressure-angle bound %g %s is not above 0 and "
+                    "at most half a turn",
+                    what, max_pressure * unit,
+                    kl_angle_unit_str(m->angle_unit));
+  }
+  if (bearing < 0 || bearing >= m->njoints)
+    return kli_fail(m->error, KL_EID, "%s: no joint %d for the bearing", what,
+                    bearing + 1);
+  if (m->joints[bearing].kind != KL_JOINT_REVOLUTE ||
+      (m->joints[bearing].link[0] != KL_GROUND &&
+       m->joints[bearing].link[1] != KL_GROUND))
+    return kli_fail(m->error, KL_EKIND,
+                    "%s: the bearing, %s, is not a revolute joint with ground",
+                    what, kli_joint_label(m, bearing, label, sizeof label));
+  cam_link = m->joints[bearing].link[0] == KL_GROUND
+                 ? m->joints[bearing].link[1]
+                 : m->joints[bearing].link[0];
+  if (follower == cam_link)
+    return kli_fail(m->error, KL_ESELFJOINT,
+                    "%s: the follower is the cam link, %s", what,
+                    kli_link_label(m, cam_link, label, sizeof label));
+  return KL_OK;
+}
+
+/* kl_cam_check's verdict on the cam, its message in the model's angle
+ * unit. */
+static int cam_judged(kl_model *m, kl_cam *cam, int npoints,
+                      double max_pressure, const char *what) {
+  double unit = m->angle_unit == KL_ANGLE_DEG ? 180.0 / KLI_PI : 1.0;
+  const char *word = kl_angle_unit_str(m->angle_unit);
+  kl_cam_report r;
+  int st;
+  r.size = sizeof r;
+  st = kl_cam_check(cam, 4 * npoints, max_pressure, &r);
+  if (st == KL_EUNDERCUT)
+    return kli_fail(m->error, st,
+                    "%s: the roller (radius %g) undercuts the cam at cam "
+                    "angle %.6g %s, where the pitch curve's convex radius "
+                    "of curvature is %g (the roller must stay below it)",
+                    what, kli_cam_follower_of(cam)->roller_radius, r.min_convex_angle * unit,
+                    word, r.min_convex_radius);
+  if (st == KL_EPRESSURE)
+    return kli_fail(m->error, st,
+                    "%s: the pressure angle reaches %.6g %s at cam angle "
+                    "%.6g %s, above the bound %.6g %s",
+                    what, r.max_pressure * unit, word,
+                    r.max_pressure_angle * unit, word, max_pressure * unit,
+                    word);
+  if (st != KL_OK)
+    return kli_fail(m->error, st, "%s: %s", what, kl_cam_error(cam));
+  return KL_OK;
+}
+
+int kl_add_cam(kl_model *m, int bearing, int follower, double bx, double by,
+               const kl_cam *cam, int npoints, double max_pressure) {
+  const char *what = "add cam joint";
+  const kli_joint *bj;
+  kl_cam *copy;
+  kli_curve *curve;
+  double *xy, centre[2];
+  size_t bytes;
+  int st, k, cam_link, j;
+  if (m == NULL)
+    return KL_EINVAL;
+  if ((st = check_cam(m, bearing, follower, cam, npoints, max_pressure,
+                      what)) != KL_OK)
+    return st;
+  bj = &m->joints[bearing];
+  cam_link = bj->link[0] == KL_GROUND ? bj->link[1] : bj->link[0];
+  memcpy(centre, kli_joint_point_on(m, bearing, cam_link), sizeof centre);
+  if ((copy = kli_cam_copy(&m->alloc, cam)) == NULL)
+    return kli_fail(m->error, KL_ENOMEM, "%s: out of memory", what);
+  if ((st = cam_judged(m, copy, npoints, max_pressure, what)) != KL_OK) {
+    kl_cam_free(copy);
+    return st;
+  }
+  bytes = (size_t)npoints * 2 * sizeof *xy;
+  if ((xy = kli_alloc(&m->alloc, bytes)) == NULL) {
+    kl_cam_free(copy);
+    return kli_fail(m->error, KL_ENOMEM, "%s: out of memory", what);
+  }
+  kl_cam_outline(copy, npoints, xy, NULL);
+  for (k = 0; k < npoints; k++) {
+    xy[2 * k] += centre[0];
+    xy[2 * k + 1] += centre[1];
+  }
+  st = kli_curve_new(&m->alloc, npoints, xy, 1, m->error, what, &curve);
+  kli_free(&m->alloc, xy, bytes);
+  if (st != KL_OK) {
+    kl_cam_free(copy);
+    return st;
+  }
+  j = add_curved(m, KL_JOINT_CURVE_SLOT, cam_link, 0.0, 0.0, 0.0, curve,
+                 follower, bx, by);
+  if (j < 0) {
+    kl_cam_free(copy);
+    return j;
+  }
+  m->joints[j].cam = copy;
+  m->joints[j].cam_bearing = bearing;
+  m->joints[j].cam_limit = max_pressure;
+  return j;
+}
+
+int kl_model_cam_bearing(const kl_model *m, int joint) {
+  if (m == NULL)
+    return KL_EINVAL;
+  if (joint < 0 || joint >= m->njoints)
+    return KL_EID;
+  return m->joints[joint].cam != NULL ? m->joints[joint].cam_bearing
+                                      : KL_EKIND;
+}
+
+double kl_model_cam_limit(const kl_model *m, int joint) {
+  return kl_model_cam_bearing(m, joint) >= 0 ? m->joints[joint].cam_limit
+                                             : NAN;
 }
 
 double kl_model_slot_radius(const kl_model *m, int joint) {

@@ -49,6 +49,11 @@ typedef struct {
    * curve slot's spline (owned; at[0] is a's origin), NULL otherwise */
   double radius;
   struct kli_curve *curve;
+  /* a cam joint's (kl_add_cam) program (owned), bearing joint and
+   * pressure-angle bound; cam NULL for any other joint */
+  kl_cam *cam;
+  int cam_bearing;
+  double cam_limit;
 } kli_joint;
 
 typedef struct {
@@ -347,6 +352,14 @@ void kli_free_couplings(kl_model *m);
  * gravity, redundancy, loads, working speed), with m's allocator;
  * NULL when memory runs out. */
 kl_model *kli_model_copy(const kl_model *m);
+/* A new cam (kl_cam_new) made with allocator a (cam.c). */
+kl_cam *kli_cam_new(const kli_allocator *a);
+/* A copy of cam `c` made with allocator a (kl_cam_free frees it), or NULL
+ * when memory runs out (cam.c). */
+kl_cam *kli_cam_copy(const kli_allocator *a, const kl_cam *c);
+/* A cam's follower, and its program's segments with their count in *n. */
+const kl_cam_follower *kli_cam_follower_of(const kl_cam *c);
+const kl_cam_segment *kli_cam_program_of(const kl_cam *c, int *n);
 /* A solver or study made from m holds it: m is freed when the last holder
  * (the caller's handle included) lets go. Thread-safe. */
 void kli_model_retain(const kl_model *m);

@@ -191,6 +191,193 @@ static int read_curve_slot(model_reader *mr) {
   return st;
 }
 
+/* The next token as a motion law word: its enum value, or the syntax
+ * error. */
+static int expect_law(kli_reader *r, int *law) {
+  kli_token t;
+  int st;
+  if ((st = kli_next_token(r, &t)) != KL_OK)
+    return st;
+  for (*law = 0; kli_law_word(*law) != NULL; (*law)++)
+    if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, kli_law_word(*law)) == 0)
+      return KL_OK;
+  return kli_read_fail(r, KL_ESYNTAX, t.column,
+                       "expected a motion law (harmonic, cycloidal, "
+                       "poly345, poly4567, mod-trapezoid or mod-sine), "
+                       "found '%.60s'",
+                       kli_token_shown(&t));
+}
+
+/* The follower of a cam statement: translating base R roller R offset E |
+ * oscillating base R roller R pivot X Y arm L. */
+static int read_cam_follower(model_reader *mr, kl_cam_follower *f) {
+  kli_reader *r = &mr->r;
+  kli_token t;
+  int st;
+  kl_cam_follower_init(f);
+  if ((st = kli_next_token(r, &t)) != KL_OK)
+    return st;
+  if (t.kind != KLI_TOKEN_WORD || (strcmp(t.text, "translating") != 0 &&
+                                   strcmp(t.text, "oscillating") != 0))
+    return kli_read_fail(r, KL_ESYNTAX, t.column,
+                         "expected the follower's kind, translating or "
+                         "oscillating, found '%.60s'",
+                         kli_token_shown(&t));
+  f->kind = strcmp(t.text, "translating") == 0 ? KL_CAM_TRANSLATING
+                                               : KL_CAM_OSCILLATING;
+  if ((st = kli_expect_keyword(r, "base", "after the follower's kind")) !=
+          KL_OK ||
+      (st = kli_expect_number(r, "the base circle's radius",
+                              &f->base_radius)) != KL_OK ||
+      (st = kli_expect_keyword(r, "roller", "after the base radius")) !=
+          KL_OK ||
+      (st = kli_expect_number(r, "the roller's radius", &f->roller_radius)) !=
+          KL_OK)
+    return st;
+  if (f->kind == KL_CAM_TRANSLATING)
+    return (st = kli_expect_keyword(r, "offset", "after the roller's "
+                                                 "radius")) != KL_OK
+               ? st
+               : kli_expect_number(r, "the stem's offset", &f->offset);
+  if ((st = kli_expect_keyword(r, "pivot", "after the roller's radius")) !=
+          KL_OK ||
+      (st = kli_expect_number(r, "the arm pivot's x", &f->pivot_x)) != KL_OK ||
+      (st = kli_expect_number(r, "the arm pivot's y", &f->pivot_y)) != KL_OK ||
+      (st = kli_expect_keyword(r, "arm", "after the arm's pivot")) != KL_OK)
+    return st;
+  return kli_expect_number(r, "the arm's length", &f->arm_length);
+}
+
+/* A cam program's segments to the end of the line: rise LAW SPAN LIFT,
+ * return LAW SPAN DROP, dwell SPAN; spans (and an oscillating follower's
+ * lifts) in the model's angle unit. Checks that the spans make a turn and
+ * the lifts close, in the file's units, at `column`. */
+static int read_cam_program(model_reader *mr, int angle_lifts, int column,
+                            kl_cam_segment **out, int *n, int *cap) {
+  kli_reader *r = &mr->r;
+  double turn = 0.0, lift = 0.0, largest = 0.0;
+  double full = r->angle_deg ? 360.0 : 2.0 * KLI_PI;
+  int st;
+  for (;;) {
+    kli_token t;
+    kl_cam_segment *g;
+    int kind, span_column;
+    if ((st = kli_next_token(r, &t)) != KL_OK)
+      return st;
+    if (t.kind == KLI_TOKEN_END)
+      break;
+    kind = t.kind != KLI_TOKEN_WORD            ? -1
+           : strcmp(t.text, "dwell") == 0      ? KL_SEGMENT_DWELL
+           : strcmp(t.text, "rise") == 0       ? KL_SEGMENT_RISE
+           : strcmp(t.text, "return") == 0     ? KL_SEGMENT_RETURN
+                                               : -1;
+    if (kind < 0)
+      return kli_read_fail(r, KL_ESYNTAX, t.column,
+                           "expected a cam segment (rise, dwell or return) "
+                           "or the end of the line, found '%.60s'",
+                           kli_token_shown(&t));
+    if (kli_reserve(&mr->m->alloc, (void **)out, cap, *n + 1, sizeof **out) !=
+        KL_OK)
+      return kli_read_fail(r, KL_ENOMEM, t.column, "out of memory");
+    g = &(*out)[(*n)++];
+    g->law = KL_LAW_HARMONIC;
+    g->lift = 0.0;
+    if (kind != KL_SEGMENT_DWELL && (st = expect_law(r, &g->law)) != KL_OK)
+      return st;
+    if ((st = kli_expect_number_at(r, "the segment's span", &g->span,
+                                   &span_column)) != KL_OK ||
+        (kind != KL_SEGMENT_DWELL &&
+         (st = kli_expect_number(r, kind == KL_SEGMENT_RISE
+                                        ? "the segment's lift"
+                                        : "the segment's drop",
+                                 &g->lift)) != KL_OK))
+      return st;
+    if (!(g->span > 0.0) || (kind != KL_SEGMENT_DWELL && !(g->lift > 0.0)))
+      return kli_read_fail(r, KL_ESYNTAX, span_column,
+                           "cam segment %d: the span%s must be positive",
+                           *n, kind == KL_SEGMENT_DWELL ? "" : " and lift");
+    turn += g->span;
+    lift += kind == KL_SEGMENT_RETURN ? -g->lift : g->lift;
+    largest = fmax(largest, g->lift);
+    if (kind == KL_SEGMENT_RETURN)
+      g->lift = -g->lift;
+    g->span = kli_angle_in(r, g->span);
+    if (angle_lifts)
+      g->lift = kli_angle_in(r, g->lift);
+  }
+  if (*n == 0)
+    return kli_read_fail(r, KL_ESYNTAX, column,
+                         "the cam program has no segments");
+  if (fabs(turn - full) > 1e-9 * full)
+    return kli_read_fail(r, KL_ESYNTAX, column,
+                         "the cam program's spans add up to %.12g %s, not "
+                         "one turn (%g %s)",
+                         turn, r->angle_deg ? "deg" : "rad", full,
+                         r->angle_deg ? "deg" : "rad");
+  if (fabs(lift) > 1e-9 * largest)
+    return kli_read_fail(r, KL_ESYNTAX, column,
+                         "the cam program's rises and returns differ by %g: "
+                         "the follower must come back where it started",
+                         lift);
+  return KL_OK;
+}
+
+/* cam NAME BEARING FOLLOWER X Y points N FOLLOWER-KIND ... [limit A]
+ * program SEGMENT ... (read_cam_follower, read_cam_program) */
+static int read_cam(model_reader *mr) {
+  kli_reader *r = &mr->r;
+  kli_token name_tok, t;
+  const char *name;
+  kl_cam_follower f;
+  kl_cam_segment *segments = NULL;
+  kl_cam *cam = NULL;
+  int st, bearing, follower, npoints, nseg = 0, cap = 0, program_column;
+  double bx, by, limit = KLI_PI;
+  if ((st = kli_expect_new_name(r, "joint", &name_tok, &name)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_JOINT, "the cam's bearing joint",
+                           &bearing)) != KL_OK ||
+      (st = kli_expect_ref(r, KLI_REF_LINK, "the follower link", &follower)) !=
+          KL_OK ||
+      (st = kli_expect_number(r, "the roller centre's x", &bx)) != KL_OK ||
+      (st = kli_expect_number(r, "the roller centre's y", &by)) != KL_OK ||
+      (st = kli_expect_keyword(r, "points", "after the roller centre")) !=
+          KL_OK ||
+      (st = kli_expect_count(r, "the pitch curve's number of points",
+                             &npoints)) != KL_OK ||
+      (st = read_cam_follower(mr, &f)) != KL_OK ||
+      (st = kli_next_token(r, &t)) != KL_OK)
+    return st;
+  if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, "limit") == 0) {
+    if ((st = kli_expect_number(r, "the pressure-angle bound", &limit)) !=
+            KL_OK ||
+        (st = kli_next_token(r, &t)) != KL_OK)
+      return st;
+    limit = kli_angle_in(r, limit);
+  }
+  if (t.kind != KLI_TOKEN_WORD || strcmp(t.text, "program") != 0)
+    return kli_read_fail(r, KL_ESYNTAX, t.column,
+                         "expected 'limit' or 'program' after the follower, "
+                         "found '%.60s'",
+                         kli_token_shown(&t));
+  program_column = t.column;
+  st = read_cam_program(mr, f.kind == KL_CAM_OSCILLATING, program_column,
+                        &segments, &nseg, &cap);
+  if (st == KL_OK && (cam = kli_cam_new(&mr->m->alloc)) == NULL)
+    st = kli_read_fail(r, KL_ENOMEM, program_column, "out of memory");
+  if (st == KL_OK && ((st = kl_cam_set_follower(cam, &f)) != KL_OK ||
+                      (st = kl_cam_set_program(cam, nseg, segments)) != KL_OK))
+    st = kli_read_fail(r, st, program_column, "cam: %s", kl_cam_error(cam));
+  if (st == KL_OK)
+    st = name_joint(mr,
+                    kl_add_cam(mr->m, bearing, follower, bx, by, cam, npoints,
+                               limit),
+                    &name_tok, name);
+  kl_cam_free(cam);
+  if (cap > 0)
+    kli_free(&mr->m->alloc, segments, (size_t)cap * sizeof *segments);
+  return st;
+}
+
 static int read_point(model_reader *mr) {
   kli_reader *r = &mr->r;
   kli_token name_tok;
@@ -510,19 +697,9 @@ static int read_segment(model_reader *mr) {
                          "expected dwell, rise, return or speed, found "
                          "'%.60s'",
                          kli_token_shown(&t));
-  if (kind == KL_SEGMENT_RISE || kind == KL_SEGMENT_RETURN) {
-    if ((st = kli_next_token(r, &t)) != KL_OK)
-      return st;
-    for (law = 0; kli_law_word(law) != NULL; law++)
-      if (t.kind == KLI_TOKEN_WORD && strcmp(t.text, kli_law_word(law)) == 0)
-        break;
-    if (kli_law_word(law) == NULL)
-      return kli_read_fail(r, KL_ESYNTAX, t.column,
-                           "expected a motion law (harmonic, cycloidal, "
-                           "poly345, poly4567, mod-trapezoid or mod-sine), "
-                           "found '%.60s'",
-                           kli_token_shown(&t));
-  }
+  if ((kind == KL_SEGMENT_RISE || kind == KL_SEGMENT_RETURN) &&
+      (st = expect_law(r, &law)) != KL_OK)
+    return st;
   if ((st = kli_expect_number(r, "the segment's duration", &duration)) !=
           KL_OK ||
       (st = kli_expect_number(r, "the value the segment starts at", &from)) !=
@@ -736,6 +913,8 @@ static int read_statement(model_reader *mr, const kli_token *key) {
     return read_arc_slot(mr);
   if (strcmp(k, "curve-slot") == 0)
     return read_curve_slot(mr);
+  if (strcmp(k, "cam") == 0)
+    return read_cam(mr);
   if (strcmp(k, "point") == 0)
     return read_point(mr);
   if (strcmp(k, "input") == 0)
@@ -757,7 +936,7 @@ static int read_statement(model_reader *mr, const kli_token *key) {
   return kli_read_fail(
       r, KL_ESYNTAX, key->column,
       "unknown statement '%.60s' (expected units, link, "
-      "revolute, prismatic, slot, arc-slot, curve-slot, point, input, "
+      "revolute, prismatic, slot, arc-slot, curve-slot, cam, point, input, "
       "drive, gears, rack, couple, loop, sketch, hold, transmission, sweep, "
       "mass, gravity, "
       "load, speed, redundant, segment or timetable)",

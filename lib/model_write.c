@@ -2,6 +2,7 @@
  * model_write.c - the model-file writer: a model as the text that the model
  * reader reads back to the same model.
  */
+#include <math.h>
 #include <stdarg.h>
 #include <stdio.h>
 #include <string.h>
@@ -138,6 +139,39 @@ static void write_curved_slot(const kl_model *m, int joint, sink *o) {
   put(o, "\n");
 }
 
+/* A cam statement (model_read.c's read_cam gives its form). */
+static void write_cam(const kl_model *m, int joint, sink *o) {
+  const kli_joint *j = &m->joints[joint];
+  const kl_cam_follower *f = kli_cam_follower_of(j->cam);
+  int k, n, angle_lifts = f->kind == KL_CAM_OSCILLATING;
+  const kl_cam_segment *g = kli_cam_program_of(j->cam, &n);
+  put(o, "cam");
+  put_name(o, j->name);
+  put_joint_ref(o, m, j->cam_bearing);
+  put_link_ref(o, m, j->link[1]);
+  put(o, " %.17g %.17g points %d", j->at[1][0], j->at[1][1], j->curve->n);
+  put(o, " %s base %.17g roller %.17g",
+      angle_lifts ? "oscillating" : "translating", f->base_radius,
+      f->roller_radius);
+  if (angle_lifts)
+    put(o, " pivot %.17g %.17g arm %.17g", f->pivot_x, f->pivot_y,
+        f->arm_length);
+  else
+    put(o, " offset %.17g", f->offset);
+  if (j->cam_limit < KLI_PI)
+    put(o, " limit %.17g", angle_out(m, j->cam_limit));
+  put(o, " program");
+  for (k = 0; k < n; k++) {
+    double lift = angle_lifts ? angle_out(m, g[k].lift) : g[k].lift;
+    if (g[k].lift == 0.0)
+      put(o, " dwell %.17g", angle_out(m, g[k].span));
+    else
+      put(o, " %s %s %.17g %.17g", g[k].lift > 0.0 ? "rise" : "return",
+          kli_law_word(g[k].law), angle_out(m, g[k].span), fabs(lift));
+  }
+  put(o, "\n");
+}
+
 /* A value of the profile's joint in the file's units. */
 static double joint_value_out(const kl_model *m, int joint, double v) {
   return m->joints[joint].kind == KL_JOINT_REVOLUTE ? angle_out(m, v) : v;
@@ -186,6 +220,10 @@ static void write_model(const kl_model *m, sink *o) {
   }
   for (i = 0; i < m->njoints; i++) {
     const kli_joint *j = &m->joints[i];
+    if (j->cam != NULL) {
+      write_cam(m, i, o);
+      continue;
+    }
     if (j->kind == KL_JOINT_ARC_SLOT || j->kind == KL_JOINT_CURVE_SLOT) {
       write_curved_slot(m, i, o);
       continue;

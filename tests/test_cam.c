@@ -6,6 +6,7 @@
  */
 #include <check.h>
 #include <math.h>
+#include <stdio.h>
 #include <string.h>
 
 #include "suite.h"
@@ -244,6 +245,322 @@ START_TEST(bad_cams_are_refused_and_change_nothing) {
 }
 END_TEST
 
+/* ---- cams in models: kl_add_cam, the cam statement, the follower's state
+ * read from a solved model ---- */
+
+/* An oscillating follower (arm 60 about the pivot (80, 0) of the ground
+ * frame, the cam's bearing at the origin): a 3-4-5 rise of 0.3 rad over
+ * half a turn and back. */
+static kl_cam *swinging_cam(void) {
+  kl_cam *c = kl_cam_new();
+  kl_cam_follower f;
+  kl_cam_segment seg[2] = {{PI, 0.3, KL_LAW_POLY345},
+                           {PI, -0.3, KL_LAW_POLY345}};
+  kl_cam_follower_init(&f);
+  f.kind = KL_CAM_OSCILLATING;
+  f.base_radius = 30;
+  f.roller_radius = 6;
+  f.pivot_x = 80;
+  f.arm_length = 60;
+  ck_assert_int_eq(kl_cam_set_follower(c, &f), KL_OK);
+  ck_assert_int_eq(kl_cam_set_program(c, 2, seg), KL_OK);
+  return c;
+}
+
+typedef struct {
+  const kl_cam *cam;
+  int joint, rows;
+  double rest, worst[5];
+} state_check;
+
+/* The state against the program at the state's own cam angle. */
+static void compare_state(state_check *k, const double st[KL_CAM_STATE_SIZE]) {
+  double motion[4], sample[KL_CAM_SAMPLE_SIZE], theta = st[KL_CAM_STATE_ANGLE];
+  int i;
+  kl_cam_motion(k->cam, theta, motion);
+  kl_cam_sample(k->cam, theta, sample);
+  {
+    double err[5] = {st[KL_CAM_STATE_RISE] - (k->rest + motion[0]),
+                     st[KL_CAM_STATE_D1] - motion[1],
+                     st[KL_CAM_STATE_D2] - motion[2],
+                     st[KL_CAM_STATE_D3] - motion[3],
+                     st[KL_CAM_STATE_PRESSURE] - sample[KL_CAM_PRESSURE]};
+    for (i = 0; i < 5; i++)
+      k->worst[i] = fmax(k->worst[i], fabs(err[i]));
+  }
+  k->rows++;
+}
+
+/* At each step of a sweep of the cam's own bearing (unit cam rate): the
+ * cam angle is the input, the time rates the derivatives over it. */
+static int check_state(const kl_solver *s, int step, double input,
+                       void *user) {
+  double st[KL_CAM_STATE_SIZE];
+  (void)step;
+  ck_assert_int_eq(kl_cam_follower_state(s, ((state_check *)user)->joint, st),
+                   KL_OK);
+  ck_assert_double_le(fabs(st[KL_CAM_STATE_ANGLE] - input), 1e-12);
+  ck_assert_double_le(fabs(st[KL_CAM_STATE_RATE] - st[KL_CAM_STATE_D1]), 1e-12);
+  ck_assert_double_le(fabs(st[KL_CAM_STATE_JERK] - st[KL_CAM_STATE_D3]), 1e-9);
+  compare_state(user, st);
+  return 0;
+}
+
+/* At each step of a sweep of another input: the cam's own rates vary. */
+static int check_state_driven(const kl_solver *s, int step, double input,
+                              void *user) {
+  double st[KL_CAM_STATE_SIZE];
+  (void)step;
+  (void)input;
+  ck_assert_int_eq(kl_cam_follower_state(s, ((state_check *)user)->joint, st),
+                   KL_OK);
+  compare_state(user, st);
+  return 0;
+}
+
+/* A cam joint drives an oscillating follower in a model: read from the
+ * solved model, the arm's angle and its first three derivatives over the
+ * cam angle are the program's (within the pitch-curve spline's error at
+ * 1440 points, growing with each derivative), and so is the pressure
+ * angle. */
+START_TEST(cam_joint_state_is_the_program) {
+  kl_cam *c = swinging_cam();
+  kl_model *m = kl_model_new();
+  kl_solver *s;
+  kl_sweep_result res;
+  state_check k;
+  double p0[KL_CAM_SAMPLE_SIZE], out[KL_CAM_STATE_SIZE], u = 0.0;
+  int cam = kl_add_link(m, "cam"), arm = kl_add_link(m, "arm"), joint;
+  int shaft = kl_add_revolute(m, KL_GROUND, 0, 0, cam, 0, 0);
+  kl_add_revolute(m, KL_GROUND, 80, 0, arm, 0, 0);
+  joint = kl_add_cam(m, shaft, arm, 60, 0, c, 1440, PI);
+  ck_assert_int_eq(joint, 2);
+  ck_assert_int_eq(kl_model_cam_bearing(m, joint), shaft);
+  ck_assert_double_eq(kl_model_cam_limit(m, joint), PI);
+  ck_assert_int_eq(kl_model_curve_count(m, joint), 1440);
+  kl_add_input(m, shaft);
+  /* the arm starts where the program puts the roller at cam angle 0 */
+  kl_cam_sample(c, 0.0, p0);
+  memset(&k, 0, sizeof k);
+  k.cam = c;
+  k.joint = joint;
+  k.rest = atan2(p0[KL_CAM_PITCH_Y], p0[KL_CAM_PITCH_X] - 80);
+  ck_assert_int_eq(kl_model_set_sketch_angle(m, arm, k.rest), KL_OK);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  s = kl_solver_new(m);
+  ck_assert_int_eq(kl_solve_position(s, &u), KL_OK);
+  /* before the jerk is solved there is no state */
+  ck_assert_int_eq(kl_cam_follower_state(s, joint, out), KL_ESTAGE);
+  ck_assert_int_eq(kl_cam_follower_state(s, shaft, out), KL_EKIND);
+  ck_assert_int_eq(kl_cam_follower_state(s, 9, out), KL_EID);
+  ck_assert_int_eq(kl_cam_follower_state(s, joint, NULL), KL_EINVAL);
+  res.size = sizeof res;
+  ck_assert_int_eq(kl_solver_sweep(s, 0, 0.0, 2 * PI, 144, check_state, &k, &res),
+                   KL_OK);
+  ck_assert_int_eq(k.rows, 145);
+  /* measured: 3e-12 rad, 2e-9, 4e-6, 6e-3 (of a peak third derivative
+   * of the 3-4-5 law, 60 h / b^3 = 0.58, from memory), 3e-9 rad */
+  ck_assert_double_le(k.worst[0], 1e-9);
+  ck_assert_double_le(k.worst[1], 1e-7);
+  ck_assert_double_le(k.worst[2], 1e-4);
+  ck_assert_double_le(k.worst[3], 0.02);
+  ck_assert_double_le(k.worst[4], 1e-7);
+  kl_solver_free(s);
+  kl_model_free(m);
+  kl_cam_free(c);
+}
+END_TEST
+
+/* The same cam driven through a drag-link four-bar (ground 15, driving
+ * crank 50, coupler 55, the cam as the driven crank 45: Grashof's
+ * condition with ground the shortest link, so both cranks turn fully), so
+ * that the cam turns at a varying rate: the derivatives over the cam angle,
+ * by the chain rule from the time rates, are still the program's. */
+START_TEST(cam_state_through_a_drag_link_is_the_program) {
+  kl_cam *c = swinging_cam();
+  kl_model *m = kl_model_new();
+  kl_solver *s;
+  kl_sweep_result res;
+  state_check k;
+  double p0[KL_CAM_SAMPLE_SIZE], motion[4], start = 1.5;
+  int cam = kl_add_link(m, "cam"), arm = kl_add_link(m, "arm");
+  int crank = kl_add_link(m, "crank"), coupler = kl_add_link(m, "coupler");
+  int shaft = kl_add_revolute(m, KL_GROUND, 0, 0, cam, 0, 0), joint, motor;
+  kl_add_revolute(m, KL_GROUND, 80, 0, arm, 0, 0);
+  joint = kl_add_cam(m, shaft, arm, 60, 0, c, 1440, PI);
+  motor = kl_add_revolute(m, KL_GROUND, -15, 0, crank, 0, 0);
+  kl_add_revolute(m, crank, 50, 0, coupler, 0, 0);
+  kl_add_revolute(m, coupler, 55, 0, cam, 45, 0);
+  kl_add_input(m, motor);
+  kl_cam_sample(c, 0.0, p0);
+  kl_cam_motion(c, start, motion);
+  memset(&k, 0, sizeof k);
+  k.cam = c;
+  k.joint = joint;
+  k.rest = atan2(p0[KL_CAM_PITCH_Y], p0[KL_CAM_PITCH_X] - 80);
+  /* the crank along +x puts the cam near 1.5 rad (a sketch to start from) */
+  kl_model_set_sketch_angle(m, cam, start);
+  kl_model_set_sketch_angle(m, coupler, 2.19);
+  kl_model_set_sketch_angle(m, arm, k.rest + motion[0]);
+  kl_model_set_sketch_slide(m, joint, 1440 * start / (2 * PI));
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  s = kl_solver_new(m);
+  res.size = sizeof res;
+  ck_assert_int_eq(kl_solver_sweep(s, 0, 0.0, 2 * PI, 144, check_state_driven,
+                                   &k, &res),
+                   KL_OK);
+  ck_assert_int_eq(k.rows, 145);
+  /* measured: 3e-12 rad, 2e-9, 4e-6, 6e-3 (of a peak third derivative
+   * of the 3-4-5 law, 60 h / b^3 = 0.58, from memory), 3e-9 rad */
+  ck_assert_double_le(k.worst[0], 1e-9);
+  ck_assert_double_le(k.worst[1], 1e-7);
+  ck_assert_double_le(k.worst[2], 1e-4);
+  ck_assert_double_le(k.worst[3], 0.02);
+  ck_assert_double_le(k.worst[4], 1e-7);
+  kl_solver_free(s);
+  kl_model_free(m);
+  kl_cam_free(c);
+}
+END_TEST
+
+/* kl_add_cam's refusals: each its status, the model unchanged. */
+START_TEST(add_cam_refuses_and_changes_nothing) {
+  kl_cam *c = swinging_cam(), *copy = kl_cam_new();
+  kl_cam *steep = kl_cam_new();
+  kl_cam_follower f;
+  kl_cam_segment sharp[2] = {{PI / 6, 25.0, KL_LAW_CYCLOIDAL},
+                             {11 * PI / 6, -25.0, KL_LAW_CYCLOIDAL}};
+  kl_model *m = kl_model_new();
+  int cam = kl_add_link(m, "cam"), arm = kl_add_link(m, "arm");
+  int shaft = kl_add_revolute(m, KL_GROUND, 0, 0, cam, 0, 0);
+  int pin = kl_add_revolute(m, cam, 10, 0, arm, 0, 0);
+  kl_cam_follower_init(&f);
+  f.base_radius = 5;
+  f.roller_radius = 30;
+  kl_cam_set_follower(steep, &f);
+  kl_cam_set_program(steep, 2, sharp);
+  ck_assert_int_eq(kl_add_cam(m, pin, arm, 0, 0, c, 360, 1.0), KL_EKIND);
+  ck_assert_int_eq(kl_add_cam(m, 7, arm, 0, 0, c, 360, 1.0), KL_EID);
+  ck_assert_int_eq(kl_add_cam(m, shaft, cam, 0, 0, c, 360, 1.0), KL_ESELFJOINT);
+  ck_assert_int_eq(kl_add_cam(m, shaft, arm, 0, 0, NULL, 360, 1.0), KL_EINVAL);
+  ck_assert_int_eq(kl_add_cam(m, shaft, arm, 0, 0, c, 7, 1.0), KL_EINVAL);
+  ck_assert_int_eq(kl_add_cam(m, shaft, arm, 0, 0, c, 360, 0.0), KL_EINVAL);
+  ck_assert_int_eq(kl_add_cam(m, shaft, arm, 0, 0, c, 360, NAN), KL_ENONFINITE);
+  ck_assert_int_eq(kl_add_cam(m, shaft, arm, 0, 0, steep, 360, PI), KL_EUNDERCUT);
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "undercuts the cam at cam angle"));
+  ck_assert_int_eq(kl_add_cam(m, shaft, arm, 0, 0, c, 360, 0.01), KL_EPRESSURE);
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "above the bound"));
+  ck_assert_int_eq(kl_model_joint_count(m), 2);
+  ck_assert_int_eq(kl_model_cam_bearing(m, shaft), KL_EKIND);
+  ck_assert_int_eq(kl_model_cam_bearing(m, 5), KL_EID);
+  ck_assert(isnan(kl_model_cam_limit(m, shaft)));
+  ck_assert_int_eq(kl_cam_set_from_model(copy, m, shaft), KL_EKIND);
+  ck_assert_int_eq(kl_cam_set_from_model(NULL, m, shaft), KL_EINVAL);
+  kl_model_free(m);
+  kl_cam_free(c);
+  kl_cam_free(copy);
+  kl_cam_free(steep);
+}
+END_TEST
+
+static const char cam_text[] =
+    "kinloop-model 1\n"
+    "units length mm angle rad\n"
+    "link cam\nlink arm\n"
+    "revolute shaft ground 0 0 cam 0 0\n"
+    "revolute pivot ground 80 0 arm 0 0\n"
+    "cam lobe shaft arm 60 0 points 360 oscillating base 30 roller 6 pivot 80 "
+    "0 arm 60 limit 1 program rise poly345 3.141592653589793 0.3 return "
+    "poly345 3.141592653589793 0.3\n"
+    "input shaft\n";
+
+/* The cam statement reads into the cam kl_add_cam builds, and the writer
+ * writes it back to the same text; its errors come at its line. */
+START_TEST(cam_statement_round_trip) {
+  kl_io_error err;
+  kl_model *m, *again;
+  kl_cam *c = swinging_cam(), *back = kl_cam_new();
+  char out1[4096], out2[4096], bad[1024];
+  size_t need;
+  int k;
+  memset(&err, 0, sizeof err);
+  err.size = sizeof err;
+  m = kl_model_read(cam_text, sizeof cam_text - 1, &err);
+  ck_assert_msg(m != NULL, "%s (line %d)", err.message, err.line);
+  ck_assert_int_eq(kl_model_cam_bearing(m, 2), 0);
+  ck_assert_double_eq(kl_model_cam_limit(m, 2), 1.0);
+  ck_assert_int_eq(kl_cam_set_from_model(back, m, 2), KL_OK);
+  for (k = 0; k < 16; k++) {
+    double a[KL_CAM_SAMPLE_SIZE], b[KL_CAM_SAMPLE_SIZE];
+    kl_cam_sample(c, 0.4 * k, a);
+    kl_cam_sample(back, 0.4 * k, b);
+    ck_assert_int_eq(memcmp(a, b, sizeof a), 0);
+  }
+  ck_assert_int_eq(kl_model_write(m, out1, sizeof out1, &need), KL_OK);
+  again = kl_model_read(out1, strlen(out1), &err);
+  ck_assert_msg(again != NULL, "%s (line %d)\n%s", err.message, err.line, out1);
+  ck_assert_int_eq(kl_model_write(again, out2, sizeof out2, &need), KL_OK);
+  ck_assert_str_eq(out1, out2);
+  ck_assert_ptr_nonnull(strstr(out1, "cam lobe shaft arm 60 0 points 360 oscillating base 30 roller 6 pivot 80 0 arm 60 limit 1 program rise poly345 3.1415926535897931 0.29999999999999999 return poly345"));
+  kl_model_free(again);
+  kl_model_free(m);
+  /* each bad statement: its status, at line 7 */
+  {
+    static const struct {
+      const char *from, *to;
+      int status;
+    } cases[] = {
+        {"rise poly345", "rise poly346", KL_ESYNTAX},
+        {"base 30", "base 0", KL_ERADIUS},
+        {"rise poly345 3.141592653589793 0.3 return poly345 "
+         "3.141592653589793 0.3",
+         "rise cycloidal 0.3 0.5 return cycloidal 5.983185307179586 0.5",
+         KL_EUNDERCUT},
+        {"limit 1", "limit 0.05", KL_EPRESSURE},
+        {"points 360", "points 4", KL_EINVAL},
+        {"return poly345 3.141592653589793", "return poly345 3", KL_ESYNTAX},
+        {"shaft arm 60", "pivot arm 60", KL_ESELFJOINT}};
+    size_t i;
+    for (i = 0; i < sizeof cases / sizeof cases[0]; i++) {
+      const char *at = strstr(cam_text, cases[i].from);
+      size_t head = (size_t)(at - cam_text);
+      snprintf(bad, sizeof bad, "%.*s%s%s", (int)head, cam_text, cases[i].to,
+               at + strlen(cases[i].from));
+      ck_assert_ptr_null(kl_model_read(bad, strlen(bad), &err));
+      ck_assert_msg(err.status == cases[i].status && err.line == 7,
+                    "case %d: status %d line %d: %s", (int)i, err.status,
+                    err.line, err.message);
+    }
+  }
+  kl_cam_free(c);
+  kl_cam_free(back);
+}
+END_TEST
+
+/* Every allocation of reading a cam statement may fail: KL_ENOMEM, no
+ * leak (the fault-injecting allocator of support.c). */
+START_TEST(cam_statement_survives_every_failed_allocation) {
+  long n;
+  for (n = 1;; n++) {
+    counting_alloc c;
+    kl_model *read;
+    kl_io_error err;
+    memset(&c, 0, sizeof c);
+    memset(&err, 0, sizeof err);
+    err.size = sizeof err;
+    c.fail_at = n;
+    read = kl_model_read_with_alloc(cam_text, sizeof cam_text - 1,
+                                    counting_alloc_fn, &c, &err);
+    if (read == NULL)
+      ck_assert_int_eq(err.status, KL_ENOMEM);
+    kl_model_free(read);
+    ck_assert_int_eq(c.live, 0);
+    if (read != NULL)
+      break;
+  }
+}
+END_TEST
+
 int main(void) {
   Suite *suite = suite_create("cam");
   TCase *tc = tcase_create("cam");
@@ -254,6 +571,11 @@ int main(void) {
   tcase_add_test(tc, outline_drives_a_follower_in_a_model);
   tcase_add_test(tc, undercut_and_pressure_are_reported_with_the_angle);
   tcase_add_test(tc, bad_cams_are_refused_and_change_nothing);
+  tcase_add_test(tc, cam_joint_state_is_the_program);
+  tcase_add_test(tc, cam_state_through_a_drag_link_is_the_program);
+  tcase_add_test(tc, add_cam_refuses_and_changes_nothing);
+  tcase_add_test(tc, cam_statement_round_trip);
+  tcase_add_test(tc, cam_statement_survives_every_failed_allocation);
   suite_add_tcase(suite, tc);
   return run_suite(suite);
 }

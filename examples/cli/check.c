@@ -234,6 +234,67 @@ static void at_pair(const cli_model *cm, int input, double a, double b,
            a * k, b * k, cli_input_unit(cm, input));
 }
 
+/* The pressure angle of a cam over a sweep (kl_cam_follower_state). */
+typedef struct {
+  int joint, status;
+  double min, max, worst, worst_at;
+} cam_sink;
+
+static int cam_row(const kl_solver *s, int step, double input, void *user) {
+  cam_sink *c = user;
+  double state[KL_CAM_STATE_SIZE], p;
+  (void)step;
+  if ((c->status = kl_cam_follower_state(s, c->joint, state)) != KL_OK)
+    return 1;
+  p = state[KL_CAM_STATE_PRESSURE];
+  c->min = fmin(c->min, p);
+  c->max = fmax(c->max, p);
+  if (fabs(p) > c->worst) {
+    c->worst = fabs(p);
+    c->worst_at = input;
+  }
+  return 0;
+}
+
+/* Each cam line's follower pressure angle over the range (at least 360
+ * steps: a cam's largest pressure angle is narrow), from `base`'s state. */
+static void print_cams(FILE *f, const cli_model *cm, const kl_solver *base,
+                       kl_solver *work, const cli_range *r) {
+  double k = cm->angle_factor;
+  int j;
+  for (j = 0; j < cm->njoints; j++) {
+    int bearing = kl_model_cam_bearing(cm->model, j);
+    double limit = kl_model_cam_limit(cm->model, j);
+    kl_sweep_result res;
+    cam_sink c;
+    char at[320];
+    if (bearing < 0)
+      continue;
+    memset(&c, 0, sizeof c);
+    c.joint = j;
+    c.min = INFINITY;
+    c.max = -INFINITY;
+    kl_solver_copy_state(work, base);
+    res.size = sizeof res;
+    kl_solver_sweep(work, r->input, r->from, r->to,
+                    r->steps < 360 ? 360 : r->steps, cam_row, &c, &res);
+    if (c.status != KL_OK || !isfinite(c.min)) {
+      fprintf(f, LABEL "cam on %s: its follower has no guide with ground; "
+                       "its pressure angle is not measured\n",
+              cm->joint_names[j], cm->joint_names[bearing]);
+      continue;
+    }
+    cli_format_input(cm, r->input, c.worst_at, at, sizeof at);
+    fprintf(f, LABEL "cam on %s: follower pressure angle %.4g to %.4g %s, "
+                     "largest at %s",
+            cm->joint_names[j], cm->joint_names[bearing], c.min * k,
+            c.max * k, cm->angle_unit, at);
+    if (limit < CLI_PI)
+      fprintf(f, " (bound %.4g %s)", limit * k, cm->angle_unit);
+    fputc('\n', f);
+  }
+}
+
 static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
                          kl_solver *work, const cli_range *r,
                          const kl_sweep_result *res, warnings *w) {
@@ -344,6 +405,9 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     double usual = 90.0 - CLI_USUAL_LOW_DEG;
     int low = -range->min > range->max; /* the larger magnitude */
     double worst = low ? -range->min : range->max;
+    /* a cam's pressure angle is its follower's (print_cams), not a rod's */
+    if (kl_model_cam_bearing(cm->model, site->id) >= 0)
+      continue;
     cli_format_input(cm, r->input,
                      low ? range->input_at_min : range->input_at_max, hi,
                      sizeof hi);
@@ -367,6 +431,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
   free(outs);
   free(pressure);
   free(ranges);
+  print_cams(f, cm, base, work, r);
   for (i = 0; i < cm->nskips; i++) {
     const kl_transmission_skip *u = &cm->skips[i];
     if (u->reason == KL_TRANSMISSION_SKIP_INPUT_CRANK)

@@ -38,6 +38,7 @@ enum cli_command {
   CLI_FORCES,
   CLI_REACH,
   CLI_TIMELINE,
+  CLI_FOLLOWER,
   CLI_NCOMMANDS
 };
 
@@ -81,6 +82,7 @@ typedef struct {
   int have_rpm;         /* sweep, forces: the speed in turns a minute */
   double rpm;
   const char *profile; /* timeline: profile statements, ';' between them */
+  const char *cam;     /* follower: the cam's joint, name or number */
 } cli_options;
 
 typedef struct {
@@ -267,6 +269,10 @@ void cli_csv_field(FILE *f, const char *text);
 /* ---- timeline.c: the model's motion profile in time ---- */
 extern const char cli_timeline_help[];
 int cli_cmd_timeline(const cli_model *cm, const cli_options *o);
+
+/* ---- follower.c: a cam follower's motion over the cam angle ---- */
+extern const char cli_follower_help[];
+int cli_cmd_follower(const cli_model *cm, const cli_options *o);
 
 /* ---- write.c ---- */
 int cli_cmd_write(const cli_model *cm, const cli_options *o);

@@ -432,6 +432,70 @@ static void draw_channel(FILE *f, const cli_model *cm, const pose *q, int k,
   }
 }
 
+/* A cam (a 'cam' line): its surface as a plate on the cam link, the pitch
+ * curve the roller centre runs along as a thin dashed line, and the roller
+ * about the pin. Returns 0, or -1 (nothing drawn) when memory runs out. */
+static int draw_cam(FILE *f, const cli_model *cm, const pose *q, int k,
+                    double u) {
+  enum { SAMPLES = 360 };
+  int joint = cm->slides[k], bearing, links[2], pass, i;
+  double centre[2], at_zero[KL_CAM_SAMPLE_SIZE], roller, pin[2];
+  double *surface = malloc(2 * SAMPLES * sizeof *surface);
+  const double *rail = q->rail + 4 * k;
+  kl_cam *cam = kl_cam_new();
+  bearing = kl_model_cam_bearing(cm->model, joint);
+  kl_model_joint_links(cm->model, joint, links, NULL, NULL);
+  if (surface == NULL || cam == NULL ||
+      kl_cam_set_from_model(cam, cm->model, joint) != KL_OK) {
+    free(surface);
+    kl_cam_free(cam);
+    return -1;
+  }
+  /* the cam's centre is the bearing's point on the cam link */
+  {
+    int bl[2];
+    double ba[2], bb[2];
+    kl_model_joint_links(cm->model, bearing, bl, ba, bb);
+    memcpy(centre, bl[0] == links[0] ? ba : bb, sizeof centre);
+  }
+  kl_cam_outline(cam, SAMPLES, NULL, surface);
+  kl_cam_sample(cam, 0.0, at_zero);
+  roller = hypot(at_zero[KL_CAM_PITCH_X] - at_zero[KL_CAM_SURFACE_X],
+                 at_zero[KL_CAM_PITCH_Y] - at_zero[KL_CAM_SURFACE_Y]);
+  fprintf(f, "<polygon class=\"cam\" points=\"");
+  for (i = 0; i < SAMPLES; i++) {
+    double x = centre[0] + surface[2 * i], y = centre[1] + surface[2 * i + 1],
+           xy[2];
+    xy[0] = rail[0] + rail[2] * x - rail[3] * y;
+    xy[1] = rail[1] + rail[3] * x + rail[2] * y;
+    put_xy(f, xy);
+  }
+  fprintf(f,
+          "\" fill=\"#e6dcc8\" stroke=\"%s\" stroke-width=\"%.9g\" "
+          "stroke-linejoin=\"round\"/>\n",
+          SVG_INK, 0.3 * u);
+  fprintf(f, "<polyline class=\"pitch\" points=\"");
+  for (pass = 0; pass <= SAMPLES; pass++) {
+    double xy[2];
+    rail_point(cm, q, k, (double)kl_model_curve_count(cm->model, joint) *
+                             pass / SAMPLES,
+               xy, NULL);
+    put_xy(f, xy);
+  }
+  fprintf(f,
+          "\" fill=\"none\" stroke=\"%s\" stroke-width=\"%.9g\" "
+          "stroke-dasharray=\"1.2,0.8\"/>\n",
+          SVG_MUTED, 0.15 * u);
+  rail_point(cm, q, k, q->slide[joint], pin, NULL);
+  fprintf(f,
+          "<circle class=\"roller\" cx=\"%.9g\" cy=\"%.9g\" r=\"%.9g\" "
+          "fill=\"#fffdf7\" stroke=\"%s\" stroke-width=\"%.9g\"/>\n",
+          pin[0], pin[1], roller, SVG_INK, 0.3 * u);
+  free(surface);
+  kl_cam_free(cam);
+  return 0;
+}
+
 /* Draws a guide line; a rail on ground gets hatching on the side away
  * from `centre`, where the linkage is not. */
 static void draw_rail(FILE *f, const cli_model *cm, const pose *q,
@@ -439,6 +503,13 @@ static void draw_rail(FILE *f, const cli_model *cm, const pose *q,
                       int on_ground, const double centre[2]) {
   double p0[2], p1[2], dx, dy, len, nx, ny;
   int k, marks;
+  if (kl_model_cam_bearing(cm->model, cm->slides[slide_index]) >= 0) {
+    if (draw_cam(f, cm, q, slide_index, u) == 0)
+      return;
+    cli_error("out of memory: the cam at %s is drawn as its pitch curve "
+              "only",
+              cm->joint_names[cm->slides[slide_index]]);
+  }
   if (is_curved(cm, cm->slides[slide_index])) {
     draw_channel(f, cm, q, slide_index, lo, hi, u);
     return;

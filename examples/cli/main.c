@@ -21,7 +21,7 @@ void cli_error(const char *fmt, ...) {
 
 static const char *const command_names[CLI_NCOMMANDS] = {
     "check", "solve", "sweep", "draw", "plot", "write", "demo", "study",
-    "forces", "reach", "timeline"};
+    "forces", "reach", "timeline", "follower"};
 
 static const char general_usage[] =
     "kinloop %s - position, velocity and acceleration of planar linkages\n"
@@ -50,6 +50,8 @@ static const char general_usage[] =
     "          its boundary and singular curves, traced, and its area\n"
     "  timeline  the model's motion profile in time: every quantity with its\n"
     "          rate, acceleration and jerk per second, as CSV\n"
+    "  follower  a cam follower's rise, its derivatives and the pressure angle\n"
+    "          over the cam angle, from the whole model: CSV and SVG charts\n"
     "\n"
     "MODEL is a model file (docs/model-format.md); every command but demo needs\n"
     "one (kinloop demo writes the built-in demo's, a carton flap-tucking\n"
@@ -281,7 +283,9 @@ static const char *const command_help[CLI_NCOMMANDS] = {
     "A model without exactly two turning inputs, or a point on ground, exits\n"
     "with 3; one that assembles nowhere on the grid with 4.\n",
     /* timeline */
-    cli_timeline_help};
+    cli_timeline_help,
+    /* follower */
+    cli_follower_help};
 
 enum {
   OPT_OUTPUT,
@@ -311,13 +315,14 @@ enum {
   OPT_POSE,
   OPT_RPM,
   OPT_PROFILE,
+  OPT_CAM,
   OPT_HELP
 };
 
 #define BIT(c) (1u << (c))
 #define RANGE_CMDS                                                             \
   (BIT(CLI_CHECK) | BIT(CLI_SWEEP) | BIT(CLI_DRAW) | BIT(CLI_PLOT) |           \
-   BIT(CLI_FORCES))
+   BIT(CLI_FORCES) | BIT(CLI_FOLLOWER))
 
 static const struct {
   const char *name;
@@ -344,7 +349,8 @@ static const struct {
     {"dir", 0, 1, BIT(CLI_DEMO)},
     {"threads", 0, 1, BIT(CLI_STUDY)},
     {"csv", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES)},
-    {"charts", 0, 1, BIT(CLI_STUDY) | BIT(CLI_FORCES) | BIT(CLI_TIMELINE)},
+    {"charts", 0, 1,
+     BIT(CLI_STUDY) | BIT(CLI_FORCES) | BIT(CLI_TIMELINE) | BIT(CLI_FOLLOWER)},
     {"fluctuation", 0, 1, BIT(CLI_FORCES)},
     {"forces", 0, 0, BIT(CLI_SWEEP)},
     {"point", 0, 1, BIT(CLI_REACH)},
@@ -355,6 +361,7 @@ static const struct {
     {"pose", 0, 1, BIT(CLI_DRAW)},
     {"rpm", 0, 1, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},
     {"profile", 0, 1, BIT(CLI_TIMELINE)},
+    {"cam", 0, 1, BIT(CLI_FOLLOWER)},
     {"help", 'h', 0, ~0u},
 };
 #define NOPTIONS ((int)(sizeof option_specs / sizeof option_specs[0]))
@@ -489,6 +496,9 @@ static int store_option(cli_options *o, int which, const char *value) {
     break;
   case OPT_PROFILE:
     o->profile = value;
+    break;
+  case OPT_CAM:
+    o->cam = value;
     break;
   case OPT_ALL_DIGITS:
     o->all_digits = 1;
@@ -642,6 +652,9 @@ static int run(cli_options *o) {
     break;
   case CLI_TIMELINE:
     st = cli_cmd_timeline(&cm, o);
+    break;
+  case CLI_FOLLOWER:
+    st = cli_cmd_follower(&cm, o);
     break;
   default:
     st = cli_cmd_demo(&cm, o);
