@@ -200,6 +200,26 @@ void kli_plan_jacobian(const kli_plan *p, const kli_pose *pose,
   }
 }
 
+void kli_plan_load_small(const kli_plan *p, const kli_pose *pose,
+                         kli_dense *d) {
+  int k;
+  for (k = 0; k < p->nmoving; k++) {
+    const kli_flat_term *t = &p->terms[k];
+    if (t->pair >= 0)
+      d->a[d->a_at[2 * t->pair]] = d->a[d->a_at[2 * t->pair + 1]] = 0.0;
+  }
+  for (k = 0; k < p->nmoving; k++) {
+    const kli_flat_term *t = &p->terms[k];
+    double r[2];
+    if (t->pair < 0)
+      continue;
+    rotated(t, pose, r);
+    d->a[d->a_at[2 * t->pair]] -= r[1];
+    d->a[d->a_at[2 * t->pair + 1]] += r[0];
+  }
+  kli_dense_loaded(d);
+}
+
 void kli_plan_input_terms(const kli_plan *p, const kli_pose *pose,
                           const double *w, double *out) {
   int k;

@@ -9,6 +9,7 @@
 #ifndef KINLOOP_PLAN_H
 #define KINLOOP_PLAN_H
 
+#include "dense.h"
 #include "equations.h"
 #include "memory.h"
 
@@ -73,6 +74,10 @@ double kli_plan_residual(const kli_plan *p, kli_pose *pose, const double *base,
 /* Jacobian values dF/dq at pose (its trig current), two per nonzero pair,
  * as kli_jacobian_pairs gives them. */
 void kli_plan_jacobian(const kli_plan *p, const kli_pose *pose, double *pairs);
+/* The same values written straight into the small kernel's matrix
+ * (every column an angle's, so unscaled), with its 1-norm. */
+void kli_plan_load_small(const kli_plan *p, const kli_pose *pose,
+                         kli_dense *d);
 /* (dF/dx) G w over every loop: the loop-rate terms of input rates w. */
 void kli_plan_input_terms(const kli_plan *p, const kli_pose *pose,
                           const double *w, double *out);

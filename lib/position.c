@@ -99,6 +99,10 @@ static void start_poses(kl_solver *s) {
 
 int kli_factor_at(kl_solver *s, const kli_pose *p) {
   const kl_model *m = s->model;
+  if (s->plan.usable && s->dense.kernel == KL_KERNEL_SMALL) {
+    kli_plan_load_small(&s->plan, p, &s->dense);
+    return kli_dense_factor(&s->dense);
+  }
   if (s->plan.usable)
     kli_plan_jacobian(&s->plan, p, s->pairs);
   else
