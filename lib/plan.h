@@ -4,7 +4,7 @@
  * couplings, sliding joints, point inputs or dropped rows). Worked out once when a solver is created, it
  * evaluates the residual, the Jacobian and the rate stages' terms from flat
  * lists, without the vector chains' per-term dispatch; every other model
- * keeps the general code of equations.c (docs/theory.md 5.7).
+ * keeps the general code of equations.c (docs/theory.md 5.10).
  */
 #ifndef KINLOOP_PLAN_H
 #define KINLOOP_PLAN_H
