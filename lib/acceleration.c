@@ -20,7 +20,7 @@ int kl_solve_acceleration(kl_solver *s, const double *input_accels) {
                     "solve acceleration needs the velocity solved at the "
                     "current position first");
   kli_input_terms(s, input_accels, s->rhs);
-  kli_loops_add_second(s->model, &s->st.pose, s->st.xd, s->st.xd, s->rhs);
+  kli_add_second(s, s->st.xd, s->st.xd, s->rhs);
   kli_rate_solve(s, s->rhs, input_accels, s->st.xdd);
   if (s->ninputs > 0)
     memcpy(s->st.udd, input_accels, (size_t)s->ninputs * sizeof(double));

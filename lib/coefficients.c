@@ -33,8 +33,7 @@ int kl_solve_coefficients(kl_solver *s) {
   for (i = 0; i < s->ninputs; i++)
     for (j = i; j < s->ninputs; j++) {
       memset(s->rhs, 0, (size_t)s->nrows * sizeof(double));
-      kli_loops_add_second(s->model, &s->st.pose, first_order(s, i),
-                           first_order(s, j), s->rhs);
+      kli_add_second(s, first_order(s, i), first_order(s, j), s->rhs);
       kli_rate_solve(s, s->rhs, NULL, second_order(s, i, j));
       if (j != i)
         memcpy(second_order(s, j, i), second_order(s, i, j),

@@ -123,6 +123,18 @@ void kli_dense_load(kli_dense *d, const double *values) {
       d->anorm = colsum[k];
 }
 
+void kli_dense_loaded(kli_dense *d) {
+  int i, j, n = d->p.n;
+  d->anorm = 0.0;
+  for (j = 0; j < n; j++) {
+    double sum = 0.0;
+    for (i = 0; i < n; i++)
+      sum += fabs(d->a[(size_t)j * (size_t)n + (size_t)i]);
+    if (sum > d->anorm)
+      d->anorm = sum;
+  }
+}
+
 /* ---- the small kernel: LU with partial pivoting, as dgetrf does it ---- */
 
 /* The 2 x 2 case unrolled (four-bars and slider-cranks): the same partial

@@ -68,6 +68,10 @@ void kli_dense_use(kli_dense *d, int kernel);
  * into A D as the kernel in use factors it: the n x n matrix, the band, or
  * both for a system with damped steps. */
 void kli_dense_load(kli_dense *d, const double *values);
+/* After a caller wrote the matrix A D into d->a itself, on the pattern's
+ * places (a_at) only and for the small kernel: takes its 1-norm, as
+ * kli_dense_load does. */
+void kli_dense_loaded(kli_dense *d);
 /* LU-factors the loaded matrix; 0, or 1 if a pivot is exactly zero. */
 int kli_dense_factor(kli_dense *d);
 /* Reciprocal condition number (1-norm) of the factored, scaled matrix:

@@ -9,6 +9,7 @@
 #include "describe.h"
 #include "position.h"
 #include "slots.h"
+#include "velocity.h"
 
 /* Sufficient decrease of 0.5 |F|^2 asked of each step (Armijo). */
 #define KLI_ARMIJO 1e-4
@@ -66,13 +67,15 @@ static double half_square(const double *f, int n) {
 static double evaluate(kl_solver *s, kli_pose *p, const double *q, double *f) {
   double norm;
   int i;
+  s->stats.residual_evaluations++;
+  if (s->plan.usable)
+    return kli_plan_residual(&s->plan, p, s->x_base, q, f);
   /* the other coordinates are the inputs' share, set by start_poses */
   for (i = 0; i < s->nmoving; i++) {
     int c = s->moving_coord[i];
     p->x[c] = s->x_base[c] + q[s->moving_var[i]];
   }
   kli_pose_trig(s->model, p);
-  s->stats.residual_evaluations++;
   norm = kli_residual(s->model, p, f);
   if (s->model->topo.redundancy == 0)
     return norm;
@@ -85,16 +88,26 @@ static double evaluate(kl_solver *s, kli_pose *p, const double *q, double *f) {
 }
 
 /* Both trial poses take the inputs' share s->x_base whole, once per solve,
- * so that each evaluation writes only the unknowns' coordinates. */
+ * so that each evaluation writes only the unknowns' coordinates; with the
+ * plan, also the trig of the links no unknown turns and their terms' sum. */
 static void start_poses(kl_solver *s) {
   size_t bytes = (size_t)s->ncoords * sizeof(double);
   memcpy(s->trial[0].x, s->x_base, bytes);
   memcpy(s->trial[1].x, s->x_base, bytes);
+  if (s->plan.usable)
+    kli_plan_start(&s->plan, &s->trial[0], &s->trial[1]);
 }
 
 int kli_factor_at(kl_solver *s, const kli_pose *p) {
   const kl_model *m = s->model;
-  kli_jacobian_pairs(m, p, s->pairs);
+  if (s->plan.usable && s->dense.kernel == KL_KERNEL_SMALL) {
+    kli_plan_load_small(&s->plan, p, &s->dense);
+    return kli_dense_factor(&s->dense);
+  }
+  if (s->plan.usable)
+    kli_plan_jacobian(&s->plan, p, s->pairs);
+  else
+    kli_jacobian_pairs(m, p, s->pairs);
   if (m->topo.redundancy > 0) {
     kli_keep_pairs(m, s->dir, s->pairs, s->kept_values);
     kli_dense_load(&s->dense, s->kept_values);
@@ -154,7 +167,7 @@ static void predict_from_tangent(kl_solver *s, double *q) {
   }
   if (!moved || s->n == 0)
     return;
-  kli_input_terms_at(s->model, &s->st.pose, s->u_unit, s->xv, s->rhs);
+  kli_input_terms(s, s->u_unit, s->rhs);
   kli_keep_rows(s->model, s->dir, s->rhs);
   for (i = 0; i < s->n; i++)
     s->rhs[i] = -s->rhs[i];
@@ -337,6 +350,8 @@ static int check_slot_ends(kl_solver *s, const kli_pose *p) {
   const kl_model *m = s->model;
   int j;
   char lj[160], in[200];
+  if (s->plan.usable)
+    return KL_OK; /* no joint of the plan's models slides */
   for (j = 0; j < m->njoints; j++) {
     double t = p->x[m->nlinks + j];
     if (kli_is_sliding(m->joints[j].kind) &&
@@ -390,7 +405,10 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   it.f_next = s->f_next;
   kli_gather(s->model, s->st.pose.x, it.q);
   predict_from_tangent(s, it.q);
-  kli_expand_inputs(s->model, s->u_trial, s->x_base);
+  if (s->plan.usable)
+    kli_plan_expand(&s->plan, NULL, s->u_trial, s->x_base);
+  else
+    kli_expand_inputs(s->model, s->u_trial, s->x_base);
   start_poses(s);
   if (s->model->topo.redundancy > 0) {
     kli_add_unknowns(s->model, s->x_base, it.q, it.cur->x);

@@ -133,6 +133,7 @@ static kl_solver *carve_solver(const kl_model *m, kli_carver *c) {
   p.band_upper = top->band_upper;
   p.damped = 1;
   kli_dense_carve(&t->dense, c, &p);
+  kli_plan_carve(&t->plan, c, m);
   /* the force system: single entries only, no damped steps */
   p.n = fp->n;
   p.npairs = 0;
@@ -231,6 +232,8 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
       s->moving_coord[s->nmoving] = i;
       s->moving_var[s->nmoving++] = m->topo.coord_var[i];
     }
+  kli_plan_build(&s->plan, m, s->moving_coord, s->moving_var, s->nmoving,
+                 s->xv, s->u_unit);
   /* slide columns of the Jacobian are unitless: scale them to lengths */
   for (i = 0; i < s->n; i++)
     s->rhs[i] = m->topo.var_coord[i] < m->nlinks ? 1.0 : m->topo.scale;

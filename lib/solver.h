@@ -7,6 +7,7 @@
 
 #include "dense.h"
 #include "equations.h"
+#include "plan.h"
 
 /* What the force stage finds: per joint the force a exerts on b (2) and
  * the moment about b's attachment point (1), per input its effort, and
@@ -97,6 +98,7 @@ struct kl_solver {
   double *time_efforts;   /* ninputs: the efforts at one such time */
   double *modes;          /* KLI_MAX_MODES x n: assembly modes found */
   kli_dense dense;
+  kli_plan plan;          /* the flat evaluation plan, when the model fits */
 
   /* The force stage: its system (factored at the coordinates force_at,
    * reused while the position stays), values and right side; the motion

@@ -8,7 +8,18 @@
 #include "velocity.h"
 
 void kli_input_terms(kl_solver *s, const double *w, double *rhs) {
-  kli_input_terms_at(s->model, &s->st.pose, w, s->xv, rhs);
+  if (s->plan.usable)
+    kli_plan_input_terms(&s->plan, &s->st.pose, w, rhs);
+  else
+    kli_input_terms_at(s->model, &s->st.pose, w, s->xv, rhs);
+}
+
+void kli_add_second(kl_solver *s, const double *va, const double *vb,
+                    double *rhs) {
+  if (s->plan.usable)
+    kli_plan_add_second(&s->plan, &s->st.pose, va, vb, rhs);
+  else
+    kli_loops_add_second(s->model, &s->st.pose, va, vb, rhs);
 }
 
 void kli_rate_solve(kl_solver *s, double *rhs, const double *w, double *out) {
@@ -17,7 +28,10 @@ void kli_rate_solve(kl_solver *s, double *rhs, const double *w, double *out) {
   for (i = 0; i < s->n; i++)
     rhs[i] = -rhs[i];
   kli_dense_solve(&s->dense, rhs);
-  kli_expand(s->model, rhs, w, out);
+  if (s->plan.usable)
+    kli_plan_expand(&s->plan, rhs, w, out);
+  else
+    kli_expand(s->model, rhs, w, out);
 }
 
 int kl_solve_velocity(kl_solver *s, const double *input_rates) {

@@ -336,6 +336,64 @@ START_TEST(rates_agree_with_closed_form_to_1e_12) {
 }
 END_TEST
 
+/*
+ * The flat evaluation plan (lib/plan.c) serves models of revolute loops
+ * only; the same four-bar beside a driven slider, whose sliding joint
+ * keeps the model on the general code, must give the same positions,
+ * rates and accelerations to rounding, and both Freudenstein's closed
+ * form (support.c) to 1e-12 rad.
+ */
+START_TEST(flat_plan_agrees_with_general_code) {
+  fourbar plain = build_fourbar(40, 120, 80, 100);
+  fourbar mixed = build_fourbar_open(40, 120, 80, 100);
+  int slider = kl_add_link(mixed.m, "slider"), k, r;
+  int slide = kl_add_prismatic(mixed.m, KL_GROUND, 0, -50, 0.0, slider, 0, 0);
+  kl_solver *s[2];
+  double worst = 0.0, closed = 0.0, t3, t4;
+  int branch = +1;
+  ck_assert_int_ge(slide, 0);
+  ck_assert_int_eq(kl_add_input(mixed.m, slide), 1);
+  ck_assert_int_eq(kl_model_finalize(mixed.m), KL_OK);
+  s[0] = kl_solver_new(plain.m);
+  s[1] = kl_solver_new(mixed.m);
+  sketch_fourbar(s[0], &plain);
+  sketch_fourbar(s[1], &mixed);
+  /* the sketch's assembly mode: the closed form's branch at the start */
+  ck_assert_int_eq(kl_solve_position(s[0], (double[]){0.0}), KL_OK);
+  ck_assert(freudenstein(&plain, 0.0, branch, &t3, &t4));
+  if (fabs(angle_diff(kl_link_angle(s[0], plain.rocker), t4)) > 1e-6)
+    branch = -1;
+  for (k = 0; k < 720; k++) {
+    double u[2] = {k * PI / 360, 3.0 + k * 0.01}, ud[2] = {1.3, 0.5};
+    double udd[2] = {-0.7, 0.0};
+    const int links[2] = {plain.coupler, plain.rocker};
+    for (r = 0; r < 2; r++) {
+      ck_assert_int_eq(kl_solve_position(s[r], u), KL_OK);
+      ck_assert_int_eq(kl_solve_velocity(s[r], ud), KL_OK);
+      ck_assert_int_eq(kl_solve_acceleration(s[r], udd), KL_OK);
+    }
+    for (r = 0; r < 2; r++) {
+      worst = fmax(worst, fabs(angle_diff(kl_link_angle(s[0], links[r]),
+                                          kl_link_angle(s[1], links[r]))));
+      worst = fmax(worst, rel_diff(kl_link_rate(s[0], links[r]),
+                                   kl_link_rate(s[1], links[r]), 1.0));
+      worst = fmax(worst, rel_diff(kl_link_accel(s[0], links[r]),
+                                   kl_link_accel(s[1], links[r]), 1.0));
+    }
+    ck_assert(freudenstein(&plain, u[0], branch, &t3, &t4));
+    closed = fmax(closed, fabs(angle_diff(kl_link_angle(s[0], plain.coupler), t3)));
+    closed = fmax(closed, fabs(angle_diff(kl_link_angle(s[0], plain.rocker), t4)));
+    ck_assert(fabs(kl_joint_slide(s[1], slide) - u[1]) <= 1e-12);
+  }
+  ck_assert_msg(worst <= 1e-12, "plan and general code differ by %.2e", worst);
+  ck_assert_msg(closed <= 1e-12, "plan off the closed form by %.2e", closed);
+  kl_solver_free(s[0]);
+  kl_solver_free(s[1]);
+  kl_model_free(plain.m);
+  kl_model_free(mixed.m);
+}
+END_TEST
+
 /* AUTO chooses by size and structure; forcing and reading back works. */
 START_TEST(auto_chooses_by_size_and_band) {
   fourbar f = build_fourbar(40, 120, 80, 100);
@@ -371,6 +429,7 @@ int main(void) {
   tcase_add_test(tc, one_input_mechanisms_agree_across_kernels);
   tcase_add_test(tc, fivebar_and_chains_agree_across_kernels);
   tcase_add_test(tc, rates_agree_with_closed_form_to_1e_12);
+  tcase_add_test(tc, flat_plan_agrees_with_general_code);
   tcase_add_test(tc, auto_chooses_by_size_and_band);
   tcase_add_test(tc, rcond_of_the_fourbar_is_exact_or_a_lower_bound);
   tcase_add_test(tc, rcond_of_a_chain_never_exceeds_the_exact_one);
