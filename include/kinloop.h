@@ -1889,7 +1889,8 @@ enum kl_transmission_skip_reason {
 /**
  * The model's pressure-angle sites, chosen once at finalize by the walk of
  * kl_model_transmissions: each prismatic or slot joint that is not an input
- * and has, next to it in a loop's walk, a revolute joint (the pin) whose
+ * nor a cam joint (kl_add_cam: its pressure angle is the follower's, from
+ * kl_cam_follower_state) and has, next to it in a loop's walk, a revolute joint (the pin) whose
  * other link goes on to a further joint of the walk (the rod's line), where
  * the loops first meet it. Writes up to `cap` outputs of kind
  * KL_OUTPUT_PRESSURE into `sites` (may be NULL when cap is 0) and returns

@@ -197,7 +197,7 @@ static int rigid_triangle(const kl_model *m, int a, int b, int *link_mark) {
 
 /*
  * The pressure-angle sites: walking the loops in order, each sliding joint
- * that is no input, where a loop first meets it with a revolute neighbour
+ * that is no input and no cam joint, where a loop first meets it with a revolute neighbour
  * (the pin) off ground on the slider's side, and past the pin a further
  * joint at some distance on the pin's other link (the rod). The pin is
  * then passed over as a transmission-angle site (marked done).
@@ -212,7 +212,10 @@ static void find_pressure_sites(const kl_model *m, kli_topology *t,
     const int *walk = t->loop_joints + first, *after = t->loop_links + first;
     for (k = 0; k < n && n >= 3; k++) {
       int slide = walk[k];
-      if (!kli_is_sliding(m->joints[slide].kind) || mark[slide] != KLI_PLAIN)
+      /* a cam joint's pressure angle is its follower's, from the cam's
+       * pitch curve (kl_cam_follower_state), not a rod's against a guide */
+      if (!kli_is_sliding(m->joints[slide].kind) || mark[slide] != KLI_PLAIN ||
+          m->joints[slide].cam != NULL)
         continue;
       /* way +1: the pin after the slide in the walk, -1: before it; the
        * link between slide and pin is the slider, the next one the rod */

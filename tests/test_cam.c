@@ -474,6 +474,29 @@ static const char cam_text[] =
     "poly345 3.141592653589793 0.3\n"
     "input shaft\n";
 
+/* A cam joint is no pressure-angle site of the rod-and-guide kind: its
+ * pressure angle is the follower's (kl_cam_follower_state), and the angle
+ * from the cam joint's slide direction to a neighbouring link says nothing
+ * (common practice, no source: the pressure angle of a cam is measured
+ * between the follower's path and the pitch curve's normal). */
+START_TEST(cam_joint_is_no_rod_pressure_site) {
+  kl_io_error err;
+  kl_model *m;
+  kl_output sites[8];
+  int n, i;
+  memset(&err, 0, sizeof err);
+  err.size = sizeof err;
+  m = kl_model_read(cam_text, sizeof cam_text - 1, &err);
+  ck_assert_msg(m != NULL, "%s (line %d)", err.message, err.line);
+  ck_assert_int_eq(kl_model_cam_bearing(m, 2), 0);
+  n = kl_model_pressure_sites(m, sites, 8);
+  ck_assert_int_ge(n, 0);
+  for (i = 0; i < n && i < 8; i++)
+    ck_assert_int_ne(sites[i].id, 2);
+  kl_model_free(m);
+}
+END_TEST
+
 /* The cam statement reads into the cam kl_add_cam builds, and the writer
  * writes it back to the same text; its errors come at its line. */
 START_TEST(cam_statement_round_trip) {
@@ -575,6 +598,7 @@ int main(void) {
   tcase_add_test(tc, cam_state_through_a_drag_link_is_the_program);
   tcase_add_test(tc, add_cam_refuses_and_changes_nothing);
   tcase_add_test(tc, cam_statement_round_trip);
+  tcase_add_test(tc, cam_joint_is_no_rod_pressure_site);
   tcase_add_test(tc, cam_statement_survives_every_failed_allocation);
   suite_add_tcase(suite, tc);
   return run_suite(suite);

@@ -405,9 +405,6 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
     double usual = 90.0 - CLI_USUAL_LOW_DEG;
     int low = -range->min > range->max; /* the larger magnitude */
     double worst = low ? -range->min : range->max;
-    /* a cam's pressure angle is its follower's (print_cams), not a rod's */
-    if (kl_model_cam_bearing(cm->model, site->id) >= 0)
-      continue;
     cli_format_input(cm, r->input,
                      low ? range->input_at_min : range->input_at_max, hi,
                      sizeof hi);
