@@ -519,10 +519,9 @@ octave_value_list cmd_find_assemblies(const call &c) {
  * callback sees the step. */
 struct recorder {
   const kl_model *model;
-  int width, rows = 0;
-  Matrix table; /* one row per step: Octave is column-major, so each step's
-                   row is gathered from a C row buffer */
-  std::vector<double> row;
+  int rows = 0;
+  Matrix table; /* width x steps + 1: column k is the C row of step k, as
+                   kl_solver_sweep_rows writes them */
   octave_value callback;
   int solver_id = 0;
   octave::interpreter *interp = nullptr;
@@ -533,15 +532,10 @@ struct recorder {
   static bool takes(int steps) { return steps >= 1 && steps <= KL_MAX_STEPS; }
 
   recorder(const kl_model *m, int steps)
-      : model(m), width(kl_model_row_size(m)),
-        table(takes(steps) ? static_cast<octave_idx_type>(steps) + 1 : 0,
-              kl_model_row_size(m), NAN),
-        row(static_cast<size_t>(kl_model_row_size(m))) {}
+      : model(m), table(kl_model_row_size(m),
+                        takes(steps) ? static_cast<octave_idx_type>(steps) + 1 : 0) {}
 
-  void take(const double *values, int k) {
-    for (int i = 0; i < width; i++)
-      table(k, i) = values[i];
-  }
+  double *row(int k) { return table.fortran_vec() + static_cast<size_t>(k) * table.rows(); }
 
   /* Octave errors are C++ exceptions: none may cross the C library's
    * frames, so a failing callback stops the sweep and is rethrown after. */
@@ -562,22 +556,28 @@ struct recorder {
   }
 
   /* The delivered rows, a field per quantity, and the swept input's
-   * values as `input`. */
+   * values as `input`: one copy from C's rows to Octave's columns, whose
+   * fields share (Octave slices a matrix's consecutive columns without
+   * copying them), so that a sweep allocates its result once. */
   octave_scalar_map result(int input) {
     octave_scalar_map out;
+    Matrix steps = (rows == table.cols() ? table : table.extract_n(0, 0, table.rows(), rows))
+                       .transpose();
+    auto columns = [&](int first, int count) {
+      return Matrix(steps.index(idx_vector::colon, idx_vector::make_range(first, 1, count)));
+    };
     int q, count, offset;
     for (q = 0; (offset = kl_model_row_offset(model, q, &count)) >= 0; q++)
-      out.assign(kl_quantity_str(q), table.extract_n(0, offset, rows, count));
+      out.assign(kl_quantity_str(q), columns(offset, count));
     offset = kl_model_row_offset(model, KL_QUANTITY_INPUT_VALUE, &count);
-    out.assign("input", table.extract_n(0, offset + input, rows, 1));
+    out.assign("input", columns(offset + input, 1));
     return out;
   }
 };
 
 extern "C" int record_step(const kl_solver *s, int step, double input, void *user) {
   recorder *r = static_cast<recorder *>(user);
-  kl_solver_row(s, r->row.data());
-  r->take(r->row.data(), r->rows++);
+  kl_solver_row(s, r->row(r->rows++));
   return r->notify(step, input);
 }
 
@@ -605,12 +605,9 @@ octave_value_list cmd_sweep(const call &c) {
   res.size = sizeof res;
   int st;
   if (rec.callback.is_undefined() && recorder::takes(steps)) {
-    /* the library fills the rows at C speed, C-ordered: one row per step */
-    std::vector<double> rows((static_cast<size_t>(steps) + 1) *
-                             static_cast<size_t>(rec.width));
-    st = kl_solver_sweep_rows(s.solver, input, from, to, steps, rows.data(), &res);
-    for (rec.rows = 0; rec.rows < res.steps_done; rec.rows++)
-      rec.take(rows.data() + static_cast<size_t>(rec.rows) * rec.width, rec.rows);
+    /* the library fills the rows at C speed */
+    st = kl_solver_sweep_rows(s.solver, input, from, to, steps, rec.row(0), &res);
+    rec.rows = res.steps_done > 0 ? res.steps_done : 0;
   } else {
     sweeping_guard guard(s);
     st = kl_solver_sweep(s.solver, input, from, to, steps, record_step, &rec, &res);

@@ -59,6 +59,8 @@ class Solver(_api.SolverMethods, Handle):
             raise KinloopError(Status.ENOMEM, "Solver: out of memory")
         self._ptr = ptr
         self._model = model
+        # a finalized model's row layout never changes: read once, not per sweep
+        self._layout, self._row_size = model.row_layout, model.row_size
         self._sweeping = False
         self._finalizer = weakref.finalize(self, _free_solver, ptr, block)
         model._register_solver(self._finalizer)
@@ -159,9 +161,10 @@ class Solver(_api.SolverMethods, Handle):
         h, model = self._changing, self._model
         steps = to_int(steps, "kl_solver_sweep", "steps")
         # sized for a count the library takes: it refuses the others itself
-        # (KL_EINVAL, KL_ETOOLARGE) and then writes no row
+        # (KL_EINVAL, KL_ETOOLARGE) and then writes no row; every row kept
+        # (table[:steps_done]) is written, so none is cleared first
         rows = steps + 1 if 1 <= steps <= MAX_STEPS else 1
-        table = np.full((rows, model.row_size), math.nan)
+        table = np.empty((rows, self._row_size))
         outcome, raised = raw.kl_sweep_result(), []
         if callback is None:
             status = _api.kl_solver_sweep_rows(h, input, from_, to, steps,
@@ -194,7 +197,7 @@ class Solver(_api.SolverMethods, Handle):
             passages=outcome.passages, passage_input=outcome.passage_input,
             # kl_solver_sweep words a limit; KL_STOPPED leaves an older message
             message=self.error if status == Status.LIMIT or status < 0 else "",
-            rows=table[:done], layout=model.row_layout, input_index=input)
+            rows=table[:done], layout=dict(self._layout), input_index=input)
         self._check(status, result=result)
         return result
 
