@@ -203,12 +203,21 @@ class Function:
 # alone cannot say (a double * may be one value or an array): "out", one
 # value or one struct the function fills; "one", one struct it reads; the name of the int
 # parameter that counts an array; "inputs", one value per input of the
-# model. The header documents the same in words. Handles, fixed arrays
+# model; "N out", an array of N elements the function fills (N is the
+# caller's to give, unless it also counts an array given); "CAP fills", an
+# array the function fills up to CAP elements while it returns how many
+# there are (the bindings size it by a first call with NULL and 0, and
+# give the caller the items). The header documents the same in words. Handles, fixed arrays
 # (double xy[2]) and sized structs need no entry; a function with any
 # other pointer is bound by hand. generate.py stops if an entry names a
 # function or parameter the header does not declare.
 POINTERS = {
     "kl_add_loop": {"joints": "njoints"},
+    "kl_model_loop": {"joints": "cap fills"},
+    "kl_model_transmissions": {"sites": "cap fills"},
+    "kl_model_pressure_sites": {"sites": "cap fills"},
+    "kl_model_transmission_skips": {"skips": "cap fills"},
+    "kl_output_ranges": {"outputs": "n", "ranges": "n out"},
     "kl_model_units": {"length_unit": "out", "angle_unit": "out"},
     "kl_model_transmission_lines": {"line_a": "out", "line_b": "out"},
     "kl_solve_position": {"inputs": "inputs"},
@@ -242,8 +251,14 @@ POINTERS = {
     # "N pairs": 2 numbers (x, y) per element that N counts
     "kl_add_curve_slot": {"xy": "npoints pairs"},
     "kl_cam_set_program": {"segments": "nsegments"},
+    "kl_cam_outline": {"pitch_xy": "n pairs out", "surface_xy": "n pairs out"},
     "kl_solver_follow_path": {"path_x": "npoints", "path_y": "npoints"},
 }
+
+
+def role_count(role):
+    """The parameter a POINTERS role names as its count, or None."""
+    return None if role in ("out", "one", "inputs") else role.split()[0]
 
 
 def check_pointers(header):
@@ -257,8 +272,8 @@ def check_pointers(header):
             if param not in params or not params[param].pointers:
                 sys.exit("generate.py: POINTERS names %s's pointer parameter %r, which "
                          "include/kinloop.h does not declare" % (name, param))
-            count = role.split()[0]
-            if role not in ("out", "one", "inputs") and \
+            count = role_count(role)
+            if count is not None and \
                     (count not in params or params[count].base != "int" or
                      params[count].pointers):
                 sys.exit("generate.py: POINTERS counts %s's %r by %r, which is not an int "
@@ -286,7 +301,10 @@ class Arg:
       out_value    one int or double the function fills
       out_array    a fixed array the function fills (double xy[2])
       inputs_out   double *, one per input, filled
-      struct_out   one struct filled (a sized one, or "out" in POINTERS)"""
+      struct_out   one struct filled (a sized one, or "out" in POINTERS)
+      array_out    count elements (x, y pairs if per is 2) the function fills
+      filled       up to count elements the function fills, returning how
+                   many there are"""
 
     def __init__(self, kind, name, params, ctype=None, length=None, enum=None,
                  struct=None, const=False, optional=False, count=None, per=1):
@@ -302,7 +320,8 @@ class Arg:
 
     @property
     def is_output(self):
-        return self.kind in ("out_value", "out_array", "inputs_out", "struct_out")
+        return self.kind in ("out_value", "out_array", "inputs_out", "struct_out",
+                             "filled", "array_out")
 
 
 class Binding:
@@ -336,8 +355,12 @@ class Binding:
         if any(p.base == "size_t" and not p.pointers for p in params) and \
                 any(p.pointers and p.base[3:] not in HANDLES for p in params):
             self.refuse("a size_t sizes the memory of a pointer argument")
-        counts = {role.split()[0] for role in roles.values()
-                  if role not in ("out", "one", "inputs")}
+        counts = {role_count(role) for role in roles.values()} - {None}
+        # a count that only sizes arrays the function fills is the caller's
+        # to give; the bindings take the others from the arrays (or a probe)
+        given = {n for n in counts if all(role.endswith(" out") for role in roles.values()
+                                          if role_count(role) == n)}
+        counts -= given
         k = 0
         while k < len(params):
             p = params[k]
@@ -379,6 +402,13 @@ class Binding:
                                      if p.base == "int" else None))
             elif role == "inputs" and p.base == "double" and p.pointers == 1:
                 self.args.append(Arg("inputs_in" if p.const else "inputs_out", p.name, [p]))
+            elif role is not None and role.split()[-1] in ("fills", "out") and \
+                    role_count(role) is not None and not p.const and p.pointers == 1 and \
+                    (p.base in ("int", "double") or struct is not None):
+                self.args.append(Arg("filled" if role.endswith(" fills") else "array_out",
+                                     p.name, [p], ctype=p.base, struct=struct,
+                                     count=role_count(role),
+                                     per=2 if " pairs" in role else 1))
             elif role is not None and role.split()[0] in counts and p.const and \
                     p.pointers == 1 and (p.base in ("int", "double") or struct is not None):
                 self.args.append(Arg("array_in", p.name, [p], ctype=p.base, struct=struct,
@@ -407,10 +437,13 @@ class Binding:
         f = self.f
         # a function that fills a value or a struct returns whether it did
         self.status = f.result == "int" and (returns_status(header, f) or any(
-            a.kind in ("struct_out", "out_value", "inputs_out") for a in self.args))
+            a.kind in ("struct_out", "out_value", "inputs_out", "array_out")
+            for a in self.args))
+        # a function filling up to a capacity returns a count the bindings use
+        self.fills = next((a for a in self.args if a.kind == "filled"), None)
         self.enum = None
         self.boolean = f.result == "int" and "_is_" in f.name
-        if f.result == "int" and not self.status and not self.boolean:
+        if f.result == "int" and not self.status and not self.boolean and not self.fills:
             for e in header.enums:
                 if e.name == "kl_status":
                     continue
@@ -433,7 +466,7 @@ class Binding:
     @property
     def value_result(self):
         """Whether the C result is handed to the caller (a status is not)."""
-        return self.f.result != "void" and not self.status
+        return self.f.result != "void" and not self.status and not self.fills
 
     @property
     def method(self):
@@ -655,14 +688,49 @@ def py_checked_call(b):
             "    return lib.%s(%s)" % (f.name, ", ".join(conversions)), "", ""]
 
 
+def py_checked(b, expr):
+    """A C call's status checked: with the handle's message, or, for a
+    const handle (which keeps none), naming the call and its arguments."""
+    if b.handle is None or b.handle_const:
+        shown = "".join(", " + py_name(a.name) for a in b.inputs)
+        return "check_const(%s, %r%s)" % (expr, b.method, shown)
+    return "self._check(%s)" % expr
+
+
+def py_output_array(a, function):
+    """The array a function fills, `count` elements: numbers as a numpy
+    array ((count, 2) for x, y pairs), structs as a ctypes array."""
+    n, count = py_name(a.name), py_name(a.count)
+    if a.struct is None and a.kind == "array_out":
+        shape = "(max(%s, 0), 2)" % count if a.per == 2 else "max(%s, 0)" % count
+        return ["%s = np.zeros(%s)" % (n, shape)]
+    ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
+    lines = ["%s = (%s * max(%s, 1))()" % (n, ctype, count)]
+    if a.struct is not None and a.struct.sized:
+        lines += ["for item in %s:" % n, "    item.size = ctypes.sizeof(item)"]
+    return lines
+
+
 def py_method(b):
     """The generated method (or package function) of a plain function."""
     params, pre, call, results = [], [], [], []
+    late = []  # arrays the function fills, made once their count is known
     counts = {}
     f = b.name
     for a in b.args:
         n = py_name(a.name)
-        if a.kind == "handle":
+        if a.kind in ("filled", "array_out"):
+            late += py_output_array(a, f)
+            call.append(n if a.struct or a.kind == "filled" else
+                        "%s.ctypes.data_as(DOUBLES)" % n)
+            results.append("[value_of(v) for v in %s[:%s]]" % (n, py_name(a.count))
+                           if a.struct or a.kind == "filled" else n)
+            given = "%s = to_int(%s, %r, %r)" % (py_name(a.count), py_name(a.count), f,
+                                                 a.count)
+            if a.kind == "array_out" and given not in pre and \
+                    a.count in [x.name for x in b.args if x.kind == "scalar"]:
+                pre.append(given)  # before the arrays it sizes
+        elif a.kind == "handle":
             call.append("self._handle" if a.const else "self._changing")
         elif a.kind == "struct_in" and b.owner is not None and not call:
             call.append("self")
@@ -718,12 +786,14 @@ def py_method(b):
         pre.append("%s = same_count(%r, %r, %s)" % (
             py_name(count), f, count, ", ".join("(%r, %s_n)" % (a, py_name(a)) for a in arrays)))
     expr = "%s(%s)" % (f, ", ".join(call))
+    if b.fills:
+        # a first call with no room says how many there are
+        room = {py_name(b.fills.name): "None", py_name(b.fills.count): "0"}
+        pre.append("%s = %s" % (py_name(b.fills.count), py_checked(
+            b, "%s(%s)" % (f, ", ".join(room.get(x, x) for x in call)))))
+    pre += late
     if b.f.result in ("int", "long"):
-        if b.handle is None or b.handle_const:
-            shown = "".join(", " + py_name(a.name) for a in b.inputs)
-            expr = "check_const(%s, %r%s)" % (expr, b.method, shown)
-        else:
-            expr = "self._check(%s)" % expr
+        expr = py_checked(b, expr)
         if b.enum is not None:
             expr = "as_enum(H.%s, %s)" % (b.enum.python, expr)
         elif b.boolean:
@@ -735,6 +805,9 @@ def py_method(b):
     body = pre[:]
     if not results:
         body.append(("return Status(%s)" if b.status else "%s") % expr)
+    elif b.fills or not b.value_result and len(results) == 1:
+        body.append(expr)
+        body.append("return " + results[0])
     elif results == ["result"]:
         body.append("return " + expr)
     else:
@@ -813,7 +886,9 @@ def python_api(header):
            "                    to_string)",
            "from ._core import VALUE_TYPES, as_enum, check_const, text, value_of",
            "from ._header import Status",
-           "from .raw import lib", "", "",
+           "from .raw import lib", "",
+           "#: what numpy arrays the C functions fill are passed as",
+           "DOUBLES = ctypes.POINTER(ctypes.c_double)", "", "",
            "# ---- checked calls: one per KL_API function ----", ""]
     for b in bs:
         out += py_checked_call(b)
@@ -914,6 +989,11 @@ def octave_structs(header):
                 value = "s.%s" % fl.name
             out.append("  m.assign(%s, %s);" % (cpp_string(fl.name), value))
         out += ["  return m;", "}", ""]
+        out += ["octave_map struct_row(const %s *items, int n) {" % s.name,
+                "  octave_map m(dim_vector(1, n));",
+                "  for (int k = 0; k < n; k++)",
+                "    m.assign(k, to_octave(items[k]));",
+                "  return m;", "}", ""]
         out.append("/* Fields of element k of `v` into `s`: every field when `all` is set,")
         out.append(" * else those given; an unknown field is refused. */")
         out.append("void from_octave(const call &c, const octave_map &v, octave_idx_type k,")
@@ -955,12 +1035,19 @@ def octave_wrapper(header, b):
     lines.append("octave_value_list gen_%s(const call &c) {" % b.command)
     call_args, outs, counts, i, vector_arg = [], [], {}, 0, None
     halved = set()  # arrays of x, y pairs: their count is half their length
+    late = []  # arrays the function fills, made once their count is known
     for a in b.args:
         # the gateway's own names (the call c, the handle h, the results
         # out, the result r) are not a parameter's: a header parameter
         # named so takes a trailing _
         n = a.name + "_" if a.name in ("c", "h", "out", "r") else a.name
         what = cpp_string(a.name)
+        if a.kind in ("filled", "array_out"):
+            more, arg, out = octave_output_array(a, n)
+            late += more
+            call_args.append(arg)
+            outs.append(out)
+            continue
         if a.kind == "handle":
             lines.append("  entry &h = c.%s(0, %s);" % (
                 b.handle, "access::read" if a.const else "access::write"))
@@ -1057,6 +1144,13 @@ def octave_wrapper(header, b):
         lines.append("  int %s = c.count(%s.size()%s, %s);" % (
             count, arrays[0], " / 2" if arrays[0] in halved else "",
             cpp_string(arrays[0])))
+    if b.fills:
+        # a first call with no room says how many there are
+        room = {b.fills.name + ".data()": "nullptr", b.fills.count: "0"}
+        lines.append("  int %s = %s(%s);" % (b.fills.count, b.name, ", ".join(
+            room.get(x, x) for x in call_args)))
+        lines.append("  c.check(%s);" % b.fills.count)
+    lines += late
     call = "%s(%s)" % (b.name, ", ".join(call_args))
     if vector_arg is not None:
         pos, name = vector_arg
@@ -1089,6 +1183,23 @@ def octave_wrapper(header, b):
     if not any(re.search(r"\bc\b[.,)]", l) for l in lines[signature + 1:]):
         lines[signature] = lines[signature].replace("const call &c", "const call &")
     return lines, i
+
+
+def octave_output_array(a, n):
+    """An array the function fills: the lines making it (once its count
+    is known), the C argument, and the Octave value of what was filled:
+    numbers as a row (count-by-2 for x, y pairs), structs as a struct row."""
+    count = a.count
+    if a.struct is None and a.kind == "array_out":
+        make = ["  Matrix %s(%d, %s > 0 ? %s : 0);" % (n, a.per, count, count)]
+        return make, "%s.fortran_vec()" % n, "%s.transpose()" % n if a.per == 2 else n
+    ctype = a.struct.name if a.struct else a.ctype
+    make = ["  std::vector<%s> %s(%s > 0 ? %s : 1, %s());" % (ctype, n, count, count, ctype)]
+    if a.struct is None:
+        return make, "%s.data()" % n, "row(%s.data(), %s)" % (n, count)
+    if a.struct.sized:
+        make += ["  for (%s &item : %s)" % (ctype, n), "    item.size = sizeof item;"]
+    return make, "%s.data()" % n, "struct_row(%s.data(), %s)" % (n, count)
 
 
 def octave_introspection(header):

@@ -317,66 +317,6 @@ octave_value_list cmd_model_free(const call &c) {
   return none();
 }
 
-octave_value_list cmd_model_loop(const call &c) {
-  const kl_model *m = c.model(0, access::read).model;
-  int loop = c.whole<int>(c.arg(1), "loop");
-  int n = kl_model_loop(m, loop, nullptr, 0);
-  c.check(n);
-  std::vector<int> joints(n > 0 ? n : 1);
-  kl_model_loop(m, loop, joints.data(), n);
-  return one(row(joints.data(), n));
-}
-
-/* What a kl_model_* call fills up to a capacity: sized by a first call
- * with none, then filled. */
-template <typename T>
-std::vector<T> filled(const call &c, const kl_model *m,
-                      int (*fill)(const kl_model *, T *, int)) {
-  int n = fill(m, nullptr, 0);
-  c.check(n);
-  std::vector<T> items(static_cast<size_t>(n > 0 ? n : 1));
-  fill(m, items.data(), n);
-  items.resize(static_cast<size_t>(n));
-  return items;
-}
-
-octave_value_list cmd_model_transmissions(const call &c) {
-  std::vector<kl_output> sites =
-      filled(c, c.model(0, access::read).model, kl_model_transmissions);
-  octave_map out(dim_vector(1, static_cast<octave_idx_type>(sites.size())));
-  for (size_t k = 0; k < sites.size(); k++)
-    out.assign(static_cast<octave_idx_type>(k), to_octave(sites[k]));
-  return one(out);
-}
-
-octave_value_list cmd_model_pressure_sites(const call &c) {
-  std::vector<kl_output> sites =
-      filled(c, c.model(0, access::read).model, kl_model_pressure_sites);
-  octave_map out(dim_vector(1, static_cast<octave_idx_type>(sites.size())));
-  for (size_t k = 0; k < sites.size(); k++)
-    out.assign(static_cast<octave_idx_type>(k), to_octave(sites[k]));
-  return one(out);
-}
-
-octave_value_list cmd_model_transmission_skips(const call &c) {
-  std::vector<kl_transmission_skip> skips =
-      filled(c, c.model(0, access::read).model, kl_model_transmission_skips);
-  octave_map out(dim_vector(1, static_cast<octave_idx_type>(skips.size())));
-  for (size_t k = 0; k < skips.size(); k++) {
-    octave_scalar_map one_skip;
-    one_skip.assign("joint", skips[k].joint);
-    one_skip.assign("loop", skips[k].loop);
-    one_skip.assign("link", skips[k].link);
-    int why = skips[k].reason;
-    one_skip.assign("reason", why == KL_TRANSMISSION_SKIP_INPUT_CRANK ? "input_crank"
-                              : why == KL_TRANSMISSION_SKIP_RIGID     ? "rigid"
-                              : why == KL_TRANSMISSION_SKIP_SLIDER    ? "slider"
-                                                                      : "no_line");
-    out.assign(static_cast<octave_idx_type>(k), one_skip);
-  }
-  return one(out);
-}
-
 /* The current state as one row (kl_solver_row), laid out as the model's
  * row_offset says. */
 octave_value_list cmd_solver_row(const call &c) {
@@ -671,31 +611,6 @@ octave_map peak_list(const std::vector<kl_cycle_peak> &peaks, int n) {
   return out;
 }
 
-/* kl_output_ranges: (solver, input, from, to, steps, outputs), outputs a
- * struct array of kl_output; a struct array of kl_range, one per output. */
-octave_value_list cmd_output_ranges(const call &c) {
-  entry &s = c.solver(0);
-  int input = c.whole<int>(c.arg(1), "input");
-  double from = c.real(c.arg(2), "from");
-  double to = c.real(c.arg(3), "to");
-  int steps = c.whole<int>(c.arg(4), "steps");
-  octave_map list = c.struct_list(5, "outputs");
-  std::vector<kl_output> outs(static_cast<size_t>(list.numel()), kl_output());
-  for (octave_idx_type k = 0; k < list.numel(); k++)
-    from_octave(c, list, k, "outputs", outs[static_cast<size_t>(k)], false);
-  int n = c.count(outs.size(), "outputs");
-  kl_range blank = kl_range();
-  blank.size = sizeof blank;
-  std::vector<kl_range> ranges(outs.size() > 0 ? outs.size() : 1, blank);
-  c.check(kl_output_ranges(s.solver, input, from, to, steps, n,
-                           outs.empty() ? nullptr : outs.data(), ranges.data()),
-          kl_solver_error(s.solver));
-  octave_map out(dim_vector(1, n));
-  for (int k = 0; k < n; k++)
-    out.assign(k, to_octave(ranges[static_cast<size_t>(k)]));
-  return one(octave_value(out));
-}
-
 /* [summary, input_peaks, joint_peaks] of kl_cycle_summarize. */
 octave_value_list cmd_cycle_summarize(const call &c) {
   entry &s = c.solver(0);
@@ -952,35 +867,12 @@ octave_value_list cmd_cam_free(const call &c) {
   return none();
 }
 
-/* The pitch curve and the surface at n cam angles, each an n-by-2 matrix
- * of (x, y) rows. */
-octave_value_list cmd_cam_outline(const call &c) {
-  const kl_cam *cam = c.cam(0, access::read).cam;
-  int n = c.whole<int>(c.arg(1), "n");
-  std::vector<double> pitch(2 * static_cast<size_t>(n > 0 ? n : 0)), surface(pitch.size());
-  c.check(kl_cam_outline(cam, n, pitch.data(), surface.data()), kl_cam_error(cam));
-  Matrix p(n, 2), s(n, 2);
-  for (int k = 0; k < n; k++)
-    for (int i = 0; i < 2; i++) {
-      p(k, i) = pitch[2 * k + i];
-      s(k, i) = surface[2 * k + i];
-    }
-  octave_value_list out;
-  out(0) = p;
-  out(1) = s;
-  return out;
-}
-
 const command hand_commands[] = {
     {"commands", 0, 0, "()", cmd_commands},
     {"handles", 0, 0, "()", cmd_handles},
     {"status_name", 1, 1, "(status)", cmd_status_name},
     {"model_new", 0, 0, "()", cmd_model_new},
     {"model_free", 1, 1, "(model)", cmd_model_free},
-    {"model_loop", 2, 2, "(model, loop)", cmd_model_loop},
-    {"model_transmissions", 1, 1, "(model)", cmd_model_transmissions},
-    {"model_transmission_skips", 1, 1, "(model)", cmd_model_transmission_skips},
-    {"model_pressure_sites", 1, 1, "(model)", cmd_model_pressure_sites},
     {"solver_row", 1, 1, "(solver)", cmd_solver_row},
     {"model_read", 1, 1, "(text)", cmd_model_read},
     {"model_read_file", 1, 1, "(path)", cmd_model_read_file},
@@ -992,7 +884,6 @@ const command hand_commands[] = {
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
-    {"output_ranges", 6, 6, "(solver, input, from, to, steps, outputs)", cmd_output_ranges},
     {"cycle_summarize", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_summarize},
     {"solver_workspace", 2, 3, "(solver, point, [options])", cmd_solver_workspace},
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
@@ -1004,7 +895,6 @@ const command hand_commands[] = {
     {"study_summarize", 4, 4, "(study, output, values, sample_statuses)", cmd_study_summarize},
     {"cam_new", 0, 0, "()", cmd_cam_new},
     {"cam_free", 1, 1, "(cam)", cmd_cam_free},
-    {"cam_outline", 2, 2, "(cam, n)", cmd_cam_outline},
     {nullptr, 0, 0, nullptr, nullptr}};
 
 const command *const all_commands[] = {generated_commands, hand_commands, extra_commands};

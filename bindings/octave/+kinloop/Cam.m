@@ -34,11 +34,5 @@ classdef Cam < kinloop.CamMethods
         obj.freed = true;
       end
     end
-
-    function [pitch, surface] = outline(obj, n)
-      % The pitch curve and the cam surface at the cam angles 2 pi k / n,
-      % k = 0 .. n - 1: n-by-2 matrices of (x, y) rows in the cam's frame.
-      [pitch, surface] = __kinloop__('cam_outline', obj.id, n);
-    end
   end
 end

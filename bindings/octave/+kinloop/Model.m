@@ -70,11 +70,6 @@ classdef Model < kinloop.ModelMethods
       tf = ~isempty(obj.owner);
     end
 
-    function joints = loop(obj, index)
-      % The joint ids of loop `index` in walking order.
-      joints = __kinloop__('model_loop', obj.id, index);
-    end
-
     function loads = loads(obj)
       % The loads the model records (kl_model_load) as a struct array, in
       % order: what Solver.cycle_summarize(m.loads(), m.cycle()) takes.
@@ -86,24 +81,6 @@ classdef Model < kinloop.ModelMethods
           loads(end + 1) = obj.load(k);
         end
       end
-    end
-
-    function sites = transmissions(obj)
-      % The transmission-angle sites kinloop measures (kl_model_transmissions):
-      % a struct array of outputs.
-      sites = __kinloop__('model_transmissions', obj.id);
-    end
-
-    function sites = pressure_sites(obj)
-      % The sliders' pressure-angle sites kinloop measures
-      % (kl_model_pressure_sites): a struct array of outputs.
-      sites = __kinloop__('model_pressure_sites', obj.id);
-    end
-
-    function skips = transmission_skips(obj)
-      % The joints passed over for a transmission angle, with the reason
-      % (kl_model_transmission_skips).
-      skips = __kinloop__('model_transmission_skips', obj.id);
     end
 
     function text = write(obj)

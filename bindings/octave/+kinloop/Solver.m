@@ -127,17 +127,6 @@ classdef Solver < kinloop.SolverMethods
       values = __kinloop__('solver_row', obj.id);
     end
 
-    % ---- ranges of outputs ----
-
-    function r = output_ranges(obj, input, from, to, steps, outputs)
-      % r = output_ranges(input, from, to, steps, outputs): the extremes of
-      % every output of the struct array outputs (kind, id, line_a,
-      % line_b) from one sweep (kl_output_ranges), a struct array of
-      % ranges in their order: the cost of a few sweeps whatever their
-      % number, where output_range costs a sweep per output.
-      r = __kinloop__('output_ranges', obj.id, input, from, to, steps, outputs);
-    end
-
     % ---- force figures over a cycle ----
 
     function [summary, inputs, joints] = cycle_summarize(obj, loads, varargin)

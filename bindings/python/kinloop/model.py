@@ -8,7 +8,7 @@ import weakref
 
 from . import _api, raw
 from ._args import refuse
-from ._core import Handle, KinloopError, check_const, text, value_of
+from ._core import Handle, KinloopError, check_const, text
 from ._header import Status
 
 
@@ -160,15 +160,7 @@ class Model(_api.ModelMethods, Handle):
             self.input_count, ", finalized" if self.is_finalized else "",
             ", borrowed from a study" if self.borrowed else "")
 
-    # ---- the joints of a loop ----
-
-    def loop(self, loop):
-        """The joint ids of loop `loop` in walking order."""
-        h = self._handle
-        n = check_const(_api.kl_model_loop(h, loop, None, 0), "loop", loop)
-        joints = (ctypes.c_int * max(n, 1))()
-        _api.kl_model_loop(h, loop, joints, n)
-        return list(joints[:n])
+    # ---- the joints of loops, the loads ----
 
     @property
     def loops(self):
@@ -186,7 +178,7 @@ class Model(_api.ModelMethods, Handle):
         order: what Solver.cycle_summarize(m.loads, m.cycle) takes."""
         return [self.load(k) for k in range(self.load_count)]
 
-    # ---- what a finalized model says of its rows and transmissions ----
+    # ---- what a finalized model says of its rows ----
 
     @property
     def row_layout(self):
@@ -200,36 +192,6 @@ class Model(_api.ModelMethods, Handle):
                 return layout
             layout[text(_api.kl_quantity_str(quantity))] = (first, count.value)
             quantity += 1
-
-    def _fill(self, function, ctype, what):
-        """The items a kl_model_* call fills to a capacity, as a list."""
-        h = self._handle
-        n = check_const(function(h, None, 0), what)
-        items = (ctype * max(n, 1))()
-        check_const(function(h, items, n), what)
-        return list(items[:n])
-
-    @property
-    def transmissions(self):
-        """The transmission-angle sites kinloop measures
-        (kl_model_transmissions), as Outputs."""
-        return [value_of(o) for o in self._fill(_api.kl_model_transmissions,
-                                                raw.kl_output, "transmissions")]
-
-    @property
-    def pressure_sites(self):
-        """The sliders' pressure-angle sites kinloop measures
-        (kl_model_pressure_sites), as Outputs."""
-        return [value_of(o) for o in self._fill(_api.kl_model_pressure_sites,
-                                                raw.kl_output, "pressure_sites")]
-
-    @property
-    def transmission_skips(self):
-        """The joints passed over for a transmission angle, with the reason
-        (kl_model_transmission_skips)."""
-        return [value_of(k) for k in self._fill(_api.kl_model_transmission_skips,
-                                                raw.kl_transmission_skip,
-                                                "transmission_skips")]
 
     # ---- model files ----
 

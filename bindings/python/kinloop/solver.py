@@ -217,21 +217,6 @@ class Solver(_api.SolverMethods, Handle):
         self._check(status, result=kept)
         return value_of(found)
 
-    def output_ranges(self, input, from_, to, steps, outputs):
-        """The extremes of every output in `outputs` (a sequence of Output)
-        from one sweep (kl_output_ranges), a list of Range in their order:
-        the cost of a few sweeps whatever their number, where calling
-        output_range for each costs a sweep apiece. A negative status
-        raises KinloopError and leaves the solver as it was."""
-        function = "kl_output_ranges"
-        outs, count = array_of(outputs, raw.kl_output, function, "outputs")
-        found = (raw.kl_range * max(count, 1))()
-        for r in found:
-            r.size = ctypes.sizeof(raw.kl_range)
-        self._check(_api.kl_output_ranges(self._changing, input, from_, to, steps,
-                                          count, outs, found))
-        return [value_of(r) for r in found[:count]]
-
     # ---- force figures over a cycle ----
 
     def _cycle_arguments(self, function, loads, cycle, fields):
