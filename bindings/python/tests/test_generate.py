@@ -86,3 +86,35 @@ def test_a_struct_filled_through_an_out_pointer_is_an_output():
     body = body[:body.index("\n}\n")]
     assert "kl_load load = kl_load();" in body and ".size" not in body
     assert "value_of(load)" in generate.python_api(header)
+
+
+def test_arrays_a_function_fills_are_outputs():
+    # POINTERS "CAP fills": sized by a first call with NULL and 0, the count
+    # hidden; "N out": N the caller's (kl_cam_outline) or taken from the
+    # array N also counts (kl_output_ranges)
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    found = {b.name: b for b in generate.bindings(header)}
+    loop = found["kl_model_loop"]
+    assert loop.plain and loop.fills is not None and not loop.value_result
+    assert [a.kind for a in loop.inputs] == ["scalar"]
+    assert [(a.kind, a.count) for a in loop.outputs] == [("filled", "cap")]
+    outline = found["kl_cam_outline"]
+    assert [(a.kind, a.name) for a in outline.inputs] == [("scalar", "n")]
+    assert [(a.kind, a.per) for a in outline.outputs] == [("array_out", 2)] * 2
+    ranges = found["kl_output_ranges"]
+    assert [a.kind for a in ranges.inputs][-1] == "array_in"
+    assert "n" not in [a.name for a in ranges.inputs]
+    api = generate.python_api(header)
+    assert "cap = check_const(kl_model_loop(self._handle, loop, None, 0), 'loop', loop)" in api
+    gateway = generate.octave_gateway(header)
+    assert "int cap = kl_model_loop(h.model, loop, nullptr, 0);" in gateway
+    assert "out(0) = pitch_xy.transpose();" in gateway
+
+
+def test_a_count_that_is_no_int_parameter_is_refused(monkeypatch):
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    monkeypatch.setitem(generate.POINTERS, "kl_cam_outline", {"pitch_xy": "count out"})
+    with pytest.raises(SystemExit, match="not an int"):
+        generate.check_pointers(header)
