@@ -1300,10 +1300,27 @@ def octave_classes(header, out_dir):
     for h in HANDLES:
         name = "%sMethods" % camel(h)
         lines = ["classdef %s < handle" % name,
-                 "  %% kinloop.%s - the methods of kinloop.%s for the plain functions" %
+                 "  %% kinloop.%s - the gateway id of a kinloop.%s, freed once, and a" %
                  (name, camel(h)),
-                 "  %% of kl_%s, one each, calling the gateway command of the same" % h,
-                 "  % name. " + GENERATED, "  methods"]
+                 "  %% method for each plain function of kl_%s, calling the gateway" % h,
+                 "  % command of the same name. " + GENERATED, "",
+                 "  properties (SetAccess = protected)",
+                 "    id = [];  % the gateway's handle",
+                 "  end", "",
+                 "  % Public but hidden: Octave 7 runs a destructor in the context of the",
+                 "  % object that released it, where private properties cannot be read.",
+                 "  properties (Hidden)",
+                 "    freed = false;  % set once the gateway has freed the handle",
+                 "    owner = [];     % a borrowed handle: the object that frees it",
+                 "  end", "", "  methods"]
+        if header.function("kl_%s_free" % h):
+            lines += ["    function delete(obj)",
+                      "      %% Frees the %s (kl_%s_free) once; later calls do nothing. A" %
+                      (h, h),
+                      "      % borrowed one is its owner's to free: nothing happens.",
+                      "      if ~obj.freed && ~isempty(obj.id) && isempty(obj.owner)",
+                      "        __kinloop__('%s_free', obj.id);" % h,
+                      "        obj.freed = true;", "      end", "    end", ""]
         for b in bs:
             if b.plain and b.handle == h:
                 lines += ["    " + l for l in octave_method(b)] + [""]

@@ -12,16 +12,6 @@ classdef Cam < kinloop.CamMethods
   %
   % The cam is freed when the last reference goes, or by delete(c).
 
-  properties (SetAccess = private)
-    id = [];      % the gateway's handle for this cam
-  end
-
-  % Public but hidden: Octave 7 runs a destructor in the context of the
-  % object that released it, where private properties cannot be read.
-  properties (Hidden)
-    freed = false;  % set once the gateway has freed the handle
-  end
-
   methods
     function obj = Cam()
       obj.id = __kinloop__('cam_new');

@@ -19,17 +19,6 @@ classdef Model < kinloop.ModelMethods
   % its study alive, refuses every change (kinloop:ESTATE: it is finalized),
   % and delete of it frees nothing; the model goes with the study.
 
-  properties (SetAccess = private)
-    id = [];      % the gateway's handle for this model
-  end
-
-  % Public but hidden: Octave 7 runs a destructor in the context of the
-  % object that released it, where private properties cannot be read.
-  properties (Hidden)
-    freed = false;  % set once the gateway has freed the handle
-    owner = [];     % a borrowed model: the kinloop.Study it belongs to
-  end
-
   methods
     function obj = Model(how, id, owner)
       % Model(), or Model('adopt', id [, study]) for a handle the gateway
@@ -43,16 +32,6 @@ classdef Model < kinloop.ModelMethods
         end
       else
         error('kinloop:EINVAL', 'kinloop.Model: use Model(), Model.read or Model.read_file');
-      end
-    end
-
-    function delete(obj)
-      % Frees the model (once; later calls do nothing). Raises kinloop:in_use
-      % while solvers made from it are alive. A borrowed model is its
-      % study's to free: nothing happens.
-      if ~obj.freed && ~isempty(obj.id) && isempty(obj.owner)
-        __kinloop__('model_free', obj.id);
-        obj.freed = true;
       end
     end
 

@@ -15,14 +15,7 @@ classdef Solver < kinloop.SolverMethods
   % model alive; it is freed when the last reference goes, or by delete(s).
 
   properties (SetAccess = private)
-    id = [];       % the gateway's handle for this solver
     model = [];    % the kinloop.Model it solves
-  end
-
-  % Public but hidden: Octave 7 runs a destructor in the context of the
-  % object that released it, where private properties cannot be read.
-  properties (Hidden)
-    freed = false;  % set once the gateway has freed the handle
   end
 
   methods
@@ -38,14 +31,6 @@ classdef Solver < kinloop.SolverMethods
         error('kinloop:EINVAL', 'kinloop.Solver: the second argument may only be ''in_block''');
       end
       obj.model = model;
-    end
-
-    function delete(obj)
-      % Frees the solver (once; later calls do nothing).
-      if ~obj.freed && ~isempty(obj.id)
-        __kinloop__('solver_free', obj.id);
-        obj.freed = true;
-      end
     end
 
     function id = model_id(obj)

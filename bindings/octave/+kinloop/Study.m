@@ -19,16 +19,6 @@ classdef Study < kinloop.StudyMethods
   % goes, or by delete(st); while solvers of its model live, delete raises
   % kinloop:in_use.
 
-  properties (SetAccess = private)
-    id = [];      % the gateway's handle for this study
-  end
-
-  % Public but hidden: Octave 7 runs a destructor in the context of the
-  % object that released it, where private properties cannot be read.
-  properties (Hidden)
-    freed = false;  % set once the gateway has freed the handle
-  end
-
   methods
     function obj = Study(how, id)
       if nargin == 2 && ischar(how) && strcmp(how, 'adopt')
@@ -36,14 +26,6 @@ classdef Study < kinloop.StudyMethods
       else
         error('kinloop:EINVAL', ...
               'kinloop.Study: use kinloop.Study.read(text [, base_dir]) or read_file(path)');
-      end
-    end
-
-    function delete(obj)
-      % Frees the study and its model's handle (once; later calls do nothing).
-      if ~obj.freed && ~isempty(obj.id)
-        __kinloop__('study_free', obj.id);
-        obj.freed = true;
       end
     end
 
