@@ -603,14 +603,6 @@ Matrix from_rows(const std::vector<double> &v, long rows, int columns) {
   return out;
 }
 
-/* A 1 x n struct array of the peaks. */
-octave_map peak_list(const std::vector<kl_cycle_peak> &peaks, int n) {
-  octave_map out(dim_vector(1, n));
-  for (int k = 0; k < n; k++)
-    out.assign(k, to_octave(peaks[static_cast<size_t>(k)]));
-  return out;
-}
-
 /* [summary, input_peaks, joint_peaks] of kl_cycle_summarize. */
 octave_value_list cmd_cycle_summarize(const call &c) {
   entry &s = c.solver(0);
@@ -625,8 +617,8 @@ octave_value_list cmd_cycle_summarize(const call &c) {
           kl_solver_error(s.solver));
   octave_value_list out;
   out(0) = to_octave(sum);
-  out(1) = peak_list(inputs, ni);
-  out(2) = peak_list(joints, nj);
+  out(1) = struct_row(inputs.data(), ni);
+  out(2) = struct_row(joints.data(), nj);
   return out;
 }
 
