@@ -201,15 +201,15 @@ class Function:
 
 # What the pointer parameters of these functions are, where the C type
 # alone cannot say (a double * may be one value or an array): "out", one
-# value or one struct the function fills; "one", one struct it reads; the name of the int
-# parameter that counts an array; "inputs", one value per input of the
-# model; "N out", an array of N elements the function fills (N is the
-# caller's to give, unless it also counts an array given); "CAP fills", an
-# array the function fills up to CAP elements while it returns how many
-# there are (the bindings size it by a first call with NULL and 0, and
-# give the caller the items). The header documents the same in words. Handles, fixed arrays
-# (double xy[2]) and sized structs need no entry; a function with any
-# other pointer is bound by hand. generate.py stops if an entry names a
+# value or one struct the function fills; "one", one struct it reads; the
+# name of the int parameter that counts an array; "inputs", one value per
+# input of the model; "N out", an array of N elements the function fills
+# (N is the caller's to give, unless it also counts an array given); "CAP
+# fills", an array the function fills up to CAP elements while it returns
+# how many there are (the bindings size it by a first call with NULL and 0,
+# and give the caller the items). The header documents the same in words.
+# Handles, fixed arrays (double xy[2]) and sized structs need no entry; a
+# function with any other pointer is bound by hand. generate.py stops if an entry names a
 # function or parameter the header does not declare.
 POINTERS = {
     "kl_add_loop": {"joints": "njoints"},
@@ -697,7 +697,7 @@ def py_checked(b, expr):
     return "self._check(%s)" % expr
 
 
-def py_output_array(a, function):
+def py_output_array(a):
     """The array a function fills, `count` elements: numbers as a numpy
     array ((count, 2) for x, y pairs), structs as a ctypes array."""
     n, count = py_name(a.name), py_name(a.count)
@@ -720,7 +720,7 @@ def py_method(b):
     for a in b.args:
         n = py_name(a.name)
         if a.kind in ("filled", "array_out"):
-            late += py_output_array(a, f)
+            late += py_output_array(a)
             call.append(n if a.struct or a.kind == "filled" else
                         "%s.ctypes.data_as(DOUBLES)" % n)
             results.append("[value_of(v) for v in %s[:%s]]" % (n, py_name(a.count))
@@ -805,9 +805,6 @@ def py_method(b):
     body = pre[:]
     if not results:
         body.append(("return Status(%s)" if b.status else "%s") % expr)
-    elif b.fills or not b.value_result and len(results) == 1:
-        body.append(expr)
-        body.append("return " + results[0])
     elif results == ["result"]:
         body.append("return " + expr)
     else:
