@@ -730,8 +730,9 @@ octave_value_list cmd_study_read_file(const call &c) {
   return read_result(c, kl_study_read_file(path.c_str(), &e), adopt_study, e);
 }
 
-/* The study's borrowed model goes with it, which its solvers must not
- * outlive. */
+/* The study's borrowed model goes with it; as for a model of its own, a
+ * study is not freed while solvers of its model live (kinloop:in_use), so
+ * that no live id refers to a handle that is gone. */
 octave_value_list cmd_study_free(const call &c) {
   entry &st = c.study(0);
   auto m = table().live.find(st.model_id);

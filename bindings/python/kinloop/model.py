@@ -27,8 +27,9 @@ def allocator_hook(allocator):
 
 
 def _free_model(ptr, solver_finalizers, keepalive):
-    # A solver freed after its model would use freed memory: whatever order
-    # the garbage collector finds them in, the solvers go first.
+    # Closing a model closes its solvers (the library would keep the model
+    # for them; the binding's rule is that close() ends what was made from
+    # it), in whatever order the garbage collector finds them.
     for free_solver in list(solver_finalizers):
         free_solver()
     raw.lib.kl_model_free(ptr)
