@@ -26,19 +26,25 @@ def allocator_hook(allocator):
     return raw.kl_alloc_fn(hook)
 
 
-def _free_model(ptr, solver_finalizers, keepalive):
-    # Closing a model closes its solvers (the library would keep the model
-    # for them; the binding's rule is that close() ends what was made from
-    # it), in whatever order the garbage collector finds them.
-    for free_solver in list(solver_finalizers):
-        free_solver()
+def _free_model(ptr, hook):
+    # The library keeps the model for the solvers and studies made from it
+    # (kl_model_free); they keep `hook`, its allocator, alive as long.
     raw.lib.kl_model_free(ptr)
 
 
-def _release_view(solver_finalizers):
-    # a borrowed model is not ours to free: only the solvers made from it
-    for free_solver in list(solver_finalizers):
-        free_solver()
+def _release_view():
+    """A borrowed model is not ours to free: closing the view only ends it."""
+
+
+def row_layout(mh):
+    """Model.row_layout of the C model `mh`."""
+    layout, count, quantity = {}, ctypes.c_int(), 0
+    while True:
+        first = _api.kl_model_row_offset(mh, quantity, ctypes.byref(count))
+        if first < 0:  # past the last quantity (or not finalized)
+            return layout
+        layout[text(_api.kl_quantity_str(quantity))] = (first, count.value)
+        quantity += 1
 
 
 def io_error(status, err, what):
@@ -73,8 +79,10 @@ def data_of(source, function):
 class Model(_api.ModelMethods, Handle):
     """A kinloop model (kl_model). Build it, finalize it, make Solvers.
 
-    ``with Model() as m:`` frees it (and its solvers) on leaving the block;
-    otherwise it is freed when garbage-collected, exactly once either way.
+    ``with Model() as m:`` lets go of it (kl_model_free) on leaving the
+    block; otherwise it goes when garbage-collected, exactly once either
+    way. Its Solvers and Studies keep working after it is closed: the
+    library keeps the model for them.
     `allocator`, if given, is a callable (ptr, old_size, new_size) -> address
     used for every allocation of the model and its solvers (see
     allocator_hook). A Study's `model` is a borrowed Model (`borrowed` is
@@ -103,15 +111,12 @@ class Model(_api.ModelMethods, Handle):
 
     def _adopt(self, ptr, hook, owner=None):
         self._ptr = ptr
-        self._hook = hook  # a Study read against the model keeps it too
-        self._sweeps = 0  # sweeps of its solvers under way
-        self._solver_finalizers = set()
+        self._hook = hook  # its Solvers and Studies keep it too
         self._owner = owner
         if owner is None:
-            self._finalizer = weakref.finalize(self, _free_model, ptr,
-                                               self._solver_finalizers, hook)
+            self._finalizer = weakref.finalize(self, _free_model, ptr, hook)
         else:
-            self._finalizer = weakref.finalize(self, _release_view, self._solver_finalizers)
+            self._finalizer = weakref.finalize(self, _release_view)
 
     # ---- lifetime ----
 
@@ -126,19 +131,12 @@ class Model(_api.ModelMethods, Handle):
                                "cannot change (it is finalized)")
         return handle
 
-    def _register_solver(self, finalizer):
-        self._solver_finalizers.difference_update(
-            [f for f in self._solver_finalizers if not f.alive])
-        self._solver_finalizers.add(finalizer)
-
     def close(self):
-        """Frees the model (kl_model_free) and first every solver made from
-        it; later calls on them raise ValueError. Closing twice does nothing.
-        For a borrowed model (Study.model) it closes the view and its solvers
-        only: the model itself goes with its owner."""
-        if self._sweeps:
-            raise RuntimeError("kinloop: a model cannot be closed during a sweep "
-                               "of one of its solvers")
+        """Lets go of the model (kl_model_free); later calls of its methods
+        raise ValueError, closing twice does nothing. Solvers and studies
+        made from it keep working (the library frees the model after the
+        last of them). For a borrowed model (Study.model) it closes the
+        view only."""
         self._finalizer()
 
     def finalize(self):
@@ -186,13 +184,7 @@ class Model(_api.ModelMethods, Handle):
         """Where each quantity of a row (kl_solver_row) lies: {name: (first
         column, columns)}, in enum kl_quantity's order, names by
         kl_quantity_str. Empty before finalize."""
-        layout, count, quantity = {}, ctypes.c_int(), 0
-        while True:
-            first = _api.kl_model_row_offset(self._handle, quantity, ctypes.byref(count))
-            if first < 0:  # past the last quantity (or not finalized)
-                return layout
-            layout[text(_api.kl_quantity_str(quantity))] = (first, count.value)
-            quantity += 1
+        return row_layout(self._handle)
 
     # ---- model files ----
 

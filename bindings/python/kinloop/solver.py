@@ -15,6 +15,7 @@ from . import _api, raw
 from ._args import array_of, refuse, to_int, with_fields
 from ._core import Handle, KinloopError, as_enum, check_const, value_of
 from ._header import MAX_STEPS, Status, WorkspaceKind
+from .model import row_layout
 from .values import Cycle, CycleFigures, SweepResult, Workspace, cycle_table_dtype
 
 # Over-alignment for a solver placed in a Python buffer: the C side wants
@@ -37,12 +38,18 @@ class Solver(_api.SolverMethods, Handle):
     Options come as an Options object and/or keyword arguments
     (tolerance=..., max_iterations=...). With in_place=True the solver lives
     in a block the bindings allocate once (kl_solver_bytes / kl_solver_new_in)
-    instead of the model's allocator. The solver keeps its model alive; it is
-    freed by close(), on leaving a ``with`` block, when the model is closed,
-    or when garbage-collected, exactly once."""
+    instead of the model's allocator. The library keeps the model for the
+    solver: closing the Model leaves the solver working. The solver is freed
+    by close(), on leaving a ``with`` block, or when garbage-collected,
+    exactly once."""
 
     def __init__(self, model, options=None, *, in_place=False, **option_values):
-        mh = model._handle
+        self._open(model, model._handle, in_place)
+        if options is not None or option_values:
+            self.set_options(options, **option_values)
+
+    def _open(self, model, mh, in_place=False):
+        """A solver of the C model `mh`, which `model` (maybe closed) stands for."""
         block = None
         if in_place:
             size = raw.lib.kl_solver_bytes(mh)
@@ -53,19 +60,17 @@ class Solver(_api.SolverMethods, Handle):
         else:
             ptr = raw.lib.kl_solver_new(mh)
         if not ptr:
-            if not model.is_finalized:
+            if not _api.kl_model_is_finalized(mh):
                 raise KinloopError(Status.ESTATE, "Solver: the model is not "
                                    "finalized (call Model.finalize first)")
             raise KinloopError(Status.ENOMEM, "Solver: out of memory")
-        self._ptr = ptr
-        self._model = model
-        # a finalized model's row layout never changes: read once, not per sweep
-        self._layout, self._row_size = model.row_layout, model.row_size
+        self._ptr, self._model, self._model_ptr = ptr, model, mh
+        # a finalized model never changes: what the methods need of it, read once
+        self._layout, self._row_size = row_layout(mh), _api.kl_model_row_size(mh)
+        self._input_count = _api.kl_model_input_count(mh)
         self._sweeping = False
-        self._finalizer = weakref.finalize(self, _free_solver, ptr, block)
-        model._register_solver(self._finalizer)
-        if options is not None or option_values:
-            self.set_options(options, **option_values)
+        # the model's allocator hook lives as long as a holder of the model
+        self._finalizer = weakref.finalize(self, _free_solver, ptr, (block, model._hook))
 
     # ---- lifetime ----
 
@@ -86,7 +91,8 @@ class Solver(_api.SolverMethods, Handle):
 
     @property
     def model(self):
-        """The Model this solver was made for (kl_solver_model)."""
+        """The Model this solver was made for (closed or not: the solver
+        keeps working either way)."""
         return self._model
 
     def set_options(self, options=None, **values):
@@ -97,10 +103,6 @@ class Solver(_api.SolverMethods, Handle):
                                         "options"))
 
     # ---- what the generated methods of arrays per input ask of a solver ----
-
-    @property
-    def _input_count(self):
-        return self._model.input_count
 
     def _inputs(self, values, function, argument):
         """One double per input as a C array (None for a model without
@@ -117,8 +119,15 @@ class Solver(_api.SolverMethods, Handle):
 
     def copy(self):
         """A new solver of the same model with this one's options and state."""
-        twin = Solver(self._model, self.options)
+        twin = self._sibling(self.options)
         twin.copy_state(self)
+        return twin
+
+    def _sibling(self, options):
+        """A new solver of this one's model, whether its Model is closed or not."""
+        twin = Solver.__new__(Solver)
+        twin._open(self._model, self._model_ptr)
+        twin.set_options(options)
         return twin
 
     def find_assemblies(self, inputs=None):
@@ -127,7 +136,7 @@ class Solver(_api.SolverMethods, Handle):
         values = self._inputs(inputs, "kl_solver_find_assemblies", "inputs")
         options, cap = self.options, 8
         while True:
-            modes = [Solver(self._model, options) for _ in range(cap)]
+            modes = [self._sibling(options) for _ in range(cap)]
             handles = (raw.solver_p * cap)(*(m._handle for m in modes))
             found = self._check(_api.kl_solver_find_assemblies(self._changing, values,
                                                                handles, cap))
@@ -142,7 +151,7 @@ class Solver(_api.SolverMethods, Handle):
     def row(self):
         """Every quantity of the current state as one row (kl_solver_row),
         laid out as Model.row_layout says."""
-        row = np.full(self._model.row_size, math.nan)
+        row = np.full(self._row_size, math.nan)
         check_const(_api.kl_solver_row(self._handle, row.ctypes.data_as(_DOUBLES)), "row")
         return row
 
@@ -158,7 +167,7 @@ class Solver(_api.SolverMethods, Handle):
         callback the library records the rows itself, at C speed
         (kl_solver_sweep_rows). A negative status raises KinloopError, its
         `result` holding the steps delivered."""
-        h, model = self._changing, self._model
+        h = self._changing
         steps = to_int(steps, "kl_solver_sweep", "steps")
         # sized for a count the library takes: it refuses the others itself
         # (KL_EINVAL, KL_ETOOLARGE) and then writes no row; every row kept
@@ -181,13 +190,11 @@ class Solver(_api.SolverMethods, Handle):
 
             c_callback = raw.kl_sweep_fn(on_step)
             self._sweeping = True
-            model._sweeps += 1
             try:
                 status = _api.kl_solver_sweep(h, input, from_, to, steps, c_callback,
                                               None, ctypes.byref(outcome))
             finally:
                 self._sweeping = False
-                model._sweeps -= 1
         if raised:
             raise raised[0]
         done = max(outcome.steps_done, 0)
@@ -244,7 +251,7 @@ class Solver(_api.SolverMethods, Handle):
         solver as it was."""
         function = "kl_cycle_summarize"
         c, loads, count = self._cycle_arguments(function, loads, cycle, fields)
-        ninputs, njoints = self._input_count, self._model.joint_count
+        ninputs, njoints = self._input_count, _api.kl_model_joint_count(self._model_ptr)
         summary = raw.kl_cycle_summary()
         inputs = (raw.kl_cycle_peak * max(ninputs, 1))()
         joints = (raw.kl_cycle_peak * max(njoints, 1))()
@@ -296,9 +303,9 @@ class Solver(_api.SolverMethods, Handle):
         steps + 1). A negative status raises KinloopError."""
         function = "kl_cycle_table"
         c, loads, count = self._cycle_arguments(function, loads, cycle, fields)
-        model = self._model
-        dtype = cycle_table_dtype(self._input_count, model.joint_count)
-        columns = model.cycle_columns
+        mh = self._model_ptr
+        dtype = cycle_table_dtype(self._input_count, _api.kl_model_joint_count(mh))
+        columns = _api.kl_cycle_columns(mh)
         if dtype.itemsize != columns * ctypes.sizeof(ctypes.c_double):
             raise RuntimeError("kinloop: kl_cycle_table's row has %d numbers; the "
                                "bindings expect %d" % (columns, dtype.itemsize // 8))
