@@ -241,8 +241,8 @@ entry &call::lookup(int id, kind want, access how) const {
     raise("bad_handle", name + ": id " + str(id) + " is a " + kind_name(it->second.what) +
                             ", not a " + kind_name(want));
   if (how == access::write && it->second.sweeping)
-    raise("in_use", name + ": solver " + str(id) +
-                        " is running a sweep; its callback may only read from it");
+    raise_status(KL_ESTATE, name + ": solver " + str(id) +
+                                " is running a sweep; its callback may only read from it");
   /* the library would refuse too (the model is finalized), but write its
    * message into a model that is the study's, not ours */
   if (how == access::write && it->second.owner != 0)
@@ -303,17 +303,13 @@ octave_value_list cmd_model_new(const call &) {
   return one(adopt_model(m));
 }
 
+/* Lets go of the model; its solvers and studies keep it (kl_model_free).
+ * For a study's model it ends the handle only: the model is the study's. */
 octave_value_list cmd_model_free(const call &c) {
   entry &m = c.model(0, access::read);
-  int id = c.whole<int>(c.arg(0), "model id");
-  if (m.owner != 0)
-    raise("in_use", c.name + ": model " + str(id) + " belongs to study " + str(m.owner) +
-                        "; it is freed with the study");
-  if (m.live_solvers > 0)
-    raise("in_use", c.name + ": model " + str(id) + " still has " + str(m.live_solvers) +
-                        " solver" + (m.live_solvers == 1 ? "" : "s") + "; free them first");
-  kl_model_free(m.model);
-  table().live.erase(id);
+  if (m.owner == 0)
+    kl_model_free(m.model);
+  table().live.erase(c.whole<int>(c.arg(0), "model id"));
   return none();
 }
 
@@ -401,9 +397,13 @@ octave_value_list cmd_model_write_file(const call &c) {
 
 /* A solver from the model's allocator, or placed in a block the gateway
  * allocates (malloc's alignment, as kl_solver_new_in asks) and frees after
- * kl_solver_free. */
+ * kl_solver_free. Given a solver instead of a model: another solver of its
+ * model, whether the model's own handle is freed or not. */
 template <bool in_block> octave_value_list cmd_solver_new(const call &c) {
-  entry &m = c.model(0, access::read);
+  int id = c.whole<int>(c.arg(0), "model id");
+  auto given = table().live.find(id);
+  bool sibling = given != table().live.end() && given->second.what == kind::solver;
+  entry &m = sibling ? c.solver(0, access::read) : c.model(0, access::read);
   size_t size = kl_solver_bytes(m.model);
   void *block = in_block && size > 0 ? std::malloc(size) : nullptr;
   kl_solver *s = in_block ? kl_solver_new_in(m.model, block, size) : kl_solver_new(m.model);
@@ -414,9 +414,8 @@ template <bool in_block> octave_value_list cmd_solver_new(const call &c) {
   entry e;
   e.model = m.model;
   e.solver = s;
-  e.model_id = c.whole<int>(c.arg(0), "model id");
+  e.model_id = sibling ? m.model_id : id;
   e.block = block;
-  m.live_solvers++;
   return one(new_id(kind::solver, e));
 }
 
@@ -424,9 +423,6 @@ octave_value_list cmd_solver_free(const call &c) {
   entry &s = c.solver(0);
   kl_solver_free(s.solver);
   std::free(s.block);
-  auto m = table().live.find(s.model_id);
-  if (m != table().live.end())
-    m->second.live_solvers--;
   table().live.erase(c.whole<int>(c.arg(0), "solver id"));
   return none();
 }
@@ -730,30 +726,21 @@ octave_value_list cmd_study_read_file(const call &c) {
   return read_result(c, kl_study_read_file(path.c_str(), &e), adopt_study, e);
 }
 
-/* The study's borrowed model goes with it; as for a model of its own, a
- * study is not freed while solvers of its model live (kinloop:in_use), so
- * that no live id refers to a handle that is gone. */
+/* The study's borrowed model handle goes with it; solvers made from that
+ * handle keep working (the library keeps the model for them). */
 octave_value_list cmd_study_free(const call &c) {
   entry &st = c.study(0);
-  auto m = table().live.find(st.model_id);
-  if (m != table().live.end()) {
-    if (m->second.live_solvers > 0)
-      raise("in_use", c.name + ": the model of study " + shown(c.arg(0)) + " (model " +
-                          str(st.model_id) + ") still has " + str(m->second.live_solvers) +
-                          " solver" + (m->second.live_solvers == 1 ? "" : "s") +
-                          "; free them first");
-    table().live.erase(m);
-  }
+  table().live.erase(st.model_id);
   kl_study_free(st.study);
   table().live.erase(c.whole<int>(c.arg(0), "study id"));
   return none();
 }
 
-/* The study's model as a borrowed handle: one per study, made on the
- * first call, freed with the study. */
+/* The study's model as a borrowed handle: one per study (made again if
+ * its handle was freed), ended with the study. */
 octave_value_list cmd_study_model(const call &c) {
   entry &st = c.study(0);
-  if (st.model_id == 0) {
+  if (table().live.count(st.model_id) == 0) {
     entry e;
     /* writes through it are refused (entry::owner), so the const the
      * library gives is kept */

@@ -12,12 +12,14 @@ classdef Model < kinloop.ModelMethods
   % kinloop:ESELFJOINT) with the library's message and changes nothing.
   % The methods of the plain library functions come from kinloop.ModelMethods
   % (generated from kinloop.h); methods(m) lists them all. The model is
-  % freed when the last reference to it goes (a kinloop.Solver keeps its
-  % model alive), or by delete(m).
+  % let go of when the last reference to it goes, or by delete(m); its
+  % solvers and studies keep working after delete(m) (the library keeps
+  % the model for them), while m's own methods raise kinloop:bad_handle.
   %
   % A study's model (kinloop.Study's model()) is borrowed: the object keeps
   % its study alive, refuses every change (kinloop:ESTATE: it is finalized),
-  % and delete of it frees nothing; the model goes with the study.
+  % and delete of it frees nothing; the handle ends with the study, its
+  % solvers keep working.
 
   methods
     function obj = Model(how, id, owner)

@@ -5,14 +5,16 @@ classdef Solver < kinloop.SolverMethods
   %   s = kinloop.Solver(model)               memory from the model's allocator
   %   s = kinloop.Solver(model, 'in_block')   placed in one block the binding
   %                                           holds (kl_solver_new_in)
+  %   s = kinloop.Solver(other)               another solver of other's model
   %
   % Inputs, rates and accelerations are vectors in input order. Getters
   % take one id or a vector of ids; point getters give [x y]. Rates and
   % accelerations not solved at the current position read as NaN. A failed
   % call raises 'kinloop:<status>' with the library's message and leaves the
   % solver as it was. The methods of the plain library functions come from
-  % kinloop.SolverMethods (generated from kinloop.h). The solver keeps its
-  % model alive; it is freed when the last reference goes, or by delete(s).
+  % kinloop.SolverMethods (generated from kinloop.h). The library keeps the
+  % model for the solver: delete(model) leaves the solver working. The
+  % solver is freed when the last reference goes, or by delete(s).
 
   properties (SetAccess = private)
     model = [];    % the kinloop.Model it solves
@@ -20,8 +22,8 @@ classdef Solver < kinloop.SolverMethods
 
   methods
     function obj = Solver(model, where)
-      if ~isa(model, 'kinloop.Model')
-        error('kinloop:EINVAL', 'kinloop.Solver: the argument must be a kinloop.Model');
+      if ~isa(model, 'kinloop.Model') && ~isa(model, 'kinloop.Solver')
+        error('kinloop:EINVAL', 'kinloop.Solver: the argument must be a kinloop.Model or Solver');
       end
       if nargin < 2
         obj.id = __kinloop__('solver_new', model.id);
@@ -29,6 +31,9 @@ classdef Solver < kinloop.SolverMethods
         obj.id = __kinloop__('solver_new_in', model.id);
       else
         error('kinloop:EINVAL', 'kinloop.Solver: the second argument may only be ''in_block''');
+      end
+      if isa(model, 'kinloop.Solver')
+        model = model.model;
       end
       obj.model = model;
     end
@@ -74,7 +79,7 @@ classdef Solver < kinloop.SolverMethods
 
     function modes = assemblies(obj, inputs)
       % A cell array of new solvers, one per assembly mode at inputs.
-      modes = arrayfun(@(k) kinloop.Solver(obj.model), 1:obj.find_assemblies(inputs), ...
+      modes = arrayfun(@(k) kinloop.Solver(obj), 1:obj.find_assemblies(inputs), ...
                        'UniformOutput', false);
       obj.find_assemblies(inputs, modes);
     end

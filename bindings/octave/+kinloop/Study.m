@@ -16,8 +16,8 @@ classdef Study < kinloop.StudyMethods
   % the study's seed and its index alone, whatever the threads or the split.
   % st.model() is the nominal model, borrowed: it keeps the study alive and
   % cannot be changed or freed. The study is freed when the last reference
-  % goes, or by delete(st); while solvers of its model live, delete raises
-  % kinloop:in_use.
+  % goes, or by delete(st); that ends its model's handle too, while solvers
+  % made from it keep working (the library keeps the model for them).
 
   methods
     function obj = Study(how, id)
