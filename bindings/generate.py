@@ -207,7 +207,9 @@ class Function:
 # (N is the caller's to give, unless it also counts an array given); "CAP
 # fills", an array the function fills up to CAP elements while it returns
 # how many there are (the bindings size it by a first call with NULL and 0,
-# and give the caller the items). The header documents the same in words.
+# and give the caller the items); "per X out", an array the function fills
+# with kl_model_X(model) elements (per joint_count: one per joint). The
+# header documents the same in words.
 # Handles, fixed arrays (double xy[2]) and sized structs need no entry; a
 # function with any other pointer is bound by hand. generate.py stops if an entry names a
 # function or parameter the header does not declare.
@@ -253,12 +255,20 @@ POINTERS = {
     "kl_cam_set_program": {"segments": "nsegments"},
     "kl_cam_outline": {"pitch_xy": "n pairs out", "surface_xy": "n pairs out"},
     "kl_solver_follow_path": {"path_x": "npoints", "path_y": "npoints"},
+    "kl_solver_row": {"row": "per row_size out"},
+    "kl_cycle_summarize": {"c": "one", "loads": "nloads", "input_peaks": "per input_count out",
+                           "joint_peaks": "per joint_count out"},
 }
+
+# Getters of a const handle that stay methods in Python (not properties):
+# each call makes a new array of the current state.
+METHODS = {"kl_solver_row"}
 
 
 def role_count(role):
     """The parameter a POINTERS role names as its count, or None."""
-    return None if role in ("out", "one", "inputs") else role.split()[0]
+    return None if role in ("out", "one", "inputs") or role.startswith("per ") \
+        else role.split()[0]
 
 
 def check_pointers(header):
@@ -300,7 +310,6 @@ class Arg:
       struct_in    one struct read (a sized one, or "one" in POINTERS)
       out_value    one int or double the function fills
       out_array    a fixed array the function fills (double xy[2])
-      inputs_out   double *, one per input, filled
       struct_out   one struct filled (a sized one, or "out" in POINTERS)
       array_out    count elements (x, y pairs if per is 2) the function fills
       filled       up to count elements the function fills, returning how
@@ -312,6 +321,7 @@ class Arg:
         self.per = per  # numbers per counted element (2 for x, y pairs)
         self.ctype, self.length, self.enum, self.struct = ctype, length, enum, struct
         self.const, self.optional, self.count = const, optional, count
+        self.per_model = None  # array_out: its count is kl_model_<per_model>(model)
 
     @property
     def is_input(self):
@@ -320,7 +330,7 @@ class Arg:
 
     @property
     def is_output(self):
-        return self.kind in ("out_value", "out_array", "inputs_out", "struct_out",
+        return self.kind in ("out_value", "out_array", "struct_out",
                              "filled", "array_out")
 
 
@@ -400,8 +410,16 @@ class Binding:
                 self.args.append(Arg("out_value", p.name, [p], ctype=p.base,
                                      enum=header.enum("kl_" + p.name)
                                      if p.base == "int" else None))
-            elif role == "inputs" and p.base == "double" and p.pointers == 1:
-                self.args.append(Arg("inputs_in" if p.const else "inputs_out", p.name, [p]))
+            elif role == "inputs" and p.base == "double" and p.pointers == 1 and p.const:
+                self.args.append(Arg("inputs_in", p.name, [p]))
+            elif role is not None and (role == "inputs" or role.startswith("per ")) and \
+                    not p.const and p.pointers == 1 and \
+                    (p.base in ("int", "double") or struct is not None):
+                # an array as long as the model says: kl_model_<per>(model)
+                a = Arg("array_out", p.name, [p], ctype=p.base, struct=struct,
+                        count=p.name + "_n")
+                a.per_model = "input_count" if role == "inputs" else role.split()[1]
+                self.args.append(a)
             elif role is not None and role.split()[-1] in ("fills", "out") and \
                     role_count(role) is not None and not p.const and p.pointers == 1 and \
                     (p.base in ("int", "double") or struct is not None):
@@ -437,7 +455,7 @@ class Binding:
         f = self.f
         # a function that fills a value or a struct returns whether it did
         self.status = f.result == "int" and (returns_status(header, f) or any(
-            a.kind in ("struct_out", "out_value", "inputs_out", "array_out")
+            a.kind in ("struct_out", "out_value", "array_out")
             for a in self.args))
         # a function filling up to a capacity returns a count the bindings use
         self.fills = next((a for a in self.args if a.kind == "filled"), None)
@@ -487,7 +505,7 @@ class Binding:
     def is_property(self):
         """A getter of a const handle that takes nothing else (Python)."""
         return self.handle is not None and self.handle_const and not self.inputs and \
-            (self.value_result or self.outputs)
+            (self.value_result or self.outputs) and self.name not in METHODS
 
     @property
     def vectorized(self):
@@ -720,6 +738,8 @@ def py_method(b):
     for a in b.args:
         n = py_name(a.name)
         if a.kind in ("filled", "array_out"):
+            if a.per_model:
+                pre.append("%s = lib.kl_model_%s(self._model_ptr)" % (a.count, a.per_model))
             late += py_output_array(a)
             call.append(n if a.struct or a.kind == "filled" else
                         "%s.ctypes.data_as(DOUBLES)" % n)
@@ -762,10 +782,6 @@ def py_method(b):
             params.append(n + "=None")
             pre.append("%s = self._inputs(%s, %r, %r)" % (n, n, f, a.name))
             call.append(n)
-        elif a.kind == "inputs_out":
-            pre.append("%s = (ctypes.c_double * max(self._input_count, 1))()" % n)
-            call.append(n)
-            results.append("np.array(%s[:self._input_count])" % n)
         elif a.kind == "out_value":
             pre.append("%s = %s()" % (n, PY_CTYPES[a.ctype]))
             call.append("ctypes.byref(%s)" % n)
@@ -1040,6 +1056,8 @@ def octave_wrapper(header, b):
         n = a.name + "_" if a.name in ("c", "h", "out", "r") else a.name
         what = cpp_string(a.name)
         if a.kind in ("filled", "array_out"):
+            if a.per_model:
+                lines.append("  int %s = kl_model_%s(h.model);" % (a.count, a.per_model))
             more, arg, out = octave_output_array(a, n)
             late += more
             call_args.append(arg)
@@ -1104,17 +1122,18 @@ def octave_wrapper(header, b):
             lines.append("  int %s_n = kl_model_input_count(h.model);" % n)
             lines.append("  std::vector<double> %s = c.values(%d, %s_n, %s);" % (n, i, n, what))
             call_args.append("%s_n > 0 ? %s.data() : nullptr" % (n, n))
-        elif a.kind == "inputs_out":
-            lines.append("  int %s_n = kl_model_input_count(h.model);" % n)
-            lines.append("  std::vector<double> %s(%s_n > 0 ? %s_n : 1);" % (n, n, n))
-            call_args.append("%s.data()" % n)
-            outs.append("row(%s.data(), %s_n)" % (n, n))
         elif a.kind == "struct_in":
             lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
-            if a.struct.sized:
+            defaults = header.function("kl_%s_default" % a.struct.name[3:])
+            if defaults is not None:
+                # the fields given replace the defaults; [] keeps them all
+                lines.append("  %s(&%s);" % (defaults.name, n))
+                lines.append("  if (c.given(%d))" % i)
+            elif a.struct.sized:
                 lines.append("  %s.size = sizeof %s;" % (n, n))
-            lines.append("  from_octave(c, c.one_struct(%d, %s), 0, %s, %s, %s);" % (
-                i, what, what, n, "true" if a.struct.sized else "false"))
+            lines.append("%sfrom_octave(c, c.one_struct(%d, %s), 0, %s, %s, %s);" % (
+                "    " if defaults else "  ", i, what, what, n,
+                "true" if a.struct.sized and not defaults else "false"))
             call_args.append("&" + n)
         elif a.kind == "struct_out":
             lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))

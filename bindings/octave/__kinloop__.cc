@@ -313,15 +313,6 @@ octave_value_list cmd_model_free(const call &c) {
   return none();
 }
 
-/* The current state as one row (kl_solver_row), laid out as the model's
- * row_offset says. */
-octave_value_list cmd_solver_row(const call &c) {
-  entry &s = c.solver(0, access::read);
-  std::vector<double> values(static_cast<size_t>(kl_model_row_size(s.model)));
-  c.check(kl_solver_row(s.solver, values.data()));
-  return one(row(values.data(), static_cast<int>(values.size())));
-}
-
 /* A model or study read, or the reason it was not: raised, or with two
  * outputs returned as ([], error struct). */
 template <typename T>
@@ -599,25 +590,6 @@ Matrix from_rows(const std::vector<double> &v, long rows, int columns) {
   return out;
 }
 
-/* [summary, input_peaks, joint_peaks] of kl_cycle_summarize. */
-octave_value_list cmd_cycle_summarize(const call &c) {
-  entry &s = c.solver(0);
-  cycle_arguments a(c);
-  int ni = kl_model_input_count(s.model), nj = kl_model_joint_count(s.model);
-  std::vector<kl_cycle_peak> inputs(static_cast<size_t>(ni > 0 ? ni : 1));
-  std::vector<kl_cycle_peak> joints(static_cast<size_t>(nj > 0 ? nj : 1));
-  kl_cycle_summary sum = kl_cycle_summary();
-  sum.size = sizeof sum;
-  c.check(kl_cycle_summarize(s.solver, &a.cycle, a.nloads, a.load_array(), &sum,
-                             inputs.data(), joints.data()),
-          kl_solver_error(s.solver));
-  octave_value_list out;
-  out(0) = to_octave(sum);
-  out(1) = struct_row(inputs.data(), ni);
-  out(2) = struct_row(joints.data(), nj);
-  return out;
-}
-
 /* kl_solver_workspace as a struct: the result's fields, and xy (a row
  * per vertex), curve (each vertex's curve number) and kind (the name of
  * the kind of the stretch from each vertex), the arrays grown until the
@@ -853,7 +825,6 @@ const command hand_commands[] = {
     {"status_name", 1, 1, "(status)", cmd_status_name},
     {"model_new", 0, 0, "()", cmd_model_new},
     {"model_free", 1, 1, "(model)", cmd_model_free},
-    {"solver_row", 1, 1, "(solver)", cmd_solver_row},
     {"model_read", 1, 1, "(text)", cmd_model_read},
     {"model_read_file", 1, 1, "(path)", cmd_model_read_file},
     {"model_write", 1, 1, "(model)", cmd_model_write},
@@ -864,7 +835,6 @@ const command hand_commands[] = {
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
-    {"cycle_summarize", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_summarize},
     {"solver_workspace", 2, 3, "(solver, point, [options])", cmd_solver_workspace},
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
     {"study_read", 2, 2, "(text, model)", cmd_study_read},

@@ -112,11 +112,6 @@ classdef Solver < kinloop.SolverMethods
       end
     end
 
-    function values = row(obj)
-      % Every quantity of the current state as one row (kl_solver_row).
-      values = __kinloop__('solver_row', obj.id);
-    end
-
     % ---- force figures over a cycle ----
 
     function [summary, inputs, joints] = cycle_summarize(obj, loads, varargin)

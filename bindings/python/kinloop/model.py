@@ -166,10 +166,9 @@ class Model(_api.ModelMethods, Handle):
         return [self.loop(k) for k in range(self.loop_count)]
 
     @property
-    def _input_count(self):
-        """The count of a generated method's array per input
-        (kl_model_start_inputs)."""
-        return self.input_count
+    def _model_ptr(self):
+        """The model of a generated method's arrays per item (kl_model_<item>_count)."""
+        return self._handle
 
     @property
     def loads(self):

@@ -6,14 +6,13 @@ arrays, copies, assembly modes, sweeps with their recorder and callback,
 and the force figures over a cycle (summary and table)."""
 
 import ctypes
-import math
 import weakref
 
 import numpy as np
 
 from . import _api, raw
 from ._args import array_of, refuse, to_int, with_fields
-from ._core import Handle, KinloopError, as_enum, check_const, value_of
+from ._core import Handle, KinloopError, as_enum, value_of
 from ._header import MAX_STEPS, Status, WorkspaceKind
 from .model import row_layout
 from .values import Cycle, CycleFigures, SweepResult, Workspace, cycle_table_dtype
@@ -148,13 +147,6 @@ class Solver(_api.SolverMethods, Handle):
 
     # ---- sweeps ----
 
-    def row(self):
-        """Every quantity of the current state as one row (kl_solver_row),
-        laid out as Model.row_layout says."""
-        row = np.full(self._row_size, math.nan)
-        check_const(_api.kl_solver_row(self._handle, row.ctypes.data_as(_DOUBLES)), "row")
-        return row
-
     def sweep(self, input, from_, to, steps, callback=None):
         """Sweeps input `input` from `from_` to `to` in `steps` steps.
 
@@ -226,13 +218,12 @@ class Solver(_api.SolverMethods, Handle):
 
     # ---- force figures over a cycle ----
 
-    def _cycle_arguments(self, function, loads, cycle, fields):
+    @staticmethod
+    def _cycle(function, cycle, fields):
         """The cycle (`cycle`, default Cycle(), with `fields` replacing
-        fields by name) and the loads as the C calls take them."""
-        c = with_fields(cycle if cycle is not None else Cycle(), "Cycle", fields, function,
-                        "cycle")
-        loads, count = array_of(loads, raw.kl_load, function, "loads")
-        return c, loads, count
+        fields by name)."""
+        return with_fields(cycle if cycle is not None else Cycle(), "Cycle", fields, function,
+                           "cycle")
 
     def cycle_summarize(self, loads=(), cycle=None, **fields):
         """The force figures of a cycle (kl_cycle_summarize): input
@@ -249,16 +240,8 @@ class Solver(_api.SolverMethods, Handle):
         A negative status raises KinloopError (INDETERMINATE for a declared
         redundancy, ESINGULAR at a singular sample, ...) and leaves the
         solver as it was."""
-        function = "kl_cycle_summarize"
-        c, loads, count = self._cycle_arguments(function, loads, cycle, fields)
-        ninputs, njoints = self._input_count, _api.kl_model_joint_count(self._model_ptr)
-        summary = raw.kl_cycle_summary()
-        inputs = (raw.kl_cycle_peak * max(ninputs, 1))()
-        joints = (raw.kl_cycle_peak * max(njoints, 1))()
-        self._check(_api.kl_cycle_summarize(self._changing, c, count, loads,
-                                            ctypes.byref(summary), inputs, joints))
-        return CycleFigures(value_of(summary), [value_of(p) for p in inputs[:ninputs]],
-                            [value_of(p) for p in joints[:njoints]])
+        return CycleFigures(*super().cycle_summarize(
+            self._cycle("kl_cycle_summarize", cycle, fields), loads))
 
     def workspace(self, point, options=None, cap=4096, **fields):
         """The workspace of `point` (kl_solver_workspace) for a model with two
@@ -302,7 +285,8 @@ class Solver(_api.SolverMethods, Handle):
         by a motion limit gives the samples it reached (fewer than
         steps + 1). A negative status raises KinloopError."""
         function = "kl_cycle_table"
-        c, loads, count = self._cycle_arguments(function, loads, cycle, fields)
+        c = self._cycle(function, cycle, fields)
+        loads, count = array_of(loads, raw.kl_load, function, "loads")
         mh = self._model_ptr
         dtype = cycle_table_dtype(self._input_count, _api.kl_model_joint_count(mh))
         columns = _api.kl_cycle_columns(mh)
