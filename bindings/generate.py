@@ -208,8 +208,12 @@ class Function:
 # fills", an array the function fills up to CAP elements while it returns
 # how many there are (the bindings size it by a first call with NULL and 0,
 # and give the caller the items); "per X out", an array the function fills
-# with kl_model_X(model) elements (per joint_count: one per joint). The
-# header documents the same in words.
+# with kl_model_X(model) elements (per joint_count: one per joint); "CAP
+# grows FIELD", an array the function fills up to CAP elements, returning
+# KL_ETRUNCATED when they do not fit and the count in FIELD of the struct
+# it fills (the bindings call again with four times CAP, from the caller's
+# CAP, default GROW_FROM, up to GROW_UP_TO). The header documents the same
+# in words.
 # Handles, fixed arrays (double xy[2]) and sized structs need no entry; a
 # function with any other pointer is bound by hand. generate.py stops if an entry names a
 # function or parameter the header does not declare.
@@ -256,9 +260,14 @@ POINTERS = {
     "kl_cam_outline": {"pitch_xy": "n pairs out", "surface_xy": "n pairs out"},
     "kl_solver_follow_path": {"path_x": "npoints", "path_y": "npoints"},
     "kl_solver_row": {"row": "per row_size out"},
+    "kl_solver_workspace": {"xy": "cap pairs grows vertices", "curves": "cap grows vertices",
+                            "kinds": "cap grows vertices"},
     "kl_cycle_summarize": {"c": "one", "loads": "nloads", "input_peaks": "per input_count out",
                            "joint_peaks": "per joint_count out"},
 }
+
+# Where a growing array starts (elements), and where it stops growing.
+GROW_FROM, GROW_UP_TO = 4096, 1 << 22
 
 # Getters of a const handle that stay methods in Python (not properties):
 # each call makes a new array of the current state.
@@ -331,7 +340,7 @@ class Arg:
     @property
     def is_output(self):
         return self.kind in ("out_value", "out_array", "struct_out",
-                             "filled", "array_out")
+                             "filled", "array_out", "grown")
 
 
 class Binding:
@@ -368,8 +377,10 @@ class Binding:
         counts = {role_count(role) for role in roles.values()} - {None}
         # a count that only sizes arrays the function fills is the caller's
         # to give; the bindings take the others from the arrays (or a probe)
-        given = {n for n in counts if all(role.endswith(" out") for role in roles.values()
+        given = {n for n in counts if all(role.endswith(" out") or " grows " in role
+                                          for role in roles.values()
                                           if role_count(role) == n)}
+        self.grows = None  # the capacity parameter of arrays that grow
         counts -= given
         k = 0
         while k < len(params):
@@ -427,6 +438,17 @@ class Binding:
                                      p.name, [p], ctype=p.base, struct=struct,
                                      count=role_count(role),
                                      per=2 if " pairs" in role else 1))
+            elif role is not None and " grows " in role and not p.const and \
+                    p.pointers == 1 and p.base in ("int", "double"):
+                a = Arg("grown", p.name, [p], ctype=p.base, count=role_count(role),
+                        per=2 if " pairs " in role else 1,
+                        # an int array holds the enum its doc names and it is named after
+                        enum=next((e for e in header.enums if p.base == "int" and
+                                   e.short.endswith("_" + p.name.rstrip("s")) and
+                                   re.search(r"\b%s\b" % e.name, f.doc)), None))
+                a.field = role.split()[-1]
+                self.grows = role_count(role)
+                self.args.append(a)
             elif role is not None and role.split()[0] in counts and p.const and \
                     p.pointers == 1 and (p.base in ("int", "double") or struct is not None):
                 self.args.append(Arg("array_in", p.name, [p], ctype=p.base, struct=struct,
@@ -444,6 +466,10 @@ class Binding:
                             "struct, and POINTERS does not say what it is" % p.decl)
                 self.args.append(Arg("other", p.name, [p]))
             k += 1
+        # the capacity of growing arrays is a first guess the caller may leave out
+        for a in self.args:
+            if a.kind == "scalar" and a.name == self.grows:
+                a.optional = True
         # a builder's trailing name may be left out (NULL: an unnamed item)
         if f.name.startswith("kl_add_") and self.args and \
                 self.args[-1].kind == "string" and self.args[-1].name == "name":
@@ -455,7 +481,7 @@ class Binding:
         f = self.f
         # a function that fills a value or a struct returns whether it did
         self.status = f.result == "int" and (returns_status(header, f) or any(
-            a.kind in ("struct_out", "out_value", "array_out")
+            a.kind in ("struct_out", "out_value", "array_out", "grown")
             for a in self.args))
         # a function filling up to a capacity returns a count the bindings use
         self.fills = next((a for a in self.args if a.kind == "filled"), None)
@@ -680,6 +706,7 @@ def python_header(header):
 
 PY_CONVERT = {"int": "to_int", "long": "to_long", "size_t": "to_size", "double": "to_double"}
 PY_CTYPES = {"int": "ctypes.c_int", "double": "ctypes.c_double"}
+PY_POINTERS = {"int": "INTS", "double": "DOUBLES"}
 
 
 def py_checked_call(b):
@@ -737,6 +764,16 @@ def py_method(b):
     f = b.name
     for a in b.args:
         n = py_name(a.name)
+        if a.kind == "grown":
+            cap = py_name(a.count)
+            late.append("%s = np.zeros(%s)" % (n, "(max(%s, 0), 2)" % cap if a.per == 2 else
+                                                 "max(%s, 0), dtype=np.intc" % cap))
+            call.append("%s.ctypes.data_as(%s)" % (n, PY_POINTERS[a.ctype]))
+            got = "%s[:%s.%s]" % (n, next(x.name for x in b.args if x.kind == "struct_out"),
+                                  a.field)
+            results.append("np.array([as_enum(H.%s, k) for k in %s], dtype=object)" % (
+                a.enum.python, got) if a.enum else got)
+            continue
         if a.kind in ("filled", "array_out"):
             if a.per_model:
                 pre.append("%s = lib.kl_model_%s(self._model_ptr)" % (a.count, a.per_model))
@@ -796,7 +833,8 @@ def py_method(b):
             call.append("ctypes.byref(%s)" % n)
             results.append("value_of(%s)" % n)
         else:
-            params.append(n + "=None" if a.optional else n)
+            params.append(n + ("=%d" % GROW_FROM if a.name == b.grows else "=None")
+                          if a.optional else n)
             call.append(n)
     for count, arrays in counts.items():
         pre.append("%s = same_count(%r, %r, %s)" % (
@@ -807,7 +845,16 @@ def py_method(b):
         room = {py_name(b.fills.name): "None", py_name(b.fills.count): "0"}
         pre.append("%s = %s" % (py_name(b.fills.count), py_checked(
             b, "%s(%s)" % (f, ", ".join(room.get(x, x) for x in call)))))
-    pre += late
+    if b.grows:
+        # the C call cannot grow the caller's arrays: a larger call each time
+        cap = py_name(b.grows)
+        pre += ["%s = to_int(%s, %r, %r)" % (cap, cap, f, b.grows), "while True:"] + ["    " + l for l in late] + [
+            "    status = %s" % expr,
+            "    if status != Status.ETRUNCATED or %s >= %d:" % (cap, GROW_UP_TO),
+            "        break", "    %s *= 4" % cap]
+        expr = "status"
+    else:
+        pre += late
     if b.f.result in ("int", "long"):
         expr = py_checked(b, expr)
         if b.enum is not None:
@@ -901,7 +948,8 @@ def python_api(header):
            "from ._header import Status",
            "from .raw import lib", "",
            "#: what numpy arrays the C functions fill are passed as",
-           "DOUBLES = ctypes.POINTER(ctypes.c_double)", "", "",
+           "DOUBLES = ctypes.POINTER(ctypes.c_double)",
+           "INTS = ctypes.POINTER(ctypes.c_int)", "", "",
            "# ---- checked calls: one per KL_API function ----", ""]
     for b in bs:
         out += py_checked_call(b)
@@ -1055,6 +1103,16 @@ def octave_wrapper(header, b):
         # named so takes a trailing _
         n = a.name + "_" if a.name in ("c", "h", "out", "r") else a.name
         what = cpp_string(a.name)
+        if a.kind == "grown":
+            lines.append("  std::vector<%s> %s;" % (a.ctype, n))
+            late.append("    %s.assign(%s * static_cast<size_t>(%s), 0);" % (n, a.per, a.count))
+            call_args.append("%s.data()" % n)
+            got = "%s.data(), %s.%s" % (n, next(x.name for x in b.args if x.kind == "struct_out"),
+                                        a.field)
+            outs.append("pairs(%s)" % got if a.per == 2 else
+                        "code_names(%s_names, %s)" % (a.enum.name, got) if a.enum else
+                        "row(%s)" % got)
+            continue
         if a.kind in ("filled", "array_out"):
             if a.per_model:
                 lines.append("  int %s = kl_model_%s(h.model);" % (a.count, a.per_model))
@@ -1090,6 +1148,8 @@ def octave_wrapper(header, b):
             conv = ("c.code(c.arg(%d), %s, %s_names)" % (i, what, a.enum.name) if a.enum else
                     "c.real(c.arg(%d), %s)" % (i, what) if a.ctype == "double" else
                     "c.whole<%s>(c.arg(%d), %s)" % (a.ctype, i, what))
+            if a.optional:  # the capacity of growing arrays
+                conv = "c.given(%d) ? %s : %d" % (i, conv, GROW_FROM)
             lines.append("  %s %s = %s;" % ("int" if a.enum else a.ctype, n, conv))
             call_args.append(n)
         elif a.kind == "string" and a.optional:
@@ -1166,8 +1226,15 @@ def octave_wrapper(header, b):
         lines.append("  int %s = %s(%s);" % (b.fills.count, b.name, ", ".join(
             room.get(x, x) for x in call_args)))
         lines.append("  c.check(%s);" % b.fills.count)
-    lines += late
     call = "%s(%s)" % (b.name, ", ".join(call_args))
+    if b.grows:
+        # the C call cannot grow the caller's arrays: a larger call each time
+        lines += ["  int r;", "  for (;; %s *= 4) {" % b.grows] + late + [
+            "    r = %s;" % call,
+            "    if (r != KL_ETRUNCATED || %s >= %d)" % (b.grows, GROW_UP_TO),
+            "      break;", "  }"]
+    else:
+        lines += late
     if vector_arg is not None:
         pos, name = vector_arg
         lines.append("  return one(c.each_id(%d, %s, [&](int %s) { return %s; }));" % (
@@ -1175,7 +1242,7 @@ def octave_wrapper(header, b):
     else:
         if b.f.result == "void":
             lines.append("  %s;" % call)
-        else:
+        elif not b.grows:
             lines.append("  %s r = %s;" % (b.f.result, call))
         if b.f.result in ("int", "long"):
             error = "kl_%s_error" % b.handle

@@ -281,6 +281,23 @@ template <typename T> static octave_value row(const T *v, int n) {
   return row(std::vector<double>(v, v + n).data(), n);
 }
 
+/* n points x, y (2 n doubles) as an n-by-2 matrix. */
+static octave_value pairs(const double *xy, int n) {
+  Matrix out(n, 2);
+  for (int k = 0; k < n; k++)
+    for (int j = 0; j < 2; j++)
+      out(k, j) = xy[2 * k + j];
+  return out;
+}
+
+/* n enum values as a cell row of their names. */
+static octave_value code_names(const named_code *table, const int *codes, int n) {
+  Cell out(1, n);
+  for (int k = 0; k < n; k++)
+    out(k) = code_name(table, codes[k]);
+  return out;
+}
+
 /* A name, or [] where the library gives NULL. */
 static octave_value text_value(const char *text) {
   return text == nullptr ? octave_value(Matrix()) : octave_value(text);
@@ -590,46 +607,6 @@ Matrix from_rows(const std::vector<double> &v, long rows, int columns) {
   return out;
 }
 
-/* kl_solver_workspace as a struct: the result's fields, and xy (a row
- * per vertex), curve (each vertex's curve number) and kind (the name of
- * the kind of the stretch from each vertex), the arrays grown until the
- * curves fit. (solver, point, [options]) */
-octave_value_list cmd_solver_workspace(const call &c) {
-  entry &s = c.solver(0);
-  int point = c.whole<int>(c.arg(1), "point");
-  kl_workspace_options o;
-  kl_workspace_options_default(&o);
-  if (c.given(2)) {
-    octave_map given = c.one_struct(2, "options");
-    from_octave(c, given, 0, "options", o, false);
-  }
-  kl_workspace_result res = kl_workspace_result();
-  res.size = sizeof res;
-  int st;
-  std::vector<double> xy;
-  std::vector<int> curves, kinds;
-  /* the C call cannot grow the caller's arrays: a larger call each time */
-  for (size_t cap = 4096;; cap *= 4) {
-    xy.assign(2 * cap, 0.0);
-    curves.assign(cap, 0);
-    kinds.assign(cap, 0);
-    st = kl_solver_workspace(s.solver, point, &o, xy.data(), curves.data(), kinds.data(),
-                             static_cast<int>(cap), &res);
-    if (st != KL_ETRUNCATED || cap >= (size_t(1) << 22))
-      break;
-  }
-  c.check(st, kl_solver_error(s.solver));
-  int n = res.vertices;
-  octave_scalar_map out = to_octave(res);
-  out.assign("xy", from_rows(xy, n, 2));
-  out.assign("curve", row(curves.data(), n));
-  Cell names(1, n);
-  for (int k = 0; k < n; k++)
-    names(k) = code_name(kl_workspace_kind_names, kinds[static_cast<size_t>(k)]);
-  out.assign("kind", names);
-  return one(out);
-}
-
 /* kl_cycle_table as a struct of named columns, one row per sample: input,
  * effort (a column per input), joint_fx, joint_fy, joint_moment (a column
  * per joint), ground_fx, ground_fy, ground_moment, kinetic_energy, work;
@@ -835,7 +812,6 @@ const command hand_commands[] = {
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
-    {"solver_workspace", 2, 3, "(solver, point, [options])", cmd_solver_workspace},
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
     {"study_read", 2, 2, "(text, model)", cmd_study_read},
     {"study_read_file", 1, 1, "(path)", cmd_study_read_file},

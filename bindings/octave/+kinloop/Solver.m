@@ -142,8 +142,11 @@ classdef Solver < kinloop.SolverMethods
       % (each vertex's curve number, from 0) and kind (a cell of 'boundary'
       % or 'fold', the stretch from each vertex). The solver keeps its
       % state.
-      w = __kinloop__('solver_workspace', obj.id, point, ...
-                      kinloop.Solver.cycle_of(varargin));
+      [xy, curve, kind, w] = workspace@kinloop.SolverMethods(obj, point, ...
+                                                             kinloop.Solver.cycle_of(varargin));
+      w.xy = xy;
+      w.curve = curve;
+      w.kind = kind;
     end
 
     function t = cycle_table(obj, loads, varargin)

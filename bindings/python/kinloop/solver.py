@@ -22,9 +22,6 @@ from .values import Cycle, CycleFigures, SweepResult, Workspace, cycle_table_dty
 _BLOCK_ALIGN = 64
 
 _DOUBLES = ctypes.POINTER(ctypes.c_double)
-_INTS = ctypes.POINTER(ctypes.c_int)
-# The workspace's arrays stop growing here (vertices), some 50 MB.
-_WORKSPACE_MAX_CAP = 1 << 22
 
 
 def _free_solver(ptr, keepalive):
@@ -252,26 +249,10 @@ class Solver(_api.SolverMethods, Handle):
         vertices needed; the arrays grow until the curves fit. Returns a
         Workspace. A negative status raises KinloopError; the solver keeps
         its state either way."""
-        function = "kl_solver_workspace"
         o = with_fields(options if options is not None else _api.WorkspaceOptions(),
-                        "WorkspaceOptions", fields, function, "options")
-        cap = to_int(cap, function, "cap")
-        while True:
-            xy = np.zeros((max(cap, 2), 2))
-            curve = np.zeros(max(cap, 2), dtype=np.intc)
-            kind = np.zeros(max(cap, 2), dtype=np.intc)
-            result = raw.kl_workspace_result()
-            status = _api.kl_solver_workspace(
-                self._changing, point, o, xy.ctypes.data_as(_DOUBLES),
-                curve.ctypes.data_as(_INTS), kind.ctypes.data_as(_INTS), max(cap, 2),
-                ctypes.byref(result))
-            if status != Status.ETRUNCATED or cap >= _WORKSPACE_MAX_CAP:
-                break
-            cap *= 4  # the C call cannot grow the caller's arrays
-        self._check(status)
-        n = result.vertices
-        return Workspace(value_of(result), xy[:n].copy(), curve[:n].copy(),
-                         np.array([WorkspaceKind(k) for k in kind[:n]], dtype=object))
+                        "WorkspaceOptions", fields, "kl_solver_workspace", "options")
+        xy, curve, kind, result = super().workspace(point, o, cap)
+        return Workspace(result, xy.copy(), curve.copy(), kind)
 
     def cycle_table(self, loads=(), cycle=None, **fields):
         """The forces over a cycle sample by sample (kl_cycle_table), the
