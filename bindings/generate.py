@@ -926,10 +926,36 @@ def py_value_type(header, s, bs):
         out.append("    %s: %s = %s" % (py_name(fl.name), kind,
                                         py_default(header, s, fl, defaults)))
     out.append("")
+    out += py_kind_constructors(header, s, bs)
     for b in bs:
         if b.plain and b.owner is s:
             out += py_method(b)
     out += ["", "VALUE_TYPES[H.%s] = %s" % (s.name, name), "", ""]
+    return out
+
+
+def py_kind_constructors(header, s, bs):
+    """A struct the functions read whose first field is its kind (enum
+    kl_<x>_kind): a constructor per kind, named after it in lower case,
+    taking the other fields in order (Output.link_angle(link)); none where
+    a field has that name already."""
+    fields = s.value_fields()
+    e = field_enum(header, fields[0]) if fields and fields[0].name == "kind" else None
+    read = any(a.struct is s and a.kind in ("struct_in", "array_in")
+               for b in bs if b.plain for a in b.args)
+    if e is None or not read:
+        return []
+    out = []
+    for const, _, doc in e.values:
+        name = py_name(e.member(const).lower())
+        if name.rstrip("_") in [fl.name for fl in fields]:
+            continue
+        out += ["    @classmethod", "    def %s(cls, *fields, **named):" % name,
+                py_docstring("%s: %s, the fields after kind (%s) in order" % (
+                    e.member(const).lower(), " ".join(doc.split()),
+                    ", ".join(fl.name for fl in fields[1:])), 8),
+                "        return cls(H.%s.%s, *fields, **named)" % (e.python, e.member(const)),
+                ""]
     return out
 
 
