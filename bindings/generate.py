@@ -212,8 +212,12 @@ class Function:
 # grows FIELD", an array the function fills up to CAP elements, returning
 # KL_ETRUNCATED when they do not fit and the count in FIELD of the struct
 # it fills (the bindings call again with four times CAP, from the caller's
-# CAP, default GROW_FROM, up to GROW_UP_TO). The header documents the same
-# in words.
+# CAP, default GROW_FROM, up to GROW_UP_TO); "text CAP LENGTH", a string
+# the function writes into a buffer of CAP bytes (a size_t) with its length
+# into *LENGTH (a size_t), sized by a first call with NULL and 0; "error",
+# a struct the function fills with why it failed (kl_io_error: status,
+# line, column, message), which the bindings raise. The header documents
+# the same in words.
 # Handles, fixed arrays (double xy[2]) and sized structs need no entry; a
 # function with any other pointer is bound by hand. generate.py stops if an entry names a
 # function or parameter the header does not declare.
@@ -260,6 +264,8 @@ POINTERS = {
     "kl_cam_outline": {"pitch_xy": "n pairs out", "surface_xy": "n pairs out"},
     "kl_solver_follow_path": {"path_x": "npoints", "path_y": "npoints"},
     "kl_solver_row": {"row": "per row_size out"},
+    "kl_model_write": {"buf": "text cap needed"},
+    "kl_model_write_file": {"err": "error"},
     "kl_solver_workspace": {"xy": "cap pairs grows vertices", "curves": "cap grows vertices",
                             "kinds": "cap grows vertices"},
     "kl_cycle_summarize": {"c": "one", "loads": "nloads", "input_peaks": "per input_count out",
@@ -270,14 +276,14 @@ POINTERS = {
 GROW_FROM, GROW_UP_TO = 4096, 1 << 22
 
 # Getters of a const handle that stay methods in Python (not properties):
-# each call makes a new array of the current state.
-METHODS = {"kl_solver_row"}
+# each call makes a new array (or text) of the current state.
+METHODS = {"kl_solver_row", "kl_model_write"}
 
 
 def role_count(role):
     """The parameter a POINTERS role names as its count, or None."""
-    return None if role in ("out", "one", "inputs") or role.startswith("per ") \
-        else role.split()[0]
+    return None if role in ("out", "one", "inputs", "error") or \
+        role.split()[0] in ("per", "text") else role.split()[0]
 
 
 def check_pointers(header):
@@ -340,7 +346,7 @@ class Arg:
     @property
     def is_output(self):
         return self.kind in ("out_value", "out_array", "struct_out",
-                             "filled", "array_out", "grown")
+                             "filled", "array_out", "grown", "text_out")
 
 
 class Binding:
@@ -371,8 +377,11 @@ class Binding:
         if f.result not in ("void", "int", "long", "size_t", "double", "const char *"):
             self.refuse("returns %s" % f.result)
         params = list(f.params)
-        if any(p.base == "size_t" and not p.pointers for p in params) and \
-                any(p.pointers and p.base[3:] not in HANDLES for p in params):
+        # the size and length of a text buffer, which the bindings give
+        text = {n: role for role in roles.values() if role.startswith("text ")
+                for n in role.split()[1:]}
+        if any(p.base == "size_t" and not p.pointers and p.name not in text for p in params) \
+                and any(p.pointers and p.base[3:] not in HANDLES for p in params):
             self.refuse("a size_t sizes the memory of a pointer argument")
         counts = {role_count(role) for role in roles.values()} - {None}
         # a count that only sizes arrays the function fills is the caller's
@@ -381,6 +390,7 @@ class Binding:
                                           for role in roles.values()
                                           if role_count(role) == n)}
         self.grows = None  # the capacity parameter of arrays that grow
+        self.text = self.error = None  # a text written, a failure's report
         counts -= given
         k = 0
         while k < len(params):
@@ -388,7 +398,19 @@ class Binding:
             nxt = params[k + 1] if k + 1 < len(params) else None
             struct = header.struct(p.base)
             role = roles.get(p.name)
-            if p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
+            if p.name in text and p.base == "size_t" and \
+                    p.pointers == (p.name == text[p.name].split()[2]):
+                self.args.append(Arg("text_part", p.name, [p]))
+            elif role is not None and role.startswith("text ") and p.base == "char" and \
+                    not p.const and p.pointers == 1:
+                self.text = Arg("text_out", p.name, [p], count=role.split()[1])
+                self.text.field = role.split()[2]
+                self.args.append(self.text)
+            elif role == "error" and struct is not None and struct.reports_error and \
+                    p.pointers == 1 and not p.const:
+                self.error = Arg("error_out", p.name, [p], struct=struct)
+                self.args.append(self.error)
+            elif p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
                     and k == 0:
                 self.handle, self.handle_const = p.base[3:], p.const
                 self.args.append(Arg("handle", p.name, [p], const=p.const))
@@ -481,7 +503,8 @@ class Binding:
         f = self.f
         # a function that fills a value or a struct returns whether it did
         self.status = f.result == "int" and (returns_status(header, f) or any(
-            a.kind in ("struct_out", "out_value", "array_out", "grown")
+            a.kind in ("struct_out", "out_value", "array_out", "grown", "error_out",
+                       "text_out")
             for a in self.args))
         # a function filling up to a capacity returns a count the bindings use
         self.fills = next((a for a in self.args if a.kind == "filled"), None)
@@ -735,7 +758,11 @@ def py_checked_call(b):
 
 def py_checked(b, expr):
     """A C call's status checked: with the handle's message, or, for a
-    const handle (which keeps none), naming the call and its arguments."""
+    const handle (which keeps none), naming the call and its arguments; a
+    call reporting its failure in a struct raises with what that says."""
+    if b.error is not None:
+        shown = "".join(", " + py_name(a.name) for a in b.inputs)
+        return "check_report(%s, %s, %r%s)" % (expr, b.error.name, b.method, shown)
     if b.handle is None or b.handle_const:
         shown = "".join(", " + py_name(a.name) for a in b.inputs)
         return "check_const(%s, %r%s)" % (expr, b.method, shown)
@@ -764,6 +791,20 @@ def py_method(b):
     f = b.name
     for a in b.args:
         n = py_name(a.name)
+        if a.kind == "text_out":
+            pre.append("%s = ctypes.c_size_t()" % a.field)
+            late.append("%s = ctypes.create_string_buffer(%s.value + 1)" % (n, a.field))
+            call.append(n)
+            results.append("text(%s.raw[:%s.value])" % (n, a.field))
+            continue
+        if a.kind == "text_part":
+            call.append("len(%s)" % b.text.name if a.name == b.text.count else
+                        "ctypes.byref(%s)" % n)
+            continue
+        if a.kind == "error_out":
+            pre.append("%s = H.%s()" % (n, a.struct.name))
+            call.append("ctypes.byref(%s)" % n)
+            continue
         if a.kind == "grown":
             cap = py_name(a.count)
             late.append("%s = np.zeros(%s)" % (n, "(max(%s, 0), 2)" % cap if a.per == 2 else
@@ -845,6 +886,10 @@ def py_method(b):
         room = {py_name(b.fills.name): "None", py_name(b.fills.count): "0"}
         pre.append("%s = %s" % (py_name(b.fills.count), py_checked(
             b, "%s(%s)" % (f, ", ".join(room.get(x, x) for x in call)))))
+    if b.text:
+        # a first call with no room says how long the text is
+        room = {b.text.name: "None", "len(%s)" % b.text.name: "0"}
+        pre.append(py_checked(b, "%s(%s)" % (f, ", ".join(room.get(x, x) for x in call))))
     if b.grows:
         # the C call cannot grow the caller's arrays: a larger call each time
         cap = py_name(b.grows)
@@ -970,7 +1015,7 @@ def python_api(header):
            "from ._args import (array_of, flat_pairs, same_count, struct_in, to_double,",
            "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
            "                    to_string)",
-           "from ._core import VALUE_TYPES, as_enum, check_const, text, value_of",
+           "from ._core import VALUE_TYPES, as_enum, check_const, check_report, text, value_of",
            "from ._header import Status",
            "from .raw import lib", "",
            "#: what numpy arrays the C functions fill are passed as",
@@ -1129,6 +1174,20 @@ def octave_wrapper(header, b):
         # named so takes a trailing _
         n = a.name + "_" if a.name in ("c", "h", "out", "r") else a.name
         what = cpp_string(a.name)
+        if a.kind == "text_out":
+            lines.append("  size_t %s = 0;" % a.field)
+            late.append("  std::string %s(%s + 1, '\\0');" % (n, a.field))
+            call_args.append("&%s[0]" % n)
+            outs.append("octave_value(%s.substr(0, %s))" % (n, a.field))
+            continue
+        if a.kind == "text_part":
+            call_args.append("%s.size()" % b.text.name if a.name == b.text.count else "&" + n)
+            continue
+        if a.kind == "error_out":
+            lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
+            lines.append("  %s.size = sizeof %s;" % (n, n))
+            call_args.append("&" + n)
+            continue
         if a.kind == "grown":
             lines.append("  std::vector<%s> %s;" % (a.ctype, n))
             late.append("    %s.assign(%s * static_cast<size_t>(%s), 0);" % (n, a.per, a.count))
@@ -1252,6 +1311,11 @@ def octave_wrapper(header, b):
         lines.append("  int %s = %s(%s);" % (b.fills.count, b.name, ", ".join(
             room.get(x, x) for x in call_args)))
         lines.append("  c.check(%s);" % b.fills.count)
+    if b.text:
+        # a first call with no room says how long the text is
+        room = {"&%s[0]" % b.text.name: "nullptr", "%s.size()" % b.text.name: "0"}
+        lines.append("  c.check(%s(%s));" % (b.name, ", ".join(room.get(x, x)
+                                                               for x in call_args)))
     call = "%s(%s)" % (b.name, ", ".join(call_args))
     if b.grows:
         # the C call cannot grow the caller's arrays: a larger call each time
@@ -1272,7 +1336,9 @@ def octave_wrapper(header, b):
             lines.append("  %s r = %s;" % (b.f.result, call))
         if b.f.result in ("int", "long"):
             error = "kl_%s_error" % b.handle
-            if b.handle and not b.handle_const and header.function(error):
+            if b.error is not None:
+                lines.append("  c.check(r, %s.message);" % b.error.name)
+            elif b.handle and not b.handle_const and header.function(error):
                 lines.append("  c.check(r, %s(h.%s));" % (error, b.handle))
             else:
                 lines.append("  c.check(r);")

@@ -372,25 +372,6 @@ octave_value_list cmd_model_read_file(const call &c) {
   return read_result(c, kl_model_read_file(path.c_str(), &e), adopt_model, e);
 }
 
-octave_value_list cmd_model_write(const call &c) {
-  const kl_model *m = c.model(0, access::read).model;
-  size_t needed = 0;
-  c.check(kl_model_write(m, nullptr, 0, &needed));
-  std::string text(needed + 1, '\0');
-  c.check(kl_model_write(m, &text[0], text.size(), &needed));
-  text.resize(needed);
-  return one(text);
-}
-
-octave_value_list cmd_model_write_file(const call &c) {
-  const kl_model *m = c.model(0, access::read).model;
-  std::string path = c.text(c.arg(1), "path");
-  kl_io_error e = io_error();
-  if (kl_model_write_file(m, path.c_str(), &e) != KL_OK)
-    raise_status(e.status, e.message);
-  return none();
-}
-
 /* ------------------------------------------------------------------------
  * Solvers: lifetime, assembly modes
  * ------------------------------------------------------------------------ */
@@ -804,8 +785,6 @@ const command hand_commands[] = {
     {"model_free", 1, 1, "(model)", cmd_model_free},
     {"model_read", 1, 1, "(text)", cmd_model_read},
     {"model_read_file", 1, 1, "(path)", cmd_model_read_file},
-    {"model_write", 1, 1, "(model)", cmd_model_write},
-    {"model_write_file", 2, 2, "(model, path)", cmd_model_write_file},
     {"solver_new", 1, 1, "(model)", cmd_solver_new<false>},
     {"solver_new_in", 1, 1, "(model)", cmd_solver_new<true>},
     {"solver_free", 1, 1, "(solver)", cmd_solver_free},

@@ -63,15 +63,6 @@ classdef Model < kinloop.ModelMethods
         end
       end
     end
-
-    function text = write(obj)
-      % The model as model-file text (kl_model_write).
-      text = __kinloop__('model_write', obj.id);
-    end
-
-    function write_file(obj, path)
-      __kinloop__('model_write_file', obj.id, path);
-    end
   end
 
   methods (Static)

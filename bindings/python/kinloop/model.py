@@ -8,7 +8,7 @@ import weakref
 
 from . import _api, raw
 from ._args import refuse
-from ._core import Handle, KinloopError, check_const, text
+from ._core import Handle, KinloopError, check_report, text
 from ._header import Status
 
 
@@ -47,19 +47,13 @@ def row_layout(mh):
         quantity += 1
 
 
-def io_error(status, err, what):
-    """The error of a model or study file call, from its kl_io_error."""
-    return KinloopError(status, "%s: %s" % (what, text(err.message) or ""),
-                        line=err.line or None, column=err.column or None)
-
-
 def read_handle(reader, what, *args):
     """The handle a reader (kl_model_read, kl_study_read_file, ...) makes
     from `args` and a kl_io_error, or the error it reports."""
     err = raw.kl_io_error()
     ptr = reader(*args, ctypes.byref(err))
     if not ptr:
-        raise io_error(err.status or Status.ENOMEM, err, what)
+        check_report(err.status or Status.ENOMEM, err, what)
     return ptr
 
 
@@ -203,18 +197,6 @@ class Model(_api.ModelMethods, Handle):
         return cls._adopting(read_handle(_api.kl_model_read_file, "read_file(%r)" % (path,),
                                          path))
 
-    def to_text(self):
-        """The model as model-file text (a byte that is not UTF-8, from a name
-        given as bytes, reads as U+FFFD, as in every string from C)."""
-        h, needed = self._handle, ctypes.c_size_t()
-        check_const(_api.kl_model_write(h, None, 0, ctypes.byref(needed)), "to_text")
-        buf = ctypes.create_string_buffer(needed.value + 1)
-        check_const(_api.kl_model_write(h, buf, len(buf), ctypes.byref(needed)), "to_text")
-        return text(buf.raw[:needed.value])
-
-    def write_file(self, path):
-        """Writes the model to the file at `path`."""
-        err = raw.kl_io_error()
-        st = _api.kl_model_write_file(self._handle, path, ctypes.byref(err))
-        if st < 0:
-            raise io_error(st, err, "write_file(%r)" % (path,))
+    #: the model as model-file text (a byte that is not UTF-8, from a name
+    #: given as bytes, reads as U+FFFD, as in every string from C)
+    to_text = _api.ModelMethods.write
