@@ -217,7 +217,8 @@ class Function:
 # into *LENGTH (a size_t), sized by a first call with NULL and 0; "error",
 # a struct the function fills with why it failed (kl_io_error: status,
 # line, column, message), which the bindings raise. The header documents
-# the same in words.
+# the same in words. "N rows X": a table the function reads, N rows
+# (an int or long) of kl_<handle>_X(handle) numbers each, row by row.
 # Handles, fixed arrays (double xy[2]) and sized structs need no entry; a
 # function with any other pointer is bound by hand. generate.py stops if an entry names a
 # function or parameter the header does not declare.
@@ -265,6 +266,7 @@ POINTERS = {
     "kl_solver_follow_path": {"path_x": "npoints", "path_y": "npoints"},
     "kl_solver_row": {"row": "per row_size out"},
     "kl_model_write": {"buf": "text cap needed"},
+    "kl_study_summarize": {"values": "n rows output_count", "sample_status": "n"},
     "kl_model_write_file": {"err": "error"},
     "kl_solver_workspace": {"xy": "cap pairs grows vertices", "curves": "cap grows vertices",
                             "kinds": "cap grows vertices"},
@@ -299,9 +301,9 @@ def check_pointers(header):
                          "include/kinloop.h does not declare" % (name, param))
             count = role_count(role)
             if count is not None and \
-                    (count not in params or params[count].base != "int" or
+                    (count not in params or params[count].base not in ("int", "long") or
                      params[count].pointers):
-                sys.exit("generate.py: POINTERS counts %s's %r by %r, which is not an int "
+                sys.exit("generate.py: POINTERS counts %s's %r by %r, which is not an int or long "
                          "parameter of it" % (name, param, role))
 
 
@@ -417,8 +419,8 @@ class Binding:
             elif p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
                     and p.const:
                 self.args.append(Arg("handle_in", p.name, [p], ctype=p.base[3:]))
-            elif p.name in counts and p.base == "int" and not p.pointers:
-                self.args.append(Arg("count", p.name, [p]))
+            elif p.name in counts and p.base in ("int", "long") and not p.pointers:
+                self.args.append(Arg("count", p.name, [p], ctype=p.base))
             elif p.base == "double" and not p.pointers and p.length is None and \
                     p.name.endswith("x") and nxt is not None and nxt.base == "double" and \
                     not nxt.pointers and nxt.length is None and \
@@ -476,6 +478,8 @@ class Binding:
                 self.args.append(Arg("array_in", p.name, [p], ctype=p.base, struct=struct,
                                      count=role.split()[0],
                                      per=2 if role.endswith(" pairs") else 1))
+                # a table: its rows counted, kl_<handle>_<X>(handle) numbers each
+                self.args[-1].rows = role.split()[2] if " rows " in role else None
             elif struct is not None and p.pointers == 1 and not struct.reports_error and \
                     (struct.sized or (role == "one" and p.const) or
                      (role == "out" and not p.const)):
@@ -851,7 +855,11 @@ def py_method(b):
             ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
             if a.per == 2:
                 pre.append("%s = flat_pairs(%s, %r, %r)" % (n, n, f, a.name))
-            pre.append("%s, %s_n = array_of(%s, %s, %r, %r)" % (n, n, n, ctype, f, a.name))
+            if a.rows:
+                pre.append("%s, %s_n = rows_of(%s, lib.kl_%s_%s(self._handle), %r, %r)" % (
+                    n, n, n, b.handle, a.rows, f, a.name))
+            else:
+                pre.append("%s, %s_n = array_of(%s, %s, %r, %r)" % (n, n, n, ctype, f, a.name))
             if a.per == 2:
                 pre.append("%s_n //= 2" % n)
             counts.setdefault(a.count, []).append(a.name)
@@ -880,6 +888,8 @@ def py_method(b):
     for count, arrays in counts.items():
         pre.append("%s = same_count(%r, %r, %s)" % (
             py_name(count), f, count, ", ".join("(%r, %s_n)" % (a, py_name(a)) for a in arrays)))
+        if next(a for a in b.args if a.name == count).ctype == "long":
+            pre[-1] = pre[-1][:-1] + ", rule=to_long)"
     expr = "%s(%s)" % (f, ", ".join(call))
     if b.fills:
         # a first call with no room says how many there are
@@ -1012,7 +1022,7 @@ def python_api(header):
            "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
            "import dataclasses", "", "import numpy as np", "",
            "from . import _header as H",
-           "from ._args import (array_of, flat_pairs, same_count, struct_in, to_double,",
+           "from ._args import (array_of, flat_pairs, rows_of, same_count, struct_in, to_double,",
            "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
            "                    to_string)",
            "from ._core import VALUE_TYPES, as_enum, check_const, check_report, text, value_of",
@@ -1166,7 +1176,7 @@ def octave_wrapper(header, b):
     signature = len(lines)
     lines.append("octave_value_list gen_%s(const call &c) {" % b.command)
     call_args, outs, counts, i, vector_arg = [], [], {}, 0, None
-    halved = set()  # arrays of x, y pairs: their count is half their length
+    per_item = {}  # numbers per counted item: 2 for x, y pairs, a table's columns
     late = []  # arrays the function fills, made once their count is known
     for a in b.args:
         # the gateway's own names (the call c, the handle h, the results
@@ -1251,6 +1261,12 @@ def octave_wrapper(header, b):
                     a.struct.name, n, n, a.struct.name))
                 lines.append("  for (octave_idx_type k = 0; k < %s_map.numel(); k++)" % n)
                 lines.append("    from_octave(c, %s_map, k, %s, %s[k], false);" % (n, what, n))
+            elif a.rows:
+                lines.append("  int %s_columns = kl_%s_%s(h.%s);" % (n, b.handle, a.rows,
+                                                                    b.handle))
+                lines.append("  std::vector<double> %s = c.rows(c.arg(%d), %s_columns, %s);" % (
+                    n, i, n, what))
+                per_item[n] = "(%s_columns > 0 ? %s_columns : 1)" % (n, n)
             elif a.ctype == "double":
                 lines.append("  std::vector<double> %s = c.reals(c.arg(%d), %s);" % (n, i, what))
             else:
@@ -1260,7 +1276,7 @@ def octave_wrapper(header, b):
                 # x, y pairs: a 2-by-n matrix, or a flat list x0 y0 x1 y1 ...
                 lines.append("  if (%s.size() %% 2 != 0)" % n)
                 lines.append("    c.bad(%s, \"must hold x, y pairs\");" % what)
-                halved.add(n)
+                per_item[n] = "2"
             counts.setdefault(a.count, []).append(n)
             call_args.append("%s.empty() ? nullptr : %s.data()" % (n, n))
         elif a.kind == "inputs_in":
@@ -1297,14 +1313,16 @@ def octave_wrapper(header, b):
             outs.append("row(%s, %d)" % (n, a.length))
         if a.is_input or a.kind == "handle":
             i += 1
+    def items(n):
+        return "%s.size()%s" % (n, " / " + per_item[n] if n in per_item else "")
     for count, arrays in counts.items():
         for other in arrays[1:]:
-            lines.append("  if (%s.size() != %s.size())" % (other, arrays[0]))
-            lines.append("    c.bad(%s, \"must have as many elements as %s\");" % (
-                cpp_string(other), arrays[0]))
-        lines.append("  int %s = c.count(%s.size()%s, %s);" % (
-            count, arrays[0], " / 2" if arrays[0] in halved else "",
-            cpp_string(arrays[0])))
+            lines.append("  if (%s != %s)" % (items(other), items(arrays[0])))
+            lines.append("    c.bad(%s, \"must have as many %s as %s\");" % (
+                cpp_string(other), "rows" if arrays[0] in per_item else "elements",
+                arrays[0]))
+        lines.append("  int %s = c.count(%s, %s);" % (count, items(arrays[0]),
+                                                     cpp_string(arrays[0])))
     if b.fills:
         # a first call with no room says how many there are
         room = {b.fills.name + ".data()": "nullptr", b.fills.count: "0"}

@@ -175,6 +175,20 @@ std::vector<double> call::values(int i, int n, const std::string &what) const {
   return u;
 }
 
+std::vector<double> call::rows(const octave_value &v, int columns,
+                               const std::string &what) const {
+  if (!(v.isnumeric() || v.islogical()) || v.iscomplex() || v.ndims() != 2 ||
+      (!v.isempty() && v.columns() != columns))
+    bad(what, "must be a real matrix of " + std::to_string(columns) + " columns");
+  Matrix m = v.matrix_value();
+  std::vector<double> out;
+  out.reserve(static_cast<size_t>(m.numel()));
+  for (octave_idx_type i = 0; i < m.rows(); i++)
+    for (octave_idx_type k = 0; k < m.columns(); k++)
+      out.push_back(m(i, k));
+  return out;
+}
+
 octave_map call::structs(int i, const std::string &what) const {
   if (!arg(i).isstruct())
     bad(what, "must be a struct");
@@ -710,32 +724,6 @@ octave_value_list cmd_study_run(const call &c) {
   return out;
 }
 
-octave_value_list cmd_study_summarize(const call &c) {
-  const kl_study *st = c.study(0).study;
-  int k = c.whole<int>(c.arg(1), "output");
-  int nout = kl_study_output_count(st);
-  const octave_value &v = c.arg(2);
-  if (!(v.isnumeric() || v.islogical()) || v.iscomplex() || v.ndims() != 2 ||
-      (!v.isempty() && v.columns() != nout))
-    c.bad("values", "must be a real matrix with one column per output (" + str(nout) +
-                        "), as study_run gives");
-  Matrix values = v.matrix_value();
-  long n = v.isempty() ? 0 : values.rows();
-  std::vector<int> status = c.wholes<int>(c.arg(3), "sample statuses");
-  if (static_cast<long>(status.size()) != n)
-    c.bad("sample statuses", "must have one element per row of values (" + std::to_string(n) +
-                                 "); got " + std::to_string(status.size()));
-  std::vector<double> rows(static_cast<size_t>(n) * nout + 1);
-  for (long i = 0; i < n; i++)
-    for (int j = 0; j < nout; j++)
-      rows[static_cast<size_t>(i) * nout + j] = values(i, j);
-  status.push_back(0); /* never empty: data() is not NULL */
-  kl_study_summary s = kl_study_summary();
-  s.size = sizeof s;
-  c.check(kl_study_summarize(st, k, rows.data(), status.data(), n, &s));
-  return one(to_octave(s));
-}
-
 /* ------------------------------------------------------------------------
  * The gateway's own commands and the dispatch
  * ------------------------------------------------------------------------ */
@@ -797,7 +785,6 @@ const command hand_commands[] = {
     {"study_free", 1, 1, "(study)", cmd_study_free},
     {"study_model", 1, 1, "(study)", cmd_study_model},
     {"study_run", 3, 4, "(study, first, count, [threads])", cmd_study_run},
-    {"study_summarize", 4, 4, "(study, output, values, sample_statuses)", cmd_study_summarize},
     {"cam_new", 0, 0, "()", cmd_cam_new},
     {"cam_free", 1, 1, "(cam)", cmd_cam_free},
     {nullptr, 0, 0, nullptr, nullptr}};

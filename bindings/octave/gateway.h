@@ -108,6 +108,8 @@ public:
   void point(const octave_value &v, const std::string &what, double &x, double &y) const;
   /* An enum value by name (any case) or by its code. */
   int code(const octave_value &v, const std::string &what, const named_code *table) const;
+  /* A table read row by row: a real matrix of `columns` columns (or []). */
+  std::vector<double> rows(const octave_value &v, int columns, const std::string &what) const;
   /* Exactly n reals, one per input (any vector shape; [] when n is 0). */
   std::vector<double> values(int i, int n, const std::string &what) const;
   /* Ids shaped like argument i, each mapped through `get`. */

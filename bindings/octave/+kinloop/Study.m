@@ -80,7 +80,7 @@ classdef Study < kinloop.StudyMethods
       else
         k = output;
       end
-      s = __kinloop__('study_summarize', obj.id, k, values, status);
+      s = summarize@kinloop.StudyMethods(obj, k, values, status);
     end
   end
 

@@ -87,8 +87,8 @@ class Solver(_api.SolverMethods, Handle):
 
     @property
     def model(self):
-        """The Model this solver was made for (closed or not: the solver
-        keeps working either way)."""
+        """The Model this solver was made for, the one kl_solver_model gives
+        (closed or not: the solver keeps working either way)."""
         return self._model
 
     def set_options(self, options=None, **values):

@@ -11,7 +11,7 @@ import numpy as np
 
 from . import _api, raw
 from ._args import refuse, to_long
-from ._core import Handle, KinloopError, check_const, status_text, value_of
+from ._core import Handle, KinloopError, status_text
 from ._header import Status
 from .model import Model, data_of, read_handle
 from .values import StudyRun
@@ -177,18 +177,4 @@ class Study(_api.StudyMethods, Handle):
         """kl_study_summarize: the StudySummary of `output` (its index or
         name) over the rows of `values` and `status` as run returned them,
         read as samples 0 .. n - 1 (worst_sample counts from the first row)."""
-        k, nout = self._output_index(output), self.output_count
-        try:
-            values = np.ascontiguousarray(values, dtype=float)
-            status = np.ascontiguousarray(status, dtype=np.intc)
-        except (TypeError, ValueError, OverflowError) as e:
-            refuse("kl_study_summarize", "values and status", "must be arrays of numbers "
-                   "as run gives them (%s)" % e)
-        if values.ndim != 2 or values.shape[1] != nout or status.shape != (values.shape[0],):
-            refuse("kl_study_summarize", "values", "must be (n, %d) and status (n,), as run "
-                   "gives them; got %s and %s" % (nout, values.shape, status.shape))
-        summary = raw.kl_study_summary()
-        check_const(_api.kl_study_summarize(self._handle, k, _doubles(values), _ints(status),
-                                            values.shape[0], ctypes.byref(summary)),
-                    "summarize", output)
-        return value_of(summary)
+        return super().summarize(self._output_index(output), values, status)

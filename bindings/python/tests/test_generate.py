@@ -57,8 +57,8 @@ def test_new_plain_functions_are_generated(extended):
 
 def test_an_unexplained_pointer_is_left_to_hand_code(extended):
     header, found = extended
-    row = found["kl_solver_row"]
-    assert not row.plain and "POINTERS" in row.why
+    rows = found["kl_solver_sweep_rows"]
+    assert not rows.plain and "POINTERS" in rows.why
 
 
 def test_both_bindings_emit_them(extended):
@@ -66,10 +66,10 @@ def test_both_bindings_emit_them(extended):
     api = generate.python_api(header)
     assert "def link_length(self, link, joint_a, joint_b):" in api
     assert "def reach(self, input, target):" in api
-    assert "'kl_solver_row': None" in api  # bound by hand, or reported by test_drift
+    assert "'kl_solver_sweep_rows': None" in api  # bound by hand, or reported by test_drift
     gateway = generate.octave_gateway(header)
     assert 'gen_model_link_length' in gateway and '{"solver_reach", 3, 3,' in gateway
-    assert "gen_solver_row" not in gateway
+    assert "gen_solver_sweep_rows" not in gateway
     compile(api, "_api.py", "exec")  # valid Python
 
 
@@ -118,3 +118,27 @@ def test_a_count_that_is_no_int_parameter_is_refused(monkeypatch):
     monkeypatch.setitem(generate.POINTERS, "kl_cam_outline", {"pitch_xy": "count out"})
     with pytest.raises(SystemExit, match="not an int"):
         generate.check_pointers(header)
+
+
+def test_the_array_roles_bind_what_they_say(extended):
+    """Each POINTERS role of an array or text makes the arguments it names:
+    the sizes of 'per', 'grows' and 'text' come from the model, a retry
+    and a first call, never from the caller; a table's rows count it."""
+    header, found = extended
+    row = found["kl_solver_row"]
+    assert row.plain and not row.is_property  # METHODS: a new array each call
+    assert [(a.kind, a.per_model) for a in row.outputs] == [("array_out", "row_size")]
+    space = found["kl_solver_workspace"]
+    assert space.plain and space.grows == "cap"
+    assert [a.kind for a in space.outputs] == ["grown"] * 3 + ["struct_out"]
+    assert space.outputs[2].enum.name == "kl_workspace_kind"
+    assert [a.name for a in space.inputs if a.optional] == ["cap"]
+    write = found["kl_model_write"]
+    assert write.plain and [a.name for a in write.inputs] == [] and write.text.field == "needed"
+    saved = found["kl_model_write_file"]
+    assert saved.plain and saved.error.struct.name == "kl_io_error"
+    summary = found["kl_study_summarize"]
+    assert summary.plain and [(a.name, a.rows) for a in summary.inputs if a.kind == "array_in"] \
+        == [("values", "output_count"), ("sample_status", None)]
+    gateway = generate.octave_gateway(header)
+    assert "c.rows(c.arg(2), values_columns" in gateway and "cap *= 4" in gateway
