@@ -17,7 +17,7 @@ parameters are a handle (first only), scalars (int, long, size_t, double),
 strings (const char *), fixed arrays it fills (double xy[2]), sized structs
 (first field size_t size) read or filled whole, and pointers POINTERS
 explains; its result a scalar, a string or void. Everything else (callbacks,
-new handles, buffers with sizes, arrays of arrays) is left to the
+new handles, arrays of handles, tables sized from other arguments) is left to the
 hand-written part of each binding. DEVELOPERS.md says more.
 """
 
@@ -328,9 +328,16 @@ class Arg:
       out_value    one int or double the function fills
       out_array    a fixed array the function fills (double xy[2])
       struct_out   one struct filled (a sized one, or "out" in POINTERS)
-      array_out    count elements (x, y pairs if per is 2) the function fills
+      array_in     (also) a table: count rows of kl_<handle>_<rows> numbers
+      array_out    count elements (x, y pairs if per is 2) the function fills;
+                   with per_model, kl_model_<per_model>(model) of them
       filled       up to count elements the function fills, returning how
-                   many there are"""
+                   many there are
+      grown        up to count elements, grown until they fit; the struct
+                   filled says how many in its `field`
+      text_out     a text written into a buffer (text_part: its size and
+                   the length written, which the bindings give)
+      error_out    a struct the function reports a failure in, raised"""
 
     def __init__(self, kind, name, params, ctype=None, length=None, enum=None,
                  struct=None, const=False, optional=False, count=None, per=1):
