@@ -17,7 +17,7 @@ parameters are a handle (first only), scalars (int, long, size_t, double),
 strings (const char *), fixed arrays it fills (double xy[2]), sized structs
 (first field size_t size) read or filled whole, and pointers POINTERS
 explains; its result a scalar, a string or void. Everything else (callbacks,
-new handles, buffers with sizes, arrays of arrays) is left to the
+new handles, arrays of handles, tables sized from other arguments) is left to the
 hand-written part of each binding. DEVELOPERS.md says more.
 """
 
@@ -201,14 +201,34 @@ class Function:
 
 # What the pointer parameters of these functions are, where the C type
 # alone cannot say (a double * may be one value or an array): "out", one
-# value or one struct the function fills; "one", one struct it reads; the name of the int
-# parameter that counts an array; "inputs", one value per input of the
-# model. The header documents the same in words. Handles, fixed arrays
-# (double xy[2]) and sized structs need no entry; a function with any
-# other pointer is bound by hand. generate.py stops if an entry names a
+# value or one struct the function fills; "one", one struct it reads; the
+# name of the int parameter that counts an array; "inputs", one value per
+# input of the model; "N out", an array of N elements the function fills
+# (N is the caller's to give, unless it also counts an array given); "CAP
+# fills", an array the function fills up to CAP elements while it returns
+# how many there are (the bindings size it by a first call with NULL and 0,
+# and give the caller the items); "per X out", an array the function fills
+# with kl_model_X(model) elements (per joint_count: one per joint); "CAP
+# grows FIELD", an array the function fills up to CAP elements, returning
+# KL_ETRUNCATED when they do not fit and the count in FIELD of the struct
+# it fills (the bindings call again with four times CAP, from the caller's
+# CAP, default GROW_FROM, up to GROW_UP_TO); "text CAP LENGTH", a string
+# the function writes into a buffer of CAP bytes (a size_t) with its length
+# into *LENGTH (a size_t), sized by a first call with NULL and 0; "error",
+# a struct the function fills with why it failed (kl_io_error: status,
+# line, column, message), which the bindings raise. The header documents
+# the same in words. "N rows X": a table the function reads, N rows
+# (an int or long) of kl_<handle>_X(handle) numbers each, row by row.
+# Handles, fixed arrays (double xy[2]) and sized structs need no entry; a
+# function with any other pointer is bound by hand. generate.py stops if an entry names a
 # function or parameter the header does not declare.
 POINTERS = {
     "kl_add_loop": {"joints": "njoints"},
+    "kl_model_loop": {"joints": "cap fills"},
+    "kl_model_transmissions": {"sites": "cap fills"},
+    "kl_model_pressure_sites": {"sites": "cap fills"},
+    "kl_model_transmission_skips": {"skips": "cap fills"},
+    "kl_output_ranges": {"outputs": "n", "ranges": "n out"},
     "kl_model_units": {"length_unit": "out", "angle_unit": "out"},
     "kl_model_transmission_lines": {"line_a": "out", "line_b": "out"},
     "kl_solve_position": {"inputs": "inputs"},
@@ -242,8 +262,30 @@ POINTERS = {
     # "N pairs": 2 numbers (x, y) per element that N counts
     "kl_add_curve_slot": {"xy": "npoints pairs"},
     "kl_cam_set_program": {"segments": "nsegments"},
+    "kl_cam_outline": {"pitch_xy": "n pairs out", "surface_xy": "n pairs out"},
     "kl_solver_follow_path": {"path_x": "npoints", "path_y": "npoints"},
+    "kl_solver_row": {"row": "per row_size out"},
+    "kl_model_write": {"buf": "text cap needed"},
+    "kl_study_summarize": {"values": "n rows output_count", "sample_status": "n"},
+    "kl_model_write_file": {"err": "error"},
+    "kl_solver_workspace": {"xy": "cap pairs grows vertices", "curves": "cap grows vertices",
+                            "kinds": "cap grows vertices"},
+    "kl_cycle_summarize": {"c": "one", "loads": "nloads", "input_peaks": "per input_count out",
+                           "joint_peaks": "per joint_count out"},
 }
+
+# Where a growing array starts (elements), and where it stops growing.
+GROW_FROM, GROW_UP_TO = 4096, 1 << 22
+
+# Getters of a const handle that stay methods in Python (not properties):
+# each call makes a new array (or text) of the current state.
+METHODS = {"kl_solver_row", "kl_model_write"}
+
+
+def role_count(role):
+    """The parameter a POINTERS role names as its count, or None."""
+    return None if role in ("out", "one", "inputs", "error") or \
+        role.split()[0] in ("per", "text") else role.split()[0]
 
 
 def check_pointers(header):
@@ -257,11 +299,11 @@ def check_pointers(header):
             if param not in params or not params[param].pointers:
                 sys.exit("generate.py: POINTERS names %s's pointer parameter %r, which "
                          "include/kinloop.h does not declare" % (name, param))
-            count = role.split()[0]
-            if role not in ("out", "one", "inputs") and \
-                    (count not in params or params[count].base != "int" or
+            count = role_count(role)
+            if count is not None and \
+                    (count not in params or params[count].base not in ("int", "long") or
                      params[count].pointers):
-                sys.exit("generate.py: POINTERS counts %s's %r by %r, which is not an int "
+                sys.exit("generate.py: POINTERS counts %s's %r by %r, which is not an int or long "
                          "parameter of it" % (name, param, role))
 
 
@@ -285,8 +327,17 @@ class Arg:
       struct_in    one struct read (a sized one, or "one" in POINTERS)
       out_value    one int or double the function fills
       out_array    a fixed array the function fills (double xy[2])
-      inputs_out   double *, one per input, filled
-      struct_out   one struct filled (a sized one, or "out" in POINTERS)"""
+      struct_out   one struct filled (a sized one, or "out" in POINTERS)
+      array_in     (also) a table: count rows of kl_<handle>_<rows> numbers
+      array_out    count elements (x, y pairs if per is 2) the function fills;
+                   with per_model, kl_model_<per_model>(model) of them
+      filled       up to count elements the function fills, returning how
+                   many there are
+      grown        up to count elements, grown until they fit; the struct
+                   filled says how many in its `field`
+      text_out     a text written into a buffer (text_part: its size and
+                   the length written, which the bindings give)
+      error_out    a struct the function reports a failure in, raised"""
 
     def __init__(self, kind, name, params, ctype=None, length=None, enum=None,
                  struct=None, const=False, optional=False, count=None, per=1):
@@ -294,6 +345,7 @@ class Arg:
         self.per = per  # numbers per counted element (2 for x, y pairs)
         self.ctype, self.length, self.enum, self.struct = ctype, length, enum, struct
         self.const, self.optional, self.count = const, optional, count
+        self.per_model = None  # array_out: its count is kl_model_<per_model>(model)
 
     @property
     def is_input(self):
@@ -302,7 +354,8 @@ class Arg:
 
     @property
     def is_output(self):
-        return self.kind in ("out_value", "out_array", "inputs_out", "struct_out")
+        return self.kind in ("out_value", "out_array", "struct_out",
+                             "filled", "array_out", "grown", "text_out")
 
 
 class Binding:
@@ -333,26 +386,48 @@ class Binding:
         if f.result not in ("void", "int", "long", "size_t", "double", "const char *"):
             self.refuse("returns %s" % f.result)
         params = list(f.params)
-        if any(p.base == "size_t" and not p.pointers for p in params) and \
-                any(p.pointers and p.base[3:] not in HANDLES for p in params):
+        # the size and length of a text buffer, which the bindings give
+        text = {n: role for role in roles.values() if role.startswith("text ")
+                for n in role.split()[1:]}
+        if any(p.base == "size_t" and not p.pointers and p.name not in text for p in params) \
+                and any(p.pointers and p.base[3:] not in HANDLES for p in params):
             self.refuse("a size_t sizes the memory of a pointer argument")
-        counts = {role.split()[0] for role in roles.values()
-                  if role not in ("out", "one", "inputs")}
+        counts = {role_count(role) for role in roles.values()} - {None}
+        # a count that only sizes arrays the function fills is the caller's
+        # to give; the bindings take the others from the arrays (or a probe)
+        given = {n for n in counts if all(role.endswith(" out") or " grows " in role
+                                          for role in roles.values()
+                                          if role_count(role) == n)}
+        self.grows = None  # the capacity parameter of arrays that grow
+        self.text = self.error = None  # a text written, a failure's report
+        counts -= given
         k = 0
         while k < len(params):
             p = params[k]
             nxt = params[k + 1] if k + 1 < len(params) else None
             struct = header.struct(p.base)
             role = roles.get(p.name)
-            if p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
+            if p.name in text and p.base == "size_t" and \
+                    p.pointers == (p.name == text[p.name].split()[2]):
+                self.args.append(Arg("text_part", p.name, [p]))
+            elif role is not None and role.startswith("text ") and p.base == "char" and \
+                    not p.const and p.pointers == 1:
+                self.text = Arg("text_out", p.name, [p], count=role.split()[1])
+                self.text.field = role.split()[2]
+                self.args.append(self.text)
+            elif role == "error" and struct is not None and struct.reports_error and \
+                    p.pointers == 1 and not p.const:
+                self.error = Arg("error_out", p.name, [p], struct=struct)
+                self.args.append(self.error)
+            elif p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
                     and k == 0:
                 self.handle, self.handle_const = p.base[3:], p.const
                 self.args.append(Arg("handle", p.name, [p], const=p.const))
             elif p.base[3:] in HANDLES and p.base.startswith("kl_") and p.pointers == 1 \
                     and p.const:
                 self.args.append(Arg("handle_in", p.name, [p], ctype=p.base[3:]))
-            elif p.name in counts and p.base == "int" and not p.pointers:
-                self.args.append(Arg("count", p.name, [p]))
+            elif p.name in counts and p.base in ("int", "long") and not p.pointers:
+                self.args.append(Arg("count", p.name, [p], ctype=p.base))
             elif p.base == "double" and not p.pointers and p.length is None and \
                     p.name.endswith("x") and nxt is not None and nxt.base == "double" and \
                     not nxt.pointers and nxt.length is None and \
@@ -377,13 +452,41 @@ class Binding:
                 self.args.append(Arg("out_value", p.name, [p], ctype=p.base,
                                      enum=header.enum("kl_" + p.name)
                                      if p.base == "int" else None))
-            elif role == "inputs" and p.base == "double" and p.pointers == 1:
-                self.args.append(Arg("inputs_in" if p.const else "inputs_out", p.name, [p]))
+            elif role == "inputs" and p.base == "double" and p.pointers == 1 and p.const:
+                self.args.append(Arg("inputs_in", p.name, [p]))
+            elif role is not None and (role == "inputs" or role.startswith("per ")) and \
+                    not p.const and p.pointers == 1 and \
+                    (p.base in ("int", "double") or struct is not None):
+                # an array as long as the model says: kl_model_<per>(model)
+                a = Arg("array_out", p.name, [p], ctype=p.base, struct=struct,
+                        count=p.name + "_n")
+                a.per_model = "input_count" if role == "inputs" else role.split()[1]
+                self.args.append(a)
+            elif role is not None and role.split()[-1] in ("fills", "out") and \
+                    role_count(role) is not None and not p.const and p.pointers == 1 and \
+                    (p.base in ("int", "double") or struct is not None):
+                self.args.append(Arg("filled" if role.endswith(" fills") else "array_out",
+                                     p.name, [p], ctype=p.base, struct=struct,
+                                     count=role_count(role),
+                                     per=2 if " pairs" in role else 1))
+            elif role is not None and " grows " in role and not p.const and \
+                    p.pointers == 1 and p.base in ("int", "double"):
+                a = Arg("grown", p.name, [p], ctype=p.base, count=role_count(role),
+                        per=2 if " pairs " in role else 1,
+                        # an int array holds the enum its doc names and it is named after
+                        enum=next((e for e in header.enums if p.base == "int" and
+                                   e.short.endswith("_" + p.name.rstrip("s")) and
+                                   re.search(r"\b%s\b" % e.name, f.doc)), None))
+                a.field = role.split()[-1]
+                self.grows = role_count(role)
+                self.args.append(a)
             elif role is not None and role.split()[0] in counts and p.const and \
                     p.pointers == 1 and (p.base in ("int", "double") or struct is not None):
                 self.args.append(Arg("array_in", p.name, [p], ctype=p.base, struct=struct,
                                      count=role.split()[0],
                                      per=2 if role.endswith(" pairs") else 1))
+                # a table: its rows counted, kl_<handle>_<X>(handle) numbers each
+                self.args[-1].rows = role.split()[2] if " rows " in role else None
             elif struct is not None and p.pointers == 1 and not struct.reports_error and \
                     (struct.sized or (role == "one" and p.const) or
                      (role == "out" and not p.const)):
@@ -396,6 +499,10 @@ class Binding:
                             "struct, and POINTERS does not say what it is" % p.decl)
                 self.args.append(Arg("other", p.name, [p]))
             k += 1
+        # the capacity of growing arrays is a first guess the caller may leave out
+        for a in self.args:
+            if a.kind == "scalar" and a.name == self.grows:
+                a.optional = True
         # a builder's trailing name may be left out (NULL: an unnamed item)
         if f.name.startswith("kl_add_") and self.args and \
                 self.args[-1].kind == "string" and self.args[-1].name == "name":
@@ -407,10 +514,14 @@ class Binding:
         f = self.f
         # a function that fills a value or a struct returns whether it did
         self.status = f.result == "int" and (returns_status(header, f) or any(
-            a.kind in ("struct_out", "out_value", "inputs_out") for a in self.args))
+            a.kind in ("struct_out", "out_value", "array_out", "grown", "error_out",
+                       "text_out")
+            for a in self.args))
+        # a function filling up to a capacity returns a count the bindings use
+        self.fills = next((a for a in self.args if a.kind == "filled"), None)
         self.enum = None
         self.boolean = f.result == "int" and "_is_" in f.name
-        if f.result == "int" and not self.status and not self.boolean:
+        if f.result == "int" and not self.status and not self.boolean and not self.fills:
             for e in header.enums:
                 if e.name == "kl_status":
                     continue
@@ -433,7 +544,7 @@ class Binding:
     @property
     def value_result(self):
         """Whether the C result is handed to the caller (a status is not)."""
-        return self.f.result != "void" and not self.status
+        return self.f.result != "void" and not self.status and not self.fills
 
     @property
     def method(self):
@@ -454,7 +565,7 @@ class Binding:
     def is_property(self):
         """A getter of a const handle that takes nothing else (Python)."""
         return self.handle is not None and self.handle_const and not self.inputs and \
-            (self.value_result or self.outputs)
+            (self.value_result or self.outputs) and self.name not in METHODS
 
     @property
     def vectorized(self):
@@ -629,6 +740,7 @@ def python_header(header):
 
 PY_CONVERT = {"int": "to_int", "long": "to_long", "size_t": "to_size", "double": "to_double"}
 PY_CTYPES = {"int": "ctypes.c_int", "double": "ctypes.c_double"}
+PY_POINTERS = {"int": "INTS", "double": "DOUBLES"}
 
 
 def py_checked_call(b):
@@ -655,14 +767,79 @@ def py_checked_call(b):
             "    return lib.%s(%s)" % (f.name, ", ".join(conversions)), "", ""]
 
 
+def py_checked(b, expr):
+    """A C call's status checked: with the handle's message, or, for a
+    const handle (which keeps none), naming the call and its arguments; a
+    call reporting its failure in a struct raises with what that says."""
+    if b.error is not None:
+        shown = "".join(", " + py_name(a.name) for a in b.inputs)
+        return "check_report(%s, %s, %r%s)" % (expr, b.error.name, b.method, shown)
+    if b.handle is None or b.handle_const:
+        shown = "".join(", " + py_name(a.name) for a in b.inputs)
+        return "check_const(%s, %r%s)" % (expr, b.method, shown)
+    return "self._check(%s)" % expr
+
+
+def py_output_array(a):
+    """The array a function fills, `count` elements: numbers as a numpy
+    array ((count, 2) for x, y pairs), structs as a ctypes array."""
+    n, count = py_name(a.name), py_name(a.count)
+    if a.struct is None and a.kind == "array_out":
+        shape = "(max(%s, 0), 2)" % count if a.per == 2 else "max(%s, 0)" % count
+        return ["%s = np.zeros(%s)" % (n, shape)]
+    ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
+    lines = ["%s = (%s * max(%s, 1))()" % (n, ctype, count)]
+    if a.struct is not None and a.struct.sized:
+        lines += ["for item in %s:" % n, "    item.size = ctypes.sizeof(item)"]
+    return lines
+
+
 def py_method(b):
     """The generated method (or package function) of a plain function."""
     params, pre, call, results = [], [], [], []
+    late = []  # arrays the function fills, made once their count is known
     counts = {}
     f = b.name
     for a in b.args:
         n = py_name(a.name)
-        if a.kind == "handle":
+        if a.kind == "text_out":
+            pre.append("%s = ctypes.c_size_t()" % a.field)
+            late.append("%s = ctypes.create_string_buffer(%s.value + 1)" % (n, a.field))
+            call.append(n)
+            results.append("text(%s.raw[:%s.value])" % (n, a.field))
+            continue
+        if a.kind == "text_part":
+            call.append("len(%s)" % b.text.name if a.name == b.text.count else
+                        "ctypes.byref(%s)" % n)
+            continue
+        if a.kind == "error_out":
+            pre.append("%s = H.%s()" % (n, a.struct.name))
+            call.append("ctypes.byref(%s)" % n)
+            continue
+        if a.kind == "grown":
+            cap = py_name(a.count)
+            late.append("%s = np.zeros(%s)" % (n, "(max(%s, 0), 2)" % cap if a.per == 2 else
+                                                 "max(%s, 0), dtype=np.intc" % cap))
+            call.append("%s.ctypes.data_as(%s)" % (n, PY_POINTERS[a.ctype]))
+            got = "%s[:%s.%s]" % (n, next(x.name for x in b.args if x.kind == "struct_out"),
+                                  a.field)
+            results.append("np.array([as_enum(H.%s, k) for k in %s], dtype=object)" % (
+                a.enum.python, got) if a.enum else got)
+            continue
+        if a.kind in ("filled", "array_out"):
+            if a.per_model:
+                pre.append("%s = lib.kl_model_%s(self._model_ptr)" % (a.count, a.per_model))
+            late += py_output_array(a)
+            call.append(n if a.struct or a.kind == "filled" else
+                        "%s.ctypes.data_as(DOUBLES)" % n)
+            results.append("[value_of(v) for v in %s[:%s]]" % (n, py_name(a.count))
+                           if a.struct or a.kind == "filled" else n)
+            given = "%s = to_int(%s, %r, %r)" % (py_name(a.count), py_name(a.count), f,
+                                                 a.count)
+            if a.kind == "array_out" and given not in pre and \
+                    a.count in [x.name for x in b.args if x.kind == "scalar"]:
+                pre.append(given)  # before the arrays it sizes
+        elif a.kind == "handle":
             call.append("self._handle" if a.const else "self._changing")
         elif a.kind == "struct_in" and b.owner is not None and not call:
             call.append("self")
@@ -685,7 +862,11 @@ def py_method(b):
             ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
             if a.per == 2:
                 pre.append("%s = flat_pairs(%s, %r, %r)" % (n, n, f, a.name))
-            pre.append("%s, %s_n = array_of(%s, %s, %r, %r)" % (n, n, n, ctype, f, a.name))
+            if a.rows:
+                pre.append("%s, %s_n = rows_of(%s, lib.kl_%s_%s(self._handle), %r, %r)" % (
+                    n, n, n, b.handle, a.rows, f, a.name))
+            else:
+                pre.append("%s, %s_n = array_of(%s, %s, %r, %r)" % (n, n, n, ctype, f, a.name))
             if a.per == 2:
                 pre.append("%s_n //= 2" % n)
             counts.setdefault(a.count, []).append(a.name)
@@ -694,10 +875,6 @@ def py_method(b):
             params.append(n + "=None")
             pre.append("%s = self._inputs(%s, %r, %r)" % (n, n, f, a.name))
             call.append(n)
-        elif a.kind == "inputs_out":
-            pre.append("%s = (ctypes.c_double * max(self._input_count, 1))()" % n)
-            call.append(n)
-            results.append("np.array(%s[:self._input_count])" % n)
         elif a.kind == "out_value":
             pre.append("%s = %s()" % (n, PY_CTYPES[a.ctype]))
             call.append("ctypes.byref(%s)" % n)
@@ -712,18 +889,36 @@ def py_method(b):
             call.append("ctypes.byref(%s)" % n)
             results.append("value_of(%s)" % n)
         else:
-            params.append(n + "=None" if a.optional else n)
+            params.append(n + ("=%d" % GROW_FROM if a.name == b.grows else "=None")
+                          if a.optional else n)
             call.append(n)
     for count, arrays in counts.items():
         pre.append("%s = same_count(%r, %r, %s)" % (
             py_name(count), f, count, ", ".join("(%r, %s_n)" % (a, py_name(a)) for a in arrays)))
+        if next(a for a in b.args if a.name == count).ctype == "long":
+            pre[-1] = pre[-1][:-1] + ", rule=to_long)"
     expr = "%s(%s)" % (f, ", ".join(call))
+    if b.fills:
+        # a first call with no room says how many there are
+        room = {py_name(b.fills.name): "None", py_name(b.fills.count): "0"}
+        pre.append("%s = %s" % (py_name(b.fills.count), py_checked(
+            b, "%s(%s)" % (f, ", ".join(room.get(x, x) for x in call)))))
+    if b.text:
+        # a first call with no room says how long the text is
+        room = {b.text.name: "None", "len(%s)" % b.text.name: "0"}
+        pre.append(py_checked(b, "%s(%s)" % (f, ", ".join(room.get(x, x) for x in call))))
+    if b.grows:
+        # the C call cannot grow the caller's arrays: a larger call each time
+        cap = py_name(b.grows)
+        pre += ["%s = to_int(%s, %r, %r)" % (cap, cap, f, b.grows), "while True:"] + ["    " + l for l in late] + [
+            "    status = %s" % expr,
+            "    if status != Status.ETRUNCATED or %s >= %d:" % (cap, GROW_UP_TO),
+            "        break", "    %s *= 4" % cap]
+        expr = "status"
+    else:
+        pre += late
     if b.f.result in ("int", "long"):
-        if b.handle is None or b.handle_const:
-            shown = "".join(", " + py_name(a.name) for a in b.inputs)
-            expr = "check_const(%s, %r%s)" % (expr, b.method, shown)
-        else:
-            expr = "self._check(%s)" % expr
+        expr = py_checked(b, expr)
         if b.enum is not None:
             expr = "as_enum(H.%s, %s)" % (b.enum.python, expr)
         elif b.boolean:
@@ -793,10 +988,36 @@ def py_value_type(header, s, bs):
         out.append("    %s: %s = %s" % (py_name(fl.name), kind,
                                         py_default(header, s, fl, defaults)))
     out.append("")
+    out += py_kind_constructors(header, s, bs)
     for b in bs:
         if b.plain and b.owner is s:
             out += py_method(b)
     out += ["", "VALUE_TYPES[H.%s] = %s" % (s.name, name), "", ""]
+    return out
+
+
+def py_kind_constructors(header, s, bs):
+    """A struct the functions read whose first field is its kind (enum
+    kl_<x>_kind): a constructor per kind, named after it in lower case,
+    taking the other fields in order (Output.link_angle(link)); none where
+    a field has that name already."""
+    fields = s.value_fields()
+    e = field_enum(header, fields[0]) if fields and fields[0].name == "kind" else None
+    read = any(a.struct is s and a.kind in ("struct_in", "array_in")
+               for b in bs if b.plain for a in b.args)
+    if e is None or not read:
+        return []
+    out = []
+    for const, _, doc in e.values:
+        name = py_name(e.member(const).lower())
+        if name.rstrip("_") in [fl.name for fl in fields]:
+            continue
+        out += ["    @classmethod", "    def %s(cls, *fields, **named):" % name,
+                py_docstring("%s: %s, the fields after kind (%s) in order" % (
+                    e.member(const).lower(), " ".join(doc.split()),
+                    ", ".join(fl.name for fl in fields[1:])), 8),
+                "        return cls(H.%s.%s, *fields, **named)" % (e.python, e.member(const)),
+                ""]
     return out
 
 
@@ -808,12 +1029,15 @@ def python_api(header):
            "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
            "import dataclasses", "", "import numpy as np", "",
            "from . import _header as H",
-           "from ._args import (array_of, flat_pairs, same_count, struct_in, to_double,",
+           "from ._args import (array_of, flat_pairs, rows_of, same_count, struct_in, to_double,",
            "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
            "                    to_string)",
-           "from ._core import VALUE_TYPES, as_enum, check_const, text, value_of",
+           "from ._core import VALUE_TYPES, as_enum, check_const, check_report, text, value_of",
            "from ._header import Status",
-           "from .raw import lib", "", "",
+           "from .raw import lib", "",
+           "#: what numpy arrays the C functions fill are passed as",
+           "DOUBLES = ctypes.POINTER(ctypes.c_double)",
+           "INTS = ctypes.POINTER(ctypes.c_int)", "", "",
            "# ---- checked calls: one per KL_API function ----", ""]
     for b in bs:
         out += py_checked_call(b)
@@ -914,6 +1138,11 @@ def octave_structs(header):
                 value = "s.%s" % fl.name
             out.append("  m.assign(%s, %s);" % (cpp_string(fl.name), value))
         out += ["  return m;", "}", ""]
+        out += ["octave_map struct_row(const %s *items, int n) {" % s.name,
+                "  octave_map m(dim_vector(1, n));",
+                "  for (int k = 0; k < n; k++)",
+                "    m.assign(k, to_octave(items[k]));",
+                "  return m;", "}", ""]
         out.append("/* Fields of element k of `v` into `s`: every field when `all` is set,")
         out.append(" * else those given; an unknown field is refused. */")
         out.append("void from_octave(const call &c, const octave_map &v, octave_idx_type k,")
@@ -954,13 +1183,46 @@ def octave_wrapper(header, b):
     signature = len(lines)
     lines.append("octave_value_list gen_%s(const call &c) {" % b.command)
     call_args, outs, counts, i, vector_arg = [], [], {}, 0, None
-    halved = set()  # arrays of x, y pairs: their count is half their length
+    per_item = {}  # numbers per counted item: 2 for x, y pairs, a table's columns
+    late = []  # arrays the function fills, made once their count is known
     for a in b.args:
         # the gateway's own names (the call c, the handle h, the results
         # out, the result r) are not a parameter's: a header parameter
         # named so takes a trailing _
         n = a.name + "_" if a.name in ("c", "h", "out", "r") else a.name
         what = cpp_string(a.name)
+        if a.kind == "text_out":
+            lines.append("  size_t %s = 0;" % a.field)
+            late.append("  std::string %s(%s + 1, '\\0');" % (n, a.field))
+            call_args.append("&%s[0]" % n)
+            outs.append("octave_value(%s.substr(0, %s))" % (n, a.field))
+            continue
+        if a.kind == "text_part":
+            call_args.append("%s.size()" % b.text.name if a.name == b.text.count else "&" + n)
+            continue
+        if a.kind == "error_out":
+            lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
+            lines.append("  %s.size = sizeof %s;" % (n, n))
+            call_args.append("&" + n)
+            continue
+        if a.kind == "grown":
+            lines.append("  std::vector<%s> %s;" % (a.ctype, n))
+            late.append("    %s.assign(%s * static_cast<size_t>(%s), 0);" % (n, a.per, a.count))
+            call_args.append("%s.data()" % n)
+            got = "%s.data(), %s.%s" % (n, next(x.name for x in b.args if x.kind == "struct_out"),
+                                        a.field)
+            outs.append("pairs(%s)" % got if a.per == 2 else
+                        "code_names(%s_names, %s)" % (a.enum.name, got) if a.enum else
+                        "row(%s)" % got)
+            continue
+        if a.kind in ("filled", "array_out"):
+            if a.per_model:
+                lines.append("  int %s = kl_model_%s(h.model);" % (a.count, a.per_model))
+            more, arg, out = octave_output_array(a, n)
+            late += more
+            call_args.append(arg)
+            outs.append(out)
+            continue
         if a.kind == "handle":
             lines.append("  entry &h = c.%s(0, %s);" % (
                 b.handle, "access::read" if a.const else "access::write"))
@@ -988,6 +1250,8 @@ def octave_wrapper(header, b):
             conv = ("c.code(c.arg(%d), %s, %s_names)" % (i, what, a.enum.name) if a.enum else
                     "c.real(c.arg(%d), %s)" % (i, what) if a.ctype == "double" else
                     "c.whole<%s>(c.arg(%d), %s)" % (a.ctype, i, what))
+            if a.optional:  # the capacity of growing arrays
+                conv = "c.given(%d) ? %s : %d" % (i, conv, GROW_FROM)
             lines.append("  %s %s = %s;" % ("int" if a.enum else a.ctype, n, conv))
             call_args.append(n)
         elif a.kind == "string" and a.optional:
@@ -1004,6 +1268,12 @@ def octave_wrapper(header, b):
                     a.struct.name, n, n, a.struct.name))
                 lines.append("  for (octave_idx_type k = 0; k < %s_map.numel(); k++)" % n)
                 lines.append("    from_octave(c, %s_map, k, %s, %s[k], false);" % (n, what, n))
+            elif a.rows:
+                lines.append("  int %s_columns = kl_%s_%s(h.%s);" % (n, b.handle, a.rows,
+                                                                    b.handle))
+                lines.append("  std::vector<double> %s = c.rows(c.arg(%d), %s_columns, %s);" % (
+                    n, i, n, what))
+                per_item[n] = "(%s_columns > 0 ? %s_columns : 1)" % (n, n)
             elif a.ctype == "double":
                 lines.append("  std::vector<double> %s = c.reals(c.arg(%d), %s);" % (n, i, what))
             else:
@@ -1013,24 +1283,25 @@ def octave_wrapper(header, b):
                 # x, y pairs: a 2-by-n matrix, or a flat list x0 y0 x1 y1 ...
                 lines.append("  if (%s.size() %% 2 != 0)" % n)
                 lines.append("    c.bad(%s, \"must hold x, y pairs\");" % what)
-                halved.add(n)
+                per_item[n] = "2"
             counts.setdefault(a.count, []).append(n)
             call_args.append("%s.empty() ? nullptr : %s.data()" % (n, n))
         elif a.kind == "inputs_in":
             lines.append("  int %s_n = kl_model_input_count(h.model);" % n)
             lines.append("  std::vector<double> %s = c.values(%d, %s_n, %s);" % (n, i, n, what))
             call_args.append("%s_n > 0 ? %s.data() : nullptr" % (n, n))
-        elif a.kind == "inputs_out":
-            lines.append("  int %s_n = kl_model_input_count(h.model);" % n)
-            lines.append("  std::vector<double> %s(%s_n > 0 ? %s_n : 1);" % (n, n, n))
-            call_args.append("%s.data()" % n)
-            outs.append("row(%s.data(), %s_n)" % (n, n))
         elif a.kind == "struct_in":
             lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
-            if a.struct.sized:
+            defaults = header.function("kl_%s_default" % a.struct.name[3:])
+            if defaults is not None:
+                # the fields given replace the defaults; [] keeps them all
+                lines.append("  %s(&%s);" % (defaults.name, n))
+                lines.append("  if (c.given(%d))" % i)
+            elif a.struct.sized:
                 lines.append("  %s.size = sizeof %s;" % (n, n))
-            lines.append("  from_octave(c, c.one_struct(%d, %s), 0, %s, %s, %s);" % (
-                i, what, what, n, "true" if a.struct.sized else "false"))
+            lines.append("%sfrom_octave(c, c.one_struct(%d, %s), 0, %s, %s, %s);" % (
+                "    " if defaults else "  ", i, what, what, n,
+                "true" if a.struct.sized and not defaults else "false"))
             call_args.append("&" + n)
         elif a.kind == "struct_out":
             lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
@@ -1049,15 +1320,36 @@ def octave_wrapper(header, b):
             outs.append("row(%s, %d)" % (n, a.length))
         if a.is_input or a.kind == "handle":
             i += 1
+    def items(n):
+        return "%s.size()%s" % (n, " / " + per_item[n] if n in per_item else "")
     for count, arrays in counts.items():
         for other in arrays[1:]:
-            lines.append("  if (%s.size() != %s.size())" % (other, arrays[0]))
-            lines.append("    c.bad(%s, \"must have as many elements as %s\");" % (
-                cpp_string(other), arrays[0]))
-        lines.append("  int %s = c.count(%s.size()%s, %s);" % (
-            count, arrays[0], " / 2" if arrays[0] in halved else "",
-            cpp_string(arrays[0])))
+            lines.append("  if (%s != %s)" % (items(other), items(arrays[0])))
+            lines.append("    c.bad(%s, \"must have as many %s as %s\");" % (
+                cpp_string(other), "rows" if arrays[0] in per_item else "elements",
+                arrays[0]))
+        lines.append("  int %s = c.count(%s, %s);" % (count, items(arrays[0]),
+                                                     cpp_string(arrays[0])))
+    if b.fills:
+        # a first call with no room says how many there are
+        room = {b.fills.name + ".data()": "nullptr", b.fills.count: "0"}
+        lines.append("  int %s = %s(%s);" % (b.fills.count, b.name, ", ".join(
+            room.get(x, x) for x in call_args)))
+        lines.append("  c.check(%s);" % b.fills.count)
+    if b.text:
+        # a first call with no room says how long the text is
+        room = {"&%s[0]" % b.text.name: "nullptr", "%s.size()" % b.text.name: "0"}
+        lines.append("  c.check(%s(%s));" % (b.name, ", ".join(room.get(x, x)
+                                                               for x in call_args)))
     call = "%s(%s)" % (b.name, ", ".join(call_args))
+    if b.grows:
+        # the C call cannot grow the caller's arrays: a larger call each time
+        lines += ["  int r;", "  for (;; %s *= 4) {" % b.grows] + late + [
+            "    r = %s;" % call,
+            "    if (r != KL_ETRUNCATED || %s >= %d)" % (b.grows, GROW_UP_TO),
+            "      break;", "  }"]
+    else:
+        lines += late
     if vector_arg is not None:
         pos, name = vector_arg
         lines.append("  return one(c.each_id(%d, %s, [&](int %s) { return %s; }));" % (
@@ -1065,11 +1357,13 @@ def octave_wrapper(header, b):
     else:
         if b.f.result == "void":
             lines.append("  %s;" % call)
-        else:
+        elif not b.grows:
             lines.append("  %s r = %s;" % (b.f.result, call))
         if b.f.result in ("int", "long"):
             error = "kl_%s_error" % b.handle
-            if b.handle and not b.handle_const and header.function(error):
+            if b.error is not None:
+                lines.append("  c.check(r, %s.message);" % b.error.name)
+            elif b.handle and not b.handle_const and header.function(error):
                 lines.append("  c.check(r, %s(h.%s));" % (error, b.handle))
             else:
                 lines.append("  c.check(r);")
@@ -1089,6 +1383,23 @@ def octave_wrapper(header, b):
     if not any(re.search(r"\bc\b[.,)]", l) for l in lines[signature + 1:]):
         lines[signature] = lines[signature].replace("const call &c", "const call &")
     return lines, i
+
+
+def octave_output_array(a, n):
+    """An array the function fills: the lines making it (once its count
+    is known), the C argument, and the Octave value of what was filled:
+    numbers as a row (count-by-2 for x, y pairs), structs as a struct row."""
+    count = a.count
+    if a.struct is None and a.kind == "array_out":
+        make = ["  Matrix %s(%d, %s > 0 ? %s : 0);" % (n, a.per, count, count)]
+        return make, "%s.fortran_vec()" % n, "%s.transpose()" % n if a.per == 2 else n
+    ctype = a.struct.name if a.struct else a.ctype
+    make = ["  std::vector<%s> %s(%s > 0 ? %s : 1, %s());" % (ctype, n, count, count, ctype)]
+    if a.struct is None:
+        return make, "%s.data()" % n, "row(%s.data(), %s)" % (n, count)
+    if a.struct.sized:
+        make += ["  for (%s &item : %s)" % (ctype, n), "    item.size = sizeof item;"]
+    return make, "%s.data()" % n, "struct_row(%s.data(), %s)" % (n, count)
 
 
 def octave_introspection(header):
@@ -1189,10 +1500,27 @@ def octave_classes(header, out_dir):
     for h in HANDLES:
         name = "%sMethods" % camel(h)
         lines = ["classdef %s < handle" % name,
-                 "  %% kinloop.%s - the methods of kinloop.%s for the plain functions" %
+                 "  %% kinloop.%s - the gateway id of a kinloop.%s, freed once, and a" %
                  (name, camel(h)),
-                 "  %% of kl_%s, one each, calling the gateway command of the same" % h,
-                 "  % name. " + GENERATED, "  methods"]
+                 "  %% method for each plain function of kl_%s, calling the gateway" % h,
+                 "  % command of the same name. " + GENERATED, "",
+                 "  properties (SetAccess = protected)",
+                 "    id = [];  % the gateway's handle",
+                 "  end", "",
+                 "  % Public but hidden: Octave 7 runs a destructor in the context of the",
+                 "  % object that released it, where private properties cannot be read.",
+                 "  properties (Hidden)",
+                 "    freed = false;  % set once the gateway has freed the handle",
+                 "    owner = [];     % a borrowed handle: the object that frees it",
+                 "  end", "", "  methods"]
+        if header.function("kl_%s_free" % h):
+            lines += ["    function delete(obj)",
+                      "      %% Frees the %s (kl_%s_free) once; later calls do nothing. A" %
+                      (h, h),
+                      "      % borrowed one is its owner's to free: nothing happens.",
+                      "      if ~obj.freed && ~isempty(obj.id) && isempty(obj.owner)",
+                      "        __kinloop__('%s_free', obj.id);" % h,
+                      "        obj.freed = true;", "      end", "    end", ""]
         for b in bs:
             if b.plain and b.handle == h:
                 lines += ["    " + l for l in octave_method(b)] + [""]

@@ -175,6 +175,20 @@ std::vector<double> call::values(int i, int n, const std::string &what) const {
   return u;
 }
 
+std::vector<double> call::rows(const octave_value &v, int columns,
+                               const std::string &what) const {
+  if (!(v.isnumeric() || v.islogical()) || v.iscomplex() || v.ndims() != 2 ||
+      (!v.isempty() && v.columns() != columns))
+    bad(what, "must be a real matrix of " + std::to_string(columns) + " columns");
+  Matrix m = v.matrix_value();
+  std::vector<double> out;
+  out.reserve(static_cast<size_t>(m.numel()));
+  for (octave_idx_type i = 0; i < m.rows(); i++)
+    for (octave_idx_type k = 0; k < m.columns(); k++)
+      out.push_back(m(i, k));
+  return out;
+}
+
 octave_map call::structs(int i, const std::string &what) const {
   if (!arg(i).isstruct())
     bad(what, "must be a struct");
@@ -241,8 +255,8 @@ entry &call::lookup(int id, kind want, access how) const {
     raise("bad_handle", name + ": id " + str(id) + " is a " + kind_name(it->second.what) +
                             ", not a " + kind_name(want));
   if (how == access::write && it->second.sweeping)
-    raise("in_use", name + ": solver " + str(id) +
-                        " is running a sweep; its callback may only read from it");
+    raise_status(KL_ESTATE, name + ": solver " + str(id) +
+                                " is running a sweep; its callback may only read from it");
   /* the library would refuse too (the model is finalized), but write its
    * message into a model that is the study's, not ours */
   if (how == access::write && it->second.owner != 0)
@@ -281,6 +295,23 @@ template <typename T> static octave_value row(const T *v, int n) {
   return row(std::vector<double>(v, v + n).data(), n);
 }
 
+/* n points x, y (2 n doubles) as an n-by-2 matrix. */
+static octave_value pairs(const double *xy, int n) {
+  Matrix out(n, 2);
+  for (int k = 0; k < n; k++)
+    for (int j = 0; j < 2; j++)
+      out(k, j) = xy[2 * k + j];
+  return out;
+}
+
+/* n enum values as a cell row of their names. */
+static octave_value code_names(const named_code *table, const int *codes, int n) {
+  Cell out(1, n);
+  for (int k = 0; k < n; k++)
+    out(k) = code_name(table, codes[k]);
+  return out;
+}
+
 /* A name, or [] where the library gives NULL. */
 static octave_value text_value(const char *text) {
   return text == nullptr ? octave_value(Matrix()) : octave_value(text);
@@ -303,87 +334,14 @@ octave_value_list cmd_model_new(const call &) {
   return one(adopt_model(m));
 }
 
+/* Lets go of the model; its solvers and studies keep it (kl_model_free).
+ * For a study's model it ends the handle only: the model is the study's. */
 octave_value_list cmd_model_free(const call &c) {
   entry &m = c.model(0, access::read);
-  int id = c.whole<int>(c.arg(0), "model id");
-  if (m.owner != 0)
-    raise("in_use", c.name + ": model " + str(id) + " belongs to study " + str(m.owner) +
-                        "; it is freed with the study");
-  if (m.live_solvers > 0)
-    raise("in_use", c.name + ": model " + str(id) + " still has " + str(m.live_solvers) +
-                        " solver" + (m.live_solvers == 1 ? "" : "s") + "; free them first");
-  kl_model_free(m.model);
-  table().live.erase(id);
+  if (m.owner == 0)
+    kl_model_free(m.model);
+  table().live.erase(c.whole<int>(c.arg(0), "model id"));
   return none();
-}
-
-octave_value_list cmd_model_loop(const call &c) {
-  const kl_model *m = c.model(0, access::read).model;
-  int loop = c.whole<int>(c.arg(1), "loop");
-  int n = kl_model_loop(m, loop, nullptr, 0);
-  c.check(n);
-  std::vector<int> joints(n > 0 ? n : 1);
-  kl_model_loop(m, loop, joints.data(), n);
-  return one(row(joints.data(), n));
-}
-
-/* What a kl_model_* call fills up to a capacity: sized by a first call
- * with none, then filled. */
-template <typename T>
-std::vector<T> filled(const call &c, const kl_model *m,
-                      int (*fill)(const kl_model *, T *, int)) {
-  int n = fill(m, nullptr, 0);
-  c.check(n);
-  std::vector<T> items(static_cast<size_t>(n > 0 ? n : 1));
-  fill(m, items.data(), n);
-  items.resize(static_cast<size_t>(n));
-  return items;
-}
-
-octave_value_list cmd_model_transmissions(const call &c) {
-  std::vector<kl_output> sites =
-      filled(c, c.model(0, access::read).model, kl_model_transmissions);
-  octave_map out(dim_vector(1, static_cast<octave_idx_type>(sites.size())));
-  for (size_t k = 0; k < sites.size(); k++)
-    out.assign(static_cast<octave_idx_type>(k), to_octave(sites[k]));
-  return one(out);
-}
-
-octave_value_list cmd_model_pressure_sites(const call &c) {
-  std::vector<kl_output> sites =
-      filled(c, c.model(0, access::read).model, kl_model_pressure_sites);
-  octave_map out(dim_vector(1, static_cast<octave_idx_type>(sites.size())));
-  for (size_t k = 0; k < sites.size(); k++)
-    out.assign(static_cast<octave_idx_type>(k), to_octave(sites[k]));
-  return one(out);
-}
-
-octave_value_list cmd_model_transmission_skips(const call &c) {
-  std::vector<kl_transmission_skip> skips =
-      filled(c, c.model(0, access::read).model, kl_model_transmission_skips);
-  octave_map out(dim_vector(1, static_cast<octave_idx_type>(skips.size())));
-  for (size_t k = 0; k < skips.size(); k++) {
-    octave_scalar_map one_skip;
-    one_skip.assign("joint", skips[k].joint);
-    one_skip.assign("loop", skips[k].loop);
-    one_skip.assign("link", skips[k].link);
-    int why = skips[k].reason;
-    one_skip.assign("reason", why == KL_TRANSMISSION_SKIP_INPUT_CRANK ? "input_crank"
-                              : why == KL_TRANSMISSION_SKIP_RIGID     ? "rigid"
-                              : why == KL_TRANSMISSION_SKIP_SLIDER    ? "slider"
-                                                                      : "no_line");
-    out.assign(static_cast<octave_idx_type>(k), one_skip);
-  }
-  return one(out);
-}
-
-/* The current state as one row (kl_solver_row), laid out as the model's
- * row_offset says. */
-octave_value_list cmd_solver_row(const call &c) {
-  entry &s = c.solver(0, access::read);
-  std::vector<double> values(static_cast<size_t>(kl_model_row_size(s.model)));
-  c.check(kl_solver_row(s.solver, values.data()));
-  return one(row(values.data(), static_cast<int>(values.size())));
 }
 
 /* A model or study read, or the reason it was not: raised, or with two
@@ -428,25 +386,6 @@ octave_value_list cmd_model_read_file(const call &c) {
   return read_result(c, kl_model_read_file(path.c_str(), &e), adopt_model, e);
 }
 
-octave_value_list cmd_model_write(const call &c) {
-  const kl_model *m = c.model(0, access::read).model;
-  size_t needed = 0;
-  c.check(kl_model_write(m, nullptr, 0, &needed));
-  std::string text(needed + 1, '\0');
-  c.check(kl_model_write(m, &text[0], text.size(), &needed));
-  text.resize(needed);
-  return one(text);
-}
-
-octave_value_list cmd_model_write_file(const call &c) {
-  const kl_model *m = c.model(0, access::read).model;
-  std::string path = c.text(c.arg(1), "path");
-  kl_io_error e = io_error();
-  if (kl_model_write_file(m, path.c_str(), &e) != KL_OK)
-    raise_status(e.status, e.message);
-  return none();
-}
-
 /* ------------------------------------------------------------------------
  * Solvers: lifetime, assembly modes
  * ------------------------------------------------------------------------ */
@@ -461,9 +400,13 @@ octave_value_list cmd_model_write_file(const call &c) {
 
 /* A solver from the model's allocator, or placed in a block the gateway
  * allocates (malloc's alignment, as kl_solver_new_in asks) and frees after
- * kl_solver_free. */
+ * kl_solver_free. Given a solver instead of a model: another solver of its
+ * model, whether the model's own handle is freed or not. */
 template <bool in_block> octave_value_list cmd_solver_new(const call &c) {
-  entry &m = c.model(0, access::read);
+  int id = c.whole<int>(c.arg(0), "model id");
+  auto given = table().live.find(id);
+  bool sibling = given != table().live.end() && given->second.what == kind::solver;
+  entry &m = sibling ? c.solver(0, access::read) : c.model(0, access::read);
   size_t size = kl_solver_bytes(m.model);
   void *block = in_block && size > 0 ? std::malloc(size) : nullptr;
   kl_solver *s = in_block ? kl_solver_new_in(m.model, block, size) : kl_solver_new(m.model);
@@ -474,9 +417,8 @@ template <bool in_block> octave_value_list cmd_solver_new(const call &c) {
   entry e;
   e.model = m.model;
   e.solver = s;
-  e.model_id = c.whole<int>(c.arg(0), "model id");
+  e.model_id = sibling ? m.model_id : id;
   e.block = block;
-  m.live_solvers++;
   return one(new_id(kind::solver, e));
 }
 
@@ -484,9 +426,6 @@ octave_value_list cmd_solver_free(const call &c) {
   entry &s = c.solver(0);
   kl_solver_free(s.solver);
   std::free(s.block);
-  auto m = table().live.find(s.model_id);
-  if (m != table().live.end())
-    m->second.live_solvers--;
   table().live.erase(c.whole<int>(c.arg(0), "solver id"));
   return none();
 }
@@ -519,10 +458,9 @@ octave_value_list cmd_find_assemblies(const call &c) {
  * callback sees the step. */
 struct recorder {
   const kl_model *model;
-  int width, rows = 0;
-  Matrix table; /* one row per step: Octave is column-major, so each step's
-                   row is gathered from a C row buffer */
-  std::vector<double> row;
+  int rows = 0;
+  Matrix table; /* width x steps + 1: column k is the C row of step k, as
+                   kl_solver_sweep_rows writes them */
   octave_value callback;
   int solver_id = 0;
   octave::interpreter *interp = nullptr;
@@ -533,15 +471,10 @@ struct recorder {
   static bool takes(int steps) { return steps >= 1 && steps <= KL_MAX_STEPS; }
 
   recorder(const kl_model *m, int steps)
-      : model(m), width(kl_model_row_size(m)),
-        table(takes(steps) ? static_cast<octave_idx_type>(steps) + 1 : 0,
-              kl_model_row_size(m), NAN),
-        row(static_cast<size_t>(kl_model_row_size(m))) {}
+      : model(m), table(kl_model_row_size(m),
+                        takes(steps) ? static_cast<octave_idx_type>(steps) + 1 : 0) {}
 
-  void take(const double *values, int k) {
-    for (int i = 0; i < width; i++)
-      table(k, i) = values[i];
-  }
+  double *row(int k) { return table.fortran_vec() + static_cast<size_t>(k) * table.rows(); }
 
   /* Octave errors are C++ exceptions: none may cross the C library's
    * frames, so a failing callback stops the sweep and is rethrown after. */
@@ -562,22 +495,28 @@ struct recorder {
   }
 
   /* The delivered rows, a field per quantity, and the swept input's
-   * values as `input`. */
+   * values as `input`: one copy from C's rows to Octave's columns, whose
+   * fields share (Octave slices a matrix's consecutive columns without
+   * copying them), so that a sweep allocates its result once. */
   octave_scalar_map result(int input) {
     octave_scalar_map out;
+    Matrix steps = (rows == table.cols() ? table : table.extract_n(0, 0, table.rows(), rows))
+                       .transpose();
+    auto columns = [&](int first, int count) {
+      return Matrix(steps.index(idx_vector::colon, idx_vector::make_range(first, 1, count)));
+    };
     int q, count, offset;
     for (q = 0; (offset = kl_model_row_offset(model, q, &count)) >= 0; q++)
-      out.assign(kl_quantity_str(q), table.extract_n(0, offset, rows, count));
+      out.assign(kl_quantity_str(q), columns(offset, count));
     offset = kl_model_row_offset(model, KL_QUANTITY_INPUT_VALUE, &count);
-    out.assign("input", table.extract_n(0, offset + input, rows, 1));
+    out.assign("input", columns(offset + input, 1));
     return out;
   }
 };
 
 extern "C" int record_step(const kl_solver *s, int step, double input, void *user) {
   recorder *r = static_cast<recorder *>(user);
-  kl_solver_row(s, r->row.data());
-  r->take(r->row.data(), r->rows++);
+  kl_solver_row(s, r->row(r->rows++));
   return r->notify(step, input);
 }
 
@@ -605,12 +544,9 @@ octave_value_list cmd_sweep(const call &c) {
   res.size = sizeof res;
   int st;
   if (rec.callback.is_undefined() && recorder::takes(steps)) {
-    /* the library fills the rows at C speed, C-ordered: one row per step */
-    std::vector<double> rows((static_cast<size_t>(steps) + 1) *
-                             static_cast<size_t>(rec.width));
-    st = kl_solver_sweep_rows(s.solver, input, from, to, steps, rows.data(), &res);
-    for (rec.rows = 0; rec.rows < res.steps_done; rec.rows++)
-      rec.take(rows.data() + static_cast<size_t>(rec.rows) * rec.width, rec.rows);
+    /* the library fills the rows at C speed */
+    st = kl_solver_sweep_rows(s.solver, input, from, to, steps, rec.row(0), &res);
+    rec.rows = res.steps_done > 0 ? res.steps_done : 0;
   } else {
     sweeping_guard guard(s);
     st = kl_solver_sweep(s.solver, input, from, to, steps, record_step, &rec, &res);
@@ -664,98 +600,6 @@ Matrix from_rows(const std::vector<double> &v, long rows, int columns) {
     for (int k = 0; k < columns; k++)
       out(i, k) = v[static_cast<size_t>(i) * columns + k];
   return out;
-}
-
-/* A 1 x n struct array of the peaks. */
-octave_map peak_list(const std::vector<kl_cycle_peak> &peaks, int n) {
-  octave_map out(dim_vector(1, n));
-  for (int k = 0; k < n; k++)
-    out.assign(k, to_octave(peaks[static_cast<size_t>(k)]));
-  return out;
-}
-
-/* kl_output_ranges: (solver, input, from, to, steps, outputs), outputs a
- * struct array of kl_output; a struct array of kl_range, one per output. */
-octave_value_list cmd_output_ranges(const call &c) {
-  entry &s = c.solver(0);
-  int input = c.whole<int>(c.arg(1), "input");
-  double from = c.real(c.arg(2), "from");
-  double to = c.real(c.arg(3), "to");
-  int steps = c.whole<int>(c.arg(4), "steps");
-  octave_map list = c.struct_list(5, "outputs");
-  std::vector<kl_output> outs(static_cast<size_t>(list.numel()), kl_output());
-  for (octave_idx_type k = 0; k < list.numel(); k++)
-    from_octave(c, list, k, "outputs", outs[static_cast<size_t>(k)], false);
-  int n = c.count(outs.size(), "outputs");
-  kl_range blank = kl_range();
-  blank.size = sizeof blank;
-  std::vector<kl_range> ranges(outs.size() > 0 ? outs.size() : 1, blank);
-  c.check(kl_output_ranges(s.solver, input, from, to, steps, n,
-                           outs.empty() ? nullptr : outs.data(), ranges.data()),
-          kl_solver_error(s.solver));
-  octave_map out(dim_vector(1, n));
-  for (int k = 0; k < n; k++)
-    out.assign(k, to_octave(ranges[static_cast<size_t>(k)]));
-  return one(octave_value(out));
-}
-
-/* [summary, input_peaks, joint_peaks] of kl_cycle_summarize. */
-octave_value_list cmd_cycle_summarize(const call &c) {
-  entry &s = c.solver(0);
-  cycle_arguments a(c);
-  int ni = kl_model_input_count(s.model), nj = kl_model_joint_count(s.model);
-  std::vector<kl_cycle_peak> inputs(static_cast<size_t>(ni > 0 ? ni : 1));
-  std::vector<kl_cycle_peak> joints(static_cast<size_t>(nj > 0 ? nj : 1));
-  kl_cycle_summary sum = kl_cycle_summary();
-  sum.size = sizeof sum;
-  c.check(kl_cycle_summarize(s.solver, &a.cycle, a.nloads, a.load_array(), &sum,
-                             inputs.data(), joints.data()),
-          kl_solver_error(s.solver));
-  octave_value_list out;
-  out(0) = to_octave(sum);
-  out(1) = peak_list(inputs, ni);
-  out(2) = peak_list(joints, nj);
-  return out;
-}
-
-/* kl_solver_workspace as a struct: the result's fields, and xy (a row
- * per vertex), curve (each vertex's curve number) and kind (the name of
- * the kind of the stretch from each vertex), the arrays grown until the
- * curves fit. (solver, point, [options]) */
-octave_value_list cmd_solver_workspace(const call &c) {
-  entry &s = c.solver(0);
-  int point = c.whole<int>(c.arg(1), "point");
-  kl_workspace_options o;
-  kl_workspace_options_default(&o);
-  if (c.given(2)) {
-    octave_map given = c.one_struct(2, "options");
-    from_octave(c, given, 0, "options", o, false);
-  }
-  kl_workspace_result res = kl_workspace_result();
-  res.size = sizeof res;
-  int st;
-  std::vector<double> xy;
-  std::vector<int> curves, kinds;
-  /* the C call cannot grow the caller's arrays: a larger call each time */
-  for (size_t cap = 4096;; cap *= 4) {
-    xy.assign(2 * cap, 0.0);
-    curves.assign(cap, 0);
-    kinds.assign(cap, 0);
-    st = kl_solver_workspace(s.solver, point, &o, xy.data(), curves.data(), kinds.data(),
-                             static_cast<int>(cap), &res);
-    if (st != KL_ETRUNCATED || cap >= (size_t(1) << 22))
-      break;
-  }
-  c.check(st, kl_solver_error(s.solver));
-  int n = res.vertices;
-  octave_scalar_map out = to_octave(res);
-  out.assign("xy", from_rows(xy, n, 2));
-  out.assign("curve", row(curves.data(), n));
-  Cell names(1, n);
-  for (int k = 0; k < n; k++)
-    names(k) = code_name(kl_workspace_kind_names, kinds[static_cast<size_t>(k)]);
-  out.assign("kind", names);
-  return one(out);
 }
 
 /* kl_cycle_table as a struct of named columns, one row per sample: input,
@@ -826,29 +670,21 @@ octave_value_list cmd_study_read_file(const call &c) {
   return read_result(c, kl_study_read_file(path.c_str(), &e), adopt_study, e);
 }
 
-/* The study's borrowed model goes with it, which its solvers must not
- * outlive. */
+/* The study's borrowed model handle goes with it; solvers made from that
+ * handle keep working (the library keeps the model for them). */
 octave_value_list cmd_study_free(const call &c) {
   entry &st = c.study(0);
-  auto m = table().live.find(st.model_id);
-  if (m != table().live.end()) {
-    if (m->second.live_solvers > 0)
-      raise("in_use", c.name + ": the model of study " + shown(c.arg(0)) + " (model " +
-                          str(st.model_id) + ") still has " + str(m->second.live_solvers) +
-                          " solver" + (m->second.live_solvers == 1 ? "" : "s") +
-                          "; free them first");
-    table().live.erase(m);
-  }
+  table().live.erase(st.model_id);
   kl_study_free(st.study);
   table().live.erase(c.whole<int>(c.arg(0), "study id"));
   return none();
 }
 
-/* The study's model as a borrowed handle: one per study, made on the
- * first call, freed with the study. */
+/* The study's model as a borrowed handle: one per study (made again if
+ * its handle was freed), ended with the study. */
 octave_value_list cmd_study_model(const call &c) {
   entry &st = c.study(0);
-  if (st.model_id == 0) {
+  if (table().live.count(st.model_id) == 0) {
     entry e;
     /* writes through it are refused (entry::owner), so the const the
      * library gives is kept */
@@ -886,32 +722,6 @@ octave_value_list cmd_study_run(const call &c) {
   if (want_dims)
     out(2) = from_rows(dims, rows, ndim);
   return out;
-}
-
-octave_value_list cmd_study_summarize(const call &c) {
-  const kl_study *st = c.study(0).study;
-  int k = c.whole<int>(c.arg(1), "output");
-  int nout = kl_study_output_count(st);
-  const octave_value &v = c.arg(2);
-  if (!(v.isnumeric() || v.islogical()) || v.iscomplex() || v.ndims() != 2 ||
-      (!v.isempty() && v.columns() != nout))
-    c.bad("values", "must be a real matrix with one column per output (" + str(nout) +
-                        "), as study_run gives");
-  Matrix values = v.matrix_value();
-  long n = v.isempty() ? 0 : values.rows();
-  std::vector<int> status = c.wholes<int>(c.arg(3), "sample statuses");
-  if (static_cast<long>(status.size()) != n)
-    c.bad("sample statuses", "must have one element per row of values (" + std::to_string(n) +
-                                 "); got " + std::to_string(status.size()));
-  std::vector<double> rows(static_cast<size_t>(n) * nout + 1);
-  for (long i = 0; i < n; i++)
-    for (int j = 0; j < nout; j++)
-      rows[static_cast<size_t>(i) * nout + j] = values(i, j);
-  status.push_back(0); /* never empty: data() is not NULL */
-  kl_study_summary s = kl_study_summary();
-  s.size = sizeof s;
-  c.check(kl_study_summarize(st, k, rows.data(), status.data(), n, &s));
-  return one(to_octave(s));
 }
 
 /* ------------------------------------------------------------------------
@@ -955,59 +765,28 @@ octave_value_list cmd_cam_free(const call &c) {
   return none();
 }
 
-/* The pitch curve and the surface at n cam angles, each an n-by-2 matrix
- * of (x, y) rows. */
-octave_value_list cmd_cam_outline(const call &c) {
-  const kl_cam *cam = c.cam(0, access::read).cam;
-  int n = c.whole<int>(c.arg(1), "n");
-  std::vector<double> pitch(2 * static_cast<size_t>(n > 0 ? n : 0)), surface(pitch.size());
-  c.check(kl_cam_outline(cam, n, pitch.data(), surface.data()), kl_cam_error(cam));
-  Matrix p(n, 2), s(n, 2);
-  for (int k = 0; k < n; k++)
-    for (int i = 0; i < 2; i++) {
-      p(k, i) = pitch[2 * k + i];
-      s(k, i) = surface[2 * k + i];
-    }
-  octave_value_list out;
-  out(0) = p;
-  out(1) = s;
-  return out;
-}
-
 const command hand_commands[] = {
     {"commands", 0, 0, "()", cmd_commands},
     {"handles", 0, 0, "()", cmd_handles},
     {"status_name", 1, 1, "(status)", cmd_status_name},
     {"model_new", 0, 0, "()", cmd_model_new},
     {"model_free", 1, 1, "(model)", cmd_model_free},
-    {"model_loop", 2, 2, "(model, loop)", cmd_model_loop},
-    {"model_transmissions", 1, 1, "(model)", cmd_model_transmissions},
-    {"model_transmission_skips", 1, 1, "(model)", cmd_model_transmission_skips},
-    {"model_pressure_sites", 1, 1, "(model)", cmd_model_pressure_sites},
-    {"solver_row", 1, 1, "(solver)", cmd_solver_row},
     {"model_read", 1, 1, "(text)", cmd_model_read},
     {"model_read_file", 1, 1, "(path)", cmd_model_read_file},
-    {"model_write", 1, 1, "(model)", cmd_model_write},
-    {"model_write_file", 2, 2, "(model, path)", cmd_model_write_file},
     {"solver_new", 1, 1, "(model)", cmd_solver_new<false>},
     {"solver_new_in", 1, 1, "(model)", cmd_solver_new<true>},
     {"solver_free", 1, 1, "(solver)", cmd_solver_free},
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
-    {"output_ranges", 6, 6, "(solver, input, from, to, steps, outputs)", cmd_output_ranges},
-    {"cycle_summarize", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_summarize},
-    {"solver_workspace", 2, 3, "(solver, point, [options])", cmd_solver_workspace},
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
     {"study_read", 2, 2, "(text, model)", cmd_study_read},
     {"study_read_file", 1, 1, "(path)", cmd_study_read_file},
     {"study_free", 1, 1, "(study)", cmd_study_free},
     {"study_model", 1, 1, "(study)", cmd_study_model},
     {"study_run", 3, 4, "(study, first, count, [threads])", cmd_study_run},
-    {"study_summarize", 4, 4, "(study, output, values, sample_statuses)", cmd_study_summarize},
     {"cam_new", 0, 0, "()", cmd_cam_new},
     {"cam_free", 1, 1, "(cam)", cmd_cam_free},
-    {"cam_outline", 2, 2, "(cam, n)", cmd_cam_outline},
     {nullptr, 0, 0, nullptr, nullptr}};
 
 const command *const all_commands[] = {generated_commands, hand_commands, extra_commands};

@@ -26,17 +26,18 @@ namespace kinloop_gateway {
 enum class kind : unsigned char { none, model, solver, study, cam };
 
 /* A study's model is borrowed: its handle (made by study_model) refuses
- * every command that would change or free it, and goes with the study. */
+ * every command that would change it, and goes with the study. A model or
+ * study may go while solvers of its model live: the library keeps the model
+ * for them (kl_model_free), so a solver's `model` stays valid. */
 struct entry {
   kind what = kind::none;
   kl_model *model = nullptr; /* the model, or the solver's model */
   kl_solver *solver = nullptr;
   kl_study *study = nullptr;
   kl_cam *cam = nullptr;
-  int model_id = 0;      /* solver: its model's id; study: its borrowed
-                            model's id, 0 until study_model */
+  int model_id = 0;      /* solver: the id its model was made under; study:
+                            its borrowed model's id, 0 until study_model */
   int owner = 0;         /* model: the study it belongs to, 0 if its own */
-  int live_solvers = 0;  /* model: solvers not yet freed */
   void *block = nullptr; /* solver placed in a gateway-owned block */
   bool sweeping = false; /* solver: inside kl_solver_sweep's callback */
 };
@@ -52,8 +53,9 @@ int new_id(kind what, const entry &e);
 int adopt_model(kl_model *m);
 
 /* Errors raise 'kinloop:<status name>': the library's own message for its
- * failures, EINVAL for arguments the rule refuses; kinloop:bad_handle and
- * kinloop:in_use for ids that are not (or no longer) usable. */
+ * failures, EINVAL for arguments the rule refuses, ESTATE for a change
+ * the handle cannot take now; kinloop:bad_handle for ids that are not (or
+ * no longer) usable. */
 [[noreturn]] void raise(const std::string &id, const std::string &message);
 [[noreturn]] void raise_status(int status, const std::string &message);
 const char *status_name(int status); /* generated */
@@ -106,6 +108,8 @@ public:
   void point(const octave_value &v, const std::string &what, double &x, double &y) const;
   /* An enum value by name (any case) or by its code. */
   int code(const octave_value &v, const std::string &what, const named_code *table) const;
+  /* A table read row by row: a real matrix of `columns` columns (or []). */
+  std::vector<double> rows(const octave_value &v, int columns, const std::string &what) const;
   /* Exactly n reals, one per input (any vector shape; [] when n is 0). */
   std::vector<double> values(int i, int n, const std::string &what) const;
   /* Ids shaped like argument i, each mapped through `get`. */

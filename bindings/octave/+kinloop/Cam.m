@@ -12,16 +12,6 @@ classdef Cam < kinloop.CamMethods
   %
   % The cam is freed when the last reference goes, or by delete(c).
 
-  properties (SetAccess = private)
-    id = [];      % the gateway's handle for this cam
-  end
-
-  % Public but hidden: Octave 7 runs a destructor in the context of the
-  % object that released it, where private properties cannot be read.
-  properties (Hidden)
-    freed = false;  % set once the gateway has freed the handle
-  end
-
   methods
     function obj = Cam()
       obj.id = __kinloop__('cam_new');
@@ -33,12 +23,6 @@ classdef Cam < kinloop.CamMethods
         __kinloop__('cam_free', obj.id);
         obj.freed = true;
       end
-    end
-
-    function [pitch, surface] = outline(obj, n)
-      % The pitch curve and the cam surface at the cam angles 2 pi k / n,
-      % k = 0 .. n - 1: n-by-2 matrices of (x, y) rows in the cam's frame.
-      [pitch, surface] = __kinloop__('cam_outline', obj.id, n);
     end
   end
 end

@@ -12,23 +12,14 @@ classdef Model < kinloop.ModelMethods
   % kinloop:ESELFJOINT) with the library's message and changes nothing.
   % The methods of the plain library functions come from kinloop.ModelMethods
   % (generated from kinloop.h); methods(m) lists them all. The model is
-  % freed when the last reference to it goes (a kinloop.Solver keeps its
-  % model alive), or by delete(m).
+  % let go of when the last reference to it goes, or by delete(m); its
+  % solvers and studies keep working after delete(m) (the library keeps
+  % the model for them), while m's own methods raise kinloop:bad_handle.
   %
   % A study's model (kinloop.Study's model()) is borrowed: the object keeps
   % its study alive, refuses every change (kinloop:ESTATE: it is finalized),
-  % and delete of it frees nothing; the model goes with the study.
-
-  properties (SetAccess = private)
-    id = [];      % the gateway's handle for this model
-  end
-
-  % Public but hidden: Octave 7 runs a destructor in the context of the
-  % object that released it, where private properties cannot be read.
-  properties (Hidden)
-    freed = false;  % set once the gateway has freed the handle
-    owner = [];     % a borrowed model: the kinloop.Study it belongs to
-  end
+  % and delete of it frees nothing; the handle ends with the study, its
+  % solvers keep working.
 
   methods
     function obj = Model(how, id, owner)
@@ -46,16 +37,6 @@ classdef Model < kinloop.ModelMethods
       end
     end
 
-    function delete(obj)
-      % Frees the model (once; later calls do nothing). Raises kinloop:in_use
-      % while solvers made from it are alive. A borrowed model is its
-      % study's to free: nothing happens.
-      if ~obj.freed && ~isempty(obj.id) && isempty(obj.owner)
-        __kinloop__('model_free', obj.id);
-        obj.freed = true;
-      end
-    end
-
     function finalize(obj)
       % Checks the topology and prepares the equations (kl_model_finalize).
       % A study's model is finalized already: for it, as for any finalized
@@ -70,11 +51,6 @@ classdef Model < kinloop.ModelMethods
       tf = ~isempty(obj.owner);
     end
 
-    function joints = loop(obj, index)
-      % The joint ids of loop `index` in walking order.
-      joints = __kinloop__('model_loop', obj.id, index);
-    end
-
     function loads = loads(obj)
       % The loads the model records (kl_model_load) as a struct array, in
       % order: what Solver.cycle_summarize(m.loads(), m.cycle()) takes.
@@ -86,33 +62,6 @@ classdef Model < kinloop.ModelMethods
           loads(end + 1) = obj.load(k);
         end
       end
-    end
-
-    function sites = transmissions(obj)
-      % The transmission-angle sites kinloop measures (kl_model_transmissions):
-      % a struct array of outputs.
-      sites = __kinloop__('model_transmissions', obj.id);
-    end
-
-    function sites = pressure_sites(obj)
-      % The sliders' pressure-angle sites kinloop measures
-      % (kl_model_pressure_sites): a struct array of outputs.
-      sites = __kinloop__('model_pressure_sites', obj.id);
-    end
-
-    function skips = transmission_skips(obj)
-      % The joints passed over for a transmission angle, with the reason
-      % (kl_model_transmission_skips).
-      skips = __kinloop__('model_transmission_skips', obj.id);
-    end
-
-    function text = write(obj)
-      % The model as model-file text (kl_model_write).
-      text = __kinloop__('model_write', obj.id);
-    end
-
-    function write_file(obj, path)
-      __kinloop__('model_write_file', obj.id, path);
     end
   end
 

@@ -5,30 +5,25 @@ classdef Solver < kinloop.SolverMethods
   %   s = kinloop.Solver(model)               memory from the model's allocator
   %   s = kinloop.Solver(model, 'in_block')   placed in one block the binding
   %                                           holds (kl_solver_new_in)
+  %   s = kinloop.Solver(other)               another solver of other's model
   %
   % Inputs, rates and accelerations are vectors in input order. Getters
   % take one id or a vector of ids; point getters give [x y]. Rates and
   % accelerations not solved at the current position read as NaN. A failed
   % call raises 'kinloop:<status>' with the library's message and leaves the
   % solver as it was. The methods of the plain library functions come from
-  % kinloop.SolverMethods (generated from kinloop.h). The solver keeps its
-  % model alive; it is freed when the last reference goes, or by delete(s).
+  % kinloop.SolverMethods (generated from kinloop.h). The library keeps the
+  % model for the solver: delete(model) leaves the solver working. The
+  % solver is freed when the last reference goes, or by delete(s).
 
   properties (SetAccess = private)
-    id = [];       % the gateway's handle for this solver
     model = [];    % the kinloop.Model it solves
-  end
-
-  % Public but hidden: Octave 7 runs a destructor in the context of the
-  % object that released it, where private properties cannot be read.
-  properties (Hidden)
-    freed = false;  % set once the gateway has freed the handle
   end
 
   methods
     function obj = Solver(model, where)
-      if ~isa(model, 'kinloop.Model')
-        error('kinloop:EINVAL', 'kinloop.Solver: the argument must be a kinloop.Model');
+      if ~isa(model, 'kinloop.Model') && ~isa(model, 'kinloop.Solver')
+        error('kinloop:EINVAL', 'kinloop.Solver: the argument must be a kinloop.Model or Solver');
       end
       if nargin < 2
         obj.id = __kinloop__('solver_new', model.id);
@@ -37,15 +32,10 @@ classdef Solver < kinloop.SolverMethods
       else
         error('kinloop:EINVAL', 'kinloop.Solver: the second argument may only be ''in_block''');
       end
-      obj.model = model;
-    end
-
-    function delete(obj)
-      % Frees the solver (once; later calls do nothing).
-      if ~obj.freed && ~isempty(obj.id)
-        __kinloop__('solver_free', obj.id);
-        obj.freed = true;
+      if isa(model, 'kinloop.Solver')
+        model = model.model;
       end
+      obj.model = model;
     end
 
     function id = model_id(obj)
@@ -89,7 +79,7 @@ classdef Solver < kinloop.SolverMethods
 
     function modes = assemblies(obj, inputs)
       % A cell array of new solvers, one per assembly mode at inputs.
-      modes = arrayfun(@(k) kinloop.Solver(obj.model), 1:obj.find_assemblies(inputs), ...
+      modes = arrayfun(@(k) kinloop.Solver(obj), 1:obj.find_assemblies(inputs), ...
                        'UniformOutput', false);
       obj.find_assemblies(inputs, modes);
     end
@@ -122,22 +112,6 @@ classdef Solver < kinloop.SolverMethods
       end
     end
 
-    function values = row(obj)
-      % Every quantity of the current state as one row (kl_solver_row).
-      values = __kinloop__('solver_row', obj.id);
-    end
-
-    % ---- ranges of outputs ----
-
-    function r = output_ranges(obj, input, from, to, steps, outputs)
-      % r = output_ranges(input, from, to, steps, outputs): the extremes of
-      % every output of the struct array outputs (kind, id, line_a,
-      % line_b) from one sweep (kl_output_ranges), a struct array of
-      % ranges in their order: the cost of a few sweeps whatever their
-      % number, where output_range costs a sweep per output.
-      r = __kinloop__('output_ranges', obj.id, input, from, to, steps, outputs);
-    end
-
     % ---- force figures over a cycle ----
 
     function [summary, inputs, joints] = cycle_summarize(obj, loads, varargin)
@@ -168,8 +142,11 @@ classdef Solver < kinloop.SolverMethods
       % (each vertex's curve number, from 0) and kind (a cell of 'boundary'
       % or 'fold', the stretch from each vertex). The solver keeps its
       % state.
-      w = __kinloop__('solver_workspace', obj.id, point, ...
-                      kinloop.Solver.cycle_of(varargin));
+      [xy, curve, kind, w] = workspace@kinloop.SolverMethods(obj, point, ...
+                                                             kinloop.Solver.cycle_of(varargin));
+      w.xy = xy;
+      w.curve = curve;
+      w.kind = kind;
     end
 
     function t = cycle_table(obj, loads, varargin)

@@ -16,18 +16,8 @@ classdef Study < kinloop.StudyMethods
   % the study's seed and its index alone, whatever the threads or the split.
   % st.model() is the nominal model, borrowed: it keeps the study alive and
   % cannot be changed or freed. The study is freed when the last reference
-  % goes, or by delete(st); while solvers of its model live, delete raises
-  % kinloop:in_use.
-
-  properties (SetAccess = private)
-    id = [];      % the gateway's handle for this study
-  end
-
-  % Public but hidden: Octave 7 runs a destructor in the context of the
-  % object that released it, where private properties cannot be read.
-  properties (Hidden)
-    freed = false;  % set once the gateway has freed the handle
-  end
+  % goes, or by delete(st); that ends its model's handle too, while solvers
+  % made from it keep working (the library keeps the model for them).
 
   methods
     function obj = Study(how, id)
@@ -36,14 +26,6 @@ classdef Study < kinloop.StudyMethods
       else
         error('kinloop:EINVAL', ...
               'kinloop.Study: use kinloop.Study.read(text [, base_dir]) or read_file(path)');
-      end
-    end
-
-    function delete(obj)
-      % Frees the study and its model's handle (once; later calls do nothing).
-      if ~obj.freed && ~isempty(obj.id)
-        __kinloop__('study_free', obj.id);
-        obj.freed = true;
       end
     end
 
@@ -98,7 +80,7 @@ classdef Study < kinloop.StudyMethods
       else
         k = output;
       end
-      s = __kinloop__('study_summarize', obj.id, k, values, status);
+      s = summarize@kinloop.StudyMethods(obj, k, values, status);
     end
   end
 

@@ -30,7 +30,7 @@ assert(s.input_value(0) == r.input(end), 'the solver holds the last delivered st
 
 % ---- the callback may not change the sweeping solver ----
 err = expect_error(@() s.sweep(0, 0, 1, 4, @(solver, step, u) solver.solve_position(0)), ...
-                   'kinloop:in_use');
+                   'kinloop:ESTATE');
 s.solve_position(0.5);  % and afterwards the solver is free again
 
 % ---- an error in the callback stops the sweep and is raised ----

@@ -17,6 +17,8 @@ import numbers
 import operator
 import os
 
+import numpy as np
+
 from ._core import Handle, KinloopError
 from ._header import Sized, Status
 
@@ -195,13 +197,27 @@ def with_fields(value, ctype_name, fields, function, argument):
     return dataclasses.replace(value, **fields)
 
 
-def same_count(function, count, *arrays):
-    """The length of arrays (name, length) that one int `count` gives C."""
+def same_count(function, count, *arrays, rule=to_int):
+    """The length of arrays (name, length) that one int (or long, by
+    `rule`) `count` gives C."""
     lengths = {n for _, n in arrays}
     if len(lengths) > 1:
         refuse(function, " and ".join(a for a, _ in arrays), "must have as many elements "
                "each; got %s" % ", ".join("%d" % n for _, n in arrays))
-    return to_int(lengths.pop(), function, count)
+    return rule(lengths.pop(), function, count)
+
+
+def rows_of(values, columns, function, argument):
+    """A table of `columns` doubles per row (an (n, columns) array) as C
+    reads it, row by row, and its rows."""
+    try:
+        table = np.ascontiguousarray(values, dtype=float)
+    except (TypeError, ValueError, OverflowError) as e:
+        refuse(function, argument, "must be an array of numbers (%s)" % e)
+    if table.ndim != 2 or table.shape[1] != columns:
+        refuse(function, argument, "must have %d columns (an (n, %d) array); got the "
+               "shape %s" % (columns, columns, table.shape))
+    return table.ctypes.data_as(ctypes.POINTER(ctypes.c_double)), table.shape[0]
 
 
 def struct_in(value, ctype, function, argument):

@@ -60,6 +60,16 @@ def check_const(status, call, *args):
     return status
 
 
+def check_report(status, report, call, *args):
+    """The status of a call that reports a failure in a kl_io_error: it
+    raises with the report's message, line and column."""
+    if status < 0:
+        shown = "(%s)" % ", ".join(map(repr, args)) if args else ""
+        raise KinloopError(status, "%s%s: %s" % (call, shown, text(report.message) or ""),
+                           line=report.line or None, column=report.column or None)
+    return status
+
+
 def as_enum(kind, value):
     """A member of the IntEnum `kind` where the value is one, else the int."""
     try:

@@ -8,7 +8,7 @@ import weakref
 
 from . import _api, raw
 from ._args import refuse
-from ._core import Handle, KinloopError, check_const, text, value_of
+from ._core import Handle, KinloopError, check_report, text
 from ._header import Status
 
 
@@ -26,24 +26,25 @@ def allocator_hook(allocator):
     return raw.kl_alloc_fn(hook)
 
 
-def _free_model(ptr, solver_finalizers, keepalive):
-    # A solver freed after its model would use freed memory: whatever order
-    # the garbage collector finds them in, the solvers go first.
-    for free_solver in list(solver_finalizers):
-        free_solver()
+def _free_model(ptr, hook):
+    # The library keeps the model for the solvers and studies made from it
+    # (kl_model_free); they keep `hook`, its allocator, alive as long.
     raw.lib.kl_model_free(ptr)
 
 
-def _release_view(solver_finalizers):
-    # a borrowed model is not ours to free: only the solvers made from it
-    for free_solver in list(solver_finalizers):
-        free_solver()
+def _release_view():
+    """A borrowed model is not ours to free: closing the view only ends it."""
 
 
-def io_error(status, err, what):
-    """The error of a model or study file call, from its kl_io_error."""
-    return KinloopError(status, "%s: %s" % (what, text(err.message) or ""),
-                        line=err.line or None, column=err.column or None)
+def row_layout(mh):
+    """Model.row_layout of the C model `mh`."""
+    layout, count, quantity = {}, ctypes.c_int(), 0
+    while True:
+        first = _api.kl_model_row_offset(mh, quantity, ctypes.byref(count))
+        if first < 0:  # past the last quantity (or not finalized)
+            return layout
+        layout[text(_api.kl_quantity_str(quantity))] = (first, count.value)
+        quantity += 1
 
 
 def read_handle(reader, what, *args):
@@ -52,7 +53,7 @@ def read_handle(reader, what, *args):
     err = raw.kl_io_error()
     ptr = reader(*args, ctypes.byref(err))
     if not ptr:
-        raise io_error(err.status or Status.ENOMEM, err, what)
+        check_report(err.status or Status.ENOMEM, err, what)
     return ptr
 
 
@@ -72,8 +73,10 @@ def data_of(source, function):
 class Model(_api.ModelMethods, Handle):
     """A kinloop model (kl_model). Build it, finalize it, make Solvers.
 
-    ``with Model() as m:`` frees it (and its solvers) on leaving the block;
-    otherwise it is freed when garbage-collected, exactly once either way.
+    ``with Model() as m:`` lets go of it (kl_model_free) on leaving the
+    block; otherwise it goes when garbage-collected, exactly once either
+    way. Its Solvers and Studies keep working after it is closed: the
+    library keeps the model for them.
     `allocator`, if given, is a callable (ptr, old_size, new_size) -> address
     used for every allocation of the model and its solvers (see
     allocator_hook). A Study's `model` is a borrowed Model (`borrowed` is
@@ -102,15 +105,12 @@ class Model(_api.ModelMethods, Handle):
 
     def _adopt(self, ptr, hook, owner=None):
         self._ptr = ptr
-        self._hook = hook  # a Study read against the model keeps it too
-        self._sweeps = 0  # sweeps of its solvers under way
-        self._solver_finalizers = set()
+        self._hook = hook  # its Solvers and Studies keep it too
         self._owner = owner
         if owner is None:
-            self._finalizer = weakref.finalize(self, _free_model, ptr,
-                                               self._solver_finalizers, hook)
+            self._finalizer = weakref.finalize(self, _free_model, ptr, hook)
         else:
-            self._finalizer = weakref.finalize(self, _release_view, self._solver_finalizers)
+            self._finalizer = weakref.finalize(self, _release_view)
 
     # ---- lifetime ----
 
@@ -125,19 +125,12 @@ class Model(_api.ModelMethods, Handle):
                                "cannot change (it is finalized)")
         return handle
 
-    def _register_solver(self, finalizer):
-        self._solver_finalizers.difference_update(
-            [f for f in self._solver_finalizers if not f.alive])
-        self._solver_finalizers.add(finalizer)
-
     def close(self):
-        """Frees the model (kl_model_free) and first every solver made from
-        it; later calls on them raise ValueError. Closing twice does nothing.
-        For a borrowed model (Study.model) it closes the view and its solvers
-        only: the model itself goes with its owner."""
-        if self._sweeps:
-            raise RuntimeError("kinloop: a model cannot be closed during a sweep "
-                               "of one of its solvers")
+        """Lets go of the model (kl_model_free); later calls of its methods
+        raise ValueError, closing twice does nothing. Solvers and studies
+        made from it keep working (the library frees the model after the
+        last of them). For a borrowed model (Study.model) it closes the
+        view only."""
         self._finalizer()
 
     def finalize(self):
@@ -160,25 +153,16 @@ class Model(_api.ModelMethods, Handle):
             self.input_count, ", finalized" if self.is_finalized else "",
             ", borrowed from a study" if self.borrowed else "")
 
-    # ---- the joints of a loop ----
-
-    def loop(self, loop):
-        """The joint ids of loop `loop` in walking order."""
-        h = self._handle
-        n = check_const(_api.kl_model_loop(h, loop, None, 0), "loop", loop)
-        joints = (ctypes.c_int * max(n, 1))()
-        _api.kl_model_loop(h, loop, joints, n)
-        return list(joints[:n])
+    # ---- the joints of loops, the loads ----
 
     @property
     def loops(self):
         return [self.loop(k) for k in range(self.loop_count)]
 
     @property
-    def _input_count(self):
-        """The count of a generated method's array per input
-        (kl_model_start_inputs)."""
-        return self.input_count
+    def _model_ptr(self):
+        """The model of a generated method's arrays per item (kl_model_<item>_count)."""
+        return self._handle
 
     @property
     def loads(self):
@@ -186,50 +170,14 @@ class Model(_api.ModelMethods, Handle):
         order: what Solver.cycle_summarize(m.loads, m.cycle) takes."""
         return [self.load(k) for k in range(self.load_count)]
 
-    # ---- what a finalized model says of its rows and transmissions ----
+    # ---- what a finalized model says of its rows ----
 
     @property
     def row_layout(self):
         """Where each quantity of a row (kl_solver_row) lies: {name: (first
         column, columns)}, in enum kl_quantity's order, names by
         kl_quantity_str. Empty before finalize."""
-        layout, count, quantity = {}, ctypes.c_int(), 0
-        while True:
-            first = _api.kl_model_row_offset(self._handle, quantity, ctypes.byref(count))
-            if first < 0:  # past the last quantity (or not finalized)
-                return layout
-            layout[text(_api.kl_quantity_str(quantity))] = (first, count.value)
-            quantity += 1
-
-    def _fill(self, function, ctype, what):
-        """The items a kl_model_* call fills to a capacity, as a list."""
-        h = self._handle
-        n = check_const(function(h, None, 0), what)
-        items = (ctype * max(n, 1))()
-        check_const(function(h, items, n), what)
-        return list(items[:n])
-
-    @property
-    def transmissions(self):
-        """The transmission-angle sites kinloop measures
-        (kl_model_transmissions), as Outputs."""
-        return [value_of(o) for o in self._fill(_api.kl_model_transmissions,
-                                                raw.kl_output, "transmissions")]
-
-    @property
-    def pressure_sites(self):
-        """The sliders' pressure-angle sites kinloop measures
-        (kl_model_pressure_sites), as Outputs."""
-        return [value_of(o) for o in self._fill(_api.kl_model_pressure_sites,
-                                                raw.kl_output, "pressure_sites")]
-
-    @property
-    def transmission_skips(self):
-        """The joints passed over for a transmission angle, with the reason
-        (kl_model_transmission_skips)."""
-        return [value_of(k) for k in self._fill(_api.kl_model_transmission_skips,
-                                                raw.kl_transmission_skip,
-                                                "transmission_skips")]
+        return row_layout(self._handle)
 
     # ---- model files ----
 
@@ -249,18 +197,6 @@ class Model(_api.ModelMethods, Handle):
         return cls._adopting(read_handle(_api.kl_model_read_file, "read_file(%r)" % (path,),
                                          path))
 
-    def to_text(self):
-        """The model as model-file text (a byte that is not UTF-8, from a name
-        given as bytes, reads as U+FFFD, as in every string from C)."""
-        h, needed = self._handle, ctypes.c_size_t()
-        check_const(_api.kl_model_write(h, None, 0, ctypes.byref(needed)), "to_text")
-        buf = ctypes.create_string_buffer(needed.value + 1)
-        check_const(_api.kl_model_write(h, buf, len(buf), ctypes.byref(needed)), "to_text")
-        return text(buf.raw[:needed.value])
-
-    def write_file(self, path):
-        """Writes the model to the file at `path`."""
-        err = raw.kl_io_error()
-        st = _api.kl_model_write_file(self._handle, path, ctypes.byref(err))
-        if st < 0:
-            raise io_error(st, err, "write_file(%r)" % (path,))
+    #: the model as model-file text (a byte that is not UTF-8, from a name
+    #: given as bytes, reads as U+FFFD, as in every string from C)
+    to_text = _api.ModelMethods.write

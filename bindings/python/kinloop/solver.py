@@ -6,15 +6,15 @@ arrays, copies, assembly modes, sweeps with their recorder and callback,
 and the force figures over a cycle (summary and table)."""
 
 import ctypes
-import math
 import weakref
 
 import numpy as np
 
 from . import _api, raw
 from ._args import array_of, refuse, to_int, with_fields
-from ._core import Handle, KinloopError, as_enum, check_const, value_of
+from ._core import Handle, KinloopError, as_enum, value_of
 from ._header import MAX_STEPS, Status, WorkspaceKind
+from .model import row_layout
 from .values import Cycle, CycleFigures, SweepResult, Workspace, cycle_table_dtype
 
 # Over-alignment for a solver placed in a Python buffer: the C side wants
@@ -22,9 +22,6 @@ from .values import Cycle, CycleFigures, SweepResult, Workspace, cycle_table_dty
 _BLOCK_ALIGN = 64
 
 _DOUBLES = ctypes.POINTER(ctypes.c_double)
-_INTS = ctypes.POINTER(ctypes.c_int)
-# The workspace's arrays stop growing here (vertices), some 50 MB.
-_WORKSPACE_MAX_CAP = 1 << 22
 
 
 def _free_solver(ptr, keepalive):
@@ -37,12 +34,18 @@ class Solver(_api.SolverMethods, Handle):
     Options come as an Options object and/or keyword arguments
     (tolerance=..., max_iterations=...). With in_place=True the solver lives
     in a block the bindings allocate once (kl_solver_bytes / kl_solver_new_in)
-    instead of the model's allocator. The solver keeps its model alive; it is
-    freed by close(), on leaving a ``with`` block, when the model is closed,
-    or when garbage-collected, exactly once."""
+    instead of the model's allocator. The library keeps the model for the
+    solver: closing the Model leaves the solver working. The solver is freed
+    by close(), on leaving a ``with`` block, or when garbage-collected,
+    exactly once."""
 
     def __init__(self, model, options=None, *, in_place=False, **option_values):
-        mh = model._handle
+        self._open(model, model._handle, in_place)
+        if options is not None or option_values:
+            self.set_options(options, **option_values)
+
+    def _open(self, model, mh, in_place=False):
+        """A solver of the C model `mh`, which `model` (maybe closed) stands for."""
         block = None
         if in_place:
             size = raw.lib.kl_solver_bytes(mh)
@@ -53,17 +56,17 @@ class Solver(_api.SolverMethods, Handle):
         else:
             ptr = raw.lib.kl_solver_new(mh)
         if not ptr:
-            if not model.is_finalized:
+            if not _api.kl_model_is_finalized(mh):
                 raise KinloopError(Status.ESTATE, "Solver: the model is not "
                                    "finalized (call Model.finalize first)")
             raise KinloopError(Status.ENOMEM, "Solver: out of memory")
-        self._ptr = ptr
-        self._model = model
+        self._ptr, self._model, self._model_ptr = ptr, model, mh
+        # a finalized model never changes: what the methods need of it, read once
+        self._layout, self._row_size = row_layout(mh), _api.kl_model_row_size(mh)
+        self._input_count = _api.kl_model_input_count(mh)
         self._sweeping = False
-        self._finalizer = weakref.finalize(self, _free_solver, ptr, block)
-        model._register_solver(self._finalizer)
-        if options is not None or option_values:
-            self.set_options(options, **option_values)
+        # the model's allocator hook lives as long as a holder of the model
+        self._finalizer = weakref.finalize(self, _free_solver, ptr, (block, model._hook))
 
     # ---- lifetime ----
 
@@ -84,7 +87,8 @@ class Solver(_api.SolverMethods, Handle):
 
     @property
     def model(self):
-        """The Model this solver was made for (kl_solver_model)."""
+        """The Model this solver was made for, the one kl_solver_model gives
+        (closed or not: the solver keeps working either way)."""
         return self._model
 
     def set_options(self, options=None, **values):
@@ -95,10 +99,6 @@ class Solver(_api.SolverMethods, Handle):
                                         "options"))
 
     # ---- what the generated methods of arrays per input ask of a solver ----
-
-    @property
-    def _input_count(self):
-        return self._model.input_count
 
     def _inputs(self, values, function, argument):
         """One double per input as a C array (None for a model without
@@ -115,8 +115,15 @@ class Solver(_api.SolverMethods, Handle):
 
     def copy(self):
         """A new solver of the same model with this one's options and state."""
-        twin = Solver(self._model, self.options)
+        twin = self._sibling(self.options)
         twin.copy_state(self)
+        return twin
+
+    def _sibling(self, options):
+        """A new solver of this one's model, whether its Model is closed or not."""
+        twin = Solver.__new__(Solver)
+        twin._open(self._model, self._model_ptr)
+        twin.set_options(options)
         return twin
 
     def find_assemblies(self, inputs=None):
@@ -125,7 +132,7 @@ class Solver(_api.SolverMethods, Handle):
         values = self._inputs(inputs, "kl_solver_find_assemblies", "inputs")
         options, cap = self.options, 8
         while True:
-            modes = [Solver(self._model, options) for _ in range(cap)]
+            modes = [self._sibling(options) for _ in range(cap)]
             handles = (raw.solver_p * cap)(*(m._handle for m in modes))
             found = self._check(_api.kl_solver_find_assemblies(self._changing, values,
                                                                handles, cap))
@@ -136,13 +143,6 @@ class Solver(_api.SolverMethods, Handle):
             cap = found  # the search is repeated: the C call cannot grow the list
 
     # ---- sweeps ----
-
-    def row(self):
-        """Every quantity of the current state as one row (kl_solver_row),
-        laid out as Model.row_layout says."""
-        row = np.full(self._model.row_size, math.nan)
-        check_const(_api.kl_solver_row(self._handle, row.ctypes.data_as(_DOUBLES)), "row")
-        return row
 
     def sweep(self, input, from_, to, steps, callback=None):
         """Sweeps input `input` from `from_` to `to` in `steps` steps.
@@ -156,12 +156,13 @@ class Solver(_api.SolverMethods, Handle):
         callback the library records the rows itself, at C speed
         (kl_solver_sweep_rows). A negative status raises KinloopError, its
         `result` holding the steps delivered."""
-        h, model = self._changing, self._model
+        h = self._changing
         steps = to_int(steps, "kl_solver_sweep", "steps")
         # sized for a count the library takes: it refuses the others itself
-        # (KL_EINVAL, KL_ETOOLARGE) and then writes no row
+        # (KL_EINVAL, KL_ETOOLARGE) and then writes no row; every row kept
+        # (table[:steps_done]) is written, so none is cleared first
         rows = steps + 1 if 1 <= steps <= MAX_STEPS else 1
-        table = np.full((rows, model.row_size), math.nan)
+        table = np.empty((rows, self._row_size))
         outcome, raised = raw.kl_sweep_result(), []
         if callback is None:
             status = _api.kl_solver_sweep_rows(h, input, from_, to, steps,
@@ -178,13 +179,11 @@ class Solver(_api.SolverMethods, Handle):
 
             c_callback = raw.kl_sweep_fn(on_step)
             self._sweeping = True
-            model._sweeps += 1
             try:
                 status = _api.kl_solver_sweep(h, input, from_, to, steps, c_callback,
                                               None, ctypes.byref(outcome))
             finally:
                 self._sweeping = False
-                model._sweeps -= 1
         if raised:
             raise raised[0]
         done = max(outcome.steps_done, 0)
@@ -194,7 +193,7 @@ class Solver(_api.SolverMethods, Handle):
             passages=outcome.passages, passage_input=outcome.passage_input,
             # kl_solver_sweep words a limit; KL_STOPPED leaves an older message
             message=self.error if status == Status.LIMIT or status < 0 else "",
-            rows=table[:done], layout=model.row_layout, input_index=input)
+            rows=table[:done], layout=dict(self._layout), input_index=input)
         self._check(status, result=result)
         return result
 
@@ -214,30 +213,14 @@ class Solver(_api.SolverMethods, Handle):
         self._check(status, result=kept)
         return value_of(found)
 
-    def output_ranges(self, input, from_, to, steps, outputs):
-        """The extremes of every output in `outputs` (a sequence of Output)
-        from one sweep (kl_output_ranges), a list of Range in their order:
-        the cost of a few sweeps whatever their number, where calling
-        output_range for each costs a sweep apiece. A negative status
-        raises KinloopError and leaves the solver as it was."""
-        function = "kl_output_ranges"
-        outs, count = array_of(outputs, raw.kl_output, function, "outputs")
-        found = (raw.kl_range * max(count, 1))()
-        for r in found:
-            r.size = ctypes.sizeof(raw.kl_range)
-        self._check(_api.kl_output_ranges(self._changing, input, from_, to, steps,
-                                          count, outs, found))
-        return [value_of(r) for r in found[:count]]
-
     # ---- force figures over a cycle ----
 
-    def _cycle_arguments(self, function, loads, cycle, fields):
+    @staticmethod
+    def _cycle(function, cycle, fields):
         """The cycle (`cycle`, default Cycle(), with `fields` replacing
-        fields by name) and the loads as the C calls take them."""
-        c = with_fields(cycle if cycle is not None else Cycle(), "Cycle", fields, function,
-                        "cycle")
-        loads, count = array_of(loads, raw.kl_load, function, "loads")
-        return c, loads, count
+        fields by name)."""
+        return with_fields(cycle if cycle is not None else Cycle(), "Cycle", fields, function,
+                           "cycle")
 
     def cycle_summarize(self, loads=(), cycle=None, **fields):
         """The force figures of a cycle (kl_cycle_summarize): input
@@ -254,16 +237,8 @@ class Solver(_api.SolverMethods, Handle):
         A negative status raises KinloopError (INDETERMINATE for a declared
         redundancy, ESINGULAR at a singular sample, ...) and leaves the
         solver as it was."""
-        function = "kl_cycle_summarize"
-        c, loads, count = self._cycle_arguments(function, loads, cycle, fields)
-        ninputs, njoints = self._input_count, self._model.joint_count
-        summary = raw.kl_cycle_summary()
-        inputs = (raw.kl_cycle_peak * max(ninputs, 1))()
-        joints = (raw.kl_cycle_peak * max(njoints, 1))()
-        self._check(_api.kl_cycle_summarize(self._changing, c, count, loads,
-                                            ctypes.byref(summary), inputs, joints))
-        return CycleFigures(value_of(summary), [value_of(p) for p in inputs[:ninputs]],
-                            [value_of(p) for p in joints[:njoints]])
+        return CycleFigures(*super().cycle_summarize(
+            self._cycle("kl_cycle_summarize", cycle, fields), loads))
 
     def workspace(self, point, options=None, cap=4096, **fields):
         """The workspace of `point` (kl_solver_workspace) for a model with two
@@ -274,26 +249,10 @@ class Solver(_api.SolverMethods, Handle):
         vertices needed; the arrays grow until the curves fit. Returns a
         Workspace. A negative status raises KinloopError; the solver keeps
         its state either way."""
-        function = "kl_solver_workspace"
         o = with_fields(options if options is not None else _api.WorkspaceOptions(),
-                        "WorkspaceOptions", fields, function, "options")
-        cap = to_int(cap, function, "cap")
-        while True:
-            xy = np.zeros((max(cap, 2), 2))
-            curve = np.zeros(max(cap, 2), dtype=np.intc)
-            kind = np.zeros(max(cap, 2), dtype=np.intc)
-            result = raw.kl_workspace_result()
-            status = _api.kl_solver_workspace(
-                self._changing, point, o, xy.ctypes.data_as(_DOUBLES),
-                curve.ctypes.data_as(_INTS), kind.ctypes.data_as(_INTS), max(cap, 2),
-                ctypes.byref(result))
-            if status != Status.ETRUNCATED or cap >= _WORKSPACE_MAX_CAP:
-                break
-            cap *= 4  # the C call cannot grow the caller's arrays
-        self._check(status)
-        n = result.vertices
-        return Workspace(value_of(result), xy[:n].copy(), curve[:n].copy(),
-                         np.array([WorkspaceKind(k) for k in kind[:n]], dtype=object))
+                        "WorkspaceOptions", fields, "kl_solver_workspace", "options")
+        xy, curve, kind, result = super().workspace(point, o, cap)
+        return Workspace(result, xy.copy(), curve.copy(), kind)
 
     def cycle_table(self, loads=(), cycle=None, **fields):
         """The forces over a cycle sample by sample (kl_cycle_table), the
@@ -307,10 +266,11 @@ class Solver(_api.SolverMethods, Handle):
         by a motion limit gives the samples it reached (fewer than
         steps + 1). A negative status raises KinloopError."""
         function = "kl_cycle_table"
-        c, loads, count = self._cycle_arguments(function, loads, cycle, fields)
-        model = self._model
-        dtype = cycle_table_dtype(self._input_count, model.joint_count)
-        columns = model.cycle_columns
+        c = self._cycle(function, cycle, fields)
+        loads, count = array_of(loads, raw.kl_load, function, "loads")
+        mh = self._model_ptr
+        dtype = cycle_table_dtype(self._input_count, _api.kl_model_joint_count(mh))
+        columns = _api.kl_cycle_columns(mh)
         if dtype.itemsize != columns * ctypes.sizeof(ctypes.c_double):
             raise RuntimeError("kinloop: kl_cycle_table's row has %d numbers; the "
                                "bindings expect %d" % (columns, dtype.itemsize // 8))

@@ -11,17 +11,16 @@ import numpy as np
 
 from . import _api, raw
 from ._args import refuse, to_long
-from ._core import Handle, KinloopError, check_const, status_text, value_of
+from ._core import Handle, KinloopError, status_text
 from ._header import Status
 from .model import Model, data_of, read_handle
 from .values import StudyRun
 
 
 def _free_study(ptr, view_finalizers, hook):
-    # the view of the study's model, and every solver made from it, before
-    # the model itself goes with the study; `hook`, the model's allocator (if
-    # the caller gave one), is kept alive until here, since the study may be
-    # the model's last holder
+    # the view of the study's model ends with the study; `hook`, the model's
+    # allocator (if the caller gave one), is kept alive until here, since
+    # the study may be the model's last holder
     for close_view in list(view_finalizers):
         close_view()
     raw.lib.kl_study_free(ptr)
@@ -44,7 +43,9 @@ class Study(_api.StudyMethods, Handle):
     ``with Study.read_file(path) as st:`` frees it (kl_study_free) on
     leaving the block; otherwise it is freed when garbage-collected, exactly
     once either way. Its `model` is a borrowed view: it keeps the study
-    alive, and closing it never frees the study's model."""
+    alive, and closing it never frees the study's model. Solvers made from
+    the view keep working after the study is closed (the library keeps the
+    model for them)."""
 
     def __init__(self, *args, **kwargs):
         raise TypeError("kinloop.Study: use Study.read_text(text, model) or "
@@ -54,6 +55,7 @@ class Study(_api.StudyMethods, Handle):
     def _adopting(cls, ptr, hook=None):
         study = cls.__new__(cls)
         study._ptr = ptr
+        study._hook = hook  # the model's allocator: solvers of the view keep it
         study._runs = 0  # runs under way (on other Python threads)
         study._view = None  # a weak reference to the model view handed out
         study._view_finalizers = set()
@@ -93,18 +95,13 @@ class Study(_api.StudyMethods, Handle):
 
     # ---- lifetime ----
 
-    def _live_view(self):
-        view = self._view() if self._view is not None else None
-        return None if view is None or view.closed else view
-
     def close(self):
-        """Frees the study (kl_study_free), first closing its model view and
-        the solvers made from it; later calls on them raise ValueError.
-        Closing twice does nothing."""
-        view = self._live_view()
-        if self._runs or (view is not None and view._sweeps):
-            raise RuntimeError("kinloop: a study cannot be closed while it runs "
-                               "or a solver of its model sweeps")
+        """Frees the study (kl_study_free) and closes its model view; later
+        calls on them raise ValueError, closing twice does nothing. Solvers
+        made from the view keep working. A study running on another thread
+        cannot be closed (RuntimeError)."""
+        if self._runs:
+            raise RuntimeError("kinloop: a study cannot be closed while it runs")
         self._finalizer()
 
     def __repr__(self):
@@ -130,11 +127,11 @@ class Study(_api.StudyMethods, Handle):
     def model(self):
         """The nominal model (kl_study_model) as a borrowed, read-only Model:
         Solvers can be made from it; calls that would change it raise
-        KinloopError (ESTATE); closing it closes its solvers, not the model.
-        The view keeps the study alive; closing the study closes the view."""
-        view = self._live_view()
-        if view is None:
-            view = Model._adopting(_api.kl_study_model(self._handle), owner=self)
+        KinloopError (ESTATE); closing it frees nothing. The view keeps the
+        study alive; closing the study closes the view, not its solvers."""
+        view = self._view() if self._view is not None else None
+        if view is None or view.closed:
+            view = Model._adopting(_api.kl_study_model(self._handle), self._hook, owner=self)
             self._view_finalizers.clear()  # the earlier view's are dead
             self._view_finalizers.add(view._finalizer)
             self._view = weakref.ref(view)
@@ -180,18 +177,4 @@ class Study(_api.StudyMethods, Handle):
         """kl_study_summarize: the StudySummary of `output` (its index or
         name) over the rows of `values` and `status` as run returned them,
         read as samples 0 .. n - 1 (worst_sample counts from the first row)."""
-        k, nout = self._output_index(output), self.output_count
-        try:
-            values = np.ascontiguousarray(values, dtype=float)
-            status = np.ascontiguousarray(status, dtype=np.intc)
-        except (TypeError, ValueError, OverflowError) as e:
-            refuse("kl_study_summarize", "values and status", "must be arrays of numbers "
-                   "as run gives them (%s)" % e)
-        if values.ndim != 2 or values.shape[1] != nout or status.shape != (values.shape[0],):
-            refuse("kl_study_summarize", "values", "must be (n, %d) and status (n,), as run "
-                   "gives them; got %s and %s" % (nout, values.shape, status.shape))
-        summary = raw.kl_study_summary()
-        check_const(_api.kl_study_summarize(self._handle, k, _doubles(values), _ints(status),
-                                            values.shape[0], ctypes.byref(summary)),
-                    "summarize", output)
-        return value_of(summary)
+        return super().summarize(self._output_index(output), values, status)

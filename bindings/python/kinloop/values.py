@@ -1,8 +1,8 @@
 """The value types: one frozen dataclass per struct of the header, generated
 (kinloop._api: its fields, the library's defaults where it has a defaults
 function, its kl_<struct>_<verb> methods), and what the bindings add to
-them: constructors of outputs, loads and dimensions, and what sweeps and
-studies return."""
+them: constructors of loads, axes of dimensions by name, and what sweeps
+and studies return."""
 
 import dataclasses
 from typing import NamedTuple
@@ -11,48 +11,12 @@ import numpy as np
 
 from . import _api, raw
 from ._core import VALUE_TYPES, status_text
-from ._header import DimensionKind, LoadKind, OutputKind
+from ._header import LoadKind
 
 Options, SolveStats, SweepSettings = _api.Options, _api.SolveStats, _api.SweepSettings
 Range, StudySummary = _api.Range, _api.StudySummary
 Cycle, CyclePeak, CycleSummary = _api.Cycle, _api.CyclePeak, _api.CycleSummary
-
-
-class Output(_api.Output):
-    """kl_output: a scalar output; build it with the class methods."""
-
-    @classmethod
-    def link_angle(cls, link):
-        return cls(OutputKind.LINK_ANGLE, link)
-
-    @classmethod
-    def slide(cls, joint):
-        return cls(OutputKind.SLIDE, joint)
-
-    @classmethod
-    def joint_angle(cls, joint):
-        return cls(OutputKind.JOINT_ANGLE, joint)
-
-    @classmethod
-    def point_x(cls, point):
-        return cls(OutputKind.POINT_X, point)
-
-    @classmethod
-    def point_y(cls, point):
-        return cls(OutputKind.POINT_Y, point)
-
-    @classmethod
-    def transmission(cls, joint, line_a, line_b):
-        """Angle at revolute `joint` between the line on its link a to joint
-        `line_a` and the line on its link b to joint `line_b`."""
-        return cls(OutputKind.TRANSMISSION, joint, line_a, line_b)
-
-    @classmethod
-    def pressure(cls, slide, pin, rod_line):
-        """Pressure angle at sliding joint `slide`: between the rod's line
-        from revolute joint `pin` (on the slider) to joint `rod_line` (on
-        the rod) and the slide's direction of motion; 0 is ideal."""
-        return cls(OutputKind.PRESSURE, slide, pin, rod_line)
+Output = _api.Output
 
 
 class Load(_api.Load):
@@ -77,20 +41,8 @@ class Dimension(_api.Dimension):
         if self.axis in ("x", "y"):
             object.__setattr__(self, "axis", "xy".index(self.axis))
 
-    @classmethod
-    def joint_a(cls, joint, axis):
-        return cls(DimensionKind.JOINT_A, joint, axis)
 
-    @classmethod
-    def joint_b(cls, joint, axis):
-        return cls(DimensionKind.JOINT_B, joint, axis)
-
-    @classmethod
-    def point(cls, point, axis):
-        return cls(DimensionKind.POINT, point, axis)
-
-
-VALUE_TYPES.update({raw.kl_output: Output, raw.kl_load: Load, raw.kl_dimension: Dimension})
+VALUE_TYPES.update({raw.kl_load: Load, raw.kl_dimension: Dimension})
 
 
 @dataclasses.dataclass(frozen=True, eq=False, kw_only=True)

@@ -39,7 +39,6 @@ ELSEWHERE = {
     "kl_model_read": (kl.Model, "read_text"),
     "kl_model_read_with_alloc": (kl.Model, "read_text"),  # read_text(allocator=...)
     "kl_model_read_file": (kl.Model, "read_file"),
-    "kl_model_write": (kl.Model, "to_text"),
     "kl_solver_new": (kl.Solver, "__init__"),
     "kl_solver_new_in": (kl.Solver, "__init__"),  # Solver(..., in_place=True)
     "kl_solver_free": (kl.Solver, "close"),

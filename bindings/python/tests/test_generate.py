@@ -57,8 +57,8 @@ def test_new_plain_functions_are_generated(extended):
 
 def test_an_unexplained_pointer_is_left_to_hand_code(extended):
     header, found = extended
-    row = found["kl_solver_row"]
-    assert not row.plain and "POINTERS" in row.why
+    rows = found["kl_solver_sweep_rows"]
+    assert not rows.plain and "POINTERS" in rows.why
 
 
 def test_both_bindings_emit_them(extended):
@@ -66,10 +66,10 @@ def test_both_bindings_emit_them(extended):
     api = generate.python_api(header)
     assert "def link_length(self, link, joint_a, joint_b):" in api
     assert "def reach(self, input, target):" in api
-    assert "'kl_solver_row': None" in api  # bound by hand, or reported by test_drift
+    assert "'kl_solver_sweep_rows': None" in api  # bound by hand, or reported by test_drift
     gateway = generate.octave_gateway(header)
     assert 'gen_model_link_length' in gateway and '{"solver_reach", 3, 3,' in gateway
-    assert "gen_solver_row" not in gateway
+    assert "gen_solver_sweep_rows" not in gateway
     compile(api, "_api.py", "exec")  # valid Python
 
 
@@ -86,3 +86,59 @@ def test_a_struct_filled_through_an_out_pointer_is_an_output():
     body = body[:body.index("\n}\n")]
     assert "kl_load load = kl_load();" in body and ".size" not in body
     assert "value_of(load)" in generate.python_api(header)
+
+
+def test_arrays_a_function_fills_are_outputs():
+    # POINTERS "CAP fills": sized by a first call with NULL and 0, the count
+    # hidden; "N out": N the caller's (kl_cam_outline) or taken from the
+    # array N also counts (kl_output_ranges)
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    found = {b.name: b for b in generate.bindings(header)}
+    loop = found["kl_model_loop"]
+    assert loop.plain and loop.fills is not None and not loop.value_result
+    assert [a.kind for a in loop.inputs] == ["scalar"]
+    assert [(a.kind, a.count) for a in loop.outputs] == [("filled", "cap")]
+    outline = found["kl_cam_outline"]
+    assert [(a.kind, a.name) for a in outline.inputs] == [("scalar", "n")]
+    assert [(a.kind, a.per) for a in outline.outputs] == [("array_out", 2)] * 2
+    ranges = found["kl_output_ranges"]
+    assert [a.kind for a in ranges.inputs][-1] == "array_in"
+    assert "n" not in [a.name for a in ranges.inputs]
+    api = generate.python_api(header)
+    assert "cap = check_const(kl_model_loop(self._handle, loop, None, 0), 'loop', loop)" in api
+    gateway = generate.octave_gateway(header)
+    assert "int cap = kl_model_loop(h.model, loop, nullptr, 0);" in gateway
+    assert "out(0) = pitch_xy.transpose();" in gateway
+
+
+def test_a_count_that_is_no_int_parameter_is_refused(monkeypatch):
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    monkeypatch.setitem(generate.POINTERS, "kl_cam_outline", {"pitch_xy": "count out"})
+    with pytest.raises(SystemExit, match="not an int"):
+        generate.check_pointers(header)
+
+
+def test_the_array_roles_bind_what_they_say(extended):
+    """Each POINTERS role of an array or text makes the arguments it names:
+    the sizes of 'per', 'grows' and 'text' come from the model, a retry
+    and a first call, never from the caller; a table's rows count it."""
+    header, found = extended
+    row = found["kl_solver_row"]
+    assert row.plain and not row.is_property  # METHODS: a new array each call
+    assert [(a.kind, a.per_model) for a in row.outputs] == [("array_out", "row_size")]
+    space = found["kl_solver_workspace"]
+    assert space.plain and space.grows == "cap"
+    assert [a.kind for a in space.outputs] == ["grown"] * 3 + ["struct_out"]
+    assert space.outputs[2].enum.name == "kl_workspace_kind"
+    assert [a.name for a in space.inputs if a.optional] == ["cap"]
+    write = found["kl_model_write"]
+    assert write.plain and [a.name for a in write.inputs] == [] and write.text.field == "needed"
+    saved = found["kl_model_write_file"]
+    assert saved.plain and saved.error.struct.name == "kl_io_error"
+    summary = found["kl_study_summarize"]
+    assert summary.plain and [(a.name, a.rows) for a in summary.inputs if a.kind == "array_in"] \
+        == [("values", "output_count"), ("sample_status", None)]
+    gateway = generate.octave_gateway(header)
+    assert "c.rows(c.arg(2), values_columns" in gateway and "cap *= 4" in gateway

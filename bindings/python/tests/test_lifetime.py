@@ -1,7 +1,9 @@
 """Cleanup: context managers and finalizers free every model and solver
-exactly once, solvers before their model, whatever the order Python drops
-them in. A counting allocator hook (kl_model_new_with_alloc) sees every
-block: none may stay live, and none may be freed twice."""
+exactly once, whatever the order Python drops them in; a solver keeps
+working after its model is closed (the library keeps the model for it,
+include/kinloop.h, kl_model_free). A counting allocator hook
+(kl_model_new_with_alloc) sees every block: none may stay live, and none
+may be freed twice."""
 
 import ctypes
 import gc
@@ -14,7 +16,8 @@ import weakref
 import pytest
 
 import kinloop as kl
-from mechanisms import CountingAllocator, build_fourbar, sketch_branch
+from mechanisms import (CountingAllocator, angle_diff, build_fourbar, freudenstein,
+                        sketch_branch)
 
 
 def solved_fourbar(model):
@@ -31,17 +34,36 @@ def assert_all_freed_once(alloc):
     assert alloc.foreign == 0  # no free (or resize) of a block not held
 
 
-def test_context_manager_frees_model_and_solvers():
+def assert_solves_like_freudenstein(s, f):
+    # Freudenstein's equation (half-angle form, recalled), as test_position
+    for t2 in (0.3, 1.7, 4.0):
+        assert s.solve_position(t2) == kl.Status.OK
+        t3, t4 = freudenstein(f, t2, +1)
+        assert abs(angle_diff(s.link_angle(f.coupler), t3)) <= 1e-10
+        assert abs(angle_diff(s.link_angle(f.rocker), t4)) <= 1e-10
+
+
+def test_a_solver_keeps_solving_after_its_model_is_closed():
     alloc = CountingAllocator()
     with kl.Model(allocator=alloc) as m:
         f, s = solved_fourbar(m)
-        assert alloc.live
-    assert m.closed and s.closed
-    assert_all_freed_once(alloc)
+    assert m.closed and not s.closed
     m.close()  # again: nothing happens
-    assert alloc.foreign == 0
-    with pytest.raises(ValueError):
+    with pytest.raises(ValueError, match="the model is closed"):
         m.link_count
+    with pytest.raises(ValueError, match="the model is closed"):
+        kl.Solver(m)
+    del m, f.model
+    gc.collect()
+    assert alloc.live  # the library keeps the model for the solver
+    assert_solves_like_freudenstein(s, f)
+    twin, modes = s.copy(), s.find_assemblies([1.0])  # solvers of the same model
+    assert twin.link_angle(f.rocker) == s.link_angle(f.rocker) and len(modes) == 2
+    assert s.sweep(0, 0.0, 1.0, 10).steps_done == 11
+    s.close()
+    del twin, modes
+    gc.collect()
+    assert_all_freed_once(alloc)
 
 
 def test_solver_context_manager_leaves_the_model_open():
@@ -87,9 +109,9 @@ def test_a_solver_keeps_its_model_alive():
     assert_all_freed_once(alloc)
 
 
-def test_a_cycle_frees_the_solver_before_the_model():
+def test_a_cycle_frees_everything_once():
     # in a reference cycle the collector may finalize the model first; the
-    # model's finalizer then frees its solvers before kl_model_free
+    # library then keeps the model until the solver goes
     alloc = CountingAllocator()
 
     def make_cycle():
@@ -115,6 +137,8 @@ def test_in_place_solver_takes_nothing_from_the_allocator():
         sketch_branch(placed, f, 1.0, +1)
         placed.solve_position(1.0)
         assert placed.link_angle(f.rocker) == heap.link_angle(f.rocker)
+    heap.close()
+    placed.close()  # the model's last holder: now it goes
     assert_all_freed_once(alloc)
 
 
