@@ -121,12 +121,20 @@ int kl_add_gear_pair(kl_model *m, int joint1, int joint2, double radius1,
   else if (inner > tol && fabs(d - inner) <= tol)
     c.internal = 1;
   else
+  {
+    char apart[KLI_LABEL_SIZE], r1[KLI_LABEL_SIZE], r2[KLI_LABEL_SIZE],
+        ext[KLI_LABEL_SIZE], in[KLI_LABEL_SIZE];
     return kli_fail(m->error, KL_ENOMESH,
-                    "%s: the centres lie %.12g apart on %s, but radii %g and "
-                    "%g mesh at %.12g (external) or %.12g (internal, unequal "
-                    "radii only)",
-                    what, d, kli_link_label(m, carrier, la, sizeof la),
-                    radius1, radius2, outer, inner);
+                    "%s: the centres lie %s apart on %s, but radii %s and %s "
+                    "mesh at %s (external) or %s (internal, unequal radii "
+                    "only)",
+                    what, kli_length_value(m, d, 12, apart, sizeof apart),
+                    kli_link_label(m, carrier, la, sizeof la),
+                    kli_length_value(m, radius1, 6, r1, sizeof r1),
+                    kli_length_value(m, radius2, 6, r2, sizeof r2),
+                    kli_length_value(m, outer, 12, ext, sizeof ext),
+                    kli_length_value(m, inner, 12, in, sizeof in));
+  }
   return push_coupling(m, &c, what);
 }
 

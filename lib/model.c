@@ -1378,17 +1378,22 @@ static int cam_judged(kl_model *m, kl_cam *cam, int npoints,
                       double max_pressure, const char *what) {
   double unit = m->angle_unit == KL_ANGLE_DEG ? 180.0 / KLI_PI : 1.0;
   const char *word = kl_angle_unit_str(m->angle_unit);
+  char roller[KLI_LABEL_SIZE], convex[KLI_LABEL_SIZE];
   kl_cam_report r;
   int st;
   r.size = sizeof r;
   st = kl_cam_check(cam, 4 * npoints, max_pressure, &r);
   if (st == KL_EUNDERCUT)
     return kli_fail(m->error, st,
-                    "%s: the roller (radius %g) undercuts the cam at cam "
+                    "%s: the roller (radius %s) undercuts the cam at cam "
                     "angle %.6g %s, where the pitch curve's convex radius "
-                    "of curvature is %g (the roller must stay below it)",
-                    what, kli_cam_follower_of(cam)->roller_radius, r.min_convex_angle * unit,
-                    word, r.min_convex_radius);
+                    "of curvature is %s (the roller must stay below it)",
+                    what,
+                    kli_length_value(m, kli_cam_follower_of(cam)->roller_radius,
+                                     6, roller, sizeof roller),
+                    r.min_convex_angle * unit, word,
+                    kli_length_value(m, r.min_convex_radius, 6, convex,
+                                     sizeof convex));
   if (st == KL_EPRESSURE)
     return kli_fail(m->error, st,
                     "%s: the pressure angle reaches %.6g %s at cam angle "

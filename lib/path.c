@@ -163,13 +163,15 @@ int kl_solver_follow_path(kl_solver *s, int input_x, int input_y,
            halvings++ < KLI_PATH_HALVINGS)
       step *= 0.5;
     if (st != KL_OK) {
+      char at[KLI_LABEL_SIZE], of[KLI_LABEL_SIZE];
       out.limit_arc = done;
       out.status = st == KL_ESINGULAR ? KL_ESINGULAR : KL_LIMIT;
       kli_fail(s->error, out.status,
-               "follow path: the point %s at arc length %.10g of %.10g",
+               "follow path: the point %s at arc length %s of %s",
                st == KL_ESINGULAR ? "meets a singular position"
                                   : "leaves the workspace",
-               done, p.length);
+               kli_length_value(s->model, done, 10, at, sizeof at),
+               kli_length_value(s->model, p.length, 10, of, sizeof of));
       goto finish;
     }
     done += dir * step;

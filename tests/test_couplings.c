@@ -617,6 +617,11 @@ START_TEST(bad_couplings_are_refused) {
   int tip = kl_add_point(m, c, 3, 0, "tip");
   ck_assert_int_eq(kl_add_gear_pair(m, ja, jb, 12, 12), KL_ENOMESH);
   ck_assert_ptr_nonnull(strstr(kl_model_error(m), "30"));
+  /* the distances in the model's length unit: 30 apart, 12 + 12 = 24 */
+  ck_assert_int_eq(kl_model_set_units(m, KL_LENGTH_MM, KL_ANGLE_DEG), KL_OK);
+  ck_assert_int_eq(kl_add_gear_pair(m, ja, jb, 12, 12), KL_ENOMESH);
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "lie 30 mm apart"));
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "mesh at 24 mm (external)"));
   /* internal: |r1 - r2| = 30 meshes, equal radii never do */
   ck_assert_int_eq(kl_add_gear_pair(m, ja, ja, 10, 20), KL_ESELFCOUPLING);
   ck_assert_int_eq(kl_add_gear_pair(m, jb, jc, 10, 20), KL_ENOCOMMON);
