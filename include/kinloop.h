@@ -1890,9 +1890,9 @@ enum kl_transmission_skip_reason {
  * The model's pressure-angle sites, chosen once at finalize by the walk of
  * kl_model_transmissions: each prismatic or slot joint that is not an input
  * nor a cam joint (kl_add_cam: its pressure angle is the follower's, from
- * kl_cam_follower_state) and has, next to it in a loop's walk, a revolute joint (the pin) whose
- * other link goes on to a further joint of the walk (the rod's line), where
- * the loops first meet it. Writes up to `cap` outputs of kind
+ * kl_cam_follower_state) and has, next to it in a loop's walk, a revolute
+ * joint (the pin) whose other link, a moving one, goes on to a further joint
+ * of the walk (the rod's line), where the loops first meet it. Writes up to `cap` outputs of kind
  * KL_OUTPUT_PRESSURE into `sites` (may be NULL when cap is 0) and returns
  * how many there are, or KL_ESTATE (not finalized), KL_EINVAL. The pin itself
  * is then no transmission-angle site (KL_TRANSMISSION_SKIP_SLIDER): the

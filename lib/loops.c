@@ -197,9 +197,10 @@ static int rigid_triangle(const kl_model *m, int a, int b, int *link_mark) {
 
 /*
  * The pressure-angle sites: walking the loops in order, each sliding joint
- * that is no input and no cam joint, where a loop first meets it with a revolute neighbour
- * (the pin) off ground on the slider's side, and past the pin a further
- * joint at some distance on the pin's other link (the rod). The pin is
+ * that is no input and no cam joint, where a loop first meets it with a
+ * revolute neighbour (the pin) off ground on the slider's side, and past
+ * the pin a further joint at some distance on the pin's other link, a
+ * moving one (the rod). The pin is
  * then passed over as a transmission-angle site (marked done).
  */
 static void find_pressure_sites(const kl_model *m, kli_topology *t,
@@ -224,8 +225,11 @@ static void find_pressure_sites(const kl_model *m, kli_topology *t,
         int slider = after[way > 0 ? k : (k + n - 1) % n];
         int rod = after[way > 0 ? (k + 1) % n : (k + n - 2) % n];
         kl_output *site;
+        /* the frame drives nothing: a "rod" that is ground would give a
+         * constant angle with no meaning */
         if (m->joints[pin].kind != KL_JOINT_REVOLUTE || slider == KL_GROUND ||
-            rod == slider || span(m, rod, pin, beyond) <= tiny)
+            rod == KL_GROUND || rod == slider ||
+            span(m, rod, pin, beyond) <= tiny)
           continue;
         mark[slide] = KLI_DONE;
         site = &t->pressure[t->npressure++];

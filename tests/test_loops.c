@@ -294,6 +294,27 @@ START_TEST(slider_pressure_angle_matches_the_closed_form) {
 }
 END_TEST
 
+/*
+ * A Scotch yoke: the crank's pin runs in a slot of the yoke square to the
+ * yoke's guide. Walking the loop, the slot has a revolute neighbour (the
+ * crank's ground pivot), but past it lies the frame, which drives nothing:
+ * no rod-and-guide pressure angle exists there (common practice, no source:
+ * the pin pushes square to the slot, along the guide). The frame as "rod"
+ * gave a constant 0 that looked like a measured figure.
+ */
+START_TEST(frame_is_no_rod_for_a_pressure_angle) {
+  kl_model *m = kl_model_new();
+  int crank = kl_add_link(m, "crank"), yoke = kl_add_link(m, "yoke");
+  int shaft = kl_add_revolute(m, KL_GROUND, 0, 0, crank, 0, 0);
+  ck_assert_int_ge(kl_add_prismatic(m, KL_GROUND, 100, 0, 0.0, yoke, 70, 0), 0);
+  ck_assert_int_ge(kl_add_slot(m, yoke, 30, 0, PI / 2, crank, 30, 0), 0);
+  ck_assert_int_ge(kl_add_input(m, shaft), 0);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  ck_assert_int_eq(kl_model_pressure_sites(m, NULL, 0), 0);
+  kl_model_free(m);
+}
+END_TEST
+
 /* Every revolute joint off ground and not an input is met exactly once,
  * as a site or as a skip, and every site is an output the library takes. */
 static void check_cover(kl_model *m) {
@@ -536,6 +557,7 @@ int main(void) {
   tcase_add_test(tc, fourbar_site_is_the_coupler_rocker_pin);
   tcase_add_test(tc, slider_crank_has_no_site);
   tcase_add_test(tc, slider_pressure_angle_matches_the_closed_form);
+  tcase_add_test(tc, frame_is_no_rod_for_a_pressure_angle);
   tcase_add_test(tc, six_bars_cover_each_joint_once);
   tcase_add_test(tc, sites_refuse_what_they_cannot_give);
   tcase_add_test(tc, rigid_triangle_pins_are_no_sites);

@@ -340,8 +340,10 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
       continue;
     }
     fprintf(f, LABEL "swings about %s from %.6g to %.6g %s, %s",
-            cm->link_names[link], cm->joint_names[j], range->min * k,
-            range->max * k, cm->angle_unit, both);
+            cm->link_names[link], cm->joint_names[j],
+            cli_shown(range->min, k, cli_angle_resolution()),
+            cli_shown(range->max, k, cli_angle_resolution()), cm->angle_unit,
+            both);
     if (full_turn)
       print_time_ratio(f, cm, r->input, range);
     fputc('\n', f);
@@ -350,6 +352,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
   for (i = 0; i < cm->nslides; i++) {
     const kl_range *range = &ranges[at + i];
     const char *unit;
+    double resolution = cli_length_resolution(cm);
     if (is_input_joint(cm, cm->slides[i]))
       continue;
     at_pair(cm, r->input, range->input_at_min, range->input_at_max, both,
@@ -359,8 +362,10 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
                ? "(curve parameter)"
                : cm->length_unit;
     fprintf(f, LABEL "stroke %.6g %s, from %.6g to %.6g %s, %s",
-            cm->joint_names[cm->slides[i]], range->max - range->min, unit,
-            range->min, range->max, unit, both);
+            cm->joint_names[cm->slides[i]],
+            cli_shown(range->max - range->min, 1.0, resolution), unit,
+            cli_shown(range->min, 1.0, resolution),
+            cli_shown(range->max, 1.0, resolution), unit, both);
     if (full_turn)
       print_time_ratio(f, cm, r->input, range);
     fputc('\n', f);

@@ -230,6 +230,13 @@ double cli_column_factor(const cli_model *cm, int input, const cli_column *c,
  * value is rounding and shows as 0: the solver's tolerance, times the
  * model's scale for lengths; 0 for the input and the condition estimate. */
 double cli_column_resolution(const cli_model *cm, const cli_column *c);
+/* A value as printed: `raw` (library units) times `factor`, or exactly 0
+ * when |raw| is below `resolution`, so rounding never shows as 1e-13. */
+double cli_shown(double raw, double factor, double resolution);
+/* The resolutions of cli_column_resolution for a position: lengths (and
+ * curve parameters) and angles. */
+double cli_length_resolution(const cli_model *cm);
+double cli_angle_resolution(void);
 /* The column's unit: per second (per_input 0) or per input unit (1). */
 void cli_column_unit(const cli_model *cm, int input, const cli_column *c,
                      int per_input, char *buf, size_t cap);

@@ -121,14 +121,26 @@ int cli_picture_stride(int steps) {
   return steps / CLI_PICTURE_POINTS + 1;
 }
 
-double cli_column_resolution(const cli_model *cm, const cli_column *c) {
+double cli_angle_resolution(void) {
   kl_options opts;
   kl_options_default(&opts);
+  return opts.tolerance;
+}
+
+double cli_length_resolution(const cli_model *cm) {
+  return cli_angle_resolution() * kl_model_scale(cm->model);
+}
+
+double cli_column_resolution(const cli_model *cm, const cli_column *c) {
   if (c->dim == CLI_DIM_ANGLE)
-    return opts.tolerance;
+    return cli_angle_resolution();
   if (c->dim == CLI_DIM_LENGTH)
-    return opts.tolerance * kl_model_scale(cm->model);
+    return cli_length_resolution(cm);
   return 0.0; /* the input itself and the condition estimate as they are */
+}
+
+double cli_shown(double raw, double factor, double resolution) {
+  return fabs(raw) < resolution ? 0.0 : raw * factor;
 }
 
 typedef struct {

@@ -51,8 +51,8 @@ static void style_of(const cli_model *cm, const kl_solver *s,
  * `factor`, 0 below `resolution`. */
 static void put_value(FILE *f, const number_style *ns, int width, double raw,
                       double factor, double resolution) {
-  double v = fabs(raw) < resolution ? 0.0 : raw * factor;
-  fprintf(f, " %*.*g", ns->digits > 8 ? width + 9 : width, ns->digits, v);
+  fprintf(f, " %*.*g", ns->digits > 8 ? width + 9 : width, ns->digits,
+          cli_shown(raw, factor, resolution));
 }
 
 static void print_solution(FILE *f, const cli_model *cm, const kl_solver *s,

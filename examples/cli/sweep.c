@@ -40,8 +40,7 @@ static int put_row(void *user, int step, const double *row) {
   csv_sink *k = user;
   int i;
   for (i = 0; i < k->ncols; i++) {
-    double raw = row[k->cols[i].at],
-           v = fabs(raw) < k->resolution[i] ? 0.0 : raw * k->factor[i];
+    double v = cli_shown(row[k->cols[i].at], k->factor[i], k->resolution[i]);
     if (!isfinite(v)) {
       k->nonfinite = i;
       return 1; /* no file gets an inf or a nan */
