@@ -339,6 +339,10 @@ void chart_title(FILE *f, const chart *c, const char *title,
 void chart_panel(FILE *f, const chart *c);
 /* Grid lines, ticks and tick labels of both axes. */
 void chart_ticks(FILE *f, const chart *c);
+/* The group of one curve's polylines, clipped to the panel, in `colour`;
+ * chart_curve_end closes it. */
+void chart_curve_begin(FILE *f, const char *colour);
+void chart_curve_end(FILE *f);
 /* A dashed line across the panel at x = v, labelled at its left (or
  * right) in text row `row` from the top (0, 1, ...). */
 void chart_mark_x(FILE *f, const chart *c, double v, const char *colour,

@@ -199,17 +199,16 @@ static int write_chart(const cli_model *cm, const run *r, int c,
   chart_title(f, &ch, cm->label, text);
   chart_panel(f, &ch);
   chart_ticks(f, &ch);
-  fprintf(f, "<g clip-path=\"url(#panel)\" fill=\"none\" stroke=\"%s\" "
-             "stroke-width=\"2.2\" stroke-linejoin=\"round\">\n<polyline "
-             "points=\"",
-          svg_colour(0));
+  chart_curve_begin(f, svg_colour(0));
+  fprintf(f, "<polyline points=\"");
   for (k = 0; k < r->rows; k++) {
     const double *row = col + (size_t)k * (size_t)r->width;
     fprintf(f, "%.2f,%.2f ",
             chart_map(&ch.x, row[KL_CAM_STATE_ANGLE] * cm->angle_factor),
             chart_map(&ch.y, (row[q->index] - low) * factor));
   }
-  fprintf(f, "\"/>\n</g>\n");
+  fprintf(f, "\"/>\n");
+  chart_curve_end(f);
   if (q->index == KL_CAM_STATE_PRESSURE && worst >= 0) {
     char label[200];
     snprintf(label, sizeof label, "largest %.4g %s at %.5g %s", peak, unit,

@@ -59,16 +59,15 @@ static int write_effort(const cli_model *cm, const cli_cycle *c, int input,
   svg_key(f, ch.x.from + 240, 47, svg_colour(2), "5,4", "mean");
   chart_panel(f, &ch);
   chart_ticks(f, &ch);
-  fprintf(f, "<g clip-path=\"url(#panel)\" fill=\"none\" stroke=\"%s\" "
-             "stroke-width=\"2.2\" stroke-linejoin=\"round\">\n<polyline "
-             "points=\"",
-          svg_colour(0));
+  chart_curve_begin(f, svg_colour(0));
+  fprintf(f, "<polyline points=\"");
   for (k = 0; k < c->rows; k++)
     fprintf(f, "%.2f,%.2f ", chart_map(&ch.x, input_at(cm, c, k)),
             chart_map(&ch.y, c->table[(size_t)k * (size_t)c->width + 1 +
                                       input] *
                                  u.per_model));
-  fprintf(f, "\"/>\n</g>\n");
+  fprintf(f, "\"/>\n");
+  chart_curve_end(f);
   snprintf(text, sizeof text, "RMS %.4g %s", p->rms * u.per_model, unit);
   chart_mark_y(f, &ch, p->rms * u.per_model, svg_colour(1), text);
   chart_mark_y(f, &ch, -p->rms * u.per_model, svg_colour(1), "");

@@ -205,9 +205,7 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
   /* the curves */
   for (k = 0; k < ns; k++) {
     int open = 0;
-    fprintf(f, "<g clip-path=\"url(#panel)\" fill=\"none\" stroke=\"%s\" "
-               "stroke-width=\"2.2\" stroke-linejoin=\"round\">\n",
-            svg_colour(k));
+    chart_curve_begin(f, svg_colour(k));
     for (i = 0; i < d->n; i++) {
       double y = d->y[i * ns + k];
       if (!isfinite(y)) {
@@ -223,7 +221,7 @@ static void write_plot(FILE *f, const cli_model *cm, const cli_range *r,
     }
     if (open)
       fprintf(f, "\"/>\n");
-    fprintf(f, "</g>\n");
+    chart_curve_end(f);
   }
   if ((res->status == KL_LIMIT || res->status == KL_ESINGULAR) &&
       isfinite(res->limit_input)) {

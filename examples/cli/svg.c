@@ -196,6 +196,14 @@ void chart_panel(FILE *f, const chart *c) {
           CHART_PANEL, CHART_GRID);
 }
 
+void chart_curve_begin(FILE *f, const char *colour) {
+  fprintf(f, "<g clip-path=\"url(#panel)\" fill=\"none\" stroke=\"%s\" "
+             "stroke-width=\"2.2\" stroke-linejoin=\"round\">\n",
+          colour);
+}
+
+void chart_curve_end(FILE *f) { fprintf(f, "</g>\n"); }
+
 void chart_ticks(FILE *f, const chart *c) {
   double v, top = c->y.to, bottom = c->y.from;
   char label[64];

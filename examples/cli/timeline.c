@@ -129,16 +129,15 @@ static int write_chart(const cli_model *cm, const track *t, int i, int k,
   chart_title(f, &ch, cm->label, text);
   chart_panel(f, &ch);
   chart_ticks(f, &ch);
-  fprintf(f, "<g clip-path=\"url(#panel)\" fill=\"none\" stroke=\"%s\" "
-             "stroke-width=\"2.2\" stroke-linejoin=\"round\">\n<polyline "
-             "points=\"",
-          svg_colour(k));
+  chart_curve_begin(f, svg_colour(k));
+  fprintf(f, "<polyline points=\"");
   for (r = 0; r < rows; r++) {
     const double *row = table + (size_t)r * (size_t)width;
     fprintf(f, "%.2f,%.2f ", chart_map(&ch.x, row[0]),
             chart_map(&ch.y, row[1 + 4 * i + k]));
   }
-  fprintf(f, "\"/>\n</g>\n");
+  fprintf(f, "\"/>\n");
+  chart_curve_end(f);
   snprintf(y_title, sizeof y_title, "%s%s (%s%s)", t[i].name, order_word[k],
            t[i].unit, per_time[k]);
   chart_axis_titles(f, &ch, "time (s)", y_title);
