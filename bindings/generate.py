@@ -218,7 +218,8 @@ class Function:
 # a struct the function fills with why it failed (kl_io_error: status,
 # line, column, message), which the bindings raise. The header documents
 # the same in words. "N rows X": a table the function reads, N rows
-# (an int or long) of kl_<handle>_X(handle) numbers each, row by row.
+# (an int or long) of kl_<handle>_X(handle) numbers each, row by row;
+# "bytes LENGTH": a text the function reads, LENGTH (a size_t) bytes long.
 # Handles, fixed arrays (double xy[2]) and sized structs need no entry; a
 # function with any other pointer is bound by hand. generate.py stops if an entry names a
 # function or parameter the header does not declare.
@@ -268,6 +269,10 @@ POINTERS = {
     "kl_model_write": {"buf": "text cap needed"},
     "kl_study_summarize": {"values": "n rows output_count", "sample_status": "n"},
     "kl_model_write_file": {"err": "error"},
+    "kl_model_read": {"text": "bytes length", "err": "error"},
+    "kl_model_read_file": {"err": "error"},
+    "kl_study_read": {"text": "bytes length", "err": "error"},
+    "kl_study_read_file": {"err": "error"},
     "kl_solver_workspace": {"xy": "cap pairs grows vertices", "curves": "cap grows vertices",
                             "kinds": "cap grows vertices"},
     "kl_cycle_summarize": {"c": "one", "loads": "nloads", "input_peaks": "per input_count out",
@@ -285,7 +290,7 @@ METHODS = {"kl_solver_row", "kl_model_write"}
 def role_count(role):
     """The parameter a POINTERS role names as its count, or None."""
     return None if role in ("out", "one", "inputs", "error") or \
-        role.split()[0] in ("per", "text") else role.split()[0]
+        role.split()[0] in ("per", "text", "bytes") else role.split()[0]
 
 
 def check_pointers(header):
@@ -321,6 +326,8 @@ class Arg:
       point        two doubles named <p>x, <p>y, given as one pair
       point_array  const double p[2], given as one pair
       string       const char *
+      length       the length of a string read ("bytes" in POINTERS), given
+                   by the bindings
       count        an int that counts an array: the array's length
       array_in     const T * of `count` elements (ints, doubles or structs)
       inputs_in    const double *, one per input of the model
@@ -370,9 +377,19 @@ class Binding:
         self.handle = None       # model, solver or study
         self.handle_const = False
         self.owner = None        # the value struct a kl_<struct>_<verb> belongs to
+        # a maker: returns a new model, study or cam (NULL when it failed);
+        # the Octave gateway adopts it as an id, while the Python classes
+        # make their own (allocator hooks, subclasses)
+        made = re.fullmatch(r"kl_(\w+) \*", f.result)
+        self.makes = made.group(1) if made and made.group(1) in HANDLES and \
+            made.group(1) != "solver" else None
         self._classify(header)
         if self.plain:
             self._result(header)
+        if self.makes and self.plain:
+            self.plain, self.why = False, "makes a kl_%s (Octave: generated)" % self.makes
+        elif not self.plain:
+            self.makes = None
 
     def refuse(self, why):
         if self.plain:
@@ -383,13 +400,18 @@ class Binding:
         roles = POINTERS.get(f.name, {})
         if f.name.endswith("_free"):
             self.refuse("frees a handle")
-        if f.result not in ("void", "int", "long", "size_t", "double", "const char *"):
+        if f.result not in ("void", "int", "long", "size_t", "double", "const char *") \
+                and not self.makes:
             self.refuse("returns %s" % f.result)
         params = list(f.params)
         # the size and length of a text buffer, which the bindings give
         text = {n: role for role in roles.values() if role.startswith("text ")
                 for n in role.split()[1:]}
-        if any(p.base == "size_t" and not p.pointers and p.name not in text for p in params) \
+        # the length of a text read, which the bindings give: its string's
+        lengths = {role.split()[1]: param for param, role in roles.items()
+                   if role.startswith("bytes ")}
+        if any(p.base == "size_t" and not p.pointers and p.name not in text and
+               p.name not in lengths for p in params) \
                 and any(p.pointers and p.base[3:] not in HANDLES for p in params):
             self.refuse("a size_t sizes the memory of a pointer argument")
         counts = {role_count(role) for role in roles.values()} - {None}
@@ -407,7 +429,9 @@ class Binding:
             nxt = params[k + 1] if k + 1 < len(params) else None
             struct = header.struct(p.base)
             role = roles.get(p.name)
-            if p.name in text and p.base == "size_t" and \
+            if p.name in lengths and p.base == "size_t" and not p.pointers:
+                self.args.append(Arg("length", p.name, [p], count=lengths[p.name]))
+            elif p.name in text and p.base == "size_t" and \
                     p.pointers == (p.name == text[p.name].split()[2]):
                 self.args.append(Arg("text_part", p.name, [p]))
             elif role is not None and role.startswith("text ") and p.base == "char" and \
@@ -1200,6 +1224,9 @@ def octave_wrapper(header, b):
         if a.kind == "text_part":
             call_args.append("%s.size()" % b.text.name if a.name == b.text.count else "&" + n)
             continue
+        if a.kind == "length":
+            call_args.append("%s.size()" % a.count)
+            continue
         if a.kind == "error_out":
             lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
             lines.append("  %s.size = sizeof %s;" % (n, n))
@@ -1358,16 +1385,30 @@ def octave_wrapper(header, b):
         if b.f.result == "void":
             lines.append("  %s;" % call)
         elif not b.grows:
-            lines.append("  %s r = %s;" % (b.f.result, call))
-        if b.f.result in ("int", "long"):
+            lines.append("  %s%sr = %s;" % (b.f.result, "" if b.f.result.endswith("*") else " ",
+                                              call))
+        if b.makes and b.error is not None:
+            # with one output more asked for, a failure is that output
+            lines += ["  if (r == nullptr && c.nargout < 2)",
+                      "    c.check(%s.status, %s);" % (b.error.name, b.error.name)]
+            outs.append("to_octave(%s)" % b.error.name)
+        elif b.makes:
+            lines += ["  if (r == nullptr)",
+                      "    raise_status(KL_ENOMEM, %s);" % cpp_string(b.command +
+                                                             ": out of memory")]
+        if b.makes:
+            lines += ["  entry e;", "  e.%s = r;" % b.makes]
+            outs.insert(0, "r == nullptr ? octave_value(Matrix()) : "
+                        "octave_value(new_id(kind::%s, e))" % b.makes)
+        elif b.f.result in ("int", "long"):
             error = "kl_%s_error" % b.handle
             if b.error is not None:
-                lines.append("  c.check(r, %s.message);" % b.error.name)
+                lines.append("  c.check(r, %s);" % b.error.name)
             elif b.handle and not b.handle_const and header.function(error):
                 lines.append("  c.check(r, %s(h.%s));" % (error, b.handle))
             else:
                 lines.append("  c.check(r);")
-        if b.value_result:
+        if b.value_result and not b.makes:
             outs.insert(0, "code_name(%s_names, r)" % b.enum.name if b.enum else
                         "octave_value(r != 0)" if b.boolean else
                         "text_value(r)" if b.f.result == "const char *" else
@@ -1439,7 +1480,7 @@ def octave_gateway(header):
     out += ["/* ---- the plain functions: one command each ---- */", ""]
     table = []
     for b in bs:
-        if not b.plain:
+        if not (b.plain or b.makes):
             continue
         lines, count = octave_wrapper(header, b)
         out += lines

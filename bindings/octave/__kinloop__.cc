@@ -284,6 +284,15 @@ void call::check(int status, const char *message) const {
   raise_status(status, name + "(" + args + "): " + kl_status_str(status));
 }
 
+void call::check(int status, const kl_io_error &e) const {
+  if (status >= 0)
+    return;
+  std::string msg = e.message[0] != '\0' ? e.message : kl_status_str(status);
+  raise_status(status, e.line > 0 ? "line " + str(e.line) + ", column " + str(e.column) +
+                                        ": " + msg
+                                  : msg);
+}
+
 static octave_value row(const double *v, int n) {
   RowVector out(n);
   for (int k = 0; k < n; k++)
@@ -324,15 +333,8 @@ static octave_value text_value(const char *text) {
 namespace {
 
 /* ------------------------------------------------------------------------
- * Models: lifetime, loops, model files
+ * Models: letting go
  * ------------------------------------------------------------------------ */
-
-octave_value_list cmd_model_new(const call &) {
-  kl_model *m = kl_model_new();
-  if (m == nullptr)
-    raise_status(KL_ENOMEM, "model_new: out of memory");
-  return one(adopt_model(m));
-}
 
 /* Lets go of the model; its solvers and studies keep it (kl_model_free).
  * For a study's model it ends the handle only: the model is the study's. */
@@ -342,48 +344,6 @@ octave_value_list cmd_model_free(const call &c) {
     kl_model_free(m.model);
   table().live.erase(c.whole<int>(c.arg(0), "model id"));
   return none();
-}
-
-/* A model or study read, or the reason it was not: raised, or with two
- * outputs returned as ([], error struct). */
-template <typename T>
-octave_value_list read_result(const call &c, T *made, int (*adopt)(T *),
-                              const kl_io_error &e) {
-  octave_value_list out;
-  if (made == nullptr && c.nargout < 2) {
-    std::string msg = e.message[0] != '\0' ? e.message : kl_status_str(e.status);
-    raise_status(e.status, e.line > 0 ? "line " + str(e.line) + ", column " +
-                                            str(e.column) + ": " + msg
-                                      : msg);
-  }
-  out(0) = made == nullptr ? octave_value(Matrix()) : octave_value(adopt(made));
-  out(1) = to_octave(e);
-  return out;
-}
-
-kl_io_error io_error() {
-  kl_io_error e;
-  std::memset(&e, 0, sizeof e);
-  e.size = sizeof e;
-  return e;
-}
-
-std::string text_arg(const call &c, int i) {
-  if (c.arg(i).isempty() && c.arg(i).is_string())
-    return std::string();
-  return c.text(c.arg(i), "text");
-}
-
-octave_value_list cmd_model_read(const call &c) {
-  std::string text = text_arg(c, 0);
-  kl_io_error e = io_error();
-  return read_result(c, kl_model_read(text.data(), text.size(), &e), adopt_model, e);
-}
-
-octave_value_list cmd_model_read_file(const call &c) {
-  std::string path = c.text(c.arg(0), "path");
-  kl_io_error e = io_error();
-  return read_result(c, kl_model_read_file(path.c_str(), &e), adopt_model, e);
 }
 
 /* ------------------------------------------------------------------------
@@ -649,27 +609,6 @@ octave_value_list cmd_cycle_table(const call &c) {
  * Design studies
  * ------------------------------------------------------------------------ */
 
-int adopt_study(kl_study *st) {
-  entry e;
-  e.study = st;
-  return new_id(kind::study, e);
-}
-
-/* A study read against a model the caller holds: the study holds it too
- * (the library counts its holders), so the caller may free it at once. */
-octave_value_list cmd_study_read(const call &c) {
-  std::string text = text_arg(c, 0);
-  entry &m = c.model(1, access::read);
-  kl_io_error e = io_error();
-  return read_result(c, kl_study_read(text.data(), text.size(), m.model, &e), adopt_study, e);
-}
-
-octave_value_list cmd_study_read_file(const call &c) {
-  std::string path = c.text(c.arg(0), "path");
-  kl_io_error e = io_error();
-  return read_result(c, kl_study_read_file(path.c_str(), &e), adopt_study, e);
-}
-
 /* The study's borrowed model handle goes with it; solvers made from that
  * handle keep working (the library keeps the model for them). */
 octave_value_list cmd_study_free(const call &c) {
@@ -750,15 +689,6 @@ octave_value_list cmd_handles(const call &) {
 
 octave_value_list cmd_commands(const call &);
 
-/* Cams: a handle of their own, no model. */
-octave_value_list cmd_cam_new(const call &) {
-  entry e;
-  e.cam = kl_cam_new();
-  if (e.cam == nullptr)
-    raise_status(KL_ENOMEM, "cam_new: out of memory");
-  return one(octave_value(new_id(kind::cam, e)));
-}
-
 octave_value_list cmd_cam_free(const call &c) {
   kl_cam_free(c.cam(0).cam);
   table().live.erase(c.whole<int>(c.arg(0), "cam id"));
@@ -769,10 +699,7 @@ const command hand_commands[] = {
     {"commands", 0, 0, "()", cmd_commands},
     {"handles", 0, 0, "()", cmd_handles},
     {"status_name", 1, 1, "(status)", cmd_status_name},
-    {"model_new", 0, 0, "()", cmd_model_new},
     {"model_free", 1, 1, "(model)", cmd_model_free},
-    {"model_read", 1, 1, "(text)", cmd_model_read},
-    {"model_read_file", 1, 1, "(path)", cmd_model_read_file},
     {"solver_new", 1, 1, "(model)", cmd_solver_new<false>},
     {"solver_new_in", 1, 1, "(model)", cmd_solver_new<true>},
     {"solver_free", 1, 1, "(solver)", cmd_solver_free},
@@ -780,12 +707,9 @@ const command hand_commands[] = {
     {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
-    {"study_read", 2, 2, "(text, model)", cmd_study_read},
-    {"study_read_file", 1, 1, "(path)", cmd_study_read_file},
     {"study_free", 1, 1, "(study)", cmd_study_free},
     {"study_model", 1, 1, "(study)", cmd_study_model},
     {"study_run", 3, 4, "(study, first, count, [threads])", cmd_study_run},
-    {"cam_new", 0, 0, "()", cmd_cam_new},
     {"cam_free", 1, 1, "(cam)", cmd_cam_free},
     {nullptr, 0, 0, nullptr, nullptr}};
 

@@ -141,6 +141,8 @@ public:
   /* A failed call raises its status with `message`, or, for calls that
    * leave none (getters on a const handle), the command and its arguments. */
   void check(int status, const char *message = nullptr) const;
+  /* A failure reported in a kl_io_error, its place (line, column) first. */
+  void check(int status, const kl_io_error &e) const;
 
 private:
   const octave_value_list &args_;
