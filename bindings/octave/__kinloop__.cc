@@ -394,18 +394,46 @@ octave_value_list cmd_solver_model(const call &c) {
   return one(c.solver(0, access::read).model_id);
 }
 
+/* Solvers the gateway made and has not handed out yet: freed unless adopted. */
+struct new_solvers : std::vector<kl_solver *> {
+  ~new_solvers() {
+    for (kl_solver *s : *this)
+      kl_solver_free(s);
+  }
+};
+
+/* The assembly modes at the inputs as new solvers of the solver's model,
+ * with its options, each at a solved position (as Python gives them); the
+ * search is repeated when they are more than the solvers made for it. */
 octave_value_list cmd_find_assemblies(const call &c) {
   entry &s = c.solver(0);
   int n = kl_model_input_count(s.model);
   std::vector<double> u = c.values(1, n, "inputs");
-  std::vector<kl_solver *> modes;
-  for (int id : c.given(2) ? c.wholes<int>(c.arg(2), "modes") : std::vector<int>())
-    modes.push_back(c.lookup(id, kind::solver, access::write).solver);
-  int found = kl_solver_find_assemblies(s.solver, n > 0 ? u.data() : nullptr,
-                                        modes.empty() ? nullptr : modes.data(),
-                                        static_cast<int>(modes.size()));
-  c.check(found, kl_solver_error(s.solver));
-  return one(found);
+  kl_options o = kl_options();
+  o.size = sizeof o;
+  c.check(kl_solver_options(s.solver, &o));
+  new_solvers modes;
+  int found = 8;
+  while (static_cast<int>(modes.size()) < found) {
+    while (static_cast<int>(modes.size()) < found) {
+      modes.push_back(kl_solver_new(s.model));
+      if (modes.back() == nullptr || kl_solver_set_options(modes.back(), &o) < 0)
+        raise_status(KL_ENOMEM, c.name + ": out of memory");
+    }
+    found = kl_solver_find_assemblies(s.solver, n > 0 ? u.data() : nullptr, modes.data(),
+                                      static_cast<int>(modes.size()));
+    c.check(found, kl_solver_error(s.solver));
+  }
+  RowVector ids(found);
+  for (int k = 0; k < found; k++) {
+    entry e;
+    e.model = s.model;
+    e.solver = modes[k];
+    e.model_id = s.model_id;
+    ids(k) = new_id(kind::solver, e);
+    modes[k] = nullptr; /* the table's now */
+  }
+  return one(ids);
 }
 
 /* ---- sweeps ---- */
@@ -704,7 +732,7 @@ const command hand_commands[] = {
     {"solver_new_in", 1, 1, "(model)", cmd_solver_new<true>},
     {"solver_free", 1, 1, "(solver)", cmd_solver_free},
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
-    {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
+    {"solver_find_assemblies", 2, 2, "(solver, inputs)", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
     {"study_free", 1, 1, "(study)", cmd_study_free},

@@ -21,7 +21,12 @@ classdef Solver < kinloop.SolverMethods
   end
 
   methods
-    function obj = Solver(model, where)
+    function obj = Solver(model, where, its_model)
+      % Solver('adopt', id, its_model) wraps a solver the gateway made.
+      if ischar(model) && strcmp(model, 'adopt')
+        [obj.id, obj.model] = deal(where, its_model);
+        return
+      end
       if ~isa(model, 'kinloop.Model') && ~isa(model, 'kinloop.Solver')
         error('kinloop:EINVAL', 'kinloop.Solver: the argument must be a kinloop.Model or Solver');
       end
@@ -66,22 +71,11 @@ classdef Solver < kinloop.SolverMethods
 
     % ---- assembly modes and sweeps ----
 
-    function n = find_assemblies(obj, inputs, modes)
-      % n = find_assemblies(inputs [, modes]): the number of distinct
-      % assembly modes at inputs; the first numel(modes) are written into
-      % the solvers of the cell array modes.
-      if nargin < 3 || isempty(modes)
-        n = __kinloop__('solver_find_assemblies', obj.id, inputs);
-      else
-        n = __kinloop__('solver_find_assemblies', obj.id, inputs, cellfun(@(m) m.id, modes));
-      end
-    end
-
-    function modes = assemblies(obj, inputs)
-      % A cell array of new solvers, one per assembly mode at inputs.
-      modes = arrayfun(@(k) kinloop.Solver(obj), 1:obj.find_assemblies(inputs), ...
-                       'UniformOutput', false);
-      obj.find_assemblies(inputs, modes);
+    function modes = find_assemblies(obj, inputs)
+      % The assembly modes at inputs: a cell array of new solvers, each at a
+      % solved position (with this solver's options); this one keeps its state.
+      modes = arrayfun(@(id) kinloop.Solver('adopt', id, obj.model), ...
+                       __kinloop__('solver_find_assemblies', obj.id, inputs), 'UniformOutput', false);
     end
 
     function r = sweep(obj, input, from, to, steps, fn)
