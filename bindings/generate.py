@@ -573,9 +573,10 @@ class Binding:
     @property
     def method(self):
         """The method's (or package function's) name: the C name without
-        kl_ and without the prefix of its handle or value struct."""
+        kl_ and without the prefix of its handle, the handle it makes or its
+        value struct."""
         name = self.name[3:]
-        prefix = self.handle or (self.owner.name[3:] if self.owner else None)
+        prefix = self.handle or self.makes or (self.owner.name[3:] if self.owner else None)
         if prefix and name.startswith(prefix + "_"):
             name = name[len(prefix) + 1:]
         return name
@@ -1521,7 +1522,7 @@ def octave_method(b, obj=True):
     head = "function %s%s(%s)" % ("varargout = " if outputs else "", name,
                                   ", ".join(params))
     lines = [head, "  %% %s: %s" % (usage, b.name)]
-    lines += ["  %% " + l if l else "  %" for l in doc]
+    lines += ["  % " + l if l else "  %" for l in doc]
     if b.vectorized:
         lines.append("  %% (%s may be a vector of ids: one value each, same shape)" %
                      ins[0].name)
@@ -1532,6 +1533,30 @@ def octave_method(b, obj=True):
         lines.append("  %s;" % call)
     lines.append("end")
     return lines
+
+
+def octave_maker(b):
+    """A maker taking arguments (a reader) as a static method of its class:
+    the new handle wrapped as kinloop.<Class>('adopt', id). With one output
+    more asked for, the gateway gives its failure report instead of raising."""
+    ins = octave_inputs(b)
+    names = [a.name for a in ins]
+    forward = [repr(b.command)] + [a.name + ".id" if a.kind == "handle_in" else a.name
+                                   for a in ins]
+    report = ", %s" % b.error.name if b.error else ""
+    lines = ["function [obj%s] = %s(%s)" % (", varargout" if b.error else "", b.method,
+                                            ", ".join(names)),
+             "  %% [obj%s] = %s(%s): %s" % (report, b.method, ", ".join(names), b.name)]
+    lines += ["  % " + l if l else "  %" for l in b.f.doc.splitlines()]
+    if b.error:
+        lines += ["  %% With two outputs a failure does not raise: obj is [] and %s "
+                  "says why" % b.error.name,
+                  "  %% (%s)." % ", ".join(f.name for f in b.error.struct.value_fields()),
+                  "  [id, varargout{1:nargout - 1}] = __kinloop__(%s);" % ", ".join(forward)]
+    else:
+        lines.append("  id = __kinloop__(%s);" % ", ".join(forward))
+    return lines + ["  obj = [];", "  if ~isempty(id)",
+                    "    obj = kinloop.%s('adopt', id);" % camel(b.makes), "  end", "end"]
 
 
 def octave_classes(header, out_dir):
@@ -1565,7 +1590,15 @@ def octave_classes(header, out_dir):
         for b in bs:
             if b.plain and b.handle == h:
                 lines += ["    " + l for l in octave_method(b)] + [""]
-        lines += ["  end", "end", ""]
+        lines.append("  end")
+        # a maker without arguments is the class constructor's to call
+        makers = [b for b in bs if b.makes == h and octave_inputs(b)]
+        if makers:
+            lines += ["", "  methods (Static)"]
+            for b in makers:
+                lines += ["    " + l for l in octave_maker(b)] + [""]
+            lines.append("  end")
+        lines += ["end", ""]
         write(os.path.join(package, name + ".m"), "\n".join(lines))
     for b in bs:
         if b.plain and b.handle is None:
