@@ -40,12 +40,6 @@ int new_id(kind what, const entry &e) {
   return id;
 }
 
-int adopt_model(kl_model *m) {
-  entry e;
-  e.model = m;
-  return new_id(kind::model, e);
-}
-
 void raise(const std::string &id, const std::string &message) {
   error_with_id(("kinloop:" + id).c_str(), "%s", message.c_str());
 }
@@ -86,36 +80,26 @@ static octave_value enum_table(const named_code *table) {
 
 /* ---- the argument rule ---- */
 
+/* Whether a double holds an integer exactly. */
+static bool exact(double, double) { return true; }
 static bool exact(double d, int64_t n) {
   return d >= -9223372036854775808.0 && d < 9223372036854775808.0 &&
          static_cast<int64_t>(d) == n;
+}
+static bool exact(double d, uint64_t u) {
+  return d < 18446744073709551616.0 && static_cast<uint64_t>(d) == u;
 }
 
 std::vector<double> call::reals(const octave_value &v, const std::string &what) const {
   if (!(v.isnumeric() || v.islogical()) || v.iscomplex())
     bad(what, "must be real numbers");
   std::vector<double> out;
-  if (v.is_uint64_type()) {
-    uint64NDArray a = v.uint64_array_value();
-    for (octave_idx_type k = 0; k < a.numel(); k++) {
-      uint64_t u = a(k).value();
-      double d = static_cast<double>(u);
-      if (!(d < 18446744073709551616.0 && static_cast<uint64_t>(d) == u))
-        bad(what, "holds " + std::to_string(u) + ", which a double cannot hold exactly");
-      out.push_back(d);
-    }
-  } else if (v.isinteger()) {
-    int64NDArray a = v.int64_array_value();
-    for (octave_idx_type k = 0; k < a.numel(); k++) {
-      int64_t n = a(k).value();
-      if (!exact(static_cast<double>(n), n))
-        bad(what, "holds " + std::to_string(n) + ", which a double cannot hold exactly");
-      out.push_back(static_cast<double>(n));
-    }
-  } else {
-    NDArray a = v.array_value();
-    out.assign(a.data(), a.data() + a.numel());
-  }
+  out.reserve(static_cast<size_t>(v.numel()));
+  each_number(v, [&](octave_idx_type, auto x) {
+    if (!exact(static_cast<double>(x), x))
+      bad(what, "holds " + std::to_string(x) + ", which a double cannot hold exactly");
+    out.push_back(static_cast<double>(x));
+  });
   return out;
 }
 
