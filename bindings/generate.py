@@ -287,6 +287,11 @@ GROW_FROM, GROW_UP_TO = 4096, 1 << 22
 METHODS = {"kl_solver_row", "kl_model_write"}
 
 
+# Int fields whose values the header names in words, not with an enum: the
+# names the bindings take (and Octave gives) for them, by value 0, 1, ...
+FIELD_NAMES = {("kl_dimension", "axis"): ("x", "y")}
+
+
 def role_count(role):
     """The parameter a POINTERS role names as its count, or None."""
     return None if role in ("out", "one", "inputs", "error") or \
@@ -294,6 +299,12 @@ def role_count(role):
 
 
 def check_pointers(header):
+    for (struct, field), _ in FIELD_NAMES.items():
+        s = header.struct(struct)
+        if s is None or not any(fl.name == field and fl.ctype == "int"
+                                for fl in s.value_fields()):
+            sys.exit("generate.py: FIELD_NAMES names %s.%s, which include/kinloop.h does not "
+                     "declare as an int field" % (struct, field))
     for name, roles in POINTERS.items():
         f = header.function(name)
         if f is None:
@@ -1012,6 +1023,15 @@ def py_value_type(header, s, bs):
             "bool" if is_flag(fl) else {"double": "float"}.get(fl.ctype, "int")
         out.append("    %s: %s = %s" % (py_name(fl.name), kind,
                                         py_default(header, s, fl, defaults)))
+    named = [(fl, FIELD_NAMES[(s.name, fl.name)]) for fl in s.value_fields()
+             if (s.name, fl.name) in FIELD_NAMES]
+    if named:
+        out += ["", "    def __post_init__(self):",
+                "        # int fields whose values the header names in words"]
+        for fl, names in named:
+            out += ["        if self.%s in %r:" % (py_name(fl.name), names),
+                    "            object.__setattr__(self, %r, %r.index(self.%s))" % (
+                        py_name(fl.name), names, py_name(fl.name))]
     out.append("")
     out += py_kind_constructors(header, s, bs)
     for b in bs:
@@ -1145,12 +1165,21 @@ def octave_structs(header):
     out = ["/* ---- structs: C to Octave and back, field by field ---- */", ""]
     for s in header.structs:
         fields = s.value_fields()
+        named = {fl.name: "%s_%s_names" % (s.name, fl.name) for fl in fields
+                 if (s.name, fl.name) in FIELD_NAMES}
+        for fl in fields:
+            if fl.name in named:
+                out.append("const named_code %s[] = {" % named[fl.name])
+                out += ["    {%s, %d}," % (cpp_string(n), k)
+                        for k, n in enumerate(FIELD_NAMES[(s.name, fl.name)])]
+                out += ["    {nullptr, 0}};", ""]
         out.append("octave_scalar_map to_octave(const %s &s) {" % s.name)
         out.append("  octave_scalar_map m;")
         for fl in fields:
             e = field_enum(header, fl)
-            if e is not None:
-                value = "code_name(%s_names, s.%s)" % (e.name, fl.name)
+            if e is not None or fl.name in named:
+                value = "code_name(%s, s.%s)" % (named.get(fl.name, e and e.name + "_names"),
+                                                 fl.name)
             elif is_flag(fl):
                 value = "s.%s != 0" % fl.name
             elif fl.length is not None:
@@ -1182,8 +1211,8 @@ def octave_structs(header):
                 out.append("    from_octave(c, v.contents(%s)(k).map_value(), 0, what + "
                            "\".%s\", s.%s, all);" % (cpp_string(fl.name), fl.name, fl.name))
                 continue
-            if e is not None:
-                conv = "c.code(%s, %s_names)" % (arg, e.name)
+            if e is not None or fl.name in named:
+                conv = "c.code(%s, %s)" % (arg, named.get(fl.name, e and e.name + "_names"))
             elif fl.length is not None:
                 conv = None
             elif fl.ctype == "double":

@@ -155,21 +155,6 @@ classdef Solver < kinloop.SolverMethods
       % stopped by a motion limit has the samples it reached.
       t = __kinloop__('cycle_table', obj.id, kinloop.Solver.cycle_of(varargin), loads);
     end
-
-    % ---- design figures: a dimension's axis may be 'x' or 'y' ----
-
-    function d = output_sensitivity(obj, o, dim)
-      % d output / d dimension (kl_output_sensitivity); dim: struct('kind',
-      % 'joint_a' | 'joint_b' | 'point', 'id', id, 'axis', 'x' | 'y' or 0 | 1).
-      d = output_sensitivity@kinloop.SolverMethods(obj, o, kinloop.Solver.axes(dim));
-    end
-
-    function [worst, rss] = output_tolerance_stack(obj, o, dims, tolerances)
-      % Worst case and root-sum-square stack-up (kl_output_tolerance_stack)
-      % over the dimensions dims (axes as for output_sensitivity).
-      [worst, rss] = output_tolerance_stack@kinloop.SolverMethods(obj, o, ...
-                                                                 kinloop.Solver.axes(dims), tolerances);
-    end
   end
 
   methods (Static, Access = private)
@@ -187,15 +172,6 @@ classdef Solver < kinloop.SolverMethods
       end
       for k = 1:2:numel(given)
         c.(given{k}) = given{k + 1};
-      end
-    end
-
-    function dims = axes(dims)
-      % Dimensions with their axis 'x' or 'y' given as kl_dimension's 0 or 1.
-      for k = 1:numel(dims)
-        if isfield(dims, 'axis') && ischar(dims(k).axis)
-          dims(k).axis = find(strcmp(dims(k).axis, {'x', 'y'})) - 1;
-        end
       end
     end
   end

@@ -32,17 +32,7 @@ class Load(_api.Load):
         return cls(LoadKind.TORQUE, link, torque=torque)
 
 
-@dataclasses.dataclass(frozen=True)
-class Dimension(_api.Dimension):
-    """kl_dimension: one local coordinate (axis 0 or "x", 1 or "y") of a
-    joint's attachment point on its link a or b, or of a point."""
-
-    def __post_init__(self):
-        if self.axis in ("x", "y"):
-            object.__setattr__(self, "axis", "xy".index(self.axis))
-
-
-VALUE_TYPES.update({raw.kl_load: Load, raw.kl_dimension: Dimension})
+VALUE_TYPES.update({raw.kl_load: Load})
 
 
 @dataclasses.dataclass(frozen=True, eq=False, kw_only=True)
