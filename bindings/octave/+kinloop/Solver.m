@@ -49,24 +49,16 @@ classdef Solver < kinloop.SolverMethods
     end
 
     function set_options(obj, varargin)
-      % set_options(struct) or set_options('name', value, ...): changes the
-      % fields given (tolerance, step_tolerance, max_iterations,
+      % set_options(struct) or set_options('name', value, ...), or both:
+      % changes the fields given (tolerance, step_tolerance, max_iterations,
       % max_backtracks, max_step, singular_rcond, and kernel: 'auto',
       % 'small', 'dense' or 'banded') and keeps the others.
-      if numel(varargin) == 1
-        given = varargin{1};
-      else
-        given = struct(varargin{:});
-      end
       o = obj.options();
-      for name = fieldnames(given).'
-        if ~isfield(o, name{1})
-          error('kinloop:EINVAL', 'solver_set_options: options have no field ''%s'' (fields: %s)', ...
-                name{1}, strjoin(fieldnames(o).', ', '));
-        end
+      given = kinloop.Solver.fields_of(varargin);
+      for name = fieldnames(given).'   % the gateway refuses unknown fields
         o.(name{1}) = given.(name{1});
       end
-      __kinloop__('solver_set_options', obj.id, o);
+      set_options@kinloop.SolverMethods(obj, o);
     end
 
     % ---- assembly modes and sweeps ----
@@ -123,7 +115,7 @@ classdef Solver < kinloop.SolverMethods
       % mean, rms) per input, its effort; joints: one per joint, the
       % magnitude of its force.
       [summary, inputs, joints] = __kinloop__('cycle_summarize', obj.id, ...
-                                              kinloop.Solver.cycle_of(varargin), loads);
+                                              kinloop.Solver.fields_of(varargin), loads);
     end
 
     function w = workspace(obj, point, varargin)
@@ -137,7 +129,7 @@ classdef Solver < kinloop.SolverMethods
       % or 'fold', the stretch from each vertex). The solver keeps its
       % state.
       [xy, curve, kind, w] = workspace@kinloop.SolverMethods(obj, point, ...
-                                                             kinloop.Solver.cycle_of(varargin));
+                                                             kinloop.Solver.fields_of(varargin));
       w.xy = xy;
       w.curve = curve;
       w.kind = kind;
@@ -153,22 +145,21 @@ classdef Solver < kinloop.SolverMethods
       % (kl_ground_force), kinetic_energy, work (the driven input's work
       % since the first sample); and rows, the C rows whole. A cycle
       % stopped by a motion limit has the samples it reached.
-      t = __kinloop__('cycle_table', obj.id, kinloop.Solver.cycle_of(varargin), loads);
+      t = __kinloop__('cycle_table', obj.id, kinloop.Solver.fields_of(varargin), loads);
     end
   end
 
   methods (Static, Access = private)
-    function c = cycle_of(given)
-      % A cycle struct from a struct, name-value pairs replacing its fields
-      % (or making one), or nothing ([]: the defaults).
+    function c = fields_of(given)
+      % A struct (a cycle, options) from a struct, name-value pairs
+      % replacing its fields (or making one), or nothing ([]: the defaults).
       c = [];
       if ~isempty(given) && isstruct(given{1})
         c = given{1};
         given = given(2:end);
       end
       if mod(numel(given), 2) ~= 0 || ~all(cellfun(@ischar, given(1:2:end)))
-        error('kinloop:EINVAL', ['cycle: give a struct of kl_cycle''s fields, ' ...
-                                 'name-value pairs, or both']);
+        error('kinloop:EINVAL', 'give a struct of the fields, name-value pairs, or both');
       end
       for k = 1:2:numel(given)
         c.(given{k}) = given{k + 1};

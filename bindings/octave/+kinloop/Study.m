@@ -47,10 +47,11 @@ classdef Study < kinloop.StudyMethods
       m = kinloop.Model('adopt', __kinloop__('study_model', obj.id), obj);
     end
 
-    function [values, status, dims] = run(obj, first, count, threads)
-      % run([first [, count [, threads]]]): samples first .. first + count - 1
-      % (default: all of them from first) on threads threads (0, the
-      % default: all the cores). dims is computed only when asked for.
+    function varargout = run(obj, first, count, threads)
+      % [values, status, dims] = run([first [, count [, threads]]]): samples
+      % first .. first + count - 1 (default: all of them from first) on
+      % threads threads (0, the default: all the cores). dims is computed
+      % only when asked for.
       if nargin < 2
         first = 0;
       end
@@ -60,11 +61,7 @@ classdef Study < kinloop.StudyMethods
       if nargin < 4
         threads = 0;
       end
-      if nargout < 3
-        [values, status] = __kinloop__('study_run', obj.id, first, count, threads);
-      else
-        [values, status, dims] = __kinloop__('study_run', obj.id, first, count, threads);
-      end
+      [varargout{1:max(nargout, 1)}] = __kinloop__('study_run', obj.id, first, count, threads);
     end
 
     function s = summarize(obj, output, values, status)
