@@ -16,9 +16,11 @@ carry. A function is "plain", and gets a generated method, when its
 parameters are a handle (first only), scalars (int, long, size_t, double),
 strings (const char *), fixed arrays it fills (double xy[2]), sized structs
 (first field size_t size) read or filled whole, and pointers POINTERS
-explains; its result a scalar, a string or void. Everything else (callbacks,
-new handles, arrays of handles, tables sized from other arguments) is left to the
-hand-written part of each binding. DEVELOPERS.md says more.
+explains; its result a scalar, a string or void. A "maker" returns a new model,
+study or cam instead: the Octave gateway adopts it as an id (Python's classes make
+their own). Everything else (callbacks, new solvers, arrays of handles, tables sized
+from other arguments) is left to the hand-written part of each binding.
+DEVELOPERS.md says more.
 """
 
 import keyword

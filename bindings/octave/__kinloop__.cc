@@ -3,8 +3,8 @@
  * command (a kl_ name without its prefix) and its arguments. The plain
  * functions' commands are generated (kinloop_gateway.inc); this file holds
  * the handle table, the argument rule, and the commands the generator
- * leaves to hand code: lifetimes, model and study files, assembly modes,
- * sweeps, the force figures over a cycle, and study runs.
+ * leaves to hand code: freeing, solvers' making, assembly modes, sweeps,
+ * the force figures over a cycle, and study runs.
  */
 #include "gateway.h"
 
