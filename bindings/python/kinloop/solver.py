@@ -15,7 +15,7 @@ from ._args import array_of, refuse, to_int, with_fields
 from ._core import Handle, KinloopError, as_enum, value_of
 from ._header import MAX_STEPS, Status, WorkspaceKind
 from .model import row_layout
-from .values import Cycle, CycleFigures, SweepResult, Workspace, cycle_table_dtype
+from .values import CycleFigures, SweepResult, Workspace, cycle_table_dtype
 
 # Over-alignment for a solver placed in a Python buffer: the C side wants
 # malloc's alignment, which no ABI sets above this.
@@ -216,7 +216,7 @@ class Solver(_api.SolverMethods, Handle):
     def _cycle(function, cycle, fields):
         """The cycle (`cycle`, default Cycle(), with `fields` replacing
         fields by name)."""
-        return with_fields(cycle if cycle is not None else Cycle(), "Cycle", fields, function,
+        return with_fields(cycle if cycle is not None else _api.Cycle(), "Cycle", fields, function,
                            "cycle")
 
     def cycle_summarize(self, loads=(), cycle=None, **fields):
