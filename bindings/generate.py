@@ -1430,7 +1430,8 @@ def octave_wrapper(header, b):
                                                              ": out of memory")]
         if b.makes:
             lines += ["  entry e;", "  e.%s = r;" % b.makes]
-            outs.insert(0, "r == nullptr ? octave_value(Matrix()) : "
+            # NULL (a failure given as the report) is []
+            outs.insert(0, ("r == nullptr ? octave_value(Matrix()) : " if b.error else "") +
                         "octave_value(new_id(kind::%s, e))" % b.makes)
         elif b.f.result in ("int", "long"):
             error = "kl_%s_error" % b.handle
