@@ -16,9 +16,11 @@ carry. A function is "plain", and gets a generated method, when its
 parameters are a handle (first only), scalars (int, long, size_t, double),
 strings (const char *), fixed arrays it fills (double xy[2]), sized structs
 (first field size_t size) read or filled whole, and pointers POINTERS
-explains; its result a scalar, a string or void. Everything else (callbacks,
-new handles, arrays of handles, tables sized from other arguments) is left to the
-hand-written part of each binding. DEVELOPERS.md says more.
+explains; its result a scalar, a string or void. A "maker" returns a new model,
+study or cam instead: the Octave gateway adopts it as an id (Python's classes make
+their own). Everything else (callbacks, new solvers, arrays of handles, tables sized
+from other arguments) is left to the hand-written part of each binding.
+DEVELOPERS.md says more.
 """
 
 import keyword
@@ -218,7 +220,8 @@ class Function:
 # a struct the function fills with why it failed (kl_io_error: status,
 # line, column, message), which the bindings raise. The header documents
 # the same in words. "N rows X": a table the function reads, N rows
-# (an int or long) of kl_<handle>_X(handle) numbers each, row by row.
+# (an int or long) of kl_<handle>_X(handle) numbers each, row by row;
+# "bytes LENGTH": a text the function reads, LENGTH (a size_t) bytes long.
 # Handles, fixed arrays (double xy[2]) and sized structs need no entry; a
 # function with any other pointer is bound by hand. generate.py stops if an entry names a
 # function or parameter the header does not declare.
@@ -268,6 +271,10 @@ POINTERS = {
     "kl_model_write": {"buf": "text cap needed"},
     "kl_study_summarize": {"values": "n rows output_count", "sample_status": "n"},
     "kl_model_write_file": {"err": "error"},
+    "kl_model_read": {"text": "bytes length", "err": "error"},
+    "kl_model_read_file": {"err": "error"},
+    "kl_study_read": {"text": "bytes length", "err": "error"},
+    "kl_study_read_file": {"err": "error"},
     "kl_solver_workspace": {"xy": "cap pairs grows vertices", "curves": "cap grows vertices",
                             "kinds": "cap grows vertices"},
     "kl_cycle_summarize": {"c": "one", "loads": "nloads", "input_peaks": "per input_count out",
@@ -282,13 +289,24 @@ GROW_FROM, GROW_UP_TO = 4096, 1 << 22
 METHODS = {"kl_solver_row", "kl_model_write"}
 
 
+# Int fields whose values the header names in words, not with an enum: the
+# names the bindings take (and Octave gives) for them, by value 0, 1, ...
+FIELD_NAMES = {("kl_dimension", "axis"): ("x", "y")}
+
+
 def role_count(role):
     """The parameter a POINTERS role names as its count, or None."""
     return None if role in ("out", "one", "inputs", "error") or \
-        role.split()[0] in ("per", "text") else role.split()[0]
+        role.split()[0] in ("per", "text", "bytes") else role.split()[0]
 
 
 def check_pointers(header):
+    for (struct, field), _ in FIELD_NAMES.items():
+        s = header.struct(struct)
+        if s is None or not any(fl.name == field and fl.ctype == "int"
+                                for fl in s.value_fields()):
+            sys.exit("generate.py: FIELD_NAMES names %s.%s, which include/kinloop.h does not "
+                     "declare as an int field" % (struct, field))
     for name, roles in POINTERS.items():
         f = header.function(name)
         if f is None:
@@ -321,6 +339,8 @@ class Arg:
       point        two doubles named <p>x, <p>y, given as one pair
       point_array  const double p[2], given as one pair
       string       const char *
+      length       the length of a string read ("bytes" in POINTERS), given
+                   by the bindings
       count        an int that counts an array: the array's length
       array_in     const T * of `count` elements (ints, doubles or structs)
       inputs_in    const double *, one per input of the model
@@ -370,9 +390,19 @@ class Binding:
         self.handle = None       # model, solver or study
         self.handle_const = False
         self.owner = None        # the value struct a kl_<struct>_<verb> belongs to
+        # a maker: returns a new model, study or cam (NULL when it failed);
+        # the Octave gateway adopts it as an id, while the Python classes
+        # make their own (allocator hooks, subclasses)
+        made = re.fullmatch(r"kl_(\w+) \*", f.result)
+        self.makes = made.group(1) if made and made.group(1) in HANDLES and \
+            made.group(1) != "solver" else None
         self._classify(header)
         if self.plain:
             self._result(header)
+        if self.makes and self.plain:
+            self.plain, self.why = False, "makes a kl_%s (Octave: generated)" % self.makes
+        elif not self.plain:
+            self.makes = None
 
     def refuse(self, why):
         if self.plain:
@@ -383,13 +413,18 @@ class Binding:
         roles = POINTERS.get(f.name, {})
         if f.name.endswith("_free"):
             self.refuse("frees a handle")
-        if f.result not in ("void", "int", "long", "size_t", "double", "const char *"):
+        if f.result not in ("void", "int", "long", "size_t", "double", "const char *") \
+                and not self.makes:
             self.refuse("returns %s" % f.result)
         params = list(f.params)
         # the size and length of a text buffer, which the bindings give
         text = {n: role for role in roles.values() if role.startswith("text ")
                 for n in role.split()[1:]}
-        if any(p.base == "size_t" and not p.pointers and p.name not in text for p in params) \
+        # the length of a text read, which the bindings give: its string's
+        lengths = {role.split()[1]: param for param, role in roles.items()
+                   if role.startswith("bytes ")}
+        if any(p.base == "size_t" and not p.pointers and p.name not in text and
+               p.name not in lengths for p in params) \
                 and any(p.pointers and p.base[3:] not in HANDLES for p in params):
             self.refuse("a size_t sizes the memory of a pointer argument")
         counts = {role_count(role) for role in roles.values()} - {None}
@@ -407,7 +442,9 @@ class Binding:
             nxt = params[k + 1] if k + 1 < len(params) else None
             struct = header.struct(p.base)
             role = roles.get(p.name)
-            if p.name in text and p.base == "size_t" and \
+            if p.name in lengths and p.base == "size_t" and not p.pointers:
+                self.args.append(Arg("length", p.name, [p], count=lengths[p.name]))
+            elif p.name in text and p.base == "size_t" and \
                     p.pointers == (p.name == text[p.name].split()[2]):
                 self.args.append(Arg("text_part", p.name, [p]))
             elif role is not None and role.startswith("text ") and p.base == "char" and \
@@ -549,9 +586,10 @@ class Binding:
     @property
     def method(self):
         """The method's (or package function's) name: the C name without
-        kl_ and without the prefix of its handle or value struct."""
+        kl_ and without the prefix of its handle, the handle it makes or its
+        value struct."""
         name = self.name[3:]
-        prefix = self.handle or (self.owner.name[3:] if self.owner else None)
+        prefix = self.handle or self.makes or (self.owner.name[3:] if self.owner else None)
         if prefix and name.startswith(prefix + "_"):
             name = name[len(prefix) + 1:]
         return name
@@ -987,6 +1025,15 @@ def py_value_type(header, s, bs):
             "bool" if is_flag(fl) else {"double": "float"}.get(fl.ctype, "int")
         out.append("    %s: %s = %s" % (py_name(fl.name), kind,
                                         py_default(header, s, fl, defaults)))
+    named = [(fl, FIELD_NAMES[(s.name, fl.name)]) for fl in s.value_fields()
+             if (s.name, fl.name) in FIELD_NAMES]
+    if named:
+        out += ["", "    def __post_init__(self):",
+                "        # int fields whose values the header names in words"]
+        for fl, names in named:
+            out += ["        if self.%s in %r:" % (py_name(fl.name), names),
+                    "            object.__setattr__(self, %r, %r.index(self.%s))" % (
+                        py_name(fl.name), names, py_name(fl.name))]
     out.append("")
     out += py_kind_constructors(header, s, bs)
     for b in bs:
@@ -1120,12 +1167,21 @@ def octave_structs(header):
     out = ["/* ---- structs: C to Octave and back, field by field ---- */", ""]
     for s in header.structs:
         fields = s.value_fields()
+        named = {fl.name: "%s_%s_names" % (s.name, fl.name) for fl in fields
+                 if (s.name, fl.name) in FIELD_NAMES}
+        for fl in fields:
+            if fl.name in named:
+                out.append("const named_code %s[] = {" % named[fl.name])
+                out += ["    {%s, %d}," % (cpp_string(n), k)
+                        for k, n in enumerate(FIELD_NAMES[(s.name, fl.name)])]
+                out += ["    {nullptr, 0}};", ""]
         out.append("octave_scalar_map to_octave(const %s &s) {" % s.name)
         out.append("  octave_scalar_map m;")
         for fl in fields:
             e = field_enum(header, fl)
-            if e is not None:
-                value = "code_name(%s_names, s.%s)" % (e.name, fl.name)
+            if e is not None or fl.name in named:
+                value = "code_name(%s, s.%s)" % (named.get(fl.name, e and e.name + "_names"),
+                                                 fl.name)
             elif is_flag(fl):
                 value = "s.%s != 0" % fl.name
             elif fl.length is not None:
@@ -1157,8 +1213,8 @@ def octave_structs(header):
                 out.append("    from_octave(c, v.contents(%s)(k).map_value(), 0, what + "
                            "\".%s\", s.%s, all);" % (cpp_string(fl.name), fl.name, fl.name))
                 continue
-            if e is not None:
-                conv = "c.code(%s, %s_names)" % (arg, e.name)
+            if e is not None or fl.name in named:
+                conv = "c.code(%s, %s)" % (arg, named.get(fl.name, e and e.name + "_names"))
             elif fl.length is not None:
                 conv = None
             elif fl.ctype == "double":
@@ -1199,6 +1255,9 @@ def octave_wrapper(header, b):
             continue
         if a.kind == "text_part":
             call_args.append("%s.size()" % b.text.name if a.name == b.text.count else "&" + n)
+            continue
+        if a.kind == "length":
+            call_args.append("%s.size()" % a.count)
             continue
         if a.kind == "error_out":
             lines.append("  %s %s = %s();" % (a.struct.name, n, a.struct.name))
@@ -1358,16 +1417,31 @@ def octave_wrapper(header, b):
         if b.f.result == "void":
             lines.append("  %s;" % call)
         elif not b.grows:
-            lines.append("  %s r = %s;" % (b.f.result, call))
-        if b.f.result in ("int", "long"):
+            lines.append("  %s%sr = %s;" % (b.f.result, "" if b.f.result.endswith("*") else " ",
+                                              call))
+        if b.makes and b.error is not None:
+            # with one output more asked for, a failure is that output
+            lines += ["  if (r == nullptr && c.nargout < 2)",
+                      "    c.check(%s.status, %s);" % (b.error.name, b.error.name)]
+            outs.append("to_octave(%s)" % b.error.name)
+        elif b.makes:
+            lines += ["  if (r == nullptr)",
+                      "    raise_status(KL_ENOMEM, %s);" % cpp_string(b.command +
+                                                             ": out of memory")]
+        if b.makes:
+            lines += ["  entry e;", "  e.%s = r;" % b.makes]
+            # NULL (a failure given as the report) is []
+            outs.insert(0, ("r == nullptr ? octave_value(Matrix()) : " if b.error else "") +
+                        "octave_value(new_id(kind::%s, e))" % b.makes)
+        elif b.f.result in ("int", "long"):
             error = "kl_%s_error" % b.handle
             if b.error is not None:
-                lines.append("  c.check(r, %s.message);" % b.error.name)
+                lines.append("  c.check(r, %s);" % b.error.name)
             elif b.handle and not b.handle_const and header.function(error):
                 lines.append("  c.check(r, %s(h.%s));" % (error, b.handle))
             else:
                 lines.append("  c.check(r);")
-        if b.value_result:
+        if b.value_result and not b.makes:
             outs.insert(0, "code_name(%s_names, r)" % b.enum.name if b.enum else
                         "octave_value(r != 0)" if b.boolean else
                         "text_value(r)" if b.f.result == "const char *" else
@@ -1439,7 +1513,7 @@ def octave_gateway(header):
     out += ["/* ---- the plain functions: one command each ---- */", ""]
     table = []
     for b in bs:
-        if not b.plain:
+        if not (b.plain or b.makes):
             continue
         lines, count = octave_wrapper(header, b)
         out += lines
@@ -1480,7 +1554,7 @@ def octave_method(b, obj=True):
     head = "function %s%s(%s)" % ("varargout = " if outputs else "", name,
                                   ", ".join(params))
     lines = [head, "  %% %s: %s" % (usage, b.name)]
-    lines += ["  %% " + l if l else "  %" for l in doc]
+    lines += ["  % " + l if l else "  %" for l in doc]
     if b.vectorized:
         lines.append("  %% (%s may be a vector of ids: one value each, same shape)" %
                      ins[0].name)
@@ -1491,6 +1565,30 @@ def octave_method(b, obj=True):
         lines.append("  %s;" % call)
     lines.append("end")
     return lines
+
+
+def octave_maker(b):
+    """A maker taking arguments (a reader) as a static method of its class:
+    the new handle wrapped as kinloop.<Class>('adopt', id). With one output
+    more asked for, the gateway gives its failure report instead of raising."""
+    ins = octave_inputs(b)
+    names = [a.name for a in ins]
+    forward = [repr(b.command)] + [a.name + ".id" if a.kind == "handle_in" else a.name
+                                   for a in ins]
+    report = ", %s" % b.error.name if b.error else ""
+    lines = ["function [obj%s] = %s(%s)" % (", varargout" if b.error else "", b.method,
+                                            ", ".join(names)),
+             "  %% [obj%s] = %s(%s): %s" % (report, b.method, ", ".join(names), b.name)]
+    lines += ["  % " + l if l else "  %" for l in b.f.doc.splitlines()]
+    if b.error:
+        lines += ["  %% With two outputs a failure does not raise: obj is [] and %s "
+                  "says why" % b.error.name,
+                  "  %% (%s)." % ", ".join(f.name for f in b.error.struct.value_fields()),
+                  "  [id, varargout{1:nargout - 1}] = __kinloop__(%s);" % ", ".join(forward)]
+    else:
+        lines.append("  id = __kinloop__(%s);" % ", ".join(forward))
+    return lines + ["  obj = [];", "  if ~isempty(id)",
+                    "    obj = kinloop.%s('adopt', id);" % camel(b.makes), "  end", "end"]
 
 
 def octave_classes(header, out_dir):
@@ -1524,7 +1622,15 @@ def octave_classes(header, out_dir):
         for b in bs:
             if b.plain and b.handle == h:
                 lines += ["    " + l for l in octave_method(b)] + [""]
-        lines += ["  end", "end", ""]
+        lines.append("  end")
+        # a maker without arguments is the class constructor's to call
+        makers = [b for b in bs if b.makes == h and octave_inputs(b)]
+        if makers:
+            lines += ["", "  methods (Static)"]
+            for b in makers:
+                lines += ["    " + l for l in octave_maker(b)] + [""]
+            lines.append("  end")
+        lines += ["end", ""]
         write(os.path.join(package, name + ".m"), "\n".join(lines))
     for b in bs:
         if b.plain and b.handle is None:

@@ -3,8 +3,8 @@
  * command (a kl_ name without its prefix) and its arguments. The plain
  * functions' commands are generated (kinloop_gateway.inc); this file holds
  * the handle table, the argument rule, and the commands the generator
- * leaves to hand code: lifetimes, model and study files, assembly modes,
- * sweeps, the force figures over a cycle, and study runs.
+ * leaves to hand code: freeing, solvers' making, assembly modes, sweeps,
+ * the force figures over a cycle, and study runs.
  */
 #include "gateway.h"
 
@@ -38,12 +38,6 @@ int new_id(kind what, const entry &e) {
   r.live[id] = e;
   r.live[id].what = what;
   return id;
-}
-
-int adopt_model(kl_model *m) {
-  entry e;
-  e.model = m;
-  return new_id(kind::model, e);
 }
 
 void raise(const std::string &id, const std::string &message) {
@@ -86,36 +80,26 @@ static octave_value enum_table(const named_code *table) {
 
 /* ---- the argument rule ---- */
 
+/* Whether a double holds an integer exactly. */
+static bool exact(double, double) { return true; }
 static bool exact(double d, int64_t n) {
   return d >= -9223372036854775808.0 && d < 9223372036854775808.0 &&
          static_cast<int64_t>(d) == n;
+}
+static bool exact(double d, uint64_t u) {
+  return d < 18446744073709551616.0 && static_cast<uint64_t>(d) == u;
 }
 
 std::vector<double> call::reals(const octave_value &v, const std::string &what) const {
   if (!(v.isnumeric() || v.islogical()) || v.iscomplex())
     bad(what, "must be real numbers");
   std::vector<double> out;
-  if (v.is_uint64_type()) {
-    uint64NDArray a = v.uint64_array_value();
-    for (octave_idx_type k = 0; k < a.numel(); k++) {
-      uint64_t u = a(k).value();
-      double d = static_cast<double>(u);
-      if (!(d < 18446744073709551616.0 && static_cast<uint64_t>(d) == u))
-        bad(what, "holds " + std::to_string(u) + ", which a double cannot hold exactly");
-      out.push_back(d);
-    }
-  } else if (v.isinteger()) {
-    int64NDArray a = v.int64_array_value();
-    for (octave_idx_type k = 0; k < a.numel(); k++) {
-      int64_t n = a(k).value();
-      if (!exact(static_cast<double>(n), n))
-        bad(what, "holds " + std::to_string(n) + ", which a double cannot hold exactly");
-      out.push_back(static_cast<double>(n));
-    }
-  } else {
-    NDArray a = v.array_value();
-    out.assign(a.data(), a.data() + a.numel());
-  }
+  out.reserve(static_cast<size_t>(v.numel()));
+  each_number(v, [&](octave_idx_type, auto x) {
+    if (!exact(static_cast<double>(x), x))
+      bad(what, "holds " + std::to_string(x) + ", which a double cannot hold exactly");
+    out.push_back(static_cast<double>(x));
+  });
   return out;
 }
 
@@ -284,6 +268,15 @@ void call::check(int status, const char *message) const {
   raise_status(status, name + "(" + args + "): " + kl_status_str(status));
 }
 
+void call::check(int status, const kl_io_error &e) const {
+  if (status >= 0)
+    return;
+  std::string msg = e.message[0] != '\0' ? e.message : kl_status_str(status);
+  raise_status(status, e.line > 0 ? "line " + str(e.line) + ", column " + str(e.column) +
+                                        ": " + msg
+                                  : msg);
+}
+
 static octave_value row(const double *v, int n) {
   RowVector out(n);
   for (int k = 0; k < n; k++)
@@ -324,15 +317,8 @@ static octave_value text_value(const char *text) {
 namespace {
 
 /* ------------------------------------------------------------------------
- * Models: lifetime, loops, model files
+ * Models: letting go
  * ------------------------------------------------------------------------ */
-
-octave_value_list cmd_model_new(const call &) {
-  kl_model *m = kl_model_new();
-  if (m == nullptr)
-    raise_status(KL_ENOMEM, "model_new: out of memory");
-  return one(adopt_model(m));
-}
 
 /* Lets go of the model; its solvers and studies keep it (kl_model_free).
  * For a study's model it ends the handle only: the model is the study's. */
@@ -342,48 +328,6 @@ octave_value_list cmd_model_free(const call &c) {
     kl_model_free(m.model);
   table().live.erase(c.whole<int>(c.arg(0), "model id"));
   return none();
-}
-
-/* A model or study read, or the reason it was not: raised, or with two
- * outputs returned as ([], error struct). */
-template <typename T>
-octave_value_list read_result(const call &c, T *made, int (*adopt)(T *),
-                              const kl_io_error &e) {
-  octave_value_list out;
-  if (made == nullptr && c.nargout < 2) {
-    std::string msg = e.message[0] != '\0' ? e.message : kl_status_str(e.status);
-    raise_status(e.status, e.line > 0 ? "line " + str(e.line) + ", column " +
-                                            str(e.column) + ": " + msg
-                                      : msg);
-  }
-  out(0) = made == nullptr ? octave_value(Matrix()) : octave_value(adopt(made));
-  out(1) = to_octave(e);
-  return out;
-}
-
-kl_io_error io_error() {
-  kl_io_error e;
-  std::memset(&e, 0, sizeof e);
-  e.size = sizeof e;
-  return e;
-}
-
-std::string text_arg(const call &c, int i) {
-  if (c.arg(i).isempty() && c.arg(i).is_string())
-    return std::string();
-  return c.text(c.arg(i), "text");
-}
-
-octave_value_list cmd_model_read(const call &c) {
-  std::string text = text_arg(c, 0);
-  kl_io_error e = io_error();
-  return read_result(c, kl_model_read(text.data(), text.size(), &e), adopt_model, e);
-}
-
-octave_value_list cmd_model_read_file(const call &c) {
-  std::string path = c.text(c.arg(0), "path");
-  kl_io_error e = io_error();
-  return read_result(c, kl_model_read_file(path.c_str(), &e), adopt_model, e);
 }
 
 /* ------------------------------------------------------------------------
@@ -434,18 +378,46 @@ octave_value_list cmd_solver_model(const call &c) {
   return one(c.solver(0, access::read).model_id);
 }
 
+/* Solvers the gateway made and has not handed out yet: freed unless adopted. */
+struct new_solvers : std::vector<kl_solver *> {
+  ~new_solvers() {
+    for (kl_solver *s : *this)
+      kl_solver_free(s);
+  }
+};
+
+/* The assembly modes at the inputs as new solvers of the solver's model,
+ * with its options, each at a solved position (as Python gives them); the
+ * search is repeated when they are more than the solvers made for it. */
 octave_value_list cmd_find_assemblies(const call &c) {
   entry &s = c.solver(0);
   int n = kl_model_input_count(s.model);
   std::vector<double> u = c.values(1, n, "inputs");
-  std::vector<kl_solver *> modes;
-  for (int id : c.given(2) ? c.wholes<int>(c.arg(2), "modes") : std::vector<int>())
-    modes.push_back(c.lookup(id, kind::solver, access::write).solver);
-  int found = kl_solver_find_assemblies(s.solver, n > 0 ? u.data() : nullptr,
-                                        modes.empty() ? nullptr : modes.data(),
-                                        static_cast<int>(modes.size()));
-  c.check(found, kl_solver_error(s.solver));
-  return one(found);
+  kl_options o = kl_options();
+  o.size = sizeof o;
+  c.check(kl_solver_options(s.solver, &o));
+  new_solvers modes;
+  int found = 8;
+  while (static_cast<int>(modes.size()) < found) {
+    while (static_cast<int>(modes.size()) < found) {
+      modes.push_back(kl_solver_new(s.model));
+      if (modes.back() == nullptr || kl_solver_set_options(modes.back(), &o) < 0)
+        raise_status(KL_ENOMEM, c.name + ": out of memory");
+    }
+    found = kl_solver_find_assemblies(s.solver, n > 0 ? u.data() : nullptr, modes.data(),
+                                      static_cast<int>(modes.size()));
+    c.check(found, kl_solver_error(s.solver));
+  }
+  RowVector ids(found);
+  for (int k = 0; k < found; k++) {
+    entry e;
+    e.model = s.model;
+    e.solver = modes[k];
+    e.model_id = s.model_id;
+    ids(k) = new_id(kind::solver, e);
+    modes[k] = nullptr; /* the table's now */
+  }
+  return one(ids);
 }
 
 /* ---- sweeps ---- */
@@ -649,27 +621,6 @@ octave_value_list cmd_cycle_table(const call &c) {
  * Design studies
  * ------------------------------------------------------------------------ */
 
-int adopt_study(kl_study *st) {
-  entry e;
-  e.study = st;
-  return new_id(kind::study, e);
-}
-
-/* A study read against a model the caller holds: the study holds it too
- * (the library counts its holders), so the caller may free it at once. */
-octave_value_list cmd_study_read(const call &c) {
-  std::string text = text_arg(c, 0);
-  entry &m = c.model(1, access::read);
-  kl_io_error e = io_error();
-  return read_result(c, kl_study_read(text.data(), text.size(), m.model, &e), adopt_study, e);
-}
-
-octave_value_list cmd_study_read_file(const call &c) {
-  std::string path = c.text(c.arg(0), "path");
-  kl_io_error e = io_error();
-  return read_result(c, kl_study_read_file(path.c_str(), &e), adopt_study, e);
-}
-
 /* The study's borrowed model handle goes with it; solvers made from that
  * handle keep working (the library keeps the model for them). */
 octave_value_list cmd_study_free(const call &c) {
@@ -750,15 +701,6 @@ octave_value_list cmd_handles(const call &) {
 
 octave_value_list cmd_commands(const call &);
 
-/* Cams: a handle of their own, no model. */
-octave_value_list cmd_cam_new(const call &) {
-  entry e;
-  e.cam = kl_cam_new();
-  if (e.cam == nullptr)
-    raise_status(KL_ENOMEM, "cam_new: out of memory");
-  return one(octave_value(new_id(kind::cam, e)));
-}
-
 octave_value_list cmd_cam_free(const call &c) {
   kl_cam_free(c.cam(0).cam);
   table().live.erase(c.whole<int>(c.arg(0), "cam id"));
@@ -769,23 +711,17 @@ const command hand_commands[] = {
     {"commands", 0, 0, "()", cmd_commands},
     {"handles", 0, 0, "()", cmd_handles},
     {"status_name", 1, 1, "(status)", cmd_status_name},
-    {"model_new", 0, 0, "()", cmd_model_new},
     {"model_free", 1, 1, "(model)", cmd_model_free},
-    {"model_read", 1, 1, "(text)", cmd_model_read},
-    {"model_read_file", 1, 1, "(path)", cmd_model_read_file},
     {"solver_new", 1, 1, "(model)", cmd_solver_new<false>},
     {"solver_new_in", 1, 1, "(model)", cmd_solver_new<true>},
     {"solver_free", 1, 1, "(solver)", cmd_solver_free},
     {"solver_model", 1, 1, "(solver)", cmd_solver_model},
-    {"solver_find_assemblies", 2, 3, "(solver, inputs, [mode_solvers])", cmd_find_assemblies},
+    {"solver_find_assemblies", 2, 2, "(solver, inputs)", cmd_find_assemblies},
     {"solver_sweep", 5, 6, "(solver, input, from, to, steps, [callback])", cmd_sweep},
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
-    {"study_read", 2, 2, "(text, model)", cmd_study_read},
-    {"study_read_file", 1, 1, "(path)", cmd_study_read_file},
     {"study_free", 1, 1, "(study)", cmd_study_free},
     {"study_model", 1, 1, "(study)", cmd_study_model},
     {"study_run", 3, 4, "(study, first, count, [threads])", cmd_study_run},
-    {"cam_new", 0, 0, "()", cmd_cam_new},
     {"cam_free", 1, 1, "(cam)", cmd_cam_free},
     {nullptr, 0, 0, nullptr, nullptr}};
 

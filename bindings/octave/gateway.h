@@ -50,7 +50,6 @@ struct registry {
 registry &table();
 const char *kind_name(kind k);
 int new_id(kind what, const entry &e);
-int adopt_model(kl_model *m);
 
 /* Errors raise 'kinloop:<status name>': the library's own message for its
  * failures, EINVAL for arguments the rule refuses, ESTATE for a change
@@ -96,7 +95,7 @@ public:
   template <typename T> T whole(const octave_value &v, const std::string &what) const {
     if (!real_scalar(v))
       bad(what, "must be an integer (a real scalar)");
-    return whole_of<T>(v, what);
+    return wholes<T>(v, what)[0];
   }
   template <typename T>
   std::vector<T> wholes(const octave_value &v, const std::string &what) const;
@@ -141,13 +140,14 @@ public:
   /* A failed call raises its status with `message`, or, for calls that
    * leave none (getters on a const handle), the command and its arguments. */
   void check(int status, const char *message = nullptr) const;
+  /* A failure reported in a kl_io_error, its place (line, column) first. */
+  void check(int status, const kl_io_error &e) const;
 
 private:
   const octave_value_list &args_;
   static bool real_scalar(const octave_value &v) {
     return (v.isnumeric() || v.islogical()) && !v.iscomplex() && v.numel() == 1;
   }
-  template <typename T> T whole_of(const octave_value &v, const std::string &what) const;
 };
 
 /* Integer classes are read exactly (int64 beyond 2^53 too); doubles must be
@@ -188,14 +188,23 @@ template <typename T> struct whole_rule {
   }
 };
 
-template <typename T>
-T call::whole_of(const octave_value &v, const std::string &what) const {
-  whole_rule<T> rule{*this, what};
-  if (v.is_uint64_type())
-    return rule.of(static_cast<uint64_t>(v.uint64_scalar_value().value()));
-  if (v.isinteger())
-    return rule.of(static_cast<int64_t>(v.int64_scalar_value().value()));
-  return rule.of(v.double_value());
+/* Each element k of a real array as its class holds it: uint64_t, int64_t
+ * (the other integer classes) or double. */
+template <typename F> void each_number(const octave_value &v, F f) {
+  octave_idx_type n = v.numel();
+  if (v.is_uint64_type()) {
+    uint64NDArray a = v.uint64_array_value();
+    for (octave_idx_type k = 0; k < n; k++)
+      f(k, static_cast<uint64_t>(a(k).value()));
+  } else if (v.isinteger()) {
+    int64NDArray a = v.int64_array_value();
+    for (octave_idx_type k = 0; k < n; k++)
+      f(k, static_cast<int64_t>(a(k).value()));
+  } else {
+    NDArray a = v.array_value();
+    for (octave_idx_type k = 0; k < n; k++)
+      f(k, a(k));
+  }
 }
 
 template <typename T>
@@ -203,25 +212,11 @@ std::vector<T> call::wholes(const octave_value &v, const std::string &what) cons
   if (!(v.isnumeric() || v.islogical()) || v.iscomplex())
     bad(what, "must be an integer or a vector of integers");
   std::vector<T> out;
-  octave_idx_type n = v.numel();
   /* element k as its own argument, named what(k) in a vector */
-  auto each = [&](octave_idx_type k, auto value) {
-    std::string at = n > 1 ? what + "(" + std::to_string(k + 1) + ")" : what;
+  each_number(v, [&](octave_idx_type k, auto value) {
+    std::string at = v.numel() > 1 ? what + "(" + std::to_string(k + 1) + ")" : what;
     out.push_back(whole_rule<T>{*this, at}.of(value));
-  };
-  if (v.is_uint64_type()) {
-    uint64NDArray a = v.uint64_array_value();
-    for (octave_idx_type k = 0; k < n; k++)
-      each(k, static_cast<uint64_t>(a(k).value()));
-  } else if (v.isinteger()) {
-    int64NDArray a = v.int64_array_value();
-    for (octave_idx_type k = 0; k < n; k++)
-      each(k, static_cast<int64_t>(a(k).value()));
-  } else {
-    NDArray a = v.array_value();
-    for (octave_idx_type k = 0; k < n; k++)
-      each(k, a(k));
-  }
+  });
   return out;
 }
 

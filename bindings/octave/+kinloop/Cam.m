@@ -16,13 +16,5 @@ classdef Cam < kinloop.CamMethods
     function obj = Cam()
       obj.id = __kinloop__('cam_new');
     end
-
-    function delete(obj)
-      % Frees the cam (once; later calls do nothing).
-      if ~obj.freed && ~isempty(obj.id)
-        __kinloop__('cam_free', obj.id);
-        obj.freed = true;
-      end
-    end
   end
 end

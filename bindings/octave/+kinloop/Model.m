@@ -24,7 +24,8 @@ classdef Model < kinloop.ModelMethods
   methods
     function obj = Model(how, id, owner)
       % Model(), or Model('adopt', id [, study]) for a handle the gateway
-      % already holds (what read, read_file and Study.model use).
+      % already holds (what read, read_file and Study.model use; read and
+      % read_file come from kinloop.ModelMethods, generated).
       if nargin == 0
         obj.id = __kinloop__('model_new');
       elseif nargin >= 2 && ischar(how) && strcmp(how, 'adopt')
@@ -54,48 +55,8 @@ classdef Model < kinloop.ModelMethods
     function loads = loads(obj)
       % The loads the model records (kl_model_load) as a struct array, in
       % order: what Solver.cycle_summarize(m.loads(), m.cycle()) takes.
-      loads = [];
-      for k = 0:obj.load_count() - 1
-        if isempty(loads)
-          loads = obj.load(k);
-        else
-          loads(end + 1) = obj.load(k);
-        end
-      end
-    end
-  end
-
-  methods (Static)
-    function [m, err] = read(text)
-      % m = kinloop.Model.read(text): a finalized model from model-file text;
-      % raises kinloop:ESYNTAX etc. with 'line L, column C: ...'. With two
-      % outputs it does not raise: m is [] and err says why (status, line,
-      % column, message).
-      [m, err] = kinloop.Model.adopt_read(nargout, @kinloop.Model, 'model_read', text);
-    end
-
-    function [m, err] = read_file(path)
-      % As read, from the file at path (kinloop:EIO when it cannot be read).
-      [m, err] = kinloop.Model.adopt_read(nargout, @kinloop.Model, 'model_read_file', path);
-    end
-  end
-
-  methods (Static, Hidden)
-    function [obj, err] = adopt_read(nout, class_ctor, command, varargin)
-      % Runs a reading command of the gateway and wraps the handle it gives
-      % with class_ctor('adopt', id). The gateway raises a reading error
-      % unless the caller asked for it as a second output (nout >= 2); then
-      % a failed read gives obj = [] and the error struct in err.
-      err = [];
-      if nout < 2
-        id = __kinloop__(command, varargin{:});
-      else
-        [id, err] = __kinloop__(command, varargin{:});
-      end
-      obj = [];
-      if ~isempty(id)
-        obj = class_ctor('adopt', id);
-      end
+      each = arrayfun(@(k) obj.load(k), 0:obj.load_count() - 1, 'UniformOutput', false);
+      loads = [each{:}];
     end
   end
 end

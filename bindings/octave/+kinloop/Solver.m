@@ -21,7 +21,12 @@ classdef Solver < kinloop.SolverMethods
   end
 
   methods
-    function obj = Solver(model, where)
+    function obj = Solver(model, where, its_model)
+      % Solver('adopt', id, its_model) wraps a solver the gateway made.
+      if ischar(model) && strcmp(model, 'adopt')
+        [obj.id, obj.model] = deal(where, its_model);
+        return
+      end
       if ~isa(model, 'kinloop.Model') && ~isa(model, 'kinloop.Solver')
         error('kinloop:EINVAL', 'kinloop.Solver: the argument must be a kinloop.Model or Solver');
       end
@@ -44,44 +49,25 @@ classdef Solver < kinloop.SolverMethods
     end
 
     function set_options(obj, varargin)
-      % set_options(struct) or set_options('name', value, ...): changes the
-      % fields given (tolerance, step_tolerance, max_iterations,
+      % set_options(struct) or set_options('name', value, ...), or both:
+      % changes the fields given (tolerance, step_tolerance, max_iterations,
       % max_backtracks, max_step, singular_rcond, and kernel: 'auto',
       % 'small', 'dense' or 'banded') and keeps the others.
-      if numel(varargin) == 1
-        given = varargin{1};
-      else
-        given = struct(varargin{:});
-      end
       o = obj.options();
-      for name = fieldnames(given).'
-        if ~isfield(o, name{1})
-          error('kinloop:EINVAL', 'solver_set_options: options have no field ''%s'' (fields: %s)', ...
-                name{1}, strjoin(fieldnames(o).', ', '));
-        end
+      given = kinloop.Solver.fields_of(varargin);
+      for name = fieldnames(given).'   % the gateway refuses unknown fields
         o.(name{1}) = given.(name{1});
       end
-      __kinloop__('solver_set_options', obj.id, o);
+      set_options@kinloop.SolverMethods(obj, o);
     end
 
     % ---- assembly modes and sweeps ----
 
-    function n = find_assemblies(obj, inputs, modes)
-      % n = find_assemblies(inputs [, modes]): the number of distinct
-      % assembly modes at inputs; the first numel(modes) are written into
-      % the solvers of the cell array modes.
-      if nargin < 3 || isempty(modes)
-        n = __kinloop__('solver_find_assemblies', obj.id, inputs);
-      else
-        n = __kinloop__('solver_find_assemblies', obj.id, inputs, cellfun(@(m) m.id, modes));
-      end
-    end
-
-    function modes = assemblies(obj, inputs)
-      % A cell array of new solvers, one per assembly mode at inputs.
-      modes = arrayfun(@(k) kinloop.Solver(obj), 1:obj.find_assemblies(inputs), ...
-                       'UniformOutput', false);
-      obj.find_assemblies(inputs, modes);
+    function modes = find_assemblies(obj, inputs)
+      % The assembly modes at inputs: a cell array of new solvers, each at a
+      % solved position (with this solver's options); this one keeps its state.
+      modes = arrayfun(@(id) kinloop.Solver('adopt', id, obj.model), ...
+                       __kinloop__('solver_find_assemblies', obj.id, inputs), 'UniformOutput', false);
     end
 
     function r = sweep(obj, input, from, to, steps, fn)
@@ -129,7 +115,7 @@ classdef Solver < kinloop.SolverMethods
       % mean, rms) per input, its effort; joints: one per joint, the
       % magnitude of its force.
       [summary, inputs, joints] = __kinloop__('cycle_summarize', obj.id, ...
-                                              kinloop.Solver.cycle_of(varargin), loads);
+                                              kinloop.Solver.fields_of(varargin), loads);
     end
 
     function w = workspace(obj, point, varargin)
@@ -143,7 +129,7 @@ classdef Solver < kinloop.SolverMethods
       % or 'fold', the stretch from each vertex). The solver keeps its
       % state.
       [xy, curve, kind, w] = workspace@kinloop.SolverMethods(obj, point, ...
-                                                             kinloop.Solver.cycle_of(varargin));
+                                                             kinloop.Solver.fields_of(varargin));
       w.xy = xy;
       w.curve = curve;
       w.kind = kind;
@@ -159,49 +145,24 @@ classdef Solver < kinloop.SolverMethods
       % (kl_ground_force), kinetic_energy, work (the driven input's work
       % since the first sample); and rows, the C rows whole. A cycle
       % stopped by a motion limit has the samples it reached.
-      t = __kinloop__('cycle_table', obj.id, kinloop.Solver.cycle_of(varargin), loads);
-    end
-
-    % ---- design figures: a dimension's axis may be 'x' or 'y' ----
-
-    function d = output_sensitivity(obj, o, dim)
-      % d output / d dimension (kl_output_sensitivity); dim: struct('kind',
-      % 'joint_a' | 'joint_b' | 'point', 'id', id, 'axis', 'x' | 'y' or 0 | 1).
-      d = output_sensitivity@kinloop.SolverMethods(obj, o, kinloop.Solver.axes(dim));
-    end
-
-    function [worst, rss] = output_tolerance_stack(obj, o, dims, tolerances)
-      % Worst case and root-sum-square stack-up (kl_output_tolerance_stack)
-      % over the dimensions dims (axes as for output_sensitivity).
-      [worst, rss] = output_tolerance_stack@kinloop.SolverMethods(obj, o, ...
-                                                                 kinloop.Solver.axes(dims), tolerances);
+      t = __kinloop__('cycle_table', obj.id, kinloop.Solver.fields_of(varargin), loads);
     end
   end
 
   methods (Static, Access = private)
-    function c = cycle_of(given)
-      % A cycle struct from a struct, name-value pairs replacing its fields
-      % (or making one), or nothing ([]: the defaults).
+    function c = fields_of(given)
+      % A struct (a cycle, options) from a struct, name-value pairs
+      % replacing its fields (or making one), or nothing ([]: the defaults).
       c = [];
       if ~isempty(given) && isstruct(given{1})
         c = given{1};
         given = given(2:end);
       end
       if mod(numel(given), 2) ~= 0 || ~all(cellfun(@ischar, given(1:2:end)))
-        error('kinloop:EINVAL', ['cycle: give a struct of kl_cycle''s fields, ' ...
-                                 'name-value pairs, or both']);
+        error('kinloop:EINVAL', 'give a struct of the fields, name-value pairs, or both');
       end
       for k = 1:2:numel(given)
         c.(given{k}) = given{k + 1};
-      end
-    end
-
-    function dims = axes(dims)
-      % Dimensions with their axis 'x' or 'y' given as kl_dimension's 0 or 1.
-      for k = 1:numel(dims)
-        if isfield(dims, 'axis') && ischar(dims(k).axis)
-          dims(k).axis = find(strcmp(dims(k).axis, {'x', 'y'})) - 1;
-        end
       end
     end
   end

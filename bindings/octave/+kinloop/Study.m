@@ -3,10 +3,10 @@ classdef Study < kinloop.StudyMethods
   % vary (tolerances drawn at random, or a grid), the outputs judged and
   % their limits; read from a study file, immutable once read.
   %
-  %   st = kinloop.Study.read(text [, base_dir])   its 'model' file is read
-  %                                                relative to base_dir (default:
-  %                                                the working directory)
-  %   st = kinloop.Study.read_file(path)           relative to the study file
+  %   st = kinloop.Study.read(text, model)   against a finalized kinloop.Model
+  %   st = kinloop.Study.read_file(path)     its 'model' file read relative to
+  %                                          the study file
+  % (read and read_file come from kinloop.StudyMethods, generated.)
   %
   % Samples are numbered from 0, as in C. [values, status, dims] = st.run()
   % gives one row per sample: values(i, k + 1) is output k (NaN where the
@@ -47,10 +47,11 @@ classdef Study < kinloop.StudyMethods
       m = kinloop.Model('adopt', __kinloop__('study_model', obj.id), obj);
     end
 
-    function [values, status, dims] = run(obj, first, count, threads)
-      % run([first [, count [, threads]]]): samples first .. first + count - 1
-      % (default: all of them from first) on threads threads (0, the
-      % default: all the cores). dims is computed only when asked for.
+    function varargout = run(obj, first, count, threads)
+      % [values, status, dims] = run([first [, count [, threads]]]): samples
+      % first .. first + count - 1 (default: all of them from first) on
+      % threads threads (0, the default: all the cores). dims is computed
+      % only when asked for.
       if nargin < 2
         first = 0;
       end
@@ -60,11 +61,7 @@ classdef Study < kinloop.StudyMethods
       if nargin < 4
         threads = 0;
       end
-      if nargout < 3
-        [values, status] = __kinloop__('study_run', obj.id, first, count, threads);
-      else
-        [values, status, dims] = __kinloop__('study_run', obj.id, first, count, threads);
-      end
+      [varargout{1:max(nargout, 1)}] = __kinloop__('study_run', obj.id, first, count, threads);
     end
 
     function s = summarize(obj, output, values, status)
@@ -81,26 +78,6 @@ classdef Study < kinloop.StudyMethods
         k = output;
       end
       s = summarize@kinloop.StudyMethods(obj, k, values, status);
-    end
-  end
-
-  methods (Static)
-    function [st, err] = read(text, model)
-      % st = kinloop.Study.read(text, model): the study text read against a
-      % finalized kinloop.Model whose items it names; it holds the model (the
-      % caller's may go). Solves nothing: call st.prepare() before run.
-      % Raises kinloop:ESYNTAX etc. with 'line L, column C: ...'; with two
-      % outputs it does not raise: st is [] and err says why (status, line,
-      % column, message).
-      if ~isa(model, 'kinloop.Model')
-        error('kinloop:EINVAL', 'kinloop.Study.read: the second argument must be a kinloop.Model');
-      end
-      [st, err] = kinloop.Model.adopt_read(nargout, @kinloop.Study, 'study_read', text, model.id);
-    end
-
-    function [st, err] = read_file(path)
-      % As read, from the file at path (kinloop:EIO when it cannot be read).
-      [st, err] = kinloop.Model.adopt_read(nargout, @kinloop.Study, 'study_read_file', path);
     end
   end
 end

@@ -42,7 +42,9 @@ octave_value_list made(kl_model *m, counting_alloc &a, const kl_io_error *e) {
     raise_status(e != nullptr && e->status != KL_OK ? e->status : KL_ENOMEM,
                  e != nullptr && e->message[0] ? e->message : "out of memory");
   }
-  return one(adopt_model(m));
+  entry held;
+  held.model = m;
+  return one(new_id(kind::model, held));
 }
 
 octave_value_list cmd_model_new_with_alloc(const call &c) {

@@ -46,7 +46,7 @@ end
 
 % the assembly modes at one crank angle are the closed form's two branches
 s = kinloop.Solver(f.m);
-modes = s.assemblies(1.0);
+modes = s.find_assemblies(1.0);
 assert(numel(modes) == 2, 'found %d assembly modes, the closed form has 2', numel(modes));
 found = cellfun(@(q) q.link_angle(f.rocker), modes);
 [~, t4p] = freudenstein(f, 1.0, 1);

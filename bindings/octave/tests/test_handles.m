@@ -38,7 +38,7 @@ end
 twin = kinloop.Solver(s);  % another solver of the same model
 twin.copy_state(s);
 assert(isequal(twin.link_angle(0:3), s.link_angle(0:3)));
-assert(numel(s.assemblies(1.0)) == 2, 'a crank-rocker assembles two ways');
+assert(numel(s.find_assemblies(1.0)) == 2, 'a crank-rocker assembles two ways');
 clear twin
 delete(s);
 gone = allocations(model_id);

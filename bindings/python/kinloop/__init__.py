@@ -29,13 +29,12 @@ from .model import Model
 from .raw import MissingFunctionError
 from .solver import Solver
 from .study import Study
-from .values import (CycleFigures, Dimension, Load, Output, StudyRun, SweepResult,
-                     Workspace)
+from .values import CycleFigures, Load, StudyRun, SweepResult, Workspace
 
 __version__ = "%d.%d.%d" % raw.VERSION
 library_path = raw.library_path
 library_version = raw.library_version
 
 __all__ = sorted(set(_api.__all__ + _header.__all__ + [
-    "Cam", "CycleFigures", "Dimension", "KinloopError", "Load", "MissingFunctionError", "Model", "Output", "Solver",
+    "Cam", "CycleFigures", "KinloopError", "Load", "MissingFunctionError", "Model", "Solver",
     "Study", "StudyRun", "SweepResult", "Workspace", "library_path", "library_version"]))

@@ -15,14 +15,11 @@ from ._args import array_of, refuse, to_int, with_fields
 from ._core import Handle, KinloopError, as_enum, value_of
 from ._header import MAX_STEPS, Status, WorkspaceKind
 from .model import row_layout
-from .values import Cycle, CycleFigures, SweepResult, Workspace, cycle_table_dtype
+from .values import CycleFigures, SweepResult, Workspace, cycle_table_dtype
 
 # Over-alignment for a solver placed in a Python buffer: the C side wants
 # malloc's alignment, which no ABI sets above this.
 _BLOCK_ALIGN = 64
-
-_DOUBLES = ctypes.POINTER(ctypes.c_double)
-
 
 def _free_solver(ptr, keepalive):
     raw.lib.kl_solver_free(ptr)
@@ -166,12 +163,12 @@ class Solver(_api.SolverMethods, Handle):
         outcome, raised = raw.kl_sweep_result(), []
         if callback is None:
             status = _api.kl_solver_sweep_rows(h, input, from_, to, steps,
-                                               table.ctypes.data_as(_DOUBLES),
+                                               table.ctypes.data_as(_api.DOUBLES),
                                                ctypes.byref(outcome))
         else:
             def on_step(s, step, value, user):
                 try:
-                    raw.lib.kl_solver_row(s, table[step].ctypes.data_as(_DOUBLES))
+                    raw.lib.kl_solver_row(s, table[step].ctypes.data_as(_api.DOUBLES))
                     return 1 if callback(self, step, value) else 0
                 except BaseException as e:  # a C caller cannot take exceptions
                     raised.append(e)
@@ -219,7 +216,7 @@ class Solver(_api.SolverMethods, Handle):
     def _cycle(function, cycle, fields):
         """The cycle (`cycle`, default Cycle(), with `fields` replacing
         fields by name)."""
-        return with_fields(cycle if cycle is not None else Cycle(), "Cycle", fields, function,
+        return with_fields(cycle if cycle is not None else _api.Cycle(), "Cycle", fields, function,
                            "cycle")
 
     def cycle_summarize(self, loads=(), cycle=None, **fields):
@@ -278,6 +275,6 @@ class Solver(_api.SolverMethods, Handle):
         table = np.zeros(steps + 1 if 1 <= steps <= MAX_STEPS else 1, dtype=dtype)
         done = ctypes.c_int()
         self._check(_api.kl_cycle_table(self._changing, c, count, loads,
-                                        table.ctypes.data_as(_DOUBLES),
+                                        table.ctypes.data_as(_api.DOUBLES),
                                         table.size * columns, ctypes.byref(done)))
         return table[:done.value]

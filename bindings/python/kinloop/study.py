@@ -4,7 +4,6 @@ arrays and summarized output by output. The plain getters are generated
 (kinloop._api.StudyMethods); this adds reading, lifetime, the model view,
 runs and summaries."""
 
-import ctypes
 import weakref
 
 import numpy as np
@@ -24,14 +23,6 @@ def _free_study(ptr, view_finalizers, hook):
     for close_view in list(view_finalizers):
         close_view()
     raw.lib.kl_study_free(ptr)
-
-
-def _doubles(array):
-    return array.ctypes.data_as(ctypes.POINTER(ctypes.c_double))
-
-
-def _ints(array):
-    return array.ctypes.data_as(ctypes.POINTER(ctypes.c_int))
 
 
 class Study(_api.StudyMethods, Handle):
@@ -164,8 +155,9 @@ class Study(_api.StudyMethods, Handle):
         dims = np.full((rows, self.dimension_count), np.nan)
         self._runs += 1
         try:
-            st = _api.kl_study_run(h, first, count, threads, _doubles(values),
-                                   _ints(status), _doubles(dims))
+            st = _api.kl_study_run(h, first, count, threads, values.ctypes.data_as(_api.DOUBLES),
+                                   status.ctypes.data_as(_api.INTS),
+                                   dims.ctypes.data_as(_api.DOUBLES))
         finally:
             self._runs -= 1
         if st < 0:

@@ -1,8 +1,7 @@
 """The value types: one frozen dataclass per struct of the header, generated
 (kinloop._api: its fields, the library's defaults where it has a defaults
 function, its kl_<struct>_<verb> methods), and what the bindings add to
-them: constructors of loads, axes of dimensions by name, and what sweeps
-and studies return."""
+them: constructors of loads, and what sweeps and studies return."""
 
 import dataclasses
 from typing import NamedTuple
@@ -12,11 +11,6 @@ import numpy as np
 from . import _api, raw
 from ._core import VALUE_TYPES, status_text
 from ._header import LoadKind
-
-Options, SolveStats, SweepSettings = _api.Options, _api.SolveStats, _api.SweepSettings
-Range, StudySummary = _api.Range, _api.StudySummary
-Cycle, CyclePeak, CycleSummary = _api.Cycle, _api.CyclePeak, _api.CycleSummary
-Output = _api.Output
 
 
 class Load(_api.Load):
@@ -32,17 +26,7 @@ class Load(_api.Load):
         return cls(LoadKind.TORQUE, link, torque=torque)
 
 
-@dataclasses.dataclass(frozen=True)
-class Dimension(_api.Dimension):
-    """kl_dimension: one local coordinate (axis 0 or "x", 1 or "y") of a
-    joint's attachment point on its link a or b, or of a point."""
-
-    def __post_init__(self):
-        if self.axis in ("x", "y"):
-            object.__setattr__(self, "axis", "xy".index(self.axis))
-
-
-VALUE_TYPES.update({raw.kl_load: Load, raw.kl_dimension: Dimension})
+VALUE_TYPES.update({raw.kl_load: Load})
 
 
 @dataclasses.dataclass(frozen=True, eq=False, kw_only=True)
@@ -88,7 +72,7 @@ class CycleFigures(NamedTuple):
     """What Solver.cycle_summarize computed (kl_cycle_summarize): the
     CycleSummary of the cycle, a CyclePeak per input (its effort) and a
     CyclePeak per joint (the magnitude of its force), in id order."""
-    summary: CycleSummary
+    summary: _api.CycleSummary
     inputs: list
     joints: list
 
