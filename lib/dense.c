@@ -82,7 +82,11 @@ void kli_dense_use(kli_dense *d, int kernel) {
 }
 
 void kli_dense_init(kli_dense *d, const double *colscale, int kernel) {
+  int i;
   memcpy(d->colscale, colscale, (size_t)d->p.n * sizeof(double));
+  d->unscaled = 1;
+  for (i = 0; i < d->p.n; i++)
+    d->unscaled &= colscale[i] == 1.0;
   memset(d->a, 0, (size_t)d->p.n * (size_t)d->p.n * sizeof(double));
   d->anorm = 0.0;
   place_values(d);
@@ -125,6 +129,14 @@ void kli_dense_load(kli_dense *d, const double *values) {
 
 void kli_dense_loaded(kli_dense *d) {
   int i, j, n = d->p.n;
+  if (n == 2) { /* four-bars and slider-cranks, unrolled */
+    double first = fabs(d->a[0]) + fabs(d->a[1]);
+    double second = fabs(d->a[2]) + fabs(d->a[3]);
+    d->anorm = first > 0.0 ? first : 0.0; /* a NaN sum counts as 0 */
+    if (second > d->anorm)
+      d->anorm = second;
+    return;
+  }
   d->anorm = 0.0;
   for (j = 0; j < n; j++) {
     double sum = 0.0;
@@ -531,7 +543,7 @@ void kli_dense_solve(const kli_dense *d, double *b) {
   default:
     LAPACKE_dgetrs_work(LAPACK_COL_MAJOR, 'N', n, 1, d->lu, n, d->ipiv, b, n);
   }
-  for (i = 0; i < n; i++)
+  for (i = 0; i < n && !d->unscaled; i++)
     b[i] *= d->colscale[i];
 }
 

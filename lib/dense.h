@@ -32,6 +32,8 @@ typedef struct {
    * units (slide columns times the model's scale), so that the condition
    * estimate does not depend on the unit of length. */
   double *colscale;
+  int unscaled;      /* every column scale is 1 (no slide columns): the
+                        solves skip the scaling pass */
   double *a;         /* the assembled, scaled matrix A D, column-major n x n
                         (not loaded for the banded kernel of a system
                         without damped steps) */

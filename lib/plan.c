@@ -127,6 +127,21 @@ void kli_plan_build(kli_plan *p, const kl_model *m, const int *moving_link,
   p->usable = 1;
 }
 
+void kli_plan_place(kli_plan *p, const kli_dense *d) {
+  int k, j;
+  for (k = 0; k < p->nmoving; k++) {
+    kli_flat_term *t = &p->terms[k];
+    if (t->pair < 0)
+      continue;
+    t->at[0] = d->a_at[2 * t->pair];
+    t->at[1] = d->a_at[2 * t->pair + 1];
+    t->first = 1;
+    for (j = 0; j < k; j++)
+      if (p->terms[j].pair == t->pair)
+        t->first = 0;
+  }
+}
+
 /* R(angle) v at the pose's trig. */
 static void rotated(const kli_flat_term *t, const kli_pose *pose,
                     double r[2]) {
@@ -202,20 +217,23 @@ void kli_plan_jacobian(const kli_plan *p, const kli_pose *pose,
 
 void kli_plan_load_small(const kli_plan *p, const kli_pose *pose,
                          kli_dense *d) {
+  double *a = d->a;
   int k;
-  for (k = 0; k < p->nmoving; k++) {
-    const kli_flat_term *t = &p->terms[k];
-    if (t->pair >= 0)
-      d->a[d->a_at[2 * t->pair]] = d->a[d->a_at[2 * t->pair + 1]] = 0.0;
-  }
   for (k = 0; k < p->nmoving; k++) {
     const kli_flat_term *t = &p->terms[k];
     double r[2];
     if (t->pair < 0)
       continue;
     rotated(t, pose, r);
-    d->a[d->a_at[2 * t->pair]] -= r[1];
-    d->a[d->a_at[2 * t->pair + 1]] += r[0];
+    /* 0 - r and 0 + r, not -r and r: the same values, signed zeros too,
+     * as adding to a zeroed entry gives */
+    if (t->first) {
+      a[t->at[0]] = 0.0 - r[1];
+      a[t->at[1]] = 0.0 + r[0];
+    } else {
+      a[t->at[0]] -= r[1];
+      a[t->at[1]] += r[0];
+    }
   }
   kli_dense_loaded(d);
 }

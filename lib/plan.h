@@ -14,9 +14,13 @@
 #include "memory.h"
 
 /* R(angle(link)) v added to loop rows (row, row + 1); `pair` is the
- * Jacobian pair of the link's unknown in that loop, or -1. */
+ * Jacobian pair of the link's unknown in that loop, or -1. For a pair,
+ * `at` are its two values' places in the small kernel's matrix and
+ * `first` is 1 for the pair's first term, which sets them rather than
+ * adding to them (kli_plan_place). */
 typedef struct {
-  int row, link, pair;
+  int row, link, pair, first;
+  size_t at[2];
   double v[2];
 } kli_flat_term;
 
@@ -62,6 +66,9 @@ void kli_plan_carve(kli_plan *p, kli_carver *c, const kl_model *m);
 void kli_plan_build(kli_plan *p, const kl_model *m, const int *moving_link,
                     const int *moving_var, int nmoving, double *x_scratch,
                     double *u_scratch);
+/* Takes the places of the Jacobian's values in d's matrix (after
+ * kli_dense_init), for kli_plan_load_small. */
+void kli_plan_place(kli_plan *p, const kli_dense *d);
 /* At the start of a solve whose inputs' share is in a->x: the cosine and
  * sine of every link no unknown turns (taken where their angle changed),
  * copied into pose b, and the fixed terms' sum. */

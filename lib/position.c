@@ -42,10 +42,10 @@
 static double scaled_norm(const kl_solver *s, const double *v) {
   const kl_model *m = s->model;
   double norm = 0.0, inv_scale = 1.0 / m->topo.scale;
-  int i;
+  int i, angles_only = s->plan.usable; /* a plan's unknowns are angles */
   for (i = 0; i < s->n; i++) {
     double a = fabs(v[i]);
-    if (m->topo.var_coord[i] >= m->nlinks)
+    if (!angles_only && m->topo.var_coord[i] >= m->nlinks)
       a *= inv_scale;
     if (!(a <= norm))
       norm = a; /* NaN propagates */
@@ -232,11 +232,12 @@ static void accept_trial(newton_iterate *it, double fnorm) {
   it->fnorm = fnorm;
 }
 
-/* Backtracking along dq until 0.5 |F|^2 decreases enough, down to a step
- * fraction alpha_min; 1 if a step was accepted. */
+/* Backtracking along dq until 0.5 |F|^2 (phi0 = its value at it->q)
+ * decreases enough, down to a step fraction alpha_min; 1 if a step was
+ * accepted. */
 static int line_search(kl_solver *s, newton_iterate *it, const double *dq,
-                       double slope, double alpha_min) {
-  double phi0 = half_square(it->f, s->n), alpha = 1.0;
+                       double phi0, double slope, double alpha_min) {
+  double alpha = 1.0;
   int back, i;
   for (back = 0; back <= s->opt.max_backtracks && alpha >= alpha_min;
        back++) {
@@ -282,16 +283,15 @@ static int damped_step(kl_solver *s, newton_iterate *it) {
 
 static int step_along(kl_solver *s, newton_iterate *it, double *dq,
                       double step, double alpha_min, int newton) {
-  double slope, shrink = 1.0;
+  double slope, shrink = 1.0, phi0 = half_square(it->f, s->n);
   int i;
   if (step > s->opt.max_step) {
     shrink = s->opt.max_step / step;
     for (i = 0; i < s->n; i++)
       dq[i] *= shrink;
   }
-  slope = newton ? -2.0 * shrink * half_square(it->f, s->n)
-                 : slope_along(s, it->f, dq);
-  return slope < 0.0 && line_search(s, it, dq, slope, alpha_min);
+  slope = newton ? -2.0 * shrink * phi0 : slope_along(s, it->f, dq);
+  return slope < 0.0 && line_search(s, it, dq, phi0, slope, alpha_min);
 }
 
 static int fail_stalled(kl_solver *s, const newton_iterate *it, int iters) {

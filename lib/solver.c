@@ -238,6 +238,8 @@ static kl_solver *place(const kl_model *m, void *block, size_t size,
   for (i = 0; i < s->n; i++)
     s->rhs[i] = m->topo.var_coord[i] < m->nlinks ? 1.0 : m->topo.scale;
   kli_dense_init(&s->dense, s->rhs, s->opt.kernel);
+  if (s->plan.usable)
+    kli_plan_place(&s->plan, &s->dense);
   /* moment columns of the force system (a prismatic joint's moment, a
    * revolute input's torque) are lengths times forces: scale them to
    * forces, as the moment rows are (docs/theory.md section 8) */
