@@ -233,6 +233,9 @@ double cli_column_resolution(const cli_model *cm, const cli_column *c);
 /* A value as printed: `raw` (library units) times `factor`, or exactly 0
  * when |raw| is below `resolution`, so rounding never shows as 1e-13. */
 double cli_shown(double raw, double factor, double resolution);
+/* The printf format of a written number: 17 significant digits (every bit
+ * of a double) with --all-digits, otherwise the command's own `plain`. */
+const char *cli_number_format(const cli_options *o, const char *plain);
 /* The resolutions of cli_column_resolution for a position: lengths (and
  * curve parameters) and angles. */
 double cli_length_resolution(const cli_model *cm);

@@ -12,7 +12,7 @@
 const char cli_follower_help[] =
     "usage: kinloop follower MODEL [--cam JOINT] [--input I] [--from V]\n"
     "                        [--to V] [--steps N] [--at V,...] [--charts DIR]\n"
-    "                        [-o FILE]\n"
+    "                        [--all-digits] [-o FILE]\n"
     "\n"
     "Sweeps the model (by default input 1 over a full turn, or the model's\n"
     "'sweep' line) and writes one CSV row per step: the swept input, then\n"
@@ -35,6 +35,8 @@ const char cli_follower_help[] =
     "                    if missing): for each cam the rise and its three\n"
     "                    derivatives (in time too with a speed line), and the\n"
     "                    pressure angle with its largest size marked\n"
+    "  --all-digits      write every number with 17 significant digits\n"
+    "                    (default 9)\n"
     "  -o, --output FILE write to FILE instead of standard output\n"
     "\n"
     "A model without a cam (and no --cam) exits with 3; a step that does not\n"
@@ -234,7 +236,7 @@ static int write_chart(const cli_model *cm, const run *r, int c,
 /* The CSV and (with --charts) the charts of the run's rows. */
 static int write_outputs(const cli_model *cm, const cli_options *o,
                          const run *r, int input, double speed, int timed) {
-  const char *format = "%.9g";
+  const char *format = cli_number_format(o, "%.9g");
   double *low = malloc((size_t)r->ncams * sizeof *low);
   int c, k, i, st = CLI_EXIT_OK;
   FILE *f;

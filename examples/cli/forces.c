@@ -499,7 +499,7 @@ int cli_cmd_forces(const cli_model *cm, const cli_options *o) {
                               &c)) != CLI_EXIT_OK)
     goto done;
   if (o->csv != NULL) {
-    const char *format = o->all_digits ? "%.17g" : "%.6g";
+    const char *format = cli_number_format(o, "%.6g");
     char name[400];
     int k;
     if ((f = cli_open_output(o->csv)) == NULL) {

@@ -341,7 +341,9 @@ static const struct {
     {"rate", 0, 1, BIT(CLI_SOLVE)},
     {"accel", 0, 1, BIT(CLI_SOLVE)},
     {"speed", 0, 1, BIT(CLI_SWEEP) | BIT(CLI_FORCES)},
-    {"all-digits", 0, 0, BIT(CLI_SWEEP) | BIT(CLI_FORCES) | BIT(CLI_SOLVE)},
+    {"all-digits", 0, 0,
+     BIT(CLI_SWEEP) | BIT(CLI_FORCES) | BIT(CLI_SOLVE) | BIT(CLI_TIMELINE) |
+         BIT(CLI_FOLLOWER)},
     {"poses", 0, 1, BIT(CLI_DRAW)},
     {"no-paths", 0, 0, BIT(CLI_DRAW)},
     {"show", 0, 1, BIT(CLI_PLOT)},

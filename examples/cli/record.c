@@ -143,6 +143,10 @@ double cli_shown(double raw, double factor, double resolution) {
   return fabs(raw) < resolution ? 0.0 : raw * factor;
 }
 
+const char *cli_number_format(const cli_options *o, const char *plain) {
+  return o->all_digits ? "%.17g" : plain;
+}
+
 typedef struct {
   cli_row_fn fn;
   void *user;

@@ -115,7 +115,7 @@ int cli_cmd_sweep(const cli_model *cm, const cli_options *o) {
   sink.factor = factor;
   sink.resolution = resolution;
   sink.nonfinite = -1;
-  sink.format = o->all_digits ? "%.17g" : "%.6g";
+  sink.format = cli_number_format(o, "%.6g");
   st = cli_record(s, cm, &r, put_row, &sink, &res);
   if (st == KL_ENOMEM) {
     cli_error("out of memory");

@@ -12,7 +12,7 @@
 const char cli_timeline_help[] =
     "usage: kinloop timeline [MODEL] [--profile TEXT] [--steps N] [--charts "
     "DIR]\n"
-    "                        [-o FILE]\n"
+    "                        [--all-digits] [-o FILE]\n"
     "\n"
     "Runs the model's motion profile in time (its 'segment' or 'timetable'\n"
     "lines, docs/model-format.md) and writes one CSV row per time step: the\n"
@@ -32,6 +32,8 @@ const char cli_timeline_help[] =
     "  --charts DIR      write SVG charts over time into DIR (made if\n"
     "                    missing): the driven input's and each point's x and\n"
     "                    y value, rate, acceleration and jerk, one chart each\n"
+    "  --all-digits      write every number with 17 significant digits\n"
+    "                    (default 9)\n"
     "  -o, --output FILE write to FILE instead of standard output\n"
     "\n"
     "A model without a profile (and no --profile) exits with 3; a step that does not solve\n"
@@ -186,6 +188,7 @@ int cli_cmd_timeline(const cli_model *cm, const cli_options *o) {
   int input = kl_model_profile_input(m), steps = o->have_steps ? o->steps : 200;
   int ntracks, k, i, q, st = CLI_EXIT_OK;
   double duration = kl_model_profile_duration(m), *row, *start, *table = NULL;
+  const char *format = cli_number_format(o, "%.9g");
   int width, rows = 0;
   track *t;
   kl_solver *s;
@@ -243,13 +246,14 @@ int cli_cmd_timeline(const cli_model *cm, const cli_options *o) {
       break;
     }
     kl_solver_row(s, row);
-    fprintf(f, "%.9g", time);
+    fprintf(f, format, time);
     if (table != NULL)
       table[(size_t)rows * (size_t)width] = time;
     for (i = 0; i < ntracks; i++)
       for (q = 0; q < 4; q++) {
         double v = row[t[i].at[q]] * t[i].factor;
-        fprintf(f, ",%.9g", v);
+        fputc(',', f);
+        fprintf(f, format, v);
         if (table != NULL)
           table[(size_t)rows * (size_t)width + 1 + 4 * i + q] = v;
       }

@@ -106,6 +106,9 @@ function check(what, got, want, tol,  d) {
   if (d > tol) { print "row " NR ": " what " " got ", expected " want; bad = 1 }
 }
 END { exit bad }' lobe.csv || fail "the cam program's motion or pressure angle is off"
+# --all-digits: the same rows with 17 significant digits
+expect_status 0 "$KINLOOP" follower lobe.kinloop -o lobe17.csv --all-digits
+expect_all_digits lobe17.csv lobe.csv
 for f in rise d1 d2 d3 pressure; do
   [ -s "charts/lobe-$f.svg" ] || fail "no chart charts/lobe-$f.svg"
 done

@@ -87,3 +87,24 @@ finish() {
   fi
   echo "all checks passed"
 }
+
+# expect_all_digits FULL PLAIN: FULL, written with --all-digits, has the
+# same header and shape as PLAIN (written with 9 significant digits), every
+# number of it prints as PLAIN's when rounded to 9 digits, and some number
+# carries more than 9 (so the option reached the writer).
+expect_all_digits() {
+  awk -F, 'NR == FNR { plain[FNR] = $0; next }
+    FNR == 1 { if ($0 != plain[1]) { print "headers differ"; bad = 1 }; next }
+    { n = split(plain[FNR], p, ",")
+      if (n != NF) { print "row " FNR ": " NF " fields, " n " plain"; bad = 1 }
+      for (i = 1; i <= NF; i++) {
+        if ($i != p[i] && sprintf("%.9g", $i + 0) != p[i]) {
+          print "row " FNR " field " i ": " $i " is not " p[i]; bad = 1 }
+        d = $i; sub(/^-/, "", d); sub(/[eE].*/, "", d); gsub(/[.]/, "", d)
+        sub(/^0+/, "", d)
+        if (length(d) > 9) longer = 1
+      } }
+    END { if (!longer) print "no number has more than 9 digits"
+          exit bad || !longer }' "$2" "$1" ||
+    fail "$1 is not $2 with every digit"
+}

@@ -22,6 +22,9 @@ awk -F, 'NR == 3 {
   want = 4 * 3.14159265358979 ^ 2 * 120 / 0.3 ^ 3
   if ($1 != 0.1 || ($5 - want) ^ 2 > (1e-6 * want) ^ 2) exit 1
 }' t.csv || fail "the jerk at the rise's start is not 4 pi^2 h / T^3"
+# --all-digits: the same rows with 17 significant digits
+expect_status 0 "$KINLOOP" timeline "$WITH" --steps 8 --all-digits -o t17.csv
+expect_all_digits t17.csv t.csv
 # the last row at the profile's end, 0.8 s, back at rest
 awk -F, 'END { if ($1 != 0.8 || $2 ^ 2 > 1e-12 || $3 ^ 2 > 1e-12) exit 1 }' \
   t.csv || fail "the last row is not the profile's end at rest"
