@@ -2532,7 +2532,9 @@ KL_API int kl_cam_check(kl_cam *c, int nsamples, double max_pressure,
  * bearing, its frame the cam link's axes (at cam link angle 0 the cam
  * stands at cam angle 0), and the cam's follower geometry (stem offset, arm
  * pivot) is read in the ground frame about the bearing: the model's
- * follower joints should put the roller there (kinloop does not check it).
+ * follower joints should put the roller there (kl_add_cam cannot check it,
+ * as the guide may come later: kl_cam_guide_error measures it at a solved
+ * position).
  * The pitch curve becomes a closed curve slot (kl_add_curve_slot) through
  * `npoints` points at the cam angles 2 pi k / npoints, its slide t = k at
  * cam angle 2 pi k / npoints; the cam's follower and program are copied
@@ -2605,6 +2607,28 @@ enum kl_cam_state_index {
  */
 KL_API int kl_cam_follower_state(const kl_solver *s, int joint,
                                  double out[9]);
+
+/**
+ * How far the model's follower guide stands from the follower the cam of
+ * cam joint `joint` (kl_add_cam) was made for, at the solver's solved
+ * position: the cam's pitch curve gives its program's motion only to a
+ * follower guided as its kl_cam_follower says (read in the ground frame
+ * about the bearing), and kl_add_cam cannot check the guide, which may be
+ * added after it. Into out[2]:
+ *   - out[0], length: translating, the roller centre's distance from the
+ *     stem's line x = offset about the bearing; oscillating, the larger of
+ *     the guide pivot's distance from the declared pivot and the roller
+ *     centre's distance from its circle of radius arm_length about it;
+ *   - out[1], rad: translating, the angle between the guide's direction
+ *     of sliding and the stem's (+y or -y, whichever is nearer);
+ *     oscillating, 0 (pivot and arm fix the direction).
+ * Both are 0, to rounding, for a guide built as the cam says.
+ * Returns KL_OK, KL_EINVAL (NULL), KL_EID, KL_EKIND (not a cam joint, or
+ * its follower has no revolute or prismatic guide with ground, or one of
+ * the other kind than the cam's follower), KL_ESTAGE (no position solved).
+ * Writes no message; never allocates.
+ */
+KL_API int kl_cam_guide_error(const kl_solver *s, int joint, double out[2]);
 
 /* ------------------------------------------------------------------------
  * Couplings and point inputs: rows beyond loop closure

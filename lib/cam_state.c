@@ -5,6 +5,7 @@
  */
 #include <math.h>
 
+#include "model.h"
 #include "solver.h"
 
 /* The joint other than `except` that joins `link` to ground with one of
@@ -120,5 +121,47 @@ int kl_cam_follower_state(const kl_solver *s, int joint, double out[9]) {
   quarter(t, jt);
   out[KL_CAM_STATE_PRESSURE] =
       atan2(t[0] * dp[0] + t[1] * dp[1], jt[0] * dp[0] + jt[1] * dp[1]);
+  return KL_OK;
+}
+
+int kl_cam_guide_error(const kl_solver *s, int joint, double out[2]) {
+  const kl_model *m;
+  const kli_joint *j;
+  const kl_cam_follower *f;
+  double p[2], c[2], q[4], dp[2];
+  int guide, revolute;
+  if (s == NULL || out == NULL)
+    return KL_EINVAL;
+  m = s->model;
+  if (joint < 0 || joint >= m->njoints)
+    return KL_EID;
+  j = &m->joints[joint];
+  if (j->cam == NULL)
+    return KL_EKIND;
+  f = kli_cam_follower_of(j->cam);
+  guide = joint_to_ground(m, j->link[1], joint, 1);
+  if (guide < 0)
+    return KL_EKIND;
+  revolute = m->joints[guide].kind == KL_JOINT_REVOLUTE;
+  if (revolute != (f->kind == KL_CAM_OSCILLATING))
+    return KL_EKIND;
+  if (!s->st.position_solved)
+    return KL_ESTAGE;
+  kl_joint_position(s, joint, p);
+  kl_joint_position(s, j->cam_bearing, c);
+  if (revolute) {
+    double pivot[2];
+    kl_joint_position(s, guide, pivot);
+    out[0] = fmax(hypot(pivot[0] - c[0] - f->pivot_x,
+                        pivot[1] - c[1] - f->pivot_y),
+                  fabs(hypot(p[0] - pivot[0], p[1] - pivot[1]) -
+                       f->arm_length));
+    out[1] = 0.0;
+  } else {
+    /* the stem's direction (0, 1) against the unit direction of sliding */
+    follower_coordinate(s, guide, j->link[1], p, q, dp);
+    out[0] = fabs(p[0] - c[0] - f->offset);
+    out[1] = atan2(fabs(dp[0]), fabs(dp[1]));
+  }
   return KL_OK;
 }

@@ -462,6 +462,86 @@ START_TEST(add_cam_refuses_and_changes_nothing) {
 }
 END_TEST
 
+/* A cam of `c` on a shaft at the origin whose follower runs on a guide
+ * with ground at (gx, 0): a prismatic joint along `axis` (rad) with the
+ * roller at the follower's origin when `sliding`, else a revolute pivot
+ * with the roller at (arm, 0) of the follower link, sketched at `sketch`
+ * (the guide's slide or the arm's angle). Gives kl_cam_guide_error's
+ * status and out at the position solved at cam angle 0, or its refusal
+ * before any solve. */
+static int guide_error_of(const kl_cam *c, int sliding, double gx, double axis,
+                          double arm, double sketch, double out[2]) {
+  kl_model *m = kl_model_new();
+  kl_solver *s;
+  double u = 0.0;
+  int cam = kl_add_link(m, "cam"), follower = kl_add_link(m, "follower");
+  int shaft = kl_add_revolute(m, KL_GROUND, 0, 0, cam, 0, 0), guide, joint, st;
+  guide = sliding ? kl_add_prismatic(m, KL_GROUND, gx, 0, axis, follower, 0, 0)
+                  : kl_add_revolute(m, KL_GROUND, gx, 0, follower, 0, 0);
+  joint = kl_add_cam(m, shaft, follower, sliding ? 0 : arm, 0, c, 720, PI);
+  ck_assert_int_ge(joint, 0);
+  kl_add_input(m, shaft);
+  if (sliding)
+    ck_assert_int_eq(kl_model_set_sketch_slide(m, guide, sketch), KL_OK);
+  else
+    ck_assert_int_eq(kl_model_set_sketch_angle(m, follower, sketch), KL_OK);
+  ck_assert_int_eq(kl_model_finalize(m), KL_OK);
+  s = kl_solver_new(m);
+  ck_assert_int_eq(kl_cam_guide_error(s, shaft, out), KL_EKIND);
+  ck_assert_int_eq(kl_cam_guide_error(s, 9, out), KL_EID);
+  ck_assert_int_eq(kl_cam_guide_error(s, joint, NULL), KL_EINVAL);
+  ck_assert_int_eq(kl_cam_guide_error(NULL, joint, out), KL_EINVAL);
+  /* a guide of the cam's kind has nothing to measure before a solve */
+  st = kl_cam_guide_error(s, joint, out);
+  if (st == KL_ESTAGE && (st = kl_solve_position(s, &u)) == KL_OK)
+    st = kl_cam_guide_error(s, joint, out);
+  kl_solver_free(s);
+  kl_model_free(m);
+  return st;
+}
+
+/* The guide the cam was made for measures 0; a guide moved, turned or of
+ * another length measures what it was moved by (plane geometry: a line's
+ * distance along x, the angle between two directions, a point's distance).
+ * A translating cam on a revolute guide is of the wrong kind. */
+START_TEST(guide_error_measures_the_follower_guide) {
+  kl_cam *slide = rise_dwell_return(KL_LAW_CYCLOIDAL, 40, 10, 10);
+  kl_cam *swing = swinging_cam();
+  double out[2], p0[KL_CAM_SAMPLE_SIZE], rest;
+  /* translating, stem line x = 10, roller at height sqrt(50^2 - 10^2) */
+  ck_assert_int_eq(guide_error_of(slide, 1, 10, PI / 2, 0, sqrt(2400.0), out),
+                   KL_OK);
+  ck_assert_double_le(out[0], 1e-9);
+  ck_assert_double_le(out[1], 1e-12);
+  ck_assert_int_eq(guide_error_of(slide, 1, 12, PI / 2, 0, sqrt(2400.0), out),
+                   KL_OK);
+  ck_assert_double_le(fabs(out[0] - 2.0), 1e-9);
+  ck_assert_double_le(out[1], 1e-12);
+  /* an axis of -90 degrees is the same line */
+  ck_assert_int_eq(guide_error_of(slide, 1, 10, -PI / 2, 0, -sqrt(2400.0), out),
+                   KL_OK);
+  ck_assert_double_le(out[0], 1e-9);
+  ck_assert_double_le(out[1], 1e-12);
+  ck_assert_int_eq(guide_error_of(slide, 1, 10, PI / 2 + PI / 36, 0,
+                                  sqrt(2400.0), out), KL_OK);
+  ck_assert_double_le(fabs(out[1] - PI / 36), 1e-12);
+  ck_assert_int_eq(guide_error_of(slide, 0, 10, 0, 45, 1.5, out), KL_EKIND);
+  /* oscillating: pivot (80, 0), arm 60 */
+  kl_cam_sample(swing, 0.0, p0);
+  rest = atan2(p0[KL_CAM_PITCH_Y], p0[KL_CAM_PITCH_X] - 80);
+  ck_assert_int_eq(guide_error_of(swing, 0, 80, 0, 60, rest, out), KL_OK);
+  ck_assert_double_le(out[0], 1e-9);
+  ck_assert_double_eq(out[1], 0.0);
+  ck_assert_int_eq(guide_error_of(swing, 0, 82, 0, 60, rest, out), KL_OK);
+  ck_assert_double_le(fabs(out[0] - 2.0), 1e-9);
+  ck_assert_int_eq(guide_error_of(swing, 0, 80, 0, 63, rest, out), KL_OK);
+  ck_assert_double_le(fabs(out[0] - 3.0), 1e-9);
+  ck_assert_int_eq(guide_error_of(swing, 1, 80, PI / 2, 0, 30, out), KL_EKIND);
+  kl_cam_free(slide);
+  kl_cam_free(swing);
+}
+END_TEST
+
 static const char cam_text[] =
     "kinloop-model 1\n"
     "units length mm angle rad\n"
@@ -598,6 +678,7 @@ int main(void) {
   tcase_add_test(tc, add_cam_refuses_and_changes_nothing);
   tcase_add_test(tc, cam_statement_round_trip);
   tcase_add_test(tc, cam_joint_is_no_rod_pressure_site);
+  tcase_add_test(tc, guide_error_measures_the_follower_guide);
   tcase_add_test(tc, cam_statement_survives_every_failed_allocation);
   suite_add_tcase(suite, tc);
   return run_suite(suite);

@@ -256,10 +256,37 @@ static int cam_row(const kl_solver *s, int step, double input, void *user) {
   return 0;
 }
 
+/* Warns when a cam line's follower is guided otherwise than the cam was
+ * made for (kl_cam_guide_error at `base`'s solved position): its pitch
+ * curve then gives another motion than the program. */
+static void check_cam_guide(const cli_model *cm, const kl_solver *base,
+                            int joint, warnings *w) {
+  double off[2];
+  int st = kl_cam_guide_error(base, joint, off);
+  const char *cam = cm->joint_names[joint];
+  if (st == KL_EKIND)
+    warn(w, "cam %s was made for another kind of follower than its guide "
+            "with ground (a prismatic joint for a translating follower, a "
+            "revolute pivot for an oscillating one): its follower will not "
+            "move as the program says; change the guide or the cam line",
+         cam);
+  else if (st == KL_OK && (off[0] > cli_length_resolution(cm) ||
+                           off[1] > cli_angle_resolution()))
+    warn(w, "the follower of cam %s is guided %.4g %s and %.4g %s away from "
+            "the follower its cam line describes (stem offset, or pivot and "
+            "arm, about the bearing): it will not move as the program says; "
+            "move the guide or change the cam line's follower",
+         cam, cli_shown(off[0], 1.0, cli_length_resolution(cm)),
+         cm->length_unit,
+         cli_shown(off[1], cm->angle_factor, cli_angle_resolution()),
+         cm->angle_unit);
+}
+
 /* Each cam line's follower pressure angle over the range (at least 360
- * steps: a cam's largest pressure angle is narrow), from `base`'s state. */
+ * steps: a cam's largest pressure angle is narrow), from `base`'s state,
+ * and its guide against the cam's follower. */
 static void print_cams(FILE *f, const cli_model *cm, const kl_solver *base,
-                       kl_solver *work, const cli_range *r) {
+                       kl_solver *work, const cli_range *r, warnings *w) {
   double k = cm->angle_factor;
   int j;
   for (j = 0; j < cm->njoints; j++) {
@@ -270,6 +297,7 @@ static void print_cams(FILE *f, const cli_model *cm, const kl_solver *base,
     char at[320];
     if (bearing < 0)
       continue;
+    check_cam_guide(cm, base, j, w);
     memset(&c, 0, sizeof c);
     c.joint = j;
     c.min = INFINITY;
@@ -433,7 +461,7 @@ static void print_ranges(FILE *f, const cli_model *cm, kl_solver *base,
   free(outs);
   free(pressure);
   free(ranges);
-  print_cams(f, cm, base, work, r);
+  print_cams(f, cm, base, work, r, w);
   for (i = 0; i < cm->nskips; i++) {
     const kl_transmission_skip *u = &cm->skips[i];
     if (u->reason == KL_TRANSMISSION_SKIP_INPUT_CRANK)

@@ -121,6 +121,16 @@ expect_status 0 "$KINLOOP" check lobe.kinloop
 expect_text out.txt "lobe          cam on shaft: follower pressure angle -25.78 to 12.8"
 expect_text out.txt "largest at shaft 252 deg (bound 35 deg)"
 expect_text out.txt "warnings: none"
+# a guide 2 mm off the stem line the cam was made for is warned of with its
+# distance (the lines x = 12 and x = 10 about the bearing); a revolute guide
+# for a translating follower is of the wrong kind
+sed 's/^prismatic stem ground 10 0/prismatic stem ground 12 0/' lobe.kinloop >moved.kinloop
+expect_status 0 "$KINLOOP" check moved.kinloop
+expect_text out.txt "the follower of cam lobe is guided 2 mm and 0 deg away from the follower its cam line describes"
+sed 's/^prismatic stem ground 10 0 axis 90 follower 0 0/revolute stem ground 60 0 follower 50 0/; s/^sketch slide .*/sketch angle follower -53.13/' \
+  lobe.kinloop >pivoted.kinloop
+expect_status 0 "$KINLOOP" check pivoted.kinloop
+expect_text out.txt "cam lobe was made for another kind of follower than its guide"
 
 # the canonical writer writes the cam statement back: read, write, read and
 # write again gives the same text
