@@ -63,27 +63,37 @@ static void follower_coordinate(const kl_solver *s, int guide, int follower,
   }
 }
 
-int kl_cam_follower_state(const kl_solver *s, int joint, double out[9]) {
+/* The cam pair of pin-in-slot joint `joint` of s's model: the cam link's
+ * bearing and the follower link's guide with ground. Returns KL_OK,
+ * KL_EINVAL (NULL s), KL_EID, KL_EKIND (no such pair). */
+static int cam_pair(const kl_solver *s, int joint, int *bearing, int *guide) {
   const kl_model *m;
   const kli_joint *j;
-  double th[4], q[4], p[2], c[2], o[2], vo[2], r[2], jr[2], t[2], jt[2],
-      dp[2], w;
-  int bearing, guide, cam, follower, i;
-  if (s == NULL || out == NULL)
+  if (s == NULL)
     return KL_EINVAL;
   m = s->model;
   if (joint < 0 || joint >= m->njoints)
     return KL_EID;
   j = &m->joints[joint];
-  cam = j->link[0];
-  follower = j->link[1];
-  if (!kli_is_pin_slot(j->kind) || cam == KL_GROUND || follower == KL_GROUND)
+  if (!kli_is_pin_slot(j->kind) || j->link[0] == KL_GROUND ||
+      j->link[1] == KL_GROUND)
     return KL_EKIND;
-  bearing = j->cam != NULL ? j->cam_bearing
-                           : joint_to_ground(m, cam, joint, 0);
-  guide = joint_to_ground(m, follower, joint, 1);
-  if (bearing < 0 || guide < 0)
-    return KL_EKIND;
+  *bearing = j->cam != NULL ? j->cam_bearing
+                            : joint_to_ground(m, j->link[0], joint, 0);
+  *guide = joint_to_ground(m, j->link[1], joint, 1);
+  return *bearing < 0 || *guide < 0 ? KL_EKIND : KL_OK;
+}
+
+int kl_cam_follower_state(const kl_solver *s, int joint, double out[9]) {
+  double th[4], q[4], p[2], c[2], o[2], vo[2], r[2], jr[2], t[2], jt[2],
+      dp[2], w;
+  int bearing, guide, cam, follower, i, st;
+  if (out == NULL)
+    return KL_EINVAL;
+  if ((st = cam_pair(s, joint, &bearing, &guide)) != KL_OK)
+    return st;
+  cam = s->model->joints[joint].link[0];
+  follower = s->model->joints[joint].link[1];
   th[0] = kl_link_angle(s, cam);
   th[1] = kl_link_rate(s, cam);
   th[2] = kl_link_accel(s, cam);
@@ -125,30 +135,25 @@ int kl_cam_follower_state(const kl_solver *s, int joint, double out[9]) {
 }
 
 int kl_cam_guide_error(const kl_solver *s, int joint, double out[2]) {
-  const kl_model *m;
   const kli_joint *j;
   const kl_cam_follower *f;
   double p[2], c[2], q[4], dp[2];
-  int guide, revolute;
-  if (s == NULL || out == NULL)
+  int bearing, guide, revolute, st;
+  if (out == NULL)
     return KL_EINVAL;
-  m = s->model;
-  if (joint < 0 || joint >= m->njoints)
-    return KL_EID;
-  j = &m->joints[joint];
+  if ((st = cam_pair(s, joint, &bearing, &guide)) != KL_OK)
+    return st;
+  j = &s->model->joints[joint];
   if (j->cam == NULL)
     return KL_EKIND;
   f = kli_cam_follower_of(j->cam);
-  guide = joint_to_ground(m, j->link[1], joint, 1);
-  if (guide < 0)
-    return KL_EKIND;
-  revolute = m->joints[guide].kind == KL_JOINT_REVOLUTE;
+  revolute = s->model->joints[guide].kind == KL_JOINT_REVOLUTE;
   if (revolute != (f->kind == KL_CAM_OSCILLATING))
     return KL_EKIND;
   if (!s->st.position_solved)
     return KL_ESTAGE;
   kl_joint_position(s, joint, p);
-  kl_joint_position(s, j->cam_bearing, c);
+  kl_joint_position(s, bearing, c);
   if (revolute) {
     double pivot[2];
     kl_joint_position(s, guide, pivot);
