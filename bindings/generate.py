@@ -27,6 +27,7 @@ import keyword
 import os
 import re
 import sys
+import textwrap
 
 SCALARS = ("int", "long", "size_t", "double")
 HANDLES = ("model", "solver", "study", "cam")
@@ -58,6 +59,8 @@ class Header:
         self.ground = int(re.search(r"#define KL_GROUND (\d+)", text).group(1))
         self.max_steps = int(re.search(r"#define KL_MAX_STEPS (\d+)", text).group(1))
         self.handles = re.findall(r"typedef struct (kl_\w+) \1;", text)
+        self.handle_docs = {m.group(1): self.doc_before(m.start())
+                            for m in re.finditer(r"^typedef struct (kl_\w+) \1;", text, re.M)}
         self.enums = self._enums()
         self.structs = self._structs()
         self.callbacks = self._callbacks()
@@ -1068,18 +1071,121 @@ def py_kind_constructors(header, s, bs):
     return out
 
 
+def py_maker(b):
+    """A maker (kl_<h>_new, kl_<h>_read...) as its class makes itself: one
+    without arguments is the constructor; one with them a class method
+    named by the grammar (read_file), a text read with its length
+    ('bytes LENGTH') taken as str or bytes by read_text. A NULL result
+    raises the kl_io_error the maker fills, or else ENOMEM (its only
+    failure). The new handle is adopted with the handles it read: a study
+    keeps its model's allocator."""
+    texts = {a.count for a in b.args if a.kind == "length"}
+    params, pre, call, kept, shown = [], [], [], [], []
+    for a in b.args:
+        n = py_name(a.name)
+        if a.kind == "length":
+            call.append("len(%s)" % py_name(a.count))
+        elif a.kind == "error_out":
+            pre.append("%s = H.%s()" % (n, a.struct.name))
+            call.append("ctypes.byref(%s)" % n)
+        elif a.kind == "handle_in":
+            params.append(n)
+            call.append("to_handle(%s, %r, %r, %r)" % (n, a.ctype, b.name, a.name))
+            kept.append(n)
+        else:
+            params.append(n)
+            call.append(n)
+            if a.name in texts:  # its length is taken from it: the rule first
+                pre.append("%s = to_string(%s, %r, %r)" % (n, n, b.name, a.name))
+            else:
+                shown.append(n)
+    doc = py_docstring("%s\n\n(%s)" % (b.f.doc, b.name), 8)
+    pre.append("made = %s(%s)" % (b.name, ", ".join(call)))
+    if b.error is not None:
+        fail = "check_report(%s.status or Status.ENOMEM, %s, %r%s)" % (
+            b.error.name, b.error.name, py_maker_name(b),
+            "".join(", " + n for n in shown))
+    else:
+        fail = "raise KinloopError(Status.ENOMEM, %r)" % (b.name + ": out of memory")
+    pre += ["if not made:", "    " + fail]
+    if not params:
+        return ["    def __init__(self):", doc] + ["        " + l for l in pre] + [
+            "        self._adopt(made)", ""]
+    return ["    @classmethod",
+            "    def %s(cls, %s):" % (py_maker_name(b), ", ".join(params)), doc] + \
+        ["        " + l for l in pre] + [
+            "        return cls._adopting(made%s)" % "".join(", " + k for k in kept), ""]
+
+
+def py_maker_name(b):
+    """A maker's Python name: the constructor without arguments, else the
+    grammar's, a text read with its length being read_text."""
+    if not [a for a in b.args if a.is_input]:
+        return "__init__"
+    return b.method + ("_text" if any(a.kind == "length" for a in b.args) else "")
+
+
+def standalone(bs, h):
+    """Whether kl_<h> needs no hand code: freed by kl_<h>_free, and every
+    function taking or making it plain or a maker."""
+    mine = [b for b in bs if b.handle == h or re.fullmatch(r"(const )?kl_%s \*" % h, b.f.result)]
+    return any(b.name == "kl_%s_free" % h for b in bs) and \
+        all(b.plain or b.makes or b.name == "kl_%s_free" % h for b in mine)
+
+
+def py_handle_class(header, bs, h):
+    """kinloop.<H>'s generated part: the handle held and freed once
+    (kl_<h>_free), its makers, and a method per plain function. A handle
+    the header binds with nothing else (every function plain, its makers
+    generated) gets its class here too (kinloop.Cam)."""
+    name, free = camel(h), header.function("kl_%s_free" % h)
+    out = ["", "class %sMethods(Handle):" % name,
+           '    """The generated part of kinloop.%s (kl_%s): the handle held and freed,' % (
+               name, h),
+           "    its makers, and the plain functions as methods. A subclass supplies",
+           '    what its handle needs more (a solver its _inputs and _input_count)."""', ""]
+    if free is not None:
+        out += ["    def _adopt(self, ptr, *keep):",
+                '        """Holds the new kl_%s `ptr` until close() or garbage collection' % h,
+                "        frees it (%s), exactly once; `keep` (what the handle uses: an" % free.name,
+                '        allocator hook, a block) lives as long."""',
+                "        self._ptr = ptr",
+                "        self._finalizer = weakref.finalize(self, _free_%s, ptr, keep)" % h, "",
+                "    def close(self):",
+                py_docstring("%s\n\n(%s)" % (textwrap.fill(
+                    free.doc + " Later calls of its methods raise ValueError; closing "
+                    "twice does nothing.", 76), free.name), 8),
+                "        self._finalizer()", ""]
+    for b in bs:
+        if b.makes == h:
+            out += py_maker(b)
+    for b in bs:
+        if b.plain and b.handle == h:
+            out += py_method(b)
+    if free is not None:
+        out = ["", "def _free_%s(ptr, keep):" % h,
+               "    lib.%s(ptr)  # looked up now: a test may count the calls" % free.name,
+               ""] + out
+    if standalone(bs, h):
+        out += ["", "class %s(%sMethods):" % (name, name),
+                py_docstring("%s\n\n(kl_%s)" % (header.handle_docs.get("kl_" + h, ""), h), 4),
+                ""]
+    return out
+
+
 def python_api(header):
     bs = bindings(header)
     out = ['"""Every function of include/kinloop.h with the argument rule applied to',
            "what the caller gives (kinloop._args), the structs as value types, and",
            "the methods and functions of the plain functions, which kinloop.Model,",
            "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
-           "import dataclasses", "", "import numpy as np", "",
+           "import dataclasses", "import weakref", "", "import numpy as np", "",
            "from . import _header as H",
            "from ._args import (array_of, flat_pairs, rows_of, same_count, struct_in, to_double,",
            "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
            "                    to_string)",
-           "from ._core import VALUE_TYPES, as_enum, check_const, check_report, text, value_of",
+           "from ._core import (VALUE_TYPES, Handle, KinloopError, as_enum, check_const,",
+           "                    check_report, text, value_of)",
            "from ._header import Status",
            "from .raw import lib", "",
            "#: what numpy arrays the C functions fill are passed as",
@@ -1102,16 +1208,10 @@ def python_api(header):
             out.append("H.%s.__str__ = lambda self: %s(self)" % (e.python, b.method))
         out.append("")
     for h in HANDLES:
-        out += ["", "class %sMethods:" % camel(h),
-                '    """The plain functions of kl_%s as methods (generated): kinloop.%s'
-                % (h, camel(h)),
-                "    inherits them and supplies _handle, _changing and _check (and a",
-                '    solver _inputs and _input_count)."""', "", "    __slots__ = ()", ""]
-        for b in bs:
-            if b.plain and b.handle == h:
-                out += py_method(b)
+        out += py_handle_class(header, bs, h)
     exported = [camel(s.name[3:]) for s in header.structs] + \
-        [b.method for b in bs if b.plain and b.handle is None and b.owner is None]
+        [b.method for b in bs if b.plain and b.handle is None and b.owner is None] + \
+        [camel(h) for h in HANDLES if standalone(bs, h)]
     out += ["", "#: what the kinloop package exports from here: value types, functions",
             "__all__ = %r" % (exported,)]
     out += ["", "#: how each KL_API function is bound: the generated method, or None",
@@ -1122,6 +1222,10 @@ def python_api(header):
             owner = ("%sMethods." % camel(b.handle) if b.handle else
                      "%s." % camel(b.owner.name[3:]) if b.owner else "")
             where = owner + b.method
+        elif b.makes:
+            where = "%sMethods.%s" % (camel(b.makes), py_maker_name(b))
+        elif b.name.endswith("_free") and b.handle in HANDLES:
+            where = "%sMethods.close" % camel(b.handle)
         out.append("    %r: %r," % (b.name, where))
     out += ["}", ""]
     return "\n".join(out)

@@ -92,7 +92,7 @@ def to_string(value, function, argument):
             return _no_nul(value.encode("utf-8"), function, argument)
         except UnicodeEncodeError as e:
             refuse(function, argument, "cannot be encoded as UTF-8: %s" % e.reason)
-    if isinstance(value, (bytes, bytearray)):
+    if isinstance(value, (bytes, bytearray, memoryview)):
         return _no_nul(bytes(value), function, argument)
     refuse(function, argument, "must be a str or bytes; got %s" % type(value).__name__)
 

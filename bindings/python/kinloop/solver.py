@@ -6,13 +6,12 @@ arrays, copies, assembly modes, sweeps with their recorder and callback,
 and the force figures over a cycle (summary and table)."""
 
 import ctypes
-import weakref
 
 import numpy as np
 
 from . import _api, raw
 from ._args import array_of, refuse, to_int, with_fields
-from ._core import Handle, KinloopError, as_enum, value_of
+from ._core import KinloopError, as_enum, value_of
 from ._header import MAX_STEPS, Status, WorkspaceKind
 from .model import row_layout
 from .values import CycleFigures, SweepResult, Workspace, cycle_table_dtype
@@ -21,11 +20,8 @@ from .values import CycleFigures, SweepResult, Workspace, cycle_table_dtype
 # malloc's alignment, which no ABI sets above this.
 _BLOCK_ALIGN = 64
 
-def _free_solver(ptr, keepalive):
-    raw.lib.kl_solver_free(ptr)
 
-
-class Solver(_api.SolverMethods, Handle):
+class Solver(_api.SolverMethods):
     """A kinloop solver (kl_solver) for a finalized Model.
 
     Options come as an Options object and/or keyword arguments
@@ -57,13 +53,13 @@ class Solver(_api.SolverMethods, Handle):
                 raise KinloopError(Status.ESTATE, "Solver: the model is not "
                                    "finalized (call Model.finalize first)")
             raise KinloopError(Status.ENOMEM, "Solver: out of memory")
-        self._ptr, self._model, self._model_ptr = ptr, model, mh
+        # the model's allocator hook lives as long as a holder of the model
+        self._adopt(ptr, block, model._hook)
+        self._model, self._model_ptr = model, mh
         # a finalized model never changes: what the methods need of it, read once
         self._layout, self._row_size = row_layout(mh), _api.kl_model_row_size(mh)
         self._input_count = _api.kl_model_input_count(mh)
         self._sweeping = False
-        # the model's allocator hook lives as long as a holder of the model
-        self._finalizer = weakref.finalize(self, _free_solver, ptr, (block, model._hook))
 
     # ---- lifetime ----
 
@@ -77,10 +73,10 @@ class Solver(_api.SolverMethods, Handle):
         return self._handle
 
     def close(self):
-        """Frees the solver (kl_solver_free); closing twice does nothing."""
+        """As SolverMethods.close; refused inside the solver's own sweep."""
         if self._sweeping:
             raise RuntimeError("kinloop: a solver cannot be closed inside its own sweep")
-        self._finalizer()
+        super().close()
 
     @property
     def model(self):
