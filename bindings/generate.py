@@ -559,6 +559,19 @@ class Binding:
             for a in self.args))
         # a function filling up to a capacity returns a count the bindings use
         self.fills = next((a for a in self.args if a.kind == "filled"), None)
+        # a setter of one struct whose getter reads it back (set_options,
+        # options): fields not given keep their current values
+        setter = re.fullmatch(r"kl_%s_set_(\w+)" % self.handle, f.name) if self.handle else None
+        getter = header.function("kl_%s_%s" % (self.handle, setter.group(1))) if setter else None
+        ins = self.inputs
+        self.current = setter.group(1) if getter and len(ins) == 1 and \
+            ins[0].kind == "struct_in" and \
+            [p.base for p in getter.params[1:]] == [ins[0].struct.name] else None
+        # a struct it fills on a failure too ("With KL_E..., `range` still
+        # receives ..."): that failure carries it (Python: the error's result)
+        kept = re.search(r"\bWith (KL_E\w+)\b[^.]*?`(\w+)` still receives", f.doc)
+        self.kept = next(((kept.group(1), a) for a in self.args if kept and
+                          a.kind == "struct_out" and a.name == kept.group(2)), None)
         self.enum = None
         self.boolean = f.result == "int" and "_is_" in f.name
         if f.result == "int" and not self.status and not self.boolean and not self.fills:
@@ -818,6 +831,10 @@ def py_checked(b, expr):
     if b.handle is None or b.handle_const:
         shown = "".join(", " + py_name(a.name) for a in b.inputs)
         return "check_const(%s, %r%s)" % (expr, b.method, shown)
+    if b.kept is not None:
+        status, a = b.kept
+        return "self._check(%s, result=value_of(%s) if %s == Status.%s else None)" % (
+            expr, py_name(a.name), expr, status[3:])
     return "self._check(%s)" % expr
 
 
@@ -884,6 +901,13 @@ def py_method(b):
             call.append("self._handle" if a.const else "self._changing")
         elif a.kind == "struct_in" and b.owner is not None and not call:
             call.append("self")
+        elif a.kind == "struct_in" and b.current:
+            # the current value (its getter's), with keywords replacing fields
+            params += [b.current + "=None", "**fields"]
+            pre.append("%s = with_fields(self.%s if %s is None else %s, %r, fields, %r, %r)" % (
+                b.current, b.current, b.current, b.current, camel(a.struct.name[3:]), f,
+                b.current))
+            call.append(b.current)
         elif a.kind == "handle_in":
             params.append(n)
             call.append("to_handle(%s, %r, %r, %r)" % (n, a.ctype, f, a.name))
@@ -958,6 +982,9 @@ def py_method(b):
         expr = "status"
     else:
         pre += late
+    if b.kept is not None and b.handle and not b.handle_const:
+        pre.append("status = %s" % expr)  # read twice by the check
+        expr = "status"
     if b.f.result in ("int", "long"):
         expr = py_checked(b, expr)
         if b.enum is not None:
@@ -1088,6 +1115,13 @@ def py_maker(b):
         elif a.kind == "error_out":
             pre.append("%s = H.%s()" % (n, a.struct.name))
             call.append("ctypes.byref(%s)" % n)
+        elif a.kind == "struct_in" and b.current:
+            # the current value (its getter's), with keywords replacing fields
+            params += [b.current + "=None", "**fields"]
+            pre.append("%s = with_fields(self.%s if %s is None else %s, %r, fields, %r, %r)" % (
+                b.current, b.current, b.current, b.current, camel(a.struct.name[3:]), f,
+                b.current))
+            call.append(b.current)
         elif a.kind == "handle_in":
             params.append(n)
             call.append("to_handle(%s, %r, %r, %r)" % (n, a.ctype, b.name, a.name))
@@ -1183,7 +1217,7 @@ def python_api(header):
            "from . import _header as H",
            "from ._args import (array_of, flat_pairs, rows_of, same_count, struct_in, to_double,",
            "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
-           "                    to_string)",
+           "                    to_string, with_fields)",
            "from ._core import (VALUE_TYPES, Handle, KinloopError, as_enum, check_const,",
            "                    check_report, text, value_of)",
            "from ._header import Status",

@@ -190,8 +190,11 @@ def array_of(values, ctype, function, argument):
 
 def with_fields(value, ctype_name, fields, function, argument):
     """A value type (a frozen dataclass of kinloop) with `fields` replacing
-    fields by name; any other value is refused (a keyword naming no field
-    is Python's TypeError, as for any function)."""
+    fields by name, or without fields the value as it is; a value that is
+    no value type takes no fields (a keyword naming no field is Python's
+    TypeError, as for any function)."""
+    if not fields:
+        return value
     if not dataclasses.is_dataclass(value) or isinstance(value, type):
         refuse(function, argument, "must be a %s; got %s" % (ctype_name, type(value).__name__))
     return dataclasses.replace(value, **fields)

@@ -11,7 +11,7 @@ import numpy as np
 
 from . import _api, raw
 from ._args import array_of, refuse, to_int, with_fields
-from ._core import KinloopError, as_enum, value_of
+from ._core import KinloopError, as_enum
 from ._header import MAX_STEPS, Status, WorkspaceKind
 from .model import row_layout
 from .values import CycleFigures, SweepResult, Workspace, cycle_table_dtype
@@ -83,13 +83,6 @@ class Solver(_api.SolverMethods):
         """The Model this solver was made for, the one kl_solver_model gives
         (closed or not: the solver keeps working either way)."""
         return self._model
-
-    def set_options(self, options=None, **values):
-        """Sets options: `options` (default: the current ones) with `values`
-        replacing fields by name."""
-        super().set_options(with_fields(self.options if options is None else options,
-                                        "Options", values, "kl_solver_set_options",
-                                        "options"))
 
     # ---- what the generated methods of arrays per input ask of a solver ----
 
@@ -189,22 +182,6 @@ class Solver(_api.SolverMethods):
             rows=table[:done], layout=dict(self._layout), input_index=input)
         self._check(status, result=result)
         return result
-
-    # ---- ranges of outputs ----
-
-    def output_range(self, input, from_, to, steps, o):
-        """Extremes of output `o` while input `input` sweeps from `from_` to
-        `to` in `steps` steps (kl_output_range): a Range (min, max, where,
-        sweep_status OK or LIMIT, limit_input). A negative status raises
-        KinloopError and leaves the solver as it was; at a change point
-        (Status.ESINGULAR) the error's `result` is the Range of the part
-        swept before it, its limit_input the change point's location."""
-        found = raw.kl_range()
-        status = _api.kl_output_range(self._changing, input, from_, to, steps, o,
-                                      ctypes.byref(found))
-        kept = value_of(found) if status == Status.ESINGULAR else None
-        self._check(status, result=kept)
-        return value_of(found)
 
     # ---- force figures over a cycle ----
 
