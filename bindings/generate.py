@@ -17,8 +17,8 @@ parameters are a handle (first only), scalars (int, long, size_t, double),
 strings (const char *), fixed arrays it fills (double xy[2]), sized structs
 (first field size_t size) read or filled whole, and pointers POINTERS
 explains; its result a scalar, a string or void. A "maker" returns a new model,
-study or cam instead: the Octave gateway adopts it as an id (Python's classes make
-their own). Everything else (callbacks, new solvers, arrays of handles, tables sized
+study or cam instead: the Octave gateway adopts it as an id, Python's generated
+class part as its constructor or a class method. Everything else (callbacks, new solvers, arrays of handles, tables sized
 from other arguments) is left to the hand-written part of each binding.
 DEVELOPERS.md says more.
 """
@@ -394,8 +394,8 @@ class Binding:
         self.handle_const = False
         self.owner = None        # the value struct a kl_<struct>_<verb> belongs to
         # a maker: returns a new model, study or cam (NULL when it failed);
-        # the Octave gateway adopts it as an id, while the Python classes
-        # make their own (allocator hooks, subclasses)
+        # the Octave gateway adopts it as an id, Python's <H>Methods as its
+        # constructor or a class method (py_maker)
         made = re.fullmatch(r"kl_(\w+) \*", f.result)
         self.makes = made.group(1) if made and made.group(1) in HANDLES and \
             made.group(1) != "solver" else None
@@ -403,7 +403,7 @@ class Binding:
         if self.plain:
             self._result(header)
         if self.makes and self.plain:
-            self.plain, self.why = False, "makes a kl_%s (Octave: generated)" % self.makes
+            self.plain, self.why = False, "makes a kl_%s (generated as a maker)" % self.makes
         elif not self.plain:
             self.makes = None
 
@@ -1130,7 +1130,7 @@ def py_maker(b):
             params.append(n)
             call.append(n)
             if a.name in texts:  # its length is taken from it: the rule first
-                pre.append("%s = to_string(%s, %r, %r)" % (n, n, b.name, a.name))
+                pre.append("%s = to_text(%s, %r, %r)" % (n, n, b.name, a.name))
             else:
                 shown.append(n)
     doc = py_docstring("%s\n\n(%s)" % (b.f.doc, b.name), 8)
@@ -1217,7 +1217,7 @@ def python_api(header):
            "from . import _header as H",
            "from ._args import (array_of, flat_pairs, rows_of, same_count, struct_in, to_double,",
            "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
-           "                    to_string, with_fields)",
+           "                    to_string, to_text, with_fields)",
            "from ._core import (VALUE_TYPES, Handle, KinloopError, as_enum, check_const,",
            "                    check_report, text, value_of)",
            "from ._header import Status",

@@ -97,6 +97,14 @@ def to_string(value, function, argument):
     refuse(function, argument, "must be a str or bytes; got %s" % type(value).__name__)
 
 
+def to_text(value, function, argument):
+    """A text read with its length (a model or study file's): a str or
+    bytes as to_string takes them; None, no text at all, is refused."""
+    if value is None:
+        refuse(function, argument, "must be a str or bytes; got NoneType")
+    return to_string(value, function, argument)
+
+
 def to_path(value, function, argument):
     """A file system path (str, bytes or os.PathLike) as the OS encodes it."""
     if value is None:

@@ -8,7 +8,7 @@ import ctypes
 import weakref
 
 from . import _api, raw
-from ._args import to_string
+from ._args import to_text
 from ._core import KinloopError, check_report, text
 from ._header import Status
 
@@ -144,7 +144,7 @@ class Model(_api.ModelMethods):
         (kl_model_read_with_alloc; else ModelMethods.read_text)."""
         if allocator is None:
             return super().read_text(text)
-        text, hook = to_string(text, "kl_model_read", "text"), allocator_hook(allocator)
+        text, hook = to_text(text, "kl_model_read", "text"), allocator_hook(allocator)
         err = raw.kl_io_error()
         ptr = _api.kl_model_read_with_alloc(text, len(text), hook, None, ctypes.byref(err))
         if not ptr:
