@@ -17,8 +17,8 @@ parameters are a handle (first only), scalars (int, long, size_t, double),
 strings (const char *), fixed arrays it fills (double xy[2]), sized structs
 (first field size_t size) read or filled whole, and pointers POINTERS
 explains; its result a scalar, a string or void. A "maker" returns a new model,
-study or cam instead: the Octave gateway adopts it as an id (Python's classes make
-their own). Everything else (callbacks, new solvers, arrays of handles, tables sized
+study or cam instead: the Octave gateway adopts it as an id, Python's generated
+class part as its constructor or a class method. Everything else (callbacks, new solvers, arrays of handles, tables sized
 from other arguments) is left to the hand-written part of each binding.
 DEVELOPERS.md says more.
 """
@@ -27,6 +27,7 @@ import keyword
 import os
 import re
 import sys
+import textwrap
 
 SCALARS = ("int", "long", "size_t", "double")
 HANDLES = ("model", "solver", "study", "cam")
@@ -58,6 +59,8 @@ class Header:
         self.ground = int(re.search(r"#define KL_GROUND (\d+)", text).group(1))
         self.max_steps = int(re.search(r"#define KL_MAX_STEPS (\d+)", text).group(1))
         self.handles = re.findall(r"typedef struct (kl_\w+) \1;", text)
+        self.handle_docs = {m.group(1): self.doc_before(m.start())
+                            for m in re.finditer(r"^typedef struct (kl_\w+) \1;", text, re.M)}
         self.enums = self._enums()
         self.structs = self._structs()
         self.callbacks = self._callbacks()
@@ -391,8 +394,8 @@ class Binding:
         self.handle_const = False
         self.owner = None        # the value struct a kl_<struct>_<verb> belongs to
         # a maker: returns a new model, study or cam (NULL when it failed);
-        # the Octave gateway adopts it as an id, while the Python classes
-        # make their own (allocator hooks, subclasses)
+        # the Octave gateway adopts it as an id, Python's <H>Methods as its
+        # constructor or a class method (py_maker)
         made = re.fullmatch(r"kl_(\w+) \*", f.result)
         self.makes = made.group(1) if made and made.group(1) in HANDLES and \
             made.group(1) != "solver" else None
@@ -400,7 +403,7 @@ class Binding:
         if self.plain:
             self._result(header)
         if self.makes and self.plain:
-            self.plain, self.why = False, "makes a kl_%s (Octave: generated)" % self.makes
+            self.plain, self.why = False, "makes a kl_%s (generated as a maker)" % self.makes
         elif not self.plain:
             self.makes = None
 
@@ -556,6 +559,19 @@ class Binding:
             for a in self.args))
         # a function filling up to a capacity returns a count the bindings use
         self.fills = next((a for a in self.args if a.kind == "filled"), None)
+        # a setter of one struct whose getter reads it back (set_options,
+        # options): fields not given keep their current values
+        setter = re.fullmatch(r"kl_%s_set_(\w+)" % self.handle, f.name) if self.handle else None
+        getter = header.function("kl_%s_%s" % (self.handle, setter.group(1))) if setter else None
+        ins = self.inputs
+        self.current = setter.group(1) if getter and len(ins) == 1 and \
+            ins[0].kind == "struct_in" and \
+            [p.base for p in getter.params[1:]] == [ins[0].struct.name] else None
+        # a struct it fills on a failure too ("With KL_E..., `range` still
+        # receives ..."): that failure carries it (Python: the error's result)
+        kept = re.search(r"\bWith (KL_E\w+)\b[^.]*?`(\w+)` still receives", f.doc)
+        self.kept = next(((kept.group(1), a) for a in self.args if kept and
+                          a.kind == "struct_out" and a.name == kept.group(2)), None)
         self.enum = None
         self.boolean = f.result == "int" and "_is_" in f.name
         if f.result == "int" and not self.status and not self.boolean and not self.fills:
@@ -815,6 +831,10 @@ def py_checked(b, expr):
     if b.handle is None or b.handle_const:
         shown = "".join(", " + py_name(a.name) for a in b.inputs)
         return "check_const(%s, %r%s)" % (expr, b.method, shown)
+    if b.kept is not None:
+        status, a = b.kept
+        return "self._check(%s, result=value_of(%s) if %s == Status.%s else None)" % (
+            expr, py_name(a.name), expr, status[3:])
     return "self._check(%s)" % expr
 
 
@@ -881,6 +901,13 @@ def py_method(b):
             call.append("self._handle" if a.const else "self._changing")
         elif a.kind == "struct_in" and b.owner is not None and not call:
             call.append("self")
+        elif a.kind == "struct_in" and b.current:
+            # the current value (its getter's), with keywords replacing fields
+            params += [b.current + "=None", "**fields"]
+            pre.append("%s = with_fields(self.%s if %s is None else %s, %r, fields, %r, %r)" % (
+                b.current, b.current, b.current, b.current, camel(a.struct.name[3:]), f,
+                b.current))
+            call.append(b.current)
         elif a.kind == "handle_in":
             params.append(n)
             call.append("to_handle(%s, %r, %r, %r)" % (n, a.ctype, f, a.name))
@@ -955,6 +982,9 @@ def py_method(b):
         expr = "status"
     else:
         pre += late
+    if b.kept is not None and b.handle and not b.handle_const:
+        pre.append("status = %s" % expr)  # read twice by the check
+        expr = "status"
     if b.f.result in ("int", "long"):
         expr = py_checked(b, expr)
         if b.enum is not None:
@@ -1068,18 +1098,128 @@ def py_kind_constructors(header, s, bs):
     return out
 
 
+def py_maker(b):
+    """A maker (kl_<h>_new, kl_<h>_read...) as its class makes itself: one
+    without arguments is the constructor; one with them a class method
+    named by the grammar (read_file), a text read with its length
+    ('bytes LENGTH') taken as str or bytes by read_text. A NULL result
+    raises the kl_io_error the maker fills, or else ENOMEM (its only
+    failure). The new handle is adopted with the handles it read: a study
+    keeps its model's allocator."""
+    texts = {a.count for a in b.args if a.kind == "length"}
+    params, pre, call, kept, shown = [], [], [], [], []
+    for a in b.args:
+        n = py_name(a.name)
+        if a.kind == "length":
+            call.append("len(%s)" % py_name(a.count))
+        elif a.kind == "error_out":
+            pre.append("%s = H.%s()" % (n, a.struct.name))
+            call.append("ctypes.byref(%s)" % n)
+        elif a.kind == "struct_in" and b.current:
+            # the current value (its getter's), with keywords replacing fields
+            params += [b.current + "=None", "**fields"]
+            pre.append("%s = with_fields(self.%s if %s is None else %s, %r, fields, %r, %r)" % (
+                b.current, b.current, b.current, b.current, camel(a.struct.name[3:]), f,
+                b.current))
+            call.append(b.current)
+        elif a.kind == "handle_in":
+            params.append(n)
+            call.append("to_handle(%s, %r, %r, %r)" % (n, a.ctype, b.name, a.name))
+            kept.append(n)
+        else:
+            params.append(n)
+            call.append(n)
+            if a.name in texts:  # its length is taken from it: the rule first
+                pre.append("%s = to_text(%s, %r, %r)" % (n, n, b.name, a.name))
+            else:
+                shown.append(n)
+    doc = py_docstring("%s\n\n(%s)" % (b.f.doc, b.name), 8)
+    pre.append("made = %s(%s)" % (b.name, ", ".join(call)))
+    if b.error is not None:
+        fail = "check_report(%s.status or Status.ENOMEM, %s, %r%s)" % (
+            b.error.name, b.error.name, py_maker_name(b),
+            "".join(", " + n for n in shown))
+    else:
+        fail = "raise KinloopError(Status.ENOMEM, %r)" % (b.name + ": out of memory")
+    pre += ["if not made:", "    " + fail]
+    if not params:
+        return ["    def __init__(self):", doc] + ["        " + l for l in pre] + [
+            "        self._adopt(made)", ""]
+    return ["    @classmethod",
+            "    def %s(cls, %s):" % (py_maker_name(b), ", ".join(params)), doc] + \
+        ["        " + l for l in pre] + [
+            "        return cls._adopting(made%s)" % "".join(", " + k for k in kept), ""]
+
+
+def py_maker_name(b):
+    """A maker's Python name: the constructor without arguments, else the
+    grammar's, a text read with its length being read_text."""
+    if not [a for a in b.args if a.is_input]:
+        return "__init__"
+    return b.method + ("_text" if any(a.kind == "length" for a in b.args) else "")
+
+
+def standalone(bs, h):
+    """Whether kl_<h> needs no hand code: freed by kl_<h>_free, and every
+    function taking or making it plain or a maker."""
+    mine = [b for b in bs if b.handle == h or re.fullmatch(r"(const )?kl_%s \*" % h, b.f.result)]
+    return any(b.name == "kl_%s_free" % h for b in bs) and \
+        all(b.plain or b.makes or b.name == "kl_%s_free" % h for b in mine)
+
+
+def py_handle_class(header, bs, h):
+    """kinloop.<H>'s generated part: the handle held and freed once
+    (kl_<h>_free), its makers, and a method per plain function. A handle
+    the header binds with nothing else (every function plain, its makers
+    generated) gets its class here too (kinloop.Cam)."""
+    name, free = camel(h), header.function("kl_%s_free" % h)
+    out = ["", "class %sMethods(Handle):" % name,
+           '    """The generated part of kinloop.%s (kl_%s): the handle held and freed,' % (
+               name, h),
+           "    its makers, and the plain functions as methods. A subclass supplies",
+           '    what its handle needs more (a solver its _inputs and _input_count)."""', ""]
+    if free is not None:
+        out += ["    def _adopt(self, ptr, *keep):",
+                '        """Holds the new kl_%s `ptr` until close() or garbage collection' % h,
+                "        frees it (%s), exactly once; `keep` (what the handle uses: an" % free.name,
+                '        allocator hook, a block) lives as long."""',
+                "        self._ptr = ptr",
+                "        self._finalizer = weakref.finalize(self, _free_%s, ptr, keep)" % h, "",
+                "    def close(self):",
+                py_docstring("%s\n\n(%s)" % (textwrap.fill(
+                    free.doc + " Later calls of its methods raise ValueError; closing "
+                    "twice does nothing.", 76), free.name), 8),
+                "        self._finalizer()", ""]
+    for b in bs:
+        if b.makes == h:
+            out += py_maker(b)
+    for b in bs:
+        if b.plain and b.handle == h:
+            out += py_method(b)
+    if free is not None:
+        out = ["", "def _free_%s(ptr, keep):" % h,
+               "    lib.%s(ptr)  # looked up now: a test may count the calls" % free.name,
+               ""] + out
+    if standalone(bs, h):
+        out += ["", "class %s(%sMethods):" % (name, name),
+                py_docstring("%s\n\n(kl_%s)" % (header.handle_docs.get("kl_" + h, ""), h), 4),
+                ""]
+    return out
+
+
 def python_api(header):
     bs = bindings(header)
     out = ['"""Every function of include/kinloop.h with the argument rule applied to',
            "what the caller gives (kinloop._args), the structs as value types, and",
            "the methods and functions of the plain functions, which kinloop.Model,",
            "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
-           "import dataclasses", "", "import numpy as np", "",
+           "import dataclasses", "import weakref", "", "import numpy as np", "",
            "from . import _header as H",
            "from ._args import (array_of, flat_pairs, rows_of, same_count, struct_in, to_double,",
            "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
-           "                    to_string)",
-           "from ._core import VALUE_TYPES, as_enum, check_const, check_report, text, value_of",
+           "                    to_string, to_text, with_fields)",
+           "from ._core import (VALUE_TYPES, Handle, KinloopError, as_enum, check_const,",
+           "                    check_report, text, value_of)",
            "from ._header import Status",
            "from .raw import lib", "",
            "#: what numpy arrays the C functions fill are passed as",
@@ -1102,16 +1242,10 @@ def python_api(header):
             out.append("H.%s.__str__ = lambda self: %s(self)" % (e.python, b.method))
         out.append("")
     for h in HANDLES:
-        out += ["", "class %sMethods:" % camel(h),
-                '    """The plain functions of kl_%s as methods (generated): kinloop.%s'
-                % (h, camel(h)),
-                "    inherits them and supplies _handle, _changing and _check (and a",
-                '    solver _inputs and _input_count)."""', "", "    __slots__ = ()", ""]
-        for b in bs:
-            if b.plain and b.handle == h:
-                out += py_method(b)
+        out += py_handle_class(header, bs, h)
     exported = [camel(s.name[3:]) for s in header.structs] + \
-        [b.method for b in bs if b.plain and b.handle is None and b.owner is None]
+        [b.method for b in bs if b.plain and b.handle is None and b.owner is None] + \
+        [camel(h) for h in HANDLES if standalone(bs, h)]
     out += ["", "#: what the kinloop package exports from here: value types, functions",
             "__all__ = %r" % (exported,)]
     out += ["", "#: how each KL_API function is bound: the generated method, or None",
@@ -1122,6 +1256,10 @@ def python_api(header):
             owner = ("%sMethods." % camel(b.handle) if b.handle else
                      "%s." % camel(b.owner.name[3:]) if b.owner else "")
             where = owner + b.method
+        elif b.makes:
+            where = "%sMethods.%s" % (camel(b.makes), py_maker_name(b))
+        elif b.name.endswith("_free") and b.handle in HANDLES:
+            where = "%sMethods.close" % camel(b.handle)
         out.append("    %r: %r," % (b.name, where))
     out += ["}", ""]
     return "\n".join(out)

@@ -22,7 +22,6 @@ kinloop.raw (raw.lib.kl_*).
 
 from . import _api, _header, raw
 from ._api import *  # noqa: F401,F403  (value types and package functions, generated)
-from .cam import Cam
 from ._core import KinloopError
 from ._header import *  # noqa: F401,F403  (the enums and GROUND, generated)
 from .model import Model
@@ -36,5 +35,5 @@ library_path = raw.library_path
 library_version = raw.library_version
 
 __all__ = sorted(set(_api.__all__ + _header.__all__ + [
-    "Cam", "CycleFigures", "KinloopError", "Load", "MissingFunctionError", "Model", "Solver",
+    "CycleFigures", "KinloopError", "Load", "MissingFunctionError", "Model", "Solver",
     "Study", "StudyRun", "SweepResult", "Workspace", "library_path", "library_version"]))

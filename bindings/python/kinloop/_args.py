@@ -92,9 +92,17 @@ def to_string(value, function, argument):
             return _no_nul(value.encode("utf-8"), function, argument)
         except UnicodeEncodeError as e:
             refuse(function, argument, "cannot be encoded as UTF-8: %s" % e.reason)
-    if isinstance(value, (bytes, bytearray)):
+    if isinstance(value, (bytes, bytearray, memoryview)):
         return _no_nul(bytes(value), function, argument)
     refuse(function, argument, "must be a str or bytes; got %s" % type(value).__name__)
+
+
+def to_text(value, function, argument):
+    """A text read with its length (a model or study file's): a str or
+    bytes as to_string takes them; None, no text at all, is refused."""
+    if value is None:
+        refuse(function, argument, "must be a str or bytes; got NoneType")
+    return to_string(value, function, argument)
 
 
 def to_path(value, function, argument):
@@ -190,8 +198,11 @@ def array_of(values, ctype, function, argument):
 
 def with_fields(value, ctype_name, fields, function, argument):
     """A value type (a frozen dataclass of kinloop) with `fields` replacing
-    fields by name; any other value is refused (a keyword naming no field
-    is Python's TypeError, as for any function)."""
+    fields by name, or without fields the value as it is; a value that is
+    no value type takes no fields (a keyword naming no field is Python's
+    TypeError, as for any function)."""
+    if not fields:
+        return value
     if not dataclasses.is_dataclass(value) or isinstance(value, type):
         refuse(function, argument, "must be a %s; got %s" % (ctype_name, type(value).__name__))
     return dataclasses.replace(value, **fields)

@@ -101,8 +101,15 @@ def value_of(c):
 class Handle:
     """The base of every class holding a C handle: `closed`, ``with`` blocks
     that close it on leaving, and the handle checks the generated methods
-    use. A subclass keeps a weakref.finalize as _finalizer (which frees the
-    handle once), its pointer as _ptr, and defines close()."""
+    use. The generated part of each class (kinloop._api.<H>Methods) holds
+    the pointer as _ptr and frees it once through _finalizer (_adopt, close)."""
+
+    @classmethod
+    def _adopting(cls, ptr, *keep):
+        """An object for a handle a maker made, holding `keep` as _adopt does."""
+        obj = cls.__new__(cls)
+        obj._adopt(ptr, *keep)
+        return obj
 
     @property
     def closed(self):

@@ -1,14 +1,15 @@
-"""Model: a linkage description over the kl_model handle. The plain
-builders and getters are generated (kinloop._api.ModelMethods); this adds
-lifetime and allocators, the loops' joint lists, model files, and the
-read-only view of a model another handle owns (a study's nominal model)."""
+"""Model: a linkage description over the kl_model handle. Its lifetime,
+makers and plain builders and getters are generated
+(kinloop._api.ModelMethods); this adds allocators, the loops' joint lists,
+and the read-only view of a model another handle owns (a study's nominal
+model)."""
 
 import ctypes
 import weakref
 
 from . import _api, raw
-from ._args import refuse
-from ._core import Handle, KinloopError, check_report, text
+from ._args import to_text
+from ._core import KinloopError, check_report, text
 from ._header import Status
 
 
@@ -26,12 +27,6 @@ def allocator_hook(allocator):
     return raw.kl_alloc_fn(hook)
 
 
-def _free_model(ptr, hook):
-    # The library keeps the model for the solvers and studies made from it
-    # (kl_model_free); they keep `hook`, its allocator, alive as long.
-    raw.lib.kl_model_free(ptr)
-
-
 def _release_view():
     """A borrowed model is not ours to free: closing the view only ends it."""
 
@@ -47,30 +42,7 @@ def row_layout(mh):
         quantity += 1
 
 
-def read_handle(reader, what, *args):
-    """The handle a reader (kl_model_read, kl_study_read_file, ...) makes
-    from `args` and a kl_io_error, or the error it reports."""
-    err = raw.kl_io_error()
-    ptr = reader(*args, ctypes.byref(err))
-    if not ptr:
-        check_report(err.status or Status.ENOMEM, err, what)
-    return ptr
-
-
-def data_of(source, function):
-    """Model or study file text: str as UTF-8, or bytes as they are; any
-    other value is refused (bytes(5) would be five NUL bytes)."""
-    if isinstance(source, str):
-        try:
-            return source.encode("utf-8")
-        except UnicodeEncodeError as e:
-            refuse(function, "text", "cannot be encoded as UTF-8: %s" % e.reason)
-    if isinstance(source, (bytes, bytearray, memoryview)):
-        return bytes(source)
-    refuse(function, "text", "must be a str or bytes; got %s" % type(source).__name__)
-
-
-class Model(_api.ModelMethods, Handle):
+class Model(_api.ModelMethods):
     """A kinloop model (kl_model). Build it, finalize it, make Solvers.
 
     ``with Model() as m:`` lets go of it (kl_model_free) on leaving the
@@ -85,32 +57,24 @@ class Model(_api.ModelMethods, Handle):
 
     def __init__(self, allocator=None):
         if allocator is None:
-            hook, ptr = None, raw.lib.kl_model_new()
-        else:
-            hook = allocator_hook(allocator)
-            ptr = raw.lib.kl_model_new_with_alloc(hook, None)
+            return super().__init__()
+        hook = allocator_hook(allocator)
+        ptr = raw.lib.kl_model_new_with_alloc(hook, None)
         if not ptr:
             raise KinloopError(Status.ENOMEM, "kl_model_new: out of memory")
         self._adopt(ptr, hook)
 
-    @classmethod
-    def _adopting(cls, ptr, hook=None, owner=None):
-        """A Model for a handle made elsewhere; with `owner`, a view of a
-        finalized model that `owner` holds and frees (a Study): the view
-        keeps its owner alive, never frees the model, and refuses every
-        call that would change it."""
-        model = cls.__new__(cls)
-        model._adopt(ptr, hook, owner)
-        return model
-
-    def _adopt(self, ptr, hook, owner=None):
-        self._ptr = ptr
-        self._hook = hook  # its Solvers and Studies keep it too
-        self._owner = owner
+    def _adopt(self, ptr, hook=None, owner=None):
+        """As ModelMethods._adopt, keeping the allocator `hook` (its Solvers
+        and Studies keep it too); with `owner`, a view of a finalized model
+        that `owner` holds and frees (a Study): the view keeps its owner
+        alive, never frees the model, and refuses every call that would
+        change it."""
+        self._hook, self._owner = hook, owner
         if owner is None:
-            self._finalizer = weakref.finalize(self, _free_model, ptr, hook)
-        else:
-            self._finalizer = weakref.finalize(self, _release_view)
+            return super()._adopt(ptr, hook)
+        self._ptr = ptr
+        self._finalizer = weakref.finalize(self, _release_view)
 
     # ---- lifetime ----
 
@@ -124,14 +88,6 @@ class Model(_api.ModelMethods, Handle):
             raise KinloopError(Status.ESTATE, "the model belongs to a study and "
                                "cannot change (it is finalized)")
         return handle
-
-    def close(self):
-        """Lets go of the model (kl_model_free); later calls of its methods
-        raise ValueError, closing twice does nothing. Solvers and studies
-        made from it keep working (the library frees the model after the
-        last of them). For a borrowed model (Study.model) it closes the
-        view only."""
-        self._finalizer()
 
     def finalize(self):
         """Checks the topology and prepares the equations; the model is
@@ -182,20 +138,18 @@ class Model(_api.ModelMethods, Handle):
     # ---- model files ----
 
     @classmethod
-    def read_text(cls, source, allocator=None):
-        """A finalized model from model-file text (str, or bytes as they are)."""
-        data = data_of(source, "kl_model_read")
+    def read_text(cls, text, allocator=None):
+        """A finalized model from model-file text (str, or bytes as they
+        are), its allocations through `allocator` if given
+        (kl_model_read_with_alloc; else ModelMethods.read_text)."""
         if allocator is None:
-            return cls._adopting(read_handle(_api.kl_model_read, "read_text", data, len(data)))
-        hook = allocator_hook(allocator)
-        return cls._adopting(read_handle(_api.kl_model_read_with_alloc, "read_text", data,
-                                         len(data), hook, None), hook)
-
-    @classmethod
-    def read_file(cls, path):
-        """A finalized model from the model file at `path`."""
-        return cls._adopting(read_handle(_api.kl_model_read_file, "read_file(%r)" % (path,),
-                                         path))
+            return super().read_text(text)
+        text, hook = to_text(text, "kl_model_read", "text"), allocator_hook(allocator)
+        err = raw.kl_io_error()
+        ptr = _api.kl_model_read_with_alloc(text, len(text), hook, None, ctypes.byref(err))
+        if not ptr:
+            check_report(err.status or Status.ENOMEM, err, "read_text")
+        return cls._adopting(ptr, hook)
 
     #: the model as model-file text (a byte that is not UTF-8, from a name
     #: given as bytes, reads as U+FFFD, as in every string from C)

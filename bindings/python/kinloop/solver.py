@@ -6,13 +6,12 @@ arrays, copies, assembly modes, sweeps with their recorder and callback,
 and the force figures over a cycle (summary and table)."""
 
 import ctypes
-import weakref
 
 import numpy as np
 
 from . import _api, raw
 from ._args import array_of, refuse, to_int, with_fields
-from ._core import Handle, KinloopError, as_enum, value_of
+from ._core import KinloopError, as_enum
 from ._header import MAX_STEPS, Status, WorkspaceKind
 from .model import row_layout
 from .values import CycleFigures, SweepResult, Workspace, cycle_table_dtype
@@ -21,11 +20,8 @@ from .values import CycleFigures, SweepResult, Workspace, cycle_table_dtype
 # malloc's alignment, which no ABI sets above this.
 _BLOCK_ALIGN = 64
 
-def _free_solver(ptr, keepalive):
-    raw.lib.kl_solver_free(ptr)
 
-
-class Solver(_api.SolverMethods, Handle):
+class Solver(_api.SolverMethods):
     """A kinloop solver (kl_solver) for a finalized Model.
 
     Options come as an Options object and/or keyword arguments
@@ -57,13 +53,13 @@ class Solver(_api.SolverMethods, Handle):
                 raise KinloopError(Status.ESTATE, "Solver: the model is not "
                                    "finalized (call Model.finalize first)")
             raise KinloopError(Status.ENOMEM, "Solver: out of memory")
-        self._ptr, self._model, self._model_ptr = ptr, model, mh
+        # the model's allocator hook lives as long as a holder of the model
+        self._adopt(ptr, block, model._hook)
+        self._model, self._model_ptr = model, mh
         # a finalized model never changes: what the methods need of it, read once
         self._layout, self._row_size = row_layout(mh), _api.kl_model_row_size(mh)
         self._input_count = _api.kl_model_input_count(mh)
         self._sweeping = False
-        # the model's allocator hook lives as long as a holder of the model
-        self._finalizer = weakref.finalize(self, _free_solver, ptr, (block, model._hook))
 
     # ---- lifetime ----
 
@@ -77,23 +73,16 @@ class Solver(_api.SolverMethods, Handle):
         return self._handle
 
     def close(self):
-        """Frees the solver (kl_solver_free); closing twice does nothing."""
+        """As SolverMethods.close; refused inside the solver's own sweep."""
         if self._sweeping:
             raise RuntimeError("kinloop: a solver cannot be closed inside its own sweep")
-        self._finalizer()
+        super().close()
 
     @property
     def model(self):
         """The Model this solver was made for, the one kl_solver_model gives
         (closed or not: the solver keeps working either way)."""
         return self._model
-
-    def set_options(self, options=None, **values):
-        """Sets options: `options` (default: the current ones) with `values`
-        replacing fields by name."""
-        super().set_options(with_fields(self.options if options is None else options,
-                                        "Options", values, "kl_solver_set_options",
-                                        "options"))
 
     # ---- what the generated methods of arrays per input ask of a solver ----
 
@@ -193,22 +182,6 @@ class Solver(_api.SolverMethods, Handle):
             rows=table[:done], layout=dict(self._layout), input_index=input)
         self._check(status, result=result)
         return result
-
-    # ---- ranges of outputs ----
-
-    def output_range(self, input, from_, to, steps, o):
-        """Extremes of output `o` while input `input` sweeps from `from_` to
-        `to` in `steps` steps (kl_output_range): a Range (min, max, where,
-        sweep_status OK or LIMIT, limit_input). A negative status raises
-        KinloopError and leaves the solver as it was; at a change point
-        (Status.ESINGULAR) the error's `result` is the Range of the part
-        swept before it, its limit_input the change point's location."""
-        found = raw.kl_range()
-        status = _api.kl_output_range(self._changing, input, from_, to, steps, o,
-                                      ctypes.byref(found))
-        kept = value_of(found) if status == Status.ESINGULAR else None
-        self._check(status, result=kept)
-        return value_of(found)
 
     # ---- force figures over a cycle ----
 

@@ -1,31 +1,22 @@
 """Study: a design study (kl_study) read from a study file, tolerance Monte
 Carlo or a design grid over a nominal model, run on threads into numpy
-arrays and summarized output by output. The plain getters are generated
-(kinloop._api.StudyMethods); this adds reading, lifetime, the model view,
-runs and summaries."""
+arrays and summarized output by output. Its lifetime, readers and plain
+getters are generated (kinloop._api.StudyMethods); this adds the model
+view, runs and summaries."""
 
 import weakref
 
 import numpy as np
 
-from . import _api, raw
-from ._args import refuse, to_long
-from ._core import Handle, KinloopError, status_text
+from . import _api
+from ._args import to_long
+from ._core import KinloopError, status_text
 from ._header import Status
-from .model import Model, data_of, read_handle
+from .model import Model
 from .values import StudyRun
 
 
-def _free_study(ptr, view_finalizers, hook):
-    # the view of the study's model ends with the study; `hook`, the model's
-    # allocator (if the caller gave one), is kept alive until here, since
-    # the study may be the model's last holder
-    for close_view in list(view_finalizers):
-        close_view()
-    raw.lib.kl_study_free(ptr)
-
-
-class Study(_api.StudyMethods, Handle):
+class Study(_api.StudyMethods):
     """A kinloop design study (kl_study): a nominal model, the dimensions
     that vary and how, the outputs judged and their limits. Make one with
     Study.read_text or Study.read_file, then prepare() it once (the nominal
@@ -42,41 +33,14 @@ class Study(_api.StudyMethods, Handle):
         raise TypeError("kinloop.Study: use Study.read_text(text, model) or "
                         "Study.read_file(path), then prepare()")
 
-    @classmethod
-    def _adopting(cls, ptr, hook=None):
-        study = cls.__new__(cls)
-        study._ptr = ptr
-        study._hook = hook  # the model's allocator: solvers of the view keep it
-        study._runs = 0  # runs under way (on other Python threads)
-        study._view = None  # a weak reference to the model view handed out
-        study._view_finalizers = set()
-        study._finalizer = weakref.finalize(study, _free_study, ptr, study._view_finalizers,
-                                            hook)
-        return study
-
-    # ---- reading ----
-
-    @classmethod
-    def read_text(cls, source, model):
-        """A study from study-file text (str, or bytes as they are), read
-        against `model`, a finalized Model whose links, joints and points it
-        names (kl_study_read). The text's `model` statement, if any, is only
-        recorded (model_path). The study holds the model: closing `model`
-        afterwards is safe. Errors raise KinloopError with line and column
-        where the text has them. Solves nothing: see prepare."""
-        data = data_of(source, "kl_study_read")
-        if not isinstance(model, Model):
-            refuse("kl_study_read", "model", "must be a Model; got %s" % type(model).__name__)
-        return cls._adopting(read_handle(_api.kl_study_read, "read_text", data, len(data),
-                                         model._handle), model._hook)
-
-    @classmethod
-    def read_file(cls, path):
-        """A study from the study file at `path` and the model file its
-        `model` statement names, relative to the study file
-        (kl_study_read_file). Solves nothing: see prepare."""
-        return cls._adopting(read_handle(_api.kl_study_read_file, "read_file(%r)" % (path,),
-                                         path))
+    def _adopt(self, ptr, model=None):
+        """As StudyMethods._adopt, keeping the allocator of `model`, the
+        Model read against (solvers of the view use it; the study may be
+        the model's last holder)."""
+        self._hook = model._hook if model is not None else None
+        self._runs = 0  # runs under way (on other Python threads)
+        self._view = None  # a weak reference to the model view handed out
+        super()._adopt(ptr, self._hook)
 
     def prepare(self):
         """kl_study_prepare (see StudyMethods.prepare); returns the study, so
@@ -93,7 +57,10 @@ class Study(_api.StudyMethods, Handle):
         cannot be closed (RuntimeError)."""
         if self._runs:
             raise RuntimeError("kinloop: a study cannot be closed while it runs")
-        self._finalizer()
+        view = self._view() if self._view is not None else None
+        if view is not None:
+            view.close()
+        super().close()
 
     def __repr__(self):
         if self.closed:
@@ -122,9 +89,7 @@ class Study(_api.StudyMethods, Handle):
         study alive; closing the study closes the view, not its solvers."""
         view = self._view() if self._view is not None else None
         if view is None or view.closed:
-            view = Model._adopting(_api.kl_study_model(self._handle), self._hook, owner=self)
-            self._view_finalizers.clear()  # the earlier view's are dead
-            self._view_finalizers.add(view._finalizer)
+            view = Model._adopting(_api.kl_study_model(self._handle), self._hook, self)
             self._view = weakref.ref(view)
         return view
 

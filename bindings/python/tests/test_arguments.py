@@ -118,6 +118,8 @@ def test_strings_without_nul_and_encodable(tmp_path):
     refused(m.write_file, str(tmp_path / "y.kinloop\0z"))
     assert not os.path.exists(tmp_path / "y.kinloop")
     refused(kl.Model.read_text, "kinloop-model 1\n\0")
+    refused(kl.Model.read_text, None)  # no text at all, not an empty one
+    refused(kl.Model.read_text, None, allocator=lambda ptr, old, new: 0)
 
 
 def test_struct_fields_go_under_the_rule(solved):

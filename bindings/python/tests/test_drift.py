@@ -181,3 +181,13 @@ def test_version_matches_the_header():
     assert kl.version() == kl.library_version == "%d.%d.%d" % (major, minor, patch)
     assert kl.version_number() == major * 10000 + minor * 100 + patch
     assert re.search(r"#define KL_GROUND (\d+)", TEXT).group(1) == str(kl.GROUND)
+
+
+def test_lifetimes_and_makers_are_generated():
+    # kl_<h>_free and the makers are bound by the generated part of each
+    # class; a handle with nothing else to bind (kl_cam) is generated whole
+    assert kl.Cam is _api.Cam
+    for h in ("model", "solver", "study", "cam"):
+        assert _api.GENERATED["kl_%s_free" % h] == "%sMethods.close" % h.capitalize()
+    assert _api.GENERATED["kl_model_read_file"] == "ModelMethods.read_file"
+    assert _api.GENERATED["kl_study_read"] == "StudyMethods.read_text"

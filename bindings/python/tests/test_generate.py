@@ -142,3 +142,67 @@ def test_the_array_roles_bind_what_they_say(extended):
         == [("values", "output_count"), ("sample_status", None)]
     gateway = generate.octave_gateway(header)
     assert "c.rows(c.arg(2), values_columns" in gateway and "cap *= 4" in gateway
+
+
+def test_handles_and_makers_are_generated():
+    """Each handle's lifetime comes from its kl_<h>_free (close, freed once)
+    and its makers: without arguments the constructor, with them a class
+    method by the grammar (a text read with its length: read_text), raising
+    the kl_io_error it fills. A handle with nothing else to bind (kl_cam)
+    gets its whole class."""
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    bs = generate.bindings(header)
+    found = {b.name: b for b in bs}
+    assert [generate.py_maker_name(found[n]) for n in (
+        "kl_cam_new", "kl_model_new", "kl_model_read", "kl_model_read_file",
+        "kl_study_read", "kl_study_read_file")] == [
+        "__init__", "__init__", "read_text", "read_file", "read_text", "read_file"]
+    assert generate.standalone(bs, "cam")
+    assert not any(generate.standalone(bs, h) for h in ("model", "solver", "study"))
+    api = generate.python_api(header)
+    assert "class Cam(CamMethods):" in api and "class Model(" not in api
+    assert "        self._finalizer = weakref.finalize(self, _free_solver, ptr, keep)" in api
+    assert "    lib.kl_study_free(ptr)" in api  # looked up when it frees
+    assert "    def read_text(cls, text, model):" in api
+    assert "to_handle(model, 'model', 'kl_study_read', 'model')" in api
+    assert "return cls._adopting(made, model)" in api  # the study keeps its model's hook
+    assert "check_report(err.status or Status.ENOMEM, err, 'read_file', path)" in api
+
+
+ANOTHER = """
+/** Probes output `o` (made up for this test). Returns KL_OK, or KL_ESINGULAR.
+ * With KL_ESINGULAR, `r` still receives what was found. */
+KL_API int kl_solver_probe(kl_solver *s, const kl_output *o, kl_range *r);
+/** Sets the solver's range (made up for this test). Returns KL_OK. */
+KL_API int kl_solver_set_bounds(kl_solver *s, const kl_range *r);
+/** The solver's range into `r` (made up for this test). Returns KL_OK. */
+KL_API int kl_solver_bounds(const kl_solver *s, kl_range *r);
+"""
+
+
+def test_what_a_failure_keeps_and_setters_of_structs(monkeypatch):
+    """A struct the doc says a failure 'still receives' is the error's
+    result; a setter of one struct whose getter reads it back starts from
+    the current value, keywords replacing its fields."""
+    with open(HEADER, encoding="utf-8") as f:
+        text = f.read()
+    end = text.rindex("#ifdef __cplusplus")
+    header = generate.Header(text[:end] + ANOTHER + text[end:])
+    monkeypatch.setitem(generate.POINTERS, "kl_solver_probe", {"o": "one"})
+    found = {b.name: b for b in generate.bindings(header)}
+    status, kept = found["kl_solver_probe"].kept
+    assert (status, kept.name) == ("KL_ESINGULAR", "r")
+    assert found["kl_output_range"].kept[1].name == "range"
+    assert found["kl_output_value"].kept is None
+    assert found["kl_solver_set_bounds"].current == "bounds"
+    assert found["kl_solver_set_options"].current == "options"
+    assert found["kl_model_set_sweep"].current == "sweep"
+    assert found["kl_model_set_gravity"].current is None
+    api = generate.python_api(header)
+    assert "self._check(status, result=value_of(r) if status == Status.ESINGULAR else None)" \
+        in api
+    assert "def set_bounds(self, bounds=None, **fields):" in api
+    assert "bounds = with_fields(self.bounds if bounds is None else bounds, 'Range', fields, " \
+        "'kl_solver_set_bounds', 'bounds')" in api
+    compile(api, "_api.py", "exec")
