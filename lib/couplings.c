@@ -99,10 +99,13 @@ int kl_add_gear_pair(kl_model *m, int joint1, int joint2, double radius1,
     return kli_fail(m->error, KL_ENONFINITE,
                     "%s: a radius is NaN or infinite (%g, %g)", what, radius1,
                     radius2);
-  if (!(radius1 > 0.0) || !(radius2 > 0.0))
+  if (!(radius1 > 0.0) || !(radius2 > 0.0)) {
+    char r1[48], r2[48];
     return kli_fail(m->error, KL_ERADIUS,
-                    "%s: pitch radii must be positive, not %g and %g", what,
-                    radius1, radius2);
+                    "%s: pitch radii must be positive, not %s and %s", what,
+                    kli_length_value(m, radius1, 6, r1, sizeof r1),
+                    kli_length_value(m, radius2, 6, r2, sizeof r2));
+  }
   p1 = kli_joint_point_on(m, joint1, carrier);
   p2 = kli_joint_point_on(m, joint2, carrier);
   d = hypot(p1[0] - p2[0], p1[1] - p2[1]);

@@ -1300,10 +1300,13 @@ int kl_add_arc_slot(kl_model *m, int a, double cx, double cy, double r, int b,
     return kli_fail(m->error, KL_ENONFINITE,
                     "add arc slot joint on %s: the radius is NaN or infinite",
                     kli_link_label(m, a, la, sizeof la));
-  if (r <= 0.0)
+  if (r <= 0.0) {
+    char radius[48];
     return kli_fail(m->error, KL_ERADIUS,
-                    "add arc slot joint on %s: the radius %g is not positive",
-                    kli_link_label(m, a, la, sizeof la), r);
+                    "add arc slot joint on %s: the radius %s is not positive",
+                    kli_link_label(m, a, la, sizeof la),
+                    kli_length_value(m, r, 6, radius, sizeof radius));
+  }
   return add_curved(m, KL_JOINT_ARC_SLOT, a, cx, cy, r, NULL, b, bx, by);
 }
 

@@ -627,6 +627,7 @@ START_TEST(bad_couplings_are_refused) {
   ck_assert_int_eq(kl_add_gear_pair(m, jb, jc, 10, 20), KL_ENOCOMMON);
   ck_assert_int_eq(kl_add_gear_pair(m, ja, jb, 0, 30), KL_ERADIUS);
   ck_assert_int_eq(kl_add_gear_pair(m, ja, jb, -10, 40), KL_ERADIUS);
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "not -10 mm and 40 mm"));
   ck_assert_int_eq(kl_add_gear_pair(m, ja, jb, NAN, 20), KL_ENONFINITE);
   ck_assert_int_eq(kl_add_gear_pair(m, ja, 99, 10, 20), KL_EID);
   ck_assert_int_eq(kl_add_gear_pair(m, jb, slide, 10, 20), KL_EKIND);

@@ -338,6 +338,10 @@ START_TEST(bad_slots_are_refused_and_change_nothing) {
   ck_assert_int_eq(kl_add_arc_slot(m, KL_GROUND, 0, 0, 0.0, a, 0, 0), KL_ERADIUS);
   ck_assert_int_eq(kl_add_arc_slot(m, KL_GROUND, 0, 0, -2.0, a, 0, 0), KL_ERADIUS);
   ck_assert_ptr_nonnull(strstr(kl_model_error(m), "radius -2 is not positive"));
+  /* with the model's length unit recorded, the radius carries its symbol */
+  ck_assert_int_eq(kl_model_set_units(m, KL_LENGTH_MM, KL_ANGLE_DEG), KL_OK);
+  ck_assert_int_eq(kl_add_arc_slot(m, KL_GROUND, 0, 0, -2.0, a, 0, 0), KL_ERADIUS);
+  ck_assert_ptr_nonnull(strstr(kl_model_error(m), "radius -2 mm is not positive"));
   ck_assert_int_eq(kl_add_arc_slot(m, KL_GROUND, 0, 0, NAN, a, 0, 0), KL_ENONFINITE);
   ck_assert_int_eq(kl_add_arc_slot(m, a, 0, 0, 1.0, a, 0, 0), KL_ESELFJOINT);
   ck_assert_int_eq(kl_add_curve_slot(m, KL_GROUND, 3, line, 0, 7, 0, 0), KL_EID);
