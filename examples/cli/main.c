@@ -615,6 +615,14 @@ static int parse_options(cli_options *o, int argc, char **argv) {
   return CLI_EXIT_OK;
 }
 
+/* The commands on a model, in enum cli_command's order (study reads a
+ * study file instead: its entry is never called). */
+typedef int (*model_command)(const cli_model *cm, const cli_options *o);
+static const model_command model_commands[CLI_NCOMMANDS] = {
+    cli_cmd_check,  cli_cmd_solve,  cli_cmd_sweep,  cli_cmd_draw,
+    cli_cmd_plot,   cli_cmd_write,  cli_cmd_demo,   NULL,
+    cli_cmd_forces, cli_cmd_reach,  cli_cmd_timeline, cli_cmd_follower};
+
 static int run(cli_options *o) {
   cli_model cm;
   int st;
@@ -627,41 +635,7 @@ static int run(cli_options *o) {
     cli_model_free(&cm);
     return st;
   }
-  switch (o->command) {
-  case CLI_CHECK:
-    st = cli_cmd_check(&cm, o);
-    break;
-  case CLI_SOLVE:
-    st = cli_cmd_solve(&cm, o);
-    break;
-  case CLI_SWEEP:
-    st = cli_cmd_sweep(&cm, o);
-    break;
-  case CLI_DRAW:
-    st = cli_cmd_draw(&cm, o);
-    break;
-  case CLI_PLOT:
-    st = cli_cmd_plot(&cm, o);
-    break;
-  case CLI_WRITE:
-    st = cli_cmd_write(&cm, o);
-    break;
-  case CLI_FORCES:
-    st = cli_cmd_forces(&cm, o);
-    break;
-  case CLI_REACH:
-    st = cli_cmd_reach(&cm, o);
-    break;
-  case CLI_TIMELINE:
-    st = cli_cmd_timeline(&cm, o);
-    break;
-  case CLI_FOLLOWER:
-    st = cli_cmd_follower(&cm, o);
-    break;
-  default:
-    st = cli_cmd_demo(&cm, o);
-    break;
-  }
+  st = model_commands[o->command](&cm, o);
   cli_model_free(&cm);
   return st;
 }
