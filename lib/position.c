@@ -20,13 +20,8 @@
  * (rad, slides in scale units) and this much smaller than the one before. */
 #define KLI_QUADRATIC_STEP 1e-5
 #define KLI_QUADRATIC_RATIO 1e-2
-/* The first step's size, as a fraction of the held factors' rcond, up to
- * which they measure the correction after it (held_factors_settle). */
-#define KLI_HELD_RCOND_SHARE 1e-2
-/* The largest first-order move of a start (rad, slides in scale units),
- * and the largest second-order term as a fraction of it. */
+/* The largest first-order move of a start (rad, slides in scale units). */
 #define KLI_TANGENT_MAX 0.1
-#define KLI_CURVE_MAX 0.5
 /* Damping factors tried, each ten times the last, before giving up. */
 #define KLI_DAMPING_TRIES 16
 /* Newton steps at most that polish a solved position down to the
@@ -157,17 +152,11 @@ static double slope_along(kl_solver *s, const double *f, const double *dq) {
 
 /*
  * Continuation built in: from a solved position whose factors are still at
- * hand, the change of the unknowns along the straight input path u + t du
- * to second order, q' = -J^-1 (dF/du) du and q'' = -J^-1 B(x', x') (the
- * velocity and acceleration stages' solves, with du as the input rate and
- * no input acceleration), moves the start to q + q' + q''/2 on its branch.
- * Used only when the first-order move is small, so that it cannot carry the
- * start to another branch; the second-order term only while it is smaller
- * than the first, where the series is seen to converge.
+ * hand, the first-order change of the unknowns for the change of inputs,
+ * dq = -J^-1 (dF/du) du, moves the start along its branch. Used only when
+ * that move is small, so that it cannot carry the start to another branch.
  */
 static void predict_from_tangent(kl_solver *s, double *q) {
-  /* x_base is scratch here: the inputs' share is set after the start */
-  double *tangent = s->rhs, *curve = s->f_next, *x_rate = s->x_base, move;
   int i, moved = 0;
   if (!s->st.position_solved || s->st.last_attempt != KL_OK ||
       !s->factors_near || s->dense.singular)
@@ -178,19 +167,15 @@ static void predict_from_tangent(kl_solver *s, double *q) {
   }
   if (!moved || s->n == 0)
     return;
-  kli_input_terms(s, s->u_unit, tangent);
-  kli_rate_solve(s, tangent, s->u_unit, x_rate);
-  move = scaled_norm(s, tangent);
-  if (move > KLI_TANGENT_MAX)
-    return;
-  memset(curve, 0, (size_t)s->nrows * sizeof *curve);
-  kli_add_second(s, x_rate, x_rate, curve);
-  kli_solve_rows(s, curve);
-  if (!(0.5 * scaled_norm(s, curve) <= KLI_CURVE_MAX * move))
-    for (i = 0; i < s->n; i++)
-      curve[i] = 0.0;
+  kli_input_terms(s, s->u_unit, s->rhs);
+  kli_keep_rows(s->model, s->dir, s->rhs);
   for (i = 0; i < s->n; i++)
-    q[i] += tangent[i] + 0.5 * curve[i];
+    s->rhs[i] = -s->rhs[i];
+  kli_dense_solve(&s->dense, s->rhs);
+  if (scaled_norm(s, s->rhs) > KLI_TANGENT_MAX)
+    return;
+  for (i = 0; i < s->n; i++)
+    q[i] += s->rhs[i];
 }
 
 /* The loop furthest from closing at pose p, for messages (every loop row
@@ -232,35 +217,6 @@ typedef struct {
   double *q, *q_next, *f, *f_next;
   double fnorm;
 } newton_iterate;
-
-/*
- * The stopping rule's correction at the iterate a first Newton step has
- * just reached, measured with the factors held, a step `step` back, where
- * there is no step before to show quadratic convergence (the predicted
- * start was that close). For a model with a flat plan every column of J
- * turns with its own unknown, so |J(q1) - J(q0)|1 <= step (1 + step / 2)
- * |J(q0)|1, and with step <= rcond / 100 the correction c of the held
- * factors and Newton's differ by at most 1.1% in the 1-norm: Newton's is
- * below step_tolerance when 2 n |c|inf is (docs/theory.md 5.3). When they
- * settle it, *rcond gets their condition, which the singular test reads.
- */
-static int held_factors_settle(kl_solver *s, const newton_iterate *it,
-                               double step, double *rcond) {
-  double held;
-  int i;
-  if (!s->plan.usable)
-    return 0;
-  held = watch_condition(s);
-  if (!(step <= KLI_HELD_RCOND_SHARE * held))
-    return 0;
-  for (i = 0; i < s->n; i++)
-    s->rhs[i] = -it->f[i];
-  kli_dense_solve(&s->dense, s->rhs);
-  if (!(2.0 * s->n * scaled_norm(s, s->rhs) <= s->opt.step_tolerance))
-    return 0;
-  *rcond = held;
-  return 1;
-}
 
 static void accept_trial(newton_iterate *it, double fnorm) {
   kli_pose *p = it->cur;
@@ -424,7 +380,7 @@ static void commit(kl_solver *s, const kli_pose *p, double rcond,
 
 int kl_solve_position(kl_solver *s, const double *inputs) {
   newton_iterate it;
-  double ftol, prev_step = HUGE_VAL, step = HUGE_VAL, before, rcond = -1.0;
+  double ftol, prev_step = HUGE_VAL, step = HUGE_VAL, before;
   int st, iter, singular = 0, slow = 0, backtracks, moved, full_newton;
   int factored_at_solution = 1;
   char in[200];
@@ -518,9 +474,8 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
      * factors one such step back serve the singular test and the next
      * solve's predictor; the rate stages factor at the solution. (Near a
      * singular position convergence is linear and this never holds.) */
-    if (full_newton && it.fnorm <= ftol && step <= KLI_QUADRATIC_STEP &&
-        (iter > 0 ? step <= KLI_QUADRATIC_RATIO * prev_step
-                  : held_factors_settle(s, &it, step, &rcond))) {
+    if (full_newton && iter > 0 && it.fnorm <= ftol &&
+        step <= KLI_QUADRATIC_STEP && step <= KLI_QUADRATIC_RATIO * prev_step) {
       iter++;
       factored_at_solution = 0;
       break;
@@ -531,7 +486,7 @@ int kl_solve_position(kl_solver *s, const double *inputs) {
   s->stats.iterations = iter;
   s->stats.residual = it.fnorm;
   s->stats.step = singular ? NAN : step;
-  s->stats.rcond = rcond >= 0.0 ? rcond : watch_condition(s);
+  s->stats.rcond = watch_condition(s);
   if (singular || s->stats.rcond < s->singular_rcond) {
     st = kli_fail(s->error, KL_ESINGULAR,
                   "solve position: the Jacobian is singular at the solution "

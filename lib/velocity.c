@@ -22,16 +22,12 @@ void kli_add_second(kl_solver *s, const double *va, const double *vb,
     kli_loops_add_second(s->model, &s->st.pose, va, vb, rhs);
 }
 
-void kli_solve_rows(kl_solver *s, double *rhs) {
+void kli_rate_solve(kl_solver *s, double *rhs, const double *w, double *out) {
   int i;
   kli_keep_rows(s->model, s->dir, rhs);
   for (i = 0; i < s->n; i++)
     rhs[i] = -rhs[i];
   kli_dense_solve(&s->dense, rhs);
-}
-
-void kli_rate_solve(kl_solver *s, double *rhs, const double *w, double *out) {
-  kli_solve_rows(s, rhs);
   if (s->plan.usable)
     kli_plan_expand(&s->plan, rhs, w, out);
   else

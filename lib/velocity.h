@@ -13,10 +13,8 @@ void kli_input_terms(kl_solver *s, const double *w, double *rhs);
  * terms of rates va and vb over every row. */
 void kli_add_second(kl_solver *s, const double *va, const double *vb,
                     double *rhs);
-/* Solves J q = -rhs in place for the loop rows in rhs (2 per loop,
- * reduced to the kept rows in place): rhs then holds q (n values). */
-void kli_solve_rows(kl_solver *s, double *rhs);
-/* kli_solve_rows, then out = E q + G w. */
+/* Solves J q = -rhs for the loop rows in rhs (2 per loop, reduced to the
+ * kept rows in place) and writes out = E q + G w. */
 void kli_rate_solve(kl_solver *s, double *rhs, const double *w, double *out);
 
 #endif
