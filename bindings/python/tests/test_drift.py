@@ -191,3 +191,24 @@ def test_lifetimes_and_makers_are_generated():
         assert _api.GENERATED["kl_%s_free" % h] == "%sMethods.close" % h.capitalize()
     assert _api.GENERATED["kl_model_read_file"] == "ModelMethods.read_file"
     assert _api.GENERATED["kl_study_read"] == "StudyMethods.read_text"
+
+
+RESULT_TUPLES = sorted(n for n in _api.__all__ if isinstance(getattr(_api, n), type) and
+                       issubclass(getattr(_api, n), tuple))
+
+
+@pytest.mark.parametrize("name", RESULT_TUPLES)
+def test_result_tuples_are_named_after_the_c_parameters(name):
+    """A result tuple's fields are the C function's filled parameters, in
+    the header's order (its C result first, as `result`), and its method
+    returns it."""
+    tup = getattr(_api, name)
+    function = re.search(r"of (kl_\w+)", tup.__doc__).group(1)
+    params = dict(DECLARED)[function]
+    filled = [re.sub(r"\[\d+\]", "", p).replace("*", " ").split()[-1] for p in params.split(",")
+              if ("*" in p or "[" in p) and not p.strip().startswith("const") and
+              p.split()[0] not in ("kl_model", "kl_solver", "kl_study", "kl_cam")]
+    fields = [f.rstrip("_") for f in tup._fields]
+    assert fields in (filled, ["result"] + filled) and len(fields) > 1
+    home = _api.GENERATED[function]
+    assert home.split(".")[-1].replace("_", "") == name.lower()
