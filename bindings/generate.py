@@ -1195,6 +1195,24 @@ def py_maker_name(b):
     return b.method + ("_text" if any(a.kind == "length" for a in b.args) else "")
 
 
+def py_lists(bs, h):
+    """(count, getter) of each list a kl_<h> holds: a property
+    kl_<h>_<x>_count and a getter kl_<h>_<x> or kl_<h>_<x>_name of one
+    index, read whole as the list <getter>s (loops, output_names)."""
+    plain = {b.name: b for b in bs if b.plain and b.handle == h}
+    found = []
+    for count in plain.values():
+        x = re.fullmatch(r"kl_%s_(\w+)_count" % h, count.name)
+        if not (x and count.is_property):
+            continue
+        for name in ("kl_%s_%s" % (h, x.group(1)), "kl_%s_%s_name" % (h, x.group(1))):
+            getter = plain.get(name)
+            if getter and [(a.kind, a.ctype) for a in getter.inputs] == [("scalar", "int")] \
+                    and "%ss" % getter.method not in [b.method for b in plain.values()]:
+                found.append((count, getter))
+    return found
+
+
 def standalone(bs, h):
     """Whether kl_<h> needs no hand code: freed by kl_<h>_free, and every
     function taking or making it plain or a maker."""
@@ -1232,6 +1250,11 @@ def py_handle_class(header, bs, h):
     for b in bs:
         if b.plain and b.handle == h:
             out += py_method(b)
+    for count, getter in py_lists(bs, h):
+        out += ["    @property", "    def %ss(self):" % getter.method,
+                '        """%s of each, in order (%s of them)."""' % (getter.name, count.name),
+                "        return [self.%s(k) for k in range(self.%s)]" % (getter.method,
+                                                                       count.method), ""]
     if free is not None:
         out = ["", "def _free_%s(ptr, keep):" % h,
                "    lib.%s(ptr)  # looked up now: a test may count the calls" % free.name,

@@ -212,3 +212,22 @@ def test_result_tuples_are_named_after_the_c_parameters(name):
     assert fields in (filled, ["result"] + filled) and len(fields) > 1
     home = _api.GENERATED[function]
     assert home.split(".")[-1].replace("_", "") == name.lower()
+
+
+def test_lists_are_read_from_their_counts():
+    """Every kl_<h>_<x>_count(handle) with a getter kl_<h>_<x> or
+    kl_<h>_<x>_name of (handle, int index, ...) gives the list property
+    <getter>s."""
+    declared = dict(DECLARED)
+    lists = []
+    for name, params in declared.items():
+        m = re.fullmatch(r"kl_(model|solver|study|cam)_(\w+)_count", name)
+        if not m or len(params.split(",")) != 1:
+            continue
+        for getter in ("kl_%s_%s" % m.groups(), "kl_%s_%s_name" % m.groups()):
+            given = declared.get(getter, "").split(",")
+            if len(given) >= 2 and re.fullmatch(r"\s*int \w+\s*", given[1]):
+                lists.append((CLASSES["kl_" + m.group(1)], getter[4 + len(m.group(1)):] + "s"))
+    assert (kl.Model, "loops") in lists and (kl.Study, "output_names") in lists
+    for cls, prop in lists:
+        assert isinstance(inspect.getattr_static(cls, prop), property), (cls, prop)

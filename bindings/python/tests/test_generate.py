@@ -251,3 +251,18 @@ def test_structs_by_keyword_and_several_results(monkeypatch):
     monkeypatch.setitem(generate.POINTERS, "kl_model_trial", generate.POINTERS["kl_solver_trial"])
     with pytest.raises(SystemExit, match="would both give a Trial"):
         generate.python_api(header)
+
+
+def test_lists_from_counts():
+    """A count property and a getter of one index (kl_<h>_<x>, or
+    kl_<h>_<x>_name) give the list <getter>s; a count taking more than the
+    handle (kl_model_curve_count) gives none."""
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    bs = generate.bindings(header)
+    model = [(c.name, g.method) for c, g in generate.py_lists(bs, "model")]
+    assert ("kl_model_loop_count", "loop") in model
+    assert ("kl_model_link_count", "link_name") in model
+    assert not any(c == "kl_model_curve_count" for c, _ in model)
+    api = generate.python_api(header)
+    assert "        return [self.output_name(k) for k in range(self.output_count)]" in api
