@@ -820,7 +820,7 @@ def py_checked_call(b):
             conversions.append("%s(%s, F, %r)" % (rule, n, p.name))
         elif p.const and p.pointers == 1 and p.base.startswith("kl_") and \
                 p.base[3:] not in HANDLES:
-            conversions.append("struct_in(%s, H.%s, F, %r)" % (n, p.base, p.name))
+            conversions.append("struct_in(%s, to_%s, F, %r)" % (n, p.base, p.name))
         else:
             conversions.append(n)
     if conversions == names:
@@ -940,13 +940,15 @@ def py_method(b):
         elif a.kind == "array_in":
             (optional if a is omissible else params).append(n + "=()" if a is omissible else n)
             ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
+            rule = "to_" + a.struct.name if a.struct else PY_CONVERT[a.ctype]
             if a.per == 2:
                 pre.append("%s = flat_pairs(%s, %r, %r)" % (n, n, f, a.name))
             if a.rows:
                 pre.append("%s, %s_n = rows_of(%s, lib.kl_%s_%s(self._handle), %r, %r)" % (
                     n, n, n, b.handle, a.rows, f, a.name))
             else:
-                pre.append("%s, %s_n = array_of(%s, %s, %r, %r)" % (n, n, n, ctype, f, a.name))
+                pre.append("%s, %s_n = array_of(%s, %s, %s, %r, %r)" % (n, n, n, ctype, rule, f,
+                                                                       a.name))
             if a.per == 2:
                 pre.append("%s_n //= 2" % n)
             counts.setdefault(a.count, []).append(a.name)
@@ -1056,6 +1058,30 @@ def py_result_tuples(bs):
                 "%s.__doc__ = %r" % (tup[0], "The results of %s, named after its "
                                      "parameters: %s." % (b.name, ", ".join(tup[1]))), ""]
     return out
+
+
+def py_converter(header, s):
+    """to_<struct>: a C struct from a value with its fields as attributes
+    (a value type, or any object), each field under the argument rule of its
+    C type, read from the header; a struct of the type itself passes as it
+    is. The size of a sized struct is set on creation."""
+    fields = s.value_fields()
+    out = ["def to_%s(value, F, A):" % s.name,
+           '    """A %s from `value`, each field under the argument rule."""' % s.name,
+           "    if isinstance(value, H.%s):" % s.name, "        return value",
+           "    c, v = H.%s(), fields_of(value, %r, %r, F, A)" % (
+               s.name, tuple(py_name(fl.name) for fl in fields), s.name)]
+    for k, fl in enumerate(fields):
+        where = "A + %r" % ("." + py_name(fl.name))
+        if fl.length is not None:
+            value = "to_chars(v[%d], %d, F, %s)" % (k, fl.length, where)
+        elif header.struct(fl.ctype) is not None:
+            value = "to_%s(v[%d], F, %s)" % (fl.ctype, k, where)
+        else:
+            value = "%s(v[%d], F, %s)" % (PY_CONVERT[fl.ctype], k, where)
+        out.append("    setattr(c, %r, %s)" % (fl.name, value) if keyword.iskeyword(fl.name)
+                   else "    c.%s = %s" % (fl.name, value))
+    return out + ["    return c", "", ""]
 
 
 def py_default(header, s, fl, defaults):
@@ -1274,9 +1300,9 @@ def python_api(header):
            "Solver and Study inherit.", "", GENERATED + '"""', "", "import collections", "import ctypes",
            "import dataclasses", "import weakref", "", "import numpy as np", "",
            "from . import _header as H",
-           "from ._args import (array_of, flat_pairs, rows_of, same_count, struct_in, to_double,",
-           "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
-           "                    to_string, to_text, with_fields)",
+           "from ._args import (array_of, fields_of, flat_pairs, rows_of, same_count, struct_in,",
+           "                    to_chars, to_double, to_handle, to_int, to_long, to_path,",
+           "                    to_point, to_size, to_string, to_text, with_fields)",
            "from ._core import (VALUE_TYPES, Handle, KinloopError, as_enum, check_const,",
            "                    check_report, text, value_of)",
            "from ._header import Status",
@@ -1289,6 +1315,9 @@ def python_api(header):
         out += py_checked_call(b)
     out += ["", "# ---- the results of functions giving several ----", ""]
     out += py_result_tuples(bs)
+    out += ["", "# ---- the structs from what the caller gives ----", ""]
+    for s in header.structs:
+        out += py_converter(header, s)
     out += ["", "# ---- the structs as values ----", ""]
     for s in header.structs:
         out += py_value_type(header, s, bs)

@@ -10,7 +10,7 @@ import ctypes
 import numpy as np
 
 from . import _api, raw
-from ._args import array_of, refuse, to_int, with_fields
+from ._args import array_of, refuse, to_double, to_int, with_fields
 from ._core import KinloopError, as_enum
 from ._header import MAX_STEPS, Status
 from .model import row_layout
@@ -95,7 +95,8 @@ class Solver(_api.SolverMethods):
         if len(given) != count:
             refuse(function, argument, "must hold one value per input (%d); got %d"
                    % (count, len(given)))
-        return array_of(given, ctypes.c_double, function, argument)[0] if count else None
+        values, _ = array_of(given, ctypes.c_double, to_double, function, argument)
+        return values if count else None
 
     # ---- states and assembly modes ----
 
@@ -199,7 +200,7 @@ class Solver(_api.SolverMethods):
         function = "kl_cycle_table"
         c = with_fields(cycle if cycle is not None else _api.Cycle(), "Cycle", fields, function,
                         "cycle")
-        loads, count = array_of(loads, raw.kl_load, function, "loads")
+        loads, count = array_of(loads, raw.kl_load, _api.to_kl_load, function, "loads")
         mh = self._model_ptr
         dtype = cycle_table_dtype(self._input_count, _api.kl_model_joint_count(mh))
         columns = _api.kl_cycle_columns(mh)

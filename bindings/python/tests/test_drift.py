@@ -231,3 +231,19 @@ def test_lists_are_read_from_their_counts():
     assert (kl.Model, "loops") in lists and (kl.Study, "output_names") in lists
     for cls, prop in lists:
         assert isinstance(inspect.getattr_static(cls, prop), property), (cls, prop)
+
+
+@pytest.mark.parametrize("name", sorted(_core.VALUE_TYPES, key=lambda t: t.__name__))
+def test_every_struct_has_its_converter(name):
+    """to_kl_<struct> (generated from the header's declaration) makes the C
+    struct from its value type field by field, passes the struct itself as
+    it is, and refuses a value lacking a field, naming the struct's fields."""
+    convert = getattr(_api, "to_" + name.__name__)
+    value = _core.value_of(name())  # zeros, structs inside as their value types
+    assert isinstance(value, _core.VALUE_TYPES[name])
+    c = convert(value, "kl_f", "arg")
+    assert isinstance(c, name) and convert(c, "kl_f", "arg") is c
+    assert _core.value_of(c) == value
+    with pytest.raises(kl.KinloopError, match=r"kl_f: arg has no field \w+ \(a %s needs" %
+                       name.__name__):
+        convert(object(), "kl_f", "arg")

@@ -5,6 +5,7 @@ kinds its C types say; a pointer the C type cannot explain is left to hand
 code unless the generator's POINTERS table says what it is."""
 
 import os
+import re
 import sys
 
 import pytest
@@ -266,3 +267,18 @@ def test_lists_from_counts():
     assert not any(c == "kl_model_curve_count" for c, _ in model)
     api = generate.python_api(header)
     assert "        return [self.output_name(k) for k in range(self.output_count)]" in api
+
+
+def test_struct_converters_follow_the_declarations():
+    """to_<struct> puts each field of the header's declaration under the
+    rule of its C type: a char array by its length, a struct inside by its
+    own converter, a field named as a keyword read with an underscore."""
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    cycle = "\n".join(generate.py_converter(header, header.struct("kl_cycle")))
+    assert "    setattr(c, 'from', to_double(v[1], F, A + '.from_'))" in cycle
+    assert "    c.steps = to_int(v[3], F, A + '.steps')" in cycle
+    summary = "\n".join(generate.py_converter(header, header.struct("kl_cycle_summary")))
+    assert "to_kl_cycle_peak(v[" in summary and "c.size" not in summary
+    report = "\n".join(generate.py_converter(header, header.struct("kl_io_error")))
+    assert re.search(r"c\.message = to_chars\(v\[\d\], \d+, F, A \+ '\.message'\)", report)
