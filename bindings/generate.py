@@ -567,6 +567,15 @@ class Binding:
         self.current = setter.group(1) if getter and len(ins) == 1 and \
             ins[0].kind == "struct_in" and \
             [p.base for p in getter.params[1:]] == [ins[0].struct.name] else None
+        # Python: one struct read whose fields the caller may give as
+        # keywords (set_options(tolerance=...), cycle_summarize(speed=...)),
+        # as (argument, Python name, the value fields not given come from):
+        # a setter's current value, or the struct's kl_<struct>_default
+        defaulted = [a for a in ins if a.kind == "struct_in" and
+                     header.function("kl_%s_default" % a.struct.name[3:]) is not None]
+        self.keywords = (ins[0], self.current, "self." + self.current) if self.current else \
+            (defaulted[0], defaulted[0].struct.name[3:],
+             "%s()" % camel(defaulted[0].struct.name[3:])) if len(defaulted) == 1 else None
         # a struct it fills on a failure too ("With KL_E..., `range` still
         # receives ..."): that failure carries it (Python: the error's result)
         kept = re.search(r"\bWith (KL_E\w+)\b[^.]*?`(\w+)` still receives", f.doc)
@@ -811,7 +820,7 @@ def py_checked_call(b):
             conversions.append("%s(%s, F, %r)" % (rule, n, p.name))
         elif p.const and p.pointers == 1 and p.base.startswith("kl_") and \
                 p.base[3:] not in HANDLES:
-            conversions.append("struct_in(%s, H.%s, F, %r)" % (n, p.base, p.name))
+            conversions.append("struct_in(%s, to_%s, F, %r)" % (n, p.base, p.name))
         else:
             conversions.append(n)
     if conversions == names:
@@ -855,7 +864,12 @@ def py_output_array(a):
 def py_method(b):
     """The generated method (or package function) of a plain function."""
     params, pre, call, results = [], [], [], []
+    # Python's order: what must be given, what may be left out, the keywords
+    optional, keywords = [], []
     late = []  # arrays the function fills, made once their count is known
+    # a trailing array of structs may be left out: none (cycle_summarize(speed=...))
+    last = [a for a in b.inputs if not (b.keywords and a is b.keywords[0])][-1:]
+    omissible = last[0] if last and last[0].kind == "array_in" and last[0].struct else None
     counts = {}
     f = b.name
     for a in b.args:
@@ -901,13 +915,14 @@ def py_method(b):
             call.append("self._handle" if a.const else "self._changing")
         elif a.kind == "struct_in" and b.owner is not None and not call:
             call.append("self")
-        elif a.kind == "struct_in" and b.current:
-            # the current value (its getter's), with keywords replacing fields
-            params += [b.current + "=None", "**fields"]
-            pre.append("%s = with_fields(self.%s if %s is None else %s, %r, fields, %r, %r)" % (
-                b.current, b.current, b.current, b.current, camel(a.struct.name[3:]), f,
-                b.current))
-            call.append(b.current)
+        elif b.keywords and a is b.keywords[0]:
+            # a struct given whole or by fields: keywords replace the fields
+            # of the value given, or else of the current or default value
+            _, name, start = b.keywords
+            keywords += [name + "=None", "**fields"]
+            pre.append("%s = with_fields(%s if %s is None else %s, %r, fields, %r, %r)" % (
+                name, start, name, name, camel(a.struct.name[3:]), f, name))
+            call.append(name)
         elif a.kind == "handle_in":
             params.append(n)
             call.append("to_handle(%s, %r, %r, %r)" % (n, a.ctype, f, a.name))
@@ -923,15 +938,17 @@ def py_method(b):
         elif a.kind == "count":
             call.append(n)
         elif a.kind == "array_in":
-            params.append(n)
+            (optional if a is omissible else params).append(n + "=()" if a is omissible else n)
             ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
+            rule = "to_" + a.struct.name if a.struct else PY_CONVERT[a.ctype]
             if a.per == 2:
                 pre.append("%s = flat_pairs(%s, %r, %r)" % (n, n, f, a.name))
             if a.rows:
                 pre.append("%s, %s_n = rows_of(%s, lib.kl_%s_%s(self._handle), %r, %r)" % (
                     n, n, n, b.handle, a.rows, f, a.name))
             else:
-                pre.append("%s, %s_n = array_of(%s, %s, %r, %r)" % (n, n, n, ctype, f, a.name))
+                pre.append("%s, %s_n = array_of(%s, %s, %s, %r, %r)" % (n, n, n, ctype, rule, f,
+                                                                       a.name))
             if a.per == 2:
                 pre.append("%s_n //= 2" % n)
             counts.setdefault(a.count, []).append(a.name)
@@ -953,9 +970,11 @@ def py_method(b):
             pre.append("%s = H.%s()" % (n, a.struct.name))
             call.append("ctypes.byref(%s)" % n)
             results.append("value_of(%s)" % n)
+        elif a.optional:
+            optional.append(n + ("=%d" % GROW_FROM if a.name == b.grows else "=None"))
+            call.append(n)
         else:
-            params.append(n + ("=%d" % GROW_FROM if a.name == b.grows else "=None")
-                          if a.optional else n)
+            params.append(n)
             call.append(n)
     for count, arrays in counts.items():
         pre.append("%s = same_count(%r, %r, %s)" % (
@@ -1003,7 +1022,8 @@ def py_method(b):
     else:
         body.append(("result = %s" if b.value_result else "%s") % expr)
         body.append("return " + (results[0] if len(results) == 1 else
-                                 "(%s)" % ", ".join(results)))
+                                 "%s(%s)" % (py_results(b)[0], ", ".join(results))))
+    params += optional + keywords
     method = b.handle is not None or b.owner is not None
     pad = " " * (4 if method else 0)
     lines = [pad + "@property"] if b.is_property else []
@@ -1013,6 +1033,55 @@ def py_method(b):
     lines += [pad + "    " + l for l in body]
     lines.append("")
     return lines
+
+
+def py_results(b):
+    """The named tuple of a function giving several results: named after
+    the method in CamelCase (Workspace), its fields after the C parameters
+    filled (the C result first, as `result`); None for one result."""
+    fields = (["result"] if b.value_result else []) + [py_name(a.name) for a in b.outputs]
+    return (camel(b.method), fields) if len(fields) > 1 else None
+
+
+def py_result_tuples(bs):
+    """The named tuples of the plain functions giving several results, once
+    each; two functions whose tuples would share a name stop the generator."""
+    out, made = [], {}
+    for b in bs:
+        tup = py_results(b) if b.plain else None
+        if tup is None:
+            continue
+        if made.setdefault(tup[0], b.name) != b.name:
+            sys.exit("generate.py: %s and %s would both give a %s" % (made[tup[0]], b.name,
+                                                                       tup[0]))
+        out += ["%s = collections.namedtuple(%r, %r)" % (tup[0], tup[0], tup[1]),
+                "%s.__doc__ = %r" % (tup[0], "The results of %s, named after its "
+                                     "parameters: %s." % (b.name, ", ".join(tup[1]))), ""]
+    return out
+
+
+def py_converter(header, s):
+    """to_<struct>: a C struct from a value with its fields as attributes
+    (a value type, or any object), each field under the argument rule of its
+    C type, read from the header; a struct of the type itself passes as it
+    is. The size of a sized struct is set on creation."""
+    fields = s.value_fields()
+    out = ["def to_%s(value, F, A):" % s.name,
+           '    """A %s from `value`, each field under the argument rule."""' % s.name,
+           "    if isinstance(value, H.%s):" % s.name, "        return value",
+           "    c, v = H.%s(), fields_of(value, %r, %r, F, A)" % (
+               s.name, tuple(py_name(fl.name) for fl in fields), s.name)]
+    for k, fl in enumerate(fields):
+        where = "A + %r" % ("." + py_name(fl.name))
+        if fl.length is not None:
+            value = "to_chars(v[%d], %d, F, %s)" % (k, fl.length, where)
+        elif header.struct(fl.ctype) is not None:
+            value = "to_%s(v[%d], F, %s)" % (fl.ctype, k, where)
+        else:
+            value = "%s(v[%d], F, %s)" % (PY_CONVERT[fl.ctype], k, where)
+        out.append("    setattr(c, %r, %s)" % (fl.name, value) if keyword.iskeyword(fl.name)
+                   else "    c.%s = %s" % (fl.name, value))
+    return out + ["    return c", "", ""]
 
 
 def py_default(header, s, fl, defaults):
@@ -1115,13 +1184,6 @@ def py_maker(b):
         elif a.kind == "error_out":
             pre.append("%s = H.%s()" % (n, a.struct.name))
             call.append("ctypes.byref(%s)" % n)
-        elif a.kind == "struct_in" and b.current:
-            # the current value (its getter's), with keywords replacing fields
-            params += [b.current + "=None", "**fields"]
-            pre.append("%s = with_fields(self.%s if %s is None else %s, %r, fields, %r, %r)" % (
-                b.current, b.current, b.current, b.current, camel(a.struct.name[3:]), f,
-                b.current))
-            call.append(b.current)
         elif a.kind == "handle_in":
             params.append(n)
             call.append("to_handle(%s, %r, %r, %r)" % (n, a.ctype, b.name, a.name))
@@ -1157,6 +1219,24 @@ def py_maker_name(b):
     if not [a for a in b.args if a.is_input]:
         return "__init__"
     return b.method + ("_text" if any(a.kind == "length" for a in b.args) else "")
+
+
+def py_lists(bs, h):
+    """(count, getter) of each list a kl_<h> holds: a property
+    kl_<h>_<x>_count and a getter kl_<h>_<x> or kl_<h>_<x>_name of one
+    index, read whole as the list <getter>s (loops, output_names)."""
+    plain = {b.name: b for b in bs if b.plain and b.handle == h}
+    found = []
+    for count in plain.values():
+        x = re.fullmatch(r"kl_%s_(\w+)_count" % h, count.name)
+        if not (x and count.is_property):
+            continue
+        for name in ("kl_%s_%s" % (h, x.group(1)), "kl_%s_%s_name" % (h, x.group(1))):
+            getter = plain.get(name)
+            if getter and [(a.kind, a.ctype) for a in getter.inputs] == [("scalar", "int")] \
+                    and "%ss" % getter.method not in [b.method for b in plain.values()]:
+                found.append((count, getter))
+    return found
 
 
 def standalone(bs, h):
@@ -1196,6 +1276,11 @@ def py_handle_class(header, bs, h):
     for b in bs:
         if b.plain and b.handle == h:
             out += py_method(b)
+    for count, getter in py_lists(bs, h):
+        out += ["    @property", "    def %ss(self):" % getter.method,
+                '        """%s of each, in order (%s of them)."""' % (getter.name, count.name),
+                "        return [self.%s(k) for k in range(self.%s)]" % (getter.method,
+                                                                       count.method), ""]
     if free is not None:
         out = ["", "def _free_%s(ptr, keep):" % h,
                "    lib.%s(ptr)  # looked up now: a test may count the calls" % free.name,
@@ -1212,12 +1297,12 @@ def python_api(header):
     out = ['"""Every function of include/kinloop.h with the argument rule applied to',
            "what the caller gives (kinloop._args), the structs as value types, and",
            "the methods and functions of the plain functions, which kinloop.Model,",
-           "Solver and Study inherit.", "", GENERATED + '"""', "", "import ctypes",
+           "Solver and Study inherit.", "", GENERATED + '"""', "", "import collections", "import ctypes",
            "import dataclasses", "import weakref", "", "import numpy as np", "",
            "from . import _header as H",
-           "from ._args import (array_of, flat_pairs, rows_of, same_count, struct_in, to_double,",
-           "                    to_handle, to_int, to_long, to_path, to_point, to_size,",
-           "                    to_string, to_text, with_fields)",
+           "from ._args import (array_of, fields_of, flat_pairs, rows_of, same_count, struct_in,",
+           "                    to_chars, to_double, to_handle, to_int, to_long, to_path,",
+           "                    to_point, to_size, to_string, to_text, with_fields)",
            "from ._core import (VALUE_TYPES, Handle, KinloopError, as_enum, check_const,",
            "                    check_report, text, value_of)",
            "from ._header import Status",
@@ -1228,6 +1313,11 @@ def python_api(header):
            "# ---- checked calls: one per KL_API function ----", ""]
     for b in bs:
         out += py_checked_call(b)
+    out += ["", "# ---- the results of functions giving several ----", ""]
+    out += py_result_tuples(bs)
+    out += ["", "# ---- the structs from what the caller gives ----", ""]
+    for s in header.structs:
+        out += py_converter(header, s)
     out += ["", "# ---- the structs as values ----", ""]
     for s in header.structs:
         out += py_value_type(header, s, bs)
@@ -1245,7 +1335,8 @@ def python_api(header):
         out += py_handle_class(header, bs, h)
     exported = [camel(s.name[3:]) for s in header.structs] + \
         [b.method for b in bs if b.plain and b.handle is None and b.owner is None] + \
-        [camel(h) for h in HANDLES if standalone(bs, h)]
+        [camel(h) for h in HANDLES if standalone(bs, h)] + \
+        [py_results(b)[0] for b in bs if b.plain and py_results(b)]
     out += ["", "#: what the kinloop package exports from here: value types, functions",
             "__all__ = %r" % (exported,)]
     out += ["", "#: how each KL_API function is bound: the generated method, or None",

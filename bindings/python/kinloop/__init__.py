@@ -28,12 +28,12 @@ from .model import Model
 from .raw import MissingFunctionError
 from .solver import Solver
 from .study import Study
-from .values import CycleFigures, Load, StudyRun, SweepResult, Workspace
+from .values import Load, StudyRun, SweepResult
 
 __version__ = "%d.%d.%d" % raw.VERSION
 library_path = raw.library_path
 library_version = raw.library_version
 
 __all__ = sorted(set(_api.__all__ + _header.__all__ + [
-    "CycleFigures", "KinloopError", "Load", "MissingFunctionError", "Model", "Solver",
-    "Study", "StudyRun", "SweepResult", "Workspace", "library_path", "library_version"]))
+    "KinloopError", "Load", "MissingFunctionError", "Model", "Solver", "Study", "StudyRun",
+    "SweepResult", "library_path", "library_version"]))

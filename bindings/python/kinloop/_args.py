@@ -11,7 +11,6 @@ applies the same rule."""
 
 import ctypes
 import dataclasses
-import keyword
 import math
 import numbers
 import operator
@@ -20,7 +19,7 @@ import os
 import numpy as np
 
 from ._core import Handle, KinloopError
-from ._header import Sized, Status
+from ._header import Status
 
 
 def _range(ctype, signed):
@@ -152,42 +151,31 @@ def flat_pairs(values, function, argument):
     return flat
 
 
-_FIELD_RULES = {ctypes.c_int: to_int, ctypes.c_long: to_long, ctypes.c_size_t: to_size,
-                ctypes.c_double: to_double}
-
-
-def to_struct(value, ctype, function, argument):
-    """A C struct from a value with its fields as attributes (a dataclass of
-    kinloop, or any object), each field under the rule; a struct of the
-    type itself passes as it is. A field named as a Python keyword is read
-    with a trailing underscore (from_)."""
-    if isinstance(value, ctype):
-        return value
-    c = ctype()
-    for name, ftype in ctype._fields_:
-        if name == "size" and issubclass(ctype, Sized):
-            continue  # set to the struct's size on creation
-        attr = name + "_" if keyword.iskeyword(name) else name
-        try:
-            given = getattr(value, attr)
-        except AttributeError:
+def fields_of(value, names, ctype_name, function, argument):
+    """The attributes `names` of a value given for a C struct (a dataclass
+    of kinloop, or any object), in order; a field named as a Python keyword
+    is read with a trailing underscore (from_). The generated converters
+    (kinloop._api.to_kl_<struct>) put each under the rule."""
+    got = []
+    for name in names:
+        if not hasattr(value, name):
             refuse(function, argument, "has no field %s (a %s needs %s)" % (
-                attr, ctype.__name__, ", ".join(n for n, _ in ctype._fields_ if n != "size")))
-        where = "%s.%s" % (argument, attr)
-        if ftype in _FIELD_RULES:
-            setattr(c, name, _FIELD_RULES[ftype](given, function, where))
-        else:  # a char array
-            data = to_string(given, function, where)
-            if len(data) >= ctypes.sizeof(ftype):
-                refuse(function, where, "is longer than %d bytes" % (ctypes.sizeof(ftype) - 1))
-            setattr(c, name, data)
-    return c
+                name, ctype_name, ", ".join(n.rstrip("_") for n in names)))
+        got.append(getattr(value, name))
+    return got
 
 
-def array_of(values, ctype, function, argument):
-    """A C array of the values (ints, doubles or structs, each under the
-    rule; None for none) and how many there are."""
-    rule = _FIELD_RULES.get(ctype) or (lambda v, f, a: to_struct(v, ctype, f, a))
+def to_chars(value, size, function, argument):
+    """A string for a char array of `size` bytes, its NUL included."""
+    data = to_string(value, function, argument)
+    if len(data) >= size:
+        refuse(function, argument, "is longer than %d bytes" % (size - 1))
+    return data
+
+
+def array_of(values, ctype, rule, function, argument):
+    """A C array of the values (each by `rule`: to_int, to_double or a
+    struct's converter; None for none) and how many there are."""
     try:
         items = [] if values is None else list(values)
     except TypeError:
@@ -231,10 +219,11 @@ def rows_of(values, columns, function, argument):
     return table.ctypes.data_as(ctypes.POINTER(ctypes.c_double)), table.shape[0]
 
 
-def struct_in(value, ctype, function, argument):
-    """A `const kl_x *` argument: NULL for None, a reference to a struct
-    made by to_struct, or a pointer or array the bindings made, as it is."""
+def struct_in(value, rule, function, argument):
+    """A `const kl_x *` argument: NULL for None, a reference to the struct
+    `rule` (its converter) makes, or a pointer or array the bindings made,
+    as it is."""
     if value is None or isinstance(value, (ctypes._Pointer, ctypes.Array,
                                            type(ctypes.byref(ctypes.c_int())))):
         return value
-    return ctypes.byref(to_struct(value, ctype, function, argument))
+    return ctypes.byref(rule(value, function, argument))

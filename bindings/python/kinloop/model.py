@@ -1,8 +1,8 @@
 """Model: a linkage description over the kl_model handle. Its lifetime,
-makers and plain builders and getters are generated
-(kinloop._api.ModelMethods); this adds allocators, the loops' joint lists,
-and the read-only view of a model another handle owns (a study's nominal
-model)."""
+makers, plain builders and getters and its lists (loops, loads) are
+generated (kinloop._api.ModelMethods); this adds allocators, the row
+layout, and the read-only view of a model another handle owns (a study's
+nominal model)."""
 
 import ctypes
 import weakref
@@ -109,22 +109,10 @@ class Model(_api.ModelMethods):
             self.input_count, ", finalized" if self.is_finalized else "",
             ", borrowed from a study" if self.borrowed else "")
 
-    # ---- the joints of loops, the loads ----
-
-    @property
-    def loops(self):
-        return [self.loop(k) for k in range(self.loop_count)]
-
     @property
     def _model_ptr(self):
         """The model of a generated method's arrays per item (kl_model_<item>_count)."""
         return self._handle
-
-    @property
-    def loads(self):
-        """The loads the model records (kl_model_load), as Load values in
-        order: what Solver.cycle_summarize(m.loads, m.cycle) takes."""
-        return [self.load(k) for k in range(self.load_count)]
 
     # ---- what a finalized model says of its rows ----
 

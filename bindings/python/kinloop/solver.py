@@ -3,18 +3,18 @@ finalized Model over the kl_solver handle. The plain functions are
 generated (kinloop._api.SolverMethods: getters, setters, stages, design
 figures); this adds lifetime, options by keyword, the count of input
 arrays, copies, assembly modes, sweeps with their recorder and callback,
-and the force figures over a cycle (summary and table)."""
+and the forces over a cycle sample by sample (its table)."""
 
 import ctypes
 
 import numpy as np
 
 from . import _api, raw
-from ._args import array_of, refuse, to_int, with_fields
+from ._args import array_of, refuse, to_double, to_int, with_fields
 from ._core import KinloopError, as_enum
-from ._header import MAX_STEPS, Status, WorkspaceKind
+from ._header import MAX_STEPS, Status
 from .model import row_layout
-from .values import CycleFigures, SweepResult, Workspace, cycle_table_dtype
+from .values import SweepResult, cycle_table_dtype
 
 # Over-alignment for a solver placed in a Python buffer: the C side wants
 # malloc's alignment, which no ABI sets above this.
@@ -95,7 +95,8 @@ class Solver(_api.SolverMethods):
         if len(given) != count:
             refuse(function, argument, "must hold one value per input (%d); got %d"
                    % (count, len(given)))
-        return array_of(given, ctypes.c_double, function, argument)[0] if count else None
+        values, _ = array_of(given, ctypes.c_double, to_double, function, argument)
+        return values if count else None
 
     # ---- states and assembly modes ----
 
@@ -185,45 +186,6 @@ class Solver(_api.SolverMethods):
 
     # ---- force figures over a cycle ----
 
-    @staticmethod
-    def _cycle(function, cycle, fields):
-        """The cycle (`cycle`, default Cycle(), with `fields` replacing
-        fields by name)."""
-        return with_fields(cycle if cycle is not None else _api.Cycle(), "Cycle", fields, function,
-                           "cycle")
-
-    def cycle_summarize(self, loads=(), cycle=None, **fields):
-        """The force figures of a cycle (kl_cycle_summarize): input
-        `cycle.input` driven at the constant `cycle.speed` over its range
-        against the constant `loads`, the others at rest. `cycle` is a Cycle
-        (default: Cycle(), the library's defaults); keyword arguments
-        replace its fields by name (speed=..., steps=..., from_=...).
-
-        Returns a CycleFigures: `summary`, the CycleSummary (the shaking
-        force and moment, the energy fluctuation and flywheel inertia, and
-        sweep_status LIMIT when the motion stopped inside the range);
-        `inputs`, a CyclePeak per input (its effort's peak, where, mean and
-        RMS); `joints`, a CyclePeak per joint (the magnitude of its force).
-        A negative status raises KinloopError (INDETERMINATE for a declared
-        redundancy, ESINGULAR at a singular sample, ...) and leaves the
-        solver as it was."""
-        return CycleFigures(*super().cycle_summarize(
-            self._cycle("kl_cycle_summarize", cycle, fields), loads))
-
-    def workspace(self, point, options=None, cap=4096, **fields):
-        """The workspace of `point` (kl_solver_workspace) for a model with two
-        turning inputs: its boundary and the singular curves inside it,
-        traced by continuation, and its area. `options` is a
-        WorkspaceOptions (default: the library's); keyword arguments replace
-        its fields (grid=..., step=...). `cap` is the first guess at the
-        vertices needed; the arrays grow until the curves fit. Returns a
-        Workspace. A negative status raises KinloopError; the solver keeps
-        its state either way."""
-        o = with_fields(options if options is not None else _api.WorkspaceOptions(),
-                        "WorkspaceOptions", fields, "kl_solver_workspace", "options")
-        xy, curve, kind, result = super().workspace(point, o, cap)
-        return Workspace(result, xy.copy(), curve.copy(), kind)
-
     def cycle_table(self, loads=(), cycle=None, **fields):
         """The forces over a cycle sample by sample (kl_cycle_table), the
         cycle and loads as for cycle_summarize: a numpy structured array,
@@ -236,8 +198,9 @@ class Solver(_api.SolverMethods):
         by a motion limit gives the samples it reached (fewer than
         steps + 1). A negative status raises KinloopError."""
         function = "kl_cycle_table"
-        c = self._cycle(function, cycle, fields)
-        loads, count = array_of(loads, raw.kl_load, function, "loads")
+        c = with_fields(cycle if cycle is not None else _api.Cycle(), "Cycle", fields, function,
+                        "cycle")
+        loads, count = array_of(loads, raw.kl_load, _api.to_kl_load, function, "loads")
         mh = self._model_ptr
         dtype = cycle_table_dtype(self._input_count, _api.kl_model_joint_count(mh))
         columns = _api.kl_cycle_columns(mh)

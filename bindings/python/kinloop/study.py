@@ -1,8 +1,8 @@
 """Study: a design study (kl_study) read from a study file, tolerance Monte
 Carlo or a design grid over a nominal model, run on threads into numpy
-arrays and summarized output by output. Its lifetime, readers and plain
-getters are generated (kinloop._api.StudyMethods); this adds the model
-view, runs and summaries."""
+arrays and summarized output by output. Its lifetime, readers, plain
+getters and name lists are generated (kinloop._api.StudyMethods); this adds
+the model view, runs and summaries by output name."""
 
 import weakref
 
@@ -71,17 +71,6 @@ class Study(_api.StudyMethods):
     # ---- what the study holds ----
 
     @property
-    def outputs(self):
-        """The names of the outputs judged, in column order."""
-        return [self.output_name(k) for k in range(self.output_count)]
-
-    @property
-    def dimensions(self):
-        """Short texts naming the dimensions that vary ("rocker_pin b x"),
-        in column order."""
-        return [self.dimension_name(k) for k in range(self.dimension_count)]
-
-    @property
     def model(self):
         """The nominal model (kl_study_model) as a borrowed, read-only Model:
         Solvers can be made from it; calls that would change it raise
@@ -95,7 +84,7 @@ class Study(_api.StudyMethods):
 
     def _output_index(self, output):
         if isinstance(output, str):
-            names = self.outputs
+            names = self.output_names
             if output not in names:
                 raise KinloopError(Status.EID, "the study has no output %r "
                                    "(outputs: %s)" % (output, ", ".join(names)))

@@ -1,7 +1,7 @@
 """The value types: one frozen dataclass per struct of the header, generated
 (kinloop._api: its fields, the library's defaults where it has a defaults
 function, its kl_<struct>_<verb> methods), and what the bindings add to
-them: constructors of loads, and what sweeps and studies return."""
+them: constructors of loads, and what sweeps and study runs return."""
 
 import dataclasses
 from typing import NamedTuple
@@ -68,15 +68,6 @@ class SweepResult(_api.SweepResult):
         return self.steps_done
 
 
-class CycleFigures(NamedTuple):
-    """What Solver.cycle_summarize computed (kl_cycle_summarize): the
-    CycleSummary of the cycle, a CyclePeak per input (its effort) and a
-    CyclePeak per joint (the magnitude of its force), in id order."""
-    summary: _api.CycleSummary
-    inputs: list
-    joints: list
-
-
 #: the fields of a force, moment pair in kl_cycle_table's rows
 _FORCE_FIELDS = [("fx", np.float64), ("fy", np.float64), ("moment", np.float64)]
 
@@ -88,19 +79,6 @@ def cycle_table_dtype(ninputs, njoints):
     return np.dtype([("input", np.float64), ("effort", np.float64, (ninputs,)),
                      ("joint", _FORCE_FIELDS, (njoints,)), ("ground", _FORCE_FIELDS),
                      ("kinetic_energy", np.float64), ("work", np.float64)])
-
-
-class Workspace(NamedTuple):
-    """What Solver.workspace traced (kl_solver_workspace): `result`, the
-    WorkspaceResult (area, extent, counts); `xy`, the curves' vertices, one
-    row (x, y) each in the global frame; `curve`, each vertex's curve
-    number (a curve's vertices are consecutive, in order along it);
-    `kind`, the WorkspaceKind of the stretch from each vertex to the next
-    (BOUNDARY, or FOLD: a singular curve inside)."""
-    result: object
-    xy: np.ndarray
-    curve: np.ndarray
-    kind: np.ndarray
 
 
 class StudyRun(NamedTuple):

@@ -191,3 +191,59 @@ def test_lifetimes_and_makers_are_generated():
         assert _api.GENERATED["kl_%s_free" % h] == "%sMethods.close" % h.capitalize()
     assert _api.GENERATED["kl_model_read_file"] == "ModelMethods.read_file"
     assert _api.GENERATED["kl_study_read"] == "StudyMethods.read_text"
+
+
+RESULT_TUPLES = sorted(n for n in _api.__all__ if isinstance(getattr(_api, n), type) and
+                       issubclass(getattr(_api, n), tuple))
+
+
+@pytest.mark.parametrize("name", RESULT_TUPLES)
+def test_result_tuples_are_named_after_the_c_parameters(name):
+    """A result tuple's fields are the C function's filled parameters, in
+    the header's order (its C result first, as `result`), and its method
+    returns it."""
+    tup = getattr(_api, name)
+    function = re.search(r"of (kl_\w+)", tup.__doc__).group(1)
+    params = dict(DECLARED)[function]
+    filled = [re.sub(r"\[\d+\]", "", p).replace("*", " ").split()[-1] for p in params.split(",")
+              if ("*" in p or "[" in p) and not p.strip().startswith("const") and
+              p.split()[0] not in ("kl_model", "kl_solver", "kl_study", "kl_cam")]
+    fields = [f.rstrip("_") for f in tup._fields]
+    assert fields in (filled, ["result"] + filled) and len(fields) > 1
+    home = _api.GENERATED[function]
+    assert home.split(".")[-1].replace("_", "") == name.lower()
+
+
+def test_lists_are_read_from_their_counts():
+    """Every kl_<h>_<x>_count(handle) with a getter kl_<h>_<x> or
+    kl_<h>_<x>_name of (handle, int index, ...) gives the list property
+    <getter>s."""
+    declared = dict(DECLARED)
+    lists = []
+    for name, params in declared.items():
+        m = re.fullmatch(r"kl_(model|solver|study|cam)_(\w+)_count", name)
+        if not m or len(params.split(",")) != 1:
+            continue
+        for getter in ("kl_%s_%s" % m.groups(), "kl_%s_%s_name" % m.groups()):
+            given = declared.get(getter, "").split(",")
+            if len(given) >= 2 and re.fullmatch(r"\s*int \w+\s*", given[1]):
+                lists.append((CLASSES["kl_" + m.group(1)], getter[4 + len(m.group(1)):] + "s"))
+    assert (kl.Model, "loops") in lists and (kl.Study, "output_names") in lists
+    for cls, prop in lists:
+        assert isinstance(inspect.getattr_static(cls, prop), property), (cls, prop)
+
+
+@pytest.mark.parametrize("name", sorted(_core.VALUE_TYPES, key=lambda t: t.__name__))
+def test_every_struct_has_its_converter(name):
+    """to_kl_<struct> (generated from the header's declaration) makes the C
+    struct from its value type field by field, passes the struct itself as
+    it is, and refuses a value lacking a field, naming the struct's fields."""
+    convert = getattr(_api, "to_" + name.__name__)
+    value = _core.value_of(name())  # zeros, structs inside as their value types
+    assert isinstance(value, _core.VALUE_TYPES[name])
+    c = convert(value, "kl_f", "arg")
+    assert isinstance(c, name) and convert(c, "kl_f", "arg") is c
+    assert _core.value_of(c) == value
+    with pytest.raises(kl.KinloopError, match=r"kl_f: arg has no field \w+ \(a %s needs" %
+                       name.__name__):
+        convert(object(), "kl_f", "arg")

@@ -56,15 +56,15 @@ def test_a_crank_with_a_mass_at_constant_speed_carries_m_r_w2():
     np.testing.assert_allclose(t["work"], 0.0, atol=1e-9)
 
     figures = s.cycle_summarize(speed=w, steps=36)
-    assert figures.summary.sweep_status == kl.Status.OK
-    assert figures.summary.steps_done == 37
-    (joint,) = figures.joints
+    assert figures.sum.sweep_status == kl.Status.OK
+    assert figures.sum.steps_done == 37
+    (joint,) = figures.joint_peaks
     assert isinstance(joint, kl.CyclePeak)
     assert joint.peak == pytest.approx(force, rel=1e-12)
     assert joint.mean == pytest.approx(force, rel=1e-12)
     assert joint.rms == pytest.approx(force, rel=1e-12)
-    assert figures.summary.shaking_force.rms == pytest.approx(force, rel=1e-12)
-    assert figures.inputs[0].rms == pytest.approx(0.0, abs=1e-9)
+    assert figures.sum.shaking_force.rms == pytest.approx(force, rel=1e-12)
+    assert figures.input_peaks[0].rms == pytest.approx(0.0, abs=1e-9)
 
 
 def test_a_crank_against_gravity_gives_the_textbook_motor_and_flywheel_figures():
@@ -91,7 +91,7 @@ def test_a_crank_against_gravity_gives_the_textbook_motor_and_flywheel_figures()
     assert pin.at == pytest.approx(3 * math.pi / 2)
     assert math.isnan(summary.limit_input)
     # without a coefficient of speed fluctuation the flywheel is left out
-    assert math.isnan(s.cycle_summarize(speed=w).summary.flywheel_inertia)
+    assert math.isnan(s.cycle_summarize(speed=w).sum.flywheel_inertia)
 
 
 def test_a_slider_crank_against_the_energy_balance_closed_form():
@@ -215,18 +215,18 @@ def test_the_summary_is_its_table_s_figures():
         scale = max(1.0, abs(want[0]))
         np.testing.assert_allclose(got, want, atol=1e-9 * scale, err_msg=what)
 
-    same(figures.inputs[0], t["effort"][:, 0], "motor torque")
-    for j, peak in enumerate(figures.joints):
+    same(figures.input_peaks[0], t["effort"][:, 0], "motor torque")
+    for j, peak in enumerate(figures.joint_peaks):
         same(peak, np.hypot(t["joint"]["fx"][:, j], t["joint"]["fy"][:, j]), "joint %d" % j)
-    same(figures.summary.shaking_force, np.hypot(t["ground"]["fx"], t["ground"]["fy"]),
+    same(figures.sum.shaking_force, np.hypot(t["ground"]["fx"], t["ground"]["fy"]),
          "shaking force")
-    same(figures.summary.shaking_moment, t["ground"]["moment"], "shaking moment")
+    same(figures.sum.shaking_moment, t["ground"]["moment"], "shaking moment")
     # the energy the motor puts in above its mean rate of work
     excess = t["work"] - t["work"][-1] * (u - u[0]) / (u[-1] - u[0])
     de = excess.max() - excess.min()
-    assert figures.summary.energy_fluctuation == pytest.approx(de, rel=1e-9)
-    assert figures.summary.energy_max_at == pytest.approx(u[np.argmax(excess)])
-    assert figures.summary.flywheel_inertia == pytest.approx(de / (cs * w * w), rel=1e-9)
+    assert figures.sum.energy_fluctuation == pytest.approx(de, rel=1e-9)
+    assert figures.sum.energy_max_at == pytest.approx(u[np.argmax(excess)])
+    assert figures.sum.flywheel_inertia == pytest.approx(de / (cs * w * w), rel=1e-9)
 
 
 def test_a_cycle_stopped_by_a_motion_limit():
@@ -238,12 +238,12 @@ def test_a_cycle_stopped_by_a_motion_limit():
     s.set_link_angle(f.rocker, 1.6)
     s.solve_position([0.6])
     figures = s.cycle_summarize(cycle=kl.Cycle(from_=0.6, to=3.0, steps=120, speed=2.0))
-    assert figures.summary.sweep_status == kl.Status.LIMIT
-    assert 0.6 < figures.summary.limit_input < 3.0
+    assert figures.sum.sweep_status == kl.Status.LIMIT
+    assert 0.6 < figures.sum.limit_input < 3.0
     s.solve_position([0.6])
     t = s.cycle_table(cycle=kl.Cycle(from_=0.6, to=3.0, steps=120, speed=2.0))
-    assert 1 < len(t) < 121 and len(t) == figures.summary.steps_done
-    assert t["input"][-1] <= figures.summary.limit_input + 1e-12
+    assert 1 < len(t) < 121 and len(t) == figures.sum.steps_done
+    assert t["input"][-1] <= figures.sum.limit_input + 1e-12
 
 
 def test_bad_cycles_raise_and_change_nothing():
@@ -340,13 +340,13 @@ def test_loads_and_the_working_speed_recorded_in_the_model():
                               speed=8.0, to=math.pi, steps=30, speed_fluctuation=0.04)
     # the same figures (the second cycle starts from where the first left
     # the solver, so they agree to rounding, not bit for bit)
-    assert recorded.summary.steps_done == given.summary.steps_done == 31
-    for a, b in zip([recorded.summary.shaking_force] + recorded.joints + recorded.inputs,
-                    [given.summary.shaking_force] + given.joints + given.inputs):
+    assert recorded.sum.steps_done == given.sum.steps_done == 31
+    for a, b in zip([recorded.sum.shaking_force] + recorded.joint_peaks + recorded.input_peaks,
+                    [given.sum.shaking_force] + given.joint_peaks + given.input_peaks):
         assert (a.peak, a.at, a.mean, a.rms) == pytest.approx((b.peak, b.at, b.mean, b.rms),
                                                               rel=1e-9)
-    assert recorded.summary.flywheel_inertia == pytest.approx(
-        given.summary.flywheel_inertia, rel=1e-9)
+    assert recorded.sum.flywheel_inertia == pytest.approx(
+        given.sum.flywheel_inertia, rel=1e-9)
 
 
 def test_a_model_s_start_inputs_are_one_per_input():

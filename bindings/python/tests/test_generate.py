@@ -5,6 +5,7 @@ kinds its C types say; a pointer the C type cannot explain is left to hand
 code unless the generator's POINTERS table says what it is."""
 
 import os
+import re
 import sys
 
 import pytest
@@ -206,3 +207,78 @@ def test_what_a_failure_keeps_and_setters_of_structs(monkeypatch):
     assert "bounds = with_fields(self.bounds if bounds is None else bounds, 'Range', fields, " \
         "'kl_solver_set_bounds', 'bounds')" in api
     compile(api, "_api.py", "exec")
+
+
+KEYWORDS = """
+/** Runs a made-up cycle `c` against `loads` (made up for this test), the
+ * peak into `peak` and the worst load into `worst`. Returns KL_OK. */
+KL_API int kl_solver_trial(kl_solver *s, const kl_cycle *c, int nloads,
+                           const kl_load *loads, double *peak, int *worst);
+"""
+
+
+def test_structs_by_keyword_and_several_results(monkeypatch):
+    """A struct read that has kl_<struct>_default is given whole or by its
+    fields as keywords (named after the struct), a trailing array of
+    structs may be left out, and several results are a named tuple named
+    after the method, its fields after the C parameters."""
+    with open(HEADER, encoding="utf-8") as f:
+        text = f.read()
+    end = text.rindex("#ifdef __cplusplus")
+    header = generate.Header(text[:end] + KEYWORDS + text[end:])
+    monkeypatch.setitem(generate.POINTERS, "kl_solver_trial",
+                        {"c": "one", "loads": "nloads", "peak": "out", "worst": "out"})
+    found = {b.name: b for b in generate.bindings(header)}
+    trial = found["kl_solver_trial"]
+    assert trial.plain and trial.keywords[1:] == ("cycle", "Cycle()")
+    assert found["kl_solver_set_options"].keywords[1:] == ("options", "self.options")
+    assert found["kl_output_value"].keywords is None  # kl_output has no defaults
+    assert generate.py_results(trial) == ("Trial", ["peak", "worst"])
+    assert generate.py_results(found["kl_solver_workspace"]) == (
+        "Workspace", ["xy", "curves", "kinds", "result"])
+    assert generate.py_results(found["kl_output_value"]) is None  # one result: itself
+    api = generate.python_api(header)
+    assert "    def trial(self, loads=(), cycle=None, **fields):" in api
+    assert "cycle = with_fields(Cycle() if cycle is None else cycle, 'Cycle', fields, " \
+        "'kl_solver_trial', 'cycle')" in api
+    assert "Trial = collections.namedtuple('Trial', ['peak', 'worst'])" in api
+    assert "return Trial(peak.value, worst.value)" in api
+    assert "    def workspace(self, point, cap=4096, workspace_options=None, **fields):" in api
+    compile(api, "_api.py", "exec")
+    # two functions whose tuples would share a name stop the generator
+    twin = KEYWORDS.replace("kl_solver_trial", "kl_model_trial").replace(
+        "kl_solver *s", "kl_model *m")
+    header = generate.Header(text[:end] + KEYWORDS + twin + text[end:])
+    monkeypatch.setitem(generate.POINTERS, "kl_model_trial", generate.POINTERS["kl_solver_trial"])
+    with pytest.raises(SystemExit, match="would both give a Trial"):
+        generate.python_api(header)
+
+
+def test_lists_from_counts():
+    """A count property and a getter of one index (kl_<h>_<x>, or
+    kl_<h>_<x>_name) give the list <getter>s; a count taking more than the
+    handle (kl_model_curve_count) gives none."""
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    bs = generate.bindings(header)
+    model = [(c.name, g.method) for c, g in generate.py_lists(bs, "model")]
+    assert ("kl_model_loop_count", "loop") in model
+    assert ("kl_model_link_count", "link_name") in model
+    assert not any(c == "kl_model_curve_count" for c, _ in model)
+    api = generate.python_api(header)
+    assert "        return [self.output_name(k) for k in range(self.output_count)]" in api
+
+
+def test_struct_converters_follow_the_declarations():
+    """to_<struct> puts each field of the header's declaration under the
+    rule of its C type: a char array by its length, a struct inside by its
+    own converter, a field named as a keyword read with an underscore."""
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    cycle = "\n".join(generate.py_converter(header, header.struct("kl_cycle")))
+    assert "    setattr(c, 'from', to_double(v[1], F, A + '.from_'))" in cycle
+    assert "    c.steps = to_int(v[3], F, A + '.steps')" in cycle
+    summary = "\n".join(generate.py_converter(header, header.struct("kl_cycle_summary")))
+    assert "to_kl_cycle_peak(v[" in summary and "c.size" not in summary
+    report = "\n".join(generate.py_converter(header, header.struct("kl_io_error")))
+    assert re.search(r"c\.message = to_chars\(v\[\d\], \d+, F, A \+ '\.message'\)", report)

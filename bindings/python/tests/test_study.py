@@ -55,8 +55,8 @@ def address(pointer):
 def test_demo_study_reads_as_its_file_says(demo):
     # the counts, names and limits written in examples/models/flap-tucker.study
     assert demo.sample_count == 2000
-    assert demo.outputs == ["stroke", "mu_min", "tip_low", "torque"]
-    assert demo.dimensions == [
+    assert demo.output_names == ["stroke", "mu_min", "tip_low", "torque"]
+    assert demo.dimension_names == [
         "crank_pin a x", "rocker_pin a x", "rocker_pin b x", "pivot b x", "pivot b y",
         "arm_pin a x", "plate_pin a x", "rail a y", "tucker tip x"]
     assert "2000 samples, 4 outputs, 9 dimensions" in repr(demo)
@@ -79,7 +79,7 @@ def test_demo_run_shapes_and_dimensions(demo, demo_run):
     # the pin holes normal with three standard deviations of 0.05, so a
     # mean of 100 within 4 standard errors of the nominal
     m = demo.model
-    rail = dims[:, demo.dimensions.index("rail a y")]
+    rail = dims[:, demo.dimension_names.index("rail a y")]
     assert ((rail >= 260 - 0.2) & (rail <= 260 + 0.2)).all()
     assert rail.std(ddof=1) > 0.2 / math.sqrt(3) / 2  # spread over the band
     nominal = {"crank_pin a x": m.joint_links(m.find_joint("crank_pin"))[1][0],
@@ -87,7 +87,7 @@ def test_demo_run_shapes_and_dimensions(demo, demo_run):
                "tucker tip x": m.point_link(m.find_point("tucker tip"))[1][0]}
     assert nominal == {"crank_pin a x": 60.0, "pivot b x": 220.0, "tucker tip x": 100.0}
     for name, centre in nominal.items():
-        column = dims[:, demo.dimensions.index(name)]
+        column = dims[:, demo.dimension_names.index(name)]
         sigma = (0.1 if name == "tucker tip x" else 0.05) / 3
         assert abs(column.mean() - centre) <= 4 * sigma / math.sqrt(len(column)), name
         assert 0.7 * sigma <= column.std(ddof=1) <= 1.3 * sigma, name
@@ -155,7 +155,7 @@ def reference_summary(values, status, lower, upper):
 @pytest.mark.parametrize("output", ["stroke", "mu_min", "tip_low", "torque"])
 def test_summary_matches_numpy(demo, demo_run, output):
     values, status, _ = demo_run
-    k = demo.outputs.index(output)
+    k = demo.output_names.index(output)
     s = demo.summarize(output, values, status)
     assert repr(s) == repr(demo.summarize(k, values, status))  # by name or index (NaN-safe)
     column = values[:, k]
@@ -184,7 +184,7 @@ def test_summary_limits_are_the_files(demo, demo_run):
     # the 'limit' statements of flap-tucker.study; torque has none
     values, status, _ = demo_run
     limits = {name: (s.has_limits, s.lower, s.upper) for name, s in
-              ((n, demo.summarize(n, values, status)) for n in demo.outputs)}
+              ((n, demo.summarize(n, values, status)) for n in demo.output_names)}
     assert limits["stroke"] == (True, 212.2, 215.2)
     assert limits["mu_min"] == (True, 45, 180)
     assert limits["tip_low"] == (True, 44.5, 45.7)

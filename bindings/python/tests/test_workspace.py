@@ -59,7 +59,7 @@ def test_fivebar_workspace_is_the_annuli_intersection():
     miss = np.min([np.abs(np.hypot(w.xy[:, 0] - c, w.xy[:, 1]) - r)
                    for c, r in CIRCLES], axis=0)
     assert miss.max() < 1e-9
-    assert np.count_nonzero(w.kind == kl.WorkspaceKind.BOUNDARY) >= len(w.kind) - 4
+    assert np.count_nonzero(w.kinds == kl.WorkspaceKind.BOUNDARY) >= len(w.kinds) - 4
     # SciPy's adaptive quadrature of the width (QUADPACK), with the corners
     # and the circles' tops as break points
     reference, _ = integrate.quad(width, -2.8, 2.8, limit=400, epsabs=1e-12,
@@ -107,7 +107,7 @@ def test_offset_pen_against_sampled_positions():
     m.add_input(p2)
     m.finalize()
     w = kl.Solver(m).workspace(pen)
-    assert np.count_nonzero(w.kind == kl.WorkspaceKind.FOLD) > 0
+    assert np.count_nonzero(w.kinds == kl.WorkspaceKind.FOLD) > 0
     u1, u2 = np.meshgrid(np.linspace(0, 2 * np.pi, 2000, endpoint=False),
                          np.linspace(0, 2 * np.pi, 2000, endpoint=False))
     b1x, b1y = a1 * np.cos(u1), a1 * np.sin(u1)
