@@ -1167,7 +1167,22 @@ def py_kind_constructors(header, s, bs):
     return out
 
 
-def py_maker(b):
+def alloc_form(header, f):
+    """The allocator form of a maker, kl_<maker>_with_alloc: its parameters
+    with a kl_alloc_fn and its `void *` user pointer inserted; as (the
+    function, where the two go), or None where the header has none."""
+    alloc = header.function(f.name + "_with_alloc")
+    if alloc is None or alloc.result != f.result:
+        return None
+    decls = [(p.base, p.pointers) for p in alloc.params]
+    for at in range(len(decls) - 1):
+        if decls[at:at + 2] == [("kl_alloc_fn", 0), ("void", 1)] and \
+                decls[:at] + decls[at + 2:] == [(p.base, p.pointers) for p in f.params]:
+            return alloc, at
+    return None
+
+
+def py_maker(header, b):
     """A maker (kl_<h>_new, kl_<h>_read...) as its class makes itself: one
     without arguments is the constructor; one with them a class method
     named by the grammar (read_file), a text read with its length
@@ -1177,6 +1192,7 @@ def py_maker(b):
     keeps its model's allocator."""
     texts = {a.count for a in b.args if a.kind == "length"}
     params, pre, call, kept, shown = [], [], [], [], []
+    alloc, at = alloc_form(header, b.f) or (None, None)
     for a in b.args:
         n = py_name(a.name)
         if a.kind == "length":
@@ -1195,8 +1211,22 @@ def py_maker(b):
                 pre.append("%s = to_text(%s, %r, %r)" % (n, n, b.name, a.name))
             else:
                 shown.append(n)
-    doc = py_docstring("%s\n\n(%s)" % (b.f.doc, b.name), 8)
-    pre.append("made = %s(%s)" % (b.name, ", ".join(call)))
+    made = "%s(%s)" % (b.name, ", ".join(call))
+    if alloc is None:
+        doc = py_docstring("%s\n\n(%s)" % (b.f.doc, b.name), 8)
+    else:
+        # the allocator form: the same call with the hook (and no user
+        # pointer: the Python callable holds what it needs)
+        params.append("allocator=None")
+        doc = py_docstring("%s\n\n%s\n\n(%s, %s)" % (b.f.doc, textwrap.fill(
+            "With `allocator`, a callable (ptr, old_size, new_size) -> address "
+            "(kinloop._core.allocator_hook): " + " ".join(alloc.doc.split()), 76),
+            b.name, alloc.name), 8)
+        pre.append("hook = None if allocator is None else allocator_hook(allocator)")
+        made = "%s if hook is None else %s(%s)" % (made, alloc.name, ", ".join(
+            call[:at] + ["hook", "None"] + call[at:]))
+        kept.append("hook")
+    pre.append("made = " + made)
     if b.error is not None:
         fail = "check_report(%s.status or Status.ENOMEM, %s, %r%s)" % (
             b.error.name, b.error.name, py_maker_name(b),
@@ -1204,9 +1234,10 @@ def py_maker(b):
     else:
         fail = "raise KinloopError(Status.ENOMEM, %r)" % (b.name + ": out of memory")
     pre += ["if not made:", "    " + fail]
-    if not params:
-        return ["    def __init__(self):", doc] + ["        " + l for l in pre] + [
-            "        self._adopt(made)", ""]
+    if py_maker_name(b) == "__init__":
+        return ["    def __init__(%s):" % ", ".join(["self"] + params), doc] + \
+            ["        " + l for l in pre] + [
+                "        self._adopt(made%s)" % "".join(", " + k for k in kept), ""]
     return ["    @classmethod",
             "    def %s(cls, %s):" % (py_maker_name(b), ", ".join(params)), doc] + \
         ["        " + l for l in pre] + [
@@ -1272,7 +1303,7 @@ def py_handle_class(header, bs, h):
                 "        self._finalizer()", ""]
     for b in bs:
         if b.makes == h:
-            out += py_maker(b)
+            out += py_maker(header, b)
     for b in bs:
         if b.plain and b.handle == h:
             out += py_method(b)
@@ -1303,8 +1334,8 @@ def python_api(header):
            "from ._args import (array_of, fields_of, flat_pairs, rows_of, same_count, struct_in,",
            "                    to_chars, to_double, to_handle, to_int, to_long, to_path,",
            "                    to_point, to_size, to_string, to_text, with_fields)",
-           "from ._core import (VALUE_TYPES, Handle, KinloopError, as_enum, check_const,",
-           "                    check_report, text, value_of)",
+           "from ._core import (VALUE_TYPES, Handle, KinloopError, allocator_hook, as_enum,",
+           "                    check_const, check_report, text, value_of)",
            "from ._header import Status",
            "from .raw import lib", "",
            "#: what numpy arrays the C functions fill are passed as",
@@ -1339,6 +1370,8 @@ def python_api(header):
         [py_results(b)[0] for b in bs if b.plain and py_results(b)]
     out += ["", "#: what the kinloop package exports from here: value types, functions",
             "__all__ = %r" % (exported,)]
+    # a maker's allocator form is bound with it (Model(allocator=...))
+    makers = {b.name: b for b in bs if b.makes and alloc_form(header, b.f)}
     out += ["", "#: how each KL_API function is bound: the generated method, or None",
             "#: where the hand-written code binds it", "GENERATED = {"]
     for b in bs:
@@ -1349,6 +1382,9 @@ def python_api(header):
             where = owner + b.method
         elif b.makes:
             where = "%sMethods.%s" % (camel(b.makes), py_maker_name(b))
+        elif b.name.endswith("_with_alloc") and b.name[:-11] in makers:
+            where = "%sMethods.%s" % (camel(makers[b.name[:-11]].makes),
+                                      py_maker_name(makers[b.name[:-11]]))
         elif b.name.endswith("_free") and b.handle in HANDLES:
             where = "%sMethods.close" % camel(b.handle)
         out.append("    %r: %r," % (b.name, where))

@@ -5,6 +5,7 @@ C results (texts, statuses, enums, structs) to Python values."""
 import dataclasses
 import enum
 
+from ._header import kl_alloc_fn
 from .raw import lib
 
 #: ctypes struct -> the Python value type it reads as (kinloop.values fills it)
@@ -96,6 +97,20 @@ def value_of(c):
             v = as_enum(f.type, v)
         values[f.name] = v
     return cls(**values)
+
+
+def allocator_hook(allocator):
+    """A kl_alloc_fn calling `allocator(ptr, old_size, new_size)`.
+
+    `allocator` gets and returns addresses as ints (ptr 0 means allocate,
+    new_size 0 means free); returning 0 or None, or raising, reports
+    exhaustion (the library then fails with KL_ENOMEM)."""
+    def hook(user, ptr, old_size, new_size):
+        try:
+            return allocator(ptr or 0, old_size, new_size) or None
+        except Exception:
+            return None
+    return kl_alloc_fn(hook)
 
 
 class Handle:

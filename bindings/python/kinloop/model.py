@@ -1,30 +1,15 @@
 """Model: a linkage description over the kl_model handle. Its lifetime,
 makers, plain builders and getters and its lists (loops, loads) are
-generated (kinloop._api.ModelMethods); this adds allocators, the row
-layout, and the read-only view of a model another handle owns (a study's
+generated (kinloop._api.ModelMethods, with the allocator forms of its
+makers); this adds the allocator hook kept with the model, the row layout, and the read-only view of a model another handle owns (a study's
 nominal model)."""
 
 import ctypes
 import weakref
 
-from . import _api, raw
-from ._args import to_text
-from ._core import KinloopError, check_report, text
+from . import _api
+from ._core import KinloopError, text
 from ._header import Status
-
-
-def allocator_hook(allocator):
-    """A kl_alloc_fn calling `allocator(ptr, old_size, new_size)`.
-
-    `allocator` gets and returns addresses as ints (ptr 0 means allocate,
-    new_size 0 means free); returning 0 or None, or raising, reports
-    exhaustion (the library then fails with KL_ENOMEM)."""
-    def hook(user, ptr, old_size, new_size):
-        try:
-            return allocator(ptr or 0, old_size, new_size) or None
-        except Exception:
-            return None
-    return raw.kl_alloc_fn(hook)
 
 
 def _release_view():
@@ -51,18 +36,9 @@ class Model(_api.ModelMethods):
     library keeps the model for them.
     `allocator`, if given, is a callable (ptr, old_size, new_size) -> address
     used for every allocation of the model and its solvers (see
-    allocator_hook). A Study's `model` is a borrowed Model (`borrowed` is
+    kinloop._core.allocator_hook). A Study's `model` is a borrowed Model (`borrowed` is
     true): it keeps the study alive, refuses changes, and is never freed
     here."""
-
-    def __init__(self, allocator=None):
-        if allocator is None:
-            return super().__init__()
-        hook = allocator_hook(allocator)
-        ptr = raw.lib.kl_model_new_with_alloc(hook, None)
-        if not ptr:
-            raise KinloopError(Status.ENOMEM, "kl_model_new: out of memory")
-        self._adopt(ptr, hook)
 
     def _adopt(self, ptr, hook=None, owner=None):
         """As ModelMethods._adopt, keeping the allocator `hook` (its Solvers
@@ -124,20 +100,6 @@ class Model(_api.ModelMethods):
         return row_layout(self._handle)
 
     # ---- model files ----
-
-    @classmethod
-    def read_text(cls, text, allocator=None):
-        """A finalized model from model-file text (str, or bytes as they
-        are), its allocations through `allocator` if given
-        (kl_model_read_with_alloc; else ModelMethods.read_text)."""
-        if allocator is None:
-            return super().read_text(text)
-        text, hook = to_text(text, "kl_model_read", "text"), allocator_hook(allocator)
-        err = raw.kl_io_error()
-        ptr = _api.kl_model_read_with_alloc(text, len(text), hook, None, ctypes.byref(err))
-        if not ptr:
-            check_report(err.status or Status.ENOMEM, err, "read_text")
-        return cls._adopting(ptr, hook)
 
     #: the model as model-file text (a byte that is not UTF-8, from a name
     #: given as bytes, reads as U+FFFD, as in every string from C)

@@ -171,6 +171,41 @@ def test_handles_and_makers_are_generated():
     assert "check_report(err.status or Status.ENOMEM, err, 'read_file', path)" in api
 
 
+ALLOCATING = """
+/** As kl_cam_new, every allocation through `fn` with `user` (made up for this test). */
+KL_API kl_cam *kl_cam_new_with_alloc(kl_alloc_fn fn, void *user);
+/** Not an allocator form: its parameters are not kl_study_read's (made up). */
+KL_API kl_study *kl_study_read_file_with_alloc(kl_alloc_fn fn, void *user);
+"""
+
+
+def test_the_allocator_forms_of_makers_are_generated():
+    """A maker's kl_<maker>_with_alloc (its parameters with a kl_alloc_fn and
+    its user pointer inserted) is the same Python maker with `allocator=`:
+    Model(allocator=...), Model.read_text(text, allocator=...); a new one in
+    the header needs no hand code, and a _with_alloc of other parameters is
+    not taken for one."""
+    with open(HEADER, encoding="utf-8") as f:
+        text = f.read()
+    header = generate.Header(text)
+    assert [(f.name, at) for f, at in (generate.alloc_form(header, header.function(n))
+                                       for n in ("kl_model_new", "kl_model_read"))] == [
+        ("kl_model_new_with_alloc", 0), ("kl_model_read_with_alloc", 2)]
+    assert generate.alloc_form(header, header.function("kl_model_read_file")) is None
+    api = generate.python_api(header)
+    assert "made = kl_model_read(text, len(text), ctypes.byref(err)) if hook is None else " \
+        "kl_model_read_with_alloc(text, len(text), hook, None, ctypes.byref(err))" in api
+    assert "    def read_text(cls, text, allocator=None):" in api
+    assert "'kl_model_new_with_alloc': 'ModelMethods.__init__'," in api
+    end = text.rindex("#ifdef __cplusplus")
+    header = generate.Header(text[:end] + ALLOCATING + text[end:])
+    api = generate.python_api(header)
+    assert "    def __init__(self, allocator=None):" in api.split("class CamMethods")[1]
+    assert "kl_cam_new() if hook is None else kl_cam_new_with_alloc(hook, None)" in api
+    assert "'kl_cam_new_with_alloc': 'CamMethods.__init__'," in api
+    assert "'kl_study_read_file_with_alloc': None," in api
+
+
 ANOTHER = """
 /** Probes output `o` (made up for this test). Returns KL_OK, or KL_ESINGULAR.
  * With KL_ESINGULAR, `r` still receives what was found. */
