@@ -842,8 +842,8 @@ def py_checked(b, expr):
         return "check_const(%s, %r%s)" % (expr, b.method, shown)
     if b.kept is not None:
         status, a = b.kept
-        return "self._check(%s, result=value_of(%s) if %s == Status.%s else None)" % (
-            expr, py_name(a.name), expr, status[3:])
+        return "self._check(%s, result=from_%s(%s) if %s == Status.%s else None)" % (
+            expr, a.struct.name, py_name(a.name), expr, status[3:])
     return "self._check(%s)" % expr
 
 
@@ -904,8 +904,9 @@ def py_method(b):
             late += py_output_array(a)
             call.append(n if a.struct or a.kind == "filled" else
                         "%s.ctypes.data_as(DOUBLES)" % n)
-            results.append("[value_of(v) for v in %s[:%s]]" % (n, py_name(a.count))
-                           if a.struct or a.kind == "filled" else n)
+            results.append("[from_%s(v) for v in %s[:%s]]" % (a.struct.name, n, py_name(a.count))
+                           if a.struct else "list(%s[:%s])" % (n, py_name(a.count))
+                           if a.kind == "filled" else n)
             given = "%s = to_int(%s, %r, %r)" % (py_name(a.count), py_name(a.count), f,
                                                  a.count)
             if a.kind == "array_out" and given not in pre and \
@@ -969,7 +970,7 @@ def py_method(b):
         elif a.kind == "struct_out":
             pre.append("%s = H.%s()" % (n, a.struct.name))
             call.append("ctypes.byref(%s)" % n)
-            results.append("value_of(%s)" % n)
+            results.append("from_%s(%s)" % (a.struct.name, n))
         elif a.optional:
             optional.append(n + ("=%d" % GROW_FROM if a.name == b.grows else "=None"))
             call.append(n)
@@ -1102,7 +1103,8 @@ def py_default(header, s, fl, defaults):
 
 def py_value_type(header, s, bs):
     """The frozen dataclass a struct reads as, with the methods of its
-    kl_<struct>_<verb> functions; registered for kinloop._core.value_of."""
+    kl_<struct>_<verb> functions, and from_<struct>, which reads the C struct
+    as it (py_from_c)."""
     name = camel(s.name[3:])
     default_fn = header.function("kl_%s_default" % s.name[3:])
     defaults = None
@@ -1138,32 +1140,80 @@ def py_value_type(header, s, bs):
     for b in bs:
         if b.plain and b.owner is s:
             out += py_method(b)
-    out += ["", "VALUE_TYPES[H.%s] = %s" % (s.name, name), "", ""]
-    return out
+    return out + [""] + py_from_c(header, s)
+
+
+def py_from_c(header, s):
+    """from_<struct>: a C struct as its value type, field by field: a struct
+    inside as its own value type, an enum field as its IntEnum (an int where
+    the value is none of it), a flag as a bool."""
+    given = []
+    for fl in s.value_fields():
+        e, n = field_enum(header, fl), py_name(fl.name)
+        value = ("getattr(c, %r)" % fl.name) if keyword.iskeyword(fl.name) else "c." + fl.name
+        if header.struct(fl.ctype) is not None:
+            value = "from_%s(%s)" % (fl.ctype, value)
+        elif e is not None:
+            value = "as_enum(H.%s, %s)" % (e.python, value)
+        elif is_flag(fl):
+            value = "bool(%s)" % value
+        given.append("%s=%s" % (n, value))
+    name = camel(s.name[3:])
+    return ["def from_%s(c):" % s.name,
+            '    """A %s as its value type, %s."""' % (s.name, name),
+            "    return %s(%s)" % (name, ", ".join(given)), "", ""]
 
 
 def py_kind_constructors(header, s, bs):
     """A struct the functions read whose first field is its kind (enum
     kl_<x>_kind): a constructor per kind, named after it in lower case,
-    taking the other fields in order (Output.link_angle(link)); none where
-    a field has that name already."""
+    taking the fields the kind uses in order: every field after kind but
+    those whose doc names another kind (fx "(KL_LOAD_FORCE)"), the first
+    required, two doubles <p>x, <p>y one pair <p>_xy. Where a kind's name is
+    a field's (torque), every kind's constructor is named after it and the
+    word its doc puts before its item (force "applied at point `id`":
+    force_at)."""
     fields = s.value_fields()
     e = field_enum(header, fields[0]) if fields and fields[0].name == "kind" else None
     read = any(a.struct is s and a.kind in ("struct_in", "array_in")
                for b in bs if b.plain for a in b.args)
     if e is None or not read:
         return []
+    by_word = any(e.member(c).lower() in [fl.name for fl in fields] for c, _, _ in e.values)
     out = []
     for const, _, doc in e.values:
-        name = py_name(e.member(const).lower())
-        if name.rstrip("_") in [fl.name for fl in fields]:
-            continue
-        out += ["    @classmethod", "    def %s(cls, *fields, **named):" % name,
-                py_docstring("%s: %s, the fields after kind (%s) in order" % (
-                    e.member(const).lower(), " ".join(doc.split()),
-                    ", ".join(fl.name for fl in fields[1:])), 8),
-                "        return cls(H.%s.%s, *fields, **named)" % (e.python, e.member(const)),
-                ""]
+        others = [c for c, _, _ in e.values if c != const]
+        own = [fl for fl in fields[1:]
+               if not any(re.search(r"\b%s\b" % c, fl.doc) for c in others)]
+        name = e.member(const).lower()
+        if by_word:
+            word = re.search(r"\b(\w+) \w+ `%s`" % own[0].name, doc)
+            if word is None:
+                sys.exit("generate.py: %s's doc names no item `%s` to name its constructor "
+                         "by" % (const, own[0].name))
+            name += "_" + word.group(1)
+        params, given, pre, k = [], [], [], 0
+        while k < len(own):
+            fl, nxt = own[k], own[k + 1] if k + 1 < len(own) else None
+            n = py_name(fl.name)
+            if fl.ctype == "double" and fl.name.endswith("x") and nxt is not None and \
+                    nxt.ctype == "double" and nxt.name == fl.name[:-1] + "y":
+                pair = fl.name[:-1] + "_xy"
+                params.append(pair + ("=(0.0, 0.0)" if params else ""))
+                pre.append("%s, %s = to_point(%s, %r, %r)" % (
+                    fl.name, nxt.name, pair, "%s.%s" % (camel(s.name[3:]), name), pair))
+                given += ["%s=%s" % (fl.name, fl.name), "%s=%s" % (nxt.name, nxt.name)]
+                k += 2
+                continue
+            params.append(n + ("=" + py_default(header, s, fl, None) if params else ""))
+            given.append("%s=%s" % (n, n))
+            k += 1
+        out += ["    @classmethod", "    def %s(cls, %s):" % (name, ", ".join(params)),
+                py_docstring("%s: %s (%s)" % (e.member(const).lower(), " ".join(doc.split()),
+                                            ", ".join(fl.name for fl in own)), 8)]
+        out += ["        " + l for l in pre]
+        out += ["        return cls(H.%s.%s, %s)" % (e.python, e.member(const),
+                                                   ", ".join(given)), ""]
     return out
 
 
@@ -1334,8 +1384,8 @@ def python_api(header):
            "from ._args import (array_of, fields_of, flat_pairs, rows_of, same_count, struct_in,",
            "                    to_chars, to_double, to_handle, to_int, to_long, to_path,",
            "                    to_point, to_size, to_string, to_text, with_fields)",
-           "from ._core import (VALUE_TYPES, Handle, KinloopError, allocator_hook, as_enum,",
-           "                    check_const, check_report, text, value_of)",
+           "from ._core import (Handle, KinloopError, allocator_hook, as_enum, check_const,",
+           "                    check_report, text)",
            "from ._header import Status",
            "from .raw import lib", "",
            "#: what numpy arrays the C functions fill are passed as",
@@ -1352,6 +1402,9 @@ def python_api(header):
     out += ["", "# ---- the structs as values ----", ""]
     for s in header.structs:
         out += py_value_type(header, s, bs)
+    out += ["#: each C struct's value type (from_<struct> reads one as the other)",
+            "VALUE_TYPES = {%s}" % ", ".join("H.%s: %s" % (s.name, camel(s.name[3:]))
+                                             for s in header.structs), "", ""]
     out += ["# ---- plain functions without a handle ----", ""]
     for b in bs:
         if b.plain and b.handle is None and b.owner is None:

@@ -1,15 +1,9 @@
 """What the generated and hand-written parts of the bindings share: the
-exception, the base of every class holding a C handle, and conversions of
-C results (texts, statuses, enums, structs) to Python values."""
-
-import dataclasses
-import enum
+exception, the base of every class holding a C handle, the allocator hook,
+and conversions of C results (texts, statuses, enums) to Python values."""
 
 from ._header import kl_alloc_fn
 from .raw import lib
-
-#: ctypes struct -> the Python value type it reads as (kinloop.values fills it)
-VALUE_TYPES = {}
 
 
 def text(value):
@@ -77,26 +71,6 @@ def as_enum(kind, value):
         return kind(value)
     except ValueError:
         return value
-
-
-def value_of(c):
-    """A C struct as its Python value type, field by field (an IntEnum or
-    bool field converted as the value type declares it); the struct itself
-    where no value type is registered for it."""
-    cls = VALUE_TYPES.get(type(c))
-    if cls is None:
-        return c
-    values = {}
-    for f in dataclasses.fields(cls):
-        v = getattr(c, f.name.rstrip("_"))
-        if type(v) in VALUE_TYPES:  # a struct inside a struct
-            v = value_of(v)
-        elif f.type is bool:
-            v = bool(v)
-        elif isinstance(f.type, type) and issubclass(f.type, enum.IntEnum):
-            v = as_enum(f.type, v)
-        values[f.name] = v
-    return cls(**values)
 
 
 def allocator_hook(allocator):

@@ -1,32 +1,15 @@
 """The value types: one frozen dataclass per struct of the header, generated
 (kinloop._api: its fields, the library's defaults where it has a defaults
-function, its kl_<struct>_<verb> methods), and what the bindings add to
-them: constructors of loads, and what sweeps and study runs return."""
+function, its constructors per kind, its kl_<struct>_<verb> methods), and
+what the bindings add to them: what sweeps and study runs return."""
 
 import dataclasses
 from typing import NamedTuple
 
 import numpy as np
 
-from . import _api, raw
-from ._core import VALUE_TYPES, status_text
-from ._header import LoadKind
-
-
-class Load(_api.Load):
-    """kl_load: a force at a point or a torque on a link."""
-
-    @classmethod
-    def force_at(cls, point, force):
-        fx, fy = force
-        return cls(LoadKind.FORCE, point, fx=fx, fy=fy)
-
-    @classmethod
-    def torque_on(cls, link, torque):
-        return cls(LoadKind.TORQUE, link, torque=torque)
-
-
-VALUE_TYPES.update({raw.kl_load: Load})
+from . import _api
+from ._core import status_text
 
 
 @dataclasses.dataclass(frozen=True, eq=False, kw_only=True)

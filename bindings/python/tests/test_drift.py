@@ -9,6 +9,7 @@ fails here rather than corrupting memory at run time."""
 
 import ctypes
 import dataclasses
+import enum
 import inspect
 import keyword
 import os
@@ -18,7 +19,7 @@ import subprocess
 import pytest
 
 import kinloop as kl
-from kinloop import _api, _core, raw
+from kinloop import _api, raw
 
 HEADER = os.environ.get("KINLOOP_HEADER") or pytest.skip(
     "KINLOOP_HEADER is not set (ctest sets it)", allow_module_level=True)
@@ -138,9 +139,9 @@ def test_struct_layout_is_the_compilers(name):
             field
 
 
-@pytest.mark.parametrize("name", sorted(_core.VALUE_TYPES, key=lambda t: t.__name__))
+@pytest.mark.parametrize("name", sorted(_api.VALUE_TYPES, key=lambda t: t.__name__))
 def test_value_types_have_the_fields_of_their_struct(name):
-    value = _core.VALUE_TYPES[name]
+    value = _api.VALUE_TYPES[name]
     c_fields = [f for f, _, _ in FIELDS[name.__name__] if f != "size" or not
                 issubclass(name, raw.Sized)]
     python = [f + "_" if keyword.iskeyword(f) else f for f in c_fields]
@@ -152,7 +153,7 @@ def test_every_struct_is_a_value_type_or_read_by_hand():
                "kl_sweep_result": "its fields are in SweepResult with the recorded rows"}
     for name in ("status", "steps_done", "limit_input", "substeps"):
         assert name in (f.name for f in dataclasses.fields(kl.SweepResult))
-    assert {t.__name__ for t in _core.VALUE_TYPES} | set(by_hand) == set(STRUCTS)
+    assert {t.__name__ for t in _api.VALUE_TYPES} | set(by_hand) == set(STRUCTS)
 
 
 @pytest.mark.parametrize("name", sorted(ENUMS))
@@ -233,17 +234,27 @@ def test_lists_are_read_from_their_counts():
         assert isinstance(inspect.getattr_static(cls, prop), property), (cls, prop)
 
 
-@pytest.mark.parametrize("name", sorted(_core.VALUE_TYPES, key=lambda t: t.__name__))
-def test_every_struct_has_its_converter(name):
+@pytest.mark.parametrize("name", sorted(_api.VALUE_TYPES, key=lambda t: t.__name__))
+def test_every_struct_has_its_converters(name):
     """to_kl_<struct> (generated from the header's declaration) makes the C
     struct from its value type field by field, passes the struct itself as
-    it is, and refuses a value lacking a field, naming the struct's fields."""
-    convert = getattr(_api, "to_" + name.__name__)
-    value = _core.value_of(name())  # zeros, structs inside as their value types
-    assert isinstance(value, _core.VALUE_TYPES[name])
+    it is, and refuses a value lacking a field, naming the struct's fields;
+    from_kl_<struct> (generated too) reads the C struct back as the value
+    type, each field as the value type declares it (an enum, a flag, a
+    struct inside as its own value type)."""
+    convert, read = getattr(_api, "to_" + name.__name__), getattr(_api, "from_" + name.__name__)
+    value = read(name())  # zeros, structs inside as their value types
+    assert isinstance(value, _api.VALUE_TYPES[name])
+    for field in dataclasses.fields(value):
+        got = getattr(value, field.name)
+        if field.type is bool or (isinstance(field.type, type) and
+                                  issubclass(field.type, (enum.IntEnum,))):
+            assert type(got) is field.type or type(got) is int, field.name
+        elif isinstance(field.type, str):  # a struct inside: its value type, by name
+            assert type(got).__name__ == field.type, field.name
     c = convert(value, "kl_f", "arg")
     assert isinstance(c, name) and convert(c, "kl_f", "arg") is c
-    assert _core.value_of(c) == value
+    assert read(c) == value
     with pytest.raises(kl.KinloopError, match=r"kl_f: arg has no field \w+ \(a %s needs" %
                        name.__name__):
         convert(object(), "kl_f", "arg")

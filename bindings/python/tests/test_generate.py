@@ -86,7 +86,7 @@ def test_a_struct_filled_through_an_out_pointer_is_an_output():
     body = gateway[gateway.index("gen_model_load("):]
     body = body[:body.index("\n}\n")]
     assert "kl_load load = kl_load();" in body and ".size" not in body
-    assert "value_of(load)" in generate.python_api(header)
+    assert "return from_kl_load(load)" in generate.python_api(header)
 
 
 def test_arrays_a_function_fills_are_outputs():
@@ -236,7 +236,7 @@ def test_what_a_failure_keeps_and_setters_of_structs(monkeypatch):
     assert found["kl_model_set_sweep"].current == "sweep"
     assert found["kl_model_set_gravity"].current is None
     api = generate.python_api(header)
-    assert "self._check(status, result=value_of(r) if status == Status.ESINGULAR else None)" \
+    assert "self._check(status, result=from_kl_range(r) if status == Status.ESINGULAR else None)" \
         in api
     assert "def set_bounds(self, bounds=None, **fields):" in api
     assert "bounds = with_fields(self.bounds if bounds is None else bounds, 'Range', fields, " \
@@ -317,3 +317,23 @@ def test_struct_converters_follow_the_declarations():
     assert "to_kl_cycle_peak(v[" in summary and "c.size" not in summary
     report = "\n".join(generate.py_converter(header, header.struct("kl_io_error")))
     assert re.search(r"c\.message = to_chars\(v\[\d\], \d+, F, A \+ '\.message'\)", report)
+
+
+def test_constructors_per_kind_and_readers_of_structs():
+    """A value struct whose first field is its kind gets a constructor per
+    kind taking the fields that kind uses (not those whose doc names another
+    kind), named after the kind, or, where a kind's name is a field's
+    (kl_load's torque), after the kind and the word its doc puts before the
+    item; and every struct gets from_<struct>, reading it back field by
+    field."""
+    with open(HEADER, encoding="utf-8") as f:
+        header = generate.Header(f.read())
+    api = generate.python_api(header)
+    assert "    def force_at(cls, id, f_xy=(0.0, 0.0)):" in api  # "applied at point `id`"
+    assert "    def torque_on(cls, id, torque=0.0):" in api  # "on link `id`"
+    assert "        return cls(H.LoadKind.TORQUE, id=id, torque=torque)" in api
+    assert "    def link_angle(cls, id, line_a=0, line_b=0):" in api
+    assert "    return Load(kind=as_enum(H.LoadKind, c.kind), id=c.id, fx=c.fx, fy=c.fy, " \
+        "torque=c.torque)" in api
+    for s in header.structs:
+        assert "def from_%s(c):" % s.name in api
