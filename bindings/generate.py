@@ -1351,9 +1351,16 @@ def py_handle_class(header, bs, h):
                     free.doc + " Later calls of its methods raise ValueError; closing "
                     "twice does nothing.", 76), free.name), 8),
                 "        self._finalizer()", ""]
-    for b in bs:
-        if b.makes == h:
-            out += py_maker(header, b)
+    makers = [b for b in bs if b.makes == h]
+    for b in makers:
+        out += py_maker(header, b)
+    if makers and "__init__" not in map(py_maker_name, makers):
+        # made only by makers taking arguments: the class refuses to be called
+        ways = " or ".join("%s.%s(%s)" % (name, py_maker_name(b), ", ".join(
+            py_name(a.name) for a in b.args if a.is_input)) for b in makers)
+        out += ["    def __init__(self, *args, **kwargs):",
+                '        """Not a maker: use %s."""' % ways,
+                "        raise TypeError(%r)" % ("kinloop.%s: use %s" % (name, ways)), ""]
     for b in bs:
         if b.plain and b.handle == h:
             out += py_method(b)

@@ -29,10 +29,6 @@ class Study(_api.StudyMethods):
     the view keep working after the study is closed (the library keeps the
     model for them)."""
 
-    def __init__(self, *args, **kwargs):
-        raise TypeError("kinloop.Study: use Study.read_text(text, model) or "
-                        "Study.read_file(path), then prepare()")
-
     def _adopt(self, ptr, model=None):
         """As StudyMethods._adopt, keeping the allocator of `model`, the
         Model read against (solvers of the view use it; the study may be

@@ -169,6 +169,10 @@ def test_handles_and_makers_are_generated():
     assert "to_handle(model, 'model', 'kl_study_read', 'model')" in api
     assert "return cls._adopting(made, model)" in api  # the study keeps its model's hook
     assert "check_report(err.status or Status.ENOMEM, err, 'read_file', path)" in api
+    # made only by makers with arguments: calling the class says which
+    assert "raise TypeError('kinloop.Study: use Study.read_text(text, model) or " \
+        "Study.read_file(path)')" in api
+    assert "kinloop.Model: use" not in api and "kinloop.Cam: use" not in api
 
 
 ALLOCATING = """
