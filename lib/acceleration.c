@@ -7,6 +7,17 @@
 
 #include "velocity.h"
 
+/* Inputs that do not accelerate (cranks turning steadily) give a plan's
+ * input terms as exact zeros (+0, as a sum from +0 of zero products is):
+ * the stage then writes them without evaluating the terms. */
+static int all_zero(const double *values, int n) {
+  int i;
+  for (i = 0; i < n; i++)
+    if (values[i] != 0.0)
+      return 0;
+  return 1;
+}
+
 int kl_solve_acceleration(kl_solver *s, const double *input_accels) {
   int st;
   if (s == NULL)
@@ -19,7 +30,10 @@ int kl_solve_acceleration(kl_solver *s, const double *input_accels) {
     return kli_fail(s->error, KL_ESTAGE,
                     "solve acceleration needs the velocity solved at the "
                     "current position first");
-  kli_input_terms(s, input_accels, s->rhs);
+  if (s->plan.usable && all_zero(input_accels, s->ninputs))
+    memset(s->rhs, 0, (size_t)s->nrows * sizeof(double));
+  else
+    kli_input_terms(s, input_accels, s->rhs);
   kli_add_second(s, s->st.xd, s->st.xd, s->rhs);
   kli_rate_solve(s, s->rhs, input_accels, s->st.xdd);
   if (s->ninputs > 0)

@@ -78,6 +78,7 @@ int kli_dense_choose(const kli_dense *d, int kernel) {
 
 void kli_dense_use(kli_dense *d, int kernel) {
   d->kernel = kli_dense_choose(d, kernel);
+  d->two = d->kernel == KL_KERNEL_SMALL && d->p.n == 2;
   d->singular = 1;
 }
 
@@ -173,8 +174,6 @@ static int small_factor2(kli_dense *d) {
 static int small_factor(kli_dense *d) {
   int n = d->p.n, i, j, k, singular = 0, rows, *below = d->iwork;
   double *lu = d->lu;
-  if (n == 2)
-    return small_factor2(d);
   memcpy(lu, d->a, (size_t)n * (size_t)n * sizeof(double));
   for (k = 0; k < n; k++) {
     int piv = k;
@@ -214,15 +213,21 @@ static int small_factor(kli_dense *d) {
   return singular;
 }
 
+/* The 2 x 2 solve unrolled: small_solve's operations for n = 2. */
+static void small_solve2(const kli_dense *d, double *b) {
+  const double *lu = d->lu;
+  double b0 = d->ipiv[0] == 2 ? b[1] : b[0];
+  double b1 = (d->ipiv[0] == 2 ? b[0] : b[1]) - lu[1] * b0;
+  b[1] = b1 / lu[3];
+  b[0] = (b0 - lu[2] * b[1]) / lu[0];
+}
+
 /* Solves (A D) y = b in place with the small kernel's factors. */
 static void small_solve(const kli_dense *d, double *b) {
   int n = d->p.n, i, k;
   const double *lu = d->lu;
-  if (n == 2) {
-    double b0 = d->ipiv[0] == 2 ? b[1] : b[0];
-    double b1 = (d->ipiv[0] == 2 ? b[0] : b[1]) - lu[1] * b0;
-    b[1] = b1 / lu[3];
-    b[0] = (b0 - lu[2] * b[1]) / lu[0];
+  if (d->two) {
+    small_solve2(d, b);
     return;
   }
   for (k = 0; k < n; k++) {
@@ -354,6 +359,8 @@ static void band_solve(const kli_dense *d, double *b) {
 int kli_dense_factor(kli_dense *d) {
   int n = d->p.n;
   lapack_int info = 0;
+  if (d->two)
+    return d->singular = small_factor2(d);
   if (n == 0) {
     d->singular = 0;
     return 0;
@@ -459,7 +466,9 @@ static double band_inverse_bound(kli_dense *d) {
 static double small_rcond2(const kli_dense *d) {
   const double *a = d->a;
   double det = fabs(d->lu[0] * d->lu[3]);
-  double rows = fmax(fabs(a[0]) + fabs(a[2]), fabs(a[1]) + fabs(a[3]));
+  double first = fabs(a[0]) + fabs(a[2]), second = fabs(a[1]) + fabs(a[3]);
+  /* fmax's choice, NaN included, without the call */
+  double rows = isnan(first) || second > first ? second : first;
   return det / (d->anorm * rows);
 }
 
@@ -471,7 +480,7 @@ double kli_dense_rcond_at_least(kli_dense *d, double needed) {
     return 0.0;
   switch (d->kernel) {
   case KL_KERNEL_SMALL:
-    return d->p.n == 2 ? small_rcond2(d) : kli_dense_rcond(d);
+    return d->two ? small_rcond2(d) : kli_dense_rcond(d);
   case KL_KERNEL_BANDED:
     bound = band_inverse_bound(d);
     break;
@@ -527,6 +536,10 @@ int kli_dense_det_sign(const kli_dense *d) { return determinant(d, NULL); }
 void kli_dense_solve(const kli_dense *d, double *b) {
   int i, n = d->p.n;
   double *tmp = d->work;
+  if (d->two && d->unscaled) { /* a four-bar's solve, without the rest */
+    small_solve2(d, b);
+    return;
+  }
   if (n == 0)
     return;
   switch (d->kernel) {

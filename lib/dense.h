@@ -28,6 +28,9 @@ typedef struct {
 typedef struct {
   kli_pattern p;
   int kernel;        /* KL_KERNEL_SMALL, _DENSE or _BANDED in use */
+  int two;           /* the small kernel on a 2 x 2 system (four-bars,
+                        slider-cranks): factor, solve and rcond take their
+                        unrolled paths first, set with the kernel */
   /* Column scales D: the matrix held is A D, with every column in length
    * units (slide columns times the model's scale), so that the condition
    * estimate does not depend on the unit of length. */

@@ -41,12 +41,13 @@
 /* |v|inf with slides measured in units of the model's scale. */
 static double scaled_norm(const kl_solver *s, const double *v) {
   const kl_model *m = s->model;
-  double norm = 0.0, inv_scale = 1.0 / m->topo.scale;
+  double norm = 0.0;
   int i, angles_only = s->plan.usable; /* a plan's unknowns are angles */
   for (i = 0; i < s->n; i++) {
     double a = fabs(v[i]);
+    /* the scale's reciprocal only for a slide, not at every call */
     if (!angles_only && m->topo.var_coord[i] >= m->nlinks)
-      a *= inv_scale;
+      a *= 1.0 / m->topo.scale;
     if (!(a <= norm))
       norm = a; /* NaN propagates */
   }
