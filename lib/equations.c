@@ -3,19 +3,13 @@
  * values on the sparsity pattern, rates along coordinate velocities and the
  * second-order (centripetal and Coriolis) terms.
  */
-/* glibc's sincos() takes cosine and sine together, for half the work */
-#define _GNU_SOURCE
+#include "sincos.h"
+
 #include <math.h>
 #include <string.h>
 
 #include "equations.h"
 #include "slots.h"
-
-#if defined(__GLIBC__)
-#define kli_sincos(a, s, c) sincos((a), (s), (c))
-#else
-#define kli_sincos(a, s, c) (*(s) = sin(a), *(c) = cos(a))
-#endif
 
 void kli_expand_inputs(const kl_model *m, const double *u, double *base) {
   const kli_topology *t = &m->topo;

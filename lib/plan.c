@@ -3,18 +3,12 @@
  * revolute loops, their Jacobian and the rate stages' terms as flat lists
  * worked out once, evaluated without the vector chains' dispatch.
  */
-/* glibc's sincos() takes cosine and sine together, for half the work */
-#define _GNU_SOURCE
+#include "sincos.h"
+
 #include <math.h>
 #include <string.h>
 
 #include "plan.h"
-
-#if defined(__GLIBC__)
-#define kli_sincos(a, s, c) sincos((a), (s), (c))
-#else
-#define kli_sincos(a, s, c) (*(s) = sin(a), *(c) = cos(a))
-#endif
 
 /* A model fits the plan when every row is a loop row, every loop term a
  * link term, every unknown a link angle and no joint slides. */
