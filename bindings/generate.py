@@ -907,8 +907,8 @@ def py_method(b):
             results.append("[from_%s(v) for v in %s[:%s]]" % (a.struct.name, n, py_name(a.count))
                            if a.struct else "list(%s[:%s])" % (n, py_name(a.count))
                            if a.kind == "filled" else n)
-            given = "%s = to_int(%s, %r, %r)" % (py_name(a.count), py_name(a.count), f,
-                                                 a.count)
+            given = "%s = to_array_size(%s, %r, %r)" % (py_name(a.count), py_name(a.count),
+                                                        f, a.count)
             if a.kind == "array_out" and given not in pre and \
                     a.count in [x.name for x in b.args if x.kind == "scalar"]:
                 pre.append(given)  # before the arrays it sizes
@@ -995,7 +995,7 @@ def py_method(b):
     if b.grows:
         # the C call cannot grow the caller's arrays: a larger call each time
         cap = py_name(b.grows)
-        pre += ["%s = to_int(%s, %r, %r)" % (cap, cap, f, b.grows), "while True:"] + ["    " + l for l in late] + [
+        pre += ["%s = to_array_size(%s, %r, %r)" % (cap, cap, f, b.grows), "while True:"] + ["    " + l for l in late] + [
             "    status = %s" % expr,
             "    if status != Status.ETRUNCATED or %s >= %d:" % (cap, GROW_UP_TO),
             "        break", "    %s *= 4" % cap]
@@ -1389,8 +1389,8 @@ def python_api(header):
            "import dataclasses", "import weakref", "", "import numpy as np", "",
            "from . import _header as H",
            "from ._args import (array_of, fields_of, flat_pairs, rows_of, same_count, struct_in,",
-           "                    to_chars, to_double, to_handle, to_int, to_long, to_path,",
-           "                    to_point, to_size, to_string, to_text, with_fields)",
+           "                    to_array_size, to_chars, to_double, to_handle, to_int, to_long,",
+           "                    to_path, to_point, to_size, to_string, to_text, with_fields)",
            "from ._core import (Handle, KinloopError, allocator_hook, as_enum, check_const,",
            "                    check_report, text)",
            "from ._header import Status",
@@ -1633,6 +1633,7 @@ def octave_wrapper(header, b):
         elif a.kind == "scalar":
             conv = ("c.code(c.arg(%d), %s, %s_names)" % (i, what, a.enum.name) if a.enum else
                     "c.real(c.arg(%d), %s)" % (i, what) if a.ctype == "double" else
+                    "c.array_size(c.arg(%d), %s)" % (i, what) if sizes_an_array(b, a.name) else
                     "c.whole<%s>(c.arg(%d), %s)" % (a.ctype, i, what))
             if a.optional:  # the capacity of growing arrays
                 conv = "c.given(%d) ? %s : %d" % (i, conv, GROW_FROM)
@@ -1782,6 +1783,13 @@ def octave_wrapper(header, b):
     if not any(re.search(r"\bc\b[.,)]", l) for l in lines[signature + 1:]):
         lines[signature] = lines[signature].replace("const call &c", "const call &")
     return lines, i
+
+
+def sizes_an_array(b, name):
+    """Whether the scalar argument `name` sizes an array the binding makes
+    for the function to fill (a growing array's capacity, or an output's
+    count the caller gives)."""
+    return name == b.grows or any(a.kind == "array_out" and a.count == name for a in b.args)
 
 
 def octave_output_array(a, n):

@@ -189,6 +189,15 @@ int call::count(size_t n, const std::string &what) const {
   return static_cast<int>(n);
 }
 
+int call::array_size(const octave_value &v, const std::string &what) const {
+  int n = whole<int>(v, what);
+  if (n > KL_MAX_STEPS)
+    raise_status(KL_ETOOLARGE, name + ": " + what + " " + str(n) +
+                                   " is above KL_MAX_STEPS (" + str(KL_MAX_STEPS) +
+                                   "), the most elements the bindings make room for");
+  return n;
+}
+
 octave_map call::one_struct(int i, const std::string &what) const {
   octave_map m = structs(i, what);
   if (m.numel() != 1)

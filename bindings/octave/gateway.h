@@ -125,6 +125,10 @@ public:
   octave_map struct_list(int i, const std::string &what) const;
   /* The length of an array as the C int that counts it. */
   int count(size_t n, const std::string &what) const;
+  /* A whole number sizing an array the gateway makes for the library to
+   * fill: at most KL_MAX_STEPS elements, else KL_ETOOLARGE, so a huge value
+   * is refused before any memory is asked for. */
+  int array_size(const octave_value &v, const std::string &what) const;
   void only_fields(const octave_map &m, const std::string &what,
                    std::initializer_list<const char *> fields, bool all) const;
   void text_into(const octave_value &v, const std::string &what, char *out,

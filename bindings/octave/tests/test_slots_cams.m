@@ -15,6 +15,7 @@ for curved = [false true]
                          'law', {'cycloidal', 'cycloidal'}));
     [pitch, surface] = c.outline(720);
     assert(all(abs(hypot(pitch(:, 1) - surface(:, 1), pitch(:, 2) - surface(:, 2)) - 10) < 1e-9));
+    expect_error(@() c.outline(1e7 + 1), 'kinloop:ETOOLARGE');  % above KL_MAX_STEPS
   end
   m = kinloop.Model();
   cam = m.add_link('cam');

@@ -68,5 +68,9 @@ assert(abs(w.area - reference) < 1e-4 * reference, 'area %g, integral %g', w.are
 expect_error(@() s.workspace(tip, 'step', NaN), 'kinloop:ENONFINITE');
 expect_error(@() s.workspace(tip, 'grid', 2), 'kinloop:EINVAL');
 expect_error(@() s.workspace(42), 'kinloop:EID');
+% room the gateway would make for the vertices (the capacity the class
+% leaves at its start): refused before any memory is asked for
+expect_error(@() __kinloop__('solver_workspace', s.id, tip, [], 2^31 - 1), ...
+             'kinloop:ETOOLARGE');
 f = fourbar(40, 120, 80, 100);
 expect_error(@() kinloop.Solver(f.m).workspace(f.coupler_point), 'kinloop:EDOF');

@@ -19,7 +19,7 @@ import os
 import numpy as np
 
 from ._core import Handle, KinloopError
-from ._header import Status
+from ._header import MAX_STEPS, Status
 
 
 def _range(ctype, signed):
@@ -61,6 +61,18 @@ def to_long(value, function, argument):
 
 def to_size(value, function, argument):
     return _integer(value, "size_t", function, argument)
+
+
+def to_array_size(value, function, argument):
+    """A whole number sizing an array the bindings make for the library to
+    fill: at most MAX_STEPS elements, else Status.ETOOLARGE, so a huge value
+    is refused before any memory is asked for."""
+    n = to_int(value, function, argument)
+    if n > MAX_STEPS:
+        raise KinloopError(Status.ETOOLARGE, "%s: %s %d is above KL_MAX_STEPS (%d), the most "
+                           "elements the bindings make room for" % (function, argument, n,
+                                                                   MAX_STEPS))
+    return n
 
 
 def to_double(value, function, argument):

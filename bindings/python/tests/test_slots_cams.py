@@ -50,6 +50,9 @@ def test_outline_as_a_curve_slot():
         assert pitch.shape == (720, 2)
         # the surface lies a roller radius inside the pitch curve
         assert np.allclose(np.hypot(*(pitch - surface).T), 10.0)
+        with pytest.raises(kl.KinloopError) as e:
+            c.outline(kl.MAX_STEPS + 1)  # refused before the arrays are made
+        assert e.value.status == kl.Status.ETOOLARGE
         m = kl.Model()
         cam = m.add_link("cam")
         follower = m.add_link("follower")

@@ -84,6 +84,12 @@ def test_bad_input():
     with pytest.raises(kl.KinloopError) as e:
         s.workspace(17)
     assert e.value.status == kl.Status.EID
+    # room the binding would make for the vertices: refused before any
+    # memory is asked for (a fuzzer's 2**31 - 1 once asked numpy for 32 GiB)
+    for cap in (kl.MAX_STEPS + 1, 2**31 - 1):
+        with pytest.raises(kl.KinloopError) as e:
+            s.workspace(tip, cap=cap)
+        assert e.value.status == kl.Status.ETOOLARGE and "KL_MAX_STEPS" in str(e.value)
 
 
 def test_offset_pen_against_sampled_positions():
