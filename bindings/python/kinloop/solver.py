@@ -198,8 +198,8 @@ class Solver(_api.SolverMethods):
         by a motion limit gives the samples it reached (fewer than
         steps + 1). A negative status raises KinloopError."""
         function = "kl_cycle_table"
-        c = with_fields(cycle if cycle is not None else _api.Cycle(), "Cycle", fields, function,
-                        "cycle")
+        c = _api.to_kl_cycle(with_fields(cycle if cycle is not None else _api.Cycle(), "Cycle",
+                                         fields, function, "cycle"), function, "cycle")
         loads, count = array_of(loads, raw.kl_load, _api.to_kl_load, function, "loads")
         mh = self._model_ptr
         dtype = cycle_table_dtype(self._input_count, _api.kl_model_joint_count(mh))
@@ -207,7 +207,7 @@ class Solver(_api.SolverMethods):
         if dtype.itemsize != columns * ctypes.sizeof(ctypes.c_double):
             raise RuntimeError("kinloop: kl_cycle_table's row has %d numbers; the "
                                "bindings expect %d" % (columns, dtype.itemsize // 8))
-        steps = to_int(c.steps, function, "cycle.steps")
+        steps = c.steps
         table = np.zeros(steps + 1 if 1 <= steps <= MAX_STEPS else 1, dtype=dtype)
         done = ctypes.c_int()
         self._check(_api.kl_cycle_table(self._changing, c, count, loads,

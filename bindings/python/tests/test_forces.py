@@ -268,6 +268,10 @@ def test_bad_cycles_raise_and_change_nothing():
     with pytest.raises(kl.KinloopError) as e:
         s.cycle_table(steps=2.5)
     assert e.value.status == kl.Status.EINVAL
+    for cycle in (3, b"", 1e308):  # no cycle at all: refused, like any struct argument
+        with pytest.raises(kl.KinloopError) as e:
+            s.cycle_table(cycle=cycle)
+        assert e.value.status == kl.Status.EINVAL and "cycle" in e.value.message
     with pytest.raises(TypeError):
         s.cycle_summarize(spead=3.0)
     np.testing.assert_array_equal(s.row(), row)
