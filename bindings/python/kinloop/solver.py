@@ -145,6 +145,9 @@ class Solver(_api.SolverMethods):
         `result` holding the steps delivered."""
         h = self._changing
         steps = to_int(steps, "kl_solver_sweep", "steps")
+        if callback is not None and not callable(callback):
+            refuse("kl_solver_sweep", "callback", "must be callable or None; got %s"
+                   % type(callback).__name__)
         # sized for a count the library takes: it refuses the others itself
         # (KL_EINVAL, KL_ETOOLARGE) and then writes no row; every row kept
         # (table[:steps_done]) is written, so none is cleared first

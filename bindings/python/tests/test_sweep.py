@@ -178,6 +178,17 @@ def test_callback_exception_is_raised_again():
     assert s.solve_position(0.3) == kl.Status.OK
 
 
+def test_a_callback_that_cannot_be_called_is_refused_before_the_sweep():
+    f = build_fourbar(40, 120, 80, 100)
+    s = kl.Solver(f.model)
+    sketch_branch(s, f, 0.0, +1)
+    before = s.row()
+    with pytest.raises(kl.KinloopError) as e:
+        s.sweep(0, 0.0, 1.0, 10, callback="\0")
+    assert e.value.status == kl.Status.EINVAL and "callback" in e.value.message
+    np.testing.assert_array_equal(s.row(), before)  # no step taken
+
+
 def test_callback_may_not_change_the_solver():
     # kl_sweep_fn receives a const solver: changing it mid-sweep is refused
     f = build_fourbar(40, 120, 80, 100)
