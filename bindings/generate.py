@@ -223,7 +223,8 @@ class Function:
 # a struct the function fills with why it failed (kl_io_error: status,
 # line, column, message), which the bindings raise. The header documents
 # the same in words. "N rows X": a table the function reads, N rows
-# (an int or long) of kl_<handle>_X(handle) numbers each, row by row;
+# (an int or long) of kl_<handle>_X(handle) numbers each, row by row ("N
+# rows X out": such a table the function fills, N the caller's);
 # "bytes LENGTH": a text the function reads, LENGTH (a size_t) bytes long.
 # Handles, fixed arrays (double xy[2]) and sized structs need no entry; a
 # function with any other pointer is bound by hand. generate.py stops if an entry names a
@@ -273,6 +274,8 @@ POINTERS = {
     "kl_solver_row": {"row": "per row_size out"},
     "kl_model_write": {"buf": "text cap needed"},
     "kl_study_summarize": {"values": "n rows output_count", "sample_status": "n"},
+    "kl_study_run": {"values": "count rows output_count out", "sample_status": "count out",
+                     "dims": "count rows dimension_count out"},
     "kl_model_write_file": {"err": "error"},
     "kl_model_read": {"text": "bytes length", "err": "error"},
     "kl_model_read_file": {"err": "error"},
@@ -283,6 +286,10 @@ POINTERS = {
     "kl_cycle_summarize": {"c": "one", "loads": "nloads", "input_peaks": "per input_count out",
                            "joint_peaks": "per joint_count out"},
 }
+
+# Named tuples of several results named otherwise than after their method
+# (Study.run's would be a bare Run).
+RESULT_NAMES = {"kl_study_run": "StudyRun"}
 
 # Where a growing array starts (elements), and where it stops growing.
 GROW_FROM, GROW_UP_TO = 4096, 1 << 22
@@ -369,6 +376,7 @@ class Arg:
         self.ctype, self.length, self.enum, self.struct = ctype, length, enum, struct
         self.const, self.optional, self.count = const, optional, count
         self.per_model = None  # array_out: its count is kl_model_<per_model>(model)
+        self.rows = None  # a table: count rows of kl_<handle>_<rows>(handle) numbers
 
     @property
     def is_input(self):
@@ -509,6 +517,7 @@ class Binding:
                                      p.name, [p], ctype=p.base, struct=struct,
                                      count=role_count(role),
                                      per=2 if " pairs" in role else 1))
+                self.args[-1].rows = role.split()[2] if " rows " in role else None
             elif role is not None and " grows " in role and not p.const and \
                     p.pointers == 1 and p.base in ("int", "double"):
                 a = Arg("grown", p.name, [p], ctype=p.base, count=role_count(role),
@@ -847,13 +856,17 @@ def py_checked(b, expr):
     return "self._check(%s)" % expr
 
 
-def py_output_array(a):
+def py_output_array(a, handle):
     """The array a function fills, `count` elements: numbers as a numpy
-    array ((count, 2) for x, y pairs), structs as a ctypes array."""
+    array ((count, 2) for x, y pairs, (count, columns) for a table; an int
+    array as numpy.intc), structs as a ctypes array."""
     n, count = py_name(a.name), py_name(a.count)
     if a.struct is None and a.kind == "array_out":
-        shape = "(max(%s, 0), 2)" % count if a.per == 2 else "max(%s, 0)" % count
-        return ["%s = np.zeros(%s)" % (n, shape)]
+        width = 2 if a.per == 2 else "lib.kl_%s_%s(self._handle)" % (handle, a.rows) \
+            if a.rows else None
+        shape = "(max(%s, 0), %s)" % (count, width) if width else "max(%s, 0)" % count
+        return ["%s = np.zeros(%s%s)" % (n, shape, ", dtype=np.intc" if a.ctype == "int"
+                                          else "")]
     ctype = "H." + a.struct.name if a.struct else PY_CTYPES[a.ctype]
     lines = ["%s = (%s * max(%s, 1))()" % (n, ctype, count)]
     if a.struct is not None and a.struct.sized:
@@ -901,14 +914,16 @@ def py_method(b):
         if a.kind in ("filled", "array_out"):
             if a.per_model:
                 pre.append("%s = lib.kl_model_%s(self._model_ptr)" % (a.count, a.per_model))
-            late += py_output_array(a)
+            late += py_output_array(a, b.handle)
             call.append(n if a.struct or a.kind == "filled" else
-                        "%s.ctypes.data_as(DOUBLES)" % n)
+                        "%s.ctypes.data_as(%s)" % (n, PY_POINTERS[a.ctype]))
             results.append("[from_%s(v) for v in %s[:%s]]" % (a.struct.name, n, py_name(a.count))
                            if a.struct else "list(%s[:%s])" % (n, py_name(a.count))
                            if a.kind == "filled" else n)
-            given = "%s = to_array_size(%s, %r, %r)" % (py_name(a.count), py_name(a.count),
-                                                        f, a.count)
+            sized = next((x for x in b.args if x.name == a.count), None)
+            given = "%s = to_array_size(%s, %r, %r%s)" % (
+                py_name(a.count), py_name(a.count), f, a.count,
+                ", ctype=%r" % sized.ctype if sized is not None and sized.ctype != "int" else "")
             if a.kind == "array_out" and given not in pre and \
                     a.count in [x.name for x in b.args if x.kind == "scalar"]:
                 pre.append(given)  # before the arrays it sizes
@@ -1041,7 +1056,7 @@ def py_results(b):
     the method in CamelCase (Workspace), its fields after the C parameters
     filled (the C result first, as `result`); None for one result."""
     fields = (["result"] if b.value_result else []) + [py_name(a.name) for a in b.outputs]
-    return (camel(b.method), fields) if len(fields) > 1 else None
+    return (RESULT_NAMES.get(b.name, camel(b.method)), fields) if len(fields) > 1 else None
 
 
 def py_result_tuples(bs):
@@ -1602,7 +1617,7 @@ def octave_wrapper(header, b):
         if a.kind in ("filled", "array_out"):
             if a.per_model:
                 lines.append("  int %s = kl_model_%s(h.model);" % (a.count, a.per_model))
-            more, arg, out = octave_output_array(a, n)
+            more, arg, out = octave_output_array(a, n, b.handle)
             late += more
             call_args.append(arg)
             outs.append(out)
@@ -1633,7 +1648,8 @@ def octave_wrapper(header, b):
         elif a.kind == "scalar":
             conv = ("c.code(c.arg(%d), %s, %s_names)" % (i, what, a.enum.name) if a.enum else
                     "c.real(c.arg(%d), %s)" % (i, what) if a.ctype == "double" else
-                    "c.array_size(c.arg(%d), %s)" % (i, what) if sizes_an_array(b, a.name) else
+                    "c.array_size<%s>(c.arg(%d), %s)" % (a.ctype, i, what)
+                    if sizes_an_array(b, a.name) else
                     "c.whole<%s>(c.arg(%d), %s)" % (a.ctype, i, what))
             if a.optional:  # the capacity of growing arrays
                 conv = "c.given(%d) ? %s : %d" % (i, conv, GROW_FROM)
@@ -1792,14 +1808,18 @@ def sizes_an_array(b, name):
     return name == b.grows or any(a.kind == "array_out" and a.count == name for a in b.args)
 
 
-def octave_output_array(a, n):
+def octave_output_array(a, n, handle):
     """An array the function fills: the lines making it (once its count
     is known), the C argument, and the Octave value of what was filled:
-    numbers as a row (count-by-2 for x, y pairs), structs as a struct row."""
+    numbers as a row (count-by-2 for x, y pairs, count-by-columns for a
+    table), structs as a struct row."""
     count = a.count
-    if a.struct is None and a.kind == "array_out":
-        make = ["  Matrix %s(%d, %s > 0 ? %s : 0);" % (n, a.per, count, count)]
-        return make, "%s.fortran_vec()" % n, "%s.transpose()" % n if a.per == 2 else n
+    if a.struct is None and a.kind == "array_out" and a.ctype == "double":
+        # C writes element by element, row by row: Octave's columns are C's rows
+        width = "kl_%s_%s(h.%s)" % (handle, a.rows, handle) if a.rows else a.per
+        make = ["  Matrix %s(%s, %s > 0 ? %s : 0);" % (n, width, count, count)]
+        return make, "%s.fortran_vec()" % n, "%s.transpose()" % n \
+            if a.per == 2 or a.rows else n
     ctype = a.struct.name if a.struct else a.ctype
     make = ["  std::vector<%s> %s(%s > 0 ? %s : 1, %s());" % (ctype, n, count, count, ctype)]
     if a.struct is None:

@@ -189,13 +189,10 @@ int call::count(size_t n, const std::string &what) const {
   return static_cast<int>(n);
 }
 
-int call::array_size(const octave_value &v, const std::string &what) const {
-  int n = whole<int>(v, what);
-  if (n > KL_MAX_STEPS)
-    raise_status(KL_ETOOLARGE, name + ": " + what + " " + str(n) +
-                                   " is above KL_MAX_STEPS (" + str(KL_MAX_STEPS) +
-                                   "), the most elements the bindings make room for");
-  return n;
+void call::too_large(const std::string &what, long n) const {
+  raise_status(KL_ETOOLARGE, name + ": " + what + " " + std::to_string(n) +
+                                 " is above KL_MAX_STEPS (" + str(KL_MAX_STEPS) +
+                                 "), the most elements the bindings make room for");
 }
 
 octave_map call::one_struct(int i, const std::string &what) const {
@@ -655,35 +652,6 @@ octave_value_list cmd_study_model(const call &c) {
   return one(st.model_id);
 }
 
-octave_value_list cmd_study_run(const call &c) {
-  const kl_study *st = c.study(0).study;
-  long first = c.whole<long>(c.arg(1), "first"), count = c.whole<long>(c.arg(2), "count");
-  int threads = c.given(3) ? c.whole<int>(c.arg(3), "threads") : 0;
-  long total = kl_study_sample_count(st);
-  int nout = kl_study_output_count(st), ndim = kl_study_dimension_count(st);
-  bool want_dims = c.nargout >= 3;
-  /* sized for a valid range; the library judges the range itself */
-  long rows = count < 0 ? 0 : count > total ? total : count;
-  std::vector<double> values(static_cast<size_t>(rows) * nout + 1);
-  std::vector<double> dims(want_dims ? static_cast<size_t>(rows) * ndim + 1 : 0);
-  std::vector<int> status(static_cast<size_t>(rows) + 1);
-  int run = kl_study_run(st, first, count, threads, values.data(), status.data(),
-                         want_dims ? dims.data() : nullptr);
-  if (run < 0)
-    raise_status(run, c.name + ": " + kl_status_str(run) + " (first " + std::to_string(first) +
-                          ", count " + std::to_string(count) + "; the study has samples 0 .. " +
-                          std::to_string(total - 1) + ")");
-  octave_value_list out;
-  out(0) = from_rows(values, rows, nout);
-  ColumnVector codes(rows);
-  for (long i = 0; i < rows; i++)
-    codes(i) = status[i];
-  out(1) = codes;
-  if (want_dims)
-    out(2) = from_rows(dims, rows, ndim);
-  return out;
-}
-
 /* ------------------------------------------------------------------------
  * The gateway's own commands and the dispatch
  * ------------------------------------------------------------------------ */
@@ -730,7 +698,6 @@ const command hand_commands[] = {
     {"cycle_table", 1, 3, "(solver, [cycle], [loads])", cmd_cycle_table},
     {"study_free", 1, 1, "(study)", cmd_study_free},
     {"study_model", 1, 1, "(study)", cmd_study_model},
-    {"study_run", 3, 4, "(study, first, count, [threads])", cmd_study_run},
     {"cam_free", 1, 1, "(cam)", cmd_cam_free},
     {nullptr, 0, 0, nullptr, nullptr}};
 

@@ -128,7 +128,13 @@ public:
   /* A whole number sizing an array the gateway makes for the library to
    * fill: at most KL_MAX_STEPS elements, else KL_ETOOLARGE, so a huge value
    * is refused before any memory is asked for. */
-  int array_size(const octave_value &v, const std::string &what) const;
+  template <typename T> T array_size(const octave_value &v, const std::string &what) const {
+    T n = whole<T>(v, what);
+    if (n > KL_MAX_STEPS)
+      too_large(what, n);
+    return n;
+  }
+  [[noreturn]] void too_large(const std::string &what, long n) const;
   void only_fields(const octave_map &m, const std::string &what,
                    std::initializer_list<const char *> fields, bool all) const;
   void text_into(const octave_value &v, const std::string &what, char *out,

@@ -47,11 +47,11 @@ classdef Study < kinloop.StudyMethods
       m = kinloop.Model('adopt', __kinloop__('study_model', obj.id), obj);
     end
 
-    function varargout = run(obj, first, count, threads)
+    function [values, status, dims] = run(obj, first, count, threads)
       % [values, status, dims] = run([first [, count [, threads]]]): samples
-      % first .. first + count - 1 (default: all of them from first) on
-      % threads threads (0, the default: all the cores). dims is computed
-      % only when asked for.
+      % first .. first + count - 1 (default: all of them from first, at most
+      % KL_MAX_STEPS a call) on threads threads (0, the default: all the
+      % cores); status a column, as values and dims have a row per sample.
       if nargin < 2
         first = 0;
       end
@@ -61,7 +61,8 @@ classdef Study < kinloop.StudyMethods
       if nargin < 4
         threads = 0;
       end
-      [varargout{1:max(nargout, 1)}] = __kinloop__('study_run', obj.id, first, count, threads);
+      [values, status, dims] = run@kinloop.StudyMethods(obj, first, count, threads);
+      status = status(:);
     end
 
     function s = summarize(obj, output, values, status)

@@ -106,8 +106,12 @@ expect_error(@() st.output_name(2^32), 'kinloop:EINVAL');
 st.prepare();
 n = st.sample_count();
 big = intmax('int64');
-for range = {{10, big}, {0, big}, {big - 5, 10}, {big, big}, {n, 1}, {n + 1, 0}}
+for range = {{big - 5, 10}, {n, 1}, {n + 1, 0}}
   err = expect_error(@() st.run(range{1}{:}), 'kinloop:EINVAL');
+end
+% counts the gateway could not make room for never reach C
+for range = {{10, big}, {0, big}, {big, big}}
+  err = expect_error(@() st.run(range{1}{:}), 'kinloop:ETOOLARGE');
 end
 [values, status] = st.run(n - 1, 1);
 assert(numel(status) == 1);

@@ -66,7 +66,8 @@ assert(isequal(bits([va; vb]), bits(values)) && isequal([sa; sb], status) && ...
 [vt, st_tail] = st.run(1990);
 assert(isequal(size(vt), [10 4]) && numel(st_tail) == 10);
 err = expect_error(@() st.run(0, 2001), 'kinloop:EINVAL');
-assert(~isempty(strfind(err.message, 'samples 0 .. 1999')), 'message: %s', err.message);
+assert(~isempty(strfind(err.message, 'study_run')), 'message: %s', err.message);
+expect_error(@() st.run(0, 1e7 + 1), 'kinloop:ETOOLARGE');  % above KL_MAX_STEPS a call
 expect_error(@() st.run(-1, 5), 'kinloop:EINVAL');
 expect_error(@() st.run(0, 1.5), 'kinloop:EINVAL');
 [none, no_status] = st.run(2000);
@@ -240,4 +241,4 @@ err = expect_error(@() __kinloop__('study_sample_count', study_id), 'kinloop:bad
 assert(~isempty(strfind(err.message, sprintf('study %d has been freed', study_id))), err.message);
 err = expect_error(@() __kinloop__('model_joint_count', model_id), 'kinloop:bad_handle');
 assert(~isempty(strfind(err.message, sprintf('model %d has been freed', model_id))), err.message);
-expect_error(@() __kinloop__('study_run', model_id, 0, 1), 'kinloop:bad_handle');
+expect_error(@() __kinloop__('study_run', model_id, 0, 1, 0), 'kinloop:bad_handle');

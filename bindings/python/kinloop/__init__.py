@@ -28,12 +28,12 @@ from .model import Model
 from .raw import MissingFunctionError
 from .solver import Solver
 from .study import Study
-from .values import StudyRun, SweepResult
+from .values import SweepResult
 
 __version__ = "%d.%d.%d" % raw.VERSION
 library_path = raw.library_path
 library_version = raw.library_version
 
 __all__ = sorted(set(_api.__all__ + _header.__all__ + [
-    "KinloopError", "MissingFunctionError", "Model", "Solver", "Study", "StudyRun",
-    "SweepResult", "library_path", "library_version"]))
+    "KinloopError", "MissingFunctionError", "Model", "Solver", "Study", "SweepResult",
+    "library_path", "library_version"]))

@@ -63,11 +63,12 @@ def to_size(value, function, argument):
     return _integer(value, "size_t", function, argument)
 
 
-def to_array_size(value, function, argument):
-    """A whole number sizing an array the bindings make for the library to
-    fill: at most MAX_STEPS elements, else Status.ETOOLARGE, so a huge value
-    is refused before any memory is asked for."""
-    n = to_int(value, function, argument)
+def to_array_size(value, function, argument, ctype="int"):
+    """A whole number of the C type `ctype` sizing an array the bindings
+    make for the library to fill: at most MAX_STEPS elements, else
+    Status.ETOOLARGE, so a huge value is refused before any memory is asked
+    for."""
+    n = _integer(value, ctype, function, argument)
     if n > MAX_STEPS:
         raise KinloopError(Status.ETOOLARGE, "%s: %s %d is above KL_MAX_STEPS (%d), the most "
                            "elements the bindings make room for" % (function, argument, n,

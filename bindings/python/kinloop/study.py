@@ -6,14 +6,11 @@ the model view, runs and summaries by output name."""
 
 import weakref
 
-import numpy as np
-
 from . import _api
 from ._args import to_long
-from ._core import KinloopError, status_text
+from ._core import KinloopError
 from ._header import Status
 from .model import Model
-from .values import StudyRun
 
 
 class Study(_api.StudyMethods):
@@ -90,30 +87,18 @@ class Study(_api.StudyMethods):
     # ---- running and summarizing ----
 
     def run(self, first=0, count=None, threads=0):
-        """Runs samples first .. first + count - 1 (count None: to the last)
-        on `threads` threads (0: all the cores). Returns a StudyRun of numpy
-        arrays: values (count, outputs), status (count,), dims (count,
-        dimensions). A sample's numbers depend on the seed and its index
-        alone, whichever threads or runs compute it."""
-        h, total = self._handle, self.sample_count
-        first = to_long(first, "kl_study_run", "first")
-        count = total - first if count is None else to_long(count, "kl_study_run", "count")
-        # sized for a valid range: the library judges the range itself
-        rows = min(max(count, 0), total)
-        values = np.full((rows, self.output_count), np.nan)
-        status = np.zeros(rows, dtype=np.intc)
-        dims = np.full((rows, self.dimension_count), np.nan)
-        self._runs += 1
+        """StudyMethods.run with `count` None for every sample from `first`
+        on and `threads` 0 for all the cores: a StudyRun of numpy arrays,
+        values (count, outputs), sample_status (count,), dims (count,
+        dimensions). At most MAX_STEPS samples a call (split larger runs: a
+        sample's numbers depend on the seed and its index alone)."""
+        if count is None:
+            count = self.sample_count - to_long(first, "kl_study_run", "first")
+        self._runs += 1  # close() waits for no thread: it refuses meanwhile
         try:
-            st = _api.kl_study_run(h, first, count, threads, values.ctypes.data_as(_api.DOUBLES),
-                                   status.ctypes.data_as(_api.INTS),
-                                   dims.ctypes.data_as(_api.DOUBLES))
+            return super().run(first, count, threads)
         finally:
             self._runs -= 1
-        if st < 0:
-            raise KinloopError(st, "run(first=%d, count=%d): %s; the study has samples "
-                               "0 .. %d" % (first, count, status_text(st), total - 1))
-        return StudyRun(values, status, dims)
 
     def summarize(self, output, values, status):
         """kl_study_summarize: the StudySummary of `output` (its index or

@@ -1,10 +1,9 @@
 """The value types: one frozen dataclass per struct of the header, generated
 (kinloop._api: its fields, the library's defaults where it has a defaults
 function, its constructors per kind, its kl_<struct>_<verb> methods), and
-what the bindings add to them: what sweeps and study runs return."""
+what the bindings add to them: what sweeps return, a cycle table's row."""
 
 import dataclasses
-from typing import NamedTuple
 
 import numpy as np
 
@@ -62,13 +61,3 @@ def cycle_table_dtype(ninputs, njoints):
     return np.dtype([("input", np.float64), ("effort", np.float64, (ninputs,)),
                      ("joint", _FORCE_FIELDS, (njoints,)), ("ground", _FORCE_FIELDS),
                      ("kinetic_energy", np.float64), ("work", np.float64)])
-
-
-class StudyRun(NamedTuple):
-    """What Study.run computed, one row per sample (first .. first + count - 1):
-    values[i, k] is output k (NaN where the sample has none: it did not
-    assemble, or its motion stopped short of the output), status[i] its
-    SampleStatus code (numpy.intc), dims[i, d] the value dimension d took."""
-    values: np.ndarray
-    status: np.ndarray
-    dims: np.ndarray

@@ -125,17 +125,21 @@ def test_split_runs_give_the_same_samples(demo, demo_run):
         assert np.concatenate([part_a, part_b]).tobytes() == whole.tobytes()
     # count=None runs to the last sample
     tail = demo.run(1990)
-    assert len(tail.status) == 10
+    assert len(tail.sample_status) == 10
     assert tail.values.tobytes() == demo.run(1990, 10).values.tobytes()
 
 
 def test_run_range_errors(demo):
-    # kl_study_run: KL_EINVAL for a bad range
+    # kl_study_run: KL_EINVAL for a bad range, the call and its range named
     for first, count in ((0, 2001), (-1, 5), (1999, 2), (0, -1)):
         with pytest.raises(kl.KinloopError) as info:
             demo.run(first, count)
         assert info.value.status == kl.Status.EINVAL
-        assert "samples 0 .. 1999" in info.value.message
+        assert "run(%d, %d, 0)" % (first, count) in info.value.message
+    # more samples than the bindings make room for in one call
+    with pytest.raises(kl.KinloopError) as info:
+        demo.run(0, kl.MAX_STEPS + 1)
+    assert info.value.status == kl.Status.ETOOLARGE
     empty = demo.run(2000)
     assert empty.values.shape == (0, 4) and empty.dims.shape == (0, 9)
 
@@ -531,7 +535,7 @@ def test_a_study_cannot_be_closed_while_it_runs():
     with pytest.raises(RuntimeError):  # ctypes lets go of the GIL in the C call
         st.close()
     worker.join()
-    assert len(done) == 1 and len(done[0].status) == 400
+    assert len(done) == 1 and len(done[0].sample_status) == 400
     st.close()
 
 
