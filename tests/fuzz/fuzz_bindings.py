@@ -135,6 +135,8 @@ def main():
     a = parser.parse_args()
     seed = a.seed if a.seed is not None else random.randrange(2**32)
     rng = random.Random(seed)
+    # said first: a hang ends the run by faulthandler, before the last line
+    print("fuzz_bindings: seed %d" % seed, file=sys.stderr, flush=True)
     deadline = time.monotonic() + (a.seconds if a.seconds is not None else 1e9)
     limit = a.iterations if a.iterations is not None else (None if a.seconds else 2000)
     os.chdir(tempfile.mkdtemp(prefix="kinloop-fuzz-bindings-"))
