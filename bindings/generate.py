@@ -861,7 +861,7 @@ def py_output_array(a, handle):
     array ((count, 2) for x, y pairs, (count, columns) for a table; an int
     array as numpy.intc), structs as a ctypes array."""
     n, count = py_name(a.name), py_name(a.count)
-    if a.struct is None and a.kind == "array_out":
+    if a.struct is None and a.kind in ("array_out", "grown"):
         width = 2 if a.per == 2 else "lib.kl_%s_%s(self._handle)" % (handle, a.rows) \
             if a.rows else None
         shape = "(max(%s, 0), %s)" % (count, width) if width else "max(%s, 0)" % count
@@ -902,9 +902,7 @@ def py_method(b):
             call.append("ctypes.byref(%s)" % n)
             continue
         if a.kind == "grown":
-            cap = py_name(a.count)
-            late.append("%s = np.zeros(%s)" % (n, "(max(%s, 0), 2)" % cap if a.per == 2 else
-                                                 "max(%s, 0), dtype=np.intc" % cap))
+            late += py_output_array(a, b.handle)
             call.append("%s.ctypes.data_as(%s)" % (n, PY_POINTERS[a.ctype]))
             got = "%s[:%s.%s]" % (n, next(x.name for x in b.args if x.kind == "struct_out"),
                                   a.field)
